@@ -1,0 +1,25 @@
+import { z } from 'zod';
+
+/** Site roles. One person holds at most one role on a site; administrators are global. */
+export const siteRoles = ['supervisor', 'coordinator', 'operator'] as const;
+export const siteRoleSchema = z.enum(siteRoles);
+export type SiteRole = z.infer<typeof siteRoleSchema>;
+
+export const roleLabels: Record<SiteRole, string> = {
+  supervisor: 'Site supervisor',
+  coordinator: 'Temporary works coordinator',
+  operator: 'Plant operator',
+};
+
+export const idSchema = z.coerce.number().int().positive();
+export const emailSchema = z.email('must be an e-mail address').max(254).transform((s) => s.trim().toLowerCase());
+export const passwordSchema = z
+  .string()
+  .min(10, 'must be at least 10 characters')
+  .max(200, 'must be at most 200 characters');
+export const nameSchema = z.string().trim().min(1, 'is required').max(120, 'must be at most 120 characters');
+
+/** The JSON body of every error answer of the API. */
+export interface ApiErrorBody {
+  error: { code: string; message: string; fields?: Record<string, string> };
+}
