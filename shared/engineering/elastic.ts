@@ -56,63 +56,75 @@ export function elasticStrip(q: number, offset: number, width: number, H: number
   };
 }
 
-/** NAVFAC line-load coefficients: Δσh = (Q/H)·c·n/(a + n²)². */
-function lineCoefficients(m: number): [c: number, a: number] {
-  return m <= 0.4 ? [0.2, 0.16] : [1.28 * m * m, m * m];
+/**
+ * The two NAVFAC forms share one shape: Δσh = (r/2)·(F/H^h)·c·n^k/(a + n²)^j with c, a = 0.20 or
+ * 0.28, 0.16 when m ≤ 0.4 and c = cFar·m², a = m² beyond; the line load has h = 1, k = 1, j = 2 and
+ * the point load h = 2, k = 2, j = 3.
+ */
+interface NavfacForm {
+  near: number;
+  far: number;
+  h: 1 | 2;
+  k: 1 | 2;
+  j: 2 | 3;
+}
+const LINE_FORM: NavfacForm = { near: 0.2, far: 1.28, h: 1, k: 1, j: 2 };
+const POINT_FORM: NavfacForm = { near: 0.28, far: 1.77, h: 2, k: 2, j: 3 };
+
+function navfacCoefficients(form: NavfacForm, m: number): [c: number, a: number] {
+  return m <= 0.4 ? [form.near, 0.16] : [form.far * m * m, m * m];
+}
+
+function navfacPressure(form: NavfacForm, F: number, offset: number, H: number, z: number, r: number): number {
+  const [c, a] = navfacCoefficients(form, offset / H);
+  const n = z / H;
+  const den = a + n * n;
+  return (r / 2) * (F / H ** form.h) * ((c * n ** form.k) / den ** form.j);
 }
 
 export function navfacLinePressure(Q: number, offset: number, H: number, z: number, r: number): number {
-  const [c, a] = lineCoefficients(offset / H);
-  const n = z / H;
-  const den = a + n * n;
-  return (r / 2) * (Q / H) * ((c * n) / (den * den));
+  return navfacPressure(LINE_FORM, Q, offset, H, z, r);
 }
 
-export function navfacLine(Q: number, offset: number, H: number, r: number): SurchargeEffect {
-  const [c, a] = lineCoefficients(offset / H);
-  // ∫0..1 n/(a+n²)² dn and ∫0..1 n²/(a+n²)² dn
-  const i1 = 0.5 * (1 / a - 1 / (a + 1));
-  const sa = Math.sqrt(a);
-  const i2 = Math.atan(1 / sa) / (2 * sa) - 1 / (2 * (a + 1));
-  const k = (r / 2) * Q * c;
+export function navfacPointPressure(P: number, offset: number, H: number, z: number, r: number): number {
+  return navfacPressure(POINT_FORM, P, offset, H, z, r);
+}
+
+/** Effect with force (r/2)·F·c·∫f dn / H^(h−1) and moment (r/2)·F·c·∫f·(1 − n) dn · H^(2−h). */
+function navfacEffect(form: NavfacForm, F: number, offset: number, H: number, r: number, integrals: (a: number) => [number, number]): SurchargeEffect {
+  const [c, a] = navfacCoefficients(form, offset / H);
+  const [i0, i1] = integrals(a);
+  const k = (r / 2) * F * c;
   return {
-    force: k * i1,
-    moment: k * H * (i1 - i2),
+    force: (k * i0) / H ** (form.h - 1),
+    moment: k * (i0 - i1) * H ** (2 - form.h),
     top: 0,
     bottom: H,
-    pressureAt: (z) => navfacLinePressure(Q, offset, H, z, r),
+    pressureAt: (z) => navfacPressure(form, F, offset, H, z, r),
     edges: NO_EDGES,
   };
 }
 
-/** NAVFAC point-load coefficients: Δσh = (P/H²)·c·n²/(a + n²)³. */
-function pointCoefficients(m: number): [c: number, a: number] {
-  return m <= 0.4 ? [0.28, 0.16] : [1.77 * m * m, m * m];
+/** ∫0..1 n/(a+n²)² dn and ∫0..1 n²/(a+n²)² dn. */
+function lineIntegrals(a: number): [number, number] {
+  const sa = Math.sqrt(a);
+  return [0.5 * (1 / a - 1 / (a + 1)), Math.atan(1 / sa) / (2 * sa) - 1 / (2 * (a + 1))];
 }
 
-export function navfacPointPressure(P: number, offset: number, H: number, z: number, r: number): number {
-  const [c, a] = pointCoefficients(offset / H);
-  const n = z / H;
-  const den = a + n * n;
-  return (r / 2) * (P / (H * H)) * ((c * n * n) / (den * den * den));
-}
-
-export function navfacPoint(P: number, offset: number, H: number, r: number): SurchargeEffect {
-  const [c, a] = pointCoefficients(offset / H);
-  // I_k = ∫0..1 (a + n²)^-k dn by the usual reduction formula.
+/** ∫0..1 n²/(a+n²)³ dn and ∫0..1 n³/(a+n²)³ dn, via I_k = ∫0..1 (a + n²)^-k dn and its reduction formula. */
+function pointIntegrals(a: number): [number, number] {
   const sa = Math.sqrt(a);
   const I1 = Math.atan(1 / sa) / sa;
   const I2 = 1 / (2 * a * (a + 1)) + I1 / (2 * a);
   const I3 = 1 / (4 * a * (a + 1) * (a + 1)) + (3 / (4 * a)) * I2;
-  const k2 = I2 - a * I3; // ∫0..1 n²/(a+n²)³ dn
-  const k3 = 0.5 * (1 / a - 1 / (a + 1) - (a / 2) * (1 / (a * a) - 1 / ((a + 1) * (a + 1)))); // ∫0..1 n³/(a+n²)³ dn
-  const k = (r / 2) * P * c;
-  return {
-    force: (k / H) * k2,
-    moment: k * (k2 - k3),
-    top: 0,
-    bottom: H,
-    pressureAt: (z) => navfacPointPressure(P, offset, H, z, r),
-    edges: NO_EDGES,
-  };
+  const k3 = 0.5 * (1 / a - 1 / (a + 1) - (a / 2) * (1 / (a * a) - 1 / ((a + 1) * (a + 1))));
+  return [I2 - a * I3, k3];
+}
+
+export function navfacLine(Q: number, offset: number, H: number, r: number): SurchargeEffect {
+  return navfacEffect(LINE_FORM, Q, offset, H, r, lineIntegrals);
+}
+
+export function navfacPoint(P: number, offset: number, H: number, r: number): SurchargeEffect {
+  return navfacEffect(POINT_FORM, P, offset, H, r, pointIntegrals);
 }
