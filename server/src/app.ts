@@ -10,6 +10,7 @@ import type { Deps } from './deps';
 import { Api, errorHandler, HttpError } from './http';
 import { registerAuthRoutes } from './routes/auth';
 import { registerPeopleRoutes } from './routes/people';
+import { registerPlantRoutes } from './routes/plant';
 import { registerSiteRoutes } from './routes/sites';
 import { registerSystemRoutes } from './routes/system';
 import { registerUploadRoutes } from './routes/uploads';
@@ -91,6 +92,7 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerPeopleRoutes(api);
   registerSiteRoutes(api);
   registerUploadRoutes(api);
+  registerPlantRoutes(api);
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
 

@@ -41,6 +41,12 @@ export const matrix: Record<string, Row> = {
   'POST /api/sites': { allow: ['admin'], body: {} },
   'PATCH /api/sites/:siteId': { allow: ['admin'], body: { name: '' } },
   'GET /api/uploads/:id': { allow: ['admin', ...siteMembers] },
+  // The plant library is shared by all sites: everyone signed in reads it; administrators and
+  // coordinators (of any site, so the outsider too) keep it.
+  'GET /api/plant': { allow: signedInPeople },
+  'POST /api/plant': { allow: ['admin', 'coordinator', 'outsider'], body: {} },
+  'PATCH /api/plant/:id': { allow: ['admin', 'coordinator', 'outsider'], body: {} },
+  'DELETE /api/plant/:id': { allow: ['admin', 'coordinator', 'outsider'] },
 };
 
 let t: TestApp;
