@@ -14,6 +14,7 @@ import { registerPlantRoutes } from './routes/plant';
 import { registerSiteRoutes } from './routes/sites';
 import { registerSystemRoutes } from './routes/system';
 import { registerUploadRoutes } from './routes/uploads';
+import { registerPermitRoutes } from './routes/permits';
 
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../dist/client');
 
@@ -92,6 +93,7 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerPeopleRoutes(api);
   registerSiteRoutes(api);
   registerUploadRoutes(api);
+  registerPermitRoutes(api);
   registerPlantRoutes(api);
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
