@@ -1,7 +1,8 @@
-import { useId, useState } from 'react';
+import { useId } from 'react';
 import { siteRoleSchema, type SiteRole } from '@shared/schemas/common';
 import type { Person, Site } from '@shared/schemas/sites';
 import { Button } from '@client/components/Button';
+import { ConfirmAction } from '@client/components/ConfirmAction';
 import { FormSummary } from '@client/components/Fields';
 import { errorMessage } from '@client/lib/api';
 import { useRemoveMembership, useSetMembership, useUpdatePerson } from '../api/people';
@@ -23,12 +24,11 @@ export function PersonCard({ person, sites, isMe }: PersonCardProps) {
   const update = useUpdatePerson(person.id);
   const setMembership = useSetMembership(person.id);
   const removeMembership = useRemoveMembership(person.id);
-  const [confirmDeactivate, setConfirmDeactivate] = useState(false);
   const failed = [update, setMembership, removeMembership].find((m) => m.isError);
   const headingId = `person-${person.id}`;
 
   return (
-    <article aria-labelledby={headingId} className={`rounded-lg border border-rule bg-sheet p-5 shadow-sm ${person.active ? '' : 'opacity-80'}`}>
+    <article aria-labelledby={headingId} className={`rounded-lg border border-rule bg-sheet p-5 shadow-sm ${person.active ? '' : 'border-dashed border-rule-strong'}`}>
       <div className="flex flex-wrap items-start justify-between gap-3">
         <div className="min-w-0">
           <h3 id={headingId} className="text-lg font-bold">
@@ -59,7 +59,7 @@ export function PersonCard({ person, sites, isMe }: PersonCardProps) {
               membership={m}
               busy={setMembership.isPending || removeMembership.isPending}
               onChange={(role, canInspect) => setMembership.mutate({ siteId: m.siteId, role, canInspect })}
-              onRemove={() => removeMembership.mutate(m.siteId)}
+              onRemove={() => removeMembership.mutateAsync(m.siteId).catch(() => undefined)}
             />
           ))}
         </ul>
@@ -73,28 +73,34 @@ export function PersonCard({ person, sites, isMe }: PersonCardProps) {
 
       {isMe ? null : (
         <div className="mt-5 flex flex-wrap gap-3 border-t border-rule pt-4">
-          {person.active && confirmDeactivate ? (
-            <>
-              <p className="basis-full">Deactivate {person.name}? They are signed out and can no longer sign in. Their records stay.</p>
-              <Button busy={update.isPending} busyText="Deactivating…" onClick={() => update.mutate({ active: false }, { onSettled: () => setConfirmDeactivate(false) })}>
-                Yes, deactivate
-              </Button>
-              <Button variant="secondary" onClick={() => setConfirmDeactivate(false)}>
-                Keep active
-              </Button>
-            </>
-          ) : person.active ? (
-            <Button variant="secondary" onClick={() => setConfirmDeactivate(true)}>
-              Deactivate…
-            </Button>
+          {person.active ? (
+            <ConfirmAction
+              label="Deactivate…"
+              ariaLabel={`Deactivate ${person.name}`}
+              question={`Deactivate ${person.name}? They are signed out and can no longer sign in. Their records stay.`}
+              confirmLabel="Yes, deactivate"
+              cancelLabel="Keep active"
+              busy={update.isPending}
+              onConfirm={() => update.mutateAsync({ active: false }).catch(() => undefined)}
+            />
           ) : (
             <Button variant="secondary" busy={update.isPending} busyText="Reactivating…" onClick={() => update.mutate({ active: true })}>
               Reactivate
             </Button>
           )}
-          <Button variant="quiet" busy={update.isPending} onClick={() => update.mutate({ isAdmin: !person.isAdmin })}>
-            {person.isAdmin ? 'Remove administrator' : 'Make administrator'}
-          </Button>
+          <ConfirmAction
+            variant="quiet"
+            label={person.isAdmin ? 'Remove administrator…' : 'Make administrator…'}
+            ariaLabel={person.isAdmin ? `Remove administrator rights from ${person.name}` : `Make ${person.name} an administrator`}
+            question={
+              person.isAdmin
+                ? `Take ${person.name}'s administrator rights away? Their roles on sites stay.`
+                : `Make ${person.name} an administrator? They will manage people, invitations and every site.`
+            }
+            confirmLabel={person.isAdmin ? 'Yes, remove' : 'Yes, make administrator'}
+            busy={update.isPending}
+            onConfirm={() => update.mutateAsync({ isAdmin: !person.isAdmin }).catch(() => undefined)}
+          />
         </div>
       )}
     </article>
@@ -106,11 +112,10 @@ interface MembershipRowProps {
   membership: Person['memberships'][number];
   busy: boolean;
   onChange: (role: SiteRole, canInspect: boolean) => void;
-  onRemove: () => void;
+  onRemove: () => Promise<unknown>;
 }
 
 function MembershipRow({ personName, membership: m, busy, onChange, onRemove }: MembershipRowProps) {
-  const [confirmRemove, setConfirmRemove] = useState(false);
   const roleId = useId();
   return (
     <li className="flex flex-wrap items-center gap-x-4 gap-y-2 py-3">
@@ -135,20 +140,15 @@ function MembershipRow({ personName, membership: m, busy, onChange, onRemove }: 
         <input type="checkbox" className="size-6 accent-accent" checked={m.canInspect} disabled={busy} onChange={(e) => onChange(m.role, e.target.checked)} />
         Inspects excavations
       </label>
-      {confirmRemove ? (
-        <span className="flex flex-wrap gap-2">
-          <Button variant="secondary" disabled={busy} onClick={onRemove} aria-label={`Yes, take ${personName} off ${m.siteName}`}>
-            Yes, take off
-          </Button>
-          <Button variant="quiet" onClick={() => setConfirmRemove(false)}>
-            Cancel
-          </Button>
-        </span>
-      ) : (
-        <Button variant="quiet" onClick={() => setConfirmRemove(true)} aria-label={`Take ${personName} off ${m.siteName}`}>
-          Take off site
-        </Button>
-      )}
+      <ConfirmAction
+        variant="quiet"
+        label="Take off site…"
+        ariaLabel={`Take ${personName} off ${m.siteName}`}
+        question={`Take ${personName} off ${m.siteName}? They lose their role there and no longer see the site.`}
+        confirmLabel="Yes, take off"
+        busy={busy}
+        onConfirm={onRemove}
+      />
     </li>
   );
 }
