@@ -1,6 +1,6 @@
 import { defineConfig } from 'vitest/config';
 import react from '@vitejs/plugin-react';
-import { alias } from './vite.config';
+import { alias } from './vite.config.ts';
 
 // Unit tests (shared/, client/) and API tests (server/, against the real database that
 // docker-less-scripts/test.sh starts and names in DATABASE_URL).

@@ -1,0 +1,203 @@
+import { Kysely, PostgresDialect, type ColumnType, type Generated } from 'kysely';
+import pg from 'pg';
+
+/**
+ * The typed shape of Brink's PostgreSQL database. Each migration in db/migrations adds tables here.
+ * Timestamps are `timestamptz`; ids are identity integers.
+ */
+export type Timestamp = ColumnType<Date, Date | string, Date | string>;
+/** A timestamp the database fills in (defaults to now()). */
+export type CreatedAt = ColumnType<Date, Date | string | undefined, Date | string>;
+
+export interface UsersTable {
+  id: Generated<number>;
+  email: string;
+  name: string;
+  password_hash: string | null;
+  is_admin: Generated<boolean>;
+  active: Generated<boolean>;
+  created_at: CreatedAt;
+}
+
+export interface SitesTable {
+  id: Generated<number>;
+  name: string;
+  latitude: number;
+  longitude: number;
+  timezone: Generated<string>;
+  minimum_clearance: Generated<number>;
+  default_method: Generated<string>;
+  created_at: CreatedAt;
+  /** The site plan image pinned to the map, and its corners as { south, west, north, east } in degrees. */
+  plan_upload_id: number | null;
+  plan_bounds: Json<{ south: number; west: number; north: number; east: number }> | null;
+  plan_opacity: Generated<number>;
+}
+
+export interface SiteMembersTable {
+  site_id: number;
+  user_id: number;
+  role: 'supervisor' | 'coordinator' | 'operator';
+  can_inspect: Generated<boolean>;
+}
+
+export interface InvitationsTable {
+  id: Generated<number>;
+  email: string;
+  name: string;
+  is_admin: Generated<boolean>;
+  site_id: number | null;
+  role: 'supervisor' | 'coordinator' | 'operator' | null;
+  token_hash: string;
+  invited_by: number | null;
+  expires_at: Timestamp;
+  used_at: Timestamp | null;
+  created_at: CreatedAt;
+}
+
+export interface PasswordResetsTable {
+  id: Generated<number>;
+  user_id: number;
+  token_hash: string;
+  expires_at: Timestamp;
+  used_at: Timestamp | null;
+  created_at: CreatedAt;
+}
+
+export interface AuditLogTable {
+  id: Generated<number>;
+  at: CreatedAt;
+  actor_id: number | null;
+  site_id: number | null;
+  entity: string;
+  entity_id: string | null;
+  action: string;
+  detail: ColumnType<unknown, string | undefined, never>;
+}
+
+export interface CaughtMailTable {
+  id: Generated<number>;
+  received_at: CreatedAt;
+  mail_from: string;
+  mail_to: string;
+  subject: string;
+  text: string;
+  html: string | null;
+}
+
+export interface SessionTable {
+  sid: string;
+  sess: unknown;
+  expire: Timestamp;
+}
+
+/** A jsonb column: objects go in as JSON text (Kysely passes strings through) and come out parsed. */
+export type Json<T> = ColumnType<T, string, string>;
+
+export interface UploadsTable {
+  id: Generated<number>;
+  site_id: number | null;
+  /** What the file is for: 'drawing', 'site-plan', 'photo', 'attachment', … */
+  purpose: string;
+  original_name: string;
+  /** The type found from the file's content, never from its name. */
+  mime: string;
+  size: number;
+  /** Path relative to UPLOAD_DIR. */
+  storage_key: string;
+  uploaded_by: number | null;
+  created_at: CreatedAt;
+}
+
+export type ExcavationState = 'planned' | 'open' | 'backfilled';
+
+export interface ExcavationsTable {
+  id: Generated<number>;
+  site_id: number;
+  reference: string;
+  name: string;
+  kind: 'trench' | 'pit';
+  /** GeoJSON geometry in WGS84: a LineString (trench centre line) or a Polygon (pit outline). */
+  geometry: Json<GeoJSONGeometry>;
+  /** Trench width in metres (null for a pit). */
+  width: number | null;
+  depth: number;
+  state: Generated<ExcavationState>;
+  /** 'trench-box' | 'hydraulic-frames' | 'sheet-piles' | 'timbering' | 'battered' | 'unsupported' */
+  support_type: string;
+  design_surcharge: Generated<number>;
+  rated_pressure: number | null;
+  restraint: Generated<'unyielding' | 'yielding'>;
+  pressure_state: Generated<'active' | 'at-rest'>;
+  wall_friction: Generated<number>;
+  /** Soil layers, as in the calculation request (`soil`). */
+  soil: Json<unknown[]>;
+  groundwater_depth: number | null;
+  design_reference: Generated<string>;
+  drawing_upload_id: number | null;
+  notes: Generated<string>;
+  version: Generated<number>;
+  created_by: number | null;
+  created_at: CreatedAt;
+  updated_at: CreatedAt;
+}
+
+export interface PlantElement {
+  name: string;
+  kind: 'track' | 'pad' | 'wheel';
+  /** Centre of the rectangle relative to the machine's origin, metres; x forward, y to the left. */
+  x: number;
+  y: number;
+  /** Extent along x and along y, metres. */
+  length: number;
+  width: number;
+  /** Share of the machine's weight carried by this element (all shares add to 1). */
+  share: number;
+}
+
+export interface PlantItemsTable {
+  id: Generated<number>;
+  name: string;
+  category: string;
+  /** Operating mass in tonnes. */
+  operating_mass: number;
+  elements: Json<PlantElement[]>;
+  design_factor: Generated<number>;
+  notes: Generated<string>;
+  version: Generated<number>;
+  created_at: CreatedAt;
+  updated_at: CreatedAt;
+}
+
+export interface GeoJSONGeometry {
+  type: string;
+  coordinates: unknown;
+}
+
+export interface Database {
+  users: UsersTable;
+  sites: SitesTable;
+  site_members: SiteMembersTable;
+  invitations: InvitationsTable;
+  password_resets: PasswordResetsTable;
+  audit_log: AuditLogTable;
+  caught_mail: CaughtMailTable;
+  session: SessionTable;
+  uploads: UploadsTable;
+  excavations: ExcavationsTable;
+  plant_items: PlantItemsTable;
+}
+
+export type Db = Kysely<Database>;
+
+// Return numeric and bigint columns as JS numbers (our figures fit comfortably).
+pg.types.setTypeParser(pg.types.builtins.NUMERIC, (v) => Number(v));
+pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number(v));
+
+export function createPool(connectionString: string, max = 10): pg.Pool {
+  return new pg.Pool({ connectionString, max });
+}
+
+export function createDb(pool: pg.Pool): Db {
+  return new Kysely<Database>({ dialect: new PostgresDialect({ pool }) });
+}

@@ -1,0 +1,12 @@
+import type { Migration } from 'kysely';
+import * as m0001 from './0001_foundation';
+import * as m0002 from './0002_excavations_plant_uploads';
+
+/**
+ * Every migration, in order. Listed here (not read from the folder) so that the same code runs
+ * under tsx, vitest and a bundler. A new migration: a new file `NNNN_name.ts` and a line below.
+ */
+export const migrations: Record<string, Migration> = {
+  '0001_foundation': m0001,
+  '0002_excavations_plant_uploads': m0002,
+};

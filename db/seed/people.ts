@@ -1,0 +1,50 @@
+import bcrypt from 'bcryptjs';
+import type { Db } from '../database';
+
+/** The password of every demo person: printed by `npm start` and listed in the README. */
+export const DEMO_PASSWORD = 'brink-demo-2026';
+
+export const demoPeople = [
+  { email: 'admin@demo.brink.test', name: 'Ada Marsh (demo administrator)', isAdmin: true, role: null },
+  { email: 'coordinator@demo.brink.test', name: 'Colm Ridley (demo coordinator)', isAdmin: false, role: 'coordinator' },
+  { email: 'supervisor@demo.brink.test', name: 'Sana Whitlock (demo supervisor)', isAdmin: false, role: 'supervisor' },
+  { email: 'operator@demo.brink.test', name: 'Owen Petts (demo operator)', isAdmin: false, role: 'operator' },
+] as const;
+
+export interface DemoContext {
+  siteId: number;
+  people: Record<'admin' | 'coordinator' | 'supervisor' | 'operator', number>;
+}
+
+/** The invented demo site and its people, one for each role. */
+export async function seedSiteAndPeople(db: Db): Promise<DemoContext> {
+  const site = await db
+    .insertInto('sites')
+    .values({
+      name: 'Alder Marsh pumping station',
+      latitude: 52.37124,
+      longitude: -1.04833,
+      timezone: 'Europe/London',
+      minimum_clearance: 0.6,
+      default_method: 'dispersion-45',
+    })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  const hash = await bcrypt.hash(DEMO_PASSWORD, 10);
+  const people = {} as DemoContext['people'];
+  for (const p of demoPeople) {
+    const u = await db
+      .insertInto('users')
+      .values({ email: p.email, name: p.name, password_hash: hash, is_admin: p.isAdmin })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    people[p.email.split('@')[0] as keyof DemoContext['people']] = u.id;
+    if (p.role) {
+      await db
+        .insertInto('site_members')
+        .values({ site_id: site.id, user_id: u.id, role: p.role, can_inspect: p.role !== 'operator' })
+        .execute();
+    }
+  }
+  return { siteId: site.id, people };
+}

@@ -1,0 +1,109 @@
+#!/usr/bin/env bash
+# Shared steps of start.sh, test.sh and dev.sh: install what is missing, run PostgreSQL on loopback.
+# Sourced, not run. Everything here works as root (as on CI) and as an ordinary user.
+set -euo pipefail
+
+ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+cd "$ROOT"
+
+say() { printf '\033[1m[brink]\033[0m %s\n' "$*"; }
+
+as_root() { if [ "$(id -u)" = 0 ]; then "$@"; else sudo "$@"; fi; }
+
+apt_install() {
+  say "installing Debian packages: $*"
+  export DEBIAN_FRONTEND=noninteractive
+  if [ -z "${BRINK_APT_UPDATED:-}" ]; then as_root apt-get update -qq; BRINK_APT_UPDATED=1; fi
+  as_root apt-get install -y -qq --no-install-recommends "$@" >/dev/null
+}
+
+# npm packages: `npm ci` when node_modules is missing or older than the lock file.
+ensure_node_modules() {
+  if [ ! -d node_modules ] || [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+    say "installing npm packages (npm ci)"
+    npm ci --no-audit --no-fund --loglevel=error
+  fi
+}
+
+# Finds PostgreSQL's server programs (Debian keeps them off PATH), installing them when absent.
+find_pg_bin() {
+  local d
+  if command -v initdb >/dev/null 2>&1 && command -v pg_ctl >/dev/null 2>&1; then
+    dirname "$(readlink -f "$(command -v pg_ctl)")"; return
+  fi
+  for d in $(ls -d /usr/lib/postgresql/*/bin 2>/dev/null | sort -V -r); do
+    if [ -x "$d/initdb" ] && [ -x "$d/pg_ctl" ]; then echo "$d"; return; fi
+  done
+  return 1
+}
+
+ensure_postgres() {
+  if ! PG_BIN="$(find_pg_bin)"; then
+    apt_install postgresql
+    PG_BIN="$(find_pg_bin)" || { echo "PostgreSQL could not be installed" >&2; exit 1; }
+  fi
+  export PG_BIN
+}
+
+ensure_chromium() {
+  if [ ! -x /usr/bin/chromium ]; then apt_install chromium fonts-dejavu-core; fi
+}
+
+# Runs a PostgreSQL program as the owner of the cluster (PostgreSQL refuses to run as root).
+pg_run() {
+  if [ "$(id -u)" = 0 ]; then runuser -u postgres -- "$@"; else "$@"; fi
+}
+
+free_port() {
+  node -e 'const s=require("net").createServer();s.listen(0,"127.0.0.1",()=>{console.log(s.address().port);s.close()})'
+}
+
+port_is_free() {
+  node -e 'const s=require("net").createServer();s.once("error",()=>process.exit(1));s.listen(Number(process.argv[1]),"127.0.0.1",()=>s.close(()=>process.exit(0)))' "$1"
+}
+
+# init_cluster DIR: a new cluster owned by the user who will run it, with a random password for
+# the `brink` role, kept in DIR/../pg-password (readable only by us).
+init_cluster() {
+  local dir="$1" pwfile="$2"
+  mkdir -p "$dir"
+  if [ ! -f "$pwfile" ]; then
+    node -e 'console.log(require("crypto").randomBytes(18).toString("hex"))' >"$pwfile"
+    chmod 600 "$pwfile"
+  fi
+  if [ ! -f "$dir/PG_VERSION" ]; then
+    say "creating a PostgreSQL cluster in $dir"
+    local tmppw; tmppw="$(mktemp)"; cp "$pwfile" "$tmppw"
+    if [ "$(id -u)" = 0 ]; then
+      id postgres >/dev/null 2>&1 || useradd --system --home /var/lib/postgresql --shell /bin/bash postgres
+      chown -R postgres:postgres "$dir" "$tmppw"
+      # the cluster's owner must be able to reach the folder
+      chmod o+x "$(dirname "$dir")"
+    fi
+    pg_run "$PG_BIN/initdb" -D "$dir" -U brink --pwfile="$tmppw" --auth-host=scram-sha-256 --auth-local=scram-sha-256 \
+      -E UTF8 --no-locale >/dev/null
+    rm -f "$tmppw"
+  fi
+}
+
+# start_cluster DIR PORT: PostgreSQL on 127.0.0.1:PORT only, its socket kept inside DIR.
+start_cluster() {
+  local dir="$1" port="$2"
+  pg_run "$PG_BIN/pg_ctl" -D "$dir" -l "$dir/server.log" -w -t 60 \
+    -o "-p $port -c listen_addresses=127.0.0.1 -k $dir -c max_connections=100 -c fsync=${PG_FSYNC:-on}" start >/dev/null
+}
+
+stop_cluster() {
+  local dir="$1"
+  if [ -f "$dir/postmaster.pid" ]; then pg_run "$PG_BIN/pg_ctl" -D "$dir" -m fast -w stop >/dev/null 2>&1 || true; fi
+}
+
+# create_database URL_BASE NAME: creates the database when it does not exist.
+ensure_database() {
+  local port="$1" pw="$2" name="$3"
+  PGPASSWORD="$pw" node -e '
+    const pg=require("pg");
+    const c=new pg.Client({host:"127.0.0.1",port:+process.argv[1],user:"brink",database:"postgres",password:process.env.PGPASSWORD});
+    (async()=>{await c.connect();const r=await c.query("select 1 from pg_database where datname=$1",[process.argv[2]]);
+    if(!r.rowCount){await c.query(`create database "${process.argv[2]}"`);}await c.end();})().catch(e=>{console.error(e.message);process.exit(1)})' "$port" "$name"
+}

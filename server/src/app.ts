@@ -1,0 +1,118 @@
+import path from 'node:path';
+import { existsSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import express, { type Express } from 'express';
+import session from 'express-session';
+import connectPgSimple from 'connect-pg-simple';
+import helmet from 'helmet';
+import pg from 'pg';
+import type { Deps } from './deps';
+import { Api, errorHandler, HttpError } from './http';
+import { registerAuthRoutes } from './routes/auth';
+import { registerPeopleRoutes } from './routes/people';
+import { registerSiteRoutes } from './routes/sites';
+import { registerSystemRoutes } from './routes/system';
+import { registerUploadRoutes } from './routes/uploads';
+
+const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../dist/client');
+
+/** Builds the Express app (API and the built client) without listening: tests drive it directly. */
+export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boolean } = {}): Express {
+  const { config, db } = deps;
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+
+  const tileOrigin = config.mapTileUrl ? safeOrigin(config.mapTileUrl) : null;
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:', 'blob:', ...(tileOrigin ? [tileOrigin] : [])],
+          fontSrc: ["'self'"],
+          connectSrc: ["'self'"],
+          workerSrc: ["'self'"],
+          manifestSrc: ["'self'"],
+          objectSrc: ["'none'"],
+          frameAncestors: ["'none'"],
+          baseUri: ["'self'"],
+          formAction: ["'self'"],
+        },
+      },
+      crossOriginEmbedderPolicy: false,
+    }),
+  );
+
+  if (opts.log ?? config.env !== 'test') {
+    app.use((req, res, next) => {
+      const t0 = process.hrtime.bigint();
+      res.on('finish', () => {
+        if (!req.originalUrl.startsWith('/api')) return;
+        const ms = Number(process.hrtime.bigint() - t0) / 1e6;
+        console.log(`${new Date().toISOString()} ${req.method} ${req.originalUrl.split('?')[0]} ${res.statusCode} ${ms.toFixed(1)} ms`);
+      });
+      next();
+    });
+  }
+
+  const PgStore = connectPgSimple(session);
+  const sessionPool = opts.sessionPool ?? new pg.Pool({ connectionString: config.databaseUrl, max: 4 });
+  app.use(
+    '/api',
+    session({
+      name: 'brink.sid',
+      store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
+      secret: config.sessionSecret,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 12 * 3600_000, path: '/' },
+    }),
+  );
+  app.use('/api', express.json({ limit: '2mb' }));
+  // Who is signed in: the session holds only the id; the person is read fresh on every request,
+  // so a deactivated account stops at once.
+  app.use('/api', async (req, _res, next) => {
+    const id = req.session?.userId;
+    if (id) {
+      const u = await db.selectFrom('users').select(['id', 'email', 'name', 'is_admin', 'active']).where('id', '=', id).executeTakeFirst();
+      if (u && u.active) req.user = { id: u.id, email: u.email, name: u.name, isAdmin: u.is_admin };
+    }
+    next();
+  });
+
+  const api = new Api(deps);
+  registerSystemRoutes(api);
+  registerAuthRoutes(api);
+  registerPeopleRoutes(api);
+  registerSiteRoutes(api);
+  registerUploadRoutes(api);
+  app.use('/api', api.router);
+  app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
+
+  if (existsSync(clientDir)) {
+    app.use(express.static(clientDir, { index: false, maxAge: '1h', setHeaders: noCacheForShell }));
+    app.get(/^(?!\/api\/).*/, (_req, res) => {
+      res.setHeader('Cache-Control', 'no-cache');
+      res.sendFile(path.join(clientDir, 'index.html'));
+    });
+  }
+  app.use(errorHandler);
+  return app;
+}
+
+function noCacheForShell(res: express.Response, file: string): void {
+  if (!file.includes(`${path.sep}assets${path.sep}`)) res.setHeader('Cache-Control', 'no-cache');
+}
+
+function safeOrigin(url: string): string | null {
+  try {
+    return new URL(url.replace(/\{[a-z]\}/g, 'a')).origin;
+  } catch {
+    return null;
+  }
+}

@@ -1,0 +1,68 @@
+import { z } from 'zod';
+
+const onOff = z
+  .string()
+  .optional()
+  .transform((v) => v === undefined || v === '' ? undefined : !['0', 'off', 'false', 'no'].includes(v.toLowerCase()));
+
+const envSchema = z.object({
+  NODE_ENV: z.string().default('development'),
+  PORT: z.coerce.number().int().min(1).max(65535).default(3000),
+  PUBLIC_URL: z.string().optional(),
+  DATABASE_URL: z.string().min(1, 'DATABASE_URL is required'),
+  SESSION_SECRET: z.string().min(8, 'SESSION_SECRET must be at least 8 characters'),
+  UPLOAD_DIR: z.string().optional(),
+  BRINK_DEMO: onOff,
+  SMTP_URL: z.string().optional(),
+  MAIL_FROM: z.string().default('Brink <no-reply@brink.invalid>'),
+  MAIL_CATCHER: onOff,
+  MAIL_CATCHER_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+  MAP_TILE_URL: z.string().optional(),
+  MAP_TILE_ATTRIBUTION: z.string().optional(),
+  SIGNIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(30),
+  SIGNIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(8),
+});
+
+export interface Config {
+  env: string;
+  port: number;
+  publicUrl: string;
+  databaseUrl: string;
+  sessionSecret: string;
+  uploadDir: string;
+  demo: boolean;
+  smtpUrl: string | null;
+  mailFrom: string;
+  mailCatcher: { enabled: boolean; port: number };
+  mapTileUrl: string | null;
+  mapTileAttribution: string;
+  signInLimitPerIp: number;
+  signInLimitPerAccount: number;
+}
+
+/** Reads the settings from the environment (see .env.example); throws naming each bad variable. */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const parsed = envSchema.safeParse(env);
+  if (!parsed.success) {
+    throw new Error(`bad settings: ${parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ')}`);
+  }
+  const e = parsed.data;
+  const catcher = e.MAIL_CATCHER ?? e.NODE_ENV !== 'production';
+  const empty = (s?: string) => (s && s.trim() ? s.trim() : null);
+  return {
+    env: e.NODE_ENV,
+    port: e.PORT,
+    publicUrl: (empty(e.PUBLIC_URL) ?? `http://localhost:${e.PORT}`).replace(/\/$/, ''),
+    databaseUrl: e.DATABASE_URL,
+    sessionSecret: e.SESSION_SECRET,
+    uploadDir: empty(e.UPLOAD_DIR) ?? '.data/uploads',
+    demo: e.BRINK_DEMO ?? false,
+    smtpUrl: empty(e.SMTP_URL) ?? (catcher ? `smtp://127.0.0.1:${e.MAIL_CATCHER_PORT}` : null),
+    mailFrom: e.MAIL_FROM,
+    mailCatcher: { enabled: catcher, port: e.MAIL_CATCHER_PORT },
+    mapTileUrl: empty(e.MAP_TILE_URL),
+    mapTileAttribution: e.MAP_TILE_ATTRIBUTION ?? '',
+    signInLimitPerIp: e.SIGNIN_LIMIT_PER_IP,
+    signInLimitPerAccount: e.SIGNIN_LIMIT_PER_ACCOUNT,
+  };
+}

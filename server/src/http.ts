@@ -1,0 +1,226 @@
+import express, { type NextFunction, type Request, type RequestHandler, type Response, type Router } from 'express';
+import { z, type ZodType } from 'zod';
+import type { SiteRole } from '@shared/schemas/common';
+import type { Deps } from './deps';
+
+/** An error with an HTTP status that the error handler turns into `{ error: { code, message, fields? } }`. */
+export class HttpError extends Error {
+  constructor(
+    public readonly status: number,
+    public readonly code: string,
+    message: string,
+    public readonly fields?: Record<string, string>,
+  ) {
+    super(message);
+  }
+}
+
+export const notFound = (what = 'That') => new HttpError(404, 'not_found', `${what} was not found.`);
+export const forbidden = (message = 'Your role does not allow this.') => new HttpError(403, 'forbidden', message);
+export const conflict = (message: string) => new HttpError(409, 'conflict', message);
+export const badRequest = (message: string, fields?: Record<string, string>) =>
+  new HttpError(400, 'invalid', message, fields);
+
+/** Turns zod issues into a field → reason map, paths written as `a.b[0].c`. */
+export function zodFields(error: z.ZodError): Record<string, string> {
+  const fields: Record<string, string> = {};
+  for (const issue of error.issues) {
+    const key =
+      issue.path.reduce<string>(
+        (acc, p) => (typeof p === 'number' ? `${acc}[${p}]` : acc ? `${acc}.${String(p)}` : String(p)),
+        '',
+      ) || '(body)';
+    fields[key] ??= issue.message;
+  }
+  return fields;
+}
+
+export function parseOr400<T>(schema: ZodType<T>, value: unknown, where: string): T {
+  const r = schema.safeParse(value);
+  if (!r.success) {
+    const fields = zodFields(r.error);
+    throw new HttpError(
+      400,
+      'invalid',
+      `Please correct the ${where}: ${Object.entries(fields)
+        .map(([k, v]) => `${k} ${v}`)
+        .join('; ')}`,
+      fields,
+    );
+  }
+  return r.data;
+}
+
+export interface SessionUser {
+  id: number;
+  email: string;
+  name: string;
+  isAdmin: boolean;
+}
+
+/**
+ * Who may call a route; decided before the body is read, so a forbidden call answers 403 whatever
+ * it carries.
+ * - `public`: anyone. `signedIn`: any active person. `admin`: administrators.
+ * - `site`: members of the site that `siteId` names (from the path, or from the resource the path
+ *   names; `null` there means the resource does not exist → 404) whose role is in `roles`;
+ *   administrators too when `admin` is true.
+ */
+export type Access =
+  | { kind: 'public' }
+  | { kind: 'signedIn' }
+  | { kind: 'admin' }
+  | {
+      kind: 'site';
+      roles: readonly SiteRole[] | 'any';
+      admin?: boolean;
+      siteId: (req: Request, deps: Deps) => number | null | Promise<number | null>;
+      /** Optional extra rule on the membership, e.g. the inspection duty. */
+      allow?: (m: { role: SiteRole; canInspect: boolean }) => boolean;
+    };
+
+export interface RouteContext<B, Q, P> {
+  req: Request;
+  res: Response;
+  body: B;
+  query: Q;
+  params: P;
+  /** The signed-in person (null on public routes when nobody is signed in). */
+  user: SessionUser | null;
+  /** The site the route was authorised on, with the person's role there (null for administrators without one). */
+  site: { id: number; role: SiteRole | null; canInspect: boolean } | null;
+  deps: Deps;
+}
+
+export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodType> {
+  method: 'get' | 'post' | 'put' | 'patch' | 'delete';
+  path: string;
+  summary: string;
+  tag: string;
+  access: Access;
+  body?: B;
+  query?: Q;
+  params?: P;
+  /** Middleware run after authorisation and before validation (e.g. multer for uploads). */
+  before?: RequestHandler[];
+  /** Documented answers besides the usual errors, e.g. { 201: 'Created' }. */
+  responses?: Record<number, string>;
+  /** The body is multipart/form-data with these file fields. */
+  files?: string[];
+  /** The answer is not JSON (a file, a PDF, CSV). */
+  produces?: string;
+}
+
+type Out<S> = S extends ZodType ? z.output<S> : undefined;
+
+/** Site ids from the path parameter `siteId`. */
+export const siteFromParam = (req: Request) => {
+  const n = Number(req.params.siteId);
+  return Number.isInteger(n) && n > 0 ? n : null;
+};
+
+/**
+ * One place where every API route is declared: authorisation, validation and the OpenAPI document
+ * all come from the same declaration.
+ */
+export class Api {
+  readonly router: Router = express.Router();
+  readonly specs: RouteSpec<ZodType, ZodType, ZodType>[] = [];
+
+  constructor(readonly deps: Deps) {}
+
+  route<B extends ZodType = never, Q extends ZodType = never, P extends ZodType = never>(
+    spec: RouteSpec<B, Q, P>,
+    handler: (ctx: RouteContext<Out<B>, Out<Q>, Out<P>>) => unknown | Promise<unknown>,
+  ): void {
+    this.specs.push(spec as unknown as RouteSpec<ZodType, ZodType, ZodType>);
+    const deps = this.deps;
+    const guard: RequestHandler = async (req, _res, next) => {
+      (req as AuthedRequest).siteAccess = await authorise(spec.access, req, deps);
+      next();
+    };
+    const main = async (req: Request, res: Response) => {
+      const ctx = {
+        req,
+        res,
+        body: spec.body ? parseOr400(spec.body, req.body ?? {}, 'request') : undefined,
+        query: spec.query ? parseOr400(spec.query, req.query, 'query') : undefined,
+        params: spec.params ? parseOr400(spec.params, req.params, 'path') : undefined,
+        user: req.user ?? null,
+        site: (req as AuthedRequest).siteAccess ?? null,
+        deps,
+      } as RouteContext<Out<B>, Out<Q>, Out<P>>;
+      const out = await handler(ctx);
+      if (res.headersSent) return;
+      if (out === undefined) res.status(204).end();
+      else res.json(out);
+    };
+    this.router[spec.method](spec.path.replace(/^\/api/, ''), guard, ...(spec.before ?? []), main);
+  }
+}
+
+interface AuthedRequest extends Request {
+  siteAccess?: RouteContext<unknown, unknown, unknown>['site'];
+}
+
+declare module 'express-serve-static-core' {
+  interface Request {
+    user?: SessionUser;
+  }
+}
+
+async function authorise(access: Access, req: Request, deps: Deps): Promise<RouteContext<unknown, unknown, unknown>['site']> {
+  if (access.kind === 'public') return null;
+  const user = req.user;
+  if (!user) throw new HttpError(401, 'signed_out', 'Please sign in.');
+  if (access.kind === 'signedIn') return null;
+  if (access.kind === 'admin') {
+    if (!user.isAdmin) throw forbidden('Only an administrator may do this.');
+    return null;
+  }
+  const siteId = await access.siteId(req, deps);
+  if (siteId === null) throw notFound();
+  const m = await deps.db
+    .selectFrom('site_members')
+    .select(['role', 'can_inspect'])
+    .where('site_id', '=', siteId)
+    .where('user_id', '=', user.id)
+    .executeTakeFirst();
+  if (!m) {
+    if (access.admin && user.isAdmin) {
+      const exists = await deps.db.selectFrom('sites').select('id').where('id', '=', siteId).executeTakeFirst();
+      if (!exists) throw notFound('That site');
+      return { id: siteId, role: null, canInspect: false };
+    }
+    throw forbidden('You are not a member of this site.');
+  }
+  const membership = { role: m.role, canInspect: m.can_inspect };
+  const roleOk = access.roles === 'any' || access.roles.includes(m.role) || (access.admin && user.isAdmin);
+  if (!roleOk || (access.allow && !access.allow(membership))) throw forbidden();
+  return { id: siteId, role: m.role, canInspect: m.can_inspect };
+}
+
+/** The one error handler: known errors as JSON, anything else logged and answered without detail. */
+export function errorHandler(err: unknown, req: Request, res: Response, _next: NextFunction): void {
+  if (err instanceof HttpError) {
+    res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } });
+    return;
+  }
+  const e = err as { status?: number; type?: string; code?: string; field?: string; message?: string };
+  if (e?.type === 'entity.parse.failed') {
+    res.status(400).json({ error: { code: 'invalid', message: 'The request body is not valid JSON.' } });
+    return;
+  }
+  if (e?.type === 'entity.too.large' || e?.code === 'LIMIT_FILE_SIZE') {
+    res.status(413).json({
+      error: { code: 'too_large', message: e.field ? `The file in ${e.field} is too large.` : 'The request is too large.', ...(e.field ? { fields: { [e.field]: 'is too large' } } : {}) },
+    });
+    return;
+  }
+  if (typeof e?.code === 'string' && e.code.startsWith('LIMIT_')) {
+    res.status(400).json({ error: { code: 'invalid', message: `Upload refused: ${e.message}`, ...(e.field ? { fields: { [e.field]: e.message ?? 'refused' } } : {}) } });
+    return;
+  }
+  console.error(`[error] ${req.method} ${req.originalUrl}`, err);
+  res.status(500).json({ error: { code: 'server_error', message: 'Something went wrong on the server; please try again.' } });
+}

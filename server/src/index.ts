@@ -1,0 +1,50 @@
+import { loadConfig } from './config';
+import { createApp } from './app';
+import { startRuntime } from './runtime';
+import { MailCatcher } from './mail/catcher';
+import { migrateToLatest } from '@db/migrate';
+import { DEMO_PASSWORD, demoPeople } from '@db/seed/people';
+
+// Starts Brink: database migrations, the job queue, the local mail catcher, and one Express
+// process serving the app and the API.
+const config = loadConfig();
+const runtime = await startRuntime(config);
+const { deps } = runtime;
+await migrateToLatest(deps.db);
+
+const catcher = new MailCatcher(deps.db);
+if (config.mailCatcher.enabled) {
+  try {
+    await catcher.start(config.mailCatcher.port);
+  } catch (err) {
+    console.error(`[mail catcher] could not listen on 127.0.0.1:${config.mailCatcher.port} (${(err as Error).message}); e-mail will wait in the queue`);
+  }
+}
+
+const app = createApp(deps);
+const server = app.listen(config.port, '0.0.0.0', () => {
+  const lines = [
+    '',
+    `Brink is running at ${config.publicUrl}`,
+    ...(config.mailCatcher.enabled ? [`Caught e-mail: ${config.publicUrl}/admin/mail (SMTP on 127.0.0.1:${config.mailCatcher.port})`] : []),
+    ...(config.demo
+      ? ['Demo sign-ins (password for all: ' + DEMO_PASSWORD + '):', ...demoPeople.map((p) => `  ${p.email.padEnd(30)} ${p.name}`)]
+      : []),
+    'Press Ctrl-C to stop.',
+    '',
+  ];
+  console.log(lines.join('\n'));
+});
+
+let stopping = false;
+async function stop(signal: string) {
+  if (stopping) return;
+  stopping = true;
+  console.log(`\n${signal}: stopping Brink`);
+  server.close();
+  await catcher.stop();
+  await runtime.stop();
+  process.exit(0);
+}
+process.on('SIGINT', () => void stop('SIGINT'));
+process.on('SIGTERM', () => void stop('SIGTERM'));

@@ -1,0 +1,157 @@
+import { z } from 'zod';
+import { invitationSchema } from '@shared/schemas/auth';
+import { idSchema, roleLabels } from '@shared/schemas/common';
+import { membershipSchema, userUpdateSchema } from '@shared/schemas/sites';
+import { Api, HttpError, notFound } from '../http';
+import { audit } from '../services/audit';
+import { endSessionsOf, loadPeople } from '../services/people';
+import { INVITATION_HOURS, newToken } from '../services/tokens';
+import { notice } from '../mail/mailer';
+
+const userParams = z.object({ id: idSchema });
+const memberParams = z.object({ id: idSchema, siteId: idSchema });
+
+export function registerPeopleRoutes(api: Api): void {
+  const { db, config } = api.deps;
+
+  api.route(
+    {
+      method: 'post',
+      path: '/api/invitations',
+      summary: 'Invite a person by e-mail, optionally with a role on a site',
+      tag: 'People',
+      access: { kind: 'admin' },
+      body: invitationSchema,
+      responses: { 201: 'Invitation queued for e-mail' },
+    },
+    async ({ body, user, res, deps }) => {
+      let siteName: string | null = null;
+      if (body.siteId) {
+        const site = await db.selectFrom('sites').select('name').where('id', '=', body.siteId).executeTakeFirst();
+        if (!site) throw new HttpError(400, 'invalid', 'That site does not exist.', { siteId: 'is not a site' });
+        siteName = site.name;
+      }
+      const { token, hash } = newToken();
+      const id = await db.transaction().execute(async (trx) => {
+        const inv = await trx
+          .insertInto('invitations')
+          .values({
+            email: body.email,
+            name: body.name,
+            is_admin: body.isAdmin,
+            site_id: body.siteId,
+            role: body.role,
+            token_hash: hash,
+            invited_by: user!.id,
+            expires_at: new Date(deps.now().getTime() + INVITATION_HOURS * 3600_000),
+          })
+          .returning('id')
+          .executeTakeFirstOrThrow();
+        await audit(trx, { actorId: user!.id, siteId: body.siteId, entity: 'invitation', entityId: inv.id, action: 'created', detail: { email: body.email, role: body.role, isAdmin: body.isAdmin } });
+        return inv.id;
+      });
+      await deps.mailer.send({
+        to: body.email,
+        ...notice({
+          subject: 'You are invited to Brink',
+          lines: [
+            `Hello ${body.name},`,
+            `${user!.name} has invited you to Brink, where loads beside open excavations are requested, checked and approved${
+              siteName && body.role ? `, as ${roleLabels[body.role].toLowerCase()} on ${siteName}` : ''
+            }.`,
+            `Open the link below to choose your password. It works once, for ${INVITATION_HOURS} hours.`,
+          ],
+          link: { label: 'Accept the invitation', url: `${config.publicUrl}/invitations/accept?token=${token}` },
+        }),
+      });
+      res.status(201).json({ id });
+    },
+  );
+
+  api.route(
+    { method: 'get', path: '/api/users', summary: 'Everyone, with their site roles', tag: 'People', access: { kind: 'admin' } },
+    async () => ({ users: await loadPeople(db) }),
+  );
+
+  api.route(
+    {
+      method: 'patch',
+      path: '/api/users/:id',
+      summary: 'Rename, deactivate or reactivate a person, or make them an administrator',
+      tag: 'People',
+      access: { kind: 'admin' },
+      params: userParams,
+      body: userUpdateSchema,
+    },
+    async ({ params, body, user }) => {
+      if (params.id === user!.id && (body.active === false || body.isAdmin === false)) {
+        throw new HttpError(400, 'invalid', 'You cannot deactivate yourself or remove your own administrator role.', {
+          [body.active === false ? 'active' : 'isAdmin']: 'cannot be changed on your own account',
+        });
+      }
+      await db.transaction().execute(async (trx) => {
+        const set = {
+          ...(body.name !== undefined ? { name: body.name } : {}),
+          ...(body.isAdmin !== undefined ? { is_admin: body.isAdmin } : {}),
+          ...(body.active !== undefined ? { active: body.active } : {}),
+        };
+        if (Object.keys(set).length) {
+          const r = await trx.updateTable('users').set(set).where('id', '=', params.id).executeTakeFirst();
+          if (!r.numUpdatedRows) throw notFound('That person');
+        }
+        if (body.active === false) {
+          await endSessionsOf(trx, params.id);
+        }
+        await audit(trx, { actorId: user!.id, entity: 'user', entityId: params.id, action: 'updated', detail: body });
+      });
+      const [p] = await loadPeople(db, [params.id]);
+      if (!p) throw notFound('That person');
+      return { user: p };
+    },
+  );
+
+  api.route(
+    {
+      method: 'put',
+      path: '/api/users/:id/memberships/:siteId',
+      summary: "Set a person's role on a site",
+      tag: 'People',
+      access: { kind: 'admin' },
+      params: memberParams,
+      body: membershipSchema,
+    },
+    async ({ params, body, user }) => {
+      await db.transaction().execute(async (trx) => {
+        const site = await trx.selectFrom('sites').select('id').where('id', '=', params.siteId).executeTakeFirst();
+        const person = await trx.selectFrom('users').select('id').where('id', '=', params.id).executeTakeFirst();
+        if (!site || !person) throw notFound(site ? 'That person' : 'That site');
+        await trx
+          .insertInto('site_members')
+          .values({ site_id: params.siteId, user_id: params.id, role: body.role, can_inspect: body.canInspect })
+          .onConflict((oc) => oc.columns(['site_id', 'user_id']).doUpdateSet({ role: body.role, can_inspect: body.canInspect }))
+          .execute();
+        await audit(trx, { actorId: user!.id, siteId: params.siteId, entity: 'user', entityId: params.id, action: 'role-set', detail: body });
+      });
+      const [p] = await loadPeople(db, [params.id]);
+      return { user: p };
+    },
+  );
+
+  api.route(
+    {
+      method: 'delete',
+      path: '/api/users/:id/memberships/:siteId',
+      summary: "Remove a person's role on a site",
+      tag: 'People',
+      access: { kind: 'admin' },
+      params: memberParams,
+    },
+    async ({ params, user }) => {
+      await db.transaction().execute(async (trx) => {
+        const r = await trx.deleteFrom('site_members').where('site_id', '=', params.siteId).where('user_id', '=', params.id).executeTakeFirst();
+        if (!r.numDeletedRows) throw notFound('That role');
+        await audit(trx, { actorId: user!.id, siteId: params.siteId, entity: 'user', entityId: params.id, action: 'role-removed' });
+      });
+    },
+  );
+}

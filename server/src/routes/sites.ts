@@ -1,0 +1,89 @@
+import { z } from 'zod';
+import { idSchema } from '@shared/schemas/common';
+import { siteSchema, siteUpdateSchema, type Site } from '@shared/schemas/sites';
+import type { Db } from '@db/database';
+import { Api, notFound, siteFromParam } from '../http';
+import { audit } from '../services/audit';
+
+type SiteRow = { id: number; name: string; latitude: number; longitude: number; timezone: string; minimum_clearance: number; default_method: string; created_at: Date };
+
+export function siteOut(r: SiteRow): Site {
+  return {
+    id: r.id,
+    name: r.name,
+    latitude: r.latitude,
+    longitude: r.longitude,
+    timezone: r.timezone,
+    minimumClearance: r.minimum_clearance,
+    defaultMethod: r.default_method as Site['defaultMethod'],
+    createdAt: new Date(r.created_at).toISOString(),
+  };
+}
+
+export async function getSite(db: Db, id: number): Promise<Site | null> {
+  const r = await db.selectFrom('sites').selectAll().where('id', '=', id).executeTakeFirst();
+  return r ? siteOut(r) : null;
+}
+
+const siteParams = z.object({ siteId: idSchema });
+
+export function registerSiteRoutes(api: Api): void {
+  const { db } = api.deps;
+
+  api.route(
+    { method: 'get', path: '/api/sites', summary: 'The sites I am a member of (all sites for an administrator)', tag: 'Sites', access: { kind: 'signedIn' } },
+    async ({ user }) => {
+      let q = db.selectFrom('sites').selectAll('sites').orderBy('sites.name');
+      if (!user!.isAdmin) q = q.innerJoin('site_members', 'site_members.site_id', 'sites.id').where('site_members.user_id', '=', user!.id);
+      return { sites: (await q.execute()).map(siteOut) };
+    },
+  );
+
+  api.route(
+    { method: 'get', path: '/api/sites/:siteId', summary: 'One site', tag: 'Sites', access: { kind: 'site', roles: 'any', admin: true, siteId: siteFromParam }, params: siteParams },
+    async ({ params }) => {
+      const site = await getSite(db, params.siteId);
+      if (!site) throw notFound('That site');
+      return { site };
+    },
+  );
+
+  api.route(
+    { method: 'post', path: '/api/sites', summary: 'Create a site', tag: 'Sites', access: { kind: 'admin' }, body: siteSchema, responses: { 201: 'Created' } },
+    async ({ body, user, res }) => {
+      const site = await db.transaction().execute(async (trx) => {
+        const r = await trx
+          .insertInto('sites')
+          .values({ name: body.name, latitude: body.latitude, longitude: body.longitude, timezone: body.timezone, minimum_clearance: body.minimumClearance, default_method: body.defaultMethod })
+          .returningAll()
+          .executeTakeFirstOrThrow();
+        await audit(trx, { actorId: user!.id, siteId: r.id, entity: 'site', entityId: r.id, action: 'created', detail: body });
+        return r;
+      });
+      res.status(201).json({ site: siteOut(site) });
+    },
+  );
+
+  api.route(
+    { method: 'patch', path: '/api/sites/:siteId', summary: 'Change a site', tag: 'Sites', access: { kind: 'admin' }, params: siteParams, body: siteUpdateSchema },
+    async ({ params, body, user }) => {
+      const set = {
+        ...(body.name !== undefined ? { name: body.name } : {}),
+        ...(body.latitude !== undefined ? { latitude: body.latitude } : {}),
+        ...(body.longitude !== undefined ? { longitude: body.longitude } : {}),
+        ...(body.timezone !== undefined ? { timezone: body.timezone } : {}),
+        ...(body.minimumClearance !== undefined ? { minimum_clearance: body.minimumClearance } : {}),
+        ...(body.defaultMethod !== undefined ? { default_method: body.defaultMethod } : {}),
+      };
+      const site = await db.transaction().execute(async (trx) => {
+        const r = Object.keys(set).length
+          ? await trx.updateTable('sites').set(set).where('id', '=', params.siteId).returningAll().executeTakeFirst()
+          : await trx.selectFrom('sites').selectAll().where('id', '=', params.siteId).executeTakeFirst();
+        if (!r) throw notFound('That site');
+        await audit(trx, { actorId: user!.id, siteId: r.id, entity: 'site', entityId: r.id, action: 'updated', detail: body });
+        return r;
+      });
+      return { site: siteOut(site) };
+    },
+  );
+}

@@ -1,0 +1,33 @@
+import { z } from 'zod';
+import { idSchema } from '@shared/schemas/common';
+import { Api } from '../http';
+import { sendUpload } from '../services/uploads';
+
+/** Any stored file, to members of its site (and administrators); files kept outside the web root. */
+export function registerUploadRoutes(api: Api): void {
+  const { db } = api.deps;
+  api.route(
+    {
+      method: 'get',
+      path: '/api/uploads/:id',
+      summary: 'A stored file (drawing, photo, attachment), to members of its site',
+      tag: 'Files',
+      access: {
+        kind: 'site',
+        roles: 'any',
+        admin: true,
+        siteId: async (req) => {
+          const id = Number(req.params.id);
+          if (!Number.isInteger(id) || id <= 0) return null;
+          const row = await db.selectFrom('uploads').select('site_id').where('id', '=', id).executeTakeFirst();
+          return row?.site_id ?? null;
+        },
+      },
+      params: z.object({ id: idSchema }),
+      produces: 'application/octet-stream',
+    },
+    async ({ params, res, deps }) => {
+      await sendUpload(deps, res, params.id);
+    },
+  );
+}

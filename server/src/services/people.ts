@@ -1,0 +1,47 @@
+import { sql } from 'kysely';
+import type { Db } from '@db/database';
+import type { Me } from '@shared/schemas/auth';
+import type { Person } from '@shared/schemas/sites';
+
+/** One person with their site roles, as the API shows them. */
+export async function loadPeople(db: Db, ids?: number[]): Promise<Person[]> {
+  let q = db.selectFrom('users').select(['id', 'email', 'name', 'is_admin', 'active']).orderBy('name');
+  if (ids) {
+    if (ids.length === 0) return [];
+    q = q.where('id', 'in', ids);
+  }
+  const users = await q.execute();
+  if (users.length === 0) return [];
+  const members = await db
+    .selectFrom('site_members')
+    .innerJoin('sites', 'sites.id', 'site_members.site_id')
+    .select(['site_members.user_id', 'site_members.site_id', 'sites.name', 'site_members.role', 'site_members.can_inspect'])
+    .where(
+      'site_members.user_id',
+      'in',
+      users.map((u) => u.id),
+    )
+    .orderBy('sites.name')
+    .execute();
+  return users.map((u) => ({
+    id: u.id,
+    email: u.email,
+    name: u.name,
+    isAdmin: u.is_admin,
+    active: u.active,
+    memberships: members
+      .filter((m) => m.user_id === u.id)
+      .map((m) => ({ siteId: m.site_id, siteName: m.name, role: m.role, canInspect: m.can_inspect })),
+  }));
+}
+
+export async function loadMe(db: Db, id: number): Promise<Me | null> {
+  const [p] = await loadPeople(db, [id]);
+  if (!p || !p.active) return null;
+  return { id: p.id, email: p.email, name: p.name, isAdmin: p.isAdmin, memberships: p.memberships };
+}
+
+/** Ends every session of a person (after a password reset or deactivation). */
+export async function endSessionsOf(db: Db, userId: number): Promise<void> {
+  await sql`delete from "session" where ("sess"->>'userId')::int = ${userId}`.execute(db);
+}

@@ -1,0 +1,102 @@
+import { randomUUID } from 'node:crypto';
+import { createReadStream } from 'node:fs';
+import { mkdir, writeFile } from 'node:fs/promises';
+import path from 'node:path';
+import multer from 'multer';
+import { fileTypeFromBuffer } from 'file-type';
+import type { RequestHandler, Response } from 'express';
+import type { Db } from '@db/database';
+import type { Deps } from '../deps';
+import { HttpError } from '../http';
+
+export const MB = 1024 * 1024;
+
+/** What each kind of upload may be, judged from the file's content (its first bytes), not its name. */
+export const accepts = {
+  pdf: { mimes: ['application/pdf'], words: 'a PDF' },
+  image: { mimes: ['image/png', 'image/jpeg'], words: 'a PNG or JPEG image' },
+  pdfOrImage: { mimes: ['application/pdf', 'image/png', 'image/jpeg'], words: 'a PDF, PNG or JPEG file' },
+} as const;
+export type Accept = keyof typeof accepts;
+
+/** Size limits: drawings and documents 20 MB, images 10 MB. */
+export const limits = { pdf: 20 * MB, image: 10 * MB, pdfOrImage: 20 * MB } as const;
+
+/**
+ * Multer in memory for the named file fields, with a size limit (over it: 413 naming the field).
+ * Use as `before` on a route, so that authorisation comes first.
+ */
+export function receiveFiles(fields: string[], maxBytes: number, maxCount = 1): RequestHandler {
+  return multer({ storage: multer.memoryStorage(), limits: { fileSize: maxBytes, files: fields.length * maxCount } }).fields(
+    fields.map((name) => ({ name, maxCount })),
+  );
+}
+
+/** The files of one field of a multipart request (after receiveFiles). */
+export function filesOf(req: { files?: unknown }, field: string): Express.Multer.File[] {
+  const files = req.files as Record<string, Express.Multer.File[]> | undefined;
+  return files?.[field] ?? [];
+}
+
+export interface StoredUpload {
+  id: number;
+  mime: string;
+  size: number;
+  originalName: string;
+}
+
+/**
+ * Checks a received file's type from its content and keeps it under UPLOAD_DIR (outside the web
+ * root), recording it in `uploads`. A file of the wrong type answers 400 naming the field.
+ */
+export async function storeUpload(
+  deps: Pick<Deps, 'db' | 'config'>,
+  file: Express.Multer.File,
+  opts: { field: string; accept: Accept; purpose: string; siteId: number | null; userId: number | null; db?: Db },
+): Promise<StoredUpload> {
+  const rule = accepts[opts.accept];
+  const detected = await fileTypeFromBuffer(file.buffer);
+  if (!detected || !(rule.mimes as readonly string[]).includes(detected.mime)) {
+    throw new HttpError(400, 'invalid', `The file in ${opts.field} must be ${rule.words}; its content is ${detected ? detected.mime : 'not a known type'}.`, {
+      [opts.field]: `must be ${rule.words}`,
+    });
+  }
+  const key = path.join(new Date().toISOString().slice(0, 7), `${randomUUID()}.${detected.ext}`);
+  const full = path.resolve(deps.config.uploadDir, key);
+  await mkdir(path.dirname(full), { recursive: true });
+  await writeFile(full, file.buffer, { mode: 0o600 });
+  const row = await (opts.db ?? deps.db)
+    .insertInto('uploads')
+    .values({
+      site_id: opts.siteId,
+      purpose: opts.purpose,
+      original_name: file.originalname.slice(0, 200),
+      mime: detected.mime,
+      size: file.size,
+      storage_key: key,
+      uploaded_by: opts.userId,
+    })
+    .returning(['id', 'mime', 'size', 'original_name'])
+    .executeTakeFirstOrThrow();
+  return { id: row.id, mime: row.mime, size: row.size, originalName: row.original_name };
+}
+
+/** Sends a stored upload with its checked type; `inline` for images and PDFs shown in the page. */
+export async function sendUpload(deps: Pick<Deps, 'db' | 'config'>, res: Response, id: number, inline = true): Promise<void> {
+  const row = await deps.db.selectFrom('uploads').selectAll().where('id', '=', id).executeTakeFirst();
+  if (!row) throw new HttpError(404, 'not_found', 'That file was not found.');
+  res.setHeader('Content-Type', row.mime);
+  res.setHeader('Content-Length', String(row.size));
+  res.setHeader('X-Content-Type-Options', 'nosniff');
+  res.setHeader('Cache-Control', 'private, max-age=3600');
+  res.setHeader(
+    'Content-Disposition',
+    `${inline ? 'inline' : 'attachment'}; filename*=UTF-8''${encodeURIComponent(row.original_name)}`,
+  );
+  await new Promise<void>((resolve, reject) => {
+    const s = createReadStream(path.resolve(deps.config.uploadDir, row.storage_key));
+    s.on('error', reject);
+    s.on('end', () => resolve());
+    s.pipe(res);
+  });
+}

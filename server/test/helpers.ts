@@ -1,0 +1,118 @@
+import { randomUUID } from 'node:crypto';
+import net from 'node:net';
+import request from 'supertest';
+import type { Express } from 'express';
+import { loadConfig } from '../src/config';
+import { createApp } from '../src/app';
+import { startRuntime, type Runtime } from '../src/runtime';
+import { MailCatcher } from '../src/mail/catcher';
+import { DEMO_PASSWORD } from '@db/seed/people';
+import type { Deps } from '../src/deps';
+
+export { DEMO_PASSWORD };
+
+export const demo = {
+  admin: 'admin@demo.brink.test',
+  coordinator: 'coordinator@demo.brink.test',
+  supervisor: 'supervisor@demo.brink.test',
+  operator: 'operator@demo.brink.test',
+} as const;
+export type DemoRole = keyof typeof demo;
+
+export async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const s = net.createServer();
+    s.once('error', reject);
+    s.listen(0, '127.0.0.1', () => {
+      const port = (s.address() as net.AddressInfo).port;
+      s.close(() => resolve(port));
+    });
+  });
+}
+
+export interface TestApp {
+  app: Express;
+  deps: Deps;
+  catcher: MailCatcher;
+  catcherPort: number;
+  /** A mutable clock: set `clock.now` to move time. */
+  clock: { now: Date | null };
+  stop(): Promise<void>;
+}
+
+/**
+ * A whole Brink (API, job queue on its own queue names, a mail catcher on its own port) against
+ * the test database. Each test file makes its own.
+ */
+export async function startTestApp(env: Record<string, string> = {}): Promise<TestApp> {
+  const catcherPort = await freePort();
+  const config = loadConfig({
+    ...process.env,
+    NODE_ENV: 'test',
+    SESSION_SECRET: 'test-secret-123456',
+    MAIL_CATCHER: 'on',
+    MAIL_CATCHER_PORT: String(catcherPort),
+    PUBLIC_URL: 'http://brink.test',
+    BRINK_DEMO: '1',
+    ...env,
+  });
+  const clock: TestApp['clock'] = { now: null };
+  const runtime: Runtime = await startRuntime(config, {
+    now: () => clock.now ?? new Date(),
+    queuePrefix: `t${randomUUID().slice(0, 8)}`,
+  });
+  const catcher = new MailCatcher(runtime.deps.db);
+  if (config.mailCatcher.enabled) await catcher.start(catcherPort);
+  const app = createApp(runtime.deps, { log: false });
+  return {
+    app,
+    deps: runtime.deps,
+    catcher,
+    catcherPort,
+    clock,
+    async stop() {
+      await catcher.stop();
+      await runtime.stop();
+    },
+  };
+}
+
+/** A supertest agent (keeps cookies) signed in as the given address. */
+export async function signedIn(app: Express, email: string, password = DEMO_PASSWORD) {
+  const agent = request.agent(app);
+  const r = await agent.post('/api/auth/sign-in').send({ email, password });
+  if (r.status !== 200) throw new Error(`sign-in as ${email} failed: ${r.status} ${JSON.stringify(r.body)}`);
+  return agent;
+}
+
+export function unique(prefix: string): string {
+  return `${prefix}-${randomUUID().slice(0, 8)}@example.test`;
+}
+
+/** Waits until the catcher holds a message to `to` whose subject matches; returns it. */
+export async function waitForMail(
+  deps: Deps,
+  to: string,
+  subject: RegExp = /./,
+  timeoutMs = 20_000,
+): Promise<{ subject: string; text: string; html: string | null; mail_to: string }> {
+  const t0 = Date.now();
+  for (;;) {
+    const rows = await deps.db.selectFrom('caught_mail').selectAll().where('mail_to', 'ilike', `%${to}%`).orderBy('id', 'desc').execute();
+    const hit = rows.find((r) => subject.test(r.subject));
+    if (hit) return hit;
+    if (Date.now() - t0 > timeoutMs) throw new Error(`no mail to ${to} matching ${subject} within ${timeoutMs} ms`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}
+
+export function linkToken(text: string, path: string): string {
+  const m = text.match(new RegExp(`${path.replace(/[/?]/g, (c) => `\\${c}`)}\\?token=([A-Za-z0-9_-]+)`));
+  if (!m) throw new Error(`no ${path} link in: ${text}`);
+  return m[1];
+}
+
+export async function demoSiteId(deps: Deps): Promise<number> {
+  const s = await deps.db.selectFrom('sites').select('id').where('name', '=', 'Alder Marsh pumping station').executeTakeFirstOrThrow();
+  return s.id;
+}

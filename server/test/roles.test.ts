@@ -1,0 +1,167 @@
+import request from 'supertest';
+import bcrypt from 'bcryptjs';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { demo, DEMO_PASSWORD, demoSiteId, signedIn, startTestApp, unique, type TestApp } from './helpers';
+
+/**
+ * The role matrix: every API route, called by each demo role, by a member of another site only
+ * ("outsider") and signed out ("anon"). `allow` lists who gets past the guard; everyone else must
+ * be refused (401 signed out, 403 or 404 otherwise). A route added without a row here fails the
+ * test at the bottom.
+ */
+type Who = 'admin' | 'coordinator' | 'supervisor' | 'operator' | 'outsider' | 'anon';
+const everyone: Who[] = ['admin', 'coordinator', 'supervisor', 'operator', 'outsider', 'anon'];
+const signedInPeople: Who[] = ['admin', 'coordinator', 'supervisor', 'operator', 'outsider'];
+const siteMembers: Who[] = ['coordinator', 'supervisor', 'operator'];
+
+interface Row {
+  allow: Who[];
+  body?: unknown;
+}
+
+export const matrix: Record<string, Row> = {
+  'GET /api/health': { allow: everyone },
+  'GET /api/config': { allow: everyone },
+  'GET /api/dev/mail': { allow: everyone },
+  'GET /api/openapi.json': { allow: everyone },
+  'POST /api/auth/sign-in': { allow: everyone, body: {} },
+  'POST /api/auth/sign-out': { allow: everyone },
+  'GET /api/auth/me': { allow: signedInPeople },
+  'POST /api/auth/forgot-password': { allow: everyone, body: {} },
+  'POST /api/auth/reset-password': { allow: everyone, body: {} },
+  'GET /api/invitations/:token': { allow: everyone },
+  'POST /api/invitations/accept': { allow: everyone, body: {} },
+  'POST /api/invitations': { allow: ['admin'], body: {} },
+  'GET /api/users': { allow: ['admin'] },
+  'PATCH /api/users/:id': { allow: ['admin'], body: { name: 1 } },
+  'PUT /api/users/:id/memberships/:siteId': { allow: ['admin'], body: {} },
+  'DELETE /api/users/:id/memberships/:siteId': { allow: ['admin'] },
+  'GET /api/sites': { allow: signedInPeople },
+  'GET /api/sites/:siteId': { allow: ['admin', ...siteMembers] },
+  'POST /api/sites': { allow: ['admin'], body: {} },
+  'PATCH /api/sites/:siteId': { allow: ['admin'], body: { name: '' } },
+  'GET /api/uploads/:id': { allow: ['admin', ...siteMembers] },
+};
+
+let t: TestApp;
+let siteId: number;
+const agents = new Map<Who, request.Agent | request.SuperTest<request.Test>>();
+const outsiderEmail = unique('outsider');
+
+beforeAll(async () => {
+  t = await startTestApp({ SIGNIN_LIMIT_PER_IP: '1000' });
+  siteId = await demoSiteId(t.deps);
+  const other = await t.deps.db.insertInto('sites').values({ name: 'Matrix other site', latitude: 51, longitude: 0 }).returning('id').executeTakeFirstOrThrow();
+  const u = await t.deps.db.insertInto('users').values({ email: outsiderEmail, name: 'Olive Outsider', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+  await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role: 'coordinator' }).execute();
+  for (const who of ['admin', 'coordinator', 'supervisor', 'operator'] as const) agents.set(who, await signedIn(t.app, demo[who]));
+  agents.set('outsider', await signedIn(t.app, outsiderEmail));
+  agents.set('anon', request(t.app) as unknown as request.Agent);
+});
+afterAll(async () => t.stop());
+
+function concrete(path: string): string {
+  return path
+    .replace(':siteId', String(siteId))
+    .replace(':token', 'x'.repeat(43))
+    .replace(/:[A-Za-z]+/g, '999999');
+}
+
+describe('role matrix', () => {
+  for (const [route, row] of Object.entries(matrix)) {
+    const [method, path] = route.split(' ');
+    for (const who of everyone) {
+      const allowed = row.allow.includes(who);
+      it(`${route} as ${who} → ${allowed ? 'allowed' : 'refused'}`, async () => {
+        if (path === '/api/auth/sign-out' && who !== 'anon') return; // would end the shared session; covered in auth tests
+        const agent = agents.get(who)!;
+        const m = method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
+        let req = agent[m](concrete(path));
+        if (row.body !== undefined) req = req.send(row.body as object);
+        const r = await req;
+        if (allowed) {
+          expect([401, 403]).not.toContain(r.status);
+          expect(r.status).toBeLessThan(500);
+        } else if (who === 'anon') {
+          expect(r.status).toBe(401);
+        } else {
+          expect([403, 404]).toContain(r.status);
+        }
+      });
+    }
+  }
+
+  it('covers every route the API declares', async () => {
+    const doc = (await request(t.app).get('/api/openapi.json')).body;
+    const declared = Object.entries(doc.paths as Record<string, Record<string, unknown>>).flatMap(([p, ops]) =>
+      Object.keys(ops).map((m) => `${m.toUpperCase()} ${p.replace(/\{([A-Za-z_]+)\}/g, ':$1')}`),
+    );
+    expect(declared.filter((d) => !(d in matrix))).toEqual([]);
+    expect(Object.keys(matrix).filter((k) => !declared.includes(k))).toEqual([]);
+  });
+
+  it('decides authorisation before reading the body: a forbidden call with a bad body answers 403', async () => {
+    const r = await agents.get('operator')!.post('/api/sites').send({ name: 12, latitude: 'north' });
+    expect(r.status).toBe(403);
+  });
+});
+
+describe('administration of people', () => {
+  it('deactivating a person ends their sessions at once', async () => {
+    const email = unique('leaver');
+    const u = await t.deps.db.insertInto('users').values({ email, name: 'Lee Leaver', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+    const leaver = await signedIn(t.app, email);
+    await agents.get('admin')!.patch(`/api/users/${u.id}`).send({ active: false }).expect(200);
+    expect((await leaver.get('/api/auth/me')).status).toBe(401);
+    expect((await request(t.app).post('/api/auth/sign-in').send({ email, password: DEMO_PASSWORD })).status).toBe(401);
+  });
+
+  it('sets and removes a role on a site', async () => {
+    const email = unique('roled');
+    const u = await t.deps.db.insertInto('users').values({ email, name: 'Rae Roled', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+    const admin = agents.get('admin')!;
+    const put = await admin.put(`/api/users/${u.id}/memberships/${siteId}`).send({ role: 'supervisor', canInspect: true });
+    expect(put.status).toBe(200);
+    expect(put.body.user.memberships).toEqual([expect.objectContaining({ siteId, role: 'supervisor', canInspect: true })]);
+    const person = await signedIn(t.app, email);
+    expect((await person.get(`/api/sites/${siteId}`)).status).toBe(200);
+    await admin.delete(`/api/users/${u.id}/memberships/${siteId}`).expect(204);
+    expect((await person.get(`/api/sites/${siteId}`)).status).toBe(403);
+  });
+
+  it('creates a site and names bad fields', async () => {
+    const admin = agents.get('admin')!;
+    const bad = await admin.post('/api/sites').send({ name: '', latitude: 123, longitude: 0, timezone: 'Mars/Olympus' });
+    expect(bad.status).toBe(400);
+    expect(Object.keys(bad.body.error.fields).sort()).toEqual(['latitude', 'name', 'timezone']);
+    const ok = await admin.post('/api/sites').send({ name: 'Fen Lane culvert', latitude: 52.1, longitude: -0.9 });
+    expect(ok.status).toBe(201);
+    expect(ok.body.site).toMatchObject({ name: 'Fen Lane culvert', timezone: 'Europe/London', minimumClearance: 0.6 });
+    const patched = await admin.patch(`/api/sites/${ok.body.site.id}`).send({ minimumClearance: 1 });
+    expect(patched.body.site.minimumClearance).toBe(1);
+    expect(patched.body.site.name).toBe('Fen Lane culvert');
+  });
+});
+
+describe('API habits', () => {
+  it('answers unknown API routes with a JSON 404', async () => {
+    const r = await request(t.app).get('/api/no-such-thing');
+    expect(r.status).toBe(404);
+    expect(r.body.error.code).toBe('not_found');
+  });
+
+  it('sends a content security policy that allows only its own origin', async () => {
+    const r = await request(t.app).get('/api/health');
+    const csp = String(r.headers['content-security-policy']);
+    expect(csp).toContain("default-src 'self'");
+    expect(csp).toContain("script-src 'self'");
+    expect(csp).not.toMatch(/https?:\/\//);
+  });
+
+  it('publishes an OpenAPI 3.1 document with request schemas', async () => {
+    const doc = (await request(t.app).get('/api/openapi.json')).body;
+    expect(doc.openapi).toBe('3.1.0');
+    const signIn = doc.paths['/api/auth/sign-in'].post;
+    expect(signIn.requestBody.content['application/json'].schema.required).toEqual(['email', 'password']);
+  });
+});
