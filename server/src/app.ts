@@ -9,8 +9,10 @@ import pg from 'pg';
 import type { Deps } from './deps';
 import { Api, errorHandler, HttpError } from './http';
 import { registerAuthRoutes } from './routes/auth';
+import { registerExcavationRoutes } from './routes/excavations';
 import { registerPeopleRoutes } from './routes/people';
 import { registerPlantRoutes } from './routes/plant';
+import { registerSitePlanRoutes } from './routes/site-plan';
 import { registerSiteRoutes } from './routes/sites';
 import { registerSystemRoutes } from './routes/system';
 import { registerUploadRoutes } from './routes/uploads';
@@ -95,6 +97,8 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerUploadRoutes(api);
   registerPermitRoutes(api);
   registerPlantRoutes(api);
+  registerExcavationRoutes(api);
+  registerSitePlanRoutes(api);
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
 
