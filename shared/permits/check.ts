@@ -11,8 +11,9 @@ import { CAUTION, runCheck, type CheckRequest, type Excavation, type Load, type 
 import {
   GeometryError,
   localProjection,
-  measureLoad,
+  placeFootprint,
   prepareExcavation,
+  prepareRing,
   type ExcavationShape,
   type LocalProjection,
   type PreparedOutline,
@@ -173,13 +174,10 @@ function pathOffset(outline: PreparedOutline, path: XY[]): number {
 export function engineLoad(f: Footprint, outline: PreparedOutline, id: string): Exclude<Load, { kind: 'blanket' }> {
   const round = (x: number) => Math.round(x * 1000) / 1000;
   if (f.kind === 'line') return { id, kind: 'line', force: f.intensity, offset: round(pathOffset(outline, f.local)) };
-  const placed = measureLoad(outline, { kind: 'polygon', footprint: { type: 'Polygon', coordinates: [[...f.local, f.local[0]]] } }, identity);
+  const placed = placeFootprint(outline, prepareRing(f.local, 'load footprint').ring);
   if (f.kind === 'strip') return { id, kind: 'strip', pressure: f.intensity, width: round(placed.width), offset: round(placed.offset) };
   return { id, kind: 'area', pressure: f.intensity, width: round(placed.width), length: round(placed.length), offset: round(placed.offset) };
 }
-
-/** Footprints are already site-local: measure them without projecting again. */
-const identity: LocalProjection = { origin: [0, 0], toLocal: (p) => [p[0], p[1]], toWgs84: (p) => [p[0], p[1]] };
 
 /** Do two windows overlap (a shared instant, not merely touching ends)? */
 export function windowsOverlap(a: { windowStart: string; windowEnd: string }, b: { windowStart: string; windowEnd: string }): boolean {

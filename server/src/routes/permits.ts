@@ -17,7 +17,7 @@ import { audit } from '../services/audit';
 import { filesOf, limits, receiveFiles, sendUpload, storeUpload } from '../services/uploads';
 import { userActor } from '../services/permits/actors';
 import { confirmBriefing } from '../services/permits/briefing';
-import { checkProposal } from '../services/permits/check';
+import { checkProposal, ensureChecked } from '../services/permits/check';
 import { StaleError, transition } from '../services/permits/machine';
 import { permitPdf } from '../services/permits/pdf';
 import { listPermits, loadDetail, loadRevision, siteOfPermit } from '../services/permits/read';
@@ -89,7 +89,8 @@ export function registerPermitRoutes(api: Api): void {
 
   api.route(
     { method: 'get', path: '/api/permits/:id', summary: 'One permit: its current revision, check, decision, operators, timeline and attachments', tag: 'Permits', access: members, params: idParams },
-    async ({ params, user, site }) => {
+    async ({ params, user, site, deps }) => {
+      await ensureChecked(db, params.id, deps.now());
       const permit = await loadDetail(db, params.id, { id: user!.id, role: site?.role ?? null });
       if (!permit) throw notFound('That permit');
       return { permit };
@@ -201,6 +202,7 @@ export function registerPermitRoutes(api: Api): void {
       produces: 'application/pdf',
     },
     async ({ params, deps, res }) => {
+      await ensureChecked(db, params.id, deps.now());
       const { buffer, number } = await permitPdf(deps, params.id);
       res.setHeader('Content-Type', 'application/pdf');
       res.setHeader('Content-Disposition', `attachment; filename="permit-${number}.pdf"`);
