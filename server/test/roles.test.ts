@@ -42,6 +42,7 @@ export const matrix: Record<string, Row> = {
   'POST /api/sites': { allow: ['admin'], body: {} },
   'PATCH /api/sites/:siteId': { allow: ['admin'], body: { name: '' } },
   'GET /api/uploads/:id': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/operators': { allow: ['admin', 'supervisor', 'coordinator'] },
   'POST /api/permits': { allow: ['supervisor'], body: (site: number) => ({ siteId: site }) },
   'GET /api/permits': { allow: signedInPeople },
   'GET /api/permits/:id': { allow: ['admin', ...siteMembers] },

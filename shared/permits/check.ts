@@ -21,6 +21,8 @@ import {
 } from '../geometry';
 import { distanceToRing, pointInRing, pointSegment, segmentsMeet } from '../geometry/planar';
 import { elementLoad, stockpilePressure, type PlantElement } from '../schemas/plant';
+import { calcExcavationOf, type Excavation as RegisterExcavation } from '../schemas/excavations';
+import type { LineString, Polygon } from 'geojson';
 import {
   verdictOf,
   type CheckedLoad,
@@ -28,9 +30,22 @@ import {
   type ExcavationCheck,
   type LngLat,
   type PermitCheck,
-  type PermitStatus,
+  type OtherPermit,
   type PlacedLoad,
 } from '../schemas/permits';
+
+/** An excavation of the register as the check needs it: its plan shape and its engine inputs. */
+export function checkExcavationOf(e: Pick<RegisterExcavation, 'id' | 'reference' | 'name' | 'kind' | 'geometry' | 'width' | 'soil'> & CalcFields): CheckExcavation {
+  return {
+    id: e.id,
+    reference: e.reference,
+    name: e.name,
+    shape: e.kind === 'trench' ? { kind: 'trench', centreLine: e.geometry as LineString, width: e.width ?? 0 } : { kind: 'pit', outline: e.geometry as Polygon },
+    excavation: calcExcavationOf(e),
+    soil: e.soil as SoilLayer[],
+  };
+}
+type CalcFields = Parameters<typeof calcExcavationOf>[0];
 
 /** An excavation as the check needs it: its plan shape and its engine inputs. */
 export interface CheckExcavation {
@@ -50,16 +65,7 @@ export interface PlantForCheck {
   elements: PlantElement[];
 }
 
-/** A permit whose loads share an excavation and an overlapping window with the one checked. */
-export interface OtherPermit {
-  id: number;
-  number: string;
-  status: PermitStatus;
-  windowStart: string;
-  windowEnd: string;
-  excavationIds: number[];
-  loads: PlacedLoad[];
-}
+export type { OtherPermit };
 
 export interface CheckInput {
   /** The site origin, for site-local metres. */
@@ -327,6 +333,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
     verdict: verdictOf(utilisation, passes),
     computedStandoff: maxOrNull(excavations.map((e) => e.standoff)),
     outsideInfluence: [...outside],
+    otherPermits: input.others.filter((o) => excavations.some((e) => e.counted.some((c) => c.id === o.id))),
     warnings: [...warnings, ...excavations.flatMap((e) => e.result.warnings.map((w) => `${e.reference}: ${w}`))],
     caution: CAUTION,
   };

@@ -12,7 +12,7 @@ import {
   transitionSchema,
   type PermitStatus,
 } from '@shared/schemas/permits';
-import { Api, badRequest, conflict, forbidden, HttpError, notFound } from '../http';
+import { Api, badRequest, conflict, forbidden, HttpError, notFound, siteFromParam } from '../http';
 import { audit } from '../services/audit';
 import { filesOf, limits, receiveFiles, sendUpload, storeUpload } from '../services/uploads';
 import { userActor } from '../services/permits/actors';
@@ -44,6 +44,28 @@ export function registerPermitRoutes(api: Api): void {
     }
     return { permit: await loadDetail(db, id, viewer) };
   }
+
+  api.route(
+    {
+      method: 'get',
+      path: '/api/sites/:siteId/operators',
+      summary: 'The plant operators of a site, to name on a permit',
+      tag: 'Permits',
+      access: { kind: 'site', roles: ['supervisor', 'coordinator'], admin: true, siteId: siteFromParam },
+      params: z.object({ siteId: idSchema }),
+    },
+    async ({ params }) => ({
+      operators: await db
+        .selectFrom('site_members')
+        .innerJoin('users', 'users.id', 'site_members.user_id')
+        .select(['users.id', 'users.name', 'users.email'])
+        .where('site_members.site_id', '=', params.siteId)
+        .where('site_members.role', '=', 'operator')
+        .where('users.active', '=', true)
+        .orderBy('users.name')
+        .execute(),
+    }),
+  );
 
   api.route(
     {

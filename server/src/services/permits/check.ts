@@ -1,25 +1,10 @@
 import { sql } from 'kysely';
 import type { Db } from '@db/database';
-import { calcExcavationOf, type Excavation } from '@shared/schemas/excavations';
-import type { LineString, Polygon } from 'geojson';
-import { cumulativeCheck, PlacementError, type CheckExcavation, type OtherPermit, type PlantForCheck } from '@shared/permits/check';
+import { checkExcavationOf, cumulativeCheck, PlacementError, type CheckExcavation, type OtherPermit, type PlantForCheck } from '@shared/permits/check';
 import { countedStatuses, type CheckProposal, type PermitCheck, type PermitStatus, type PlacedLoad } from '@shared/schemas/permits';
-import type { SoilLayer } from '@shared/engineering';
 import { badRequest, HttpError, notFound } from '../../http';
 import { loadExcavations } from '../excavations';
 import { withCurrentRevision } from './read';
-
-/** An excavation of the register (services/excavations.ts) as the check needs it: plan shape and engine inputs. */
-export function checkExcavationOf(e: Excavation): CheckExcavation {
-  return {
-    id: e.id,
-    reference: e.reference,
-    name: e.name,
-    shape: e.kind === 'trench' ? { kind: 'trench', centreLine: e.geometry as LineString, width: e.width ?? 0 } : { kind: 'pit', outline: e.geometry as Polygon },
-    excavation: calcExcavationOf(e),
-    soil: e.soil as SoilLayer[],
-  };
-}
 
 /** The named excavations of the site, in the order named. */
 export async function excavationsFor(db: Db, siteId: number, ids: number[]): Promise<CheckExcavation[]> {
