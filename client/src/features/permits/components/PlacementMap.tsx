@@ -29,13 +29,16 @@ interface PlacementMapProps {
   tileUrl?: string | null;
 }
 
-const handleIcon = (text: string, shape: 'move' | 'turn') =>
+const makeIcon = (text: string, shape: 'move' | 'turn') =>
   L.divIcon({
     className: '',
     html: `<span class="flex size-9 items-center justify-center rounded-full border-2 border-white text-xs font-bold text-white shadow" style="background:${shape === 'move' ? '#1e2a33' : '#47508f'}">${text}</span>`,
     iconSize: [36, 36],
     iconAnchor: [18, 18],
   });
+/** Made once: a new icon on every render would replace the handle under the pointer mid-drag. */
+const moveIcon = makeIcon('Move', 'move');
+const turnIcon = makeIcon('Turn', 'turn');
 
 function FitOnce({ bounds }: { bounds: L.LatLngBounds | null }) {
   const map = useMap();
@@ -118,7 +121,7 @@ export function PlacementMap({ proj, excavations, loads, plant, verdict, standof
                   position={[cLL[1], cLL[0]]}
                   draggable
                   title={`Move ${name}`}
-                  icon={handleIcon('Move', 'move')}
+                  icon={moveIcon}
                   eventHandlers={{
                     drag: (ev) => {
                       const ll = (ev.target as L.Marker).getLatLng();
@@ -135,7 +138,7 @@ export function PlacementMap({ proj, excavations, loads, plant, verdict, standof
                         position={[h[1], h[0]]}
                         draggable
                         title={`Turn ${name}`}
-                        icon={handleIcon('Turn', 'turn')}
+                        icon={turnIcon}
                         eventHandlers={{
                           drag: (ev) => {
                             const ll = (ev.target as L.Marker).getLatLng();
