@@ -2,6 +2,8 @@ import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { adminRoutes } from '@client/features/admin';
 import { authRoutes } from '@client/features/auth';
 import { dashboardRoutes } from '@client/features/dashboard';
+import { mapRoutes } from '@client/features/map';
+import { registerRoutes } from '@client/features/register';
 import { ErrorPage, NotFound } from './ErrorPage';
 import { Layout, PublicLayout } from './Layout';
 import { RequireAdmin, RequireAuth } from './RequireAuth';
@@ -11,7 +13,7 @@ import { HomeRedirect, SiteScope } from './SiteScope';
  * Pages of one site, under /sites/:siteId (members of that site and administrators only).
  * Add one with a line, e.g. `{ path: 'map', Component: SiteMapPage },`, and its link in nav.ts.
  */
-const siteRoutes: RouteObject[] = [...dashboardRoutes];
+const siteRoutes: RouteObject[] = [...dashboardRoutes, ...mapRoutes, ...registerRoutes];
 
 /** Other signed-in pages, e.g. `{ path: 'permits/:permitId', Component: PermitPage },`. */
 const signedInRoutes: RouteObject[] = [];
