@@ -19,6 +19,7 @@ export const navItems: NavItem[] = [
   { label: 'Dashboard', to: '/sites/:siteId', end: true },
   { label: 'Site map', to: '/sites/:siteId/map' },
   { label: 'Register', to: '/sites/:siteId/register' },
+  { label: 'Plant', to: '/plant' },
   { label: 'People', to: '/admin/people', who: 'admin' },
   { label: 'Sites', to: '/admin/sites', who: 'admin' },
 ];

@@ -3,6 +3,7 @@ import { adminRoutes } from '@client/features/admin';
 import { authRoutes } from '@client/features/auth';
 import { dashboardRoutes } from '@client/features/dashboard';
 import { mapRoutes } from '@client/features/map';
+import { plantRoutes } from '@client/features/plant';
 import { registerRoutes } from '@client/features/register';
 import { ErrorPage, NotFound } from './ErrorPage';
 import { Layout, PublicLayout } from './Layout';
@@ -16,7 +17,7 @@ import { HomeRedirect, SiteScope } from './SiteScope';
 const siteRoutes: RouteObject[] = [...dashboardRoutes, ...mapRoutes, ...registerRoutes];
 
 /** Other signed-in pages, e.g. `{ path: 'permits/:permitId', Component: PermitPage },`. */
-const signedInRoutes: RouteObject[] = [];
+const signedInRoutes: RouteObject[] = [...plantRoutes];
 
 export const routes: RouteObject[] = [
   {

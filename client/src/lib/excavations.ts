@@ -55,11 +55,6 @@ export async function postForm<T>(path: string, form: FormData, method: 'POST' |
   return (await res.json()) as T;
 }
 
-/** Server field paths `soil[0].top` as form field names `soil.0.top`. */
-export function formFieldName(path: string): string {
-  return path.replace(/\[(\d+)\]/g, '.$1');
-}
-
 /** Metres to 0.01 m, kPa to 0.1: the precision Brink shows figures with. */
 export const fmt = {
   m: (v: number | null | undefined) => (v === null || v === undefined ? '—' : `${v.toFixed(2)} m`),

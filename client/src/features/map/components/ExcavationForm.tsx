@@ -18,8 +18,6 @@ import { Button } from '@client/components/Button';
 import { Caution } from '@client/components/Caution';
 import { ConfirmAction } from '@client/components/ConfirmAction';
 import { FormSummary, SelectField, TextField } from '@client/components/Fields';
-import { ApiError } from '@client/lib/api';
-import { formFieldName } from '@client/lib/excavations';
 import { applyServerErrors } from '@client/lib/forms';
 import { excavationFormSchema, numberOrNull, type ExcavationFormValues } from './excavationFormValues';
 import { SoilTable } from './SoilTable';
@@ -102,8 +100,7 @@ export function ExcavationForm(props: ExcavationFormProps) {
         await onSave(values, drawing);
         setDrawing(null);
       } catch (error) {
-        const named = error instanceof ApiError ? new ApiError(error.status, error.code, error.message, Object.fromEntries(Object.entries(error.fields).map(([k, v]) => [formFieldName(k), v]))) : error;
-        setSummary(applyServerErrors(named, setError, shown, labels));
+        setSummary(applyServerErrors(error, setError, shown, labels));
       }
     },
     () => setSummary('Some details need correcting: see the fields marked below.'),

@@ -1,6 +1,6 @@
 import { useFieldArray, type Control, type FieldErrors, type UseFormRegister, type UseFormWatch } from 'react-hook-form';
 import { Button } from '@client/components/Button';
-import { fieldSentence } from '@client/lib/forms';
+import { ListErrors, listErrorMessages, RemoveRowButton } from '@client/components/ListErrors';
 import type { ExcavationValues } from '@shared/schemas/excavations';
 import { emptyRow, numberOrNull, type ExcavationFormValues, type SoilRow } from './excavationFormValues';
 
@@ -40,17 +40,7 @@ const cell = 'w-20 rounded border border-rule-strong bg-sheet px-2 py-1.5 text-r
 export function SoilTable({ control, register, watch, errors, readOnly }: SoilTableProps) {
   const { fields, append, remove } = useFieldArray({ control, name: 'soil' });
   const rows = watch('soil');
-  const messages: string[] = [];
-  if (errors.soil?.message) messages.push(fieldSentence('Soil layers', errors.soil.message));
-  if (errors.soil?.root?.message) messages.push(fieldSentence('Soil layers', errors.soil.root.message));
-  fields.forEach((_f, i) => {
-    const rowErrors = errors.soil?.[i];
-    if (!rowErrors) return;
-    for (const [k, v] of Object.entries(rowErrors)) {
-      const msg = (v as { message?: string } | undefined)?.message;
-      if (msg) messages.push(fieldSentence(`Layer ${i + 1} ${longNames[k] ?? k}`, msg));
-    }
-  });
+  const messages = listErrorMessages(errors.soil as Parameters<typeof listErrorMessages>[0], fields.length, 'Soil layers', (i, k) => `Layer ${i + 1} ${longNames[k] ?? k}`);
 
   return (
     <fieldset className="flex flex-col gap-2">
@@ -106,9 +96,7 @@ export function SoilTable({ control, register, watch, errors, readOnly }: SoilTa
                   </td>
                   <td className="px-1 py-1">
                     {!readOnly && fields.length > 1 ? (
-                      <Button variant="quiet" className="min-h-9 px-2" aria-label={`Remove layer ${i + 1}`} onClick={() => remove(i)}>
-                        Remove
-                      </Button>
+                      <RemoveRowButton label={`Remove layer ${i + 1}`} onClick={() => remove(i)} />
                     ) : null}
                   </td>
                 </tr>
@@ -117,13 +105,7 @@ export function SoilTable({ control, register, watch, errors, readOnly }: SoilTa
           </tbody>
         </table>
       </div>
-      {messages.length ? (
-        <ul className="text-sm font-semibold text-error-text">
-          {messages.map((m) => (
-            <li key={m}>{m}</li>
-          ))}
-        </ul>
-      ) : null}
+      <ListErrors messages={messages} />
       {!readOnly ? (
         <div>
           <Button variant="secondary" onClick={() => append(emptyRow(null))}>
