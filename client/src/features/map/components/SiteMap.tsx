@@ -30,6 +30,17 @@ interface SiteMapProps {
   children?: ReactNode;
   /** Set to the Leaflet map once it exists (for fitting bounds, finishing a drawing). */
   mapRef?: Ref<L.Map | null>;
+  /** Bring these bounds ([[south, west], [north, east]]) into view whenever the key changes. */
+  focus?: { key: string; bounds: [[number, number], [number, number]] } | null;
+}
+
+function FocusOn({ focus }: { focus: SiteMapProps['focus'] }) {
+  const map = useMap();
+  const key = focus?.key;
+  useEffect(() => {
+    if (focus) map.fitBounds(focus.bounds, { maxZoom: 19, padding: [40, 40] });
+  }, [map, key]); // eslint-disable-line react-hooks/exhaustive-deps
+  return null;
 }
 
 function OfflineGrid({ origin }: { origin: SiteMapProps['origin'] }) {
@@ -102,7 +113,7 @@ function ExcavationShape({ e, selected, onSelect }: { e: Excavation; selected: b
  * tools come in as children.
  */
 export function SiteMap(props: SiteMapProps) {
-  const { origin, excavations, selectedId, hiddenId, onSelect, tileUrl, tileAttribution, plan, planOpacity, draft, children, mapRef } = props;
+  const { origin, excavations, selectedId, hiddenId, onSelect, tileUrl, tileAttribution, plan, planOpacity, draft, children, mapRef, focus } = props;
   const [ratio, setRatio] = useState<number | null>(null);
   const shown = excavations.filter((e) => e.id !== hiddenId);
   return (
@@ -147,6 +158,7 @@ export function SiteMap(props: SiteMapProps) {
         <ScaleControl position="bottomleft" imperial={false} maxWidth={160} />
         <ZoomControl position="bottomright" zoomInTitle="Zoom in" zoomOutTitle="Zoom out" />
         <ScaleRatio onChange={setRatio} />
+        <FocusOn focus={focus} />
         {children}
       </MapContainer>
       <NorthArrow ratio={ratio} />

@@ -82,6 +82,8 @@ export function SiteMapPage() {
   const [preview, setPreview] = useState<Preview | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
   const [opacity, setOpacity] = useState<number | null>(null);
+  const [focus, setFocus] = useState<{ key: string; bounds: [[number, number], [number, number]] } | null>(null);
+  const showOnMap = (e: Excavation) => setFocus({ key: `${e.id}-${Date.now()}`, bounds: boundsOf(e) });
   const list = useMemo(() => excavations.data ?? [], [excavations.data]);
 
   const open = useCallback(
@@ -100,7 +102,7 @@ export function SiteMapPage() {
     const e = list.find((x) => x.id === wanted);
     if (e) {
       open(e);
-      mapRef.current?.fitBounds(boundsOf(e), { maxZoom: 19, padding: [40, 40] });
+      setFocus({ key: `${e.id}`, bounds: boundsOf(e) });
     }
   }, [wanted, list, editing, open]);
 
@@ -193,6 +195,7 @@ export function SiteMapPage() {
             plan={plan.data ?? null}
             planOpacity={planOpacity}
             draft={editing ? previewShapes(preview, site) : null}
+            focus={focus}
           >
             <DrawTools drawing={drawing} onDrawn={onDrawn} editing={editing?.shapeKey ? { key: editing.shapeKey, geometry: editing.geometry } : null} onEdited={onEdited} />
           </SiteMap>
@@ -242,7 +245,7 @@ export function SiteMapPage() {
           ) : (
             <>
               <Legend />
-              <ExcavationList list={list} onOpen={(e) => { open(e); mapRef.current?.fitBounds(boundsOf(e), { maxZoom: 19, padding: [40, 40] }); }} />
+              <ExcavationList list={list} onOpen={(e) => { open(e); showOnMap(e); }} />
               <PlanControls siteId={siteId} origin={site} plan={plan.data ?? null} canEdit={canEdit} opacity={planOpacity} onOpacity={setOpacity} />
             </>
           )}
