@@ -189,18 +189,18 @@ describe('excavation register: bad input is refused naming the field, and nothin
     const bowtie = { type: 'Polygon' as const, coordinates: [[at(0, 100), at(10, 110), at(10, 100), at(0, 110), at(0, 100)]] };
     const r = await post(pit({ geometry: bowtie }));
     expect(r.status).toBe(400);
-    expect(r.body.error.fields.geometry).toMatch(/crosses itself/);
+    expect(r.body.error.fields.geometry).toMatch(/must not cross itself/);
     const loop = { type: 'LineString' as const, coordinates: [at(0, 100), at(20, 120), at(20, 100), at(0, 120)] };
     const l = await post(trench({ geometry: loop }));
     expect(l.status).toBe(400);
-    expect(l.body.error.fields.geometry).toMatch(/crosses itself/);
+    expect(l.body.error.fields.geometry).toMatch(/must not cross itself/);
   });
 
   it('refuses a trench 50 km from the site origin', async () => {
     const reference = ref('FAR');
     const r = await post(trench({ reference, geometry: { type: 'LineString', coordinates: [at(50_000, 0), at(50_040, 0)] } }));
     expect(r.status).toBe(400);
-    expect(r.body.error.fields.geometry).toMatch(/50 km from the site origin.*within 5 km/);
+    expect(r.body.error.fields.geometry).toBe('must lie within 5 km of the site origin (a point is 50 km from it)');
     expect(await count(reference)).toBe(0);
   });
 
@@ -273,7 +273,7 @@ describe('excavation register: changes', () => {
     const e = (await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(pit())).body.excavation as Excavation;
     const r = await as.coordinator.patch(`/api/sites/${siteId}/excavations/${e.id}`).send({ geometry: { type: 'Polygon', coordinates: [[at(0, 0), at(10, 10), at(10, 0), at(0, 10), at(0, 0)]] }, version: e.version });
     expect(r.status).toBe(400);
-    expect(r.body.error.fields.geometry).toMatch(/crosses itself/);
+    expect(r.body.error.fields.geometry).toMatch(/must not cross itself/);
     const moved = await as.coordinator.patch(`/api/sites/${siteId}/excavations/${e.id}`).send({ geometry: { type: 'Polygon', coordinates: [[at(0, 0), at(9_000, 0), at(9_000, 6), at(0, 6), at(0, 0)]] }, version: e.version });
     expect(moved.status).toBe(400);
     expect(moved.body.error.fields.geometry).toMatch(/within 5 km/);

@@ -92,7 +92,7 @@ export const geometrySchema = z
     }
     if (crossings.features.length > 0) {
       const [lon, lat] = crossings.features[0].geometry.coordinates;
-      ctx.addIssue({ code: 'custom', message: `crosses itself (near ${lat.toFixed(6)}, ${lon.toFixed(6)})` });
+      ctx.addIssue({ code: 'custom', message: `must not cross itself (it does near ${lat.toFixed(6)}, ${lon.toFixed(6)})` });
     }
   });
 export type ExcavationGeometry = LineString | Polygon;

@@ -51,7 +51,7 @@ export function placementProblems(v: Pick<ExcavationValues, 'kind' | 'geometry' 
   }
   if (farthest > SITE_RADIUS) {
     const km = farthest >= 10_000 ? (farthest / 1000).toFixed(0) : (farthest / 1000).toFixed(1);
-    return { geometry: `reaches ${km} km from the site origin; every point must be within ${SITE_RADIUS / 1000} km` };
+    return { geometry: `must lie within ${SITE_RADIUS / 1000} km of the site origin (a point is ${km} km from it)` };
   }
   try {
     outlineAndZone(v, proj);
