@@ -208,7 +208,6 @@ export async function seedPermits(db: Db, ctx: DemoContext): Promise<void> {
           at: decisionAt,
           reason: p.decision.reason ?? '',
           standoff: p.decision.standoff ?? null,
-          computedStandoff: null,
           conditions: p.decision.conditions ?? [],
           signature: `Signed by ${coordinatorName} with their password at ${decisionAt!.replace('T', ' ').slice(0, 19)} UTC`,
         }

@@ -332,7 +332,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
     passes,
     verdict: verdictOf(utilisation, passes),
     computedStandoff: maxOrNull(excavations.map((e) => e.standoff)),
-    outsideInfluence: [...outside],
+    outsideInfluence: own.filter((o) => outside.has(o.load.id)).map((o) => o.feet[0]?.label ?? o.load.id),
     otherPermits: input.others.filter((o) => excavations.some((e) => e.counted.some((c) => c.id === o.id))),
     warnings: [...warnings, ...excavations.flatMap((e) => e.result.warnings.map((w) => `${e.reference}: ${w}`))],
     caution: CAUTION,

@@ -396,8 +396,8 @@ export interface PermitDecision {
   reason: string;
   /** The standoff the coordinator set (m), or null when approved as placed. */
   standoff: number | null;
-  /** The computed standoff when the decision was made (m; null when no offset works). */
-  computedStandoff: number | null;
+  /** The computed standoff when the decision was made (m; null when no offset works; absent where none was recorded, as in demo data). */
+  computedStandoff?: number | null;
   conditions: string[];
   /** "Signed by typing the password": name and time. */
   signature: string;
@@ -535,7 +535,7 @@ export interface PermitCheck {
   verdict: Verdict;
   /** The largest standoff over every load and excavation (m); null when some load has none. */
   computedStandoff: number | null;
-  /** Loads farther than the influence zone of every named excavation. */
+  /** Labels of the loads farther than the influence zone of every named excavation. */
   outsideInfluence: string[];
   /** The other permits counted, with their loads as they were: what the check added up. */
   otherPermits: OtherPermit[];

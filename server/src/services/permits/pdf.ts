@@ -107,7 +107,7 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
     doc.fillColor(INK).font('Helvetica').fontSize(10);
     if (d.action === 'approve') {
       field(doc, 'Standoff', d.standoff != null ? `Keep every load at least ${m2(d.standoff)} from the excavation edge.` : 'Loads as placed on the plan (no standoff set).');
-      field(doc, 'Computed standoff', d.computedStandoff == null ? 'none: no offset within 3H lets the support carry the loads' : m2(d.computedStandoff));
+      field(doc, 'Computed standoff', d.computedStandoff === undefined ? 'not recorded with this decision' : d.computedStandoff === null ? 'none: no offset within 3H lets the support carry the loads' : m2(d.computedStandoff));
       if (d.conditions.length) {
         doc.font('Helvetica-Bold').text('Conditions');
         doc.font('Helvetica');

@@ -135,7 +135,7 @@ function DecisionPanel({ permit }: { permit: PermitDetail }) {
           <p data-testid="decision-standoff">
             {d.standoff !== null ? `Standoff: keep every load at least ${d.standoff.toFixed(2)} m from the excavation edge.` : 'Approved as placed on the plan (no standoff set).'}
           </p>
-          <p className="text-sm text-ink-soft">Computed standoff at the decision: {d.computedStandoff === null ? 'none within 3H' : `${d.computedStandoff.toFixed(2)} m`}.</p>
+          <p className="text-sm text-ink-soft">Computed standoff at the decision: {d.computedStandoff === undefined ? 'not recorded' : d.computedStandoff === null ? 'none within 3H' : `${d.computedStandoff.toFixed(2)} m`}.</p>
           {d.conditions.length ? (
             <>
               <h3 className="font-semibold">Conditions</h3>
