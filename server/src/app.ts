@@ -10,9 +10,11 @@ import type { Deps } from './deps';
 import { Api, errorHandler, HttpError } from './http';
 import { registerAuthRoutes } from './routes/auth';
 import { registerPeopleRoutes } from './routes/people';
+import { registerPlantRoutes } from './routes/plant';
 import { registerSiteRoutes } from './routes/sites';
 import { registerSystemRoutes } from './routes/system';
 import { registerUploadRoutes } from './routes/uploads';
+import { registerPermitRoutes } from './routes/permits';
 
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../dist/client');
 
@@ -91,6 +93,8 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerPeopleRoutes(api);
   registerSiteRoutes(api);
   registerUploadRoutes(api);
+  registerPermitRoutes(api);
+  registerPlantRoutes(api);
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
 
