@@ -9,6 +9,7 @@ import pg from 'pg';
 import type { Deps } from './deps';
 import { Api, errorHandler, HttpError } from './http';
 import { registerAuthRoutes } from './routes/auth';
+import { registerFieldRoutes } from './routes/field';
 import { registerPeopleRoutes } from './routes/people';
 import { registerPlantRoutes } from './routes/plant';
 import { registerSiteRoutes } from './routes/sites';
@@ -95,6 +96,7 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerUploadRoutes(api);
   registerPermitRoutes(api);
   registerPlantRoutes(api);
+  registerFieldRoutes(api);
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
 
