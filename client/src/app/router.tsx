@@ -2,6 +2,7 @@ import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { adminRoutes } from '@client/features/admin';
 import { authRoutes } from '@client/features/auth';
 import { dashboardRoutes } from '@client/features/dashboard';
+import { fieldRoutes } from '@client/features/field';
 import { ErrorPage, NotFound } from './ErrorPage';
 import { Layout, PublicLayout } from './Layout';
 import { RequireAdmin, RequireAuth } from './RequireAuth';
@@ -21,6 +22,8 @@ export const routes: RouteObject[] = [
     errorElement: <ErrorPage />,
     children: [
       { Component: PublicLayout, children: authRoutes },
+      // The phone view has its own frame and sign-in check (it opens with no signal).
+      ...fieldRoutes,
       {
         Component: RequireAuth,
         children: [
