@@ -1,4 +1,5 @@
 import { Workbox } from 'workbox-window';
+import { SIGNED_OUT_EVENT } from '@client/lib/session';
 import { forgetCopies } from './store';
 
 /** The runtime caches the service worker keeps (vite.config.ts): forgotten on sign-out with the copies. */
@@ -10,6 +11,8 @@ const personalCaches = ['brink-field-api', 'brink-field-files'];
  * (the field view also reads its IndexedDB copies).
  */
 export function registerServiceWorker(): void {
+  // On a shared phone, the next person must not see the last one's permits, even with no signal.
+  if (typeof window !== 'undefined') window.addEventListener(SIGNED_OUT_EVENT, () => void forgetPersonalCopies());
   if (!import.meta.env.PROD || typeof navigator === 'undefined' || !('serviceWorker' in navigator)) return;
   const wb = new Workbox('/sw.js', { scope: '/' });
   wb.register().catch(() => {
