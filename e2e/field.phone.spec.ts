@@ -249,6 +249,7 @@ test('the field pages have no serious or critical accessibility faults, large ty
   for (const path of pages) {
     await page.goto(path);
     await expect(page.locator('main h1')).toBeVisible();
+    await expect(page.getByTestId('last-updated')).toBeVisible();
     if (path !== '/field') {
       await standAt(context, 43, 12, 1);
       const start = page.getByRole('button', { name: 'Show where I am' });

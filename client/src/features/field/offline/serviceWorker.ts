@@ -13,7 +13,7 @@ const personalCaches = ['brink-field-api', 'brink-field-files'];
 export function registerServiceWorker(): void {
   // On a shared phone, the next person must not see the last one's permits, even with no signal.
   if (typeof window !== 'undefined') window.addEventListener(SIGNED_OUT_EVENT, () => void forgetPersonalCopies());
-  if (!import.meta.env.PROD || typeof navigator === 'undefined' || !('serviceWorker' in navigator)) return;
+  if (import.meta.env.MODE !== 'production' || typeof navigator === 'undefined' || !('serviceWorker' in navigator)) return;
   const wb = new Workbox('/sw.js', { scope: '/' });
   wb.register().catch(() => {
     // Not allowed here (plain http on a LAN address, private mode): the app works online as before.
