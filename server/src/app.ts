@@ -10,8 +10,10 @@ import type { Deps } from './deps';
 import { Api, errorHandler, HttpError } from './http';
 import { registerAuthRoutes } from './routes/auth';
 import { registerFieldRoutes } from './routes/field';
+import { registerExcavationRoutes } from './routes/excavations';
 import { registerPeopleRoutes } from './routes/people';
 import { registerPlantRoutes } from './routes/plant';
+import { registerSitePlanRoutes } from './routes/site-plan';
 import { registerSiteRoutes } from './routes/sites';
 import { registerSystemRoutes } from './routes/system';
 import { registerUploadRoutes } from './routes/uploads';
@@ -97,6 +99,8 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerPermitRoutes(api);
   registerPlantRoutes(api);
   registerFieldRoutes(api);
+  registerExcavationRoutes(api);
+  registerSitePlanRoutes(api);
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
 

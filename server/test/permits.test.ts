@@ -63,7 +63,7 @@ describe('the status machine, for every status, action and role', () => {
   it('records the audit log for a transition', async () => {
     const p = await createPermit(w);
     await act(w.agents.supervisor, p.id, { action: 'withdraw', version: p.version }).expect(200);
-    const rows = await t.deps.db.selectFrom('audit_log').selectAll().where('entity', '=', 'permit').where('entity_id', '=', String(p.id)).execute();
+    const rows = await t.deps.db.selectFrom('audit_log').selectAll().where('entity', '=', 'permit').where('entity_id', '=', String(p.id)).orderBy('id').execute();
     expect(rows.map((r) => r.action)).toEqual(['created', 'withdraw']);
   });
 });

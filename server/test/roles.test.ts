@@ -42,6 +42,7 @@ export const matrix: Record<string, Row> = {
   'POST /api/sites': { allow: ['admin'], body: {} },
   'PATCH /api/sites/:siteId': { allow: ['admin'], body: { name: '' } },
   'GET /api/uploads/:id': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/operators': { allow: ['admin', 'supervisor', 'coordinator'] },
   'POST /api/permits': { allow: ['supervisor'], body: (site: number) => ({ siteId: site }) },
   'GET /api/permits': { allow: signedInPeople },
   'GET /api/permits/:id': { allow: ['admin', ...siteMembers] },
@@ -66,6 +67,20 @@ export const matrix: Record<string, Row> = {
   'POST /api/plant': { allow: ['admin', 'coordinator', 'outsider'], body: {} },
   'PATCH /api/plant/:id': { allow: ['admin', 'coordinator', 'outsider'], body: {} },
   'DELETE /api/plant/:id': { allow: ['admin', 'coordinator', 'outsider'] },
+  // The excavation register and the site map: members read; supervisors and coordinators write.
+  'GET /api/sites/:siteId/excavations': { allow: ['admin', ...siteMembers] },
+  'POST /api/sites/:siteId/excavations': { allow: ['admin', 'coordinator', 'supervisor'], body: {} },
+  'PATCH /api/sites/:siteId/excavations/:id': { allow: ['admin', 'coordinator', 'supervisor'], body: {} },
+  'DELETE /api/sites/:siteId/excavations/:id': { allow: ['admin', 'coordinator', 'supervisor'] },
+  'GET /api/sites/:siteId/excavations/:id/history': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/excavations.geojson': { allow: ['admin', ...siteMembers] },
+  'POST /api/sites/:siteId/excavations/import': { allow: ['admin', 'coordinator', 'supervisor'] },
+  'POST /api/sites/:siteId/excavations/:id/drawing': { allow: ['admin', 'coordinator', 'supervisor'] },
+  'DELETE /api/sites/:siteId/excavations/:id/drawing': { allow: ['admin', 'coordinator', 'supervisor'] },
+  'GET /api/sites/:siteId/plan': { allow: ['admin', ...siteMembers] },
+  'PUT /api/sites/:siteId/plan': { allow: ['admin', 'coordinator', 'supervisor'] },
+  'PATCH /api/sites/:siteId/plan': { allow: ['admin', 'coordinator', 'supervisor'], body: { opacity: 'dim' } },
+  'DELETE /api/sites/:siteId/plan': { allow: ['admin', 'coordinator', 'supervisor'] },
 };
 
 let t: TestApp;

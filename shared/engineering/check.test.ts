@@ -1,21 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import { runCheck } from './index';
-import { sixRequest, withExcavation, withLoads } from './test-fixtures';
+import { SIX_PROFILE_TOP, SIX_RESULT, sixRequest, withExcavation, withLoads } from './test-fixtures';
 
 describe('the check (engineering.md §4)', () => {
   it('the §6 request gives the §6 result (the hand check of §3.1; common practice, no published source)', () => {
     const r = runCheck(sixRequest());
-    expect(r).toMatchObject({
-      method: 'dispersion-45',
-      coefficients: [{ top: 0, K: 0.3333 }],
-      forces: { soil: 28.5, water: 0, surcharge: 20, allowance: 10 },
-      moments: { surcharge: 30, allowance: 15 },
-      loads: [{ id: 'footing', force: 20, top: 1, bottom: 2, standoff: 2.5 }],
-      utilisation: 2.0,
-      passes: false,
-      warnings: [],
-    });
-    expect(r.profile[0]).toEqual({ z: 0, soil: 0, water: 0, surcharge: 0, total: 0, allowance: 3.333 });
+    expect(r).toMatchObject(SIX_RESULT);
+    expect(r.profile[0]).toEqual(SIX_PROFILE_TOP);
     expect(r.caution).toMatch(/competent temporary works/);
   });
 

@@ -77,10 +77,28 @@ export function soilAndWater(model: SoilModel, z: number, layer: number): number
 /** Largest total pressure at the extra samples and at every effect's jumps (the grid is done by the caller). */
 export function maxTotalOffGrid(ctx: CheckContext, effects: readonly SurchargeEffect[]): number {
   const model = ctx.model;
+  // Sample depths (with the layer on each side at a layer top), kept sorted by depth for `accumulate`.
+  const zs: number[] = [];
+  const ls: number[] = [];
+  const add = (z: number, layer: number) => {
+    let i = zs.length;
+    while (i > 0 && zs[i - 1] > z) i--;
+    zs.splice(i, 0, z);
+    ls.splice(i, 0, layer);
+  };
+  for (const s of ctx.extraSamples) add(s.z, s.layer);
+  for (const e of effects) {
+    for (const z of e.edges) {
+      const below = layerIndexAt(model, z);
+      const above = layerIndexAt(model, z, true);
+      add(z, below);
+      if (above !== below) add(z, above);
+    }
+  }
+  const total = new Float64Array(zs.length);
+  for (const e of effects) e.accumulate(zs, ls, total);
   let best = -Infinity;
-  const samples = [...ctx.extraSamples];
-  for (const e of effects) for (const z of e.edges) bothSides(model, z, samples);
-  for (const s of samples) best = Math.max(best, soilAndWater(model, s.z, s.layer) + sumPressure(effects, s.z, s.layer));
+  for (let k = 0; k < zs.length; k++) best = Math.max(best, total[k] + soilAndWater(model, zs[k], ls[k]));
   return best;
 }
 
@@ -119,28 +137,33 @@ export function utilisationOf(ctx: CheckContext, Fs: number, Ms: number, maxTota
 
 export interface RawProfile {
   z: number[];
-  soil: number[];
-  water: number[];
-  surcharge: number[];
-  allowance: number[];
+  soil: Float64Array;
+  water: Float64Array;
+  surcharge: Float64Array;
+  allowance: Float64Array;
   maxTotal: number;
 }
 
 export function buildProfile(ctx: CheckContext, effects: readonly SurchargeEffect[]): RawProfile {
   const { model, grid, gridLayers } = ctx;
   const qd = ctx.request.excavation.designSurcharge;
-  const out: RawProfile = { z: grid, soil: [], water: [], surcharge: [], allowance: [], maxTotal: -Infinity };
-  for (let k = 0; k < grid.length; k++) {
+  const n = grid.length;
+  const out: RawProfile = {
+    z: grid,
+    soil: new Float64Array(n),
+    water: new Float64Array(n),
+    surcharge: new Float64Array(n),
+    allowance: new Float64Array(n),
+    maxTotal: -Infinity,
+  };
+  for (const e of effects) e.accumulate(grid, gridLayers, out.surcharge);
+  for (let k = 0; k < n; k++) {
     const z = grid[k];
     const li = gridLayers[k];
-    const soil = soilPressure(model, li, z);
-    const water = waterPressure(model, li, z);
-    const sur = sumPressure(effects, z, li);
-    out.soil.push(soil);
-    out.water.push(water);
-    out.surcharge.push(sur);
-    out.allowance.push(model.layers[li].K * qd);
-    out.maxTotal = Math.max(out.maxTotal, soil + water + sur);
+    out.soil[k] = soilPressure(model, li, z);
+    out.water[k] = waterPressure(model, li, z);
+    out.allowance[k] = model.layers[li].K * qd;
+    out.maxTotal = Math.max(out.maxTotal, out.soil[k] + out.water[k] + out.surcharge[k]);
   }
   out.maxTotal = Math.max(out.maxTotal, maxTotalOffGrid(ctx, effects));
   return out;

@@ -23,32 +23,53 @@ export function areaFactor(length: number, offset: number): number {
   return length === Infinity ? 1 : length / (length + 2 * offset);
 }
 
+/** A band of uniform q·f times the layer's K between depths top and bottom (both inclusive). */
+class BandEffect implements SurchargeEffect {
+  force = 0;
+  moment = 0;
+  readonly edges: readonly number[];
+  constructor(
+    private readonly model: SoilModel,
+    readonly top: number,
+    readonly bottom: number,
+    private readonly qf: number,
+  ) {
+    this.edges = [top, bottom];
+    const H = model.H;
+    for (const L of model.layers) {
+      const a = Math.max(top, L.top);
+      const b = Math.min(bottom, L.bottom);
+      if (b <= a) continue;
+      const [F, M] = uniformForceMoment(a, b, L.K * qf, H);
+      this.force += F;
+      this.moment += M;
+    }
+  }
+  pressureAt(z: number, layer: number): number {
+    return z >= this.top && z <= this.bottom ? this.model.layers[layer].K * this.qf : 0;
+  }
+  accumulate(z: ArrayLike<number>, layer: ArrayLike<number>, out: Float64Array): void {
+    const layers = this.model.layers;
+    for (let k = 0; k < z.length; k++) {
+      const zk = z[k];
+      if (zk > this.bottom) break;
+      if (zk >= this.top) out[k] += layers[layer[k]].K * this.qf;
+    }
+  }
+}
+
+const OUT_OF_REACH: SurchargeEffect = {
+  force: 0,
+  moment: 0,
+  top: null,
+  bottom: null,
+  pressureAt: () => 0,
+  edges: NO_EDGES,
+  accumulate: () => undefined,
+};
+
 /** Effect of a uniform pressure q (kPa) of width B at offset d, times the factor f. */
 export function dispersionBand(model: SoilModel, q: number, width: number, offset: number, f: number): SurchargeEffect {
-  const H = model.H;
-  if (offset >= H) {
-    return { force: 0, moment: 0, top: null, bottom: null, pressureAt: () => 0, edges: NO_EDGES };
-  }
-  const top = offset;
-  const bottom = Math.min(offset + width, H);
-  const qf = q * f;
-  let force = 0;
-  let moment = 0;
-  for (const L of model.layers) {
-    const a = Math.max(top, L.top);
-    const b = Math.min(bottom, L.bottom);
-    if (b <= a) continue;
-    const [F, M] = uniformForceMoment(a, b, L.K * qf, H);
-    force += F;
-    moment += M;
-  }
-  const layers = model.layers;
-  return {
-    force,
-    moment,
-    top,
-    bottom,
-    pressureAt: (z, layer) => (z >= top && z <= bottom ? layers[layer].K * qf : 0),
-    edges: [top, bottom],
-  };
+  if (offset >= model.H) return OUT_OF_REACH;
+  return new BandEffect(model, offset, Math.min(offset + width, model.H), q * f);
 }

@@ -19,7 +19,7 @@
  *   times r/2. Both NAVFAC forms are integrated over 0..H in closed form.
  */
 import type { Restraint } from './types';
-import { NO_EDGES, type SurchargeEffect } from './surcharge';
+import { accumulateEach, NO_EDGES, type SurchargeEffect } from './surcharge';
 
 export function restraintFactor(restraint: Restraint): number {
   return restraint === 'unyielding' ? 2 : 1;
@@ -41,19 +41,35 @@ function stripFirstMomentPrimitive(x: number, H: number): number {
   return ((x * x) / 2) * Math.atan2(H, x) - (H / 2) * (x - H * Math.atan2(x, H));
 }
 
+class StripEffect implements SurchargeEffect {
+  readonly force: number;
+  readonly moment: number;
+  readonly top = 0;
+  readonly edges = NO_EDGES;
+  constructor(
+    private readonly q: number,
+    private readonly offset: number,
+    private readonly width: number,
+    readonly bottom: number,
+    private readonly r: number,
+  ) {
+    const H = bottom;
+    const c = (r * q) / Math.PI;
+    const x2 = offset + width;
+    this.force = c * H * (Math.atan2(x2, H) - Math.atan2(offset, H));
+    const firstMoment = c * (stripFirstMomentPrimitive(x2, H) - stripFirstMomentPrimitive(offset, H));
+    this.moment = H * this.force - firstMoment;
+  }
+  pressureAt(z: number): number {
+    return elasticStripPressure(this.q, this.offset, this.width, z, this.r);
+  }
+  accumulate(z: ArrayLike<number>, layer: ArrayLike<number>, out: Float64Array): void {
+    accumulateEach(this, z, layer, out);
+  }
+}
+
 export function elasticStrip(q: number, offset: number, width: number, H: number, r: number): SurchargeEffect {
-  const c = (r * q) / Math.PI;
-  const x2 = offset + width;
-  const force = c * H * (Math.atan2(x2, H) - Math.atan2(offset, H));
-  const firstMoment = c * (stripFirstMomentPrimitive(x2, H) - stripFirstMomentPrimitive(offset, H));
-  return {
-    force,
-    moment: H * force - firstMoment,
-    top: 0,
-    bottom: H,
-    pressureAt: (z) => elasticStripPressure(q, offset, width, z, r),
-    edges: NO_EDGES,
-  };
+  return new StripEffect(q, offset, width, H, r);
 }
 
 /**
@@ -91,18 +107,42 @@ export function navfacPointPressure(P: number, offset: number, H: number, z: num
 }
 
 /** Effect with force (r/2)·F·c·∫f dn / H^(h−1) and moment (r/2)·F·c·∫f·(1 − n) dn · H^(2−h). */
+class NavfacEffect implements SurchargeEffect {
+  readonly force: number;
+  readonly moment: number;
+  readonly top = 0;
+  readonly edges = NO_EDGES;
+  private readonly scale: number;
+  private readonly a: number;
+  constructor(
+    private readonly form: NavfacForm,
+    F: number,
+    offset: number,
+    readonly bottom: number,
+    r: number,
+    integrals: (a: number) => [number, number],
+  ) {
+    const H = bottom;
+    const [c, a] = navfacCoefficients(form, offset / H);
+    const [i0, i1] = integrals(a);
+    const k = (r / 2) * F * c;
+    this.force = (k * i0) / H ** (form.h - 1);
+    this.moment = k * (i0 - i1) * H ** (2 - form.h);
+    this.scale = k / H ** form.h;
+    this.a = a;
+  }
+  pressureAt(z: number): number {
+    const n = z / this.bottom;
+    const den = this.a + n * n;
+    return this.form.k === 1 ? (this.scale * n) / (den * den) : (this.scale * n * n) / (den * den * den);
+  }
+  accumulate(z: ArrayLike<number>, layer: ArrayLike<number>, out: Float64Array): void {
+    accumulateEach(this, z, layer, out);
+  }
+}
+
 function navfacEffect(form: NavfacForm, F: number, offset: number, H: number, r: number, integrals: (a: number) => [number, number]): SurchargeEffect {
-  const [c, a] = navfacCoefficients(form, offset / H);
-  const [i0, i1] = integrals(a);
-  const k = (r / 2) * F * c;
-  return {
-    force: (k * i0) / H ** (form.h - 1),
-    moment: k * (i0 - i1) * H ** (2 - form.h),
-    top: 0,
-    bottom: H,
-    pressureAt: (z) => navfacPressure(form, F, offset, H, z, r),
-    edges: NO_EDGES,
-  };
+  return new NavfacEffect(form, F, offset, H, r, integrals);
 }
 
 /** ∫0..1 n/(a+n²)² dn and ∫0..1 n²/(a+n²)² dn. */

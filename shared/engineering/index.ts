@@ -8,7 +8,7 @@
 import { buildProfile, prepareCheck, utilisationOf, type CheckContext } from './check';
 import { blanketEffect, isBlanket, loadEffect, loadWarnings } from './loads';
 import { NO_STANDOFF_MESSAGE, standoffSolver } from './standoff';
-import type { CheckRequest, CheckResult, LoadResult, PlacedLoad } from './types';
+import type { CheckRequest, CheckResult, LoadResult, PlacedLoad, ProfilePoint } from './types';
 
 export * from './types';
 export { rankineKa, coulombKa, coulombHorizontalK, jakyK0, drainedK } from './coefficients';
@@ -28,14 +28,19 @@ export interface RunOptions {
   standoffs?: boolean;
 }
 
+const SCALE = [1, 10, 100, 1000, 10000, 1e5, 1e6, 1e7, 1e8, 1e9];
+
+/** x rounded to `decimals` places, never −0. */
 function round(x: number, decimals: number): number {
-  const f = 10 ** decimals;
-  return Math.round(x * f) / f + 0;
+  const f = SCALE[decimals];
+  const r = Math.round(x * f) / f;
+  return r === 0 ? 0 : r;
 }
 
 /** Utilisation shown rounded up to 0.001 (after round-off noise), so a shown 1.000 always passes. */
 function roundUtilisation(u: number): number {
-  return Math.ceil(round(u, 9) * 1000) / 1000 + 0;
+  const r = Math.ceil(round(u, 9) * 1000) / 1000;
+  return r === 0 ? 0 : r;
 }
 
 /** Solve the standoff of one placed load of a request (m, or null), with that request's blankets. */
@@ -105,7 +110,7 @@ export function runCheck(request: CheckRequest, options: RunOptions = {}): Check
   return {
     method: request.method,
     coefficients: model.layers.map((l) => ({ top: l.top, K: round(l.K, 4) })),
-    profile: raw.z.map((z, k) => {
+    profile: raw.z.map((z, k): ProfilePoint => {
       const total = raw.soil[k] + raw.water[k] + raw.surcharge[k];
       return {
         z,

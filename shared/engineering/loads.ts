@@ -8,19 +8,33 @@
 import { areaFactor, DEFAULT_PAD, dispersionBand, LINE_LOAD_WIDTH } from './dispersion';
 import { elasticStrip, navfacLine, navfacPoint, restraintFactor } from './elastic';
 import type { SoilModel } from './soil';
-import type { SurchargeEffect } from './surcharge';
+import { accumulateEach, NO_EDGES, type SurchargeEffect } from './surcharge';
 import type { BlanketLoad, Load, Method, PlacedLoad, Restraint } from './types';
 
+class BlanketEffect implements SurchargeEffect {
+  readonly force: number;
+  readonly moment: number;
+  readonly top = 0;
+  readonly bottom: number;
+  readonly edges = NO_EDGES;
+  constructor(
+    private readonly model: SoilModel,
+    private readonly pressure: number,
+  ) {
+    this.force = pressure * model.kForce;
+    this.moment = pressure * model.kMoment;
+    this.bottom = model.H;
+  }
+  pressureAt(_z: number, layer: number): number {
+    return this.model.layers[layer].K * this.pressure;
+  }
+  accumulate(z: ArrayLike<number>, layer: ArrayLike<number>, out: Float64Array): void {
+    accumulateEach(this, z, layer, out);
+  }
+}
+
 export function blanketEffect(model: SoilModel, pressure: number): SurchargeEffect {
-  const layers = model.layers;
-  return {
-    force: pressure * model.kForce,
-    moment: pressure * model.kMoment,
-    top: 0,
-    bottom: model.H,
-    pressureAt: (_z, layer) => layers[layer].K * pressure,
-    edges: [],
-  };
+  return new BlanketEffect(model, pressure);
 }
 
 export interface MethodOptions {

@@ -81,8 +81,10 @@ function soilParts(model: SoilModel, layer: number, z: number): [number, number]
 }
 
 export function soilPressure(model: SoilModel, layer: number, z: number): number {
-  const [g, h] = soilParts(model, layer, z);
-  return Math.max(g, h);
+  const L = model.layers[layer];
+  const sv = sigmaV(model, layer, z);
+  if (L.drained) return Math.max(L.K * (sv - porePressure(model, z)) - L.strengthTerm, 0);
+  return Math.max(sv - L.strengthTerm, MIN_EQUIVALENT_FLUID * z);
 }
 
 export function waterPressure(model: SoilModel, layer: number, z: number): number {

@@ -15,6 +15,13 @@ export interface SurchargeEffect {
   pressureAt(z: number, layer: number): number;
   /** Depths where the pressure jumps (checked when looking for the largest total pressure). */
   edges: readonly number[];
+  /** Adds the pressure at each depth z[k] (in layer layer[k]) to out[k]: the profile's inner loop. */
+  accumulate(z: ArrayLike<number>, layer: ArrayLike<number>, out: Float64Array): void;
+}
+
+/** `accumulate` by calling `pressureAt` at every depth. */
+export function accumulateEach(effect: SurchargeEffect, z: ArrayLike<number>, layer: ArrayLike<number>, out: Float64Array): void {
+  for (let k = 0; k < z.length; k++) out[k] += effect.pressureAt(z[k], layer[k]);
 }
 
 export const NO_EDGES: readonly number[] = [];

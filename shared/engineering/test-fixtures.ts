@@ -51,3 +51,18 @@ export function midpoint(f: (z: number) => number, a: number, b: number, n = 200
   for (let i = 0; i < n; i++) s += f(a + (i + 0.5) * h);
   return s * h;
 }
+
+/** The result engineering.md §6 gives for `sixRequest()` (the hand check of §3.1). */
+export const SIX_RESULT = {
+  method: 'dispersion-45',
+  coefficients: [{ top: 0, K: 0.3333 }],
+  forces: { soil: 28.5, water: 0, surcharge: 20, allowance: 10 },
+  moments: { surcharge: 30, allowance: 15 },
+  loads: [{ id: 'footing', force: 20, top: 1, bottom: 2, standoff: 2.5 }],
+  utilisation: 2.0,
+  passes: false,
+  warnings: [],
+} as const;
+
+/** The first profile point of the §6 result. */
+export const SIX_PROFILE_TOP = { z: 0, soil: 0, water: 0, surcharge: 0, total: 0, allowance: 3.333 } as const;

@@ -147,6 +147,20 @@ describe('zones (engineering.md §5)', () => {
     expect(inside(zone, diag(2.55))).toBe(false);
   });
 
+  it('near the equator the zone still holds every point within the distance (turf measures on a sphere)', () => {
+    const eq = localProjection([30, 0.5]);
+    const zone = influenceZone(ex, 3, eq);
+    const at = (p: XY) => booleanPointInPolygon(turfPoint(eq.toWgs84(p)), zone);
+    expect(at([5, 8.999])).toBe(true);
+    expect(at([-2.999, 3])).toBe(true);
+    expect(at(diag(2.999))).toBe(true);
+    expect(at([5, 9.05])).toBe(false);
+    const L = prepareRing([[0, 0], [10, 0], [10, 4], [4, 4], [4, 10], [0, 10]], 'pit');
+    const concave = influenceZone(L, 2, eq);
+    expect(booleanPointInPolygon(turfPoint(eq.toWgs84([2, 11.999])), concave)).toBe(true);
+    expect(booleanPointInPolygon(turfPoint(eq.toWgs84([2, 12.05])), concave)).toBe(false);
+  });
+
   it('an L-shaped pit gets one zone that fills its inner corner', () => {
     const L = prepareRing([[0, 0], [10, 0], [10, 4], [4, 4], [4, 10], [0, 10]], 'pit');
     const zone = influenceZone(L, 2, proj);

@@ -12,7 +12,7 @@ import { signedDistanceToZone } from './zones';
 export { localProjection, type LocalProjection, type LonLat, type XY } from './projection';
 export { GeometryError, excavationOutline, trenchRing, prepareRing, type ExcavationShape, type FootprintShape, type PreparedOutline } from './outline';
 export { placeFootprint, placePad, type Placement } from './placement';
-export { bufferRing, influenceZone, exclusionZone, zonePolygon, signedDistanceToZone, CORNER_SIDES } from './zones';
+export { influenceZone, exclusionZone, zonePolygon, signedDistanceToZone, ARC_STEPS } from './zones';
 export { boundsGap, boundsOf, distanceToRing, signedDistanceToRing, signedArea, pointInRing, type Ring, type Bounds } from './planar';
 
 /** Pad side of a point load when none is given (m), as in the engine. */

@@ -3,7 +3,6 @@
  * A trench is its centre LineString plus a width (square ends, mitred bends); a pit is a Polygon.
  * A load footprint is a Polygon, or a Point with a pad.
  */
-import { featureCollection, polygon as turfPolygon, union } from '@turf/turf';
 import type { LineString, Point, Polygon } from 'geojson';
 import { anticlockwise, boundsOf, openRing, segmentsMeet, signedArea, type Bounds, type Ring } from './planar';
 import type { LocalProjection, XY } from './projection';
@@ -46,54 +45,36 @@ export function prepareRing(ring: Ring, what: string): PreparedOutline {
   return { ring: ccw, bounds: boundsOf(ccw) };
 }
 
-function unionRings(pieces: Ring[], what: string): Ring {
-  const merged = union(featureCollection(pieces.map((r) => turfPolygon([[...r, r[0]]]))));
-  if (!merged || merged.geometry.type !== 'Polygon') throw new GeometryError(`${what} does not form one outline`);
-  return openRing(merged.geometry.coordinates[0]);
-}
-
-/** Outline of a trench: a rectangle per centre-line segment, the outer side of each bend mitred. */
+/** Outline of a trench: both sides offset by half the width, mitred at each bend, square at the ends. */
 export function trenchRing(centre: XY[], width: number): Ring {
   const pts = centre.filter((p, i) => i === 0 || p[0] !== centre[i - 1][0] || p[1] !== centre[i - 1][1]);
   if (pts.length < 2) throw new GeometryError('trench centre line needs two distinct points');
   if (!(width > 0)) throw new GeometryError('trench width must be greater than 0 m');
   const h = width / 2;
-  const dirs = pts.slice(1).map((p, i) => {
+  // Unit left normal of each segment.
+  const normals = pts.slice(1).map((p, i): XY => {
     const dx = p[0] - pts[i][0];
     const dy = p[1] - pts[i][1];
     const len = Math.hypot(dx, dy);
-    return [dx / len, dy / len] as XY;
+    return [-dy / len, dx / len];
   });
-  const left = (u: XY): XY => [-u[1] * h, u[0] * h];
-  const pieces: Ring[] = dirs.map((u, i) => {
-    const [nx, ny] = left(u);
-    const a = pts[i];
-    const b = pts[i + 1];
-    return [[a[0] - nx, a[1] - ny], [b[0] - nx, b[1] - ny], [b[0] + nx, b[1] + ny], [a[0] + nx, a[1] + ny]];
-  });
-  for (let i = 1; i < pts.length - 1; i++) {
-    const u1 = dirs[i - 1];
-    const u2 = dirs[i];
-    const cross = u1[0] * u2[1] - u1[1] * u2[0];
-    const dot = u1[0] * u2[0] + u1[1] * u2[1];
-    const turn = (Math.atan2(Math.abs(cross), dot) * 180) / Math.PI;
+  const left: Ring = [];
+  const right: Ring = [];
+  for (let i = 0; i < pts.length; i++) {
+    const n1 = normals[Math.max(0, i - 1)];
+    const n2 = normals[Math.min(normals.length - 1, i)];
+    const dot = n1[0] * n2[0] + n1[1] * n2[1];
+    const turn = (Math.acos(Math.max(-1, Math.min(1, dot))) * 180) / Math.PI;
     if (turn > MAX_TRENCH_TURN) {
       throw new GeometryError(`trench centre line turns by ${turn.toFixed(0)}° at point ${i}: at most ${MAX_TRENCH_TURN}°; split it into separate trenches`);
     }
-    if (Math.abs(cross) < 1e-12) continue;
-    const s = cross > 0 ? -1 : 1; // the outer side of the bend
-    const n1 = left(u1);
-    const n2 = left(u2);
-    const k = s / (1 + dot);
-    const p = pts[i];
-    pieces.push([
-      p,
-      [p[0] + s * n1[0], p[1] + s * n1[1]],
-      [p[0] + k * (n1[0] + n2[0]), p[1] + k * (n1[1] + n2[1])],
-      [p[0] + s * n2[0], p[1] + s * n2[1]],
-    ]);
+    // The mitre point of both offset lines lies along n1 + n2 at h/cos(turn/2) = h·2/|n1 + n2|²·|n1 + n2|.
+    const k = h / (1 + dot);
+    const m: XY = [k * (n1[0] + n2[0]), k * (n1[1] + n2[1])];
+    left.push([pts[i][0] + m[0], pts[i][1] + m[1]]);
+    right.push([pts[i][0] - m[0], pts[i][1] - m[1]]);
   }
-  return pieces.length === 1 ? pieces[0] : unionRings(pieces, 'trench');
+  return [...right, ...left.reverse()];
 }
 
 export function excavationOutline(shape: ExcavationShape, proj: LocalProjection): PreparedOutline {
@@ -104,10 +85,3 @@ export function excavationOutline(shape: ExcavationShape, proj: LocalProjection)
   return prepareRing(openRing(shape.outline.coordinates[0].map((c) => proj.toLocal(c))), 'pit outline');
 }
 
-/** Union of rings (used for buffers); a Polygon's rings or a MultiPolygon's polygons. */
-export function unionOf(pieces: Ring[]): XY[][][] {
-  const merged = union(featureCollection(pieces.map((r) => turfPolygon([[...r, r[0]]]))));
-  if (!merged) return [];
-  const g = merged.geometry;
-  return (g.type === 'Polygon' ? [g.coordinates] : g.coordinates) as XY[][][];
-}

@@ -19,6 +19,8 @@ export interface LocalProjection {
   origin: LonLat;
   toLocal(p: readonly number[]): XY;
   toWgs84(p: readonly number[]): LonLat;
+  /** Radii of curvature at the origin (m): meridional M ≤ prime vertical N. */
+  radii: { meridional: number; primeVertical: number };
 }
 
 export function localProjection(origin: LonLat): LocalProjection {
@@ -33,5 +35,6 @@ export function localProjection(origin: LonLat): LocalProjection {
     origin,
     toLocal: (p) => [(p[0] - origin[0]) * kx, (p[1] - origin[1]) * ky],
     toWgs84: (p) => [origin[0] + p[0] / kx, origin[1] + p[1] / ky],
+    radii: { meridional: M, primeVertical: N },
   };
 }

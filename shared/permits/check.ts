@@ -11,8 +11,9 @@ import { CAUTION, runCheck, type CheckRequest, type Excavation, type Load, type 
 import {
   GeometryError,
   localProjection,
-  measureLoad,
+  placeFootprint,
   prepareExcavation,
+  prepareRing,
   type ExcavationShape,
   type LocalProjection,
   type PreparedOutline,
@@ -20,6 +21,8 @@ import {
 } from '../geometry';
 import { distanceToRing, pointInRing, pointSegment, segmentsMeet } from '../geometry/planar';
 import { elementLoad, stockpilePressure, type PlantElement } from '../schemas/plant';
+import { calcExcavationOf, type Excavation as RegisterExcavation } from '../schemas/excavations';
+import type { LineString, Polygon } from 'geojson';
 import {
   verdictOf,
   type CheckedLoad,
@@ -27,9 +30,22 @@ import {
   type ExcavationCheck,
   type LngLat,
   type PermitCheck,
-  type PermitStatus,
+  type OtherPermit,
   type PlacedLoad,
 } from '../schemas/permits';
+
+/** An excavation of the register as the check needs it: its plan shape and its engine inputs. */
+export function checkExcavationOf(e: Pick<RegisterExcavation, 'id' | 'reference' | 'name' | 'kind' | 'geometry' | 'width' | 'soil'> & CalcFields): CheckExcavation {
+  return {
+    id: e.id,
+    reference: e.reference,
+    name: e.name,
+    shape: e.kind === 'trench' ? { kind: 'trench', centreLine: e.geometry as LineString, width: e.width ?? 0 } : { kind: 'pit', outline: e.geometry as Polygon },
+    excavation: calcExcavationOf(e),
+    soil: e.soil as SoilLayer[],
+  };
+}
+type CalcFields = Parameters<typeof calcExcavationOf>[0];
 
 /** An excavation as the check needs it: its plan shape and its engine inputs. */
 export interface CheckExcavation {
@@ -49,16 +65,7 @@ export interface PlantForCheck {
   elements: PlantElement[];
 }
 
-/** A permit whose loads share an excavation and an overlapping window with the one checked. */
-export interface OtherPermit {
-  id: number;
-  number: string;
-  status: PermitStatus;
-  windowStart: string;
-  windowEnd: string;
-  excavationIds: number[];
-  loads: PlacedLoad[];
-}
+export type { OtherPermit };
 
 export interface CheckInput {
   /** The site origin, for site-local metres. */
@@ -173,13 +180,10 @@ function pathOffset(outline: PreparedOutline, path: XY[]): number {
 export function engineLoad(f: Footprint, outline: PreparedOutline, id: string): Exclude<Load, { kind: 'blanket' }> {
   const round = (x: number) => Math.round(x * 1000) / 1000;
   if (f.kind === 'line') return { id, kind: 'line', force: f.intensity, offset: round(pathOffset(outline, f.local)) };
-  const placed = measureLoad(outline, { kind: 'polygon', footprint: { type: 'Polygon', coordinates: [[...f.local, f.local[0]]] } }, identity);
+  const placed = placeFootprint(outline, prepareRing(f.local, 'load footprint').ring);
   if (f.kind === 'strip') return { id, kind: 'strip', pressure: f.intensity, width: round(placed.width), offset: round(placed.offset) };
   return { id, kind: 'area', pressure: f.intensity, width: round(placed.width), length: round(placed.length), offset: round(placed.offset) };
 }
-
-/** Footprints are already site-local: measure them without projecting again. */
-const identity: LocalProjection = { origin: [0, 0], toLocal: (p) => [p[0], p[1]], toWgs84: (p) => [p[0], p[1]] };
 
 /** Do two windows overlap (a shared instant, not merely touching ends)? */
 export function windowsOverlap(a: { windowStart: string; windowEnd: string }, b: { windowStart: string; windowEnd: string }): boolean {
@@ -329,6 +333,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
     verdict: verdictOf(utilisation, passes),
     computedStandoff: maxOrNull(excavations.map((e) => e.standoff)),
     outsideInfluence: [...outside],
+    otherPermits: input.others.filter((o) => excavations.some((e) => e.counted.some((c) => c.id === o.id))),
     warnings: [...warnings, ...excavations.flatMap((e) => e.result.warnings.map((w) => `${e.reference}: ${w}`))],
     caution: CAUTION,
   };

@@ -31,8 +31,9 @@ const objectError = (what: string) => ({
   error: (iss: { input?: unknown }) => (iss.input === undefined ? 'is required' : `must be ${what}, not ${describe(iss.input)}`),
 });
 
-const positive = (unit: string) => num().gt(0, `must be greater than 0 ${unit}`);
-const atLeastZero = (unit: string) => num().min(0, `must be at least 0 ${unit}`);
+const withUnit = (n: number, unit: string) => (unit === '°' ? `${n}°` : `${n} ${unit}`);
+const positive = (unit: string) => num().gt(0, `must be greater than ${withUnit(0, unit)}`);
+const atLeastZero = (unit: string) => num().min(0, `must be at least ${withUnit(0, unit)}`);
 
 function choice<const T extends readonly [string, ...string[]]>(values: T) {
   return z.enum(values, {

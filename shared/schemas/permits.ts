@@ -519,6 +519,12 @@ export interface ExcavationCheck {
   verdict: Verdict;
 }
 
+/** A permit whose loads share an excavation and an overlapping window with the one checked. */
+export interface OtherPermit extends CountedPermit {
+  excavationIds: number[];
+  loads: PlacedLoad[];
+}
+
 export interface PermitCheck {
   checkedAt: string;
   method: 'dispersion-45' | 'elastic';
@@ -531,6 +537,8 @@ export interface PermitCheck {
   computedStandoff: number | null;
   /** Loads farther than the influence zone of every named excavation. */
   outsideInfluence: string[];
+  /** The other permits counted, with their loads as they were: what the check added up. */
+  otherPermits: OtherPermit[];
   warnings: string[];
   caution: string;
 }

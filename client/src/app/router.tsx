@@ -3,6 +3,10 @@ import { adminRoutes } from '@client/features/admin';
 import { authRoutes } from '@client/features/auth';
 import { dashboardRoutes } from '@client/features/dashboard';
 import { fieldRoutes } from '@client/features/field';
+import { permitRoutes, permitSiteRoutes } from '@client/features/permits';
+import { mapRoutes } from '@client/features/map';
+import { plantRoutes } from '@client/features/plant';
+import { registerRoutes } from '@client/features/register';
 import { ErrorPage, NotFound } from './ErrorPage';
 import { Layout, PublicLayout } from './Layout';
 import { RequireAdmin, RequireAuth } from './RequireAuth';
@@ -12,10 +16,10 @@ import { HomeRedirect, SiteScope } from './SiteScope';
  * Pages of one site, under /sites/:siteId (members of that site and administrators only).
  * Add one with a line, e.g. `{ path: 'map', Component: SiteMapPage },`, and its link in nav.ts.
  */
-const siteRoutes: RouteObject[] = [...dashboardRoutes];
+const siteRoutes: RouteObject[] = [...dashboardRoutes, ...mapRoutes, ...registerRoutes, ...permitSiteRoutes];
 
 /** Other signed-in pages, e.g. `{ path: 'permits/:permitId', Component: PermitPage },`. */
-const signedInRoutes: RouteObject[] = [];
+const signedInRoutes: RouteObject[] = [...plantRoutes, ...permitRoutes];
 
 export const routes: RouteObject[] = [
   {

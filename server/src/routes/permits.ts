@@ -12,12 +12,12 @@ import {
   transitionSchema,
   type PermitStatus,
 } from '@shared/schemas/permits';
-import { Api, badRequest, conflict, forbidden, HttpError, notFound } from '../http';
+import { Api, badRequest, conflict, forbidden, HttpError, notFound, siteFromParam } from '../http';
 import { audit } from '../services/audit';
 import { filesOf, limits, receiveFiles, sendUpload, storeUpload } from '../services/uploads';
 import { userActor } from '../services/permits/actors';
 import { confirmBriefing } from '../services/permits/briefing';
-import { checkProposal } from '../services/permits/check';
+import { checkProposal, ensureChecked } from '../services/permits/check';
 import { StaleError, transition } from '../services/permits/machine';
 import { permitPdf } from '../services/permits/pdf';
 import { listPermits, loadDetail, loadRevision, siteOfPermit } from '../services/permits/read';
@@ -44,6 +44,28 @@ export function registerPermitRoutes(api: Api): void {
     }
     return { permit: await loadDetail(db, id, viewer) };
   }
+
+  api.route(
+    {
+      method: 'get',
+      path: '/api/sites/:siteId/operators',
+      summary: 'The plant operators of a site, to name on a permit',
+      tag: 'Permits',
+      access: { kind: 'site', roles: ['supervisor', 'coordinator'], admin: true, siteId: siteFromParam },
+      params: z.object({ siteId: idSchema }),
+    },
+    async ({ params }) => ({
+      operators: await db
+        .selectFrom('site_members')
+        .innerJoin('users', 'users.id', 'site_members.user_id')
+        .select(['users.id', 'users.name', 'users.email'])
+        .where('site_members.site_id', '=', params.siteId)
+        .where('site_members.role', '=', 'operator')
+        .where('users.active', '=', true)
+        .orderBy('users.name')
+        .execute(),
+    }),
+  );
 
   api.route(
     {
@@ -89,7 +111,8 @@ export function registerPermitRoutes(api: Api): void {
 
   api.route(
     { method: 'get', path: '/api/permits/:id', summary: 'One permit: its current revision, check, decision, operators, timeline and attachments', tag: 'Permits', access: members, params: idParams },
-    async ({ params, user, site }) => {
+    async ({ params, user, site, deps }) => {
+      await ensureChecked(db, params.id, deps.now());
       const permit = await loadDetail(db, params.id, { id: user!.id, role: site?.role ?? null });
       if (!permit) throw notFound('That permit');
       return { permit };
@@ -201,6 +224,7 @@ export function registerPermitRoutes(api: Api): void {
       produces: 'application/pdf',
     },
     async ({ params, deps, res }) => {
+      await ensureChecked(db, params.id, deps.now());
       const { buffer, number } = await permitPdf(deps, params.id);
       res.setHeader('Content-Type', 'application/pdf');
       res.setHeader('Content-Disposition', `attachment; filename="permit-${number}.pdf"`);

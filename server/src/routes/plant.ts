@@ -1,7 +1,7 @@
 import type { RequestHandler } from 'express';
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
-import { plantItemSchema, plantItemUpdateSchema, type PlantItem } from '@shared/schemas/plant';
+import { plantItemSchema, plantItemUpdateSchema, type PlantItem, type PlantItemValues } from '@shared/schemas/plant';
 import type { Db, PlantItemsTable } from '@db/database';
 import type { Selectable } from 'kysely';
 import { Api, conflict, forbidden, HttpError, notFound } from '../http';
@@ -53,6 +53,17 @@ function plantEditorsOnly(db: Db): RequestHandler {
   };
 }
 
+function plantColumns(body: PlantItemValues) {
+  return {
+    name: body.name,
+    category: body.category,
+    operating_mass: body.operatingMass,
+    elements: JSON.stringify(body.elements),
+    design_factor: body.designFactor,
+    notes: body.notes,
+  };
+}
+
 const nameTaken = (name: string) => new HttpError(400, 'invalid', `A machine called "${name}" is already in the library.`, { name: 'is already in the library' });
 
 const params = z.object({ id: idSchema });
@@ -83,14 +94,7 @@ export function registerPlantRoutes(api: Api): void {
         .execute(async (trx) => {
           const r = await trx
             .insertInto('plant_items')
-            .values({
-              name: body.name,
-              category: body.category,
-              operating_mass: body.operatingMass,
-              elements: JSON.stringify(body.elements),
-              design_factor: body.designFactor,
-              notes: body.notes,
-            })
+            .values(plantColumns(body))
             .returningAll()
             .executeTakeFirstOrThrow();
           await audit(trx, { actorId: user!.id, entity: 'plant', entityId: r.id, action: 'created', detail: { name: body.name, operatingMass: body.operatingMass } });
@@ -124,12 +128,7 @@ export function registerPlantRoutes(api: Api): void {
           const r = await trx
             .updateTable('plant_items')
             .set({
-              name: body.name,
-              category: body.category,
-              operating_mass: body.operatingMass,
-              elements: JSON.stringify(body.elements),
-              design_factor: body.designFactor,
-              notes: body.notes,
+              ...plantColumns(body),
               version: old.version + 1,
               updated_at: deps.now(),
             })

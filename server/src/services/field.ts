@@ -1,11 +1,13 @@
 import { sql } from 'kysely';
 import type { LineString, Polygon } from 'geojson';
 import type { Db } from '@db/database';
-import { exclusionZone, influenceZone, localProjection, prepareExcavation, type LocalProjection, type PreparedOutline, type XY } from '@shared/geometry';
-import { footprintsOf } from '@shared/permits/check';
+import { exclusionZone, localProjection, prepareExcavation, type LocalProjection, type PreparedOutline, type XY } from '@shared/geometry';
+import { checkExcavationOf, footprintsOf } from '@shared/permits/check';
+import { supportLabels } from '@shared/schemas/excavations';
 import type { Concern, FieldExcavation, FieldFootprint, FieldPermit } from '@shared/schemas/field';
 import type { PermitRevision, PermitStatus } from '@shared/schemas/permits';
-import { checkExcavationOf, plantFor } from './permits/check';
+import { loadExcavations } from './excavations';
+import { plantFor } from './permits/check';
 import { CAUTION } from './permits/caution';
 import { loadRevision, loadSummary, withCurrentRevision } from './permits/read';
 
@@ -48,8 +50,6 @@ export function exclusionDistance(rev: Pick<PermitRevision, 'decision' | 'check'
   const standoff = rev.decision.standoff ?? checked ?? 0;
   return Math.max(standoff, minimumClearance);
 }
-
-const words = (s: string) => s.charAt(0).toUpperCase() + s.slice(1).replace(/-/g, ' ');
 
 /** Concerns with their reporter's name; narrow with `.where(…)`. */
 export function concernQuery(db: Db) {
@@ -98,30 +98,32 @@ export async function loadFieldPermit(db: Db, permitId: number, viewerId: number
   const rev = (await loadRevision(db, permitId, summary.revision))!;
   const site = await db.selectFrom('sites').select(['latitude', 'longitude', 'minimum_clearance']).where('id', '=', summary.siteId).executeTakeFirstOrThrow();
   const proj = localProjection([site.longitude, site.latitude]);
-  const rows = rev.excavationIds.length
-    ? await db.selectFrom('excavations').selectAll().where('site_id', '=', summary.siteId).where('id', 'in', rev.excavationIds).orderBy('reference').execute()
-    : [];
+  // The register's excavations (outline and influence zone as the site map draws them).
+  const rows = await loadExcavations(db, summary.siteId, rev.excavationIds);
 
   const prepared: PreparedOutline[] = [];
-  const excavations: FieldExcavation[] = rows.map((r) => {
+  const excavations: FieldExcavation[] = rows.flatMap((r) => {
+    if (!r.outline || !r.influenceZone) return [];
     const { shape } = checkExcavationOf(r);
     const outline = prepareExcavation(shape, proj);
     prepared.push(outline);
     const standoff = exclusionDistance(rev, r.id, site.minimum_clearance);
-    return {
-      id: r.id,
-      reference: r.reference,
-      name: r.name,
-      kind: r.kind,
-      state: r.state,
-      depth: r.depth,
-      supportLabel: words(r.support_type),
-      shape,
-      outline: closedRing(outline.ring, proj),
-      influenceZone: influenceZone(outline, r.depth, proj),
-      exclusionZone: standoff === null ? null : exclusionZone(outline, standoff, proj),
-      standoff,
-    };
+    return [
+      {
+        id: r.id,
+        reference: r.reference,
+        name: r.name,
+        kind: r.kind,
+        state: r.state,
+        depth: r.depth,
+        supportLabel: supportLabels[r.supportType],
+        shape,
+        outline: r.outline,
+        influenceZone: r.influenceZone,
+        exclusionZone: standoff === null ? null : exclusionZone(outline, standoff, proj),
+        standoff,
+      },
+    ];
   });
 
   const plant = await plantFor(db, rev.loads);

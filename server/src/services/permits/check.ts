@@ -1,37 +1,15 @@
 import { sql } from 'kysely';
-import type { Db, ExcavationsTable } from '@db/database';
-import type { Selectable } from 'kysely';
-import type { LineString, Polygon } from 'geojson';
-import { cumulativeCheck, PlacementError, type CheckExcavation, type OtherPermit, type PlantForCheck } from '@shared/permits/check';
+import type { Db } from '@db/database';
+import { checkExcavationOf, cumulativeCheck, PlacementError, type CheckExcavation, type OtherPermit, type PlantForCheck } from '@shared/permits/check';
 import { countedStatuses, type CheckProposal, type PermitCheck, type PermitStatus, type PlacedLoad } from '@shared/schemas/permits';
-import type { SoilLayer } from '@shared/engineering';
-import { badRequest, notFound } from '../../http';
+import { badRequest, HttpError, notFound } from '../../http';
+import { loadExcavations } from '../excavations';
 import { withCurrentRevision } from './read';
 
-/** An excavation row as the check needs it (plan shape and the engine's inputs). */
-export function checkExcavationOf(r: Selectable<ExcavationsTable>): CheckExcavation {
-  return {
-    id: r.id,
-    reference: r.reference,
-    name: r.name,
-    shape: r.kind === 'trench' ? { kind: 'trench', centreLine: r.geometry as LineString, width: r.width ?? 0 } : { kind: 'pit', outline: r.geometry as Polygon },
-    excavation: {
-      depth: r.depth,
-      groundwaterDepth: r.groundwater_depth,
-      designSurcharge: r.design_surcharge,
-      ratedPressure: r.rated_pressure,
-      pressureState: r.pressure_state,
-      wallFriction: r.wall_friction,
-      restraint: r.restraint,
-    },
-    soil: r.soil as SoilLayer[],
-  };
-}
-
-async function excavationsFor(db: Db, siteId: number, ids: number[]): Promise<CheckExcavation[]> {
-  if (!ids.length) return [];
-  const rows = await db.selectFrom('excavations').selectAll().where('site_id', '=', siteId).where('id', 'in', ids).execute();
-  return ids.flatMap((id) => rows.filter((r) => r.id === id)).map(checkExcavationOf);
+/** The named excavations of the site, in the order named. */
+export async function excavationsFor(db: Db, siteId: number, ids: number[]): Promise<CheckExcavation[]> {
+  const list = await loadExcavations(db, siteId, ids);
+  return ids.flatMap((id) => list.filter((e) => e.id === id)).map(checkExcavationOf);
 }
 
 /** The plant items the loads name, from the library. */
@@ -162,4 +140,21 @@ export async function checkProposal(db: Db, permitId: number, proposal: CheckPro
   };
   if (s.windowEnd <= s.windowStart) throw badRequest('The window must end after it starts.', { windowEnd: 'must be after the start of the window' });
   return runPermitCheck(db, s, now);
+}
+
+/**
+ * Runs and keeps the check of a permit whose current revision has loads and excavations but no
+ * check yet (demo permits seeded without one). A check the placement refuses is left absent.
+ */
+export async function ensureChecked(db: Db, permitId: number, now: Date): Promise<void> {
+  const r = await withCurrentRevision(db)
+    .select(['r.check_result', 'r.excavation_ids', 'r.loads'])
+    .where('p.id', '=', permitId)
+    .executeTakeFirst();
+  if (!r || r.check_result !== null || r.excavation_ids.length === 0 || (r.loads as unknown[]).length === 0) return;
+  try {
+    await checkStoredRevision(db, permitId, now);
+  } catch (err) {
+    if (!(err instanceof HttpError && err.status === 400)) throw err;
+  }
 }

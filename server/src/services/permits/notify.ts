@@ -124,7 +124,7 @@ export async function notifyTransition(deps: Pick<Deps, 'db' | 'config' | 'maile
       ...(asks[action]?.[audience] ? [asks[action]![audience]!] : []),
     ];
     const url = audience === 'operators' ? `${base}/field/permits/${f.permitId}` : `${base}/permits/${f.permitId}`;
-    const message = notice({ subject: `Permit ${f.number} ${headline[action]}`, lines, link: { label: `Open permit ${f.number}`, url } });
+    const message = notice({ subject: `Permit ${f.number} at ${f.siteName} ${headline[action]}`, lines, link: { label: `Open permit ${f.number}`, url } });
     // One message each: people do not see each other's addresses.
     for (const address of to) await deps.mailer.send({ to: address, ...message });
     sent.push(...to);

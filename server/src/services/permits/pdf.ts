@@ -1,6 +1,6 @@
 import PDFDocument from 'pdfkit';
 import QRCode from 'qrcode';
-import { bufferRing, localProjection, prepareExcavation, type XY } from '@shared/geometry';
+import { exclusionZone, localProjection, prepareExcavation, type XY } from '@shared/geometry';
 import { footprintsOf } from '@shared/permits/check';
 import { niceStep, planScale, POINTS_PER_METRE_OF_PAPER, scaleBarLength, ticks } from '@shared/permits/drawing';
 import {
@@ -15,7 +15,8 @@ import type { ProfilePoint } from '@shared/engineering';
 import type { Deps } from '../../deps';
 import { notFound } from '../../http';
 import { CAUTION } from './caution';
-import { checkExcavationOf, plantFor } from './check';
+import type { CheckExcavation } from '@shared/permits/check';
+import { excavationsFor, plantFor } from './check';
 import { loadDetail } from './read';
 
 // The printed permit. pdfkit's built-in Helvetica (WinAnsi): text is written through `t()`, which
@@ -60,9 +61,7 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
   if (!permit) throw notFound('That permit');
   const site = await deps.db.selectFrom('sites').select(['name', 'latitude', 'longitude']).where('id', '=', permit.siteId).executeTakeFirstOrThrow();
   const rev = permit.current;
-  const exRows = rev.excavationIds.length
-    ? await deps.db.selectFrom('excavations').selectAll().where('id', 'in', rev.excavationIds).execute()
-    : [];
+  const excavations = await excavationsFor(deps.db, permit.siteId, rev.excavationIds);
   const plant = await plantFor(deps.db, rev.loads);
   const qrUrl = `${deps.config.publicUrl}/field/permits/${permit.id}`;
   const qr = await QRCode.toBuffer(qrUrl, { type: 'png', margin: 1, width: 240, errorCorrectionLevel: 'M' });
@@ -92,7 +91,7 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
   doc.fillColor(INK).fontSize(10);
   field(doc, 'Window', `${when(rev.windowStart)} to ${when(rev.windowEnd)}`);
   field(doc, 'Requested by', permit.requestedBy.name);
-  field(doc, 'Excavations', exRows.map((e) => `${e.reference} ${e.name} (${e.depth.toFixed(2)} m deep)`).join('; ') || 'none named');
+  field(doc, 'Excavations', excavations.map((e) => `${e.reference} ${e.name} (${e.excavation.depth.toFixed(2)} m deep)`).join('; ') || 'none named');
   if (rev.description) field(doc, 'Work', rev.description);
   doc.y = Math.max(doc.y, MARGIN + 100);
   doc.moveDown(0.5);
@@ -122,7 +121,7 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
 
   // Plan
   heading(doc, 'Plan to scale');
-  drawPlan(doc, permit, site, exRows.map(checkExcavationOf), plant, d?.standoff ?? rev.check?.computedStandoff ?? null);
+  drawPlan(doc, permit, site, excavations, plant, d?.standoff ?? rev.check?.computedStandoff ?? null);
 
   // Check per excavation
   const check = rev.check;
@@ -288,14 +287,15 @@ function drawPlan(
   doc: PDFKit.PDFDocument,
   permit: PermitDetail,
   site: { latitude: number; longitude: number },
-  excavations: ReturnType<typeof checkExcavationOf>[],
+  excavations: CheckExcavation[],
   plant: Awaited<ReturnType<typeof plantFor>>,
   standoff: number | null,
 ): void {
   const proj = localProjection([site.longitude, site.latitude]);
   const rings = excavations.flatMap((e) => {
     try {
-      return [{ ref: e.reference, ring: prepareExcavation(e.shape, proj).ring }];
+      const prepared = prepareExcavation(e.shape, proj);
+      return [{ ref: e.reference, ring: prepared.ring, prepared }];
     } catch {
       return [];
     }
@@ -307,7 +307,14 @@ function drawPlan(
       return [];
     }
   });
-  const zones = standoff && standoff > 0 ? rings.flatMap((r) => bufferRing(r.ring, standoff)) : [];
+  const zones: XY[][][] =
+    standoff && standoff > 0
+      ? rings.flatMap((r) => {
+          const z = exclusionZone(r.prepared, standoff, proj);
+          const polys = z.type === 'Polygon' ? [z.coordinates] : z.coordinates;
+          return polys.map((poly) => poly.map((ring) => ring.map((c) => proj.toLocal(c))));
+        })
+      : [];
   const pts: XY[] = [...rings.flatMap((r) => r.ring), ...feet.flatMap((f) => f.local), ...zones.flat(2)];
   const boxW = doc.page.width - 2 * MARGIN;
   const boxH = 260;

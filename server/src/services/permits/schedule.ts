@@ -51,10 +51,13 @@ export async function advancePermit(deps: Deps, permitId: number): Promise<'star
 
 /**
  * One pass of the permit schedule at `deps.now()` (the pg-boss job runs it every minute; tests
- * call it with their own clock): start due permits, lapse closed ones, and send the reminder an
- * hour before a live or suspended permit's window closes (once per window).
+ * call it with their own clock, limited to their own permits): start due permits, lapse closed
+ * ones, and send the reminder an hour before a live or suspended permit's window closes (once per
+ * window).
  */
-export async function runPermitSchedule(deps: Deps): Promise<ScheduleOutcome> {
+export async function runPermitSchedule(deps: Deps, scope: { permitIds?: number[] } = {}): Promise<ScheduleOutcome> {
+  const only = scope.permitIds;
+  if (only && only.length === 0) return { started: [], lapsed: [], reminded: [] };
   const now = deps.now();
   const out: ScheduleOutcome = { started: [], lapsed: [], reminded: [] };
   const due = await withCurrentRevision(deps.db)
@@ -65,6 +68,7 @@ export async function runPermitSchedule(deps: Deps): Promise<ScheduleOutcome> {
         eb.and([eb('p.status', '=', 'approved'), eb('r.window_start', '<=', now)]),
       ]),
     )
+    .$if(!!only, (q) => q.where('p.id', 'in', only!))
     .orderBy('p.id')
     .execute();
   for (const p of due) {
@@ -79,6 +83,7 @@ export async function runPermitSchedule(deps: Deps): Promise<ScheduleOutcome> {
     .where('p.reminder_sent_at', 'is', null)
     .where('r.window_end', '>', now)
     .where('r.window_end', '<=', new Date(now.getTime() + REMINDER_BEFORE_MS))
+    .$if(!!only, (q) => q.where('p.id', 'in', only!))
     .execute();
   for (const p of soon) {
     // Claim the reminder first, so two workers never both send it.
