@@ -2,6 +2,7 @@ import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { adminRoutes } from '@client/features/admin';
 import { authRoutes } from '@client/features/auth';
 import { dashboardRoutes } from '@client/features/dashboard';
+import { fieldRoutes } from '@client/features/field';
 import { permitRoutes, permitSiteRoutes } from '@client/features/permits';
 import { mapRoutes } from '@client/features/map';
 import { plantRoutes } from '@client/features/plant';
@@ -25,6 +26,8 @@ export const routes: RouteObject[] = [
     errorElement: <ErrorPage />,
     children: [
       { Component: PublicLayout, children: authRoutes },
+      // The phone view has its own frame and sign-in check (it opens with no signal).
+      ...fieldRoutes,
       {
         Component: RequireAuth,
         children: [
