@@ -1,14 +1,15 @@
 import { useEffect, useMemo } from 'react';
 import L from 'leaflet';
-import { Circle, CircleMarker, GeoJSON, MapContainer, ScaleControl, useMap } from 'react-leaflet';
-import 'leaflet/dist/leaflet.css';
+import { Circle, CircleMarker, GeoJSON, useMap } from 'react-leaflet';
+import { BaseMap } from '@client/components/map/BaseMap';
 import type { FieldPermit } from '@shared/schemas/field';
 import type { Fix } from '../lib/reading';
 
 /**
  * The permit on a map, north up, to scale: influence zones in ISO 3864 warning yellow, exclusion
  * zones in prohibition red, the excavations dark, the permitted footprint outlined, and my position
- * with its accuracy circle. No tiles: the ground is plain, so it works with no signal.
+ * with its accuracy circle, on the shared base map (the offline metric grid unless tiles are
+ * configured, so it works with no signal).
  */
 export const zoneStyles = {
   influence: { color: '#1e2a33', weight: 1, dashArray: '6 4', fillColor: '#f4c20d', fillOpacity: 0.35 },
@@ -34,32 +35,11 @@ function Fit({ bounds }: { bounds: L.LatLngBounds | null }) {
   return null;
 }
 
-function NorthArrow() {
-  return (
-    <div className="pointer-events-none absolute right-2 top-2 z-[500] flex flex-col items-center rounded-md border border-ink bg-sheet/90 px-2 py-1">
-      <svg width="22" height="32" viewBox="0 0 28 40" aria-hidden="true">
-        <path d="M14 2 L24 34 L14 27 L4 34 Z" fill="#fffdf8" stroke="#1e2a33" strokeWidth="2" />
-        <path d="M14 2 L14 27 L4 34 Z" fill="#1e2a33" />
-      </svg>
-      <span className="text-lg font-bold leading-none">N</span>
-    </div>
-  );
-}
-
 export function ZoneMap({ permit, fix }: { permit: FieldPermit; fix: Fix | null }) {
   const bounds = useMemo(() => boundsOf(permit), [permit]);
   return (
     <div className="relative h-[55vh] min-h-72 overflow-hidden rounded-md border-2 border-ink">
-      <MapContainer
-        center={[permit.centre.latitude, permit.centre.longitude]}
-        zoom={19}
-        minZoom={14}
-        maxZoom={22}
-        zoomSnap={0.5}
-        className="h-full w-full"
-        attributionControl={false}
-        keyboard={false}
-      >
+      <BaseMap origin={permit.origin} center={[permit.centre.latitude, permit.centre.longitude]} zoom={19} ariaLabel={`Map of permit ${permit.number}: zones and the permitted position`}>
         <Fit bounds={bounds} />
         {permit.excavations.map((e) => (
           <GeoJSON key={`i-${e.id}`} data={e.influenceZone} style={() => zoneStyles.influence} interactive={false} />
@@ -79,9 +59,7 @@ export function ZoneMap({ permit, fix }: { permit: FieldPermit; fix: Fix | null 
             <CircleMarker center={[fix.latitude, fix.longitude]} radius={9} pathOptions={zoneStyles.me} interactive={false} />
           </>
         ) : null}
-        <ScaleControl position="bottomleft" imperial={false} maxWidth={140} />
-      </MapContainer>
-      <NorthArrow />
+      </BaseMap>
     </div>
   );
 }
