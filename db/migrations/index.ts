@@ -1,6 +1,7 @@
 import type { Migration } from 'kysely';
 import * as m0001 from './0001_foundation';
 import * as m0002 from './0002_excavations_plant_uploads';
+import * as m0005 from './0005_inspections';
 
 /**
  * Every migration, in order. Listed here (not read from the folder) so that the same code runs
@@ -9,4 +10,5 @@ import * as m0002 from './0002_excavations_plant_uploads';
 export const migrations: Record<string, Migration> = {
   '0001_foundation': m0001,
   '0002_excavations_plant_uploads': m0002,
+  '0005_inspections': m0005,
 };
