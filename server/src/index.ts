@@ -4,6 +4,7 @@ import { startRuntime } from './runtime';
 import { MailCatcher } from './mail/catcher';
 import { migrateToLatest } from '@db/migrate';
 import { DEMO_PASSWORD, demoPeople } from '@db/seed/people';
+import { startInspectionJobs } from './jobs/inspections';
 
 // Starts Brink: database migrations, the job queue, the local mail catcher, and one Express
 // process serving the app and the API.
@@ -11,6 +12,7 @@ const config = loadConfig();
 const runtime = await startRuntime(config);
 const { deps } = runtime;
 await migrateToLatest(deps.db);
+await startInspectionJobs(deps);
 
 const catcher = new MailCatcher(deps.db);
 if (config.mailCatcher.enabled) {
