@@ -13,6 +13,7 @@ import { registerPeopleRoutes } from './routes/people';
 import { registerSiteRoutes } from './routes/sites';
 import { registerSystemRoutes } from './routes/system';
 import { registerUploadRoutes } from './routes/uploads';
+import { registerInspectionRoutes } from './routes/inspections';
 
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../dist/client');
 
@@ -91,6 +92,7 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerPeopleRoutes(api);
   registerSiteRoutes(api);
   registerUploadRoutes(api);
+  registerInspectionRoutes(api);
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
 

@@ -41,6 +41,14 @@ export const matrix: Record<string, Row> = {
   'POST /api/sites': { allow: ['admin'], body: {} },
   'PATCH /api/sites/:siteId': { allow: ['admin'], body: { name: '' } },
   'GET /api/uploads/:id': { allow: ['admin', ...siteMembers] },
+  'POST /api/excavations/:id/inspections': { allow: ['coordinator', 'supervisor'], body: {} },
+  'GET /api/excavations/:id/inspections': { allow: ['admin', ...siteMembers] },
+  'GET /api/excavations/:id/inspections.csv': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/inspections/states': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/inspections/overdue': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/inspections/report.pdf': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/shifts': { allow: ['admin', ...siteMembers] },
+  'PUT /api/sites/:siteId/shifts': { allow: ['admin', 'coordinator'], body: {} },
 };
 
 let t: TestApp;
