@@ -17,11 +17,19 @@ apt_install() {
   as_root apt-get install -y -qq --no-install-recommends "$@" >/dev/null
 }
 
-# npm packages: `npm ci` when node_modules is missing or older than the lock file.
+# npm packages: `npm ci` when node_modules is missing or was installed from another lock file
+# (compared by content, so a checkout that only touches the file's time does not reinstall).
 ensure_node_modules() {
-  if [ ! -d node_modules ] || [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
+  local want have
+  want="$(sha256sum package-lock.json | cut -d' ' -f1)"
+  have="$(cat node_modules/.brink-lock-sha256 2>/dev/null || true)"
+  if [ ! -d node_modules ] || [ "$want" != "$have" ]; then
+    if [ -d node_modules ] && [ -z "$have" ] && [ -f node_modules/.package-lock.json ] && [ ! package-lock.json -nt node_modules/.package-lock.json ]; then
+      echo "$want" >node_modules/.brink-lock-sha256; return
+    fi
     say "installing npm packages (npm ci)"
     npm ci --no-audit --no-fund --loglevel=error
+    echo "$want" >node_modules/.brink-lock-sha256
   fi
 }
 
@@ -52,6 +60,17 @@ ensure_chromium() {
 # Runs a PostgreSQL program as the owner of the cluster (PostgreSQL refuses to run as root).
 pg_run() {
   if [ "$(id -u)" = 0 ]; then runuser -u postgres -- "$@"; else "$@"; fi
+}
+
+# load_env_file FILE: exports each KEY=value of the file unless KEY is already set, so that
+# `PORT=4000 npm start` wins over the file.
+load_env_file() {
+  local line key
+  while IFS= read -r line || [ -n "$line" ]; do
+    [[ "$line" =~ ^[A-Z_][A-Z0-9_]*= ]] || continue
+    key="${line%%=*}"
+    if [ -z "${!key+x}" ]; then eval "export $line"; fi
+  done <"$1"
 }
 
 free_port() {

@@ -158,6 +158,13 @@ describe('API habits', () => {
     expect(r.body.error.code).toBe('not_found');
   });
 
+  it('shows caught mail only to administrators or to callers on this machine', async () => {
+    const proxied = await agents.get('coordinator')!.get('/api/dev/mail').set('X-Forwarded-For', '203.0.113.9');
+    expect(proxied.status).toBe(403);
+    const admin = await agents.get('admin')!.get('/api/dev/mail').set('X-Forwarded-For', '203.0.113.9');
+    expect(admin.status).toBe(200);
+  });
+
   it('sends a content security policy that allows only its own origin', async () => {
     const r = await request(t.app).get('/api/health');
     const csp = String(r.headers['content-security-policy']);

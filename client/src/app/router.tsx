@@ -1,0 +1,48 @@
+import { createBrowserRouter, type RouteObject } from 'react-router-dom';
+import { adminRoutes } from '@client/features/admin';
+import { authRoutes } from '@client/features/auth';
+import { dashboardRoutes } from '@client/features/dashboard';
+import { ErrorPage, NotFound } from './ErrorPage';
+import { Layout, PublicLayout } from './Layout';
+import { RequireAdmin, RequireAuth } from './RequireAuth';
+import { HomeRedirect, SiteScope } from './SiteScope';
+
+/**
+ * Pages of one site, under /sites/:siteId (members of that site and administrators only).
+ * Add one with a line, e.g. `{ path: 'map', Component: SiteMapPage },`, and its link in nav.ts.
+ */
+const siteRoutes: RouteObject[] = [...dashboardRoutes];
+
+/** Other signed-in pages, e.g. `{ path: 'permits/:permitId', Component: PermitPage },`. */
+const signedInRoutes: RouteObject[] = [];
+
+export const routes: RouteObject[] = [
+  {
+    errorElement: <ErrorPage />,
+    children: [
+      { Component: PublicLayout, children: authRoutes },
+      {
+        Component: RequireAuth,
+        children: [
+          {
+            Component: Layout,
+            children: [
+              {
+                errorElement: <ErrorPage />,
+                children: [
+                  { index: true, Component: HomeRedirect },
+                  { path: 'sites/:siteId', Component: SiteScope, children: siteRoutes },
+                  ...signedInRoutes,
+                  { path: 'admin', Component: RequireAdmin, children: adminRoutes },
+                  { path: '*', Component: NotFound },
+                ],
+              },
+            ],
+          },
+        ],
+      },
+    ],
+  },
+];
+
+export const router = createBrowserRouter(routes);

@@ -1,0 +1,61 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { InvitationInput } from '@shared/schemas/auth';
+import type { SiteRole } from '@shared/schemas/common';
+import type { Person } from '@shared/schemas/sites';
+import { api } from '@client/lib/api';
+import { sessionKeys } from '@client/lib/session';
+
+const peopleKey = ['users'] as const;
+
+export function usePeople() {
+  return useQuery({
+    queryKey: peopleKey,
+    queryFn: ({ signal }) => api.get<{ users: Person[] }>('/api/users', signal).then((r) => r.users),
+  });
+}
+
+/** After a change to a person: put the fresh copy in the list, and refresh my own roles in case it was me. */
+function usePersonSaved() {
+  const queryClient = useQueryClient();
+  return (person?: Person) => {
+    if (person) {
+      queryClient.setQueryData<Person[]>(peopleKey, (list) => list?.map((p) => (p.id === person.id ? person : p)));
+    }
+    void queryClient.invalidateQueries({ queryKey: peopleKey });
+    void queryClient.invalidateQueries({ queryKey: sessionKeys.me });
+  };
+}
+
+export function useInvite() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: InvitationInput) => api.post<{ id: number }>('/api/invitations', body),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: peopleKey }),
+  });
+}
+
+export function useUpdatePerson(id: number) {
+  const saved = usePersonSaved();
+  return useMutation({
+    mutationFn: (body: { name?: string; isAdmin?: boolean; active?: boolean }) =>
+      api.patch<{ user: Person }>(`/api/users/${id}`, body).then((r) => r.user),
+    onSuccess: saved,
+  });
+}
+
+export function useSetMembership(id: number) {
+  const saved = usePersonSaved();
+  return useMutation({
+    mutationFn: ({ siteId, role, canInspect }: { siteId: number; role: SiteRole; canInspect: boolean }) =>
+      api.put<{ user: Person }>(`/api/users/${id}/memberships/${siteId}`, { role, canInspect }).then((r) => r.user),
+    onSuccess: saved,
+  });
+}
+
+export function useRemoveMembership(id: number) {
+  const saved = usePersonSaved();
+  return useMutation({
+    mutationFn: (siteId: number) => api.delete(`/api/users/${id}/memberships/${siteId}`),
+    onSuccess: () => saved(),
+  });
+}

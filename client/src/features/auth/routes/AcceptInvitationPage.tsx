@@ -1,0 +1,92 @@
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useNavigate, useSearchParams } from 'react-router-dom';
+import { acceptInvitationSchema } from '@shared/schemas/auth';
+import { roleLabels } from '@shared/schemas/common';
+import { Button, ButtonLink } from '@client/components/Button';
+import { FormSummary, TextField } from '@client/components/Fields';
+import { LoadError, Loading } from '@client/components/Status';
+import { isApiError } from '@client/lib/api';
+import { applyServerErrors } from '@client/lib/forms';
+import { useAcceptInvitation, useInvitation, type InvitationSummary } from '../api/auth';
+import { AuthCard } from '../components/AuthCard';
+import { withPasswordConfirmation } from '../components/confirmPassword';
+
+const schema = withPasswordConfirmation(acceptInvitationSchema);
+
+function InvitationNotValid() {
+  return (
+    <AuthCard title="This invitation does not work any more">
+      <p>Invitations work once, for 72 hours. Ask the administrator who invited you to send a new one.</p>
+      <p>If you have already set your password, sign in instead.</p>
+      <ButtonLink to="/sign-in" variant="primary">
+        Sign in
+      </ButtonLink>
+    </AuthCard>
+  );
+}
+
+export function AcceptInvitationPage() {
+  const [params] = useSearchParams();
+  const raw = params.get('token');
+  const token = raw && raw.length >= 20 ? raw : null;
+  const invitation = useInvitation(token);
+
+  if (token === null) return <InvitationNotValid />;
+  if (invitation.isPending) return <Loading what="Checking the invitation" />;
+  if (invitation.isError) {
+    if (isApiError(invitation.error, 404) || isApiError(invitation.error, 410)) return <InvitationNotValid />;
+    return <LoadError error={invitation.error} retry={() => invitation.refetch()} />;
+  }
+  return <AcceptForm token={token} invitation={invitation.data} />;
+}
+
+function AcceptForm({ token, invitation }: { token: string; invitation: InvitationSummary }) {
+  const navigate = useNavigate();
+  const accept = useAcceptInvitation();
+  const [summary, setSummary] = useState<string | null>(null);
+  const [invalid, setInvalid] = useState(false);
+  const { register, handleSubmit, setError, formState } = useForm({
+    resolver: zodResolver(schema),
+    defaultValues: { token, name: invitation.name, password: '', confirm: '' },
+  });
+
+  if (invalid) return <InvitationNotValid />;
+
+  const onSubmit = handleSubmit(async ({ name, password }) => {
+    setSummary(null);
+    try {
+      await accept.mutateAsync({ token, name, password });
+      navigate('/', { replace: true });
+    } catch (error) {
+      if (isApiError(error, 404) || isApiError(error, 410) || (isApiError(error) && error.code === 'invalid_token')) setInvalid(true);
+      else setSummary(applyServerErrors(error, setError, ['name', 'password']));
+    }
+  });
+
+  return (
+    <AuthCard
+      title="Join Brink"
+      intro={
+        <p>
+          You have been invited as <strong className="text-ink">{invitation.email}</strong>
+          {invitation.siteName && invitation.role
+            ? `, as ${roleLabels[invitation.role].toLowerCase()} on ${invitation.siteName}`
+            : ''}
+          . Check your name and choose a password to finish.
+        </p>
+      }
+    >
+      <form onSubmit={onSubmit} noValidate className="flex flex-col gap-5">
+        <FormSummary message={summary} />
+        <TextField label="Your name" autoComplete="name" error={formState.errors.name?.message} {...register('name')} />
+        <TextField label="Password" type="password" autoComplete="new-password" hint="At least 10 characters." error={formState.errors.password?.message} {...register('password')} />
+        <TextField label="Password again" type="password" autoComplete="new-password" error={formState.errors.confirm?.message} {...register('confirm')} />
+        <Button type="submit" busy={formState.isSubmitting} busyText="Setting up…">
+          Set password and sign in
+        </Button>
+      </form>
+    </AuthCard>
+  );
+}

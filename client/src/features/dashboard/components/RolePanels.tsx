@@ -1,0 +1,69 @@
+import { Link } from 'react-router-dom';
+import { roleLabels } from '@shared/schemas/common';
+import { Panel } from '@client/components/Page';
+import { Loading } from '@client/components/Status';
+import { usePeopleCount } from '../api/dashboard';
+import { ComingPanel, RoleSection } from './RoleSection';
+
+export function SupervisorPanels({ canInspect }: { canInspect: boolean }) {
+  return (
+    <RoleSection title={roleLabels.supervisor} intro="Ask for permits, brief the operators, hand permits back.">
+      <ComingPanel title="My requests" lists="The permits you have asked for, and where each one stands." />
+      <ComingPanel title="Live on this site today" lists="Permits whose window is open today, with their operators." />
+      {canInspect ? (
+        <ComingPanel title="Excavations due for inspection" lists="Open excavations not yet inspected this shift." />
+      ) : null}
+    </RoleSection>
+  );
+}
+
+export function CoordinatorPanels({ canInspect }: { canInspect: boolean }) {
+  return (
+    <RoleSection title={roleLabels.coordinator} intro="Review and decide permits, keep the excavation register, suspend work when needed.">
+      <ComingPanel title="Permits awaiting my review" lists="Requests sent to you for a decision, oldest first." />
+      <ComingPanel title="Live now" lists="Every live permit on this site, with its standoff." />
+      <ComingPanel
+        title="Excavations due for inspection"
+        lists={canInspect ? 'Open excavations not yet inspected this shift.' : 'Open excavations not yet inspected this shift, and who is due to inspect them.'}
+      />
+    </RoleSection>
+  );
+}
+
+export function OperatorPanels() {
+  return (
+    <RoleSection title={roleLabels.operator} intro="See the permits that name you and where loads may go.">
+      <ComingPanel title="My permits today" lists="Permits that name you, with their window and exclusion zones." />
+      <ComingPanel title="Briefings to confirm" lists="Permits you must confirm you have been briefed on before work starts." />
+    </RoleSection>
+  );
+}
+
+export function AdministratorPanels({ siteCount }: { siteCount: number | undefined }) {
+  const people = usePeopleCount(true);
+  return (
+    <RoleSection title="Administrator" intro="People, invitations and sites.">
+      <Panel title="People" level={3}>
+        {people.data ? (
+          <p>
+            {people.data.active} active {people.data.active === 1 ? 'person' : 'people'}
+            {people.data.total > people.data.active ? `, ${people.data.total - people.data.active} deactivated` : ''}.
+          </p>
+        ) : people.isError ? (
+          <p>The list of people could not be loaded.</p>
+        ) : (
+          <Loading what="Counting people" />
+        )}
+        <p>
+          <Link to="/admin/people">Manage people and invitations</Link>
+        </p>
+      </Panel>
+      <Panel title="Sites" level={3}>
+        {siteCount !== undefined ? <p>{siteCount === 1 ? '1 site' : `${siteCount} sites`} in Brink.</p> : null}
+        <p>
+          <Link to="/admin/sites">Manage sites</Link>
+        </p>
+      </Panel>
+    </RoleSection>
+  );
+}

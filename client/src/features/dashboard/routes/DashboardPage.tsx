@@ -1,0 +1,28 @@
+import { useParams } from 'react-router-dom';
+import { Page } from '@client/components/Page';
+import { LoadError, Loading } from '@client/components/Status';
+import { canInspectOnSite, parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
+import { AdministratorPanels, CoordinatorPanels, OperatorPanels, SupervisorPanels } from '../components/RolePanels';
+
+/** The current site's dashboard: one section for my role there, and one more if I am an administrator. */
+export function DashboardPage() {
+  const siteId = parseId(useParams().siteId);
+  const me = useMe();
+  const sites = useMySites();
+  if (me.isPending || sites.isPending) return <Loading what="Loading the dashboard" />;
+  if (sites.isError) return <LoadError error={sites.error} retry={() => sites.refetch()} />;
+  const site = sites.data.find((s) => s.id === siteId);
+  if (!me.data || !site) return null; // the site scope above has already answered this case
+
+  const role = roleOnSite(me.data, site.id);
+  const canInspect = canInspectOnSite(me.data, site.id);
+  return (
+    <Page title={site.name} intro="Your dashboard for this site." documentTitle={`Dashboard, ${site.name}`}>
+      {role === 'supervisor' ? <SupervisorPanels canInspect={canInspect} /> : null}
+      {role === 'coordinator' ? <CoordinatorPanels canInspect={canInspect} /> : null}
+      {role === 'operator' ? <OperatorPanels /> : null}
+      {me.data.isAdmin ? <AdministratorPanels siteCount={sites.data.length} /> : null}
+      {!role && !me.data.isAdmin ? <p>You hold no role on this site. Ask an administrator to add you.</p> : null}
+    </Page>
+  );
+}

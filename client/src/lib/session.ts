@@ -1,0 +1,84 @@
+import { useQuery, type QueryClient } from '@tanstack/react-query';
+import type { Me } from '@shared/schemas/auth';
+import type { SiteRole } from '@shared/schemas/common';
+import type { Site } from '@shared/schemas/sites';
+import { api, isApiError } from './api';
+
+/** Query keys shared by the app and more than one feature. */
+export const sessionKeys = {
+  me: ['me'] as const,
+  sites: ['sites'] as const,
+};
+
+/** The signed-in person, or null when signed out. */
+export function useMe() {
+  return useQuery({
+    queryKey: sessionKeys.me,
+    queryFn: async ({ signal }): Promise<Me | null> => {
+      try {
+        const { user } = await api.get<{ user: Me }>('/api/auth/me', signal);
+        return user;
+      } catch (error) {
+        if (isApiError(error, 401)) return null;
+        throw error;
+      }
+    },
+    staleTime: 5 * 60_000,
+  });
+}
+
+/** Records the person after sign-in or accepting an invitation, and drops data of anyone before. */
+export function setSignedIn(queryClient: QueryClient, user: Me) {
+  queryClient.removeQueries({ predicate: (q) => q.queryKey[0] !== sessionKeys.me[0] });
+  queryClient.setQueryData(sessionKeys.me, user);
+}
+
+export function setSignedOut(queryClient: QueryClient) {
+  queryClient.clear();
+  queryClient.setQueryData(sessionKeys.me, null);
+}
+
+/** The sites I am a member of (every site, for an administrator). */
+export function useMySites(enabled = true) {
+  return useQuery({
+    queryKey: sessionKeys.sites,
+    queryFn: ({ signal }) => api.get<{ sites: Site[] }>('/api/sites', signal).then((r) => r.sites),
+    enabled,
+  });
+}
+
+/** My role on a site, or null when I hold none there (an administrator may still see it). */
+export function roleOnSite(me: Me, siteId: number): SiteRole | null {
+  return me.memberships.find((m) => m.siteId === siteId)?.role ?? null;
+}
+
+export function canInspectOnSite(me: Me, siteId: number): boolean {
+  return me.memberships.some((m) => m.siteId === siteId && m.canInspect);
+}
+
+const storageKey = (userId: number) => `brink.currentSite.${userId}`;
+
+/** The site this person last chose on this device, if any. */
+export function rememberedSiteId(userId: number): number | null {
+  try {
+    const raw = window.localStorage.getItem(storageKey(userId));
+    const id = raw === null ? NaN : Number(raw);
+    return Number.isInteger(id) && id > 0 ? id : null;
+  } catch {
+    return null;
+  }
+}
+
+export function rememberSiteId(userId: number, siteId: number) {
+  try {
+    window.localStorage.setItem(storageKey(userId), String(siteId));
+  } catch {
+    // Private browsing or storage full: the URL still carries the site.
+  }
+}
+
+/** Reads a positive whole-number id from a route parameter; null when it is not one. */
+export function parseId(value: string | undefined): number | null {
+  const id = Number(value);
+  return Number.isInteger(id) && id > 0 ? id : null;
+}
