@@ -273,7 +273,7 @@ describe('a failed inspection', () => {
     const mail = await waitForMail(t.deps, people.coordinator, new RegExp(`Not safe: ${e.reference}`));
     expect(mail.text).toContain('Ivy Banks');
     expect(mail.text).toContain('North waling dropped 150 mm');
-    expect(mail.text).toContain(`/excavations/${e.id}/inspections`);
+    expect(mail.text).toContain(`/sites/${siteId}/excavations/${e.id}/inspections`);
     await waitForMail(t.deps, people.supervisor, new RegExp(`Not safe: ${e.reference}`));
     const stray = await t.deps.db
       .selectFrom('caught_mail')

@@ -67,7 +67,7 @@ export async function checkOverdueInspections(deps: Deps, opts: { siteIds?: numb
             ),
             'Nobody works in or beside them until a competent person has inspected them and found them safe.',
           ],
-          link: { label: 'Open the inspection list', url: `${deps.config.publicUrl}/inspections` },
+          link: { label: 'Open the inspection list', url: `${deps.config.publicUrl}/sites/${siteId}/inspections` },
         }),
       });
       run.sentTo = to;

@@ -370,7 +370,7 @@ async function mailFailedInspection(deps: Deps, exc: ExcavationRow, inspection: 
           : []),
         'It shows red on the map until a later inspection finds it safe.',
       ],
-      link: { label: 'See the inspection', url: `${deps.config.publicUrl}/excavations/${exc.id}/inspections` },
+      link: { label: 'See the inspection', url: `${deps.config.publicUrl}/sites/${exc.site_id}/excavations/${exc.id}/inspections` },
     }),
   });
   return to;
