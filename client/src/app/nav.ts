@@ -17,6 +17,7 @@ export interface NavItem {
  */
 export const navItems: NavItem[] = [
   { label: 'Dashboard', to: '/sites/:siteId', end: true },
+  { label: 'Inspections', to: '/sites/:siteId/inspections', who: ['supervisor', 'coordinator', 'operator'] },
   { label: 'People', to: '/admin/people', who: 'admin' },
   { label: 'Sites', to: '/admin/sites', who: 'admin' },
 ];

@@ -2,6 +2,7 @@ import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { adminRoutes } from '@client/features/admin';
 import { authRoutes } from '@client/features/auth';
 import { dashboardRoutes } from '@client/features/dashboard';
+import { inspectionRoutes } from '@client/features/inspections';
 import { ErrorPage, NotFound } from './ErrorPage';
 import { Layout, PublicLayout } from './Layout';
 import { RequireAdmin, RequireAuth } from './RequireAuth';
@@ -11,7 +12,7 @@ import { HomeRedirect, SiteScope } from './SiteScope';
  * Pages of one site, under /sites/:siteId (members of that site and administrators only).
  * Add one with a line, e.g. `{ path: 'map', Component: SiteMapPage },`, and its link in nav.ts.
  */
-const siteRoutes: RouteObject[] = [...dashboardRoutes];
+const siteRoutes: RouteObject[] = [...dashboardRoutes, ...inspectionRoutes];
 
 /** Other signed-in pages, e.g. `{ path: 'permits/:permitId', Component: PermitPage },`. */
 const signedInRoutes: RouteObject[] = [];
