@@ -1,0 +1,83 @@
+import { describe, expect, it } from 'vitest';
+import { runCheck } from './index';
+import { SIX_PROFILE_TOP, SIX_RESULT, sixRequest, withExcavation, withLoads } from './test-fixtures';
+
+describe('the check (engineering.md §4)', () => {
+  it('the §6 request gives the §6 result (the hand check of §3.1; common practice, no published source)', () => {
+    const r = runCheck(sixRequest());
+    expect(r).toMatchObject(SIX_RESULT);
+    expect(r.profile[0]).toEqual(SIX_PROFILE_TOP);
+    expect(r.caution).toMatch(/competent temporary works/);
+  });
+
+  it('profile depths are exact multiples of the step, ending at H (engineering.md §4)', () => {
+    const r = runCheck(withExcavation(sixRequest({ step: 0.05 }), { depth: 2.97 }), { standoffs: false });
+    const zs = r.profile.map((p) => p.z);
+    expect(zs.slice(0, 4)).toEqual([0, 0.05, 0.1, 0.15]);
+    expect(zs[zs.length - 1]).toBe(2.97);
+    expect(zs[zs.length - 2]).toBe(2.95);
+    for (const z of zs) expect(String(z).length).toBeLessThanOrEqual(4);
+  });
+
+  it('zero design allowance with a surcharge: utilisation null, fails, and says so (engineering.md §4)', () => {
+    const r = runCheck(withExcavation(sixRequest(), { designSurcharge: 0 }));
+    expect(r.utilisation).toBeNull();
+    expect(r.passes).toBe(false);
+    expect(r.warnings.some((w) => w.includes('no surcharge allowance'))).toBe(true);
+    // With no allowance the strip may only stand where it no longer reaches: at H (hand reasoning).
+    expect(r.loads[0].standoff).toBe(3);
+  });
+
+  it('zero design allowance and no surcharge reaching the support: utilisation 0, passes', () => {
+    const r = runCheck(withLoads(withExcavation(sixRequest(), { designSurcharge: 0 }), [{ id: 'far', kind: 'strip', pressure: 60, width: 1, offset: 4 }]));
+    expect(r.utilisation).toBe(0);
+    expect(r.passes).toBe(true);
+  });
+
+  it('a rated pressure that governs: max total 12.667 + 20 = 32.667 kPa at 2 m over 10 kPa (hand calculation)', () => {
+    const r = runCheck(withExcavation(sixRequest(), { ratedPressure: 10 }));
+    expect(r.maxTotalPressure).toBe(32.667);
+    expect(r.utilisation).toBe(3.267);
+    expect(r.governing).toBe('rated-pressure');
+    expect(r.passes).toBe(false);
+  });
+
+  it('a rated pressure that does not govern leaves U = 2.0 (hand calculation)', () => {
+    const r = runCheck(withExcavation(sixRequest(), { ratedPressure: 40 }));
+    expect(r.utilisation).toBe(2);
+    expect(r.governing).not.toBe('rated-pressure');
+  });
+
+  it('a rated pressure is checked at a band edge that falls between grid points', () => {
+    // Band 1.02..1.04 m lies wholly between the 0.05 m grid points; 600 kPa·K = 200 kPa.
+    const req = withLoads(withExcavation(sixRequest(), { ratedPressure: 100 }), [{ id: 'thin', kind: 'strip', pressure: 600, width: 0.02, offset: 1.02 }]);
+    const r = runCheck(req, { standoffs: false });
+    expect(r.profile.every((p) => p.surcharge === 0)).toBe(true);
+    expect(r.maxTotalPressure).toBeCloseTo(200 + 19 * 1.04 / 3, 3);
+  });
+
+  it('Coulomb wall friction applies once: a blanket gives Ka·cos δ·q, not a further cos δ (engineering.md §1)', () => {
+    const req = withLoads(withExcavation(sixRequest(), { wallFriction: 20 }), [{ id: 't', kind: 'blanket', pressure: 10 }]);
+    const r = runCheck(req);
+    expect(r.coefficients[0].K).toBe(0.2794); // Das, from memory
+    expect(r.forces.surcharge).toBeCloseTo(0.279384 * 10 * 3, 3); // K·q·H, K = 0.2794 as above
+  });
+
+  it('elastic method: area loads analysed as strips say so, blankets still K·q (engineering.md §3.2)', () => {
+    const req = withLoads(sixRequest({ method: 'elastic' }), [
+      { id: 'mat', kind: 'area', pressure: 60, width: 1, length: 2, offset: 1 },
+      { id: 't', kind: 'blanket', pressure: 10 },
+    ]);
+    const r = runCheck(req);
+    expect(r.warnings.some((w) => w.includes('mat') && w.includes('strip'))).toBe(true);
+    expect(r.loads[0]).toMatchObject({ top: 0, bottom: 3 });
+    // Jarquio via Das: (60/90)·3·(atan(2/3) − atan(1/3)) in degrees = 26.3176 kN/m
+    expect(r.loads[0].force).toBeCloseTo((60 / 90) * 3 * ((Math.atan(2 / 3) - Math.atan(1 / 3)) * 180) / Math.PI, 3);
+    expect(r.loads[1].force).toBe(10);
+  });
+
+  it('a load inside the minimum clearance is flagged', () => {
+    const r = runCheck(withLoads(sixRequest(), [{ id: 'close', kind: 'strip', pressure: 1, width: 1, offset: 0.2 }]));
+    expect(r.warnings.some((w) => w.includes('close') && w.includes('minimum clearance'))).toBe(true);
+  });
+});

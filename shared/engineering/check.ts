@@ -1,0 +1,170 @@
+/**
+ * The check (engineering.md §4): profile of soil, water, surcharge and total pressure at a regular
+ * step from 0 to H; forces and moments about formation of the surcharges (Fs, Ms) and of the design
+ * allowance K(z)·qd (Fa, Ma); utilisation U = max(Fs/Fa, Ms/Ma), and with a rated pressure also
+ * max over z of total(z)/ratedPressure. Loads combine by superposition (their forces and moments
+ * add; each was integrated exactly or in closed form, never from the profile grid).
+ *
+ * Units: depths in m, pressures in kPa, forces in kN/m, moments about formation in kN·m/m.
+ * Customary 10 kPa allowance: common practice, no published source.
+ */
+import { buildSoilModel, layerIndexAt, soilPressure, waterPressure, type SoilModel } from './soil';
+import type { SurchargeEffect } from './surcharge';
+import type { CheckRequest } from './types';
+
+/** Relative round-off allowed on U ≤ 1: a utilisation of exactly 1 passes despite floating-point noise. */
+export const PASS_TOLERANCE = 1e-9;
+
+export interface CheckContext {
+  request: CheckRequest;
+  model: SoilModel;
+  /** Profile depths: exact multiples of step, then H. */
+  grid: number[];
+  gridLayers: number[];
+  /** Layer tops and water table with the layer on each side: where the largest total may sit off the grid. */
+  extraSamples: { z: number; layer: number }[];
+  allowanceForce: number;
+  allowanceMoment: number;
+}
+
+/** Depths 0, step, 2·step, … (rounded to 1e-9 m so they print as exact multiples) and H. */
+export function profileDepths(H: number, step: number): number[] {
+  const n = Math.ceil(H / step - 1e-9);
+  const out: number[] = [];
+  for (let k = 0; k < n; k++) out.push(Math.round(k * step * 1e9) / 1e9);
+  out.push(H);
+  return out;
+}
+
+/** The layer(s) on each side of depth z: one index, or two at a layer top. */
+export function sidesOf(model: SoilModel, z: number): number[] {
+  const below = layerIndexAt(model, z);
+  const above = layerIndexAt(model, z, true);
+  return above === below ? [below] : [below, above];
+}
+
+function bothSides(model: SoilModel, z: number, into: { z: number; layer: number }[]): void {
+  for (const layer of sidesOf(model, z)) into.push({ z, layer });
+}
+
+export function prepareCheck(request: CheckRequest): CheckContext {
+  const model = buildSoilModel(request.excavation, request.soil);
+  const grid = profileDepths(model.H, request.step);
+  const extraSamples: { z: number; layer: number }[] = [];
+  for (const z of model.breakpoints) bothSides(model, z, extraSamples);
+  const qd = request.excavation.designSurcharge;
+  return {
+    request,
+    model,
+    grid,
+    gridLayers: grid.map((z) => layerIndexAt(model, z)),
+    extraSamples,
+    allowanceForce: qd * model.kForce,
+    allowanceMoment: qd * model.kMoment,
+  };
+}
+
+export function sumPressure(effects: readonly SurchargeEffect[], z: number, layer: number): number {
+  let s = 0;
+  for (const e of effects) s += e.pressureAt(z, layer);
+  return s;
+}
+
+export function soilAndWater(model: SoilModel, z: number, layer: number): number {
+  return soilPressure(model, layer, z) + waterPressure(model, layer, z);
+}
+
+/** Largest total pressure at the extra samples and at every effect's jumps (the grid is done by the caller). */
+export function maxTotalOffGrid(ctx: CheckContext, effects: readonly SurchargeEffect[]): number {
+  const model = ctx.model;
+  // Sample depths (with the layer on each side at a layer top), kept sorted by depth for `accumulate`.
+  const zs: number[] = [];
+  const ls: number[] = [];
+  const add = (z: number, layer: number) => {
+    let i = zs.length;
+    while (i > 0 && zs[i - 1] > z) i--;
+    zs.splice(i, 0, z);
+    ls.splice(i, 0, layer);
+  };
+  for (const s of ctx.extraSamples) add(s.z, s.layer);
+  for (const e of effects) {
+    for (const z of e.edges) {
+      const below = layerIndexAt(model, z);
+      const above = layerIndexAt(model, z, true);
+      add(z, below);
+      if (above !== below) add(z, above);
+    }
+  }
+  const total = new Float64Array(zs.length);
+  for (const e of effects) e.accumulate(zs, ls, total);
+  let best = -Infinity;
+  for (let k = 0; k < zs.length; k++) best = Math.max(best, total[k] + soilAndWater(model, zs[k], ls[k]));
+  return best;
+}
+
+export interface Utilisation {
+  utilisation: number | null;
+  governing: 'force' | 'moment' | 'rated-pressure' | 'no-allowance' | null;
+  passes: boolean;
+}
+
+/** U from the surcharge force and moment and, with a rated pressure, the largest total pressure. */
+export function utilisationOf(ctx: CheckContext, Fs: number, Ms: number, maxTotal: number): Utilisation {
+  const rated = ctx.request.excavation.ratedPressure;
+  const Fa = ctx.allowanceForce;
+  const Ma = ctx.allowanceMoment;
+  let utilisation: number | null;
+  let governing: Utilisation['governing'] = null;
+  if (Fa > 0 && Ma > 0) {
+    const uf = Fs / Fa;
+    const um = Ms / Ma;
+    utilisation = Math.max(uf, um);
+    governing = um > uf ? 'moment' : 'force';
+  } else if (Fs > 0 || Ms > 0) {
+    return { utilisation: null, governing: 'no-allowance', passes: false };
+  } else {
+    utilisation = 0;
+  }
+  if (rated !== null) {
+    const ur = maxTotal / rated;
+    if (ur > utilisation) {
+      utilisation = ur;
+      governing = 'rated-pressure';
+    }
+  }
+  return { utilisation, governing, passes: utilisation <= 1 + PASS_TOLERANCE };
+}
+
+export interface RawProfile {
+  z: number[];
+  soil: Float64Array;
+  water: Float64Array;
+  surcharge: Float64Array;
+  allowance: Float64Array;
+  maxTotal: number;
+}
+
+export function buildProfile(ctx: CheckContext, effects: readonly SurchargeEffect[]): RawProfile {
+  const { model, grid, gridLayers } = ctx;
+  const qd = ctx.request.excavation.designSurcharge;
+  const n = grid.length;
+  const out: RawProfile = {
+    z: grid,
+    soil: new Float64Array(n),
+    water: new Float64Array(n),
+    surcharge: new Float64Array(n),
+    allowance: new Float64Array(n),
+    maxTotal: -Infinity,
+  };
+  for (const e of effects) e.accumulate(grid, gridLayers, out.surcharge);
+  for (let k = 0; k < n; k++) {
+    const z = grid[k];
+    const li = gridLayers[k];
+    out.soil[k] = soilPressure(model, li, z);
+    out.water[k] = waterPressure(model, li, z);
+    out.allowance[k] = model.layers[li].K * qd;
+    out.maxTotal = Math.max(out.maxTotal, out.soil[k] + out.water[k] + out.surcharge[k]);
+  }
+  out.maxTotal = Math.max(out.maxTotal, maxTotalOffGrid(ctx, effects));
+  return out;
+}

@@ -1,0 +1,139 @@
+/**
+ * The calculation engine's entry point: `runCheck(request)` answers the engineering.md §6 contract
+ * (profile, forces, moments, utilisation, each load's force, band and standoff, warnings).
+ *
+ * Units: m, kN, kPa, kN/m³, degrees; forces per metre run of support (kN/m), moments about formation
+ * (kN·m/m). The request is assumed valid (see shared/schemas/calc.ts). Pure: no I/O.
+ */
+import { buildProfile, prepareCheck, utilisationOf, type CheckContext } from './check';
+import { blanketEffect, isBlanket, loadEffect, loadWarnings } from './loads';
+import { NO_STANDOFF_MESSAGE, standoffSolver } from './standoff';
+import type { CheckRequest, CheckResult, LoadResult, PlacedLoad, ProfilePoint } from './types';
+
+export * from './types';
+export { rankineKa, coulombKa, coulombHorizontalK, jakyK0, drainedK } from './coefficients';
+export { buildSoilModel, type SoilModel } from './soil';
+export { prepareCheck, profileDepths, PASS_TOLERANCE, type CheckContext } from './check';
+export { loadEffect, placedEffect, blanketEffect } from './loads';
+export type { SurchargeEffect } from './surcharge';
+export { standoffSolver, NO_STANDOFF_MESSAGE, type StandoffSolver } from './standoff';
+export { elasticStripPressure, navfacLinePressure, navfacPointPressure } from './elastic';
+
+export const CAUTION =
+  'These figures are a check aid for a competent temporary works designer or coordinator. They do not replace ' +
+  "the support's design; local regulations and licensed practice prevail.";
+
+export interface RunOptions {
+  /** Solve each load's standoff (default true). */
+  standoffs?: boolean;
+}
+
+const SCALE = [1, 10, 100, 1000, 10000, 1e5, 1e6, 1e7, 1e8, 1e9];
+
+/** x rounded to `decimals` places, never −0. */
+function round(x: number, decimals: number): number {
+  const f = SCALE[decimals];
+  const r = Math.round(x * f) / f;
+  return r === 0 ? 0 : r;
+}
+
+/** Utilisation shown rounded up to 0.001 (after round-off noise), so a shown 1.000 always passes. */
+function roundUtilisation(u: number): number {
+  const r = Math.ceil(round(u, 9) * 1000) / 1000;
+  return r === 0 ? 0 : r;
+}
+
+/** Solve the standoff of one placed load of a request (m, or null), with that request's blankets. */
+export function solveStandoff(request: CheckRequest, load: PlacedLoad, ctx: CheckContext = prepareCheck(request)): number | null {
+  const blankets = request.loads.filter(isBlanket).map((b) => blanketEffect(ctx.model, b.pressure));
+  return standoffSolver(ctx, blankets).solve(load);
+}
+
+export function runCheck(request: CheckRequest, options: RunOptions = {}): CheckResult {
+  const ctx = prepareCheck(request);
+  const { model } = ctx;
+  const opts = { method: request.method, restraint: request.excavation.restraint };
+  const effects = request.loads.map((l) => loadEffect(model, opts, l));
+  let Fs = 0;
+  let Ms = 0;
+  for (const e of effects) {
+    Fs += e.force;
+    Ms += e.moment;
+  }
+  const raw = buildProfile(ctx, effects);
+  const u = utilisationOf(ctx, Fs, Ms, raw.maxTotal);
+
+  const warnings: string[] = [];
+  const ex = request.excavation;
+  if (u.governing === 'no-allowance') {
+    warnings.push('the support has no surcharge allowance (designSurcharge = 0): any surcharge fails the check');
+  }
+  if (ex.pressureState === 'at-rest' && ex.wallFriction > 0) {
+    warnings.push('wall friction is ignored in the at-rest state (K0 = 1 − sin φ′)');
+  }
+  if (model.layers.some((l) => !l.drained) && ex.wallFriction > 0) {
+    warnings.push('wall friction does not apply to undrained layers (K = 1 for surcharges)');
+  }
+  for (const l of request.loads) {
+    warnings.push(...loadWarnings(model, opts, l));
+    if (!isBlanket(l) && l.offset < request.minimumClearance) {
+      warnings.push(`load ${l.id}: ${l.offset} m from the face is closer than the minimum clearance of ${request.minimumClearance} m`);
+    }
+  }
+
+  const solver =
+    options.standoffs === false
+      ? null
+      : standoffSolver(
+          ctx,
+          effects.filter((_, i) => isBlanket(request.loads[i])),
+        );
+  const loads: LoadResult[] = request.loads.map((l, i) => {
+    const e = effects[i];
+    let standoff: number | null = null;
+    if (solver && !isBlanket(l)) {
+      standoff = solver.solve(l);
+      if (standoff === null) warnings.push(`load ${l.id}: ${NO_STANDOFF_MESSAGE}`);
+    }
+    return {
+      id: l.id,
+      kind: l.kind,
+      force: round(e.force, 3),
+      moment: round(e.moment, 3),
+      top: e.top === null ? null : round(e.top, 4),
+      bottom: e.bottom === null ? null : round(e.bottom, 4),
+      standoff,
+    };
+  });
+
+  const qd = ex.designSurcharge;
+  return {
+    method: request.method,
+    coefficients: model.layers.map((l) => ({ top: l.top, K: round(l.K, 4) })),
+    profile: raw.z.map((z, k): ProfilePoint => {
+      const total = raw.soil[k] + raw.water[k] + raw.surcharge[k];
+      return {
+        z,
+        soil: round(raw.soil[k], 3),
+        water: round(raw.water[k], 3),
+        surcharge: round(raw.surcharge[k], 3),
+        total: round(total, 3),
+        allowance: round(raw.allowance[k], 3),
+      };
+    }),
+    forces: {
+      soil: round(model.soilForce, 3),
+      water: round(model.waterForce, 3),
+      surcharge: round(Fs, 3),
+      allowance: round(qd * model.kForce, 3),
+    },
+    moments: { surcharge: round(Ms, 3), allowance: round(qd * model.kMoment, 3) },
+    loads,
+    utilisation: u.utilisation === null ? null : roundUtilisation(u.utilisation),
+    governing: u.governing,
+    maxTotalPressure: round(raw.maxTotal, 3),
+    passes: u.passes,
+    warnings,
+    caution: CAUTION,
+  };
+}

@@ -1,0 +1,44 @@
+/**
+ * Plan geometry: GeoJSON (RFC 7946, WGS84) excavations and load footprints to site-local metres,
+ * each load's offset, width and length relative to the nearest edge (engineering.md §2), and the
+ * influence and exclusion zones for the map (§5). Pure: no I/O.
+ */
+import { excavationOutline, GeometryError, prepareRing, type ExcavationShape, type FootprintShape, type PreparedOutline } from './outline';
+import { openRing } from './planar';
+import { placeFootprint, placePad, type Placement } from './placement';
+import type { LocalProjection, LonLat } from './projection';
+import { signedDistanceToZone } from './zones';
+
+export { localProjection, type LocalProjection, type LonLat, type XY } from './projection';
+export { GeometryError, excavationOutline, trenchRing, prepareRing, type ExcavationShape, type FootprintShape, type PreparedOutline } from './outline';
+export { placeFootprint, placePad, type Placement } from './placement';
+export { influenceZone, exclusionZone, zonePolygon, signedDistanceToZone, ARC_STEPS } from './zones';
+export { boundsGap, boundsOf, distanceToRing, signedDistanceToRing, signedArea, pointInRing, type Ring, type Bounds } from './planar';
+
+/** Pad side of a point load when none is given (m), as in the engine. */
+export const DEFAULT_PAD_SIDE = 0.3;
+
+/** Offset, width and length of a load footprint (GeoJSON) beside a prepared excavation. Throws GeometryError on overlap. */
+export function measureLoad(excavation: PreparedOutline, footprint: FootprintShape, proj: LocalProjection): Placement {
+  if (footprint.kind === 'point') {
+    return placePad(
+      excavation,
+      proj.toLocal(footprint.position.coordinates),
+      footprint.padWidth ?? DEFAULT_PAD_SIDE,
+      footprint.padLength ?? DEFAULT_PAD_SIDE,
+    );
+  }
+  if (footprint.footprint.coordinates.length < 1) throw new GeometryError('load footprint has no outline');
+  const ring = prepareRing(openRing(footprint.footprint.coordinates[0].map((c) => proj.toLocal(c))), 'load footprint').ring;
+  return placeFootprint(excavation, ring);
+}
+
+/** Prepare an excavation's outline once (site-local metres) for many measurements. */
+export function prepareExcavation(shape: ExcavationShape, proj: LocalProjection): PreparedOutline {
+  return excavationOutline(shape, proj);
+}
+
+/** Signed distance (m) from a WGS84 position to the zone within `distance` of the outline: + outside, − inside. */
+export function signedDistanceToZoneAt(excavation: PreparedOutline, position: LonLat, distance: number, proj: LocalProjection): number {
+  return signedDistanceToZone(excavation, proj.toLocal(position), distance);
+}

@@ -1,0 +1,110 @@
+/**
+ * A load's position relative to an excavation (engineering.md §2): `offset`, the least distance from
+ * the footprint to the excavation outline; `width` B, the footprint's extent perpendicular to the
+ * nearest edge; `length` L, its extent along that edge. Site-local metres. A footprint touching or
+ * overlapping the excavation is rejected, never measured.
+ */
+import { GeometryError, type PreparedOutline } from './outline';
+import { distanceToRing, pointInRing, pointSegment, ringsMeet, type Ring } from './planar';
+import type { XY } from './projection';
+
+export interface Placement {
+  /** Clear distance from the excavation face to the nearest edge of the load (m). */
+  offset: number;
+  /** Extent perpendicular to the nearest edge (m). */
+  width: number;
+  /** Extent along the nearest edge (m). */
+  length: number;
+  /** Index of the excavation edge (ring[edge] → ring[edge + 1]) the load is measured from. */
+  edge: number;
+}
+
+const TOUCH = 1e-6;
+const OVERLAP_MESSAGE = 'load footprint touches or overlaps the excavation: loads are only checked clear of the edge';
+
+function edgeFrame(ring: Ring, i: number): { t: XY; n: XY } {
+  const a = ring[i];
+  const b = ring[(i + 1) % ring.length];
+  const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+  const t: XY = [(b[0] - a[0]) / len, (b[1] - a[1]) / len];
+  return { t, n: [t[1], -t[0]] }; // outward normal of an anticlockwise ring
+}
+
+/**
+ * The nearest edge to a footprint: least distance first; where several edges are equally near (a
+ * corner), the one whose outward normal points most nearly at the footprint.
+ */
+function nearestEdge(ring: Ring, foot: Ring): { edge: number; distance: number } {
+  const n = ring.length;
+  const m = foot.length;
+  const dist = new Array<number>(n).fill(Infinity);
+  const toward: XY[] = new Array(n);
+  for (let i = 0; i < n; i++) {
+    const a = ring[i];
+    const b = ring[(i + 1) % n];
+    for (let k = 0; k < m; k++) {
+      const [d, x, y] = pointSegment(foot[k], a, b);
+      if (d < dist[i]) {
+        dist[i] = d;
+        toward[i] = [foot[k][0] - x, foot[k][1] - y];
+      }
+      const c = foot[k];
+      const e = foot[(k + 1) % m];
+      for (const p of [a, b]) {
+        const [dp, xp, yp] = pointSegment(p, c, e);
+        if (dp < dist[i]) {
+          dist[i] = dp;
+          toward[i] = [xp - p[0], yp - p[1]];
+        }
+      }
+    }
+  }
+  const least = Math.min(...dist);
+  let best = -1;
+  let bestAlign = -Infinity;
+  for (let i = 0; i < n; i++) {
+    if (dist[i] > least + TOUCH) continue;
+    const { n: nn } = edgeFrame(ring, i);
+    const v = toward[i];
+    const align = (nn[0] * v[0] + nn[1] * v[1]) / (Math.hypot(v[0], v[1]) || 1);
+    if (align > bestAlign) {
+      bestAlign = align;
+      best = i;
+    }
+  }
+  return { edge: best, distance: least };
+}
+
+/** Offset, width and length of a polygon footprint (site-local ring). */
+export function placeFootprint(excavation: PreparedOutline, foot: Ring): Placement {
+  const ring = excavation.ring;
+  if (ringsMeet(ring, foot)) throw new GeometryError(OVERLAP_MESSAGE);
+  const { edge, distance } = nearestEdge(ring, foot);
+  if (distance <= TOUCH) throw new GeometryError(OVERLAP_MESSAGE);
+  const { t, n } = edgeFrame(ring, edge);
+  let minT = Infinity;
+  let maxT = -Infinity;
+  let minN = Infinity;
+  let maxN = -Infinity;
+  for (const [x, y] of foot) {
+    const pt = x * t[0] + y * t[1];
+    const pn = x * n[0] + y * n[1];
+    minT = Math.min(minT, pt);
+    maxT = Math.max(maxT, pt);
+    minN = Math.min(minN, pn);
+    maxN = Math.max(maxN, pn);
+  }
+  return { offset: distance, width: maxN - minN, length: maxT - minT, edge };
+}
+
+/**
+ * A point load on a pad, the pad taken square to the nearest edge: offset = distance from the point
+ * to the outline less half the pad width.
+ */
+export function placePad(excavation: PreparedOutline, centre: XY, padWidth: number, padLength: number): Placement {
+  const ring = excavation.ring;
+  const d = distanceToRing(centre, ring);
+  if (pointInRing(centre, ring) || d - padWidth / 2 <= TOUCH) throw new GeometryError(OVERLAP_MESSAGE);
+  const { edge } = nearestEdge(ring, [centre]);
+  return { offset: d - padWidth / 2, width: padWidth, length: padLength, edge };
+}

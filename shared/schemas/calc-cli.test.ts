@@ -1,0 +1,109 @@
+/**
+ * `npm run calc` end to end (engineering.md §6): the §6 request gives the §6 result; bad input exits 2,
+ * names each wrong field on standard error and prints nothing on standard output.
+ */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { SIX_PROFILE_TOP, SIX_RESULT, sixRequest } from '../engineering/test-fixtures';
+
+const root = resolve(__dirname, '../..');
+const tsx = join(root, 'node_modules/.bin/tsx');
+const dir = mkdtempSync(join(tmpdir(), 'brink-calc-'));
+
+function calc(input: unknown, viaStdin = false, raw?: string) {
+  const text = raw ?? JSON.stringify(input);
+  const args = ['server/src/cli/calc.ts'];
+  let stdin: string | undefined;
+  if (viaStdin) {
+    args.push('-');
+    stdin = text;
+  } else {
+    const file = join(dir, `req-${Math.random().toString(36).slice(2)}.json`);
+    writeFileSync(file, text);
+    args.push(file);
+  }
+  const r = spawnSync(tsx, args, { cwd: root, input: stdin, encoding: 'utf8', timeout: 60_000 });
+  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+/** The request of engineering.md §6, as plain JSON to mutate. */
+const six = (): Record<string, any> => JSON.parse(JSON.stringify(sixRequest()));
+
+function expectRejected(r: ReturnType<typeof calc>, fields: string[]) {
+  expect(r.code).toBe(2);
+  expect(r.stdout).toBe('');
+  const lines = r.stderr.trim().split('\n');
+  for (const f of fields) expect(lines.some((l) => l.startsWith(`${f}: `)), `${f} in:\n${r.stderr}`).toBe(true);
+}
+
+describe('npm run calc', { timeout: 60_000 }, () => {
+  it('answers the §6 request with the §6 result (engineering.md §6, the hand check of §3.1)', () => {
+    const r = calc(six());
+    expect(r.code).toBe(0);
+    expect(r.stderr).toBe('');
+    const out = JSON.parse(r.stdout);
+    expect(out).toMatchObject(SIX_RESULT);
+    expect(out.profile[0]).toEqual(SIX_PROFILE_TOP);
+    expect(out.profile).toHaveLength(61);
+    expect(r.stdout).not.toMatch(/\d\.\d*0000000\d/); // no floating drift such as 0.15000000000000002
+  });
+
+  it('reads standard input and answers a list with a list, defaults filled in', () => {
+    const minimal = { excavation: { depth: 3, designSurcharge: 10 }, soil: [{ top: 0, unitWeight: 19, frictionAngle: 30 }], method: 'dispersion-45', loads: [] };
+    const r = calc([six(), minimal], true);
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out).toHaveLength(2);
+    expect(out[1]).toMatchObject({ utilisation: 0, passes: true, forces: { soil: 28.5 } });
+  });
+
+  it('zero or negative depth', () => {
+    const a = six();
+    a.excavation.depth = 0;
+    expectRejected(calc(a), ['excavation.depth']);
+    a.excavation.depth = -2;
+    const r = calc(a);
+    expectRejected(r, ['excavation.depth']);
+    expect(r.stderr).toMatch(/greater than 0/);
+  });
+
+  it('φ′ outside (0°, 60°] on a drained layer, and δ > φ′', () => {
+    const a = six();
+    a.soil = [
+      { top: 0, unitWeight: 19, saturatedUnitWeight: 20, frictionAngle: 0, cohesion: 0 },
+      { top: 1, unitWeight: 19, saturatedUnitWeight: 20, frictionAngle: 61, cohesion: 0 },
+    ];
+    const r = calc(a);
+    expectRejected(r, ['soil[0].frictionAngle', 'soil[1].frictionAngle']);
+    expect(r.stderr).toMatch(/greater than 0° and at most 60°/);
+    const b = six();
+    b.excavation.wallFriction = 31;
+    expectRejected(calc(b), ['excavation.wallFriction']);
+  });
+
+  it('unknown load kind, missing fields, strings, NaN and an empty soil list, each named, in one go', () => {
+    const a = six();
+    a.loads = [{ id: 'crane', kind: 'crane', force: 100, offset: 1 }, { id: 'x', kind: 'strip', pressure: 'NaN', offset: 1 }];
+    a.soil = [];
+    a.excavation.depth = '3';
+    delete a.method;
+    const r = calc(a);
+    expectRejected(r, ['loads[0].kind', 'loads[1].pressure', 'loads[1].width', 'soil', 'excavation.depth', 'method']);
+    expect(r.stderr).toMatch(/unknown load kind "crane"/);
+    expect(r.stderr).toMatch(/loads\[1\]\.width: is required/);
+    expect(r.stderr).toMatch(/soil: must list at least one layer/);
+  });
+
+  it('a bare NaN (not JSON) and a list with one bad request: exit 2, nothing on standard output', () => {
+    const raw = calc(null, true, JSON.stringify(six()).replace('"depth":3', '"depth":NaN'));
+    expect(raw.code).toBe(2);
+    expect(raw.stdout).toBe('');
+    expect(raw.stderr).toMatch(/not valid JSON/);
+    const bad = six();
+    bad.excavation.depth = -1;
+    expectRejected(calc([six(), bad]), ['[1].excavation.depth']);
+  });
+});
