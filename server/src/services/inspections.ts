@@ -329,7 +329,9 @@ export interface Consequences {
  * What follows a recorded inspection. "Not safe": every live permit on the excavation is suspended
  * through the permits' own transition (same e-mails as a coordinator's suspension, the inspection
  * as the reason), and the site's supervisors and coordinators are e-mailed. A safe inspection
- * changes no permit: resuming stays the coordinator's decision.
+ * changes no permit: resuming stays the coordinator's decision. Once the inspection is stored this
+ * never throws: a permit that could not be suspended is listed in `notSuspended` (and in the
+ * e-mail) so that people act by hand.
  */
 export async function applyConsequences(deps: Deps, inspection: Inspection): Promise<Consequences> {
   const out: Consequences = { suspended: [], notSuspended: [], notified: [] };
@@ -346,7 +348,12 @@ export async function applyConsequences(deps: Deps, inspection: Inspection): Pro
       .onConflict((oc) => oc.doNothing())
       .execute();
   }
-  out.notified = await mailFailedInspection(deps, exc, inspection, out);
+  try {
+    out.notified = await mailFailedInspection(deps, exc, inspection, out);
+  } catch (err) {
+    // The inspection and the suspensions stand; the answer says nobody was e-mailed.
+    console.error(`[inspections] e-mail about inspection ${inspection.id} could not be queued:`, (err as Error).message);
+  }
   return out;
 }
 
