@@ -148,6 +148,7 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
   for (let p = 0; p < pages.count; p++) {
     doc.switchToPage(pages.start + p);
     const y = doc.page.height - doc.page.margins.bottom + 16;
+    doc.page.margins.bottom = 0; // writing in the bottom margin must not start a new page
     doc.font('Helvetica').fontSize(7).fillColor(MUTED);
     doc.text(`${REPORT_CAUTION}  Page ${p + 1} of ${pages.count}.`, left, y, { width, lineBreak: true, height: 30 });
   }
