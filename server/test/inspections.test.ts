@@ -437,6 +437,15 @@ describe('records', () => {
     }
     expect(pdf.toString('latin1')).toMatch(/\/Subtype\s*\/Image/);
 
+    // A longer report runs over several pages, each with its footer, and no page of footer alone.
+    for (let i = 0; i < 14; i++) await excavation(s, 'open', '2026-06-01T00:00:00Z');
+    const long = (await agent.get(`/api/sites/${s}/inspections/report.pdf?week=2026-W25`).buffer(true).parse(binary)).body as Buffer;
+    const pages = Number(/\/Count (\d+)/.exec(long.toString('latin1'))![1]);
+    expect(pages).toBeGreaterThan(1);
+    const longText = pdfText(long);
+    for (let n = 1; n <= pages; n++) expect(longText).toContain(`Page ${n} of ${pages}.`);
+    expect(longText).not.toContain(`Page ${pages + 1} of`);
+
     const bad = await agent.get(`/api/sites/${s}/inspections/report.pdf?week=2026-W60`);
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields).toHaveProperty('week');
