@@ -17,7 +17,10 @@ export interface NavItem {
  */
 export const navItems: NavItem[] = [
   { label: 'Dashboard', to: '/sites/:siteId', end: true },
+  { label: 'Site map', to: '/sites/:siteId/map' },
+  { label: 'Register', to: '/sites/:siteId/register' },
   { label: 'Inspections', to: '/sites/:siteId/inspections', who: ['supervisor', 'coordinator', 'operator'] },
+  { label: 'Plant', to: '/plant' },
   { label: 'People', to: '/admin/people', who: 'admin' },
   { label: 'Sites', to: '/admin/sites', who: 'admin' },
 ];

@@ -3,6 +3,9 @@ import { adminRoutes } from '@client/features/admin';
 import { authRoutes } from '@client/features/auth';
 import { dashboardRoutes } from '@client/features/dashboard';
 import { inspectionRoutes } from '@client/features/inspections';
+import { mapRoutes } from '@client/features/map';
+import { plantRoutes } from '@client/features/plant';
+import { registerRoutes } from '@client/features/register';
 import { ErrorPage, NotFound } from './ErrorPage';
 import { Layout, PublicLayout } from './Layout';
 import { RequireAdmin, RequireAuth } from './RequireAuth';
@@ -12,10 +15,10 @@ import { HomeRedirect, SiteScope } from './SiteScope';
  * Pages of one site, under /sites/:siteId (members of that site and administrators only).
  * Add one with a line, e.g. `{ path: 'map', Component: SiteMapPage },`, and its link in nav.ts.
  */
-const siteRoutes: RouteObject[] = [...dashboardRoutes, ...inspectionRoutes];
+const siteRoutes: RouteObject[] = [...dashboardRoutes, ...mapRoutes, ...registerRoutes, ...inspectionRoutes];
 
 /** Other signed-in pages, e.g. `{ path: 'permits/:permitId', Component: PermitPage },`. */
-const signedInRoutes: RouteObject[] = [];
+const signedInRoutes: RouteObject[] = [...plantRoutes];
 
 export const routes: RouteObject[] = [
   {

@@ -15,8 +15,10 @@ export function applyServerErrors<T extends FieldValues>(
 ): string {
   if (!(error instanceof ApiError)) return errorMessage(error);
   const unshown: string[] = [];
-  for (const [name, reason] of Object.entries(error.fields)) {
-    if ((shownFields as readonly string[]).includes(name)) {
+  for (const [serverName, reason] of Object.entries(error.fields)) {
+    // The server names list items as `soil[0].top`; react-hook-form as `soil.0.top`.
+    const name = serverName.replace(/\[(\d+)\]/g, '.$1');
+    if ((shownFields as readonly string[]).includes(name) || (shownFields as readonly string[]).includes(name.split('.')[0])) {
       setError(name as Path<T>, { type: 'server', message: reason });
     } else {
       unshown.push(fieldSentence(labels[name as Path<T>] ?? name, reason));

@@ -1,0 +1,243 @@
+import { useEffect, useId, useState } from 'react';
+import { useForm, type Path, type Resolver } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
+import type { z } from 'zod';
+import {
+  excavationStates,
+  kindLabels,
+  stateLabels,
+  supportLabels,
+  supportTypes,
+  TRENCH_WIDTH,
+  type Excavation,
+  type ExcavationGeometry,
+  type ExcavationInput,
+  type ExcavationValues,
+} from '@shared/schemas/excavations';
+import { Button } from '@client/components/Button';
+import { Caution } from '@client/components/Caution';
+import { ConfirmAction } from '@client/components/ConfirmAction';
+import { FormSummary, SelectField, TextField } from '@client/components/Fields';
+import { applyServerErrors } from '@client/lib/forms';
+import { excavationFormSchema, numberOrNull, type ExcavationFormValues } from './excavationFormValues';
+import { SoilTable } from './SoilTable';
+
+const stateOptions = excavationStates.map((s) => ({ value: s, label: stateLabels[s] }));
+const supportOptions = supportTypes.map((s) => ({ value: s, label: supportLabels[s] }));
+
+const labels: Partial<Record<Path<ExcavationFormValues>, string>> = {
+  reference: 'Reference',
+  name: 'Name',
+  geometry: 'The shape',
+  width: 'Width',
+  depth: 'Depth',
+  state: 'State',
+  supportType: 'Support',
+  designSurcharge: 'Design surcharge allowance',
+  ratedPressure: 'Rated pressure',
+  restraint: 'Restraint',
+  pressureState: 'Earth pressure',
+  wallFriction: 'Wall friction',
+  groundwaterDepth: 'Groundwater depth',
+  designReference: 'Design reference',
+  notes: 'Notes',
+  soil: 'Soil layers',
+};
+const shown = Object.keys(labels) as Path<ExcavationFormValues>[];
+
+export interface ExcavationFormProps {
+  /** The saved excavation, or null for a new one. */
+  excavation: Excavation | null;
+  initial: ExcavationFormValues;
+  /** The reference the soil was copied from, for a new excavation. */
+  soilFrom: string | null;
+  canEdit: boolean;
+  /** The shape on the map as it is now (drawn, or being changed). */
+  geometry: ExcavationGeometry | null;
+  editingShape: boolean;
+  onEditShape: () => void;
+  /** What the map should preview while the form changes. */
+  onPreview: (v: { kind: ExcavationFormValues['kind']; geometry: ExcavationGeometry | null; width: number | null; depth: number | null; state: ExcavationFormValues['state'] }) => void;
+  onSave: (values: ExcavationInput, drawing: File | null) => Promise<void>;
+  onDelete: () => Promise<void>;
+  onRemoveDrawing: () => Promise<void>;
+  onClose: () => void;
+}
+
+/**
+ * What an excavation is: reference and name, depth and state, what holds it up, the ground, the design
+ * and the drawing. Checked with the shared schema before it is sent; the server's reasons land on the
+ * same fields, and what was typed stays.
+ */
+export function ExcavationForm(props: ExcavationFormProps) {
+  const { excavation, initial, soilFrom, canEdit, geometry, editingShape, onEditShape, onPreview, onSave, onDelete, onRemoveDrawing, onClose } = props;
+  const [summary, setSummary] = useState<string | null>(null);
+  const [drawing, setDrawing] = useState<File | null>(null);
+  const fileId = useId();
+  const { register, handleSubmit, setError, setValue, watch, control, formState } = useForm<ExcavationFormValues, unknown, ExcavationValues>({
+    resolver: zodResolver(excavationFormSchema as unknown as z.ZodType<ExcavationValues, ExcavationFormValues>) as Resolver<ExcavationFormValues, unknown, ExcavationValues>,
+    defaultValues: initial,
+  });
+  const { errors } = formState;
+
+  // The map's shape is part of the record.
+  useEffect(() => {
+    setValue('geometry', geometry, { shouldDirty: true });
+  }, [geometry, setValue]);
+
+  const kind = watch('kind');
+  const width = watch('width');
+  const depth = watch('depth');
+  const state = watch('state');
+  useEffect(() => {
+    onPreview({ kind, geometry, width: typeof width === 'number' && Number.isFinite(width) ? width : null, depth: typeof depth === 'number' && Number.isFinite(depth) ? depth : null, state });
+  }, [kind, geometry, width, depth, state, onPreview]);
+
+  const submit = handleSubmit(
+    async (values) => {
+      setSummary(null);
+      try {
+        await onSave(values, drawing);
+        setDrawing(null);
+      } catch (error) {
+        setSummary(applyServerErrors(error, setError, shown, labels));
+      }
+    },
+    () => setSummary('Some details need correcting: see the fields marked below.'),
+  );
+
+  const num = { setValueAs: numberOrNull } as const;
+  const ro = !canEdit;
+  return (
+    <form onSubmit={submit} noValidate className="flex flex-col gap-4" aria-label={excavation ? `Excavation ${excavation.reference}` : 'New excavation'}>
+      <div className="flex items-start justify-between gap-3">
+        <h2 className="text-xl font-bold">{excavation ? `${excavation.reference}: ${excavation.name}` : `New ${kindLabels[kind].toLowerCase()}`}</h2>
+        <Button variant="quiet" onClick={onClose}>
+          Close
+        </Button>
+      </div>
+      <FormSummary message={summary} />
+      {soilFrom && !excavation ? (
+        <p className="rounded-md border border-rule-strong bg-paper px-3 py-2 text-sm">
+          Soil layers and groundwater are copied from <strong>{soilFrom}</strong>. Check them against the ground investigation for this place.
+        </p>
+      ) : null}
+
+      <fieldset className="flex flex-col gap-3" disabled={ro}>
+        <div className="grid grid-cols-2 gap-3">
+          <TextField label="Reference" error={errors.reference?.message} {...register('reference')} />
+          <SelectField label="State" options={stateOptions} error={errors.state?.message} {...register('state')} />
+        </div>
+        <TextField label="Name" hint="What it is for, e.g. “Rising main, pump house to inlet chamber”" error={errors.name?.message} {...register('name')} />
+        <div className="flex flex-col gap-2">
+          <p className="font-semibold">
+            Shape: {kindLabels[kind]} {kind === 'trench' ? '(centre line and width)' : '(outline)'}
+          </p>
+          {errors.geometry?.message ? <p className="text-sm font-semibold text-error-text">The shape {errors.geometry.message}.</p> : null}
+          {canEdit ? (
+            <div>
+              <Button variant="secondary" onClick={onEditShape} aria-pressed={editingShape}>
+                {editingShape ? 'Drag the corner points on the map' : 'Change the shape'}
+              </Button>
+            </div>
+          ) : null}
+        </div>
+        <div className="grid grid-cols-2 gap-3">
+          {kind === 'trench' ? (
+            <TextField label="Width (m)" type="number" step="0.05" min={TRENCH_WIDTH.min} max={TRENCH_WIDTH.max} inputMode="decimal" error={errors.width?.message} {...register('width', num)} />
+          ) : null}
+          <TextField label="Depth H (m)" type="number" step="0.05" min={0} inputMode="decimal" hint="Ground to formation level" error={errors.depth?.message} {...register('depth', num)} />
+        </div>
+      </fieldset>
+
+      <fieldset className="flex flex-col gap-3" disabled={ro}>
+        <legend className="mb-1 text-lg font-semibold">Support</legend>
+        <SelectField label="Support" options={supportOptions} emptyLabel="Choose the support" error={errors.supportType?.message} {...register('supportType')} />
+        <div className="grid grid-cols-2 gap-3">
+          <TextField label="Design surcharge allowance (kPa)" type="number" step="0.5" min={0} inputMode="decimal" hint="What the support was designed for; 10 kPa is the usual site allowance" error={errors.designSurcharge?.message} {...register('designSurcharge', num)} />
+          <TextField label="Rated pressure (kPa)" type="number" step="any" min={0} inputMode="decimal" hint="Proprietary box or frame only; else empty" error={errors.ratedPressure?.message} {...register('ratedPressure', num)} />
+        </div>
+        <SelectField
+          label="Restraint"
+          options={[
+            { value: 'unyielding', label: 'Unyielding (propped, stiff)' },
+            { value: 'yielding', label: 'Yielding (free to move)' },
+          ]}
+          error={errors.restraint?.message}
+          {...register('restraint')}
+        />
+        <details className="rounded-md border border-rule px-3 py-2">
+          <summary className="cursor-pointer font-semibold">Earth pressure and wall friction</summary>
+          <div className="mt-3 grid grid-cols-2 gap-3">
+            <SelectField
+              label="Earth pressure"
+              options={[
+                { value: 'active', label: 'Active' },
+                { value: 'at-rest', label: 'At rest' },
+              ]}
+              error={errors.pressureState?.message}
+              {...register('pressureState')}
+            />
+            <TextField label="Wall friction δ (°)" type="number" step="any" min={0} inputMode="decimal" error={errors.wallFriction?.message} {...register('wallFriction', num)} />
+          </div>
+        </details>
+      </fieldset>
+
+      <fieldset className="flex flex-col gap-3" disabled={ro}>
+        <legend className="mb-1 text-lg font-semibold">Ground</legend>
+        <SoilTable control={control} register={register} watch={watch} errors={errors} readOnly={ro} />
+        <TextField label="Groundwater depth (m)" type="number" step="0.05" min={0} inputMode="decimal" hint="Below ground level; empty when none was found" error={errors.groundwaterDepth?.message} {...register('groundwaterDepth', num)} />
+      </fieldset>
+
+      <fieldset className="flex flex-col gap-3" disabled={ro}>
+        <legend className="mb-1 text-lg font-semibold">Design</legend>
+        <TextField label="Design reference" hint="Drawing or calculation number and revision" error={errors.designReference?.message} {...register('designReference')} />
+        <div className="flex flex-col gap-1">
+          <label htmlFor={fileId} className="font-semibold">
+            Design drawing (PDF, up to 20 MB)
+          </label>
+          {excavation?.drawing ? (
+            <p className="flex flex-wrap items-center gap-3 text-sm">
+              <a href={`/api/uploads/${excavation.drawing.id}`} target="_blank" rel="noreferrer">
+                {excavation.drawing.name}
+              </a>
+              <span className="text-ink-soft">{(excavation.drawing.size / 1024 / 1024).toFixed(2)} MB</span>
+              {canEdit ? (
+                <Button variant="quiet" className="min-h-9" onClick={() => void onRemoveDrawing()}>
+                  Remove the drawing
+                </Button>
+              ) : null}
+            </p>
+          ) : null}
+          {canEdit ? <input id={fileId} type="file" accept="application/pdf,.pdf" onChange={(e) => setDrawing(e.target.files?.[0] ?? null)} /> : null}
+          {drawing ? <p className="text-sm text-ink-soft">{drawing.name} is sent when you save.</p> : null}
+        </div>
+        <div className="flex flex-col gap-1">
+          <label htmlFor={`${fileId}-notes`} className="font-semibold">
+            Notes
+          </label>
+          <textarea id={`${fileId}-notes`} rows={3} className="rounded-md border border-rule-strong bg-sheet px-3 py-2" {...register('notes')} />
+        </div>
+      </fieldset>
+
+      <Caution />
+      {canEdit ? (
+        <div className="flex flex-wrap gap-3">
+          <Button type="submit" busy={formState.isSubmitting} busyText="Saving…">
+            {excavation ? 'Save changes' : 'Save excavation'}
+          </Button>
+          {excavation ? (
+            <ConfirmAction
+              label="Remove from the register"
+              question={`Remove ${excavation.reference} from the register? Its record stays in the audit log. If it has been filled in, set its state to Backfilled instead.`}
+              confirmLabel="Remove it"
+              onConfirm={onDelete}
+            />
+          ) : null}
+        </div>
+      ) : (
+        <p className="text-sm text-ink-soft">Supervisors and coordinators change the register; you can read it.</p>
+      )}
+    </form>
+  );
+}

@@ -1,0 +1,29 @@
+import { describe, expect, it } from 'vitest';
+import { render } from '@testing-library/react';
+import { Footprint, scaleBarLength } from './Footprint';
+
+describe('footprint drawing', () => {
+  it('picks a scale bar of 1, 2 or 5 × 10ⁿ m near a quarter of the width', () => {
+    expect(scaleBarLength(3.9)).toBe(1);
+    expect(scaleBarLength(7.8)).toBe(2);
+    expect(scaleBarLength(18)).toBe(5);
+  });
+
+  it('draws every element to one scale: a 3 m track is twice as long as a 1.5 m pad is wide', () => {
+    const { container } = render(
+      <Footprint
+        name="test"
+        elements={[
+          { name: 'Track', kind: 'track', x: 0, y: 1, length: 3, width: 0.6, share: 0.5 },
+          { name: 'Pad', kind: 'pad', x: 0, y: -1, length: 1.5, width: 1.5, share: 0.5 },
+        ]}
+      />,
+    );
+    const rects = [...container.querySelectorAll('rect')].filter((r) => r.querySelector('title'));
+    expect(rects).toHaveLength(2);
+    const [track, pad] = rects.map((r) => ({ w: Number(r.getAttribute('width')), h: Number(r.getAttribute('height')) }));
+    expect(track.w / pad.h).toBeCloseTo(2, 6);
+    expect(track.w / track.h).toBeCloseTo(5, 6);
+    expect(container.textContent).toContain(' m');
+  });
+});

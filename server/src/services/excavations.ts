@@ -1,0 +1,237 @@
+/**
+ * The excavation register on the server: rows ↔ API objects (with the ground outline and the
+ * influence zone from the shared plan geometry), the checks that need the site (every point within
+ * SITE_RADIUS of the origin, an outline the geometry can form), and GeoJSON out and in.
+ */
+import type { Selectable } from 'kysely';
+import type { Feature, FeatureCollection, Polygon } from 'geojson';
+import {
+  excavationInputSchema,
+  SITE_RADIUS,
+  type Excavation,
+  type ExcavationInput,
+  type ExcavationValues,
+  type ImportReport,
+} from '@shared/schemas/excavations';
+import { excavationOutline, GeometryError, influenceZone, localProjection, type ExcavationShape, type LocalProjection } from '@shared/geometry';
+import type { Db, ExcavationsTable } from '@db/database';
+import { zodFields } from '../http';
+
+type Row = Selectable<ExcavationsTable>;
+export interface SiteOrigin {
+  latitude: number;
+  longitude: number;
+}
+
+export const projectionOf = (site: SiteOrigin): LocalProjection => localProjection([site.longitude, site.latitude]);
+
+function shapeOf(v: Pick<ExcavationValues, 'kind' | 'geometry' | 'width'>): ExcavationShape {
+  return v.kind === 'trench' && v.geometry.type === 'LineString'
+    ? { kind: 'trench', centreLine: v.geometry, width: v.width ?? 0 }
+    : { kind: 'pit', outline: v.geometry as Polygon };
+}
+
+/** The ground outline (GeoJSON Polygon, WGS84) and the influence zone of an excavation; throws GeometryError when no outline forms. */
+export function outlineAndZone(v: Pick<ExcavationValues, 'kind' | 'geometry' | 'width' | 'depth'>, proj: LocalProjection): Pick<Excavation, 'outline' | 'influenceZone'> {
+  const prepared = excavationOutline(shapeOf(v), proj);
+  const ring = prepared.ring.map((p) => proj.toWgs84(p));
+  return { outline: { type: 'Polygon', coordinates: [[...ring, ring[0]]] }, influenceZone: influenceZone(prepared, v.depth, proj) };
+}
+
+/**
+ * Problems that need the site: a point farther than SITE_RADIUS from the origin, or a geometry that
+ * forms no outline (a trench bent back on itself, a pit of no area). Field → reason; empty when fine.
+ */
+export function placementProblems(v: Pick<ExcavationValues, 'kind' | 'geometry' | 'width' | 'depth'>, proj: LocalProjection): Record<string, string> {
+  const points = v.geometry.type === 'LineString' ? v.geometry.coordinates : v.geometry.coordinates.flat();
+  let farthest = 0;
+  for (const p of points) {
+    const [x, y] = proj.toLocal(p);
+    farthest = Math.max(farthest, Math.hypot(x, y));
+  }
+  if (farthest > SITE_RADIUS) {
+    const km = farthest >= 10_000 ? (farthest / 1000).toFixed(0) : (farthest / 1000).toFixed(1);
+    return { geometry: `must lie within ${SITE_RADIUS / 1000} km of the site origin (a point is ${km} km from it)` };
+  }
+  try {
+    outlineAndZone(v, proj);
+  } catch (e) {
+    if (e instanceof GeometryError) return { geometry: e.message };
+    throw e;
+  }
+  return {};
+}
+
+/** The row's values as an input object (what a PATCH merges into, what an export writes). */
+export function rowValues(r: Row): ExcavationValues {
+  return {
+    reference: r.reference,
+    name: r.name,
+    kind: r.kind,
+    geometry: r.geometry as ExcavationValues['geometry'],
+    width: r.width,
+    depth: r.depth,
+    state: r.state,
+    supportType: r.support_type as ExcavationValues['supportType'],
+    designSurcharge: r.design_surcharge,
+    ratedPressure: r.rated_pressure,
+    restraint: r.restraint,
+    pressureState: r.pressure_state,
+    wallFriction: r.wall_friction,
+    soil: r.soil as ExcavationValues['soil'],
+    groundwaterDepth: r.groundwater_depth,
+    designReference: r.design_reference,
+    notes: r.notes,
+  };
+}
+
+/** Columns of a validated excavation. */
+export function columnsOf(v: ExcavationValues) {
+  return {
+    reference: v.reference,
+    name: v.name,
+    kind: v.kind,
+    geometry: JSON.stringify(v.geometry),
+    width: v.kind === 'trench' ? v.width : null,
+    depth: v.depth,
+    state: v.state,
+    support_type: v.supportType,
+    design_surcharge: v.designSurcharge,
+    rated_pressure: v.ratedPressure,
+    restraint: v.restraint,
+    pressure_state: v.pressureState,
+    wall_friction: v.wallFriction,
+    soil: JSON.stringify(v.soil),
+    groundwater_depth: v.groundwaterDepth,
+    design_reference: v.designReference,
+    notes: v.notes,
+  };
+}
+
+function excavationOut(r: Row, proj: LocalProjection, drawing: Excavation['drawing']): Excavation {
+  const values = rowValues(r);
+  let shapes: Pick<Excavation, 'outline' | 'influenceZone'> = { outline: null, influenceZone: null };
+  try {
+    shapes = outlineAndZone(values, proj);
+  } catch (e) {
+    // Saved geometry is validated on the way in; an outline that no longer forms is shown without one.
+    if (!(e instanceof GeometryError)) throw e;
+  }
+  return {
+    id: r.id,
+    siteId: r.site_id,
+    ...values,
+    version: r.version,
+    drawing,
+    ...shapes,
+    createdAt: new Date(r.created_at).toISOString(),
+    updatedAt: new Date(r.updated_at).toISOString(),
+  };
+}
+
+/**
+ * The excavations of a site (all, or those with the given ids), ordered by reference, each with the
+ * support and soil fields named as in the calculation request, its ground outline and influence
+ * zone. Ids of other sites are left out.
+ */
+export async function loadExcavations(db: Db, siteId: number, ids?: number[]): Promise<Excavation[]> {
+  if (ids && ids.length === 0) return [];
+  const site = await db.selectFrom('sites').select(['latitude', 'longitude']).where('id', '=', siteId).executeTakeFirst();
+  if (!site) return [];
+  let q = db
+    .selectFrom('excavations')
+    .leftJoin('uploads', 'uploads.id', 'excavations.drawing_upload_id')
+    .selectAll('excavations')
+    .select(['uploads.original_name as drawing_name', 'uploads.size as drawing_size'])
+    .where('excavations.site_id', '=', siteId)
+    .orderBy('excavations.reference');
+  if (ids) q = q.where('excavations.id', 'in', ids);
+  const proj = projectionOf(site);
+  return (await q.execute()).map((r) =>
+    excavationOut(r, proj, r.drawing_upload_id ? { id: r.drawing_upload_id, name: r.drawing_name ?? 'drawing.pdf', size: r.drawing_size ?? 0 } : null),
+  );
+}
+
+/** Properties written for each excavation in a GeoJSON export (and read back on import). */
+type ExportProperties = Omit<ExcavationValues, 'geometry'>;
+
+/** The site's excavations as a GeoJSON FeatureCollection (RFC 7946), one Feature each with its properties. */
+export function toFeatureCollection(list: Excavation[]): FeatureCollection {
+  return {
+    type: 'FeatureCollection',
+    features: list.map((e): Feature => {
+      const { geometry, ...properties } = pickValues(e);
+      return { type: 'Feature', id: e.reference, geometry, properties: properties satisfies ExportProperties };
+    }),
+  };
+}
+
+function pickValues(e: Excavation): ExcavationValues {
+  const { id: _i, siteId: _s, version: _v, drawing: _d, outline: _o, influenceZone: _z, createdAt: _c, updatedAt: _u, ...values } = e;
+  return values;
+}
+
+/** Reasons a whole import file is refused before its features are read; `null` when it is a FeatureCollection. */
+function fileProblem(doc: unknown): string | null {
+  if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) return 'must be a GeoJSON FeatureCollection';
+  const d = doc as { type?: unknown; features?: unknown };
+  if (d.type !== 'FeatureCollection') return `must be a GeoJSON FeatureCollection, not ${JSON.stringify(d.type ?? null)}`;
+  if (!Array.isArray(d.features)) return 'has no list of features';
+  if (d.features.length === 0) return 'has no features';
+  if (d.features.length > 1000) return 'has more than 1000 features; split it';
+  return null;
+}
+
+export interface ImportPlan {
+  /** Set when the file as a whole is unusable (not JSON, not a FeatureCollection). */
+  fileError: string | null;
+  features: { index: number; values: ExcavationValues }[];
+  refused: ImportReport['refused'];
+}
+
+/**
+ * Reads an import file: every feature is checked as a new excavation would be (the kind follows
+ * from the geometry when not given). Nothing is written here; the route writes all or nothing.
+ */
+export function readImport(text: string, proj: LocalProjection): ImportPlan {
+  let doc: unknown;
+  try {
+    doc = JSON.parse(text.replace(/^\uFEFF/, ''));
+  } catch {
+    return { fileError: 'is not JSON (expected a GeoJSON FeatureCollection)', features: [], refused: [] };
+  }
+  const problem = fileProblem(doc);
+  if (problem) return { fileError: problem, features: [], refused: [] };
+  const plan: ImportPlan = { fileError: null, features: [], refused: [] };
+  const seen = new Map<string, number>();
+  (doc as { features: unknown[] }).features.forEach((f, index) => {
+    const feature = (typeof f === 'object' && f !== null ? f : {}) as { type?: unknown; geometry?: { type?: unknown } | null; properties?: unknown };
+    const props = (typeof feature.properties === 'object' && feature.properties !== null ? feature.properties : {}) as Record<string, unknown>;
+    const reference = typeof props.reference === 'string' ? props.reference.trim() : null;
+    if (feature.type !== 'Feature') {
+      plan.refused.push({ index, reference, reasons: { type: 'must be "Feature"' } });
+      return;
+    }
+    const gtype = feature.geometry?.type;
+    const input: Partial<ExcavationInput> & Record<string, unknown> = {
+      ...props,
+      geometry: feature.geometry as ExcavationInput['geometry'],
+      kind: (props.kind as ExcavationInput['kind']) ?? (gtype === 'LineString' ? 'trench' : gtype === 'Polygon' ? 'pit' : undefined),
+    };
+    const parsed = excavationInputSchema.safeParse(input);
+    if (!parsed.success) {
+      const reasons = zodFields(parsed.error);
+      // The kind follows from the geometry when not given: a wrong geometry is the one reason then.
+      if (props.kind === undefined && Object.keys(reasons).some((k) => k.startsWith('geometry'))) delete reasons.kind;
+      plan.refused.push({ index, reference, reasons });
+      return;
+    }
+    const reasons = placementProblems(parsed.data, proj);
+    const key = parsed.data.reference;
+    if (seen.has(key)) reasons.reference = `repeats the reference of feature ${seen.get(key)! + 1}`;
+    seen.set(key, index);
+    if (Object.keys(reasons).length) plan.refused.push({ index, reference: parsed.data.reference, reasons });
+    else plan.features.push({ index, values: parsed.data });
+  });
+  return plan;
+}

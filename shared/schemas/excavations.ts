@@ -1,0 +1,229 @@
+/**
+ * The excavation register: what is dug, where (GeoJSON, WGS84), how deep, what holds it up and what
+ * ground it is in. The support and soil fields carry the calculation request's own names
+ * (engineering.md §6: `excavation` and `soil`), so a check can be built from an excavation directly
+ * with `calcExcavationOf`.
+ *
+ * Units: metres, kPa, kN/m³, degrees.
+ */
+import { z } from 'zod';
+import { kinks, lineString, polygon } from '@turf/turf';
+import type { LineString, MultiPolygon, Polygon } from 'geojson';
+import { calcRequestSchema, excavationSchema as calcExcavationSchema, soilLayerSchema } from './calc';
+import type { Excavation as CalcExcavation, SoilLayer } from '../engineering/types';
+
+export const excavationKinds = ['trench', 'pit'] as const;
+export type ExcavationKind = (typeof excavationKinds)[number];
+export const kindLabels: Record<ExcavationKind, string> = { trench: 'Trench', pit: 'Pit' };
+
+export const excavationStates = ['planned', 'open', 'backfilled'] as const;
+export type ExcavationState = (typeof excavationStates)[number];
+export const stateLabels: Record<ExcavationState, string> = { planned: 'Planned', open: 'Open', backfilled: 'Backfilled' };
+
+export const supportTypes = ['trench-box', 'hydraulic-frames', 'sheet-piles', 'timbering', 'battered', 'unsupported'] as const;
+export type SupportType = (typeof supportTypes)[number];
+export const supportLabels: Record<SupportType, string> = {
+  'trench-box': 'Trench box',
+  'hydraulic-frames': 'Hydraulic frames',
+  'sheet-piles': 'Sheet piles',
+  timbering: 'Timbering',
+  battered: 'Battered back',
+  unsupported: 'Unsupported',
+};
+
+/** Trench widths the register accepts (m). */
+export const TRENCH_WIDTH = { min: 0.3, max: 10 } as const;
+/** Every point of an excavation lies within this distance of the site origin (m). */
+export const SITE_RADIUS = 5000;
+/** Default design surcharge allowance (kPa): the customary general site allowance. */
+export const DEFAULT_DESIGN_SURCHARGE = 10;
+
+const listOf = (what: string) => `must be ${what}`;
+const coordinate = (lo: number, hi: number, what: string) =>
+  z.number({ error: `must be a number (${what})` }).min(lo, `must be a ${what} between ${lo} and ${hi}`).max(hi, `must be a ${what} between ${lo} and ${hi}`);
+
+/** A GeoJSON position [longitude, latitude] (an altitude, if given, is dropped). */
+export const positionSchema = z
+  .array(z.number({ error: 'must be a number' }), { error: listOf('a position [longitude, latitude]') })
+  .min(2, listOf('a position [longitude, latitude]'))
+  .max(3, listOf('a position [longitude, latitude]'))
+  .pipe(z.tuple([coordinate(-180, 180, 'longitude'), coordinate(-90, 90, 'latitude')]).rest(z.number()))
+  .transform((p): [number, number] => [p[0], p[1]]);
+
+export const lineStringSchema = z.object({
+  type: z.literal('LineString'),
+  coordinates: z.array(positionSchema, { error: listOf('a list of positions') }).min(2, 'a trench centre line needs at least two points').max(500, 'must have at most 500 points'),
+});
+
+const samePosition = (a: number[], b: number[]) => a[0] === b[0] && a[1] === b[1];
+
+export const polygonSchema = z.object({
+  type: z.literal('Polygon'),
+  coordinates: z
+    .array(
+      z
+        .array(positionSchema, { error: listOf('a ring of positions') })
+        .min(4, 'a pit outline needs at least three corners and the first repeated at the end')
+        .max(500, 'must have at most 500 points')
+        .refine((ring) => samePosition(ring[0], ring[ring.length - 1]), 'must end where it starts (a closed ring)'),
+      { error: listOf('a list of rings') },
+    )
+    .min(1, 'must have an outline ring')
+    .max(1, 'a pit outline must be one ring without holes'),
+});
+
+/**
+ * A trench centre line or a pit outline, valid GeoJSON, not crossing itself (checked with turf's
+ * kinks, which finds every point where the line or ring crosses or touches itself).
+ */
+export const geometrySchema = z
+  .discriminatedUnion('type', [lineStringSchema, polygonSchema], {
+    error: (iss) =>
+      typeof iss.input === 'object' && iss.input !== null && 'type' in iss.input
+        ? `must be a LineString (a trench centre line) or a Polygon (a pit outline), not ${JSON.stringify((iss.input as { type: unknown }).type)}`
+        : 'must be a GeoJSON geometry: a LineString (trench centre line) or a Polygon (pit outline)',
+  })
+  .superRefine((g, ctx) => {
+    let crossings;
+    try {
+      crossings = g.type === 'LineString' ? kinks(lineString(g.coordinates)) : kinks(polygon(g.coordinates));
+    } catch {
+      return; // too few points or an open ring: already named by the structure's own checks
+    }
+    if (crossings.features.length > 0) {
+      const [lon, lat] = crossings.features[0].geometry.coordinates;
+      ctx.addIssue({ code: 'custom', message: `must not cross itself (it does near ${lat.toFixed(6)}, ${lon.toFixed(6)})` });
+    }
+  });
+export type ExcavationGeometry = LineString | Polygon;
+
+const calc = calcExcavationSchema.shape;
+
+/** The fields of an excavation, without the whole-record rules (for partial changes). */
+export const excavationFields = {
+  reference: z.string({ error: 'is required' }).trim().min(1, 'is required').max(40, 'must be at most 40 characters'),
+  name: z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters'),
+  kind: z.enum(excavationKinds, { error: `must be one of ${excavationKinds.join(', ')}` }),
+  geometry: geometrySchema,
+  width: z
+    .number({ error: 'must be a number (m)' })
+    .min(TRENCH_WIDTH.min, `must be between ${TRENCH_WIDTH.min} and ${TRENCH_WIDTH.max} m`)
+    .max(TRENCH_WIDTH.max, `must be between ${TRENCH_WIDTH.min} and ${TRENCH_WIDTH.max} m`)
+    .nullable()
+    .default(null),
+  depth: calc.depth,
+  state: z.enum(excavationStates, { error: `must be one of ${excavationStates.join(', ')}` }).default('planned'),
+  supportType: z.enum(supportTypes, { error: `must be one of ${supportTypes.join(', ')}` }),
+  designSurcharge: calc.designSurcharge.max(200, 'must be at most 200 kPa').default(DEFAULT_DESIGN_SURCHARGE),
+  ratedPressure: calc.ratedPressure,
+  restraint: calc.restraint,
+  pressureState: calc.pressureState,
+  wallFriction: calc.wallFriction,
+  soil: z.array(soilLayerSchema, { error: listOf('a list of soil layers') }).min(1, 'must list at least one layer').max(20, 'must list at most 20 layers'),
+  groundwaterDepth: calc.groundwaterDepth,
+  designReference: z.string().trim().max(200, 'must be at most 200 characters').default(''),
+  notes: z.string().max(4000, 'must be at most 4000 characters').default(''),
+};
+
+/** The calculation's `excavation` object of an excavation record. */
+export function calcExcavationOf(e: Pick<CalcExcavation, keyof CalcExcavation>): CalcExcavation {
+  return {
+    depth: e.depth,
+    groundwaterDepth: e.groundwaterDepth,
+    designSurcharge: e.designSurcharge,
+    ratedPressure: e.ratedPressure,
+    pressureState: e.pressureState,
+    wallFriction: e.wallFriction,
+    restraint: e.restraint,
+  };
+}
+
+type Fields = z.output<z.ZodObject<typeof excavationFields>>;
+
+/**
+ * Whole-record rules: the geometry matches the kind (a trench is a centre line with a width, a pit a
+ * polygon), and the support and soil make a calculation request the engine accepts (the same rules
+ * as `npm run calc`: the first layer starts at 0 m, no repeated tops, wall friction within φ′).
+ */
+function checkRecord(v: Fields, ctx: z.RefinementCtx): void {
+  if (v.kind === 'trench') {
+    if (v.geometry.type !== 'LineString') ctx.addIssue({ code: 'custom', path: ['geometry'], message: 'a trench is drawn as its centre line (a LineString)' });
+    if (v.width === null) ctx.addIssue({ code: 'custom', path: ['width'], message: `is required for a trench (${TRENCH_WIDTH.min} to ${TRENCH_WIDTH.max} m)` });
+  } else {
+    if (v.geometry.type !== 'Polygon') ctx.addIssue({ code: 'custom', path: ['geometry'], message: 'a pit is drawn as its outline (a Polygon)' });
+    if (v.width !== null) ctx.addIssue({ code: 'custom', path: ['width'], message: 'applies to trenches only; leave it empty for a pit' });
+  }
+  const r = calcRequestSchema.safeParse({ excavation: calcExcavationOf(v), soil: v.soil, method: 'dispersion-45', loads: [] });
+  if (!r.success) {
+    for (const issue of r.error.issues) {
+      const path = issue.path[0] === 'excavation' ? issue.path.slice(1) : issue.path;
+      ctx.addIssue({ code: 'custom', path, message: issue.message });
+    }
+  }
+}
+
+const sortSoil = <T extends { soil: SoilLayer[] }>(v: T): T => ({ ...v, soil: [...v.soil].sort((a, b) => a.top - b.top) });
+
+/** A new excavation (POST), one feature of an import, and the form. */
+export const excavationInputSchema = z.object(excavationFields).superRefine(checkRecord).transform(sortSoil);
+export type ExcavationInput = z.input<typeof excavationInputSchema>;
+export type ExcavationValues = z.output<typeof excavationInputSchema>;
+
+/**
+ * A change (PATCH): any fields, with the version it was read at; the merged record must pass the
+ * whole-record rules. Defaults are taken off, so a field left out keeps its saved value.
+ */
+export const excavationUpdateSchema = z.object({
+  ...Object.fromEntries(
+    Object.entries(excavationFields).map(([k, s]) => [k, (s instanceof z.ZodDefault ? (s.unwrap() as z.ZodType) : (s as z.ZodType)).optional()]),
+  ),
+  version: z.number({ error: 'is required: the version you read' }).int().positive('must be the version you read'),
+}) as unknown as z.ZodType<Partial<Fields> & { version: number }, Partial<ExcavationInput> & { version: number }>;
+export type ExcavationUpdate = Partial<ExcavationInput> & { version: number };
+
+/** An excavation as the API returns it. */
+export interface Excavation extends ExcavationValues {
+  id: number;
+  siteId: number;
+  version: number;
+  /** The uploaded design drawing (a PDF), served by GET /api/uploads/:id. */
+  drawing: { id: number; name: string; size: number } | null;
+  /** The ground outline: the trench centre line widened by half its width each side, or the pit polygon. */
+  outline: Polygon | null;
+  /** The influence zone: the ground within the depth H of the outline (engineering.md §3.1, §5). */
+  influenceZone: Polygon | MultiPolygon | null;
+  createdAt: string;
+  updatedAt: string;
+}
+
+/** Fields a site plan image is pinned by: its south-west and north-east corners, and how opaque it is drawn. */
+export const planBoundsSchema = z
+  .object({
+    south: coordinate(-90, 90, 'latitude'),
+    west: coordinate(-180, 180, 'longitude'),
+    north: coordinate(-90, 90, 'latitude'),
+    east: coordinate(-180, 180, 'longitude'),
+  })
+  .superRefine((b, ctx) => {
+    if (b.north <= b.south) ctx.addIssue({ code: 'custom', path: ['north'], message: 'must be north of the south edge' });
+    if (b.east <= b.west) ctx.addIssue({ code: 'custom', path: ['east'], message: 'must be east of the west edge' });
+  });
+export type PlanBounds = z.output<typeof planBoundsSchema>;
+export const planOpacitySchema = z.number({ error: 'must be a number from 0 to 1' }).min(0, 'must be from 0 to 1').max(1, 'must be from 0 to 1');
+export const planUpdateSchema = z.object({ bounds: planBoundsSchema.optional(), opacity: planOpacitySchema.optional() });
+
+export interface SitePlan {
+  uploadId: number;
+  name: string;
+  bounds: PlanBounds;
+  opacity: number;
+}
+
+/** What an import did with each feature of the file. */
+export interface ImportReport {
+  imported: { index: number; reference: string; id: number; action: 'created' | 'updated' }[];
+  refused: { index: number; reference: string | null; reasons: Record<string, string> }[];
+}
+
+export const importModes = ['add', 'replace'] as const;
+export type ImportMode = (typeof importModes)[number];
