@@ -219,6 +219,93 @@ export interface GeoJSONGeometry {
   coordinates: unknown;
 }
 
+export type PermitStatusValue =
+  | 'draft'
+  | 'submitted'
+  | 'returned'
+  | 'approved'
+  | 'declined'
+  | 'live'
+  | 'suspended'
+  | 'handed_back'
+  | 'lapsed'
+  | 'withdrawn';
+
+/** A permit: its number, kind and where it stands. Its content lives in `permit_revisions`. */
+export interface PermitsTable {
+  id: Generated<number>;
+  site_id: number;
+  /** Running number on the site; `number` is its printed form (e.g. P-0007). */
+  seq: number;
+  number: string;
+  kind: 'load' | 'dig';
+  status: Generated<PermitStatusValue>;
+  /** Goes up by one with every change; a change quoting an older version is refused (409). */
+  version: Generated<number>;
+  /** The revision in force or being prepared. */
+  revision: Generated<number>;
+  requested_by: number;
+  /** When the "window closes in an hour" reminder went out for the current window. */
+  reminder_sent_at: Timestamp | null;
+  created_at: CreatedAt;
+  updated_at: CreatedAt;
+}
+
+/** One revision of a permit's content; from Approved on a change makes a new one. */
+export interface PermitRevisionsTable {
+  id: Generated<number>;
+  permit_id: number;
+  revision: number;
+  description: Generated<string>;
+  window_start: Timestamp;
+  window_end: Timestamp;
+  excavation_ids: ColumnType<number[], number[] | undefined, number[]>;
+  method: 'dispersion-45' | 'elastic';
+  /** Placed loads (shared/schemas/permits.ts `PlacedLoad[]`). */
+  loads: Json<unknown[]>;
+  /** Dig permits: depth, support method and the buried-services checks. */
+  dig: Json<unknown> | null;
+  /** The last authoritative cumulative check (`PermitCheck`). */
+  check_result: Json<unknown> | null;
+  checked_at: Timestamp | null;
+  /** The coordinator's decision on this revision (`PermitDecision`). */
+  decision: Json<unknown> | null;
+  created_by: number | null;
+  created_at: CreatedAt;
+  updated_at: CreatedAt;
+}
+
+export interface PermitOperatorsTable {
+  revision_id: number;
+  user_id: number;
+  briefed_at: Timestamp | null;
+}
+
+/** The permit's timeline: append-only. `actor_id` null for the schedule or an inspection. */
+export interface PermitEventsTable {
+  id: Generated<number>;
+  permit_id: number;
+  revision: number;
+  at: Timestamp;
+  actor_id: number | null;
+  actor_name: string;
+  action: string;
+  from_status: string | null;
+  to_status: string | null;
+  comment: Generated<string>;
+  detail: ColumnType<unknown, string | undefined, never>;
+}
+
+export interface PermitAttachmentsTable {
+  id: Generated<number>;
+  permit_id: number;
+  revision: number;
+  upload_id: number;
+  kind: 'method-statement' | 'photo' | 'other';
+  added_by: number | null;
+  added_at: CreatedAt;
+}
+
 export interface Database {
   users: UsersTable;
   sites: SitesTable;
@@ -231,6 +318,11 @@ export interface Database {
   uploads: UploadsTable;
   excavations: ExcavationsTable;
   plant_items: PlantItemsTable;
+  permits: PermitsTable;
+  permit_revisions: PermitRevisionsTable;
+  permit_operators: PermitOperatorsTable;
+  permit_events: PermitEventsTable;
+  permit_attachments: PermitAttachmentsTable;
   site_shifts: SiteShiftsTable;
   inspections: InspectionsTable;
   inspection_photos: InspectionPhotosTable;

@@ -1,6 +1,7 @@
 import type { Migration } from 'kysely';
 import * as m0001 from './0001_foundation';
 import * as m0002 from './0002_excavations_plant_uploads';
+import * as m0004 from './0004_permits';
 import * as m0005 from './0005_inspections';
 
 /**
@@ -10,5 +11,6 @@ import * as m0005 from './0005_inspections';
 export const migrations: Record<string, Migration> = {
   '0001_foundation': m0001,
   '0002_excavations_plant_uploads': m0002,
+  '0004_permits': m0004,
   '0005_inspections': m0005,
 };

@@ -9,7 +9,7 @@ import type { DemoContext } from './people';
  */
 const EARTH_RADIUS = 6371008.8;
 
-function lonLat(origin: { latitude: number; longitude: number }, east: number, north: number): [number, number] {
+export function lonLat(origin: { latitude: number; longitude: number }, east: number, north: number): [number, number] {
   const rad = Math.PI / 180;
   const lat = origin.latitude + north / (EARTH_RADIUS * rad);
   const lon = origin.longitude + east / (EARTH_RADIUS * rad * Math.cos(origin.latitude * rad));

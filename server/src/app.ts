@@ -16,6 +16,7 @@ import { registerSitePlanRoutes } from './routes/site-plan';
 import { registerSiteRoutes } from './routes/sites';
 import { registerSystemRoutes } from './routes/system';
 import { registerUploadRoutes } from './routes/uploads';
+import { registerPermitRoutes } from './routes/permits';
 import { registerInspectionRoutes } from './routes/inspections';
 
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../dist/client');
@@ -95,6 +96,7 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerPeopleRoutes(api);
   registerSiteRoutes(api);
   registerUploadRoutes(api);
+  registerPermitRoutes(api);
   registerPlantRoutes(api);
   registerExcavationRoutes(api);
   registerSitePlanRoutes(api);

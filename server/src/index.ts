@@ -4,6 +4,7 @@ import { startRuntime } from './runtime';
 import { MailCatcher } from './mail/catcher';
 import { migrateToLatest } from '@db/migrate';
 import { DEMO_PASSWORD, demoPeople } from '@db/seed/people';
+import { startPermitJobs } from './jobs/permits';
 import { startInspectionJobs } from './jobs/inspections';
 
 // Starts Brink: database migrations, the job queue, the local mail catcher, and one Express
@@ -12,6 +13,8 @@ const config = loadConfig();
 const runtime = await startRuntime(config);
 const { deps } = runtime;
 await migrateToLatest(deps.db);
+// Permits go Live and Lapse on the clock; reminders before a window closes.
+await startPermitJobs(deps);
 await startInspectionJobs(deps);
 
 const catcher = new MailCatcher(deps.db);

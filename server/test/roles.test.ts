@@ -16,6 +16,7 @@ const siteMembers: Who[] = ['coordinator', 'supervisor', 'operator'];
 
 interface Row {
   allow: Who[];
+  /** The body sent, or a function of the demo site's id for bodies that name it. */
   body?: unknown;
 }
 
@@ -41,6 +42,20 @@ export const matrix: Record<string, Row> = {
   'POST /api/sites': { allow: ['admin'], body: {} },
   'PATCH /api/sites/:siteId': { allow: ['admin'], body: { name: '' } },
   'GET /api/uploads/:id': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/operators': { allow: ['admin', 'supervisor', 'coordinator'] },
+  'POST /api/permits': { allow: ['supervisor'], body: (site: number) => ({ siteId: site }) },
+  'GET /api/permits': { allow: signedInPeople },
+  'GET /api/permits/:id': { allow: ['admin', ...siteMembers] },
+  'GET /api/permits/:id/revisions/:revision': { allow: ['admin', ...siteMembers] },
+  'PATCH /api/permits/:id': { allow: ['supervisor'], body: {} },
+  'POST /api/permits/:id/check': { allow: ['supervisor', 'coordinator'], body: {} },
+  'POST /api/permits/:id/transitions': { allow: ['admin', ...siteMembers], body: {} },
+  'POST /api/permits/:id/briefing': { allow: ['operator'] },
+  'POST /api/permits/:id/comments': { allow: siteMembers, body: {} },
+  'GET /api/permits/:id/pdf': { allow: ['admin', ...siteMembers] },
+  'POST /api/permits/:id/attachments': { allow: ['supervisor', 'coordinator'] },
+  'GET /api/permits/:id/attachments/:attachmentId': { allow: ['admin', ...siteMembers] },
+  'DELETE /api/permits/:id/attachments/:attachmentId': { allow: ['supervisor', 'coordinator'] },
   // The plant library is shared by all sites: everyone signed in reads it; administrators and
   // coordinators (of any site, so the outsider too) keep it.
   'GET /api/plant': { allow: signedInPeople },
@@ -105,7 +120,7 @@ describe('role matrix', () => {
         const agent = agents.get(who)!;
         const m = method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
         let req = agent[m](concrete(path));
-        if (row.body !== undefined) req = req.send(row.body as object);
+        if (row.body !== undefined) req = req.send((typeof row.body === 'function' ? row.body(siteId) : row.body) as object);
         const r = await req;
         if (allowed) {
           expect([401, 403]).not.toContain(r.status);

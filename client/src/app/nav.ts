@@ -18,6 +18,7 @@ export interface NavItem {
 export const navItems: NavItem[] = [
   { label: 'Dashboard', to: '/sites/:siteId', end: true },
   { label: 'Site map', to: '/sites/:siteId/map' },
+  { label: 'Permits', to: '/sites/:siteId/permits', who: ['supervisor', 'coordinator', 'operator'] },
   { label: 'Register', to: '/sites/:siteId/register' },
   { label: 'Inspections', to: '/sites/:siteId/inspections', who: ['supervisor', 'coordinator', 'operator'] },
   { label: 'Plant', to: '/plant' },

@@ -2,6 +2,7 @@ import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { adminRoutes } from '@client/features/admin';
 import { authRoutes } from '@client/features/auth';
 import { dashboardRoutes } from '@client/features/dashboard';
+import { permitRoutes, permitSiteRoutes } from '@client/features/permits';
 import { inspectionRoutes } from '@client/features/inspections';
 import { mapRoutes } from '@client/features/map';
 import { plantRoutes } from '@client/features/plant';
@@ -15,10 +16,10 @@ import { HomeRedirect, SiteScope } from './SiteScope';
  * Pages of one site, under /sites/:siteId (members of that site and administrators only).
  * Add one with a line, e.g. `{ path: 'map', Component: SiteMapPage },`, and its link in nav.ts.
  */
-const siteRoutes: RouteObject[] = [...dashboardRoutes, ...mapRoutes, ...registerRoutes, ...inspectionRoutes];
+const siteRoutes: RouteObject[] = [...dashboardRoutes, ...mapRoutes, ...registerRoutes, ...permitSiteRoutes, ...inspectionRoutes];
 
 /** Other signed-in pages, e.g. `{ path: 'permits/:permitId', Component: PermitPage },`. */
-const signedInRoutes: RouteObject[] = [...plantRoutes];
+const signedInRoutes: RouteObject[] = [...plantRoutes, ...permitRoutes];
 
 export const routes: RouteObject[] = [
   {

@@ -1,0 +1,152 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { Excavation } from '@shared/schemas/excavations';
+import type {
+  CheckProposal,
+  PermitAction,
+  PermitCheck,
+  PermitCreateInput,
+  PermitDetail,
+  PermitRevision,
+  PermitSummary,
+  PermitUpdate,
+  TransitionInput,
+} from '@shared/schemas/permits';
+import type { PlantItem } from '@shared/schemas/plant';
+import type { Site } from '@shared/schemas/sites';
+import { api, ApiError, errorFromResponse } from '@client/lib/api';
+
+export const permitKeys = {
+  all: ['permits'] as const,
+  list: (q: Record<string, string>) => ['permits', 'list', q] as const,
+  one: (id: number) => ['permits', 'one', id] as const,
+  revision: (id: number, revision: number) => ['permits', 'one', id, 'revision', revision] as const,
+};
+
+export function usePermitList(query: Record<string, string>) {
+  const qs = new URLSearchParams(Object.entries(query).filter(([, v]) => v !== '')).toString();
+  return useQuery({
+    queryKey: permitKeys.list(query),
+    queryFn: ({ signal }) => api.get<{ permits: PermitSummary[] }>(`/api/permits?${qs}`, signal).then((r) => r.permits),
+  });
+}
+
+export function usePermit(id: number) {
+  return useQuery({
+    queryKey: permitKeys.one(id),
+    queryFn: ({ signal }) => api.get<{ permit: PermitDetail }>(`/api/permits/${id}`, signal).then((r) => r.permit),
+  });
+}
+
+export function useRevision(id: number, revision: number | null) {
+  return useQuery({
+    queryKey: permitKeys.revision(id, revision ?? 0),
+    queryFn: ({ signal }) => api.get<{ revision: PermitRevision }>(`/api/permits/${id}/revisions/${revision}`, signal).then((r) => r.revision),
+    enabled: revision !== null,
+  });
+}
+
+export function useSite(siteId: number) {
+  return useQuery({
+    queryKey: ['sites', siteId],
+    queryFn: ({ signal }) => api.get<{ site: Site }>(`/api/sites/${siteId}`, signal).then((r) => r.site),
+  });
+}
+
+export function useExcavations(siteId: number) {
+  return useQuery({
+    queryKey: ['sites', siteId, 'excavations'],
+    queryFn: ({ signal }) => api.get<{ excavations: Excavation[] }>(`/api/sites/${siteId}/excavations`, signal).then((r) => r.excavations),
+  });
+}
+
+export function usePlant() {
+  return useQuery({
+    queryKey: ['plant'],
+    queryFn: ({ signal }) => api.get<{ plant: PlantItem[] }>('/api/plant', signal).then((r) => r.plant),
+    staleTime: 10 * 60_000,
+  });
+}
+
+export function useOperators(siteId: number, enabled = true) {
+  return useQuery({
+    queryKey: ['sites', siteId, 'operators'],
+    queryFn: ({ signal }) => api.get<{ operators: { id: number; name: string; email: string }[] }>(`/api/sites/${siteId}/operators`, signal).then((r) => r.operators),
+    enabled,
+  });
+}
+
+/** Puts the permit an answer carries (also a 409's) into the cache, so the page shows it as it now is. */
+function usePermitAnswer() {
+  const qc = useQueryClient();
+  return {
+    onSuccess: (permit: PermitDetail) => {
+      qc.setQueryData(permitKeys.one(permit.id), permit);
+      void qc.invalidateQueries({ queryKey: ['permits', 'list'] });
+    },
+    onError: (error: unknown, id: number) => {
+      if (error instanceof ApiError && error.status === 409) void qc.invalidateQueries({ queryKey: permitKeys.one(id) });
+    },
+  };
+}
+
+export function useCreatePermit() {
+  const { onSuccess } = usePermitAnswer();
+  return useMutation({
+    mutationFn: (body: PermitCreateInput) => api.post<{ permit: PermitDetail }>('/api/permits', body).then((r) => r.permit),
+    onSuccess,
+  });
+}
+
+export function useUpdatePermit(id: number) {
+  const { onSuccess, onError } = usePermitAnswer();
+  return useMutation({
+    mutationFn: (body: PermitUpdate) => api.patch<{ permit: PermitDetail }>(`/api/permits/${id}`, body).then((r) => r.permit),
+    onSuccess,
+    onError: (e) => onError(e, id),
+  });
+}
+
+export function useTransition(id: number) {
+  const { onSuccess, onError } = usePermitAnswer();
+  return useMutation({
+    mutationFn: (body: TransitionInput & { action: PermitAction }) => api.post<{ permit: PermitDetail }>(`/api/permits/${id}/transitions`, body).then((r) => r.permit),
+    onSuccess,
+    onError: (e) => onError(e, id),
+  });
+}
+
+/** The server's (authoritative) check of proposed changes, without saving them. */
+export function checkOnServer(id: number, proposal: CheckProposal): Promise<PermitCheck> {
+  return api.post<{ check: PermitCheck }>(`/api/permits/${id}/check`, proposal).then((r) => r.check);
+}
+
+export function useComment(id: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (text: string) => api.post(`/api/permits/${id}/comments`, { text }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: permitKeys.one(id) }),
+  });
+}
+
+export function useBriefing(id: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: () => api.post(`/api/permits/${id}/briefing`),
+    onSuccess: () => qc.invalidateQueries({ queryKey: permitKeys.one(id) }),
+  });
+}
+
+export function useAttach(id: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: async ({ file, kind }: { file: File; kind: string }) => {
+      const form = new FormData();
+      form.append('kind', kind);
+      form.append('file', file);
+      const res = await fetch(`/api/permits/${id}/attachments`, { method: 'POST', body: form, credentials: 'same-origin' });
+      if (!res.ok) throw await errorFromResponse(res);
+      return res.json();
+    },
+    onSuccess: () => qc.invalidateQueries({ queryKey: permitKeys.one(id) }),
+  });
+}

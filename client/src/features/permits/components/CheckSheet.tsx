@@ -1,0 +1,126 @@
+import { Link } from 'react-router-dom';
+import type { CheckResult, CheckRequest } from '@shared/engineering';
+import { statusLabels, type ExcavationCheck, type PermitCheck } from '@shared/schemas/permits';
+import { Caution } from '@client/components/Caution';
+import { PressureDiagram } from './PressureDiagram';
+import { VerdictBadge, VerdictRule } from './Verdict';
+
+const m = (x: number | null) => (x === null ? 'none within 3H' : `${x.toFixed(2)} m`);
+const kN = (x: number) => `${x.toFixed(1)} kN/m`;
+
+/** The calculation sheet of one excavation: inputs, method, diagram, forces, utilisation, standoffs, other permits, warnings. */
+export function ExcavationSheet({ ex, full = true }: { ex: ExcavationCheck; full?: boolean }) {
+  const r = ex.result as unknown as CheckResult;
+  const req = ex.request as CheckRequest;
+  const e = req.excavation;
+  return (
+    <section className="flex flex-col gap-3 rounded-md border border-rule p-4" aria-label={`Check beside ${ex.reference}`}>
+      <h3 className="text-lg font-semibold">
+        {ex.reference} {ex.name}
+      </h3>
+      <VerdictBadge verdict={ex.verdict} utilisation={r.utilisation} />
+      <p>
+        Standoff for this permit's loads: <strong data-testid={`standoff-${ex.excavationId}`}>{m(ex.standoff)}</strong>
+      </p>
+      <table className="text-sm">
+        <caption className="text-left font-semibold">Each load</caption>
+        <thead>
+          <tr className="text-left"><th>Load</th><th>Clear distance now</th><th>Standoff</th></tr>
+        </thead>
+        <tbody>
+          {ex.loadStandoffs.map((l) => (
+            <tr key={l.loadId}><td>{l.label}</td><td>{l.offset.toFixed(2)} m</td><td>{m(l.standoff)}</td></tr>
+          ))}
+        </tbody>
+      </table>
+      {ex.counted.length ? (
+        <p>
+          Counted with {ex.counted.length === 1 ? 'another permit' : 'other permits'} beside {ex.reference} in an overlapping window:{' '}
+          {ex.counted.map((c, i) => (
+            <span key={c.id}>
+              {i ? ', ' : ''}
+              <Link to={`/permits/${c.id}`}>{c.number}</Link> ({statusLabels[c.status]})
+            </span>
+          ))}
+          .
+        </p>
+      ) : (
+        <p>No other approved or live permit stands beside {ex.reference} in this window.</p>
+      )}
+      {full ? (
+        <>
+          <h4 className="font-semibold">Inputs</h4>
+          <ul className="text-sm">
+            <li>Depth {e.depth.toFixed(2)} m; design surcharge {e.designSurcharge.toFixed(1)} kPa; rated pressure {e.ratedPressure === null ? 'none' : `${e.ratedPressure.toFixed(1)} kPa`}</li>
+            <li>Earth pressure {e.pressureState}, wall friction {e.wallFriction}°, support {e.restraint}; groundwater {e.groundwaterDepth === null ? 'none' : `${e.groundwaterDepth.toFixed(2)} m`}</li>
+            {req.soil.map((l, i) => (
+              <li key={i}>
+                Soil from {l.top.toFixed(2)} m: {l.unitWeight} kN/m³
+                {l.frictionAngle !== undefined ? `, φ′ ${l.frictionAngle}°, c′ ${l.cohesion ?? 0} kPa` : `, cu ${l.undrainedShearStrength} kPa`}
+              </li>
+            ))}
+            <li>Coefficients: {r.coefficients.map((c) => `K = ${c.K.toFixed(3)} from ${c.top.toFixed(2)} m`).join('; ')}</li>
+          </ul>
+          <h4 className="font-semibold">Method</h4>
+          <p className="text-sm">
+            {r.method === 'elastic'
+              ? 'Elastic solutions (Boussinesq-based, as given in NAVFAC DM-7.02); area loads analysed as strips of their width.'
+              : '45° load spread: each load presses on the support in the band of depths its spread reaches.'}{' '}
+            Minimum clearance {req.minimumClearance.toFixed(2)} m.
+          </p>
+          <PressureDiagram profile={r.profile} depth={ex.depth} title={`Pressure beside ${ex.reference}`} />
+          <h4 className="font-semibold">Forces and moments (per metre run of support)</h4>
+          <ul className="text-sm">
+            <li>Soil {kN(r.forces.soil)}, water {kN(r.forces.water)}</li>
+            <li>Surcharge {kN(r.forces.surcharge)} against the allowance {kN(r.forces.allowance)}</li>
+            <li>Moment about formation: surcharge {r.moments.surcharge.toFixed(1)} kN·m/m against the allowance {r.moments.allowance.toFixed(1)} kN·m/m</li>
+            <li>Utilisation {r.utilisation === null ? 'no allowance' : r.utilisation.toFixed(2)} ({r.governing ?? '—'} governs); largest pressure {r.maxTotalPressure.toFixed(1)} kPa</li>
+          </ul>
+          <table className="text-sm">
+            <caption className="text-left font-semibold">Loads in the check</caption>
+            <thead>
+              <tr className="text-left"><th>Permit</th><th>Load</th><th>Kind</th><th>Offset</th><th>Force</th></tr>
+            </thead>
+            <tbody>
+              {ex.loads.map((l) => (
+                <tr key={l.engineId}>
+                  <td>{l.own ? 'this' : l.permitNumber}</td>
+                  <td>{l.label}{l.element ? ` – ${l.element}` : ''}</td>
+                  <td>{l.kind}</td>
+                  <td>{l.offset.toFixed(2)} m</td>
+                  <td>{kN(l.force)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </>
+      ) : null}
+      {r.warnings.length ? (
+        <div>
+          <h4 className="font-semibold">Warnings</h4>
+          <ul className="list-disc pl-5 text-sm">{r.warnings.map((w) => <li key={w}>{w}</li>)}</ul>
+        </div>
+      ) : null}
+    </section>
+  );
+}
+
+/** The whole check of a permit: the overall verdict, the colour rule, each excavation's sheet and the caution. */
+export function CheckSheets({ check, full = true }: { check: PermitCheck; full?: boolean }) {
+  return (
+    <div className="flex flex-col gap-4" data-testid="check">
+      <p className="flex flex-wrap items-center gap-3">
+        <VerdictBadge verdict={check.verdict} utilisation={check.utilisation} />
+        <span>
+          Computed standoff: <strong data-testid="computed-standoff">{m(check.computedStandoff)}</strong>
+        </span>
+      </p>
+      <VerdictRule />
+      {check.outsideInfluence.length ? <p className="text-sm">Outside every influence zone (no effect on the support): {check.outsideInfluence.join(', ')}.</p> : null}
+      {check.excavations.map((ex) => (
+        <ExcavationSheet key={ex.excavationId} ex={ex} full={full} />
+      ))}
+      <Caution />
+    </div>
+  );
+}

@@ -1,0 +1,162 @@
+import { Fragment, useEffect, useMemo } from 'react';
+import L from 'leaflet';
+import { MapContainer, Marker, Polygon, Polyline, ScaleControl, TileLayer, Tooltip, useMap } from 'react-leaflet';
+import 'leaflet/dist/leaflet.css';
+import type { MultiPolygon, Polygon as GeoPolygon } from 'geojson';
+import { exclusionZone, prepareExcavation, type LocalProjection, type XY } from '@shared/geometry';
+import { checkExcavationOf, footprintsOf, type PlantForCheck } from '@shared/permits/check';
+import type { Excavation } from '@shared/schemas/excavations';
+import type { PermitCheck, PlacedLoad, Verdict } from '@shared/schemas/permits';
+import { verdictColours } from './Verdict';
+import { bearingOf, centreOf, handleAt } from './placement';
+
+type LatLngRings = [number, number][][];
+const toLeaflet = (g: GeoPolygon | MultiPolygon): LatLngRings[] =>
+  (g.type === 'Polygon' ? [g.coordinates] : g.coordinates).map((poly) => poly.map((ring) => ring.map(([lng, lat]) => [lat, lng] as [number, number])));
+
+interface PlacementMapProps {
+  proj: LocalProjection;
+  excavations: Excavation[];
+  loads: PlacedLoad[];
+  plant: Map<number, PlantForCheck>;
+  check: PermitCheck | null;
+  verdict: Verdict;
+  /** Standoff drawn as the exclusion zone (m): the approved one, or the computed one. */
+  standoff: number | null;
+  editable: boolean;
+  onMove?: (loadId: string, to: XY) => void;
+  onRotate?: (loadId: string, bearing: number) => void;
+  tileUrl?: string | null;
+}
+
+const makeIcon = (text: string, shape: 'move' | 'turn') =>
+  L.divIcon({
+    className: '',
+    html: `<span class="flex size-9 items-center justify-center rounded-full border-2 border-white text-xs font-bold text-white shadow" style="background:${shape === 'move' ? '#1e2a33' : '#47508f'}">${text}</span>`,
+    iconSize: [36, 36],
+    iconAnchor: [18, 18],
+  });
+/** Made once: a new icon on every render would replace the handle under the pointer mid-drag. */
+const moveIcon = makeIcon('Move', 'move');
+const turnIcon = makeIcon('Turn', 'turn');
+
+function FitOnce({ bounds }: { bounds: L.LatLngBounds | null }) {
+  const map = useMap();
+  useEffect(() => {
+    if (bounds && bounds.isValid()) map.fitBounds(bounds.pad(0.15), { maxZoom: 19 });
+    // only when the set of excavations changes
+  }, [map, bounds?.toBBoxString()]); // eslint-disable-line react-hooks/exhaustive-deps
+  return null;
+}
+
+/**
+ * The placing map: excavations (grey), their influence zones (dashed), the exclusion zone at the
+ * standoff (ISO 3864 red), each load's bearing footprints in the verdict colour, a handle to drag
+ * each load and, for machines, a handle to turn them. Scale bar in metres; north is up.
+ */
+export function PlacementMap({ proj, excavations, loads, plant, verdict, standoff, editable, onMove, onRotate, tileUrl }: PlacementMapProps) {
+  const prepared = useMemo(
+    () =>
+      excavations.flatMap((e) => {
+        try {
+          return [{ e, outline: prepareExcavation(checkExcavationOf(e).shape, proj) }];
+        } catch {
+          return [];
+        }
+      }),
+    [excavations, proj],
+  );
+  const zones = useMemo(() => (standoff && standoff > 0 ? prepared.map((p) => toLeaflet(exclusionZone(p.outline, standoff, proj))) : []), [prepared, standoff, proj]);
+  const bounds = useMemo(() => {
+    const pts = excavations.flatMap((e) => (e.outline ? e.outline.coordinates[0].map(([lng, lat]) => [lat, lng] as [number, number]) : []));
+    return pts.length ? L.latLngBounds(pts) : null;
+  }, [excavations]);
+  const colour = verdictColours[verdict];
+  const origin: [number, number] = [proj.origin[1], proj.origin[0]];
+
+  return (
+    <div className="overflow-hidden rounded-md border border-rule-strong">
+      <MapContainer center={origin} zoom={19} maxZoom={22} className="h-[28rem] w-full" scrollWheelZoom aria-label="Map of the excavations and the loads of this permit">
+        {tileUrl ? <TileLayer url={tileUrl} maxNativeZoom={19} maxZoom={22} /> : null}
+        <ScaleControl position="bottomleft" imperial={false} />
+        <FitOnce bounds={bounds} />
+        {excavations.map((e) =>
+          e.influenceZone ? (
+            <Polygon key={`iz${e.id}`} positions={toLeaflet(e.influenceZone)} pathOptions={{ color: '#4c5a64', weight: 1, dashArray: '4 4', fill: false }} interactive={false} />
+          ) : null,
+        )}
+        {zones.map((z, i) => (
+          <Polygon key={`ez${i}`} positions={z} pathOptions={{ color: verdictColours.fails, weight: 2, fillColor: verdictColours.fails, fillOpacity: 0.12 }} interactive={false} />
+        ))}
+        {excavations.map((e) =>
+          e.outline ? (
+            <Polygon key={`ex${e.id}`} positions={toLeaflet(e.outline)} pathOptions={{ color: '#1e2a33', weight: 2, fillColor: '#a8a29e', fillOpacity: 0.7 }}>
+              <Tooltip permanent direction="center">{e.reference}</Tooltip>
+            </Polygon>
+          ) : null,
+        )}
+        {loads.map((load) => {
+          let feet: ReturnType<typeof footprintsOf> = [];
+          try {
+            feet = footprintsOf(load, plant, proj);
+          } catch {
+            feet = [];
+          }
+          const c = centreOf(load, proj);
+          const cLL = proj.toWgs84(c);
+          const name = load.label || load.id;
+          return (
+            <Fragment key={load.id}>
+              {feet.map((f, i) =>
+                f.kind === 'line' ? (
+                  <Polyline key={i} positions={f.local.map((p) => { const q = proj.toWgs84(p); return [q[1], q[0]] as [number, number]; })} pathOptions={{ color: colour, weight: 5 }} />
+                ) : (
+                  <Polygon key={i} positions={f.local.map((p) => { const q = proj.toWgs84(p); return [q[1], q[0]] as [number, number]; })} pathOptions={{ color: '#1e2a33', weight: 1, fillColor: colour, fillOpacity: 0.8 }}>
+                    <Tooltip>{f.label}{f.element ? ` – ${f.element}` : ''}: {f.intensity.toFixed(1)} {f.kind === 'area' || f.kind === 'strip' ? 'kPa' : 'kN/m'}</Tooltip>
+                  </Polygon>
+                ),
+              )}
+              {editable ? (
+                <Marker
+                  position={[cLL[1], cLL[0]]}
+                  draggable
+                  title={`Move ${name}`}
+                  icon={moveIcon}
+                  eventHandlers={{
+                    drag: (ev) => {
+                      const ll = (ev.target as L.Marker).getLatLng();
+                      onMove?.(load.id, proj.toLocal([ll.lng, ll.lat]));
+                    },
+                  }}
+                />
+              ) : null}
+              {editable && load.kind === 'plant'
+                ? (() => {
+                    const h = proj.toWgs84(handleAt(c, load.rotation));
+                    return (
+                      <Marker
+                        position={[h[1], h[0]]}
+                        draggable
+                        title={`Turn ${name}`}
+                        icon={turnIcon}
+                        eventHandlers={{
+                          drag: (ev) => {
+                            const ll = (ev.target as L.Marker).getLatLng();
+                            onRotate?.(load.id, bearingOf(c, proj.toLocal([ll.lng, ll.lat])));
+                          },
+                        }}
+                      />
+                    );
+                  })()
+                : null}
+            </Fragment>
+          );
+        })}
+      </MapContainer>
+      <p className="px-3 py-2 text-sm text-ink-soft">
+        North is up. Grey: excavations; dashed: influence zones (within the depth of the edge); red band: exclusion zone
+        {standoff ? ` (${standoff.toFixed(2)} m from the edge)` : ''}. Loads are coloured by the verdict. Drag “Move” to place a load, “Turn” to turn a machine.
+      </p>
+    </div>
+  );
+}

@@ -1,0 +1,349 @@
+import { useEffect, useMemo, useState } from 'react';
+import { Link, useNavigate, useParams } from 'react-router-dom';
+import { useQuery } from '@tanstack/react-query';
+import { localProjection, type XY } from '@shared/geometry';
+import { checkExcavationOf, cumulativeCheck, PlacementError, type PlantForCheck } from '@shared/permits/check';
+import {
+  placedLoadLabels,
+  serviceCheckKeys,
+  serviceCheckLabels,
+  type DigDetails,
+  type PermitCheck,
+  type PermitDetail,
+  type PlacedLoad,
+  type PlacedLoadKind,
+} from '@shared/schemas/permits';
+import { stockpileMaterials } from '@shared/schemas/plant';
+import { Button, ButtonLink } from '@client/components/Button';
+import { CheckboxField, FormSummary, SelectField, TextField } from '@client/components/Fields';
+import { Page, Panel } from '@client/components/Page';
+import { LoadError, Loading } from '@client/components/Status';
+import { api, ApiError, errorMessage } from '@client/lib/api';
+import { fieldSentence } from '@client/lib/forms';
+import { parseId } from '@client/lib/session';
+import { checkOnServer, useExcavations, useOperators, usePermit, usePlant, useSite, useTransition, useUpdatePermit } from '../api/permits';
+import { CheckSheets } from '../components/CheckSheet';
+import { PlacementMap } from '../components/PlacementMap';
+import { centreOf, moveLoad, rectangle, segment } from '../components/placement';
+import { fromLocalInput, toLocalInput } from '../components/time';
+
+interface Draft {
+  description: string;
+  windowStart: string;
+  windowEnd: string;
+  excavationIds: number[];
+  operatorIds: number[];
+  method: 'dispersion-45' | 'elastic';
+  loads: PlacedLoad[];
+  dig: DigDetails | null;
+}
+
+function draftOf(p: PermitDetail): Draft {
+  const r = p.current;
+  return {
+    description: r.description,
+    windowStart: r.windowStart,
+    windowEnd: r.windowEnd,
+    excavationIds: r.excavationIds,
+    operatorIds: r.operators.map((o) => o.id),
+    method: r.method,
+    loads: r.loads,
+    dig: r.dig,
+  };
+}
+
+const emptyDig: DigDetails = {
+  depth: 1.2,
+  supportMethod: '',
+  servicesChecks: {
+    drawings: { state: 'pending', by: '', at: null, notes: '' },
+    locatorScan: { state: 'pending', by: '', at: null, notes: '' },
+    trialHoles: { state: 'pending', by: '', at: null, notes: '' },
+  },
+};
+
+function useTileUrl() {
+  return useQuery({ queryKey: ['config'], queryFn: () => api.get<{ mapTileUrl: string | null }>('/api/config'), staleTime: Infinity }).data?.mapTileUrl ?? null;
+}
+
+/** Changing a draft or returned permit: placing loads with the live check, the window, the people, the dig checks. */
+export function PermitEditPage() {
+  const id = parseId(useParams().permitId) ?? 0;
+  const permit = usePermit(id);
+  if (permit.isPending) return <Loading what="Loading the permit" />;
+  if (permit.isError) return <LoadError error={permit.error} retry={() => permit.refetch()} />;
+  return <Editor permit={permit.data} key={`${permit.data.id}-${permit.data.revision}`} />;
+}
+
+function Editor({ permit }: { permit: PermitDetail }) {
+  const navigate = useNavigate();
+  const site = useSite(permit.siteId);
+  const excavations = useExcavations(permit.siteId);
+  const plantQ = usePlant();
+  const operators = useOperators(permit.siteId);
+  const tileUrl = useTileUrl();
+  const update = useUpdatePermit(permit.id);
+  const move = useTransition(permit.id);
+  const [draft, setDraft] = useState<Draft>(() => draftOf(permit));
+  const [version, setVersion] = useState(permit.version);
+  const [fields, setFields] = useState<Record<string, string>>({});
+  const [summary, setSummary] = useState<string | null>(null);
+  const [server, setServer] = useState<PermitCheck | null>(permit.current.check);
+  const [newPlant, setNewPlant] = useState('');
+  const [newKind, setNewKind] = useState<Exclude<PlacedLoadKind, 'plant'>>('stockpile');
+
+  const proj = useMemo(() => (site.data ? localProjection([site.data.longitude, site.data.latitude]) : null), [site.data]);
+  const plant = useMemo(() => new Map<number, PlantForCheck>((plantQ.data ?? []).map((p) => [p.id, p])), [plantQ.data]);
+  const named = useMemo(() => (excavations.data ?? []).filter((e) => draft.excavationIds.includes(e.id)), [excavations.data, draft.excavationIds]);
+
+  // The other permits to count come from the server (authoritative), again when the window or excavations change.
+  useEffect(() => {
+    const t = setTimeout(() => {
+      checkOnServer(permit.id, { windowStart: draft.windowStart, windowEnd: draft.windowEnd, excavationIds: draft.excavationIds, loads: [] })
+        .then(setServer)
+        .catch(() => undefined);
+    }, 300);
+    return () => clearTimeout(t);
+  }, [permit.id, draft.windowStart, draft.windowEnd, draft.excavationIds]);
+
+  // The live check, in the browser with the shared engine, on every move.
+  const live = useMemo((): { check: PermitCheck | null; refused: string | null } => {
+    if (!site.data || !proj || draft.loads.length === 0 || named.length === 0 || !plantQ.data) return { check: null, refused: null };
+    try {
+      return {
+        check: cumulativeCheck({
+          origin: [site.data.longitude, site.data.latitude],
+          method: draft.method,
+          minimumClearance: site.data.minimumClearance,
+          permit: { id: permit.id, number: permit.number, windowStart: draft.windowStart, windowEnd: draft.windowEnd, loads: draft.loads },
+          excavations: named.map(checkExcavationOf),
+          plant,
+          others: server?.otherPermits ?? [],
+          now: new Date(),
+        }),
+        refused: null,
+      };
+    } catch (e) {
+      if (e instanceof PlacementError) return { check: null, refused: e.message };
+      return { check: null, refused: 'A load could not be placed: check its figures.' };
+    }
+  }, [site.data, proj, draft, named, plant, plantQ.data, permit.id, permit.number, server]);
+
+  if (site.isPending || excavations.isPending || plantQ.isPending) return <Loading what="Loading the site" />;
+  if (site.isError || excavations.isError || plantQ.isError) return <LoadError error={site.error ?? excavations.error ?? plantQ.error} />;
+  if (!proj) return null;
+
+  const set = (patch: Partial<Draft>) => setDraft((d) => ({ ...d, ...patch }));
+  const setLoad = (loadId: string, f: (l: PlacedLoad) => PlacedLoad) => setDraft((d) => ({ ...d, loads: d.loads.map((l) => (l.id === loadId ? f(l) : l)) }));
+  const nextId = (prefix: string) => {
+    let i = 1;
+    while (draft.loads.some((l) => l.id === `${prefix}${i}`)) i++;
+    return `${prefix}${i}`;
+  };
+  const startAt: XY = named[0]?.outline ? centreOf({ id: 'x', kind: 'area', label: '', pressure: 1, outline: named[0].outline as never }, proj) : [0, 0];
+
+  function addPlant() {
+    const item = plant.get(Number(newPlant));
+    if (!item) return;
+    const at: XY = [startAt[0], startAt[1] + 10];
+    set({ loads: [...draft.loads, { id: nextId('plant'), kind: 'plant', label: item.name, plantItemId: item.id, position: proj!.toWgs84(at) as [number, number], rotation: 90 }] });
+  }
+  function addAdHoc() {
+    const at: XY = [startAt[0], startAt[1] + 10];
+    const id = nextId(newKind);
+    const outline = { type: 'Polygon' as const, coordinates: [rectangle(at, 4, 3, 90, proj!)] };
+    const load: PlacedLoad =
+      newKind === 'stockpile'
+        ? { id, kind: 'stockpile', label: 'Stockpile', outline, unitWeight: 19, height: 1.5 }
+        : newKind === 'area'
+          ? { id, kind: 'area', label: 'Area load', outline, pressure: 20 }
+          : newKind === 'strip'
+            ? { id, kind: 'strip', label: 'Strip load', outline: { type: 'Polygon', coordinates: [rectangle(at, 20, 2, 90, proj!)] }, pressure: 20 }
+            : { id, kind: 'line', label: 'Line load', path: { type: 'LineString', coordinates: segment(at, 10, 90, proj!) }, force: 10 };
+    set({ loads: [...draft.loads, load] });
+  }
+
+  async function save(): Promise<number | null> {
+    setSummary(null);
+    setFields({});
+    try {
+      const saved = await update.mutateAsync({ version, ...draft, method: draft.method });
+      setVersion(saved.version);
+      setServer(saved.current.check);
+      return saved.version;
+    } catch (e) {
+      if (e instanceof ApiError) {
+        setFields(e.fields);
+        setSummary([e.message, ...Object.entries(e.fields).map(([k, v]) => fieldSentence(k, v))].join(' '));
+        if (e.status === 409) setSummary(`${e.message} Reload the page to see it as it now is.`);
+      } else setSummary(errorMessage(e));
+      return null;
+    }
+  }
+  async function saveAndSubmit() {
+    const v = await save();
+    if (v === null) return;
+    try {
+      await move.mutateAsync({ action: 'submit', version: v });
+      navigate(`/permits/${permit.id}`);
+    } catch (e) {
+      if (e instanceof ApiError) setFields(e.fields);
+      setSummary(e instanceof ApiError ? [e.message, ...Object.entries(e.fields).map(([k, v2]) => fieldSentence(k, v2))].join(' ') : errorMessage(e));
+    }
+  }
+
+  const check = live.check ?? null;
+  const verdict = live.refused ? 'fails' : (check?.verdict ?? 'passes');
+  const standoff = check?.computedStandoff ?? null;
+
+  return (
+    <Page
+      title={`Permit ${permit.number}: ${permit.kind === 'load' ? 'place the loads' : 'dig details'}`}
+      intro="Place each load on the map; the check runs as you move it. Save keeps your changes; the server checks them again."
+      actions={<ButtonLink to={`/permits/${permit.id}`}>Back to the permit</ButtonLink>}
+    >
+      <FormSummary message={summary} />
+      <div className="grid gap-6 lg:grid-cols-[3fr_2fr]">
+        <div className="flex flex-col gap-4">
+          <PlacementMap
+            proj={proj}
+            excavations={named.length ? named : (excavations.data ?? [])}
+            loads={draft.loads}
+            plant={plant}
+            check={check}
+            verdict={verdict}
+            standoff={standoff}
+            editable
+            tileUrl={tileUrl}
+            onMove={(loadId, to) => setLoad(loadId, (l) => moveLoad(l, to, proj))}
+            onRotate={(loadId, bearing) => setLoad(loadId, (l) => (l.kind === 'plant' ? { ...l, rotation: bearing } : l))}
+          />
+          <Panel title="Loads" level={2}>
+            {draft.loads.length === 0 ? <p>No loads yet. Add a machine from the library or an ad hoc load.</p> : null}
+            {draft.loads.map((l, i) => (
+              <LoadRow key={l.id} load={l} index={i} proj={proj} plantName={l.kind === 'plant' ? plant.get(l.plantItemId)?.name : undefined} fields={fields} onChange={(nl) => setLoad(l.id, () => nl)} onRemove={() => set({ loads: draft.loads.filter((x) => x.id !== l.id) })} />
+            ))}
+            <div className="flex flex-wrap items-end gap-3">
+              <SelectField label="Machine from the plant library" value={newPlant} onChange={(e) => setNewPlant(e.target.value)} emptyLabel="Choose a machine" options={(plantQ.data ?? []).map((p) => ({ value: p.id, label: `${p.name} (${p.operatingMass} t)` }))} />
+              <Button variant="secondary" onClick={addPlant} disabled={!newPlant}>Add machine</Button>
+            </div>
+            <div className="flex flex-wrap items-end gap-3">
+              <SelectField label="Ad hoc load" value={newKind} onChange={(e) => setNewKind(e.target.value as typeof newKind)} options={(['stockpile', 'area', 'strip', 'line'] as const).map((k) => ({ value: k, label: placedLoadLabels[k] }))} />
+              <Button variant="secondary" onClick={addAdHoc}>Add load</Button>
+            </div>
+          </Panel>
+        </div>
+        <div className="flex flex-col gap-4">
+          <Panel title="Live check" level={2}>
+            {live.refused ? (
+              <p role="alert" className="font-semibold" style={{ color: '#8b1d1d' }} data-verdict="fails">
+                {live.refused}
+              </p>
+            ) : check ? (
+              <CheckSheets check={check} full={false} />
+            ) : (
+              <p>Name an excavation and place a load to see the check.</p>
+            )}
+          </Panel>
+        </div>
+      </div>
+      <Panel title="Request" level={2}>
+        <TextField label="What the work is" value={draft.description} onChange={(e) => set({ description: e.target.value })} error={fields.description} />
+        <div className="grid gap-3 sm:grid-cols-2">
+          <TextField label="Window opens" type="datetime-local" value={toLocalInput(draft.windowStart)} onChange={(e) => e.target.value && set({ windowStart: fromLocalInput(e.target.value) })} error={fields.windowStart} />
+          <TextField label="Window closes" type="datetime-local" value={toLocalInput(draft.windowEnd)} onChange={(e) => e.target.value && set({ windowEnd: fromLocalInput(e.target.value) })} error={fields.windowEnd} />
+        </div>
+        <fieldset className="flex flex-col gap-1">
+          <legend className="font-semibold">Excavations beside the work</legend>
+          {(excavations.data ?? []).filter((e) => e.state !== 'backfilled').map((e) => (
+            <CheckboxField key={e.id} label={`${e.reference} ${e.name} (${e.depth.toFixed(2)} m deep)`} checked={draft.excavationIds.includes(e.id)} onChange={(ev) => set({ excavationIds: ev.target.checked ? [...draft.excavationIds, e.id] : draft.excavationIds.filter((x) => x !== e.id) })} />
+          ))}
+          {fields.excavationIds ? <p className="text-sm font-semibold text-error-text">{fieldSentence('Excavations', fields.excavationIds)}</p> : null}
+        </fieldset>
+        <fieldset className="flex flex-col gap-1">
+          <legend className="font-semibold">Operators to brief (each confirms before work starts)</legend>
+          {(operators.data ?? []).map((o) => (
+            <CheckboxField key={o.id} label={o.name} checked={draft.operatorIds.includes(o.id)} onChange={(ev) => set({ operatorIds: ev.target.checked ? [...draft.operatorIds, o.id] : draft.operatorIds.filter((x) => x !== o.id) })} />
+          ))}
+        </fieldset>
+        <SelectField label="Method" value={draft.method} onChange={(e) => set({ method: e.target.value as Draft['method'] })} options={[{ value: 'dispersion-45', label: '45° load spread' }, { value: 'elastic', label: 'Elastic (Boussinesq-based)' }]} />
+      </Panel>
+      {permit.kind === 'dig' ? <DigForm dig={draft.dig ?? emptyDig} fields={fields} onChange={(dig) => set({ dig })} /> : null}
+      <div className="flex flex-wrap gap-3">
+        <Button onClick={() => void save()} busy={update.isPending} busyText="Saving…" variant="secondary">Save</Button>
+        <Button onClick={() => void saveAndSubmit()} busy={move.isPending} busyText="Sending…">Save and send for review</Button>
+        <Link to={`/permits/${permit.id}`} className="self-center">Leave without saving</Link>
+      </div>
+    </Page>
+  );
+}
+
+function num(v: string): number {
+  return v === '' ? NaN : Number(v);
+}
+
+function LoadRow({ load, index, proj, plantName, fields, onChange, onRemove }: {
+  load: PlacedLoad;
+  index: number;
+  proj: ReturnType<typeof localProjection>;
+  plantName?: string;
+  fields: Record<string, string>;
+  onChange: (l: PlacedLoad) => void;
+  onRemove: () => void;
+}) {
+  const c = centreOf(load, proj);
+  const err = (k: string) => fields[`loads[${index}].${k}`] ?? (k === '' ? fields[`loads[${index}]`] : undefined);
+  return (
+    <fieldset className="flex flex-col gap-2 rounded-md border border-rule p-3" aria-label={`Load ${load.label || load.id}`}>
+      <legend className="font-semibold">{load.label || load.id}{plantName ? ` – ${plantName}` : ''}</legend>
+      {fields[`loads[${index}]`] ? <p className="text-sm font-semibold text-error-text">{fields[`loads[${index}]`]}</p> : null}
+      <div className="grid gap-2 sm:grid-cols-3">
+        <TextField label="Name" value={load.label} onChange={(e) => onChange({ ...load, label: e.target.value })} />
+        <TextField label="East of the site origin (m)" type="number" step="0.1" value={c[0].toFixed(2)} onChange={(e) => Number.isFinite(num(e.target.value)) && onChange(moveLoad(load, [num(e.target.value), c[1]], proj))} />
+        <TextField label="North of the site origin (m)" type="number" step="0.1" value={c[1].toFixed(2)} onChange={(e) => Number.isFinite(num(e.target.value)) && onChange(moveLoad(load, [c[0], num(e.target.value)], proj))} />
+        {load.kind === 'plant' ? (
+          <TextField label="Facing (degrees from north)" type="number" step="1" min="0" max="360" value={load.rotation} onChange={(e) => Number.isFinite(num(e.target.value)) && onChange({ ...load, rotation: num(e.target.value) })} error={err('rotation')} />
+        ) : null}
+        {load.kind === 'stockpile' ? (
+          <>
+            <SelectField label="Material" value="" emptyLabel="Typical unit weights…" onChange={(e) => e.target.value && onChange({ ...load, unitWeight: Number(e.target.value) })} options={stockpileMaterials.map((m) => ({ value: m.unitWeight, label: `${m.name}: ${m.unitWeight} kN/m³` }))} />
+            <TextField label="Unit weight (kN/m³)" type="number" step="0.5" value={load.unitWeight} onChange={(e) => onChange({ ...load, unitWeight: num(e.target.value) })} error={err('unitWeight')} />
+            <TextField label="Height (m)" type="number" step="0.1" value={load.height} onChange={(e) => onChange({ ...load, height: num(e.target.value) })} error={err('height')} hint={`Presses ${(load.unitWeight * load.height).toFixed(1)} kPa`} />
+          </>
+        ) : null}
+        {load.kind === 'area' || load.kind === 'strip' ? (
+          <TextField label="Pressure (kPa)" type="number" step="1" value={load.pressure} onChange={(e) => onChange({ ...load, pressure: num(e.target.value) })} error={err('pressure')} />
+        ) : null}
+        {load.kind === 'line' ? <TextField label="Force (kN/m)" type="number" step="1" value={load.force} onChange={(e) => onChange({ ...load, force: num(e.target.value) })} error={err('force')} /> : null}
+      </div>
+      <div>
+        <Button variant="quiet" onClick={onRemove}>Remove this load</Button>
+      </div>
+    </fieldset>
+  );
+}
+
+function DigForm({ dig, fields, onChange }: { dig: DigDetails; fields: Record<string, string>; onChange: (d: DigDetails) => void }) {
+  return (
+    <Panel title="Dig: depth, support and buried services" level={2}>
+      <div className="grid gap-3 sm:grid-cols-2">
+        <TextField label="Depth (m)" type="number" step="0.1" value={dig.depth} onChange={(e) => onChange({ ...dig, depth: num(e.target.value) })} error={fields['dig.depth']} />
+        <TextField label="Support method" value={dig.supportMethod} onChange={(e) => onChange({ ...dig, supportMethod: e.target.value })} error={fields['dig.supportMethod'] ?? fields.dig} />
+      </div>
+      {serviceCheckKeys.map((k) => {
+        const c = dig.servicesChecks[k];
+        const setC = (patch: Partial<typeof c>) => onChange({ ...dig, servicesChecks: { ...dig.servicesChecks, [k]: { ...c, ...patch } } });
+        const f = (x: string) => fields[`dig.servicesChecks.${k}.${x}`];
+        return (
+          <fieldset key={k} className="grid gap-2 rounded-md border border-rule p-3 sm:grid-cols-4">
+            <legend className="font-semibold">{serviceCheckLabels[k]}</legend>
+            <SelectField label="State" value={c.state} onChange={(e) => setC({ state: e.target.value as typeof c.state })} options={[{ value: 'pending', label: 'Not done yet' }, { value: 'done', label: 'Done' }, ...(k === 'trialHoles' ? [{ value: 'not-needed', label: 'Not needed' }] : [])]} error={fields[`dig.servicesChecks.${k}`] ?? f('state')} />
+            <TextField label="Who did it" value={c.by} onChange={(e) => setC({ by: e.target.value })} error={f('by')} />
+            <TextField label="When" type="datetime-local" value={c.at ? toLocalInput(c.at) : ''} onChange={(e) => setC({ at: e.target.value ? fromLocalInput(e.target.value) : null })} error={f('at')} />
+            <TextField label="Notes" value={c.notes} onChange={(e) => setC({ notes: e.target.value })} error={f('notes')} />
+          </fieldset>
+        );
+      })}
+    </Panel>
+  );
+}

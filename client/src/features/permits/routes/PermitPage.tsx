@@ -1,0 +1,346 @@
+import { useMemo, useState } from 'react';
+import { Link, useParams } from 'react-router-dom';
+import { localProjection } from '@shared/geometry';
+import type { PlantForCheck } from '@shared/permits/check';
+import {
+  attachmentKindLabels,
+  attachmentKinds,
+  commonConditions,
+  editableStatuses,
+  serviceCheckKeys,
+  serviceCheckLabels,
+  statusLabels,
+  transitionRules,
+  type PermitAction,
+  type PermitDetail,
+} from '@shared/schemas/permits';
+import { Button, ButtonLink, buttonClass } from '@client/components/Button';
+import { Caution } from '@client/components/Caution';
+import { CheckboxField, FormSummary, SelectField, TextField } from '@client/components/Fields';
+import { Page, Panel } from '@client/components/Page';
+import { LoadError, Loading, Notice } from '@client/components/Status';
+import { ApiError, errorMessage } from '@client/lib/api';
+import { fieldSentence } from '@client/lib/forms';
+import { parseId } from '@client/lib/session';
+import { useAttach, useBriefing, useComment, useExcavations, usePermit, usePlant, useRevision, useSite, useTransition } from '../api/permits';
+import { CheckSheets } from '../components/CheckSheet';
+import { PlacementMap } from '../components/PlacementMap';
+import { StatusLabel } from '../components/StatusLabel';
+import { when } from '../components/time';
+
+/** One permit: where it stands, the decision, the check sheet, what the viewer may do, the timeline. */
+export function PermitPage() {
+  const id = parseId(useParams().permitId) ?? 0;
+  const permit = usePermit(id);
+  if (permit.isPending) return <Loading what="Loading the permit" />;
+  if (permit.isError) return <LoadError error={permit.error} retry={() => permit.refetch()} />;
+  return <PermitView permit={permit.data} />;
+}
+
+function PermitView({ permit }: { permit: PermitDetail }) {
+  const rev = permit.current;
+  const site = useSite(permit.siteId);
+  const excavations = useExcavations(permit.siteId);
+  const plantQ = usePlant();
+  const proj = useMemo(() => (site.data ? localProjection([site.data.longitude, site.data.latitude]) : null), [site.data]);
+  const plant = useMemo(() => new Map<number, PlantForCheck>((plantQ.data ?? []).map((p) => [p.id, p])), [plantQ.data]);
+  const named = (excavations.data ?? []).filter((e) => rev.excavationIds.includes(e.id));
+  const standoff = rev.decision?.standoff ?? rev.check?.computedStandoff ?? null;
+  const canEdit = editableStatuses.includes(permit.status) && permit.actions.includes('submit');
+
+  return (
+    <Page
+      title={`Permit ${permit.number}`}
+      intro={`${permit.kind === 'load' ? 'Load beside an excavation' : 'Dig: open or extend an excavation'} on ${permit.siteName}. Revision ${permit.revision}.`}
+      actions={
+        <>
+          {canEdit ? <ButtonLink to={`/permits/${permit.id}/edit`} variant="primary">Change the request</ButtonLink> : null}
+          <a className={buttonClass('secondary')} href={`/api/permits/${permit.id}/pdf`} download>
+            Download the permit (PDF)
+          </a>
+        </>
+      }
+    >
+      <Panel title="Where it stands">
+        <p className="text-lg">
+          Status: <StatusLabel status={permit.status} />
+        </p>
+        <dl className="grid gap-x-6 gap-y-1 sm:grid-cols-[max-content_1fr]">
+          <dt className="font-semibold">Window</dt>
+          <dd>{when(rev.windowStart)} to {when(rev.windowEnd)}</dd>
+          <dt className="font-semibold">Work</dt>
+          <dd>{rev.description || '—'}</dd>
+          <dt className="font-semibold">Requested by</dt>
+          <dd>{permit.requestedBy.name}</dd>
+          <dt className="font-semibold">Excavations</dt>
+          <dd>{named.map((e) => `${e.reference} ${e.name}`).join('; ') || '—'}</dd>
+          <dt className="font-semibold">Operators</dt>
+          <dd>
+            {rev.operators.length
+              ? rev.operators.map((o) => `${o.name} (${o.briefedAt ? `briefed ${when(o.briefedAt)}` : 'not yet briefed'})`).join('; ')
+              : 'None named'}
+          </dd>
+        </dl>
+      </Panel>
+      {rev.decision ? <DecisionPanel permit={permit} /> : null}
+      <Actions permit={permit} />
+      {rev.dig ? (
+        <Panel title="Dig: depth, support and buried services">
+          <p>Depth {rev.dig.depth.toFixed(2)} m. Support: {rev.dig.supportMethod}</p>
+          <ul>
+            {serviceCheckKeys.map((k) => {
+              const c = rev.dig!.servicesChecks[k];
+              return (
+                <li key={k}>
+                  {serviceCheckLabels[k]}: {c.state === 'done' ? `done by ${c.by}, ${when(c.at)}` : c.state === 'not-needed' ? `not needed (${c.notes})` : 'not done yet'}
+                  {c.state === 'done' && c.notes ? ` – ${c.notes}` : ''}
+                </li>
+              );
+            })}
+          </ul>
+        </Panel>
+      ) : null}
+      {proj && named.length ? (
+        <Panel title="Plan">
+          <PlacementMap proj={proj} excavations={named} loads={rev.loads} plant={plant} check={rev.check} verdict={rev.check?.verdict ?? 'passes'} standoff={standoff} editable={false} />
+        </Panel>
+      ) : null}
+      <Panel title="Calculation sheet">
+        {rev.check ? (
+          <>
+            <p className="text-sm text-ink-soft">Checked {when(rev.checkedAt)}; the server checks again at every save, submission and decision.</p>
+            <CheckSheets check={rev.check} />
+          </>
+        ) : (
+          <>
+            <p>No check yet: place a load beside a named excavation.</p>
+            <Caution />
+          </>
+        )}
+      </Panel>
+      <Attachments permit={permit} />
+      <Timeline permit={permit} />
+      <Revisions permit={permit} />
+    </Page>
+  );
+}
+
+function DecisionPanel({ permit }: { permit: PermitDetail }) {
+  const d = permit.current.decision!;
+  const title = d.action === 'approve' ? 'Approved' : d.action === 'return' ? 'Returned for changes' : 'Declined';
+  return (
+    <Panel title={`Decision: ${title}`}>
+      {d.action === 'approve' ? (
+        <>
+          <p data-testid="decision-standoff">
+            {d.standoff !== null ? `Standoff: keep every load at least ${d.standoff.toFixed(2)} m from the excavation edge.` : 'Approved as placed on the plan (no standoff set).'}
+          </p>
+          <p className="text-sm text-ink-soft">Computed standoff at the decision: {d.computedStandoff === undefined ? 'not recorded' : d.computedStandoff === null ? 'none within 3H' : `${d.computedStandoff.toFixed(2)} m`}.</p>
+          {d.conditions.length ? (
+            <>
+              <h3 className="font-semibold">Conditions</h3>
+              <ol className="list-decimal pl-6">{d.conditions.map((c) => <li key={c}>{c}</li>)}</ol>
+            </>
+          ) : null}
+        </>
+      ) : null}
+      {d.reason ? <p>{d.action === 'return' ? 'Comments' : 'Reason'}: {d.reason}</p> : null}
+      <p className="text-sm">{d.signature}</p>
+      <Caution />
+    </Panel>
+  );
+}
+
+function Actions({ permit }: { permit: PermitDetail }) {
+  const [open, setOpen] = useState<PermitAction | null>(null);
+  const briefing = useBriefing(permit.id);
+  const [done, setDone] = useState<string | null>(null);
+  const shown = permit.actions;
+  if (shown.length === 0 && !permit.briefingDue) return null;
+  return (
+    <Panel title="What you can do">
+      <Notice>{done}</Notice>
+      {permit.briefingDue ? (
+        <div className="flex flex-col gap-2">
+          <p>You are named on this permit. Confirm once the supervisor has briefed you on the loads, the exclusion zone and the conditions.</p>
+          <Button onClick={() => briefing.mutate(undefined, { onSuccess: () => setDone('Briefing confirmed.') })} busy={briefing.isPending} busyText="Confirming…">
+            I have been briefed
+          </Button>
+          {briefing.isError ? <FormSummary message={errorMessage(briefing.error)} /> : null}
+        </div>
+      ) : null}
+      <div className="flex flex-wrap gap-3">
+        {shown.map((a) => (
+          <Button key={a} variant={open === a ? 'primary' : 'secondary'} onClick={() => setOpen(open === a ? null : a)} aria-expanded={open === a}>
+            {transitionRules[a].label}
+          </Button>
+        ))}
+      </div>
+      {open ? <TransitionForm key={open} permit={permit} action={open} onDone={(msg) => { setOpen(null); setDone(msg); }} /> : null}
+    </Panel>
+  );
+}
+
+function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; action: PermitAction; onDone: (msg: string) => void }) {
+  const rule = transitionRules[action];
+  const move = useTransition(permit.id);
+  const computed = permit.current.check?.computedStandoff ?? null;
+  const [reason, setReason] = useState('');
+  const [withStandoff, setWithStandoff] = useState(action === 'approve' && computed !== null && computed > 0);
+  const [standoff, setStandoff] = useState(computed !== null ? String(Math.ceil(computed * 10) / 10) : '');
+  const [ticked, setTicked] = useState<string[]>([]);
+  const [extra, setExtra] = useState('');
+  const [password, setPassword] = useState('');
+  const [error, setError] = useState<ApiError | null>(null);
+  const f = error?.fields ?? {};
+
+  async function go() {
+    setError(null);
+    const conditions = [...ticked, ...extra.split('\n').map((s) => s.trim()).filter(Boolean)];
+    try {
+      await move.mutateAsync({
+        action,
+        version: permit.version,
+        ...(reason.trim() ? { reason: reason.trim() } : {}),
+        ...(rule.signed ? { password } : {}),
+        ...(action === 'approve' ? { conditions, ...(withStandoff && standoff !== '' ? { standoff: Number(standoff) } : {}) } : {}),
+      });
+      onDone(`${rule.label}: done.`);
+    } catch (e) {
+      setError(e instanceof ApiError ? e : new ApiError(0, 'x', errorMessage(e)));
+    }
+  }
+
+  return (
+    <form className="flex flex-col gap-3 rounded-md border border-rule-strong p-4" onSubmit={(e) => { e.preventDefault(); void go(); }} aria-label={rule.label}>
+      <FormSummary message={error ? [error.message, ...Object.entries(error.fields).map(([k, v]) => fieldSentence(k, v))].join(' ') : null} />
+      {action === 'approve' ? (
+        <>
+          <p>Computed standoff: {computed === null ? 'none within 3H (the support must be redesigned or the loads reduced)' : `${computed.toFixed(2)} m`}.</p>
+          <CheckboxField label="Approve with a standoff" checked={withStandoff} onChange={(e) => setWithStandoff(e.target.checked)} />
+          {withStandoff ? (
+            <TextField label="Standoff from the excavation edge (m)" type="number" step="0.1" min="0" value={standoff} onChange={(e) => setStandoff(e.target.value)} error={f.standoff} hint="At least the computed standoff, or give a reason below." />
+          ) : null}
+          <fieldset className="flex flex-col gap-1">
+            <legend className="font-semibold">Conditions</legend>
+            {commonConditions.map((c) => (
+              <CheckboxField key={c.key} label={c.text} checked={ticked.includes(c.text)} onChange={(e) => setTicked(e.target.checked ? [...ticked, c.text] : ticked.filter((t) => t !== c.text))} />
+            ))}
+            <label className="flex flex-col gap-1">
+              <span className="font-semibold">Other conditions (one a line)</span>
+              <textarea className="min-h-20 rounded-md border border-rule-strong bg-sheet p-2" value={extra} onChange={(e) => setExtra(e.target.value)} />
+            </label>
+          </fieldset>
+        </>
+      ) : null}
+      <label className="flex flex-col gap-1">
+        <span className="font-semibold">
+          {action === 'return' ? 'Comments for the requester' : rule.reason ? 'Reason' : action === 'approve' ? 'Reason (needed for a standoff below the computed one, or a failing check)' : 'Comment (optional)'}
+        </span>
+        <textarea className="min-h-20 rounded-md border border-rule-strong bg-sheet p-2" value={reason} onChange={(e) => setReason(e.target.value)} aria-invalid={f.reason ? true : undefined} />
+        {f.reason ? <span className="text-sm font-semibold text-error-text">{fieldSentence('Reason', f.reason)}</span> : null}
+      </label>
+      {rule.signed ? (
+        <TextField label="Your password, to sign the decision" type="password" autoComplete="current-password" value={password} onChange={(e) => setPassword(e.target.value)} error={f.password} />
+      ) : null}
+      <div>
+        <Button type="submit" busy={move.isPending} busyText="Working…">{rule.label}</Button>
+      </div>
+    </form>
+  );
+}
+
+function Attachments({ permit }: { permit: PermitDetail }) {
+  const attach = useAttach(permit.id);
+  const [kind, setKind] = useState<string>('method-statement');
+  const [file, setFile] = useState<File | null>(null);
+  return (
+    <Panel title="Attachments">
+      {permit.attachments.length ? (
+        <ul>
+          {permit.attachments.map((a) => (
+            <li key={a.id}>
+              <a href={a.url}>{a.name}</a> – {attachmentKindLabels[a.kind]}, {(a.size / 1024).toFixed(0)} KB, added by {a.addedBy} {when(a.addedAt)} (revision {a.revision})
+            </li>
+          ))}
+        </ul>
+      ) : (
+        <p>No attachments.</p>
+      )}
+      <form className="flex flex-wrap items-end gap-3" onSubmit={(e) => { e.preventDefault(); if (file) attach.mutate({ file, kind }); }}>
+        <SelectField label="Kind" value={kind} onChange={(e) => setKind(e.target.value)} options={attachmentKinds.map((k) => ({ value: k, label: attachmentKindLabels[k] }))} />
+        <label className="flex flex-col gap-1">
+          <span className="font-semibold">File (PDF up to 20 MB, photos up to 10 MB)</span>
+          <input type="file" accept="application/pdf,image/png,image/jpeg" onChange={(e) => setFile(e.target.files?.[0] ?? null)} />
+        </label>
+        <Button type="submit" variant="secondary" disabled={!file} busy={attach.isPending} busyText="Uploading…">Attach</Button>
+      </form>
+      {attach.isError ? <FormSummary message={errorMessage(attach.error)} /> : null}
+    </Panel>
+  );
+}
+
+const actionWords: Record<string, string> = {
+  create: 'asked for the permit',
+  edit: 'changed the request',
+  comment: 'commented',
+  briefed: 'confirmed the briefing',
+  ...Object.fromEntries(Object.entries(transitionRules).map(([k, r]) => [k, r.label.toLowerCase()])),
+};
+
+function Timeline({ permit }: { permit: PermitDetail }) {
+  const comment = useComment(permit.id);
+  const [text, setText] = useState('');
+  return (
+    <Panel title="Timeline">
+      <ol className="flex flex-col gap-2">
+        {permit.events.map((e) => (
+          <li key={e.id} className="border-l-4 border-rule pl-3">
+            <p>
+              <strong>{e.actor.name}</strong> {actionWords[e.action] ?? e.action}
+              {e.toStatus ? ` → ${statusLabels[e.toStatus]}` : ''} <span className="text-sm text-ink-soft">{when(e.at)} (revision {e.revision})</span>
+            </p>
+            {e.comment ? <p className="whitespace-pre-wrap">“{e.comment}”</p> : null}
+          </li>
+        ))}
+      </ol>
+      <form className="flex flex-col gap-2" onSubmit={(e) => { e.preventDefault(); if (text.trim()) comment.mutate(text.trim(), { onSuccess: () => setText('') }); }}>
+        <label className="flex flex-col gap-1">
+          <span className="font-semibold">Add a comment</span>
+          <textarea className="min-h-16 rounded-md border border-rule-strong bg-sheet p-2" value={text} onChange={(e) => setText(e.target.value)} />
+        </label>
+        <div>
+          <Button type="submit" variant="secondary" busy={comment.isPending} busyText="Adding…">Add comment</Button>
+        </div>
+      </form>
+    </Panel>
+  );
+}
+
+function Revisions({ permit }: { permit: PermitDetail }) {
+  const [shown, setShown] = useState<number | null>(null);
+  const old = useRevision(permit.id, shown);
+  if (permit.revisions.length < 2) return null;
+  return (
+    <Panel title="Revisions">
+      <ul className="flex flex-wrap gap-3">
+        {permit.revisions.map((r) => (
+          <li key={r.revision}>
+            <Button variant={shown === r.revision ? 'primary' : 'quiet'} onClick={() => setShown(r.revision)}>
+              Revision {r.revision} ({when(r.createdAt)}{r.decision ? `, ${r.decision === 'approve' ? 'approved' : r.decision === 'return' ? 'returned' : 'declined'}` : ''})
+            </Button>
+          </li>
+        ))}
+      </ul>
+      {old.data ? (
+        <div className="flex flex-col gap-2">
+          <p>Window {when(old.data.windowStart)} to {when(old.data.windowEnd)}. {old.data.description}</p>
+          <p>Loads: {old.data.loads.map((l) => l.label || l.id).join(', ') || 'none'}</p>
+          {old.data.decision ? <p>Decision: {old.data.decision.action}; {old.data.decision.standoff !== null ? `standoff ${old.data.decision.standoff.toFixed(2)} m; ` : ''}{old.data.decision.signature}</p> : null}
+          {old.data.check ? <CheckSheets check={old.data.check} full={false} /> : null}
+        </div>
+      ) : null}
+      <p className="text-sm"><Link to={`/sites/${permit.siteId}/permits`}>All permits of the site</Link></p>
+    </Panel>
+  );
+}

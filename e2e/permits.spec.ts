@@ -1,0 +1,104 @@
+import { readFile } from 'node:fs/promises';
+import { expect, test, type APIRequestContext, type Page } from '@playwright/test';
+
+const demoPassword = 'brink-demo-2026';
+
+async function signIn(page: Page, email: string) {
+  await page.goto('/sign-in');
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password', { exact: true }).fill(demoPassword);
+  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+  await expect(page).toHaveURL(/\/sites\/\d+/);
+}
+
+/** The path of the permit link in the newest message to `to` whose subject matches. */
+async function permitLinkFromMail(request: APIRequestContext, to: string, subject: RegExp): Promise<string> {
+  let path: string | undefined;
+  await expect
+    .poll(
+      async () => {
+        const res = await request.get(`/api/dev/mail?to=${encodeURIComponent(to)}`);
+        if (!res.ok()) return undefined;
+        const { messages } = (await res.json()) as { messages: { subject: string; text: string }[] };
+        const m = messages.find((x) => subject.test(x.subject));
+        path = m?.text.match(/https?:\/\/[^\s/]+(\/permits\/\d+)/)?.[1];
+        return path;
+      },
+      { message: `a mail to ${to} matching ${subject}`, timeout: 20_000 },
+    )
+    .toBeTruthy();
+  return path!;
+}
+
+test('a load permit from placing to approval and the printed permit', async ({ page, browser, request }) => {
+  // The supervisor asks for a permit beside the demo pipe trench TR-01.
+  await signIn(page, 'supervisor@demo.brink.test');
+  const siteId = page.url().match(/\/sites\/(\d+)/)![1];
+  await page.goto(`/sites/${siteId}/permits/new`);
+  await page.getByLabel('What the work is').fill('Excavator 21 t loading out beside the rising main trench');
+  await page.getByLabel(/^TR-01 /).check();
+  await page.getByRole('button', { name: 'Create and place the loads' }).click();
+  await expect(page).toHaveURL(/\/permits\/\d+\/edit$/);
+  const permitId = page.url().match(/\/permits\/(\d+)\/edit/)![1];
+
+  // A tracked excavator, its near track 0.4 m from the trench edge (TR-01 runs east-west at 22 m
+  // south of the origin, 1.2 m wide; the 21 t machine's tracks are 2.2 m apart, 0.6 m wide).
+  await page.getByLabel('Machine from the plant library').selectOption({ label: 'Excavator 21 t (21 t)' });
+  await page.getByRole('button', { name: 'Add machine' }).click();
+  await page.getByLabel('East of the site origin (m)').fill('-18');
+  await page.getByLabel('North of the site origin (m)').fill('-19.6');
+  const live = page.getByRole('region', { name: 'Live check' }).or(page.locator('section', { has: page.getByRole('heading', { name: 'Live check' }) }));
+  await expect(live.locator('[data-verdict="fails"]').first()).toBeVisible();
+  await expect(live.getByTestId('computed-standoff')).toHaveText(/^\d+\.\d\d m$/);
+  const standoff = Number((await live.getByTestId('computed-standoff').textContent())!.replace(' m', ''));
+  expect(standoff).toBeGreaterThan(0.4);
+
+  // Dragged back (north, away from the trench) until the check passes.
+  const handle = page.locator('.leaflet-marker-icon[title="Move Excavator 21 t"]');
+  await handle.scrollIntoViewIfNeeded();
+  await handle.hover();
+  const box = (await handle.boundingBox())!;
+  await page.mouse.down();
+  for (let i = 1; i <= 10; i++) await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2 - i * 8);
+  await page.mouse.up();
+  await expect(live.locator('[data-verdict="passes"]').first()).toBeVisible();
+  await expect(live.locator('[data-verdict="fails"]')).toHaveCount(0);
+
+  await page.getByRole('button', { name: 'Save and send for review' }).click();
+  await expect(page).toHaveURL(new RegExp(`/permits/${permitId}$`));
+  await expect(page.locator('[data-status="submitted"]')).toBeVisible();
+  const number = (await page.getByRole('heading', { level: 1 }).textContent())!.replace('Permit ', '').trim();
+
+  // The coordinator opens the link from the e-mail and reads the sheet.
+  const coordinatorContext = await browser.newContext();
+  const coordinator = await coordinatorContext.newPage();
+  await signIn(coordinator, 'coordinator@demo.brink.test');
+  const link = await permitLinkFromMail(request, 'coordinator@demo.brink.test', new RegExp(`Permit ${number} .*awaits your review`));
+  expect(link).toBe(`/permits/${permitId}`);
+  await coordinator.goto(link);
+  await expect(coordinator.getByRole('heading', { name: 'Calculation sheet' })).toBeVisible();
+  await expect(coordinator.getByRole('img', { name: /lateral pressure \(kPa\) against depth \(m\)/ })).toBeVisible();
+  await expect(coordinator.getByText('Surcharge from the loads').first()).toBeVisible();
+  await expect(coordinator.getByText(/do not replace the support's design/).first()).toBeVisible();
+
+  // Approves with a 3.0 m standoff and a condition, signing with the password.
+  await coordinator.getByRole('button', { name: 'Approve', exact: true }).click();
+  const form = coordinator.getByRole('form', { name: 'Approve' });
+  await form.getByLabel('Approve with a standoff').check();
+  await form.getByLabel('Standoff from the excavation edge (m)').fill('3.0');
+  await form.getByLabel('A banksman is present whenever the machine moves or slews inside the influence zone.').check();
+  await form.getByLabel('Your password, to sign the decision').fill(demoPassword);
+  await form.getByRole('button', { name: 'Approve' }).click();
+  await expect(coordinator.getByRole('heading', { name: 'Decision: Approved' })).toBeVisible();
+  await expect(coordinator.getByTestId('decision-standoff')).toHaveText('Standoff: keep every load at least 3.00 m from the excavation edge.');
+  await coordinatorContext.close();
+
+  // The supervisor sees it approved and downloads the printed permit.
+  await page.reload();
+  await expect(page.locator('[data-status="approved"]')).toBeVisible();
+  await expect(page.getByText('A banksman is present whenever the machine moves or slews inside the influence zone.')).toBeVisible();
+  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download the permit (PDF)' }).click()]);
+  expect(download.suggestedFilename()).toBe(`permit-${number}.pdf`);
+  const pdf = await readFile((await download.path())!);
+  expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
+});

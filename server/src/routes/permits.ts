@@ -1,0 +1,297 @@
+import { z } from 'zod';
+import type { Request, Response } from 'express';
+import { idSchema, type SiteRole } from '@shared/schemas/common';
+import {
+  attachmentFormSchema,
+  checkProposalSchema,
+  commentSchema,
+  editableStatuses,
+  permitCreateSchema,
+  permitListQuerySchema,
+  permitUpdateSchema,
+  transitionSchema,
+  type PermitStatus,
+} from '@shared/schemas/permits';
+import { Api, badRequest, conflict, forbidden, HttpError, notFound, siteFromParam } from '../http';
+import { audit } from '../services/audit';
+import { filesOf, limits, receiveFiles, sendUpload, storeUpload } from '../services/uploads';
+import { userActor } from '../services/permits/actors';
+import { confirmBriefing } from '../services/permits/briefing';
+import { checkProposal, ensureChecked } from '../services/permits/check';
+import { StaleError, transition } from '../services/permits/machine';
+import { permitPdf } from '../services/permits/pdf';
+import { listPermits, loadDetail, loadRevision, siteOfPermit } from '../services/permits/read';
+import { addComment, createPermit, updatePermit } from '../services/permits/write';
+
+const idParams = z.object({ id: idSchema });
+const revisionParams = z.object({ id: idSchema, revision: idSchema });
+const attachmentParams = z.object({ id: idSchema, attachmentId: idSchema });
+
+/** Permits, with every change checked against the status, the role and the version. */
+export function registerPermitRoutes(api: Api): void {
+  const { db } = api.deps;
+  const permitSite = (req: Request) => siteOfPermit(db, Number(req.params.id));
+  const members = { kind: 'site', roles: 'any', admin: true, siteId: permitSite } as const;
+
+  /** Runs a change and answers with the permit as it now is; on a stale version, 409 with the permit too. */
+  async function answerWithPermit(res: Response, id: number, viewer: { id: number; role: SiteRole | null }, change: () => Promise<unknown>) {
+    try {
+      await change();
+    } catch (err) {
+      if (!(err instanceof StaleError)) throw err;
+      res.status(409).json({ error: { code: err.code, message: err.message, fields: err.fields }, permit: await loadDetail(db, id, viewer) });
+      return;
+    }
+    return { permit: await loadDetail(db, id, viewer) };
+  }
+
+  api.route(
+    {
+      method: 'get',
+      path: '/api/sites/:siteId/operators',
+      summary: 'The plant operators of a site, to name on a permit',
+      tag: 'Permits',
+      access: { kind: 'site', roles: ['supervisor', 'coordinator'], admin: true, siteId: siteFromParam },
+      params: z.object({ siteId: idSchema }),
+    },
+    async ({ params }) => ({
+      operators: await db
+        .selectFrom('site_members')
+        .innerJoin('users', 'users.id', 'site_members.user_id')
+        .select(['users.id', 'users.name', 'users.email'])
+        .where('site_members.site_id', '=', params.siteId)
+        .where('site_members.role', '=', 'operator')
+        .where('users.active', '=', true)
+        .orderBy('users.name')
+        .execute(),
+    }),
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/api/permits',
+      summary: 'Request a permit (a draft): kind, site, excavations, placed loads, window, operators, dig checks',
+      tag: 'Permits',
+      access: {
+        kind: 'site',
+        roles: ['supervisor'],
+        siteId: (req) => {
+          const n = Number((req.body as { siteId?: unknown } | undefined)?.siteId);
+          if (!Number.isInteger(n) || n <= 0) throw badRequest('Please name the site.', { siteId: 'is required' });
+          return n;
+        },
+      },
+      body: permitCreateSchema,
+      responses: { 201: 'Created' },
+    },
+    async ({ body, user, res, deps }) => {
+      const id = await createPermit(deps, user!, body);
+      res.status(201).json({ permit: await loadDetail(db, id, { id: user!.id, role: 'supervisor' }) });
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/api/permits',
+      summary: 'Permits I may see: awaiting my review, my requests, live now, or all, filtered by site, status, kind, excavation and window, sorted',
+      tag: 'Permits',
+      access: { kind: 'signedIn' },
+      query: permitListQuerySchema,
+    },
+    async ({ query, user }) => {
+      if (query.siteId && !user!.isAdmin) {
+        const m = await db.selectFrom('site_members').select('role').where('site_id', '=', query.siteId).where('user_id', '=', user!.id).executeTakeFirst();
+        if (!m) throw forbidden('You are not a member of this site.');
+      }
+      return { permits: await listPermits(db, user!, query) };
+    },
+  );
+
+  api.route(
+    { method: 'get', path: '/api/permits/:id', summary: 'One permit: its current revision, check, decision, operators, timeline and attachments', tag: 'Permits', access: members, params: idParams },
+    async ({ params, user, site, deps }) => {
+      await ensureChecked(db, params.id, deps.now());
+      const permit = await loadDetail(db, params.id, { id: user!.id, role: site?.role ?? null });
+      if (!permit) throw notFound('That permit');
+      return { permit };
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/api/permits/:id/revisions/:revision',
+      summary: 'One revision of a permit, as it was',
+      tag: 'Permits',
+      access: members,
+      params: revisionParams,
+    },
+    async ({ params }) => {
+      const revision = await loadRevision(db, params.id, params.revision);
+      if (!revision) throw notFound('That revision');
+      return { revision };
+    },
+  );
+
+  api.route(
+    {
+      method: 'patch',
+      path: '/api/permits/:id',
+      summary: 'Change a draft or returned permit (with the version you read); the check is run again',
+      tag: 'Permits',
+      access: { ...members, roles: ['supervisor'], admin: false },
+      params: idParams,
+      body: permitUpdateSchema,
+    },
+    async ({ params, body, user, site, deps, res }) =>
+      answerWithPermit(res, params.id, { id: user!.id, role: site?.role ?? null }, () => updatePermit(deps, user!, params.id, body)),
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/api/permits/:id/check',
+      summary: 'Run the cumulative check: the engine result per excavation, with the other permits counted. With a body, checks those changes without saving them',
+      tag: 'Permits',
+      access: { ...members, roles: ['supervisor', 'coordinator'] },
+      params: idParams,
+      body: checkProposalSchema,
+    },
+    async ({ params, body, deps }) => ({ check: await checkProposal(db, params.id, body, deps.now()) }),
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/api/permits/:id/transitions',
+      summary: 'Move a permit on: submit, approve (standoff, conditions), return, decline, suspend, resume, hand back, revise, withdraw. Decisions need the password again',
+      tag: 'Permits',
+      access: members,
+      params: idParams,
+      body: transitionSchema,
+    },
+    async ({ params, body, user, site, deps, res }) =>
+      answerWithPermit(res, params.id, { id: user!.id, role: site?.role ?? null }, () =>
+        transition(deps, params.id, body.action, userActor(user!), {
+          version: body.version,
+          reason: body.reason,
+          standoff: body.standoff,
+          conditions: body.conditions,
+          password: body.password,
+        }),
+      ),
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/api/permits/:id/briefing',
+      summary: 'An operator named on the permit confirms the briefing (again: no change)',
+      tag: 'Permits',
+      access: { ...members, roles: ['operator'], admin: false },
+      params: idParams,
+    },
+    async ({ params, user, deps }) => ({ briefing: await confirmBriefing(deps, params.id, user!) }),
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/api/permits/:id/comments',
+      summary: 'A comment on the permit\u2019s timeline',
+      tag: 'Permits',
+      access: { ...members, admin: false },
+      params: idParams,
+      body: commentSchema,
+      responses: { 201: 'Added' },
+    },
+    async ({ params, body, user, deps, res }) => {
+      await addComment(deps, user!, params.id, body.text);
+      res.status(201).json({ ok: true });
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/api/permits/:id/pdf',
+      summary: 'The printable permit (PDF): decision, conditions, standoff, plan to scale, pressure diagram, signatures, QR code, caution',
+      tag: 'Permits',
+      access: members,
+      params: idParams,
+      produces: 'application/pdf',
+    },
+    async ({ params, deps, res }) => {
+      await ensureChecked(db, params.id, deps.now());
+      const { buffer, number } = await permitPdf(deps, params.id);
+      res.setHeader('Content-Type', 'application/pdf');
+      res.setHeader('Content-Disposition', `attachment; filename="permit-${number}.pdf"`);
+      res.setHeader('Cache-Control', 'private, no-store');
+      res.end(buffer);
+    },
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/api/permits/:id/attachments',
+      summary: 'Attach a method statement (PDF), a photo (PNG or JPEG) or another document (PDF or image); the type is judged from the content',
+      tag: 'Permits',
+      access: { ...members, roles: ['supervisor', 'coordinator'], admin: false },
+      params: idParams,
+      before: [receiveFiles(['file'], limits.pdfOrImage)],
+      files: ['file'],
+      body: attachmentFormSchema,
+      responses: { 201: 'Stored', 413: 'The file is too large' },
+    },
+    async ({ params, body, user, site, req, res, deps }) => {
+      const [file] = filesOf(req, 'file');
+      if (!file) throw badRequest('Please choose a file.', { file: 'is required' });
+      const accept = body.kind === 'method-statement' ? 'pdf' : body.kind === 'photo' ? 'image' : 'pdfOrImage';
+      if (accept === 'image' && file.size > limits.image) {
+        throw new HttpError(413, 'too_large', 'The photo is too large (at most 10 MB).', { file: 'is too large' });
+      }
+      const p = await db.selectFrom('permits').select(['id', 'revision', 'number', 'site_id']).where('id', '=', params.id).executeTakeFirstOrThrow();
+      const stored = await storeUpload(deps, file, { field: 'file', accept, purpose: 'permit-attachment', siteId: site!.id, userId: user!.id });
+      const row = await db
+        .insertInto('permit_attachments')
+        .values({ permit_id: p.id, revision: p.revision, upload_id: stored.id, kind: body.kind, added_by: user!.id, added_at: deps.now() })
+        .returning('id')
+        .executeTakeFirstOrThrow();
+      await audit(db, { actorId: user!.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'attached', detail: { number: p.number, kind: body.kind, name: stored.originalName } });
+      res.status(201).json({ attachment: { id: row.id, kind: body.kind, name: stored.originalName, mime: stored.mime, size: stored.size, url: `/api/permits/${p.id}/attachments/${row.id}` } });
+    },
+  );
+
+  api.route(
+    { method: 'get', path: '/api/permits/:id/attachments/:attachmentId', summary: 'One attachment, to members of the permit\u2019s site', tag: 'Permits', access: members, params: attachmentParams, produces: 'application/octet-stream' },
+    async ({ params, res, deps }) => {
+      const a = await db.selectFrom('permit_attachments').select('upload_id').where('id', '=', params.attachmentId).where('permit_id', '=', params.id).executeTakeFirst();
+      if (!a) throw notFound('That attachment');
+      await sendUpload(deps, res, a.upload_id);
+    },
+  );
+
+  api.route(
+    {
+      method: 'delete',
+      path: '/api/permits/:id/attachments/:attachmentId',
+      summary: 'Remove an attachment while the permit is a draft or returned',
+      tag: 'Permits',
+      access: { ...members, roles: ['supervisor', 'coordinator'], admin: false },
+      params: attachmentParams,
+    },
+    async ({ params, user }) => {
+      const p = await db.selectFrom('permits').select(['id', 'status', 'revision', 'number', 'site_id']).where('id', '=', params.id).executeTakeFirstOrThrow();
+      const a = await db.selectFrom('permit_attachments').select(['id', 'revision']).where('id', '=', params.attachmentId).where('permit_id', '=', p.id).executeTakeFirst();
+      if (!a) throw notFound('That attachment');
+      if (!editableStatuses.includes(p.status as PermitStatus) || a.revision !== p.revision) {
+        throw conflict(`Permit ${p.number} is frozen: its attachments stay with the revision they belong to.`);
+      }
+      await db.deleteFrom('permit_attachments').where('id', '=', a.id).execute();
+      await audit(db, { actorId: user!.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'detached', detail: { number: p.number, attachmentId: a.id } });
+    },
+  );
+}

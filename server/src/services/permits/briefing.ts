@@ -1,0 +1,43 @@
+import type { Deps } from '../../deps';
+import { withCurrentRevision } from './read';
+import { conflict, forbidden, notFound } from '../../http';
+import { audit } from '../audit';
+import { advancePermit } from './schedule';
+
+/**
+ * An operator named on the permit's current revision confirms that they have been briefed on it.
+ * Idempotent: a second confirmation keeps the first time. When it is the last confirmation and the
+ * window is open, the permit goes Live at once.
+ */
+export async function confirmBriefing(deps: Deps, permitId: number, user: { id: number; name: string }): Promise<{ briefedAt: string; status: string }> {
+  const now = deps.now();
+  const row = await withCurrentRevision(deps.db)
+    .select(['p.id', 'p.number', 'p.site_id', 'p.status', 'p.revision', 'r.id as revision_id'])
+    .where('p.id', '=', permitId)
+    .executeTakeFirst();
+  if (!row) throw notFound('That permit');
+  const mine = await deps.db.selectFrom('permit_operators').select('briefed_at').where('revision_id', '=', row.revision_id).where('user_id', '=', user.id).executeTakeFirst();
+  if (!mine) throw forbidden(`You are not named as an operator on permit ${row.number}.`);
+  if (mine.briefed_at) return { briefedAt: new Date(mine.briefed_at).toISOString(), status: row.status };
+  if (!['approved', 'live', 'suspended'].includes(row.status)) throw conflict(`Permit ${row.number} is not approved yet: the briefing comes after approval.`);
+  await deps.db.transaction().execute(async (trx) => {
+    const set = await trx
+      .updateTable('permit_operators')
+      .set({ briefed_at: now })
+      .where('revision_id', '=', row.revision_id)
+      .where('user_id', '=', user.id)
+      .where('briefed_at', 'is', null)
+      .returning('user_id')
+      .executeTakeFirst();
+    if (!set) return;
+    await trx
+      .insertInto('permit_events')
+      .values({ permit_id: row.id, revision: row.revision, at: now, actor_id: user.id, actor_name: user.name, action: 'briefed', from_status: null, to_status: null, comment: '', detail: JSON.stringify({}) })
+      .execute();
+    await audit(trx, { actorId: user.id, siteId: row.site_id, entity: 'permit', entityId: row.id, action: 'briefed', detail: { number: row.number, revision: row.revision } });
+  });
+  await advancePermit(deps, row.id);
+  const after = await deps.db.selectFrom('permits').select('status').where('id', '=', row.id).executeTakeFirstOrThrow();
+  const b = await deps.db.selectFrom('permit_operators').select('briefed_at').where('revision_id', '=', row.revision_id).where('user_id', '=', user.id).executeTakeFirstOrThrow();
+  return { briefedAt: new Date(b.briefed_at!).toISOString(), status: after.status };
+}

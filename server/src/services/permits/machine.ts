@@ -1,0 +1,325 @@
+import bcrypt from 'bcryptjs';
+import { sql } from 'kysely';
+import type { Db } from '@db/database';
+import {
+  statusLabels,
+  transitionRules,
+  type PermitAction,
+  type PermitCheck,
+  type PermitDecision,
+  type PermitStatus,
+} from '@shared/schemas/permits';
+import type { Deps } from '../../deps';
+import { badRequest, conflict, forbidden, HttpError, notFound } from '../../http';
+import { audit } from '../audit';
+import { roleOf, type Actor } from './actors';
+import { checkStoredRevision } from './check';
+import { notifyTransition } from './notify';
+import { advancePermit } from './schedule';
+
+export interface TransitionOptions {
+  /** The version the actor was looking at; required for people, optional for Brink itself. */
+  version?: number;
+  reason?: string;
+  standoff?: number;
+  conditions?: string[];
+  password?: string;
+}
+
+export interface TransitionOutcome {
+  permitId: number;
+  from: PermitStatus;
+  to: PermitStatus;
+  version: number;
+  revision: number;
+  /** Who was e-mailed. */
+  notified: string[];
+}
+
+/** A 409 that says what the permit is now, so the client can show it. */
+export class StaleError extends HttpError {
+  constructor(message: string, readonly current: { status: PermitStatus; version: number }) {
+    super(409, 'conflict', message, { version: `now ${current.version} (${statusLabels[current.status]})` });
+  }
+}
+
+type PermitRow = { id: number; site_id: number; number: string; status: PermitStatus; version: number; revision: number; requested_by: number };
+
+/**
+ * Moves a permit along the status machine (shared/schemas/permits.ts `transitionRules`) in one
+ * transaction: checks the actor's role (403), the version (409) and the current status (409),
+ * the action's own rules (400 naming the field), records the decision, the timeline event and the
+ * audit entry, then e-mails the people who must act next.
+ *
+ * Brink itself acts through a system actor: the schedule (`start`, `lapse`) or a failed inspection
+ * (`suspend` with a reason), e.g.
+ * `transition(deps, id, 'suspend', inspectionActor('Inspection of T1 failed'), { reason })`.
+ */
+export async function transition(
+  deps: Deps,
+  permitId: number,
+  action: PermitAction,
+  actor: Actor,
+  opts: TransitionOptions = {},
+): Promise<TransitionOutcome> {
+  const rule = transitionRules[action];
+  const now = deps.now();
+  if (rule.reason && !opts.reason?.trim()) throw badRequest(`A reason is required to ${rule.label.toLowerCase()}.`, { reason: 'is required' });
+
+  const result = await deps.db.transaction().execute(async (trx) => {
+    const p = (await trx
+      .selectFrom('permits')
+      .select(['id', 'site_id', 'number', 'status', 'version', 'revision', 'requested_by'])
+      .where('id', '=', permitId)
+      .forUpdate()
+      .executeTakeFirst()) as PermitRow | undefined;
+    if (!p) throw notFound('That permit');
+
+    const role = await roleOf(trx, actor, p.site_id);
+    if (!role) throw forbidden('You are not a member of this permit\u2019s site.');
+    if (!rule.by.includes(role)) {
+      throw forbidden(
+        rule.by.includes('system') && rule.by.length === 1
+          ? `Brink does this itself (${rule.label.toLowerCase()}); nobody can do it by hand.`
+          : `Only a ${rule.by.filter((r) => r !== 'system').join(' or ')} may ${rule.label.toLowerCase()} a permit.`,
+      );
+    }
+    if (actor.kind === 'user' && opts.version === undefined) throw badRequest('The version is required.', { version: 'is required' });
+    if (opts.version !== undefined && opts.version !== p.version) {
+      throw new StaleError(
+        `Permit ${p.number} has changed since you opened it: it is now ${statusLabels[p.status]} (version ${p.version}). Look again before you act.`,
+        { status: p.status, version: p.version },
+      );
+    }
+    if (!rule.from.includes(p.status)) {
+      throw new StaleError(`A permit that is ${statusLabels[p.status]} cannot be sent to "${rule.label}".`, { status: p.status, version: p.version });
+    }
+
+    const rev = await trx
+      .selectFrom('permit_revisions')
+      .selectAll()
+      .where('permit_id', '=', p.id)
+      .where('revision', '=', p.revision)
+      .executeTakeFirstOrThrow();
+    const windowStart = new Date(rev.window_start);
+    const windowEnd = new Date(rev.window_end);
+    const detail: Record<string, unknown> = {};
+    let newRevision = p.revision;
+    let actorName = actor.name;
+
+    if (rule.signed) {
+      if (actor.kind !== 'user') throw forbidden('A decision needs a person.');
+      const u = await trx.selectFrom('users').select(['password_hash', 'name']).where('id', '=', actor.id).executeTakeFirstOrThrow();
+      if (!u.password_hash || !(await bcrypt.compare(opts.password ?? '', u.password_hash))) {
+        throw badRequest('That is not your password: the decision was not signed.', { password: 'is not your password' });
+      }
+      actorName = u.name;
+    }
+
+    switch (action) {
+      case 'submit': {
+        await assertComplete(trx, p, rev, now);
+        const check = await checkStoredRevision(trx, p.id, now);
+        detail.check = summaryOf(check);
+        break;
+      }
+      case 'approve': {
+        // The check is run again now: other permits may have been approved since the request.
+        const check = await checkStoredRevision(trx, p.id, now);
+        const computed = check.computedStandoff;
+        const reason = opts.reason?.trim() ?? '';
+        if (opts.standoff !== undefined) {
+          if ((computed === null || opts.standoff < computed) && !reason) {
+            throw badRequest(
+              computed === null
+                ? 'No standoff lets the support carry these loads: give a reason for approving with this standoff.'
+                : `The standoff ${opts.standoff.toFixed(2)} m is less than the computed ${computed.toFixed(2)} m: raise it or give a reason.`,
+              { standoff: computed === null ? 'no computed standoff exists: give a reason' : `must be at least ${computed.toFixed(2)} m, or give a reason` },
+            );
+          }
+        } else if (!check.passes && !reason) {
+          throw badRequest('The check fails as the loads are placed: approve with a standoff, or give a reason.', {
+            reason: 'is required to approve loads that fail the check',
+          });
+        }
+        const decision = decisionOf('approve', actor, actorName, now, { reason, standoff: opts.standoff ?? null, computed, conditions: opts.conditions ?? [] });
+        await trx.updateTable('permit_revisions').set({ decision: JSON.stringify(decision), updated_at: now }).where('id', '=', rev.id).execute();
+        Object.assign(detail, { decision, check: summaryOf(check) });
+        break;
+      }
+      case 'return':
+      case 'decline': {
+        const check = rev.check_result as PermitCheck | null;
+        const decision = decisionOf(action, actor, actorName, now, {
+          reason: opts.reason!.trim(),
+          standoff: null,
+          computed: check?.computedStandoff ?? null,
+          conditions: [],
+        });
+        await trx.updateTable('permit_revisions').set({ decision: JSON.stringify(decision), updated_at: now }).where('id', '=', rev.id).execute();
+        detail.decision = decision;
+        break;
+      }
+      case 'start': {
+        if (now < windowStart || now >= windowEnd) throw conflict(`Permit ${p.number} can go live only within its window.`);
+        const waiting = await trx.selectFrom('permit_operators').select('user_id').where('revision_id', '=', rev.id).where('briefed_at', 'is', null).execute();
+        if (waiting.length) throw conflict(`Permit ${p.number} waits for ${waiting.length} operator(s) to confirm the briefing.`);
+        break;
+      }
+      case 'resume': {
+        if (now >= windowEnd) throw conflict(`Permit ${p.number}'s window has closed: it cannot resume.`);
+        if (now < windowStart) throw conflict(`Permit ${p.number}'s window has not opened yet.`);
+        break;
+      }
+      case 'lapse': {
+        if (now < windowEnd) throw conflict(`Permit ${p.number}'s window is still open.`);
+        break;
+      }
+      case 'revise': {
+        newRevision = p.revision + 1;
+        const copy = await trx
+          .insertInto('permit_revisions')
+          .values({
+            permit_id: p.id,
+            revision: newRevision,
+            description: rev.description,
+            window_start: rev.window_start,
+            window_end: rev.window_end,
+            excavation_ids: rev.excavation_ids,
+            method: rev.method,
+            loads: JSON.stringify(rev.loads),
+            dig: rev.dig === null ? null : JSON.stringify(rev.dig),
+            created_by: actor.kind === 'user' ? actor.id : null,
+            created_at: now,
+            updated_at: now,
+          })
+          .returning('id')
+          .executeTakeFirstOrThrow();
+        // The same operators, to be briefed again on the new terms.
+        await sql`insert into permit_operators (revision_id, user_id)
+                  select ${copy.id}, user_id from permit_operators where revision_id = ${rev.id}`.execute(trx);
+        detail.previousRevision = p.revision;
+        break;
+      }
+    }
+
+    const to = rule.to;
+    const updated = await trx
+      .updateTable('permits')
+      .set({
+        status: to,
+        version: p.version + 1,
+        revision: newRevision,
+        updated_at: now,
+        ...(action === 'revise' ? { reminder_sent_at: null } : {}),
+      })
+      .where('id', '=', p.id)
+      .where('version', '=', p.version)
+      .returning(['version'])
+      .executeTakeFirst();
+    if (!updated) throw new StaleError(`Permit ${p.number} has just been changed by someone else. Look again before you act.`, { status: p.status, version: p.version });
+
+    await trx
+      .insertInto('permit_events')
+      .values({
+        permit_id: p.id,
+        revision: newRevision,
+        at: now,
+        actor_id: actor.kind === 'user' ? actor.id : null,
+        actor_name: actorName,
+        action,
+        from_status: p.status,
+        to_status: to,
+        comment: opts.reason?.trim() ?? '',
+        detail: JSON.stringify(detail),
+      })
+      .execute();
+    await audit(trx, {
+      actorId: actor.kind === 'user' ? actor.id : null,
+      siteId: p.site_id,
+      entity: 'permit',
+      entityId: p.id,
+      action,
+      detail: { number: p.number, from: p.status, to, revision: newRevision, by: actorName, ...(opts.reason ? { reason: opts.reason } : {}), ...(detail.decision ? { decision: detail.decision } : {}) },
+    });
+    const site = await trx.selectFrom('sites').select('name').where('id', '=', p.site_id).executeTakeFirstOrThrow();
+    return {
+      outcome: { permitId: p.id, from: p.status, to, version: updated.version, revision: newRevision, notified: [] as string[] },
+      facts: {
+        permitId: p.id,
+        number: p.number,
+        siteName: site.name,
+        description: rev.description,
+        status: to,
+        windowStart,
+        windowEnd,
+        actorName,
+        actorId: actor.kind === 'user' ? actor.id : null,
+        reason: opts.reason?.trim(),
+        standoff: action === 'approve' ? (opts.standoff ?? null) : null,
+        conditions: action === 'approve' ? opts.conditions : undefined,
+      },
+    };
+  });
+
+  result.outcome.notified = await notifyTransition(deps, action, result.facts);
+  // Approved inside an open window with every operator briefed (or none named): live at once.
+  if (action === 'approve') await advancePermit(deps, permitId);
+  return result.outcome;
+}
+
+function decisionOf(
+  action: PermitDecision['action'],
+  actor: Actor,
+  name: string,
+  now: Date,
+  d: { reason: string; standoff: number | null; computed: number | null; conditions: string[] },
+): PermitDecision {
+  const at = now.toISOString();
+  return {
+    action,
+    by: { id: actor.kind === 'user' ? actor.id : 0, name },
+    at,
+    reason: d.reason,
+    standoff: d.standoff,
+    computedStandoff: d.computed,
+    conditions: d.conditions,
+    signature: `Signed by ${name} with their password at ${at.replace('T', ' ').slice(0, 19)} UTC`,
+  };
+}
+
+/** The part of a check the timeline keeps with a transition. */
+export function summaryOf(c: PermitCheck) {
+  return {
+    utilisation: c.utilisation,
+    passes: c.passes,
+    computedStandoff: c.computedStandoff,
+    excavations: c.excavations.map((e) => ({ reference: e.reference, utilisation: e.result.utilisation, counted: e.counted.map((o) => o.number) })),
+  };
+}
+
+/** What a request must hold before it goes for review; 400 naming each missing field. */
+async function assertComplete(
+  trx: Db,
+  p: PermitRow & { kind?: string },
+  rev: { window_end: Date; excavation_ids: number[]; loads: unknown; dig: unknown },
+  now: Date,
+): Promise<void> {
+  const permit = await trx.selectFrom('permits').select('kind').where('id', '=', p.id).executeTakeFirstOrThrow();
+  const fields: Record<string, string> = {};
+  if (rev.excavation_ids.length === 0) fields.excavationIds = 'name at least one excavation';
+  if (new Date(rev.window_end) <= now) fields.windowEnd = 'the window has already closed';
+  if (permit.kind === 'load' && (rev.loads as unknown[]).length === 0) fields.loads = 'place at least one load';
+  if (permit.kind === 'dig') {
+    const dig = rev.dig as { servicesChecks?: Record<string, { state: string }> } | null;
+    if (!dig) fields.dig = 'give the depth, the support method and the buried-services checks';
+    else {
+      for (const [k, c] of Object.entries(dig.servicesChecks ?? {})) {
+        if (c.state === 'pending') fields[`dig.servicesChecks.${k}`] = 'must be done (or, for trial holes, said not to be needed) before review';
+      }
+    }
+  }
+  if (Object.keys(fields).length) {
+    throw badRequest(`The request is not ready for review: ${Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join('; ')}.`, fields);
+  }
+}

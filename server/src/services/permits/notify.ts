@@ -1,0 +1,133 @@
+import type { Db } from '@db/database';
+import { statusLabels, type PermitAction, type PermitStatus } from '@shared/schemas/permits';
+import type { Deps } from '../../deps';
+import { notice } from '../../mail/mailer';
+import { withCurrentRevision } from './read';
+
+/** Who must hear of a change: the person who asked for the permit, the site's coordinators, the operators it names. */
+export type Audience = 'requester' | 'coordinators' | 'operators';
+
+/** Who is told of each transition: the people who must act next, or stop. */
+export const audiences: Record<PermitAction | 'reminder', Audience[]> = {
+  submit: ['coordinators'],
+  approve: ['requester', 'operators'],
+  return: ['requester'],
+  decline: ['requester'],
+  start: ['requester', 'operators'],
+  suspend: ['requester', 'operators', 'coordinators'],
+  resume: ['requester', 'operators'],
+  hand_back: ['coordinators', 'operators'],
+  lapse: ['requester', 'operators', 'coordinators'],
+  revise: ['coordinators', 'operators'],
+  withdraw: ['coordinators', 'operators'],
+  reminder: ['requester', 'operators'],
+};
+
+/** What each audience is asked to do after each transition. */
+const asks: Partial<Record<PermitAction | 'reminder', Partial<Record<Audience, string>>>> = {
+  submit: { coordinators: 'Please review the check and decide.' },
+  approve: {
+    requester: 'Brief the operators named on the permit; it goes live when its window opens and each of them has confirmed the briefing.',
+    operators: 'Read the permit and its exclusion zone, then confirm that you have been briefed.',
+  },
+  return: { requester: 'Please change the request as the comments ask and send it for review again.' },
+  decline: { requester: 'The load must not be placed as requested.' },
+  start: { requester: 'Work under the permit may go ahead within its terms.', operators: 'Work may go ahead: keep out of the exclusion zone.' },
+  suspend: { requester: 'Stop work under this permit now.', operators: 'Stop work under this permit now and move clear of the excavation.', coordinators: 'For your information.' },
+  resume: { requester: 'Work may go ahead again within the permit\u2019s terms.', operators: 'Work may go ahead again: keep out of the exclusion zone.' },
+  hand_back: { coordinators: 'The area has been handed back.', operators: 'The permit is closed: no more work under it.' },
+  lapse: { requester: 'Its window has closed: ask for a new permit if the work is not finished.', operators: 'Its window has closed: no more work under it.', coordinators: 'For your information.' },
+  revise: { coordinators: 'A new revision is being prepared and will come to you for review.', operators: 'The approved terms no longer apply: stop work under it until the new revision is approved.' },
+  withdraw: { coordinators: 'No decision is needed.', operators: 'No work may be done under it.' },
+  reminder: { requester: 'Its window closes in an hour: hand it back when the area is clear, or ask for a new permit.', operators: 'Its window closes in an hour.' },
+};
+
+/** E-mail addresses of each audience for a permit (inactive people left out, the actor left out). */
+export async function recipients(db: Db, permitId: number, audience: Audience, exceptUserId: number | null): Promise<string[]> {
+  let q;
+  if (audience === 'requester') {
+    q = db.selectFrom('permits as p').innerJoin('users as u', 'u.id', 'p.requested_by').select(['u.email', 'u.id']).where('p.id', '=', permitId).where('u.active', '=', true);
+  } else if (audience === 'coordinators') {
+    q = db
+      .selectFrom('permits as p')
+      .innerJoin('site_members as m', 'm.site_id', 'p.site_id')
+      .innerJoin('users as u', 'u.id', 'm.user_id')
+      .select(['u.email', 'u.id'])
+      .where('p.id', '=', permitId)
+      .where('m.role', '=', 'coordinator')
+      .where('u.active', '=', true);
+  } else {
+    q = withCurrentRevision(db)
+      .innerJoin('permit_operators as o', 'o.revision_id', 'r.id')
+      .innerJoin('users as u', 'u.id', 'o.user_id')
+      .select(['u.email', 'u.id'])
+      .where('p.id', '=', permitId)
+      .where('u.active', '=', true);
+  }
+  const rows = await q.execute();
+  return [...new Set(rows.filter((r) => r.id !== exceptUserId).map((r) => r.email))];
+}
+
+export interface NoticeFacts {
+  permitId: number;
+  number: string;
+  siteName: string;
+  description: string;
+  status: PermitStatus;
+  windowStart: Date;
+  windowEnd: Date;
+  actorName: string;
+  actorId: number | null;
+  reason?: string;
+  standoff?: number | null;
+  conditions?: string[];
+}
+
+const headline: Record<PermitAction | 'reminder', string> = {
+  submit: 'awaits your review',
+  approve: 'is approved',
+  return: 'is returned for changes',
+  decline: 'is declined',
+  start: 'is live',
+  suspend: 'is suspended',
+  resume: 'is live again',
+  hand_back: 'is handed back',
+  lapse: 'has lapsed',
+  revise: 'is being revised',
+  withdraw: 'is withdrawn',
+  reminder: 'closes in an hour',
+};
+
+function when(d: Date): string {
+  return d.toISOString().replace('T', ' ').slice(0, 16) + ' UTC';
+}
+
+/**
+ * Sends the e-mails of one transition: one message per audience, each with the link that audience
+ * uses (operators get the field view, everybody else the permit page). Returns the addresses.
+ */
+export async function notifyTransition(deps: Pick<Deps, 'db' | 'config' | 'mailer'>, action: PermitAction | 'reminder', f: NoticeFacts): Promise<string[]> {
+  const sent: string[] = [];
+  const base = deps.config.publicUrl;
+  const already = new Set<string>();
+  for (const audience of audiences[action]) {
+    const to = (await recipients(deps.db, f.permitId, audience, action === 'reminder' ? null : f.actorId)).filter((e) => !already.has(e));
+    if (to.length === 0) continue;
+    to.forEach((e) => already.add(e));
+    const lines = [
+      `Permit ${f.number} on ${f.siteName} ${headline[action]}${action === 'reminder' ? '' : ` (${f.actorName})`}.`,
+      ...(f.description ? [`Work: ${f.description}`] : []),
+      `Window: ${when(f.windowStart)} to ${when(f.windowEnd)}. Status now: ${statusLabels[f.status]}.`,
+      ...(f.reason ? [`${action === 'return' ? 'Comments' : 'Reason'}: ${f.reason}`] : []),
+      ...(f.standoff != null ? [`Standoff: keep every load at least ${f.standoff.toFixed(2)} m from the excavation edge.`] : []),
+      ...(f.conditions?.length ? [`Conditions: ${f.conditions.map((c, i) => `(${i + 1}) ${c}`).join(' ')}`] : []),
+      ...(asks[action]?.[audience] ? [asks[action]![audience]!] : []),
+    ];
+    const url = audience === 'operators' ? `${base}/field/permits/${f.permitId}` : `${base}/permits/${f.permitId}`;
+    const message = notice({ subject: `Permit ${f.number} at ${f.siteName} ${headline[action]}`, lines, link: { label: `Open permit ${f.number}`, url } });
+    // One message each: people do not see each other's addresses.
+    for (const address of to) await deps.mailer.send({ to: address, ...message });
+    sent.push(...to);
+  }
+  return sent;
+}

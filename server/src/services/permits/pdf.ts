@@ -1,0 +1,397 @@
+import PDFDocument from 'pdfkit';
+import QRCode from 'qrcode';
+import { exclusionZone, localProjection, prepareExcavation, type XY } from '@shared/geometry';
+import { footprintsOf } from '@shared/permits/check';
+import { niceStep, planScale, POINTS_PER_METRE_OF_PAPER, scaleBarLength, ticks } from '@shared/permits/drawing';
+import {
+  serviceCheckKeys,
+  serviceCheckLabels,
+  statusLabels,
+  verdictRule,
+  type ExcavationCheck,
+  type PermitDetail,
+} from '@shared/schemas/permits';
+import type { ProfilePoint } from '@shared/engineering';
+import type { Deps } from '../../deps';
+import { notFound } from '../../http';
+import { CAUTION } from './caution';
+import type { CheckExcavation } from '@shared/permits/check';
+import { excavationsFor, plantFor } from './check';
+import { loadDetail } from './read';
+
+// The printed permit. pdfkit's built-in Helvetica (WinAnsi): text is written through `t()`, which
+// spells out the few characters that font lacks.
+
+const INK = '#1e293b';
+const MUTED = '#475569';
+const LINE = '#94a3b8';
+const ACCENT = '#1d4e89';
+const WATER = '#2b6cb0';
+const ZONE = '#c62828'; // ISO 3864 red: the exclusion zone is a prohibition
+const MARGIN = 48;
+
+const replacements: [RegExp, string][] = [
+  [/≤/g, '<='],
+  [/≥/g, '>='],
+  [/[′’‘]/g, "'"],
+  [/[“”]/g, '"'],
+  [/−/g, '-'],
+  [/→/g, '->'],
+  [/φ/g, 'phi'],
+  [/δ/g, 'delta'],
+  [/γ/g, 'gamma'],
+  [/θ/g, 'theta'],
+  [/σ/g, 'sigma'],
+  [/Δ/g, 'delta '],
+];
+/** Text Helvetica can print. */
+export function t(s: string): string {
+  let out = s;
+  for (const [re, r] of replacements) out = out.replace(re, r);
+  return out.replace(/[^\x20-\x7e\u00a0-\u00ff\u2013\u2014\u2022\u2026]/g, '?');
+}
+
+const m2 = (x: number | null | undefined) => (x == null ? 'none' : `${x.toFixed(2)} m`);
+const kpa = (x: number) => `${x.toFixed(1)} kPa`;
+const when = (s: string | null) => (s ? s.replace('T', ' ').slice(0, 16) + ' UTC' : '-');
+
+/** The permit as a PDF (Buffer), with its number for the file name. `compress: false` keeps the text readable (tests). */
+export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: number, opts: { compress?: boolean } = {}): Promise<{ buffer: Buffer; number: string }> {
+  const permit = await loadDetail(deps.db, permitId, { id: 0, role: null });
+  if (!permit) throw notFound('That permit');
+  const site = await deps.db.selectFrom('sites').select(['name', 'latitude', 'longitude']).where('id', '=', permit.siteId).executeTakeFirstOrThrow();
+  const rev = permit.current;
+  const excavations = await excavationsFor(deps.db, permit.siteId, rev.excavationIds);
+  const plant = await plantFor(deps.db, rev.loads);
+  const qrUrl = `${deps.config.publicUrl}/field/permits/${permit.id}`;
+  const qr = await QRCode.toBuffer(qrUrl, { type: 'png', margin: 1, width: 240, errorCorrectionLevel: 'M' });
+
+  const doc = new PDFDocument({
+    size: 'A4',
+    margins: { top: MARGIN, bottom: MARGIN + 30, left: MARGIN, right: MARGIN },
+    compress: opts.compress ?? true,
+    bufferPages: true,
+    info: { Title: `Permit ${permit.number}`, Subject: `Permit ${permit.number}, ${site.name}`, Creator: 'Brink' },
+  });
+  const chunks: Buffer[] = [];
+  doc.on('data', (c: Buffer) => chunks.push(c));
+  const done = new Promise<Buffer>((resolve) => doc.on('end', () => resolve(Buffer.concat(chunks))));
+  const width = doc.page.width - 2 * MARGIN;
+
+  // Header and QR code
+  doc.image(qr, MARGIN + width - 90, MARGIN, { width: 90 });
+  doc.font('Helvetica').fontSize(9).fillColor(MUTED).text(t(`${site.name}`), MARGIN, MARGIN, { width: width - 100 });
+  doc.font('Helvetica-Bold').fontSize(20).fillColor(INK).text(t(`Permit ${permit.number}`), { width: width - 100 });
+  doc
+    .font('Helvetica')
+    .fontSize(11)
+    .text(t(`${permit.kind === 'load' ? 'Load beside an excavation' : 'Dig (open or extend an excavation)'} - revision ${permit.revision} - ${statusLabels[permit.status]}`), { width: width - 100 });
+  doc.fontSize(9).fillColor(MUTED).text(t(`Operator's view: ${qrUrl}`), { width: width - 100 });
+  doc.moveDown(0.5);
+  doc.fillColor(INK).fontSize(10);
+  field(doc, 'Window', `${when(rev.windowStart)} to ${when(rev.windowEnd)}`);
+  field(doc, 'Requested by', permit.requestedBy.name);
+  field(doc, 'Excavations', excavations.map((e) => `${e.reference} ${e.name} (${e.excavation.depth.toFixed(2)} m deep)`).join('; ') || 'none named');
+  if (rev.description) field(doc, 'Work', rev.description);
+  doc.y = Math.max(doc.y, MARGIN + 100);
+  doc.moveDown(0.5);
+
+  // Decision
+  heading(doc, 'Decision');
+  const d = rev.decision;
+  if (!d) {
+    doc.font('Helvetica').fontSize(10).text(t('No decision yet: this permit does not authorise any work.'));
+  } else {
+    const words = { approve: 'APPROVED', return: 'RETURNED FOR CHANGES', decline: 'DECLINED' }[d.action];
+    doc.font('Helvetica-Bold').fontSize(13).fillColor(d.action === 'approve' ? INK : ZONE).text(t(words));
+    doc.fillColor(INK).font('Helvetica').fontSize(10);
+    if (d.action === 'approve') {
+      field(doc, 'Standoff', d.standoff != null ? `Keep every load at least ${m2(d.standoff)} from the excavation edge.` : 'Loads as placed on the plan (no standoff set).');
+      field(doc, 'Computed standoff', d.computedStandoff === undefined ? 'not recorded with this decision' : d.computedStandoff === null ? 'none: no offset within 3H lets the support carry the loads' : m2(d.computedStandoff));
+      if (d.conditions.length) {
+        doc.font('Helvetica-Bold').text('Conditions');
+        doc.font('Helvetica');
+        d.conditions.forEach((c, i) => doc.text(t(`${i + 1}. ${c}`), { indent: 10 }));
+      } else field(doc, 'Conditions', 'none');
+    }
+    if (d.reason) field(doc, d.action === 'return' ? 'Comments' : 'Reason', d.reason);
+    field(doc, 'Signature', d.signature);
+  }
+  doc.moveDown(0.5);
+
+  // Plan
+  heading(doc, 'Plan to scale');
+  drawPlan(doc, permit, site, excavations, plant, d?.standoff ?? rev.check?.computedStandoff ?? null);
+
+  // Check per excavation
+  const check = rev.check;
+  for (const ex of check?.excavations ?? []) {
+    doc.addPage();
+    heading(doc, `Check beside ${ex.reference} ${ex.name}`);
+    sheet(doc, ex);
+    drawPressureDiagram(doc, ex.result.profile as ProfilePoint[], ex.depth);
+  }
+  if (!check) {
+    doc.moveDown();
+    doc.font('Helvetica').fontSize(10).text(t('No check has been run on this revision.'));
+  }
+
+  // Dig checks, operators, trail
+  if (doc.y > doc.page.height - 300) doc.addPage();
+  else doc.moveDown();
+  if (rev.dig) {
+    heading(doc, 'Dig: buried services, depth and support');
+    field(doc, 'Depth', m2(rev.dig.depth));
+    field(doc, 'Support method', rev.dig.supportMethod);
+    for (const k of serviceCheckKeys) {
+      const c = rev.dig.servicesChecks[k];
+      const state = c.state === 'done' ? `done by ${c.by} at ${when(c.at)}` : c.state === 'not-needed' ? `not needed: ${c.notes}` : 'NOT DONE';
+      field(doc, serviceCheckLabels[k], state + (c.state === 'done' && c.notes ? ` (${c.notes})` : ''));
+    }
+    doc.moveDown(0.5);
+  }
+  heading(doc, 'Operators and briefing');
+  if (!rev.operators.length) doc.font('Helvetica').fontSize(10).text('No operators are named.');
+  for (const o of rev.operators) field(doc, o.name, o.briefedAt ? `briefed, confirmed at ${when(o.briefedAt)}` : 'not yet briefed');
+  doc.moveDown(0.5);
+  heading(doc, 'Signatures and times');
+  for (const e of permit.events.filter((e) => e.toStatus || e.action === 'briefed')) {
+    field(doc, when(e.at), `${e.actor.name}: ${e.action.replace('_', ' ')}${e.toStatus ? ` -> ${statusLabels[e.toStatus]}` : ''}${e.comment ? ` - "${e.comment}"` : ''}`);
+  }
+
+  // The caution on every page
+  const range = doc.bufferedPageRange();
+  for (let i = range.start; i < range.start + range.count; i++) {
+    doc.switchToPage(i);
+    const y = doc.page.height - MARGIN - 24;
+    doc.save().moveTo(MARGIN, y - 4).lineTo(MARGIN + width, y - 4).lineWidth(0.5).strokeColor(LINE).stroke().restore();
+    doc.font('Helvetica').fontSize(8).fillColor(MUTED).text(t(`Caution: ${CAUTION}`), MARGIN, y, { width: width - 60, lineBreak: true, height: 30 });
+    doc.text(`Page ${i - range.start + 1} of ${range.count}`, MARGIN + width - 55, y, { width: 55, align: 'right', lineBreak: false });
+  }
+  doc.end();
+  return { buffer: await done, number: permit.number };
+}
+
+function heading(doc: PDFKit.PDFDocument, s: string): void {
+  doc.font('Helvetica-Bold').fontSize(12).fillColor(ACCENT).text(t(s), MARGIN);
+  doc.moveDown(0.2).fillColor(INK).font('Helvetica').fontSize(10);
+}
+
+function field(doc: PDFKit.PDFDocument, label: string, value: string): void {
+  doc.font('Helvetica-Bold').fontSize(10).fillColor(INK).text(t(`${label}: `), MARGIN, undefined, { continued: true });
+  doc.font('Helvetica').text(t(value));
+}
+
+/** The calculation sheet's figures for one excavation. */
+function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck): void {
+  const r = ex.result as unknown as {
+    method: string;
+    coefficients: { top: number; K: number }[];
+    forces: { soil: number; water: number; surcharge: number; allowance: number };
+    moments: { surcharge: number; allowance: number };
+    utilisation: number | null;
+    governing: string | null;
+    maxTotalPressure: number;
+    passes: boolean;
+    warnings: string[];
+  };
+  const req = ex.request as { excavation: Record<string, unknown>; soil: Record<string, unknown>[]; minimumClearance: number };
+  const e = req.excavation;
+  field(doc, 'Method', r.method === 'elastic' ? 'Elastic (Boussinesq-based, NAVFAC DM-7.02)' : '45 degree load spread');
+  field(doc, 'Excavation', `depth ${m2(ex.depth)}; design surcharge ${kpa(Number(e.designSurcharge))}; rated pressure ${e.ratedPressure == null ? 'none' : kpa(Number(e.ratedPressure))}; ${e.pressureState}, wall friction ${e.wallFriction} deg, ${e.restraint}; groundwater ${e.groundwaterDepth == null ? 'none' : m2(Number(e.groundwaterDepth))}`);
+  field(
+    doc,
+    'Soil',
+    req.soil
+      .map((l) => `from ${Number(l.top).toFixed(2)} m: ${l.unitWeight} kN/m3${l.frictionAngle !== undefined ? `, phi' ${l.frictionAngle} deg, c' ${l.cohesion ?? 0} kPa` : `, cu ${l.undrainedShearStrength} kPa`}`)
+      .join('; '),
+  );
+  field(doc, 'Coefficients', r.coefficients.map((c) => `K = ${c.K.toFixed(3)} from ${c.top.toFixed(2)} m`).join('; '));
+  field(doc, 'Forces', `soil ${r.forces.soil.toFixed(1)} kN/m, water ${r.forces.water.toFixed(1)} kN/m, surcharge ${r.forces.surcharge.toFixed(1)} kN/m, allowance ${r.forces.allowance.toFixed(1)} kN/m`);
+  field(doc, 'Moments about formation', `surcharge ${r.moments.surcharge.toFixed(1)} kN.m/m, allowance ${r.moments.allowance.toFixed(1)} kN.m/m`);
+  field(doc, 'Utilisation', `${r.utilisation == null ? 'no allowance' : r.utilisation.toFixed(2)} (${r.governing ?? '-'} governs) - ${r.passes ? 'passes' : 'FAILS'}`);
+  doc.font('Helvetica').fontSize(8).fillColor(MUTED).text(t(verdictRule));
+  doc.fillColor(INK).fontSize(10).moveDown(0.3);
+  doc.font('Helvetica-Bold').text('Loads');
+  doc.font('Helvetica').fontSize(9);
+  for (const l of ex.loads) {
+    doc.text(
+      t(
+        `${l.own ? '' : `[permit ${l.permitNumber}] `}${l.label}${l.element ? ` - ${l.element}` : ''}: ${l.kind}, offset ${m2(l.offset)}, force ${l.force.toFixed(1)} kN/m, standoff ${l.standoff == null ? 'none within 3H' : m2(l.standoff)}`,
+      ),
+      { indent: 10 },
+    );
+  }
+  doc.fontSize(10);
+  field(doc, 'Other permits counted', ex.counted.length ? ex.counted.map((c) => `${c.number} (${statusLabels[c.status]}, ${when(c.windowStart)} to ${when(c.windowEnd)})`).join('; ') : 'none');
+  if (r.warnings.length) field(doc, 'Warnings', r.warnings.join('; '));
+  doc.moveDown(0.5);
+}
+
+/** The pressure diagram to scale: depth downward, soil, water, surcharge and allowance, units on both axes. */
+function drawPressureDiagram(doc: PDFKit.PDFDocument, profile: ProfilePoint[], H: number): void {
+  if (profile.length < 2) return;
+  const boxW = 300;
+  const boxH = 220;
+  if (doc.y + boxH + 60 > doc.page.height - MARGIN - 40) doc.addPage();
+  const x0 = MARGIN + 50;
+  const y0 = doc.y + 20;
+  const maxP = Math.max(1, ...profile.map((p) => Math.max(p.soil, p.water, p.surcharge, p.allowance)));
+  const px = ticks(0, maxP, 5);
+  const dz = ticks(0, H, 5);
+  const sx = boxW / px[px.length - 1];
+  const sy = boxH / dz[dz.length - 1];
+  const X = (p: number) => x0 + p * sx;
+  const Y = (z: number) => y0 + z * sy;
+  doc.font('Helvetica-Bold').fontSize(10).fillColor(INK).text('Pressure diagram (depth downward)', MARGIN, y0 - 18);
+  doc.font('Helvetica').fontSize(8).fillColor(MUTED);
+  for (const v of px) {
+    doc.save().moveTo(X(v), Y(0)).lineTo(X(v), Y(dz[dz.length - 1])).lineWidth(0.3).strokeColor('#e2e8f0').stroke().restore();
+    doc.text(String(v), X(v) - 15, Y(0) - 10, { width: 30, align: 'center', lineBreak: false });
+  }
+  for (const v of dz) {
+    doc.save().moveTo(X(0), Y(v)).lineTo(X(px[px.length - 1]), Y(v)).lineWidth(0.3).strokeColor('#e2e8f0').stroke().restore();
+    doc.text(v.toFixed(1), x0 - 34, Y(v) - 4, { width: 30, align: 'right', lineBreak: false });
+  }
+  doc.text('pressure (kPa)', x0 + boxW / 2 - 30, Y(0) - 20, { lineBreak: false });
+  doc.save().rotate(-90, { origin: [x0 - 42, y0 + boxH / 2] }).text('depth (m)', x0 - 62, y0 + boxH / 2 - 4, { lineBreak: false }).restore();
+  const series: { key: keyof ProfilePoint; colour: string; dash?: number; label: string }[] = [
+    { key: 'soil', colour: '#64748b', label: 'soil' },
+    { key: 'water', colour: WATER, label: 'water' },
+    { key: 'surcharge', colour: ACCENT, label: 'surcharge (loads)' },
+    { key: 'allowance', colour: '#7c3aed', dash: 3, label: 'allowance (design surcharge)' },
+  ];
+  for (const s of series) {
+    doc.save().lineWidth(1.4).strokeColor(s.colour);
+    if (s.dash) doc.dash(s.dash, { space: 2 });
+    profile.forEach((p, i) => (i === 0 ? doc.moveTo(X(p[s.key]), Y(p.z)) : doc.lineTo(X(p[s.key]), Y(p.z))));
+    doc.stroke().restore();
+  }
+  doc.save().moveTo(X(0), Y(0)).lineTo(X(0), Y(H)).lineWidth(1).strokeColor(INK).stroke().restore();
+  doc.save().moveTo(X(0), Y(H)).lineTo(X(px[px.length - 1]), Y(H)).lineWidth(0.6).dash(2, { space: 2 }).strokeColor(INK).stroke().restore();
+  doc.fillColor(INK).text(`formation ${H.toFixed(2)} m`, X(px[px.length - 1]) + 4, Y(H) - 4, { lineBreak: false });
+  let ly = y0;
+  for (const s of series) {
+    doc.save().lineWidth(1.4).strokeColor(s.colour);
+    if (s.dash) doc.dash(s.dash, { space: 2 });
+    doc.moveTo(x0 + boxW + 20, ly + 4).lineTo(x0 + boxW + 40, ly + 4).stroke().restore();
+    doc.fillColor(INK).text(s.label, x0 + boxW + 44, ly, { lineBreak: false });
+    ly += 12;
+  }
+  doc.x = MARGIN;
+  doc.y = Y(dz[dz.length - 1]) + 16;
+}
+
+/** The plan to scale: excavations, the exclusion zone, the loads, a scale bar and a north arrow. */
+function drawPlan(
+  doc: PDFKit.PDFDocument,
+  permit: PermitDetail,
+  site: { latitude: number; longitude: number },
+  excavations: CheckExcavation[],
+  plant: Awaited<ReturnType<typeof plantFor>>,
+  standoff: number | null,
+): void {
+  const proj = localProjection([site.longitude, site.latitude]);
+  const rings = excavations.flatMap((e) => {
+    try {
+      const prepared = prepareExcavation(e.shape, proj);
+      return [{ ref: e.reference, ring: prepared.ring, prepared }];
+    } catch {
+      return [];
+    }
+  });
+  const feet = permit.current.loads.flatMap((l) => {
+    try {
+      return footprintsOf(l, plant, proj);
+    } catch {
+      return [];
+    }
+  });
+  const zones: XY[][][] =
+    standoff && standoff > 0
+      ? rings.flatMap((r) => {
+          const z = exclusionZone(r.prepared, standoff, proj);
+          const polys = z.type === 'Polygon' ? [z.coordinates] : z.coordinates;
+          return polys.map((poly) => poly.map((ring) => ring.map((c) => proj.toLocal(c))));
+        })
+      : [];
+  const pts: XY[] = [...rings.flatMap((r) => r.ring), ...feet.flatMap((f) => f.local), ...zones.flat(2)];
+  const boxW = doc.page.width - 2 * MARGIN;
+  const boxH = 260;
+  if (doc.y + boxH + 30 > doc.page.height - MARGIN - 40) doc.addPage();
+  const top = doc.y + 4;
+  doc.save().rect(MARGIN, top, boxW, boxH).lineWidth(0.5).strokeColor(LINE).stroke().restore();
+  if (pts.length === 0) {
+    doc.font('Helvetica').fontSize(10).text('Nothing to draw: no excavation or load is placed.', MARGIN + 10, top + 10);
+    doc.y = top + boxH + 10;
+    return;
+  }
+  const minX = Math.min(...pts.map((p) => p[0]));
+  const maxX = Math.max(...pts.map((p) => p[0]));
+  const minY = Math.min(...pts.map((p) => p[1]));
+  const maxY = Math.max(...pts.map((p) => p[1]));
+  const n = planScale(maxX - minX + 4, maxY - minY + 4, boxW - 20, boxH - 50);
+  const k = POINTS_PER_METRE_OF_PAPER / n;
+  const cx = (minX + maxX) / 2;
+  const cy = (minY + maxY) / 2;
+  const P = (p: XY): [number, number] => [MARGIN + boxW / 2 + (p[0] - cx) * k, top + (boxH - 30) / 2 + 5 - (p[1] - cy) * k];
+  const path = (ring: XY[]) => {
+    ring.forEach((p, i) => (i === 0 ? doc.moveTo(...P(p)) : doc.lineTo(...P(p))));
+    doc.closePath();
+  };
+  doc.save();
+  doc.rect(MARGIN, top, boxW, boxH).clip();
+  for (const poly of zones) {
+    doc.save();
+    path(poly[0]);
+    doc.fillOpacity(0.12).fillAndStroke(ZONE, ZONE);
+    doc.restore();
+  }
+  for (const r of rings) {
+    doc.save();
+    path(r.ring);
+    doc.fillOpacity(0.6).lineWidth(1).fillAndStroke('#a8a29e', INK);
+    doc.restore();
+    const c = r.ring.reduce((a, p) => [a[0] + p[0] / r.ring.length, a[1] + p[1] / r.ring.length], [0, 0] as XY);
+    doc.font('Helvetica-Bold').fontSize(8).fillColor(INK).text(t(r.ref), P(c)[0] - 20, P(c)[1] - 4, { width: 40, align: 'center', lineBreak: false });
+  }
+  for (const f of feet) {
+    doc.save();
+    if (f.kind === 'line') {
+      f.local.forEach((p, i) => (i === 0 ? doc.moveTo(...P(p)) : doc.lineTo(...P(p))));
+      doc.lineWidth(2).strokeColor(ACCENT).stroke();
+    } else {
+      path(f.local);
+      doc.fillOpacity(0.5).lineWidth(0.8).fillAndStroke(ACCENT, ACCENT);
+    }
+    doc.restore();
+  }
+  doc.restore();
+  // scale bar and north arrow
+  const span = (boxW - 20) / k;
+  const bar = scaleBarLength(span / 2);
+  const bx = MARGIN + 12;
+  const by = top + boxH - 16;
+  const half = niceStep(bar, 2);
+  doc.save().lineWidth(0.8).strokeColor(INK);
+  doc.rect(bx, by - 3, bar * k, 4).stroke();
+  doc.rect(bx, by - 3, half * k, 4).fill(INK);
+  doc.restore();
+  doc.font('Helvetica').fontSize(8).fillColor(INK);
+  doc.text('0', bx - 3, by + 3, { lineBreak: false });
+  doc.text(`${bar} m`, bx + bar * k - 8, by + 3, { lineBreak: false });
+  doc.text(`Scale 1:${n} on A4`, bx + bar * k + 24, by - 2, { lineBreak: false });
+  const nx = MARGIN + boxW - 24;
+  const ny = top + 14;
+  doc.save().moveTo(nx, ny).lineTo(nx - 6, ny + 18).lineTo(nx, ny + 13).lineTo(nx + 6, ny + 18).closePath().fill(INK).restore();
+  doc.text('N', nx - 3, ny + 20, { lineBreak: false });
+  doc.font('Helvetica').fontSize(8).fillColor(MUTED);
+  doc.text(
+    t(`Grey: excavation. Blue: loads (tracks, pads, drawn loads). Red band: exclusion zone${standoff ? `, ${m2(standoff)} from the edge` : ''}.`),
+    MARGIN,
+    top + boxH + 4,
+    { width: boxW },
+  );
+  doc.fillColor(INK);
+  doc.moveDown(0.5);
+}

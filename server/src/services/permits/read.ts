@@ -1,0 +1,232 @@
+import { sql } from 'kysely';
+import type { Db } from '@db/database';
+import {
+  allowedActions,
+  statusLabels,
+  type ActorRole,
+  type DigDetails,
+  type PermitAttachment,
+  type PermitCheck,
+  type PermitDecision,
+  type PermitDetail,
+  type PermitEvent,
+  type PermitListQuery,
+  type PermitRevision,
+  type PermitStatus,
+  type PermitSummary,
+  type PlacedLoad,
+} from '@shared/schemas/permits';
+import { CAUTION } from './caution';
+
+const iso = (d: Date | string) => new Date(d).toISOString();
+
+/** Permits joined with their current revision (`p` and `r`). */
+export function withCurrentRevision(db: Db) {
+  return db
+    .selectFrom('permits as p')
+    .innerJoin('permit_revisions as r', (j) => j.onRef('r.permit_id', '=', 'p.id').onRef('r.revision', '=', 'p.revision'));
+}
+
+/** The columns a summary needs: the permit, its current revision, its site and its requester. */
+function summaryQuery(db: Db) {
+  return withCurrentRevision(db)
+    .innerJoin('sites as s', 's.id', 'p.site_id')
+    .innerJoin('users as u', 'u.id', 'p.requested_by')
+    .select([
+      'p.id',
+      'p.site_id',
+      's.name as site_name',
+      'p.number',
+      'p.seq',
+      'p.kind',
+      'p.status',
+      'p.version',
+      'p.revision',
+      'p.requested_by',
+      'u.name as requester_name',
+      'p.updated_at',
+      'r.id as revision_id',
+      'r.description',
+      'r.window_start',
+      'r.window_end',
+      'r.excavation_ids',
+      'r.check_result',
+    ]);
+}
+type SummaryRow = Awaited<ReturnType<ReturnType<typeof summaryQuery>['executeTakeFirstOrThrow']>>;
+
+function summaryOut(r: SummaryRow): PermitSummary {
+  const check = r.check_result as PermitCheck | null;
+  return {
+    id: r.id,
+    siteId: r.site_id,
+    siteName: r.site_name,
+    number: r.number,
+    kind: r.kind,
+    status: r.status,
+    statusLabel: statusLabels[r.status],
+    version: r.version,
+    revision: r.revision,
+    description: r.description,
+    windowStart: iso(r.window_start),
+    windowEnd: iso(r.window_end),
+    excavationIds: r.excavation_ids,
+    requestedBy: { id: r.requested_by, name: r.requester_name },
+    utilisation: check ? check.utilisation : null,
+    passes: check ? check.passes : null,
+    updatedAt: iso(r.updated_at),
+  };
+}
+
+/** The sites where a person is a member (all sites for an administrator). */
+async function visibleSites(db: Db, user: { id: number; isAdmin: boolean }): Promise<number[] | 'all'> {
+  if (user.isAdmin) return 'all';
+  const rows = await db.selectFrom('site_members').select('site_id').where('user_id', '=', user.id).execute();
+  return rows.map((r) => r.site_id);
+}
+
+const sortColumns = {
+  number: 'p.seq',
+  windowStart: 'r.window_start',
+  windowEnd: 'r.window_end',
+  status: 'p.status',
+  updated: 'p.updated_at',
+} as const;
+
+/**
+ * Permits a person may see, filtered: `review` = awaiting review on sites where they coordinate,
+ * `mine` = requested by them, `live` = live now; plus site, status, kind, excavation and a window
+ * that overlaps from..to.
+ */
+export async function listPermits(db: Db, user: { id: number; isAdmin: boolean }, q: PermitListQuery): Promise<PermitSummary[]> {
+  const sites = await visibleSites(db, user);
+  if (sites !== 'all' && sites.length === 0) return [];
+  let query = summaryQuery(db);
+  if (sites !== 'all') query = query.where('p.site_id', 'in', sites);
+  if (q.siteId) query = query.where('p.site_id', '=', q.siteId);
+  if (q.view === 'review') {
+    query = query.where('p.status', '=', 'submitted').where((eb) =>
+      eb.exists(
+        eb
+          .selectFrom('site_members as m')
+          .select('m.user_id')
+          .whereRef('m.site_id', '=', 'p.site_id')
+          .where('m.user_id', '=', user.id)
+          .where('m.role', '=', 'coordinator'),
+      ),
+    );
+  }
+  if (q.view === 'mine') query = query.where('p.requested_by', '=', user.id);
+  if (q.view === 'live') query = query.where('p.status', '=', 'live');
+  if (q.status) query = query.where('p.status', 'in', q.status);
+  if (q.kind) query = query.where('p.kind', '=', q.kind);
+  if (q.excavationId) query = query.where(sql<boolean>`${q.excavationId}::int = any(r.excavation_ids)`);
+  if (q.from) query = query.where('r.window_end', '>', new Date(q.from));
+  if (q.to) query = query.where('r.window_start', '<', new Date(q.to));
+  const rows = await query.orderBy(sortColumns[q.sort], q.order).orderBy('p.id', q.order).limit(q.limit).execute();
+  return rows.map(summaryOut);
+}
+
+export async function loadSummary(db: Db, id: number): Promise<PermitSummary | null> {
+  const r = await summaryQuery(db).where('p.id', '=', id).executeTakeFirst();
+  return r ? summaryOut(r) : null;
+}
+
+/** One revision of a permit with its operators, as the API shows it. */
+export async function loadRevision(db: Db, permitId: number, revision: number): Promise<PermitRevision | null> {
+  const r = await db.selectFrom('permit_revisions').selectAll().where('permit_id', '=', permitId).where('revision', '=', revision).executeTakeFirst();
+  if (!r) return null;
+  const operators = await db
+    .selectFrom('permit_operators as o')
+    .innerJoin('users as u', 'u.id', 'o.user_id')
+    .select(['u.id', 'u.name', 'u.email', 'o.briefed_at'])
+    .where('o.revision_id', '=', r.id)
+    .orderBy('u.name')
+    .execute();
+  return {
+    revision: r.revision,
+    description: r.description,
+    windowStart: iso(r.window_start),
+    windowEnd: iso(r.window_end),
+    excavationIds: r.excavation_ids,
+    method: r.method,
+    loads: r.loads as PlacedLoad[],
+    dig: r.dig as DigDetails | null,
+    operators: operators.map((o) => ({ id: o.id, name: o.name, email: o.email, briefedAt: o.briefed_at ? iso(o.briefed_at) : null })),
+    check: r.check_result as PermitCheck | null,
+    checkedAt: r.checked_at ? iso(r.checked_at) : null,
+    decision: r.decision as PermitDecision | null,
+    createdAt: iso(r.created_at),
+  };
+}
+
+export async function loadEvents(db: Db, permitId: number): Promise<PermitEvent[]> {
+  const rows = await db.selectFrom('permit_events').selectAll().where('permit_id', '=', permitId).orderBy('id').execute();
+  return rows.map((e) => ({
+    id: e.id,
+    revision: e.revision,
+    at: iso(e.at),
+    actor: { id: e.actor_id, name: e.actor_name },
+    action: e.action,
+    fromStatus: e.from_status as PermitStatus | null,
+    toStatus: e.to_status as PermitStatus | null,
+    comment: e.comment,
+    detail: (e.detail ?? {}) as Record<string, unknown>,
+  }));
+}
+
+export async function loadAttachments(db: Db, permitId: number): Promise<PermitAttachment[]> {
+  const rows = await db
+    .selectFrom('permit_attachments as a')
+    .innerJoin('uploads as f', 'f.id', 'a.upload_id')
+    .leftJoin('users as u', 'u.id', 'a.added_by')
+    .select(['a.id', 'a.revision', 'a.kind', 'a.added_at', 'f.original_name', 'f.mime', 'f.size', 'u.name as added_by_name'])
+    .where('a.permit_id', '=', permitId)
+    .orderBy('a.id')
+    .execute();
+  return rows.map((a) => ({
+    id: a.id,
+    revision: a.revision,
+    kind: a.kind,
+    name: a.original_name,
+    mime: a.mime,
+    size: a.size,
+    addedBy: a.added_by_name ?? '',
+    addedAt: iso(a.added_at),
+    url: `/api/permits/${permitId}/attachments/${a.id}`,
+  }));
+}
+
+/** Everything the permit page shows, for one viewer (their actions and whether their briefing is due). */
+export async function loadDetail(db: Db, id: number, viewer: { id: number; role: ActorRole | null }): Promise<PermitDetail | null> {
+  const summary = await loadSummary(db, id);
+  if (!summary) return null;
+  const [current, revisions, events, attachments] = await Promise.all([
+    loadRevision(db, id, summary.revision),
+    db.selectFrom('permit_revisions').select(['revision', 'created_at', 'decision']).where('permit_id', '=', id).orderBy('revision', 'desc').execute(),
+    loadEvents(db, id),
+    loadAttachments(db, id),
+  ]);
+  const me = current!.operators.find((o) => o.id === viewer.id);
+  return {
+    ...summary,
+    current: current!,
+    revisions: revisions.map((r) => ({
+      revision: r.revision,
+      createdAt: iso(r.created_at),
+      decision: (r.decision as PermitDecision | null)?.action ?? null,
+    })),
+    events,
+    attachments,
+    actions: allowedActions(summary.status, viewer.role),
+    briefingDue: !!me && !me.briefedAt && ['approved', 'live', 'suspended'].includes(summary.status),
+    caution: CAUTION,
+  };
+}
+
+/** The site of a permit (for authorisation), or null when there is no such permit. */
+export async function siteOfPermit(db: Db, id: number): Promise<number | null> {
+  if (!Number.isInteger(id) || id <= 0) return null;
+  const r = await db.selectFrom('permits').select('site_id').where('id', '=', id).executeTakeFirst();
+  return r?.site_id ?? null;
+}

@@ -1,0 +1,113 @@
+import type { Deps } from '../../deps';
+import { withCurrentRevision } from './read';
+import { HttpError } from '../../http';
+import { scheduleActor } from './actors';
+import { transition } from './machine';
+import { notifyTransition } from './notify';
+
+/** Before the window closes, by this much, the requester and operators are reminded (ms). */
+export const REMINDER_BEFORE_MS = 3600_000;
+
+export interface ScheduleOutcome {
+  started: number[];
+  lapsed: number[];
+  reminded: number[];
+}
+
+/** Another change won the race (or the permit is no longer due): not an error for the schedule. */
+function lostRace(err: unknown): boolean {
+  return err instanceof HttpError && (err.status === 409 || err.status === 404);
+}
+
+/**
+ * What the clock does to one permit at `deps.now()`: an approved permit whose window is open and
+ * whose operators have all confirmed the briefing goes Live; an approved, live or suspended permit
+ * whose window has closed Lapses. Returns what it did.
+ */
+export async function advancePermit(deps: Deps, permitId: number): Promise<'started' | 'lapsed' | null> {
+  const now = deps.now();
+  const row = await withCurrentRevision(deps.db)
+    .select(['p.id', 'p.status', 'p.version', 'r.id as revision_id', 'r.window_start', 'r.window_end'])
+    .where('p.id', '=', permitId)
+    .executeTakeFirst();
+  if (!row) return null;
+  try {
+    if (['approved', 'live', 'suspended'].includes(row.status) && now >= new Date(row.window_end)) {
+      await transition(deps, row.id, 'lapse', scheduleActor, { version: row.version });
+      return 'lapsed';
+    }
+    if (row.status === 'approved' && now >= new Date(row.window_start) && now < new Date(row.window_end)) {
+      const waiting = await deps.db.selectFrom('permit_operators').select('user_id').where('revision_id', '=', row.revision_id).where('briefed_at', 'is', null).execute();
+      if (waiting.length === 0) {
+        await transition(deps, row.id, 'start', scheduleActor, { version: row.version });
+        return 'started';
+      }
+    }
+  } catch (err) {
+    if (!lostRace(err)) throw err;
+  }
+  return null;
+}
+
+/**
+ * One pass of the permit schedule at `deps.now()` (the pg-boss job runs it every minute; tests
+ * call it with their own clock, limited to their own permits): start due permits, lapse closed
+ * ones, and send the reminder an hour before a live or suspended permit's window closes (once per
+ * window).
+ */
+export async function runPermitSchedule(deps: Deps, scope: { permitIds?: number[] } = {}): Promise<ScheduleOutcome> {
+  const only = scope.permitIds;
+  if (only && only.length === 0) return { started: [], lapsed: [], reminded: [] };
+  const now = deps.now();
+  const out: ScheduleOutcome = { started: [], lapsed: [], reminded: [] };
+  const due = await withCurrentRevision(deps.db)
+    .select(['p.id', 'p.status'])
+    .where((eb) =>
+      eb.or([
+        eb.and([eb('p.status', 'in', ['approved', 'live', 'suspended']), eb('r.window_end', '<=', now)]),
+        eb.and([eb('p.status', '=', 'approved'), eb('r.window_start', '<=', now)]),
+      ]),
+    )
+    .$if(!!only, (q) => q.where('p.id', 'in', only!))
+    .orderBy('p.id')
+    .execute();
+  for (const p of due) {
+    const did = await advancePermit(deps, p.id);
+    if (did) out[did].push(p.id);
+  }
+
+  const soon = await withCurrentRevision(deps.db)
+    .innerJoin('sites as s', 's.id', 'p.site_id')
+    .select(['p.id', 'p.number', 'p.status', 's.name as site_name', 'r.description', 'r.window_start', 'r.window_end'])
+    .where('p.status', 'in', ['live', 'suspended'])
+    .where('p.reminder_sent_at', 'is', null)
+    .where('r.window_end', '>', now)
+    .where('r.window_end', '<=', new Date(now.getTime() + REMINDER_BEFORE_MS))
+    .$if(!!only, (q) => q.where('p.id', 'in', only!))
+    .execute();
+  for (const p of soon) {
+    // Claim the reminder first, so two workers never both send it.
+    const claimed = await deps.db
+      .updateTable('permits')
+      .set({ reminder_sent_at: now })
+      .where('id', '=', p.id)
+      .where('reminder_sent_at', 'is', null)
+      .returning('id')
+      .executeTakeFirst();
+    if (!claimed) continue;
+    await notifyTransition(deps, 'reminder', {
+      permitId: p.id,
+      number: p.number,
+      siteName: p.site_name,
+      description: p.description,
+      status: p.status,
+      windowStart: new Date(p.window_start),
+      windowEnd: new Date(p.window_end),
+      actorName: scheduleActor.name,
+      actorId: null,
+    });
+    out.reminded.push(p.id);
+  }
+  return out;
+}
+

@@ -1,0 +1,157 @@
+import { randomUUID } from 'node:crypto';
+import bcrypt from 'bcryptjs';
+import request from 'supertest';
+import { localProjection } from '@shared/geometry';
+import type { PermitCreateInput, PermitStatus, PlacedLoad } from '@shared/schemas/permits';
+import { demo, DEMO_PASSWORD, demoSiteId, signedIn, unique, type TestApp } from './helpers';
+
+/**
+ * Fixtures of the permit tests: the demo site and people, a test trench of its own on the demo site
+ * (an east-west pipe trench through the site origin, 30 m long, 1.0 m wide, 2.4 m deep, in hydraulic frames designed for
+ * the customary 10 kPa), and the library's 21 t excavator placed north of it at a chosen clear
+ * distance with its tracks parallel to the trench.
+ */
+export interface PermitWorld {
+  t: TestApp;
+  siteId: number;
+  origin: [number, number];
+  trenchId: number;
+  trenchRef: string;
+  excavatorId: number;
+  operatorId: number;
+  supervisorId: number;
+  coordinatorId: number;
+  agents: Record<'admin' | 'coordinator' | 'supervisor' | 'operator' | 'outsider' | 'coordinator2', request.Agent>;
+  coordinator2Email: string;
+}
+
+export const TRENCH = { width: 1.0, depth: 2.4, length: 30 };
+/** The 21 t excavator of the demo library: tracks 3.35 m × 0.6 m at 2.2 m centres. */
+export const EXCAVATOR = { name: 'Excavator 21 t', gauge: 2.2, shoe: 0.6 };
+
+/** A fresh test trench on the demo site for the world (so earlier permits on the old one are not counted). */
+export async function newTrench(w: PermitWorld): Promise<void> {
+  const t = await addTrench(w.t, w.siteId, w.origin);
+  w.trenchId = t.id;
+  w.trenchRef = t.reference;
+}
+
+async function addTrench(t: TestApp, siteId: number, origin: [number, number]): Promise<{ id: number; reference: string }> {
+  const proj = localProjection(origin);
+  const reference = `TT-${randomUUID().slice(0, 6)}`;
+  return t.deps.db
+    .insertInto('excavations')
+    .values({
+      site_id: siteId,
+      reference,
+      name: 'Test pipe trench',
+      kind: 'trench',
+      geometry: JSON.stringify({ type: 'LineString', coordinates: [proj.toWgs84([-TRENCH.length / 2, 0]), proj.toWgs84([TRENCH.length / 2, 0])] }),
+      width: TRENCH.width,
+      depth: TRENCH.depth,
+      state: 'open',
+      support_type: 'hydraulic-frames',
+      design_surcharge: 10,
+      soil: JSON.stringify([{ top: 0, unitWeight: 19, saturatedUnitWeight: 20, frictionAngle: 30, cohesion: 0 }]),
+    })
+    .returning(['id', 'reference'])
+    .executeTakeFirstOrThrow();
+}
+
+export async function makeWorld(t: TestApp): Promise<PermitWorld> {
+  const siteId = await demoSiteId(t.deps);
+  const site = await t.deps.db.selectFrom('sites').select(['latitude', 'longitude']).where('id', '=', siteId).executeTakeFirstOrThrow();
+  const trench = await addTrench(t, siteId, [site.longitude, site.latitude]);
+  const trenchRef = trench.reference;
+  const excavator = await t.deps.db.selectFrom('plant_items').select('id').where('name', '=', EXCAVATOR.name).executeTakeFirstOrThrow();
+  const ids = await t.deps.db.selectFrom('users').select(['id', 'email']).where('email', 'in', [demo.operator, demo.supervisor, demo.coordinator]).execute();
+  const idOf = (e: string) => ids.find((u) => u.email === e)!.id;
+
+  const coordinator2Email = unique('coordinator2');
+  const c2 = await t.deps.db.insertInto('users').values({ email: coordinator2Email, name: 'Cora Second (test coordinator)', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+  await t.deps.db.insertInto('site_members').values({ site_id: siteId, user_id: c2.id, role: 'coordinator' }).execute();
+  const outsiderEmail = unique('outsider');
+  const other = await t.deps.db.insertInto('sites').values({ name: `Other site ${randomUUID().slice(0, 4)}`, latitude: 51, longitude: 0 }).returning('id').executeTakeFirstOrThrow();
+  const o = await t.deps.db.insertInto('users').values({ email: outsiderEmail, name: 'Otto Outsider', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+  await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: o.id, role: 'coordinator' }).execute();
+
+  const agents = {
+    admin: await signedIn(t.app, demo.admin),
+    coordinator: await signedIn(t.app, demo.coordinator),
+    supervisor: await signedIn(t.app, demo.supervisor),
+    operator: await signedIn(t.app, demo.operator),
+    outsider: await signedIn(t.app, outsiderEmail),
+    coordinator2: await signedIn(t.app, coordinator2Email),
+  } as PermitWorld['agents'];
+  return {
+    t,
+    siteId,
+    origin: [site.longitude, site.latitude],
+    trenchId: trench.id,
+    trenchRef,
+    excavatorId: excavator.id,
+    operatorId: idOf(demo.operator),
+    supervisorId: idOf(demo.supervisor),
+    coordinatorId: idOf(demo.coordinator),
+    agents,
+    coordinator2Email,
+  };
+}
+
+/** The excavator north of the world's trench, its near track `clear` metres from the trench edge, tracks parallel to it. */
+export function excavatorAt(w: PermitWorld, clear: number, id = 'exc'): PlacedLoad {
+  const proj = localProjection(w.origin);
+  const centreNorth = TRENCH.width / 2 + clear + EXCAVATOR.shoe / 2 + EXCAVATOR.gauge / 2;
+  return { id, kind: 'plant', label: 'Excavator', plantItemId: w.excavatorId, position: proj.toWgs84([0, centreNorth]), rotation: 90 };
+}
+
+export function hoursFrom(base: Date, h: number): string {
+  return new Date(base.getTime() + h * 3600_000).toISOString();
+}
+
+/** A load permit body on the world's trench. */
+export function permitBody(w: PermitWorld, over: Partial<PermitCreateInput> = {}): PermitCreateInput {
+  const now = w.t.deps.now();
+  return {
+    siteId: w.siteId,
+    kind: 'load',
+    description: 'Excavator loading out spoil beside the trench',
+    windowStart: hoursFrom(now, -1),
+    windowEnd: hoursFrom(now, 8),
+    excavationIds: [w.trenchId],
+    loads: [excavatorAt(w, 4)],
+    // Named and not yet briefed: an approved permit waits (the schedule tests brief them).
+    operatorIds: [w.operatorId],
+    ...over,
+  };
+}
+
+export async function createPermit(w: PermitWorld, over: Partial<PermitCreateInput> = {}) {
+  const r = await w.agents.supervisor.post('/api/permits').send(permitBody(w, over));
+  if (r.status !== 201) throw new Error(`create permit: ${r.status} ${JSON.stringify(r.body)}`);
+  return r.body.permit as { id: number; number: string; version: number; status: PermitStatus };
+}
+
+/** Sets a permit's status directly (a fixture for the status-machine table; the real paths are tested too). */
+export async function forceStatus(w: PermitWorld, id: number, status: PermitStatus): Promise<number> {
+  const r = await w.t.deps.db.updateTable('permits').set((eb) => ({ status, version: eb('version', '+', 1) })).where('id', '=', id).returning('version').executeTakeFirstOrThrow();
+  return r.version;
+}
+
+export function act(agent: request.Agent, id: number, body: Record<string, unknown>) {
+  return agent.post(`/api/permits/${id}/transitions`).send(body);
+}
+
+/** Submits (supervisor) and approves (coordinator) a draft. */
+export async function submitAndApprove(w: PermitWorld, id: number, approve: Record<string, unknown> = {}) {
+  const s = await act(w.agents.supervisor, id, { action: 'submit', version: (await version(w, id)) });
+  if (s.status !== 200) throw new Error(`submit: ${s.status} ${JSON.stringify(s.body)}`);
+  const a = await act(w.agents.coordinator, id, { action: 'approve', version: s.body.permit.version, password: DEMO_PASSWORD, ...approve });
+  if (a.status !== 200) throw new Error(`approve: ${a.status} ${JSON.stringify(a.body)}`);
+  return a.body.permit;
+}
+
+export async function version(w: PermitWorld, id: number): Promise<number> {
+  const r = await w.t.deps.db.selectFrom('permits').select('version').where('id', '=', id).executeTakeFirstOrThrow();
+  return r.version;
+}

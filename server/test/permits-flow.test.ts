@@ -1,0 +1,248 @@
+import { inflateSync } from 'node:zlib';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { CAUTION } from '@shared/engineering';
+import { runPermitSchedule } from '../src/jobs/permits';
+import { inspectionActor } from '../src/services/permits/actors';
+import { transition } from '../src/services/permits/machine';
+import { permitPdf } from '../src/services/permits/pdf';
+import { demo, DEMO_PASSWORD, startTestApp, waitForMail, type TestApp } from './helpers';
+import { act, createPermit, excavatorAt, hoursFrom, makeWorld, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
+
+let t: TestApp;
+let w: PermitWorld;
+beforeAll(async () => {
+  t = await startTestApp({ SIGNIN_LIMIT_PER_IP: '1000' });
+  w = await makeWorld(t);
+});
+afterAll(async () => t.stop());
+
+/** Every message to `to` about permit `number` since the test began, by subject. */
+async function subjectsTo(to: string, number: string): Promise<string[]> {
+  const rows = await t.deps.db.selectFrom('caught_mail').select(['subject']).where('mail_to', 'ilike', `%${to}%`).where('subject', 'like', `Permit ${number} %`).execute();
+  return rows.map((r) => r.subject);
+}
+
+describe('e-mails of each transition reach the people who act next', () => {
+  it('from request to hand-back', async () => {
+    const p = await createPermit(w, { loads: [excavatorAt(w, 1.5)] });
+    const n = p.number;
+    const sub = await act(w.agents.supervisor, p.id, { action: 'submit', version: p.version });
+    expect(sub.status).toBe(200);
+    const toCoordinator = await waitForMail(t.deps, demo.coordinator, new RegExp(`Permit ${n} .* awaits your review`));
+    expect(toCoordinator.text).toContain(`http://brink.test/permits/${p.id}`);
+    await waitForMail(t.deps, w.coordinator2Email, new RegExp(`Permit ${n} .* awaits your review`));
+
+    const ret = await act(w.agents.coordinator, p.id, { action: 'return', version: sub.body.permit.version, password: DEMO_PASSWORD, reason: 'Add the banksman to the method statement' });
+    expect(ret.status).toBe(200);
+    const returned = await waitForMail(t.deps, demo.supervisor, new RegExp(`Permit ${n} .* is returned for changes`));
+    expect(returned.text).toContain('Comments: Add the banksman to the method statement');
+
+    const again = await act(w.agents.supervisor, p.id, { action: 'submit', version: ret.body.permit.version });
+    const ok = await act(w.agents.coordinator, p.id, { action: 'approve', version: again.body.permit.version, password: DEMO_PASSWORD, standoff: 3, conditions: ['A banksman is present'] });
+    expect(ok.status).toBe(200);
+    const approvedToSupervisor = await waitForMail(t.deps, demo.supervisor, new RegExp(`Permit ${n} .* is approved`));
+    expect(approvedToSupervisor.text).toContain('Standoff: keep every load at least 3.00 m from the excavation edge.');
+    expect(approvedToSupervisor.text).toContain('(1) A banksman is present');
+    const approvedToOperator = await waitForMail(t.deps, demo.operator, new RegExp(`Permit ${n} .* is approved`));
+    expect(approvedToOperator.text).toContain(`http://brink.test/field/permits/${p.id}`);
+    expect(approvedToOperator.text).toMatch(/confirm that you have been briefed/);
+
+    // The operator confirms the briefing inside the window: live at once; twice is the same.
+    const b1 = await w.agents.operator.post(`/api/permits/${p.id}/briefing`);
+    expect(b1.status).toBe(200);
+    expect(b1.body.briefing.status).toBe('live');
+    const b2 = await w.agents.operator.post(`/api/permits/${p.id}/briefing`);
+    expect(b2.body.briefing.briefedAt).toBe(b1.body.briefing.briefedAt);
+    await waitForMail(t.deps, demo.operator, new RegExp(`Permit ${n} .* is live`));
+    await waitForMail(t.deps, demo.supervisor, new RegExp(`Permit ${n} .* is live`));
+
+    const susp = await act(w.agents.coordinator, p.id, { action: 'suspend', version: await version(w, p.id), reason: 'Water in the trench' });
+    expect(susp.status).toBe(200);
+    for (const to of [demo.supervisor, demo.operator, w.coordinator2Email]) await waitForMail(t.deps, to, new RegExp(`Permit ${n} .* is suspended`));
+    const res = await act(w.agents.coordinator, p.id, { action: 'resume', version: susp.body.permit.version, reason: 'Pumped out and inspected' });
+    expect(res.status).toBe(200);
+    for (const to of [demo.supervisor, demo.operator]) await waitForMail(t.deps, to, new RegExp(`Permit ${n} .* is live again`));
+
+    const back = await act(w.agents.supervisor, p.id, { action: 'hand_back', version: res.body.permit.version });
+    expect(back.status).toBe(200);
+    for (const to of [demo.coordinator, demo.operator]) await waitForMail(t.deps, to, new RegExp(`Permit ${n} .* is handed back`));
+
+    // Nobody is told of their own action, and the operator never hears of the review itself.
+    expect(await subjectsTo(demo.coordinator, n)).not.toContainEqual(expect.stringMatching(/is suspended|is returned|is approved/));
+    expect(await subjectsTo(demo.supervisor, n)).not.toContainEqual(expect.stringMatching(/awaits your review|handed back/));
+    expect(await subjectsTo(demo.operator, n)).not.toContainEqual(expect.stringMatching(/awaits your review|returned/));
+
+    // The timeline tells the whole story, with the comments.
+    const detail = await w.agents.coordinator.get(`/api/permits/${p.id}`);
+    expect(detail.body.permit.events.map((e: { action: string }) => e.action)).toEqual(['create', 'submit', 'return', 'submit', 'approve', 'briefed', 'start', 'suspend', 'resume', 'hand_back']);
+    expect(detail.body.permit.events.find((e: { action: string }) => e.action === 'start').actor.name).toBe('Brink schedule');
+  });
+
+  it('tells the requester of a decline with its reason', async () => {
+    const p = await createPermit(w);
+    const s = await act(w.agents.supervisor, p.id, { action: 'submit', version: p.version });
+    await act(w.agents.coordinator, p.id, { action: 'decline', version: s.body.permit.version, password: DEMO_PASSWORD, reason: 'Use the far side of the trench' }).expect(200);
+    const m = await waitForMail(t.deps, demo.supervisor, new RegExp(`Permit ${p.number} .* is declined`));
+    expect(m.text).toContain('Reason: Use the far side of the trench');
+  });
+
+  it('lets an inspection suspend a live permit with a reason, telling everyone', async () => {
+    const p = await createPermit(w, { operatorIds: [] });
+    const approved = await submitAndApprove(w, p.id);
+    expect(approved.status).toBe('live');
+    await expect(transition(t.deps, p.id, 'suspend', inspectionActor('Shift inspection failed'), {})).rejects.toMatchObject({ status: 400 });
+    const out = await transition(t.deps, p.id, 'suspend', inspectionActor('Shift inspection failed'), { reason: 'Frame strut missing at chainage 12 m' });
+    expect(out.to).toBe('suspended');
+    expect(out.notified).toEqual(expect.arrayContaining([demo.supervisor, demo.coordinator]));
+    const m = await waitForMail(t.deps, demo.coordinator, new RegExp(`Permit ${p.number} .* is suspended`));
+    expect(m.text).toContain('Reason: Frame strut missing at chainage 12 m');
+    const e = (await w.agents.coordinator.get(`/api/permits/${p.id}`)).body.permit.events.at(-1);
+    expect(e).toMatchObject({ action: 'suspend', actor: { id: null, name: 'Shift inspection failed' } });
+  });
+});
+
+describe('the schedule, on an injected clock', () => {
+  it('waits for the briefing, goes live, reminds an hour before the end once, and lapses at the end', async () => {
+    const base = new Date('2031-03-03T07:00:00Z');
+    t.clock.now = base;
+    try {
+      const p = await createPermit(w, { windowStart: hoursFrom(base, 1), windowEnd: hoursFrom(base, 9) });
+      await submitAndApprove(w, p.id);
+      expect((await runPermitSchedule(t.deps, { permitIds: [p.id] })).started).not.toContain(p.id); // window not open
+      t.clock.now = new Date(base.getTime() + 2 * 3600_000);
+      expect((await runPermitSchedule(t.deps, { permitIds: [p.id] })).started).not.toContain(p.id); // operator not briefed
+      const b = await w.agents.operator.post(`/api/permits/${p.id}/briefing`);
+      expect(b.body.briefing.status).toBe('live');
+
+      t.clock.now = new Date(base.getTime() + 8.25 * 3600_000);
+      expect((await runPermitSchedule(t.deps, { permitIds: [p.id] })).reminded).toContain(p.id);
+      expect((await runPermitSchedule(t.deps, { permitIds: [p.id] })).reminded).not.toContain(p.id);
+      const reminder = await waitForMail(t.deps, demo.supervisor, new RegExp(`Permit ${p.number} .* closes in an hour`));
+      expect(reminder.text).toMatch(/hand it back/);
+      await waitForMail(t.deps, demo.operator, new RegExp(`Permit ${p.number} .* closes in an hour`));
+
+      t.clock.now = new Date(base.getTime() + 9 * 3600_000 + 60_000);
+      expect((await runPermitSchedule(t.deps, { permitIds: [p.id] })).lapsed).toContain(p.id);
+      const after = await w.agents.supervisor.get(`/api/permits/${p.id}`);
+      expect(after.body.permit.status).toBe('lapsed');
+      await waitForMail(t.deps, demo.coordinator, new RegExp(`Permit ${p.number} .* has lapsed`));
+    } finally {
+      t.clock.now = null;
+    }
+  });
+
+  it('goes live at the window start when the operators were briefed before it', async () => {
+    const base = new Date('2031-04-04T07:00:00Z');
+    t.clock.now = base;
+    try {
+      const p = await createPermit(w, { windowStart: hoursFrom(base, 1), windowEnd: hoursFrom(base, 3) });
+      await submitAndApprove(w, p.id);
+      const b = await w.agents.operator.post(`/api/permits/${p.id}/briefing`);
+      expect(b.body.briefing.status).toBe('approved');
+      t.clock.now = new Date(base.getTime() + 3600_000);
+      expect((await runPermitSchedule(t.deps, { permitIds: [p.id] })).started).toContain(p.id);
+    } finally {
+      t.clock.now = null;
+    }
+  });
+
+  it('refuses a briefing from someone the permit does not name', async () => {
+    const p = await createPermit(w, { operatorIds: [] });
+    await submitAndApprove(w, p.id);
+    expect((await w.agents.operator.post(`/api/permits/${p.id}/briefing`)).status).toBe(403);
+  });
+});
+
+describe('attachments', () => {
+  const pdf = Buffer.from('%PDF-1.4\n1 0 obj <<>> endobj\ntrailer <<>>\n%%EOF\n');
+  // The first bytes of a Windows executable (an "MZ" header with a PE signature).
+  const exe = Buffer.concat([Buffer.from('MZ'), Buffer.alloc(58), Buffer.from([0x80, 0, 0, 0]), Buffer.alloc(64), Buffer.from('PE\0\0'), Buffer.alloc(400)]);
+
+  it('keeps a method statement PDF, served only to members of the site', async () => {
+    const p = await createPermit(w);
+    const r = await w.agents.supervisor.post(`/api/permits/${p.id}/attachments`).field('kind', 'method-statement').attach('file', pdf, 'method.pdf');
+    expect(r.status).toBe(201);
+    expect(r.body.attachment).toMatchObject({ kind: 'method-statement', mime: 'application/pdf', name: 'method.pdf' });
+    const got = await w.agents.operator.get(r.body.attachment.url);
+    expect(got.status).toBe(200);
+    expect(got.headers['content-type']).toBe('application/pdf');
+    expect((await w.agents.outsider.get(r.body.attachment.url)).status).toBe(403);
+    const listed = await w.agents.coordinator.get(`/api/permits/${p.id}`);
+    expect(listed.body.permit.attachments.map((a: { name: string }) => a.name)).toEqual(['method.pdf']);
+  });
+
+  it('refuses an executable renamed .pdf', async () => {
+    const p = await createPermit(w);
+    const r = await w.agents.supervisor.post(`/api/permits/${p.id}/attachments`).field('kind', 'method-statement').attach('file', exe, 'method.pdf');
+    expect(r.status).toBe(400);
+    expect(r.body.error.fields.file).toBe('must be a PDF');
+    expect((await w.agents.supervisor.get(`/api/permits/${p.id}`)).body.permit.attachments).toEqual([]);
+  });
+
+  it('refuses an oversize file', async () => {
+    const p = await createPermit(w);
+    const big = Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0]), Buffer.alloc(10 * 1024 * 1024 + 16)]);
+    const r = await w.agents.supervisor.post(`/api/permits/${p.id}/attachments`).field('kind', 'photo').attach('file', big, 'photo.jpg');
+    expect(r.status).toBe(413);
+    expect(r.body.error.fields.file).toMatch(/too large/);
+  });
+});
+
+/** The text of a PDF: its streams inflated, the strings of its text operators decoded. */
+function pdfText(buf: Buffer): string {
+  const raw = buf.toString('latin1');
+  const parts: string[] = [];
+  const re = /stream\r?\n/g;
+  let m: RegExpExecArray | null;
+  while ((m = re.exec(raw))) {
+    const start = m.index + m[0].length;
+    const end = raw.indexOf('endstream', start);
+    const body = buf.subarray(start, end);
+    let content: string;
+    try {
+      content = inflateSync(body).toString('latin1');
+    } catch {
+      content = body.toString('latin1');
+    }
+    for (const tj of content.matchAll(/\[((?:<[0-9a-fA-F]*>|\([^)]*\)|-?[\d.]+|\s)*)\]\s*TJ/g)) {
+      const pieces = [...tj[1].matchAll(/<([0-9a-fA-F]*)>|\(([^)]*)\)/g)].map((x) => (x[1] !== undefined ? Buffer.from(x[1], 'hex').toString('latin1') : x[2]));
+      parts.push(pieces.join(''));
+    }
+  }
+  return parts.join(' ').replace(/\s+/g, ' ');
+}
+
+describe('the printed permit', () => {
+  it('is a valid PDF holding the permit number, the standoff and the caution', async () => {
+    const p = await createPermit(w, { loads: [excavatorAt(w, 1.5)] });
+    await submitAndApprove(w, p.id, { standoff: 3, conditions: ['No tracking inside the exclusion zone'] });
+    const r = await w.agents.supervisor.get(`/api/permits/${p.id}/pdf`).buffer(true).parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(r.status).toBe(200);
+    expect(r.headers['content-type']).toBe('application/pdf');
+    const buf = r.body as Buffer;
+    expect(buf.subarray(0, 5).toString()).toBe('%PDF-');
+    expect(buf.subarray(-6).toString()).toMatch(/%%EOF/);
+    const text = pdfText(buf);
+    expect(text).toContain(`Permit ${p.number}`);
+    expect(text).toContain('Keep every load at least 3.00 m from the excavation edge.');
+    expect(text).toContain('No tracking inside the exclusion zone');
+    expect(text).toContain(CAUTION);
+    expect(text).toContain('Signed by Colm Ridley');
+    expect(text).toMatch(/Scale 1:\d+/);
+    expect(text).toContain('pressure (kPa)');
+    expect(text).toContain('depth (m)');
+  });
+
+  it('reads the same uncompressed', async () => {
+    const p = await createPermit(w);
+    const { buffer, number } = await permitPdf(t.deps, p.id, { compress: false });
+    expect(number).toBe(p.number);
+    const text = pdfText(buffer);
+    expect(text).toContain(`Permit ${p.number}`);
+    expect(text).toContain('No decision yet');
+  });
+});

@@ -1,0 +1,340 @@
+/**
+ * The cumulative check of a permit, pure so the server (authoritative) and the browser (live, while
+ * a load is dragged) run the same code: placed loads become bearing footprints, each footprint is
+ * measured against each named excavation (shared/geometry) and becomes an engine load, and the
+ * engine (shared/engineering `runCheck`) checks, per excavation, this permit's loads together with
+ * those of every other approved, live or suspended permit on that excavation whose window overlaps.
+ *
+ * Units: m, kN, kPa, kN/m; positions WGS84 [longitude, latitude]; rotations degrees clockwise from north.
+ */
+import { CAUTION, runCheck, type CheckRequest, type Excavation, type Load, type Method, type SoilLayer } from '../engineering';
+import {
+  GeometryError,
+  localProjection,
+  placeFootprint,
+  prepareExcavation,
+  prepareRing,
+  type ExcavationShape,
+  type LocalProjection,
+  type PreparedOutline,
+  type XY,
+} from '../geometry';
+import { distanceToRing, pointInRing, pointSegment, segmentsMeet } from '../geometry/planar';
+import { elementLoad, stockpilePressure, type PlantElement } from '../schemas/plant';
+import { calcExcavationOf, type Excavation as RegisterExcavation } from '../schemas/excavations';
+import type { LineString, Polygon } from 'geojson';
+import {
+  verdictOf,
+  type CheckedLoad,
+  type CountedPermit,
+  type ExcavationCheck,
+  type LngLat,
+  type PermitCheck,
+  type OtherPermit,
+  type PlacedLoad,
+} from '../schemas/permits';
+
+/** An excavation of the register as the check needs it: its plan shape and its engine inputs. */
+export function checkExcavationOf(e: Pick<RegisterExcavation, 'id' | 'reference' | 'name' | 'kind' | 'geometry' | 'width' | 'soil'> & CalcFields): CheckExcavation {
+  return {
+    id: e.id,
+    reference: e.reference,
+    name: e.name,
+    shape: e.kind === 'trench' ? { kind: 'trench', centreLine: e.geometry as LineString, width: e.width ?? 0 } : { kind: 'pit', outline: e.geometry as Polygon },
+    excavation: calcExcavationOf(e),
+    soil: e.soil as SoilLayer[],
+  };
+}
+type CalcFields = Parameters<typeof calcExcavationOf>[0];
+
+/** An excavation as the check needs it: its plan shape and its engine inputs. */
+export interface CheckExcavation {
+  id: number;
+  reference: string;
+  name: string;
+  shape: ExcavationShape;
+  excavation: Excavation;
+  soil: SoilLayer[];
+}
+
+export interface PlantForCheck {
+  id: number;
+  name: string;
+  operatingMass: number;
+  designFactor: number;
+  elements: PlantElement[];
+}
+
+export type { OtherPermit };
+
+export interface CheckInput {
+  /** The site origin, for site-local metres. */
+  origin: LngLat;
+  method: Method;
+  minimumClearance: number;
+  permit: { id: number | null; number: string; windowStart: string; windowEnd: string; loads: PlacedLoad[] };
+  excavations: CheckExcavation[];
+  plant: Map<number, PlantForCheck>;
+  /** Candidates; only those on the same excavation with an overlapping window are counted. */
+  others: OtherPermit[];
+  now: Date;
+}
+
+/** One bearing footprint of a placed load: a plant element, or the drawn shape of an ad hoc load. */
+export interface Footprint {
+  loadId: string;
+  label: string;
+  element: string;
+  kind: 'area' | 'strip' | 'line';
+  /** Site-local metres: a closed outline (area, strip) or a path (line). */
+  local: XY[];
+  /** kPa for area and strip, kN/m for line. */
+  intensity: number;
+}
+
+/** A load that cannot be checked where it is: it touches or overlaps an excavation. */
+export interface Refusal {
+  loadId: string;
+  index: number;
+  excavationId: number;
+  reference: string;
+  message: string;
+}
+
+export class PlacementError extends Error {
+  constructor(readonly refusals: Refusal[]) {
+    super(refusals.map((r) => r.message).join('; '));
+  }
+}
+
+/** The corners of a plant element in site-local metres, the machine at `at` turned to bearing `rotation`. */
+export function elementCorners(e: Pick<PlantElement, 'x' | 'y' | 'length' | 'width'>, at: XY, rotation: number): XY[] {
+  const th = (rotation * Math.PI) / 180;
+  const fwd: XY = [Math.sin(th), Math.cos(th)]; // machine x axis: east, north components
+  const left: XY = [-Math.cos(th), Math.sin(th)]; // machine y axis (to the left of forward)
+  const corners: [number, number][] = [
+    [e.x - e.length / 2, e.y - e.width / 2],
+    [e.x + e.length / 2, e.y - e.width / 2],
+    [e.x + e.length / 2, e.y + e.width / 2],
+    [e.x - e.length / 2, e.y + e.width / 2],
+  ];
+  return corners.map(([x, y]) => [at[0] + x * fwd[0] + y * left[0], at[1] + x * fwd[1] + y * left[1]]);
+}
+
+/**
+ * The bearing footprints of a placed load. A plant item's elements each carry operating mass × g ×
+ * share × design factor (kN) spread over their rectangle; a stockpile presses unit weight × height.
+ */
+export function footprintsOf(load: PlacedLoad, plant: Map<number, PlantForCheck>, proj: LocalProjection): Footprint[] {
+  const label = load.label || load.id;
+  switch (load.kind) {
+    case 'plant': {
+      const item = plant.get(load.plantItemId);
+      if (!item) throw new Error(`plant item ${load.plantItemId} is not in the library`);
+      const at = proj.toLocal(load.position);
+      return item.elements.map((e) => ({
+        loadId: load.id,
+        label: load.label || item.name,
+        element: e.name,
+        kind: 'area' as const,
+        local: elementCorners(e, at, load.rotation),
+        intensity: elementLoad(item, e).pressure,
+      }));
+    }
+    case 'stockpile':
+      return [{ loadId: load.id, label, element: '', kind: 'area', local: ring(load.outline.coordinates[0], proj), intensity: stockpilePressure(load.unitWeight, load.height) }];
+    case 'area':
+      return [{ loadId: load.id, label, element: '', kind: 'area', local: ring(load.outline.coordinates[0], proj), intensity: load.pressure }];
+    case 'strip':
+      return [{ loadId: load.id, label, element: '', kind: 'strip', local: ring(load.outline.coordinates[0], proj), intensity: load.pressure }];
+    case 'line':
+      return [{ loadId: load.id, label, element: '', kind: 'line', local: load.path.coordinates.map((c) => proj.toLocal(c)), intensity: load.force }];
+  }
+}
+
+function ring(coords: LngLat[], proj: LocalProjection): XY[] {
+  return coords.slice(0, -1).map((c) => proj.toLocal(c));
+}
+
+const TOUCHES = (ref: string) => `touches or overlaps excavation ${ref}: move it clear of the edge (loads are only checked clear of the edge)`;
+
+/** Least distance (m) from a path to the outline; throws GeometryError when it meets or enters it. */
+function pathOffset(outline: PreparedOutline, path: XY[]): number {
+  const r = outline.ring;
+  let d = Infinity;
+  for (let i = 0; i < path.length; i++) {
+    if (pointInRing(path[i], r)) throw new GeometryError('inside');
+    d = Math.min(d, distanceToRing(path[i], r));
+    if (i > 0) {
+      for (let k = 0; k < r.length; k++) {
+        if (segmentsMeet(path[i - 1], path[i], r[k], r[(k + 1) % r.length])) throw new GeometryError('crosses');
+        d = Math.min(d, pointSegment(r[k], path[i - 1], path[i])[0]);
+      }
+    }
+  }
+  if (d <= 1e-6) throw new GeometryError('touches');
+  return d;
+}
+
+/** The engine load of a footprint beside an excavation. */
+export function engineLoad(f: Footprint, outline: PreparedOutline, id: string): Exclude<Load, { kind: 'blanket' }> {
+  const round = (x: number) => Math.round(x * 1000) / 1000;
+  if (f.kind === 'line') return { id, kind: 'line', force: f.intensity, offset: round(pathOffset(outline, f.local)) };
+  const placed = placeFootprint(outline, prepareRing(f.local, 'load footprint').ring);
+  if (f.kind === 'strip') return { id, kind: 'strip', pressure: f.intensity, width: round(placed.width), offset: round(placed.offset) };
+  return { id, kind: 'area', pressure: f.intensity, width: round(placed.width), length: round(placed.length), offset: round(placed.offset) };
+}
+
+/** Do two windows overlap (a shared instant, not merely touching ends)? */
+export function windowsOverlap(a: { windowStart: string; windowEnd: string }, b: { windowStart: string; windowEnd: string }): boolean {
+  return Date.parse(a.windowStart) < Date.parse(b.windowEnd) && Date.parse(b.windowStart) < Date.parse(a.windowEnd);
+}
+
+/**
+ * The standoff of a load made of several bearing elements (a machine's tracks, pads or wheels),
+ * moved as one: the least clear distance d ≥ the minimum clearance from the excavation to its
+ * nearest element such that all its elements together pass the check (alone, without other loads)
+ * at d and at every larger d. The same search as the engine's single-load standoff
+ * (engineering.md §5): from 3H toward the face in 0.05 m steps, then by halves to 0.01 m, rounded
+ * up; null when no offset within 3H passes. Every trial is the engine's own check.
+ */
+export function groupStandoff(base: Omit<CheckRequest, 'loads'>, group: Exclude<Load, { kind: 'blanket' }>[]): number | null {
+  if (group.length === 0) return null;
+  const nearest = Math.min(...group.map((l) => l.offset));
+  const passesAt = (cm: number) =>
+    runCheck({ ...base, loads: group.map((l) => ({ ...l, offset: l.offset - nearest + cm / 100 })) }, { standoffs: false }).passes;
+  const least = Math.ceil(base.minimumClearance * 100 - 1e-9);
+  const most = Math.round(3 * base.excavation.depth * 100);
+  if (!passesAt(most)) return null;
+  let pass = most;
+  let fail: number | null = null;
+  for (let cm = most - 5; cm >= least; cm -= 5) {
+    if (passesAt(cm)) pass = cm;
+    else {
+      fail = cm;
+      break;
+    }
+  }
+  if (fail === null) return Math.max(least, Math.min(pass, least)) / 100;
+  while (pass - fail > 1) {
+    const mid = Math.floor((pass + fail) / 2);
+    if (passesAt(mid)) pass = mid;
+    else fail = mid;
+  }
+  return pass / 100;
+}
+
+function maxOrNull(xs: (number | null)[]): number | null {
+  if (xs.some((x) => x === null)) return null;
+  return xs.length ? Math.max(...(xs as number[])) : 0;
+}
+
+/** Runs the cumulative check. Throws PlacementError naming every load that touches an excavation. */
+export function cumulativeCheck(input: CheckInput): PermitCheck {
+  const proj = localProjection(input.origin);
+  const own = input.permit.loads.map((l, index) => ({ load: l, index, feet: footprintsOf(l, input.plant, proj) }));
+  const refusals: Refusal[] = [];
+  const excavations: ExcavationCheck[] = [];
+  const outside = new Set(input.permit.loads.map((l) => l.id));
+  const warnings: string[] = [];
+
+  for (const ex of input.excavations) {
+    const outline = prepareExcavation(ex.shape, proj);
+    const loads: Load[] = [];
+    const meta: Omit<CheckedLoad, 'force' | 'standoff'>[] = [];
+    for (const { load, index, feet } of own) {
+      for (const f of feet) {
+        const id = [input.permit.number, load.id, f.element].filter(Boolean).join('/');
+        try {
+          const el = engineLoad(f, outline, id);
+          loads.push(el);
+          meta.push({ engineId: id, permitId: input.permit.id, permitNumber: input.permit.number, loadId: load.id, label: f.label, element: f.element, kind: el.kind, offset: el.offset, own: true });
+          if (el.offset < ex.excavation.depth) outside.delete(load.id);
+        } catch (err) {
+          if (!(err instanceof GeometryError)) throw err;
+          if (!refusals.some((r) => r.loadId === load.id && r.excavationId === ex.id)) {
+            refusals.push({ loadId: load.id, index, excavationId: ex.id, reference: ex.reference, message: `${f.label}${f.element ? ` (${f.element})` : ''} ${TOUCHES(ex.reference)}` });
+          }
+        }
+      }
+    }
+    const counted: CountedPermit[] = [];
+    for (const o of input.others) {
+      if (o.id === input.permit.id || !o.excavationIds.includes(ex.id) || !windowsOverlap(o, input.permit)) continue;
+      counted.push({ id: o.id, number: o.number, status: o.status, windowStart: o.windowStart, windowEnd: o.windowEnd });
+      for (const load of o.loads) {
+        let feet: Footprint[];
+        try {
+          feet = footprintsOf(load, input.plant, proj);
+        } catch {
+          warnings.push(`permit ${o.number}: load ${load.id} could not be placed and is not counted`);
+          continue;
+        }
+        for (const f of feet) {
+          const id = [o.number, load.id, f.element].filter(Boolean).join('/');
+          try {
+            const el = engineLoad(f, outline, id);
+            loads.push(el);
+            meta.push({ engineId: id, permitId: o.id, permitNumber: o.number, loadId: load.id, label: f.label, element: f.element, kind: el.kind, offset: el.offset, own: false });
+          } catch (err) {
+            if (!(err instanceof GeometryError)) throw err;
+            warnings.push(`permit ${o.number}: ${f.label} ${TOUCHES(ex.reference)}`);
+          }
+        }
+      }
+    }
+    if (refusals.length) continue;
+    const request: CheckRequest = {
+      excavation: ex.excavation,
+      soil: ex.soil,
+      method: input.method,
+      minimumClearance: input.minimumClearance,
+      step: 0.05,
+      loads,
+    };
+    const result = runCheck(request);
+    const checked: CheckedLoad[] = meta.map((m, i) => ({ ...m, force: result.loads[i].force, standoff: result.loads[i].standoff }));
+    // A load of one footprint has the engine's standoff; a machine's elements move together.
+    const { loads: _all, ...base } = request;
+    void _all;
+    const loadStandoffs = own.flatMap(({ load }) => {
+      const parts = checked.flatMap((c, i) => (c.own && c.loadId === load.id ? [i] : []));
+      if (parts.length === 0) return [];
+      const standoff =
+        parts.length === 1 ? checked[parts[0]].standoff : groupStandoff(base, parts.map((i) => loads[i] as Exclude<Load, { kind: 'blanket' }>));
+      return [{ loadId: load.id, label: checked[parts[0]].label, standoff, offset: Math.min(...parts.map((i) => checked[i].offset)) }];
+    });
+    const standoff = maxOrNull(loadStandoffs.map((l) => l.standoff));
+    excavations.push({
+      excavationId: ex.id,
+      reference: ex.reference,
+      name: ex.name,
+      depth: ex.excavation.depth,
+      request,
+      result: result as unknown as ExcavationCheck['result'],
+      loads: checked,
+      loadStandoffs,
+      counted,
+      standoff,
+      verdict: verdictOf(result.utilisation, result.passes),
+    });
+  }
+  if (refusals.length) throw new PlacementError(refusals);
+
+  const utils = excavations.map((e) => e.result.utilisation);
+  const utilisation = utils.some((u) => u === null) ? null : utils.length ? Math.max(...(utils as number[])) : 0;
+  const passes = excavations.every((e) => e.result.passes);
+  return {
+    checkedAt: input.now.toISOString(),
+    method: input.method,
+    excavations,
+    utilisation,
+    passes,
+    verdict: verdictOf(utilisation, passes),
+    computedStandoff: maxOrNull(excavations.map((e) => e.standoff)),
+    outsideInfluence: own.filter((o) => outside.has(o.load.id)).map((o) => o.feet[0]?.label ?? o.load.id),
+    otherPermits: input.others.filter((o) => excavations.some((e) => e.counted.some((c) => c.id === o.id))),
+    warnings: [...warnings, ...excavations.flatMap((e) => e.result.warnings.map((w) => `${e.reference}: ${w}`))],
+    caution: CAUTION,
+  };
+}

@@ -1,0 +1,544 @@
+/**
+ * Permits: the words, the status machine's table, and the zod schemas of the permit API, shared by
+ * the server (which enforces them) and the client (which shows only what may be done).
+ *
+ * Units: positions are WGS84 [longitude, latitude] in degrees; rotations are bearings in degrees
+ * clockwise from north; lengths in m; pressures in kPa; line loads in kN/m; unit weights in kN/m³.
+ */
+import { z } from 'zod';
+import type { SiteRole } from './common';
+
+// ---------------------------------------------------------------------------------------------
+// Statuses and actions
+
+export const permitStatuses = [
+  'draft',
+  'submitted',
+  'returned',
+  'approved',
+  'declined',
+  'live',
+  'suspended',
+  'handed_back',
+  'lapsed',
+  'withdrawn',
+] as const;
+export type PermitStatus = (typeof permitStatuses)[number];
+
+/** What people read for each status. */
+export const statusLabels: Record<PermitStatus, string> = {
+  draft: 'Draft',
+  submitted: 'Awaiting review',
+  returned: 'Returned for changes',
+  approved: 'Approved',
+  declined: 'Declined',
+  live: 'Live',
+  suspended: 'Suspended',
+  handed_back: 'Handed back',
+  lapsed: 'Lapsed',
+  withdrawn: 'Withdrawn',
+};
+
+/** Statuses whose content is frozen: a change makes a new revision. */
+export const frozenStatuses: readonly PermitStatus[] = ['approved', 'live', 'suspended', 'handed_back', 'lapsed', 'declined', 'withdrawn'];
+/** Statuses whose content the requester may still edit (PATCH). */
+export const editableStatuses: readonly PermitStatus[] = ['draft', 'returned'];
+/** Permits whose loads may stand beside an excavation during their window: counted in the cumulative check. */
+export const countedStatuses: readonly PermitStatus[] = ['approved', 'live', 'suspended'];
+
+export const permitActions = ['submit', 'approve', 'return', 'decline', 'start', 'suspend', 'resume', 'hand_back', 'lapse', 'revise', 'withdraw'] as const;
+export type PermitAction = (typeof permitActions)[number];
+
+/** Who acts: a role on the permit's site, or Brink itself (the schedule, a failed inspection). */
+export type ActorRole = SiteRole | 'system';
+
+export interface TransitionRule {
+  from: readonly PermitStatus[];
+  to: PermitStatus;
+  by: readonly ActorRole[];
+  /** A reason (comments) must be given. */
+  reason: boolean;
+  /** A coordinator's decision: signed by typing the password again. */
+  signed: boolean;
+  /** The button's words. */
+  label: string;
+}
+
+/**
+ * The status machine. The server refuses anything not in this table: a role not in `by` gets 403,
+ * a permit not in a `from` status (or a stale version) gets 409.
+ */
+export const transitionRules: Record<PermitAction, TransitionRule> = {
+  submit: { from: ['draft', 'returned'], to: 'submitted', by: ['supervisor'], reason: false, signed: false, label: 'Send for review' },
+  approve: { from: ['submitted'], to: 'approved', by: ['coordinator'], reason: false, signed: true, label: 'Approve' },
+  return: { from: ['submitted'], to: 'returned', by: ['coordinator'], reason: true, signed: true, label: 'Return for changes' },
+  decline: { from: ['submitted'], to: 'declined', by: ['coordinator'], reason: true, signed: true, label: 'Decline' },
+  start: { from: ['approved'], to: 'live', by: ['system'], reason: false, signed: false, label: 'Start' },
+  suspend: { from: ['live'], to: 'suspended', by: ['coordinator', 'system'], reason: true, signed: false, label: 'Suspend work' },
+  resume: { from: ['suspended'], to: 'live', by: ['coordinator'], reason: true, signed: false, label: 'Resume work' },
+  hand_back: { from: ['live', 'suspended'], to: 'handed_back', by: ['supervisor'], reason: false, signed: false, label: 'Hand back' },
+  lapse: { from: ['approved', 'live', 'suspended'], to: 'lapsed', by: ['system'], reason: false, signed: false, label: 'Lapse' },
+  revise: { from: ['approved', 'live', 'suspended'], to: 'draft', by: ['supervisor'], reason: true, signed: false, label: 'Change (new revision)' },
+  withdraw: { from: ['draft', 'submitted', 'returned', 'approved'], to: 'withdrawn', by: ['supervisor'], reason: false, signed: false, label: 'Withdraw' },
+};
+
+/** The actions a person in this role may take on a permit in this status. */
+export function allowedActions(status: PermitStatus, role: ActorRole | null): PermitAction[] {
+  if (!role) return [];
+  return permitActions.filter((a) => transitionRules[a].from.includes(status) && transitionRules[a].by.includes(role));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Verdict colours (ISO 3864: red prohibition/danger, yellow warning, green safe condition)
+
+/** Above this utilisation a passing check is shown as close to the limit (yellow). */
+export const CLOSE_TO_LIMIT = 0.85;
+export type Verdict = 'fails' | 'close' | 'passes';
+export const verdictRule =
+  'Red: the support is overloaded (utilisation above 1.00) or has no allowance. Yellow: it passes but the utilisation is above 0.85. Green: utilisation 0.85 or less.';
+
+export function verdictOf(utilisation: number | null, passes: boolean): Verdict {
+  if (!passes || utilisation === null) return 'fails';
+  return utilisation > CLOSE_TO_LIMIT ? 'close' : 'passes';
+}
+
+// ---------------------------------------------------------------------------------------------
+// Conditions a coordinator can tick (own words)
+
+export const commonConditions = [
+  { key: 'mats', text: 'Outriggers and pads stand on mats of the agreed size, never on bare ground.' },
+  { key: 'banksman', text: 'A banksman is present whenever the machine moves or slews inside the influence zone.' },
+  { key: 'no-tracking', text: 'No tracking, parking or stacking inside the exclusion zone.' },
+  { key: 'water', text: 'Stop and tell the coordinator if water appears in the excavation or cracks open at the edge.' },
+  { key: 'barrier', text: 'The exclusion zone is marked on the ground with barriers before the load arrives.' },
+] as const;
+
+// ---------------------------------------------------------------------------------------------
+// Geometry and placed loads
+
+const lng = z.number().min(-180, 'must be a longitude (-180 to 180)').max(180, 'must be a longitude (-180 to 180)');
+const lat = z.number().min(-85, 'must be a latitude (-85 to 85)').max(85, 'must be a latitude (-85 to 85)');
+export const lngLatSchema = z.tuple([lng, lat]);
+export type LngLat = z.infer<typeof lngLatSchema>;
+
+export const polygonSchema = z.object({
+  type: z.literal('Polygon'),
+  coordinates: z
+    .array(z.array(lngLatSchema).min(4, 'a ring needs at least 4 positions (closed)'))
+    .length(1, 'must be one outer ring without holes')
+    .refine((rings) => {
+      const r = rings[0];
+      return r[0][0] === r[r.length - 1][0] && r[0][1] === r[r.length - 1][1];
+    }, 'the ring must end where it starts'),
+});
+export type PolygonGeometry = z.infer<typeof polygonSchema>;
+
+export const lineStringSchema = z.object({
+  type: z.literal('LineString'),
+  coordinates: z.array(lngLatSchema).min(2, 'a line needs at least 2 positions'),
+});
+export type LineGeometry = z.infer<typeof lineStringSchema>;
+
+const loadId = z.string().trim().min(1, 'is required').max(40, 'must be at most 40 characters');
+const label = z.string().trim().max(80, 'must be at most 80 characters').default('');
+const kPa = z.number().gt(0, 'must be more than 0 kPa').max(2000, 'must be at most 2000 kPa');
+
+export const placedLoadSchema = z.discriminatedUnion('kind', [
+  z.object({
+    id: loadId,
+    kind: z.literal('plant'),
+    label,
+    plantItemId: z.number().int().positive(),
+    position: lngLatSchema,
+    /** Bearing of the machine's forward axis, degrees clockwise from north. */
+    rotation: z.number().min(0, 'must be 0° to 360°').max(360, 'must be 0° to 360°').default(0),
+  }),
+  z.object({
+    id: loadId,
+    kind: z.literal('stockpile'),
+    label,
+    outline: polygonSchema,
+    unitWeight: z.number().gt(0, 'must be more than 0 kN/m³').max(30, 'must be at most 30 kN/m³'),
+    height: z.number().gt(0, 'must be more than 0 m').max(20, 'must be at most 20 m'),
+  }),
+  z.object({ id: loadId, kind: z.literal('area'), label, outline: polygonSchema, pressure: kPa }),
+  z.object({ id: loadId, kind: z.literal('strip'), label, outline: polygonSchema, pressure: kPa }),
+  z.object({
+    id: loadId,
+    kind: z.literal('line'),
+    label,
+    path: lineStringSchema,
+    force: z.number().gt(0, 'must be more than 0 kN/m').max(2000, 'must be at most 2000 kN/m'),
+  }),
+]);
+export type PlacedLoad = z.infer<typeof placedLoadSchema>;
+export type PlacedLoadKind = PlacedLoad['kind'];
+
+export const placedLoadLabels: Record<PlacedLoadKind, string> = {
+  plant: 'Plant from the library',
+  stockpile: 'Stockpile (unit weight × height)',
+  area: 'Area load (pressure over a drawn area)',
+  strip: 'Strip load (runs along the face)',
+  line: 'Line load (force per metre)',
+};
+
+// ---------------------------------------------------------------------------------------------
+// Dig permits: buried-services checks
+
+export const serviceCheckKeys = ['drawings', 'locatorScan', 'trialHoles'] as const;
+export type ServiceCheckKey = (typeof serviceCheckKeys)[number];
+export const serviceCheckLabels: Record<ServiceCheckKey, string> = {
+  drawings: 'Record drawings of buried services consulted',
+  locatorScan: 'Cable-locator scan of the dig area done',
+  trialHoles: 'Trial holes dug by hand near the services found',
+};
+
+export const serviceCheckSchema = z
+  .object({
+    /** `not-needed` is accepted for trial holes only (no services found near the dig), with a note. */
+    state: z.enum(['pending', 'done', 'not-needed']).default('pending'),
+    by: z.string().trim().max(120).default(''),
+    at: z.iso.datetime({ offset: true, message: 'must be a date and time' }).nullable().default(null),
+    notes: z.string().trim().max(1000).default(''),
+  })
+  .superRefine((c, ctx) => {
+    if (c.state === 'done') {
+      if (!c.by) ctx.addIssue({ code: 'custom', path: ['by'], message: 'who did it is required once it is done' });
+      if (!c.at) ctx.addIssue({ code: 'custom', path: ['at'], message: 'when it was done is required once it is done' });
+    }
+    if (c.state === 'not-needed' && !c.notes) ctx.addIssue({ code: 'custom', path: ['notes'], message: 'say why it is not needed' });
+  });
+export type ServiceCheck = z.infer<typeof serviceCheckSchema>;
+
+export const digDetailsSchema = z
+  .object({
+    depth: z.number().gt(0, 'must be more than 0 m').max(50, 'must be at most 50 m'),
+    supportMethod: z.string().trim().min(1, 'is required').max(300),
+    servicesChecks: z.object({
+      drawings: serviceCheckSchema.default({ state: 'pending', by: '', at: null, notes: '' }),
+      locatorScan: serviceCheckSchema.default({ state: 'pending', by: '', at: null, notes: '' }),
+      trialHoles: serviceCheckSchema.default({ state: 'pending', by: '', at: null, notes: '' }),
+    }),
+  })
+  .superRefine((d, ctx) => {
+    for (const k of ['drawings', 'locatorScan'] as const) {
+      if (d.servicesChecks[k].state === 'not-needed') {
+        ctx.addIssue({ code: 'custom', path: ['servicesChecks', k, 'state'], message: 'is always needed before digging' });
+      }
+    }
+  });
+export type DigDetails = z.infer<typeof digDetailsSchema>;
+
+// ---------------------------------------------------------------------------------------------
+// Requests
+
+const when = z.iso.datetime({ offset: true, message: 'must be a date and time (ISO 8601)' });
+const ids = (most: number) => z.array(z.number().int().positive()).max(most, `must list at most ${most}`);
+
+const contentShape = {
+  description: z.string().trim().max(4000, 'must be at most 4000 characters').default(''),
+  windowStart: when,
+  windowEnd: when,
+  excavationIds: ids(20).default([]),
+  loads: z.array(placedLoadSchema).max(50, 'must list at most 50 loads').default([]),
+  operatorIds: ids(20).default([]),
+  dig: digDetailsSchema.nullable().default(null),
+  method: z.enum(['dispersion-45', 'elastic']).optional(),
+};
+
+function windowOrder(v: { windowStart?: string; windowEnd?: string }, ctx: z.RefinementCtx): void {
+  if (v.windowStart && v.windowEnd && Date.parse(v.windowEnd) <= Date.parse(v.windowStart)) {
+    ctx.addIssue({ code: 'custom', path: ['windowEnd'], message: 'must be after the start of the window' });
+  }
+}
+
+function uniqueLoadIds(v: { loads?: { id: string }[] }, ctx: z.RefinementCtx): void {
+  const seen = new Map<string, number>();
+  (v.loads ?? []).forEach((l, i) => {
+    if (seen.has(l.id)) ctx.addIssue({ code: 'custom', path: ['loads', i, 'id'], message: `repeats the id of loads[${seen.get(l.id)}]` });
+    else seen.set(l.id, i);
+  });
+}
+
+export const permitCreateSchema = z
+  .object({ siteId: z.number().int().positive(), kind: z.enum(['load', 'dig']), ...contentShape })
+  .superRefine(windowOrder)
+  .superRefine(uniqueLoadIds);
+export type PermitCreate = z.infer<typeof permitCreateSchema>;
+export type PermitCreateInput = z.input<typeof permitCreateSchema>;
+
+export const permitUpdateSchema = z
+  .object({
+    version: z.number().int().positive(),
+    description: contentShape.description.optional(),
+    windowStart: when.optional(),
+    windowEnd: when.optional(),
+    excavationIds: ids(20).optional(),
+    loads: z.array(placedLoadSchema).max(50, 'must list at most 50 loads').optional(),
+    operatorIds: ids(20).optional(),
+    dig: digDetailsSchema.nullable().optional(),
+    method: contentShape.method,
+  })
+  .superRefine(windowOrder)
+  .superRefine(uniqueLoadIds);
+export type PermitUpdate = z.infer<typeof permitUpdateSchema>;
+
+/** A proposal to check without saving it (the live check while placing); absent fields come from the saved permit. */
+export const checkProposalSchema = z
+  .object({
+    windowStart: when.optional(),
+    windowEnd: when.optional(),
+    excavationIds: ids(20).optional(),
+    loads: z.array(placedLoadSchema).max(50).optional(),
+    method: contentShape.method,
+  })
+  .superRefine(windowOrder)
+  .superRefine(uniqueLoadIds);
+export type CheckProposal = z.infer<typeof checkProposalSchema>;
+
+export const transitionSchema = z
+  .object({
+    action: z.enum(permitActions, { message: `must be one of ${permitActions.join(', ')}` }),
+    version: z.number({ message: 'is required: the version of the permit you are looking at' }).int().positive(),
+    reason: z.string().trim().max(4000, 'must be at most 4000 characters').optional(),
+    /** Approve with a standoff (m) from the excavation edge for every load of the permit. */
+    standoff: z.number().min(0, 'must be at least 0 m').max(100, 'must be at most 100 m').optional(),
+    conditions: z.array(z.string().trim().min(1, 'must not be empty').max(500)).max(20).optional(),
+    password: z.string().max(200).optional(),
+  })
+  .superRefine((t, ctx) => {
+    const rule = transitionRules[t.action];
+    if (rule.reason && !t.reason) ctx.addIssue({ code: 'custom', path: ['reason'], message: `is required to ${rule.label.toLowerCase()}` });
+    if (rule.signed && !t.password) ctx.addIssue({ code: 'custom', path: ['password'], message: 'is required: type your password again to sign the decision' });
+    if (t.action !== 'approve' && (t.standoff !== undefined || t.conditions !== undefined)) {
+      ctx.addIssue({ code: 'custom', path: [t.standoff !== undefined ? 'standoff' : 'conditions'], message: 'belongs to an approval only' });
+    }
+  });
+export type TransitionInput = z.input<typeof transitionSchema>;
+
+export const commentSchema = z.object({ text: z.string().trim().min(1, 'is required').max(4000, 'must be at most 4000 characters') });
+
+export const attachmentKinds = ['method-statement', 'photo', 'other'] as const;
+export type AttachmentKind = (typeof attachmentKinds)[number];
+export const attachmentKindLabels: Record<AttachmentKind, string> = {
+  'method-statement': 'Method statement (PDF)',
+  photo: 'Photo',
+  other: 'Other document',
+};
+export const attachmentFormSchema = z.object({ kind: z.enum(attachmentKinds).default('other') });
+
+export const permitViews = ['all', 'review', 'mine', 'live'] as const;
+export type PermitView = (typeof permitViews)[number];
+export const permitViewLabels: Record<PermitView, string> = {
+  review: 'Awaiting my review',
+  mine: 'My requests',
+  live: 'Live now',
+  all: 'All permits',
+};
+export const permitSorts = ['number', 'windowStart', 'windowEnd', 'status', 'updated'] as const;
+
+export const permitListQuerySchema = z.object({
+  siteId: z.coerce.number().int().positive().optional(),
+  view: z.enum(permitViews).default('all'),
+  /** One status or several, comma-separated. */
+  status: z
+    .string()
+    .optional()
+    .transform((s, ctx) => {
+      if (!s) return undefined;
+      const list = s.split(',').map((x) => x.trim()).filter(Boolean);
+      const bad = list.filter((x) => !(permitStatuses as readonly string[]).includes(x));
+      if (bad.length) {
+        ctx.addIssue({ code: 'custom', message: `unknown status ${bad.join(', ')}: use ${permitStatuses.join(', ')}` });
+        return z.NEVER;
+      }
+      return list as PermitStatus[];
+    }),
+  kind: z.enum(['load', 'dig']).optional(),
+  excavationId: z.coerce.number().int().positive().optional(),
+  /** Permits whose window overlaps from..to. */
+  from: when.optional(),
+  to: when.optional(),
+  sort: z.enum(permitSorts).default('updated'),
+  order: z.enum(['asc', 'desc']).default('desc'),
+  limit: z.coerce.number().int().min(1).max(500).default(200),
+});
+export type PermitListQuery = z.infer<typeof permitListQuerySchema>;
+
+// ---------------------------------------------------------------------------------------------
+// Answers
+
+export interface PermitSummary {
+  id: number;
+  siteId: number;
+  siteName: string;
+  number: string;
+  kind: 'load' | 'dig';
+  status: PermitStatus;
+  statusLabel: string;
+  version: number;
+  revision: number;
+  description: string;
+  windowStart: string;
+  windowEnd: string;
+  excavationIds: number[];
+  requestedBy: { id: number; name: string };
+  /** The governing utilisation of the last check, and whether it passed (null before any check). */
+  utilisation: number | null;
+  passes: boolean | null;
+  updatedAt: string;
+}
+
+export interface PermitDecision {
+  action: 'approve' | 'return' | 'decline';
+  by: { id: number; name: string };
+  at: string;
+  reason: string;
+  /** The standoff the coordinator set (m), or null when approved as placed. */
+  standoff: number | null;
+  /** The computed standoff when the decision was made (m; null when no offset works; absent where none was recorded, as in demo data). */
+  computedStandoff?: number | null;
+  conditions: string[];
+  /** "Signed by typing the password": name and time. */
+  signature: string;
+}
+
+export interface PermitOperator {
+  id: number;
+  name: string;
+  email: string;
+  briefedAt: string | null;
+}
+
+export interface PermitEvent {
+  id: number;
+  revision: number;
+  at: string;
+  actor: { id: number | null; name: string };
+  action: string;
+  fromStatus: PermitStatus | null;
+  toStatus: PermitStatus | null;
+  comment: string;
+  detail: Record<string, unknown>;
+}
+
+export interface PermitAttachment {
+  id: number;
+  revision: number;
+  kind: AttachmentKind;
+  name: string;
+  mime: string;
+  size: number;
+  addedBy: string;
+  addedAt: string;
+  url: string;
+}
+
+export interface PermitRevision {
+  revision: number;
+  description: string;
+  windowStart: string;
+  windowEnd: string;
+  excavationIds: number[];
+  method: 'dispersion-45' | 'elastic';
+  loads: PlacedLoad[];
+  dig: DigDetails | null;
+  operators: PermitOperator[];
+  check: PermitCheck | null;
+  checkedAt: string | null;
+  decision: PermitDecision | null;
+  createdAt: string;
+}
+
+export interface PermitDetail extends PermitSummary {
+  current: PermitRevision;
+  /** Every revision's number, newest first; GET /api/permits/:id/revisions/:revision shows one. */
+  revisions: { revision: number; createdAt: string; decision: PermitDecision['action'] | null }[];
+  events: PermitEvent[];
+  attachments: PermitAttachment[];
+  /** What the signed-in person may do now. */
+  actions: PermitAction[];
+  /** Whether the signed-in person is named on the permit and still has to confirm the briefing. */
+  briefingDue: boolean;
+  caution: string;
+}
+
+// The cumulative check, per excavation
+
+export interface CheckedLoad {
+  /** The id the engine saw (`<permit number>/<load id>/<element>`). */
+  engineId: string;
+  permitId: number | null;
+  permitNumber: string;
+  loadId: string;
+  label: string;
+  /** The bearing element of a plant item (track, pad, wheel), or '' for an ad hoc load. */
+  element: string;
+  kind: 'area' | 'strip' | 'line' | 'point';
+  /** Clear distance from the excavation edge (m). */
+  offset: number;
+  /** Force on the support of this load alone (kN/m). */
+  force: number;
+  /** The least offset at which this load alone passes (m), or null when none within 3H. */
+  standoff: number | null;
+  /** A load of this permit (false: of another permit counted in the cumulative check). */
+  own: boolean;
+}
+
+export interface CountedPermit {
+  id: number;
+  number: string;
+  status: PermitStatus;
+  windowStart: string;
+  windowEnd: string;
+}
+
+export interface ExcavationCheck {
+  excavationId: number;
+  reference: string;
+  name: string;
+  depth: number;
+  /** The engine's request (shared/engineering) and result, as run. */
+  request: unknown;
+  result: {
+    utilisation: number | null;
+    passes: boolean;
+    warnings: string[];
+    [k: string]: unknown;
+  };
+  loads: CheckedLoad[];
+  /**
+   * Each of this permit's placed loads: its nearest clear distance now and its standoff (m). A
+   * machine's elements move together, so its standoff is that of all of them at once.
+   */
+  loadStandoffs: { loadId: string; label: string; offset: number; standoff: number | null }[];
+  /** Other approved, live or suspended permits whose window overlaps, counted in this check. */
+  counted: CountedPermit[];
+  /** The largest of `loadStandoffs` (m); null when one has none. */
+  standoff: number | null;
+  verdict: Verdict;
+}
+
+/** A permit whose loads share an excavation and an overlapping window with the one checked. */
+export interface OtherPermit extends CountedPermit {
+  excavationIds: number[];
+  loads: PlacedLoad[];
+}
+
+export interface PermitCheck {
+  checkedAt: string;
+  method: 'dispersion-45' | 'elastic';
+  excavations: ExcavationCheck[];
+  /** Worst over the excavations. */
+  utilisation: number | null;
+  passes: boolean;
+  verdict: Verdict;
+  /** The largest standoff over every load and excavation (m); null when some load has none. */
+  computedStandoff: number | null;
+  /** Labels of the loads farther than the influence zone of every named excavation. */
+  outsideInfluence: string[];
+  /** The other permits counted, with their loads as they were: what the check added up. */
+  otherPermits: OtherPermit[];
+  warnings: string[];
+  caution: string;
+}
