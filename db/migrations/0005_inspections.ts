@@ -54,7 +54,7 @@ export async function up(db: Kysely<any>): Promise<void> {
   await db.schema
     .createTable('inspection_suspensions')
     .addColumn('inspection_id', 'integer', (c) => c.notNull().references('inspections.id'))
-    .addColumn('permit_id', 'integer', (c) => c.notNull())
+    .addColumn('permit_id', 'integer', (c) => c.notNull().references('permits.id'))
     .addPrimaryKeyConstraint('inspection_suspensions_pk', ['inspection_id', 'permit_id'])
     .execute();
 

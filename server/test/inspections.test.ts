@@ -6,7 +6,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { checklist, type InspectionInput } from '@shared/schemas/inspections';
 import { checkOverdueInspections } from '../src/jobs/inspections';
 import { MB } from '../src/services/uploads';
-import { DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
+import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
+import { createPermit, excavatorAt, makeWorld, newTrench, submitAndApprove, type PermitWorld } from './permits-fixtures';
 
 // Inspections of open excavations: the record and its checks, who may inspect, photos, the shift
 // clock (an injected clock, never waiting), the overdue e-mail, CSV and the weekly PDF.
@@ -289,6 +290,81 @@ describe('a failed inspection', () => {
     await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).send(form({ reason: 'after-event', reasonDetail: 'Waling re-fixed and struts re-pinned' })).expect(201);
     const after = await agents.supervisor.get(`/api/sites/${siteId}/inspections/states`);
     expect(after.body.excavations.find((x: { excavationId: number }) => x.excavationId === e.id).state).toBe('ok');
+  });
+});
+
+describe('a failed inspection stops the work beside it', () => {
+  let w: PermitWorld;
+  beforeAll(async () => {
+    t.clock.now = null; // the permits' windows are set around the real time
+    w = await makeWorld(t);
+  });
+
+  /** A permit on the trench that goes live at once (window open, no operators to brief). */
+  async function livePermit(trenchId: number, clear: number) {
+    const p = await createPermit(w, { excavationIds: [trenchId], loads: [excavatorAt(w, clear)], operatorIds: [] });
+    const approved = await submitAndApprove(w, p.id);
+    expect(approved.status).toBe('live');
+    return p;
+  }
+  const statusOf = async (id: number) => (await t.deps.db.selectFrom('permits').select('status').where('id', '=', id).executeTakeFirstOrThrow()).status;
+
+  it('suspends every live permit on that excavation and only those, and e-mails the right people; a later safe one clears the red state and leaves them suspended', async () => {
+    t.clock.now = null;
+    const trench = { id: w.trenchId, reference: w.trenchRef };
+    const first = await livePermit(trench.id, 6);
+    const second = await livePermit(trench.id, 8);
+    // approved but waiting for its operator's briefing: not live, so not suspended
+    const waiting = await createPermit(w, { excavationIds: [trench.id], loads: [excavatorAt(w, 10)] });
+    await submitAndApprove(w, waiting.id);
+    expect(await statusOf(waiting.id)).toBe('approved');
+    // live beside another excavation: untouched
+    await newTrench(w);
+    const elsewhere = await livePermit(w.trenchId, 6);
+
+    const r = await w.agents.supervisor.post(`/api/excavations/${trench.id}/inspections`).send(notSafe('Two frames have slipped on the north side'));
+    expect(r.status).toBe(201);
+    expect(r.body.consequences.suspended.map((p: { id: number }) => p.id).sort()).toEqual([first.id, second.id].sort());
+    expect(r.body.consequences.notSuspended).toEqual([]);
+    expect(r.body.inspection.suspendedPermits.map((p: { reference: string }) => p.reference).sort()).toEqual([first.number, second.number].sort());
+    expect(await statusOf(first.id)).toBe('suspended');
+    expect(await statusOf(second.id)).toBe('suspended');
+    expect(await statusOf(waiting.id)).toBe('approved');
+    expect(await statusOf(elsewhere.id)).toBe('live');
+
+    // the permits' own suspension, with the inspection as the reason, on their timeline
+    const event = await t.deps.db
+      .selectFrom('permit_events')
+      .select(['actor_id', 'actor_name', 'comment', 'to_status'])
+      .where('permit_id', '=', first.id)
+      .where('action', '=', 'suspend')
+      .executeTakeFirstOrThrow();
+    expect(event).toMatchObject({ actor_id: null, to_status: 'suspended' });
+    expect(event.actor_name).toContain(`Inspection ${r.body.inspection.id} of ${trench.reference}`);
+    expect(event.comment).toContain('Two frames have slipped on the north side');
+
+    // e-mails: the permits' suspension notice to its requester and the coordinators, and the failed
+    // inspection to the site's supervisors and coordinators, never to operators
+    const notified: string[] = r.body.consequences.notified;
+    expect(notified).toEqual(expect.arrayContaining([demo.supervisor, demo.coordinator, w.coordinator2Email]));
+    expect(notified).not.toContain(demo.operator);
+    await waitForMail(t.deps, demo.supervisor, new RegExp(`Permit ${first.number} at .* is suspended`));
+    await waitForMail(t.deps, demo.coordinator, new RegExp(`Permit ${second.number} at .* is suspended`));
+    const failed = await waitForMail(t.deps, w.coordinator2Email, new RegExp(`Not safe: ${trench.reference}`));
+    expect(failed.text).toContain(first.number);
+    expect(failed.text).toContain(second.number);
+    const toOperator = await t.deps.db.selectFrom('caught_mail').select('subject').where('mail_to', 'ilike', `%${demo.operator}%`).where('subject', 'like', `Not safe: ${trench.reference}%`).execute();
+    expect(toOperator).toEqual([]);
+
+    const state = async () => (await w.agents.coordinator.get(`/api/excavations/${trench.id}/inspections`)).body.inspectionState;
+    expect(await state()).toBe('unsafe');
+    const later = await w.agents.coordinator.post(`/api/excavations/${trench.id}/inspections`).send(form({ reason: 'after-event', reasonDetail: 'Frames re-set and re-pinned', remarks: 'Re-inspected after repair.' }));
+    expect(later.status).toBe(201);
+    expect(later.body.consequences).toEqual({ suspended: [], notSuspended: [], notified: [] });
+    expect(await state()).toBe('ok');
+    // resuming stays the coordinator's decision
+    expect(await statusOf(first.id)).toBe('suspended');
+    expect(await statusOf(second.id)).toBe('suspended');
   });
 });
 

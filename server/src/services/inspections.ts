@@ -16,6 +16,9 @@ import type { Deps } from '../deps';
 import { badRequest, conflict, notFound } from '../http';
 import { audit } from './audit';
 import { checkUploadType, storeUpload } from './uploads';
+import { inspectionActor } from './permits/actors';
+import { transition } from './permits/machine';
+import { withCurrentRevision } from './permits/read';
 
 // Shifts, inspection records, and where each open excavation stands this shift. The route module
 // (routes/inspections.ts) is thin; the scheduled e-mail is in jobs/inspections.ts and the weekly PDF
@@ -286,8 +289,14 @@ export async function loadInspections(
 }
 
 async function suspensionsOf(db: Db, inspectionIds: number[]): Promise<{ inspectionId: number; id: number; reference: string }[]> {
-  const rows = await db.selectFrom('inspection_suspensions').select(['inspection_id', 'permit_id']).where('inspection_id', 'in', inspectionIds).execute();
-  return rows.map((r) => ({ inspectionId: r.inspection_id, id: r.permit_id, reference: `#${r.permit_id}` }));
+  const rows = await db
+    .selectFrom('inspection_suspensions as s')
+    .innerJoin('permits as p', 'p.id', 's.permit_id')
+    .select(['s.inspection_id', 'p.id', 'p.number'])
+    .where('s.inspection_id', 'in', inspectionIds)
+    .orderBy('p.id')
+    .execute();
+  return rows.map((r) => ({ inspectionId: r.inspection_id, id: r.id, reference: r.number }));
 }
 
 /** The site's supervisors and coordinators (active), who hear of failed and overdue inspections. */
@@ -387,13 +396,36 @@ function formatSiteTimeIn(clock: SiteClock, iso: string): string {
   return `${formatSiteTime(new Date(iso), clock.timeZone)} (${clock.timeZone})`;
 }
 
-/** Suspends every live permit on the excavation through the permits' transition. */
+/**
+ * Suspends every live permit on the excavation through the permits' own transition (their e-mails,
+ * timeline and audit), Brink acting for the inspection. A permit that stopped being live meanwhile
+ * (handed back, lapsed, or suspended by someone else) needs nothing; any other failure is reported.
+ */
 async function suspendLivePermits(
-  _deps: Deps,
-  _exc: ExcavationRow,
-  _inspectionId: number,
-  _reason: string,
+  deps: Deps,
+  exc: ExcavationRow,
+  inspectionId: number,
+  reason: string,
 ): Promise<{ suspended: Consequences['suspended']; notSuspended: Consequences['notSuspended'] }> {
-  // PENDING: connected to the permits' transition service when that branch is on main.
-  return { suspended: [], notSuspended: [] };
+  const live = await withCurrentRevision(deps.db)
+    .select(['p.id', 'p.number'])
+    .where('p.status', '=', 'live')
+    .where('p.site_id', '=', exc.site_id)
+    .where(sql<boolean>`${exc.id}::int = any(r.excavation_ids)`)
+    .orderBy('p.id')
+    .execute();
+  const actor = inspectionActor(`Inspection ${inspectionId} of ${exc.reference}: not safe`);
+  const out: Awaited<ReturnType<typeof suspendLivePermits>> = { suspended: [], notSuspended: [] };
+  for (const p of live) {
+    try {
+      await transition(deps, p.id, 'suspend', actor, { reason });
+      out.suspended.push({ id: p.id, reference: p.number });
+    } catch (err) {
+      const now = await deps.db.selectFrom('permits').select('status').where('id', '=', p.id).executeTakeFirst();
+      if (now && now.status !== 'live') continue;
+      console.error(`[inspections] permit ${p.number} could not be suspended:`, (err as Error).message);
+      out.notSuspended.push({ id: p.id, reference: p.number, why: (err as Error).message });
+    }
+  }
+  return out;
 }
