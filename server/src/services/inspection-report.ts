@@ -6,6 +6,7 @@ import { formatSiteTime, isoWeekRange, shiftsBetween } from '@shared/time/shifts
 import type { Deps } from '../deps';
 import { badRequest } from '../http';
 import { failedItems, loadInspections, siteClock } from './inspections';
+import { t } from './permits/pdf';
 
 /** Printed on every page of the report. */
 export const REPORT_CAUTION =
@@ -72,9 +73,9 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
   };
 
   doc.fillColor(INK).font('Helvetica-Bold').fontSize(18).text('Excavation inspections');
-  doc.font('Helvetica').fontSize(12).text(`${clock.siteName}  |  week ${week}: Monday ${range.monday} to Sunday ${range.sunday}`);
+  doc.font('Helvetica').fontSize(12).text(t(`${clock.siteName}  |  week ${week}: Monday ${range.monday} to Sunday ${range.sunday}`));
   doc.fontSize(9).fillColor(MUTED).text(
-    `Times on the site's clock (${tz}). Shifts: ${clock.shifts.map((s) => `${s.name} from ${s.start}`).join(', ')}. Printed ${formatSiteTime(now, tz)}.`,
+    t(`Times on the site's clock (${tz}). Shifts: ${clock.shifts.map((s) => `${s.name} from ${s.start}`).join(', ')}. Printed ${formatSiteTime(now, tz)}.`),
   );
   doc.moveDown(0.4).text(DUTY);
   doc.moveDown(0.4).fillColor(YELLOW_INK).text(REPORT_CAUTION);
@@ -87,13 +88,13 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
     ensure(90);
     doc.moveTo(left, doc.y).lineTo(left + width, doc.y).strokeColor(RULE).lineWidth(1).stroke();
     doc.moveDown(0.4);
-    doc.fillColor(INK).font('Helvetica-Bold').fontSize(13).text(`${e.reference}  ${e.name}`);
+    doc.fillColor(INK).font('Helvetica-Bold').fontSize(13).text(t(`${e.reference}  ${e.name}`));
     doc.font('Helvetica').fontSize(9).fillColor(MUTED).text(`${e.state}, ${e.depth.toFixed(2)} m deep, support: ${e.support_type.replace(/-/g, ' ')}`);
     doc.moveDown(0.3);
 
     for (const g of groupByShift(own, e.state === 'open' ? shiftsSoFar.filter((s) => s.end.getTime() > new Date(e.created_at).getTime()) : [])) {
       ensure(40);
-      doc.fillColor(INK).font('Helvetica-Bold').fontSize(10).text(`${g.name}, from ${formatSiteTime(g.start, tz)}`);
+      doc.fillColor(INK).font('Helvetica-Bold').fontSize(10).text(t(`${g.name}, from ${formatSiteTime(g.start, tz)}`));
       doc.font('Helvetica').fontSize(9);
       if (!g.inspections.length) {
         doc.fillColor(RED).text('No inspection recorded in this shift.', { indent: 12 });
@@ -102,12 +103,12 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
       }
       for (const i of g.inspections) {
         ensure(46);
-        doc.fillColor(INK).text(`${formatSiteTime(new Date(i.inspectedAt), tz)}  ${i.inspector.name}  (${reasonLabels[i.reason]}${i.reasonDetail ? `: ${i.reasonDetail}` : ''})`, { indent: 12 });
+        doc.fillColor(INK).text(t(`${formatSiteTime(new Date(i.inspectedAt), tz)}  ${i.inspector.name}  (${reasonLabels[i.reason]}${i.reasonDetail ? `: ${i.reasonDetail}` : ''})`), { indent: 12 });
         doc.font('Helvetica-Bold').fillColor(i.outcome === 'safe' ? GREEN : RED).text(outcomeLabels[i.outcome], { indent: 12, continued: !!i.remarks });
-        if (i.remarks) doc.font('Helvetica').fillColor(INK).text(`  ${i.remarks}`);
+        if (i.remarks) doc.font('Helvetica').fillColor(INK).text(t(`  ${i.remarks}`));
         doc.font('Helvetica').fillColor(INK);
         const failed = failedItems(i.checklist);
-        if (failed.length) doc.text(`Failed: ${failed.map((f) => `${f.label} (${f.note})`).join('; ')}`, { indent: 12 });
+        if (failed.length) doc.text(t(`Failed: ${failed.map((f) => `${f.label} (${f.note})`).join('; ')}`), { indent: 12 });
         const na = checklist.filter((c) => i.checklist[c.key]?.answer === 'na').map((c) => c.label);
         if (na.length) doc.fillColor(MUTED).text(`Not applicable: ${na.join(', ')}`, { indent: 12 });
         if (i.suspendedPermits.length) doc.fillColor(INK).text(`Permits suspended: ${i.suspendedPermits.map((p) => p.reference).join(', ')}`, { indent: 12 });
