@@ -1,5 +1,21 @@
 import { answerLabels, checklist, outcomeLabels, reasonLabels, type Inspection } from '@shared/schemas/inspections';
+import { Fragment } from 'react';
+import { Link } from 'react-router-dom';
 import { formatSiteTime } from '@shared/time/shifts';
+
+/** Permit numbers as links to their pages, joined with commas. */
+export function PermitLinks({ permits }: { permits: { id: number; reference: string }[] }) {
+  return (
+    <>
+      {permits.map((p, n) => (
+        <Fragment key={p.id}>
+          {n ? ', ' : ''}
+          <Link to={`/permits/${p.id}`}>{p.reference}</Link>
+        </Fragment>
+      ))}
+    </>
+  );
+}
 
 /** One inspection in the history: when, who, why, the verdict, what failed, the photos. */
 export function InspectionCard({ inspection: i, timeZone }: { inspection: Inspection; timeZone: string }) {
@@ -38,7 +54,11 @@ export function InspectionCard({ inspection: i, timeZone }: { inspection: Inspec
           ))}
         </ul>
       ) : null}
-      {i.suspendedPermits.length ? <p>Permits suspended by this inspection: {i.suspendedPermits.map((p) => p.reference).join(', ')}.</p> : null}
+      {i.suspendedPermits.length ? (
+        <p>
+          Permits suspended by this inspection: <PermitLinks permits={i.suspendedPermits} />.
+        </p>
+      ) : null}
       {i.photos.length ? (
         <ul className="flex flex-wrap gap-2">
           {i.photos.map((p, n) => (

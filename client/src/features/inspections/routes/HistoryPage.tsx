@@ -4,7 +4,7 @@ import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
 import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
 import { useExcavationInspections, type RecordedInspection } from '../api/inspections';
-import { InspectionCard } from '../components/InspectionCard';
+import { InspectionCard, PermitLinks } from '../components/InspectionCard';
 import { usePageSite } from './site';
 
 /** /sites/:siteId/excavations/:excavationId/inspections: the excavation's inspection record. */
@@ -45,8 +45,18 @@ function RecordedNotice({ recorded }: { recorded: RecordedInspection }) {
   return (
     <>
       Inspection recorded: not safe. Work in and beside it must stop.{' '}
-      {c?.suspended.length ? `Suspended: ${c.suspended.map((p) => p.reference).join(', ')}. ` : 'There was no live permit to suspend. '}
-      {c?.notSuspended.length ? `Could not suspend ${c.notSuspended.map((p) => p.reference).join(', ')}: ask a coordinator to suspend them now. ` : ''}
+      {c?.suspended.length ? (
+        <>
+          Suspended: <PermitLinks permits={c.suspended} />.{' '}
+        </>
+      ) : (
+        'There was no live permit to suspend. '
+      )}
+      {c?.notSuspended.length ? (
+        <>
+          Could not suspend <PermitLinks permits={c.notSuspended} />: ask a coordinator to suspend them now.{' '}
+        </>
+      ) : null}
       {c?.notified.length ? `The site’s supervisors and coordinators have been e-mailed.` : ''}
     </>
   );
