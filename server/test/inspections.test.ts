@@ -181,6 +181,13 @@ describe('recording an inspection', () => {
     expect(again.body.inspection.id).toBe(first.body.inspection.id);
     const rows = await t.deps.db.selectFrom('inspections').select('id').where('excavation_id', '=', e.id).execute();
     expect(rows).toHaveLength(1);
+    // the same form sent twice together (a phone retrying) is recorded once too; the lock in
+    // recordInspection covers the case where both reach the insert at once
+    const other = await excavation();
+    const g = form({ clientRef: randomUUID() });
+    const both = await Promise.all([0, 1].map(() => agents.supervisor.post(`/api/excavations/${other.id}/inspections`).send(g)));
+    expect(both.map((r) => r.status).sort()).toEqual([200, 201]);
+    expect(await t.deps.db.selectFrom('inspections').select('id').where('excavation_id', '=', other.id).execute()).toHaveLength(1);
   });
 
   it('keeps inspections as records: the database refuses to change or remove one', async () => {

@@ -199,7 +199,11 @@ export async function recordInspection(
   for (const [i, f] of args.photos.entries()) await checkUploadType(f, `photos[${i}]`, 'image');
 
   const clock = await siteClock(db, exc.site_id, at);
-  const id = await db.transaction().execute(async (trx) => {
+  const stored = await db.transaction().execute(async (trx) => {
+    // The same form sent twice at once: the second waits here and finds the first.
+    if (data.clientRef) await sql`select pg_advisory_xact_lock(hashtext(${data.clientRef}))`.execute(trx);
+    const twin = data.clientRef ? await trx.selectFrom('inspections').select('id').where('client_ref', '=', data.clientRef).executeTakeFirst() : undefined;
+    if (twin) return { id: twin.id, created: false };
     const row = await trx
       .insertInto('inspections')
       .values({
@@ -231,9 +235,9 @@ export async function recordInspection(
       action: 'inspected',
       detail: { inspectionId: row.id, outcome: data.outcome, reason: data.reason, failed: failedItems(data.checklist).map((f) => f.key) },
     });
-    return row.id;
+    return { id: row.id, created: true };
   });
-  return { inspection: (await loadInspections(db, { ids: [id] }))[0], created: true };
+  return { inspection: (await loadInspections(db, { ids: [stored.id] }))[0], created: stored.created };
 }
 
 /** The checklist items answered "fail", with their labels and notes, in checklist order. */
