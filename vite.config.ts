@@ -1,6 +1,7 @@
 import { defineConfig } from 'vite';
 import react from '@vitejs/plugin-react';
 import tailwindcss from '@tailwindcss/vite';
+import { VitePWA } from 'vite-plugin-pwa';
 import { fileURLToPath } from 'node:url';
 
 const here = (p: string) => fileURLToPath(new URL(p, import.meta.url));
@@ -12,10 +13,77 @@ export const alias = {
   '@db': here('./db'),
 };
 
+/**
+ * The installable phone app and its service worker (client/src/features/field registers it; see
+ * DEVELOPERS.md, "Field view offline"). The worker precaches the app shell, answers every page
+ * address with index.html when there is no signal, and keeps the answers of the field view's API
+ * calls: network first, the last good copy when the network fails or is too slow.
+ */
+const pwa = VitePWA({
+  injectRegister: false,
+  registerType: 'autoUpdate',
+  filename: 'sw.js',
+  manifestFilename: 'manifest.webmanifest',
+  includeAssets: ['icons/icon.svg', 'icons/apple-touch-icon.png'],
+  manifest: {
+    id: '/field',
+    name: 'Brink: permits and exclusion zones',
+    short_name: 'Brink',
+    description: 'The permits that name you, the exclusion zone around you, briefings and concerns, also with poor signal.',
+    lang: 'en-GB',
+    start_url: '/field',
+    scope: '/',
+    display: 'standalone',
+    background_color: '#f7f5ef',
+    theme_color: '#1e2a33',
+    icons: [
+      { src: '/icons/icon-192.png', sizes: '192x192', type: 'image/png', purpose: 'any' },
+      { src: '/icons/icon-512.png', sizes: '512x512', type: 'image/png', purpose: 'any' },
+      { src: '/icons/icon-maskable-512.png', sizes: '512x512', type: 'image/png', purpose: 'maskable' },
+      { src: '/icons/icon.svg', sizes: 'any', type: 'image/svg+xml', purpose: 'any' },
+    ],
+  },
+  workbox: {
+    // The shell: scripts, styles, the page, icons and the Latin fonts (other scripts' fonts load when needed).
+    globPatterns: ['**/*.{js,css,html,svg,png,webmanifest}', 'assets/source-sans-3-latin-{400,600,700}-normal-*.woff2'],
+    maximumFileSizeToCacheInBytes: 4 * 1024 * 1024,
+    navigateFallback: '/index.html',
+    navigateFallbackDenylist: [/^\/api\//],
+    cleanupOutdatedCaches: true,
+    clientsClaim: true,
+    skipWaiting: true,
+    runtimeCaching: [
+      {
+        // The field view's reads (my permits, one permit): the network when it answers within a few
+        // seconds, else the last good copy. Errors are never kept.
+        urlPattern: ({ url, request }) => request.method === 'GET' && url.pathname.startsWith('/api/field/'),
+        handler: 'NetworkFirst',
+        options: {
+          cacheName: 'brink-field-api',
+          networkTimeoutSeconds: 8,
+          cacheableResponse: { statuses: [200] },
+          expiration: { maxEntries: 100, maxAgeSeconds: 14 * 24 * 3600 },
+        },
+      },
+      {
+        // Stored files (concern photos, the site plan image) never change under the same id.
+        urlPattern: ({ url, request }) => request.method === 'GET' && /^\/api\/uploads\/\d+$/.test(url.pathname),
+        handler: 'CacheFirst',
+        options: {
+          cacheName: 'brink-field-files',
+          cacheableResponse: { statuses: [200] },
+          expiration: { maxEntries: 60, maxAgeSeconds: 14 * 24 * 3600 },
+        },
+      },
+    ],
+  },
+  devOptions: { enabled: false },
+});
+
 // Client build (root: client/). In development `npm run dev` proxies /api to the Express server.
 export default defineConfig({
   root: here('./client'),
-  plugins: [react(), tailwindcss()],
+  plugins: [react(), tailwindcss(), pwa],
   resolve: { alias },
   build: { outDir: here('./dist/client'), emptyOutDir: true, chunkSizeWarningLimit: 1500 },
   server: {

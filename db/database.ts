@@ -306,6 +306,22 @@ export interface PermitAttachmentsTable {
   added_at: CreatedAt;
 }
 
+/** A concern reported from the field view (photo, note, excavation); shown on the permit's timeline. */
+export interface ConcernsTable {
+  id: Generated<number>;
+  site_id: number;
+  permit_id: number;
+  excavation_id: number | null;
+  /** The excavation's reference when reported (kept if the excavation is later removed). */
+  excavation_reference: string;
+  note: string;
+  photo_upload_ids: ColumnType<number[], number[] | undefined, number[]>;
+  reporter_id: number;
+  created_at: CreatedAt;
+  /** Made by the phone; a repeated key is the same request. */
+  idempotency_key: string;
+}
+
 export interface Database {
   users: UsersTable;
   sites: SitesTable;
@@ -328,6 +344,7 @@ export interface Database {
   inspection_photos: InspectionPhotosTable;
   inspection_suspensions: InspectionSuspensionsTable;
   inspection_reminders: InspectionRemindersTable;
+  concerns: ConcernsTable;
 }
 
 export type Db = Kysely<Database>;

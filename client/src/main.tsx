@@ -5,9 +5,11 @@ import './styles.css';
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { App } from './app/App';
+import { registerServiceWorker } from './features/field';
 import { configureFormMessages } from './lib/forms';
 
 configureFormMessages();
+registerServiceWorker();
 
 createRoot(document.getElementById('root')!).render(
   <StrictMode>

@@ -9,6 +9,7 @@ import pg from 'pg';
 import type { Deps } from './deps';
 import { Api, errorHandler, HttpError } from './http';
 import { registerAuthRoutes } from './routes/auth';
+import { registerFieldRoutes } from './routes/field';
 import { registerExcavationRoutes } from './routes/excavations';
 import { registerPeopleRoutes } from './routes/people';
 import { registerPlantRoutes } from './routes/plant';
@@ -98,6 +99,7 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerUploadRoutes(api);
   registerPermitRoutes(api);
   registerPlantRoutes(api);
+  registerFieldRoutes(api);
   registerExcavationRoutes(api);
   registerSitePlanRoutes(api);
   registerInspectionRoutes(api);

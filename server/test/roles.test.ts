@@ -56,6 +56,11 @@ export const matrix: Record<string, Row> = {
   'POST /api/permits/:id/attachments': { allow: ['supervisor', 'coordinator'] },
   'GET /api/permits/:id/attachments/:attachmentId': { allow: ['admin', ...siteMembers] },
   'DELETE /api/permits/:id/attachments/:attachmentId': { allow: ['supervisor', 'coordinator'] },
+  // The field view: my permits for everyone signed in (empty for most); one permit and concerns for
+  // members of the permit's site. server/test/field.test.ts checks them on a real permit.
+  'GET /api/field/permits': { allow: signedInPeople },
+  'GET /api/field/permits/:id': { allow: ['admin', ...siteMembers] },
+  'POST /api/permits/:id/concerns': { allow: siteMembers },
   // The plant library is shared by all sites: everyone signed in reads it; administrators and
   // coordinators (of any site, so the outsider too) keep it.
   'GET /api/plant': { allow: signedInPeople },

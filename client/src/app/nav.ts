@@ -19,6 +19,7 @@ export const navItems: NavItem[] = [
   { label: 'Dashboard', to: '/sites/:siteId', end: true },
   { label: 'Site map', to: '/sites/:siteId/map' },
   { label: 'Permits', to: '/sites/:siteId/permits', who: ['supervisor', 'coordinator', 'operator'] },
+  { label: 'My permits (phone view)', to: '/field', who: ['operator'] },
   { label: 'Register', to: '/sites/:siteId/register' },
   { label: 'Inspections', to: '/sites/:siteId/inspections', who: ['supervisor', 'coordinator', 'operator'] },
   { label: 'Plant', to: '/plant' },

@@ -2,6 +2,7 @@ import { createBrowserRouter, type RouteObject } from 'react-router-dom';
 import { adminRoutes } from '@client/features/admin';
 import { authRoutes } from '@client/features/auth';
 import { dashboardRoutes } from '@client/features/dashboard';
+import { fieldRoutes } from '@client/features/field';
 import { permitRoutes, permitSiteRoutes } from '@client/features/permits';
 import { inspectionRoutes } from '@client/features/inspections';
 import { mapRoutes } from '@client/features/map';
@@ -26,6 +27,8 @@ export const routes: RouteObject[] = [
     errorElement: <ErrorPage />,
     children: [
       { Component: PublicLayout, children: authRoutes },
+      // The phone view has its own frame and sign-in check (it opens with no signal).
+      ...fieldRoutes,
       {
         Component: RequireAuth,
         children: [

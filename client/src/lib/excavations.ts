@@ -27,15 +27,6 @@ export function useSitePlan(siteId: number) {
   });
 }
 
-/** Settings the browser needs: a map tile address when the site has internet. */
-export function useAppConfig() {
-  return useQuery({
-    queryKey: ['config'],
-    queryFn: ({ signal }) => api.get<{ mapTileUrl: string | null; mapTileAttribution: string }>('/api/config', signal),
-    staleTime: Infinity,
-  });
-}
-
 /**
  * Sends a multipart form (file uploads) to the API; answers the parsed JSON. Throws ApiError with the
  * server's field reasons, as the JSON calls do.

@@ -33,9 +33,13 @@ export function setSignedIn(queryClient: QueryClient, user: Me) {
   queryClient.setQueryData(sessionKeys.me, user);
 }
 
+/** Announced on sign-out, so that parts of the app that keep copies on the device can forget them. */
+export const SIGNED_OUT_EVENT = 'brink:signed-out';
+
 export function setSignedOut(queryClient: QueryClient) {
   queryClient.clear();
   queryClient.setQueryData(sessionKeys.me, null);
+  window.dispatchEvent(new Event(SIGNED_OUT_EVENT));
 }
 
 /** The sites I am a member of (every site, for an administrator). */

@@ -137,7 +137,7 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
   }
 
   // Dig checks, operators, trail
-  if (doc.y > doc.page.height - 300) doc.addPage();
+  if (doc.y > doc.page.height - 200) doc.addPage();
   else doc.moveDown();
   if (rev.dig) {
     heading(doc, 'Dig: buried services, depth and support');
@@ -163,6 +163,8 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
   const range = doc.bufferedPageRange();
   for (let i = range.start; i < range.start + range.count; i++) {
     doc.switchToPage(i);
+    // The footer sits inside the bottom margin: lift the margin so pdfkit does not start a new page.
+    doc.page.margins.bottom = 0;
     const y = doc.page.height - MARGIN - 24;
     doc.save().moveTo(MARGIN, y - 4).lineTo(MARGIN + width, y - 4).lineWidth(0.5).strokeColor(LINE).stroke().restore();
     doc.font('Helvetica').fontSize(8).fillColor(MUTED).text(t(`Caution: ${CAUTION}`), MARGIN, y, { width: width - 60, lineBreak: true, height: 30 });
@@ -233,9 +235,9 @@ function drawPressureDiagram(doc: PDFKit.PDFDocument, profile: ProfilePoint[], H
   if (profile.length < 2) return;
   const boxW = 300;
   const boxH = 220;
-  if (doc.y + boxH + 60 > doc.page.height - MARGIN - 40) doc.addPage();
+  if (doc.y + boxH + 76 > doc.page.height - MARGIN - 40) doc.addPage();
   const x0 = MARGIN + 50;
-  const y0 = doc.y + 20;
+  const y0 = doc.y + 36;
   const maxP = Math.max(1, ...profile.map((p) => Math.max(p.soil, p.water, p.surcharge, p.allowance)));
   const px = ticks(0, maxP, 5);
   const dz = ticks(0, H, 5);
@@ -243,7 +245,7 @@ function drawPressureDiagram(doc: PDFKit.PDFDocument, profile: ProfilePoint[], H
   const sy = boxH / dz[dz.length - 1];
   const X = (p: number) => x0 + p * sx;
   const Y = (z: number) => y0 + z * sy;
-  doc.font('Helvetica-Bold').fontSize(10).fillColor(INK).text('Pressure diagram (depth downward)', MARGIN, y0 - 18);
+  doc.font('Helvetica-Bold').fontSize(10).fillColor(INK).text('Pressure diagram (depth downward)', MARGIN, y0 - 36);
   doc.font('Helvetica').fontSize(8).fillColor(MUTED);
   for (const v of px) {
     doc.save().moveTo(X(v), Y(0)).lineTo(X(v), Y(dz[dz.length - 1])).lineWidth(0.3).strokeColor('#e2e8f0').stroke().restore();

@@ -1,6 +1,6 @@
 import { useEffect } from 'react';
-import { CircleMarker, MapContainer, ScaleControl, useMap, useMapEvents } from 'react-leaflet';
-import 'leaflet/dist/leaflet.css';
+import { CircleMarker, useMap, useMapEvents } from 'react-leaflet';
+import { BaseMap } from '@client/components/map/BaseMap';
 
 interface OriginMapProps {
   latitude: number;
@@ -35,19 +35,24 @@ function FollowOrigin({ centre }: { centre: [number, number] | null }) {
 }
 
 /**
- * A small map for placing a site's origin. No base tiles yet: a plain ground with a metric scale bar;
- * a click sets the origin. The latitude and longitude boxes stay the way to give it exactly.
+ * A small map for placing a site's origin on the shared base map (metric grid counted from the
+ * origin as typed, scale bar, north arrow); a click sets the origin. The latitude and longitude boxes stay the way to give it exactly.
  */
 export function OriginMap({ latitude, longitude, onPick }: OriginMapProps) {
   const origin: [number, number] | null = valid(latitude, longitude) ? [latitude, longitude] : null;
   return (
     <div className="overflow-hidden rounded-md border border-rule-strong">
-      <MapContainer center={origin ?? fallbackCentre} zoom={17} className="h-72 w-full" scrollWheelZoom={false} aria-label="Map: click to set the site origin">
-        <ScaleControl position="bottomleft" imperial={false} />
+      <BaseMap
+        origin={origin ? { latitude: origin[0], longitude: origin[1] } : { latitude: fallbackCentre[0], longitude: fallbackCentre[1] }}
+        zoom={17}
+        className="h-72 w-full"
+        scrollWheelZoom={false}
+        ariaLabel="Map: click to set the site origin"
+      >
         <ClickToPick onPick={onPick} />
         <FollowOrigin centre={origin} />
         {origin ? <CircleMarker center={origin} radius={8} pathOptions={{ color: '#47508f', weight: 3, fillOpacity: 0.3 }} /> : null}
-      </MapContainer>
+      </BaseMap>
     </div>
   );
 }

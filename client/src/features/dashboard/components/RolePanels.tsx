@@ -41,8 +41,12 @@ export function CoordinatorPanels({ site }: { site: SiteOfPanel }) {
 export function OperatorPanels({ site }: { site: SiteOfPanel }) {
   return (
     <RoleSection title={roleLabels.operator} intro="See the permits that name you and where loads may go.">
-      <ComingPanel title="My permits today" lists="Permits that name you, with their window and exclusion zones." />
-      <ComingPanel title="Briefings to confirm" lists="Permits you must confirm you have been briefed on before work starts." />
+      <Panel title="My permits" level={3}>
+        <p>The permits that name you, with their exclusion zones, where you stand against them, the briefing to confirm and a way to report a concern. Made for your phone, and it keeps working with poor signal.</p>
+        <p>
+          <Link to="/field">Open my permits</Link>
+        </p>
+      </Panel>
       {site.canInspect ? <InspectionsDue site={site} fallback="Open excavations not yet inspected this shift." /> : null}
     </RoleSection>
   );

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { excavationInputSchema } from '@shared/schemas/excavations';
-import { gridLabel, gridStep } from './metricGrid';
+import { gridLabel, gridStep } from '@client/components/map/metricGrid';
 import { emptyRow, nextReference, toInput, type ExcavationFormValues } from './excavationFormValues';
 
 describe('offline grid', () => {

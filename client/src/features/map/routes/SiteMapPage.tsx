@@ -7,7 +7,7 @@ import { stateLabels, supportLabels, type Excavation, type ExcavationGeometry, t
 import { Button } from '@client/components/Button';
 import { useDocumentTitle } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
-import { fmt, useAppConfig, useExcavations, useSitePlan } from '@client/lib/excavations';
+import { fmt, useExcavations, useSitePlan } from '@client/lib/excavations';
 import { parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
 import { useInspectionStates } from '@client/lib/inspectionStates';
 import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
@@ -72,7 +72,6 @@ export function SiteMapPage() {
   useDocumentTitle(site ? `Site map: ${site.name}` : 'Site map');
   const excavations = useExcavations(siteId);
   const plan = useSitePlan(siteId);
-  const config = useAppConfig();
   const save = useSaveExcavation(siteId);
   const del = useDeleteExcavation(siteId);
   const drawingFile = useDrawing(siteId);
@@ -195,8 +194,6 @@ export function SiteMapPage() {
               const e = list.find((x) => x.id === id);
               if (e) open(e);
             }}
-            tileUrl={config.data?.mapTileUrl ?? null}
-            tileAttribution={config.data?.mapTileAttribution ?? ''}
             plan={plan.data ?? null}
             planOpacity={planOpacity}
             draft={editing ? previewShapes(preview, site) : null}

@@ -1,7 +1,7 @@
 import { Fragment, useEffect, useMemo } from 'react';
 import L from 'leaflet';
-import { MapContainer, Marker, Polygon, Polyline, ScaleControl, TileLayer, Tooltip, useMap } from 'react-leaflet';
-import 'leaflet/dist/leaflet.css';
+import { Marker, Polygon, Polyline, Tooltip, useMap } from 'react-leaflet';
+import { BaseMap } from '@client/components/map/BaseMap';
 import type { MultiPolygon, Polygon as GeoPolygon } from 'geojson';
 import { exclusionZone, prepareExcavation, type LocalProjection, type XY } from '@shared/geometry';
 import { checkExcavationOf, footprintsOf, type PlantForCheck } from '@shared/permits/check';
@@ -26,7 +26,6 @@ interface PlacementMapProps {
   editable: boolean;
   onMove?: (loadId: string, to: XY) => void;
   onRotate?: (loadId: string, bearing: number) => void;
-  tileUrl?: string | null;
 }
 
 const makeIcon = (text: string, shape: 'move' | 'turn') =>
@@ -54,7 +53,7 @@ function FitOnce({ bounds }: { bounds: L.LatLngBounds | null }) {
  * standoff (ISO 3864 red), each load's bearing footprints in the verdict colour, a handle to drag
  * each load and, for machines, a handle to turn them. Scale bar in metres; north is up.
  */
-export function PlacementMap({ proj, excavations, loads, plant, verdict, standoff, editable, onMove, onRotate, tileUrl }: PlacementMapProps) {
+export function PlacementMap({ proj, excavations, loads, plant, verdict, standoff, editable, onMove, onRotate }: PlacementMapProps) {
   const prepared = useMemo(
     () =>
       excavations.flatMap((e) => {
@@ -76,9 +75,7 @@ export function PlacementMap({ proj, excavations, loads, plant, verdict, standof
 
   return (
     <div className="overflow-hidden rounded-md border border-rule-strong">
-      <MapContainer center={origin} zoom={19} maxZoom={22} className="h-[28rem] w-full" scrollWheelZoom aria-label="Map of the excavations and the loads of this permit">
-        {tileUrl ? <TileLayer url={tileUrl} maxNativeZoom={19} maxZoom={22} /> : null}
-        <ScaleControl position="bottomleft" imperial={false} />
+      <BaseMap origin={{ latitude: origin[0], longitude: origin[1] }} zoom={19} className="h-[28rem] w-full" ariaLabel="Map of the excavations and the loads of this permit">
         <FitOnce bounds={bounds} />
         {excavations.map((e) =>
           e.influenceZone ? (
@@ -152,7 +149,7 @@ export function PlacementMap({ proj, excavations, loads, plant, verdict, standof
             </Fragment>
           );
         })}
-      </MapContainer>
+      </BaseMap>
       <p className="px-3 py-2 text-sm text-ink-soft">
         North is up. Grey: excavations; dashed: influence zones (within the depth of the edge); red band: exclusion zone
         {standoff ? ` (${standoff.toFixed(2)} m from the edge)` : ''}. Loads are coloured by the verdict. Drag “Move” to place a load, “Turn” to turn a machine.

@@ -62,10 +62,6 @@ const emptyDig: DigDetails = {
   },
 };
 
-function useTileUrl() {
-  return useQuery({ queryKey: ['config'], queryFn: () => api.get<{ mapTileUrl: string | null }>('/api/config'), staleTime: Infinity }).data?.mapTileUrl ?? null;
-}
-
 /** Changing a draft or returned permit: placing loads with the live check, the window, the people, the dig checks. */
 export function PermitEditPage() {
   const id = parseId(useParams().permitId) ?? 0;
@@ -81,7 +77,6 @@ function Editor({ permit }: { permit: PermitDetail }) {
   const excavations = useExcavations(permit.siteId);
   const plantQ = usePlant();
   const operators = useOperators(permit.siteId);
-  const tileUrl = useTileUrl();
   const update = useUpdatePermit(permit.id);
   const move = useTransition(permit.id);
   const [draft, setDraft] = useState<Draft>(() => draftOf(permit));
@@ -214,7 +209,6 @@ function Editor({ permit }: { permit: PermitDetail }) {
             verdict={verdict}
             standoff={standoff}
             editable
-            tileUrl={tileUrl}
             onMove={(loadId, to) => setLoad(loadId, (l) => moveLoad(l, to, proj))}
             onRotate={(loadId, bearing) => setLoad(loadId, (l) => (l.kind === 'plant' ? { ...l, rotation: bearing } : l))}
           />

@@ -1,0 +1,45 @@
+import type { FieldPermit } from '@shared/schemas/field';
+import { metres2 } from '../lib/format';
+
+/** The standoff and the conditions in large type, with the caution beside the figures. */
+export function Conditions({ permit }: { permit: FieldPermit }) {
+  const zoned = permit.excavations.filter((e) => e.standoff !== null);
+  return (
+    <section aria-labelledby="conditions-title" className="flex flex-col gap-3 rounded-md border-2 border-ink bg-sheet p-4">
+      <h2 id="conditions-title" className="text-2xl font-bold">
+        Standoff and conditions
+      </h2>
+      {zoned.length ? (
+        <ul className="flex flex-col gap-2 text-2xl font-semibold leading-snug">
+          {zoned.map((e) => (
+            <li key={e.id}>
+              Keep every part of the load at least <span className="font-bold">{metres2(e.standoff!)}</span> from the edge of {e.reference} ({e.name}).
+            </li>
+          ))}
+        </ul>
+      ) : (
+        <p className="text-xl font-semibold">No standoff is set: this permit is not approved yet, so no load may go beside the excavation under it.</p>
+      )}
+      {permit.minimumClearance > 0 && zoned.length ? (
+        <p>No standoff is less than the site’s least clearance from any edge, {metres2(permit.minimumClearance)}.</p>
+      ) : null}
+      {permit.conditions.length ? (
+        <ol className="flex list-decimal flex-col gap-2 pl-7 text-xl leading-snug">
+          {permit.conditions.map((c, i) => (
+            <li key={i}>{c}</li>
+          ))}
+        </ol>
+      ) : zoned.length ? (
+        <p className="text-xl">No further conditions.</p>
+      ) : null}
+      {permit.decidedBy ? (
+        <p className="text-lg">
+          Decided by {permit.decidedBy.name}, {new Date(permit.decidedBy.at).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}.
+        </p>
+      ) : null}
+      <p className="text-lg font-semibold" data-testid="caution">
+        Caution: {permit.caution}
+      </p>
+    </section>
+  );
+}

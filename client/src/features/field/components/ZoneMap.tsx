@@ -1,0 +1,103 @@
+import { useEffect, useMemo } from 'react';
+import L from 'leaflet';
+import { Circle, CircleMarker, GeoJSON, MapContainer, ScaleControl, useMap } from 'react-leaflet';
+import 'leaflet/dist/leaflet.css';
+import type { FieldPermit } from '@shared/schemas/field';
+import type { Fix } from '../lib/reading';
+
+/**
+ * The permit on a map, north up, to scale: influence zones in ISO 3864 warning yellow, exclusion
+ * zones in prohibition red, the excavations dark, the permitted footprint outlined, and my position
+ * with its accuracy circle. No tiles: the ground is plain, so it works with no signal.
+ */
+export const zoneStyles = {
+  influence: { color: '#1e2a33', weight: 1, dashArray: '6 4', fillColor: '#f4c20d', fillOpacity: 0.35 },
+  exclusion: { color: '#c1121f', weight: 3, fillColor: '#c1121f', fillOpacity: 0.6 },
+  excavation: { color: '#1e2a33', weight: 2.5, fillColor: '#3a4650', fillOpacity: 0.7 },
+  footprint: { color: '#1e2a33', weight: 3, fillColor: '#fffdf8', fillOpacity: 0.85 },
+  accuracy: { color: '#1e2a33', weight: 2, dashArray: '4 4', fillColor: '#47508f', fillOpacity: 0.12 },
+  me: { color: '#fffdf8', weight: 3, fillColor: '#47508f', fillOpacity: 1 },
+} as const;
+
+function boundsOf(permit: FieldPermit): L.LatLngBounds | null {
+  const layer = L.geoJSON(permit.excavations.flatMap((e) => [e.influenceZone, ...(e.exclusionZone ? [e.exclusionZone] : [])]));
+  permit.footprints.forEach((f) => layer.addData(f.geometry));
+  const b = layer.getBounds();
+  return b.isValid() ? b : null;
+}
+
+function Fit({ bounds }: { bounds: L.LatLngBounds | null }) {
+  const map = useMap();
+  useEffect(() => {
+    if (bounds) map.fitBounds(bounds, { padding: [16, 16], maxZoom: 21 });
+  }, [map, bounds]);
+  return null;
+}
+
+function NorthArrow() {
+  return (
+    <div className="pointer-events-none absolute right-2 top-2 z-[500] flex flex-col items-center rounded-md border border-ink bg-sheet/90 px-2 py-1">
+      <svg width="22" height="32" viewBox="0 0 28 40" aria-hidden="true">
+        <path d="M14 2 L24 34 L14 27 L4 34 Z" fill="#fffdf8" stroke="#1e2a33" strokeWidth="2" />
+        <path d="M14 2 L14 27 L4 34 Z" fill="#1e2a33" />
+      </svg>
+      <span className="text-lg font-bold leading-none">N</span>
+    </div>
+  );
+}
+
+export function ZoneMap({ permit, fix }: { permit: FieldPermit; fix: Fix | null }) {
+  const bounds = useMemo(() => boundsOf(permit), [permit]);
+  return (
+    <div className="relative h-[55vh] min-h-72 overflow-hidden rounded-md border-2 border-ink">
+      <MapContainer
+        center={[permit.centre.latitude, permit.centre.longitude]}
+        zoom={19}
+        minZoom={14}
+        maxZoom={22}
+        zoomSnap={0.5}
+        className="h-full w-full"
+        attributionControl={false}
+        keyboard={false}
+      >
+        <Fit bounds={bounds} />
+        {permit.excavations.map((e) => (
+          <GeoJSON key={`i-${e.id}`} data={e.influenceZone} style={() => zoneStyles.influence} interactive={false} />
+        ))}
+        {permit.excavations.map((e) =>
+          e.exclusionZone ? <GeoJSON key={`x-${e.id}`} data={e.exclusionZone} style={() => zoneStyles.exclusion} interactive={false} /> : null,
+        )}
+        {permit.excavations.map((e) => (
+          <GeoJSON key={`e-${e.id}`} data={e.outline} style={() => zoneStyles.excavation} interactive={false} />
+        ))}
+        {permit.footprints.map((f, i) => (
+          <GeoJSON key={`f-${i}`} data={f.geometry} style={() => zoneStyles.footprint} interactive={false} />
+        ))}
+        {fix ? (
+          <>
+            <Circle center={[fix.latitude, fix.longitude]} radius={Math.max(fix.accuracy, 0.1)} pathOptions={zoneStyles.accuracy} interactive={false} />
+            <CircleMarker center={[fix.latitude, fix.longitude]} radius={9} pathOptions={zoneStyles.me} interactive={false} />
+          </>
+        ) : null}
+        <ScaleControl position="bottomleft" imperial={false} maxWidth={140} />
+      </MapContainer>
+      <NorthArrow />
+    </div>
+  );
+}
+
+/** The map's key, in words beside each colour. */
+export function MapKey({ hasFix }: { hasFix: boolean }) {
+  const swatch = (fill: string, border: string, dashed = false) => (
+    <span aria-hidden="true" className="inline-block size-6 shrink-0 rounded-sm border-2" style={{ background: fill, borderColor: border, borderStyle: dashed ? 'dashed' : 'solid' }} />
+  );
+  return (
+    <ul className="grid grid-cols-1 gap-2 text-lg sm:grid-cols-2">
+      <li className="flex items-center gap-3">{swatch('rgba(193,18,31,0.6)', '#c1121f')}Exclusion zone: no part of the load inside</li>
+      <li className="flex items-center gap-3">{swatch('rgba(244,194,13,0.55)', '#1e2a33', true)}Influence zone (within the depth of the edge)</li>
+      <li className="flex items-center gap-3">{swatch('#3a4650', '#1e2a33')}Excavation</li>
+      <li className="flex items-center gap-3">{swatch('#fffdf8', '#1e2a33')}Permitted position of the load</li>
+      {hasFix ? <li className="flex items-center gap-3">{swatch('#47508f', '#1e2a33')}You, with the phone’s accuracy circle</li> : null}
+    </ul>
+  );
+}

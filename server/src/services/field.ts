@@ -1,0 +1,201 @@
+import { sql } from 'kysely';
+import type { LineString, Polygon } from 'geojson';
+import type { Db } from '@db/database';
+import { exclusionZone, localProjection, prepareExcavation, type LocalProjection, type PreparedOutline, type XY } from '@shared/geometry';
+import { checkExcavationOf, footprintsOf } from '@shared/permits/check';
+import { supportLabels } from '@shared/schemas/excavations';
+import type { Concern, FieldExcavation, FieldFootprint, FieldPermit } from '@shared/schemas/field';
+import type { PermitRevision, PermitStatus } from '@shared/schemas/permits';
+import { loadExcavations } from './excavations';
+import { plantFor } from './permits/check';
+import { CAUTION } from './permits/caution';
+import { loadRevision, loadSummary, withCurrentRevision } from './permits/read';
+
+/** Permits an operator works under (the briefing is due from Approved on). */
+export const fieldStatuses: readonly PermitStatus[] = ['approved', 'live', 'suspended'];
+/** Closed permits stay in the operator's list this long after their window, so they see that work has stopped. */
+export const CLOSED_SHOWN_FOR_MS = 12 * 3600_000;
+
+/** Ids of the permits whose current revision names `userId` as an operator, on sites where they are still a member. */
+export async function permitsNaming(db: Db, userId: number, now: Date): Promise<number[]> {
+  const rows = await withCurrentRevision(db)
+    .innerJoin('permit_operators as o', (j) => j.onRef('o.revision_id', '=', 'r.id').on('o.user_id', '=', userId))
+    .innerJoin('site_members as m', (j) => j.onRef('m.site_id', '=', 'p.site_id').on('m.user_id', '=', userId))
+    .select(['p.id'])
+    .where((eb) =>
+      eb.or([
+        eb('p.status', 'in', fieldStatuses),
+        eb.and([eb('p.status', 'in', ['handed_back', 'lapsed']), eb('r.window_end', '>', new Date(now.getTime() - CLOSED_SHOWN_FOR_MS))]),
+      ]),
+    )
+    .orderBy('r.window_start')
+    .orderBy('p.id')
+    .execute();
+  return rows.map((r) => r.id);
+}
+
+function closedRing(ring: XY[], proj: LocalProjection): Polygon {
+  const out = ring.map((p) => proj.toWgs84(p));
+  return { type: 'Polygon', coordinates: [[...out, out[0]]] };
+}
+
+/**
+ * The exclusion distance of one excavation under an approved revision: the coordinator's standoff
+ * when they set one, else the check's standoff for that excavation, never below the site's least
+ * clearance. Null before approval (nothing is permitted yet).
+ */
+export function exclusionDistance(rev: Pick<PermitRevision, 'decision' | 'check'>, excavationId: number, minimumClearance: number): number | null {
+  if (rev.decision?.action !== 'approve') return null;
+  const checked = rev.check?.excavations.find((e) => e.excavationId === excavationId)?.standoff ?? rev.check?.computedStandoff ?? null;
+  const standoff = rev.decision.standoff ?? checked ?? 0;
+  return Math.max(standoff, minimumClearance);
+}
+
+/** Concerns with their reporter's name; narrow with `.where(…)`. */
+export function concernQuery(db: Db) {
+  return db
+    .selectFrom('concerns as c')
+    .innerJoin('users as u', 'u.id', 'c.reporter_id')
+    .select(['c.id', 'c.permit_id', 'c.excavation_id', 'c.excavation_reference', 'c.note', 'c.photo_upload_ids', 'c.reporter_id', 'u.name', 'c.created_at', 'c.idempotency_key']);
+}
+
+export async function concernsOf(db: Db, permitId: number): Promise<Concern[]> {
+  const rows = await concernQuery(db).where('c.permit_id', '=', permitId).orderBy('c.id').execute();
+  return rows.map(concernOut);
+}
+
+type ConcernRow = {
+  id: number;
+  permit_id: number;
+  excavation_id: number | null;
+  excavation_reference: string;
+  note: string;
+  photo_upload_ids: number[];
+  reporter_id: number;
+  name: string;
+  created_at: Date;
+  idempotency_key: string;
+};
+
+export function concernOut(r: ConcernRow): Concern {
+  return {
+    id: r.id,
+    permitId: r.permit_id,
+    excavationId: r.excavation_id,
+    excavationReference: r.excavation_reference,
+    note: r.note,
+    photoIds: r.photo_upload_ids,
+    reporter: { id: r.reporter_id, name: r.name },
+    createdAt: new Date(r.created_at).toISOString(),
+    idempotencyKey: r.idempotency_key,
+  };
+}
+
+/** Everything the phone shows of one permit, for one reader; null when there is no such permit. */
+export async function loadFieldPermit(db: Db, permitId: number, viewerId: number): Promise<FieldPermit | null> {
+  const summary = await loadSummary(db, permitId);
+  if (!summary) return null;
+  const rev = (await loadRevision(db, permitId, summary.revision))!;
+  const site = await db.selectFrom('sites').select(['latitude', 'longitude', 'minimum_clearance']).where('id', '=', summary.siteId).executeTakeFirstOrThrow();
+  const proj = localProjection([site.longitude, site.latitude]);
+  // The register's excavations (outline and influence zone as the site map draws them).
+  const rows = await loadExcavations(db, summary.siteId, rev.excavationIds);
+
+  const prepared: PreparedOutline[] = [];
+  const excavations: FieldExcavation[] = rows.flatMap((r) => {
+    if (!r.outline || !r.influenceZone) return [];
+    const { shape } = checkExcavationOf(r);
+    const outline = prepareExcavation(shape, proj);
+    prepared.push(outline);
+    const standoff = exclusionDistance(rev, r.id, site.minimum_clearance);
+    return [
+      {
+        id: r.id,
+        reference: r.reference,
+        name: r.name,
+        kind: r.kind,
+        state: r.state,
+        depth: r.depth,
+        supportLabel: supportLabels[r.supportType],
+        shape,
+        outline: r.outline,
+        influenceZone: r.influenceZone,
+        exclusionZone: standoff === null ? null : exclusionZone(outline, standoff, proj),
+        standoff,
+      },
+    ];
+  });
+
+  const plant = await plantFor(db, rev.loads);
+  const footprints: FieldFootprint[] = [];
+  const centres: XY[] = [];
+  for (const load of rev.loads) {
+    for (const f of footprintsOf(load, plant, proj)) {
+      const geometry: Polygon | LineString =
+        f.kind === 'line' ? { type: 'LineString', coordinates: f.local.map((p) => proj.toWgs84(p)) } : closedRing(f.local, proj);
+      footprints.push({ label: f.element ? `${f.label}: ${f.element}` : f.label, geometry });
+      centres.push(...f.local);
+    }
+  }
+  if (!centres.length) for (const o of prepared) centres.push(...o.ring);
+  const mid: XY = centres.length ? [centres.reduce((s, p) => s + p[0], 0) / centres.length, centres.reduce((s, p) => s + p[1], 0) / centres.length] : [0, 0];
+  const [lon, lat] = proj.toWgs84(mid);
+  const standoffs = excavations.flatMap((e) => (e.standoff === null ? [] : [e.standoff]));
+  const me = rev.operators.find((o) => o.id === viewerId);
+
+  return {
+    id: summary.id,
+    number: summary.number,
+    siteId: summary.siteId,
+    siteName: summary.siteName,
+    kind: summary.kind,
+    status: summary.status,
+    statusLabel: summary.statusLabel,
+    version: summary.version,
+    revision: summary.revision,
+    description: summary.description,
+    windowStart: summary.windowStart,
+    windowEnd: summary.windowEnd,
+    origin: { latitude: site.latitude, longitude: site.longitude },
+    centre: { latitude: lat, longitude: lon },
+    standoff: standoffs.length ? Math.max(...standoffs) : null,
+    minimumClearance: site.minimum_clearance,
+    conditions: rev.decision?.action === 'approve' ? rev.decision.conditions : [],
+    decidedBy: rev.decision ? { name: rev.decision.by.name, at: rev.decision.at } : null,
+    operators: rev.operators.map((o) => ({ id: o.id, name: o.name, briefedAt: o.briefedAt })),
+    named: Boolean(me),
+    myBriefedAt: me?.briefedAt ?? null,
+    briefingDue: Boolean(me && !me.briefedAt && fieldStatuses.includes(summary.status)),
+    excavations,
+    footprints,
+    concerns: await concernsOf(db, permitId),
+    caution: CAUTION,
+  };
+}
+
+/** The coordinators' and supervisors' addresses on a site (active people), but not the reporter's. */
+export async function concernRecipients(db: Db, siteId: number, exceptUserId: number): Promise<string[]> {
+  const rows = await db
+    .selectFrom('site_members as m')
+    .innerJoin('users as u', 'u.id', 'm.user_id')
+    .select('u.email')
+    .where('m.site_id', '=', siteId)
+    .where('m.role', 'in', ['coordinator', 'supervisor'])
+    .where('u.active', '=', true)
+    .where('u.id', '<>', exceptUserId)
+    .orderBy('u.email')
+    .execute();
+  return rows.map((r) => r.email);
+}
+
+/** Is the excavation one of those the permit's current revision names? */
+export async function permitNamesExcavation(db: Db, permitId: number, excavationId: number): Promise<{ reference: string } | null> {
+  const row = await withCurrentRevision(db)
+    .innerJoin('excavations as e', 'e.site_id', 'p.site_id')
+    .select('e.reference')
+    .where('p.id', '=', permitId)
+    .where('e.id', '=', excavationId)
+    .where(sql<boolean>`e.id = any(r.excavation_ids)`)
+    .executeTakeFirst();
+  return row ?? null;
+}
