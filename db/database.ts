@@ -169,6 +169,51 @@ export interface PlantItemsTable {
   updated_at: CreatedAt;
 }
 
+export interface SiteShiftsTable {
+  id: Generated<number>;
+  site_id: number;
+  name: string;
+  /** Wall-clock start in the site's time zone, "HH:MM". */
+  start_time: string;
+}
+
+export interface InspectionsTable {
+  id: Generated<number>;
+  excavation_id: number;
+  site_id: number;
+  inspector_id: number;
+  inspected_at: Timestamp;
+  recorded_at: Timestamp;
+  /** The shift the inspection belongs to (by its time), as the site's shifts stood then. */
+  shift_name: string;
+  shift_start: Timestamp;
+  reason: 'shift-start' | 'after-event' | 'after-fall';
+  reason_detail: Generated<string>;
+  /** { [checklist key]: { answer: 'pass' | 'fail' | 'na', note } } — see shared/schemas/inspections.ts. */
+  checklist: Json<Record<string, { answer: 'pass' | 'fail' | 'na'; note: string }>>;
+  outcome: 'safe' | 'not-safe';
+  remarks: Generated<string>;
+  client_ref: string | null;
+}
+
+export interface InspectionPhotosTable {
+  inspection_id: number;
+  upload_id: number;
+  position: number;
+}
+
+export interface InspectionSuspensionsTable {
+  inspection_id: number;
+  permit_id: number;
+}
+
+export interface InspectionRemindersTable {
+  site_id: number;
+  shift_start: Timestamp;
+  sent_at: Timestamp;
+  excavation_ids: Json<number[]>;
+}
+
 export interface GeoJSONGeometry {
   type: string;
   coordinates: unknown;
@@ -294,6 +339,11 @@ export interface Database {
   permit_operators: PermitOperatorsTable;
   permit_events: PermitEventsTable;
   permit_attachments: PermitAttachmentsTable;
+  site_shifts: SiteShiftsTable;
+  inspections: InspectionsTable;
+  inspection_photos: InspectionPhotosTable;
+  inspection_suspensions: InspectionSuspensionsTable;
+  inspection_reminders: InspectionRemindersTable;
   concerns: ConcernsTable;
 }
 

@@ -1,15 +1,6 @@
 import { readFile } from 'node:fs/promises';
-import { expect, test, type Page } from '@playwright/test';
-
-const demoPassword = 'brink-demo-2026';
-
-async function signIn(page: Page, email: string) {
-  await page.goto('/sign-in');
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password', { exact: true }).fill(demoPassword);
-  await page.getByRole('button', { name: 'Sign in', exact: true }).click();
-  await expect(page).toHaveURL(/\/sites\/\d+/);
-}
+import { expect, test } from '@playwright/test';
+import { signIn } from './helpers';
 
 interface ExcavationRow {
   id: number;

@@ -2,6 +2,7 @@ import type { Migration } from 'kysely';
 import * as m0001 from './0001_foundation';
 import * as m0002 from './0002_excavations_plant_uploads';
 import * as m0004 from './0004_permits';
+import * as m0005 from './0005_inspections';
 import * as m0006 from './0006_field';
 
 /**
@@ -12,5 +13,6 @@ export const migrations: Record<string, Migration> = {
   '0001_foundation': m0001,
   '0002_excavations_plant_uploads': m0002,
   '0004_permits': m0004,
+  '0005_inspections': m0005,
   '0006_field': m0006,
 };

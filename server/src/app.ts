@@ -18,6 +18,7 @@ import { registerSiteRoutes } from './routes/sites';
 import { registerSystemRoutes } from './routes/system';
 import { registerUploadRoutes } from './routes/uploads';
 import { registerPermitRoutes } from './routes/permits';
+import { registerInspectionRoutes } from './routes/inspections';
 
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../dist/client');
 
@@ -101,6 +102,7 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerFieldRoutes(api);
   registerExcavationRoutes(api);
   registerSitePlanRoutes(api);
+  registerInspectionRoutes(api);
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
 

@@ -107,6 +107,8 @@ export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodTy
   responses?: Record<number, string>;
   /** The body is multipart/form-data with these file fields. */
   files?: string[];
+  /** With `files`: a multipart text field holding JSON of this schema (also accepted alone as application/json). */
+  formJson?: { field: string; schema: ZodType };
   /** The answer is not JSON (a file, a PDF, CSV). */
   produces?: string;
 }

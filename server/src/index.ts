@@ -5,6 +5,7 @@ import { MailCatcher } from './mail/catcher';
 import { migrateToLatest } from '@db/migrate';
 import { DEMO_PASSWORD, demoPeople } from '@db/seed/people';
 import { startPermitJobs } from './jobs/permits';
+import { startInspectionJobs } from './jobs/inspections';
 
 // Starts Brink: database migrations, the job queue, the local mail catcher, and one Express
 // process serving the app and the API.
@@ -14,6 +15,7 @@ const { deps } = runtime;
 await migrateToLatest(deps.db);
 // Permits go Live and Lapse on the clock; reminders before a window closes.
 await startPermitJobs(deps);
+await startInspectionJobs(deps);
 
 const catcher = new MailCatcher(deps.db);
 if (config.mailCatcher.enabled) {

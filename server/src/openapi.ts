@@ -67,12 +67,22 @@ export function openApiDocument(specs: RouteSpec<ZodType, ZodType, ZodType>[]): 
     if (spec.body) {
       op.requestBody = { required: true, content: { 'application/json': { schema: jsonSchema(spec.body) } } };
     } else if (spec.files?.length) {
+      const fileProps = Object.fromEntries(spec.files.map((f) => [f, { type: 'string', format: 'binary' }]));
+      const form = spec.formJson;
       op.requestBody = {
         required: true,
         content: {
           'multipart/form-data': {
-            schema: { type: 'object', properties: Object.fromEntries(spec.files.map((f) => [f, { type: 'string', format: 'binary' }])) },
+            schema: {
+              type: 'object',
+              properties: {
+                ...(form ? { [form.field]: { type: 'string', contentMediaType: 'application/json', contentSchema: jsonSchema(form.schema) } } : {}),
+                ...fileProps,
+              },
+              ...(form ? { required: [form.field] } : {}),
+            },
           },
+          ...(form ? { 'application/json': { schema: jsonSchema(form.schema) } } : {}),
         },
       };
     }

@@ -81,6 +81,14 @@ export const matrix: Record<string, Row> = {
   'PUT /api/sites/:siteId/plan': { allow: ['admin', 'coordinator', 'supervisor'] },
   'PATCH /api/sites/:siteId/plan': { allow: ['admin', 'coordinator', 'supervisor'], body: { opacity: 'dim' } },
   'DELETE /api/sites/:siteId/plan': { allow: ['admin', 'coordinator', 'supervisor'] },
+  'POST /api/excavations/:id/inspections': { allow: ['coordinator', 'supervisor'], body: {} },
+  'GET /api/excavations/:id/inspections': { allow: ['admin', ...siteMembers] },
+  'GET /api/excavations/:id/inspections.csv': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/inspections/states': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/inspections/overdue': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/inspections/report.pdf': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/shifts': { allow: ['admin', ...siteMembers] },
+  'PUT /api/sites/:siteId/shifts': { allow: ['admin', 'coordinator'], body: {} },
 };
 
 let t: TestApp;

@@ -1,14 +1,21 @@
 import { QueryClientProvider } from '@tanstack/react-query';
 import { RouterProvider } from 'react-router-dom';
 import { createQueryClient } from '@client/lib/queryClient';
+import { DashboardSlotsContext, type DashboardSlots } from '@client/features/dashboard/slots';
+import { DuePanel } from '@client/features/inspections';
 import { router } from './router';
 
 const queryClient = createQueryClient();
 
+/** Panels the features lend the dashboard. */
+const dashboardSlots: DashboardSlots = { inspectionsDue: DuePanel };
+
 export function App() {
   return (
     <QueryClientProvider client={queryClient}>
-      <RouterProvider router={router} />
+      <DashboardSlotsContext.Provider value={dashboardSlots}>
+        <RouterProvider router={router} />
+      </DashboardSlotsContext.Provider>
     </QueryClientProvider>
   );
 }

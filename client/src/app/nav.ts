@@ -21,6 +21,7 @@ export const navItems: NavItem[] = [
   { label: 'Permits', to: '/sites/:siteId/permits', who: ['supervisor', 'coordinator', 'operator'] },
   { label: 'My permits (phone view)', to: '/field', who: ['operator'] },
   { label: 'Register', to: '/sites/:siteId/register' },
+  { label: 'Inspections', to: '/sites/:siteId/inspections', who: ['supervisor', 'coordinator', 'operator'] },
   { label: 'Plant', to: '/plant' },
   { label: 'People', to: '/admin/people', who: 'admin' },
   { label: 'Sites', to: '/admin/sites', who: 'admin' },

@@ -4,6 +4,7 @@ import { authRoutes } from '@client/features/auth';
 import { dashboardRoutes } from '@client/features/dashboard';
 import { fieldRoutes } from '@client/features/field';
 import { permitRoutes, permitSiteRoutes } from '@client/features/permits';
+import { inspectionRoutes } from '@client/features/inspections';
 import { mapRoutes } from '@client/features/map';
 import { plantRoutes } from '@client/features/plant';
 import { registerRoutes } from '@client/features/register';
@@ -16,7 +17,7 @@ import { HomeRedirect, SiteScope } from './SiteScope';
  * Pages of one site, under /sites/:siteId (members of that site and administrators only).
  * Add one with a line, e.g. `{ path: 'map', Component: SiteMapPage },`, and its link in nav.ts.
  */
-const siteRoutes: RouteObject[] = [...dashboardRoutes, ...mapRoutes, ...registerRoutes, ...permitSiteRoutes];
+const siteRoutes: RouteObject[] = [...dashboardRoutes, ...mapRoutes, ...registerRoutes, ...permitSiteRoutes, ...inspectionRoutes];
 
 /** Other signed-in pages, e.g. `{ path: 'permits/:permitId', Component: PermitPage },`. */
 const signedInRoutes: RouteObject[] = [...plantRoutes, ...permitRoutes];

@@ -1,4 +1,4 @@
-import { useId, type InputHTMLAttributes, type ReactNode, type Ref, type SelectHTMLAttributes } from 'react';
+import { useId, type InputHTMLAttributes, type ReactNode, type Ref, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
 import { fieldSentence } from '@client/lib/forms';
 
 const controlClass =
@@ -61,6 +61,23 @@ export function TextField({ label, hint, error, className = '', ...input }: Text
   return (
     <FieldFrame id={id} label={label} hint={hint} error={error}>
       <input id={id} className={`${controlClass} ${className}`} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, error)} {...input} />
+    </FieldFrame>
+  );
+}
+
+interface TextAreaFieldProps extends Omit<TextareaHTMLAttributes<HTMLTextAreaElement>, 'id'> {
+  label: string;
+  hint?: ReactNode;
+  error?: string;
+  ref?: Ref<HTMLTextAreaElement>;
+}
+
+/** A labelled text box of several lines (notes, remarks). */
+export function TextAreaField({ label, hint, error, className = '', rows = 2, ...textarea }: TextAreaFieldProps) {
+  const id = useId();
+  return (
+    <FieldFrame id={id} label={label} hint={hint} error={error}>
+      <textarea id={id} rows={rows} className={`${controlClass} ${className}`} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, error)} {...textarea} />
     </FieldFrame>
   );
 }

@@ -46,6 +46,21 @@ export interface StoredUpload {
 }
 
 /**
+ * The type of a received file judged from its content; a file of the wrong type answers 400 naming
+ * the field. storeUpload calls it; call it yourself to check several files before storing any.
+ */
+export async function checkUploadType(file: Express.Multer.File, field: string, accept: Accept): Promise<{ mime: string; ext: string }> {
+  const rule = accepts[accept];
+  const detected = await fileTypeFromBuffer(file.buffer);
+  if (!detected || !(rule.mimes as readonly string[]).includes(detected.mime)) {
+    throw new HttpError(400, 'invalid', `The file in ${field} must be ${rule.words}; its content is ${detected ? detected.mime : 'not a known type'}.`, {
+      [field]: `must be ${rule.words}`,
+    });
+  }
+  return detected;
+}
+
+/**
  * Checks a received file's type from its content and keeps it under UPLOAD_DIR (outside the web
  * root), recording it in `uploads`. A file of the wrong type answers 400 naming the field.
  */
@@ -54,13 +69,7 @@ export async function storeUpload(
   file: Express.Multer.File,
   opts: { field: string; accept: Accept; purpose: string; siteId: number | null; userId: number | null; db?: Db },
 ): Promise<StoredUpload> {
-  const rule = accepts[opts.accept];
-  const detected = await fileTypeFromBuffer(file.buffer);
-  if (!detected || !(rule.mimes as readonly string[]).includes(detected.mime)) {
-    throw new HttpError(400, 'invalid', `The file in ${opts.field} must be ${rule.words}; its content is ${detected ? detected.mime : 'not a known type'}.`, {
-      [opts.field]: `must be ${rule.words}`,
-    });
-  }
+  const detected = await checkUploadType(file, opts.field, opts.accept);
   const key = path.join(new Date().toISOString().slice(0, 7), `${randomUUID()}.${detected.ext}`);
   const full = path.resolve(deps.config.uploadDir, key);
   await mkdir(path.dirname(full), { recursive: true });

@@ -4,33 +4,41 @@ import { Panel } from '@client/components/Page';
 import { Loading } from '@client/components/Status';
 import { usePeopleCount } from '../api/dashboard';
 import { ComingPanel, RoleSection } from './RoleSection';
+import { useDashboardSlots } from '../slots';
 
-export function SupervisorPanels({ canInspect }: { canInspect: boolean }) {
+interface SiteOfPanel {
+  siteId: number;
+  timeZone: string;
+  canInspect: boolean;
+}
+
+/** The inspection panel from its feature, or the "not yet connected" panel when the app gave none. */
+function InspectionsDue({ site, fallback }: { site: SiteOfPanel; fallback: string }) {
+  const { inspectionsDue: Due } = useDashboardSlots();
+  return Due ? <Due {...site} /> : <ComingPanel title="Excavations due for inspection" lists={fallback} />;
+}
+
+export function SupervisorPanels({ site }: { site: SiteOfPanel }) {
   return (
     <RoleSection title={roleLabels.supervisor} intro="Ask for permits, brief the operators, hand permits back.">
       <ComingPanel title="My requests" lists="The permits you have asked for, and where each one stands." />
       <ComingPanel title="Live on this site today" lists="Permits whose window is open today, with their operators." />
-      {canInspect ? (
-        <ComingPanel title="Excavations due for inspection" lists="Open excavations not yet inspected this shift." />
-      ) : null}
+      <InspectionsDue site={site} fallback="Open excavations not yet inspected this shift." />
     </RoleSection>
   );
 }
 
-export function CoordinatorPanels({ canInspect }: { canInspect: boolean }) {
+export function CoordinatorPanels({ site }: { site: SiteOfPanel }) {
   return (
     <RoleSection title={roleLabels.coordinator} intro="Review and decide permits, keep the excavation register, suspend work when needed.">
       <ComingPanel title="Permits awaiting my review" lists="Requests sent to you for a decision, oldest first." />
       <ComingPanel title="Live now" lists="Every live permit on this site, with its standoff." />
-      <ComingPanel
-        title="Excavations due for inspection"
-        lists={canInspect ? 'Open excavations not yet inspected this shift.' : 'Open excavations not yet inspected this shift, and who is due to inspect them.'}
-      />
+      <InspectionsDue site={site} fallback="Open excavations not yet inspected this shift." />
     </RoleSection>
   );
 }
 
-export function OperatorPanels() {
+export function OperatorPanels({ site }: { site: SiteOfPanel }) {
   return (
     <RoleSection title={roleLabels.operator} intro="See the permits that name you and where loads may go.">
       <Panel title="My permits" level={3}>
@@ -39,6 +47,7 @@ export function OperatorPanels() {
           <Link to="/field">Open my permits</Link>
         </p>
       </Panel>
+      {site.canInspect ? <InspectionsDue site={site} fallback="Open excavations not yet inspected this shift." /> : null}
     </RoleSection>
   );
 }

@@ -15,12 +15,13 @@ export function DashboardPage() {
   if (!me.data || !site) return null; // the site scope above has already answered this case
 
   const role = roleOnSite(me.data, site.id);
-  const canInspect = canInspectOnSite(me.data, site.id);
+  // Supervisors and coordinators may always inspect; operators where the site gives them the duty.
+  const panelSite = { siteId: site.id, timeZone: site.timezone, canInspect: role === 'supervisor' || role === 'coordinator' || canInspectOnSite(me.data, site.id) };
   return (
     <Page title={site.name} intro="Your dashboard for this site." documentTitle={`Dashboard, ${site.name}`}>
-      {role === 'supervisor' ? <SupervisorPanels canInspect={canInspect} /> : null}
-      {role === 'coordinator' ? <CoordinatorPanels canInspect={canInspect} /> : null}
-      {role === 'operator' ? <OperatorPanels /> : null}
+      {role === 'supervisor' ? <SupervisorPanels site={panelSite} /> : null}
+      {role === 'coordinator' ? <CoordinatorPanels site={panelSite} /> : null}
+      {role === 'operator' ? <OperatorPanels site={panelSite} /> : null}
       {me.data.isAdmin ? <AdministratorPanels siteCount={sites.data.length} /> : null}
       {!role && !me.data.isAdmin ? <p>You hold no role on this site. Ask an administrator to add you.</p> : null}
     </Page>

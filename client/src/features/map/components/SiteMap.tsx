@@ -5,7 +5,8 @@ import { BaseMap } from '@client/components/map/BaseMap';
 import type { GeoJsonObject } from 'geojson';
 import { stateLabels, supportLabels, type Excavation, type SitePlan } from '@shared/schemas/excavations';
 import { fmt } from '@client/lib/excavations';
-import { draftStyle, influenceStyle, selectedStyle, stateStyles } from './mapStyles';
+import { stateLabels as inspectionLabels, type InspectionState } from '@shared/schemas/inspections';
+import { draftStyle, influenceStyle, inspectionStyles, selectedStyle, stateStyles } from './mapStyles';
 
 interface SiteMapProps {
   origin: { latitude: number; longitude: number };
@@ -23,6 +24,8 @@ interface SiteMapProps {
   mapRef?: Ref<L.Map | null>;
   /** Bring these bounds ([[south, west], [north, east]]) into view whenever the key changes. */
   focus?: { key: string; bounds: [[number, number], [number, number]] } | null;
+  /** The inspection state of each open excavation this shift, by id (red when not safe or overdue). */
+  inspection?: Record<number, InspectionState>;
 }
 
 function FocusOn({ focus }: { focus: SiteMapProps['focus'] }) {
@@ -34,12 +37,17 @@ function FocusOn({ focus }: { focus: SiteMapProps['focus'] }) {
   return null;
 }
 
-function ExcavationShape({ e, selected, onSelect }: { e: Excavation; selected: boolean; onSelect: (id: number) => void }) {
+function ExcavationShape({ e, selected, onSelect, inspection }: { e: Excavation; selected: boolean; onSelect: (id: number) => void; inspection?: InspectionState }) {
   if (!e.outline) return null;
-  const style = { ...stateStyles[e.state], ...(selected ? selectedStyle : {}), className: `brink-excavation brink-state-${e.state} brink-excavation-${e.id}` };
+  const style = {
+    ...stateStyles[e.state],
+    ...(inspection ? inspectionStyles[inspection] : {}),
+    ...(selected ? selectedStyle : {}),
+    className: `brink-excavation brink-state-${e.state} brink-excavation-${e.id}${inspection ? ` brink-inspection-${inspection}` : ''}`,
+  };
   return (
     <GeoJSON
-      key={`${e.id}-${e.version}-${selected}`}
+      key={`${e.id}-${e.version}-${selected}-${inspection ?? ''}`}
       data={e.outline}
       style={() => style}
       eventHandlers={{ click: () => onSelect(e.id) }}
@@ -49,6 +57,7 @@ function ExcavationShape({ e, selected, onSelect }: { e: Excavation; selected: b
           {e.reference} · {stateLabels[e.state]}
         </span>
         <span className="block">{e.name}</span>
+        {inspection ? <span className="block font-semibold">{inspectionLabels[inspection]}</span> : null}
         <span className="block">Depth {fmt.m(e.depth)}</span>
         <span className="block">{supportLabels[e.supportType]}</span>
         <span className="block">Surcharge allowance {fmt.kPa(e.designSurcharge)}</span>
@@ -62,7 +71,7 @@ function ExcavationShape({ e, selected, onSelect }: { e: Excavation; selected: b
  * Drawing tools come in as children.
  */
 export function SiteMap(props: SiteMapProps) {
-  const { origin, excavations, selectedId, hiddenId, onSelect, plan, planOpacity, draft, children, mapRef, focus } = props;
+  const { origin, excavations, selectedId, hiddenId, onSelect, plan, planOpacity, draft, children, mapRef, focus, inspection } = props;
   const shown = excavations.filter((e) => e.id !== hiddenId);
   return (
     <BaseMap origin={origin} ariaLabel="Site map" plan={plan} planOpacity={planOpacity} mapRef={mapRef}>
@@ -73,7 +82,7 @@ export function SiteMap(props: SiteMapProps) {
         ))}
       {draft?.zone ? <GeoJSON key={`draft-zone-${JSON.stringify(draft.zone)}`} data={draft.zone} style={() => influenceStyle} interactive={false} /> : null}
       {shown.map((e) => (
-        <ExcavationShape key={e.id} e={e} selected={e.id === selectedId} onSelect={onSelect} />
+        <ExcavationShape key={e.id} e={e} selected={e.id === selectedId} onSelect={onSelect} inspection={inspection?.[e.id]} />
       ))}
       {draft?.outline ? <GeoJSON key={`draft-${JSON.stringify(draft.outline)}`} data={draft.outline} style={() => draftStyle} interactive={false} /> : null}
       <FocusOn focus={focus} />

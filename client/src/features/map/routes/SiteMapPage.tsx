@@ -9,6 +9,9 @@ import { useDocumentTitle } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
 import { fmt, useExcavations, useSitePlan } from '@client/lib/excavations';
 import { parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
+import { useInspectionStates } from '@client/lib/inspectionStates';
+import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
+import type { InspectionState } from '@shared/schemas/inspections';
 import { useDeleteExcavation, useDrawing, useSaveExcavation } from '../api/excavations';
 import { DrawTools, finishDrawing, type DrawShape } from '../components/DrawTools';
 import { ExcavationForm } from '../components/ExcavationForm';
@@ -84,6 +87,8 @@ export function SiteMapPage() {
   const [focus, setFocus] = useState<{ key: string; bounds: [[number, number], [number, number]] } | null>(null);
   const showOnMap = (e: Excavation) => setFocus({ key: `${e.id}-${Date.now()}`, bounds: boundsOf(e) });
   const list = useMemo(() => excavations.data ?? [], [excavations.data]);
+  const inspections = useInspectionStates(siteId);
+  const inspectionById = useMemo(() => Object.fromEntries((inspections.data?.excavations ?? []).map((x) => [x.excavationId, x.state])), [inspections.data]);
 
   const open = useCallback(
     (e: Excavation) => {
@@ -193,6 +198,7 @@ export function SiteMapPage() {
             planOpacity={planOpacity}
             draft={editing ? previewShapes(preview, site) : null}
             focus={focus}
+            inspection={inspectionById}
           >
             <DrawTools drawing={drawing} onDrawn={onDrawn} editing={editing?.shapeKey ? { key: editing.shapeKey, geometry: editing.geometry } : null} onEdited={onEdited} />
           </SiteMap>
@@ -242,7 +248,7 @@ export function SiteMapPage() {
           ) : (
             <>
               <Legend />
-              <ExcavationList list={list} onOpen={(e) => { open(e); showOnMap(e); }} />
+              <ExcavationList list={list} inspection={inspectionById} onOpen={(e) => { open(e); showOnMap(e); }} />
               <PlanControls siteId={siteId} origin={site} plan={plan.data ?? null} canEdit={canEdit} opacity={planOpacity} onOpacity={setOpacity} />
             </>
           )}
@@ -292,7 +298,7 @@ function Legend() {
   );
 }
 
-function ExcavationList({ list, onOpen }: { list: Excavation[]; onOpen: (e: Excavation) => void }) {
+function ExcavationList({ list, onOpen, inspection }: { list: Excavation[]; onOpen: (e: Excavation) => void; inspection: Record<number, InspectionState> }) {
   if (list.length === 0) return <p className="text-ink-soft">No excavations on this site yet.</p>;
   return (
     <SideSection id="map-list" title="Excavations">
@@ -301,6 +307,11 @@ function ExcavationList({ list, onOpen }: { list: Excavation[]; onOpen: (e: Exca
           <li key={e.id}>
             <button type="button" className="w-full rounded-md px-2 py-2 text-left hover:bg-accent-wash" onClick={() => onOpen(e)}>
               <span className="font-semibold">{e.reference}</span> {e.name}
+              {inspection[e.id] && inspection[e.id] !== 'ok' ? (
+                <span className="block">
+                  <InspectionStateBadge state={inspection[e.id]} />
+                </span>
+              ) : null}
               <span className="block text-sm text-ink-soft">
                 {stateLabels[e.state]} · depth {fmt.m(e.depth)} · {supportLabels[e.supportType]} · allowance {fmt.kPa(e.designSurcharge)}
               </span>

@@ -21,12 +21,27 @@ import { excavationKeys, fmt, postForm, useExcavations } from '@client/lib/excav
 import { formatDateTime } from '@client/lib/labels';
 import { parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
 import { registerCsv } from '../csv';
+import { useInspectionStates } from '@client/lib/inspectionStates';
+import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
+import type { InspectionState } from '@shared/schemas/inspections';
+
+/** A register row with its inspection state this shift (open excavations only). */
+type ExcavationWithInspection = Excavation & { inspection?: InspectionState };
 
 const columns: ColumnDef<Excavation>[] = [
   { accessorKey: 'reference', header: 'Reference' },
   { accessorKey: 'name', header: 'Name' },
   { accessorKey: 'kind', header: 'Kind', cell: (c) => kindLabels[c.row.original.kind] },
   { accessorKey: 'state', header: 'State', cell: (c) => stateLabels[c.row.original.state], filterFn: 'equalsString' },
+  {
+    id: 'inspection',
+    header: 'Inspection this shift',
+    accessorFn: (e) => (e as ExcavationWithInspection).inspection ?? '',
+    cell: (c) => {
+      const state = (c.row.original as ExcavationWithInspection).inspection;
+      return state ? <InspectionStateBadge state={state} /> : '—';
+    },
+  },
   { accessorKey: 'depth', header: 'Depth', cell: (c) => fmt.m(c.row.original.depth), meta: { numeric: true } },
   { accessorKey: 'width', header: 'Width', cell: (c) => fmt.m(c.row.original.width), meta: { numeric: true }, sortUndefined: 'last' },
   { accessorKey: 'supportType', header: 'Support', cell: (c) => supportLabels[c.row.original.supportType], filterFn: 'equalsString' },
@@ -59,6 +74,11 @@ export function RegisterPage() {
   const me = useMe().data;
   const site = useMySites().data?.find((s) => s.id === siteId);
   const q = useExcavations(siteId);
+  const inspections = useInspectionStates(siteId);
+  const withInspection = useMemo<ExcavationWithInspection[]>(() => {
+    const byId = new Map((inspections.data?.excavations ?? []).map((x) => [x.excavationId, x.state]));
+    return (q.data ?? []).map((e) => ({ ...e, inspection: byId.get(e.id) }));
+  }, [q.data, inspections.data]);
   const [sorting, setSorting] = useState<SortingState>([{ id: 'reference', desc: false }]);
   const [globalFilter, setGlobalFilter] = useState('');
   const [state, setState] = useState('');
@@ -72,7 +92,7 @@ export function RegisterPage() {
     [state, support],
   );
   const table = useReactTable({
-    data: q.data ?? [],
+    data: withInspection,
     columns,
     state: { sorting, globalFilter, columnFilters },
     onSortingChange: setSorting,

@@ -1,0 +1,13 @@
+import { createContext, useContext, type ComponentType } from 'react';
+
+/**
+ * Panels that other features give the dashboard. The app fills them in (app/App.tsx), so the
+ * dashboard does not import other features; a slot left empty shows its "not yet connected" panel.
+ */
+export interface DashboardSlots {
+  /** "Excavations due for inspection" for the site. */
+  inspectionsDue?: ComponentType<{ siteId: number; timeZone: string; canInspect: boolean }>;
+}
+
+export const DashboardSlotsContext = createContext<DashboardSlots>({});
+export const useDashboardSlots = () => useContext(DashboardSlotsContext);

@@ -1,0 +1,90 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { Inspection, InspectionData, InspectionState, ShiftNow, ShiftsInput } from '@shared/schemas/inspections';
+import type { ShiftDef } from '@shared/time/shifts';
+import { api, ApiError, errorFromResponse } from '@client/lib/api';
+import { inspectionStatesKey } from '@client/lib/inspectionStates';
+
+export interface ExcavationInspections {
+  excavation: { id: number; siteId: number; reference: string; name: string; state: 'planned' | 'open' | 'backfilled' };
+  shift: ShiftNow;
+  timeZone: string;
+  inspectionState: InspectionState | null;
+  inspections: Inspection[];
+}
+
+export interface RecordedInspection {
+  inspection: Inspection;
+  consequences: {
+    suspended: { id: number; reference: string }[];
+    notSuspended: { id: number; reference: string; why: string }[];
+    notified: string[];
+  } | null;
+}
+
+export const inspectionKeys = {
+  excavation: (id: number) => ['inspections', 'excavation', id] as const,
+  shifts: (siteId: number) => ['inspections', 'shifts', siteId] as const,
+};
+
+export function useExcavationInspections(excavationId: number | null) {
+  return useQuery({
+    queryKey: inspectionKeys.excavation(excavationId ?? 0),
+    queryFn: ({ signal }) => api.get<ExcavationInspections>(`/api/excavations/${excavationId}/inspections`, signal),
+    enabled: excavationId !== null,
+  });
+}
+
+/**
+ * Sends the form and its photos as multipart/form-data (the JSON in `inspection`, files in
+ * `photos`). Throws ApiError: status 0 when there is no connection (the draft stays on the phone).
+ */
+export async function sendInspection(excavationId: number, data: InspectionData, photos: Blob[]): Promise<RecordedInspection> {
+  const body = new FormData();
+  body.append('inspection', JSON.stringify(data));
+  photos.forEach((p, i) => body.append('photos', p, p instanceof File ? p.name : `photo-${i + 1}.jpg`));
+  let res: Response;
+  try {
+    res = await fetch(`/api/excavations/${excavationId}/inspections`, { method: 'POST', body, credentials: 'same-origin', headers: { Accept: 'application/json' } });
+  } catch {
+    throw new ApiError(0, 'network', 'No connection: the inspection was not sent. Your answers and photos are kept on this phone; send again when you have signal.');
+  }
+  if (!res.ok) throw await errorFromResponse(res);
+  return (await res.json()) as RecordedInspection;
+}
+
+export function useRecordInspection(siteId: number, excavationId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ data, photos }: { data: InspectionData; photos: Blob[] }) => sendInspection(excavationId, data, photos),
+    onSuccess: () => {
+      void queryClient.invalidateQueries({ queryKey: inspectionKeys.excavation(excavationId) });
+      void queryClient.invalidateQueries({ queryKey: inspectionStatesKey(siteId) });
+      // Permits on this excavation may have been suspended.
+      void queryClient.invalidateQueries({ queryKey: ['permits'] });
+    },
+  });
+}
+
+export interface ShiftsAnswer {
+  timeZone: string;
+  shifts: ShiftDef[];
+  current: ShiftNow;
+}
+
+export function useShifts(siteId: number) {
+  return useQuery({
+    queryKey: inspectionKeys.shifts(siteId),
+    queryFn: ({ signal }) => api.get<ShiftsAnswer>(`/api/sites/${siteId}/shifts`, signal),
+  });
+}
+
+export function useSaveShifts(siteId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: ShiftsInput) => api.put<ShiftsAnswer>(`/api/sites/${siteId}/shifts`, body),
+    onSuccess: (answer) => {
+      queryClient.setQueryData(inspectionKeys.shifts(siteId), answer);
+      void queryClient.invalidateQueries({ queryKey: inspectionStatesKey(siteId) });
+    },
+  });
+}

@@ -1,0 +1,57 @@
+import { Link } from 'react-router-dom';
+import { formatSiteTime } from '@shared/time/shifts';
+import { Panel } from '@client/components/Page';
+import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
+import { LoadError, Loading } from '@client/components/Status';
+import { useInspectionStates } from '@client/lib/inspectionStates';
+import { ButtonLink } from '@client/components/Button';
+
+/**
+ * "Excavations due for inspection" on the dashboards: the open excavations without a safe
+ * inspection this shift, each with its state and, for those who may inspect, a button to do it.
+ */
+export function DuePanel({ siteId, timeZone, canInspect }: { siteId: number; timeZone: string; canInspect: boolean }) {
+  const states = useInspectionStates(siteId);
+  const waiting = states.data?.excavations.filter((e) => e.state !== 'ok') ?? [];
+  return (
+    <Panel title="Excavations due for inspection" level={3}>
+      {states.isPending ? (
+        <Loading what="Checking the inspections" />
+      ) : states.isError ? (
+        <LoadError error={states.error} retry={() => states.refetch()} />
+      ) : (
+        <>
+          <p className="text-ink-soft">
+            {states.data.shift.name} from {formatSiteTime(new Date(states.data.shift.start), timeZone)}; overdue from{' '}
+            {formatSiteTime(new Date(states.data.shift.overdueFrom), timeZone).slice(-5)}.
+          </p>
+          {states.data.excavations.length === 0 ? (
+            <p>No excavation is open.</p>
+          ) : waiting.length === 0 ? (
+            <p>Every open excavation has a safe inspection this shift.</p>
+          ) : (
+            <ul className="flex flex-col gap-3">
+              {waiting.map((e) => (
+                <li key={e.excavationId} className="flex flex-wrap items-center justify-between gap-2">
+                  <span className="flex flex-wrap items-center gap-2">
+                    <strong>{e.reference}</strong> {e.name} <InspectionStateBadge state={e.state} />
+                  </span>
+                  {canInspect ? (
+                    <ButtonLink to={`/sites/${siteId}/excavations/${e.excavationId}/inspect`} aria-label={`Inspect ${e.reference}`}>
+                      Inspect
+                    </ButtonLink>
+                  ) : (
+                    <Link to={`/sites/${siteId}/excavations/${e.excavationId}/inspections`}>History</Link>
+                  )}
+                </li>
+              ))}
+            </ul>
+          )}
+          <p>
+            <Link to={`/sites/${siteId}/inspections`}>All inspections on this site</Link>
+          </p>
+        </>
+      )}
+    </Panel>
+  );
+}

@@ -1,0 +1,435 @@
+import { sql } from 'kysely';
+import type { Db } from '@db/database';
+import {
+  GRACE_MINUTES,
+  checklist,
+  type ExcavationInspectionState,
+  type Inspection,
+  type InspectionData,
+  type InspectionState,
+  type InspectionStatesAnswer,
+  type Outcome,
+} from '@shared/schemas/inspections';
+import { DEFAULT_SHIFTS, currentShift, formatSiteTime, type ShiftDef, type ShiftSpan } from '@shared/time/shifts';
+import { notice } from '../mail/mailer';
+import type { Deps } from '../deps';
+import { badRequest, conflict, notFound } from '../http';
+import { audit } from './audit';
+import { checkUploadType, storeUpload } from './uploads';
+import { inspectionActor } from './permits/actors';
+import { transition } from './permits/machine';
+import { withCurrentRevision } from './permits/read';
+
+// Shifts, inspection records, and where each open excavation stands this shift. The route module
+// (routes/inspections.ts) is thin; the scheduled e-mail is in jobs/inspections.ts and the weekly PDF
+// in services/inspection-report.ts.
+
+/* ---------------------------------------------------------------- shifts */
+
+/** The site's shifts in start order (one day shift at 07:00 when none are set). */
+export async function siteShifts(db: Db, siteId: number): Promise<ShiftDef[]> {
+  const rows = await db.selectFrom('site_shifts').select(['name', 'start_time']).where('site_id', '=', siteId).orderBy('start_time').execute();
+  return rows.length ? rows.map((r) => ({ name: r.name, start: r.start_time })) : [...DEFAULT_SHIFTS];
+}
+
+/** Replaces the site's shifts (one transaction, audited). */
+export async function setSiteShifts(db: Db, siteId: number, shifts: ShiftDef[], actorId: number): Promise<ShiftDef[]> {
+  await db.transaction().execute(async (trx) => {
+    await trx.deleteFrom('site_shifts').where('site_id', '=', siteId).execute();
+    await trx
+      .insertInto('site_shifts')
+      .values(shifts.map((s) => ({ site_id: siteId, name: s.name, start_time: s.start })))
+      .execute();
+    await audit(trx, { actorId, siteId, entity: 'site', entityId: siteId, action: 'shifts-set', detail: { shifts } });
+  });
+  return siteShifts(db, siteId);
+}
+
+export interface SiteClock {
+  siteId: number;
+  siteName: string;
+  timeZone: string;
+  shifts: ShiftDef[];
+  shift: ShiftSpan;
+  /** When an uninspected excavation becomes overdue this shift. */
+  overdueFrom: Date;
+}
+
+/** The site's time zone, shifts and current shift at `now`. */
+export async function siteClock(db: Db, siteId: number, now: Date): Promise<SiteClock> {
+  const site = await db.selectFrom('sites').select(['id', 'name', 'timezone']).where('id', '=', siteId).executeTakeFirst();
+  if (!site) throw notFound('That site');
+  const shifts = await siteShifts(db, siteId);
+  const shift = currentShift(shifts, site.timezone, now);
+  return { siteId, siteName: site.name, timeZone: site.timezone, shifts, shift, overdueFrom: new Date(shift.start.getTime() + GRACE_MINUTES * 60_000) };
+}
+
+/* ---------------------------------------------------------------- state */
+
+/**
+ * Where one open excavation stands: red (`unsafe`) while its latest inspection says not safe, else
+ * `ok` with a safe inspection since the shift started, else `due` inside the grace time and
+ * `overdue` after it.
+ */
+export function decideState(f: { latestOutcome: Outcome | null; lastSafeAt: Date | null; shiftStart: Date; overdueFrom: Date; now: Date }): InspectionState {
+  if (f.latestOutcome === 'not-safe') return 'unsafe';
+  if (f.lastSafeAt && f.lastSafeAt.getTime() >= f.shiftStart.getTime()) return 'ok';
+  return f.now.getTime() < f.overdueFrom.getTime() ? 'due' : 'overdue';
+}
+
+/**
+ * The inspection state of every open excavation of a site at `now` (or of the named ones). The map,
+ * the register and the dashboards read this through GET /api/sites/:siteId/inspections/states.
+ */
+export async function inspectionStates(db: Db, siteId: number, now: Date, opts: { excavationIds?: number[] } = {}): Promise<InspectionStatesAnswer & { clock: SiteClock }> {
+  const clock = await siteClock(db, siteId, now);
+  let q = db.selectFrom('excavations').select(['id', 'reference', 'name']).where('site_id', '=', siteId).where('state', '=', 'open').orderBy('reference');
+  if (opts.excavationIds) {
+    if (opts.excavationIds.length === 0) return { clock, shift: shiftOut(clock), excavations: [] };
+    q = q.where('id', 'in', opts.excavationIds);
+  }
+  const open = await q.execute();
+  const ids = open.map((e) => e.id);
+  const latest = ids.length
+    ? await db
+        .selectFrom('inspections')
+        .innerJoin('users', 'users.id', 'inspections.inspector_id')
+        .distinctOn('inspections.excavation_id')
+        .select(['inspections.excavation_id', 'inspections.id', 'inspections.inspected_at', 'inspections.outcome', 'users.name'])
+        .where('inspections.excavation_id', 'in', ids)
+        .where('inspections.inspected_at', '<=', now)
+        .orderBy('inspections.excavation_id')
+        .orderBy('inspections.inspected_at', 'desc')
+        .orderBy('inspections.id', 'desc')
+        .execute()
+    : [];
+  const lastSafe = ids.length
+    ? await db
+        .selectFrom('inspections')
+        .select(['excavation_id', sql<Date>`max(inspected_at)`.as('at')])
+        .where('excavation_id', 'in', ids)
+        .where('outcome', '=', 'safe')
+        .where('inspected_at', '<=', now)
+        .groupBy('excavation_id')
+        .execute()
+    : [];
+  const excavations: ExcavationInspectionState[] = open.map((e) => {
+    const l = latest.find((r) => r.excavation_id === e.id);
+    const s = lastSafe.find((r) => r.excavation_id === e.id);
+    const lastSafeAt = s ? new Date(s.at) : null;
+    return {
+      excavationId: e.id,
+      reference: e.reference,
+      name: e.name,
+      state: decideState({ latestOutcome: l?.outcome ?? null, lastSafeAt, shiftStart: clock.shift.start, overdueFrom: clock.overdueFrom, now }),
+      lastInspection: l ? { id: l.id, at: new Date(l.inspected_at).toISOString(), outcome: l.outcome, inspector: l.name } : null,
+      lastSafeAt: lastSafeAt?.toISOString() ?? null,
+    };
+  });
+  return { clock, shift: shiftOut(clock), excavations };
+}
+
+export function shiftOut(c: SiteClock): InspectionStatesAnswer['shift'] {
+  return { name: c.shift.name, start: c.shift.start.toISOString(), end: c.shift.end.toISOString(), overdueFrom: c.overdueFrom.toISOString() };
+}
+
+/** The open excavations still waiting for a safe inspection this shift (due, overdue or not safe). */
+export function needingInspection(list: ExcavationInspectionState[]): ExcavationInspectionState[] {
+  return list.filter((e) => e.state !== 'ok');
+}
+
+/* ---------------------------------------------------------------- records */
+
+export interface ExcavationRow {
+  id: number;
+  site_id: number;
+  reference: string;
+  name: string;
+  state: 'planned' | 'open' | 'backfilled';
+}
+
+export async function loadExcavation(db: Db, id: number): Promise<ExcavationRow> {
+  const e = await db.selectFrom('excavations').select(['id', 'site_id', 'reference', 'name', 'state']).where('id', '=', id).executeTakeFirst();
+  if (!e) throw notFound('That excavation');
+  return e;
+}
+
+/** The site of an excavation (for access rules), or null when there is no such excavation. */
+export async function siteOfExcavation(db: Db, id: number): Promise<number | null> {
+  if (!Number.isInteger(id) || id <= 0) return null;
+  const e = await db.selectFrom('excavations').select('site_id').where('id', '=', id).executeTakeFirst();
+  return e?.site_id ?? null;
+}
+
+/** How far back an inspection may be dated when it is recorded late. */
+export const BACKDATE_HOURS = 12;
+
+/**
+ * Checks and stores an inspection with its photos in one transaction and returns it. Consequences
+ * (suspending permits, e-mails) are the caller's next step: see `applyConsequences`.
+ * Sending the same `clientRef` again returns the inspection already stored (`created: false`).
+ */
+export async function recordInspection(
+  deps: Pick<Deps, 'db' | 'config' | 'now'>,
+  args: { excavationId: number; inspectorId: number; data: InspectionData; photos: Express.Multer.File[] },
+): Promise<{ inspection: Inspection; created: boolean }> {
+  const { db } = deps;
+  const { data } = args;
+  if (data.clientRef) {
+    const seen = await db.selectFrom('inspections').select(['id', 'excavation_id']).where('client_ref', '=', data.clientRef).executeTakeFirst();
+    if (seen) {
+      if (seen.excavation_id !== args.excavationId) throw badRequest('That form was already sent for another excavation.', { clientRef: 'belongs to another excavation' });
+      return { inspection: (await loadInspections(db, { ids: [seen.id] }))[0], created: false };
+    }
+  }
+  const exc = await loadExcavation(db, args.excavationId);
+  if (exc.state !== 'open') throw conflict(`Only open excavations are inspected; ${exc.reference} is ${exc.state}.`);
+
+  const now = deps.now();
+  const at = data.inspectedAt ? new Date(data.inspectedAt) : now;
+  if (at.getTime() > now.getTime() + 5 * 60_000) throw badRequest('The inspection time is in the future.', { inspectedAt: 'is in the future' });
+  if (at.getTime() < now.getTime() - BACKDATE_HOURS * 3600_000) {
+    throw badRequest(`The inspection time is more than ${BACKDATE_HOURS} hours ago.`, { inspectedAt: `may be at most ${BACKDATE_HOURS} hours ago` });
+  }
+  const previous = await db.selectFrom('inspections').select(sql<Date | null>`max(inspected_at)`.as('at')).where('excavation_id', '=', exc.id).executeTakeFirst();
+  if (previous?.at && at.getTime() < new Date(previous.at).getTime()) {
+    throw badRequest('The inspection time is before the latest inspection of this excavation.', { inspectedAt: 'is before the latest inspection of this excavation' });
+  }
+  // Judge every photo's type before storing any, so that a bad one leaves nothing behind.
+  for (const [i, f] of args.photos.entries()) await checkUploadType(f, `photos[${i}]`, 'image');
+
+  const clock = await siteClock(db, exc.site_id, at);
+  const stored = await db.transaction().execute(async (trx) => {
+    // The same form sent twice at once: the second waits here and finds the first.
+    if (data.clientRef) await sql`select pg_advisory_xact_lock(hashtext(${data.clientRef}))`.execute(trx);
+    const twin = data.clientRef ? await trx.selectFrom('inspections').select('id').where('client_ref', '=', data.clientRef).executeTakeFirst() : undefined;
+    if (twin) return { id: twin.id, created: false };
+    const row = await trx
+      .insertInto('inspections')
+      .values({
+        excavation_id: exc.id,
+        site_id: exc.site_id,
+        inspector_id: args.inspectorId,
+        inspected_at: at,
+        recorded_at: now,
+        shift_name: clock.shift.name,
+        shift_start: clock.shift.start,
+        reason: data.reason,
+        reason_detail: data.reasonDetail,
+        checklist: JSON.stringify(data.checklist),
+        outcome: data.outcome,
+        remarks: data.remarks,
+        client_ref: data.clientRef ?? null,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    for (const [i, f] of args.photos.entries()) {
+      const up = await storeUpload(deps, f, { field: `photos[${i}]`, accept: 'image', purpose: 'inspection-photo', siteId: exc.site_id, userId: args.inspectorId, db: trx });
+      await trx.insertInto('inspection_photos').values({ inspection_id: row.id, upload_id: up.id, position: i }).execute();
+    }
+    await audit(trx, {
+      actorId: args.inspectorId,
+      siteId: exc.site_id,
+      entity: 'excavation',
+      entityId: exc.id,
+      action: 'inspected',
+      detail: { inspectionId: row.id, outcome: data.outcome, reason: data.reason, failed: failedItems(data.checklist).map((f) => f.key) },
+    });
+    return { id: row.id, created: true };
+  });
+  return { inspection: (await loadInspections(db, { ids: [stored.id] }))[0], created: stored.created };
+}
+
+/** The checklist items answered "fail", with their labels and notes, in checklist order. */
+export function failedItems(answers: Record<string, { answer: string; note: string }>): { key: string; label: string; note: string }[] {
+  return checklist.filter((c) => answers[c.key]?.answer === 'fail').map((c) => ({ key: c.key, label: c.label, note: answers[c.key].note }));
+}
+
+/** Inspections, newest first, by id or by excavation / site and time span. */
+export async function loadInspections(
+  db: Db,
+  f: { ids?: number[]; excavationId?: number; siteId?: number; from?: Date; to?: Date; limit?: number },
+): Promise<Inspection[]> {
+  let q = db
+    .selectFrom('inspections')
+    .innerJoin('users', 'users.id', 'inspections.inspector_id')
+    .selectAll('inspections')
+    .select('users.name as inspector_name')
+    .orderBy('inspections.inspected_at', 'desc')
+    .orderBy('inspections.id', 'desc');
+  if (f.ids) q = q.where('inspections.id', 'in', f.ids.length ? f.ids : [0]);
+  if (f.excavationId !== undefined) q = q.where('inspections.excavation_id', '=', f.excavationId);
+  if (f.siteId !== undefined) q = q.where('inspections.site_id', '=', f.siteId);
+  if (f.from) q = q.where('inspections.inspected_at', '>=', f.from);
+  if (f.to) q = q.where('inspections.inspected_at', '<', f.to);
+  if (f.limit) q = q.limit(f.limit);
+  const rows = await q.execute();
+  if (!rows.length) return [];
+  const ids = rows.map((r) => r.id);
+  const photos = await db
+    .selectFrom('inspection_photos')
+    .innerJoin('uploads', 'uploads.id', 'inspection_photos.upload_id')
+    .select(['inspection_photos.inspection_id', 'uploads.id', 'uploads.original_name'])
+    .where('inspection_photos.inspection_id', 'in', ids)
+    .orderBy('inspection_photos.position')
+    .execute();
+  const suspended = await suspensionsOf(db, ids);
+  return rows.map((r) => ({
+    id: r.id,
+    excavationId: r.excavation_id,
+    siteId: r.site_id,
+    inspector: { id: r.inspector_id, name: r.inspector_name },
+    inspectedAt: new Date(r.inspected_at).toISOString(),
+    recordedAt: new Date(r.recorded_at).toISOString(),
+    shift: { name: r.shift_name, start: new Date(r.shift_start).toISOString() },
+    reason: r.reason,
+    reasonDetail: r.reason_detail,
+    checklist: r.checklist as Inspection['checklist'],
+    outcome: r.outcome,
+    remarks: r.remarks,
+    photos: photos.filter((p) => p.inspection_id === r.id).map((p) => ({ id: p.id, url: `/api/uploads/${p.id}`, name: p.original_name })),
+    suspendedPermits: suspended.filter((s) => s.inspectionId === r.id).map(({ id, reference }) => ({ id, reference })),
+  }));
+}
+
+async function suspensionsOf(db: Db, inspectionIds: number[]): Promise<{ inspectionId: number; id: number; reference: string }[]> {
+  const rows = await db
+    .selectFrom('inspection_suspensions as s')
+    .innerJoin('permits as p', 'p.id', 's.permit_id')
+    .select(['s.inspection_id', 'p.id', 'p.number'])
+    .where('s.inspection_id', 'in', inspectionIds)
+    .orderBy('p.id')
+    .execute();
+  return rows.map((r) => ({ inspectionId: r.inspection_id, id: r.id, reference: r.number }));
+}
+
+/** The site's supervisors and coordinators (active), who hear of failed and overdue inspections. */
+export async function siteLeads(db: Db, siteId: number): Promise<{ email: string; name: string }[]> {
+  return db
+    .selectFrom('site_members')
+    .innerJoin('users', 'users.id', 'site_members.user_id')
+    .select(['users.email', 'users.name'])
+    .where('site_members.site_id', '=', siteId)
+    .where('site_members.role', 'in', ['supervisor', 'coordinator'])
+    .where('users.active', '=', true)
+    .orderBy('users.email')
+    .execute();
+}
+
+/* ---------------------------------------------------------------- CSV */
+
+/** One CSV cell: quoted when needed; a leading = + - @ is neutralised so spreadsheets show it as text. */
+export function csvCell(v: unknown): string {
+  let s = v == null ? '' : String(v);
+  if (/^[=+\-@\t\r]/.test(s)) s = `'${s}`;
+  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+export function csvRows(rows: unknown[][]): string {
+  return rows.map((r) => r.map(csvCell).join(',')).join('\r\n') + '\r\n';
+}
+
+/* ---------------------------------------------------------------- consequences */
+
+export interface Consequences {
+  suspended: { id: number; reference: string }[];
+  /** Live permits Brink could not suspend (e.g. changed at the same moment); the leads are told to act. */
+  notSuspended: { id: number; reference: string; why: string }[];
+  notified: string[];
+}
+
+/**
+ * What follows a recorded inspection. "Not safe": every live permit on the excavation is suspended
+ * through the permits' own transition (same e-mails as a coordinator's suspension, the inspection
+ * as the reason), and the site's supervisors and coordinators are e-mailed. A safe inspection
+ * changes no permit: resuming stays the coordinator's decision. Once the inspection is stored this
+ * never throws: a permit that could not be suspended is listed in `notSuspended` (and in the
+ * e-mail) so that people act by hand.
+ */
+export async function applyConsequences(deps: Deps, inspection: Inspection): Promise<Consequences> {
+  const out: Consequences = { suspended: [], notSuspended: [], notified: [] };
+  if (inspection.outcome !== 'not-safe') return out;
+  const exc = await loadExcavation(deps.db, inspection.excavationId);
+  const reason = `Inspection ${inspection.id} of ${exc.reference} ${exc.name} found it not safe: ${inspection.remarks}`;
+  const result = await suspendLivePermits(deps, exc, inspection.id, reason);
+  out.suspended = result.suspended;
+  out.notSuspended = result.notSuspended;
+  if (out.suspended.length) {
+    await deps.db
+      .insertInto('inspection_suspensions')
+      .values(out.suspended.map((p) => ({ inspection_id: inspection.id, permit_id: p.id })))
+      .onConflict((oc) => oc.doNothing())
+      .execute();
+  }
+  try {
+    out.notified = await mailFailedInspection(deps, exc, inspection, out);
+  } catch (err) {
+    // The inspection and the suspensions stand; the answer says nobody was e-mailed.
+    console.error(`[inspections] e-mail about inspection ${inspection.id} could not be queued:`, (err as Error).message);
+  }
+  return out;
+}
+
+async function mailFailedInspection(deps: Deps, exc: ExcavationRow, inspection: Inspection, c: Consequences): Promise<string[]> {
+  const clock = await siteClock(deps.db, exc.site_id, new Date(inspection.inspectedAt));
+  const to = (await siteLeads(deps.db, exc.site_id)).map((p) => p.email);
+  const failed = failedItems(inspection.checklist);
+  await deps.mailer.send({
+    to,
+    ...notice({
+      subject: `Not safe: ${exc.reference} ${exc.name} failed its inspection`,
+      lines: [
+        `${inspection.inspector.name} inspected ${exc.reference} ${exc.name} at ${formatSiteTimeIn(clock, inspection.inspectedAt)} and found it NOT SAFE. Work in and beside it must stop.`,
+        `What must be put right: ${inspection.remarks}`,
+        ...(failed.length ? [`Failed checks: ${failed.map((f) => `${f.label} (${f.note})`).join('; ')}.`] : []),
+        c.suspended.length
+          ? `Brink suspended the live permits on it: ${c.suspended.map((p) => p.reference).join(', ')}. A coordinator resumes them when it is safe again.`
+          : 'There were no live permits on it to suspend.',
+        ...(c.notSuspended.length
+          ? [`Brink could NOT suspend ${c.notSuspended.map((p) => `${p.reference} (${p.why})`).join(', ')}: suspend these by hand now.`]
+          : []),
+        'It shows red on the map until a later inspection finds it safe.',
+      ],
+      link: { label: 'See the inspection', url: `${deps.config.publicUrl}/sites/${exc.site_id}/excavations/${exc.id}/inspections` },
+    }),
+  });
+  return to;
+}
+
+function formatSiteTimeIn(clock: SiteClock, iso: string): string {
+  return `${formatSiteTime(new Date(iso), clock.timeZone)} (${clock.timeZone})`;
+}
+
+/**
+ * Suspends every live permit on the excavation through the permits' own transition (their e-mails,
+ * timeline and audit), Brink acting for the inspection. A permit that stopped being live meanwhile
+ * (handed back, lapsed, or suspended by someone else) needs nothing; any other failure is reported.
+ */
+async function suspendLivePermits(
+  deps: Deps,
+  exc: ExcavationRow,
+  inspectionId: number,
+  reason: string,
+): Promise<{ suspended: Consequences['suspended']; notSuspended: Consequences['notSuspended'] }> {
+  const live = await withCurrentRevision(deps.db)
+    .select(['p.id', 'p.number'])
+    .where('p.status', '=', 'live')
+    .where('p.site_id', '=', exc.site_id)
+    .where(sql<boolean>`${exc.id}::int = any(r.excavation_ids)`)
+    .orderBy('p.id')
+    .execute();
+  const actor = inspectionActor(`Inspection ${inspectionId} of ${exc.reference}: not safe`);
+  const out: Awaited<ReturnType<typeof suspendLivePermits>> = { suspended: [], notSuspended: [] };
+  for (const p of live) {
+    try {
+      await transition(deps, p.id, 'suspend', actor, { reason });
+      out.suspended.push({ id: p.id, reference: p.number });
+    } catch (err) {
+      const now = await deps.db.selectFrom('permits').select('status').where('id', '=', p.id).executeTakeFirst();
+      if (now && now.status !== 'live') continue;
+      console.error(`[inspections] permit ${p.number} could not be suspended:`, (err as Error).message);
+      out.notSuspended.push({ id: p.id, reference: p.number, why: (err as Error).message });
+    }
+  }
+  return out;
+}
