@@ -3,11 +3,11 @@ import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
 import { MAX_PHOTOS, answerLabels, checklist, inspectionInputSchema, outcomeLabels, reasonLabels, shiftsInputSchema, weekQuerySchema } from '@shared/schemas/inspections';
 import { isoWeekAt, isoWeekRange, siteTimestamp } from '@shared/time/shifts';
+import { toCsv } from '@shared/csv';
 import { Api, badRequest, parseOr400, siteFromParam } from '../http';
 import { filesOf, limits, receiveFiles } from '../services/uploads';
 import {
   applyConsequences,
-  csvRows,
   inspectionStates,
   loadExcavation,
   loadInspections,
@@ -109,7 +109,7 @@ export function registerInspectionRoutes(api: Api): void {
       ]);
       res.setHeader('Content-Type', 'text/csv; charset=utf-8');
       res.setHeader('Content-Disposition', `attachment; filename="inspections-${exc.reference.replace(/[^A-Za-z0-9_-]+/g, '_')}.csv"`);
-      res.send('\uFEFF' + csvRows([header, ...rows]));
+      res.send('\uFEFF' + toCsv([header, ...rows]));
     },
   );
 

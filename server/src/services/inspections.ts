@@ -316,19 +316,6 @@ export async function siteLeads(db: Db, siteId: number): Promise<{ email: string
     .execute();
 }
 
-/* ---------------------------------------------------------------- CSV */
-
-/** One CSV cell: quoted when needed; a leading = + - @ is neutralised so spreadsheets show it as text. */
-export function csvCell(v: unknown): string {
-  let s = v == null ? '' : String(v);
-  if (/^[=+\-@\t\r]/.test(s)) s = `'${s}`;
-  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
-export function csvRows(rows: unknown[][]): string {
-  return rows.map((r) => r.map(csvCell).join(',')).join('\r\n') + '\r\n';
-}
-
 /* ---------------------------------------------------------------- consequences */
 
 export interface Consequences {

@@ -1,14 +1,15 @@
 import { describe, expect, it } from 'vitest';
 import type { Excavation } from '@shared/schemas/excavations';
-import { registerCsv, soilSummary, toCsv } from './csv';
+import { toCsv } from '@shared/csv';
+import { registerCsv, soilSummary } from './csv';
 
 describe('CSV (RFC 4180)', () => {
   it('quotes fields with commas, quotes and line breaks, and ends rows with CRLF', () => {
-    expect(toCsv(['a', 'b'], [['x, y', 'say "hi"'], ['two\nlines', 3.5]])).toBe('a,b\r\n"x, y","say ""hi"""\r\n"two\nlines",3.5\r\n');
+    expect(toCsv([['a', 'b'], ['x, y', 'say "hi"'], ['two\nlines', 3.5]])).toBe('a,b\r\n"x, y","say ""hi"""\r\n"two\nlines",3.5\r\n');
   });
 
   it('keeps text from running as a spreadsheet formula, but writes negative numbers as numbers', () => {
-    expect(toCsv(['v'], [['=HYPERLINK("x")'], ['@SUM(A1)'], [-2.5], [null]])).toBe('v\r\n"\'=HYPERLINK(""x"")"\r\n\'@SUM(A1)\r\n-2.5\r\n\r\n');
+    expect(toCsv([['v'], ['=HYPERLINK("x")'], ['@SUM(A1)'], [-2.5], [null]])).toBe('v\r\n"\'=HYPERLINK(""x"")"\r\n\'@SUM(A1)\r\n-2.5\r\n\r\n');
   });
 });
 

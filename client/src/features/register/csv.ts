@@ -1,19 +1,5 @@
+import { toCsv } from '@shared/csv';
 import { kindLabels, stateLabels, supportLabels, type Excavation } from '@shared/schemas/excavations';
-
-/**
- * CSV (RFC 4180): fields joined by commas, rows by CRLF; a field with a comma, quote or line break is
- * quoted and its quotes doubled. Text that a spreadsheet would run as a formula (starting with =, +,
- * -, @, tab or CR) is prefixed with an apostrophe; numbers are written as they are.
- */
-export function toCsv(header: string[], rows: (string | number | null)[][]): string {
-  const field = (v: string | number | null) => {
-    if (v === null) return '';
-    if (typeof v === 'number') return String(v);
-    const safe = /^[=+\-@\t\r]/.test(v) ? `'${v}` : v;
-    return /[",\r\n]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
-  };
-  return [header, ...rows].map((r) => r.map(field).join(',')).join('\r\n') + '\r\n';
-}
 
 /** The soil layers in one line: "0 m: γ 18, φ′ 27°; 0.5 m: γ 19.5, cu 50 kPa". */
 export function soilSummary(soil: Excavation['soil']): string {
@@ -49,9 +35,9 @@ export const registerCsvHeader = [
 
 /** The register's rows as CSV, in the order given (the table's sorted and filtered order). */
 export function registerCsv(list: Excavation[]): string {
-  return toCsv(
+  return toCsv([
     registerCsvHeader,
-    list.map((e) => [
+    ...list.map((e) => [
       e.reference,
       e.name,
       kindLabels[e.kind],
@@ -69,5 +55,5 @@ export function registerCsv(list: Excavation[]): string {
       e.notes,
       e.updatedAt,
     ]),
-  );
+  ]);
 }
