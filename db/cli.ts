@@ -1,7 +1,7 @@
 import { sql } from 'kysely';
 import { createDb, createPool } from './database';
 import { migrateToLatest } from './migrate';
-import { seedDemoIfEmpty } from './seed';
+import { seedDemoIfEmpty } from './demo';
 
 // `npm run db:migrate | db:seed | db:reset` against DATABASE_URL.
 const command = process.argv[2];

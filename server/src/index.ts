@@ -3,7 +3,7 @@ import { createApp } from './app';
 import { startRuntime } from './runtime';
 import { MailCatcher } from './mail/catcher';
 import { migrateToLatest } from '@db/migrate';
-import { DEMO_PASSWORD, demoPeople } from '@db/seed/people';
+import { DEMO_PASSWORD, demoPeople } from '@db/demo/people';
 import { startPermitJobs } from './jobs/permits';
 import { startInspectionJobs } from './jobs/inspections';
 

@@ -1,7 +1,7 @@
 import PgBoss from 'pg-boss';
 import { createDb, createPool } from '@db/database';
 import { migrateToLatest } from '@db/migrate';
-import { seedDemoIfEmpty } from '@db/seed';
+import { seedDemoIfEmpty } from '@db/demo';
 
 // Once before the API tests: bring the test database up to date, seed the demo site (the tests
 // use its people) and let the job queue create its schema before many app instances start.

@@ -6,7 +6,7 @@ import { loadConfig } from '../src/config';
 import { createApp } from '../src/app';
 import { startRuntime, type Runtime } from '../src/runtime';
 import { MailCatcher } from '../src/mail/catcher';
-import { DEMO_PASSWORD } from '@db/seed/people';
+import { DEMO_PASSWORD } from '@db/demo/people';
 import type { Deps } from '../src/deps';
 
 export { DEMO_PASSWORD };
