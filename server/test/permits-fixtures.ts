@@ -1,4 +1,4 @@
-import { randomUUID } from 'node:crypto';
+import { randomInt, randomUUID } from 'node:crypto';
 import bcrypt from 'bcryptjs';
 import request from 'supertest';
 import { localProjection } from '@shared/geometry';
@@ -7,7 +7,7 @@ import { demo, DEMO_PASSWORD, demoSiteId, signedIn, unique, type TestApp } from 
 
 /**
  * Fixtures of the permit tests: the demo site and people, a test trench of its own on the demo site
- * (an east-west pipe trench through the site origin, 30 m long, 1.0 m wide, 2.4 m deep, in hydraulic frames designed for
+ * (an east-west pipe trench at a place of its own on the demo site, 30 m long, 1.0 m wide, 2.4 m deep, in hydraulic frames designed for
  * the customary 10 kPa), and the library's 21 t excavator placed north of it at a chosen clear
  * distance with its tracks parallel to the trench.
  */
@@ -17,6 +17,8 @@ export interface PermitWorld {
   origin: [number, number];
   trenchId: number;
   trenchRef: string;
+  /** The trench's middle in site-local metres (east, north of the site origin). */
+  trenchCentre: [number, number];
   excavatorId: number;
   operatorId: number;
   supervisorId: number;
@@ -34,19 +36,35 @@ export async function newTrench(w: PermitWorld): Promise<void> {
   const t = await addTrench(w.t, w.siteId, w.origin);
   w.trenchId = t.id;
   w.trenchRef = t.reference;
+  w.trenchCentre = t.centre;
 }
 
-async function addTrench(t: TestApp, siteId: number, origin: [number, number]): Promise<{ id: number; reference: string }> {
+/**
+ * Each test trench gets a place of its own north of the demo excavations, so that a load beside one
+ * is never also beside another (the check counts every open excavation a load reaches).
+ */
+function freshCentre(): [number, number] {
+  const slot = randomInt(0, 100_000);
+  return [(slot % 100) * 60 - 3000, 500 + Math.floor(slot / 100) * 12];
+}
+
+/** Another open test trench, parallel to the world's, its centre line `north` metres north of it. */
+export async function trenchBeside(w: PermitWorld, north: number): Promise<{ id: number; reference: string }> {
+  return addTrench(w.t, w.siteId, w.origin, [w.trenchCentre[0], w.trenchCentre[1] + north]);
+}
+
+async function addTrench(t: TestApp, siteId: number, origin: [number, number], at = freshCentre()): Promise<{ id: number; reference: string; centre: [number, number] }> {
   const proj = localProjection(origin);
   const reference = `TT-${randomUUID().slice(0, 6)}`;
-  return t.deps.db
+  const [cx, cy] = at;
+  const row = await t.deps.db
     .insertInto('excavations')
     .values({
       site_id: siteId,
       reference,
       name: 'Test pipe trench',
       kind: 'trench',
-      geometry: JSON.stringify({ type: 'LineString', coordinates: [proj.toWgs84([-TRENCH.length / 2, 0]), proj.toWgs84([TRENCH.length / 2, 0])] }),
+      geometry: JSON.stringify({ type: 'LineString', coordinates: [proj.toWgs84([cx - TRENCH.length / 2, cy]), proj.toWgs84([cx + TRENCH.length / 2, cy])] }),
       width: TRENCH.width,
       depth: TRENCH.depth,
       state: 'open',
@@ -56,6 +74,7 @@ async function addTrench(t: TestApp, siteId: number, origin: [number, number]): 
     })
     .returning(['id', 'reference'])
     .executeTakeFirstOrThrow();
+  return { ...row, centre: [cx, cy] };
 }
 
 export async function makeWorld(t: TestApp): Promise<PermitWorld> {
@@ -89,6 +108,7 @@ export async function makeWorld(t: TestApp): Promise<PermitWorld> {
     origin: [site.longitude, site.latitude],
     trenchId: trench.id,
     trenchRef,
+    trenchCentre: trench.centre,
     excavatorId: excavator.id,
     operatorId: idOf(demo.operator),
     supervisorId: idOf(demo.supervisor),
@@ -102,7 +122,8 @@ export async function makeWorld(t: TestApp): Promise<PermitWorld> {
 export function excavatorAt(w: PermitWorld, clear: number, id = 'exc'): PlacedLoad {
   const proj = localProjection(w.origin);
   const centreNorth = TRENCH.width / 2 + clear + EXCAVATOR.shoe / 2 + EXCAVATOR.gauge / 2;
-  return { id, kind: 'plant', label: 'Excavator', plantItemId: w.excavatorId, position: proj.toWgs84([0, centreNorth]), rotation: 90 };
+  const [cx, cy] = w.trenchCentre;
+  return { id, kind: 'plant', label: 'Excavator', plantItemId: w.excavatorId, position: proj.toWgs84([cx, cy + centreNorth]), rotation: 90 };
 }
 
 export function hoursFrom(base: Date, h: number): string {

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { permitActions, permitStatuses, transitionRules, type PermitStatus } from '@shared/schemas/permits';
 import { DEMO_PASSWORD, startTestApp, type TestApp } from './helpers';
-import { act, createPermit, excavatorAt, forceStatus, makeWorld, newTrench, permitBody, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
+import { act, createPermit, excavatorAt, forceStatus, makeWorld, newTrench, permitBody, submitAndApprove, trenchBeside, version, type PermitWorld } from './permits-fixtures';
 
 let t: TestApp;
 let w: PermitWorld;
@@ -138,6 +138,22 @@ describe('editing', () => {
 });
 
 describe('the cumulative check', () => {
+  it('checks an open excavation the permit does not name when a load stands within its influence zone, and says so', async () => {
+    await newTrench(w);
+    // A second trench 6 m north: the excavator 0.5 m north of the named one has its far track
+    // 1.7 m from the second trench's edge, inside its influence zone (2.4 m deep).
+    const beside = await trenchBeside(w, 6);
+    const p = await createPermit(w, { loads: [excavatorAt(w, 0.5)] });
+    const r = await w.agents.supervisor.post(`/api/permits/${p.id}/check`).send({});
+    expect(r.status).toBe(200);
+    const checks = r.body.check.excavations as { excavationId: number; named: boolean }[];
+    expect(checks.map((c) => [c.excavationId, c.named])).toEqual([
+      [w.trenchId, true],
+      [beside.id, false],
+    ]);
+    expect(r.body.check.warnings).toEqual(expect.arrayContaining([expect.stringContaining(`${beside.reference} is not named on this permit`)]));
+  });
+
   beforeAll(async () => newTrench(w));
   it('counts an approved-and-live permit whose window overlaps, and ignores one whose window does not', async () => {
     const now = t.deps.now();

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { runCheck, type CheckRequest } from '../engineering';
 import { localProjection } from '../geometry';
-import { elementCorners, groupStandoff, windowsOverlap } from './check';
+import { cumulativeCheck, elementCorners, groupStandoff, windowsOverlap } from './check';
 
 const base: Omit<CheckRequest, 'loads'> = {
   excavation: { depth: 3, groundwaterDepth: null, designSurcharge: 10, ratedPressure: null, pressureState: 'active', wallFriction: 0, restraint: 'unyielding' },
@@ -66,5 +66,65 @@ describe('windows', () => {
     const a = { windowStart: '2030-01-01T08:00:00Z', windowEnd: '2030-01-01T12:00:00Z' };
     expect(windowsOverlap(a, { windowStart: '2030-01-01T11:59:00Z', windowEnd: '2030-01-01T13:00:00Z' })).toBe(true);
     expect(windowsOverlap(a, { windowStart: '2030-01-01T12:00:00Z', windowEnd: '2030-01-01T13:00:00Z' })).toBe(false);
+  });
+});
+
+describe('an open excavation the permit does not name', () => {
+  // Two pits 3 m deep in the same ground, 20 m apart east–west, in site-local metres.
+  const proj = localProjection([-1.04833, 52.37124]);
+  const square = (x0: number, y0: number, w: number): [number, number][] => {
+    const pts: [number, number][] = [[x0, y0], [x0 + w, y0], [x0 + w, y0 + w], [x0, y0 + w], [x0, y0]];
+    return pts.map((p) => proj.toWgs84(p) as [number, number]);
+  };
+  const pit = (id: number, reference: string, x0: number) => ({
+    id,
+    reference,
+    name: reference,
+    shape: { kind: 'pit' as const, outline: { type: 'Polygon' as const, coordinates: [square(x0, 0, 5)] } },
+    excavation: base.excavation,
+    soil: base.soil,
+  });
+  const named = pit(1, 'PIT-A', 0);
+  const other = pit(2, 'PIT-B', 25);
+  const stockpileAt = (x0: number) => ({
+    id: 'heap',
+    kind: 'stockpile' as const,
+    label: 'Gravel heap',
+    outline: { type: 'Polygon' as const, coordinates: [square(x0, 1, 2)] },
+    unitWeight: 18,
+    height: 1.5,
+  });
+  const input = (x0: number) => ({
+    origin: [-1.04833, 52.37124] as [number, number],
+    method: 'dispersion-45' as const,
+    minimumClearance: 0.6,
+    permit: { id: null, number: 'P-T', windowStart: '2030-01-01T08:00:00Z', windowEnd: '2030-01-01T12:00:00Z', loads: [stockpileAt(x0)] },
+    excavations: [named],
+    nearby: [other],
+    plant: new Map(),
+    others: [],
+    now: new Date('2030-01-01T07:00:00Z'),
+  });
+
+  it('is checked too, with a warning to name it, when a load stands within its influence zone', () => {
+    // The heap's east edge is 1 m from PIT-B (x 22..24 against the pit's face at 25): inside the
+    // influence zone, which reaches as far from the edge as the pit is deep (engineering.md §3.1;
+    // common practice, no published source).
+    const check = cumulativeCheck(input(22));
+    const refs = check.excavations.map((e) => [e.reference, e.named]);
+    expect(refs).toEqual([
+      ['PIT-A', true],
+      ['PIT-B', false],
+    ]);
+    expect(check.warnings.some((w) => w.startsWith('PIT-B is not named on this permit') && w.includes('Gravel heap'))).toBe(true);
+    // 1 m from PIT-B the heap adds pressure there: that check is not empty.
+    expect(check.excavations[1].result.utilisation).toBeGreaterThan(0);
+  });
+
+  it('is left out when every load stands beyond its influence zone', () => {
+    // The heap at x 12..14 is 11 m from PIT-B (deeper than 3 m away) and 7 m from PIT-A.
+    const check = cumulativeCheck(input(12));
+    expect(check.excavations.map((e) => e.reference)).toEqual(['PIT-A']);
+    expect(check.warnings.some((w) => w.includes('not named'))).toBe(false);
   });
 });

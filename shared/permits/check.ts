@@ -74,6 +74,12 @@ export interface CheckInput {
   minimumClearance: number;
   permit: { id: number | null; number: string; windowStart: string; windowEnd: string; loads: PlacedLoad[] };
   excavations: CheckExcavation[];
+  /**
+   * The site's other open excavations, not named on the permit. One that a load of this permit
+   * touches, or stands within the influence zone of (closer than its depth), is checked too, with
+   * a warning to name it: a load does not stop pressing on a support because nobody named it.
+   */
+  nearby?: CheckExcavation[];
   plant: Map<number, PlantForCheck>;
   /** Candidates; only those on the same excavation with an overlapping window are counted. */
   others: OtherPermit[];
@@ -229,6 +235,20 @@ function maxOrNull(xs: (number | null)[]): number | null {
   return xs.length ? Math.max(...(xs as number[])) : 0;
 }
 
+/** Whether a footprint touches the excavation or stands closer to it than its depth. */
+function footprintReaches(f: Footprint, ex: CheckExcavation, proj: LocalProjection): boolean {
+  try {
+    return engineLoad(f, prepareExcavation(ex.shape, proj), 'probe').offset < ex.excavation.depth;
+  } catch (err) {
+    if (err instanceof GeometryError) return true;
+    throw err;
+  }
+}
+
+function reachesInfluenceZone(own: { feet: Footprint[] }[], ex: CheckExcavation, proj: LocalProjection): boolean {
+  return own.some(({ feet }) => feet.some((f) => footprintReaches(f, ex, proj)));
+}
+
 /** Runs the cumulative check. Throws PlacementError naming every load that touches an excavation. */
 export function cumulativeCheck(input: CheckInput): PermitCheck {
   const proj = localProjection(input.origin);
@@ -238,7 +258,16 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
   const outside = new Set(input.permit.loads.map((l) => l.id));
   const warnings: string[] = [];
 
-  for (const ex of input.excavations) {
+  const named = new Set(input.excavations.map((e) => e.id));
+  const reached = (input.nearby ?? []).filter((ex) => !named.has(ex.id) && reachesInfluenceZone(own, ex, proj));
+  for (const ex of reached) {
+    const labels = [...new Set(own.filter(({ feet }) => feet.some((f) => footprintReaches(f, ex, proj))).map(({ feet, load }) => feet[0]?.label ?? load.id))];
+    warnings.push(
+      `${ex.reference} is not named on this permit, but ${labels.join(', ')} ${labels.length === 1 ? 'stands' : 'stand'} within its influence zone: it is checked too. Name it on the permit.`,
+    );
+  }
+
+  for (const ex of [...input.excavations, ...reached]) {
     const outline = prepareExcavation(ex.shape, proj);
     const loads: Load[] = [];
     const meta: Omit<CheckedLoad, 'force' | 'standoff'>[] = [];
@@ -307,6 +336,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
     const standoff = maxOrNull(loadStandoffs.map((l) => l.standoff));
     excavations.push({
       excavationId: ex.id,
+      named: named.has(ex.id),
       reference: ex.reference,
       name: ex.name,
       depth: ex.excavation.depth,

@@ -495,6 +495,8 @@ export interface CountedPermit {
 
 export interface ExcavationCheck {
   excavationId: number;
+  /** False for an open excavation the permit does not name but whose influence zone a load reaches (checked all the same). */
+  named?: boolean;
   reference: string;
   name: string;
   depth: number;

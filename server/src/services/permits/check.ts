@@ -70,10 +70,11 @@ export interface CheckSubject {
  */
 export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promise<PermitCheck> {
   const site = await db.selectFrom('sites').select(['latitude', 'longitude', 'minimum_clearance']).where('id', '=', s.siteId).executeTakeFirstOrThrow();
-  const [excavations, others] = await Promise.all([
-    excavationsFor(db, s.siteId, s.excavationIds),
-    overlappingPermits(db, s.siteId, s.permitId, s.excavationIds, { start: s.windowStart, end: s.windowEnd }),
-  ]);
+  // Every open excavation of the site: the named ones are checked, the others when a load reaches them.
+  const all = await loadExcavations(db, s.siteId);
+  const excavations = s.excavationIds.flatMap((id) => all.filter((e) => e.id === id)).map(checkExcavationOf);
+  const nearby = all.filter((e) => e.state === 'open' && !s.excavationIds.includes(e.id)).map(checkExcavationOf);
+  const others = await overlappingPermits(db, s.siteId, s.permitId, [...s.excavationIds, ...nearby.map((e) => e.id)], { start: s.windowStart, end: s.windowEnd });
   const plant = await plantFor(db, [...s.loads, ...others.flatMap((o) => o.loads)]);
   const missing = s.loads.findIndex((l) => l.kind === 'plant' && !plant.has(l.plantItemId));
   if (missing >= 0) throw badRequest('A load names a machine that is not in the plant library.', { [`loads[${missing}].plantItemId`]: 'is not in the plant library' });
@@ -84,6 +85,7 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
       minimumClearance: site.minimum_clearance,
       permit: { id: s.permitId, number: s.number, windowStart: s.windowStart.toISOString(), windowEnd: s.windowEnd.toISOString(), loads: s.loads },
       excavations,
+      nearby,
       plant,
       others,
       now,

@@ -17,6 +17,7 @@ export function ExcavationSheet({ ex, full = true }: { ex: ExcavationCheck; full
     <section className="flex flex-col gap-3 rounded-md border border-rule p-4" aria-label={`Check beside ${ex.reference}`}>
       <h3 className="text-lg font-semibold">
         {ex.reference} {ex.name}
+        {ex.named === false ? <span className="ml-2 text-base font-normal">(not named on the permit; a load stands within its influence zone)</span> : null}
       </h3>
       <VerdictBadge verdict={ex.verdict} utilisation={r.utilisation} />
       <p>

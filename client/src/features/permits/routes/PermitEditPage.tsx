@@ -90,6 +90,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
   const proj = useMemo(() => (site.data ? localProjection([site.data.longitude, site.data.latitude]) : null), [site.data]);
   const plant = useMemo(() => new Map<number, PlantForCheck>((plantQ.data ?? []).map((p) => [p.id, p])), [plantQ.data]);
   const named = useMemo(() => (excavations.data ?? []).filter((e) => draft.excavationIds.includes(e.id)), [excavations.data, draft.excavationIds]);
+  const nearby = useMemo(() => (excavations.data ?? []).filter((e) => e.state === 'open' && !draft.excavationIds.includes(e.id)), [excavations.data, draft.excavationIds]);
 
   // The other permits to count come from the server (authoritative), again when the window or excavations change.
   useEffect(() => {
@@ -112,6 +113,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
           minimumClearance: site.data.minimumClearance,
           permit: { id: permit.id, number: permit.number, windowStart: draft.windowStart, windowEnd: draft.windowEnd, loads: draft.loads },
           excavations: named.map(checkExcavationOf),
+          nearby: nearby.map(checkExcavationOf),
           plant,
           others: server?.otherPermits ?? [],
           now: new Date(),
@@ -122,7 +124,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
       if (e instanceof PlacementError) return { check: null, refused: e.message };
       return { check: null, refused: 'A load could not be placed: check its figures.' };
     }
-  }, [site.data, proj, draft, named, plant, plantQ.data, permit.id, permit.number, server]);
+  }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit.id, permit.number, server]);
 
   if (site.isPending || excavations.isPending || plantQ.isPending) return <Loading what="Loading the site" />;
   if (site.isError || excavations.isError || plantQ.isError) return <LoadError error={site.error ?? excavations.error ?? plantQ.error} />;
