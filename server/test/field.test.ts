@@ -81,7 +81,8 @@ describe('the permits that name me', () => {
     expect(p.footprints.length).toBe(2); // the excavator's two tracks
     // 5 m north of the trench's centre line: 5 − 0.5 (half width) − 3.5 = 1.0 m outside the exclusion zone.
     const proj = localProjection([p.origin.longitude, p.origin.latitude]);
-    const d = signedDistanceToZoneAt(prepareExcavation(x.shape, proj), proj.toWgs84([0, 5]), x.standoff!, proj);
+    const [cx, cy] = w.trenchCentre;
+    const d = signedDistanceToZoneAt(prepareExcavation(x.shape, proj), proj.toWgs84([cx, cy + 5]), x.standoff!, proj);
     expect(d).toBeCloseTo(1.0, 6);
   });
 
