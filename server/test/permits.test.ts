@@ -152,6 +152,12 @@ describe('the cumulative check', () => {
       [beside.id, false],
     ]);
     expect(r.body.check.warnings).toEqual(expect.arrayContaining([expect.stringContaining(`${beside.reference} is not named on this permit`)]));
+    // It cannot go for review until the reached excavation is named too.
+    const submit = await act(w.agents.supervisor, p.id, { action: 'submit', version: p.version });
+    expect(submit.status).toBe(400);
+    expect(submit.body.error.fields.excavationIds).toContain(beside.reference);
+    // Later tests get a trench with no neighbour.
+    await newTrench(w);
   });
 
   beforeAll(async () => newTrench(w));
@@ -160,12 +166,13 @@ describe('the cumulative check', () => {
     const h = (n: number) => new Date(now.getTime() + n * 3600_000).toISOString();
     // A live permit beside the same trench during the next hours.
     const live = await createPermit(w, { loads: [excavatorAt(w, 1.4, 'live-exc')], windowStart: h(-1), windowEnd: h(6), operatorIds: [] });
-    await submitAndApprove(w, live.id);
+    // 1.4 m from the edge the excavator alone fails: approved with a recorded reason (tested below).
+    await submitAndApprove(w, live.id, { reason: 'Frames checked for this machine by the designer' });
     const liveNow = await w.agents.coordinator.get(`/api/permits/${live.id}`);
     expect(liveNow.body.permit.status).toBe('live'); // window open, no operators to brief
     // An approved permit next week.
     const later = await createPermit(w, { loads: [excavatorAt(w, 1.4, 'later-exc')], windowStart: h(24 * 7), windowEnd: h(24 * 7 + 8) });
-    await submitAndApprove(w, later.id);
+    await submitAndApprove(w, later.id, { reason: 'Frames checked for this machine by the designer' });
 
     const mine = await createPermit(w, { loads: [excavatorAt(w, 1.6)], windowStart: h(1), windowEnd: h(4) });
     const r = await w.agents.supervisor.post(`/api/permits/${mine.id}/check`).send({});
@@ -226,9 +233,17 @@ describe('approving with a standoff', () => {
     expect(r.body.permit.current.decision).toMatchObject({ standoff: p.computed - 0.5, reason: 'Designer confirmed the frames take it (calc ref TW-12)' });
   });
 
-  it('accepts a standoff at least the computed one, with conditions, and records the signature', async () => {
+  it('refuses a standoff at least the computed one without a reason while the loads as placed fail the cumulative check', async () => {
     const p = await submittedNearTheEdge();
-    const r = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD, standoff: Math.ceil(p.computed) + 1, conditions: ['No tracking inside the zone'] });
+    const r = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD, standoff: Math.ceil(p.computed) + 1 });
+    expect(r.status).toBe(400);
+    expect(Object.keys(r.body.error.fields)).toEqual(['reason']);
+    expect((await w.agents.coordinator.get(`/api/permits/${p.id}`)).body.permit.status).toBe('submitted');
+  });
+
+  it('accepts a standoff at least the computed one, with conditions and a reason, and records the signature', async () => {
+    const p = await submittedNearTheEdge();
+    const r = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD, standoff: Math.ceil(p.computed) + 1, conditions: ['No tracking inside the zone'], reason: 'Approved for the standoff: the machine works from there' });
     expect(r.status).toBe(200);
     const d = r.body.permit.current.decision;
     expect(d).toMatchObject({ action: 'approve', standoff: Math.ceil(p.computed) + 1, computedStandoff: p.computed, conditions: ['No tracking inside the zone'] });

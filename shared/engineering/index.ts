@@ -16,7 +16,7 @@ export { buildSoilModel, type SoilModel } from './soil';
 export { prepareCheck, profileDepths, PASS_TOLERANCE, type CheckContext } from './check';
 export { loadEffect, placedEffect, blanketEffect } from './loads';
 export type { SurchargeEffect } from './surcharge';
-export { standoffSolver, NO_STANDOFF_MESSAGE, type StandoffSolver } from './standoff';
+export { standoffSolver, scanStandoff, NO_STANDOFF_MESSAGE, type StandoffSolver } from './standoff';
 export { elasticStripPressure, navfacLinePressure, navfacPointPressure } from './elastic';
 
 export const CAUTION =

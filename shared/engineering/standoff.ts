@@ -59,21 +59,30 @@ export function standoffSolver(ctx: CheckContext, blankets: readonly SurchargeEf
   }
 
   function solve(load: PlacedLoad): number | null {
-    const passesCm = (cm: number) => passesAt(load, cm / 100);
-    const top = Math.floor(3 * model.H * 100 + 1e-9);
-    const least = Math.ceil(ctx.request.minimumClearance * 100 - 1e-9);
-    if (top <= least) return passesCm(least) ? least / 100 : null;
-    if (!passesCm(top)) return null;
-    let pass = top;
-    while (pass > least) {
-      const next = Math.max(least, pass - SCAN_STEP_CM);
-      if (!passesCm(next)) return bisect(passesCm, next, pass) / 100;
-      pass = next;
-    }
-    return least / 100;
+    return scanStandoff((cm) => passesAt(load, cm / 100), model.H, ctx.request.minimumClearance);
   }
 
   return { passesAt, solve };
+}
+
+/**
+ * The §5 search over any pass/fail test of a whole-centimetre offset: from 3H toward the face in
+ * 0.05 m steps (the last step lands on the minimum clearance itself), then by halves to 0.01 m.
+ * Returns metres, or null when 3H does not pass. Used for single loads here and for a machine's
+ * elements moved together (shared/permits).
+ */
+export function scanStandoff(passesCm: (cm: number) => boolean, H: number, minimumClearance: number): number | null {
+  const top = Math.floor(3 * H * 100 + 1e-9);
+  const least = Math.ceil(minimumClearance * 100 - 1e-9);
+  if (top <= least) return passesCm(least) ? least / 100 : null;
+  if (!passesCm(top)) return null;
+  let pass = top;
+  while (pass > least) {
+    const next = Math.max(least, pass - SCAN_STEP_CM);
+    if (!passesCm(next)) return bisect(passesCm, next, pass) / 100;
+    pass = next;
+  }
+  return least / 100;
 }
 
 /** Least passing centimetre between a failing `fail` and a passing `pass` (integers). */

@@ -128,3 +128,22 @@ describe('an open excavation the permit does not name', () => {
     expect(check.warnings.some((w) => w.includes('not named'))).toBe(false);
   });
 });
+
+describe('the standoff of loads that move together, when 3H is not a whole number of 5 cm steps', () => {
+  it('tries the minimum clearance itself before answering it', () => {
+    // H = 3.01 m: the 5 cm scan from 3H = 9.03 m lands on 0.63 m, then 0.60 m must be tested, not
+    // assumed. The answer must pass and 1 cm closer fail (engineering.md §5; the search itself is
+    // common practice, no published source).
+    const deep = { ...base, method: 'elastic' as const, excavation: { ...base.excavation, depth: 3.01 } };
+    for (const pressure of [20, 21.3, 22, 25]) {
+      const pad = { id: 'p', kind: 'area' as const, pressure, width: 0.6, length: 3.35, offset: 1 };
+      const s = groupStandoff(deep, [pad]);
+      const engine = runCheck({ ...deep, loads: [pad] }).loads[0].standoff;
+      expect(s).toBe(engine);
+      if (s !== null) {
+        expect(runCheck({ ...deep, loads: [{ ...pad, offset: s }] }, { standoffs: false }).passes).toBe(true);
+        if (s > 0.6) expect(runCheck({ ...deep, loads: [{ ...pad, offset: s - 0.01 }] }, { standoffs: false }).passes).toBe(false);
+      }
+    }
+  });
+});

@@ -7,7 +7,7 @@
  *
  * Units: m, kN, kPa, kN/m; positions WGS84 [longitude, latitude]; rotations degrees clockwise from north.
  */
-import { CAUTION, runCheck, type CheckRequest, type Excavation, type Load, type Method, type SoilLayer } from '../engineering';
+import { CAUTION, runCheck, scanStandoff, type CheckRequest, type Excavation, type Load, type Method, type SoilLayer } from '../engineering';
 import {
   GeometryError,
   localProjection,
@@ -209,25 +209,7 @@ export function groupStandoff(base: Omit<CheckRequest, 'loads'>, group: Exclude<
   const nearest = Math.min(...group.map((l) => l.offset));
   const passesAt = (cm: number) =>
     runCheck({ ...base, loads: group.map((l) => ({ ...l, offset: l.offset - nearest + cm / 100 })) }, { standoffs: false }).passes;
-  const least = Math.ceil(base.minimumClearance * 100 - 1e-9);
-  const most = Math.round(3 * base.excavation.depth * 100);
-  if (!passesAt(most)) return null;
-  let pass = most;
-  let fail: number | null = null;
-  for (let cm = most - 5; cm >= least; cm -= 5) {
-    if (passesAt(cm)) pass = cm;
-    else {
-      fail = cm;
-      break;
-    }
-  }
-  if (fail === null) return Math.max(least, Math.min(pass, least)) / 100;
-  while (pass - fail > 1) {
-    const mid = Math.floor((pass + fail) / 2);
-    if (passesAt(mid)) pass = mid;
-    else fail = mid;
-  }
-  return pass / 100;
+  return scanStandoff(passesAt, base.excavation.depth, base.minimumClearance);
 }
 
 function maxOrNull(xs: (number | null)[]): number | null {

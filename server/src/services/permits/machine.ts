@@ -120,27 +120,29 @@ export async function transition(
       case 'submit': {
         await assertComplete(trx, p, rev, now);
         const check = await checkStoredRevision(trx, p.id, now);
+        assertAllNamed(check);
         detail.check = summaryOf(check);
         break;
       }
       case 'approve': {
         // The check is run again now: other permits may have been approved since the request.
         const check = await checkStoredRevision(trx, p.id, now);
+        assertAllNamed(check);
         const computed = check.computedStandoff;
         const reason = opts.reason?.trim() ?? '';
-        if (opts.standoff !== undefined) {
-          if ((computed === null || opts.standoff < computed) && !reason) {
-            throw badRequest(
-              computed === null
-                ? 'No standoff lets the support carry these loads: give a reason for approving with this standoff.'
-                : `The standoff ${opts.standoff.toFixed(2)} m is less than the computed ${computed.toFixed(2)} m: raise it or give a reason.`,
-              { standoff: computed === null ? 'no computed standoff exists: give a reason' : `must be at least ${computed.toFixed(2)} m, or give a reason` },
-            );
-          }
-        } else if (!check.passes && !reason) {
-          throw badRequest('The check fails as the loads are placed: approve with a standoff, or give a reason.', {
-            reason: 'is required to approve loads that fail the check',
-          });
+        // The computed standoff is each load's alone; the cumulative check (with every other permit
+        // counted) must also pass as the loads are placed. Either falling short needs a recorded reason.
+        const fields: Record<string, string> = {};
+        if (!check.passes && !reason) fields.reason = 'is required to approve loads that fail the cumulative check';
+        if (opts.standoff !== undefined && (computed === null || opts.standoff < computed) && !reason) {
+          fields.standoff = computed === null ? 'no computed standoff exists: give a reason' : `must be at least ${computed.toFixed(2)} m, or give a reason`;
+        }
+        if (Object.keys(fields).length) {
+          const why = [
+            ...(fields.reason ? ['the cumulative check fails as the loads are placed'] : []),
+            ...(fields.standoff ? [computed === null ? 'no standoff lets the support carry these loads' : `the standoff ${opts.standoff!.toFixed(2)} m is less than the computed ${computed.toFixed(2)} m`] : []),
+          ];
+          throw badRequest(`Approval needs a recorded reason: ${why.join('; ')}. Give a reason, or return the request so the loads are moved.`, fields);
         }
         const decision = decisionOf('approve', actor, actorName, now, { reason, standoff: opts.standoff ?? null, computed, conditions: opts.conditions ?? [] });
         await trx.updateTable('permit_revisions').set({ decision: JSON.stringify(decision), updated_at: now }).where('id', '=', rev.id).execute();
@@ -296,6 +298,19 @@ export function summaryOf(c: PermitCheck) {
     computedStandoff: c.computedStandoff,
     excavations: c.excavations.map((e) => ({ reference: e.reference, utilisation: e.result.utilisation, counted: e.counted.map((o) => o.number) })),
   };
+}
+
+/**
+ * Every open excavation that a load reaches must be named on the permit, so that inspections,
+ * other permits' checks and the phone's zones (all keyed on the named excavations) see it.
+ */
+function assertAllNamed(check: PermitCheck): void {
+  const unnamed = check.excavations.filter((e) => e.named === false).map((e) => e.reference);
+  if (unnamed.length) {
+    throw badRequest(`A load stands within the influence zone of ${unnamed.join(', ')}: name ${unnamed.length === 1 ? 'it' : 'them'} on the permit.`, {
+      excavationIds: `also name ${unnamed.join(', ')}`,
+    });
+  }
 }
 
 /** What a request must hold before it goes for review; 400 naming each missing field. */
