@@ -7,7 +7,7 @@ import { checklist, type InspectionInput } from '@shared/schemas/inspections';
 import { checkOverdueInspections } from '../src/jobs/inspections';
 import { MB } from '../src/services/uploads';
 import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
-import { createPermit, excavatorAt, makeWorld, newTrench, submitAndApprove, type PermitWorld } from './permits-fixtures';
+import { act, createPermit, excavatorAt, makeWorld, newTrench, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
 
 // Inspections of open excavations: the record and its checks, who may inspect, photos, the shift
 // clock (an injected clock, never waiting), the overdue e-mail, CSV and the weekly PDF.
@@ -365,13 +365,23 @@ describe('a failed inspection stops the work beside it', () => {
 
     const state = async () => (await w.agents.coordinator.get(`/api/excavations/${trench.id}/inspections`)).body.inspectionState;
     expect(await state()).toBe('unsafe');
+    // While the excavation stands not safe, nothing beside it goes live: not a resume, and not an
+    // approved permit whose last operator confirms the briefing.
+    const early = await act(w.agents.coordinator, first.id, { action: 'resume', version: await version(w, first.id), reason: 'Frames look fine now' });
+    expect(early.status).toBe(409);
+    expect(early.body.error.message).toContain(`${trench.reference} was found not safe`);
+    expect((await w.agents.operator.post(`/api/permits/${waiting.id}/briefing`).send({})).status).toBeLessThan(300);
+    expect(await statusOf(waiting.id)).toBe('approved');
     const later = await w.agents.coordinator.post(`/api/excavations/${trench.id}/inspections`).send(form({ reason: 'after-event', reasonDetail: 'Frames re-set and re-pinned', remarks: 'Re-inspected after repair.' }));
     expect(later.status).toBe(201);
     expect(later.body.consequences).toEqual({ suspended: [], notSuspended: [], notified: [] });
     expect(await state()).toBe('ok');
-    // resuming stays the coordinator's decision
+    // resuming stays the coordinator's decision, and is allowed again once the excavation is safe
     expect(await statusOf(first.id)).toBe('suspended');
     expect(await statusOf(second.id)).toBe('suspended');
+    const resumed = await act(w.agents.coordinator, first.id, { action: 'resume', version: await version(w, first.id), reason: 'Re-inspected safe after repair' });
+    expect(resumed.status).toBe(200);
+    expect(await statusOf(first.id)).toBe('live');
   });
 });
 

@@ -14,6 +14,7 @@ import { badRequest, conflict, forbidden, HttpError, notFound } from '../../http
 import { audit } from '../audit';
 import { roleOf, type Actor } from './actors';
 import { checkStoredRevision } from './check';
+import { unsafeExcavations } from '../unsafe-excavations';
 import { notifyTransition } from './notify';
 import { advancePermit } from './schedule';
 
@@ -166,11 +167,13 @@ export async function transition(
         if (now < windowStart || now >= windowEnd) throw conflict(`Permit ${p.number} can go live only within its window.`);
         const waiting = await trx.selectFrom('permit_operators').select('user_id').where('revision_id', '=', rev.id).where('briefed_at', 'is', null).execute();
         if (waiting.length) throw conflict(`Permit ${p.number} waits for ${waiting.length} operator(s) to confirm the briefing.`);
+        await assertNoneUnsafe(trx, p.number, rev.excavation_ids, now);
         break;
       }
       case 'resume': {
         if (now >= windowEnd) throw conflict(`Permit ${p.number}'s window has closed: it cannot resume.`);
         if (now < windowStart) throw conflict(`Permit ${p.number}'s window has not opened yet.`);
+        await assertNoneUnsafe(trx, p.number, rev.excavation_ids, now);
         break;
       }
       case 'lapse': {
@@ -298,6 +301,14 @@ export function summaryOf(c: PermitCheck) {
     computedStandoff: c.computedStandoff,
     excavations: c.excavations.map((e) => ({ reference: e.reference, utilisation: e.result.utilisation, counted: e.counted.map((o) => o.number) })),
   };
+}
+
+/** A permit does not go live or resume beside an excavation whose latest inspection found it not safe. */
+async function assertNoneUnsafe(db: Db, number: string, excavationIds: number[], now: Date): Promise<void> {
+  const unsafe = await unsafeExcavations(db, excavationIds, now);
+  if (unsafe.length) {
+    throw conflict(`Permit ${number} cannot go live: ${unsafe.join(', ')} was found not safe at its last inspection. A safe inspection comes first.`);
+  }
 }
 
 /**
