@@ -1,4 +1,5 @@
 import PgBoss from 'pg-boss';
+import { sql } from 'kysely';
 import { createDb, createPool } from '@db/database';
 import { migrateToLatest } from '@db/migrate';
 import { seedDemoIfEmpty } from '@db/demo';
@@ -11,6 +12,8 @@ export default async function setup(): Promise<void> {
   const db = createDb(createPool(url, 2));
   await migrateToLatest(db);
   await seedDemoIfEmpty(db);
+  // Places for test trenches (server/test/permits-fixtures.ts), one each.
+  await sql`create sequence if not exists test_trench_slot`.execute(db);
   await db.destroy();
   const boss = new PgBoss({ connectionString: url, max: 2, supervise: false, schedule: false });
   await boss.start();

@@ -1,4 +1,5 @@
-import { randomInt, randomUUID } from 'node:crypto';
+import { randomUUID } from 'node:crypto';
+import { sql } from 'kysely';
 import bcrypt from 'bcryptjs';
 import request from 'supertest';
 import { localProjection } from '@shared/geometry';
@@ -43,10 +44,13 @@ export async function newTrench(w: PermitWorld): Promise<void> {
  * Each test trench gets a place of its own north of the demo excavations, so that a load beside one
  * is never also beside another (the check counts every open excavation a load reaches).
  */
-function freshCentre(): [number, number] {
+async function freshCentre(t: TestApp): Promise<[number, number]> {
   // 100 × 100 places, 60 m apart east–west and 25 m north–south: all within 4.3 km of the origin
-  // (the register refuses anything beyond 5 km, and the tests export and import the site).
-  const slot = randomInt(0, 10_000);
+  // (the register refuses anything beyond 5 km, and the tests export and import the site). The
+  // place comes from a database sequence (made in global-setup.ts), so test files running at once
+  // never share one.
+  const { rows } = await sql<{ n: number }>`select nextval('test_trench_slot')::int as n`.execute(t.deps.db);
+  const slot = rows[0].n % 10_000;
   return [(slot % 100) * 60 - 3000, 500 + Math.floor(slot / 100) * 25];
 }
 
@@ -55,10 +59,10 @@ export async function trenchBeside(w: PermitWorld, north: number): Promise<{ id:
   return addTrench(w.t, w.siteId, w.origin, [w.trenchCentre[0], w.trenchCentre[1] + north]);
 }
 
-async function addTrench(t: TestApp, siteId: number, origin: [number, number], at = freshCentre()): Promise<{ id: number; reference: string; centre: [number, number] }> {
+async function addTrench(t: TestApp, siteId: number, origin: [number, number], at?: [number, number]): Promise<{ id: number; reference: string; centre: [number, number] }> {
   const proj = localProjection(origin);
   const reference = `TT-${randomUUID().slice(0, 6)}`;
-  const [cx, cy] = at;
+  const [cx, cy] = at ?? (await freshCentre(t));
   const row = await t.deps.db
     .insertInto('excavations')
     .values({

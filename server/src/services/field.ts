@@ -42,12 +42,15 @@ function closedRing(ring: XY[], proj: LocalProjection): Polygon {
 /**
  * The exclusion distance of one excavation under an approved revision: the coordinator's standoff
  * when they set one, else the check's standoff for that excavation, never below the site's least
- * clearance. Null before approval (nothing is permitted yet).
+ * clearance. Where the check found no standoff at all (approved with a recorded reason), the zone
+ * is the whole reach of the search, 3H: the phone never shows a smaller zone than the check
+ * supports. Null before approval (nothing is permitted yet).
  */
-export function exclusionDistance(rev: Pick<PermitRevision, 'decision' | 'check'>, excavationId: number, minimumClearance: number): number | null {
+export function exclusionDistance(rev: Pick<PermitRevision, 'decision' | 'check'>, excavationId: number, minimumClearance: number, depth: number): number | null {
   if (rev.decision?.action !== 'approve') return null;
-  const checked = rev.check?.excavations.find((e) => e.excavationId === excavationId)?.standoff ?? rev.check?.computedStandoff ?? null;
-  const standoff = rev.decision.standoff ?? checked ?? 0;
+  const forThis = rev.check?.excavations.find((e) => e.excavationId === excavationId);
+  const checked = forThis ? forThis.standoff : (rev.check?.computedStandoff ?? null);
+  const standoff = rev.decision.standoff ?? checked ?? 3 * depth;
   return Math.max(standoff, minimumClearance);
 }
 
@@ -107,7 +110,7 @@ export async function loadFieldPermit(db: Db, permitId: number, viewerId: number
     const { shape } = checkExcavationOf(r);
     const outline = prepareExcavation(shape, proj);
     prepared.push(outline);
-    const standoff = exclusionDistance(rev, r.id, site.minimum_clearance);
+    const standoff = exclusionDistance(rev, r.id, site.minimum_clearance, r.depth);
     return [
       {
         id: r.id,
