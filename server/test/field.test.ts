@@ -111,7 +111,12 @@ describe('briefing', () => {
   });
 
   it('keeps a permit from going live until every named operator has confirmed', async () => {
-    await people.a.agent.post(`/api/permits/${pair.id}/briefing`).expect(200);
+    // A confirmation made on another revision (say, offline before a revision) does not count.
+    const current = (await people.a.agent.get(`/api/field/permits/${pair.id}`)).body.permit.revision as number;
+    const stale = await people.a.agent.post(`/api/permits/${pair.id}/briefing`).send({ revision: current + 1 });
+    expect(stale.status).toBe(409);
+    expect((await people.a.agent.get(`/api/field/permits/${pair.id}`)).body.permit.myBriefedAt).toBeNull();
+    await people.a.agent.post(`/api/permits/${pair.id}/briefing`).send({ revision: current }).expect(200);
     expect((await people.a.agent.get(`/api/field/permits/${pair.id}`)).body.permit.status).toBe('approved');
     await people.c.agent.post(`/api/permits/${pair.id}/briefing`).expect(200);
     expect((await people.a.agent.get(`/api/field/permits/${pair.id}`)).body.permit.status).toBe('live');

@@ -24,6 +24,11 @@ import { listPermits, loadDetail, loadRevision, siteOfPermit } from '../services
 import { addComment, createPermit, updatePermit } from '../services/permits/write';
 
 const idParams = z.object({ id: idSchema });
+/** The revision the operator was briefed on (the phone sends it; a stale one answers 409); an idempotency key may ride along. */
+const briefingBodySchema = z.object({
+  revision: z.number().int().positive().optional(),
+  idempotencyKey: z.string().max(100).optional(),
+});
 const revisionParams = z.object({ id: idSchema, revision: idSchema });
 const attachmentParams = z.object({ id: idSchema, attachmentId: idSchema });
 
@@ -192,8 +197,9 @@ export function registerPermitRoutes(api: Api): void {
       tag: 'Permits',
       access: { ...members, roles: ['operator'], admin: false },
       params: idParams,
+      body: briefingBodySchema,
     },
-    async ({ params, user, deps }) => ({ briefing: await confirmBriefing(deps, params.id, user!) }),
+    async ({ params, body, user, deps }) => ({ briefing: await confirmBriefing(deps, params.id, user!, { revision: body.revision }) }),
   );
 
   api.route(

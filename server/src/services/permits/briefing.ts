@@ -6,16 +6,26 @@ import { advancePermit } from './schedule';
 
 /**
  * An operator named on the permit's current revision confirms that they have been briefed on it.
- * Idempotent: a second confirmation keeps the first time. When it is the last confirmation and the
+ * With `revision`, only that revision (a stale confirmation answers 409). Idempotent: a second
+ * confirmation keeps the first time. When it is the last confirmation and the
  * window is open, the permit goes Live at once.
  */
-export async function confirmBriefing(deps: Deps, permitId: number, user: { id: number; name: string }): Promise<{ briefedAt: string; status: string }> {
+export async function confirmBriefing(
+  deps: Deps,
+  permitId: number,
+  user: { id: number; name: string },
+  opts: { revision?: number } = {},
+): Promise<{ briefedAt: string; status: string }> {
   const now = deps.now();
   const row = await withCurrentRevision(deps.db)
     .select(['p.id', 'p.number', 'p.site_id', 'p.status', 'p.revision', 'r.id as revision_id'])
     .where('p.id', '=', permitId)
     .executeTakeFirst();
   if (!row) throw notFound('That permit');
+  // A confirmation made (perhaps offline) on an earlier revision does not brief the operator on this one.
+  if (opts.revision !== undefined && opts.revision !== row.revision) {
+    throw conflict(`Permit ${row.number} has changed since that briefing (now revision ${row.revision}): read it again and confirm the new briefing.`);
+  }
   const mine = await deps.db.selectFrom('permit_operators').select('briefed_at').where('revision_id', '=', row.revision_id).where('user_id', '=', user.id).executeTakeFirst();
   if (!mine) throw forbidden(`You are not named as an operator on permit ${row.number}.`);
   if (mine.briefed_at) return { briefedAt: new Date(mine.briefed_at).toISOString(), status: row.status };

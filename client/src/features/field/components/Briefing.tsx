@@ -2,7 +2,7 @@ import { useState } from 'react';
 import type { FieldPermit } from '@shared/schemas/field';
 import { Button } from '@client/components/Button';
 import { newIdempotencyKey } from '../offline/idempotency';
-import { addToOutbox } from '../offline/outbox';
+import { addToOutbox, discardItem } from '../offline/outbox';
 import { clock, whenText } from '../lib/format';
 import { useFieldPerson } from './FieldGate';
 import { useFieldOutbox } from './FieldLayout';
@@ -32,6 +32,11 @@ export function Briefing({ permit }: { permit: FieldPermit }) {
       <div data-testid="briefing-state">
         <p className="text-xl font-semibold">Briefing recorded on this phone at {clock(mine.createdAt)}.</p>
         <p>{mine.state === 'refused' ? `It was not accepted: ${mine.problem}` : (mine.problem ?? 'Sending…')}</p>
+        {mine.state === 'refused' ? (
+          <Button variant="secondary" className="mt-2 min-h-12" onClick={() => void discardItem(mine.key)}>
+            Discard it, to confirm the briefing again
+          </Button>
+        ) : null}
       </div>
     );
   } else if (permit.briefingDue) {
@@ -46,7 +51,7 @@ export function Briefing({ permit }: { permit: FieldPermit }) {
           onClick={async () => {
             setFailed(null);
             try {
-              await addToOutbox(newIdempotencyKey(), person.id, permit, { kind: 'briefing' });
+              await addToOutbox(newIdempotencyKey(), person.id, permit, { kind: 'briefing', revision: permit.revision });
               send();
             } catch {
               setFailed('This phone could not record it (its storage is full or blocked). Try again, or tell the supervisor.');

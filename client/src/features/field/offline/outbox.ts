@@ -40,6 +40,8 @@ interface ItemBase {
 
 export interface BriefingItem extends ItemBase {
   kind: 'briefing';
+  /** The revision the operator read and was briefed on: a later revision needs a new briefing. */
+  revision: number;
 }
 
 export interface ConcernItem extends ItemBase {
@@ -130,7 +132,7 @@ async function attempt(item: OutboxItem): Promise<Outcome> {
     const headers: Record<string, string> = { Accept: 'application/json', 'Idempotency-Key': item.key };
     if (item.kind === 'briefing') {
       headers['Content-Type'] = 'application/json';
-      res = await fetch(`/api/permits/${item.permitId}/briefing`, { method: 'POST', headers, body: JSON.stringify({ idempotencyKey: item.key }), credentials: 'same-origin' });
+      res = await fetch(`/api/permits/${item.permitId}/briefing`, { method: 'POST', headers, body: JSON.stringify({ idempotencyKey: item.key, revision: item.revision }), credentials: 'same-origin' });
     } else {
       const form = new FormData();
       form.set('excavationId', String(item.excavationId));
