@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { errorMessage } from '@client/lib/api';
 import { Button, type ButtonVariant } from './Button';
 
 interface ConfirmActionProps {
@@ -19,11 +20,19 @@ interface ConfirmActionProps {
 /** A consequential action in two presses: the button, then a plain question with yes and no. */
 export function ConfirmAction({ label, question, confirmLabel, cancelLabel = 'Cancel', ariaLabel, variant = 'secondary', busy = false, onConfirm }: ConfirmActionProps) {
   const [asking, setAsking] = useState(false);
+  const [failed, setFailed] = useState<string | null>(null);
   if (!asking) {
     return (
-      <Button variant={variant} aria-label={ariaLabel} disabled={busy} onClick={() => setAsking(true)}>
-        {label}
-      </Button>
+      <>
+        <Button variant={variant} aria-label={ariaLabel} disabled={busy} onClick={() => { setFailed(null); setAsking(true); }}>
+          {label}
+        </Button>
+        {failed ? (
+          <p role="alert" className="basis-full font-semibold text-error-text">
+            {failed}
+          </p>
+        ) : null}
+      </>
     );
   }
   return (
@@ -34,6 +43,9 @@ export function ConfirmAction({ label, question, confirmLabel, cancelLabel = 'Ca
         onClick={async () => {
           try {
             await onConfirm();
+          } catch (e) {
+            // The server's reason stays on screen (e.g. why an excavation cannot be removed).
+            setFailed(errorMessage(e));
           } finally {
             setAsking(false);
           }

@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import type { FieldPermit } from '@shared/schemas/field';
 import { Button } from '@client/components/Button';
-import { newIdempotencyKey } from '../offline/idempotency';
+import { newIdempotencyKey } from '@client/lib/random';
 import { addToOutbox, discardItem } from '../offline/outbox';
 import { clock, whenText } from '../lib/format';
 import { useFieldPerson } from './FieldGate';

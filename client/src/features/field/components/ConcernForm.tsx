@@ -2,7 +2,7 @@ import { useId, useState } from 'react';
 import { CONCERN_NOTE_MAX, CONCERN_PHOTO_BYTES_MAX, CONCERN_PHOTOS_MAX, concernFormSchema, type FieldPermit } from '@shared/schemas/field';
 import { Button } from '@client/components/Button';
 import { fieldSentence } from '@client/lib/forms';
-import { newIdempotencyKey } from '../offline/idempotency';
+import { newIdempotencyKey } from '@client/lib/random';
 import { addToOutbox, type OutboxPhoto } from '../offline/outbox';
 import { preparePhoto } from '../offline/photos';
 import { useFieldPerson } from './FieldGate';

@@ -1,3 +1,4 @@
+import { newUuid } from '@client/lib/random';
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { useForm, type Path } from 'react-hook-form';
 import {
@@ -96,7 +97,7 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
   const { errors } = formState;
   const [photos, setPhotos] = useState<DraftPhoto[]>([]);
   const [photoError, setPhotoError] = useState<string | null>(null);
-  const [clientRef, setClientRef] = useState<string>(() => crypto.randomUUID());
+  const [clientRef, setClientRef] = useState<string>(() => newUuid());
   const [loaded, setLoaded] = useState(false);
   const [keptAt, setKeptAt] = useState<string | null>(null);
   const [summary, setSummary] = useState<string | null>(null);

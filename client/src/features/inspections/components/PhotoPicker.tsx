@@ -1,3 +1,4 @@
+import { newUuid } from '@client/lib/random';
 import { useEffect, useId, useMemo, useRef } from 'react';
 import type { DraftPhoto } from '../api/draft';
 import { PHOTO_TYPES, photoProblem, shrinkPhoto } from './photos';
@@ -33,7 +34,7 @@ export function PhotoPicker({
       const blob = await shrinkPhoto(f); // a large photo may come back small enough
       const after = photoProblem({ type: blob.type || f.type, size: blob.size, name: f.name });
       if (after) problems.push(after);
-      else added.push({ id: crypto.randomUUID(), name: f.name, blob });
+      else added.push({ id: newUuid(), name: f.name, blob });
     }
     const room = max - photos.length;
     if (added.length > room) problems.push(`At most ${max} photos go with one inspection; ${added.length - room} left out.`);

@@ -20,7 +20,8 @@ interface PlacementMapProps {
   loads: PlacedLoad[];
   plant: Map<number, PlantForCheck>;
   check: PermitCheck | null;
-  verdict: Verdict;
+  /** The check's verdict, or null when the loads have not been checked (drawn in neutral slate, never green). */
+  verdict: Verdict | null;
   /** Standoff drawn as the exclusion zone (m): the approved one, or the computed one. */
   standoff: number | null;
   editable: boolean;
@@ -70,7 +71,7 @@ export function PlacementMap({ proj, excavations, loads, plant, verdict, standof
     const pts = excavations.flatMap((e) => (e.outline ? e.outline.coordinates[0].map(([lng, lat]) => [lat, lng] as [number, number]) : []));
     return pts.length ? L.latLngBounds(pts) : null;
   }, [excavations]);
-  const colour = verdictColours[verdict];
+  const colour = verdict ? verdictColours[verdict] : '#4c5a64';
   const origin: [number, number] = [proj.origin[1], proj.origin[0]];
 
   return (
@@ -152,7 +153,7 @@ export function PlacementMap({ proj, excavations, loads, plant, verdict, standof
       </BaseMap>
       <p className="px-3 py-2 text-sm text-ink-soft">
         North is up. Grey: excavations; dashed: influence zones (within the depth of the edge); red band: exclusion zone
-        {standoff ? ` (${standoff.toFixed(2)} m from the edge)` : ''}. Loads are coloured by the verdict. Drag “Move” to place a load, “Turn” to turn a machine.
+        {standoff ? ` (${standoff.toFixed(2)} m from the edge)` : ''}. Loads are coloured by the verdict (slate until checked). Drag “Move” to place a load, “Turn” to turn a machine.
       </p>
     </div>
   );

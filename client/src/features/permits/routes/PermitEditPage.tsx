@@ -190,7 +190,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
   }
 
   const check = live.check ?? null;
-  const verdict = live.refused ? 'fails' : (check?.verdict ?? 'passes');
+  const verdict = live.refused ? 'fails' : (check?.verdict ?? null);
   const standoff = check?.computedStandoff ?? null;
 
   return (

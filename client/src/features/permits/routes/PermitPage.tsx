@@ -102,7 +102,7 @@ function PermitView({ permit }: { permit: PermitDetail }) {
       ) : null}
       {proj && named.length ? (
         <Panel title="Plan">
-          <PlacementMap proj={proj} excavations={named} loads={rev.loads} plant={plant} check={rev.check} verdict={rev.check?.verdict ?? 'passes'} standoff={standoff} editable={false} />
+          <PlacementMap proj={proj} excavations={named} loads={rev.loads} plant={plant} check={rev.check} verdict={rev.check?.verdict ?? null} standoff={standoff} editable={false} />
         </Panel>
       ) : null}
       <Panel title="Calculation sheet">
@@ -212,14 +212,14 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
   }
 
   return (
-    <form className="flex flex-col gap-3 rounded-md border border-rule-strong p-4" onSubmit={(e) => { e.preventDefault(); void go(); }} aria-label={rule.label}>
+    <form noValidate className="flex flex-col gap-3 rounded-md border border-rule-strong p-4" onSubmit={(e) => { e.preventDefault(); void go(); }} aria-label={rule.label}>
       <FormSummary message={error ? [error.message, ...Object.entries(error.fields).map(([k, v]) => fieldSentence(k, v))].join(' ') : null} />
       {action === 'approve' ? (
         <>
           <p>Computed standoff: {computed === null ? 'none within 3H (the support must be redesigned or the loads reduced)' : `${computed.toFixed(2)} m`}.</p>
           <CheckboxField label="Approve with a standoff" checked={withStandoff} onChange={(e) => setWithStandoff(e.target.checked)} />
           {withStandoff ? (
-            <TextField label="Standoff from the excavation edge (m)" type="number" step="0.1" min="0" value={standoff} onChange={(e) => setStandoff(e.target.value)} error={f.standoff} hint="At least the computed standoff, or give a reason below." />
+            <TextField label="Standoff from the excavation edge (m)" type="number" step="0.01" min="0" value={standoff} onChange={(e) => setStandoff(e.target.value)} error={f.standoff} hint="At least the computed standoff, or give a reason below." />
           ) : null}
           <fieldset className="flex flex-col gap-1">
             <legend className="font-semibold">Conditions</legend>
