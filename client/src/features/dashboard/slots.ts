@@ -7,6 +7,8 @@ import { createContext, useContext, type ComponentType } from 'react';
 export interface DashboardSlots {
   /** "Excavations due for inspection" for the site. */
   inspectionsDue?: ComponentType<{ siteId: number; timeZone: string; canInspect: boolean }>;
+  /** A list of the site's permits: awaiting my review, my requests or live now. */
+  permits?: ComponentType<{ siteId: number; view: 'review' | 'mine' | 'live'; intro: string }>;
 }
 
 export const DashboardSlotsContext = createContext<DashboardSlots>({});

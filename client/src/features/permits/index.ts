@@ -3,7 +3,6 @@ import { NewPermitPage } from './routes/NewPermitPage';
 import { PermitEditPage } from './routes/PermitEditPage';
 import { PermitListPage } from './routes/PermitListPage';
 import { PermitPage } from './routes/PermitPage';
-import { FieldPermitRedirect } from './routes/FieldPermitRedirect';
 
 /** Under /sites/:siteId. */
 export const permitSiteRoutes: RouteObject[] = [
@@ -15,5 +14,6 @@ export const permitSiteRoutes: RouteObject[] = [
 export const permitRoutes: RouteObject[] = [
   { path: 'permits/:permitId', Component: PermitPage },
   { path: 'permits/:permitId/edit', Component: PermitEditPage },
-  { path: 'field/permits/:permitId', Component: FieldPermitRedirect },
 ];
+
+export { DashboardPermits } from './components/DashboardPermits';

@@ -18,11 +18,17 @@ function InspectionsDue({ site, fallback }: { site: SiteOfPanel; fallback: strin
   return Due ? <Due {...site} /> : <ComingPanel title="Excavations due for inspection" lists={fallback} />;
 }
 
+/** A permit list from the permits feature, or the "not yet connected" panel when the app gave none. */
+function Permits({ siteId, view, title, intro }: { siteId: number; view: 'review' | 'mine' | 'live'; title: string; intro: string }) {
+  const { permits: List } = useDashboardSlots();
+  return List ? <List siteId={siteId} view={view} intro={intro} /> : <ComingPanel title={title} lists={intro} />;
+}
+
 export function SupervisorPanels({ site }: { site: SiteOfPanel }) {
   return (
     <RoleSection title={roleLabels.supervisor} intro="Ask for permits, brief the operators, hand permits back.">
-      <ComingPanel title="My requests" lists="The permits you have asked for, and where each one stands." />
-      <ComingPanel title="Live on this site today" lists="Permits whose window is open today, with their operators." />
+      <Permits siteId={site.siteId} view="mine" title="My requests" intro="The permits you have asked for, and where each one stands." />
+      <Permits siteId={site.siteId} view="live" title="Live now" intro="Permits working on this site now." />
       <InspectionsDue site={site} fallback="Open excavations not yet inspected this shift." />
     </RoleSection>
   );
@@ -31,8 +37,8 @@ export function SupervisorPanels({ site }: { site: SiteOfPanel }) {
 export function CoordinatorPanels({ site }: { site: SiteOfPanel }) {
   return (
     <RoleSection title={roleLabels.coordinator} intro="Review and decide permits, keep the excavation register, suspend work when needed.">
-      <ComingPanel title="Permits awaiting my review" lists="Requests sent to you for a decision, oldest first." />
-      <ComingPanel title="Live now" lists="Every live permit on this site, with its standoff." />
+      <Permits siteId={site.siteId} view="review" title="Permits awaiting my review" intro="Requests sent to you for a decision, oldest first." />
+      <Permits siteId={site.siteId} view="live" title="Live now" intro="Every live permit on this site." />
       <InspectionsDue site={site} fallback="Open excavations not yet inspected this shift." />
     </RoleSection>
   );
