@@ -179,6 +179,18 @@ describe('attachments', () => {
     expect((await w.agents.supervisor.get(`/api/permits/${p.id}`)).body.permit.attachments).toEqual([]);
   });
 
+  it('keeps what was reviewed: after submission a document is refused (409), a photo still accepted', async () => {
+    const p = await createPermit(w);
+    await act(w.agents.supervisor, p.id, { action: 'submit', version: p.version }).expect(200);
+    const doc = await w.agents.supervisor.post(`/api/permits/${p.id}/attachments`).field('kind', 'method-statement').attach('file', pdf, 'late.pdf');
+    expect(doc.status).toBe(409);
+    const png = Buffer.from('89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8cfc0f01f0005000201a5d4cb3b0000000049454e44ae426082', 'hex');
+    const photo = await w.agents.supervisor.post(`/api/permits/${p.id}/attachments`).field('kind', 'photo').attach('file', png, 'edge.png');
+    expect(photo.status).toBe(201);
+    const names = (await w.agents.supervisor.get(`/api/permits/${p.id}`)).body.permit.attachments.map((a: { name: string }) => a.name);
+    expect(names).toEqual(['edge.png']);
+  });
+
   it('refuses an oversize file', async () => {
     const p = await createPermit(w);
     const big = Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0]), Buffer.alloc(10 * 1024 * 1024 + 16)]);

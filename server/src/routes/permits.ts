@@ -259,14 +259,22 @@ export function registerPermitRoutes(api: Api): void {
       if (accept === 'image' && file.size > limits.image) {
         throw new HttpError(413, 'too_large', 'The photo is too large (at most 10 MB).', { file: 'is too large' });
       }
-      const p = await db.selectFrom('permits').select(['id', 'revision', 'number', 'site_id']).where('id', '=', params.id).executeTakeFirstOrThrow();
-      const stored = await storeUpload(deps, file, { field: 'file', accept, purpose: 'permit-attachment', siteId: site!.id, userId: user!.id });
-      const row = await db
-        .insertInto('permit_attachments')
-        .values({ permit_id: p.id, revision: p.revision, upload_id: stored.id, kind: body.kind, added_by: user!.id, added_at: deps.now() })
-        .returning('id')
-        .executeTakeFirstOrThrow();
-      await audit(db, { actorId: user!.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'attached', detail: { number: p.number, kind: body.kind, name: stored.originalName } });
+      const p = await db.selectFrom('permits').select(['id', 'revision', 'number', 'site_id', 'status']).where('id', '=', params.id).executeTakeFirstOrThrow();
+      // What was reviewed stays as it was: after submission only photos (a record of the work) may be added.
+      if (body.kind !== 'photo' && !editableStatuses.includes(p.status as PermitStatus)) {
+        throw conflict(`Permit ${p.number} is no longer a draft: documents are added to a new revision; photos may still be added.`);
+      }
+      const row = await db.transaction().execute(async (trx) => {
+        const stored = await storeUpload(deps, file, { field: 'file', accept, purpose: 'permit-attachment', siteId: site!.id, userId: user!.id, db: trx });
+        const added = await trx
+          .insertInto('permit_attachments')
+          .values({ permit_id: p.id, revision: p.revision, upload_id: stored.id, kind: body.kind, added_by: user!.id, added_at: deps.now() })
+          .returning('id')
+          .executeTakeFirstOrThrow();
+        await audit(trx, { actorId: user!.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'attached', detail: { number: p.number, kind: body.kind, name: stored.originalName } });
+        return { id: added.id, stored };
+      });
+      const stored = row.stored;
       res.status(201).json({ attachment: { id: row.id, kind: body.kind, name: stored.originalName, mime: stored.mime, size: stored.size, url: `/api/permits/${p.id}/attachments/${row.id}` } });
     },
   );
