@@ -36,8 +36,14 @@ test('a load permit from placing to approval and the printed permit', async ({ p
   // south of the origin, 1.2 m wide; the 21 t machine's tracks are 2.2 m apart, 0.6 m wide).
   await page.getByLabel('Machine from the plant library').selectOption({ label: 'Excavator 21 t (21 t)' });
   await page.getByRole('button', { name: 'Add machine' }).click();
-  await page.getByLabel('East of the site origin (m)').fill('-18');
-  await page.getByLabel('North of the site origin (m)').fill('-19.6');
+  // Typed key by key, as a person does (a minus sign first), and applied with Enter.
+  for (const [label, figure] of [['East of the site origin (m)', '-18'], ['North of the site origin (m)', '-19.6']]) {
+    const field = page.getByLabel(label);
+    await field.fill('');
+    await field.pressSequentially(figure);
+    await field.press('Enter');
+    await expect(field).toHaveValue(Number(figure).toFixed(2));
+  }
   const live = page.getByRole('region', { name: 'Live check' }).or(page.locator('section', { has: page.getByRole('heading', { name: 'Live check' }) }));
   await expect(live.locator('[data-verdict="fails"]').first()).toBeVisible();
   await expect(live.getByTestId('computed-standoff')).toHaveText(/^\d+\.\d\d m$/);

@@ -295,8 +295,8 @@ function LoadRow({ load, index, proj, plantName, fields, onChange, onRemove }: {
       {fields[`loads[${index}]`] ? <p className="text-sm font-semibold text-error-text">{fields[`loads[${index}]`]}</p> : null}
       <div className="grid gap-2 sm:grid-cols-3">
         <TextField label="Name" value={load.label} onChange={(e) => onChange({ ...load, label: e.target.value })} />
-        <TextField label="East of the site origin (m)" type="number" step="0.1" value={c[0].toFixed(2)} onChange={(e) => Number.isFinite(num(e.target.value)) && onChange(moveLoad(load, [num(e.target.value), c[1]], proj))} />
-        <TextField label="North of the site origin (m)" type="number" step="0.1" value={c[1].toFixed(2)} onChange={(e) => Number.isFinite(num(e.target.value)) && onChange(moveLoad(load, [c[0], num(e.target.value)], proj))} />
+        <MetresField label="East of the site origin (m)" value={c[0]} onCommit={(x) => onChange(moveLoad(load, [x, c[1]], proj))} />
+        <MetresField label="North of the site origin (m)" value={c[1]} onCommit={(y) => onChange(moveLoad(load, [c[0], y], proj))} />
         {load.kind === 'plant' ? (
           <TextField label="Facing (degrees from north)" type="number" step="1" min="0" max="360" value={load.rotation} onChange={(e) => Number.isFinite(num(e.target.value)) && onChange({ ...load, rotation: num(e.target.value) })} error={err('rotation')} />
         ) : null}
@@ -341,5 +341,35 @@ function DigForm({ dig, fields, onChange }: { dig: DigDetails; fields: Record<st
         );
       })}
     </Panel>
+  );
+}
+
+/**
+ * A position in metres typed freely (a minus sign, a half-typed number) and applied when the field
+ * is left or Enter is pressed; while it is not being typed in it follows the load as it is dragged.
+ */
+function MetresField({ label, value, onCommit }: { label: string; value: number; onCommit: (x: number) => void }) {
+  const [text, setText] = useState<string | null>(null);
+  const commit = () => {
+    if (text === null) return;
+    const x = Number(text.trim().replace(',', '.'));
+    if (text.trim() !== '' && Number.isFinite(x)) onCommit(x);
+    setText(null);
+  };
+  return (
+    <TextField
+      label={label}
+      inputMode="decimal"
+      value={text ?? value.toFixed(2)}
+      onChange={(e) => setText(e.target.value)}
+      onBlur={commit}
+      onKeyDown={(e) => {
+        if (e.key === 'Enter') {
+          e.preventDefault();
+          commit();
+        }
+      }}
+      hint="Type the figure, then Enter or leave the field"
+    />
   );
 }
