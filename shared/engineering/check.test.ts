@@ -34,7 +34,7 @@ describe('the check (engineering.md §4)', () => {
     expect(r.passes).toBe(true);
   });
 
-  it('a rated pressure that governs: max total 12.667 + 20 = 32.667 kPa at 2 m over 10 kPa (hand calculation)', () => {
+  it('a rated pressure that governs: max total 12.667 + 20 = 32.667 kPa at 2 m over 10 kPa (hand calculation from the method of engineering.md; common practice, no published source)', () => {
     const r = runCheck(withExcavation(sixRequest(), { ratedPressure: 10 }));
     expect(r.maxTotalPressure).toBe(32.667);
     expect(r.utilisation).toBe(3.267);
@@ -42,14 +42,15 @@ describe('the check (engineering.md §4)', () => {
     expect(r.passes).toBe(false);
   });
 
-  it('a rated pressure that does not govern leaves U = 2.0 (hand calculation)', () => {
+  it('a rated pressure that does not govern leaves U = 2.0 (hand calculation from the method of engineering.md; common practice, no published source)', () => {
     const r = runCheck(withExcavation(sixRequest(), { ratedPressure: 40 }));
     expect(r.utilisation).toBe(2);
     expect(r.governing).not.toBe('rated-pressure');
   });
 
   it('a rated pressure is checked at a band edge that falls between grid points', () => {
-    // Band 1.02..1.04 m lies wholly between the 0.05 m grid points; 600 kPa·K = 200 kPa.
+    // Band 1.02..1.04 m lies wholly between the 0.05 m grid points; 600 kPa·K = 200 kPa
+    // (hand calculation, Rankine K = 1/3 for φ′ = 30° as in Craig's Soil Mechanics).
     const req = withLoads(withExcavation(sixRequest(), { ratedPressure: 100 }), [{ id: 'thin', kind: 'strip', pressure: 600, width: 0.02, offset: 1.02 }]);
     const r = runCheck(req, { standoffs: false });
     expect(r.profile.every((p) => p.surcharge === 0)).toBe(true);
