@@ -34,7 +34,7 @@ describe('the check (engineering.md §4)', () => {
     expect(r.passes).toBe(true);
   });
 
-  it('a rated pressure that governs: max total 12.667 + 20 = 32.667 kPa at 2 m over 10 kPa (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('a rated pressure that governs: max total 12.667 + 20 = 32.667 kPa at 2 m over 10 kPa (hand calculation; common practice, no published source)', () => {
     const r = runCheck(withExcavation(sixRequest(), { ratedPressure: 10 }));
     expect(r.maxTotalPressure).toBe(32.667);
     expect(r.utilisation).toBe(3.267);
@@ -42,7 +42,7 @@ describe('the check (engineering.md §4)', () => {
     expect(r.passes).toBe(false);
   });
 
-  it('a rated pressure that does not govern leaves U = 2.0 (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('a rated pressure that does not govern leaves U = 2.0 (hand calculation; common practice, no published source)', () => {
     const r = runCheck(withExcavation(sixRequest(), { ratedPressure: 40 }));
     expect(r.utilisation).toBe(2);
     expect(r.governing).not.toBe('rated-pressure');

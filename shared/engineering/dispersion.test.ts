@@ -19,11 +19,11 @@ describe('dispersion-45 (common practice, no published source)', () => {
     for (const p of r.profile) expect(p.surcharge).toBe(p.z >= 1 && p.z <= 2 ? 20 : 0);
   });
 
-  it('offset 0: band from the surface, 20 kN/m and moment 20·(3² − 2²)/2 = 50 (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('offset 0: band from the surface, 20 kN/m and moment 20·(3² − 2²)/2 = 50 (hand calculation; common practice, no published source)', () => {
     expect(single({ id: 'a', kind: 'strip', pressure: 60, width: 1, offset: 0 })).toMatchObject({ force: 20, moment: 50, top: 0, bottom: 1 });
   });
 
-  it('band clipped at formation: d = 2.5 m gives half the band, 10 kN/m (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('band clipped at formation: d = 2.5 m gives half the band, 10 kN/m (hand calculation; common practice, no published source)', () => {
     expect(single({ id: 'a', kind: 'strip', pressure: 60, width: 1, offset: 2.5 })).toMatchObject({ force: 10, moment: 2.5, top: 2.5, bottom: 3 });
   });
 
@@ -50,7 +50,7 @@ describe('dispersion-45 (common practice, no published source)', () => {
     expect(r.warnings.some((w) => w.includes('default pad'))).toBe(true);
   });
 
-  it('a layer boundary inside the band: each part takes its own K (hand calculation from the method of engineering.md; common practice, no published source) and a fine integral agrees', () => {
+  it('a layer boundary inside the band: each part takes its own K (hand calculation; common practice, no published source) and a fine integral agrees', () => {
     const soil = [
       { top: 0, unitWeight: 19, frictionAngle: 30 },
       { top: 1.5, unitWeight: 19, frictionAngle: 20 },

@@ -37,7 +37,7 @@ describe('soil and water (engineering.md §1; effective stress as in Craig, Soil
     expect(m.waterForce).toBeCloseTo(fw, 6);
   });
 
-  it('water at formation and below formation: no water pressure above formation (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('water at formation and below formation: no water pressure above formation (hand calculation; common practice, no published source)', () => {
     for (const zw of [3, 5]) {
       const r = runCheck(withExcavation(sixRequest(), { groundwaterDepth: zw }), { standoffs: false });
       expect(r.forces.soil).toBe(28.5);
@@ -45,7 +45,7 @@ describe('soil and water (engineering.md §1; effective stress as in Craig, Soil
     }
   });
 
-  it('water at mid-depth: σv and u change slope at the water table (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('water at mid-depth: σv and u change slope at the water table (hand calculation; common practice, no published source)', () => {
     const req = withExcavation(sixRequest(), { groundwaterDepth: 1.5 });
     const m = model(req);
     const expected = K30 * (19 * 1.5 * 0.75 + 28.5 * 1.5 + (20 - GAMMA_WATER) * 1.125);
@@ -92,7 +92,7 @@ describe('soil and water (engineering.md §1; effective stress as in Craig, Soil
     expect(r.forces.allowance).toBe(30);
   });
 
-  it('undrained clay with low cu: the 5 kPa/m line governs above the crossing only (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('undrained clay with low cu: the 5 kPa/m line governs above the crossing only (hand calculation; common practice, no published source)', () => {
     const req = withSoil(sixRequest(), [{ top: 0, unitWeight: 18, undrainedShearStrength: 5 }]);
     const m = model(req);
     const zc = 10 / 13; // 18z − 10 = 5z
@@ -101,7 +101,7 @@ describe('soil and water (engineering.md §1; effective stress as in Craig, Soil
     expect(m.soilForce).toBeCloseTo(fineForces(req)[0], 6);
   });
 
-  it('layers: σv carries through a boundary, K and pressure jump there (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('layers: σv carries through a boundary, K and pressure jump there (hand calculation; common practice, no published source)', () => {
     const req = withSoil(sixRequest(), [
       { top: 1.5, unitWeight: 18, frictionAngle: 20 },
       { top: 0, unitWeight: 19, frictionAngle: 30 },

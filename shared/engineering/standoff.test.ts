@@ -13,7 +13,7 @@ function solverFor(req: CheckRequest) {
 }
 
 describe('standoff (engineering.md §5)', () => {
-  it('the §6 strip: its band may cover at most 0.5 m of the 3 m, so d ≥ 2.5 m (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('the §6 strip: its band may cover at most 0.5 m of the 3 m, so d ≥ 2.5 m (hand calculation; common practice, no published source)', () => {
     const req = sixRequest();
     const load = req.loads[0] as PlacedLoad;
     expect(solveStandoff(req, load)).toBe(2.5);
@@ -23,7 +23,7 @@ describe('standoff (engineering.md §5)', () => {
     expect(s.passesAt(load, 2.48)).toBe(false);
   });
 
-  it('a blanket counts with the load: 5 kPa of 10 used leaves a band of 0.25 m, d ≥ 2.75 m (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('a blanket counts with the load: 5 kPa of 10 used leaves a band of 0.25 m, d ≥ 2.75 m (hand calculation; common practice, no published source)', () => {
     const req = withLoads(sixRequest(), [...sixRequest().loads, { id: 't', kind: 'blanket', pressure: 5 }]);
     expect(runCheck(req).loads[0].standoff).toBe(2.75);
   });
@@ -47,7 +47,7 @@ describe('standoff (engineering.md §5)', () => {
     expect(runCheck(req).loads[0].standoff).toBeNull();
   });
 
-  it('with a rated pressure the standoff is where the largest total also fits (hand calculation from the method of engineering.md; common practice, no published source)', () => {
+  it('with a rated pressure the standoff is where the largest total also fits (hand calculation; common practice, no published source)', () => {
     // Rated 30 kPa: the total at the band bottom b is 19·b/3 + 20 ≤ 30 only for b ≤ 1.58 m (d ≤ 0.58 m),
     // while the force limit needs d ≥ 2.5 m; no offset below H satisfies both, so d ≥ H = 3 m.
     const req = withExcavation(sixRequest(), { ratedPressure: 30 });
