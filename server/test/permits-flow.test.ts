@@ -6,7 +6,7 @@ import { inspectionActor } from '../src/services/permits/actors';
 import { transition } from '../src/services/permits/machine';
 import { permitPdf } from '../src/services/permits/pdf';
 import { demo, DEMO_PASSWORD, startTestApp, waitForMail, type TestApp } from './helpers';
-import { act, createPermit, excavatorAt, hoursFrom, makeWorld, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
+import { act, createPermit, excavatorAt, hoursFrom, makeWorld, newTrench, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
 
 let t: TestApp;
 let w: PermitWorld;
@@ -256,5 +256,22 @@ describe('the printed permit', () => {
     const text = pdfText(buffer);
     expect(text).toContain(`Permit ${p.number}`);
     expect(text).toContain('No decision yet');
+  });
+});
+
+describe('what permits name stays', () => {
+  it('refuses to remove an excavation or a machine that a permit names (409), and removes them once nothing does', async () => {
+    await newTrench(w);
+    const p = await createPermit(w);
+    const ex = await w.agents.coordinator.delete(`/api/sites/${w.siteId}/excavations/${w.trenchId}`);
+    expect(ex.status).toBe(409);
+    expect(ex.body.error.message).toContain(p.number);
+    const machine = await w.agents.admin.delete(`/api/plant/${w.excavatorId}`);
+    expect(machine.status).toBe(409);
+    expect(machine.body.error.message).toMatch(/placed on permit P-\d{4}/); // the library's excavator is on many
+    expect(await t.deps.db.selectFrom('plant_items').select('id').where('id', '=', w.excavatorId).executeTakeFirst()).toBeDefined();
+    // A trench no permit names goes.
+    await newTrench(w);
+    expect((await w.agents.coordinator.delete(`/api/sites/${w.siteId}/excavations/${w.trenchId}`)).status).toBe(204);
   });
 });

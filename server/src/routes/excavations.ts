@@ -10,6 +10,7 @@ import {
 import type { Db } from '@db/database';
 import { Api, badRequest, conflict, HttpError, notFound, parseOr400, siteFromParam, type Access } from '../http';
 import { audit } from '../services/audit';
+import { listNumbers, permitsReferring } from '../services/permit-references';
 import { columnsOf, loadExcavations, placementProblems, projectionOf, readImport, rowValues, toFeatureCollection } from '../services/excavations';
 import { isForeignKeyViolation, isUniqueViolation } from '../services/pg-errors';
 import { filesOf, limits, MB, receiveFiles, storeUpload } from '../services/uploads';
@@ -171,6 +172,8 @@ export function registerExcavationRoutes(api: Api): void {
       await db
         .transaction()
         .execute(async (trx) => {
+          const named = await permitsReferring(trx, { excavationId: params.id });
+          if (named.length) throw conflict(`That excavation is named on permit ${listNumbers(named)}; set it to backfilled instead of removing it.`);
           const old = await trx.deleteFrom('excavations').where('id', '=', params.id).where('site_id', '=', params.siteId).returningAll().executeTakeFirst();
           if (!old) throw notFound('That excavation');
           await audit(trx, { actorId: user!.id, siteId: params.siteId, entity: 'excavation', entityId: old.id, action: 'deleted', detail: { values: rowValues(old) } });

@@ -6,6 +6,7 @@ import type { Db, PlantItemsTable } from '@db/database';
 import type { Selectable } from 'kysely';
 import { Api, conflict, forbidden, HttpError, notFound } from '../http';
 import { audit } from '../services/audit';
+import { listNumbers, permitsReferring } from '../services/permit-references';
 import { isUniqueViolation, isForeignKeyViolation } from '../services/pg-errors';
 
 type PlantRow = Selectable<PlantItemsTable>;
@@ -165,6 +166,8 @@ export function registerPlantRoutes(api: Api): void {
       await db
         .transaction()
         .execute(async (trx) => {
+          const named = await permitsReferring(trx, { plantItemId: params.id });
+          if (named.length) throw conflict(`That machine is placed on permit ${listNumbers(named)}, so it stays in the library.`);
           const old = await trx.deleteFrom('plant_items').where('id', '=', params.id).returning(['id', 'name']).executeTakeFirst();
           if (!old) throw notFound('That machine');
           await audit(trx, { actorId: user!.id, entity: 'plant', entityId: old.id, action: 'deleted', detail: { name: old.name } });
