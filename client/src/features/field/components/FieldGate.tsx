@@ -23,10 +23,20 @@ export function useFieldPerson(): FieldPerson {
  * the person last signed in on this phone, so their permits still open. Signed out: the sign-in page,
  * and the phone forgets the last person's copies (their outbox stays, to be sent when they sign in).
  */
+const SLOW_SIGNAL_MS = 4000;
+
 export function FieldGate({ children, fallback }: { children: ReactNode; fallback: (message: string) => ReactNode }) {
   const me = useMe();
   const location = useLocation();
   const [saved, setSaved] = useState<SavedPerson | null | undefined>(undefined);
+  // With one bar of signal the question "who is signed in?" can hang for minutes: after a few
+  // seconds the person saved on this phone is used, and the answer still replaces it when it comes.
+  const [slow, setSlow] = useState(false);
+  useEffect(() => {
+    if (!me.isPending) return;
+    const timer = setTimeout(() => setSlow(true), SLOW_SIGNAL_MS);
+    return () => clearTimeout(timer);
+  }, [me.isPending]);
 
   useEffect(() => {
     savedPerson()
@@ -52,7 +62,7 @@ export function FieldGate({ children, fallback }: { children: ReactNode; fallbac
     const here = location.pathname + location.search;
     return <Navigate to={`/sign-in?next=${encodeURIComponent(here)}`} replace />;
   }
-  const noSignal = (me.isError && !isApiError(me.error, 401)) || (me.isPending && typeof navigator !== 'undefined' && !navigator.onLine);
+  const noSignal = (me.isError && !isApiError(me.error, 401)) || (me.isPending && (slow || (typeof navigator !== 'undefined' && !navigator.onLine)));
   if (noSignal && saved) return <PersonContext.Provider value={{ ...saved, fromPhone: true }}>{children}</PersonContext.Provider>;
   if (me.isError && saved === null) {
     return fallback('There is no signal, and this phone has no saved copy yet. Open Brink once with signal and sign in; your permits are then kept here.');
