@@ -1,3 +1,4 @@
+import { permitErrorSummary } from '../components/fieldNames';
 import { useState } from 'react';
 import { useNavigate, useParams } from 'react-router-dom';
 import { Button } from '@client/components/Button';
@@ -5,7 +6,6 @@ import { CheckboxField, FormSummary, SelectField, TextField } from '@client/comp
 import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
 import { ApiError, errorMessage } from '@client/lib/api';
-import { fieldSentence } from '@client/lib/forms';
 import { parseId } from '@client/lib/session';
 import { useCreatePermit, useExcavations } from '../api/permits';
 import { fromLocalInput, toLocalInput } from '../components/time';
@@ -32,7 +32,7 @@ export function NewPermitPage() {
     } catch (e) {
       if (e instanceof ApiError) {
         setFields(e.fields);
-        setError([e.message, ...Object.entries(e.fields).map(([k, v]) => fieldSentence(k, v))].join(' '));
+        setError(permitErrorSummary(e));
       } else setError(errorMessage(e));
     }
   }

@@ -1,3 +1,4 @@
+import { permitErrorSummary } from '../components/fieldNames';
 import { useEffect, useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
@@ -171,7 +172,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
     } catch (e) {
       if (e instanceof ApiError) {
         setFields(e.fields);
-        setSummary([e.message, ...Object.entries(e.fields).map(([k, v]) => fieldSentence(k, v))].join(' '));
+        setSummary(permitErrorSummary(e));
         if (e.status === 409) setSummary(`${e.message} Reload the page to see it as it now is.`);
       } else setSummary(errorMessage(e));
       return null;
@@ -185,7 +186,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
       navigate(`/permits/${permit.id}`);
     } catch (e) {
       if (e instanceof ApiError) setFields(e.fields);
-      setSummary(e instanceof ApiError ? [e.message, ...Object.entries(e.fields).map(([k, v2]) => fieldSentence(k, v2))].join(' ') : errorMessage(e));
+      setSummary(permitErrorSummary(e));
     }
   }
 

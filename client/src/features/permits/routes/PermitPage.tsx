@@ -1,3 +1,4 @@
+import { permitErrorSummary } from '../components/fieldNames';
 import { useMemo, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { localProjection } from '@shared/geometry';
@@ -213,7 +214,7 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
 
   return (
     <form noValidate className="flex flex-col gap-3 rounded-md border border-rule-strong p-4" onSubmit={(e) => { e.preventDefault(); void go(); }} aria-label={rule.label}>
-      <FormSummary message={error ? [error.message, ...Object.entries(error.fields).map(([k, v]) => fieldSentence(k, v))].join(' ') : null} />
+      <FormSummary message={error ? permitErrorSummary(error) : null} />
       {action === 'approve' ? (
         <>
           <p>Computed standoff: {computed === null ? 'none within 3H (the support must be redesigned or the loads reduced)' : `${computed.toFixed(2)} m`}.</p>
