@@ -1,5 +1,4 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { Excavation } from '@shared/schemas/excavations';
 import type {
   CheckProposal,
   PermitAction,
@@ -11,7 +10,6 @@ import type {
   PermitUpdate,
   TransitionInput,
 } from '@shared/schemas/permits';
-import type { PlantItem } from '@shared/schemas/plant';
 import type { Site } from '@shared/schemas/sites';
 import { api, ApiError, errorFromResponse } from '@client/lib/api';
 
@@ -52,20 +50,10 @@ export function useSite(siteId: number) {
   });
 }
 
-export function useExcavations(siteId: number) {
-  return useQuery({
-    queryKey: ['sites', siteId, 'excavations'],
-    queryFn: ({ signal }) => api.get<{ excavations: Excavation[] }>(`/api/sites/${siteId}/excavations`, signal).then((r) => r.excavations),
-  });
-}
-
-export function usePlant() {
-  return useQuery({
-    queryKey: ['plant'],
-    queryFn: ({ signal }) => api.get<{ plant: PlantItem[] }>('/api/plant', signal).then((r) => r.plant),
-    staleTime: 10 * 60_000,
-  });
-}
+// The register and the plant library are read through the shared hooks, so a change made on the
+// map or the library page refreshes the pages that place loads too.
+export { useExcavations } from '@client/lib/excavations';
+export { usePlant } from '@client/lib/plant';
 
 export function useOperators(siteId: number, enabled = true) {
   return useQuery({
