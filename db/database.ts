@@ -136,6 +136,13 @@ export interface ExcavationsTable {
   design_reference: Generated<string>;
   drawing_upload_id: number | null;
   notes: Generated<string>;
+  /**
+   * The ground outline (GeoJSON Polygon, WGS84) and the influence zone (Polygon or MultiPolygon),
+   * drawn when the row is written (server/src/services/geometry/shapes.ts), never on read; null when
+   * no outline forms. Whoever writes geometry, width or depth writes these too.
+   */
+  outline: ColumnType<unknown, string | null | undefined, string | null>;
+  influence_zone: ColumnType<unknown, string | null | undefined, string | null>;
   version: Generated<number>;
   created_by: number | null;
   created_at: CreatedAt;

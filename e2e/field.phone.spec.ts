@@ -4,6 +4,8 @@ import { expect, test, type APIRequest, type APIRequestContext, type BrowserCont
 import { createDb, createPool, type Db } from '@db/database';
 import { localProjection, prepareExcavation, signedDistanceToZoneAt, type LocalProjection } from '@shared/geometry';
 import type { FieldPermit } from '@shared/schemas/field';
+import type { Polygon } from 'geojson';
+import { shapeColumns, shapesOf } from '../server/src/services/geometry/shapes';
 
 /**
  * The operator's phone (Pixel 7 project): where I stand against the exclusion zone, checked against
@@ -38,6 +40,7 @@ test.beforeAll(async ({ playwright, baseURL }) => {
   const site = await db.selectFrom('sites').select(['id', 'latitude', 'longitude']).where('name', '=', 'Alder Marsh pumping station').executeTakeFirstOrThrow();
   proj = localProjection([site.longitude, site.latitude]);
   const corner = (x: number, y: number) => proj.toWgs84([x, y]);
+  const pitGeometry: Polygon = { type: 'Polygon', coordinates: [[corner(PIT.x0, PIT.y0), corner(PIT.x1, PIT.y0), corner(PIT.x1, PIT.y1), corner(PIT.x0, PIT.y1), corner(PIT.x0, PIT.y0)]] };
   const pit = await db
     .insertInto('excavations')
     .values({
@@ -45,7 +48,8 @@ test.beforeAll(async ({ playwright, baseURL }) => {
       reference: `FP-${randomUUID().slice(0, 5)}`,
       name: 'Phone test pit',
       kind: 'pit',
-      geometry: JSON.stringify({ type: 'Polygon', coordinates: [[corner(PIT.x0, PIT.y0), corner(PIT.x1, PIT.y0), corner(PIT.x1, PIT.y1), corner(PIT.x0, PIT.y1), corner(PIT.x0, PIT.y0)]] }),
+      geometry: JSON.stringify(pitGeometry),
+      ...shapeColumns(shapesOf({ kind: 'pit', geometry: pitGeometry, width: null, depth: 3 }, site)),
       width: null,
       depth: 3,
       state: 'open',

@@ -1,4 +1,6 @@
+import type { LineString, Polygon } from 'geojson';
 import type { Db } from '../database';
+import { shapeColumns, shapesOf } from '../../server/src/services/geometry/shapes';
 import type { DemoContext } from './people';
 
 /**
@@ -83,7 +85,14 @@ export async function seedExcavations(db: Db, ctx: DemoContext): Promise<void> {
     const { line: _line, ...columns } = e;
     await db
       .insertInto('excavations')
-      .values({ ...columns, site_id: ctx.siteId, geometry: JSON.stringify(geometry), soil: JSON.stringify(e.soil), created_by: ctx.people.coordinator })
+      .values({
+        ...columns,
+        site_id: ctx.siteId,
+        geometry: JSON.stringify(geometry),
+        ...shapeColumns(shapesOf({ kind: e.kind, geometry: geometry as LineString | Polygon, width: e.width ?? null, depth: e.depth }, site)),
+        soil: JSON.stringify(e.soil),
+        created_by: ctx.people.coordinator,
+      })
       .execute();
   }
 }

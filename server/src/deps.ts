@@ -2,6 +2,7 @@ import type PgBoss from 'pg-boss';
 import type { Db } from '@db/database';
 import type { Config } from './config';
 import type { Mailer } from './mail/mailer';
+import type { GeometryPool } from './services/geometry/pool';
 
 /** What every route and service is given: no globals. */
 export interface Deps {
@@ -9,6 +10,8 @@ export interface Deps {
   config: Config;
   mailer: Mailer;
   boss: PgBoss;
+  /** Worker threads for geometry that can take long (influence zones). */
+  geometry: GeometryPool;
   /** The time now; tests inject their own clock. */
   now: () => Date;
 }

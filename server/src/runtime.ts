@@ -3,6 +3,7 @@ import { createDb, createPool } from '@db/database';
 import type { Config } from './config';
 import type { Deps } from './deps';
 import { Mailer } from './mail/mailer';
+import { GeometryPool } from './services/geometry/pool';
 
 export interface Runtime {
   deps: Deps;
@@ -22,10 +23,12 @@ export async function startRuntime(config: Config, opts: { now?: () => Date; que
   const prefix = opts.queuePrefix ?? 'brink';
   const mailer = new Mailer(boss, config, `${prefix}.mail`);
   await mailer.start();
-  const deps: Deps = { db, config, mailer, boss, now: opts.now ?? (() => new Date()) };
+  const geometry = new GeometryPool();
+  const deps: Deps = { db, config, mailer, boss, geometry, now: opts.now ?? (() => new Date()) };
   return {
     deps,
     async stop() {
+      await geometry.close();
       await boss.stop({ graceful: true, timeout: 5000 });
       await db.destroy();
     },

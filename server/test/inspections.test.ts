@@ -52,6 +52,7 @@ async function excavation(site = siteId, state: 'planned' | 'open' | 'backfilled
       geometry: JSON.stringify({ type: 'LineString', coordinates: [[-1.1, 52.1], [-1.0999, 52.1]] }),
       width: 1.2,
       depth: 2.4,
+      // No outline or zone stored: these tests read neither.
       state,
       support_type: 'hydraulic-frames',
       soil: JSON.stringify([]),

@@ -2,7 +2,9 @@ import { randomUUID } from 'node:crypto';
 import { sql } from 'kysely';
 import bcrypt from 'bcryptjs';
 import request from 'supertest';
+import type { LineString } from 'geojson';
 import { localProjection } from '@shared/geometry';
+import { shapeColumns, shapesOf } from '../src/services/geometry/shapes';
 import type { PermitCreateInput, PermitStatus, PlacedLoad } from '@shared/schemas/permits';
 import { demo, DEMO_PASSWORD, demoSiteId, signedIn, unique, type TestApp } from './helpers';
 
@@ -63,6 +65,8 @@ async function addTrench(t: TestApp, siteId: number, origin: [number, number], a
   const proj = localProjection(origin);
   const reference = `TT-${randomUUID().slice(0, 6)}`;
   const [cx, cy] = at ?? (await freshCentre(t));
+  const geometry: LineString = { type: 'LineString', coordinates: [proj.toWgs84([cx - TRENCH.length / 2, cy]), proj.toWgs84([cx + TRENCH.length / 2, cy])] };
+  const shapes = shapeColumns(shapesOf({ kind: 'trench', geometry, width: TRENCH.width, depth: TRENCH.depth }, { longitude: origin[0], latitude: origin[1] }));
   const row = await t.deps.db
     .insertInto('excavations')
     .values({
@@ -70,7 +74,8 @@ async function addTrench(t: TestApp, siteId: number, origin: [number, number], a
       reference,
       name: 'Test pipe trench',
       kind: 'trench',
-      geometry: JSON.stringify({ type: 'LineString', coordinates: [proj.toWgs84([cx - TRENCH.length / 2, cy]), proj.toWgs84([cx + TRENCH.length / 2, cy])] }),
+      geometry: JSON.stringify(geometry),
+      ...shapes,
       width: TRENCH.width,
       depth: TRENCH.depth,
       state: 'open',

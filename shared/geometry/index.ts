@@ -12,7 +12,7 @@ import { signedDistanceToZone } from './zones';
 export { localProjection, type LocalProjection, type LonLat, type XY } from './projection';
 export { GeometryError, excavationOutline, trenchRing, prepareRing, type ExcavationShape, type FootprintShape, type PreparedOutline } from './outline';
 export { placeFootprint, placePad, type Placement } from './placement';
-export { influenceZone, exclusionZone, zonePolygon, signedDistanceToZone, ARC_STEPS } from './zones';
+export { influenceZone, exclusionZone, zonePolygon, signedDistanceToZone, stepsFor, ARC_STEPS } from './zones';
 export { boundsGap, boundsOf, distanceToRing, signedDistanceToRing, signedArea, pointInRing, type Ring, type Bounds } from './planar';
 
 /** Pad side of a point load when none is given (m), as in the engine. */
@@ -42,3 +42,4 @@ export function prepareExcavation(shape: ExcavationShape, proj: LocalProjection)
 export function signedDistanceToZoneAt(excavation: PreparedOutline, position: LonLat, distance: number, proj: LocalProjection): number {
   return signedDistanceToZone(excavation, proj.toLocal(position), distance);
 }
+export { SITE_TOLERANCE, simplifyLine, simplifyRing } from './simplify';

@@ -69,25 +69,41 @@ export function convexBuffer(ring: Ring, r: number, steps = ARC_STEPS): Ring {
   return out;
 }
 
-/** The zone within `distance` (m) of the excavation outline, as GeoJSON in WGS84. */
-export function zonePolygon(excavation: PreparedOutline, distance: number, proj: LocalProjection): Polygon | MultiPolygon {
+/**
+ * Chords per quarter circle so that a zone drawn with them exceeds the true zone by at most
+ * `tolerance` metres: r·(1/cos(π/(4·steps)) − 1) ≤ tolerance (from ARC_STEPS down to 2). A zone that
+ * is stored (issue 12) is drawn to the site tolerance: about 4 chords a quarter at 2.5 m instead of
+ * 64, a tenth of the points, still containing every point within the distance.
+ */
+export function stepsFor(distance: number, tolerance: number): number {
+  if (!(tolerance > 0) || !(distance > 0)) return ARC_STEPS;
+  const steps = Math.ceil(Math.PI / (4 * Math.acos(distance / (distance + tolerance))));
+  return Math.max(2, Math.min(ARC_STEPS, steps));
+}
+
+/**
+ * The zone within `distance` (m) of the excavation outline, as GeoJSON in WGS84; with `tolerance`,
+ * drawn with fewer chords that still never fall inside the zone (see stepsFor).
+ */
+export function zonePolygon(excavation: PreparedOutline, distance: number, proj: LocalProjection, tolerance = 0): Polygon | MultiPolygon {
+  const steps = stepsFor(distance, tolerance);
   const toGeo = (r: Ring) => {
     const ll = r.map((p) => proj.toWgs84(p));
     return [...ll, ll[0]];
   };
   if (distance <= 0) return { type: 'Polygon', coordinates: [toGeo(excavation.ring)] };
-  if (isConvex(excavation.ring)) return { type: 'Polygon', coordinates: [toGeo(convexBuffer(excavation.ring, distance))] };
+  if (isConvex(excavation.ring)) return { type: 'Polygon', coordinates: [toGeo(convexBuffer(excavation.ring, distance, steps))] };
   const outline = turfPolygon([toGeo(excavation.ring)]);
   const sphere = Math.max(1, TURF_EARTH_RADIUS / proj.radii.meridional);
-  const drawn = (sphere * distance) / Math.cos(Math.PI / (4 * ARC_STEPS));
-  const zone = buffer(outline, drawn, { units: 'meters', steps: ARC_STEPS });
+  const drawn = (sphere * distance) / Math.cos(Math.PI / (4 * steps));
+  const zone = buffer(outline, drawn, { units: 'meters', steps });
   if (!zone) throw new Error('zone outline could not be drawn');
   return zone.geometry;
 }
 
 /** Influence zone: the ground within the depth H of the outline. */
-export function influenceZone(excavation: PreparedOutline, depth: number, proj: LocalProjection): Polygon | MultiPolygon {
-  return zonePolygon(excavation, depth, proj);
+export function influenceZone(excavation: PreparedOutline, depth: number, proj: LocalProjection, tolerance = 0): Polygon | MultiPolygon {
+  return zonePolygon(excavation, depth, proj, tolerance);
 }
 
 /** Exclusion zone: the ground within a load's standoff of the outline. */

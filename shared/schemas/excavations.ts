@@ -11,6 +11,7 @@ import { kinks, lineString, polygon } from '@turf/turf';
 import type { LineString, MultiPolygon, Polygon } from 'geojson';
 import { calcRequestSchema, excavationSchema as calcExcavationSchema, soilLayerSchema } from './calc';
 import type { Excavation as CalcExcavation, SoilLayer } from '../engineering/types';
+import { SITE_TOLERANCE, simplifyLine, simplifyRing } from '../geometry/simplify';
 
 export const excavationKinds = ['trench', 'pit'] as const;
 export type ExcavationKind = (typeof excavationKinds)[number];
@@ -73,8 +74,23 @@ export const polygonSchema = z.object({
 });
 
 /**
- * A trench centre line or a pit outline, valid GeoJSON, not crossing itself (checked with turf's
- * kinks, which finds every point where the line or ring crosses or touches itself).
+ * Vertex limits (issue 12: bound the work one request can cause). A trench centre line or pit outline
+ * may hold at most MAX_OUTLINE_POINTS points after simplification to the site tolerance (0.05 m,
+ * see shared/geometry/simplify.ts), and an import at most MAX_IMPORT_POINTS in all. 200 points is
+ * one every 2 m along a 400 m curving trench; drawn trenches carry tens. The raw limit of 500
+ * positions bounds what is read before simplifying.
+ */
+export const MAX_OUTLINE_POINTS = 200;
+export const MAX_IMPORT_POINTS = 2000;
+
+/** Points of a geometry as stored (a ring's closing point not counted). */
+export const pointCount = (g: LineString | Polygon): number => (g.type === 'LineString' ? g.coordinates.length : g.coordinates[0].length - 1);
+
+/**
+ * A trench centre line or a pit outline, valid GeoJSON, simplified to the site tolerance, within
+ * the vertex limit, not crossing itself (checked with turf's kinks, which finds every point where
+ * the line or ring crosses or touches itself; checked after the limit so that its quadratic work
+ * is bounded).
  */
 export const geometrySchema = z
   .discriminatedUnion('type', [lineStringSchema, polygonSchema], {
@@ -82,6 +98,20 @@ export const geometrySchema = z
       typeof iss.input === 'object' && iss.input !== null && 'type' in iss.input
         ? `must be a LineString (a trench centre line) or a Polygon (a pit outline), not ${JSON.stringify((iss.input as { type: unknown }).type)}`
         : 'must be a GeoJSON geometry: a LineString (trench centre line) or a Polygon (pit outline)',
+  })
+  .transform((g, ctx): LineString | Polygon => {
+    const simple: LineString | Polygon =
+      g.type === 'LineString' ? { type: 'LineString', coordinates: simplifyLine(g.coordinates) } : { type: 'Polygon', coordinates: [simplifyRing(g.coordinates[0])] };
+    const n = pointCount(simple);
+    if (n > MAX_OUTLINE_POINTS) {
+      ctx.addIssue({
+        code: 'custom',
+        message: `has ${n} points after simplifying to ${SITE_TOLERANCE} m; at most ${MAX_OUTLINE_POINTS} are allowed (split it into separate excavations)`,
+        fatal: true,
+      });
+      return z.NEVER;
+    }
+    return simple;
   })
   .superRefine((g, ctx) => {
     let crossings;

@@ -11,7 +11,7 @@ import type { Db } from '@db/database';
 import { Api, badRequest, conflict, HttpError, notFound, parseOr400, siteFromParam, type Access } from '../http';
 import { audit } from '../services/audit';
 import { listNumbers, permitsReferring } from '../services/permit-references';
-import { columnsOf, loadExcavations, placementProblems, projectionOf, readImport, rowValues, toFeatureCollection } from '../services/excavations';
+import { columnsOf, loadExcavations, placementProblems, projectionOf, readImport, rowValues, storedShapes, toFeatureCollection } from '../services/excavations';
 import { isForeignKeyViolation, isUniqueViolation } from '../services/pg-errors';
 import { filesOf, limits, MB, receiveFiles, storeUpload } from '../services/uploads';
 
@@ -97,12 +97,13 @@ export function registerExcavationRoutes(api: Api): void {
     async ({ params, body, user, res }) => {
       const site = await siteOrigin(db, params.siteId);
       checkPlacement(body, site);
+      const [shapes] = await storedShapes(api.deps.geometry, [body], site);
       const id = await db
         .transaction()
         .execute(async (trx) => {
           const r = await trx
             .insertInto('excavations')
-            .values({ ...columnsOf(body), site_id: site.id, created_by: user!.id })
+            .values({ ...columnsOf(body), ...shapes, site_id: site.id, created_by: user!.id })
             .returning('id')
             .executeTakeFirstOrThrow();
           await audit(trx, { actorId: user!.id, siteId: site.id, entity: 'excavation', entityId: r.id, action: 'created', detail: { values: body } });
@@ -144,9 +145,11 @@ export function registerExcavationRoutes(api: Api): void {
           checkPlacement(after, site);
           const diff = changesBetween(before, after);
           if (Object.keys(diff).length === 0) return;
+          const redraw = ['geometry', 'kind', 'width', 'depth'].some((k) => k in diff);
+          const shapes = redraw ? (await storedShapes(deps.geometry, [after], site))[0] : {};
           await trx
             .updateTable('excavations')
-            .set({ ...columnsOf(after), version: old.version + 1, updated_at: deps.now() })
+            .set({ ...columnsOf(after), ...shapes, version: old.version + 1, updated_at: deps.now() })
             .where('id', '=', old.id)
             .execute();
           const supportChanged = SUPPORT_FIELDS.filter((f) => f in diff);
@@ -253,7 +256,7 @@ export function registerExcavationRoutes(api: Api): void {
       const { mode } = parseOr400(z.object({ mode: z.enum(importModes, { error: 'must be add or replace' }).default('add') }), req.body ?? {}, 'request');
       const [file] = filesOf(req, 'file');
       if (!file) throw badRequest('Please choose a GeoJSON file.', { file: 'is required' });
-      const plan = readImport(file.buffer.toString('utf8'), projectionOf(site));
+      const plan = await readImport(file.buffer.toString('utf8'), projectionOf(site));
       if (plan.fileError) throw badRequest(`The file ${plan.fileError}.`, { file: plan.fileError });
 
       const existing = new Map(
@@ -279,14 +282,16 @@ export function registerExcavationRoutes(api: Api): void {
         return;
       }
 
+      // Drawn in the geometry workers before the transaction opens, so no row is locked meanwhile.
+      const shapes = await storedShapes(api.deps.geometry, plan.features.map((f) => f.values), site);
       const report: ImportReport = await db
         .transaction()
         .execute(async (trx) => {
           const imported: ImportReport['imported'] = [];
-          for (const { index, values } of plan.features) {
+          for (const [n, { index, values }] of plan.features.entries()) {
             const oldId = existing.get(values.reference);
             if (oldId === undefined) {
-              const r = await trx.insertInto('excavations').values({ ...columnsOf(values), site_id: site.id, created_by: user!.id }).returning('id').executeTakeFirstOrThrow();
+              const r = await trx.insertInto('excavations').values({ ...columnsOf(values), ...shapes[n], site_id: site.id, created_by: user!.id }).returning('id').executeTakeFirstOrThrow();
               await audit(trx, { actorId: user!.id, siteId: site.id, entity: 'excavation', entityId: r.id, action: 'imported', detail: { values } });
               imported.push({ index, reference: values.reference, id: r.id, action: 'created' });
             } else {
@@ -294,7 +299,7 @@ export function registerExcavationRoutes(api: Api): void {
               const diff = changesBetween(rowValues(old), values);
               await trx
                 .updateTable('excavations')
-                .set({ ...columnsOf(values), version: old.version + 1, updated_at: api.deps.now() })
+                .set({ ...columnsOf(values), ...shapes[n], version: old.version + 1, updated_at: api.deps.now() })
                 .where('id', '=', oldId)
                 .execute();
               await audit(trx, { actorId: user!.id, siteId: site.id, entity: 'excavation', entityId: oldId, action: 'import-replaced', detail: { reference: values.reference, changes: diff, version: old.version + 1 } });

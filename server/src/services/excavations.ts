@@ -4,7 +4,7 @@
  * SITE_RADIUS of the origin, an outline the geometry can form), and GeoJSON out and in.
  */
 import type { Selectable } from 'kysely';
-import type { Feature, FeatureCollection, Polygon } from 'geojson';
+import type { Feature, FeatureCollection } from 'geojson';
 import {
   excavationInputSchema,
   SITE_RADIUS,
@@ -12,35 +12,22 @@ import {
   type ExcavationInput,
   type ExcavationValues,
   type ImportReport,
+  MAX_IMPORT_POINTS,
+  pointCount,
 } from '@shared/schemas/excavations';
-import { excavationOutline, GeometryError, influenceZone, localProjection, type ExcavationShape, type LocalProjection } from '@shared/geometry';
+import { GeometryError, SITE_TOLERANCE, type LocalProjection } from '@shared/geometry';
+import { outlineOf, shapeColumns, type SiteOrigin } from './geometry/shapes';
+import { GeometryTimeout, type GeometryPool } from './geometry/pool';
 import type { Db, ExcavationsTable } from '@db/database';
-import { zodFields } from '../http';
+import { badRequest, zodFields } from '../http';
 
 type Row = Selectable<ExcavationsTable>;
-export interface SiteOrigin {
-  latitude: number;
-  longitude: number;
-}
-
-export const projectionOf = (site: SiteOrigin): LocalProjection => localProjection([site.longitude, site.latitude]);
-
-function shapeOf(v: Pick<ExcavationValues, 'kind' | 'geometry' | 'width'>): ExcavationShape {
-  return v.kind === 'trench' && v.geometry.type === 'LineString'
-    ? { kind: 'trench', centreLine: v.geometry, width: v.width ?? 0 }
-    : { kind: 'pit', outline: v.geometry as Polygon };
-}
-
-/** The ground outline (GeoJSON Polygon, WGS84) and the influence zone of an excavation; throws GeometryError when no outline forms. */
-export function outlineAndZone(v: Pick<ExcavationValues, 'kind' | 'geometry' | 'width' | 'depth'>, proj: LocalProjection): Pick<Excavation, 'outline' | 'influenceZone'> {
-  const prepared = excavationOutline(shapeOf(v), proj);
-  const ring = prepared.ring.map((p) => proj.toWgs84(p));
-  return { outline: { type: 'Polygon', coordinates: [[...ring, ring[0]]] }, influenceZone: influenceZone(prepared, v.depth, proj) };
-}
+export { projectionOf, type SiteOrigin } from './geometry/shapes';
 
 /**
  * Problems that need the site: a point farther than SITE_RADIUS from the origin, or a geometry that
  * forms no outline (a trench bent back on itself, a pit of no area). Field → reason; empty when fine.
+ * Only the outline is formed here (milliseconds); the zone is drawn in a worker (storedShapes).
  */
 export function placementProblems(v: Pick<ExcavationValues, 'kind' | 'geometry' | 'width' | 'depth'>, proj: LocalProjection): Record<string, string> {
   const points = v.geometry.type === 'LineString' ? v.geometry.coordinates : v.geometry.coordinates.flat();
@@ -54,12 +41,29 @@ export function placementProblems(v: Pick<ExcavationValues, 'kind' | 'geometry' 
     return { geometry: `must lie within ${SITE_RADIUS / 1000} km of the site origin (a point is ${km} km from it)` };
   }
   try {
-    outlineAndZone(v, proj);
+    outlineOf(v, proj);
   } catch (e) {
     if (e instanceof GeometryError) return { geometry: e.message };
     throw e;
   }
   return {};
+}
+
+/**
+ * The outline and influence zone columns of validated excavations, drawn in the geometry workers
+ * (off the request thread). A drawing that runs past the pool's time limit is refused as 400 on
+ * `geometry` (naming the excavation's reference).
+ */
+export async function storedShapes(pool: GeometryPool, list: ExcavationValues[], site: SiteOrigin): Promise<ReturnType<typeof shapeColumns>[]> {
+  const out = await Promise.all(
+    list.map((v) =>
+      pool.shapes({ kind: v.kind, geometry: v.geometry, width: v.width, depth: v.depth }, { latitude: site.latitude, longitude: site.longitude }).catch((e: unknown) => {
+        if (e instanceof GeometryTimeout) throw badRequest(`${v.reference}: the outline is too intricate to draw (${e.message}); simplify it.`, { geometry: `${v.reference} is too intricate to draw; simplify it` });
+        throw e;
+      }),
+    ),
+  );
+  return out.map(shapeColumns);
 }
 
 /** The row's values as an input object (what a PATCH merges into, what an export writes). */
@@ -108,15 +112,10 @@ export function columnsOf(v: ExcavationValues) {
   };
 }
 
-function excavationOut(r: Row, proj: LocalProjection, drawing: Excavation['drawing']): Excavation {
+function excavationOut(r: Row, drawing: Excavation['drawing']): Excavation {
   const values = rowValues(r);
-  let shapes: Pick<Excavation, 'outline' | 'influenceZone'> = { outline: null, influenceZone: null };
-  try {
-    shapes = outlineAndZone(values, proj);
-  } catch (e) {
-    // Saved geometry is validated on the way in; an outline that no longer forms is shown without one.
-    if (!(e instanceof GeometryError)) throw e;
-  }
+  // Drawn when written (never here); null when no outline forms.
+  const shapes = { outline: (r.outline ?? null) as Excavation['outline'], influenceZone: (r.influence_zone ?? null) as Excavation['influenceZone'] };
   return {
     id: r.id,
     siteId: r.site_id,
@@ -136,8 +135,6 @@ function excavationOut(r: Row, proj: LocalProjection, drawing: Excavation['drawi
  */
 export async function loadExcavations(db: Db, siteId: number, ids?: number[]): Promise<Excavation[]> {
   if (ids && ids.length === 0) return [];
-  const site = await db.selectFrom('sites').select(['latitude', 'longitude']).where('id', '=', siteId).executeTakeFirst();
-  if (!site) return [];
   let q = db
     .selectFrom('excavations')
     .leftJoin('uploads', 'uploads.id', 'excavations.drawing_upload_id')
@@ -146,9 +143,8 @@ export async function loadExcavations(db: Db, siteId: number, ids?: number[]): P
     .where('excavations.site_id', '=', siteId)
     .orderBy('excavations.reference');
   if (ids) q = q.where('excavations.id', 'in', ids);
-  const proj = projectionOf(site);
   return (await q.execute()).map((r) =>
-    excavationOut(r, proj, r.drawing_upload_id ? { id: r.drawing_upload_id, name: r.drawing_name ?? 'drawing.pdf', size: r.drawing_size ?? 0 } : null),
+    excavationOut(r, r.drawing_upload_id ? { id: r.drawing_upload_id, name: r.drawing_name ?? 'drawing.pdf', size: r.drawing_size ?? 0 } : null),
   );
 }
 
@@ -192,8 +188,10 @@ export interface ImportPlan {
 /**
  * Reads an import file: every feature is checked as a new excavation would be (the kind follows
  * from the geometry when not given). Nothing is written here; the route writes all or nothing.
+ * Each feature's checks are bounded by the vertex limits (milliseconds); the reader yields to the
+ * event loop between features so that other requests are answered meanwhile.
  */
-export function readImport(text: string, proj: LocalProjection): ImportPlan {
+export async function readImport(text: string, proj: LocalProjection): Promise<ImportPlan> {
   let doc: unknown;
   try {
     doc = JSON.parse(text.replace(/^\uFEFF/, ''));
@@ -204,7 +202,15 @@ export function readImport(text: string, proj: LocalProjection): ImportPlan {
   if (problem) return { fileError: problem, features: [], refused: [] };
   const plan: ImportPlan = { fileError: null, features: [], refused: [] };
   const seen = new Map<string, number>();
-  (doc as { features: unknown[] }).features.forEach((f, index) => {
+  let points = 0;
+  const features = (doc as { features: unknown[] }).features;
+  for (const [index, f] of features.entries()) {
+    if (index > 0) await new Promise((resolve) => setImmediate(resolve));
+    readFeature(f, index);
+  }
+  return plan;
+
+  function readFeature(f: unknown, index: number): void {
     const feature = (typeof f === 'object' && f !== null ? f : {}) as { type?: unknown; geometry?: { type?: unknown } | null; properties?: unknown };
     const props = (typeof feature.properties === 'object' && feature.properties !== null ? feature.properties : {}) as Record<string, unknown>;
     const reference = typeof props.reference === 'string' ? props.reference.trim() : null;
@@ -226,12 +232,21 @@ export function readImport(text: string, proj: LocalProjection): ImportPlan {
       plan.refused.push({ index, reference, reasons });
       return;
     }
+    points += pointCount(parsed.data.geometry);
+    if (points > MAX_IMPORT_POINTS) {
+      // Bound the work of one import: the feature that passes the limit, and every later one, is refused.
+      plan.refused.push({
+        index,
+        reference: parsed.data.reference,
+        reasons: { geometry: `brings the file to ${points} points (after simplifying to ${SITE_TOLERANCE} m); an import may hold at most ${MAX_IMPORT_POINTS}: split the file` },
+      });
+      return;
+    }
     const reasons = placementProblems(parsed.data, proj);
     const key = parsed.data.reference;
     if (seen.has(key)) reasons.reference = `repeats the reference of feature ${seen.get(key)! + 1}`;
     seen.set(key, index);
     if (Object.keys(reasons).length) plan.refused.push({ index, reference: parsed.data.reference, reasons });
     else plan.features.push({ index, values: parsed.data });
-  });
-  return plan;
+  }
 }
