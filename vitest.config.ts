@@ -26,6 +26,7 @@ export default defineConfig({
           testTimeout: 30_000,
           hookTimeout: 60_000,
           globalSetup: ['server/test/global-setup.ts'],
+          setupFiles: ['server/test/setup-origin.ts'],
         },
       },
     ],

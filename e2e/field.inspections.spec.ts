@@ -70,7 +70,7 @@ async function trenchWithLivePermit(supervisor: APIRequestContext, coordinator: 
 test('the supervisor records a failed inspection on a phone and the permit on that trench shows Suspended', async ({ page, playwright, baseURL }) => {
   await signIn(page, 'supervisor@demo.brink.test');
   const siteId = Number(page.url().match(/\/sites\/(\d+)/)![1]);
-  const coordinator = await playwright.request.newContext({ baseURL });
+  const coordinator = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL!).origin } }); // the API takes changes only from Brink's origin
   await ok(await coordinator.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }), 'coordinator sign-in');
   const { reference, permit } = await trenchWithLivePermit(page.request, coordinator, siteId);
   await coordinator.dispose();

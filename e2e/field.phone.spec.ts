@@ -27,7 +27,7 @@ let proj: LocalProjection;
 let field: FieldPermit;
 
 async function apiAs(requests: APIRequest, baseURL: string, email: string): Promise<APIRequestContext> {
-  const ctx = await requests.newContext({ baseURL });
+  const ctx = await requests.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL).origin } }); // the API takes changes only from Brink's origin
   const r = await ctx.post('/api/auth/sign-in', { data: { email, password } });
   expect(r.status(), `sign-in as ${email}`).toBe(200);
   return ctx;
@@ -97,7 +97,7 @@ test.afterAll(async () => {
 test.use({ permissions: ['geolocation'], geolocation: { latitude: 0, longitude: 0, accuracy: 1 } });
 
 async function signInOperator(page: Page) {
-  const r = await page.request.post('/api/auth/sign-in', { data: { email: 'operator@demo.brink.test', password } });
+  const r = await page.request.post('/api/auth/sign-in', { data: { email: 'operator@demo.brink.test', password }, headers: { Origin: new URL(process.env.BRINK_URL ?? 'http://127.0.0.1:3000').origin } });
   expect(r.status()).toBe(200);
 }
 

@@ -8,6 +8,7 @@ import helmet from 'helmet';
 import pg from 'pg';
 import type { Deps } from './deps';
 import { Api, errorHandler, HttpError } from './http';
+import { sameOrigin } from './csrf';
 import { registerAuthRoutes } from './routes/auth';
 import { registerFieldRoutes } from './routes/field';
 import { registerExcavationRoutes } from './routes/excavations';
@@ -64,6 +65,9 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
       next();
     });
   }
+
+  // Changes only from Brink's own pages, bodies uncompressed (server/src/csrf.ts).
+  app.use('/api', sameOrigin(config.publicUrl));
 
   const PgStore = connectPgSimple(session);
   const sessionPool = opts.sessionPool ?? new pg.Pool({ connectionString: config.databaseUrl, max: 4 });

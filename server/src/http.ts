@@ -2,6 +2,7 @@ import express, { type NextFunction, type Request, type RequestHandler, type Res
 import { z, type ZodType } from 'zod';
 import type { SiteRole } from '@shared/schemas/common';
 import type { Deps } from './deps';
+import { bodyTypeProblem, crossSite } from './csrf';
 
 /** An error with an HTTP status that the error handler turns into `{ error: { code, message, fields? } }`. */
 export class HttpError extends Error {
@@ -138,6 +139,8 @@ export class Api {
     this.specs.push(spec as unknown as RouteSpec<ZodType, ZodType, ZodType>);
     const deps = this.deps;
     const guard: RequestHandler = async (req, _res, next) => {
+      const typeProblem = bodyTypeProblem(req, Boolean(spec.files));
+      if (typeProblem) throw crossSite(typeProblem);
       (req as AuthedRequest).siteAccess = await authorise(spec.access, req, deps);
       next();
     };

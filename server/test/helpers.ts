@@ -19,6 +19,9 @@ export const demo = {
 } as const;
 export type DemoRole = keyof typeof demo;
 
+/** The test app's own origin (its PUBLIC_URL): supertest requests say they come from it (setup-origin.ts). */
+export const TEST_ORIGIN = 'http://brink.test';
+
 export async function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
     const s = net.createServer();
@@ -52,7 +55,7 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
     SESSION_SECRET: 'test-secret-123456',
     MAIL_CATCHER: 'on',
     MAIL_CATCHER_PORT: String(catcherPort),
-    PUBLIC_URL: 'http://brink.test',
+    PUBLIC_URL: TEST_ORIGIN,
     BRINK_DEMO: '1',
     ...env,
   });
