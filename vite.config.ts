@@ -14,6 +14,21 @@ export const alias = {
 };
 
 /**
+ * A Workbox plugin for the field API's cache: an answer the service worker serves from its cache
+ * carries the header X-Brink-Kept-Copy (KEPT_COPY_HEADER in client/src/features/field/api/kept.ts,
+ * whose test checks the two agree), so the page never takes a kept copy for the server's answer.
+ * Serialised into sw.js: the function refers to nothing outside itself.
+ */
+export const markKeptCopy = {
+  cachedResponseWillBeUsed: async ({ cachedResponse }: { cachedResponse?: Response | null }) => {
+    if (!cachedResponse) return cachedResponse;
+    const headers = new Headers(cachedResponse.headers);
+    headers.set('X-Brink-Kept-Copy', '1');
+    return new Response(cachedResponse.body, { status: cachedResponse.status, statusText: cachedResponse.statusText, headers });
+  },
+};
+
+/**
  * The installable phone app and its service worker (client/src/features/field registers it; see
  * DEVELOPERS.md, "Field view offline"). The worker precaches the app shell, answers every page
  * address with index.html when there is no signal, and keeps the answers of the field view's API
@@ -55,7 +70,7 @@ const pwa = VitePWA({
     runtimeCaching: [
       {
         // The field view's reads (my permits, one permit): the network when it answers within a few
-        // seconds, else the last good copy. Errors are never kept.
+        // seconds, else the last good copy, marked by markKeptCopy. Errors are never kept.
         urlPattern: ({ url, request }) => request.method === 'GET' && url.pathname.startsWith('/api/field/'),
         handler: 'NetworkFirst',
         options: {
@@ -63,6 +78,7 @@ const pwa = VitePWA({
           networkTimeoutSeconds: 8,
           cacheableResponse: { statuses: [200] },
           expiration: { maxEntries: 100, maxAgeSeconds: 14 * 24 * 3600 },
+          plugins: [markKeptCopy],
         },
       },
       {

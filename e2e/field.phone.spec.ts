@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type APIRequest, type APIRequestContext, type BrowserContext, type Page } from '@playwright/test';
+import { expect, test, type APIRequest, type APIRequestContext, type BrowserContext, type Page, type Route } from '@playwright/test';
 import { createDb, createPool, type Db } from '@db/database';
 import { localProjection, prepareExcavation, signedDistanceToZoneAt, type LocalProjection } from '@shared/geometry';
 import type { FieldPermit } from '@shared/schemas/field';
@@ -33,6 +33,36 @@ async function apiAs(requests: APIRequest, baseURL: string, email: string): Prom
   return ctx;
 }
 
+let made: { siteId: number; pitId: number; operatorId: number };
+
+/** A permit for a pipe stack 5 m north of the test pit, approved with a 2.00 m standoff, naming the demo operator. */
+async function approvedPermit(supervisor: APIRequestContext, coordinator: APIRequestContext): Promise<{ id: number; number: string; version: number }> {
+  const corner = (x: number, y: number) => proj.toWgs84([x, y]);
+  const stack = [corner(PIT.x0, 8), corner(PIT.x1, 8), corner(PIT.x1, 10), corner(PIT.x0, 10), corner(PIT.x0, 8)];
+  const now = Date.now();
+  const created = await supervisor.post('/api/permits', {
+    data: {
+      siteId: made.siteId,
+      kind: 'load',
+      description: 'Pipe stack beside the phone test pit',
+      windowStart: new Date(now - 3600_000).toISOString(),
+      windowEnd: new Date(now + 8 * 3600_000).toISOString(),
+      excavationIds: [made.pitId],
+      loads: [{ id: 'stack', kind: 'area', label: 'Pipe stack', outline: { type: 'Polygon', coordinates: [stack] }, pressure: 8 }],
+      operatorIds: [made.operatorId],
+    },
+  });
+  expect(created.status(), await created.text()).toBe(201);
+  const draft = (await created.json()).permit;
+  const submitted = await supervisor.post(`/api/permits/${draft.id}/transitions`, { data: { action: 'submit', version: draft.version } });
+  expect(submitted.status(), await submitted.text()).toBe(200);
+  const approved = await coordinator.post(`/api/permits/${draft.id}/transitions`, {
+    data: { action: 'approve', version: (await submitted.json()).permit.version, password, standoff: STANDOFF, conditions: ['Stack the pipes no higher than two rows.'] },
+  });
+  expect(approved.status(), await approved.text()).toBe(200);
+  return (await approved.json()).permit;
+}
+
 test.beforeAll(async ({ playwright, baseURL }) => {
   const url = process.env.DATABASE_URL;
   if (!url) throw new Error('DATABASE_URL is not set: run the end-to-end tests through `npm test`');
@@ -63,28 +93,8 @@ test.beforeAll(async ({ playwright, baseURL }) => {
   const supervisor = await apiAs(playwright.request, baseURL!, 'supervisor@demo.brink.test');
   const coordinator = await apiAs(playwright.request, baseURL!, 'coordinator@demo.brink.test');
   const operator = await db.selectFrom('users').select('id').where('email', '=', 'operator@demo.brink.test').executeTakeFirstOrThrow();
-  const stack = [corner(PIT.x0, 8), corner(PIT.x1, 8), corner(PIT.x1, 10), corner(PIT.x0, 10), corner(PIT.x0, 8)];
-  const now = Date.now();
-  const created = await supervisor.post('/api/permits', {
-    data: {
-      siteId: site.id,
-      kind: 'load',
-      description: 'Pipe stack beside the phone test pit',
-      windowStart: new Date(now - 3600_000).toISOString(),
-      windowEnd: new Date(now + 8 * 3600_000).toISOString(),
-      excavationIds: [pit.id],
-      loads: [{ id: 'stack', kind: 'area', label: 'Pipe stack', outline: { type: 'Polygon', coordinates: [stack] }, pressure: 8 }],
-      operatorIds: [operator.id],
-    },
-  });
-  expect(created.status(), await created.text()).toBe(201);
-  permit = (await created.json()).permit;
-  const submitted = await supervisor.post(`/api/permits/${permit.id}/transitions`, { data: { action: 'submit', version: (await created.json()).permit.version } });
-  expect(submitted.status(), await submitted.text()).toBe(200);
-  const approved = await coordinator.post(`/api/permits/${permit.id}/transitions`, {
-    data: { action: 'approve', version: (await submitted.json()).permit.version, password, standoff: STANDOFF, conditions: ['Stack the pipes no higher than two rows.'] },
-  });
-  expect(approved.status(), await approved.text()).toBe(200);
+  made = { siteId: site.id, pitId: pit.id, operatorId: operator.id };
+  permit = await approvedPermit(supervisor, coordinator);
   field = (await (await coordinator.get(`/api/field/permits/${permit.id}`)).json()).permit;
   await supervisor.dispose();
   await coordinator.dispose();
@@ -178,6 +188,109 @@ test('with no signal, the permit still shows from the copy kept on the phone', a
   await expect(page.getByTestId('last-updated')).toContainText('No signal: showing the copy kept on this phone');
   await expect(page.getByRole('banner').getByRole('status')).toContainText('No signal');
   await context.setOffline(false);
+});
+
+/**
+ * Every field API request from the page or the service worker is held with no answer, as on one bar
+ * of signal or behind a site gateway with no onward connection; the browser still believes it is
+ * online. Answers the held requests with a reset on release.
+ */
+async function holdFieldApi(context: BrowserContext) {
+  const held: Route[] = [];
+  const hold = (route: Route) => void held.push(route);
+  await context.route('**/api/field/**', hold);
+  return async () => {
+    await context.unroute('**/api/field/**', hold);
+    await Promise.all(held.map((r) => r.abort('connectionreset').catch(() => undefined)));
+  };
+}
+
+/** HH:MM in the phone's own time zone, as the page writes times. */
+const clockIn = (page: Page, iso: string) => page.evaluate((t) => new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit' }).format(new Date(t)), iso);
+
+test('with the field API held while the browser believes it is online, the page says No signal and the copy’s own time', async ({ page, context }) => {
+  await signInOperator(page);
+  await page.goto('/field');
+  await expect(page.getByRole('link', { name: new RegExp(permit.number) })).toBeVisible();
+  expect(await page.evaluate(() => navigator.serviceWorker.ready.then((r) => Boolean(r.active)))).toBe(true);
+  const answered = page.waitForResponse((r) => new URL(r.url()).pathname === `/api/field/permits/${permit.id}` && r.status() === 200);
+  await page.getByRole('link', { name: new RegExp(permit.number) }).click();
+  const kept: { asOf: string } = await (await answered).json();
+  await expect(page.getByTestId('last-updated')).toContainText('Last updated');
+  await expect(page.getByTestId('last-try')).toContainText('reached the server');
+
+  const release = await holdFieldApi(context);
+  await page.reload();
+  expect(await page.evaluate(() => navigator.onLine)).toBe(true);
+  await expect(page.getByRole('heading', { name: `Permit ${permit.number}` })).toBeVisible();
+  // The service worker gives up at 8 s and the page at 10 s: either way the answer is the phone's copy.
+  await expect(page.getByTestId('last-updated')).toContainText(`No signal: showing the copy kept on this phone (from ${await clockIn(page, kept.asOf)}`, { timeout: 20_000 });
+  await expect(page.getByTestId('last-try')).toContainText('no answer from the server');
+  await expect(page.getByRole('banner').getByRole('status')).toContainText('No signal');
+  await expect(page.getByText('Keep every part of the load at least 2.00 m from the edge')).toBeVisible();
+
+  // The signal returns: the next try reaches the server and the page says so.
+  await release();
+  await page.getByRole('button', { name: 'Update now' }).click();
+  await expect(page.getByTestId('last-updated')).toContainText('Last updated');
+  await expect(page.getByTestId('last-try')).toContainText('reached the server');
+  await expect(page.getByRole('banner').getByRole('status')).toContainText('Signal');
+  await expect(page.getByRole('banner').getByRole('status')).not.toContainText('No signal');
+});
+
+test('a permit suspended on the server after the copy was kept is never shown without the out-of-date warning', async ({ page, context, playwright, baseURL }) => {
+  const supervisor = await apiAs(playwright.request, baseURL!, 'supervisor@demo.brink.test');
+  const coordinator = await apiAs(playwright.request, baseURL!, 'coordinator@demo.brink.test');
+  const live = await approvedPermit(supervisor, coordinator);
+  // The operator's briefing starts it: its window is open.
+  await signInOperator(page);
+  const briefed = await page.request.post(`/api/permits/${live.id}/briefing`, { data: {} });
+  expect(briefed.status(), await briefed.text()).toBe(200);
+
+  const answered = page.waitForResponse((r) => new URL(r.url()).pathname === `/api/field/permits/${live.id}` && r.status() === 200);
+  await page.goto(`/field/permits/${live.id}`);
+  const kept: { asOf: string; permit: { status: string } } = await (await answered).json();
+  expect(kept.permit.status).toBe('live');
+  await expect(page.getByRole('heading', { name: `Permit ${live.number}` })).toContainText('Live');
+  await expect(page.getByTestId('stale-copy')).toHaveCount(0);
+  expect(await page.evaluate(() => navigator.serviceWorker.ready.then((r) => Boolean(r.active)))).toBe(true);
+
+  // Suspended on the server; the phone hears nothing of it, and its clock moves on 6 minutes.
+  const detail = await (await coordinator.get(`/api/permits/${live.id}`)).json();
+  const suspended = await coordinator.post(`/api/permits/${live.id}/transitions`, { data: { action: 'suspend', version: detail.permit.version, reason: 'Crack along the north edge.' } });
+  expect(suspended.status(), await suspended.text()).toBe(200);
+  await page.clock.setFixedTime(Date.parse(kept.asOf) + 6 * 60_000);
+  // From the first moment, every state of the page that shows the permit from a kept copy also shows the warning.
+  await page.addInitScript(() => {
+    const w = window as unknown as { unwarned: string[] };
+    w.unwarned = [];
+    new MutationObserver(() => {
+      const heading = document.querySelector('main h1')?.textContent ?? '';
+      const line = document.querySelector('[data-testid="last-updated"]')?.textContent ?? '';
+      if (heading.startsWith('Permit') && !line.startsWith('Last updated') && !document.querySelector('[data-testid="stale-copy"]')) w.unwarned.push(`${heading} | ${line}`);
+    }).observe(document, { subtree: true, childList: true, characterData: true });
+  });
+  const release = await holdFieldApi(context);
+  await page.reload();
+  await expect(page.getByRole('heading', { name: `Permit ${live.number}` })).toContainText('Live');
+  const banner = page.getByTestId('stale-copy');
+  await expect(banner).toBeVisible();
+  await expect(banner).toHaveAttribute('role', 'alert');
+  await expect(banner).toContainText(`Possibly out of date: this copy is from ${await clockIn(page, kept.asOf)}, 6 min ago`);
+  await expect(banner).toContainText('may have been suspended');
+  await expect(page.getByTestId('last-updated')).toContainText('No signal: showing the copy kept on this phone', { timeout: 20_000 });
+  await expect(banner).toBeVisible();
+
+  // With signal again, the server's answer shows the suspension, and the warning goes.
+  await release();
+  await page.getByRole('button', { name: 'Update now' }).click();
+  await expect(page.getByRole('heading', { name: `Permit ${live.number}` })).toContainText('Suspended');
+  await expect(page.getByRole('alert').filter({ hasText: 'Suspended: stop work under this permit now' })).toBeVisible();
+  await expect(page.getByTestId('last-updated')).toContainText('Last updated');
+  await expect(banner).toHaveCount(0);
+  expect(await page.evaluate(() => (window as unknown as { unwarned: string[] }).unwarned)).toEqual([]);
+  await supervisor.dispose();
+  await coordinator.dispose();
 });
 
 test.describe('without a service worker', () => {

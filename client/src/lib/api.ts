@@ -64,11 +64,8 @@ export interface RequestOptions {
   signal?: AbortSignal;
 }
 
-/**
- * Calls the API on the same origin with the session cookie. Sends and reads JSON; answers with
- * the parsed body, or undefined for 204 and empty bodies. Throws ApiError on any failure.
- */
-export async function apiFetch<T>(path: string, { method = 'GET', body, signal }: RequestOptions = {}): Promise<T> {
+/** Sends one request; answers with the response when it is a success, else throws ApiError. */
+async function send(path: string, { method = 'GET', body, signal }: RequestOptions): Promise<Response> {
   const headers: Record<string, string> = { Accept: 'application/json' };
   if (body !== undefined) headers['Content-Type'] = 'application/json';
   let res: Response;
@@ -85,9 +82,27 @@ export async function apiFetch<T>(path: string, { method = 'GET', body, signal }
     throw new ApiError(0, 'network', fallbackMessage(0));
   }
   if (!res.ok) throw await errorFromResponse(res);
+  return res;
+}
+
+async function readBody<T>(res: Response): Promise<T> {
   if (res.status === 204) return undefined as T;
   const text = await res.text();
   return (text ? JSON.parse(text) : undefined) as T;
+}
+
+/**
+ * Calls the API on the same origin with the session cookie. Sends and reads JSON; answers with
+ * the parsed body, or undefined for 204 and empty bodies. Throws ApiError on any failure.
+ */
+export async function apiFetch<T>(path: string, options: RequestOptions = {}): Promise<T> {
+  return readBody<T>(await send(path, options));
+}
+
+/** A GET that also gives the answer's headers (the field view reads the service worker's mark on a kept copy). */
+export async function apiGetWithHeaders<T>(path: string, signal?: AbortSignal): Promise<{ body: T; headers: Headers }> {
+  const res = await send(path, { signal });
+  return { body: await readBody<T>(res), headers: res.headers };
 }
 
 export const api = {

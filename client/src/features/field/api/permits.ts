@@ -1,8 +1,13 @@
 import { useQuery } from '@tanstack/react-query';
 import { useEffect, useState } from 'react';
 import type { FieldPermitAnswer, FieldPermitsAnswer } from '@shared/schemas/field';
-import { api, ApiError } from '@client/lib/api';
+import { apiGetWithHeaders } from '@client/lib/api';
 import { saveMyPermits, savedMyPermits, savedPermit, savePermit } from '../offline/store';
+import { reportTry } from '../hooks/useSignal';
+import type { LastTry } from '../lib/copy';
+import { noAnswer, readKept, type Kept } from './kept';
+
+export type { Source } from './kept';
 
 /** Query keys of the field view; everything under ['field'] is refreshed when the outbox has sent. */
 export const fieldKeys = {
@@ -11,33 +16,27 @@ export const fieldKeys = {
   permit: (userId: number, id: number) => ['field', 'permit', userId, id] as const,
 };
 
-/** Where an answer came from: the server just now, or the copy kept on this phone. */
-export type Source = 'server' | 'phone';
-
-/** No answer from the server (no signal, or a gateway with none): read the phone's copy instead. */
-function noAnswer(error: unknown): boolean {
-  return error instanceof ApiError && (error.status === 0 || error.status === 502 || error.status === 503 || error.status === 504);
-}
-
 /**
- * Reads from the server and keeps a copy on the phone; with no answer, reads the copy. Runs also when
- * the browser says it is offline (networkMode 'always'), so the copy shows at once.
+ * Reads from the server and keeps a copy on the phone; with no answer (or none within the page's
+ * limit, or the service worker's kept copy), shows the phone's copy with the source "phone". Runs
+ * also when the browser says it is offline (networkMode 'always'), so the copy shows at once.
  */
-function useKeptQuery<T>(key: readonly unknown[], path: string, save: (answer: T) => Promise<void>, saved: () => Promise<T | null>) {
+function useKeptQuery<T extends { asOf: string }>(key: readonly unknown[], path: string, save: (answer: T) => Promise<void>, saved: () => Promise<T | null>) {
   const query = useQuery({
     queryKey: key,
     networkMode: 'always',
+    // Every opening of a field page asks the server again (the app's default waits 30 s): what the
+    // page says about the answer's source is then about this moment.
+    staleTime: 0,
     refetchInterval: 60_000,
-    queryFn: async ({ signal }): Promise<{ answer: T; source: Source }> => {
+    queryFn: async ({ signal }): Promise<Kept<T>> => {
       try {
-        const answer = await api.get<T>(path, signal);
-        await save(answer).catch(() => undefined);
-        // With the browser offline, an answer can only be the service worker's kept copy.
-        return { answer, source: navigator.onLine ? 'server' : 'phone' };
+        const kept = await readKept<T>({ get: (s) => apiGetWithHeaders<T>(path, s), save, saved, signal });
+        reportTry(kept.source === 'server');
+        return kept;
       } catch (error) {
-        const copy = noAnswer(error) ? await saved().catch(() => null) : null;
-        if (!copy) throw error;
-        return { answer: copy, source: 'phone' };
+        if (!signal.aborted) reportTry(!noAnswer(error));
+        throw error;
       }
     },
   });
@@ -53,8 +52,15 @@ function useKeptQuery<T>(key: readonly unknown[], path: string, save: (answer: T
       live = false;
     };
   }, [keyText]); // eslint-disable-line react-hooks/exhaustive-deps
-  const shown = query.data ?? (early ? { answer: early, source: 'phone' as const } : undefined);
-  return { query, shown };
+  const shown: Kept<T> | undefined = query.data ?? (early ? { answer: early, source: 'phone', triedAt: null } : undefined);
+  // The last try: a refusal or no answer after the last shown answer counts, else the shown answer's own.
+  const lastTry: LastTry | null =
+    query.errorUpdatedAt > (query.data?.triedAt ?? 0)
+      ? { at: query.errorUpdatedAt, reached: !noAnswer(query.error) }
+      : query.data?.triedAt
+        ? { at: query.data.triedAt, reached: query.data.source === 'server' }
+        : null;
+  return { query, shown, lastTry };
 }
 
 export function useMyPermits(userId: number) {

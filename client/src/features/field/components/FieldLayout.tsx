@@ -3,7 +3,7 @@ import { Link, Outlet } from 'react-router-dom';
 import { Caution } from '@client/components/Caution';
 import { SkipLink } from '@client/app/Layout';
 import { useOutbox, useOutboxSender } from '../hooks/useOutbox';
-import { useOnline } from '../hooks/useOnline';
+import { useNoSignal } from '../hooks/useSignal';
 import type { OutboxItem } from '../offline/outbox';
 import { FieldGate, useFieldPerson } from './FieldGate';
 import '../field.css';
@@ -48,11 +48,11 @@ function Frame({ children, status }: { children: ReactNode; status?: ReactNode }
 
 /** Signal and outbox, in words, in the header. */
 function Connection({ waiting, refused }: { waiting: number; refused: number }) {
-  const online = useOnline();
+  const noSignal = useNoSignal();
   const person = useFieldPerson();
   return (
     <div className="ml-auto flex flex-col items-end text-lg leading-snug" role="status" aria-live="polite">
-      <span className="font-semibold">{online ? 'Signal' : 'No signal'}{person.fromPhone ? ' · saved copy' : ''}</span>
+      <span className="font-semibold">{noSignal ? 'No signal' : 'Signal'}{person.fromPhone ? ' · saved copy' : ''}</span>
       {waiting ? <span>{waiting === 1 ? '1 item' : `${waiting} items`} waiting to send</span> : null}
       {refused ? <span className="font-semibold">{refused === 1 ? '1 item' : `${refused} items`} not accepted</span> : null}
     </div>

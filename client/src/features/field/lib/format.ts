@@ -18,14 +18,26 @@ export function windowText(start: string, end: string, now = new Date()): string
   return sameDay(s, e) ? `${dayOf(s)} ${clock(s)} to ${clock(e)}` : `${dayOf(s)} ${clock(s)} to ${dayOf(e)} ${clock(e)}`;
 }
 
-/** "at 10:42 (5 min ago)", "at Wed 3 Dec 10:42". */
-export function whenText(iso: string, now = new Date()): string {
+/** A past time as the phone says it: another day's date, else the clock with "just now" / "5 min ago" within two hours. */
+function pastTime(iso: string, now: Date): { day: string | null; clock: string; ago: string | null } {
   const t = new Date(iso);
   const minutes = Math.round((now.getTime() - t.getTime()) / 60_000);
-  if (!sameDay(t, now)) return `on ${day.format(t)} at ${clock(t)}`;
-  if (minutes < 1) return `at ${clock(t)} (just now)`;
-  if (minutes < 120) return `at ${clock(t)} (${minutes} min ago)`;
-  return `at ${clock(t)}`;
+  if (!sameDay(t, now)) return { day: day.format(t), clock: clock(t), ago: null };
+  return { day: null, clock: clock(t), ago: minutes < 1 ? 'just now' : minutes < 120 ? `${minutes} min ago` : null };
+}
+
+/** "at 10:42 (5 min ago)", "at Wed 3 Dec 10:42". */
+export function whenText(iso: string, now = new Date()): string {
+  const p = pastTime(iso, now);
+  if (p.day) return `on ${p.day} at ${p.clock}`;
+  return p.ago ? `at ${p.clock} (${p.ago})` : `at ${p.clock}`;
+}
+
+/** "10:42, just now", "10:42, 5 min ago", "10:42", "Wed 3 Dec 10:42": the time a kept copy dates from. */
+export function stampText(iso: string, now = new Date()): string {
+  const p = pastTime(iso, now);
+  if (p.day) return `${p.day} ${p.clock}`;
+  return p.ago ? `${p.clock}, ${p.ago}` : p.clock;
 }
 
 /** Metres to 0.01, as Brink shows set figures. */

@@ -9,9 +9,11 @@ import { ConcernForm } from '../components/ConcernForm';
 import { Concerns } from '../components/Concerns';
 import { Conditions } from '../components/Conditions';
 import { useFieldPerson } from '../components/FieldGate';
-import { LastUpdated } from '../components/LastUpdated';
+import { LastUpdated, StaleCopyBanner } from '../components/LastUpdated';
 import { WhereAmI } from '../components/WhereAmI';
 import { MapKey, ZoneMap } from '../components/ZoneMap';
+import { useNow } from '../hooks/useOnline';
+import { possiblyOutOfDate } from '../lib/copy';
 import type { Fix } from '../lib/reading';
 import { windowText } from '../lib/format';
 
@@ -27,7 +29,8 @@ const stopped: Record<string, string> = {
 export function FieldPermitPage() {
   const permitId = parseId(useParams().permitId) ?? 0;
   const person = useFieldPerson();
-  const { query, shown } = useFieldPermit(person.id, permitId);
+  const { query, shown, lastTry } = useFieldPermit(person.id, permitId);
+  useNow(); // re-render as the copy ages
   const [fix, setFix] = useState<Fix | null>(null);
   const permit = shown?.answer.permit;
   useDocumentTitle(permit ? `Permit ${permit.number}` : 'Permit');
@@ -50,12 +53,13 @@ export function FieldPermitPage() {
         <p className="text-xl font-semibold">{windowText(permit.windowStart, permit.windowEnd)}</p>
         <p>{permit.siteName}</p>
       </header>
+      {possiblyOutOfDate(shown, [permit.status], Date.now()) ? <StaleCopyBanner asOf={shown.answer.asOf} what="permit" /> : null}
       {stopped[permit.status] ? (
         <p role="alert" className={`rounded-md border-4 p-4 text-2xl font-bold ${permit.status === 'suspended' ? 'border-safety-red bg-safety-red text-white' : 'border-ink bg-sheet'}`}>
           {stopped[permit.status]}
         </p>
       ) : null}
-      <LastUpdated asOf={shown.answer.asOf} source={shown.source} refreshing={query.isFetching} onRefresh={() => void query.refetch()} />
+      <LastUpdated shown={shown} lastTry={lastTry} refreshing={query.isFetching} onRefresh={() => void query.refetch()} />
       <Briefing permit={permit} />
       <WhereAmI permit={permit} onFix={setFix} />
       <section aria-label="Map of the permit, north up" className="flex flex-col gap-3">

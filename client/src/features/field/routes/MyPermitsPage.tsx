@@ -4,8 +4,10 @@ import { LoadError, Loading } from '@client/components/Status';
 import { useMyPermits } from '../api/permits';
 import { useFieldPerson } from '../components/FieldGate';
 import { useFieldOutbox } from '../components/FieldLayout';
-import { LastUpdated } from '../components/LastUpdated';
+import { LastUpdated, StaleCopyBanner } from '../components/LastUpdated';
 import { PermitCard } from '../components/PermitCard';
+import { useNow } from '../hooks/useOnline';
+import { possiblyOutOfDate } from '../lib/copy';
 import { isToday } from '../lib/format';
 
 const closed = ['handed_back', 'lapsed'];
@@ -26,7 +28,8 @@ export function MyPermitsPage() {
   useDocumentTitle('My permits');
   const person = useFieldPerson();
   const { items } = useFieldOutbox();
-  const { query, shown } = useMyPermits(person.id);
+  const { query, shown, lastTry } = useMyPermits(person.id);
+  useNow(); // re-render as the copy ages
   const briefingWaiting = (id: number) => items.some((i) => i.kind === 'briefing' && i.permitId === id);
   return (
     <div className="flex flex-col gap-5">
@@ -34,7 +37,8 @@ export function MyPermitsPage() {
       <p>The permits that name you, {person.name}. Open one to see its zone, where you stand, and to confirm the briefing.</p>
       {shown ? (
         <>
-          <LastUpdated asOf={shown.answer.asOf} source={shown.source} refreshing={query.isFetching} onRefresh={() => void query.refetch()} />
+          {possiblyOutOfDate(shown, shown.answer.permits.map((p) => p.status), Date.now()) ? <StaleCopyBanner asOf={shown.answer.asOf} what="list" /> : null}
+          <LastUpdated shown={shown} lastTry={lastTry} refreshing={query.isFetching} onRefresh={() => void query.refetch()} />
           {shown.answer.permits.length === 0 ? <p className="text-xl">No approved permit names you at the moment.</p> : null}
           {groupPermits(shown.answer.permits).map((g) => (
             <section key={g.title} aria-labelledby={`group-${g.title}`} className="flex flex-col gap-3">
