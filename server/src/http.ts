@@ -3,6 +3,20 @@ import { z, type ZodType } from 'zod';
 import type { SiteRole } from '@shared/schemas/common';
 import type { Deps } from './deps';
 import { bodyTypeProblem, crossSite } from './csrf';
+import { Throttle } from './services/throttle';
+
+const QUARTER_HOUR = 15 * 60_000;
+/** The attempt limits (issue 12). Sign-in: SIGNIN_LIMIT_PER_ACCOUNT failures per account and address, five times that per account. */
+function createThrottles(deps: Deps) {
+  const now = () => deps.now().getTime();
+  return {
+    signIn: new Throttle(deps.config.signInLimitPerAccount, QUARTER_HOUR, now),
+    signInAccount: new Throttle(deps.config.signInLimitPerAccount * 5, QUARTER_HOUR, now),
+    /** Forgot-password: 10 requests per address a quarter hour; 3 mails per account an hour (quietly). */
+    forgotPerIp: new Throttle(10, QUARTER_HOUR, now),
+    forgotPerAccount: new Throttle(3, 60 * 60_000, now),
+  };
+}
 
 /** An error with an HTTP status that the error handler turns into `{ error: { code, message, fields? } }`. */
 export class HttpError extends Error {
@@ -130,7 +144,12 @@ export class Api {
   readonly router: Router = express.Router();
   readonly specs: RouteSpec<ZodType, ZodType, ZodType>[] = [];
 
-  constructor(readonly deps: Deps) {}
+  /** Attempt limits kept per app (server/src/services/throttle.ts). */
+  readonly throttles: ReturnType<typeof createThrottles>;
+
+  constructor(readonly deps: Deps) {
+    this.throttles = createThrottles(deps);
+  }
 
   route<B extends ZodType = never, Q extends ZodType = never, P extends ZodType = never>(
     spec: RouteSpec<B, Q, P>,

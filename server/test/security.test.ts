@@ -1,6 +1,8 @@
 import request from 'supertest';
+import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demo, demoSiteId, signedIn, startTestApp, TEST_ORIGIN, type TestApp } from './helpers';
+import { demo, DEMO_PASSWORD, demoSiteId, signedIn, startTestApp, TEST_ORIGIN, unique, type TestApp } from './helpers';
+import { newToken } from '../src/services/tokens';
 
 /**
  * Issue 12 (a security review): cross-site requests, account recovery, odd input. The matrix style
@@ -102,5 +104,96 @@ describe('cross-site requests: every state-changing route', () => {
       expect(r.status, enc).toBe(415);
       expect(r.body.error.code).toBe('unsupported_encoding');
     }
+  });
+});
+
+async function person(active = true): Promise<{ id: number; email: string }> {
+  const email = unique('sec');
+  const u = await t.deps.db.insertInto('users').values({ email, name: 'Sam Second', password_hash: await bcrypt.hash(DEMO_PASSWORD, 4), active }).returning('id').executeTakeFirstOrThrow();
+  return { id: u.id, email };
+}
+async function invitation(email: string): Promise<string> {
+  const { token, hash } = newToken();
+  await t.deps.db.insertInto('invitations').values({ email, name: 'Sam Second', site_id: siteId, role: 'coordinator', token_hash: hash, expires_at: new Date(Date.now() + 3600_000) }).execute();
+  return token;
+}
+async function resetToken(userId: number): Promise<string> {
+  const { token, hash } = newToken();
+  await t.deps.db.insertInto('password_resets').values({ user_id: userId, token_hash: hash, expires_at: new Date(Date.now() + 3600_000) }).execute();
+  return token;
+}
+const mailsTo = async (email: string) =>
+  (await t.deps.db.selectFrom('caught_mail').select('id').where('mail_to', 'ilike', `%${email}%`).execute()).length;
+/** Each forgot-password request from an address of its own (the per-address limit is tested on its own). */
+let ip = 0;
+const forgot = (email: string) => request(t.app).post('/api/auth/forgot-password').set('X-Forwarded-For', `10.9.${Math.floor(++ip / 250)}.${ip % 250}`).send({ email });
+
+describe('accounts: deactivation, resets and locks', () => {
+  it('deactivating a person revokes their invitations, reset links and sessions', async () => {
+    const p = await person();
+    const inv = await invitation(p.email);
+    const reset = await resetToken(p.id);
+    const session = await signedIn(t.app, p.email);
+    expect((await admin.patch(`/api/users/${p.id}`).send({ active: false })).status).toBe(200);
+    expect((await session.get('/api/auth/me')).status).toBe(401);
+    const accept = await request(t.app).post('/api/invitations/accept').send({ token: inv, name: 'Sam Back', password: 'a-new-password-123' });
+    expect(accept.status).toBe(400);
+    expect(accept.body.error.code).toBe('invalid_token');
+    expect((await request(t.app).post('/api/auth/reset-password').send({ token: reset, password: 'a-new-password-123' })).status).toBe(400);
+    expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: 'a-new-password-123' })).status).toBe(401);
+  });
+
+  it('refuses to accept an invitation for an inactive account (no reactivation, no new password, no session)', async () => {
+    const p = await person(false);
+    const inv = await invitation(p.email);
+    const agent = request.agent(t.app);
+    const accept = await agent.post('/api/invitations/accept').send({ token: inv, name: 'Sam Back', password: 'a-new-password-123' });
+    expect(accept.status).toBe(403);
+    expect(accept.body.error.code).toBe('deactivated');
+    expect((await agent.get('/api/auth/me')).status).toBe(401);
+    const row = await t.deps.db.selectFrom('users').select(['active', 'password_hash']).where('id', '=', p.id).executeTakeFirstOrThrow();
+    expect(row.active).toBe(false);
+    expect(await bcrypt.compare('a-new-password-123', row.password_hash!)).toBe(false);
+  });
+
+  it('answers forgot-password the same for known and unknown addresses, sends at most 3 mails an hour per account, and a new link revokes the older', async () => {
+    const p = await person();
+    const answers = [];
+    for (let i = 0; i < 5; i++) answers.push(await forgot(p.email));
+    const unknown = await forgot(unique('nobody'));
+    for (const a of [...answers, unknown]) {
+      expect(a.status).toBe(202);
+      expect(a.body).toEqual(unknown.body);
+    }
+    await expect.poll(() => mailsTo(p.email), { timeout: 20_000 }).toBe(3);
+    const live = await t.deps.db.selectFrom('password_resets').select('id').where('user_id', '=', p.id).where('used_at', 'is', null).execute();
+    expect(live).toHaveLength(1);
+  });
+
+  it('limits forgot-password per address: the 11th request in a quarter hour is 429', async () => {
+    const from = (n: number) => request(t.app).post('/api/auth/forgot-password').set('X-Forwarded-For', '10.77.0.1').send({ email: unique(`many${n}`) });
+    for (let i = 0; i < 10; i++) expect((await from(i)).status).toBe(202);
+    expect((await from(10)).status).toBe(429);
+  });
+
+  it('a reset revokes every other reset link and session, and clears the sign-in lock', async () => {
+    const p = await person();
+    const first = await resetToken(p.id);
+    const second = await resetToken(p.id);
+    const session = await signedIn(t.app, p.email);
+    for (let i = 0; i < 8; i++) expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: 'wrong-password' })).status).toBe(401);
+    expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: DEMO_PASSWORD })).status).toBe(429);
+    expect((await request(t.app).post('/api/auth/reset-password').send({ token: second, password: 'fresh-password-456' })).status).toBe(204);
+    expect((await session.get('/api/auth/me')).status).toBe(401);
+    expect((await request(t.app).post('/api/auth/reset-password').send({ token: first, password: 'other-password-789' })).status).toBe(400);
+    expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: 'fresh-password-456' })).status).toBe(200);
+  });
+
+  it('counts sign-in failures per account and address: 8 wrong from elsewhere do not lock the owner out', async () => {
+    const p = await person();
+    const elsewhere = () => request(t.app).post('/api/auth/sign-in').set('X-Forwarded-For', '10.66.0.9').send({ email: p.email, password: 'wrong-password' });
+    for (let i = 0; i < 8; i++) expect((await elsewhere()).status).toBe(401);
+    expect((await elsewhere()).status).toBe(429);
+    expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: DEMO_PASSWORD })).status).toBe(200);
   });
 });

@@ -10,7 +10,7 @@ import {
 } from '@shared/schemas/auth';
 import { Api, HttpError } from '../http';
 import { audit } from '../services/audit';
-import { endSessionsOf, loadMe } from '../services/people';
+import { endSessionsOf, loadMe, revokeResets } from '../services/people';
 import { hashToken, newToken, RESET_HOURS } from '../services/tokens';
 import { notice } from '../mail/mailer';
 
@@ -44,15 +44,8 @@ export function registerAuthRoutes(api: Api): void {
     legacyHeaders: false,
     message: tooMany('Too many sign-in attempts from this address. Wait a few minutes and try again.'),
   });
-  const perAccount = rateLimit({
-    windowMs: window,
-    limit: config.signInLimitPerAccount,
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => `account:${String(req.body?.email ?? '').trim().toLowerCase()}`,
-    message: tooMany('Too many failed sign-ins for this account. Wait 15 minutes or reset the password.'),
-  });
+  const { signIn, signInAccount, forgotPerIp, forgotPerAccount } = api.throttles;
+  const accountKey = (email: string) => `${email.trim().toLowerCase()}|`;
 
   api.route(
     {
@@ -62,10 +55,18 @@ export function registerAuthRoutes(api: Api): void {
       tag: 'Sign-in',
       access: { kind: 'public' },
       body: signInSchema,
-      before: [perIp, perAccount],
+      before: [perIp],
       responses: { 200: 'Signed in: the person and their site roles', 401: 'Wrong e-mail or password', 429: 'Too many attempts' },
     },
     async ({ req, body }) => {
+      // Failures are counted per account and address together (an attacker elsewhere cannot lock
+      // the owner out), and per account over all addresses at five times that (bounding guesses
+      // spread over many addresses). A successful reset clears both.
+      const here = `${accountKey(body.email)}${req.ip ?? ''}`;
+      const everywhere = `${accountKey(body.email)}*`;
+      if (signIn.blocked(here) || signInAccount.blocked(everywhere)) {
+        throw new HttpError(429, 'rate_limited', 'Too many failed sign-ins for this account. Wait 15 minutes or reset the password.');
+      }
       const u = await db
         .selectFrom('users')
         .select(['id', 'password_hash', 'active'])
@@ -73,6 +74,8 @@ export function registerAuthRoutes(api: Api): void {
         .executeTakeFirst();
       const ok = await bcrypt.compare(body.password, u?.password_hash ?? DUMMY_HASH);
       if (!u || !ok || !u.active || !u.password_hash) {
+        signIn.hit(here);
+        signInAccount.hit(everywhere);
         throw new HttpError(401, 'bad_credentials', 'That e-mail and password do not match an active account.');
       }
       await signInSession(req, u.id);
@@ -109,17 +112,32 @@ export function registerAuthRoutes(api: Api): void {
       tag: 'Sign-in',
       access: { kind: 'public' },
       body: forgotPasswordSchema,
-      before: [perIp],
-      responses: { 202: 'Accepted' },
+      responses: { 202: 'Accepted', 429: 'Too many requests from this address' },
     },
-    async ({ body, res, deps }) => {
-      const u = await db.selectFrom('users').select(['id', 'name', 'email']).where('email', '=', body.email).where('active', '=', true).executeTakeFirst();
+    async ({ req, body, res, deps }) => {
+      // Per address: refused openly. Per account: quietly (the answer must not tell whether the
+      // address has an account), so at most FORGOT_PER_ACCOUNT mails an hour.
+      if (!forgotPerIp.hit(req.ip ?? '')) throw new HttpError(429, 'rate_limited', 'Too many password reset requests from this address. Wait a few minutes and try again.');
+      // The same answer at once for known and unknown addresses; the work is done after it.
+      res.status(202).json({ message: 'If that address has an account, a reset link is on its way.' });
+      if (!forgotPerAccount.hit(accountKey(body.email))) return;
+      void sendReset(body.email, deps).catch((e: unknown) => console.error('[forgot-password]', e));
+    },
+  );
+
+  async function sendReset(email: string, deps: typeof api.deps): Promise<void> {
+      const u = await db.selectFrom('users').select(['id', 'name', 'email']).where('email', '=', email).where('active', '=', true).executeTakeFirst();
       if (u) {
         const { token, hash } = newToken();
-        await db
-          .insertInto('password_resets')
-          .values({ user_id: u.id, token_hash: hash, expires_at: new Date(deps.now().getTime() + RESET_HOURS * 3600_000) })
-          .execute();
+        await db.transaction().execute(async (trx) => {
+          // A new link revokes the older ones (the person's row locked, so concurrent requests queue).
+          await trx.selectFrom('users').select('id').where('id', '=', u.id).forUpdate().execute();
+          await revokeResets(trx, u.id, deps.now());
+          await trx
+            .insertInto('password_resets')
+            .values({ user_id: u.id, token_hash: hash, expires_at: new Date(deps.now().getTime() + RESET_HOURS * 3600_000) })
+            .execute();
+        });
         await deps.mailer.send({
           to: u.email,
           ...notice({
@@ -133,9 +151,7 @@ export function registerAuthRoutes(api: Api): void {
         });
         await audit(db, { actorId: u.id, entity: 'user', entityId: u.id, action: 'password-reset-requested' });
       }
-      res.status(202).json({ message: 'If that address has an account, a reset link is on its way.' });
-    },
-  );
+  }
 
   api.route(
     {
@@ -158,9 +174,12 @@ export function registerAuthRoutes(api: Api): void {
           .returning('user_id')
           .executeTakeFirst();
         if (!row) throw new HttpError(400, 'invalid_token', 'This reset link has expired or was already used. Ask for a new one.', { token: 'has expired or was already used' });
-        await trx.updateTable('users').set({ password_hash: hash }).where('id', '=', row.user_id).execute();
-        // Every other session of that person ends.
+        const person = await trx.updateTable('users').set({ password_hash: hash }).where('id', '=', row.user_id).returning('email').executeTakeFirstOrThrow();
+        // Every other session and reset link of that person ends, and the sign-in locks on the account clear.
         await endSessionsOf(trx, row.user_id);
+        await revokeResets(trx, row.user_id, deps.now());
+        signIn.clear(accountKey(person.email));
+        signInAccount.clear(accountKey(person.email));
         await audit(trx, { actorId: row.user_id, entity: 'user', entityId: row.user_id, action: 'password-reset' });
       });
     },
@@ -211,7 +230,10 @@ export function registerAuthRoutes(api: Api): void {
           .returningAll()
           .executeTakeFirst();
         if (!inv) throw new HttpError(400, 'invalid_token', 'This invitation has expired or was already used. Ask an administrator for a new one.', { token: 'has expired or was already used' });
-        const existing = await trx.selectFrom('users').select('id').where('email', '=', inv.email).executeTakeFirst();
+        const existing = await trx.selectFrom('users').select(['id', 'active']).where('email', '=', inv.email).executeTakeFirst();
+        if (existing && !existing.active) {
+          throw new HttpError(403, 'deactivated', 'This account has been deactivated; an invitation cannot reactivate it. Ask an administrator.');
+        }
         let id: number;
         if (existing) {
           await trx.updateTable('users').set({ name: body.name, password_hash: hash, active: true, ...(inv.is_admin ? { is_admin: true } : {}) }).where('id', '=', existing.id).execute();

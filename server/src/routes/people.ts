@@ -4,7 +4,7 @@ import { idSchema, roleLabels } from '@shared/schemas/common';
 import { membershipSchema, userUpdateSchema } from '@shared/schemas/sites';
 import { Api, HttpError, notFound } from '../http';
 import { audit } from '../services/audit';
-import { endSessionsOf, loadPeople } from '../services/people';
+import { loadPeople, revokeAccess } from '../services/people';
 import { INVITATION_HOURS, newToken } from '../services/tokens';
 import { notice } from '../mail/mailer';
 
@@ -100,7 +100,7 @@ export function registerPeopleRoutes(api: Api): void {
           if (!r.numUpdatedRows) throw notFound('That person');
         }
         if (body.active === false) {
-          await endSessionsOf(trx, params.id);
+          await revokeAccess(trx, params.id, api.deps.now());
         }
         await audit(trx, { actorId: user!.id, entity: 'user', entityId: params.id, action: 'updated', detail: body });
       });

@@ -45,3 +45,16 @@ export async function loadMe(db: Db, id: number): Promise<Me | null> {
 export async function endSessionsOf(db: Db, userId: number): Promise<void> {
   await sql`delete from "session" where ("sess"->>'userId')::int = ${userId}`.execute(db);
 }
+
+/** Every unused password reset link of the person stops working. */
+export async function revokeResets(db: Db, userId: number, now: Date): Promise<void> {
+  await db.updateTable('password_resets').set({ used_at: now }).where('user_id', '=', userId).where('used_at', 'is', null).execute();
+}
+
+/** A deactivated person keeps no way in: their sessions, reset links and pending invitations end. */
+export async function revokeAccess(db: Db, userId: number, now: Date): Promise<void> {
+  await endSessionsOf(db, userId);
+  await revokeResets(db, userId, now);
+  const u = await db.selectFrom('users').select('email').where('id', '=', userId).executeTakeFirst();
+  if (u) await db.updateTable('invitations').set({ used_at: now }).where('email', '=', u.email).where('used_at', 'is', null).execute();
+}
