@@ -106,8 +106,11 @@ test.afterAll(async () => {
 
 test.use({ permissions: ['geolocation'], geolocation: { latitude: 0, longitude: 0, accuracy: 1 } });
 
+/** The API takes changes only from Brink's origin: requests made outside the page say it. */
+const fromBrink = () => ({ Origin: new URL(process.env.BRINK_URL ?? 'http://127.0.0.1:3000').origin });
+
 async function signInOperator(page: Page) {
-  const r = await page.request.post('/api/auth/sign-in', { data: { email: 'operator@demo.brink.test', password }, headers: { Origin: new URL(process.env.BRINK_URL ?? 'http://127.0.0.1:3000').origin } });
+  const r = await page.request.post('/api/auth/sign-in', { data: { email: 'operator@demo.brink.test', password }, headers: fromBrink() });
   expect(r.status()).toBe(200);
 }
 
@@ -244,7 +247,7 @@ test('a permit suspended on the server after the copy was kept is never shown wi
   const live = await approvedPermit(supervisor, coordinator);
   // The operator's briefing starts it: its window is open.
   await signInOperator(page);
-  const briefed = await page.request.post(`/api/permits/${live.id}/briefing`, { data: {} });
+  const briefed = await page.request.post(`/api/permits/${live.id}/briefing`, { data: {}, headers: fromBrink() });
   expect(briefed.status(), await briefed.text()).toBe(200);
 
   const answered = page.waitForResponse((r) => new URL(r.url()).pathname === `/api/field/permits/${live.id}` && r.status() === 200);
