@@ -7,8 +7,8 @@
  */
 import { buildProfile, prepareCheck, utilisationOf, type CheckContext } from './check';
 import { blanketEffect, isBlanket, loadEffect, loadWarnings } from './loads';
-import { NO_STANDOFF_MESSAGE, standoffSolver } from './standoff';
-import type { CheckRequest, CheckResult, LoadResult, PlacedLoad, ProfilePoint } from './types';
+import { NO_STANDOFF_MESSAGE, standoffSolver, type StandoffAnswer } from './standoff';
+import type { CheckRequest, CheckResult, LoadResult, OffsetBand, PlacedLoad, ProfilePoint } from './types';
 
 export * from './types';
 export { rankineKa, coulombKa, coulombHorizontalK, jakyK0, drainedK } from './coefficients';
@@ -16,12 +16,54 @@ export { buildSoilModel, type SoilModel } from './soil';
 export { prepareCheck, profileDepths, PASS_TOLERANCE, type CheckContext } from './check';
 export { loadEffect, placedEffect, blanketEffect } from './loads';
 export type { SurchargeEffect } from './surcharge';
-export { standoffSolver, scanStandoff, NO_STANDOFF_MESSAGE, type StandoffSolver } from './standoff';
+export { standoffSolver, searchOffsets, loadBreakpoints, loadWidth, NO_STANDOFF_MESSAGE, BREAK_EPSILON, type StandoffSolver, type StandoffAnswer, type GroupMember } from './standoff';
 export { elasticStripPressure, navfacLinePressure, navfacPointPressure } from './elastic';
 
 export const CAUTION =
   'These figures are a check aid for a competent temporary works designer or coordinator. They do not replace ' +
   "the support's design; local regulations and licensed practice prevail.";
+
+/** Start of the warning given when the 5 kPa/m minimum equivalent fluid pressure governs somewhere. */
+export const MINIMUM_PRESSURE_WARNING = 'the minimum equivalent fluid pressure governs';
+/** Words in the warning given when a load fails at some offset beyond one where it passes. */
+export const NOT_MONOTONIC_WARNING = 'moving it farther away is not always safer';
+
+/**
+ * The warnings a signatory must not miss, from a result's list: where the 5 kPa/m minimum governs
+ * and where moving a load farther away is not always safer. The permit's calculation sheet and the
+ * printed permit show them apart from the rest.
+ */
+export function attentionWarnings(warnings: readonly string[]): string[] {
+  return warnings.filter((w) => w.includes(MINIMUM_PRESSURE_WARNING) || w.includes(NOT_MONOTONIC_WARNING));
+}
+
+/** An offset in words: "1.23 m", "just under 1.50 m" beside a break point, or "1.234 m". */
+export function offsetWords(x: number): string {
+  const cm = Math.round(x * 100) / 100;
+  if (Math.abs(x - cm) < 1e-9) return `${cm.toFixed(2)} m`;
+  if (Math.abs(x - cm) < 1e-5) return `just ${x < cm ? 'under' : 'over'} ${cm.toFixed(2)} m`;
+  return `${x.toFixed(3)} m`;
+}
+
+/** Failing bands in words: "0.60 m to 0.85 m, 1.21 m to 1.23 m". */
+export function bandsWords(bands: readonly OffsetBand[]): string {
+  return bands.map((b) => (b.from === b.to ? offsetWords(b.from) : `${offsetWords(b.from)} to ${offsetWords(b.to)}`)).join(', ');
+}
+
+/** Whether a load fails somewhere beyond an offset where it passes (its bands are not one run from the minimum clearance). */
+export function failsBeyondPassing(bands: readonly OffsetBand[], minimumClearance: number): boolean {
+  const least = Math.ceil(minimumClearance * 100 - 1e-9) / 100;
+  return bands.length > 1 || (bands.length === 1 && bands[0].from > least + 1e-9);
+}
+
+/** The warning for a load (or machine) whose failing offsets are not one band starting at the minimum clearance. */
+export function notMonotonicWarning(name: string, answer: Pick<StandoffAnswer, 'failingBands'>): string {
+  const bands = bandsWords(answer.failingBands);
+  return (
+    `${name}: ${NOT_MONOTONIC_WARNING}: it fails at ${bands} from the face but passes at some offsets closer to it ` +
+    '(the load can move into a weaker layer or another part of the method); the standoff lies beyond the farthest failing offset'
+  );
+}
 
 export interface RunOptions {
   /** Solve each load's standoff (default true). */
@@ -71,6 +113,11 @@ export function runCheck(request: CheckRequest, options: RunOptions = {}): Check
   if (ex.pressureState === 'at-rest' && ex.wallFriction > 0) {
     warnings.push('wall friction is ignored in the at-rest state (K0 = 1 − sin φ′)');
   }
+  if (model.minimumGoverns) {
+    warnings.push(
+      `${MINIMUM_PRESSURE_WARNING} (soil + water ≥ 5 kPa/m × depth in a cohesive layer): the soil pressure is raised to it where the strength would give less`,
+    );
+  }
   if (model.layers.some((l) => !l.drained) && ex.wallFriction > 0) {
     warnings.push('wall friction does not apply to undrained layers (K = 1 for surcharges)');
   }
@@ -91,9 +138,13 @@ export function runCheck(request: CheckRequest, options: RunOptions = {}): Check
   const loads: LoadResult[] = request.loads.map((l, i) => {
     const e = effects[i];
     let standoff: number | null = null;
+    let failingBands: LoadResult['failingBands'] = [];
     if (solver && !isBlanket(l)) {
-      standoff = solver.solve(l);
+      const answer = solver.search(l);
+      standoff = answer.standoff;
+      failingBands = answer.failingBands;
       if (standoff === null) warnings.push(`load ${l.id}: ${NO_STANDOFF_MESSAGE}`);
+      if (!answer.monotonic) warnings.push(notMonotonicWarning(`load ${l.id}`, answer));
     }
     return {
       id: l.id,
@@ -103,6 +154,7 @@ export function runCheck(request: CheckRequest, options: RunOptions = {}): Check
       top: e.top === null ? null : round(e.top, 4),
       bottom: e.bottom === null ? null : round(e.bottom, 4),
       standoff,
+      failingBands,
     };
   });
 

@@ -23,27 +23,43 @@ export function uniformForceMoment(a: number, b: number, p: number, H: number): 
 }
 
 /**
- * [F, M] of max(g(z), h(z)) over a..b where g and h are both linear (given by their end values):
- * split where they cross, then each part is linear.
+ * [F, M, lastGoverns] of the largest of several linear functions over a..b (given by their values
+ * pa[i] at a and pb[i] at b): split at every crossing, then the largest is one linear function on
+ * each part. `lastGoverns` says whether the last function is strictly the largest on some part
+ * (used to tell when a minimum pressure governs).
  */
-export function maxOfLinearForceMoment(
-  a: number,
-  b: number,
-  ga: number,
-  gb: number,
-  ha: number,
-  hb: number,
-  H: number,
-): [number, number] {
-  const da = ga - ha;
-  const db = gb - hb;
-  if ((da >= 0 && db >= 0) || (da <= 0 && db <= 0)) {
-    return da + db >= 0 ? linearForceMoment(a, b, ga, gb, H) : linearForceMoment(a, b, ha, hb, H);
+export function maxOfLinesForceMoment(a: number, b: number, pa: readonly number[], pb: readonly number[], H: number): [number, number, boolean] {
+  const n = pa.length;
+  const cuts = [0, 1];
+  for (let i = 0; i < n; i++) {
+    for (let j = i + 1; j < n; j++) {
+      const da = pa[i] - pa[j];
+      const db = pb[i] - pb[j];
+      if ((da > 0 && db < 0) || (da < 0 && db > 0)) cuts.push(da / (da - db));
+    }
   }
-  const t = da / (da - db);
-  const c = a + t * (b - a);
-  const pc = ga + t * (gb - ga);
-  const first = linearForceMoment(a, c, Math.max(ga, ha), pc, H);
-  const second = linearForceMoment(c, b, pc, Math.max(gb, hb), H);
-  return [first[0] + second[0], first[1] + second[1]];
+  cuts.sort((x, y) => x - y);
+  const at = (t: number) => {
+    let best = -Infinity;
+    for (let i = 0; i < n; i++) best = Math.max(best, pa[i] + t * (pb[i] - pa[i]));
+    return best;
+  };
+  let F = 0;
+  let M = 0;
+  let lastGoverns = false;
+  const len = b - a;
+  for (let k = 0; k + 1 < cuts.length; k++) {
+    const t0 = cuts[k];
+    const t1 = cuts[k + 1];
+    if (t1 <= t0) continue;
+    const [f, m] = linearForceMoment(a + t0 * len, a + t1 * len, at(t0), at(t1), H);
+    F += f;
+    M += m;
+    const tm = (t0 + t1) / 2;
+    const last = pa[n - 1] + tm * (pb[n - 1] - pa[n - 1]);
+    let others = -Infinity;
+    for (let i = 0; i < n - 1; i++) others = Math.max(others, pa[i] + tm * (pb[i] - pa[i]));
+    if (last > others + 1e-9 * (1 + Math.abs(others))) lastGoverns = true;
+  }
+  return [F, M, lastGoverns];
 }

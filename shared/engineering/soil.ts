@@ -5,21 +5,26 @@
  * Units: depths in m, unit weights in kN/m³, stresses and pressures in kPa, γw = 9.81 kN/m³.
  * - σv(z): γ·thickness above the water table, γsat·thickness below it.
  * - u(z) = γw·(z − zw) below the water table, else 0.
- * - Drained layer: soil = max(0, K·(σv − u) − 2c′√K) (Rankine/Coulomb with the tension cut-off),
- *   water = u.
- * - Undrained layer (total stress): soil = max(σv − 2cu, 5 kPa/m × z), water = 0; the 5 kPa/m
- *   minimum equivalent fluid pressure is CIRIA C760's recommendation for cohesive soils. K for
- *   surcharges in an undrained layer is 1.
+ *   Effective stress σ′v = σv − u and the pore pressure below a water table: Craig's Soil Mechanics
+ *   (Terzaghi's principle of effective stress).
+ * - Drained layer, active: soil = max(0, K·(σv − u) − 2c′√K) (Rankine/Coulomb with the tension
+ *   cut-off), water = u.
+ * - Drained layer, at rest: soil = K0·(σv − u), no cohesion term (Craig; Bond & Harris, Decoding
+ *   Eurocode 7, §12.4.3), water = u.
+ * - Undrained layer (total stress, active only): soil = max(σv − 2cu, 5 kPa/m × z), water = 0. K for
+ *   surcharges in an undrained layer is 1. At rest is refused for it by the request schema.
+ * - Minimum equivalent fluid pressure: in every cohesive layer (cu, or c′ > 0) soil + water ≥
+ *   5 kPa/m × z (CIRIA C760 and BS 8002; from memory), so soil ≥ 5z − u there.
  * Forces and moments of soil and water are integrated exactly piece by piece between the layer
- * tops, the water table and formation, where every pressure is linear or the larger of two linear
- * functions.
+ * tops, the water table and formation, where every pressure is the largest of a few linear
+ * functions. See docs/calculation.md, "Soil and water".
  */
 import { drainedK } from './coefficients';
-import { linearForceMoment, maxOfLinearForceMoment } from './integrate';
+import { linearForceMoment, maxOfLinesForceMoment } from './integrate';
 import type { Excavation, SoilLayer } from './types';
 
 export const GAMMA_WATER = 9.81;
-/** Minimum equivalent fluid pressure for cohesive soils, kPa per metre depth (CIRIA C760). */
+/** Minimum equivalent fluid pressure for cohesive soils, kPa per metre depth (CIRIA C760, BS 8002; from memory). */
 export const MIN_EQUIVALENT_FLUID = 5;
 
 export interface PreparedLayer {
@@ -27,9 +32,11 @@ export interface PreparedLayer {
   /** Next layer's top, or Infinity. */
   bottom: number;
   drained: boolean;
+  /** Undrained (cu) or drained with c′ > 0: soil + water ≥ 5 kPa/m × z applies. */
+  cohesive: boolean;
   /** K for soil (drained) and for surcharges (1 when undrained). */
   K: number;
-  /** 2c′√K for a drained layer, 2cu for an undrained one (kPa). */
+  /** 2c′√K for a drained active layer, 0 at rest, 2cu for an undrained one (kPa). */
   strengthTerm: number;
   gamma: number;
   gammaSat: number;
@@ -47,6 +54,8 @@ export interface SoilModel {
   /** ∫K dz and ∫K·(H − z) dz over 0..H: a blanket q gives q times these. */
   kForce: number;
   kMoment: number;
+  /** Whether the 5 kPa/m minimum equivalent fluid pressure governs somewhere in 0..H. */
+  minimumGoverns: boolean;
   soilForce: number;
   soilMoment: number;
   waterForce: number;
@@ -72,19 +81,28 @@ export function porePressure(model: SoilModel, z: number): number {
   return z > model.zw ? GAMMA_WATER * (z - model.zw) : 0;
 }
 
-/** The two linear parts whose larger is the soil pressure: [g, h] at depth z in the given layer. */
-function soilParts(model: SoilModel, layer: number, z: number): [number, number] {
+/**
+ * The linear functions whose largest is the soil pressure at depth z in the given layer, evaluated
+ * there: the strength expression, then (drained active) the tension cut-off 0, then (cohesive) the
+ * minimum 5z − u. The last entry is the minimum when `layer.cohesive`.
+ */
+function soilParts(model: SoilModel, layer: number, z: number): number[] {
   const L = model.layers[layer];
   const sv = sigmaV(model, layer, z);
-  if (L.drained) return [L.K * (sv - porePressure(model, z)) - L.strengthTerm, 0];
-  return [sv - L.strengthTerm, MIN_EQUIVALENT_FLUID * z];
+  if (!L.drained) return [sv - L.strengthTerm, MIN_EQUIVALENT_FLUID * z];
+  const u = porePressure(model, z);
+  const parts = [L.K * (sv - u) - L.strengthTerm, 0];
+  if (L.cohesive) parts.push(MIN_EQUIVALENT_FLUID * z - u);
+  return parts;
 }
 
 export function soilPressure(model: SoilModel, layer: number, z: number): number {
   const L = model.layers[layer];
   const sv = sigmaV(model, layer, z);
-  if (L.drained) return Math.max(L.K * (sv - porePressure(model, z)) - L.strengthTerm, 0);
-  return Math.max(sv - L.strengthTerm, MIN_EQUIVALENT_FLUID * z);
+  if (!L.drained) return Math.max(sv - L.strengthTerm, MIN_EQUIVALENT_FLUID * z);
+  const u = porePressure(model, z);
+  const p = Math.max(L.K * (sv - u) - L.strengthTerm, 0);
+  return L.cohesive ? Math.max(p, MIN_EQUIVALENT_FLUID * z - u) : p;
 }
 
 export function waterPressure(model: SoilModel, layer: number, z: number): number {
@@ -102,12 +120,14 @@ export function buildSoilModel(excavation: Excavation, soil: readonly SoilLayer[
     const s = sorted[i];
     const drained = s.undrainedShearStrength === undefined;
     const K = drained ? drainedK(s.frictionAngle as number, excavation.pressureState, excavation.wallFriction) : 1;
-    const strengthTerm = drained ? 2 * (s.cohesion ?? 0) * Math.sqrt(K) : 2 * (s.undrainedShearStrength as number);
+    const atRest = excavation.pressureState === 'at-rest';
+    const strengthTerm = drained ? (atRest ? 0 : 2 * (s.cohesion ?? 0) * Math.sqrt(K)) : 2 * (s.undrainedShearStrength as number);
     const bottom = i + 1 < sorted.length ? sorted[i + 1].top : Infinity;
     const layer: PreparedLayer = {
       top: s.top,
       bottom,
       drained,
+      cohesive: !drained || (s.cohesion ?? 0) > 0,
       K,
       strengthTerm,
       gamma: s.unitWeight,
@@ -132,6 +152,7 @@ export function buildSoilModel(excavation: Excavation, soil: readonly SoilLayer[
     breakpoints,
     kForce: 0,
     kMoment: 0,
+    minimumGoverns: false,
     soilForce: 0,
     soilMoment: 0,
     waterForce: 0,
@@ -142,9 +163,10 @@ export function buildSoilModel(excavation: Excavation, soil: readonly SoilLayer[
     const b = breakpoints[j + 1];
     const li = layerIndexAt(model, (a + b) / 2);
     const K = layers[li].K;
-    const [ga, ha] = soilParts(model, li, a);
-    const [gb, hb] = soilParts(model, li, b);
-    const soilFM = maxOfLinearForceMoment(a, b, ga, gb, ha, hb, H);
+    const pa = soilParts(model, li, a);
+    const pb = soilParts(model, li, b);
+    const soilFM = maxOfLinesForceMoment(a, b, pa, pb, H);
+    if (layers[li].cohesive && soilFM[2]) model.minimumGoverns = true;
     const waterFM = linearForceMoment(a, b, waterPressure(model, li, a), waterPressure(model, li, b), H);
     const kFM = linearForceMoment(a, b, K, K, H);
     model.soilForce += soilFM[0];

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { prepareCheck } from './check';
 import { blanketEffect } from './loads';
-import { runCheck, solveStandoff } from './index';
+import { loadBreakpoints, runCheck, solveStandoff } from './index';
 import { standoffSolver } from './standoff';
 import { sixRequest, withExcavation, withLoads } from './test-fixtures';
 import type { CheckRequest, PlacedLoad } from './types';
@@ -12,7 +12,7 @@ function solverFor(req: CheckRequest) {
   return standoffSolver(ctx, blankets);
 }
 
-describe('standoff (engineering.md §5)', () => {
+describe('standoff (docs/calculation.md, "Standoff")', () => {
   it('the §6 strip: its band may cover at most 0.5 m of the 3 m, so d ≥ 2.5 m (hand calculation; common practice, no published source)', () => {
     const req = sixRequest();
     const load = req.loads[0] as PlacedLoad;
@@ -62,5 +62,79 @@ describe('standoff (engineering.md §5)', () => {
     const solver = solverFor(req);
     expect(solver.passesAt(load, s as number)).toBe(true);
     expect(solver.passesAt(load, (s as number) - 0.01)).toBe(false);
+  });
+
+  it('a 45° band meeting a rated pressure at a layer top: the pressure jumps as its near edge passes the top, and the standoff lies beyond it (hand calculation; common practice, no published source)', () => {
+    // A weak sand (φ′ 20°, Ka 0.4903) over a strong one from 1.5 m (φ′ 40°, Ka 0.2174; Craig). A 90 kPa
+    // strip 0.2 m wide with its near edge just above 1.5 m still presses on the weak layer's bottom:
+    // 0.4903·(28.5 + 90) = 58.1 kPa; just below, only the strong layer: 0.2174·(32.3 + 90) = 26.6 kPa.
+    const soil = [
+      { top: 0, unitWeight: 19, frictionAngle: 20 },
+      { top: 1.5, unitWeight: 19, frictionAngle: 40 },
+    ];
+    const req = (d: number) => withLoads(withExcavation({ ...sixRequest(), soil }, { ratedPressure: 40, designSurcharge: 100 }), [{ id: 's', kind: 'strip', pressure: 90, width: 0.2, offset: d }]);
+    expect(runCheck(req(1.5 - 1e-6), { standoffs: false }).maxTotalPressure).toBeCloseTo(0.4903 * 118.5, 1);
+    expect(runCheck(req(1.5 + 1e-6), { standoffs: false }).maxTotalPressure).toBeCloseTo(0.2174 * 122.3, 1);
+    expect(runCheck(req(1.5 - 1e-6), { standoffs: false }).passes).toBe(false);
+    expect(runCheck(req(1.5 + 1e-6), { standoffs: false }).passes).toBe(true);
+    const r = runCheck(req(1));
+    const s = r.loads[0].standoff as number;
+    expect(s).toBeGreaterThanOrEqual(1.5);
+    expect(s).toBeLessThanOrEqual(1.51);
+    expect(runCheck(req(s), { standoffs: false }).passes).toBe(true);
+  });
+
+  // Force and moment are continuous in the offset at every break point but the NAVFAC m = 0.4 switch:
+  // the 45° band only slides across a jump in K, and the elastic strip formula is smooth.
+  const layered = withExcavation(
+    {
+      ...sixRequest(),
+      soil: [
+        { top: 0, unitWeight: 18, frictionAngle: 32 },
+        { top: 1.2, unitWeight: 19, saturatedUnitWeight: 20, frictionAngle: 26, cohesion: 3 },
+        { top: 2.1, unitWeight: 18, undrainedShearStrength: 40 },
+      ],
+    },
+    { groundwaterDepth: 1.7, ratedPressure: 80 },
+  );
+  const kinds: PlacedLoad[] = [
+    { id: 'strip', kind: 'strip', pressure: 40, width: 0.7, offset: 1 },
+    { id: 'line', kind: 'line', force: 20, offset: 1 },
+    { id: 'area', kind: 'area', pressure: 40, width: 0.9, length: 2, offset: 1 },
+    { id: 'point', kind: 'point', force: 80, offset: 1, padWidth: 0.5, padLength: 0.6 },
+  ];
+  it.each(['dispersion-45', 'elastic'] as const)('%s: force and moment are continuous across every break point but m = 0.4 (elementary continuity of the published formulas)', (method) => {
+    const req = { ...layered, method };
+    const ctx = prepareCheck(req);
+    for (const load of kinds) {
+      const one = (d: number) => runCheck(withLoads(req, [{ ...load, offset: d }]), { standoffs: false });
+      const bps = loadBreakpoints(ctx.model, load, method).filter((b) => b > 0);
+      expect(bps.length).toBeGreaterThan(3);
+      for (const b of bps) {
+        const lo = one(b - 1e-7);
+        const hi = one(b + 1e-7);
+        const jump = method === 'elastic' && (load.kind === 'line' || load.kind === 'point') && Math.abs(b - 0.4 * 3) < 1e-9;
+        if (jump) {
+          expect(Math.abs(hi.forces.surcharge - lo.forces.surcharge), `${load.id} at m = 0.4`).toBeGreaterThan(0.01);
+        } else {
+          expect(Math.abs(hi.forces.surcharge - lo.forces.surcharge), `${load.id} force at ${b}`).toBeLessThanOrEqual(0.001);
+          expect(Math.abs(hi.moments.surcharge - lo.moments.surcharge), `${load.id} moment at ${b}`).toBeLessThanOrEqual(0.001);
+        }
+      }
+    }
+  });
+
+  it('a machine of two elements is searched like one load, with both elements\' break points (docs/calculation.md, "Standoff")', () => {
+    const req = withLoads(layered, []);
+    const ctx = prepareCheck(req);
+    const solver = standoffSolver(ctx, []);
+    const a: PlacedLoad = { id: 'a', kind: 'area', pressure: 60, width: 0.6, length: 3, offset: 1 };
+    const b: PlacedLoad = { id: 'b', kind: 'area', pressure: 60, width: 0.6, length: 3, offset: 2.3 };
+    const answer = solver.searchGroup([{ load: a, relative: 0 }, { load: b, relative: 1.3 }]);
+    const both = (d: number) => runCheck(withLoads(req, [{ ...a, offset: d }, { ...b, offset: d + 1.3 }]), { standoffs: false }).passes;
+    expect(answer.standoff).not.toBeNull();
+    const s = answer.standoff as number;
+    for (let cm = Math.round(s * 100); cm <= 900; cm += 1) expect(both(cm / 100), `${cm / 100} m`).toBe(true);
+    if (s > 0.6) expect(both(s - 0.01) && answer.failingBands.every((f) => f.to < s - 0.01)).toBe(false);
   });
 });

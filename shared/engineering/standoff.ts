@@ -1,36 +1,98 @@
 /**
- * Standoff of one load (engineering.md §5): the least offset d ≥ minimumClearance such that the
- * check of that load alone, with the blanket loads, passes at d and at every larger offset.
- * Scanned from 3H toward the face in 0.05 m steps, then refined by bisection to 0.01 m. Offsets
- * are handled as whole centimetres, so the answer is rounded UP to 0.01 m: it passes, and the
- * centimetre closer fails. No passing offset within 3H gives null: the support must be redesigned
- * or the load reduced. The 0.6 m default clearance is the 2 ft of OSHA 29 CFR 1926.651(j)(2).
+ * Standoff of one load, or of a machine's elements moved together (docs/calculation.md, "Standoff"):
+ * the least offset d ≥ minimumClearance such that the check of that load alone, with the blanket
+ * loads, passes at d and at every larger offset up to 3H.
+ *
+ * The pressure model has jumps (a 45° band meeting a layer top, the water table or formation; the
+ * NAVFAC DM-7.02 line and point formulas at m = 0.4), so a failing band can be narrower than any
+ * fixed step. The search therefore tries every whole centimetre from 3H down to the minimum
+ * clearance AND just either side of every break point of the model (d = each layer top, the water
+ * table and H, and those less the load's width B; d = 0.4H for elastic line and point loads), and
+ * reports the standoff rounded up to 0.01 m beyond the farthest failing offset. Because every
+ * offset is tried, it also finds every failing band: when one lies beyond a passing offset the
+ * utilisation is not monotonic in the offset and moving the load farther away is not always safer.
+ * No passing offset at 3H gives null: the support must be redesigned or the load reduced. The
+ * 0.6 m default clearance is the 2 ft of OSHA 29 CFR 1926.651(j)(2).
  *
  * Units: offsets in m. Each trial rebuilds only this load's effect (closed form or exact band
  * integral); the soil, water and blanket pressures at the sample depths are computed once.
  */
-import { sidesOf, soilAndWater, sumPressure, utilisationOf, type CheckContext } from './check';
+import { sidesOf, soilAndWater, sumPressure, utilisationOf, PASS_TOLERANCE, type CheckContext } from './check';
+import { DEFAULT_PAD, LINE_LOAD_WIDTH } from './dispersion';
 import { placedEffect, type MethodOptions } from './loads';
+import type { SoilModel } from './soil';
 import type { SurchargeEffect } from './surcharge';
-import type { PlacedLoad } from './types';
-
-const SCAN_STEP_CM = 5;
+import type { Method, OffsetBand, PlacedLoad } from './types';
 
 export const NO_STANDOFF_MESSAGE =
   'no offset within 3H lets the support carry this load: the support must be redesigned or the load reduced';
+
+/** How far either side of a break point the search looks (m): far below any physical significance. */
+export const BREAK_EPSILON = 1e-6;
+
+/** What the search found for one load or one machine. */
+export interface StandoffAnswer {
+  /** Least offset (m, whole centimetres) from which the check passes at every larger offset to 3H; null when 3H fails. */
+  standoff: number | null;
+  /** Every run of failing offsets tried within [minimum clearance, 3H], nearest first: its first and last failing offset (m). */
+  failingBands: OffsetBand[];
+  /** False when a failing band lies beyond an offset that passes. */
+  monotonic: boolean;
+}
+
+/** One element of a load moved as a whole: a load and its offset beyond the group's nearest element (m). */
+export interface GroupMember {
+  load: PlacedLoad;
+  /** Offset of this element minus that of the group's nearest element (m, ≥ 0). */
+  relative: number;
+}
 
 export interface StandoffSolver {
   /** Does the check of this load alone (with the blankets) pass at offset d (m)? */
   passesAt(load: PlacedLoad, offset: number): boolean;
   /** The standoff (m, rounded up to 0.01 m) or null. */
   solve(load: PlacedLoad): number | null;
+  /** The standoff with the failing bands of one load. */
+  search(load: PlacedLoad): StandoffAnswer;
+  /** The same for several elements moved together, d being the nearest element's offset. */
+  searchGroup(group: readonly GroupMember[]): StandoffAnswer;
+}
+
+/** The width B of a load as the method sees it (m): where its far edge sits beyond its near edge. */
+export function loadWidth(load: PlacedLoad, method: Method): number {
+  switch (load.kind) {
+    case 'strip':
+    case 'area':
+      return load.width;
+    case 'line':
+      return method === 'dispersion-45' ? LINE_LOAD_WIDTH : 0;
+    case 'point':
+      return method === 'dispersion-45' ? (load.padWidth ?? DEFAULT_PAD) : 0;
+  }
+}
+
+/**
+ * Offsets of a load's near edge at which the model jumps or changes form: the layer tops, the
+ * water table and H (where the 45° band's near edge crosses them), those less B (its far edge),
+ * and 0.4H for the elastic line and point formulas (m = 0.4).
+ */
+export function loadBreakpoints(model: SoilModel, load: PlacedLoad, method: Method): number[] {
+  const H = model.H;
+  const depths = model.breakpoints.filter((z) => z > 0);
+  const B = loadWidth(load, method);
+  const out = [...depths];
+  if (B > 0) for (const z of depths) out.push(z - B);
+  if (method === 'elastic' && (load.kind === 'line' || load.kind === 'point')) out.push(0.4 * H);
+  return out;
 }
 
 /** Prepares the fixed part (soil, water, blankets) once for any number of standoff solves. */
 export function standoffSolver(ctx: CheckContext, blankets: readonly SurchargeEffect[]): StandoffSolver {
   const { model } = ctx;
-  const opts: MethodOptions = { method: ctx.request.method, restraint: ctx.request.excavation.restraint };
+  const method = ctx.request.method;
+  const opts: MethodOptions = { method, restraint: ctx.request.excavation.restraint };
   const rated = ctx.request.excavation.ratedPressure;
+  const limit = rated === null ? Infinity : rated * (1 + PASS_TOLERANCE);
   let blanketForce = 0;
   let blanketMoment = 0;
   for (const b of blankets) {
@@ -42,55 +104,92 @@ export function standoffSolver(ctx: CheckContext, blankets: readonly SurchargeEf
   const sampleLayer = [...ctx.gridLayers, ...ctx.extraSamples.map((s) => s.layer)];
   const base = sampleZ.map((z, k) => soilAndWater(model, z, sampleLayer[k]) + sumPressure(blankets, z, sampleLayer[k]));
 
-  function passesAt(load: PlacedLoad, offset: number): boolean {
-    const e = placedEffect(model, opts, load, offset);
-    let maxTotal = 0;
-    if (rated !== null) {
-      for (let k = 0; k < sampleZ.length; k++) {
-        maxTotal = Math.max(maxTotal, base[k] + e.pressureAt(sampleZ[k], sampleLayer[k]));
-      }
+  /** Does the largest total pressure stay within the rated pressure (the same samples as the check)? */
+  function withinRated(effects: readonly SurchargeEffect[]): boolean {
+    for (let k = 0; k < sampleZ.length; k++) {
+      let p = base[k];
+      for (const e of effects) p += e.pressureAt(sampleZ[k], sampleLayer[k]);
+      if (p > limit) return false;
+    }
+    for (const e of effects) {
       for (const z of e.edges) {
         for (const layer of sidesOf(model, z)) {
-          maxTotal = Math.max(maxTotal, soilAndWater(model, z, layer) + sumPressure(blankets, z, layer) + e.pressureAt(z, layer));
+          let p = soilAndWater(model, z, layer) + sumPressure(blankets, z, layer);
+          for (const f of effects) p += f.pressureAt(z, layer);
+          if (p > limit) return false;
         }
       }
     }
-    return utilisationOf(ctx, blanketForce + e.force, blanketMoment + e.moment, maxTotal).passes;
+    return true;
   }
 
-  function solve(load: PlacedLoad): number | null {
-    return scanStandoff((cm) => passesAt(load, cm / 100), model.H, ctx.request.minimumClearance);
+  function passesWith(effects: readonly SurchargeEffect[]): boolean {
+    let F = blanketForce;
+    let M = blanketMoment;
+    for (const e of effects) {
+      F += e.force;
+      M += e.moment;
+    }
+    // Force and moment first; the rated pressure only when they pass. maxTotal 0 leaves them alone.
+    if (!utilisationOf(ctx, F, M, 0).passes) return false;
+    return rated === null || withinRated(effects);
   }
 
-  return { passesAt, solve };
+  function passesAt(load: PlacedLoad, offset: number): boolean {
+    return passesWith([placedEffect(model, opts, load, offset)]);
+  }
+
+  function search(load: PlacedLoad): StandoffAnswer {
+    return searchOffsets((d) => passesAt(load, d), model.H, ctx.request.minimumClearance, loadBreakpoints(model, load, method));
+  }
+
+  function searchGroup(group: readonly GroupMember[]): StandoffAnswer {
+    const bps = group.flatMap((m) => loadBreakpoints(model, m.load, method).map((b) => b - m.relative));
+    const at = (d: number) => passesWith(group.map((m) => placedEffect(model, opts, m.load, d + m.relative)));
+    return searchOffsets(at, model.H, ctx.request.minimumClearance, bps);
+  }
+
+  return { passesAt, solve: (load) => search(load).standoff, search, searchGroup };
 }
+
+/** An offset as reported: to 1e-7 m, so whole centimetres print exactly and break-point samples stay distinct. */
+const exact = (x: number) => Math.round(x * 1e7) / 1e7;
 
 /**
- * The §5 search over any pass/fail test of a whole-centimetre offset: from 3H toward the face in
- * 0.05 m steps (the last step lands on the minimum clearance itself), then by halves to 0.01 m.
- * Returns metres, or null when 3H does not pass. Used for single loads here and for a machine's
- * elements moved together (shared/permits).
+ * The search of docs/calculation.md, "Standoff", over any pass/fail test of an offset d (m): every
+ * whole centimetre from 3H down to the minimum clearance (rounded up to a centimetre) and d ± 1e-6 m
+ * at every break point in that range. The standoff is the centimetre just beyond the farthest
+ * failing offset (the minimum clearance when none fails), or null when 3H itself fails.
  */
-export function scanStandoff(passesCm: (cm: number) => boolean, H: number, minimumClearance: number): number | null {
+export function searchOffsets(passes: (d: number) => boolean, H: number, minimumClearance: number, breakpoints: readonly number[]): StandoffAnswer {
   const top = Math.floor(3 * H * 100 + 1e-9);
   const least = Math.ceil(minimumClearance * 100 - 1e-9);
-  if (top <= least) return passesCm(least) ? least / 100 : null;
-  if (!passesCm(top)) return null;
-  let pass = top;
-  while (pass > least) {
-    const next = Math.max(least, pass - SCAN_STEP_CM);
-    if (!passesCm(next)) return bisect(passesCm, next, pass) / 100;
-    pass = next;
+  const samples: number[] = [];
+  for (let cm = least; cm <= Math.max(top, least); cm++) samples.push(cm / 100);
+  const lo = least / 100;
+  const hi = Math.max(top, least) / 100;
+  for (const b of breakpoints) {
+    for (const d of [b - BREAK_EPSILON, b + BREAK_EPSILON]) if (d > lo && d < hi) samples.push(d);
   }
-  return least / 100;
-}
-
-/** Least passing centimetre between a failing `fail` and a passing `pass` (integers). */
-function bisect(passesCm: (cm: number) => boolean, fail: number, pass: number): number {
-  while (pass - fail > 1) {
-    const mid = (fail + pass) >> 1;
-    if (passesCm(mid)) pass = mid;
-    else fail = mid;
+  samples.sort((a, b) => a - b);
+  const fails = samples.map((d) => !passes(d));
+  const bands: OffsetBand[] = [];
+  for (let i = 0; i < samples.length; i++) {
+    if (!fails[i]) continue;
+    let j = i;
+    while (j + 1 < samples.length && fails[j + 1]) j++;
+    bands.push({ from: exact(samples[i]), to: exact(samples[j]) });
+    i = j;
   }
-  return pass;
+  const monotonic = bands.length === 0 || (bands.length === 1 && fails[0]);
+  if (fails[fails.length - 1]) return { standoff: null, failingBands: bands, monotonic };
+  let farthest = -Infinity;
+  for (let i = samples.length - 1; i >= 0; i--) {
+    if (fails[i]) {
+      farthest = samples[i];
+      break;
+    }
+  }
+  const cm = farthest === -Infinity ? least : Math.max(least, Math.floor(farthest * 100 + 1e-7) + 1);
+  return { standoff: cm / 100, failingBands: bands, monotonic };
 }

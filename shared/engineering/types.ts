@@ -1,5 +1,6 @@
 /**
- * Types of the calculation request and result (engineering.md §1, §2, §4, §6).
+ * Types of the calculation request and result (docs/calculation.md: "Soil and water", "Loads",
+ * "The check", "Command line").
  *
  * Units: lengths and depths in metres (m), pressures in kPa (kN/m²), forces per metre run of
  * support in kN/m (a point load's `force` is in kN), moments about formation in kN·m/m, unit
@@ -71,6 +72,12 @@ export interface ProfilePoint {
   allowance: number;
 }
 
+/** A run of offsets from the face (m) at which a load fails the check. */
+export interface OffsetBand {
+  from: number;
+  to: number;
+}
+
 export interface LoadResult {
   id: string;
   kind: LoadKind;
@@ -83,6 +90,12 @@ export interface LoadResult {
   bottom: number | null;
   /** Least offset at which this load alone with the blankets passes (m); null for blankets or when none exists. */
   standoff: number | null;
+  /**
+   * Every run of offsets within [minimum clearance, 3H] at which this load alone (with the blankets)
+   * fails, nearest first; empty for blankets, or when standoffs were not solved. More than one run, or
+   * one beyond an offset that passes, means moving the load farther away is not always safer.
+   */
+  failingBands: OffsetBand[];
 }
 
 export interface CheckResult {

@@ -7,7 +7,19 @@
  *
  * Units: m, kN, kPa, kN/m; positions WGS84 [longitude, latitude]; rotations degrees clockwise from north.
  */
-import { CAUTION, runCheck, scanStandoff, type CheckRequest, type Excavation, type Load, type Method, type SoilLayer } from '../engineering';
+import {
+  CAUTION,
+  notMonotonicWarning,
+  prepareCheck,
+  runCheck,
+  standoffSolver,
+  type CheckRequest,
+  type Excavation,
+  type Load,
+  type Method,
+  type SoilLayer,
+  type StandoffAnswer,
+} from '../engineering';
 import {
   GeometryError,
   localProjection,
@@ -200,16 +212,15 @@ export function windowsOverlap(a: { windowStart: string; windowEnd: string }, b:
  * The standoff of a load made of several bearing elements (a machine's tracks, pads or wheels),
  * moved as one: the least clear distance d ≥ the minimum clearance from the excavation to its
  * nearest element such that all its elements together pass the check (alone, without other loads)
- * at d and at every larger d. The same search as the engine's single-load standoff
- * (engineering.md §5): from 3H toward the face in 0.05 m steps, then by halves to 0.01 m, rounded
- * up; null when no offset within 3H passes. Every trial is the engine's own check.
+ * at d and at every larger d up to 3H. The engine's own search (docs/calculation.md, "Standoff"):
+ * every 0.01 m from 3H to the minimum clearance and either side of every element's break points,
+ * rounded up beyond the farthest failing offset; null when 3H fails. With the failing bands.
  */
-export function groupStandoff(base: Omit<CheckRequest, 'loads'>, group: Exclude<Load, { kind: 'blanket' }>[]): number | null {
-  if (group.length === 0) return null;
+export function groupStandoff(base: Omit<CheckRequest, 'loads'>, group: Exclude<Load, { kind: 'blanket' }>[]): StandoffAnswer {
+  if (group.length === 0) return { standoff: null, failingBands: [], monotonic: true };
   const nearest = Math.min(...group.map((l) => l.offset));
-  const passesAt = (cm: number) =>
-    runCheck({ ...base, loads: group.map((l) => ({ ...l, offset: l.offset - nearest + cm / 100 })) }, { standoffs: false }).passes;
-  return scanStandoff(passesAt, base.excavation.depth, base.minimumClearance);
+  const solver = standoffSolver(prepareCheck({ ...base, loads: group }), []);
+  return solver.searchGroup(group.map((load) => ({ load, relative: load.offset - nearest })));
 }
 
 function maxOrNull(xs: (number | null)[]): number | null {
@@ -311,9 +322,16 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
     const loadStandoffs = own.flatMap(({ load }) => {
       const parts = checked.flatMap((c, i) => (c.own && c.loadId === load.id ? [i] : []));
       if (parts.length === 0) return [];
-      const standoff =
-        parts.length === 1 ? checked[parts[0]].standoff : groupStandoff(base, parts.map((i) => loads[i] as Exclude<Load, { kind: 'blanket' }>));
-      return [{ loadId: load.id, label: checked[parts[0]].label, standoff, offset: Math.min(...parts.map((i) => checked[i].offset)) }];
+      const label = checked[parts[0]].label;
+      let answer: Pick<StandoffAnswer, 'standoff' | 'failingBands'>;
+      if (parts.length === 1) {
+        answer = result.loads[parts[0]];
+      } else {
+        const group = groupStandoff(base, parts.map((i) => loads[i] as Exclude<Load, { kind: 'blanket' }>));
+        if (!group.monotonic) result.warnings.push(notMonotonicWarning(label, group));
+        answer = group;
+      }
+      return [{ loadId: load.id, label, standoff: answer.standoff, failingBands: answer.failingBands, offset: Math.min(...parts.map((i) => checked[i].offset)) }];
     });
     const standoff = maxOrNull(loadStandoffs.map((l) => l.standoff));
     excavations.push({

@@ -1,5 +1,5 @@
 /**
- * `npm run calc` end to end (engineering.md §6): the §6 request gives the §6 result; bad input exits 2,
+ * `npm run calc` end to end (docs/calculation.md, "Command line"): the §6 request gives the §6 result; bad input exits 2,
  * names each wrong field on standard error and prints nothing on standard output.
  */
 import { spawnSync } from 'node:child_process';
@@ -105,5 +105,18 @@ describe('npm run calc', { timeout: 60_000 }, () => {
     const bad = six();
     bad.excavation.depth = -1;
     expectRejected(calc([six(), bad]), ['[1].excavation.depth']);
+  });
+
+  it('at rest in an undrained layer, a 1e308 kPa load and water-light soil: exit 2 naming each (docs/calculation.md, "Refusals")', () => {
+    const atRest = six();
+    atRest.excavation.pressureState = 'at-rest';
+    atRest.soil = [{ top: 0, unitWeight: 18, undrainedShearStrength: 40 }];
+    const huge = six();
+    huge.loads[0].pressure = 1e308;
+    const light = six();
+    light.soil[0].saturatedUnitWeight = 9;
+    const r = calc([atRest, huge, light]);
+    expectRejected(r, ['[0].soil[0].undrainedShearStrength', '[1].loads[0].pressure', '[2].soil[0].saturatedUnitWeight']);
+    expect(r.stderr).toMatch(/at rest needs φ′/);
   });
 });

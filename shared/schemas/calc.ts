@@ -1,11 +1,13 @@
 /**
- * Zod schemas of the calculation request (engineering.md §6), shared by the `npm run calc` CLI and
- * the API. Every message names what is wrong; `formatIssues` puts the field's path in front of it,
+ * Zod schemas of the calculation request (docs/calculation.md, "Command line" and "Refusals"),
+ * shared by the `npm run calc` CLI, the API and the browser's live check. Every message names what is
+ * wrong; `formatIssues` puts the field's path in front of it,
  * e.g. `soil[0].frictionAngle: must be greater than 0° and at most 60°`.
  *
  * Units: m, kPa, kN/m (line loads), kN (point loads), kN/m³, degrees.
  */
 import { z } from 'zod';
+import { GAMMA_WATER } from '../engineering/soil';
 import type { CheckRequest } from '../engineering/types';
 
 function describe(input: unknown): string {
@@ -31,9 +33,26 @@ const objectError = (what: string) => ({
   error: (iss: { input?: unknown }) => (iss.input === undefined ? 'is required' : `must be ${what}, not ${describe(iss.input)}`),
 });
 
-const withUnit = (n: number, unit: string) => (unit === '°' ? `${n}°` : `${n} ${unit}`);
-const positive = (unit: string) => num().gt(0, `must be greater than ${withUnit(0, unit)}`);
-const atLeastZero = (unit: string) => num().min(0, `must be at least ${withUnit(0, unit)}`);
+/** Physical bounds beyond which a figure is refused as nonsense (docs/calculation.md, "Refusals"). */
+export const BOUNDS = {
+  /** Any pressure or strength (kPa). */
+  pressure: 10_000,
+  /** Any force: a line load (kN/m) or a point load (kN). */
+  force: 100_000,
+  /** Any length, offset or depth other than the excavation's (m). */
+  length: 1_000,
+  /** Unit weights (kN/m³). */
+  unitWeight: 30,
+} as const;
+
+const withUnit = (n: number, unit: string) => (unit === '°' ? `${n}°` : `${n.toLocaleString('en-GB')} ${unit}`);
+const bound = (unit: string) => (unit === 'kPa' ? BOUNDS.pressure : unit === 'kN' || unit === 'kN/m' ? BOUNDS.force : unit === 'm' ? BOUNDS.length : Infinity);
+const capped = (schema: z.ZodNumber, unit: string) => {
+  const max = bound(unit);
+  return max === Infinity ? schema : schema.max(max, `must be at most ${withUnit(max, unit)}`);
+};
+const positive = (unit: string) => capped(num().gt(0, `must be greater than ${withUnit(0, unit)}`), unit);
+const atLeastZero = (unit: string) => capped(num().min(0, `must be at least ${withUnit(0, unit)}`), unit);
 
 function choice<const T extends readonly [string, ...string[]]>(values: T) {
   return z.enum(values, {
@@ -60,15 +79,26 @@ export const excavationSchema = z.strictObject({
 export const soilLayerSchema = z
   .strictObject({
     top: atLeastZero('m'),
-    unitWeight: positive('kN/m³').max(30, 'must be at most 30 kN/m³'),
-    saturatedUnitWeight: positive('kN/m³').max(30, 'must be at most 30 kN/m³').optional(),
+    unitWeight: positive('kN/m³').max(BOUNDS.unitWeight, `must be at most ${BOUNDS.unitWeight} kN/m³`),
+    saturatedUnitWeight: num()
+      .min(GAMMA_WATER, `must be at least the unit weight of water, ${GAMMA_WATER} kN/m³ (a lighter soil would have negative effective stress)`)
+      .max(BOUNDS.unitWeight, `must be at most ${BOUNDS.unitWeight} kN/m³`)
+      .optional(),
     frictionAngle: num().gt(0, FRICTION_MESSAGE).max(60, FRICTION_MESSAGE).optional(),
-    cohesion: atLeastZero('kPa').default(0),
+    cohesion: atLeastZero('kPa').optional(),
     undrainedShearStrength: positive('kPa').optional(),
   }, objectError('a soil layer object'))
   .superRefine((layer, ctx) => {
     const drained = layer.frictionAngle !== undefined;
     const undrained = layer.undrainedShearStrength !== undefined;
+    // A cohesion of 0 beside cu changes nothing (records saved before this rule carry it): it is dropped.
+    if (undrained && !drained && (layer.cohesion ?? 0) > 0) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['cohesion'],
+        message: 'does not apply to an undrained layer (its strength is undrainedShearStrength): leave it out',
+      });
+    }
     if (drained === undrained) {
       ctx.addIssue({
         code: 'custom',
@@ -78,7 +108,8 @@ export const soilLayerSchema = z
           : 'is required (or give undrainedShearStrength for an undrained layer)',
       });
     }
-  });
+  })
+  .transform(({ cohesion, ...layer }): typeof layer & { cohesion?: number } => (layer.frictionAngle !== undefined ? { ...layer, cohesion: cohesion ?? 0 } : layer));
 
 const id = z
   .string({ error: (iss) => (iss.input === undefined ? 'is required' : `must be text, not ${describe(iss.input)}`) })
@@ -126,7 +157,7 @@ export const calcRequestSchema = z
     excavation: excavationSchema,
     soil: z.array(soilLayerSchema, objectError('a list of soil layers')).min(1, 'must list at least one layer'),
     method: choice(['dispersion-45', 'elastic']),
-    minimumClearance: atLeastZero('m').max(10, 'must be at most 10 m').default(0.6),
+    minimumClearance: num().min(0, 'must be at least 0 m').max(10, 'must be at most 10 m').default(0.6),
     step: num()
       .min(STEP_RANGE[0], `must be at least ${STEP_RANGE[0]} m`)
       .max(STEP_RANGE[1], `must be at most ${STEP_RANGE[1]} m`)
@@ -144,7 +175,25 @@ export const calcRequestSchema = z
       if (first !== i) ctx.addIssue({ code: 'custom', path: ['soil', i, 'top'], message: `repeats the top of soil[${first}] (${t} m)` });
     });
     const delta = req.excavation.wallFriction;
+    const zw = req.excavation.groundwaterDepth;
+    const sortedTops = [...tops].sort((a, b) => a - b);
     req.soil.forEach((l, i) => {
+      if (req.excavation.pressureState === 'at-rest' && l.undrainedShearStrength !== undefined && l.frictionAngle === undefined) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['soil', i, 'undrainedShearStrength'],
+          message: `soil[${i}] (from ${l.top} m) is undrained: at rest needs φ′ (frictionAngle) for every layer; give its drained strength or check it as active`,
+        });
+      }
+      // Below the water table a layer without saturatedUnitWeight weighs its unitWeight: it must not be lighter than water.
+      const next = sortedTops.find((t) => t > l.top) ?? Infinity;
+      if (l.saturatedUnitWeight === undefined && zw !== null && zw < next && l.unitWeight < GAMMA_WATER) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['soil', i, 'saturatedUnitWeight'],
+          message: `is required for a layer below the water table whose unitWeight (${l.unitWeight} kN/m³) is below that of water, ${GAMMA_WATER} kN/m³`,
+        });
+      }
       if (l.frictionAngle !== undefined && delta > l.frictionAngle) {
         ctx.addIssue({
           code: 'custom',

@@ -513,7 +513,17 @@ export interface ExcavationCheck {
    * Each of this permit's placed loads: its nearest clear distance now and its standoff (m). A
    * machine's elements move together, so its standoff is that of all of them at once.
    */
-  loadStandoffs: { loadId: string; label: string; offset: number; standoff: number | null }[];
+  loadStandoffs: {
+    loadId: string;
+    label: string;
+    offset: number;
+    standoff: number | null;
+    /**
+     * Clear distances (m) at which this load alone fails, nearest first (docs/calculation.md,
+     * "Standoff"); absent on checks stored before they were recorded.
+     */
+    failingBands?: { from: number; to: number }[];
+  }[];
   /** Other approved, live or suspended permits whose window overlaps, counted in this check. */
   counted: CountedPermit[];
   /** The largest of `loadStandoffs` (m); null when one has none. */
