@@ -203,6 +203,13 @@ export interface InspectionsTable {
   client_ref: string | null;
 }
 
+/** What a not-safe inspection set in motion (server/src/services/inspections.ts `Consequences`). */
+export interface InspectionConsequencesTable {
+  inspection_id: number;
+  consequences: Json<unknown>;
+  updated_at: Generated<Date>;
+}
+
 export interface InspectionPhotosTable {
   inspection_id: number;
   upload_id: number;
@@ -329,6 +336,14 @@ export interface ConcernsTable {
   idempotency_key: string;
 }
 
+/** E-mail the SMTP server accepted, by the message's idempotency key (db/migrations/0008_outbox.ts). */
+export interface MailDeliveriesTable {
+  key: string;
+  delivered_at: Generated<Date>;
+  recipients: string;
+  subject: string;
+}
+
 export interface Database {
   users: UsersTable;
   sites: SitesTable;
@@ -352,6 +367,8 @@ export interface Database {
   inspection_suspensions: InspectionSuspensionsTable;
   inspection_reminders: InspectionRemindersTable;
   concerns: ConcernsTable;
+  mail_deliveries: MailDeliveriesTable;
+  inspection_consequences: InspectionConsequencesTable;
 }
 
 export type Db = Kysely<Database>;

@@ -5,6 +5,7 @@ import * as m0004 from './0004_permits';
 import * as m0005 from './0005_inspections';
 import * as m0006 from './0006_field';
 import * as m0007 from './0007_stored_shapes';
+import * as m0008 from './0008_outbox';
 
 /**
  * Every migration, in order. Listed here (not read from the folder) so that the same code runs
@@ -17,4 +18,5 @@ export const migrations: Record<string, Migration> = {
   '0005_inspections': m0005,
   '0006_field': m0006,
   '0007_stored_shapes': m0007,
+  '0008_outbox': m0008,
 };

@@ -21,7 +21,7 @@ export async function startRuntime(config: Config, opts: { now?: () => Date; que
   boss.on('error', (err) => console.error('[jobs]', err.message));
   await boss.start();
   const prefix = opts.queuePrefix ?? 'brink';
-  const mailer = new Mailer(boss, config, `${prefix}.mail`);
+  const mailer = new Mailer(boss, db, config, `${prefix}.mail`);
   await mailer.start();
   const geometry = new GeometryPool();
   const deps: Deps = { db, config, mailer, boss, geometry, now: opts.now ?? (() => new Date()) };

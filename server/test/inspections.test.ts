@@ -4,7 +4,7 @@ import bcrypt from 'bcryptjs';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { checklist, type InspectionInput } from '@shared/schemas/inspections';
-import { checkOverdueInspections } from '../src/jobs/inspections';
+import { checkOverdueInspections, runReconciliation } from '../src/jobs/inspections';
 import { MB } from '../src/services/uploads';
 import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
 import { act, createPermit, excavatorAt, makeWorld, newTrench, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
@@ -383,6 +383,63 @@ describe('a failed inspection stops the work beside it', () => {
     const resumed = await act(w.agents.coordinator, first.id, { action: 'resume', version: await version(w, first.id), reason: 'Re-inspected safe after repair' });
     expect(resumed.status).toBe(200);
     expect(await statusOf(first.id)).toBe('live');
+  });
+
+  it('answers a resent not-safe form with the consequences it caused, and causes none again', async () => {
+    t.clock.now = null;
+    await newTrench(w);
+    const p = await livePermit(w.trenchId, 6);
+    const clientRef = randomUUID();
+    const body = { ...notSafe('Sheet piles have moved at the corner'), clientRef };
+    const first = await w.agents.supervisor.post(`/api/excavations/${w.trenchId}/inspections`).send(body);
+    expect(first.status).toBe(201);
+    expect(first.body.consequences.suspended).toEqual([{ id: p.id, reference: p.number }]);
+    const again = await w.agents.supervisor.post(`/api/excavations/${w.trenchId}/inspections`).send(body);
+    expect(again.status).toBe(200);
+    expect(again.body.inspection.id).toBe(first.body.inspection.id);
+    expect(again.body.consequences).toEqual(first.body.consequences);
+    const suspensions = await t.deps.db.selectFrom('permit_events').select('id').where('permit_id', '=', p.id).where('action', '=', 'suspend').execute();
+    expect(suspensions).toHaveLength(1);
+  });
+
+  it('heals a not-safe inspection whose suspensions were lost: the reconciliation suspends, tells people, and then finds nothing', async () => {
+    t.clock.now = null;
+    await newTrench(w);
+    const p = await livePermit(w.trenchId, 6);
+    // As if the server died after the inspection committed and before its consequences did (the
+    // way an older release could lose them): the row alone, written directly.
+    const now = new Date();
+    const row = await t.deps.db
+      .insertInto('inspections')
+      .values({
+        excavation_id: w.trenchId,
+        site_id: w.siteId,
+        inspector_id: w.supervisorId,
+        inspected_at: now,
+        recorded_at: now,
+        shift_name: 'Day shift',
+        shift_start: now,
+        reason: 'after-fall',
+        checklist: JSON.stringify(notSafe().checklist),
+        outcome: 'not-safe',
+        remarks: 'Face collapsed behind the box',
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    expect(await statusOf(p.id)).toBe('live');
+
+    const found = await runReconciliation(t.deps, { siteIds: [w.siteId] });
+    const mine = found.filter((f) => f.inspectionId === row.id);
+    expect(mine).toEqual([{ inspectionId: row.id, excavation: w.trenchRef, suspended: [p.number], notSuspended: [] }]);
+    expect(await statusOf(p.id)).toBe('suspended');
+    const event = await t.deps.db.selectFrom('permit_events').select('comment').where('permit_id', '=', p.id).where('action', '=', 'suspend').executeTakeFirstOrThrow();
+    expect(event.comment).toContain(`Inspection ${row.id} of ${w.trenchRef}`);
+    await waitForMail(t.deps, demo.supervisor, new RegExp(`Not safe: ${w.trenchRef} `));
+    // the inspection now answers with what the reconciliation did
+    const listed = await w.agents.coordinator.get(`/api/excavations/${w.trenchId}/inspections`);
+    expect(listed.body.inspections[0].suspendedPermits).toEqual([{ id: p.id, reference: p.number }]);
+    // healed: a second pass finds nothing to do for it
+    expect((await runReconciliation(t.deps, { siteIds: [w.siteId] })).filter((f) => f.inspectionId === row.id)).toEqual([]);
   });
 });
 

@@ -2,7 +2,8 @@ import { stateLabels } from '@shared/schemas/inspections';
 import { formatSiteTime } from '@shared/time/shifts';
 import type { Deps } from '../deps';
 import { notice } from '../mail/mailer';
-import { inspectionStates, needingInspection, siteLeads } from '../services/inspections';
+import { inspectionStates, needingInspection, reconcileUnsafe, siteLeads, type Reconciled } from '../services/inspections';
+import { scheduledQueue } from './queues';
 
 /** How often the schedule looks for overdue inspections (pg-boss cron, minutes resolution). */
 export const OVERDUE_CRON = '*/2 * * * *';
@@ -53,7 +54,7 @@ export async function checkOverdueInspections(deps: Deps, opts: { siteIds?: numb
       if (!claimed) return;
       const to = (await siteLeads(trx, siteId)).map((p) => p.email);
       const tz = clock.timeZone;
-      await deps.mailer.send({
+      await deps.mailer.send(trx, {
         to,
         ...notice({
           subject: `Inspections overdue at ${clock.siteName}: ${late.map((e) => e.reference).join(', ')}`,
@@ -77,10 +78,33 @@ export async function checkOverdueInspections(deps: Deps, opts: { siteIds?: numb
 }
 
 /** Starts the schedule (from server/src/index.ts; tests call checkOverdueInspections directly). */
-export async function startInspectionJobs(deps: Deps, queue = 'brink.inspections-overdue'): Promise<void> {
-  await deps.boss.createQueue(queue, { name: queue, retryLimit: 2, expireInMinutes: 5 });
-  await deps.boss.schedule(queue, OVERDUE_CRON);
+export async function startInspectionJobs(deps: Deps, prefix = 'brink'): Promise<void> {
+  const queue = `${prefix}.inspections-overdue`;
+  await scheduledQueue(deps, queue, OVERDUE_CRON, { retryLimit: 2, expireInSeconds: 300 });
   await deps.boss.work(queue, { pollingIntervalSeconds: 10 }, async () => {
     await checkOverdueInspections(deps);
   });
+  // Self-healing: live permits beside an excavation whose latest inspection was not safe are
+  // suspended; whatever it finds is logged.
+  const heal = `${prefix}.reconcile-unsafe`;
+  await scheduledQueue(deps, heal, RECONCILE_CRON, { retryLimit: 2, expireInSeconds: 300 });
+  await deps.boss.work(heal, { pollingIntervalSeconds: 10 }, async () => {
+    await runReconciliation(deps);
+  });
+  await runReconciliation(deps);
+}
+
+/** How often the reconciliation of not-safe excavations runs (pg-boss cron, minutes resolution). */
+export const RECONCILE_CRON = '* * * * *';
+
+/** One reconciliation pass, its findings logged. */
+export async function runReconciliation(deps: Deps, opts: { siteIds?: number[] } = {}): Promise<Reconciled[]> {
+  const found = await reconcileUnsafe(deps, opts);
+  for (const f of found) {
+    console.warn(
+      `[reconcile] inspection ${f.inspectionId} found ${f.excavation} not safe but permits were still live: suspended ${f.suspended.join(', ') || 'none'}` +
+        (f.notSuspended.length ? `; could not suspend ${f.notSuspended.join(', ')}` : ''),
+    );
+  }
+  return found;
 }

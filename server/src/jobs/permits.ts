@@ -1,5 +1,6 @@
 import type { Deps } from '../deps';
 import { runPermitSchedule } from '../services/permits/schedule';
+import { scheduledQueue } from './queues';
 
 export { runPermitSchedule, advancePermit } from '../services/permits/schedule';
 
@@ -10,8 +11,7 @@ export { runPermitSchedule, advancePermit } from '../services/permits/schedule';
  */
 export async function startPermitJobs(deps: Deps, prefix = 'brink'): Promise<void> {
   const queue = `${prefix}.permit-schedule`;
-  await deps.boss.createQueue(queue, { name: queue, retryLimit: 0, expireInMinutes: 5 });
-  await deps.boss.schedule(queue, '* * * * *');
+  await scheduledQueue(deps, queue, '* * * * *', { retryLimit: 0, expireInSeconds: 300 });
   await deps.boss.work(queue, { pollingIntervalSeconds: 5 }, async () => {
     const out = await runPermitSchedule(deps);
     const n = out.started.length + out.lapsed.length + out.reminded.length;

@@ -1,6 +1,10 @@
+import { randomUUID } from 'node:crypto';
 import nodemailer, { type Transporter } from 'nodemailer';
 import type PgBoss from 'pg-boss';
+import type { Db } from '@db/database';
 import type { Config } from '../config';
+import { queueConnection } from '../services/tx';
+import { scheduledQueue } from '../jobs/queues';
 
 export interface Message {
   to: string | string[];
@@ -9,52 +13,84 @@ export interface Message {
   html?: string;
 }
 
+/** A message on the queue: its idempotency key travels with it. */
+export interface QueuedMessage extends Message {
+  key: string;
+}
+
 /**
- * Outgoing e-mail. `send` only puts the message on a queue in PostgreSQL (pg-boss), in the same
- * breath as the change that caused it; a worker delivers it over SMTP and, when the mail server is
- * down, retries with growing delays, so no message is lost.
+ * How the mail queue retries: the first retry after 1–2 s, doubling from there (pg-boss's backoff
+ * with jitter), 30 tries in all; a delivery taking longer than 60 s is given up and retried.
+ * Applied to a queue made by an older version of Brink too (jobs/queues.ts).
+ */
+export const MAIL_QUEUE_OPTIONS = { retryLimit: 30, retryDelay: 1, retryBackoff: true, expireInSeconds: 60 } as const;
+
+/**
+ * Outgoing e-mail, as a transactional outbox. `send(db, message)` puts the message on a queue in
+ * PostgreSQL (pg-boss) through `db`: given the transaction of the change that causes it, the
+ * message exists if and only if the change committed. A worker delivers one message at a time over
+ * SMTP and, when the mail server is down, retries with growing delays. Each message carries an
+ * idempotency key, recorded in `mail_deliveries` once the SMTP server has accepted it, so a job
+ * delivered again after a crash sends nothing; the key is also the message's Message-ID.
  */
 export class Mailer {
   private transport: Transporter | null;
 
   constructor(
     private readonly boss: PgBoss,
+    private readonly db: Db,
     private readonly config: Config,
     readonly queue: string,
   ) {
-    this.transport = config.smtpUrl
-      ? nodemailer.createTransport(config.smtpUrl)
-      : null;
+    this.transport = config.smtpUrl ? nodemailer.createTransport(config.smtpUrl) : null;
   }
 
   async start(): Promise<void> {
-    await this.boss.createQueue(this.queue, {
-      name: this.queue,
-      retryLimit: 30,
-      retryDelay: 1,
-      retryBackoff: true,
-      expireInMinutes: 5,
-    });
-    await this.boss.work<Message>(this.queue, { pollingIntervalSeconds: 0.5, batchSize: 5 }, async (jobs) => {
+    await scheduledQueue({ boss: this.boss }, this.queue, null, MAIL_QUEUE_OPTIONS);
+    await this.boss.work<QueuedMessage>(this.queue, { pollingIntervalSeconds: 0.5, batchSize: 1 }, async (jobs) => {
       for (const job of jobs) await this.deliver(job.data);
     });
   }
 
-  async send(message: Message): Promise<void> {
+  /**
+   * Queues one message through `db`: pass the transaction of the change that causes it. Returns
+   * the message's idempotency key (null when it has nobody to go to).
+   */
+  async send(db: Db, message: Message): Promise<string | null> {
     const to = [message.to].flat().filter(Boolean);
-    if (to.length === 0) return;
-    await this.boss.send(this.queue, { ...message, to });
+    if (to.length === 0) return null;
+    const key = randomUUID();
+    const data: QueuedMessage = { ...message, to, key };
+    await this.boss.send(this.queue, data, { db: queueConnection(db) });
+    return key;
   }
 
-  private async deliver(m: Message): Promise<void> {
+  private async deliver(m: QueuedMessage): Promise<void> {
     if (!this.transport) {
       console.warn(`[mail] no SMTP server configured; message "${m.subject}" to ${[m.to].flat().join(', ')} not sent`);
       return;
     }
-    await this.transport.sendMail({ from: this.config.mailFrom, to: m.to, subject: m.subject, text: m.text, html: m.html });
+    if (m.key) {
+      const done = await this.db.selectFrom('mail_deliveries').select('key').where('key', '=', m.key).executeTakeFirst();
+      if (done) return;
+    }
+    await this.transport.sendMail({
+      from: this.config.mailFrom,
+      to: m.to,
+      subject: m.subject,
+      text: m.text,
+      html: m.html,
+      ...(m.key ? { messageId: `<${m.key}@brink.mail>` } : {}),
+    });
+    if (m.key) {
+      await this.db
+        .insertInto('mail_deliveries')
+        .values({ key: m.key, recipients: [m.to].flat().join(', '), subject: m.subject })
+        .onConflict((oc) => oc.doNothing())
+        .execute();
+    }
   }
 }
-
 /** Escapes text for the HTML part of a message. */
 export function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);

@@ -137,19 +137,19 @@ export function registerAuthRoutes(api: Api): void {
             .insertInto('password_resets')
             .values({ user_id: u.id, token_hash: hash, expires_at: new Date(deps.now().getTime() + RESET_HOURS * 3600_000) })
             .execute();
+          await deps.mailer.send(trx, {
+            to: u.email,
+            ...notice({
+              subject: 'Reset your Brink password',
+              lines: [
+                `Hello ${u.name},`,
+                `Someone asked to reset the password of your Brink account. The link works once, for ${RESET_HOURS} hour. If it was not you, ignore this message; your password stays as it is.`,
+              ],
+                link: { label: 'Choose a new password', url: `${config.publicUrl}/reset-password?token=${token}` },
+            }),
+          });
+          await audit(trx, { actorId: u.id, entity: 'user', entityId: u.id, action: 'password-reset-requested' });
         });
-        await deps.mailer.send({
-          to: u.email,
-          ...notice({
-            subject: 'Reset your Brink password',
-            lines: [
-              `Hello ${u.name},`,
-              `Someone asked to reset the password of your Brink account. The link works once, for ${RESET_HOURS} hour. If it was not you, ignore this message; your password stays as it is.`,
-            ],
-            link: { label: 'Choose a new password', url: `${config.publicUrl}/reset-password?token=${token}` },
-          }),
-        });
-        await audit(db, { actorId: u.id, entity: 'user', entityId: u.id, action: 'password-reset-requested' });
       }
   }
 

@@ -141,6 +141,24 @@ export function registerFieldRoutes(api: Api): void {
             })
             .execute();
           await audit(trx, { actorId: user!.id, siteId: site!.id, entity: 'permit', entityId: params.id, action: 'concern', detail: { number: permit.number, concernId: row.id } });
+          // The notices are queued in the same transaction as the concern.
+          const facts = await trx
+            .selectFrom('permits as p')
+            .innerJoin('sites as s', 's.id', 'p.site_id')
+            .select(['p.number', 's.name as site_name'])
+            .where('p.id', '=', params.id)
+            .executeTakeFirstOrThrow();
+          const message = notice({
+            subject: `Concern on permit ${facts.number}: excavation ${excavation.reference}`,
+            lines: [
+              `${user!.name} reported a concern on permit ${facts.number} at ${facts.site_name}, about excavation ${excavation.reference}.`,
+              `"${body.note}"`,
+              photos.length ? `${photos.length === 1 ? 'One photo is' : `${photos.length} photos are`} on the permit's timeline.` : 'No photo was sent.',
+              'Please look at it and decide whether work under the permit must stop.',
+            ],
+            link: { label: `Open permit ${facts.number}`, url: `${deps.config.publicUrl}/permits/${params.id}` },
+          });
+          for (const to of await concernRecipients(trx, site!.id, user!.id)) await deps.mailer.send(trx, { to, ...message });
           return row.id;
         });
       } catch (err) {
@@ -149,23 +167,6 @@ export function registerFieldRoutes(api: Api): void {
       }
 
       const first = (await concernByKey(key))!;
-      const facts = await db
-        .selectFrom('permits as p')
-        .innerJoin('sites as s', 's.id', 'p.site_id')
-        .select(['p.number', 's.name as site_name'])
-        .where('p.id', '=', params.id)
-        .executeTakeFirstOrThrow();
-      const message = notice({
-        subject: `Concern on permit ${facts.number}: excavation ${excavation.reference}`,
-        lines: [
-          `${user!.name} reported a concern on permit ${facts.number} at ${facts.site_name}, about excavation ${excavation.reference}.`,
-          `"${body.note}"`,
-          photos.length ? `${photos.length === 1 ? 'One photo is' : `${photos.length} photos are`} on the permit's timeline.` : 'No photo was sent.',
-          'Please look at it and decide whether work under the permit must stop.',
-        ],
-        link: { label: `Open permit ${facts.number}`, url: `${deps.config.publicUrl}/permits/${params.id}` },
-      });
-      for (const to of await concernRecipients(db, site!.id, user!.id)) await deps.mailer.send({ to, ...message });
       res.status(201).json({ concern: concernOut(first), replayed: false, id: concernId });
     },
   );

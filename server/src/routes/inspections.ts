@@ -52,10 +52,8 @@ export function registerInspectionRoutes(api: Api): void {
     },
     async ({ req, res, params, user, deps }) => {
       const data = parseOr400(inspectionInputSchema, readInspectionBody(req), 'inspection');
-      const { inspection, created } = await recordInspection(deps, { excavationId: params.id, inspectorId: user!.id, data, photos: filesOf(req, 'photos') });
-      const consequences = created ? await applyConsequences(deps, inspection) : null;
-      const fresh = consequences?.suspended.length ? (await loadInspections(db, { ids: [inspection.id] }))[0] : inspection;
-      res.status(created ? 201 : 200).json({ inspection: fresh, consequences });
+      const { inspection, created, consequences } = await recordInspection(deps, { excavationId: params.id, inspectorId: user!.id, data, photos: filesOf(req, 'photos') });
+      res.status(created ? 201 : 200).json({ inspection, consequences });
     },
   );
 

@@ -48,21 +48,22 @@ export function registerPeopleRoutes(api: Api): void {
           .returning('id')
           .executeTakeFirstOrThrow();
         await audit(trx, { actorId: user!.id, siteId: body.siteId, entity: 'invitation', entityId: inv.id, action: 'created', detail: { email: body.email, role: body.role, isAdmin: body.isAdmin } });
+        // The e-mail is queued in the same transaction: no invitation without its message.
+        await deps.mailer.send(trx, {
+          to: body.email,
+          ...notice({
+            subject: 'You are invited to Brink',
+            lines: [
+              `Hello ${body.name},`,
+              `${user!.name} has invited you to Brink, where loads beside open excavations are requested, checked and approved${
+                siteName && body.role ? `, as ${roleLabels[body.role].toLowerCase()} on ${siteName}` : ''
+              }.`,
+              `Open the link below to choose your password. It works once, for ${INVITATION_HOURS} hours.`,
+            ],
+            link: { label: 'Accept the invitation', url: `${config.publicUrl}/invitations/accept?token=${token}` },
+          }),
+        });
         return inv.id;
-      });
-      await deps.mailer.send({
-        to: body.email,
-        ...notice({
-          subject: 'You are invited to Brink',
-          lines: [
-            `Hello ${body.name},`,
-            `${user!.name} has invited you to Brink, where loads beside open excavations are requested, checked and approved${
-              siteName && body.role ? `, as ${roleLabels[body.role].toLowerCase()} on ${siteName}` : ''
-            }.`,
-            `Open the link below to choose your password. It works once, for ${INVITATION_HOURS} hours.`,
-          ],
-          link: { label: 'Accept the invitation', url: `${config.publicUrl}/invitations/accept?token=${token}` },
-        }),
       });
       res.status(201).json({ id });
     },

@@ -19,6 +19,7 @@ import { checkUploadType, storeUpload } from './uploads';
 import { inspectionActor } from './permits/actors';
 import { transition } from './permits/machine';
 import { withCurrentRevision } from './permits/read';
+import { inTransaction, withSavepoint } from './tx';
 
 // Shifts, inspection records, and where each open excavation stands this shift. The route module
 // (routes/inspections.ts) is thin; the scheduled e-mail is in jobs/inspections.ts and the weekly PDF
@@ -165,21 +166,22 @@ export async function siteOfExcavation(db: Db, id: number): Promise<number | nul
 export const BACKDATE_HOURS = 12;
 
 /**
- * Checks and stores an inspection with its photos in one transaction and returns it. Consequences
- * (suspending permits, e-mails) are the caller's next step: see `applyConsequences`.
- * Sending the same `clientRef` again returns the inspection already stored (`created: false`).
+ * Checks and stores an inspection with its photos and returns it, with its consequences
+ * (`applyConsequences`: suspended permits, queued e-mails) in the same transaction: a crash leaves
+ * either all of it or none. Sending the same `clientRef` again returns the inspection already
+ * stored (`created: false`) and the consequences it caused then.
  */
 export async function recordInspection(
-  deps: Pick<Deps, 'db' | 'config' | 'now'>,
+  deps: Deps,
   args: { excavationId: number; inspectorId: number; data: InspectionData; photos: Express.Multer.File[] },
-): Promise<{ inspection: Inspection; created: boolean }> {
+): Promise<{ inspection: Inspection; created: boolean; consequences: Consequences }> {
   const { db } = deps;
   const { data } = args;
   if (data.clientRef) {
     const seen = await db.selectFrom('inspections').select(['id', 'excavation_id']).where('client_ref', '=', data.clientRef).executeTakeFirst();
     if (seen) {
       if (seen.excavation_id !== args.excavationId) throw badRequest('That form was already sent for another excavation.', { clientRef: 'belongs to another excavation' });
-      return { inspection: (await loadInspections(db, { ids: [seen.id] }))[0], created: false };
+      return { inspection: (await loadInspections(db, { ids: [seen.id] }))[0], created: false, consequences: await storedConsequences(db, seen.id) };
     }
   }
   const exc = await loadExcavation(db, args.excavationId);
@@ -203,7 +205,7 @@ export async function recordInspection(
     // The same form sent twice at once: the second waits here and finds the first.
     if (data.clientRef) await sql`select pg_advisory_xact_lock(hashtext(${data.clientRef}))`.execute(trx);
     const twin = data.clientRef ? await trx.selectFrom('inspections').select('id').where('client_ref', '=', data.clientRef).executeTakeFirst() : undefined;
-    if (twin) return { id: twin.id, created: false };
+    if (twin) return { id: twin.id, created: false, consequences: await storedConsequences(trx, twin.id) };
     const row = await trx
       .insertInto('inspections')
       .values({
@@ -235,9 +237,22 @@ export async function recordInspection(
       action: 'inspected',
       detail: { inspectionId: row.id, outcome: data.outcome, reason: data.reason, failed: failedItems(data.checklist).map((f) => f.key) },
     });
-    return { id: row.id, created: true };
+    const inspection = (await loadInspections(trx, { ids: [row.id] }))[0];
+    const consequences = await applyConsequences({ ...deps, db: trx }, inspection);
+    return { id: row.id, created: true, consequences };
   });
-  return { inspection: (await loadInspections(db, { ids: [stored.id] }))[0], created: stored.created };
+  return { inspection: (await loadInspections(db, { ids: [stored.id] }))[0], created: stored.created, consequences: stored.consequences };
+}
+
+/** The consequences an inspection caused, as recorded beside it (none for a safe one). */
+async function storedConsequences(db: Db, inspectionId: number): Promise<Consequences> {
+  const row = await db
+    .selectFrom('inspections as i')
+    .leftJoin('inspection_consequences as c', 'c.inspection_id', 'i.id')
+    .select(['c.consequences', 'i.outcome'])
+    .where('i.id', '=', inspectionId)
+    .executeTakeFirstOrThrow();
+  return (row.consequences as Consequences | null) ?? { suspended: [], notSuspended: [], notified: [] };
 }
 
 /** The checklist items answered "fail", with their labels and notes, in checklist order. */
@@ -329,30 +344,95 @@ export interface Consequences {
  * What follows a recorded inspection. "Not safe": every live permit on the excavation is suspended
  * through the permits' own transition (same e-mails as a coordinator's suspension, the inspection
  * as the reason), and the site's supervisors and coordinators are e-mailed. A safe inspection
- * changes no permit: resuming stays the coordinator's decision. Once the inspection is stored this
- * never throws: a permit that could not be suspended is listed in `notSuspended` (and in the
- * e-mail) so that people act by hand.
+ * changes no permit: resuming stays the coordinator's decision. It runs in the caller's transaction
+ * (the one that stores the inspection), each suspension in a savepoint: a permit that could not be
+ * suspended is listed in `notSuspended` (and in the e-mail) so that people act by hand.
  */
 export async function applyConsequences(deps: Deps, inspection: Inspection): Promise<Consequences> {
-  const out: Consequences = { suspended: [], notSuspended: [], notified: [] };
-  if (inspection.outcome !== 'not-safe') return out;
-  const exc = await loadExcavation(deps.db, inspection.excavationId);
-  const reason = `Inspection ${inspection.id} of ${exc.reference} ${exc.name} found it not safe: ${inspection.remarks}`;
-  const result = await suspendLivePermits(deps, exc, inspection.id, reason);
-  out.suspended = result.suspended;
-  out.notSuspended = result.notSuspended;
-  if (out.suspended.length) {
-    await deps.db
-      .insertInto('inspection_suspensions')
-      .values(out.suspended.map((p) => ({ inspection_id: inspection.id, permit_id: p.id })))
-      .onConflict((oc) => oc.doNothing())
+  if (inspection.outcome !== 'not-safe') return { suspended: [], notSuspended: [], notified: [] };
+  return inTransaction(deps.db, async (trx) => {
+    const inTrx = { ...deps, db: trx };
+    const out: Consequences = { suspended: [], notSuspended: [], notified: [] };
+    const exc = await loadExcavation(trx, inspection.excavationId);
+    const reason = `Inspection ${inspection.id} of ${exc.reference} ${exc.name} found it not safe: ${inspection.remarks}`;
+    const result = await suspendLivePermits(inTrx, exc, inspection.id, reason);
+    out.suspended = result.suspended;
+    out.notSuspended = result.notSuspended;
+    if (out.suspended.length) {
+      await trx
+        .insertInto('inspection_suspensions')
+        .values(out.suspended.map((p) => ({ inspection_id: inspection.id, permit_id: p.id })))
+        .onConflict((oc) => oc.doNothing())
+        .execute();
+    }
+    out.notified = await mailFailedInspection(inTrx, exc, inspection, out);
+    // Kept with the inspection, added to what an earlier pass (the reconciliation) recorded.
+    const before = await storedConsequences(trx, inspection.id);
+    const all: Consequences = {
+      suspended: [...before.suspended, ...out.suspended],
+      notSuspended: out.notSuspended,
+      notified: [...new Set([...before.notified, ...out.notified])],
+    };
+    await trx
+      .insertInto('inspection_consequences')
+      .values({ inspection_id: inspection.id, consequences: JSON.stringify(all) })
+      .onConflict((oc) => oc.column('inspection_id').doUpdateSet({ consequences: JSON.stringify(all), updated_at: deps.now() }))
       .execute();
-  }
-  try {
-    out.notified = await mailFailedInspection(deps, exc, inspection, out);
-  } catch (err) {
-    // The inspection and the suspensions stand; the answer says nobody was e-mailed.
-    console.error(`[inspections] e-mail about inspection ${inspection.id} could not be queued:`, (err as Error).message);
+    return all;
+  });
+}
+
+export interface Reconciled {
+  inspectionId: number;
+  excavation: string;
+  suspended: string[];
+  notSuspended: string[];
+}
+
+/**
+ * Self-healing: finds every excavation whose latest inspection found it not safe and that still has
+ * live permits (a suspension lost to a crash before consequences shared the inspection's
+ * transaction, or a permit that went live at the same moment), and applies that inspection's
+ * consequences again: the permits are suspended with the usual notices. Run by a pg-boss schedule
+ * (server/src/jobs/inspections.ts); returns what it found, which the job logs.
+ */
+export async function reconcileUnsafe(deps: Deps, opts: { siteIds?: number[] } = {}): Promise<Reconciled[]> {
+  const now = deps.now();
+  let latest = deps.db
+    .selectFrom('inspections as i')
+    .distinctOn('i.excavation_id')
+    .select(['i.id', 'i.excavation_id', 'i.outcome'])
+    .where('i.inspected_at', '<=', now)
+    .orderBy('i.excavation_id')
+    .orderBy('i.inspected_at', 'desc')
+    .orderBy('i.id', 'desc');
+  if (opts.siteIds) latest = latest.where('i.site_id', 'in', opts.siteIds.length ? opts.siteIds : [0]);
+  const stale = await deps.db
+    .selectFrom(latest.as('l'))
+    .innerJoin('excavations as e', 'e.id', 'l.excavation_id')
+    .select(['l.id', 'e.reference'])
+    .where('l.outcome', '=', 'not-safe')
+    .where(({ exists }) =>
+      exists(
+        withCurrentRevision(deps.db)
+          .select('p.id')
+          .where('p.status', '=', 'live')
+          .where(sql<boolean>`p.site_id = e.site_id and e.id = any(r.excavation_ids)`),
+      ),
+    )
+    .orderBy('l.id')
+    .execute();
+  const out: Reconciled[] = [];
+  for (const row of stale) {
+    const c = await deps.db.transaction().execute(async (trx) => {
+      // One pass at a time per inspection, whichever server runs it.
+      await trx.selectFrom('inspections').select('id').where('id', '=', row.id).forUpdate().execute();
+      const inspection = (await loadInspections(trx, { ids: [row.id] }))[0];
+      const before = (await storedConsequences(trx, row.id)).suspended.length;
+      const all = await applyConsequences({ ...deps, db: trx }, inspection);
+      return { ...all, suspended: all.suspended.slice(before) };
+    });
+    out.push({ inspectionId: row.id, excavation: row.reference, suspended: c.suspended.map((p) => p.reference), notSuspended: c.notSuspended.map((p) => p.reference) });
   }
   return out;
 }
@@ -361,7 +441,7 @@ async function mailFailedInspection(deps: Deps, exc: ExcavationRow, inspection: 
   const clock = await siteClock(deps.db, exc.site_id, new Date(inspection.inspectedAt));
   const to = (await siteLeads(deps.db, exc.site_id)).map((p) => p.email);
   const failed = failedItems(inspection.checklist);
-  await deps.mailer.send({
+  await deps.mailer.send(deps.db, {
     to,
     ...notice({
       subject: `Not safe: ${exc.reference} ${exc.name} failed its inspection`,
@@ -409,7 +489,7 @@ async function suspendLivePermits(
   const out: Awaited<ReturnType<typeof suspendLivePermits>> = { suspended: [], notSuspended: [] };
   for (const p of live) {
     try {
-      await transition(deps, p.id, 'suspend', actor, { reason });
+      await withSavepoint(deps.db, () => transition(deps, p.id, 'suspend', actor, { reason }));
       out.suspended.push({ id: p.id, reference: p.number });
     } catch (err) {
       const now = await deps.db.selectFrom('permits').select('status').where('id', '=', p.id).executeTakeFirst();

@@ -31,6 +31,9 @@ export async function confirmBriefing(
   if (mine.briefed_at) return { briefedAt: new Date(mine.briefed_at).toISOString(), status: row.status };
   if (!['approved', 'live', 'suspended'].includes(row.status)) throw conflict(`Permit ${row.number} is not approved yet: the briefing comes after approval.`);
   await deps.db.transaction().execute(async (trx) => {
+    // One briefing at a time per permit, so the last operator's confirmation sees all the others'
+    // and the permit goes live in the same transaction.
+    await trx.selectFrom('permits').select('id').where('id', '=', row.id).forUpdate().execute();
     const set = await trx
       .updateTable('permit_operators')
       .set({ briefed_at: now })
@@ -45,8 +48,8 @@ export async function confirmBriefing(
       .values({ permit_id: row.id, revision: row.revision, at: now, actor_id: user.id, actor_name: user.name, action: 'briefed', from_status: null, to_status: null, comment: '', detail: JSON.stringify({}) })
       .execute();
     await audit(trx, { actorId: user.id, siteId: row.site_id, entity: 'permit', entityId: row.id, action: 'briefed', detail: { number: row.number, revision: row.revision } });
+    await advancePermit({ ...deps, db: trx }, row.id);
   });
-  await advancePermit(deps, row.id);
   const after = await deps.db.selectFrom('permits').select('status').where('id', '=', row.id).executeTakeFirstOrThrow();
   const b = await deps.db.selectFrom('permit_operators').select('briefed_at').where('revision_id', '=', row.revision_id).where('user_id', '=', user.id).executeTakeFirstOrThrow();
   return { briefedAt: new Date(b.briefed_at!).toISOString(), status: after.status };

@@ -17,6 +17,7 @@ import { checkStoredRevision } from './check';
 import { unsafeExcavations } from '../unsafe-excavations';
 import { notifyTransition } from './notify';
 import { advancePermit } from './schedule';
+import { inTransaction } from '../tx';
 
 export interface TransitionOptions {
   /** The version the actor was looking at; required for people, optional for Brink itself. */
@@ -50,7 +51,9 @@ type PermitRow = { id: number; site_id: number; number: string; status: PermitSt
  * Moves a permit along the status machine (shared/schemas/permits.ts `transitionRules`) in one
  * transaction: checks the actor's role (403), the version (409) and the current status (409),
  * the action's own rules (400 naming the field), records the decision, the timeline event and the
- * audit entry, then e-mails the people who must act next.
+ * audit entry, and queues the e-mails to the people who must act next, all in one transaction.
+ * Given `deps.db` that is already a transaction (`{ ...deps, db: trx }`), it runs inside it, so a
+ * consequence (a suspension after a failed inspection) commits with its cause.
  *
  * Brink itself acts through a system actor: the schedule (`start`, `lapse`) or a failed inspection
  * (`suspend` with a reason), e.g.
@@ -67,7 +70,7 @@ export async function transition(
   const now = deps.now();
   if (rule.reason && !opts.reason?.trim()) throw badRequest(`A reason is required to ${rule.label.toLowerCase()}.`, { reason: 'is required' });
 
-  const result = await deps.db.transaction().execute(async (trx) => {
+  return inTransaction(deps.db, async (trx) => {
     const p = (await trx
       .selectFrom('permits')
       .select(['id', 'site_id', 'number', 'status', 'version', 'revision', 'requested_by'])
@@ -248,29 +251,28 @@ export async function transition(
       detail: { number: p.number, from: p.status, to, revision: newRevision, by: actorName, ...(opts.reason ? { reason: opts.reason } : {}), ...(detail.decision ? { decision: detail.decision } : {}) },
     });
     const site = await trx.selectFrom('sites').select('name').where('id', '=', p.site_id).executeTakeFirstOrThrow();
-    return {
-      outcome: { permitId: p.id, from: p.status, to, version: updated.version, revision: newRevision, notified: [] as string[] },
-      facts: {
-        permitId: p.id,
-        number: p.number,
-        siteName: site.name,
-        description: rev.description,
-        status: to,
-        windowStart,
-        windowEnd,
-        actorName,
-        actorId: actor.kind === 'user' ? actor.id : null,
-        reason: opts.reason?.trim(),
-        standoff: action === 'approve' ? (opts.standoff ?? null) : null,
-        conditions: action === 'approve' ? opts.conditions : undefined,
-      },
-    };
+    const outcome: TransitionOutcome = { permitId: p.id, from: p.status, to, version: updated.version, revision: newRevision, notified: [] };
+    // The notices are queued in this transaction: they exist if and only if the transition does.
+    const inTrx = { ...deps, db: trx };
+    outcome.notified = await notifyTransition(inTrx, action, {
+      permitId: p.id,
+      number: p.number,
+      siteName: site.name,
+      description: rev.description,
+      status: to,
+      windowStart,
+      windowEnd,
+      actorName,
+      actorId: actor.kind === 'user' ? actor.id : null,
+      reason: opts.reason?.trim(),
+      standoff: action === 'approve' ? (opts.standoff ?? null) : null,
+      conditions: action === 'approve' ? opts.conditions : undefined,
+    });
+    // Approved inside an open window with every operator briefed (or none named): live at once,
+    // in the same transaction.
+    if (action === 'approve') await advancePermit(inTrx, permitId);
+    return outcome;
   });
-
-  result.outcome.notified = await notifyTransition(deps, action, result.facts);
-  // Approved inside an open window with every operator briefed (or none named): live at once.
-  if (action === 'approve') await advancePermit(deps, permitId);
-  return result.outcome;
 }
 
 function decisionOf(

@@ -103,8 +103,9 @@ function when(d: Date): string {
 }
 
 /**
- * Sends the e-mails of one transition: one message per audience, each with the link that audience
- * uses (operators get the field view, everybody else the permit page). Returns the addresses.
+ * Queues the e-mails of one transition through `deps.db` (the transition's own transaction): one
+ * message per address, each with the link its audience uses (operators get the field view,
+ * everybody else the permit page). Returns the addresses.
  */
 export async function notifyTransition(deps: Pick<Deps, 'db' | 'config' | 'mailer'>, action: PermitAction | 'reminder', f: NoticeFacts): Promise<string[]> {
   const sent: string[] = [];
@@ -126,7 +127,7 @@ export async function notifyTransition(deps: Pick<Deps, 'db' | 'config' | 'maile
     const url = audience === 'operators' ? `${base}/field/permits/${f.permitId}` : `${base}/permits/${f.permitId}`;
     const message = notice({ subject: `Permit ${f.number} at ${f.siteName} ${headline[action]}`, lines, link: { label: `Open permit ${f.number}`, url } });
     // One message each: people do not see each other's addresses.
-    for (const address of to) await deps.mailer.send({ to: address, ...message });
+    for (const address of to) await deps.mailer.send(deps.db, { to: address, ...message });
     sent.push(...to);
   }
   return sent;

@@ -86,26 +86,31 @@ export async function runPermitSchedule(deps: Deps, scope: { permitIds?: number[
     .$if(!!only, (q) => q.where('p.id', 'in', only!))
     .execute();
   for (const p of soon) {
-    // Claim the reminder first, so two workers never both send it.
-    const claimed = await deps.db
-      .updateTable('permits')
-      .set({ reminder_sent_at: now })
-      .where('id', '=', p.id)
-      .where('reminder_sent_at', 'is', null)
-      .returning('id')
-      .executeTakeFirst();
-    if (!claimed) continue;
-    await notifyTransition(deps, 'reminder', {
-      permitId: p.id,
-      number: p.number,
-      siteName: p.site_name,
-      description: p.description,
-      status: p.status,
-      windowStart: new Date(p.window_start),
-      windowEnd: new Date(p.window_end),
-      actorName: scheduleActor.name,
-      actorId: null,
+    // Claim the reminder and queue it in one transaction, so two workers never both send it and a
+    // crash never claims it without sending.
+    const claimed = await deps.db.transaction().execute(async (trx) => {
+      const row = await trx
+        .updateTable('permits')
+        .set({ reminder_sent_at: now })
+        .where('id', '=', p.id)
+        .where('reminder_sent_at', 'is', null)
+        .returning('id')
+        .executeTakeFirst();
+      if (!row) return false;
+      await notifyTransition({ ...deps, db: trx }, 'reminder', {
+        permitId: p.id,
+        number: p.number,
+        siteName: p.site_name,
+        description: p.description,
+        status: p.status,
+        windowStart: new Date(p.window_start),
+        windowEnd: new Date(p.window_end),
+        actorName: scheduleActor.name,
+        actorId: null,
+      });
+      return true;
     });
+    if (!claimed) continue;
     out.reminded.push(p.id);
   }
   return out;
