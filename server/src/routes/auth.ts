@@ -145,7 +145,7 @@ export function registerAuthRoutes(api: Api): void {
                 `Hello ${u.name},`,
                 `Someone asked to reset the password of your Brink account. The link works once, for ${RESET_HOURS} hour. If it was not you, ignore this message; your password stays as it is.`,
               ],
-                link: { label: 'Choose a new password', url: `${config.publicUrl}/reset-password?token=${token}` },
+              link: { label: 'Choose a new password', url: `${config.publicUrl}/reset-password?token=${token}` },
             }),
           });
           await audit(trx, { actorId: u.id, entity: 'user', entityId: u.id, action: 'password-reset-requested' });
