@@ -160,6 +160,8 @@ export class Api {
     const guard: RequestHandler = async (req, _res, next) => {
       const typeProblem = bodyTypeProblem(req, Boolean(spec.files));
       if (typeProblem) throw crossSite(typeProblem);
+      // The path's ids are checked before the site is looked up through them (an id of 2³¹ is 400, not 500).
+      if (spec.params) parseOr400(spec.params, req.params, 'path');
       (req as AuthedRequest).siteAccess = await authorise(spec.access, req, deps);
       next();
     };

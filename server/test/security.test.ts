@@ -197,3 +197,19 @@ describe('accounts: deactivation, resets and locks', () => {
     expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: DEMO_PASSWORD })).status).toBe(200);
   });
 });
+
+describe('odd input', () => {
+  it('answers 400 naming the path parameter for ids of 2³¹ and above, on every route with an id', async () => {
+    const doc = (await request(t.app).get('/api/openapi.json')).body as { paths: Record<string, Record<string, unknown>> };
+    const wrong: string[] = [];
+    for (const [p, ops] of Object.entries(doc.paths)) {
+      if (!/\{(id|siteId|revision|attachmentId)\}/.test(p)) continue;
+      for (const m of Object.keys(ops)) {
+        const url = p.replace(/\{(id|siteId|revision|attachmentId)\}/g, '2147483648').replace(/\{[A-Za-z]+\}/g, '1');
+        const r = await admin[m as 'get'](url).send(m === 'get' ? undefined : {});
+        if (r.status !== 400) wrong.push(`${m} ${url} → ${r.status}`);
+      }
+    }
+    expect(wrong).toEqual([]);
+  });
+});

@@ -11,7 +11,8 @@ export const roleLabels: Record<SiteRole, string> = {
   operator: 'Plant operator',
 };
 
-export const idSchema = z.coerce.number().int().positive();
+/** A record id: a positive whole number that fits PostgreSQL's integer (ids of 2³¹ and above are refused with 400, not 500). */
+export const idSchema = z.coerce.number({ error: 'must be a record id (a whole number)' }).int('must be a record id (a whole number)').positive('must be a record id (a whole number)').max(2147483647, 'must be a record id (a whole number below 2³¹)');
 export const emailSchema = z.email('must be an e-mail address').max(254).transform((s) => s.trim().toLowerCase());
 export const passwordSchema = z
   .string()
