@@ -5,6 +5,8 @@ import { runPermitSchedule } from '../src/jobs/permits';
 import { inspectionActor } from '../src/services/permits/actors';
 import { transition } from '../src/services/permits/machine';
 import { permitPdf } from '../src/services/permits/pdf';
+import { localProjection } from '@shared/geometry';
+import type { PlacedLoad } from '@shared/schemas/permits';
 import { demo, DEMO_PASSWORD, startTestApp, waitForMail, type TestApp } from './helpers';
 import { act, createPermit, excavatorAt, hoursFrom, makeWorld, newTrench, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
 
@@ -247,6 +249,27 @@ describe('the printed permit', () => {
     expect(text).toMatch(/Scale 1:\d+/);
     expect(text).toContain('pressure (kPa)');
     expect(text).toContain('depth (m)');
+  });
+
+  it('sets apart the warnings a signatory must not miss: the 5 kPa/m minimum and a failing band beyond a passing offset (docs/calculation.md, example 4)', async () => {
+    // A 3 m trench in sand with c′ 5 kPa (the minimum governs: example 3's reasoning) and an elastic
+    // line load of 15.2 kN/m 1 m from the edge: it passes there, fails at 1.21–1.23 m, standoff 1.24 m.
+    await newTrench(w);
+    await t.deps.db
+      .updateTable('excavations')
+      .set({ depth: 3, soil: JSON.stringify([{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 5 }]) })
+      .where('id', '=', w.trenchId)
+      .execute();
+    const proj = localProjection(w.origin);
+    const [cx, cy] = w.trenchCentre;
+    const y = cy + 0.5 + 1.0;
+    const wall: PlacedLoad = { id: 'wall', kind: 'line', label: 'Hoarding footing', path: { type: 'LineString', coordinates: [proj.toWgs84([cx - 10, y]), proj.toWgs84([cx + 10, y])] }, force: 15.2 };
+    const p = await createPermit(w, { loads: [wall], method: 'elastic' });
+    const text = pdfText((await permitPdf(t.deps, p.id, { compress: false })).buffer);
+    expect(text).toContain('Read before signing');
+    expect(text).toContain('the minimum equivalent fluid pressure governs');
+    expect(text).toContain('moving it farther away is not always safer');
+    expect(text).toMatch(/Hoarding footing fails at [^;]*1\.23 m from the edge \(passing in between\); its standoff is 1\.24 m/);
   });
 
   it('reads the same uncompressed', async () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { runCheck, type CheckRequest } from '../engineering';
 import { localProjection } from '../geometry';
-import { cumulativeCheck, elementCorners, groupStandoff, windowsOverlap } from './check';
+import { CheckInputError, cumulativeCheck, elementCorners, groupStandoff, windowsOverlap } from './check';
 
 const base: Omit<CheckRequest, 'loads'> = {
   excavation: { depth: 3, groundwaterDepth: null, designSurcharge: 10, ratedPressure: null, pressureState: 'active', wallFriction: 0, restraint: 'unyielding' },
@@ -119,6 +119,23 @@ describe('an open excavation the permit does not name', () => {
     expect(check.warnings.some((w) => w.startsWith('PIT-B is not named on this permit') && w.includes('Gravel heap'))).toBe(true);
     // 1 m from PIT-B the heap adds pressure there: that check is not empty.
     expect(check.excavations[1].result.utilisation).toBeGreaterThan(0);
+  });
+
+  it('refuses figures the shared schemas refuse, naming the field, instead of giving a verdict (docs/calculation.md, "Refusals")', () => {
+    const withHeap = (heap: Record<string, unknown>) => ({ ...input(22), permit: { ...input(22).permit, loads: [{ ...stockpileAt(22), ...heap }] } });
+    const refusal = (f: () => unknown) => {
+      try {
+        f();
+      } catch (e) {
+        return e instanceof CheckInputError ? `${e.field} ${e.reason}` : `other: ${(e as Error).message}`;
+      }
+      return 'no refusal';
+    };
+    expect(refusal(() => cumulativeCheck(withHeap({ unitWeight: -19 })))).toBe('loads[0].unitWeight must be more than 0 kN/m³');
+    expect(refusal(() => cumulativeCheck(withHeap({ height: NaN })))).toMatch(/^loads\[0\]\.height /);
+    // An excavation whose figures the calculation refuses: at rest with an undrained layer.
+    const atRest = { ...named, excavation: { ...named.excavation, pressureState: 'at-rest' as const }, soil: [{ top: 0, unitWeight: 18, undrainedShearStrength: 40 }] };
+    expect(refusal(() => cumulativeCheck({ ...input(22), excavations: [atRest] }))).toMatch(/^PIT-A soil\[0\]\.undrainedShearStrength .*at rest needs φ′/);
   });
 
   it('is left out when every load stands beyond its influence zone', () => {

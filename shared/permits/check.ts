@@ -5,8 +5,13 @@
  * engine (shared/engineering `runCheck`) checks, per excavation, this permit's loads together with
  * those of every other approved, live or suspended permit on that excavation whose window overlaps.
  *
+ * Every input is checked first with the shared schemas (the permit's placed loads as the API does,
+ * each engine request as `npm run calc` does): bad figures throw CheckInputError naming the field.
+ *
  * Units: m, kN, kPa, kN/m; positions WGS84 [longitude, latitude]; rotations degrees clockwise from north.
  */
+import { z } from 'zod';
+import { calcRequestSchema, formatPath } from '../schemas/calc';
 import {
   CAUTION,
   notMonotonicWarning,
@@ -36,6 +41,7 @@ import { elementLoad, stockpilePressure, type PlantElement } from '../schemas/pl
 import { calcExcavationOf, type Excavation as RegisterExcavation } from '../schemas/excavations';
 import type { LineString, Polygon } from 'geojson';
 import {
+  placedLoadSchema,
   verdictOf,
   type CheckedLoad,
   type CountedPermit,
@@ -117,6 +123,38 @@ export interface Refusal {
   excavationId: number;
   reference: string;
   message: string;
+}
+
+/**
+ * Figures the check cannot run on (a load's or an excavation's): refused with the same shared schemas
+ * as the API and `npm run calc`, naming the field (`loads[0].unitWeight`, or an excavation's reference
+ * and its field), never analysed into a verdict.
+ */
+export class CheckInputError extends Error {
+  constructor(
+    /** The field: `loads[i].<name>` for a load of the permit, `<reference> <path>` for an excavation. */
+    readonly field: string,
+    readonly reason: string,
+  ) {
+    super(`${field} ${reason}`);
+  }
+}
+
+/** Throws CheckInputError for the first wrong field of the permit's loads (placedLoadSchema, as the API). */
+function validateLoads(loads: unknown[]): void {
+  const r = z.array(placedLoadSchema).safeParse(loads);
+  if (!r.success) {
+    const issue = r.error.issues[0];
+    throw new CheckInputError(formatPath(['loads', ...issue.path]), issue.message);
+  }
+}
+
+/** The engine request checked with the calculation's own schema (calc.ts), defaults filled in. */
+function validRequest(request: CheckRequest, reference: string): CheckRequest {
+  const r = calcRequestSchema.safeParse(request);
+  if (r.success) return r.data;
+  const issue = r.error.issues[0];
+  throw new CheckInputError(`${reference} ${formatPath(issue.path)}`.trim(), issue.message);
 }
 
 export class PlacementError extends Error {
@@ -244,6 +282,7 @@ function reachesInfluenceZone(own: { feet: Footprint[] }[], ex: CheckExcavation,
 
 /** Runs the cumulative check. Throws PlacementError naming every load that touches an excavation. */
 export function cumulativeCheck(input: CheckInput): PermitCheck {
+  validateLoads(input.permit.loads);
   const proj = localProjection(input.origin);
   const own = input.permit.loads.map((l, index) => ({ load: l, index, feet: footprintsOf(l, input.plant, proj) }));
   const refusals: Refusal[] = [];
@@ -306,14 +345,10 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
       }
     }
     if (refusals.length) continue;
-    const request: CheckRequest = {
-      excavation: ex.excavation,
-      soil: ex.soil,
-      method: input.method,
-      minimumClearance: input.minimumClearance,
-      step: 0.05,
-      loads,
-    };
+    const request = validRequest(
+      { excavation: ex.excavation, soil: ex.soil, method: input.method, minimumClearance: input.minimumClearance, step: 0.05, loads },
+      ex.reference,
+    );
     const result = runCheck(request);
     const checked: CheckedLoad[] = meta.map((m, i) => ({ ...m, force: result.loads[i].force, standoff: result.loads[i].standoff }));
     // A load of one footprint has the engine's standoff; a machine's elements move together.

@@ -1,6 +1,6 @@
 import { sql } from 'kysely';
 import type { Db } from '@db/database';
-import { checkExcavationOf, cumulativeCheck, PlacementError, type CheckExcavation, type OtherPermit, type PlantForCheck } from '@shared/permits/check';
+import { CheckInputError, checkExcavationOf, cumulativeCheck, PlacementError, type CheckExcavation, type OtherPermit, type PlantForCheck } from '@shared/permits/check';
 import { countedStatuses, type CheckProposal, type PermitCheck, type PermitStatus, type PlacedLoad } from '@shared/schemas/permits';
 import { badRequest, HttpError, notFound } from '../../http';
 import { loadExcavations } from '../excavations';
@@ -66,7 +66,8 @@ export interface CheckSubject {
 
 /**
  * The authoritative cumulative check of a permit's content (shared/permits/check.ts) against the
- * database as it is now. A load touching an excavation answers 400 naming `loads[i]`.
+ * database as it is now. A load touching an excavation answers 400 naming `loads[i]`; figures the
+ * calculation refuses (docs/calculation.md, "Refusals") answer 400 naming the field.
  */
 export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promise<PermitCheck> {
   const site = await db.selectFrom('sites').select(['latitude', 'longitude', 'minimum_clearance']).where('id', '=', s.siteId).executeTakeFirstOrThrow();
@@ -95,6 +96,11 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
       const fields: Record<string, string> = {};
       for (const r of err.refusals) fields[`loads[${r.index}]`] ??= r.message;
       throw badRequest(`Some loads cannot be checked where they are: ${err.refusals.map((r) => r.message).join('; ')}.`, fields);
+    }
+    if (err instanceof CheckInputError) {
+      // A load's own field, or an excavation's figures (named by its reference) that the check refuses.
+      const key = err.field.startsWith('loads[') ? err.field : 'excavationIds';
+      throw badRequest(`Cannot check: ${err.field} ${err.reason}.`, { [key]: key === 'excavationIds' ? `${err.field} ${err.reason}` : err.reason });
     }
     throw err;
   }

@@ -11,7 +11,7 @@ import {
   type ExcavationCheck,
   type PermitDetail,
 } from '@shared/schemas/permits';
-import type { ProfilePoint } from '@shared/engineering';
+import { attentionWarnings, bandsWords, failsBeyondPassing, type ProfilePoint } from '@shared/engineering';
 import type { Deps } from '../../deps';
 import { notFound } from '../../http';
 import { CAUTION } from './caution';
@@ -212,6 +212,19 @@ function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck): void {
   field(doc, 'Forces', `soil ${r.forces.soil.toFixed(1)} kN/m, water ${r.forces.water.toFixed(1)} kN/m, surcharge ${r.forces.surcharge.toFixed(1)} kN/m, allowance ${r.forces.allowance.toFixed(1)} kN/m`);
   field(doc, 'Moments about formation', `surcharge ${r.moments.surcharge.toFixed(1)} kN.m/m, allowance ${r.moments.allowance.toFixed(1)} kN.m/m`);
   field(doc, 'Utilisation', `${r.utilisation == null ? 'no allowance' : r.utilisation.toFixed(2)} (${r.governing ?? '-'} governs) - ${r.passes ? 'passes' : 'FAILS'}`);
+  const attention = attentionWarnings(r.warnings);
+  if (attention.length) {
+    doc.moveDown(0.2).font('Helvetica-Bold').fontSize(10).fillColor(ZONE).text('Read before signing');
+    doc.font('Helvetica').fontSize(9).fillColor(INK);
+    for (const w of attention) doc.text(t(`- ${w}`), { indent: 10 });
+    for (const l of ex.loadStandoffs) {
+      const bands = l.failingBands ?? [];
+      if (failsBeyondPassing(bands, req.minimumClearance)) {
+        doc.text(t(`- ${l.label} fails at ${bandsWords(bands)} from the edge (passing in between); its standoff is ${m2(l.standoff)}.`), { indent: 10 });
+      }
+    }
+    doc.fontSize(10).moveDown(0.2);
+  }
   doc.font('Helvetica').fontSize(8).fillColor(MUTED).text(t(verdictRule));
   doc.fillColor(INK).fontSize(10).moveDown(0.3);
   doc.font('Helvetica-Bold').text('Loads');
@@ -226,7 +239,8 @@ function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck): void {
   }
   doc.fontSize(10);
   field(doc, 'Other permits counted', ex.counted.length ? ex.counted.map((c) => `${c.number} (${statusLabels[c.status]}, ${when(c.windowStart)} to ${when(c.windowEnd)})`).join('; ') : 'none');
-  if (r.warnings.length) field(doc, 'Warnings', r.warnings.join('; '));
+  const others = r.warnings.filter((w) => !attention.includes(w));
+  if (others.length) field(doc, 'Warnings', others.join('; '));
   doc.moveDown(0.5);
 }
 

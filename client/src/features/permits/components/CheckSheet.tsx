@@ -1,5 +1,5 @@
 import { Link } from 'react-router-dom';
-import type { CheckResult, CheckRequest } from '@shared/engineering';
+import { attentionWarnings, bandsWords, failsBeyondPassing, type CheckResult, type CheckRequest } from '@shared/engineering';
 import { statusLabels, type ExcavationCheck, type PermitCheck } from '@shared/schemas/permits';
 import { Caution } from '@client/components/Caution';
 import { PressureDiagram } from './PressureDiagram';
@@ -13,6 +13,8 @@ export function ExcavationSheet({ ex, full = true }: { ex: ExcavationCheck; full
   const r = ex.result as unknown as CheckResult;
   const req = ex.request as CheckRequest;
   const e = req.excavation;
+  const attention = attentionWarnings(r.warnings);
+  const others = r.warnings.filter((w) => !attention.includes(w));
   return (
     <section className="flex flex-col gap-3 rounded-md border border-rule p-4" aria-label={`Check beside ${ex.reference}`}>
       <h3 className="text-lg font-semibold">
@@ -20,18 +22,35 @@ export function ExcavationSheet({ ex, full = true }: { ex: ExcavationCheck; full
         {ex.named === false ? <span className="ml-2 text-base font-normal">(not named on the permit; a load stands within its influence zone)</span> : null}
       </h3>
       <VerdictBadge verdict={ex.verdict} utilisation={r.utilisation} />
+      {attention.length ? (
+        <div role="note" className="rounded-md border-2 border-[#b45309] p-3" data-testid={`attention-${ex.excavationId}`}>
+          <h4 className="font-semibold">Read before signing</h4>
+          <ul className="list-disc pl-5 text-sm">{attention.map((w) => <li key={w}>{w}</li>)}</ul>
+        </div>
+      ) : null}
       <p>
         Standoff for this permit's loads: <strong data-testid={`standoff-${ex.excavationId}`}>{m(ex.standoff)}</strong>
       </p>
       <table className="text-sm">
         <caption className="text-left font-semibold">Each load</caption>
         <thead>
-          <tr className="text-left"><th>Load</th><th>Clear distance now</th><th>Standoff</th></tr>
+          <tr className="text-left"><th>Load</th><th>Clear distance now</th><th>Standoff</th><th>Fails at</th></tr>
         </thead>
         <tbody>
-          {ex.loadStandoffs.map((l) => (
-            <tr key={l.loadId}><td>{l.label}</td><td>{l.offset.toFixed(2)} m</td><td>{m(l.standoff)}</td></tr>
-          ))}
+          {ex.loadStandoffs.map((l) => {
+            const bands = l.failingBands ?? [];
+            return (
+              <tr key={l.loadId}>
+                <td>{l.label}</td>
+                <td>{l.offset.toFixed(2)} m</td>
+                <td>{m(l.standoff)}</td>
+                <td>
+                  {bands.length ? bandsWords(bands) : 'nowhere from the minimum clearance to 3H'}
+                  {failsBeyondPassing(bands, req.minimumClearance) ? ' (passes in between: farther is not always safer)' : ''}
+                </td>
+              </tr>
+            );
+          })}
         </tbody>
       </table>
       {ex.counted.length ? (
@@ -96,10 +115,10 @@ export function ExcavationSheet({ ex, full = true }: { ex: ExcavationCheck; full
           </table>
         </>
       ) : null}
-      {r.warnings.length ? (
+      {others.length ? (
         <div>
           <h4 className="font-semibold">Warnings</h4>
-          <ul className="list-disc pl-5 text-sm">{r.warnings.map((w) => <li key={w}>{w}</li>)}</ul>
+          <ul className="list-disc pl-5 text-sm">{others.map((w) => <li key={w}>{w}</li>)}</ul>
         </div>
       ) : null}
     </section>

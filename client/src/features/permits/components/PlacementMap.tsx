@@ -7,6 +7,7 @@ import { exclusionZone, prepareExcavation, type LocalProjection, type XY } from 
 import { checkExcavationOf, footprintsOf, type PlantForCheck } from '@shared/permits/check';
 import type { Excavation } from '@shared/schemas/excavations';
 import type { PermitCheck, PlacedLoad, Verdict } from '@shared/schemas/permits';
+import { bandsWords, failsBeyondPassing, type CheckRequest } from '@shared/engineering';
 import { verdictColours } from './Verdict';
 import { bearingOf, centreOf, handleAt } from './placement';
 
@@ -54,7 +55,10 @@ function FitOnce({ bounds }: { bounds: L.LatLngBounds | null }) {
  * standoff (ISO 3864 red), each load's bearing footprints in the verdict colour, a handle to drag
  * each load and, for machines, a handle to turn them. Scale bar in metres; north is up.
  */
-export function PlacementMap({ proj, excavations, loads, plant, verdict, standoff, editable, onMove, onRotate }: PlacementMapProps) {
+/** Orange: where a load fails beyond an offset where it passes (not red, which is the exclusion zone). */
+const BAND_COLOUR = '#b45309';
+
+export function PlacementMap({ proj, excavations, loads, plant, check, verdict, standoff, editable, onMove, onRotate }: PlacementMapProps) {
   const prepared = useMemo(
     () =>
       excavations.flatMap((e) => {
@@ -67,6 +71,27 @@ export function PlacementMap({ proj, excavations, loads, plant, verdict, standof
     [excavations, proj],
   );
   const zones = useMemo(() => (standoff && standoff > 0 ? prepared.map((p) => toLeaflet(exclusionZone(p.outline, standoff, proj))) : []), [prepared, standoff, proj]);
+  // The failing bands of each load that fails farther out than where it passes: the ground between
+  // the band's near and far offsets from the excavation outline (docs/calculation.md, "Standoff").
+  const bands = useMemo(() => {
+    const out: { key: string; positions: [number, number][][]; label: string }[] = [];
+    for (const ex of check?.excavations ?? []) {
+      const p = prepared.find((x) => x.e.id === ex.excavationId);
+      if (!p) continue;
+      const minimumClearance = (ex.request as CheckRequest).minimumClearance;
+      for (const l of ex.loadStandoffs) {
+        const fb = l.failingBands ?? [];
+        if (!failsBeyondPassing(fb, minimumClearance)) continue;
+        fb.forEach((b, i) => {
+          // A band found only beside a break point is drawn 1 cm wide so it can be seen.
+          const outer = toLeaflet(exclusionZone(p.outline, Math.max(b.to, b.from + 0.01), proj))[0];
+          const inner = b.from > 0 ? toLeaflet(exclusionZone(p.outline, b.from, proj))[0][0] : null;
+          out.push({ key: `${ex.excavationId}-${l.loadId}-${i}`, positions: inner ? [...outer, inner] : outer, label: `${l.label} fails ${bandsWords([b])} from ${ex.reference}` });
+        });
+      }
+    }
+    return out;
+  }, [check, prepared, proj]);
   const bounds = useMemo(() => {
     const pts = excavations.flatMap((e) => (e.outline ? e.outline.coordinates[0].map(([lng, lat]) => [lat, lng] as [number, number]) : []));
     return pts.length ? L.latLngBounds(pts) : null;
@@ -85,6 +110,11 @@ export function PlacementMap({ proj, excavations, loads, plant, verdict, standof
         )}
         {zones.map((z, i) => (
           <Polygon key={`ez${i}`} positions={z} pathOptions={{ color: verdictColours.fails, weight: 2, fillColor: verdictColours.fails, fillOpacity: 0.12 }} interactive={false} />
+        ))}
+        {bands.map((b) => (
+          <Polygon key={`fb${b.key}`} positions={b.positions} pathOptions={{ color: BAND_COLOUR, weight: 1, dashArray: '2 3', fillColor: BAND_COLOUR, fillOpacity: 0.35 }}>
+            <Tooltip>{b.label}</Tooltip>
+          </Polygon>
         ))}
         {excavations.map((e) =>
           e.outline ? (
@@ -153,7 +183,8 @@ export function PlacementMap({ proj, excavations, loads, plant, verdict, standof
       </BaseMap>
       <p className="px-3 py-2 text-sm text-ink-soft">
         North is up. Grey: excavations; dashed: influence zones (within the depth of the edge); red band: exclusion zone
-        {standoff ? ` (${standoff.toFixed(2)} m from the edge)` : ''}. Loads are coloured by the verdict (slate until checked). Drag “Move” to place a load, “Turn” to turn a machine.
+        {standoff ? ` (${standoff.toFixed(2)} m from the edge)` : ''}.
+        {bands.length ? ' Orange bands: offsets where a load fails although it passes nearer the edge — moving a load farther away is not always safer.' : ''} Loads are coloured by the verdict (slate until checked). Drag “Move” to place a load, “Turn” to turn a machine.
       </p>
     </div>
   );

@@ -1,9 +1,9 @@
-import { permitErrorSummary } from '../components/fieldNames';
+import { permitErrorSummary, permitFieldLabel } from '../components/fieldNames';
 import { useEffect, useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useQuery } from '@tanstack/react-query';
 import { localProjection, type XY } from '@shared/geometry';
-import { checkExcavationOf, cumulativeCheck, PlacementError, type PlantForCheck } from '@shared/permits/check';
+import { CheckInputError, checkExcavationOf, cumulativeCheck, PlacementError, type PlantForCheck } from '@shared/permits/check';
 import {
   placedLoadLabels,
   serviceCheckKeys,
@@ -103,9 +103,10 @@ function Editor({ permit }: { permit: PermitDetail }) {
     return () => clearTimeout(t);
   }, [permit.id, draft.windowStart, draft.windowEnd, draft.excavationIds]);
 
-  // The live check, in the browser with the shared engine, on every move.
-  const live = useMemo((): { check: PermitCheck | null; refused: string | null } => {
-    if (!site.data || !proj || draft.loads.length === 0 || named.length === 0 || !plantQ.data) return { check: null, refused: null };
+  // The live check, in the browser with the shared engine and the shared schemas, on every move.
+  // Figures the schemas refuse give "Cannot check", never a verdict.
+  const live = useMemo((): { check: PermitCheck | null; refused: string | null; invalid: string | null } => {
+    if (!site.data || !proj || draft.loads.length === 0 || named.length === 0 || !plantQ.data) return { check: null, refused: null, invalid: null };
     try {
       return {
         check: cumulativeCheck({
@@ -120,10 +121,12 @@ function Editor({ permit }: { permit: PermitDetail }) {
           now: new Date(),
         }),
         refused: null,
+        invalid: null,
       };
     } catch (e) {
-      if (e instanceof PlacementError) return { check: null, refused: e.message };
-      return { check: null, refused: 'A load could not be placed: check its figures.' };
+      if (e instanceof CheckInputError) return { check: null, refused: null, invalid: `Cannot check: ${permitFieldLabel(e.field)} ${e.reason}` };
+      if (e instanceof PlacementError) return { check: null, refused: e.message, invalid: null };
+      return { check: null, refused: 'A load could not be placed: check its figures.', invalid: null };
     }
   }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit.id, permit.number, server]);
 
@@ -232,7 +235,11 @@ function Editor({ permit }: { permit: PermitDetail }) {
         </div>
         <div className="flex flex-col gap-4">
           <Panel title="Live check" level={2}>
-            {live.refused ? (
+            {live.invalid ? (
+              <p role="status" className="font-semibold text-ink-soft" data-verdict="none" data-testid="cannot-check">
+                {live.invalid}
+              </p>
+            ) : live.refused ? (
               <p role="alert" className="font-semibold" style={{ color: '#8b1d1d' }} data-verdict="fails">
                 {live.refused}
               </p>
@@ -305,7 +312,7 @@ function LoadRow({ load, index, proj, plantName, fields, onChange, onRemove }: {
           <>
             <SelectField label="Material" value="" emptyLabel="Typical unit weights…" onChange={(e) => e.target.value && onChange({ ...load, unitWeight: Number(e.target.value) })} options={stockpileMaterials.map((m) => ({ value: m.unitWeight, label: `${m.name}: ${m.unitWeight} kN/m³` }))} />
             <TextField label="Unit weight (kN/m³)" type="number" step="0.5" value={load.unitWeight} onChange={(e) => onChange({ ...load, unitWeight: num(e.target.value) })} error={err('unitWeight')} />
-            <TextField label="Height (m)" type="number" step="0.1" value={load.height} onChange={(e) => onChange({ ...load, height: num(e.target.value) })} error={err('height')} hint={`Presses ${(load.unitWeight * load.height).toFixed(1)} kPa`} />
+            <TextField label="Height (m)" type="number" step="0.1" value={load.height} onChange={(e) => onChange({ ...load, height: num(e.target.value) })} error={err('height')} hint={Number.isFinite(load.unitWeight * load.height) ? `Presses ${(load.unitWeight * load.height).toFixed(1)} kPa` : 'Give the unit weight and the height'} />
           </>
         ) : null}
         {load.kind === 'area' || load.kind === 'strip' ? (
