@@ -72,8 +72,11 @@ test('the supervisor records a failed inspection on a phone and the permit on th
   const siteId = Number(page.url().match(/\/sites\/(\d+)/)![1]);
   const coordinator = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL!).origin } }); // the API takes changes only from Brink's origin
   await ok(await coordinator.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }), 'coordinator sign-in');
-  const { reference, permit } = await trenchWithLivePermit(page.request, coordinator, siteId);
+  // The supervisor's session from the page, saying Brink's origin as the page itself would.
+  const supervisor = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL!).origin }, storageState: await page.context().storageState() });
+  const { reference, permit } = await trenchWithLivePermit(supervisor, coordinator, siteId);
   await coordinator.dispose();
+  await supervisor.dispose();
 
   // The dashboard lists the new trench as due (or overdue) with a button to inspect it.
   await page.goto(`/sites/${siteId}`);
