@@ -2,15 +2,15 @@ import { describe, expect, it } from 'vitest';
 import { runCheck } from './index';
 import { SIX_PROFILE_TOP, SIX_RESULT, sixRequest, withExcavation, withLoads } from './test-fixtures';
 
-describe('the check (engineering.md §4)', () => {
-  it('the §6 request gives the §6 result (the hand check of §3.1; common practice, no published source)', () => {
+describe('the check (docs/calculation.md, "The check")', () => {
+  it('worked example 1 gives its result (docs/calculation.md; a hand check, common practice, no published source)', () => {
     const r = runCheck(sixRequest());
     expect(r).toMatchObject(SIX_RESULT);
     expect(r.profile[0]).toEqual(SIX_PROFILE_TOP);
     expect(r.caution).toMatch(/competent temporary works/);
   });
 
-  it('profile depths are exact multiples of the step, ending at H (engineering.md §4)', () => {
+  it('profile depths are exact multiples of the step, ending at H (docs/calculation.md, "The check")', () => {
     const r = runCheck(withExcavation(sixRequest({ step: 0.05 }), { depth: 2.97 }), { standoffs: false });
     const zs = r.profile.map((p) => p.z);
     expect(zs.slice(0, 4)).toEqual([0, 0.05, 0.1, 0.15]);
@@ -19,7 +19,7 @@ describe('the check (engineering.md §4)', () => {
     for (const z of zs) expect(String(z).length).toBeLessThanOrEqual(4);
   });
 
-  it('zero design allowance with a surcharge: utilisation null, fails, and says so (engineering.md §4)', () => {
+  it('zero design allowance with a surcharge: utilisation null, fails, and says so (docs/calculation.md, "The check")', () => {
     const r = runCheck(withExcavation(sixRequest(), { designSurcharge: 0 }));
     expect(r.utilisation).toBeNull();
     expect(r.passes).toBe(false);
@@ -57,14 +57,14 @@ describe('the check (engineering.md §4)', () => {
     expect(r.maxTotalPressure).toBeCloseTo(200 + 19 * 1.04 / 3, 3);
   });
 
-  it('Coulomb wall friction applies once: a blanket gives Ka·cos δ·q, not a further cos δ (engineering.md §1)', () => {
+  it('Coulomb wall friction applies once: a blanket gives Ka·cos δ·q, not a further cos δ (docs/calculation.md, "Soil and water")', () => {
     const req = withLoads(withExcavation(sixRequest(), { wallFriction: 20 }), [{ id: 't', kind: 'blanket', pressure: 10 }]);
     const r = runCheck(req);
     expect(r.coefficients[0].K).toBe(0.2794); // Das, from memory
     expect(r.forces.surcharge).toBeCloseTo(0.279384 * 10 * 3, 3); // K·q·H, K = 0.2794 as above
   });
 
-  it('elastic method: area loads analysed as strips say so, blankets still K·q (engineering.md §3.2)', () => {
+  it('elastic method: area loads analysed as strips say so, blankets still K·q (docs/calculation.md, "Elastic solutions")', () => {
     const req = withLoads(sixRequest({ method: 'elastic' }), [
       { id: 'mat', kind: 'area', pressure: 60, width: 1, length: 2, offset: 1 },
       { id: 't', kind: 'blanket', pressure: 10 },

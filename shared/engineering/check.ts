@@ -1,5 +1,5 @@
 /**
- * The check (engineering.md §4): profile of soil, water, surcharge and total pressure at a regular
+ * The check (docs/calculation.md, "The check"): profile of soil, water, surcharge and total pressure at a regular
  * step from 0 to H; forces and moments about formation of the surcharges (Fs, Ms) and of the design
  * allowance K(z)·qd (Fa, Ma); utilisation U = max(Fs/Fa, Ms/Ma), and with a rated pressure also
  * max over z of total(z)/ratedPressure. Loads combine by superposition (their forces and moments

@@ -26,7 +26,7 @@ describe('earth pressure coefficients', () => {
     expect(jakyK0(30)).toBeCloseTo(0.5, 12);
   });
 
-  it('wall friction enters once: active δ > 0 gives Ka·cos δ, at-rest ignores δ (engineering.md §1, common practice)', () => {
+  it('wall friction enters once: active δ > 0 gives Ka·cos δ, at-rest ignores δ (docs/calculation.md, "Soil and water"; common practice)', () => {
     expect(drainedK(30, 'active', 20)).toBeCloseTo(0.2794, 4);
     expect(drainedK(30, 'active', 0)).toBeCloseTo(0.3333, 4);
     expect(drainedK(30, 'at-rest', 20)).toBeCloseTo(0.5, 12);

@@ -9,7 +9,7 @@
  * - At rest: K0 = 1 − sin φ′ (Jaky 1944).
  *
  * The wall-friction benefit enters exactly once, here, through K; nothing downstream multiplies a
- * pressure by cos δ again (engineering.md §1).
+ * pressure by cos δ again (docs/calculation.md, "Soil and water").
  */
 import type { PressureState } from './types';
 

@@ -13,7 +13,7 @@ function single(load: Load, soil = sixRequest().soil) {
 }
 
 describe('dispersion-45 (common practice, no published source)', () => {
-  it('hand check of §3.1: q = 60, B = 1, d = 1, H = 3, φ′ = 30° → 20 kPa from 1 m to 2 m, 20 kN/m', () => {
+  it('hand check (docs/calculation.md, worked example 1): q = 60, B = 1, d = 1, H = 3, φ′ = 30° → 20 kPa from 1 m to 2 m, 20 kN/m', () => {
     const r = runCheck(sixRequest());
     expect(r.loads[0]).toMatchObject({ force: 20, top: 1, bottom: 2 });
     for (const p of r.profile) expect(p.surcharge).toBe(p.z >= 1 && p.z <= 2 ? 20 : 0);
@@ -27,7 +27,7 @@ describe('dispersion-45 (common practice, no published source)', () => {
     expect(single({ id: 'a', kind: 'strip', pressure: 60, width: 1, offset: 2.5 })).toMatchObject({ force: 10, moment: 2.5, top: 2.5, bottom: 3 });
   });
 
-  it('offset beyond H: no pressure, no band, and a warning (engineering.md §3.1)', () => {
+  it('offset beyond H: no pressure, no band, and a warning (docs/calculation.md, "Load spread at 45°")', () => {
     const r = runCheck(withLoads(sixRequest(), [{ id: 'far', kind: 'strip', pressure: 60, width: 1, offset: 3.5 }]));
     expect(r.loads[0]).toMatchObject({ force: 0, top: null, bottom: null });
     expect(r.warnings.some((w) => w.includes('far') && w.includes('beyond the reach'))).toBe(true);

@@ -1,5 +1,5 @@
 /**
- * `dispersion-45`: the load spreads downward at 45° (1 horizontal : 1 vertical); engineering.md §3.1.
+ * `dispersion-45`: the load spreads downward at 45° (1 horizontal : 1 vertical); docs/calculation.md, "Load spread at 45°".
  * Common practice, no published source.
  *
  * Units: offsets, widths and depths in m; pressures in kPa; forces in kN/m.

@@ -1,5 +1,5 @@
 /**
- * `elastic`: lateral pressure from surface loads by Boussinesq-based solutions; engineering.md §3.2.
+ * `elastic`: lateral pressure from surface loads by Boussinesq-based solutions; docs/calculation.md, "Elastic solutions".
  *
  * Units: q in kPa, Q in kN/m, P in kN; offsets and depths in m; pressures in kPa; forces in kN/m;
  * moments about formation in kN·m/m. r is the restraint factor: 2 for an unyielding support (the

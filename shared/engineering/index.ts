@@ -1,5 +1,5 @@
 /**
- * The calculation engine's entry point: `runCheck(request)` answers the engineering.md §6 contract
+ * The calculation engine's entry point: `runCheck(request)` answers the docs/calculation.md "Command line" contract
  * (profile, forces, moments, utilisation, each load's force, band and standoff, warnings).
  *
  * Units: m, kN, kPa, kN/m³, degrees; forces per metre run of support (kN/m), moments about formation

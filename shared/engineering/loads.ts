@@ -1,6 +1,6 @@
 /**
  * Turns each of the five load kinds into its effect on the support under the chosen method
- * (engineering.md §2, §3), and names every simplification applied as a warning.
+ * (docs/calculation.md, "Loads", "Load spread at 45°" and "Elastic solutions"), and names every simplification applied as a warning.
  *
  * Units: pressures in kPa, line forces in kN/m, point forces in kN, lengths in m.
  * Blanket loads give K(z)·q over 0..H in both methods. Sources: see dispersion.ts and elastic.ts.

@@ -1,6 +1,6 @@
 /**
  * Soil and groundwater: vertical stress, pore pressure and the lateral soil and water pressures on
- * the support (engineering.md §1).
+ * the support (docs/calculation.md, "Soil and water").
  *
  * Units: depths in m, unit weights in kN/m³, stresses and pressures in kPa, γw = 9.81 kN/m³.
  * - σv(z): γ·thickness above the water table, γsat·thickness below it.

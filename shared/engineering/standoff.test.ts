@@ -13,7 +13,7 @@ function solverFor(req: CheckRequest) {
 }
 
 describe('standoff (docs/calculation.md, "Standoff")', () => {
-  it('the §6 strip: its band may cover at most 0.5 m of the 3 m, so d ≥ 2.5 m (hand calculation; common practice, no published source)', () => {
+  it('the strip of worked example 1: its band may cover at most 0.5 m of the 3 m, so d ≥ 2.5 m (hand calculation; common practice, no published source)', () => {
     const req = sixRequest();
     const load = req.loads[0] as PlacedLoad;
     expect(solveStandoff(req, load)).toBe(2.5);

@@ -1,5 +1,5 @@
 /**
- * Requests shared by the engine's tests. The base request is the one of engineering.md §6: H = 3 m,
+ * Requests shared by the engine's tests. The base request is worked example 1 of docs/calculation.md: H = 3 m,
  * one sand layer γ = 19 kN/m³, φ′ = 30°, a 60 kPa strip 1 m wide at 1 m, 10 kPa allowance.
  */
 import type { CheckRequest, Load, SoilLayer } from './types';
@@ -52,7 +52,7 @@ export function midpoint(f: (z: number) => number, a: number, b: number, n = 200
   return s * h;
 }
 
-/** The result engineering.md §6 gives for `sixRequest()` (the hand check of §3.1). */
+/** The result of worked example 1 of docs/calculation.md for `sixRequest()` (a hand check). */
 export const SIX_RESULT = {
   method: 'dispersion-45',
   coefficients: [{ top: 0, K: 0.3333 }],
@@ -64,5 +64,5 @@ export const SIX_RESULT = {
   warnings: [],
 } as const;
 
-/** The first profile point of the §6 result. */
+/** The first profile point of worked example 1's result. */
 export const SIX_PROFILE_TOP = { z: 0, soil: 0, water: 0, surcharge: 0, total: 0, allowance: 3.333 } as const;

@@ -40,7 +40,7 @@ describe('local projection (WGS84 radii of curvature; any geodesy text)', () => 
   });
 });
 
-describe('offset, width and length (engineering.md §2; hand-worked cases)', () => {
+describe('offset, width and length (docs/calculation.md, "Loads"; hand-worked cases)', () => {
   it('a 2 m × 1 m pad 2 m from the long side of a 10 m × 6 m pit: offset 2, B 1, L 2', () => {
     const got = placeFootprint(prepareRing(pit, 'pit'), rect(4, 8, 6, 9));
     expect(got.offset).toBeCloseTo(2, 12);
@@ -101,7 +101,7 @@ describe('offset, width and length (engineering.md §2; hand-worked cases)', () 
   });
 });
 
-describe('overlap is rejected (engineering.md §2)', () => {
+describe('overlap is rejected (docs/calculation.md, "Loads")', () => {
   const ex = prepareRing(pit, 'pit');
   it.each([
     ['crossing the edge', rect(4, 5, 6, 7)],
@@ -128,7 +128,7 @@ describe('trench outlines', () => {
   });
 });
 
-describe('zones (engineering.md §5)', () => {
+describe('zones (docs/calculation.md, "Standoff")', () => {
   const ex = prepareRing(pit, 'pit');
   const inside = (zone: ReturnType<typeof influenceZone>, p: XY) => booleanPointInPolygon(turfPoint(proj.toWgs84(p)), zone);
   const diag = (r: number): XY => [10 + r * Math.SQRT1_2, 6 + r * Math.SQRT1_2];

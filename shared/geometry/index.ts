@@ -1,7 +1,7 @@
 /**
  * Plan geometry: GeoJSON (RFC 7946, WGS84) excavations and load footprints to site-local metres,
- * each load's offset, width and length relative to the nearest edge (engineering.md §2), and the
- * influence and exclusion zones for the map (§5). Pure: no I/O.
+ * each load's offset, width and length relative to the nearest edge (docs/calculation.md, "Loads"), and the
+ * influence and exclusion zones for the map (docs/calculation.md, "Standoff"). Pure: no I/O.
  */
 import { excavationOutline, GeometryError, prepareRing, type ExcavationShape, type FootprintShape, type PreparedOutline } from './outline';
 import { openRing } from './planar';

@@ -1,5 +1,5 @@
 /**
- * A load's position relative to an excavation (engineering.md §2): `offset`, the least distance from
+ * A load's position relative to an excavation (docs/calculation.md, "Loads"): `offset`, the least distance from
  * the footprint to the excavation outline; `width` B, the footprint's extent perpendicular to the
  * nearest edge; `length` L, its extent along that edge. Site-local metres. A footprint touching or
  * overlapping the excavation is rejected, never measured.

@@ -1,5 +1,5 @@
 /**
- * Zones around an excavation (engineering.md §5): the influence zone is the ground within H of the
+ * Zones around an excavation (docs/calculation.md, "Standoff"): the influence zone is the ground within H of the
  * outline, the exclusion zone the ground within a load's standoff. Site-local metres in, GeoJSON
  * (WGS84) out for the map.
  *

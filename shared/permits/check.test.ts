@@ -33,8 +33,8 @@ describe('a machine\u2019s bearing elements', () => {
 });
 
 describe('the standoff of loads that move together', () => {
-  it('for one load equals the engine\u2019s own standoff (engineering.md §5)', () => {
-    // The hand check of engineering.md §3.1: q = 60 kPa, B = 1 m; its standoff is 2.5 m there
+  it('for one load equals the engine\u2019s own standoff (docs/calculation.md, "Standoff")', () => {
+    // Worked example 1 of docs/calculation.md: q = 60 kPa, B = 1 m; its standoff is 2.5 m there
     // (common practice, no published source; the engine's example result).
     const strip = { id: 'footing', kind: 'strip' as const, pressure: 60, width: 1, offset: 1 };
     const engine = runCheck({ ...base, loads: [strip] }).loads[0].standoff;
@@ -108,7 +108,7 @@ describe('an open excavation the permit does not name', () => {
 
   it('is checked too, with a warning to name it, when a load stands within its influence zone', () => {
     // The heap's east edge is 1 m from PIT-B (x 22..24 against the pit's face at 25): inside the
-    // influence zone, which reaches as far from the edge as the pit is deep (engineering.md §3.1;
+    // influence zone, which reaches as far from the edge as the pit is deep (docs/calculation.md, "Load spread at 45°";
     // common practice, no published source).
     const check = cumulativeCheck(input(22));
     const refs = check.excavations.map((e) => [e.reference, e.named]);
@@ -149,7 +149,7 @@ describe('an open excavation the permit does not name', () => {
 describe('the standoff of loads that move together, when 3H is not a whole number of 5 cm steps', () => {
   it('tries the minimum clearance itself before answering it', () => {
     // H = 3.01 m: the 5 cm scan from 3H = 9.03 m lands on 0.63 m, then 0.60 m must be tested, not
-    // assumed. The answer must pass and 1 cm closer fail (engineering.md §5; the search itself is
+    // assumed. The answer must pass and 1 cm closer fail (docs/calculation.md, "Standoff"; the search itself is
     // common practice, no published source).
     const deep = { ...base, method: 'elastic' as const, excavation: { ...base.excavation, depth: 3.01 } };
     for (const pressure of [20, 21.3, 22, 25]) {

@@ -1,5 +1,5 @@
 /**
- * `npm run calc` end to end (docs/calculation.md, "Command line"): the §6 request gives the §6 result; bad input exits 2,
+ * `npm run calc` end to end (docs/calculation.md, "Command line"): worked example 1 gives its result; bad input exits 2,
  * names each wrong field on standard error and prints nothing on standard output.
  */
 import { spawnSync } from 'node:child_process';
@@ -29,7 +29,7 @@ function calc(input: unknown, viaStdin = false, raw?: string) {
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
-/** The request of engineering.md §6, as plain JSON to mutate. */
+/** The request of worked example 1 (docs/calculation.md), as plain JSON to mutate. */
 const six = (): Record<string, any> => JSON.parse(JSON.stringify(sixRequest()));
 
 function expectRejected(r: ReturnType<typeof calc>, fields: string[]) {
@@ -40,7 +40,7 @@ function expectRejected(r: ReturnType<typeof calc>, fields: string[]) {
 }
 
 describe('npm run calc', { timeout: 60_000 }, () => {
-  it('answers the §6 request with the §6 result (engineering.md §6, the hand check of §3.1)', () => {
+  it('answers worked example 1 with its result (docs/calculation.md, "Command line" and worked example 1)', () => {
     const r = calc(six());
     expect(r.code).toBe(0);
     expect(r.stderr).toBe('');

@@ -12,7 +12,7 @@ function errors(mutate: (r: any) => void): string[] {
 }
 
 describe('calc request schema (docs/calculation.md, "Refusals")', () => {
-  it('accepts the §6 request and fills the defaults', () => {
+  it('accepts the example request and fills the defaults (docs/calculation.md, "Command line")', () => {
     const p = parseCalcRequest({ excavation: { depth: 3, designSurcharge: 10 }, soil: [{ top: 0, unitWeight: 19, frictionAngle: 30 }], method: 'elastic', loads: [] });
     expect(p.ok && p.value).toMatchObject({
       excavation: { groundwaterDepth: null, ratedPressure: null, pressureState: 'active', wallFriction: 0, restraint: 'unyielding' },

@@ -1,7 +1,7 @@
 /**
  * The excavation register: what is dug, where (GeoJSON, WGS84), how deep, what holds it up and what
  * ground it is in. The support and soil fields carry the calculation request's own names
- * (engineering.md §6: `excavation` and `soil`), so a check can be built from an excavation directly
+ * (docs/calculation.md, "Command line": `excavation` and `soil`), so a check can be built from an excavation directly
  * with `calcExcavationOf`.
  *
  * Units: metres, kPa, kN/m³, degrees.
@@ -220,7 +220,7 @@ export interface Excavation extends ExcavationValues {
   drawing: { id: number; name: string; size: number } | null;
   /** The ground outline: the trench centre line widened by half its width each side, or the pit polygon. */
   outline: Polygon | null;
-  /** The influence zone: the ground within the depth H of the outline (engineering.md §3.1, §5). */
+  /** The influence zone: the ground within the depth H of the outline (docs/calculation.md, "Load spread at 45°" and "Standoff"). */
   influenceZone: Polygon | MultiPolygon | null;
   createdAt: string;
   updatedAt: string;

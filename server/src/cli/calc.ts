@@ -1,6 +1,6 @@
 /**
  * `npm run --silent calc -- FILE` (FILE a path, or `-` for standard input): reads one calculation
- * request or a list of them (engineering.md §6) and prints one result or a list, as JSON, on
+ * request or a list of them (docs/calculation.md, "Command line") and prints one result or a list, as JSON, on
  * standard output. Bad input: exit 2, one line per wrong field on standard error, nothing on
  * standard output. Any other failure: exit 1.
  */
