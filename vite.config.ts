@@ -101,7 +101,25 @@ export default defineConfig({
   root: here('./client'),
   plugins: [react(), tailwindcss(), pwa],
   resolve: { alias },
-  build: { outDir: here('./dist/client'), emptyOutDir: true, chunkSizeWarningLimit: 1500 },
+  build: {
+    outDir: here('./dist/client'),
+    emptyOutDir: true,
+    // dist/client/.vite/manifest.json: how the bench and the bundle test count each page's scripts.
+    manifest: true,
+    rolldownOptions: {
+      output: {
+        // Libraries every page (or every map) needs, each in one file: fewer requests on a slow
+        // round trip, and one gzip stream compresses better than many small ones.
+        codeSplitting: {
+          groups: [
+            { name: 'react', test: /node_modules[\\/](react|react-dom|scheduler|react-router|react-router-dom|@tanstack[\\/](query-core|react-query))[\\/]/ },
+            { name: 'zod', test: /node_modules[\\/]zod[\\/]/ },
+            { name: 'leaflet', test: /node_modules[\\/](leaflet|react-leaflet|@react-leaflet[\\/]core)[\\/]/ },
+          ],
+        },
+      },
+    },
+  },
   server: {
     proxy: { '/api': `http://127.0.0.1:${process.env.PORT ?? 3000}` },
   },

@@ -27,6 +27,8 @@ test.describe('site map and register', () => {
 
     // Draw a centre line of three points in an empty part of the map, then finish it.
     await page.getByRole('button', { name: 'Draw a trench' }).click();
+    // The drawing tools load on first use; the hint shows once they are on the map.
+    await expect(page.getByText('Click the map at each point of the trench’s centre line')).toBeVisible();
     const box = (await map.boundingBox())!;
     const at = (fx: number, fy: number) => page.mouse.click(box.x + box.width * fx, box.y + box.height * fy);
     await at(0.55, 0.78);

@@ -4,16 +4,15 @@
  * influence and exclusion zones for the map (docs/calculation.md, "Standoff"). Pure: no I/O.
  */
 import { excavationOutline, GeometryError, prepareRing, type ExcavationShape, type FootprintShape, type PreparedOutline } from './outline';
-import { openRing } from './planar';
+import { openRing, signedDistanceToZone } from './planar';
 import { placeFootprint, placePad, type Placement } from './placement';
 import type { LocalProjection, LonLat } from './projection';
-import { signedDistanceToZone } from './zones';
 
 export { localProjection, type LocalProjection, type LonLat, type XY } from './projection';
 export { GeometryError, excavationOutline, trenchRing, prepareRing, type ExcavationShape, type FootprintShape, type PreparedOutline } from './outline';
 export { placeFootprint, placePad, type Placement } from './placement';
-export { influenceZone, exclusionZone, zonePolygon, signedDistanceToZone, stepsFor, ARC_STEPS } from './zones';
-export { boundsGap, boundsOf, distanceToRing, signedDistanceToRing, signedArea, pointInRing, type Ring, type Bounds } from './planar';
+export { influenceZone, exclusionZone, zonePolygon, stepsFor, ARC_STEPS } from './zones';
+export { boundsGap, boundsOf, distanceToRing, signedDistanceToRing, signedDistanceToZone, signedArea, pointInRing, type Ring, type Bounds } from './planar';
 
 /** Pad side of a point load when none is given (m), as in the engine. */
 export const DEFAULT_PAD_SIDE = 0.3;

@@ -113,3 +113,11 @@ export function boundsGap(a: Bounds, b: Bounds): number {
   const dy = Math.max(0, a.minY - b.maxY, b.minY - a.maxY);
   return Math.hypot(dx, dy);
 }
+
+/**
+ * Signed distance (m) from a site-local point to the boundary of the zone within `distance` of an
+ * outline (its ring): + outside, − inside. Exact, unlike the zone's drawn polygon (zones.ts).
+ */
+export function signedDistanceToZone(excavation: { ring: Ring }, point: XY, distance: number): number {
+  return signedDistanceToRing(point, excavation.ring) - distance;
+}

@@ -12,10 +12,11 @@
  * ellipsoid's meridional radius M is smaller (near the equator, up to 0.56 %). The signed distance is exact:
  * the distance to the outline less the zone distance (negative inside the zone).
  */
-import { buffer, polygon as turfPolygon } from '@turf/turf';
+import { buffer } from '@turf/buffer';
+import { polygon as turfPolygon } from '@turf/helpers';
 import type { MultiPolygon, Polygon } from 'geojson';
 import type { PreparedOutline } from './outline';
-import { signedDistanceToRing, type Ring } from './planar';
+import type { Ring } from './planar';
 import type { LocalProjection, XY } from './projection';
 
 /** The sphere turf converts metres on (its earthRadius). */
@@ -111,7 +112,5 @@ export function exclusionZone(excavation: PreparedOutline, standoff: number, pro
   return zonePolygon(excavation, standoff, proj);
 }
 
-/** Signed distance (m) from a site-local point to the boundary of the zone within `distance` of the outline: + outside, − inside. */
-export function signedDistanceToZone(excavation: PreparedOutline, point: XY, distance: number): number {
-  return signedDistanceToRing(point, excavation.ring) - distance;
-}
+// Measuring against a zone needs no drawing library: it lives in planar.ts, so the phone's bundle leaves turf out.
+export { signedDistanceToZone } from './planar';

@@ -7,7 +7,8 @@
  * Units: metres, kPa, kN/m³, degrees.
  */
 import { z } from 'zod';
-import { kinks, lineString, polygon } from '@turf/turf';
+import { lineString, polygon } from '@turf/helpers';
+import { kinks } from '@turf/kinks';
 import type { LineString, MultiPolygon, Polygon } from 'geojson';
 import { calcRequestSchema, excavationSchema as calcExcavationSchema, soilLayerSchema } from './calc';
 import type { Excavation as CalcExcavation, SoilLayer } from '../engineering/types';

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import type { LineString, MultiPolygon, Polygon } from 'geojson';
 import type { PermitSummary } from './permits';
+import { concernNoteReason } from './concern';
 
 /**
  * The field view: what an operator's phone reads (the permits that name them, with everything needed
@@ -14,11 +15,7 @@ export const idempotencyKeySchema = z
   .trim()
   .regex(/^[A-Za-z0-9_-]{16,100}$/, 'must be 16 to 100 letters, digits, - or _');
 
-export const CONCERN_NOTE_MAX = 2000;
-/** Photos per concern, and the largest photo the server takes (bytes); the phone shrinks larger ones first. */
-export const CONCERN_PHOTOS_MAX = 3;
-export const CONCERN_PHOTO_BYTES_MAX = 10 * 1024 * 1024;
-export const concernPhotoTypes = ['image/jpeg', 'image/png'] as const;
+export { CONCERN_NOTE_MAX, CONCERN_PHOTOS_MAX, CONCERN_PHOTO_BYTES_MAX, concernPhotoTypes } from './concern';
 
 /** The text fields of a concern (multipart form fields, so numbers arrive as text). */
 export const concernFormSchema = z.object({
@@ -26,8 +23,10 @@ export const concernFormSchema = z.object({
   note: z
     .string({ message: 'is required' })
     .trim()
-    .min(1, 'is required: say what you saw')
-    .max(CONCERN_NOTE_MAX, `must be at most ${CONCERN_NOTE_MAX} characters`),
+    .superRefine((note, ctx) => {
+      const reason = concernNoteReason(note);
+      if (reason) ctx.addIssue({ code: 'custom', message: reason });
+    }),
   idempotencyKey: idempotencyKeySchema.optional(),
 });
 export type ConcernForm = z.infer<typeof concernFormSchema>;

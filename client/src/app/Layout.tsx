@@ -1,6 +1,7 @@
 import { useEffect, useId, useState, type ReactNode } from 'react';
 import { Link, NavLink, Outlet, useLocation } from 'react-router-dom';
 import { Caution } from '@client/components/Caution';
+import { SkipLink } from '@client/components/SkipLink';
 import { useCurrentSite } from '@client/lib/currentSite';
 import { useMe } from '@client/lib/session';
 import { navItems, visibleNavLinks } from './nav';
@@ -12,13 +13,7 @@ const navLinkClass = ({ isActive }: { isActive: boolean }) =>
     isActive ? 'bg-accent-wash text-accent-strong underline underline-offset-4' : 'text-ink hover:bg-accent-wash'
   }`;
 
-export function SkipLink() {
-  return (
-    <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-[1200] focus:bg-sheet focus:p-3">
-      Skip to the page
-    </a>
-  );
-}
+export { SkipLink } from '@client/components/SkipLink';
 
 export function Brand() {
   return (

@@ -8,10 +8,9 @@ import { inspectionRoutes } from '@client/features/inspections';
 import { mapRoutes } from '@client/features/map';
 import { plantRoutes } from '@client/features/plant';
 import { registerRoutes } from '@client/features/register';
+import { Loading } from '@client/components/Status';
 import { ErrorPage, NotFound } from './ErrorPage';
-import { Layout, PublicLayout } from './Layout';
 import { RequireAdmin, RequireAuth } from './RequireAuth';
-import { HomeRedirect, SiteScope } from './SiteScope';
 
 /**
  * Pages of one site, under /sites/:siteId (members of that site and administrators only).
@@ -25,21 +24,24 @@ const signedInRoutes: RouteObject[] = [...plantRoutes, ...permitRoutes];
 export const routes: RouteObject[] = [
   {
     errorElement: <ErrorPage />,
+    // Shown while the first page's code arrives (each page loads when first opened).
+    HydrateFallback: () => <Loading what="Opening Brink" />,
     children: [
-      { Component: PublicLayout, children: authRoutes },
+      { lazy: async () => ({ Component: (await import('./Layout')).PublicLayout }), children: authRoutes },
       // The phone view has its own frame and sign-in check (it opens with no signal).
       ...fieldRoutes,
       {
         Component: RequireAuth,
         children: [
           {
-            Component: Layout,
+            // The desktop frame and its menus load with the first signed-in page (the phone view has its own).
+            lazy: async () => ({ Component: (await import('./Layout')).Layout }),
             children: [
               {
                 errorElement: <ErrorPage />,
                 children: [
-                  { index: true, Component: HomeRedirect },
-                  { path: 'sites/:siteId', Component: SiteScope, children: siteRoutes },
+                  { index: true, lazy: async () => ({ Component: (await import('./SiteScope')).HomeRedirect }) },
+                  { path: 'sites/:siteId', lazy: async () => ({ Component: (await import('./SiteScope')).SiteScope }), children: siteRoutes },
                   ...signedInRoutes,
                   { path: 'admin', Component: RequireAdmin, children: adminRoutes },
                   { path: '*', Component: NotFound },

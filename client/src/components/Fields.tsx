@@ -1,5 +1,5 @@
 import { useId, type InputHTMLAttributes, type ReactNode, type Ref, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
-import { fieldSentence } from '@client/lib/forms';
+import { fieldSentence } from '@client/lib/sentences';
 
 const controlClass =
   'block w-full min-h-11 rounded-md border border-rule-strong bg-sheet px-3 py-2 text-base text-ink ' +

@@ -1,4 +1,4 @@
-import { fieldSentence } from '@client/lib/forms';
+import { fieldSentence } from '@client/lib/sentences';
 import { Button } from './Button';
 
 type RowErrors = Record<string, { message?: string } | undefined> | undefined;

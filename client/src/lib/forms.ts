@@ -1,6 +1,9 @@
 import type { FieldValues, Path, UseFormSetError } from 'react-hook-form';
 import { z } from 'zod';
 import { ApiError, errorMessage } from './api';
+import { fieldSentence } from './sentences';
+
+export { fieldSentence };
 
 /**
  * Puts the server's field reasons under the matching form fields and returns the sentence for the
@@ -27,19 +30,6 @@ export function applyServerErrors<T extends FieldValues>(
   return [error.message, ...unshown].join(' ');
 }
 
-const continuesLabel = /^(is|are|was|were|must|should|does|do|did|has|have|had|can|cannot|may|needs?|already)\b/;
-
-/**
- * Reasons from the shared schemas mostly read on from the field's name ("is required", "must be …");
- * joined with the label they make a sentence: "E-mail is required." Any other reason is shown as a
- * sentence of its own ("Give both a site and a role, or neither.").
- */
-export function fieldSentence(label: string, reason: string): string {
-  const text = reason.trim();
-  const sentence = continuesLabel.test(text) ? `${label} ${text}` : text.charAt(0).toUpperCase() + text.slice(1);
-  return /[.!?]$/.test(sentence) ? sentence : `${sentence}.`;
-}
-
 let configured = false;
 
 /** Plain reasons for the cases the shared schemas leave to zod's defaults (an empty number box). */
@@ -56,3 +46,7 @@ export function configureFormMessages() {
     },
   });
 }
+
+// Every form that validates with the shared schemas imports this module, so the messages are set
+// before the first check (and zod stays out of pages without forms, e.g. the phone view).
+configureFormMessages();

@@ -1,16 +1,12 @@
 import type { RouteObject } from 'react-router-dom';
-import { MailPage } from './routes/MailPage';
-import { PeoplePage } from './routes/PeoplePage';
-import { SiteEditPage } from './routes/SiteEditPage';
-import { SitesPage } from './routes/SitesPage';
 
 export { useMailCatcherOn } from './api/mail';
 
-/** Routes under /admin (administrators only; the app guards the whole branch). */
+/** Routes under /admin (administrators only; the app guards the whole branch). Each page loads when first opened. */
 export const adminRoutes: RouteObject[] = [
-  { path: 'people', Component: PeoplePage },
-  { path: 'sites', Component: SitesPage },
-  { path: 'sites/new', Component: SiteEditPage },
-  { path: 'sites/:siteId', Component: SiteEditPage },
-  { path: 'mail', Component: MailPage },
+  { path: 'people', lazy: async () => ({ Component: (await import('./routes/PeoplePage')).PeoplePage }) },
+  { path: 'sites', lazy: async () => ({ Component: (await import('./routes/SitesPage')).SitesPage }) },
+  { path: 'sites/new', lazy: async () => ({ Component: (await import('./routes/SiteEditPage')).SiteEditPage }) },
+  { path: 'sites/:siteId', lazy: async () => ({ Component: (await import('./routes/SiteEditPage')).SiteEditPage }) },
+  { path: 'mail', lazy: async () => ({ Component: (await import('./routes/MailPage')).MailPage }) },
 ];

@@ -1,15 +1,11 @@
 import type { RouteObject } from 'react-router-dom';
-import { AcceptInvitationPage } from './routes/AcceptInvitationPage';
-import { ForgotPasswordPage } from './routes/ForgotPasswordPage';
-import { ResetPasswordPage } from './routes/ResetPasswordPage';
-import { SignInPage } from './routes/SignInPage';
 
 export { useSignOut } from './api/auth';
 
-/** Pages for people who are not signed in. */
+/** Pages for people who are not signed in. Each page loads when first opened. */
 export const authRoutes: RouteObject[] = [
-  { path: 'sign-in', Component: SignInPage },
-  { path: 'forgot-password', Component: ForgotPasswordPage },
-  { path: 'reset-password', Component: ResetPasswordPage },
-  { path: 'invitations/accept', Component: AcceptInvitationPage },
+  { path: 'sign-in', lazy: async () => ({ Component: (await import('./routes/SignInPage')).SignInPage }) },
+  { path: 'forgot-password', lazy: async () => ({ Component: (await import('./routes/ForgotPasswordPage')).ForgotPasswordPage }) },
+  { path: 'reset-password', lazy: async () => ({ Component: (await import('./routes/ResetPasswordPage')).ResetPasswordPage }) },
+  { path: 'invitations/accept', lazy: async () => ({ Component: (await import('./routes/AcceptInvitationPage')).AcceptInvitationPage }) },
 ];

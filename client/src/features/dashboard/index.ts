@@ -1,5 +1,4 @@
 import type { RouteObject } from 'react-router-dom';
-import { DashboardPage } from './routes/DashboardPage';
 
-/** Routes under /sites/:siteId. */
-export const dashboardRoutes: RouteObject[] = [{ index: true, Component: DashboardPage }];
+/** Routes under /sites/:siteId (loaded when first opened). */
+export const dashboardRoutes: RouteObject[] = [{ index: true, lazy: async () => ({ Component: (await import('./routes/DashboardPage')).DashboardPage }) }];

@@ -1,13 +1,9 @@
 import type { RouteObject } from 'react-router-dom';
-import { HistoryPage } from './routes/HistoryPage';
-import { InspectionsPage } from './routes/InspectionsPage';
-import { InspectPage } from './routes/InspectPage';
 
-export { DuePanel } from './components/DuePanel';
-
-/** Routes under /sites/:siteId. */
+/** Routes under /sites/:siteId. Each page loads when first opened. */
 export const inspectionRoutes: RouteObject[] = [
-  { path: 'inspections', Component: InspectionsPage },
-  { path: 'excavations/:excavationId/inspect', Component: InspectPage },
-  { path: 'excavations/:excavationId/inspections', Component: HistoryPage },
+  { path: 'inspections', lazy: async () => ({ Component: (await import('./routes/InspectionsPage')).InspectionsPage }) },
+  { path: 'excavations/:excavationId/inspect', lazy: async () => ({ Component: (await import('./routes/InspectPage')).InspectPage }) },
+  { path: 'excavations/:excavationId/inspections', lazy: async () => ({ Component: (await import('./routes/HistoryPage')).HistoryPage }) },
 ];
+

@@ -1,5 +1,4 @@
 import type { RouteObject } from 'react-router-dom';
-import { SiteMapPage } from './routes/SiteMapPage';
 
-/** Routes under /sites/:siteId. */
-export const mapRoutes: RouteObject[] = [{ path: 'map', Component: SiteMapPage }];
+/** Routes under /sites/:siteId. The map page (with the drawing tools) loads when first opened. */
+export const mapRoutes: RouteObject[] = [{ path: 'map', lazy: async () => ({ Component: (await import('./routes/SiteMapPage')).SiteMapPage }) }];

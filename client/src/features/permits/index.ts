@@ -1,19 +1,14 @@
 import type { RouteObject } from 'react-router-dom';
-import { NewPermitPage } from './routes/NewPermitPage';
-import { PermitEditPage } from './routes/PermitEditPage';
-import { PermitListPage } from './routes/PermitListPage';
-import { PermitPage } from './routes/PermitPage';
 
-/** Under /sites/:siteId. */
+/** Under /sites/:siteId. Each page loads when first opened. */
 export const permitSiteRoutes: RouteObject[] = [
-  { path: 'permits', Component: PermitListPage },
-  { path: 'permits/new', Component: NewPermitPage },
+  { path: 'permits', lazy: async () => ({ Component: (await import('./routes/PermitListPage')).PermitListPage }) },
+  { path: 'permits/new', lazy: async () => ({ Component: (await import('./routes/NewPermitPage')).NewPermitPage }) },
 ];
 
 /** Signed-in pages addressed by the permit alone (links in e-mails). */
 export const permitRoutes: RouteObject[] = [
-  { path: 'permits/:permitId', Component: PermitPage },
-  { path: 'permits/:permitId/edit', Component: PermitEditPage },
+  { path: 'permits/:permitId', lazy: async () => ({ Component: (await import('./routes/PermitPage')).PermitPage }) },
+  { path: 'permits/:permitId/edit', lazy: async () => ({ Component: (await import('./routes/PermitEditPage')).PermitEditPage }) },
 ];
 
-export { DashboardPermits } from './components/DashboardPermits';

@@ -1,5 +1,4 @@
 import type { RouteObject } from 'react-router-dom';
-import { PlantPage } from './routes/PlantPage';
 
-/** Signed-in routes (the library is shared by every site). */
-export const plantRoutes: RouteObject[] = [{ path: 'plant', Component: PlantPage }];
+/** Signed-in routes (the library is shared by every site); loaded when first opened. */
+export const plantRoutes: RouteObject[] = [{ path: 'plant', lazy: async () => ({ Component: (await import('./routes/PlantPage')).PlantPage }) }];

@@ -1,5 +1,4 @@
 import type { RouteObject } from 'react-router-dom';
-import { RegisterPage } from './routes/RegisterPage';
 
-/** Routes under /sites/:siteId. */
-export const registerRoutes: RouteObject[] = [{ path: 'register', Component: RegisterPage }];
+/** Routes under /sites/:siteId (the register and its table library load when first opened). */
+export const registerRoutes: RouteObject[] = [{ path: 'register', lazy: async () => ({ Component: (await import('./routes/RegisterPage')).RegisterPage }) }];

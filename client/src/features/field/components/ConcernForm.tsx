@@ -1,7 +1,8 @@
 import { useId, useState } from 'react';
-import { CONCERN_NOTE_MAX, CONCERN_PHOTO_BYTES_MAX, CONCERN_PHOTOS_MAX, concernFormSchema, type FieldPermit } from '@shared/schemas/field';
+import { CONCERN_NOTE_MAX, CONCERN_PHOTO_BYTES_MAX, CONCERN_PHOTOS_MAX, concernNoteReason } from '@shared/schemas/concern';
+import type { FieldPermit } from '@shared/schemas/field';
 import { Button } from '@client/components/Button';
-import { fieldSentence } from '@client/lib/forms';
+import { fieldSentence } from '@client/lib/sentences';
 import { newIdempotencyKey } from '@client/lib/random';
 import { addToOutbox, type OutboxPhoto } from '../offline/outbox';
 import { preparePhoto } from '../offline/photos';
@@ -68,22 +69,24 @@ export function ConcernForm({ permit }: { permit: FieldPermit }) {
 
   async function submit() {
     setDone(null);
-    const parsed = concernFormSchema.safeParse({ excavationId: excavationId ?? '', note });
-    if (!parsed.success) {
-      const next: Errors = {};
-      for (const issue of parsed.error.issues) next[issue.path[0] as 'excavationId' | 'note'] ??= issue.message;
-      if (next.excavationId) next.excavationId = 'is required: choose the excavation';
+    // The rules of the server's concernFormSchema, without zod (see shared/schemas/concern.ts).
+    const text = note.trim();
+    const excavation = permit.excavations.find((e) => e.id === Number(excavationId ?? NaN));
+    const next: Errors = {};
+    if (!excavation) next.excavationId = 'is required: choose the excavation';
+    const noteReason = concernNoteReason(text);
+    if (noteReason) next.note = noteReason;
+    if (!excavation || noteReason) {
       setErrors(next);
       return;
     }
-    const excavation = permit.excavations.find((e) => e.id === parsed.data.excavationId)!;
     setBusy(true);
     try {
       await addToOutbox(newIdempotencyKey(), person.id, permit, {
         kind: 'concern',
         excavationId: excavation.id,
         excavationReference: excavation.reference,
-        note: parsed.data.note,
+        note: text,
         photos,
       });
     } catch {

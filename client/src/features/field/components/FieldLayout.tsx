@@ -1,7 +1,7 @@
 import { createContext, useContext, type ReactNode } from 'react';
 import { Link, Outlet } from 'react-router-dom';
 import { Caution } from '@client/components/Caution';
-import { SkipLink } from '@client/app/Layout';
+import { SkipLink } from '@client/components/SkipLink';
 import { useOutbox, useOutboxSender } from '../hooks/useOutbox';
 import { useNoSignal } from '../hooks/useSignal';
 import type { OutboxItem } from '../offline/outbox';

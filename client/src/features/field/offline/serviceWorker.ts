@@ -1,4 +1,3 @@
-import { Workbox } from 'workbox-window';
 import { SIGNED_OUT_EVENT } from '@client/lib/session';
 import { forgetCopies } from './store';
 
@@ -14,10 +13,14 @@ export function registerServiceWorker(): void {
   // On a shared phone, the next person must not see the last one's permits, even with no signal.
   if (typeof window !== 'undefined') window.addEventListener(SIGNED_OUT_EVENT, () => void forgetPersonalCopies());
   if (import.meta.env.MODE !== 'production' || typeof navigator === 'undefined' || !('serviceWorker' in navigator)) return;
-  const wb = new Workbox('/sw.js', { scope: '/' });
-  wb.register().catch(() => {
-    // Not allowed here (plain http on a LAN address, private mode): the app works online as before.
-  });
+  // Registered after the page has loaded, so the worker's precaching does not compete with the page's
+  // own first downloads on a weak signal (the browser's own API: workbox-window's helper is not needed).
+  const register = () =>
+    navigator.serviceWorker.register('/sw.js', { scope: '/' }).catch(() => {
+      // Not allowed here (plain http on a LAN address, private mode): the app works online as before.
+    });
+  if (document.readyState === 'complete') void register();
+  else window.addEventListener('load', () => void register(), { once: true });
 }
 
 /** Forgets what was kept for the last person: their permit copies and the worker's cached answers. */

@@ -31,23 +31,31 @@ interface DrawToolsProps {
   /** Editing the vertices of this geometry (a new key starts a new edit), or null. */
   editing: { key: string; geometry: ExcavationGeometry } | null;
   onEdited: (geometry: ExcavationGeometry) => void;
+  /** Called once the tools are on the map (the page enables its drawing buttons then). */
+  onReady?: () => void;
 }
 
 /**
  * Drawing and vertex editing with leaflet-geoman, driven by the page's own buttons: a trench is drawn
  * as its centre line (click each point, then press Finish or click the last point again), a pit as its
- * outline. Its own toolbar is not shown.
+ * outline. Its own toolbar is not shown. The page loads this module (and leaflet-geoman with it) only
+ * for people who may draw (see SiteMapPage).
  */
-export function DrawTools({ drawing, onDrawn, editing, onEdited }: DrawToolsProps) {
+export function DrawTools({ drawing, onDrawn, editing, onEdited, onReady }: DrawToolsProps) {
   const map = useMap();
   const onDrawnRef = useRef(onDrawn);
   const onEditedRef = useRef(onEdited);
   onDrawnRef.current = onDrawn;
   onEditedRef.current = onEdited;
+  const onReadyRef = useRef(onReady);
+  onReadyRef.current = onReady;
 
   useEffect(() => {
+    // leaflet-geoman equips maps made after it loads; this one was made before (the tools load on first use).
+    if (!map.pm) L.PM.reInitLayer(map as unknown as L.Layer); // it accepts maps too
     map.pm.setGlobalOptions({ allowSelfIntersection: false, snappable: false, finishOnEnter: true } as L.PM.GlobalOptions);
     map.pm.setLang('en');
+    onReadyRef.current?.();
   }, [map]);
 
   useEffect(() => {
@@ -85,15 +93,4 @@ export function DrawTools({ drawing, onDrawn, editing, onEdited }: DrawToolsProp
   }, [map, editKey]);
 
   return null;
-}
-
-/** Finishes the shape being drawn (as clicking its last point again would); false when it has too few points. */
-export function finishDrawing(map: L.Map): boolean {
-  const draw = map.pm.Draw as unknown as Record<string, { _finishShape?: () => void; _layer?: L.Polyline }>;
-  const shape = map.pm.Draw.getActiveShape();
-  const instance = shape ? draw[shape] : undefined;
-  const points = (instance?._layer?.getLatLngs() as L.LatLng[] | undefined)?.length ?? 0;
-  if (!instance?._finishShape || points < (shape === 'Polygon' ? 3 : 2)) return false;
-  instance._finishShape();
-  return true;
 }

@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import { lazy, Suspense, useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import type L from 'leaflet';
 import type { GeoJsonObject } from 'geojson';
@@ -13,13 +13,17 @@ import { useInspectionStates } from '@client/lib/inspectionStates';
 import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
 import type { InspectionState } from '@shared/schemas/inspections';
 import { useDeleteExcavation, useDrawing, useSaveExcavation } from '../api/excavations';
-import { DrawTools, finishDrawing, type DrawShape } from '../components/DrawTools';
+import type { DrawShape } from '../components/DrawTools';
+import { finishDrawing } from '../components/finishDrawing';
 import { ExcavationForm } from '../components/ExcavationForm';
 import { newValues, valuesOf, type ExcavationFormValues } from '../components/excavationFormValues';
 import { ExcavationHistory } from '../components/ExcavationHistory';
 import { legendItems } from '../components/mapStyles';
 import { PlanControls } from '../components/PlanControls';
 import { SiteMap } from '../components/SiteMap';
+
+// The drawing tools (leaflet-geoman) load when someone first draws or edits a shape, not with the map.
+const DrawTools = lazy(async () => ({ default: (await import('../components/DrawTools')).DrawTools }));
 
 type Preview = { kind: ExcavationKind; geometry: ExcavationGeometry | null; width: number | null; depth: number | null; state: ExcavationState };
 
@@ -64,6 +68,9 @@ interface Editing {
  * to draw, describe and change them. Works with no internet (metric grid base), or on map tiles when
  * the server is given a tile address.
  */
+const drawingHint = (shape: DrawShape) =>
+  shape === 'trench' ? 'Click the map at each point of the trench’s centre line, then press Finish.' : 'Click the map at each corner of the pit, then press Finish.';
+
 export function SiteMapPage() {
   const siteId = parseId(useParams().siteId)!;
   const [search, setSearch] = useSearchParams();
@@ -80,6 +87,7 @@ export function SiteMapPage() {
   const role = me ? roleOnSite(me, siteId) : null;
   const canEdit = Boolean(me?.isAdmin || role === 'supervisor' || role === 'coordinator');
   const [drawing, setDrawing] = useState<DrawShape | null>(null);
+  const [toolsReady, setToolsReady] = useState(false);
   const [editing, setEditing] = useState<Editing | null>(null);
   const [preview, setPreview] = useState<Preview | null>(null);
   const [notice, setNotice] = useState<string | null>(null);
@@ -119,7 +127,7 @@ export function SiteMapPage() {
   const startDrawing = (shape: DrawShape) => {
     setEditing(null);
     setPreview(null);
-    setNotice(shape === 'trench' ? 'Click the map at each point of the trench’s centre line, then press Finish.' : 'Click the map at each corner of the pit, then press Finish.');
+    setNotice(toolsReady ? drawingHint(shape) : 'Loading the drawing tools…');
     setDrawing(shape);
   };
 
@@ -156,6 +164,7 @@ export function SiteMapPage() {
             {drawing ? (
               <>
                 <Button
+                  disabled={!toolsReady}
                   onClick={() => {
                     if (mapRef.current && !finishDrawing(mapRef.current)) setNotice(drawing === 'trench' ? 'A trench needs at least two points.' : 'A pit needs at least three corners.');
                   }}
@@ -200,7 +209,20 @@ export function SiteMapPage() {
             focus={focus}
             inspection={inspectionById}
           >
-            <DrawTools drawing={drawing} onDrawn={onDrawn} editing={editing?.shapeKey ? { key: editing.shapeKey, geometry: editing.geometry } : null} onEdited={onEdited} />
+            {canEdit && (toolsReady || drawing || editing?.shapeKey) ? (
+              <Suspense fallback={null}>
+                <DrawTools
+                  drawing={drawing}
+                  onDrawn={onDrawn}
+                  editing={editing?.shapeKey ? { key: editing.shapeKey, geometry: editing.geometry } : null}
+                  onEdited={onEdited}
+                  onReady={() => {
+                    setToolsReady(true);
+                    if (drawing) setNotice(drawingHint(drawing));
+                  }}
+                />
+              </Suspense>
+            ) : null}
           </SiteMap>
         </div>
 
