@@ -15,7 +15,9 @@ export default defineConfig({
       },
       {
         extends: true,
-        test: { name: 'client', environment: 'jsdom', include: ['client/**/*.test.{ts,tsx}'] },
+        // Rendering forms in jsdom takes seconds on a loaded 2-core machine: a generous limit, so
+        // that only a test that really hangs fails on time.
+        test: { name: 'client', environment: 'jsdom', include: ['client/**/*.test.{ts,tsx}'], testTimeout: 30_000 },
       },
       {
         extends: true,
