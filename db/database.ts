@@ -377,8 +377,49 @@ export type Db = Kysely<Database>;
 pg.types.setTypeParser(pg.types.builtins.NUMERIC, (v) => Number(v));
 pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number(v));
 
-export function createPool(connectionString: string, max = 10): pg.Pool {
-  return new pg.Pool({ connectionString, max });
+/**
+ * A connection pool that outlives its database. PostgreSQL going away makes idle pooled clients
+ * (and a client held between two queries of a transaction) emit 'error'; unhandled, that event ends
+ * the process. Here each is logged once per outage and the broken client is dropped; queries fail
+ * with a connection error (`isDatabaseUnavailable`, answered 503 by the API) until PostgreSQL is
+ * back, when new connections are made as usual. Connecting waits at most `connectTimeoutMs`.
+ */
+export function createPool(connectionString: string, max = 10, opts: { name?: string; connectTimeoutMs?: number } = {}): pg.Pool {
+  const pool = new pg.Pool({ connectionString, max, connectionTimeoutMillis: opts.connectTimeoutMs ?? 5000 });
+  handlePoolErrors(pool, opts.name ?? 'db');
+  return pool;
+}
+
+/** Logs the 'error' events of a pool and of every client it hands out, instead of crashing on them. */
+export function handlePoolErrors(pool: pg.Pool, name: string): void {
+  let lastLogged = 0;
+  const log = (err: Error) => {
+    // One line per burst: an outage breaks every pooled connection at once.
+    if (Date.now() - lastLogged < 5000) return;
+    lastLogged = Date.now();
+    console.error(`[${name}] database connection lost: ${err.message}`);
+  };
+  pool.on('error', log);
+  pool.on('connect', (client) => client.on('error', log));
+}
+
+const unavailableCodes = new Set([
+  'ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT', 'EHOSTUNREACH', 'ENETUNREACH', 'ENOTFOUND', 'EAI_AGAIN',
+  '57P01', // admin_shutdown (pg_ctl stop)
+  '57P02', // crash_shutdown
+  '57P03', // cannot_connect_now (starting up or shutting down)
+  '08000', '08001', '08003', '08004', '08006', // connection exceptions
+]);
+const unavailableMessages = /Connection terminated|connection error and is not queryable|timeout exceeded when trying to connect|terminating connection due to administrator command|the database system is (starting up|shutting down|in recovery mode)|Client was closed and is not queryable/i;
+
+/** Whether an error means PostgreSQL cannot be reached (down, restarting, connection cut), not that a query was wrong. */
+export function isDatabaseUnavailable(err: unknown, depth = 0): boolean {
+  if (!err || typeof err !== 'object' || depth > 3) return false;
+  const e = err as { code?: unknown; message?: unknown; errors?: unknown; cause?: unknown };
+  if (typeof e.code === 'string' && unavailableCodes.has(e.code)) return true;
+  if (typeof e.message === 'string' && unavailableMessages.test(e.message)) return true;
+  if (Array.isArray(e.errors) && e.errors.some((x) => isDatabaseUnavailable(x, depth + 1))) return true;
+  return e.cause !== undefined && isDatabaseUnavailable(e.cause, depth + 1);
 }
 
 export function createDb(pool: pg.Pool): Db {

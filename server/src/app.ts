@@ -6,6 +6,7 @@ import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import helmet from 'helmet';
 import pg from 'pg';
+import { createPool } from '@db/database';
 import type { Deps } from './deps';
 import { Api, errorHandler, HttpError } from './http';
 import { sameOrigin } from './csrf';
@@ -70,19 +71,25 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   app.use('/api', sameOrigin(config.publicUrl));
 
   const PgStore = connectPgSimple(session);
-  const sessionPool = opts.sessionPool ?? new pg.Pool({ connectionString: config.databaseUrl, max: 4 });
-  app.use(
-    '/api',
-    session({
-      name: 'brink.sid',
-      store: new PgStore({ pool: sessionPool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: 15 * 60 }),
-      secret: config.sessionSecret,
-      resave: false,
-      saveUninitialized: false,
-      rolling: true,
-      cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 12 * 3600_000, path: '/' },
+  const sessionPool = opts.sessionPool ?? createPool(config.databaseUrl, 4, { name: 'sessions' });
+  // While PostgreSQL is down a session cannot be read: the call answers 503 (errorHandler) and
+  // the session is there again when PostgreSQL is back. The health check reads no session.
+  const sessions = session({
+    name: 'brink.sid',
+    store: new PgStore({
+      pool: sessionPool,
+      tableName: 'session',
+      createTableIfMissing: false,
+      pruneSessionInterval: 15 * 60,
+      errorLog: (...args: unknown[]) => console.error('[sessions]', ...args.map((a) => (a instanceof Error ? a.message : a))),
     }),
-  );
+    secret: config.sessionSecret,
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 12 * 3600_000, path: '/' },
+  });
+  app.use('/api', (req, res, next) => (req.path === '/health' ? next() : sessions(req, res, next)));
   app.use('/api', express.json({ limit: '2mb' }));
   // Who is signed in: the session holds only the id; the person is read fresh on every request,
   // so a deactivated account stops at once.

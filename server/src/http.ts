@@ -4,6 +4,7 @@ import type { SiteRole } from '@shared/schemas/common';
 import type { Deps } from './deps';
 import { bodyTypeProblem, crossSite } from './csrf';
 import { Throttle } from './services/throttle';
+import { isDatabaseUnavailable } from '@db/database';
 
 const QUARTER_HOUR = 15 * 60_000;
 /** The attempt limits (issue 12). Sign-in: SIGNIN_LIMIT_PER_ACCOUNT failures per account and address, five times that per account. */
@@ -226,8 +227,18 @@ async function authorise(access: Access, req: Request, deps: Deps): Promise<Rout
   return { id: siteId, role: m.role, canInspect: m.can_inspect };
 }
 
+/** What every API call answers (503) while PostgreSQL cannot be reached. */
+export const DATABASE_UNAVAILABLE = 'Brink cannot reach its database just now. Please try again in a minute; if this was a change, check afterwards whether it was saved.';
+
 /** The one error handler: known errors as JSON, anything else logged and answered without detail. */
-export function errorHandler(err: unknown, req: Request, res: Response, _next: NextFunction): void {
+export function errorHandler(err: unknown, req: Request, res: Response, next: NextFunction): void {
+  // An error after the answer went out (a session that could not be saved): Express closes the connection.
+  if (res.headersSent) return next(err);
+  if (isDatabaseUnavailable(err)) {
+    res.setHeader('Retry-After', '5');
+    res.status(503).json({ error: { code: 'unavailable', message: DATABASE_UNAVAILABLE } });
+    return;
+  }
   if (err instanceof HttpError) {
     res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } });
     return;

@@ -3,12 +3,30 @@ import { createApp } from './app';
 import { startRuntime } from './runtime';
 import { MailCatcher } from './mail/catcher';
 import { migrateToLatest } from '@db/migrate';
+import { isDatabaseUnavailable } from '@db/database';
 import { DEMO_PASSWORD, demoPeople } from '@db/demo/people';
 import { startPermitJobs } from './jobs/permits';
 import { startInspectionJobs } from './jobs/inspections';
 
 // Starts Brink: database migrations, the job queue, the local mail catcher, and one Express
 // process serving the app and the API.
+
+// pg-boss completes or fails a job without waiting for the answer; while PostgreSQL is down that
+// promise rejects with nobody to catch it. Such a job stays active, expires and is retried (its
+// e-mail carries an idempotency key), so the rejection is logged and Brink keeps running. Any other
+// unhandled rejection is a bug: logged, and the process ends (`npm start` restarts it).
+let quietUntil = 0;
+process.on('unhandledRejection', (reason) => {
+  if (isDatabaseUnavailable(reason)) {
+    if (Date.now() < quietUntil) return;
+    quietUntil = Date.now() + 10_000;
+    console.error(`[brink] database unreachable: ${(reason as Error).message}`);
+    return;
+  }
+  console.error('[brink] unhandled rejection; stopping', reason);
+  process.exit(1);
+});
+
 const config = loadConfig();
 const runtime = await startRuntime(config);
 const { deps } = runtime;

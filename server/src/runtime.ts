@@ -1,5 +1,5 @@
 import PgBoss from 'pg-boss';
-import { createDb, createPool } from '@db/database';
+import { createDb, createPool, isDatabaseUnavailable } from '@db/database';
 import type { Config } from './config';
 import type { Deps } from './deps';
 import { Mailer } from './mail/mailer';
@@ -15,10 +15,21 @@ export interface Runtime {
  * queues of several app instances on one database apart (tests run many at once).
  */
 export async function startRuntime(config: Config, opts: { now?: () => Date; queuePrefix?: string } = {}): Promise<Runtime> {
-  const pool = createPool(config.databaseUrl);
+  const pool = createPool(config.databaseUrl, 10, { name: 'db' });
   const db = createDb(pool);
-  const boss = new PgBoss({ connectionString: config.databaseUrl, max: 4, schedule: true, supervise: true });
-  boss.on('error', (err) => console.error('[jobs]', err.message));
+  // Handed to pg-boss's own pg.Pool (its types do not list pg's options).
+  const connectTimeout = { connectionTimeoutMillis: 5000 } as object;
+  const boss = new PgBoss({ connectionString: config.databaseUrl, max: 4, schedule: true, supervise: true, ...connectTimeout });
+  // While PostgreSQL is down every poll fails: one line per outage burst, not one per poll. The
+  // workers keep polling and pick up where they were when it is back.
+  let quietUntil = 0;
+  boss.on('error', (err) => {
+    if (isDatabaseUnavailable(err)) {
+      if (Date.now() < quietUntil) return;
+      quietUntil = Date.now() + 10_000;
+    }
+    console.error('[jobs]', err.message);
+  });
   await boss.start();
   const prefix = opts.queuePrefix ?? 'brink';
   const mailer = new Mailer(boss, db, config, `${prefix}.mail`);
