@@ -16,6 +16,8 @@ function createThrottles(deps: Deps) {
     /** Forgot-password: 10 requests per address a quarter hour; 3 mails per account an hour (quietly). */
     forgotPerIp: new Throttle(10, QUARTER_HOUR, now),
     forgotPerAccount: new Throttle(3, 60 * 60_000, now),
+    /** The password that signs a permit decision: SIGNIN_LIMIT_PER_ACCOUNT failures per person a quarter hour, then every session of theirs ends. */
+    decisionPassword: new Throttle(deps.config.signInLimitPerAccount, QUARTER_HOUR, now),
   };
 }
 
@@ -119,6 +121,12 @@ export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodTy
   params?: P;
   /** Middleware run after authorisation and before validation (e.g. multer for uploads). */
   before?: RequestHandler[];
+  /**
+   * A further authorisation rule that needs the record the path names (e.g. the role a permit's
+   * action needs), run after `access` and before the body is validated: a forbidden call answers
+   * 403 whatever its body holds. It sees the raw body, untrusted.
+   */
+  beforeBody?: (ctx: Omit<RouteContext<unknown, unknown, Out<P>>, 'body' | 'query'> & { rawBody: unknown }) => void | Promise<void>;
   /** Documented answers besides the usual errors, e.g. { 201: 'Created' }. */
   responses?: Record<number, string>;
   /** The body is multipart/form-data with these file fields. */
@@ -167,14 +175,18 @@ export class Api {
       next();
     };
     const main = async (req: Request, res: Response) => {
+      const params = (spec.params ? parseOr400(spec.params, req.params, 'path') : undefined) as Out<P>;
+      const user = req.user ?? null;
+      const site = (req as AuthedRequest).siteAccess ?? null;
+      if (spec.beforeBody) await spec.beforeBody({ req, res, params, user, site, deps, rawBody: req.body });
       const ctx = {
         req,
         res,
         body: spec.body ? parseOr400(spec.body, req.body ?? {}, 'request') : undefined,
         query: spec.query ? parseOr400(spec.query, req.query, 'query') : undefined,
-        params: spec.params ? parseOr400(spec.params, req.params, 'path') : undefined,
-        user: req.user ?? null,
-        site: (req as AuthedRequest).siteAccess ?? null,
+        params,
+        user,
+        site,
         deps,
       } as RouteContext<Out<B>, Out<Q>, Out<P>>;
       const out = await handler(ctx);

@@ -51,7 +51,10 @@ export const matrix: Record<string, Row> = {
   'GET /api/permits/:id/revisions/:revision': { allow: ['admin', ...siteMembers] },
   'PATCH /api/permits/:id': { allow: ['supervisor'], body: {} },
   'POST /api/permits/:id/check': { allow: ['admin', 'supervisor', 'coordinator'], body: {} },
-  'POST /api/permits/:id/transitions': { allow: ['admin', ...siteMembers], body: {} },
+  // The role an action needs is decided before the body is read: an operator takes no action on a
+  // permit and an administrator without a role on the site neither, so both are refused whatever
+  // they send (server/test/security.test.ts checks each action and role).
+  'POST /api/permits/:id/transitions': { allow: ['supervisor', 'coordinator'], body: {} },
   'POST /api/permits/:id/briefing': { allow: ['operator'] },
   'POST /api/permits/:id/comments': { allow: siteMembers, body: {} },
   'GET /api/permits/:id/pdf': { allow: ['admin', ...siteMembers] },

@@ -3,6 +3,8 @@ import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demo, DEMO_PASSWORD, demoSiteId, signedIn, startTestApp, TEST_ORIGIN, unique, type TestApp } from './helpers';
 import { newToken } from '../src/services/tokens';
+import { permitActions, transitionRules } from '@shared/schemas/permits';
+import { act, createPermit, makeWorld, permitBody, version, type PermitWorld } from './permits-fixtures';
 
 /**
  * Issue 12 (a security review): cross-site requests, account recovery, odd input. The matrix style
@@ -211,5 +213,120 @@ describe('odd input', () => {
       }
     }
     expect(wrong).toEqual([]);
+  });
+});
+
+describe('permit decisions: the role first, never one\u2019s own permit, a limit on the signing password', () => {
+  let w: PermitWorld;
+  beforeAll(async () => {
+    w = await makeWorld(t);
+  });
+
+  /** A new person with a role on the demo site, signed in. */
+  async function member(role: 'supervisor' | 'coordinator') {
+    const p = await person();
+    await t.deps.db.insertInto('site_members').values({ site_id: w.siteId, user_id: p.id, role }).execute();
+    return { ...p, agent: await signedIn(t.app, p.email) };
+  }
+  const setRole = (userId: number, role: 'supervisor' | 'coordinator') =>
+    t.deps.db.updateTable('site_members').set({ role }).where('site_id', '=', w.siteId).where('user_id', '=', userId).execute();
+  async function submitted(agent = w.agents.supervisor) {
+    const r = await agent.post('/api/permits').send(permitBody(w));
+    expect(r.status).toBe(201);
+    const s = await act(agent, r.body.permit.id, { action: 'submit', version: r.body.permit.version });
+    expect(s.status).toBe(200);
+    return { id: r.body.permit.id as number, number: r.body.permit.number as string, version: s.body.permit.version as number };
+  }
+
+  it('decides the role before the body: with only an action, a role that may not take it gets 403, one that may gets 400 naming the fields', async () => {
+    const p = await createPermit(w);
+    const roles = { operator: 'operator', supervisor: 'supervisor', coordinator: 'coordinator' } as const;
+    const wrong: string[] = [];
+    for (const action of [...permitActions, 'no-such-action', undefined]) {
+      for (const [who, role] of Object.entries(roles)) {
+        const r = await act(w.agents[who as keyof typeof roles], p.id, action === undefined ? {} : { action });
+        const mayTake = typeof action === 'string' && (permitActions as readonly string[]).includes(action)
+          ? transitionRules[action as (typeof permitActions)[number]].by.includes(role)
+          : role !== 'operator'; // an operator takes no action at all: refused whatever the body
+        const expected = mayTake ? 400 : 403;
+        if (r.status !== expected || (expected === 400 && !r.body.error.fields)) wrong.push(`${who} ${String(action)} → ${r.status}, expected ${expected}`);
+      }
+      for (const who of ['outsider', 'admin'] as const) {
+        const r = await act(w.agents[who], p.id, action === undefined ? {} : { action });
+        if (r.status !== 403) wrong.push(`${who} ${String(action)} → ${r.status}, expected 403`);
+      }
+    }
+    expect(wrong).toEqual([]);
+    // The operator's refusal says nothing about the fields an approval needs.
+    const op = await act(w.agents.operator, p.id, { action: 'approve' });
+    expect(op.body.error.fields).toBeUndefined();
+    expect(op.body.error.message).not.toMatch(/password|version/);
+  });
+
+  it('nobody approves, returns or declines a permit they requested, even after their role changed', async () => {
+    const x = await member('supervisor');
+    const p = await submitted(x.agent);
+    await setRole(x.id, 'coordinator');
+    for (const decision of [
+      { action: 'approve' },
+      { action: 'return', reason: 'My own request' },
+      { action: 'decline', reason: 'My own request' },
+    ]) {
+      const r = await act(x.agent, p.id, { ...decision, version: p.version, password: DEMO_PASSWORD });
+      expect(r.status, decision.action).toBe(403);
+      expect(r.body.error.message).toMatch(new RegExp(`You requested or changed permit ${p.number}`));
+    }
+    expect(await version(w, p.id)).toBe(p.version);
+    // Another coordinator may: the refusal was about the person.
+    const other = await act(w.agents.coordinator, p.id, { action: 'return', reason: 'Move the loads', version: p.version, password: DEMO_PASSWORD });
+    expect(other.status).toBe(200);
+  });
+
+  it('nobody decides on a permit whose revision they edited or revised, even after their role changed', async () => {
+    const editor = await member('supervisor');
+    const reviser = await member('supervisor');
+    const p = await createPermit(w);
+    expect((await editor.agent.patch(`/api/permits/${p.id}`).send({ version: p.version, description: 'Edited by a second supervisor' })).status).toBe(200);
+    const s = await act(w.agents.supervisor, p.id, { action: 'submit', version: await version(w, p.id) });
+    expect(s.status).toBe(200);
+    await setRole(editor.id, 'coordinator');
+    const mine = await act(editor.agent, p.id, { action: 'approve', version: s.body.permit.version, password: DEMO_PASSWORD });
+    expect(mine.status).toBe(403);
+    expect(mine.body.error.message).toMatch(/requested or changed/);
+    // Approved by someone else, then revised by a third person, who becomes a coordinator too.
+    const a = await act(w.agents.coordinator, p.id, { action: 'approve', version: s.body.permit.version, password: DEMO_PASSWORD });
+    expect(a.status).toBe(200);
+    const r = await act(reviser.agent, p.id, { action: 'revise', version: a.body.permit.version, reason: 'Longer window' });
+    expect(r.status).toBe(200);
+    const s2 = await act(w.agents.supervisor, p.id, { action: 'submit', version: r.body.permit.version });
+    expect(s2.status).toBe(200);
+    await setRole(reviser.id, 'coordinator');
+    const revised = await act(reviser.agent, p.id, { action: 'decline', reason: 'No', version: s2.body.permit.version, password: DEMO_PASSWORD });
+    expect(revised.status).toBe(403);
+    expect(revised.body.error.message).toMatch(/requested or changed/);
+    await act(w.agents.supervisor, p.id, { action: 'withdraw', version: s2.body.permit.version }).expect(200);
+  });
+
+  it('limits the password that signs a decision like sign-in: the last allowed wrong one ends every session (401), signing in again starts afresh', async () => {
+    const limit = t.deps.config.signInLimitPerAccount;
+    const c = await member('coordinator');
+    const second = await signedIn(t.app, c.email);
+    const p = await submitted();
+    for (let i = 1; i < limit; i++) {
+      const r = await act(c.agent, p.id, { action: 'approve', version: p.version, password: `wrong-${i}` });
+      expect(r.status, `attempt ${i}`).toBe(400);
+      expect(r.body.error.fields).toEqual({ password: 'is not your password' });
+    }
+    const last = await act(c.agent, p.id, { action: 'approve', version: p.version, password: 'wrong-last' });
+    expect(last.status).toBe(401);
+    expect(last.body.error.code).toBe('signed_out');
+    // Every session of the person has ended: the right password no longer signs anything.
+    expect((await act(c.agent, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD })).status).toBe(401);
+    expect((await second.get('/api/auth/me')).status).toBe(401);
+    expect(await version(w, p.id)).toBe(p.version);
+    // Signing in (itself limited) proves the password and clears the count.
+    const again = await signedIn(t.app, c.email);
+    const ok = await act(again, p.id, { action: 'return', reason: 'Move the loads', version: p.version, password: DEMO_PASSWORD });
+    expect(ok.status).toBe(200);
   });
 });

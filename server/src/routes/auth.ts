@@ -44,7 +44,7 @@ export function registerAuthRoutes(api: Api): void {
     legacyHeaders: false,
     message: tooMany('Too many sign-in attempts from this address. Wait a few minutes and try again.'),
   });
-  const { signIn, signInAccount, forgotPerIp, forgotPerAccount } = api.throttles;
+  const { signIn, signInAccount, forgotPerIp, forgotPerAccount, decisionPassword } = api.throttles;
   const accountKey = (email: string) => `${email.trim().toLowerCase()}|`;
 
   api.route(
@@ -79,6 +79,8 @@ export function registerAuthRoutes(api: Api): void {
         throw new HttpError(401, 'bad_credentials', 'That e-mail and password do not match an active account.');
       }
       await signInSession(req, u.id);
+      // Signing in proves the password: the count of wrong ones under decisions starts again.
+      decisionPassword.clear(`${u.id}|`);
       await audit(db, { actorId: u.id, entity: 'user', entityId: u.id, action: 'signed-in' });
       return { user: await loadMe(db, u.id) };
     },

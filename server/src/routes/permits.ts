@@ -9,6 +9,7 @@ import {
   permitCreateSchema,
   permitListQuerySchema,
   permitUpdateSchema,
+  transitionRules,
   transitionSchema,
   type PermitStatus,
 } from '@shared/schemas/permits';
@@ -18,7 +19,8 @@ import { filesOf, limits, receiveFiles, sendUpload, storeUpload } from '../servi
 import { userActor } from '../services/permits/actors';
 import { confirmBriefing } from '../services/permits/briefing';
 import { checkProposal, ensureChecked } from '../services/permits/check';
-import { StaleError, transition } from '../services/permits/machine';
+import { assertMayAct, StaleError, transition, WrongPasswordError } from '../services/permits/machine';
+import { endSessionsOf } from '../services/people';
 import { permitPdf } from '../services/permits/pdf';
 import { listPermits, loadDetail, loadRevision, siteOfPermit } from '../services/permits/read';
 import { addComment, createPermit, updatePermit } from '../services/permits/write';
@@ -35,6 +37,7 @@ const attachmentParams = z.object({ id: idSchema, attachmentId: idSchema });
 /** Permits, with every change checked against the status, the role and the version. */
 export function registerPermitRoutes(api: Api): void {
   const { db } = api.deps;
+  const { decisionPassword } = api.throttles;
   const permitSite = (req: Request) => siteOfPermit(db, Number(req.params.id));
   const members = { kind: 'site', roles: 'any', admin: true, siteId: permitSite } as const;
 
@@ -175,18 +178,45 @@ export function registerPermitRoutes(api: Api): void {
       tag: 'Permits',
       access: members,
       params: idParams,
+      // The role (and, for a decision, that the caller is not the permit's author) is decided before
+      // the body is validated: an operator posting `approve` learns nothing about its fields.
+      beforeBody: async ({ params, user, rawBody }) => {
+        const p = await db.selectFrom('permits').select(['id', 'site_id', 'number']).where('id', '=', params.id).executeTakeFirst();
+        if (!p) throw notFound('That permit');
+        await assertMayAct(db, p, (rawBody as { action?: unknown } | undefined)?.action, userActor(user!));
+      },
       body: transitionSchema,
+      responses: { 401: 'Signed out after too many wrong passwords under decisions' },
     },
-    async ({ params, body, user, site, deps, res }) =>
-      answerWithPermit(res, params.id, { id: user!.id, role: site?.role ?? null }, () =>
-        transition(deps, params.id, body.action, userActor(user!), {
-          version: body.version,
-          reason: body.reason,
-          standoff: body.standoff,
-          conditions: body.conditions,
-          password: body.password,
-        }),
-      ),
+    async ({ params, body, user, site, deps, req, res }) => {
+      // The password that signs a decision is limited like sign-in: SIGNIN_LIMIT_PER_ACCOUNT wrong
+      // ones a quarter hour per person end every session of theirs (401); signing in again clears it.
+      const key = `${user!.id}|`;
+      const signOff = async () => {
+        await endSessionsOf(db, user!.id);
+        await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
+        res.clearCookie('brink.sid', { path: '/' });
+        return new HttpError(401, 'signed_out', 'Too many wrong passwords under a decision: you have been signed out. Sign in again to continue.');
+      };
+      if (transitionRules[body.action].signed && decisionPassword.blocked(key)) throw await signOff();
+      return answerWithPermit(res, params.id, { id: user!.id, role: site?.role ?? null }, async () => {
+        try {
+          return await transition(deps, params.id, body.action, userActor(user!), {
+            version: body.version,
+            reason: body.reason,
+            standoff: body.standoff,
+            conditions: body.conditions,
+            password: body.password,
+          });
+        } catch (err) {
+          if (err instanceof WrongPasswordError) {
+            decisionPassword.hit(key);
+            if (decisionPassword.blocked(key)) throw await signOff();
+          }
+          throw err;
+        }
+      });
+    },
   );
 
   api.route(

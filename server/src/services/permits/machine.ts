@@ -2,6 +2,7 @@ import bcrypt from 'bcryptjs';
 import { sql } from 'kysely';
 import type { Db } from '@db/database';
 import {
+  permitActions,
   statusLabels,
   transitionRules,
   type PermitAction,
@@ -45,11 +46,74 @@ export class StaleError extends HttpError {
   }
 }
 
+/** A wrong password under a decision: 400 naming the field; the route counts it (attempt limit). */
+export class WrongPasswordError extends HttpError {
+  constructor() {
+    super(400, 'invalid', 'That is not your password: the decision was not signed.', { password: 'is not your password' });
+  }
+}
+
 type PermitRow = { id: number; site_id: number; number: string; status: PermitStatus; version: number; revision: number; requested_by: number };
+
+/** The decisions on a request; nobody takes one on a permit they requested or changed. */
+const DECISIONS: readonly PermitAction[] = ['approve', 'return', 'decline'];
+/** Timeline actions that make a person an author of a permit (any revision of it). */
+const AUTHORING = ['create', 'edit', 'revise', 'submit'];
+
+/**
+ * Whether the person requested the permit or changed any revision of it: asked for it, created or
+ * edited a revision, revised it or sent it for review. Read from the records, so it holds whatever
+ * role the person has now.
+ */
+export async function isAuthorOf(db: Db, permitId: number, userId: number): Promise<boolean> {
+  const row = await db
+    .selectFrom('permits as p')
+    .select((eb) => [
+      eb
+        .or([
+          eb('p.requested_by', '=', userId),
+          eb.exists(eb.selectFrom('permit_revisions as r').select('r.id').whereRef('r.permit_id', '=', 'p.id').where('r.created_by', '=', userId)),
+          eb.exists(
+            eb.selectFrom('permit_events as e').select('e.id').whereRef('e.permit_id', '=', 'p.id').where('e.actor_id', '=', userId).where('e.action', 'in', AUTHORING),
+          ),
+        ])
+        .as('author'),
+    ])
+    .where('p.id', '=', permitId)
+    .executeTakeFirst();
+  return Boolean(row?.author);
+}
+
+/**
+ * Who may take `action` on the permit: its site role (403 naming who may), and for a decision
+ * (approve, return, decline) not one of its authors (403). Run by the route before the body is
+ * validated (`action` is then untrusted: an unknown one passes only for a role that can take some
+ * action, and the body's validation names it) and again inside the transition, under the lock.
+ */
+export async function assertMayAct(db: Db, p: { id: number; site_id: number; number: string }, action: unknown, actor: Actor): Promise<void> {
+  const role = await roleOf(db, actor, p.site_id);
+  if (!role) throw forbidden('You are not a member of this permit\u2019s site.');
+  const known = (permitActions as readonly unknown[]).includes(action) ? (action as PermitAction) : null;
+  if (!known) {
+    if (!permitActions.some((a) => transitionRules[a].by.includes(role))) throw forbidden(`Your role on this site (${role}) does not move permits on.`);
+    return;
+  }
+  const rule = transitionRules[known];
+  if (!rule.by.includes(role)) {
+    throw forbidden(
+      rule.by.includes('system') && rule.by.length === 1
+        ? `Brink does this itself (${rule.label.toLowerCase()}); nobody can do it by hand.`
+        : `Only a ${rule.by.filter((r) => r !== 'system').join(' or ')} may ${rule.label.toLowerCase()} a permit.`,
+    );
+  }
+  if (actor.kind === 'user' && DECISIONS.includes(known) && (await isAuthorOf(db, p.id, actor.id))) {
+    throw forbidden(`You requested or changed permit ${p.number}, so you cannot decide on it (${rule.label.toLowerCase()}): another coordinator must.`);
+  }
+}
 
 /**
  * Moves a permit along the status machine (shared/schemas/permits.ts `transitionRules`) in one
- * transaction: checks the actor's role (403), the version (409) and the current status (409),
+ * transaction: checks the actor's role and that a decision is not its author's (403, `assertMayAct`), the version (409) and the current status (409),
  * the action's own rules (400 naming the field), records the decision, the timeline event and the
  * audit entry, and queues the e-mails to the people who must act next, all in one transaction.
  * Given `deps.db` that is already a transaction (`{ ...deps, db: trx }`), it runs inside it, so a
@@ -68,7 +132,6 @@ export async function transition(
 ): Promise<TransitionOutcome> {
   const rule = transitionRules[action];
   const now = deps.now();
-  if (rule.reason && !opts.reason?.trim()) throw badRequest(`A reason is required to ${rule.label.toLowerCase()}.`, { reason: 'is required' });
 
   return inTransaction(deps.db, async (trx) => {
     const p = (await trx
@@ -79,15 +142,8 @@ export async function transition(
       .executeTakeFirst()) as PermitRow | undefined;
     if (!p) throw notFound('That permit');
 
-    const role = await roleOf(trx, actor, p.site_id);
-    if (!role) throw forbidden('You are not a member of this permit\u2019s site.');
-    if (!rule.by.includes(role)) {
-      throw forbidden(
-        rule.by.includes('system') && rule.by.length === 1
-          ? `Brink does this itself (${rule.label.toLowerCase()}); nobody can do it by hand.`
-          : `Only a ${rule.by.filter((r) => r !== 'system').join(' or ')} may ${rule.label.toLowerCase()} a permit.`,
-      );
-    }
+    await assertMayAct(trx, p, action, actor);
+    if (rule.reason && !opts.reason?.trim()) throw badRequest(`A reason is required to ${rule.label.toLowerCase()}.`, { reason: 'is required' });
     if (actor.kind === 'user' && opts.version === undefined) throw badRequest('The version is required.', { version: 'is required' });
     if (opts.version !== undefined && opts.version !== p.version) {
       throw new StaleError(
@@ -115,7 +171,7 @@ export async function transition(
       if (actor.kind !== 'user') throw forbidden('A decision needs a person.');
       const u = await trx.selectFrom('users').select(['password_hash', 'name']).where('id', '=', actor.id).executeTakeFirstOrThrow();
       if (!u.password_hash || !(await bcrypt.compare(opts.password ?? '', u.password_hash))) {
-        throw badRequest('That is not your password: the decision was not signed.', { password: 'is not your password' });
+        throw new WrongPasswordError();
       }
       actorName = u.name;
     }
