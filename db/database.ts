@@ -284,6 +284,10 @@ export interface PermitRevisionsTable {
   checked_at: Timestamp | null;
   /** The coordinator's decision on this revision (`PermitDecision`). */
   decision: Json<unknown> | null;
+  /** The machines the loads name, frozen when the revision was sent for review (`PlantSnapshot`). */
+  plant_snapshot: Json<unknown> | null;
+  /** The check inputs of the excavations the last stored check used (`ExcavationSnapshot`). */
+  excavation_snapshot: Json<unknown> | null;
   created_by: number | null;
   created_at: CreatedAt;
   updated_at: CreatedAt;

@@ -23,7 +23,8 @@ async function trenchWithLivePermit(supervisor: APIRequestContext, coordinator: 
   const { site } = await ok<{ site: { latitude: number; longitude: number } }>(await supervisor.get(`/api/sites/${siteId}`), 'site');
   const reference = `E2E-${randomUUID().slice(0, 4)}`;
   const { excavation } = await ok<{ excavation: { id: number } }>(
-    await supervisor.post(`/api/sites/${siteId}/excavations`, {
+    // Registering an excavation with its support and soil is a coordinator's part.
+    await coordinator.post(`/api/sites/${siteId}/excavations`, {
       data: {
         reference,
         name: 'Land drain trench (test)',

@@ -202,6 +202,11 @@ interface AuthedRequest extends Request {
   siteAccess?: RouteContext<unknown, unknown, unknown>['site'];
 }
 
+/** The site and role a route was authorised on (for `before` middleware, which runs ahead of validation). */
+export function siteAccessOf(req: Request): RouteContext<unknown, unknown, unknown>['site'] {
+  return (req as AuthedRequest).siteAccess ?? null;
+}
+
 declare module 'express-serve-static-core' {
   interface Request {
     user?: SessionUser;

@@ -72,9 +72,10 @@ const count = async (reference?: string) =>
   );
 
 describe('excavation register: roles', () => {
-  it('lets supervisors and coordinators create, edit and delete; operators only read', async () => {
+  it('lets coordinators create; supervisors and coordinators edit what is on the ground and delete; operators only read', async () => {
     for (const who of ['coordinator', 'supervisor'] as const) {
-      const c = await as[who].post(`/api/sites/${siteId}/excavations`).send(trench());
+      // Registering an excavation sets its design data (support, soil): a coordinator's part.
+      const c = await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(trench());
       expect(c.status).toBe(201);
       const e: Excavation = c.body.excavation;
       const p = await as[who].patch(`/api/sites/${siteId}/excavations/${e.id}`).send({ name: 'Renamed trench', version: e.version });
@@ -99,9 +100,9 @@ describe('excavation register: roles', () => {
 
   it('keeps each site to its own people: another site is 403, another site’s excavation is 404', async () => {
     const other = await t.deps.db.insertInto('sites').values({ name: `Other ${randomUUID().slice(0, 6)}`, latitude: origin.latitude, longitude: origin.longitude }).returning('id').executeTakeFirstOrThrow();
-    const email = unique('othersup');
-    const u = await t.deps.db.insertInto('users').values({ email, name: 'Other supervisor', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
-    await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role: 'supervisor' }).execute();
+    const email = unique('othercoord');
+    const u = await t.deps.db.insertInto('users').values({ email, name: 'Other coordinator', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+    await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role: 'coordinator' }).execute();
     const outsider = await signedIn(t.app, email);
 
     const mine = (await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(trench())).body.excavation as Excavation;
@@ -242,7 +243,7 @@ describe('excavation register: changes', () => {
     const e = (await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(trench())).body.excavation as Excavation;
     t.clock.now = new Date('2026-03-02T07:30:00Z');
     try {
-      const p = await as.supervisor.patch(`/api/sites/${siteId}/excavations/${e.id}`).send({ depth: 3.1, supportType: 'trench-box', version: e.version });
+      const p = await as.coordinator.patch(`/api/sites/${siteId}/excavations/${e.id}`).send({ depth: 3.1, supportType: 'trench-box', version: e.version });
       expect(p.status).toBe(200);
       expect(p.body.excavation).toMatchObject({ depth: 3.1, supportType: 'trench-box', version: e.version + 1 });
     } finally {
@@ -257,15 +258,15 @@ describe('excavation register: changes', () => {
     const [saved] = (await as.operator.get(`/api/sites/${siteId}/excavations`)).body.excavations.filter((x: Excavation) => x.id === e.id);
     expect(saved).toMatchObject({ depth: 3.1, supportType: 'trench-box', version: e.version + 1 });
 
-    const supervisorId = (await t.deps.db.selectFrom('users').select('id').where('email', '=', demo.supervisor).executeTakeFirstOrThrow()).id;
+    const coordinatorId = (await t.deps.db.selectFrom('users').select('id').where('email', '=', demo.coordinator).executeTakeFirstOrThrow()).id;
     const log = await t.deps.db.selectFrom('audit_log').selectAll().where('entity', '=', 'excavation').where('entity_id', '=', String(e.id)).orderBy('id').execute();
     expect(log.map((l) => l.action)).toEqual(['created', 'depth-or-support-changed']);
-    expect(log[1].actor_id).toBe(supervisorId);
+    expect(log[1].actor_id).toBe(coordinatorId);
     expect((log[1].detail as { changes: unknown }).changes).toEqual({ depth: { from: 2.4, to: 3.1 }, supportType: { from: 'hydraulic-frames', to: 'trench-box' } });
 
     const history = await as.operator.get(`/api/sites/${siteId}/excavations/${e.id}/history`);
     expect(history.status).toBe(200);
-    expect(history.body.entries[0]).toMatchObject({ by: 'Sana Whitlock (demo supervisor)', action: 'depth-or-support-changed' });
+    expect(history.body.entries[0]).toMatchObject({ by: 'Colm Ridley (demo coordinator)', action: 'depth-or-support-changed' });
     expect(history.body.entries[0].changes.depth).toEqual({ from: 2.4, to: 3.1 });
   });
 
@@ -324,7 +325,7 @@ describe('GeoJSON export and import', () => {
     const goods = [trench(), pit(), trench({ geometry: { type: 'LineString', coordinates: [at(-100, 90), at(-60, 95)] } })];
     const bad = trench({ depth: 0 });
     const before = await count();
-    const r = await importTo(as.supervisor, siteId, { type: 'FeatureCollection', features: [feature(goods[0]), feature(goods[1]), feature(bad), feature(goods[2])] });
+    const r = await importTo(as.coordinator, siteId, { type: 'FeatureCollection', features: [feature(goods[0]), feature(goods[1]), feature(bad), feature(goods[2])] });
     expect(r.status).toBe(400);
     expect(r.body.error.message).toMatch(/Nothing was imported: 1 of 4 features was refused/);
     expect(r.body.report.refused).toEqual([{ index: 2, reference: bad.reference, reasons: { depth: 'must be greater than 0 m' } }]);

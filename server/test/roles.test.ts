@@ -182,6 +182,43 @@ describe('role matrix', () => {
   });
 });
 
+/**
+ * The support's design data (issue 10 §3): coordinators and administrators set it; supervisors
+ * record the ground as dug. Each row sends one design field with a value the schema refuses: an
+ * allowed role gets past the role rule to validation (400 naming the field), a supervisor is refused
+ * first (403 naming it), and the excavation is unchanged either way.
+ */
+const designRows: Record<string, unknown> = {
+  supportType: 12,
+  designSurcharge: 'ten',
+  ratedPressure: 'high',
+  soil: 'sand',
+  groundwaterDepth: 'wet',
+  wallFriction: 'rough',
+  pressureState: 'squeezed',
+  restraint: 'loose',
+  designReference: 7,
+};
+
+describe('role matrix: design data of an excavation', () => {
+  for (const [field, bad] of Object.entries(designRows)) {
+    for (const who of ['admin', 'coordinator', 'supervisor'] as const) {
+      const allowed = who !== 'supervisor';
+      it(`PATCH ${field} as ${who} → ${allowed ? 'allowed' : '403 naming it'}`, async () => {
+        const e = await t.deps.db.selectFrom('excavations').select(['version']).where('id', '=', real.excavation).executeTakeFirstOrThrow();
+        const r = await agents.get(who)!.patch(`/api/sites/${siteId}/excavations/${real.excavation}`).send({ version: e.version, [field]: bad });
+        expect(r.status).toBe(allowed ? 400 : 403);
+        expect(Object.keys(r.body.error.fields ?? {}).some((k) => k === field || k.startsWith(`${field}.`) || k.startsWith(`${field}[`))).toBe(true);
+      });
+    }
+    it(`POST with ${field} as supervisor → 403 naming it`, async () => {
+      const r = await agents.get('supervisor')!.post(`/api/sites/${siteId}/excavations`).send({ reference: 'X', [field]: bad });
+      expect(r.status).toBe(403);
+      expect(r.body.error.fields).toEqual({ [field]: 'is set by a coordinator or an administrator' });
+    });
+  }
+});
+
 describe('administration of people', () => {
   it('deactivating a person ends their sessions at once', async () => {
     const email = unique('leaver');

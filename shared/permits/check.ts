@@ -101,6 +101,11 @@ export interface CheckInput {
   plant: Map<number, PlantForCheck>;
   /** Candidates; only those on the same excavation with an overlapping window are counted. */
   others: OtherPermit[];
+  /**
+   * The machines of other permits frozen when each was sent for review (by permit id); a permit
+   * without one uses `plant`.
+   */
+  otherPlant?: Map<number, Map<number, PlantForCheck>>;
   now: Date;
 }
 
@@ -326,7 +331,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
       for (const load of o.loads) {
         let feet: Footprint[];
         try {
-          feet = footprintsOf(load, input.plant, proj);
+          feet = footprintsOf(load, input.otherPlant?.get(o.id) ?? input.plant, proj);
         } catch {
           warnings.push(`permit ${o.number}: load ${load.id} could not be placed and is not counted`);
           continue;

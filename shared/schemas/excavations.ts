@@ -258,3 +258,56 @@ export interface ImportReport {
 
 export const importModes = ['add', 'replace'] as const;
 export type ImportMode = (typeof importModes)[number];
+
+/**
+ * The fields the check of a load beside an excavation reads (its plan shape, depth, support, soil,
+ * water and state). A change to any of them re-checks every permit that stands on the excavation
+ * (server/src/services/permits/recheck.ts).
+ */
+export const checkInputFields = [
+  'kind',
+  'geometry',
+  'width',
+  'depth',
+  'state',
+  'supportType',
+  'designSurcharge',
+  'ratedPressure',
+  'restraint',
+  'pressureState',
+  'wallFriction',
+  'soil',
+  'groundwaterDepth',
+] as const satisfies readonly (keyof ExcavationValues)[];
+export type CheckInputs = Pick<ExcavationValues, (typeof checkInputFields)[number]>;
+
+/**
+ * The support's design data: set by coordinators and administrators alone. Supervisors record what
+ * is on the ground (outline, depth as dug, state, name, notes); a supervisor sending any of these
+ * fields is refused (403 naming them).
+ */
+export const designFields = [
+  'supportType',
+  'designSurcharge',
+  'ratedPressure',
+  'soil',
+  'groundwaterDepth',
+  'wallFriction',
+  'pressureState',
+  'restraint',
+  'designReference',
+] as const satisfies readonly (keyof ExcavationValues)[];
+export type DesignField = (typeof designFields)[number];
+
+/** The design fields present (not undefined) in a request body or import feature's properties. */
+export function designFieldsIn(body: unknown): DesignField[] {
+  if (typeof body !== 'object' || body === null || Array.isArray(body)) return [];
+  return designFields.filter((f) => (body as Record<string, unknown>)[f] !== undefined);
+}
+
+/** JSON with object keys sorted: PostgreSQL's jsonb keeps its own key order, so values are compared this way. */
+export function canonical(v: unknown): string {
+  return JSON.stringify(v, (_k, x: unknown) =>
+    x && typeof x === 'object' && !Array.isArray(x) ? Object.fromEntries(Object.entries(x as Record<string, unknown>).sort(([a], [b]) => (a < b ? -1 : 1))) : x,
+  );
+}

@@ -7,6 +7,7 @@
  */
 import { z } from 'zod';
 import type { SiteRole } from './common';
+import type { PlantElement } from './plant';
 
 // ---------------------------------------------------------------------------------------------
 // Statuses and actions
@@ -46,7 +47,7 @@ export const editableStatuses: readonly PermitStatus[] = ['draft', 'returned'];
 /** Permits whose loads may stand beside an excavation during their window: counted in the cumulative check. */
 export const countedStatuses: readonly PermitStatus[] = ['approved', 'live', 'suspended'];
 
-export const permitActions = ['submit', 'approve', 'return', 'decline', 'start', 'suspend', 'resume', 'hand_back', 'lapse', 'revise', 'withdraw'] as const;
+export const permitActions = ['submit', 'approve', 'return', 'decline', 'start', 'suspend', 'resume', 'hand_back', 'lapse', 'revise', 'withdraw', 'reconsider'] as const;
 export type PermitAction = (typeof permitActions)[number];
 
 /** Who acts: a role on the permit's site, or Brink itself (the schedule, a failed inspection). */
@@ -80,6 +81,9 @@ export const transitionRules: Record<PermitAction, TransitionRule> = {
   lapse: { from: ['approved', 'live', 'suspended'], to: 'lapsed', by: ['system'], reason: false, signed: false, label: 'Lapse' },
   revise: { from: ['approved', 'live', 'suspended'], to: 'draft', by: ['supervisor'], reason: true, signed: false, label: 'Change (new revision)' },
   withdraw: { from: ['draft', 'submitted', 'returned', 'approved'], to: 'withdrawn', by: ['supervisor'], reason: false, signed: false, label: 'Withdraw' },
+  // An approved permit whose excavation changed so that its loads now fail, or need more standoff
+  // than was approved, goes back for a coordinator's decision (server/src/services/permits/recheck.ts).
+  reconsider: { from: ['approved'], to: 'submitted', by: ['system'], reason: true, signed: false, label: 'Send back for review' },
 };
 
 /** The actions a person in this role may take on a permit in this status. */
@@ -434,6 +438,33 @@ export interface PermitAttachment {
   url: string;
 }
 
+/** A machine of the plant library as a revision's check used it (element loads and footprints). */
+export interface SnapshotMachine {
+  id: number;
+  name: string;
+  operatingMass: number;
+  designFactor: number;
+  elements: PlantElement[];
+  /** The library entry's version and last change when it was taken. */
+  version: number;
+  updatedAt: string;
+}
+
+/**
+ * The machines a revision's loads name, frozen when it was sent for review: from then on its check
+ * uses these, so a later change to the shared plant library changes drafts only.
+ */
+export interface PlantSnapshot {
+  takenAt: string;
+  machines: SnapshotMachine[];
+}
+
+/** The check inputs of the excavations a revision's last stored check used, with their register version. */
+export interface ExcavationSnapshot {
+  takenAt: string;
+  excavations: ({ id: number; reference: string; name: string; version: number } & Record<string, unknown>)[];
+}
+
 export interface PermitRevision {
   revision: number;
   description: string;
@@ -447,6 +478,10 @@ export interface PermitRevision {
   check: PermitCheck | null;
   checkedAt: string | null;
   decision: PermitDecision | null;
+  /** The machines its check uses from review on (null for a draft, or a revision stored before snapshots). */
+  plantSnapshot: PlantSnapshot | null;
+  /** The excavation inputs its last stored check used (null before any). */
+  excavationSnapshot: ExcavationSnapshot | null;
   createdAt: string;
 }
 

@@ -1,6 +1,9 @@
 import { z } from 'zod';
+import type { Request, RequestHandler } from 'express';
 import { idSchema } from '@shared/schemas/common';
 import {
+  canonical,
+  designFieldsIn,
   excavationInputSchema,
   excavationUpdateSchema,
   importModes,
@@ -8,12 +11,13 @@ import {
   type ImportReport,
 } from '@shared/schemas/excavations';
 import type { Db } from '@db/database';
-import { Api, badRequest, conflict, HttpError, notFound, parseOr400, siteFromParam, type Access } from '../http';
+import { Api, badRequest, conflict, HttpError, notFound, parseOr400, siteAccessOf, siteFromParam, type Access } from '../http';
 import { audit } from '../services/audit';
 import { listNumbers, permitsReferring } from '../services/permit-references';
 import { columnsOf, loadExcavations, placementProblems, projectionOf, readImport, rowValues, storedShapes, toFeatureCollection } from '../services/excavations';
 import { isForeignKeyViolation, isUniqueViolation } from '../services/pg-errors';
 import { filesOf, limits, MB, receiveFiles, storeUpload } from '../services/uploads';
+import { recheckAfterExcavationChange, type RecheckOutcome } from '../services/permits/recheck';
 
 /** Every member of the site reads the register (and administrators). */
 export const siteReaders: Access = { kind: 'site', roles: 'any', admin: true, siteId: siteFromParam };
@@ -25,6 +29,42 @@ export const IMPORT_LIMIT = 10 * MB;
 
 const siteParams = z.object({ siteId: idSchema });
 const oneParams = z.object({ siteId: idSchema, id: idSchema });
+
+/** Whether the caller is a supervisor (and not an administrator): they record what is on the ground, not the design. */
+function isSupervisor(req: Request): boolean {
+  return !req.user?.isAdmin && siteAccessOf(req)?.role === 'supervisor';
+}
+
+/** 403 naming the design fields a supervisor sent (`prefix` for import features: `features[2].`). */
+function designDataRefused(fields: string[]): HttpError {
+  const names = fields.map((f) => f.replace(/^features\[\d+\]\./, ''));
+  return new HttpError(
+    403,
+    'forbidden',
+    `Only a coordinator or an administrator sets an excavation's design data (${[...new Set(names)].join(', ')}). Supervisors record what is on the ground: outline, depth as dug, state, name and notes.`,
+    Object.fromEntries(fields.map((f) => [f, 'is set by a coordinator or an administrator'])),
+  );
+}
+
+/** Refuses design fields from a supervisor before the body is validated (the role decides first). */
+const designByCoordinators: RequestHandler = (req, _res, next) => {
+  if (isSupervisor(req)) {
+    const sent = designFieldsIn(req.body);
+    if (sent.length) throw designDataRefused(sent);
+  }
+  next();
+};
+
+/** The design fields that the features of an import file set, as `features[i].field` (none when it is not readable: validation says why). */
+function designFieldsInImport(text: string): string[] {
+  try {
+    const doc = JSON.parse(text.replace(/^\uFEFF/, '')) as { features?: unknown };
+    if (!Array.isArray(doc?.features)) return [];
+    return doc.features.flatMap((f: unknown, i: number) => designFieldsIn((f as { properties?: unknown } | null)?.properties).map((k) => `features[${i}].${k}`));
+  } catch {
+    return [];
+  }
+}
 
 /** Fields whose change the audit log must show with who and when (depth and the support). */
 const SUPPORT_FIELDS = ['depth', 'supportType', 'designSurcharge', 'ratedPressure', 'restraint', 'pressureState', 'wallFriction'] as const;
@@ -45,13 +85,6 @@ function checkPlacement(values: ExcavationValues, site: { latitude: number; long
 
 const referenceTaken = (reference: string) =>
   new HttpError(400, 'invalid', `Reference ${reference} is already used on this site.`, { reference: 'is already used on this site' });
-
-/** JSON with object keys sorted: PostgreSQL's jsonb keeps its own key order, so compare this way. */
-function canonical(v: unknown): string {
-  return JSON.stringify(v, (_k, x: unknown) =>
-    x && typeof x === 'object' && !Array.isArray(x) ? Object.fromEntries(Object.entries(x as Record<string, unknown>).sort(([a], [b]) => (a < b ? -1 : 1))) : x,
-  );
-}
 
 /** Field → { from, to } for every field whose value differs. */
 function changesBetween(before: ExcavationValues, after: ExcavationValues): Record<string, { from: unknown; to: unknown }> {
@@ -92,6 +125,7 @@ export function registerExcavationRoutes(api: Api): void {
       access: siteWriters,
       params: siteParams,
       body: excavationInputSchema,
+      before: [designByCoordinators],
       responses: { 201: 'Created' },
     },
     async ({ params, body, user, res }) => {
@@ -120,15 +154,17 @@ export function registerExcavationRoutes(api: Api): void {
     {
       method: 'patch',
       path: '/api/sites/:siteId/excavations/:id',
-      summary: 'Change an excavation: any fields with the version you read (409 when stale); changes to depth and support are audited',
+      summary:
+        'Change an excavation: any fields with the version you read (409 when stale; design data by coordinators only, 403 naming the fields); changes to depth and support are audited, and a change to the check inputs re-checks every permit that stands on it in the same transaction',
       tag: 'Excavations',
       access: siteWriters,
       params: oneParams,
       body: excavationUpdateSchema,
+      before: [designByCoordinators],
     },
     async ({ params, body, user, deps }) => {
       const site = await siteOrigin(db, params.siteId);
-      await db
+      const rechecked: RecheckOutcome[] = await db
         .transaction()
         .execute(async (trx) => {
           const old = await trx.selectFrom('excavations').selectAll().where('id', '=', params.id).where('site_id', '=', site.id).forUpdate().executeTakeFirst();
@@ -144,7 +180,7 @@ export function registerExcavationRoutes(api: Api): void {
           const after = parseOr400(excavationInputSchema, merged, 'request');
           checkPlacement(after, site);
           const diff = changesBetween(before, after);
-          if (Object.keys(diff).length === 0) return;
+          if (Object.keys(diff).length === 0) return [];
           const redraw = ['geometry', 'kind', 'width', 'depth'].some((k) => k in diff);
           const shapes = redraw ? (await storedShapes(deps.geometry, [after], site))[0] : {};
           await trx
@@ -152,6 +188,9 @@ export function registerExcavationRoutes(api: Api): void {
             .set({ ...columnsOf(after), ...shapes, version: old.version + 1, updated_at: deps.now() })
             .where('id', '=', old.id)
             .execute();
+          // The permits that stand on it are re-checked in this transaction: the change and its
+          // consequences (suspensions, reviews, notices) commit together.
+          const outcomes = await recheckAfterExcavationChange({ ...deps, db: trx }, { siteId: site.id, excavationId: old.id, before, after, by: user!.name });
           const supportChanged = SUPPORT_FIELDS.filter((f) => f in diff);
           await audit(trx, {
             actorId: user!.id,
@@ -159,13 +198,14 @@ export function registerExcavationRoutes(api: Api): void {
             entity: 'excavation',
             entityId: old.id,
             action: supportChanged.length ? 'depth-or-support-changed' : 'updated',
-            detail: { reference: after.reference, changes: diff, version: old.version + 1 },
+            detail: { reference: after.reference, changes: diff, version: old.version + 1, ...(outcomes.length ? { rechecked: outcomes } : {}) },
           });
+          return outcomes;
         })
         .catch((e) => {
           throw isUniqueViolation(e) ? referenceTaken(String(body.reference)) : e;
         });
-      return { excavation: await oneOrNotFound(db, site.id, params.id) };
+      return { excavation: await oneOrNotFound(db, site.id, params.id), rechecked };
     },
   );
 
@@ -256,7 +296,12 @@ export function registerExcavationRoutes(api: Api): void {
       const { mode } = parseOr400(z.object({ mode: z.enum(importModes, { error: 'must be add or replace' }).default('add') }), req.body ?? {}, 'request');
       const [file] = filesOf(req, 'file');
       if (!file) throw badRequest('Please choose a GeoJSON file.', { file: 'is required' });
-      const plan = await readImport(file.buffer.toString('utf8'), projectionOf(site));
+      const text = file.buffer.toString('utf8');
+      if (isSupervisor(req)) {
+        const sent = designFieldsInImport(text);
+        if (sent.length) throw designDataRefused(sent);
+      }
+      const plan = await readImport(text, projectionOf(site));
       if (plan.fileError) throw badRequest(`The file ${plan.fileError}.`, { file: plan.fileError });
 
       const existing = new Map(
@@ -302,7 +347,15 @@ export function registerExcavationRoutes(api: Api): void {
                 .set({ ...columnsOf(values), ...shapes[n], version: old.version + 1, updated_at: api.deps.now() })
                 .where('id', '=', oldId)
                 .execute();
-              await audit(trx, { actorId: user!.id, siteId: site.id, entity: 'excavation', entityId: oldId, action: 'import-replaced', detail: { reference: values.reference, changes: diff, version: old.version + 1 } });
+              const outcomes = await recheckAfterExcavationChange({ ...api.deps, db: trx }, { siteId: site.id, excavationId: oldId, before: rowValues(old), after: values, by: user!.name });
+              await audit(trx, {
+                actorId: user!.id,
+                siteId: site.id,
+                entity: 'excavation',
+                entityId: oldId,
+                action: 'import-replaced',
+                detail: { reference: values.reference, changes: diff, version: old.version + 1, ...(outcomes.length ? { rechecked: outcomes } : {}) },
+              });
               imported.push({ index, reference: values.reference, id: oldId, action: 'updated' });
             }
           }

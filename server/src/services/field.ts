@@ -5,7 +5,7 @@ import { exclusionZone, localProjection, prepareExcavation, type LocalProjection
 import { checkExcavationOf, footprintsOf } from '@shared/permits/check';
 import { supportLabels } from '@shared/schemas/excavations';
 import type { Concern, FieldExcavation, FieldFootprint, FieldPermit } from '@shared/schemas/field';
-import type { PermitRevision, PermitStatus } from '@shared/schemas/permits';
+import { editableStatuses, type PermitRevision, type PermitStatus } from '@shared/schemas/permits';
 import { loadExcavations } from './excavations';
 import { plantFor } from './permits/check';
 import { CAUTION } from './permits/caution';
@@ -129,7 +129,8 @@ export async function loadFieldPermit(db: Db, permitId: number, viewerId: number
     ];
   });
 
-  const plant = await plantFor(db, rev.loads);
+  // The machines the permit was approved with (frozen at review), not the library as it is now.
+  const plant = await plantFor(db, rev.loads, editableStatuses.includes(summary.status) ? null : rev.plantSnapshot);
   const footprints: FieldFootprint[] = [];
   const centres: XY[] = [];
   for (const load of rev.loads) {

@@ -1,7 +1,17 @@
 import { sql } from 'kysely';
 import type { Db } from '@db/database';
 import { CheckInputError, checkExcavationOf, cumulativeCheck, PlacementError, type CheckExcavation, type OtherPermit, type PlantForCheck } from '@shared/permits/check';
-import { countedStatuses, type CheckProposal, type PermitCheck, type PermitStatus, type PlacedLoad } from '@shared/schemas/permits';
+import {
+  countedStatuses,
+  editableStatuses,
+  type CheckProposal,
+  type ExcavationSnapshot,
+  type PermitCheck,
+  type PermitStatus,
+  type PlacedLoad,
+  type PlantSnapshot,
+} from '@shared/schemas/permits';
+import { checkInputFields } from '@shared/schemas/excavations';
 import { badRequest, HttpError, notFound } from '../../http';
 import { loadExcavations } from '../excavations';
 import { withCurrentRevision } from './read';
@@ -12,12 +22,59 @@ export async function excavationsFor(db: Db, siteId: number, ids: number[]): Pro
   return ids.flatMap((id) => list.filter((e) => e.id === id)).map(checkExcavationOf);
 }
 
-/** The plant items the loads name, from the library. */
-export async function plantFor(db: Db, loads: PlacedLoad[]): Promise<Map<number, PlantForCheck>> {
-  const ids = [...new Set(loads.flatMap((l) => (l.kind === 'plant' ? [l.plantItemId] : [])))];
-  if (!ids.length) return new Map();
+const plantIdsOf = (loads: PlacedLoad[]) => [...new Set(loads.flatMap((l) => (l.kind === 'plant' ? [l.plantItemId] : [])))];
+
+/**
+ * The plant items the loads name: from the revision's frozen machines when it has them (from
+ * review on), else from the library as it is now (drafts, and revisions stored before snapshots).
+ */
+export async function plantFor(db: Db, loads: PlacedLoad[], snapshot: PlantSnapshot | null = null): Promise<Map<number, PlantForCheck>> {
+  const frozen = snapshot ? machinesOf(snapshot) : new Map<number, PlantForCheck>();
+  const ids = plantIdsOf(loads).filter((id) => !frozen.has(id));
+  if (!ids.length) return frozen;
   const rows = await db.selectFrom('plant_items').select(['id', 'name', 'operating_mass', 'design_factor', 'elements']).where('id', 'in', ids).execute();
-  return new Map(rows.map((r) => [r.id, { id: r.id, name: r.name, operatingMass: r.operating_mass, designFactor: r.design_factor, elements: r.elements }]));
+  for (const r of rows) frozen.set(r.id, { id: r.id, name: r.name, operatingMass: r.operating_mass, designFactor: r.design_factor, elements: r.elements });
+  return frozen;
+}
+
+/** The machines of a snapshot as the check takes them. */
+export function machinesOf(snapshot: PlantSnapshot): Map<number, PlantForCheck> {
+  return new Map(snapshot.machines.map((m) => [m.id, { id: m.id, name: m.name, operatingMass: m.operatingMass, designFactor: m.designFactor, elements: m.elements }]));
+}
+
+/** The library's machines that the loads name, as they are now: frozen on a revision sent for review. */
+export async function takePlantSnapshot(db: Db, loads: PlacedLoad[], now: Date): Promise<PlantSnapshot> {
+  const ids = plantIdsOf(loads);
+  const rows = ids.length
+    ? await db.selectFrom('plant_items').select(['id', 'name', 'operating_mass', 'design_factor', 'elements', 'version', 'updated_at']).where('id', 'in', ids).orderBy('id').execute()
+    : [];
+  return {
+    takenAt: now.toISOString(),
+    machines: rows.map((r) => ({
+      id: r.id,
+      name: r.name,
+      operatingMass: r.operating_mass,
+      designFactor: r.design_factor,
+      elements: r.elements,
+      version: r.version,
+      updatedAt: new Date(r.updated_at).toISOString(),
+    })),
+  };
+}
+
+/** The check inputs of the excavations a check used, from the register as it is now. */
+async function excavationSnapshotOf(db: Db, siteId: number, check: PermitCheck, now: Date): Promise<ExcavationSnapshot> {
+  const list = await loadExcavations(db, siteId, check.excavations.map((e) => e.excavationId));
+  return {
+    takenAt: now.toISOString(),
+    excavations: list.map((e) => ({
+      id: e.id,
+      reference: e.reference,
+      name: e.name,
+      version: e.version,
+      ...Object.fromEntries(checkInputFields.map((k) => [k, e[k]])),
+    })),
+  };
 }
 
 /**
@@ -31,10 +88,10 @@ export async function overlappingPermits(
   exceptPermitId: number | null,
   excavationIds: number[],
   window: { start: Date; end: Date },
-): Promise<OtherPermit[]> {
+): Promise<(OtherPermit & { plantSnapshot: PlantSnapshot | null })[]> {
   if (!excavationIds.length) return [];
   let q = withCurrentRevision(db)
-    .select(['p.id', 'p.number', 'p.status', 'r.window_start', 'r.window_end', 'r.excavation_ids', 'r.loads'])
+    .select(['p.id', 'p.number', 'p.status', 'r.window_start', 'r.window_end', 'r.excavation_ids', 'r.loads', 'r.plant_snapshot'])
     .where('p.site_id', '=', siteId)
     .where('p.status', 'in', countedStatuses as PermitStatus[])
     .where(sql<boolean>`r.excavation_ids && ${sql.val(excavationIds)}::int[]`)
@@ -50,6 +107,7 @@ export async function overlappingPermits(
     windowEnd: new Date(r.window_end).toISOString(),
     excavationIds: r.excavation_ids,
     loads: r.loads as PlacedLoad[],
+    plantSnapshot: r.plant_snapshot as PlantSnapshot | null,
   }));
 }
 
@@ -62,6 +120,8 @@ export interface CheckSubject {
   excavationIds: number[];
   loads: PlacedLoad[];
   method: 'dispersion-45' | 'elastic';
+  /** The machines frozen when the permit was sent for review (null: the library as it is now). */
+  plantSnapshot: PlantSnapshot | null;
 }
 
 /**
@@ -75,8 +135,11 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
   const all = await loadExcavations(db, s.siteId);
   const excavations = s.excavationIds.flatMap((id) => all.filter((e) => e.id === id)).map(checkExcavationOf);
   const nearby = all.filter((e) => e.state === 'open' && !s.excavationIds.includes(e.id)).map(checkExcavationOf);
-  const others = await overlappingPermits(db, s.siteId, s.permitId, [...s.excavationIds, ...nearby.map((e) => e.id)], { start: s.windowStart, end: s.windowEnd });
-  const plant = await plantFor(db, [...s.loads, ...others.flatMap((o) => o.loads)]);
+  const candidates = await overlappingPermits(db, s.siteId, s.permitId, [...s.excavationIds, ...nearby.map((e) => e.id)], { start: s.windowStart, end: s.windowEnd });
+  // Each permit's loads with its own machines: frozen from review on, the library's for the rest.
+  const plant = await plantFor(db, [...s.loads, ...candidates.flatMap((o) => o.loads)], s.plantSnapshot);
+  const otherPlant = new Map(candidates.flatMap((o) => (o.plantSnapshot ? [[o.id, machinesOf(o.plantSnapshot)] as const] : [])));
+  const others = candidates.map(({ plantSnapshot: _p, ...o }) => o);
   const missing = s.loads.findIndex((l) => l.kind === 'plant' && !plant.has(l.plantItemId));
   if (missing >= 0) throw badRequest('A load names a machine that is not in the plant library.', { [`loads[${missing}].plantItemId`]: 'is not in the plant library' });
   try {
@@ -89,6 +152,7 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
       nearby,
       plant,
       others,
+      otherPlant,
       now,
     });
   } catch (err) {
@@ -106,14 +170,15 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
   }
 }
 
-async function subjectOf(db: Db, permitId: number): Promise<{ subject: CheckSubject; revisionId: number }> {
+async function subjectOf(db: Db, permitId: number): Promise<{ subject: CheckSubject; revisionId: number; status: PermitStatus }> {
   const r = await withCurrentRevision(db)
-    .select(['p.id', 'p.site_id', 'p.number', 'r.id as revision_id', 'r.window_start', 'r.window_end', 'r.excavation_ids', 'r.loads', 'r.method'])
+    .select(['p.id', 'p.site_id', 'p.number', 'p.status', 'r.id as revision_id', 'r.window_start', 'r.window_end', 'r.excavation_ids', 'r.loads', 'r.method', 'r.plant_snapshot'])
     .where('p.id', '=', permitId)
     .executeTakeFirst();
   if (!r) throw notFound('That permit');
   return {
     revisionId: r.revision_id,
+    status: r.status,
     subject: {
       siteId: r.site_id,
       permitId: r.id,
@@ -123,16 +188,47 @@ async function subjectOf(db: Db, permitId: number): Promise<{ subject: CheckSubj
       excavationIds: r.excavation_ids,
       loads: r.loads as PlacedLoad[],
       method: r.method,
+      // A draft or returned request is checked with the library as it is; from review on, with its frozen machines.
+      plantSnapshot: editableStatuses.includes(r.status) ? null : (r.plant_snapshot as PlantSnapshot | null),
     },
   };
 }
 
-/** Checks the permit's current revision as saved and keeps the result on it. */
-export async function checkStoredRevision(db: Db, permitId: number, now: Date): Promise<PermitCheck> {
-  const { subject, revisionId } = await subjectOf(db, permitId);
-  const check = await runPermitCheck(db, subject, now);
-  await db.updateTable('permit_revisions').set({ check_result: JSON.stringify(check), checked_at: now }).where('id', '=', revisionId).execute();
-  return check;
+/**
+ * Checks the permit's current revision as saved and keeps the result on it, with the excavation
+ * inputs it used. `freeze` (sending for review) first freezes the machines its loads name; a
+ * revision past review without frozen machines (stored before snapshots) has them frozen now.
+ */
+export async function checkStoredRevision(db: Db, permitId: number, now: Date, opts: { freeze?: boolean } = {}): Promise<PermitCheck> {
+  const stored = await checkOfStored(db, permitId, now, opts);
+  await keepCheck(db, stored, now);
+  return stored.check;
+}
+
+export interface StoredCheck {
+  revisionId: number;
+  siteId: number;
+  check: PermitCheck;
+}
+
+/** The check of the permit's current revision as saved, not kept (see `keepCheck`); `freeze` as in checkStoredRevision. */
+export async function checkOfStored(db: Db, permitId: number, now: Date, opts: { freeze?: boolean } = {}): Promise<StoredCheck> {
+  const { subject, revisionId, status } = await subjectOf(db, permitId);
+  if (opts.freeze || (!subject.plantSnapshot && !editableStatuses.includes(status))) {
+    subject.plantSnapshot = await takePlantSnapshot(db, subject.loads, now);
+    await db.updateTable('permit_revisions').set({ plant_snapshot: JSON.stringify(subject.plantSnapshot) }).where('id', '=', revisionId).execute();
+  }
+  return { revisionId, siteId: subject.siteId, check: await runPermitCheck(db, subject, now) };
+}
+
+/** Keeps a check on its revision, with the check inputs of the excavations it used. */
+export async function keepCheck(db: Db, s: StoredCheck, now: Date): Promise<void> {
+  const inputs = await excavationSnapshotOf(db, s.siteId, s.check, now);
+  await db
+    .updateTable('permit_revisions')
+    .set({ check_result: JSON.stringify(s.check), checked_at: now, excavation_snapshot: JSON.stringify(inputs) })
+    .where('id', '=', s.revisionId)
+    .execute();
 }
 
 /** Checks a proposal (unsaved changes over the saved permit) without keeping anything. */

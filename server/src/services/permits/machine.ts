@@ -179,7 +179,8 @@ export async function transition(
     switch (action) {
       case 'submit': {
         await assertComplete(trx, p, rev, now);
-        const check = await checkStoredRevision(trx, p.id, now);
+        // Sent for review: the machines its loads name are frozen with it (the library may change later).
+        const check = await checkStoredRevision(trx, p.id, now, { freeze: true });
         assertAllNamed(check);
         detail.check = summaryOf(check);
         break;
@@ -233,6 +234,13 @@ export async function transition(
         if (now >= windowEnd) throw conflict(`Permit ${p.number}'s window has closed: it cannot resume.`);
         if (now < windowStart) throw conflict(`Permit ${p.number}'s window has not opened yet.`);
         await assertNoneUnsafe(trx, p.number, rev.excavation_ids, now);
+        break;
+      }
+      case 'reconsider': {
+        // The approval no longer holds for the excavation as it is: it stays on the timeline, and the
+        // coordinator decides again on the new check.
+        detail.previousDecision = rev.decision;
+        await trx.updateTable('permit_revisions').set({ decision: null, updated_at: now }).where('id', '=', rev.id).execute();
         break;
       }
       case 'lapse': {

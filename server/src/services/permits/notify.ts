@@ -8,7 +8,10 @@ import { withCurrentRevision } from './read';
 export type Audience = 'requester' | 'coordinators' | 'operators';
 
 /** Who is told of each transition: the people who must act next, or stop. */
-export const audiences: Record<PermitAction | 'reminder', Audience[]> = {
+/** A notice that is not a transition: the window-closing reminder, a re-check that changes no status. */
+export type NoticeKind = PermitAction | 'reminder' | 'recheck';
+
+export const audiences: Record<NoticeKind, Audience[]> = {
   submit: ['coordinators'],
   approve: ['requester', 'operators'],
   return: ['requester'],
@@ -20,11 +23,13 @@ export const audiences: Record<PermitAction | 'reminder', Audience[]> = {
   lapse: ['requester', 'operators', 'coordinators'],
   revise: ['coordinators', 'operators'],
   withdraw: ['coordinators', 'operators'],
+  reconsider: ['requester', 'operators', 'coordinators'],
   reminder: ['requester', 'operators'],
+  recheck: ['requester', 'operators', 'coordinators'],
 };
 
 /** What each audience is asked to do after each transition. */
-const asks: Partial<Record<PermitAction | 'reminder', Partial<Record<Audience, string>>>> = {
+const asks: Partial<Record<NoticeKind, Partial<Record<Audience, string>>>> = {
   submit: { coordinators: 'Please review the check and decide.' },
   approve: {
     requester: 'Brief the operators named on the permit; it goes live when its window opens and each of them has confirmed the briefing.',
@@ -40,6 +45,16 @@ const asks: Partial<Record<PermitAction | 'reminder', Partial<Record<Audience, s
   revise: { coordinators: 'A new revision is being prepared and will come to you for review.', operators: 'The approved terms no longer apply: stop work under it until the new revision is approved.' },
   withdraw: { coordinators: 'No decision is needed.', operators: 'No work may be done under it.' },
   reminder: { requester: 'Its window closes in an hour: hand it back when the area is clear, or ask for a new permit.', operators: 'Its window closes in an hour.' },
+  reconsider: {
+    requester: 'Do not start work under it: it needs a new decision on the excavation as it is now.',
+    operators: 'Do not start work under it until it is approved again.',
+    coordinators: 'Please review the new check and decide again.',
+  },
+  recheck: {
+    requester: 'It stays suspended: do not resume work under it.',
+    operators: 'It stays suspended: keep clear of the excavation.',
+    coordinators: 'It fails on the excavation as it is now: do not resume it as it stands.',
+  },
 };
 
 /** E-mail addresses of each audience for a permit (inactive people left out, the actor left out). */
@@ -83,7 +98,7 @@ export interface NoticeFacts {
   conditions?: string[];
 }
 
-const headline: Record<PermitAction | 'reminder', string> = {
+const headline: Record<NoticeKind, string> = {
   submit: 'awaits your review',
   approve: 'is approved',
   return: 'is returned for changes',
@@ -95,7 +110,9 @@ const headline: Record<PermitAction | 'reminder', string> = {
   lapse: 'has lapsed',
   revise: 'is being revised',
   withdraw: 'is withdrawn',
+  reconsider: 'goes back for review',
   reminder: 'closes in an hour',
+  recheck: 'fails after its excavation changed',
 };
 
 function when(d: Date): string {
@@ -107,7 +124,7 @@ function when(d: Date): string {
  * message per address, each with the link its audience uses (operators get the field view,
  * everybody else the permit page). Returns the addresses.
  */
-export async function notifyTransition(deps: Pick<Deps, 'db' | 'config' | 'mailer'>, action: PermitAction | 'reminder', f: NoticeFacts): Promise<string[]> {
+export async function notifyTransition(deps: Pick<Deps, 'db' | 'config' | 'mailer'>, action: NoticeKind, f: NoticeFacts): Promise<string[]> {
   const sent: string[] = [];
   const base = deps.config.publicUrl;
   const already = new Set<string>();

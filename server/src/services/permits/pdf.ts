@@ -10,6 +10,7 @@ import {
   verdictRule,
   type ExcavationCheck,
   type PermitDetail,
+  editableStatuses,
 } from '@shared/schemas/permits';
 import { attentionWarnings, bandsWords, failsBeyondPassing, type ProfilePoint } from '@shared/engineering';
 import type { Deps } from '../../deps';
@@ -62,7 +63,7 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
   const site = await deps.db.selectFrom('sites').select(['name', 'latitude', 'longitude']).where('id', '=', permit.siteId).executeTakeFirstOrThrow();
   const rev = permit.current;
   const excavations = await excavationsFor(deps.db, permit.siteId, rev.excavationIds);
-  const plant = await plantFor(deps.db, rev.loads);
+  const plant = await plantFor(deps.db, rev.loads, editableStatuses.includes(permit.status) ? null : rev.plantSnapshot);
   const qrUrl = `${deps.config.publicUrl}/field/permits/${permit.id}`;
   const qr = await QRCode.toBuffer(qrUrl, { type: 'png', margin: 1, width: 240, errorCorrectionLevel: 'M' });
 

@@ -15,6 +15,8 @@ import {
   type PermitStatus,
   type PermitSummary,
   type PlacedLoad,
+  type PlantSnapshot,
+  type ExcavationSnapshot,
 } from '@shared/schemas/permits';
 import { CAUTION } from './caution';
 
@@ -156,6 +158,8 @@ export async function loadRevision(db: Db, permitId: number, revision: number): 
     check: r.check_result as PermitCheck | null,
     checkedAt: r.checked_at ? iso(r.checked_at) : null,
     decision: r.decision as PermitDecision | null,
+    plantSnapshot: r.plant_snapshot as PlantSnapshot | null,
+    excavationSnapshot: r.excavation_snapshot as ExcavationSnapshot | null,
     createdAt: iso(r.created_at),
   };
 }
