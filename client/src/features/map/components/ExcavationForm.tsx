@@ -52,6 +52,12 @@ export interface ExcavationFormProps {
   /** The reference the soil was copied from, for a new excavation. */
   soilFrom: string | null;
   canEdit: boolean;
+  /**
+   * Whether the support's design data (support, surcharge, rated pressure, restraint, earth pressure,
+   * wall friction, soil, groundwater, design reference) may be changed: coordinators and
+   * administrators. Supervisors see them read-only and record what is on the ground.
+   */
+  canEditDesign: boolean;
   /** The shape on the map as it is now (drawn, or being changed). */
   geometry: ExcavationGeometry | null;
   editingShape: boolean;
@@ -70,7 +76,7 @@ export interface ExcavationFormProps {
  * same fields, and what was typed stays.
  */
 export function ExcavationForm(props: ExcavationFormProps) {
-  const { excavation, initial, soilFrom, canEdit, geometry, editingShape, onEditShape, onPreview, onSave, onDelete, onRemoveDrawing, onClose } = props;
+  const { excavation, initial, soilFrom, canEdit, canEditDesign, geometry, editingShape, onEditShape, onPreview, onSave, onDelete, onRemoveDrawing, onClose } = props;
   const [summary, setSummary] = useState<string | null>(null);
   const [drawing, setDrawing] = useState<File | null>(null);
   const fileId = useId();
@@ -108,6 +114,7 @@ export function ExcavationForm(props: ExcavationFormProps) {
 
   const num = { setValueAs: numberOrNull } as const;
   const ro = !canEdit;
+  const designRo = !canEdit || !canEditDesign;
   return (
     <form onSubmit={submit} noValidate className="flex flex-col gap-4" aria-label={excavation ? `Excavation ${excavation.reference}` : 'New excavation'}>
       <div className="flex items-start justify-between gap-3">
@@ -150,7 +157,13 @@ export function ExcavationForm(props: ExcavationFormProps) {
         </div>
       </fieldset>
 
-      <fieldset className="flex flex-col gap-3" disabled={ro}>
+      {canEdit && !canEditDesign ? (
+        <p className="rounded-md border border-rule-strong bg-paper px-3 py-2 text-sm">
+          The support, the ground and the design reference are the coordinator&rsquo;s design data: shown here read-only. You record what is on the ground: the shape, the depth as dug, the state, the name and notes.
+        </p>
+      ) : null}
+
+      <fieldset className="flex flex-col gap-3" disabled={designRo}>
         <legend className="mb-1 text-lg font-semibold">Support</legend>
         <SelectField label="Support" options={supportOptions} emptyLabel="Choose the support" error={errors.supportType?.message} {...register('supportType')} />
         <div className="grid grid-cols-2 gap-3">
@@ -183,15 +196,15 @@ export function ExcavationForm(props: ExcavationFormProps) {
         </details>
       </fieldset>
 
-      <fieldset className="flex flex-col gap-3" disabled={ro}>
+      <fieldset className="flex flex-col gap-3" disabled={designRo}>
         <legend className="mb-1 text-lg font-semibold">Ground</legend>
-        <SoilTable control={control} register={register} watch={watch} errors={errors} readOnly={ro} />
+        <SoilTable control={control} register={register} watch={watch} errors={errors} readOnly={designRo} />
         <TextField label="Groundwater depth (m)" type="number" step="0.05" min={0} inputMode="decimal" hint="Below ground level; empty when none was found" error={errors.groundwaterDepth?.message} {...register('groundwaterDepth', num)} />
       </fieldset>
 
       <fieldset className="flex flex-col gap-3" disabled={ro}>
         <legend className="mb-1 text-lg font-semibold">Design</legend>
-        <TextField label="Design reference" hint="Drawing or calculation number and revision" error={errors.designReference?.message} {...register('designReference')} />
+        <TextField label="Design reference" hint="Drawing or calculation number and revision" readOnly={designRo} error={errors.designReference?.message} {...register('designReference')} />
         <div className="flex flex-col gap-1">
           <label htmlFor={fileId} className="font-semibold">
             Design drawing (PDF, up to 20 MB)

@@ -3,7 +3,7 @@ import { Link, useParams, useSearchParams } from 'react-router-dom';
 import type L from 'leaflet';
 import type { GeoJsonObject } from 'geojson';
 import { excavationOutline, GeometryError, influenceZone, localProjection, type ExcavationShape } from '@shared/geometry';
-import { stateLabels, supportLabels, type Excavation, type ExcavationGeometry, type ExcavationKind, type ExcavationState } from '@shared/schemas/excavations';
+import { designFields, stateLabels, supportLabels, type Excavation, type ExcavationGeometry, type ExcavationKind, type ExcavationState } from '@shared/schemas/excavations';
 import { Button } from '@client/components/Button';
 import { useDocumentTitle } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
@@ -86,6 +86,8 @@ export function SiteMapPage() {
 
   const role = me ? roleOnSite(me, siteId) : null;
   const canEdit = Boolean(me?.isAdmin || role === 'supervisor' || role === 'coordinator');
+  // The support's design data is the coordinator's; registering an excavation sets it, so drawing a new one is theirs too.
+  const canEditDesign = Boolean(me?.isAdmin || role === 'coordinator');
   const [drawing, setDrawing] = useState<DrawShape | null>(null);
   const [toolsReady, setToolsReady] = useState(false);
   const [editing, setEditing] = useState<Editing | null>(null);
@@ -159,7 +161,7 @@ export function SiteMapPage() {
             {site.name}: {list.length} excavation{list.length === 1 ? '' : 's'}, {openCount} open. <Link to={`/sites/${siteId}/register`}>Open the register</Link>
           </p>
         </div>
-        {canEdit ? (
+        {canEditDesign ? (
           <div className="flex flex-wrap gap-2" role="group" aria-label="Drawing">
             {drawing ? (
               <>
@@ -235,12 +237,15 @@ export function SiteMapPage() {
                 initial={editing.initial}
                 soilFrom={editing.soilFrom}
                 canEdit={canEdit}
+                canEditDesign={canEditDesign}
                 geometry={editing.geometry}
                 editingShape={Boolean(editing.shapeKey)}
                 onEditShape={() => setEditing((ed) => (ed ? { ...ed, shapeKey: ed.shapeKey ? null : `shape-${Date.now()}` } : ed))}
                 onPreview={setPreview}
                 onSave={async (values, file) => {
-                  const saved = await save.mutateAsync({ id: editing.excavation?.id ?? null, version: editing.excavation?.version ?? 0, values });
+                  // A supervisor's change leaves the design data out: the server refuses it from them (403).
+                  const sent = canEditDesign ? values : (Object.fromEntries(Object.entries(values).filter(([k]) => !(designFields as readonly string[]).includes(k))) as typeof values);
+                  const saved = await save.mutateAsync({ id: editing.excavation?.id ?? null, version: editing.excavation?.version ?? 0, values: sent });
                   let final = saved;
                   let extra = '';
                   if (file) {

@@ -44,7 +44,13 @@ function PermitView({ permit }: { permit: PermitDetail }) {
   const excavations = useExcavations(permit.siteId);
   const plantQ = usePlant();
   const proj = useMemo(() => (site.data ? localProjection([site.data.longitude, site.data.latitude]) : null), [site.data]);
-  const plant = useMemo(() => new Map<number, PlantForCheck>((plantQ.data ?? []).map((p) => [p.id, p])), [plantQ.data]);
+  const frozen = rev.plantSnapshot;
+  const editable = editableStatuses.includes(permit.status);
+  // From review on, the machines as they were frozen with the revision (the library may have changed since).
+  const plant = useMemo(
+    () => new Map<number, PlantForCheck>([...(plantQ.data ?? []).map((p) => [p.id, p] as const), ...(frozen && !editable ? frozen.machines.map((m) => [m.id, m] as const) : [])]),
+    [plantQ.data, frozen, editable],
+  );
   const named = (excavations.data ?? []).filter((e) => rev.excavationIds.includes(e.id));
   const standoff = rev.decision?.standoff ?? rev.check?.computedStandoff ?? null;
   const canEdit = editableStatuses.includes(permit.status) && permit.actions.includes('submit');
@@ -109,7 +115,12 @@ function PermitView({ permit }: { permit: PermitDetail }) {
       <Panel title="Calculation sheet">
         {rev.check ? (
           <>
-            <p className="text-sm text-ink-soft">Checked {when(rev.checkedAt)}; the server checks again at every save, submission and decision.</p>
+            <p className="text-sm text-ink-soft">Checked {when(rev.checkedAt)}; the server checks again at every save, submission and decision, and whenever a named excavation changes.</p>
+            {rev.plantSnapshot && !editable && rev.plantSnapshot.machines.length ? (
+              <p className="text-sm" data-testid="computed-with">
+                Computed with {rev.plantSnapshot.machines.map((m) => m.name).join(', ')} as of {when(rev.plantSnapshot.takenAt)} (frozen when the request was sent for review; later changes to the plant library apply to new requests only).
+              </p>
+            ) : null}
             <CheckSheets check={rev.check} />
           </>
         ) : (
