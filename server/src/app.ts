@@ -25,6 +25,11 @@ import { registerInspectionRoutes } from './routes/inspections';
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../dist/client');
 
 /** Builds the Express app (API and the built client) without listening: tests drive it directly. */
+/** A session ends this long after its last use. */
+export const SESSION_MAX_AGE_MS = 12 * 3600_000;
+/** A session's expiry moves on at most this often (one write a minute, not one a request). */
+export const SESSION_TOUCH_MS = 60_000;
+
 export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boolean } = {}): Express {
   const { config, db } = deps;
   const app = express();
@@ -70,6 +75,11 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   // Changes only from Brink's own pages, bodies uncompressed (server/src/csrf.ts).
   app.use('/api', sameOrigin(config.publicUrl));
 
+  // Sessions: one read of the session row per request, and a write at most once a minute. A session
+  // still ends 12 hours after its last use (to within a minute): when the last move of its expiry is
+  // over SESSION_TOUCH_MS old, the request marks the session (touchedAt), so express-session saves it
+  // with a new expiry and sends the cookie again; otherwise nothing is written (rolling: false, and
+  // connect-pg-simple's per-request touch is off).
   const PgStore = connectPgSimple(session);
   const sessionPool = opts.sessionPool ?? createPool(config.databaseUrl, 4, { name: 'sessions' });
   // While PostgreSQL is down a session cannot be read: the call answers 503 (errorHandler) and
@@ -81,15 +91,24 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
       tableName: 'session',
       createTableIfMissing: false,
       pruneSessionInterval: 15 * 60,
+      disableTouch: true,
       errorLog: (...args: unknown[]) => console.error('[sessions]', ...args.map((a) => (a instanceof Error ? a.message : a))),
     }),
     secret: config.sessionSecret,
     resave: false,
     saveUninitialized: false,
-    rolling: true,
-    cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 12 * 3600_000, path: '/' },
+    rolling: false,
+    cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: SESSION_MAX_AGE_MS, path: '/' },
   });
   app.use('/api', (req, res, next) => (req.path === '/health' ? next() : sessions(req, res, next)));
+  app.use('/api', (req, _res, next) => {
+    const s = req.session;
+    if (s?.userId && Date.now() - (s.touchedAt ?? 0) >= SESSION_TOUCH_MS) {
+      s.touchedAt = Date.now();
+      s.touch(); // the cookie's expiry: 12 hours from now
+    }
+    next();
+  });
   app.use('/api', express.json({ limit: '2mb' }));
   // Who is signed in: the session holds only the id; the person is read fresh on every request,
   // so a deactivated account stops at once.

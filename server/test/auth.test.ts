@@ -1,6 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import bcrypt from 'bcryptjs';
+import { sql } from 'kysely';
 import { demo, DEMO_PASSWORD, linkToken, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
 
 let t: TestApp;
@@ -183,5 +184,44 @@ describe('audit log', () => {
     await expect(sql`delete from audit_log`.execute(t.deps.db)).rejects.toThrow(/append-only/);
     const n = await t.deps.db.selectFrom('audit_log').select((eb) => eb.fn.countAll().as('n')).executeTakeFirstOrThrow();
     expect(Number(n.n)).toBeGreaterThan(0);
+  });
+});
+
+describe('the session on every request', () => {
+  // The session row as stored: its expiry and when it was last moved on.
+  async function row(sid: string) {
+    const r = await sql<{ expire: Date; sess: { touchedAt?: number } }>`select expire, sess from session where sid = ${sid}`.execute(t.deps.db);
+    return r.rows[0];
+  }
+  const sidOf = (setCookie: string) => /brink\.sid=s:([^.;]+)/.exec(decodeURIComponent(setCookie))![1];
+
+  it('writes the session at most once a minute, and moves its expiry on after a minute of use', async () => {
+    const agent = request.agent(t.app);
+    const signIn = await agent.post('/api/auth/sign-in').send({ email: demo.coordinator, password: DEMO_PASSWORD });
+    expect(signIn.status).toBe(200);
+    const sid = sidOf(String(signIn.headers['set-cookie']));
+    const first = await row(sid);
+    expect(first.sess.touchedAt).toBeGreaterThan(0);
+
+    // Within the minute: answered as signed in, no cookie sent again, the row untouched.
+    for (let i = 0; i < 3; i++) {
+      const r = await agent.get('/api/auth/me');
+      expect(r.status).toBe(200);
+      expect(r.body.user.email).toBe(demo.coordinator);
+      expect(r.headers['set-cookie']).toBeUndefined();
+    }
+    const same = await row(sid);
+    expect(same.expire.getTime()).toBe(first.expire.getTime());
+    expect(same.sess.touchedAt).toBe(first.sess.touchedAt);
+
+    // As if the last move were two minutes ago: the next request moves the expiry and resends the cookie.
+    const earlier = first.sess.touchedAt! - 120_000;
+    await sql`update session set sess = jsonb_set(sess::jsonb, '{touchedAt}', to_jsonb(${earlier}::bigint))::json, expire = expire - interval '2 minutes' where sid = ${sid}`.execute(t.deps.db);
+    const moved = await agent.get('/api/auth/me');
+    expect(moved.status).toBe(200);
+    expect(String(moved.headers['set-cookie'])).toMatch(/brink\.sid=/);
+    const after = await row(sid);
+    expect(after.sess.touchedAt).toBeGreaterThan(earlier);
+    expect(after.expire.getTime()).toBeGreaterThan(first.expire.getTime() - 120_000);
   });
 });

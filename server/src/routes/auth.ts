@@ -21,6 +21,8 @@ const DUMMY_HASH = bcrypt.hashSync('not-a-real-password', BCRYPT_COST);
 declare module 'express-session' {
   interface SessionData {
     userId: number;
+    /** When the session's expiry was last moved on (ms since 1970; see app.ts, SESSION_TOUCH_MS). */
+    touchedAt?: number;
   }
 }
 
@@ -28,6 +30,7 @@ declare module 'express-session' {
 export async function signInSession(req: Request, userId: number): Promise<void> {
   await new Promise<void>((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
   req.session.userId = userId;
+  req.session.touchedAt = Date.now();
   await new Promise<void>((resolve, reject) => req.session.save((err) => (err ? reject(err) : resolve())));
 }
 
