@@ -45,7 +45,8 @@ if (config.mailCatcher.enabled) {
 }
 
 const app = createApp(deps);
-const server = app.listen(config.port, '0.0.0.0', () => {
+// HOST=127.0.0.1 keeps it to this machine (the bench does).
+const server = app.listen(config.port, process.env.HOST || '0.0.0.0', () => {
   const lines = [
     '',
     `Brink is running at ${config.publicUrl}`,

@@ -205,7 +205,7 @@ function runSite(site: Site, method: Method, zones: boolean): SiteRun {
   return run;
 }
 
-function main(): void {
+function calcBench(): void {
   const load = loadavg().map((x) => x.toFixed(1)).join(' ');
   console.log(`Brink calculation benchmark — Node ${process.version}, ${cpus().length} cores, load average ${load}`);
   console.log('Medians over repeated runs: wall-clock time per call (judged against the target), processor time beside it.\n');
@@ -231,4 +231,18 @@ function main(): void {
   row('whole site as above plus its 200 influence-zone outlines (dispersion-45)', withZones, 1, 'the GeoJSON zone polygons for the map as well');
 }
 
-main();
+/**
+ * Parts: `calc` (above), `api` (benchApi.ts) and `web` (benchWeb.ts); all three by default, or name
+ * them: `npm run bench -- api web`. The api and web parts need the throw-away database and the
+ * build that docker-less-scripts/bench.sh makes (`npm run bench` runs it).
+ */
+async function main(): Promise<void> {
+  const asked = process.argv.slice(2).filter((a) => !a.startsWith('-'));
+  const parts = asked.length ? asked : ['calc', 'api', 'web'];
+  if (parts.includes('calc')) calcBench();
+  if (parts.includes('api')) await (await import('./benchApi')).runApiBench();
+  if (parts.includes('web')) await (await import('./benchWeb')).runWebBench();
+  console.log(`\nload average at the end: ${loadavg().map((x) => x.toFixed(1)).join(' ')} (other programs on this machine skew the times; the ratios less)`);
+}
+
+await main();

@@ -1,0 +1,78 @@
+/**
+ * `npm run bench`, web part: the built client (dist/client, made by docker-less-scripts/bench.sh)
+ * served by Brink's server on 127.0.0.1, opened in Debian's Chromium with Playwright's Pixel 7
+ * profile, the processor slowed 4× and the network at 1.6 Mbit/s down, 750 kbit/s up, 150 ms round
+ * trip (Chrome DevTools Protocol). Each open is a fresh context: empty cache, no service worker.
+ * Prints the median of 3 beside a bare JSON page opened the same way, and the JavaScript bytes of
+ * every page. Asserts nothing (client/src/app/bundle.test.ts asserts the bytes).
+ */
+import { chromium, devices, type Browser } from '@playwright/test';
+import { budgetOf, bundleReport, kb } from './bundleSize';
+import { ORIGIN_HEADER, signIn, startBrink } from './benchApi';
+
+const ROUNDS = 3;
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[s.length >> 1];
+}
+
+/** Seconds from navigation to the page's first heading and a quiet network, on a throttled phone. */
+async function openOnPhone(browser: Browser, base: string, cookie: string | null, path: string, heading: boolean): Promise<number> {
+  const context = await browser.newContext({ ...devices['Pixel 7'], serviceWorkers: 'block', baseURL: base });
+  try {
+    if (cookie) {
+      const [name, value] = cookie.split(';')[0].split('=');
+      await context.addCookies([{ name, value, url: base }]);
+    }
+    const page = await context.newPage();
+    const cdp = await context.newCDPSession(page);
+    await cdp.send('Emulation.setCPUThrottlingRate', { rate: 4 });
+    await cdp.send('Network.enable');
+    await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 150, downloadThroughput: 1.6e6 / 8, uploadThroughput: 750e3 / 8 });
+    const t0 = performance.now();
+    await page.goto(path, { waitUntil: 'commit', timeout: 120_000 });
+    if (heading) await page.getByRole('heading', { level: 1 }).first().waitFor({ timeout: 120_000 });
+    await page.waitForLoadState('networkidle', { timeout: 120_000 });
+    return (performance.now() - t0) / 1000;
+  } finally {
+    await context.close();
+  }
+}
+
+export async function runWebBench(): Promise<void> {
+  console.log('\nweb — JavaScript per page, gzip (dist/client; 1 KB = 1000 bytes)');
+  const report = bundleReport('dist/client');
+  for (const p of report.pages) {
+    const budget = budgetOf(p);
+    const verdict = budget === null ? '(loaded on first use, no budget)' : `target ≤ ${kb(budget)}  ${p.gzip <= budget ? 'meets' : 'MISSES'}`;
+    console.log(`${p.page.padEnd(48)} ${kb(p.gzip).padStart(10)}  ${verdict}`);
+  }
+  console.log(`${'all JavaScript of the build (once one script)'.padEnd(48)} ${kb(report.total.gzip).padStart(10)}  (${report.total.files} files)`);
+
+  console.log(`\nweb — first open, Pixel 7, 4× CPU slowdown, 1.6 Mbit/s down, 150 ms round trip, no service worker; median of ${ROUNDS}`);
+  const brink = await startBrink();
+  const browser = await chromium.launch({ executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium' });
+  try {
+    const operator = await signIn(brink.url, brink.port, 'operator@demo.brink.test');
+    const supervisor = await signIn(brink.url, brink.port, 'supervisor@demo.brink.test');
+    const answer = (await (await fetch(`${brink.url}/api/permits?siteId=1`, { headers: { cookie: supervisor, origin: ORIGIN_HEADER(brink.port) } })).json()) as Record<string, unknown>;
+    const permit = ((Object.values(answer).find(Array.isArray) ?? []) as { id: number }[])[0];
+    const cases: { label: string; path: string; cookie: string | null; heading: boolean; target: number | null }[] = [
+      { label: 'a bare JSON page (/api/health), for reference', path: '/api/health', cookie: null, heading: false, target: null },
+      { label: '/field, signed in as the demo operator', path: '/field', cookie: operator, heading: true, target: 3 },
+      { label: `the placing page /permits/${permit?.id}/edit (supervisor)`, path: `/permits/${permit?.id}/edit`, cookie: supervisor, heading: true, target: null },
+    ];
+    for (const c of cases) {
+      const times: number[] = [];
+      for (let i = 0; i < ROUNDS; i++) times.push(await openOnPhone(browser, brink.url, c.cookie, c.path, c.heading));
+      const m = median(times);
+      const verdict = c.target === null ? '' : `target ≤ ${c.target} s  ${m <= c.target ? 'meets' : 'MISSES'}`;
+      console.log(`${c.label.padEnd(56)} ${m.toFixed(2).padStart(6)} s  (${times.map((t) => t.toFixed(2)).join(', ')})  ${verdict}`);
+    }
+    console.log('live re-check per drag frame on the placing map: not measured yet (target ≤ 4 ms at 4× slowdown)');
+  } finally {
+    await browser.close();
+    await brink.stop();
+  }
+}
