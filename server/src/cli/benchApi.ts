@@ -137,6 +137,8 @@ export async function runApiBench(seconds = 5): Promise<void> {
       { label: 'GET /api/health with a session cookie', url: `${base}/api/health`, headers: auth },
       { label: `POST /api/permits/${permitId}/check (demo permit)`, url: `${base}/api/permits/${permitId}/check`, method: 'POST', headers: { ...auth, 'content-type': 'application/json' }, body: '{}' },
       { label: `GET /api/permits/${permitId}`, url: `${base}/api/permits/${permitId}`, headers: auth },
+      // health reads no session since the outage work; this reads it (and the person) like every other call.
+      { label: 'GET /api/auth/me (session and person read)', url: `${base}/api/auth/me`, headers: auth },
       { label: `GET /api/sites/${siteId}/excavations`, url: `${base}/api/sites/${siteId}/excavations`, headers: auth },
     ];
     const got = new Map<string, Measured>();
@@ -158,6 +160,7 @@ export async function runApiBench(seconds = 5): Promise<void> {
     ratio('check route / health with a session', v(checkL), v(sessionL), 0.5);
     ratio('health without a cookie / bare Express route', v(healthL), v(bareL), null);
     ratio('permit read / health with a session', v(permitL), v(sessionL), null);
+    ratio('who am I (session read) / bare Express route', v(loads[6]), v(bareL), null);
     const ex = got.get(exL.label)!;
     console.log(`${"site's excavations, p50".padEnd(64)} ${String(ex.p50).padStart(4)} ms  target ≤ 100 ms  ${ex.p50 <= 100 ? 'meets' : 'MISSES'} (demo site; outlines stored on write: issue 12)`);
   } finally {
