@@ -4,6 +4,7 @@ import type { SiteRole } from '@shared/schemas/common';
 import type { Deps } from './deps';
 import { bodyTypeProblem, crossSite } from './csrf';
 import { Throttle } from './services/throttle';
+import { discardUnkept } from './services/uploads';
 import { isDatabaseUnavailable } from '@db/database';
 
 const QUARTER_HOUR = 15 * 60_000;
@@ -51,6 +52,42 @@ export function zodFields(error: z.ZodError): Record<string, string> {
     fields[key] ??= issue.message;
   }
   return fields;
+}
+
+const LONE_SURROGATE = /[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/;
+
+/**
+ * Text PostgreSQL cannot keep (and no person types): a NUL character, or half of a UTF-16
+ * surrogate pair. Checked once for every request's body, query and path (`Api.route`), before any
+ * schema, so every text field answers 400 naming its path instead of 500 from the database.
+ */
+export function badText(value: unknown): Record<string, string> {
+  const out: Record<string, string> = {};
+  const bad = (s: string) => (s.includes('\u0000') ? 'must not contain a NUL character (\\u0000)' : LONE_SURROGATE.test(s) ? 'must not contain half of a surrogate pair (e.g. \\ud800): send well-formed text' : null);
+  // An explicit stack, not recursion: a deeply nested body cannot exhaust the call stack.
+  const stack: [unknown, string][] = [[value, '']];
+  while (stack.length) {
+    const [v, path] = stack.pop()!;
+    if (typeof v === 'string') {
+      const why = bad(v);
+      if (why) out[path || '(body)'] ??= why;
+    } else if (Array.isArray(v)) {
+      v.forEach((x, i) => stack.push([x, `${path}[${i}]`]));
+    } else if (v && typeof v === 'object') {
+      for (const [k, x] of Object.entries(v)) {
+        if (bad(k)) out[`${path ? `${path}.` : ''}${JSON.stringify(k).slice(1, -1)}`] = 'is not an acceptable field name';
+        else stack.push([x, path ? `${path}.${k}` : k]);
+      }
+    }
+  }
+  return out;
+}
+
+function refuseBadText(value: unknown, where: string): void {
+  const fields = badText(value);
+  if (Object.keys(fields).length) {
+    throw new HttpError(400, 'invalid', `Please correct the ${where}: ${Object.entries(fields).map(([k, v]) => `${k} ${v}`).join('; ')}`, fields);
+  }
 }
 
 export function parseOr400<T>(schema: ZodType<T>, value: unknown, where: string): T {
@@ -170,6 +207,7 @@ export class Api {
       const typeProblem = bodyTypeProblem(req, Boolean(spec.files));
       if (typeProblem) throw crossSite(typeProblem);
       // The path's ids are checked before the site is looked up through them (an id of 2³¹ is 400, not 500).
+      refuseBadText(req.params, 'path');
       if (spec.params) parseOr400(spec.params, req.params, 'path');
       (req as AuthedRequest).siteAccess = await authorise(spec.access, req, deps);
       next();
@@ -179,6 +217,8 @@ export class Api {
       const user = req.user ?? null;
       const site = (req as AuthedRequest).siteAccess ?? null;
       if (spec.beforeBody) await spec.beforeBody({ req, res, params, user, site, deps, rawBody: req.body });
+      refuseBadText(req.body, 'request');
+      refuseBadText(req.query, 'query');
       const ctx = {
         req,
         res,
@@ -189,7 +229,13 @@ export class Api {
         site,
         deps,
       } as RouteContext<Out<B>, Out<Q>, Out<P>>;
-      const out = await handler(ctx);
+      let out: unknown;
+      try {
+        out = await handler(ctx);
+      } finally {
+        // Files stored for this request that it did not keep (refused, rolled back) go.
+        await discardUnkept(deps, req);
+      }
       if (res.headersSent) return;
       if (out === undefined) res.status(204).end();
       else res.json(out);

@@ -1,8 +1,14 @@
+import { mkdtempSync, readdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import express from 'express';
 import request from 'supertest';
 import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demo, DEMO_PASSWORD, demoSiteId, signedIn, startTestApp, TEST_ORIGIN, unique, type TestApp } from './helpers';
 import { newToken } from '../src/services/tokens';
+import { Api, conflict, errorHandler } from '../src/http';
+import { limits, receiveFiles, storeUpload } from '../src/services/uploads';
 import { permitActions, transitionRules } from '@shared/schemas/permits';
 import { act, createPermit, makeWorld, permitBody, version, type PermitWorld } from './permits-fixtures';
 
@@ -16,8 +22,13 @@ type Agent = Awaited<ReturnType<typeof signedIn>>;
 let admin: Agent;
 let stateChanging: [string, string][] = [];
 
+/** This file's own upload folder, so that the files counted are this file's alone. */
+const uploadDir = mkdtempSync(path.join(tmpdir(), 'brink-sec-uploads-'));
+const filesKept = () => readdirSync(uploadDir, { recursive: true, withFileTypes: true }).filter((d) => d.isFile()).length;
+const PNG = Buffer.from('89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8cfc0f01f0005000201a5d4cb3b0000000049454e44ae426082', 'hex');
+
 beforeAll(async () => {
-  t = await startTestApp({ SIGNIN_LIMIT_PER_IP: '1000' });
+  t = await startTestApp({ SIGNIN_LIMIT_PER_IP: '1000', UPLOAD_DIR: uploadDir });
   siteId = await demoSiteId(t.deps);
   admin = await signedIn(t.app, demo.admin);
   const doc = (await request(t.app).get('/api/openapi.json')).body as { paths: Record<string, Record<string, unknown>> };
@@ -328,5 +339,122 @@ describe('permit decisions: the role first, never one\u2019s own permit, a limit
     const again = await signedIn(t.app, c.email);
     const ok = await act(again, p.id, { action: 'return', reason: 'Move the loads', version: p.version, password: DEMO_PASSWORD });
     expect(ok.status).toBe(200);
+  });
+});
+
+describe('odd input: text, multipart, files left behind, what a refusal names', () => {
+  let w: PermitWorld;
+  let permit: { id: number; version: number };
+  beforeAll(async () => {
+    w = await makeWorld(t);
+    permit = await createPermit(w);
+  });
+
+  it('answers 400 naming the field for a NUL character or a lone surrogate in any text, in bodies, nested fields, queries and paths', async () => {
+    const wrong: string[] = [];
+    for (const [bad, what] of [['\u0000', /NUL/], ['\ud800', /surrogate/]] as const) {
+      const cases: [string, () => request.Test, string][] = [
+        ['comment', () => w.agents.supervisor.post(`/api/permits/${permit.id}/comments`).send({ text: `hello${bad}` }), 'text'],
+        ['permit description', () => w.agents.supervisor.post('/api/permits').send(permitBody(w, { description: `dig${bad}` })), 'description'],
+        ['a load\u2019s label', () => w.agents.supervisor.post('/api/permits').send({ ...permitBody(w), loads: [{ ...permitBody(w).loads![0], label: `x${bad}` }] }), 'loads[0].label'],
+        ['transition reason', () => act(w.agents.supervisor, permit.id, { action: 'withdraw', version: permit.version, reason: `why${bad}` }), 'reason'],
+        ['excavation reference', () => w.agents.coordinator.post(`/api/sites/${w.siteId}/excavations`).send({ reference: `T${bad}` }), 'reference'],
+        ['plant name', () => admin.post('/api/plant').send({ name: `Digger${bad}` }), 'name'],
+        ['site name', () => admin.patch(`/api/sites/${w.siteId}`).send({ name: `Site${bad}` }), 'name'],
+        ['sign-in e-mail', () => request(t.app).post('/api/auth/sign-in').send({ email: `a${bad}@example.test`, password: 'x' }), 'email'],
+        // A URL carries UTF-8, where half a surrogate pair cannot be written: NUL only there.
+        ...(bad === '\u0000'
+          ? ([
+              ['query', () => w.agents.supervisor.get('/api/permits?view=all%00'), 'view'],
+              ['path', () => request(t.app).get(`/api/invitations/${'x'.repeat(30)}%00`), 'token'],
+            ] as [string, () => request.Test, string][])
+          : []),
+      ];
+      for (const [name, send, field] of cases) {
+        const r = await send();
+        if (r.status !== 400 || !what.test(r.body.error?.fields?.[field] ?? '')) wrong.push(`${name} with ${JSON.stringify(bad)} → ${r.status} ${JSON.stringify(r.body.error?.fields)}`);
+      }
+    }
+    expect(wrong).toEqual([]);
+    expect(await version(w, permit.id)).toBe(permit.version);
+  });
+
+  it('answers 400 to a truncated multipart body and to a NUL in an upload\u2019s file name, and keeps no file', async () => {
+    const before = filesKept();
+    const part = (disposition: string, body: Buffer | string, close = true) =>
+      Buffer.concat([
+        Buffer.from(`--XB\r\nContent-Disposition: form-data; name="kind"\r\n\r\nphoto\r\n--XB\r\nContent-Disposition: form-data; name="file"; ${disposition}\r\nContent-Type: image/png\r\n\r\n`),
+        Buffer.isBuffer(body) ? body : Buffer.from(body),
+        Buffer.from(close ? '\r\n--XB--\r\n' : ''),
+      ]);
+    const post = (raw: Buffer) => w.agents.supervisor.post(`/api/permits/${permit.id}/attachments`).set('Content-Type', 'multipart/form-data; boundary=XB').send(raw);
+    const truncated = await post(part('filename="site.png"', PNG.subarray(0, 20), false));
+    expect(truncated.status).toBe(400);
+    expect(truncated.body.error.message).toMatch(/cut short|well-formed/);
+    for (const name of ["filename*=UTF-8''site%00.png", 'filename="site\u0000.png"']) {
+      const r = await post(part(name, PNG));
+      expect(r.status, name).toBe(400);
+      expect(r.body.error.code).toBe('invalid');
+    }
+    const encoded = await post(part("filename*=UTF-8''site%00.png", PNG));
+    expect(encoded.body.error.fields).toEqual({ file: expect.stringMatching(/NUL/) });
+    // The same upload with a plain name is kept: the refusals were about the body and the name.
+    const ok = await post(part('filename="site.png"', PNG));
+    expect(ok.status).toBe(201);
+    expect(filesKept()).toBe(before + 1);
+  });
+
+  it('removes every stored file a request does not keep: refused after storing, or rolled back', async () => {
+    const api = new Api(t.deps);
+    let stored = 0;
+    for (const [path, keep] of [['/api/test/refused', false], ['/api/test/kept', true]] as const) {
+      api.route({ method: 'post', path, summary: 'test', tag: 'test', access: { kind: 'public' }, before: [receiveFiles(['file'], limits.image)], files: ['file'] }, async ({ req, deps }) => {
+        const file = (req.files as Record<string, Express.Multer.File[]>).file[0];
+        await deps.db.transaction().execute(async (trx) => {
+          await storeUpload(deps, file, { field: 'file', accept: 'image', purpose: 'test', siteId: null, userId: null, db: trx });
+          stored += 1;
+          if (!keep) throw conflict('Refused after the file was stored.');
+        });
+        return { ok: true };
+      });
+    }
+    const app = express();
+    app.use('/api', api.router);
+    app.use(errorHandler);
+    const before = filesKept();
+    const refused = await request(app).post('/api/test/refused').attach('file', PNG, { filename: 'a.png', contentType: 'image/png' });
+    expect(refused.status).toBe(409);
+    expect(filesKept()).toBe(before);
+    const kept = await request(app).post('/api/test/kept').attach('file', PNG, { filename: 'b.png', contentType: 'image/png' });
+    expect(kept.status).toBe(200);
+    expect(stored).toBe(2);
+    expect(filesKept()).toBe(before + 1);
+  });
+
+  it('a 409 on deleting an excavation never names another site\u2019s permits: their excavation is 404 like a missing one', async () => {
+    // A coordinator of a second site, and the world's trench on the demo site named on a permit.
+    const other = await t.deps.db.insertInto('sites').values({ name: `Second site ${unique('s')}`, latitude: 51.2, longitude: 0.1 }).returning('id').executeTakeFirstOrThrow();
+    const p = await person();
+    await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: p.id, role: 'coordinator' }).execute();
+    const them = await signedIn(t.app, p.email);
+    const theirs = await them.delete(`/api/sites/${other.id}/excavations/${w.trenchId}`);
+    const missing = await them.delete(`/api/sites/${other.id}/excavations/2147483000`);
+    expect(theirs.status).toBe(404);
+    expect(theirs.body).toEqual(missing.body);
+    expect(JSON.stringify(theirs.body)).not.toMatch(/P-\d+/);
+    // On the demo site itself they are refused alike, whether the excavation exists or not.
+    const a = await them.delete(`/api/sites/${w.siteId}/excavations/${w.trenchId}`);
+    const b = await them.delete(`/api/sites/${w.siteId}/excavations/2147483000`);
+    expect([a.status, b.status]).toEqual([403, 403]);
+    expect(a.body).toEqual(b.body);
+    // A member of the demo site is told which permits name it.
+    const own = await w.agents.coordinator.delete(`/api/sites/${w.siteId}/excavations/${w.trenchId}`);
+    expect(own.status).toBe(409);
+    expect(own.body.error.message).toMatch(/P-\d+/);
+    // The shared plant library: a coordinator of another site learns only that permits elsewhere keep the machine.
+    const plant = await them.delete(`/api/plant/${w.excavatorId}`);
+    expect(plant.status).toBe(409);
+    expect(plant.body.error.message).not.toMatch(/P-\d+/);
+    expect((await w.agents.coordinator.delete(`/api/plant/${w.excavatorId}`)).body.error.message).toMatch(/P-\d+/);
   });
 });

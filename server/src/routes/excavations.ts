@@ -215,7 +215,11 @@ export function registerExcavationRoutes(api: Api): void {
       await db
         .transaction()
         .execute(async (trx) => {
-          const named = await permitsReferring(trx, { excavationId: params.id });
+          // The excavation is found on this site first: one of a site the caller cannot see answers
+          // 404 like a missing one, and the 409 below names only this site's permits.
+          const mine = await trx.selectFrom('excavations').select('id').where('id', '=', params.id).where('site_id', '=', params.siteId).forUpdate().executeTakeFirst();
+          if (!mine) throw notFound('That excavation');
+          const named = await permitsReferring(trx, { excavationId: params.id, siteId: params.siteId });
           if (named.length) throw conflict(`That excavation is named on permit ${listNumbers(named)}; set it to backfilled instead of removing it.`);
           const old = await trx.deleteFrom('excavations').where('id', '=', params.id).where('site_id', '=', params.siteId).returningAll().executeTakeFirst();
           if (!old) throw notFound('That excavation');

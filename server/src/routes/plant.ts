@@ -166,8 +166,10 @@ export function registerPlantRoutes(api: Api): void {
       await db
         .transaction()
         .execute(async (trx) => {
-          const named = await permitsReferring(trx, { plantItemId: params.id });
+          const named = await permitsReferring(trx, { plantItemId: params.id, visibleTo: user! });
           if (named.length) throw conflict(`That machine is placed on permit ${listNumbers(named)}, so it stays in the library.`);
+          // Permits of sites the caller cannot see keep it too, unnamed.
+          if ((await permitsReferring(trx, { plantItemId: params.id })).length) throw conflict('That machine is placed on permits of other sites, so it stays in the library.');
           const old = await trx.deleteFrom('plant_items').where('id', '=', params.id).returning(['id', 'name']).executeTakeFirst();
           if (!old) throw notFound('That machine');
           await audit(trx, { actorId: user!.id, entity: 'plant', entityId: old.id, action: 'deleted', detail: { name: old.name } });

@@ -1,13 +1,13 @@
 import { randomUUID } from 'node:crypto';
 import { createReadStream } from 'node:fs';
-import { mkdir, writeFile } from 'node:fs/promises';
+import { mkdir, unlink, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import multer from 'multer';
 import { fileTypeFromBuffer } from 'file-type';
-import type { RequestHandler, Response } from 'express';
+import type { Request, RequestHandler, Response } from 'express';
 import type { Db } from '@db/database';
 import type { Deps } from '../deps';
-import { HttpError } from '../http';
+import { badText, HttpError } from '../http';
 
 export const MB = 1024 * 1024;
 
@@ -24,12 +24,60 @@ export const limits = { pdf: 20 * MB, image: 10 * MB, pdfOrImage: 20 * MB } as c
 
 /**
  * Multer in memory for the named file fields, with a size limit (over it: 413 naming the field).
- * Use as `before` on a route, so that authorisation comes first.
+ * Use as `before` on a route, so that authorisation comes first. A body that cannot be read (cut
+ * short, not well-formed multipart) is 400, and so is a file name holding a NUL character or half
+ * a surrogate pair (naming the field). The files it hands on are tracked: whatever `storeUpload`
+ * writes for them and the request does not keep is removed when the route ends (`discardUnkept`).
  */
 export function receiveFiles(fields: string[], maxBytes: number, maxCount = 1): RequestHandler {
-  return multer({ storage: multer.memoryStorage(), limits: { fileSize: maxBytes, files: fields.length * maxCount } }).fields(
+  const receive = multer({ storage: multer.memoryStorage(), limits: { fileSize: maxBytes, files: fields.length * maxCount } }).fields(
     fields.map((name) => ({ name, maxCount })),
   );
+  return (req, res, next) => {
+    receive(req, res, (err: unknown) => {
+      if (err) {
+        if (err instanceof multer.MulterError) return next(err);
+        return next(new HttpError(400, 'invalid', 'The upload could not be read: it was cut short or is not well-formed multipart/form-data. Send it again.'));
+      }
+      const written: string[] = [];
+      writtenBy.set(req, written);
+      for (const field of fields) {
+        const files = filesOf(req, field);
+        for (const [i, f] of files.entries()) {
+          const name = files.length > 1 ? `${field}[${i}]` : field;
+          const why = badText(f.originalname)['(body)'];
+          if (why) return next(new HttpError(400, 'invalid', `The name of the file in ${name} ${why}.`, { [name]: `its file name ${why}` }));
+          writtenFor.set(f, written);
+        }
+      }
+      next();
+    });
+  };
+}
+
+/** Storage keys written by `storeUpload` for the files of one request (`receiveFiles`). */
+const writtenBy = new WeakMap<Request, string[]>();
+const writtenFor = new WeakMap<Express.Multer.File, string[]>();
+
+/**
+ * After a route with files has ended (answered, refused or rolled back; Api.route calls it): removes
+ * every file that `storeUpload` wrote for this request and that no committed `uploads` row keeps.
+ * The one place where refused and rolled-back uploads are cleaned up.
+ */
+export async function discardUnkept(deps: Pick<Deps, 'db' | 'config'>, req: Request): Promise<string[]> {
+  const written = writtenBy.get(req);
+  if (!written?.length) return [];
+  const kept = new Set(
+    (await deps.db.selectFrom('uploads').select('storage_key').where('storage_key', 'in', written).execute()).map((r) => r.storage_key),
+  );
+  const removed = written.filter((k) => !kept.has(k));
+  for (const key of removed) {
+    await unlink(path.resolve(deps.config.uploadDir, key)).catch((e: NodeJS.ErrnoException) => {
+      if (e.code !== 'ENOENT') console.error(`[uploads] could not remove ${key}`, e);
+    });
+  }
+  written.length = 0;
+  return removed;
 }
 
 /** The files of one field of a multipart request (after receiveFiles). */
@@ -73,6 +121,8 @@ export async function storeUpload(
   const key = path.join(new Date().toISOString().slice(0, 7), `${randomUUID()}.${detected.ext}`);
   const full = path.resolve(deps.config.uploadDir, key);
   await mkdir(path.dirname(full), { recursive: true });
+  // Noted before writing: if the request does not keep it (refused, rolled back), it is removed.
+  writtenFor.get(file)?.push(key);
   await writeFile(full, file.buffer, { mode: 0o600 });
   const row = await (opts.db ?? deps.db)
     .insertInto('uploads')
