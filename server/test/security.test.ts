@@ -288,6 +288,9 @@ describe('permit decisions: the role first, never one\u2019s own permit, a limit
       expect(r.body.error.message).toMatch(new RegExp(`You requested or changed permit ${p.number}`));
     }
     expect(await version(w, p.id)).toBe(p.version);
+    // The permit page offers them no decision; another coordinator is offered all three.
+    expect((await x.agent.get(`/api/permits/${p.id}`)).body.permit.actions).toEqual([]);
+    expect((await w.agents.coordinator.get(`/api/permits/${p.id}`)).body.permit.actions).toEqual(expect.arrayContaining(['approve', 'return', 'decline']));
     // Another coordinator may: the refusal was about the person.
     const other = await act(w.agents.coordinator, p.id, { action: 'return', reason: 'Move the loads', version: p.version, password: DEMO_PASSWORD });
     expect(other.status).toBe(200);

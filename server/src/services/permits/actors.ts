@@ -1,5 +1,5 @@
 import type { Db } from '@db/database';
-import type { ActorRole } from '@shared/schemas/permits';
+import type { ActorRole, PermitAction } from '@shared/schemas/permits';
 
 /**
  * Who changes a permit: a signed-in person (whose role on the permit's site is read afresh), or
@@ -29,4 +29,33 @@ export async function roleOf(db: Db, actor: Actor, siteId: number): Promise<Acto
     .where('user_id', '=', actor.id)
     .executeTakeFirst();
   return m?.role ?? null;
+}
+
+/** The decisions on a request; nobody takes one on a permit they requested or changed. */
+export const DECISIONS: readonly PermitAction[] = ['approve', 'return', 'decline'];
+/** Timeline actions that make a person an author of a permit (any revision of it). */
+const AUTHORING = ['create', 'edit', 'revise', 'submit'];
+
+/**
+ * Whether the person requested the permit or changed any revision of it: asked for it, created or
+ * edited a revision, revised it or sent it for review. Read from the records, so it holds whatever
+ * role the person has now.
+ */
+export async function isAuthorOf(db: Db, permitId: number, userId: number): Promise<boolean> {
+  const row = await db
+    .selectFrom('permits as p')
+    .select((eb) => [
+      eb
+        .or([
+          eb('p.requested_by', '=', userId),
+          eb.exists(eb.selectFrom('permit_revisions as r').select('r.id').whereRef('r.permit_id', '=', 'p.id').where('r.created_by', '=', userId)),
+          eb.exists(
+            eb.selectFrom('permit_events as e').select('e.id').whereRef('e.permit_id', '=', 'p.id').where('e.actor_id', '=', userId).where('e.action', 'in', AUTHORING),
+          ),
+        ])
+        .as('author'),
+    ])
+    .where('p.id', '=', permitId)
+    .executeTakeFirst();
+  return Boolean(row?.author);
 }

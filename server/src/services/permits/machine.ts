@@ -13,7 +13,7 @@ import {
 import type { Deps } from '../../deps';
 import { badRequest, conflict, forbidden, HttpError, notFound } from '../../http';
 import { audit } from '../audit';
-import { roleOf, type Actor } from './actors';
+import { DECISIONS, isAuthorOf, roleOf, type Actor } from './actors';
 import { checkStoredRevision } from './check';
 import { unsafeExcavations } from '../unsafe-excavations';
 import { notifyTransition } from './notify';
@@ -54,35 +54,6 @@ export class WrongPasswordError extends HttpError {
 }
 
 type PermitRow = { id: number; site_id: number; number: string; status: PermitStatus; version: number; revision: number; requested_by: number };
-
-/** The decisions on a request; nobody takes one on a permit they requested or changed. */
-const DECISIONS: readonly PermitAction[] = ['approve', 'return', 'decline'];
-/** Timeline actions that make a person an author of a permit (any revision of it). */
-const AUTHORING = ['create', 'edit', 'revise', 'submit'];
-
-/**
- * Whether the person requested the permit or changed any revision of it: asked for it, created or
- * edited a revision, revised it or sent it for review. Read from the records, so it holds whatever
- * role the person has now.
- */
-export async function isAuthorOf(db: Db, permitId: number, userId: number): Promise<boolean> {
-  const row = await db
-    .selectFrom('permits as p')
-    .select((eb) => [
-      eb
-        .or([
-          eb('p.requested_by', '=', userId),
-          eb.exists(eb.selectFrom('permit_revisions as r').select('r.id').whereRef('r.permit_id', '=', 'p.id').where('r.created_by', '=', userId)),
-          eb.exists(
-            eb.selectFrom('permit_events as e').select('e.id').whereRef('e.permit_id', '=', 'p.id').where('e.actor_id', '=', userId).where('e.action', 'in', AUTHORING),
-          ),
-        ])
-        .as('author'),
-    ])
-    .where('p.id', '=', permitId)
-    .executeTakeFirst();
-  return Boolean(row?.author);
-}
 
 /**
  * Who may take `action` on the permit: its site role (403 naming who may), and for a decision

@@ -19,6 +19,7 @@ import {
   type ExcavationSnapshot,
 } from '@shared/schemas/permits';
 import { CAUTION } from './caution';
+import { DECISIONS, isAuthorOf } from './actors';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
 
@@ -212,6 +213,9 @@ export async function loadDetail(db: Db, id: number, viewer: { id: number; role:
     loadAttachments(db, id),
   ]);
   const me = current!.operators.find((o) => o.id === viewer.id);
+  let actions = allowedActions(summary.status, viewer.role);
+  // An author of the permit is not offered a decision on it (the transition would refuse it).
+  if (actions.some((a) => DECISIONS.includes(a)) && (await isAuthorOf(db, id, viewer.id))) actions = actions.filter((a) => !DECISIONS.includes(a));
   return {
     ...summary,
     current: current!,
@@ -222,7 +226,7 @@ export async function loadDetail(db: Db, id: number, viewer: { id: number; role:
     })),
     events,
     attachments,
-    actions: allowedActions(summary.status, viewer.role),
+    actions,
     briefingDue: !!me && !me.briefedAt && ['approved', 'live', 'suspended'].includes(summary.status),
     caution: CAUTION,
   };
