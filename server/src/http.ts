@@ -233,8 +233,9 @@ export class Api {
       try {
         out = await handler(ctx);
       } finally {
-        // Files stored for this request that it did not keep (refused, rolled back) go.
-        await discardUnkept(deps, req);
+        // Files stored for this request that it did not keep (refused, rolled back) go. A failure
+        // here (the database away) is logged, never put in place of the request's own answer.
+        await discardUnkept(deps, req).catch((e: unknown) => console.error('[uploads] could not sweep unkept files', e));
       }
       if (res.headersSent) return;
       if (out === undefined) res.status(204).end();
