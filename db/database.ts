@@ -394,10 +394,15 @@ export function createPool(connectionString: string, max = 10, opts: { name?: st
   return pool;
 }
 
+let connectionLosses = 0;
+/** How many pooled connections have been lost so far (any pool of this process): a cached ping is stale once it grows. */
+export const connectionLossCount = () => connectionLosses;
+
 /** Logs the 'error' events of a pool and of every client it hands out, instead of crashing on them. */
 export function handlePoolErrors(pool: pg.Pool, name: string): void {
   let lastLogged = 0;
   const log = (err: Error) => {
+    connectionLosses++;
     // One line per burst: an outage breaks every pooled connection at once.
     if (Date.now() - lastLogged < 5000) return;
     lastLogged = Date.now();

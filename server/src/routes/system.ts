@@ -1,18 +1,18 @@
 import { sql } from 'kysely';
 import { z } from 'zod';
 import type { Request } from 'express';
+import { connectionLossCount } from '@db/database';
 import { Api, forbidden, HttpError } from '../http';
 import { openApiDocument } from '../openapi';
 
 export function registerSystemRoutes(api: Api): void {
   const { db, config } = api.deps;
+  const reachable = databaseProbe(() => sql`select 1`.execute(db).then(() => undefined));
 
   api.route(
     { method: 'get', path: '/api/health', summary: 'Whether the server and its database answer', tag: 'System', access: { kind: 'public' } },
     async ({ res }) => {
-      try {
-        await sql`select 1`.execute(db);
-      } catch {
+      if (!(await reachable())) {
         res.status(503).json({ ok: false, database: 'unreachable' });
         return;
       }
@@ -57,4 +57,35 @@ function fromThisMachine(req: Request): boolean {
   const a = req.socket.remoteAddress ?? '';
   const loopback = a === '::1' || a.startsWith('127.') || a.startsWith('::ffff:127.');
   return loopback && !req.headers['x-forwarded-for'];
+}
+
+/** How long a ping's answer (reachable or not) stands for every health request (ms). */
+export const PING_FRESH_MS = 1000;
+
+/**
+ * Whether the database answers, pinged at most once per PING_FRESH_MS: requests within that time of
+ * the last answer share it, and concurrent requests share one ping in flight. An outage shows on
+ * /api/health at once when a pooled connection breaks, else within a second (503, database:
+ * unreachable); the recovery within a second.
+ */
+export function databaseProbe(
+  ping: () => Promise<void>,
+  clock: () => number = () => performance.now(),
+  losses: () => number = connectionLossCount,
+): () => Promise<boolean> {
+  let answer: { ok: boolean; at: number; losses: number } | null = null;
+  let inFlight: Promise<boolean> | null = null;
+  return () => {
+    // A connection lost since the answer (PostgreSQL stopped or restarted) makes it stale at once.
+    if (answer && clock() - answer.at < PING_FRESH_MS && answer.losses === losses()) return Promise.resolve(answer.ok);
+    inFlight ??= ping().then(
+      () => true,
+      () => false,
+    ).then((ok) => {
+      answer = { ok, at: clock(), losses: losses() };
+      inFlight = null;
+      return ok;
+    });
+    return inFlight;
+  };
 }
