@@ -53,7 +53,9 @@ import {
 } from '../schemas/permits';
 
 /** An excavation of the register as the check needs it: its plan shape and its engine inputs. */
-export function checkExcavationOf(e: Pick<RegisterExcavation, 'id' | 'reference' | 'name' | 'kind' | 'geometry' | 'width' | 'soil'> & CalcFields): CheckExcavation {
+export function checkExcavationOf(
+  e: Pick<RegisterExcavation, 'id' | 'reference' | 'name' | 'kind' | 'geometry' | 'width' | 'soil'> & CalcFields & { outline?: Polygon | null },
+): CheckExcavation {
   return {
     id: e.id,
     reference: e.reference,
@@ -61,6 +63,7 @@ export function checkExcavationOf(e: Pick<RegisterExcavation, 'id' | 'reference'
     shape: e.kind === 'trench' ? { kind: 'trench', centreLine: e.geometry as LineString, width: e.width ?? 0 } : { kind: 'pit', outline: e.geometry as Polygon },
     excavation: calcExcavationOf(e),
     soil: e.soil as SoilLayer[],
+    groundOutline: e.outline ?? null,
   };
 }
 type CalcFields = Parameters<typeof calcExcavationOf>[0];
@@ -73,6 +76,12 @@ export interface CheckExcavation {
   shape: ExcavationShape;
   excavation: Excavation;
   soil: SoilLayer[];
+  /**
+   * The ground outline as stored when the excavation was written (WGS84; null or absent for rows
+   * without one). Used only to pass over a nearby excavation that no footprint comes near (a box
+   * test with a margin); every figure is measured against the outline drawn from `shape`.
+   */
+  groundOutline?: Polygon | null;
 }
 
 export interface PlantForCheck {
@@ -107,6 +116,14 @@ export interface CheckInput {
    */
   otherPlant?: Map<number, Map<number, PlantForCheck>>;
   now: Date;
+  /** The engine's calls (default: shared/engineering as is); the server passes memoised ones (pure functions of their arguments). */
+  engine?: CheckEngine;
+}
+
+/** The two engine calls the check makes; both pure, so a caller may memoise them. */
+export interface CheckEngine {
+  runCheck: typeof runCheck;
+  groupStandoff: typeof groupStandoff;
 }
 
 /** One bearing footprint of a placed load: a plant element, or the drawn shape of an ad hoc load. */
@@ -281,6 +298,36 @@ function footprintReaches(f: Footprint, ex: CheckExcavation, proj: LocalProjecti
   }
 }
 
+/** A box in site-local metres. */
+type Box = [minX: number, minY: number, maxX: number, maxY: number];
+const boxOf = (pts: XY[]): Box => {
+  const b: Box = [Infinity, Infinity, -Infinity, -Infinity];
+  for (const [x, y] of pts) {
+    if (x < b[0]) b[0] = x;
+    if (y < b[1]) b[1] = y;
+    if (x > b[2]) b[2] = x;
+    if (y > b[3]) b[3] = y;
+  }
+  return b;
+};
+const boxesMeet = (a: Box, b: Box) => a[0] <= b[2] && b[0] <= a[2] && a[1] <= b[3] && b[1] <= a[3];
+/** Margin (m) added to depth around a stored outline: far above its rounding through WGS84 (below 1 mm). */
+const STORED_OUTLINE_MARGIN = 0.5;
+
+/**
+ * Whether some footprint may stand within the excavation's depth of its stored ground outline: false
+ * only when every footprint's box lies farther than depth + margin from the outline's box, so such a
+ * footprint cannot touch it nor stand closer than its depth. True (measure it) without a stored outline.
+ */
+function mayReach(boxes: Box[], ex: CheckExcavation, proj: LocalProjection): boolean {
+  const ring = ex.groundOutline?.coordinates[0];
+  if (!ring?.length) return true;
+  const b = boxOf(ring.map((p) => proj.toLocal(p as LngLat)));
+  const r = ex.excavation.depth + STORED_OUTLINE_MARGIN;
+  const zone: Box = [b[0] - r, b[1] - r, b[2] + r, b[3] + r];
+  return boxes.some((f) => boxesMeet(f, zone));
+}
+
 function reachesInfluenceZone(own: { feet: Footprint[] }[], ex: CheckExcavation, proj: LocalProjection): boolean {
   return own.some(({ feet }) => feet.some((f) => footprintReaches(f, ex, proj)));
 }
@@ -296,7 +343,9 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
   const warnings: string[] = [];
 
   const named = new Set(input.excavations.map((e) => e.id));
-  const reached = (input.nearby ?? []).filter((ex) => !named.has(ex.id) && reachesInfluenceZone(own, ex, proj));
+  const boxes = own.flatMap(({ feet }) => feet.map((f) => boxOf(f.local)));
+  const reached = (input.nearby ?? []).filter((ex) => !named.has(ex.id) && mayReach(boxes, ex, proj) && reachesInfluenceZone(own, ex, proj));
+  const engine = input.engine ?? { runCheck, groupStandoff };
   for (const ex of reached) {
     const labels = [...new Set(own.filter(({ feet }) => feet.some((f) => footprintReaches(f, ex, proj))).map(({ feet, load }) => feet[0]?.label ?? load.id))];
     warnings.push(
@@ -354,7 +403,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
       { excavation: ex.excavation, soil: ex.soil, method: input.method, minimumClearance: input.minimumClearance, step: 0.05, loads },
       ex.reference,
     );
-    const result = runCheck(request);
+    const result = engine.runCheck(request);
     const checked: CheckedLoad[] = meta.map((m, i) => ({ ...m, force: result.loads[i].force, standoff: result.loads[i].standoff }));
     // A load of one footprint has the engine's standoff; a machine's elements move together.
     const { loads: _all, ...base } = request;
@@ -367,7 +416,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
       if (parts.length === 1) {
         answer = result.loads[parts[0]];
       } else {
-        const group = groupStandoff(base, parts.map((i) => loads[i] as Exclude<Load, { kind: 'blanket' }>));
+        const group = engine.groupStandoff(base, parts.map((i) => loads[i] as Exclude<Load, { kind: 'blanket' }>));
         if (!group.monotonic) result.warnings.push(notMonotonicWarning(label, group));
         answer = group;
       }

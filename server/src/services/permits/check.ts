@@ -1,6 +1,18 @@
 import { sql } from 'kysely';
 import type { Db } from '@db/database';
-import { CheckInputError, checkExcavationOf, cumulativeCheck, PlacementError, type CheckExcavation, type OtherPermit, type PlantForCheck } from '@shared/permits/check';
+import type { Polygon } from 'geojson';
+import { runCheck } from '@shared/engineering';
+import {
+  CheckInputError,
+  checkExcavationOf,
+  cumulativeCheck,
+  groupStandoff,
+  PlacementError,
+  type CheckEngine,
+  type CheckExcavation,
+  type OtherPermit,
+  type PlantForCheck,
+} from '@shared/permits/check';
 import {
   countedStatuses,
   editableStatuses,
@@ -11,7 +23,7 @@ import {
   type PlacedLoad,
   type PlantSnapshot,
 } from '@shared/schemas/permits';
-import { checkInputFields } from '@shared/schemas/excavations';
+import { checkInputFields, type Excavation as RegisterExcavation } from '@shared/schemas/excavations';
 import { badRequest, HttpError, notFound } from '../../http';
 import { loadExcavations } from '../excavations';
 import { withCurrentRevision } from './read';
@@ -28,8 +40,13 @@ const plantIdsOf = (loads: PlacedLoad[]) => [...new Set(loads.flatMap((l) => (l.
  * The plant items the loads name: from the revision's frozen machines when it has them (from
  * review on), else from the library as it is now (drafts, and revisions stored before snapshots).
  */
-export async function plantFor(db: Db, loads: PlacedLoad[], snapshot: PlantSnapshot | null = null): Promise<Map<number, PlantForCheck>> {
-  const frozen = snapshot ? machinesOf(snapshot) : new Map<number, PlantForCheck>();
+export async function plantFor(
+  db: Db,
+  loads: PlacedLoad[],
+  snapshot: PlantSnapshot | null = null,
+  known: Map<number, PlantForCheck> = new Map(),
+): Promise<Map<number, PlantForCheck>> {
+  const frozen = new Map([...known, ...(snapshot ? machinesOf(snapshot) : [])]);
   const ids = plantIdsOf(loads).filter((id) => !frozen.has(id));
   if (!ids.length) return frozen;
   const rows = await db.selectFrom('plant_items').select(['id', 'name', 'operating_mass', 'design_factor', 'elements']).where('id', 'in', ids).execute();
@@ -88,13 +105,17 @@ export async function overlappingPermits(
   exceptPermitId: number | null,
   excavationIds: number[],
   window: { start: Date; end: Date },
+  opts: { withOpen?: boolean } = {},
 ): Promise<(OtherPermit & { plantSnapshot: PlantSnapshot | null })[]> {
-  if (!excavationIds.length) return [];
+  if (!excavationIds.length && !opts.withOpen) return [];
+  // withOpen: the site's open excavations count too (found in the same query).
+  const named = sql`${sql.val(excavationIds)}::int[]`;
+  const ids = opts.withOpen ? sql`(${named} || array(select e.id from excavations e where e.site_id = ${siteId} and e.state = 'open'))` : named;
   let q = withCurrentRevision(db)
     .select(['p.id', 'p.number', 'p.status', 'r.window_start', 'r.window_end', 'r.excavation_ids', 'r.loads', 'r.plant_snapshot'])
     .where('p.site_id', '=', siteId)
     .where('p.status', 'in', countedStatuses as PermitStatus[])
-    .where(sql<boolean>`r.excavation_ids && ${sql.val(excavationIds)}::int[]`)
+    .where(sql<boolean>`r.excavation_ids && ${ids}`)
     .where('r.window_start', '<', window.end)
     .where('r.window_end', '>', window.start);
   if (exceptPermitId !== null) q = q.where('p.id', '!=', exceptPermitId);
@@ -111,6 +132,68 @@ export async function overlappingPermits(
   }));
 }
 
+/**
+ * The site's excavations as the check takes them (the named ones, and every open one), with their
+ * stored ground outlines: only the columns the check reads, in one query.
+ */
+async function checkExcavationRows(db: Db, siteId: number, named: number[]): Promise<(CheckExcavation & { state: string })[]> {
+  const rows = await db
+    .selectFrom('excavations')
+    .select(['id', 'reference', 'name', 'kind', 'geometry', 'width', 'soil', 'state', 'outline', 'depth', 'groundwater_depth', 'design_surcharge', 'rated_pressure', 'pressure_state', 'wall_friction', 'restraint'])
+    .where('site_id', '=', siteId)
+    .where((eb) => (named.length ? eb.or([eb('state', '=', 'open'), eb('id', 'in', named)]) : eb('state', '=', 'open')))
+    .orderBy('reference')
+    .execute();
+  return rows.map((r) => ({
+    state: r.state,
+    ...checkExcavationOf({
+      id: r.id,
+      reference: r.reference,
+      name: r.name,
+      kind: r.kind,
+      geometry: r.geometry as RegisterExcavation['geometry'],
+      width: r.width,
+      soil: r.soil as RegisterExcavation['soil'],
+      outline: (r.outline ?? null) as Polygon | null,
+      depth: r.depth,
+      groundwaterDepth: r.groundwater_depth,
+      designSurcharge: r.design_surcharge,
+      ratedPressure: r.rated_pressure,
+      pressureState: r.pressure_state,
+      wallFriction: r.wall_friction,
+      restraint: r.restraint,
+    }),
+  }));
+}
+
+/**
+ * The engine's two calls, memoised by their whole argument (both are pure functions of it): a
+ * permit checked again with nothing changed (the permit page, a re-check of every permit of an
+ * excavation) costs a lookup instead of the standoff search. Bounded; answers are copied out, so a
+ * caller may change what it gets.
+ */
+const memoEngine: CheckEngine = {
+  runCheck: memoised((request) => runCheck(request)),
+  groupStandoff: memoised((base, group) => groupStandoff(base, group)),
+};
+const MEMO_ENTRIES = 500;
+
+function memoised<A extends unknown[], R>(fn: (...args: A) => R): (...args: A) => R {
+  const memo = new Map<string, R>();
+  return (...args: A) => {
+    const key = JSON.stringify(args);
+    let value = memo.get(key);
+    if (value === undefined) {
+      value = fn(...args);
+      if (memo.size >= MEMO_ENTRIES) memo.delete(memo.keys().next().value!);
+    } else {
+      memo.delete(key); // least recently used goes first
+    }
+    memo.set(key, value);
+    return structuredClone(value);
+  };
+}
+
 export interface CheckSubject {
   siteId: number;
   permitId: number | null;
@@ -122,6 +205,8 @@ export interface CheckSubject {
   method: 'dispersion-45' | 'elastic';
   /** The machines frozen when the permit was sent for review (null: the library as it is now). */
   plantSnapshot: PlantSnapshot | null;
+  /** The site's origin and clearance when already read (else read by the check). */
+  site?: { latitude: number; longitude: number; minimum_clearance: number };
 }
 
 /**
@@ -130,14 +215,20 @@ export interface CheckSubject {
  * calculation refuses (docs/calculation.md, "Refusals") answer 400 naming the field.
  */
 export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promise<PermitCheck> {
-  const site = await db.selectFrom('sites').select(['latitude', 'longitude', 'minimum_clearance']).where('id', '=', s.siteId).executeTakeFirstOrThrow();
-  // Every open excavation of the site: the named ones are checked, the others when a load reaches them.
-  const all = await loadExcavations(db, s.siteId);
-  const excavations = s.excavationIds.flatMap((id) => all.filter((e) => e.id === id)).map(checkExcavationOf);
-  const nearby = all.filter((e) => e.state === 'open' && !s.excavationIds.includes(e.id)).map(checkExcavationOf);
-  const candidates = await overlappingPermits(db, s.siteId, s.permitId, [...s.excavationIds, ...nearby.map((e) => e.id)], { start: s.windowStart, end: s.windowEnd });
+  // One round of queries side by side (the site, the excavations, the other permits, this permit's
+  // machines), then the library's machines of other permits only if some are still missing.
+  // The named excavations are checked; every other open one when a load reaches it (passed over
+  // cheaply by its stored outline when no load comes near it).
+  const [site, all, candidates, ownPlant] = await Promise.all([
+    s.site ?? db.selectFrom('sites').select(['latitude', 'longitude', 'minimum_clearance']).where('id', '=', s.siteId).executeTakeFirstOrThrow(),
+    checkExcavationRows(db, s.siteId, s.excavationIds),
+    overlappingPermits(db, s.siteId, s.permitId, s.excavationIds, { start: s.windowStart, end: s.windowEnd }, { withOpen: true }),
+    plantFor(db, s.loads, s.plantSnapshot),
+  ]);
+  const excavations = s.excavationIds.flatMap((id) => all.filter((e) => e.id === id));
+  const nearby = all.filter((e) => e.state === 'open' && !s.excavationIds.includes(e.id));
   // Each permit's loads with its own machines: frozen from review on, the library's for the rest.
-  const plant = await plantFor(db, [...s.loads, ...candidates.flatMap((o) => o.loads)], s.plantSnapshot);
+  const plant = await plantFor(db, candidates.flatMap((o) => o.loads), null, ownPlant);
   const otherPlant = new Map(candidates.flatMap((o) => (o.plantSnapshot ? [[o.id, machinesOf(o.plantSnapshot)] as const] : [])));
   const others = candidates.map(({ plantSnapshot: _p, ...o }) => o);
   const missing = s.loads.findIndex((l) => l.kind === 'plant' && !plant.has(l.plantItemId));
@@ -154,6 +245,7 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
       others,
       otherPlant,
       now,
+      engine: memoEngine,
     });
   } catch (err) {
     if (err instanceof PlacementError) {
@@ -172,7 +264,9 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
 
 async function subjectOf(db: Db, permitId: number): Promise<{ subject: CheckSubject; revisionId: number; status: PermitStatus }> {
   const r = await withCurrentRevision(db)
+    .innerJoin('sites as s', 's.id', 'p.site_id')
     .select(['p.id', 'p.site_id', 'p.number', 'p.status', 'r.id as revision_id', 'r.window_start', 'r.window_end', 'r.excavation_ids', 'r.loads', 'r.method', 'r.plant_snapshot'])
+    .select(['s.latitude', 's.longitude', 's.minimum_clearance'])
     .where('p.id', '=', permitId)
     .executeTakeFirst();
   if (!r) throw notFound('That permit');
@@ -190,6 +284,7 @@ async function subjectOf(db: Db, permitId: number): Promise<{ subject: CheckSubj
       method: r.method,
       // A draft or returned request is checked with the library as it is; from review on, with its frozen machines.
       plantSnapshot: editableStatuses.includes(r.status) ? null : (r.plant_snapshot as PlantSnapshot | null),
+      site: { latitude: r.latitude, longitude: r.longitude, minimum_clearance: r.minimum_clearance },
     },
   };
 }
