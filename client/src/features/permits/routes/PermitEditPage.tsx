@@ -106,6 +106,15 @@ function Editor({ permit }: { permit: PermitDetail }) {
   // The live check, in the browser with the shared engine and the shared schemas, on every move.
   // Figures the schemas refuse give "Cannot check", never a verdict.
   const live = useMemo((): { check: PermitCheck | null; refused: string | null; invalid: string | null } => {
+    const started = performance.now();
+    try {
+      return liveCheck();
+    } finally {
+      measureLiveCheck(started);
+    }
+  }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit.id, permit.number, server]);
+
+  function liveCheck(): { check: PermitCheck | null; refused: string | null; invalid: string | null } {
     if (!site.data || !proj || draft.loads.length === 0 || named.length === 0 || !plantQ.data) return { check: null, refused: null, invalid: null };
     try {
       return {
@@ -128,7 +137,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
       if (e instanceof PlacementError) return { check: null, refused: e.message, invalid: null };
       return { check: null, refused: 'A load could not be placed: check its figures.', invalid: null };
     }
-  }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit.id, permit.number, server]);
+  }
 
   if (site.isPending || excavations.isPending || plantQ.isPending) return <Loading what="Loading the site" />;
   if (site.isError || excavations.isError || plantQ.isError) return <LoadError error={site.error ?? excavations.error ?? plantQ.error} />;
@@ -380,4 +389,17 @@ function MetresField({ label, value, onCommit }: { label: string; value: number;
       hint="Type the figure, then Enter or leave the field"
     />
   );
+}
+
+/** The User Timing name of one live check (read by `npm run bench -- web` while a load is dragged). */
+const LIVE_CHECK_MEASURE = 'brink:live-check';
+let liveMeasures = 0;
+/** Records one live check's time as a performance measure; the oldest go after 500, so dragging all day keeps nothing growing. */
+function measureLiveCheck(started: number): void {
+  if (typeof performance.measure !== 'function') return;
+  if (++liveMeasures > 500) {
+    performance.clearMeasures(LIVE_CHECK_MEASURE);
+    liveMeasures = 1;
+  }
+  performance.measure(LIVE_CHECK_MEASURE, { start: started, end: performance.now() });
 }
