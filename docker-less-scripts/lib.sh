@@ -126,3 +126,34 @@ ensure_database() {
     (async()=>{await c.connect();const r=await c.query("select 1 from pg_database where datname=$1",[process.argv[2]]);
     if(!r.rowCount){await c.query(`create database "${process.argv[2]}"`);}await c.end();})().catch(e=>{console.error(e.message);process.exit(1)})' "$port" "$name"
 }
+
+# supervise CMD...: runs the server and, whenever it dies other than by a clean stop (exit 0), logs
+# it and starts it again after a back-off of 1, 2, 4 … s up to BRINK_RESTART_MAX_DELAY (30 s; back to
+# 1 s once a run has lasted a minute). BRINK_PID_FILE, when set, gets the running server's pid.
+# Ctrl-C or SIGTERM stops the server and returns.
+supervise() {
+  local pid="" code started ran delay=1 max="${BRINK_RESTART_MAX_DELAY:-30}" stopping="" nap=""
+  trap 'stopping=1; [ -n "$pid" ] && kill -TERM "$pid" 2>/dev/null; [ -n "$nap" ] && kill "$nap" 2>/dev/null; true' INT TERM
+  while :; do
+    started=$SECONDS
+    "$@" &
+    pid=$!
+    if [ -n "${BRINK_PID_FILE:-}" ]; then echo "$pid" >"$BRINK_PID_FILE"; fi
+    code=0
+    # `wait` returns early when a signal is trapped: wait until the server itself has gone.
+    while kill -0 "$pid" 2>/dev/null; do wait "$pid" && code=0 || code=$?; done
+    pid=""
+    if [ -n "$stopping" ]; then break; fi
+    if [ "$code" = 0 ]; then say "Brink stopped"; break; fi
+    ran=$((SECONDS - started))
+    if [ "$ran" -ge 60 ]; then delay=1; fi
+    say "$(date -u +%Y-%m-%dT%H:%M:%SZ) Brink exited (code $code$([ "$code" -gt 128 ] && echo ", signal $((code - 128))")) after ${ran} s; restarting in ${delay} s" >&2
+    sleep "$delay" &
+    nap=$!
+    wait "$nap" 2>/dev/null || true
+    nap=""
+    if [ -n "$stopping" ]; then break; fi
+    delay=$((delay * 2 > max ? max : delay * 2))
+  done
+  trap - INT TERM
+}

@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # `npm start`: Brink with its demo site on this machine, no containers. Run twice, it reuses
-# the cluster under .data/. Ctrl-C stops everything it started.
+# the cluster under .data/. The server is restarted when it dies (lib.sh `supervise`). Ctrl-C stops
+# everything it started.
 source "$(dirname "$0")/lib.sh"
 
 ensure_node_modules
@@ -34,4 +35,5 @@ npx tsx db/cli.ts seed
 say "building the client"
 npx vite build --logLevel warn
 say "starting Brink"
-node --import tsx server/src/index.ts
+# Supervised: if the server process dies it is started again (with a back-off) and the restart is logged.
+supervise node --import tsx server/src/index.ts
