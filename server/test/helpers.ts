@@ -1,5 +1,4 @@
 import { randomUUID } from 'node:crypto';
-import net from 'node:net';
 import request from 'supertest';
 import type { Express } from 'express';
 import { loadConfig } from '../src/config';
@@ -8,8 +7,9 @@ import { startRuntime, type Runtime } from '../src/runtime';
 import { MailCatcher } from '../src/mail/catcher';
 import { DEMO_PASSWORD } from '@db/demo/people';
 import type { Deps } from '../src/deps';
+import { freePort } from '../src/services/ports';
 
-export { DEMO_PASSWORD };
+export { DEMO_PASSWORD, freePort };
 
 export const demo = {
   admin: 'admin@demo.brink.test',
@@ -22,16 +22,6 @@ export type DemoRole = keyof typeof demo;
 /** The test app's own origin (its PUBLIC_URL): supertest requests say they come from it (setup-origin.ts). */
 export const TEST_ORIGIN = 'http://brink.test';
 
-export async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = net.createServer();
-    s.once('error', reject);
-    s.listen(0, '127.0.0.1', () => {
-      const port = (s.address() as net.AddressInfo).port;
-      s.close(() => resolve(port));
-    });
-  });
-}
 
 export interface TestApp {
   app: Express;

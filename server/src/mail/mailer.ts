@@ -20,10 +20,13 @@ export interface QueuedMessage extends Message {
 
 /**
  * How the mail queue retries: the first retry after 1–2 s, doubling from there (pg-boss's backoff
- * with jitter), 30 tries in all; a delivery taking longer than 60 s is given up and retried.
+ * with jitter), 30 tries in all; a delivery taking longer than 30 s is given up and retried (a
+ * message takes milliseconds; a job left active by a server that died waits this long, plus up to
+ * pg-boss's 20 s maintenance interval, before another worker takes it; a retry of a message still
+ * being sent waits on its key's claim and sends nothing).
  * Applied to a queue made by an older version of Brink too (jobs/queues.ts).
  */
-export const MAIL_QUEUE_OPTIONS = { retryLimit: 30, retryDelay: 1, retryBackoff: true, expireInSeconds: 60 } as const;
+export const MAIL_QUEUE_OPTIONS = { retryLimit: 30, retryDelay: 1, retryBackoff: true, expireInSeconds: 30 } as const;
 
 /**
  * Outgoing e-mail, as a transactional outbox. `send(db, message)` puts the message on a queue in
@@ -76,9 +79,11 @@ export class Mailer {
    * Sends one message, once. The key is claimed (an uncommitted row in `mail_deliveries`) before the
    * message goes to the SMTP server and committed as soon as the server has accepted it: a job
    * delivered twice at the same time waits on the first and then finds the key; a failed send
-   * rolls the claim back and pg-boss retries. Only a crash in the instant between the SMTP
-   * server's acceptance and the commit can send the message again, with the same Message-ID, which
-   * the receiving side can recognise.
+   * rolls the claim back and pg-boss retries. When the commit fails after the SMTP server accepted
+   * (PostgreSQL went away at that moment), the key is remembered in memory and recorded when a retry
+   * of the job finds the database again. Only the process dying in the instant between the SMTP
+   * server's acceptance and the commit can send a message again, with the same Message-ID, which the
+   * receiving side can recognise.
    */
   private async deliver(m: QueuedMessage): Promise<void> {
     const transport = this.transport;
@@ -99,17 +104,46 @@ export class Mailer {
       await smtp();
       return;
     }
-    await this.db.transaction().execute(async (trx) => {
-      const claimed = await trx
-        .insertInto('mail_deliveries')
-        .values({ key: m.key, recipients: [m.to].flat().join(', '), subject: m.subject })
-        .onConflict((oc) => oc.doNothing())
-        .returning('key')
-        .executeTakeFirst();
-      if (!claimed) return;
-      await smtp();
-    });
+    // Accepted earlier by the SMTP server while PostgreSQL was out of reach: record it, send nothing.
+    if (this.unrecorded.has(m.key)) return this.record(m);
+    let accepted = false;
+    try {
+      await this.db.transaction().execute(async (trx) => {
+        const claimed = await trx
+          .insertInto('mail_deliveries')
+          .values(deliveryRow(m))
+          .onConflict((oc) => oc.doNothing())
+          .returning('key')
+          .executeTakeFirst();
+        if (!claimed) return;
+        await smtp();
+        accepted = true;
+      });
+    } catch (err) {
+      if (!accepted) throw err;
+      // The SMTP server took the message but the commit was lost with the database connection:
+      // the key is kept in memory (so a retry of this job sends nothing) until it is recorded.
+      this.unrecorded.add(m.key);
+      await this.record(m);
+    }
   }
+
+  /** Keys of messages the SMTP server accepted whose record could not be written yet. */
+  private readonly unrecorded = new Set<string>();
+
+  private async record(m: QueuedMessage): Promise<void> {
+    await this.db
+      .insertInto('mail_deliveries')
+      .values(deliveryRow(m))
+      .onConflict((oc) => oc.doNothing())
+      .execute();
+    this.unrecorded.delete(m.key);
+  }
+}
+
+/** A message's line in `mail_deliveries`. */
+function deliveryRow(m: QueuedMessage) {
+  return { key: m.key, recipients: [m.to].flat().join(', '), subject: m.subject };
 }
 
 /** The Message-ID header of a queued message: its idempotency key. */
