@@ -157,3 +157,26 @@ supervise() {
   done
   trap - INT TERM
 }
+
+# throwaway_cluster NAME: a new PostgreSQL cluster in a fresh folder under /tmp ($WORK), on a free
+# loopback port ($PGPORT, the `brink` role's password in $PW), stopped and removed with the folder
+# when the script exits, also on failure or Ctrl-C. A script that starts more defines
+# `before_cleanup` to stop it first.
+throwaway_cluster() {
+  WORK="$(mktemp -d "/tmp/brink-$1.XXXXXX")"
+  chmod 755 "$WORK"
+  trap _throwaway_cleanup EXIT INT TERM
+  init_cluster "$WORK/pg" "$WORK/pg-password"
+  PGPORT="$(free_port)"
+  PG_FSYNC=off start_cluster "$WORK/pg" "$PGPORT"
+  PW="$(cat "$WORK/pg-password")"
+}
+
+_throwaway_cleanup() {
+  local code=$?
+  set +e
+  if declare -F before_cleanup >/dev/null; then before_cleanup; fi
+  stop_cluster "$WORK/pg"
+  rm -rf "$WORK"
+  exit "$code"
+}

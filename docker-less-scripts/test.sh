@@ -8,23 +8,11 @@ ensure_node_modules
 ensure_postgres
 ensure_chromium
 
-WORK="$(mktemp -d /tmp/brink-test.XXXXXX)"
-chmod 755 "$WORK"
 SERVER_PID=""
-cleanup() {
-  local code=$?
-  set +e
+before_cleanup() {
   if [ -n "$SERVER_PID" ]; then kill "$SERVER_PID" 2>/dev/null; wait "$SERVER_PID" 2>/dev/null; fi
-  stop_cluster "$WORK/pg"
-  rm -rf "$WORK"
-  exit "$code"
 }
-trap cleanup EXIT INT TERM
-
-init_cluster "$WORK/pg" "$WORK/pg-password"
-PGPORT="$(free_port)"
-PG_FSYNC=off start_cluster "$WORK/pg" "$PGPORT"
-PW="$(cat "$WORK/pg-password")"
+throwaway_cluster test
 ensure_database "$PGPORT" "$PW" brink_test
 ensure_database "$PGPORT" "$PW" brink_e2e
 
