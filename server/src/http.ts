@@ -134,25 +134,40 @@ export type Access =
       allow?: (m: { role: SiteRole; canInspect: boolean }) => boolean;
     };
 
-export interface RouteContext<B, Q, P> {
+/** The `site` access rule alone (for route files that share one). */
+export type SiteAccess = Extract<Access, { kind: 'site' }>;
+
+/** The site a route was authorised on, with the person's role there (null for administrators without one). */
+export interface SiteGrant {
+  id: number;
+  role: SiteRole | null;
+  canInspect: boolean;
+}
+
+/** Who the handler sees: on public routes whoever is signed in, if anyone; behind any other rule, always someone. */
+export type UserOf<A extends Access> = A extends { kind: 'public' } ? SessionUser | null : SessionUser;
+/** The site grant: present exactly on `site` routes. */
+export type SiteOf<A extends Access> = A extends { kind: 'site' } ? SiteGrant : null;
+
+export interface RouteContext<B, Q, P, A extends Access = Access> {
   req: Request;
   res: Response;
   body: B;
   query: Q;
   params: P;
-  /** The signed-in person (null on public routes when nobody is signed in). */
-  user: SessionUser | null;
-  /** The site the route was authorised on, with the person's role there (null for administrators without one). */
-  site: { id: number; role: SiteRole | null; canInspect: boolean } | null;
+  /** The signed-in person; its type follows the route's access rule (`UserOf`). */
+  user: UserOf<A>;
+  /** The site the route was authorised on; its type follows the route's access rule (`SiteOf`). */
+  site: SiteOf<A>;
   deps: Deps;
 }
 
-export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodType> {
+export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodType, A extends Access = Access> {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';
   path: string;
   summary: string;
   tag: string;
-  access: Access;
+  access: A;
   body?: B;
   query?: Q;
   params?: P;
@@ -163,7 +178,7 @@ export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodTy
    * action needs), run after `access` and before the body is validated: a forbidden call answers
    * 403 whatever its body holds. It sees the raw body, untrusted.
    */
-  beforeBody?: (ctx: Omit<RouteContext<unknown, unknown, Out<P>>, 'body' | 'query'> & { rawBody: unknown }) => void | Promise<void>;
+  beforeBody?: (ctx: Omit<RouteContext<unknown, unknown, Out<P>, A>, 'body' | 'query'> & { rawBody: unknown }) => void | Promise<void>;
   /** Documented answers besides the usual errors, e.g. { 201: 'Created' }. */
   responses?: Record<number, string>;
   /** The body is multipart/form-data with these file fields. */
@@ -175,6 +190,9 @@ export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodTy
 }
 
 type Out<S> = S extends ZodType ? z.output<S> : undefined;
+
+/** What the OpenAPI document reads of a route: its declaration without the code that runs. */
+export type RouteDoc = Omit<RouteSpec<ZodType, ZodType, ZodType>, 'beforeBody' | 'before'>;
 
 /** Site ids from the path parameter `siteId`. */
 export const siteFromParam = (req: Request) => {
@@ -188,7 +206,7 @@ export const siteFromParam = (req: Request) => {
  */
 export class Api {
   readonly router: Router = express.Router();
-  readonly specs: RouteSpec<ZodType, ZodType, ZodType>[] = [];
+  readonly specs: RouteDoc[] = [];
 
   /** Attempt limits kept per app (server/src/services/throttle.ts). */
   readonly throttles: ReturnType<typeof createThrottles>;
@@ -197,11 +215,11 @@ export class Api {
     this.throttles = createThrottles(deps);
   }
 
-  route<B extends ZodType = never, Q extends ZodType = never, P extends ZodType = never>(
-    spec: RouteSpec<B, Q, P>,
-    handler: (ctx: RouteContext<Out<B>, Out<Q>, Out<P>>) => unknown | Promise<unknown>,
+  route<A extends Access, B extends ZodType = never, Q extends ZodType = never, P extends ZodType = never>(
+    spec: RouteSpec<B, Q, P, A>,
+    handler: (ctx: RouteContext<Out<B>, Out<Q>, Out<P>, A>) => unknown | Promise<unknown>,
   ): void {
-    this.specs.push(spec as unknown as RouteSpec<ZodType, ZodType, ZodType>);
+    this.specs.push(spec);
     const deps = this.deps;
     const guard: RequestHandler = async (req, _res, next) => {
       const typeProblem = bodyTypeProblem(req, Boolean(spec.files));
@@ -214,8 +232,10 @@ export class Api {
     };
     const main = async (req: Request, res: Response) => {
       const params = (spec.params ? parseOr400(spec.params, req.params, 'path') : undefined) as Out<P>;
-      const user = req.user ?? null;
-      const site = (req as AuthedRequest).siteAccess ?? null;
+      // authorise() has refused every call these types do not allow (no one signed in behind a
+      // non-public rule; no site grant on a site rule); the narrowing is checked there, not here.
+      const user = (req.user ?? null) as UserOf<A>;
+      const site = ((req as AuthedRequest).siteAccess ?? null) as SiteOf<A>;
       if (spec.beforeBody) await spec.beforeBody({ req, res, params, user, site, deps, rawBody: req.body });
       refuseBadText(req.body, 'request');
       refuseBadText(req.query, 'query');
@@ -228,7 +248,7 @@ export class Api {
         user,
         site,
         deps,
-      } as RouteContext<Out<B>, Out<Q>, Out<P>>;
+      } as RouteContext<Out<B>, Out<Q>, Out<P>, A>;
       let out: unknown;
       try {
         out = await handler(ctx);
@@ -246,11 +266,11 @@ export class Api {
 }
 
 interface AuthedRequest extends Request {
-  siteAccess?: RouteContext<unknown, unknown, unknown>['site'];
+  siteAccess?: SiteGrant | null;
 }
 
 /** The site and role a route was authorised on (for `before` middleware, which runs ahead of validation). */
-export function siteAccessOf(req: Request): RouteContext<unknown, unknown, unknown>['site'] {
+export function siteAccessOf(req: Request): SiteGrant | null {
   return (req as AuthedRequest).siteAccess ?? null;
 }
 
@@ -260,7 +280,7 @@ declare module 'express-serve-static-core' {
   }
 }
 
-async function authorise(access: Access, req: Request, deps: Deps): Promise<RouteContext<unknown, unknown, unknown>['site']> {
+async function authorise(access: Access, req: Request, deps: Deps): Promise<SiteGrant | null> {
   if (access.kind === 'public') return null;
   const user = req.user;
   if (!user) throw new HttpError(401, 'signed_out', 'Please sign in.');

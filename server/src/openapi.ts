@@ -1,5 +1,5 @@
 import { z, type ZodType } from 'zod';
-import type { RouteSpec } from './http';
+import type { RouteDoc } from './http';
 
 const errorSchema = {
   type: 'object',
@@ -24,7 +24,7 @@ function jsonSchema(schema: ZodType, io: 'input' | 'output' = 'input'): Record<s
 }
 
 /** The OpenAPI 3.1 document, generated from the same declarations that authorise and validate. */
-export function openApiDocument(specs: RouteSpec<ZodType, ZodType, ZodType>[]): Record<string, unknown> {
+export function openApiDocument(specs: RouteDoc[]): Record<string, unknown> {
   const paths: Record<string, Record<string, unknown>> = {};
   for (const spec of specs) {
     const path = spec.path.replace(/:([A-Za-z_]+)/g, '{$1}');

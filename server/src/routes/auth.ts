@@ -106,7 +106,7 @@ export function registerAuthRoutes(api: Api): void {
       tag: 'Sign-in',
       access: { kind: 'signedIn' },
     },
-    async ({ user }) => ({ user: await loadMe(db, user!.id) }),
+    async ({ user }) => ({ user: await loadMe(db, user.id) }),
   );
 
   api.route(

@@ -11,7 +11,7 @@ import {
   type ImportReport,
 } from '@shared/schemas/excavations';
 import type { Db } from '@db/database';
-import { Api, badRequest, conflict, HttpError, notFound, parseOr400, siteAccessOf, siteFromParam, type Access } from '../http';
+import { Api, badRequest, conflict, HttpError, notFound, parseOr400, siteAccessOf, siteFromParam, type SiteAccess } from '../http';
 import { audit } from '../services/audit';
 import { listNumbers, permitsReferring } from '../services/permit-references';
 import { columnsOf, loadExcavations, placementProblems, projectionOf, readImport, rowValues, storedShapes, toFeatureCollection } from '../services/excavations';
@@ -20,9 +20,9 @@ import { filesOf, limits, MB, receiveFiles, storeUpload } from '../services/uplo
 import { recheckAfterExcavationChange, type RecheckOutcome } from '../services/permits/recheck';
 
 /** Every member of the site reads the register (and administrators). */
-export const siteReaders: Access = { kind: 'site', roles: 'any', admin: true, siteId: siteFromParam };
+export const siteReaders = { kind: 'site', roles: 'any', admin: true, siteId: siteFromParam } satisfies SiteAccess;
 /** Supervisors and coordinators (and administrators) change it. */
-export const siteWriters: Access = { kind: 'site', roles: ['supervisor', 'coordinator'], admin: true, siteId: siteFromParam };
+export const siteWriters = { kind: 'site', roles: ['supervisor', 'coordinator'], admin: true, siteId: siteFromParam } satisfies SiteAccess;
 
 /** GeoJSON import files are read whole into memory: 10 MB is thousands of excavations. */
 export const IMPORT_LIMIT = 10 * MB;
@@ -137,10 +137,10 @@ export function registerExcavationRoutes(api: Api): void {
         .execute(async (trx) => {
           const r = await trx
             .insertInto('excavations')
-            .values({ ...columnsOf(body), ...shapes, site_id: site.id, created_by: user!.id })
+            .values({ ...columnsOf(body), ...shapes, site_id: site.id, created_by: user.id })
             .returning('id')
             .executeTakeFirstOrThrow();
-          await audit(trx, { actorId: user!.id, siteId: site.id, entity: 'excavation', entityId: r.id, action: 'created', detail: { values: body } });
+          await audit(trx, { actorId: user.id, siteId: site.id, entity: 'excavation', entityId: r.id, action: 'created', detail: { values: body } });
           return r.id;
         })
         .catch((e) => {
@@ -190,10 +190,10 @@ export function registerExcavationRoutes(api: Api): void {
             .execute();
           // The permits that stand on it are re-checked in this transaction: the change and its
           // consequences (suspensions, reviews, notices) commit together.
-          const outcomes = await recheckAfterExcavationChange({ ...deps, db: trx }, { siteId: site.id, excavationId: old.id, before, after, by: user!.name });
+          const outcomes = await recheckAfterExcavationChange({ ...deps, db: trx }, { siteId: site.id, excavationId: old.id, before, after, by: user.name });
           const supportChanged = SUPPORT_FIELDS.filter((f) => f in diff);
           await audit(trx, {
-            actorId: user!.id,
+            actorId: user.id,
             siteId: site.id,
             entity: 'excavation',
             entityId: old.id,
@@ -223,7 +223,7 @@ export function registerExcavationRoutes(api: Api): void {
           if (named.length) throw conflict(`That excavation is named on permit ${listNumbers(named)}; set it to backfilled instead of removing it.`);
           const old = await trx.deleteFrom('excavations').where('id', '=', params.id).where('site_id', '=', params.siteId).returningAll().executeTakeFirst();
           if (!old) throw notFound('That excavation');
-          await audit(trx, { actorId: user!.id, siteId: params.siteId, entity: 'excavation', entityId: old.id, action: 'deleted', detail: { values: rowValues(old) } });
+          await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'excavation', entityId: old.id, action: 'deleted', detail: { values: rowValues(old) } });
         })
         .catch((e) => {
           throw isForeignKeyViolation(e) ? conflict('That excavation is named on permits or inspections; set it to backfilled instead of removing it.') : e;
@@ -340,8 +340,8 @@ export function registerExcavationRoutes(api: Api): void {
           for (const [n, { index, values }] of plan.features.entries()) {
             const oldId = existing.get(values.reference);
             if (oldId === undefined) {
-              const r = await trx.insertInto('excavations').values({ ...columnsOf(values), ...shapes[n], site_id: site.id, created_by: user!.id }).returning('id').executeTakeFirstOrThrow();
-              await audit(trx, { actorId: user!.id, siteId: site.id, entity: 'excavation', entityId: r.id, action: 'imported', detail: { values } });
+              const r = await trx.insertInto('excavations').values({ ...columnsOf(values), ...shapes[n], site_id: site.id, created_by: user.id }).returning('id').executeTakeFirstOrThrow();
+              await audit(trx, { actorId: user.id, siteId: site.id, entity: 'excavation', entityId: r.id, action: 'imported', detail: { values } });
               imported.push({ index, reference: values.reference, id: r.id, action: 'created' });
             } else {
               const old = await trx.selectFrom('excavations').selectAll().where('id', '=', oldId).forUpdate().executeTakeFirstOrThrow();
@@ -351,9 +351,9 @@ export function registerExcavationRoutes(api: Api): void {
                 .set({ ...columnsOf(values), ...shapes[n], version: old.version + 1, updated_at: api.deps.now() })
                 .where('id', '=', oldId)
                 .execute();
-              const outcomes = await recheckAfterExcavationChange({ ...api.deps, db: trx }, { siteId: site.id, excavationId: oldId, before: rowValues(old), after: values, by: user!.name });
+              const outcomes = await recheckAfterExcavationChange({ ...api.deps, db: trx }, { siteId: site.id, excavationId: oldId, before: rowValues(old), after: values, by: user.name });
               await audit(trx, {
-                actorId: user!.id,
+                actorId: user.id,
                 siteId: site.id,
                 entity: 'excavation',
                 entityId: oldId,
@@ -387,8 +387,8 @@ export function registerExcavationRoutes(api: Api): void {
       const before = await oneOrNotFound(db, params.siteId, params.id);
       const [file] = filesOf(req, 'file');
       if (!file) throw badRequest('Please choose the drawing (a PDF).', { file: 'is required' });
-      const stored = await storeUpload(deps, file, { field: 'file', accept: 'pdf', purpose: 'drawing', siteId: params.siteId, userId: user!.id });
-      await setDrawing(db, { siteId: params.siteId, id: before.id, uploadId: stored.id, actorId: user!.id, now: deps.now(), detail: { name: stored.originalName, size: stored.size, replaced: before.drawing?.name ?? null } });
+      const stored = await storeUpload(deps, file, { field: 'file', accept: 'pdf', purpose: 'drawing', siteId: params.siteId, userId: user.id });
+      await setDrawing(db, { siteId: params.siteId, id: before.id, uploadId: stored.id, actorId: user.id, now: deps.now(), detail: { name: stored.originalName, size: stored.size, replaced: before.drawing?.name ?? null } });
       return { excavation: await oneOrNotFound(db, params.siteId, params.id) };
     },
   );
@@ -398,7 +398,7 @@ export function registerExcavationRoutes(api: Api): void {
     async ({ params, user, deps }) => {
       const before = await oneOrNotFound(db, params.siteId, params.id);
       if (!before.drawing) return { excavation: before };
-      await setDrawing(db, { siteId: params.siteId, id: before.id, uploadId: null, actorId: user!.id, now: deps.now(), detail: { removed: before.drawing.name } });
+      await setDrawing(db, { siteId: params.siteId, id: before.id, uploadId: null, actorId: user.id, now: deps.now(), detail: { removed: before.drawing.name } });
       return { excavation: await oneOrNotFound(db, params.siteId, params.id) };
     },
   );

@@ -44,9 +44,9 @@ export function registerFieldRoutes(api: Api): void {
     },
     async ({ user, deps }): Promise<FieldPermitsAnswer> => {
       const now = deps.now();
-      const ids = await permitsNaming(db, user!.id, now);
+      const ids = await permitsNaming(db, user.id, now);
       const permits = [];
-      for (const id of ids) permits.push((await loadFieldPermit(db, id, user!.id))!);
+      for (const id of ids) permits.push((await loadFieldPermit(db, id, user.id))!);
       return { asOf: now.toISOString(), permits };
     },
   );
@@ -61,7 +61,7 @@ export function registerFieldRoutes(api: Api): void {
       params: idParams,
     },
     async ({ params, user, deps }): Promise<FieldPermitAnswer> => {
-      const permit = await loadFieldPermit(db, params.id, user!.id);
+      const permit = await loadFieldPermit(db, params.id, user.id);
       if (!permit) throw notFound('That permit');
       return { asOf: deps.now().toISOString(), permit };
     },
@@ -87,7 +87,7 @@ export function registerFieldRoutes(api: Api): void {
       const replay = async () => {
         const first = await concernByKey(key);
         if (!first) return null;
-        if (first.permit_id !== params.id || first.reporter_id !== user!.id) {
+        if (first.permit_id !== params.id || first.reporter_id !== user.id) {
           throw conflict('This idempotency key was already used for another request; make a new one.');
         }
         res.status(200).json({ concern: concernOut(first), replayed: true });
@@ -105,19 +105,19 @@ export function registerFieldRoutes(api: Api): void {
           const photoIds: number[] = [];
           for (const [i, f] of photos.entries()) {
             const field = photos.length > 1 ? `photo[${i}]` : 'photo';
-            photoIds.push((await storeUpload(deps, f, { field, accept: 'image', purpose: 'concern-photo', siteId: site!.id, userId: user!.id, db: trx })).id);
+            photoIds.push((await storeUpload(deps, f, { field, accept: 'image', purpose: 'concern-photo', siteId: site.id, userId: user.id, db: trx })).id);
           }
           const permit = await trx.selectFrom('permits').select(['revision', 'number']).where('id', '=', params.id).executeTakeFirstOrThrow();
           const row = await trx
             .insertInto('concerns')
             .values({
-              site_id: site!.id,
+              site_id: site.id,
               permit_id: params.id,
               excavation_id: body.excavationId,
               excavation_reference: excavation.reference,
               note: body.note,
               photo_upload_ids: photoIds,
-              reporter_id: user!.id,
+              reporter_id: user.id,
               created_at: now,
               idempotency_key: key,
             })
@@ -131,8 +131,8 @@ export function registerFieldRoutes(api: Api): void {
               permit_id: params.id,
               revision: permit.revision,
               at: now,
-              actor_id: user!.id,
-              actor_name: user!.name,
+              actor_id: user.id,
+              actor_name: user.name,
               action: 'concern',
               from_status: null,
               to_status: null,
@@ -140,7 +140,7 @@ export function registerFieldRoutes(api: Api): void {
               detail: JSON.stringify({ concernId: row.id, excavationId: body.excavationId, excavationReference: excavation.reference, photoIds }),
             })
             .execute();
-          await audit(trx, { actorId: user!.id, siteId: site!.id, entity: 'permit', entityId: params.id, action: 'concern', detail: { number: permit.number, concernId: row.id } });
+          await audit(trx, { actorId: user.id, siteId: site.id, entity: 'permit', entityId: params.id, action: 'concern', detail: { number: permit.number, concernId: row.id } });
           // The notices are queued in the same transaction as the concern.
           const facts = await trx
             .selectFrom('permits as p')
@@ -151,14 +151,14 @@ export function registerFieldRoutes(api: Api): void {
           const message = notice({
             subject: `Concern on permit ${facts.number}: excavation ${excavation.reference}`,
             lines: [
-              `${user!.name} reported a concern on permit ${facts.number} at ${facts.site_name}, about excavation ${excavation.reference}.`,
+              `${user.name} reported a concern on permit ${facts.number} at ${facts.site_name}, about excavation ${excavation.reference}.`,
               `"${body.note}"`,
               photos.length ? `${photos.length === 1 ? 'One photo is' : `${photos.length} photos are`} on the permit's timeline.` : 'No photo was sent.',
               'Please look at it and decide whether work under the permit must stop.',
             ],
             link: { label: `Open permit ${facts.number}`, url: `${deps.config.publicUrl}/permits/${params.id}` },
           });
-          for (const to of await concernRecipients(trx, site!.id, user!.id)) await deps.mailer.send(trx, { to, ...message });
+          for (const to of await concernRecipients(trx, site.id, user.id)) await deps.mailer.send(trx, { to, ...message });
           return row.id;
         });
       } catch (err) {

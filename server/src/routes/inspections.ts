@@ -52,7 +52,7 @@ export function registerInspectionRoutes(api: Api): void {
     },
     async ({ req, res, params, user, deps }) => {
       const data = parseOr400(inspectionInputSchema, readInspectionBody(req), 'inspection');
-      const { inspection, created, consequences } = await recordInspection(deps, { excavationId: params.id, inspectorId: user!.id, data, photos: filesOf(req, 'photos') });
+      const { inspection, created, consequences } = await recordInspection(deps, { excavationId: params.id, inspectorId: user.id, data, photos: filesOf(req, 'photos') });
       res.status(created ? 201 : 200).json({ inspection, consequences });
     },
   );
@@ -189,7 +189,7 @@ export function registerInspectionRoutes(api: Api): void {
       body: shiftsInputSchema,
     },
     async ({ params, body, user, deps }) => {
-      await setSiteShifts(db, params.siteId, body.shifts, user!.id);
+      await setSiteShifts(db, params.siteId, body.shifts, user.id);
       return shiftsAnswer(await siteClock(db, params.siteId, deps.now()));
     },
   );

@@ -42,12 +42,12 @@ export function registerPeopleRoutes(api: Api): void {
             site_id: body.siteId,
             role: body.role,
             token_hash: hash,
-            invited_by: user!.id,
+            invited_by: user.id,
             expires_at: new Date(deps.now().getTime() + INVITATION_HOURS * 3600_000),
           })
           .returning('id')
           .executeTakeFirstOrThrow();
-        await audit(trx, { actorId: user!.id, siteId: body.siteId, entity: 'invitation', entityId: inv.id, action: 'created', detail: { email: body.email, role: body.role, isAdmin: body.isAdmin } });
+        await audit(trx, { actorId: user.id, siteId: body.siteId, entity: 'invitation', entityId: inv.id, action: 'created', detail: { email: body.email, role: body.role, isAdmin: body.isAdmin } });
         // The e-mail is queued in the same transaction: no invitation without its message.
         await deps.mailer.send(trx, {
           to: body.email,
@@ -55,7 +55,7 @@ export function registerPeopleRoutes(api: Api): void {
             subject: 'You are invited to Brink',
             lines: [
               `Hello ${body.name},`,
-              `${user!.name} has invited you to Brink, where loads beside open excavations are requested, checked and approved${
+              `${user.name} has invited you to Brink, where loads beside open excavations are requested, checked and approved${
                 siteName && body.role ? `, as ${roleLabels[body.role].toLowerCase()} on ${siteName}` : ''
               }.`,
               `Open the link below to choose your password. It works once, for ${INVITATION_HOURS} hours.`,
@@ -85,7 +85,7 @@ export function registerPeopleRoutes(api: Api): void {
       body: userUpdateSchema,
     },
     async ({ params, body, user }) => {
-      if (params.id === user!.id && (body.active === false || body.isAdmin === false)) {
+      if (params.id === user.id && (body.active === false || body.isAdmin === false)) {
         throw new HttpError(400, 'invalid', 'You cannot deactivate yourself or remove your own administrator role.', {
           [body.active === false ? 'active' : 'isAdmin']: 'cannot be changed on your own account',
         });
@@ -103,7 +103,7 @@ export function registerPeopleRoutes(api: Api): void {
         if (body.active === false) {
           await revokeAccess(trx, params.id, api.deps.now());
         }
-        await audit(trx, { actorId: user!.id, entity: 'user', entityId: params.id, action: 'updated', detail: body });
+        await audit(trx, { actorId: user.id, entity: 'user', entityId: params.id, action: 'updated', detail: body });
       });
       const [p] = await loadPeople(db, [params.id]);
       if (!p) throw notFound('That person');
@@ -131,7 +131,7 @@ export function registerPeopleRoutes(api: Api): void {
           .values({ site_id: params.siteId, user_id: params.id, role: body.role, can_inspect: body.canInspect })
           .onConflict((oc) => oc.columns(['site_id', 'user_id']).doUpdateSet({ role: body.role, can_inspect: body.canInspect }))
           .execute();
-        await audit(trx, { actorId: user!.id, siteId: params.siteId, entity: 'user', entityId: params.id, action: 'role-set', detail: body });
+        await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'user', entityId: params.id, action: 'role-set', detail: body });
       });
       const [p] = await loadPeople(db, [params.id]);
       return { user: p };
@@ -151,7 +151,7 @@ export function registerPeopleRoutes(api: Api): void {
       await db.transaction().execute(async (trx) => {
         const r = await trx.deleteFrom('site_members').where('site_id', '=', params.siteId).where('user_id', '=', params.id).executeTakeFirst();
         if (!r.numDeletedRows) throw notFound('That role');
-        await audit(trx, { actorId: user!.id, siteId: params.siteId, entity: 'user', entityId: params.id, action: 'role-removed' });
+        await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'user', entityId: params.id, action: 'role-removed' });
       });
     },
   );

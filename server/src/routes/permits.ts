@@ -94,8 +94,8 @@ export function registerPermitRoutes(api: Api): void {
       responses: { 201: 'Created' },
     },
     async ({ body, user, res, deps }) => {
-      const id = await createPermit(deps, user!, body);
-      res.status(201).json({ permit: await loadDetail(db, id, { id: user!.id, role: 'supervisor' }) });
+      const id = await createPermit(deps, user, body);
+      res.status(201).json({ permit: await loadDetail(db, id, { id: user.id, role: 'supervisor' }) });
     },
   );
 
@@ -109,11 +109,11 @@ export function registerPermitRoutes(api: Api): void {
       query: permitListQuerySchema,
     },
     async ({ query, user }) => {
-      if (query.siteId && !user!.isAdmin) {
-        const m = await db.selectFrom('site_members').select('role').where('site_id', '=', query.siteId).where('user_id', '=', user!.id).executeTakeFirst();
+      if (query.siteId && !user.isAdmin) {
+        const m = await db.selectFrom('site_members').select('role').where('site_id', '=', query.siteId).where('user_id', '=', user.id).executeTakeFirst();
         if (!m) throw forbidden('You are not a member of this site.');
       }
-      return { permits: await listPermits(db, user!, query) };
+      return { permits: await listPermits(db, user, query) };
     },
   );
 
@@ -121,7 +121,7 @@ export function registerPermitRoutes(api: Api): void {
     { method: 'get', path: '/api/permits/:id', summary: 'One permit: its current revision, check, decision, operators, timeline and attachments', tag: 'Permits', access: members, params: idParams },
     async ({ params, user, site, deps }) => {
       await ensureChecked(db, params.id, deps.now());
-      const permit = await loadDetail(db, params.id, { id: user!.id, role: site?.role ?? null });
+      const permit = await loadDetail(db, params.id, { id: user.id, role: site?.role ?? null });
       if (!permit) throw notFound('That permit');
       return { permit };
     },
@@ -154,7 +154,7 @@ export function registerPermitRoutes(api: Api): void {
       body: permitUpdateSchema,
     },
     async ({ params, body, user, site, deps, res }) =>
-      answerWithPermit(res, params.id, { id: user!.id, role: site?.role ?? null }, () => updatePermit(deps, user!, params.id, body)),
+      answerWithPermit(res, params.id, { id: user.id, role: site?.role ?? null }, () => updatePermit(deps, user, params.id, body)),
   );
 
   api.route(
@@ -183,7 +183,7 @@ export function registerPermitRoutes(api: Api): void {
       beforeBody: async ({ params, user, rawBody }) => {
         const p = await db.selectFrom('permits').select(['id', 'site_id', 'number']).where('id', '=', params.id).executeTakeFirst();
         if (!p) throw notFound('That permit');
-        await assertMayAct(db, p, (rawBody as { action?: unknown } | undefined)?.action, userActor(user!));
+        await assertMayAct(db, p, (rawBody as { action?: unknown } | undefined)?.action, userActor(user));
       },
       body: transitionSchema,
       responses: { 401: 'Signed out after too many wrong passwords under decisions' },
@@ -191,17 +191,17 @@ export function registerPermitRoutes(api: Api): void {
     async ({ params, body, user, site, deps, req, res }) => {
       // The password that signs a decision is limited like sign-in: SIGNIN_LIMIT_PER_ACCOUNT wrong
       // ones a quarter hour per person end every session of theirs (401); signing in again clears it.
-      const key = `${user!.id}|`;
+      const key = `${user.id}|`;
       const signOff = async () => {
-        await endSessionsOf(db, user!.id);
+        await endSessionsOf(db, user.id);
         await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
         res.clearCookie('brink.sid', { path: '/' });
         return new HttpError(401, 'signed_out', 'Too many wrong passwords under a decision: you have been signed out. Sign in again to continue.');
       };
       if (transitionRules[body.action].signed && decisionPassword.blocked(key)) throw await signOff();
-      return answerWithPermit(res, params.id, { id: user!.id, role: site?.role ?? null }, async () => {
+      return answerWithPermit(res, params.id, { id: user.id, role: site?.role ?? null }, async () => {
         try {
-          return await transition(deps, params.id, body.action, userActor(user!), {
+          return await transition(deps, params.id, body.action, userActor(user), {
             version: body.version,
             reason: body.reason,
             standoff: body.standoff,
@@ -229,7 +229,7 @@ export function registerPermitRoutes(api: Api): void {
       params: idParams,
       body: briefingBodySchema,
     },
-    async ({ params, body, user, deps }) => ({ briefing: await confirmBriefing(deps, params.id, user!, { revision: body.revision }) }),
+    async ({ params, body, user, deps }) => ({ briefing: await confirmBriefing(deps, params.id, user, { revision: body.revision }) }),
   );
 
   api.route(
@@ -244,7 +244,7 @@ export function registerPermitRoutes(api: Api): void {
       responses: { 201: 'Added' },
     },
     async ({ params, body, user, deps, res }) => {
-      await addComment(deps, user!, params.id, body.text);
+      await addComment(deps, user, params.id, body.text);
       res.status(201).json({ ok: true });
     },
   );
@@ -295,13 +295,13 @@ export function registerPermitRoutes(api: Api): void {
         throw conflict(`Permit ${p.number} is no longer a draft: documents are added to a new revision; photos may still be added.`);
       }
       const row = await db.transaction().execute(async (trx) => {
-        const stored = await storeUpload(deps, file, { field: 'file', accept, purpose: 'permit-attachment', siteId: site!.id, userId: user!.id, db: trx });
+        const stored = await storeUpload(deps, file, { field: 'file', accept, purpose: 'permit-attachment', siteId: site.id, userId: user.id, db: trx });
         const added = await trx
           .insertInto('permit_attachments')
-          .values({ permit_id: p.id, revision: p.revision, upload_id: stored.id, kind: body.kind, added_by: user!.id, added_at: deps.now() })
+          .values({ permit_id: p.id, revision: p.revision, upload_id: stored.id, kind: body.kind, added_by: user.id, added_at: deps.now() })
           .returning('id')
           .executeTakeFirstOrThrow();
-        await audit(trx, { actorId: user!.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'attached', detail: { number: p.number, kind: body.kind, name: stored.originalName } });
+        await audit(trx, { actorId: user.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'attached', detail: { number: p.number, kind: body.kind, name: stored.originalName } });
         return { id: added.id, stored };
       });
       const stored = row.stored;
@@ -335,7 +335,7 @@ export function registerPermitRoutes(api: Api): void {
         throw conflict(`Permit ${p.number} is frozen: its attachments stay with the revision they belong to.`);
       }
       await db.deleteFrom('permit_attachments').where('id', '=', a.id).execute();
-      await audit(db, { actorId: user!.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'detached', detail: { number: p.number, attachmentId: a.id } });
+      await audit(db, { actorId: user.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'detached', detail: { number: p.number, attachmentId: a.id } });
     },
   );
 }

@@ -1,10 +1,9 @@
-import type { RequestHandler } from 'express';
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
 import { plantItemSchema, plantItemUpdateSchema, type PlantItem, type PlantItemValues } from '@shared/schemas/plant';
 import type { Db, PlantItemsTable } from '@db/database';
 import type { Selectable } from 'kysely';
-import { Api, conflict, forbidden, HttpError, notFound } from '../http';
+import { Api, conflict, forbidden, HttpError, notFound, type SessionUser } from '../http';
 import { audit } from '../services/audit';
 import { listNumbers, permitsReferring } from '../services/permit-references';
 import { isUniqueViolation, isForeignKeyViolation } from '../services/pg-errors';
@@ -39,18 +38,11 @@ export async function loadPlant(db: Db, ids?: number[]): Promise<PlantItem[]> {
  * The plant library is kept by administrators and temporary works coordinators (of any site).
  * Runs before the body is read, so a refused call answers 403 whatever it carries.
  */
-function plantEditorsOnly(db: Db): RequestHandler {
-  return async (req, _res, next) => {
-    try {
-      const user = req.user!;
-      if (!user.isAdmin) {
-        const m = await db.selectFrom('site_members').select('site_id').where('user_id', '=', user.id).where('role', '=', 'coordinator').executeTakeFirst();
-        if (!m) throw forbidden('Only administrators and temporary works coordinators may change the plant library.');
-      }
-      next();
-    } catch (e) {
-      next(e);
-    }
+function plantEditorsOnly(db: Db) {
+  return async ({ user }: { user: SessionUser }): Promise<void> => {
+    if (user.isAdmin) return;
+    const m = await db.selectFrom('site_members').select('site_id').where('user_id', '=', user.id).where('role', '=', 'coordinator').executeTakeFirst();
+    if (!m) throw forbidden('Only administrators and temporary works coordinators may change the plant library.');
   };
 }
 
@@ -85,7 +77,7 @@ export function registerPlantRoutes(api: Api): void {
       summary: 'Add a machine to the plant library (administrators and coordinators)',
       tag: 'Plant',
       access: { kind: 'signedIn' },
-      before: [editors],
+      beforeBody: editors,
       body: plantItemSchema,
       responses: { 201: 'Created' },
     },
@@ -98,7 +90,7 @@ export function registerPlantRoutes(api: Api): void {
             .values(plantColumns(body))
             .returningAll()
             .executeTakeFirstOrThrow();
-          await audit(trx, { actorId: user!.id, entity: 'plant', entityId: r.id, action: 'created', detail: { name: body.name, operatingMass: body.operatingMass } });
+          await audit(trx, { actorId: user.id, entity: 'plant', entityId: r.id, action: 'created', detail: { name: body.name, operatingMass: body.operatingMass } });
           return r;
         })
         .catch((e) => {
@@ -115,7 +107,7 @@ export function registerPlantRoutes(api: Api): void {
       summary: 'Change a machine (the whole item with the version it was read at; 409 when stale)',
       tag: 'Plant',
       access: { kind: 'signedIn' },
-      before: [editors],
+      beforeBody: editors,
       params,
       body: plantItemUpdateSchema,
     },
@@ -137,7 +129,7 @@ export function registerPlantRoutes(api: Api): void {
             .returningAll()
             .executeTakeFirstOrThrow();
           await audit(trx, {
-            actorId: user!.id,
+            actorId: user.id,
             entity: 'plant',
             entityId: r.id,
             action: 'updated',
@@ -159,20 +151,20 @@ export function registerPlantRoutes(api: Api): void {
       summary: 'Remove a machine from the plant library',
       tag: 'Plant',
       access: { kind: 'signedIn' },
-      before: [editors],
+      beforeBody: editors,
       params,
     },
     async ({ params, user }) => {
       await db
         .transaction()
         .execute(async (trx) => {
-          const named = await permitsReferring(trx, { plantItemId: params.id, visibleTo: user! });
+          const named = await permitsReferring(trx, { plantItemId: params.id, visibleTo: user });
           if (named.length) throw conflict(`That machine is placed on permit ${listNumbers(named)}, so it stays in the library.`);
           // Permits of sites the caller cannot see keep it too, unnamed.
           if ((await permitsReferring(trx, { plantItemId: params.id })).length) throw conflict('That machine is placed on permits of other sites, so it stays in the library.');
           const old = await trx.deleteFrom('plant_items').where('id', '=', params.id).returning(['id', 'name']).executeTakeFirst();
           if (!old) throw notFound('That machine');
-          await audit(trx, { actorId: user!.id, entity: 'plant', entityId: old.id, action: 'deleted', detail: { name: old.name } });
+          await audit(trx, { actorId: user.id, entity: 'plant', entityId: old.id, action: 'deleted', detail: { name: old.name } });
         })
         .catch((e) => {
           throw isForeignKeyViolation(e) ? conflict('That machine is named on permits, so it stays in the library.') : e;

@@ -61,10 +61,10 @@ export function registerSitePlanRoutes(api: Api): void {
       await checkNearSite(db, params.siteId, bounds);
       const [file] = filesOf(req, 'file');
       if (!file) throw badRequest('Please choose the site plan image (PNG or JPEG).', { file: 'is required' });
-      const stored = await storeUpload(deps, file, { field: 'file', accept: 'image', purpose: 'site-plan', siteId: params.siteId, userId: user!.id });
+      const stored = await storeUpload(deps, file, { field: 'file', accept: 'image', purpose: 'site-plan', siteId: params.siteId, userId: user.id });
       await db.transaction().execute(async (trx) => {
         await trx.updateTable('sites').set({ plan_upload_id: stored.id, plan_bounds: JSON.stringify(bounds), plan_opacity: opacity }).where('id', '=', params.siteId).execute();
-        await audit(trx, { actorId: user!.id, siteId: params.siteId, entity: 'site', entityId: params.siteId, action: 'plan-uploaded', detail: { name: stored.originalName, size: stored.size, bounds, opacity } });
+        await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'site', entityId: params.siteId, action: 'plan-uploaded', detail: { name: stored.originalName, size: stored.size, bounds, opacity } });
       });
       return { plan: await planOf(db, params.siteId) };
     },
@@ -83,7 +83,7 @@ export function registerSitePlanRoutes(api: Api): void {
           .set({ ...(body.bounds ? { plan_bounds: JSON.stringify(body.bounds) } : {}), ...(body.opacity !== undefined ? { plan_opacity: body.opacity } : {}) })
           .where('id', '=', params.siteId)
           .execute();
-        await audit(trx, { actorId: user!.id, siteId: params.siteId, entity: 'site', entityId: params.siteId, action: 'plan-changed', detail: { before: { bounds: plan.bounds, opacity: plan.opacity }, after: body } });
+        await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'site', entityId: params.siteId, action: 'plan-changed', detail: { before: { bounds: plan.bounds, opacity: plan.opacity }, after: body } });
       });
       return { plan: await planOf(db, params.siteId) };
     },
@@ -96,7 +96,7 @@ export function registerSitePlanRoutes(api: Api): void {
       if (!plan) return;
       await db.transaction().execute(async (trx) => {
         await trx.updateTable('sites').set({ plan_upload_id: null, plan_bounds: null }).where('id', '=', params.siteId).execute();
-        await audit(trx, { actorId: user!.id, siteId: params.siteId, entity: 'site', entityId: params.siteId, action: 'plan-removed', detail: { name: plan.name } });
+        await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'site', entityId: params.siteId, action: 'plan-removed', detail: { name: plan.name } });
       });
     },
   );

@@ -34,7 +34,7 @@ export function registerSiteRoutes(api: Api): void {
     { method: 'get', path: '/api/sites', summary: 'The sites I am a member of (all sites for an administrator)', tag: 'Sites', access: { kind: 'signedIn' } },
     async ({ user }) => {
       let q = db.selectFrom('sites').selectAll('sites').orderBy('sites.name');
-      if (!user!.isAdmin) q = q.innerJoin('site_members', 'site_members.site_id', 'sites.id').where('site_members.user_id', '=', user!.id);
+      if (!user.isAdmin) q = q.innerJoin('site_members', 'site_members.site_id', 'sites.id').where('site_members.user_id', '=', user.id);
       return { sites: (await q.execute()).map(siteOut) };
     },
   );
@@ -57,7 +57,7 @@ export function registerSiteRoutes(api: Api): void {
           .values({ name: body.name, latitude: body.latitude, longitude: body.longitude, timezone: body.timezone, minimum_clearance: body.minimumClearance, default_method: body.defaultMethod })
           .returningAll()
           .executeTakeFirstOrThrow();
-        await audit(trx, { actorId: user!.id, siteId: r.id, entity: 'site', entityId: r.id, action: 'created', detail: body });
+        await audit(trx, { actorId: user.id, siteId: r.id, entity: 'site', entityId: r.id, action: 'created', detail: body });
         return r;
       });
       res.status(201).json({ site: siteOut(site) });
@@ -80,7 +80,7 @@ export function registerSiteRoutes(api: Api): void {
           ? await trx.updateTable('sites').set(set).where('id', '=', params.siteId).returningAll().executeTakeFirst()
           : await trx.selectFrom('sites').selectAll().where('id', '=', params.siteId).executeTakeFirst();
         if (!r) throw notFound('That site');
-        await audit(trx, { actorId: user!.id, siteId: r.id, entity: 'site', entityId: r.id, action: 'updated', detail: body });
+        await audit(trx, { actorId: user.id, siteId: r.id, entity: 'site', entityId: r.id, action: 'updated', detail: body });
         return r;
       });
       return { site: siteOut(site) };
