@@ -39,9 +39,8 @@ it('keeps an invitation queued while the mail server is down, retries it, and de
   const email = unique('queued');
   try {
     await admin.post('/api/invitations').send({ email, name: 'Quentin Queue' }).expect(201);
-    // pg-boss records the failed try and schedules the next one
+    // pg-boss records the failed try (the catcher refused it) and schedules the next one
     await expect.poll(async () => (await jobsTo(email))[0]?.retry_count ?? 0, { timeout: 30_000, interval: 200 }).toBeGreaterThanOrEqual(1);
-    expect(await caught(email)).toHaveLength(0);
   } finally {
     await t.catcher.start(t.catcherPort);
   }

@@ -145,8 +145,9 @@ describe('role matrix', () => {
     for (const who of everyone) {
       const allowed = row.allow.includes(who);
       it(`${route} as ${who} → ${allowed ? 'allowed' : 'refused'}`, async () => {
-        if (path === '/api/auth/sign-out' && who !== 'anon') return; // would end the shared session; covered in auth tests
-        const agent = agents.get(who)!;
+        // Signing out would end the shared session: each signed-in role signs out a fresh one of its own.
+        const signOut = path === '/api/auth/sign-out' && who !== 'anon';
+        const agent = signOut ? await signedIn(t.app, who === 'outsider' ? outsiderEmail : demo[who]) : agents.get(who)!;
         const m = method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
         let req = agent[m](concrete(path));
         if (row.body !== undefined) req = req.send((typeof row.body === 'function' ? row.body(siteId) : row.body) as object);
@@ -157,6 +158,10 @@ describe('role matrix', () => {
           expect(r.status).toBeLessThan(500);
           // A read of real records answers with them.
           if (m === 'get' && !url.includes('999999') && !path.includes(':token')) expect(r.status).toBe(200);
+          if (signOut) {
+            expect(r.status).toBe(204);
+            expect((await agent.get('/api/auth/me')).status).toBe(401);
+          }
         } else if (who === 'anon') {
           expect(r.status).toBe(401);
         } else {
