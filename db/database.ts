@@ -1,5 +1,13 @@
 import { Kysely, PostgresDialect, type ColumnType, type Generated } from 'kysely';
 import pg from 'pg';
+// The names of roles, statuses and states are declared once, in shared/ (types only: db/ loads none
+// of our code at run time). server/test/db-checks.test.ts compares the CHECK lists with them.
+import type { SiteRole } from '../shared/schemas/common';
+import type { ExcavationKind, ExcavationState as SharedExcavationState } from '../shared/schemas/excavations';
+import type { InspectionReason, Outcome } from '../shared/schemas/inspections';
+import type { AttachmentKind, PermitKind, PermitStatus } from '../shared/schemas/permits';
+import type { PlantElementKind } from '../shared/schemas/plant';
+import type { SurchargeMethod } from '../shared/schemas/sites';
 
 /**
  * The typed shape of Brink's PostgreSQL database. Each migration in db/migrations adds tables here.
@@ -37,7 +45,7 @@ export interface SitesTable {
 export interface SiteMembersTable {
   site_id: number;
   user_id: number;
-  role: 'supervisor' | 'coordinator' | 'operator';
+  role: SiteRole;
   can_inspect: Generated<boolean>;
 }
 
@@ -47,7 +55,7 @@ export interface InvitationsTable {
   name: string;
   is_admin: Generated<boolean>;
   site_id: number | null;
-  role: 'supervisor' | 'coordinator' | 'operator' | null;
+  role: SiteRole | null;
   token_hash: string;
   invited_by: number | null;
   expires_at: Timestamp;
@@ -109,14 +117,14 @@ export interface UploadsTable {
   created_at: CreatedAt;
 }
 
-export type ExcavationState = 'planned' | 'open' | 'backfilled';
+export type ExcavationState = SharedExcavationState;
 
 export interface ExcavationsTable {
   id: Generated<number>;
   site_id: number;
   reference: string;
   name: string;
-  kind: 'trench' | 'pit';
+  kind: ExcavationKind;
   /** GeoJSON geometry in WGS84: a LineString (trench centre line) or a Polygon (pit outline). */
   geometry: Json<GeoJSONGeometry>;
   /** Trench width in metres (null for a pit). */
@@ -151,7 +159,7 @@ export interface ExcavationsTable {
 
 export interface PlantElement {
   name: string;
-  kind: 'track' | 'pad' | 'wheel';
+  kind: PlantElementKind;
   /** Centre of the rectangle relative to the machine's origin, metres; x forward, y to the left. */
   x: number;
   y: number;
@@ -194,11 +202,11 @@ export interface InspectionsTable {
   /** The shift the inspection belongs to (by its time), as the site's shifts stood then. */
   shift_name: string;
   shift_start: Timestamp;
-  reason: 'shift-start' | 'after-event' | 'after-fall';
+  reason: InspectionReason;
   reason_detail: Generated<string>;
   /** { [checklist key]: { answer: 'pass' | 'fail' | 'na', note } } — see shared/schemas/inspections.ts. */
   checklist: Json<Record<string, { answer: 'pass' | 'fail' | 'na'; note: string }>>;
-  outcome: 'safe' | 'not-safe';
+  outcome: Outcome;
   remarks: Generated<string>;
   client_ref: string | null;
 }
@@ -233,17 +241,7 @@ export interface GeoJSONGeometry {
   coordinates: unknown;
 }
 
-export type PermitStatusValue =
-  | 'draft'
-  | 'submitted'
-  | 'returned'
-  | 'approved'
-  | 'declined'
-  | 'live'
-  | 'suspended'
-  | 'handed_back'
-  | 'lapsed'
-  | 'withdrawn';
+export type PermitStatusValue = PermitStatus;
 
 /** A permit: its number, kind and where it stands. Its content lives in `permit_revisions`. */
 export interface PermitsTable {
@@ -252,7 +250,7 @@ export interface PermitsTable {
   /** Running number on the site; `number` is its printed form (e.g. P-0007). */
   seq: number;
   number: string;
-  kind: 'load' | 'dig';
+  kind: PermitKind;
   status: Generated<PermitStatusValue>;
   /** Goes up by one with every change; a change quoting an older version is refused (409). */
   version: Generated<number>;
@@ -274,7 +272,7 @@ export interface PermitRevisionsTable {
   window_start: Timestamp;
   window_end: Timestamp;
   excavation_ids: ColumnType<number[], number[] | undefined, number[]>;
-  method: 'dispersion-45' | 'elastic';
+  method: SurchargeMethod;
   /** Placed loads (shared/schemas/permits.ts `PlacedLoad[]`). */
   loads: Json<unknown[]>;
   /** Dig permits: depth, support method and the buried-services checks. */
@@ -319,7 +317,7 @@ export interface PermitAttachmentsTable {
   permit_id: number;
   revision: number;
   upload_id: number;
-  kind: 'method-statement' | 'photo' | 'other';
+  kind: AttachmentKind;
   added_by: number | null;
   added_at: CreatedAt;
 }

@@ -7,6 +7,7 @@
  */
 import { z } from 'zod';
 import type { SiteRole } from './common';
+import { surchargeMethods } from './sites';
 import type { PlantElement } from './plant';
 
 // ---------------------------------------------------------------------------------------------
@@ -25,6 +26,10 @@ export const permitStatuses = [
   'withdrawn',
 ] as const;
 export type PermitStatus = (typeof permitStatuses)[number];
+
+/** A load permit places loads beside excavations; a dig permit opens one. */
+export const permitKinds = ['load', 'dig'] as const;
+export type PermitKind = (typeof permitKinds)[number];
 
 /** What people read for each status. */
 export const statusLabels: Record<PermitStatus, string> = {
@@ -247,7 +252,7 @@ const contentShape = {
   loads: z.array(placedLoadSchema).max(50, 'must list at most 50 loads').default([]),
   operatorIds: ids(20).default([]),
   dig: digDetailsSchema.nullable().default(null),
-  method: z.enum(['dispersion-45', 'elastic']).optional(),
+  method: z.enum(surchargeMethods).optional(),
 };
 
 function windowOrder(v: { windowStart?: string; windowEnd?: string }, ctx: z.RefinementCtx): void {
@@ -265,7 +270,7 @@ function uniqueLoadIds(v: { loads?: { id: string }[] }, ctx: z.RefinementCtx): v
 }
 
 export const permitCreateSchema = z
-  .object({ siteId: z.number().int().positive(), kind: z.enum(['load', 'dig']), ...contentShape })
+  .object({ siteId: z.number().int().positive(), kind: z.enum(permitKinds), ...contentShape })
   .superRefine(windowOrder)
   .superRefine(uniqueLoadIds);
 export type PermitCreate = z.infer<typeof permitCreateSchema>;
@@ -358,7 +363,7 @@ export const permitListQuerySchema = z.object({
       }
       return list as PermitStatus[];
     }),
-  kind: z.enum(['load', 'dig']).optional(),
+  kind: z.enum(permitKinds).optional(),
   excavationId: z.coerce.number().int().positive().optional(),
   /** Permits whose window overlaps from..to. */
   from: when.optional(),

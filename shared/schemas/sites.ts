@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { siteRoleSchema } from './common';
 
 export const surchargeMethods = ['dispersion-45', 'elastic'] as const;
+export type SurchargeMethod = (typeof surchargeMethods)[number];
 
 export const siteSchema = z.object({
   name: z.string().trim().min(1, 'is required').max(120),
