@@ -162,7 +162,7 @@ export interface RouteContext<B, Q, P, A extends Access = Access> {
   deps: Deps;
 }
 
-export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodType, A extends Access = Access> {
+export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodType, A extends Access = Access, R extends ZodType = ZodType> {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';
   path: string;
   summary: string;
@@ -179,6 +179,12 @@ export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodTy
    * 403 whatever its body holds. It sees the raw body, untrusted.
    */
   beforeBody?: (ctx: Omit<RouteContext<unknown, unknown, Out<P>, A>, 'body' | 'query'> & { rawBody: unknown }) => void | Promise<void>;
+  /**
+   * The schema of the JSON answer (shared/schemas/responses): the OpenAPI document's success
+   * answer, the handler's return type and, under NODE_ENV=test, checked against every answer sent.
+   * Routes that answer 204 or a file (`produces`) have none.
+   */
+  response?: R;
   /** Documented answers besides the usual errors, e.g. { 201: 'Created' }. */
   responses?: Record<number, string>;
   /** The body is multipart/form-data with these file fields. */
@@ -190,6 +196,13 @@ export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodTy
 }
 
 type Out<S> = S extends ZodType ? z.output<S> : undefined;
+/**
+ * What a handler returns: the answer its response schema describes (`undefined` for 204; `void` when
+ * it answers through `res` itself, which the test-mode check still sees). Dates may stand where the
+ * wire has ISO strings: `res.json` writes them so.
+ */
+export type Answer<R> = [R] extends [never] ? unknown : R extends ZodType ? Dated<z.input<R>> | void : unknown;
+type Dated<T> = T extends string ? (string extends T ? T | Date : T) : T extends (infer E)[] ? Dated<E>[] : T extends object ? { [K in keyof T]: Dated<T[K]> } : T;
 
 /** What the OpenAPI document reads of a route: its declaration without the code that runs. */
 export type RouteDoc = Omit<RouteSpec<ZodType, ZodType, ZodType>, 'beforeBody' | 'before'>;
@@ -211,15 +224,20 @@ export class Api {
   /** Attempt limits kept per app (server/src/services/throttle.ts). */
   readonly throttles: ReturnType<typeof createThrottles>;
 
+  /** Under NODE_ENV=test every JSON answer is checked against its route's response schema. */
+  readonly checkAnswers: boolean;
+
   constructor(readonly deps: Deps) {
     this.throttles = createThrottles(deps);
+    this.checkAnswers = deps.config.env === 'test';
   }
 
-  route<A extends Access, B extends ZodType = never, Q extends ZodType = never, P extends ZodType = never>(
-    spec: RouteSpec<B, Q, P, A>,
-    handler: (ctx: RouteContext<Out<B>, Out<Q>, Out<P>, A>) => unknown | Promise<unknown>,
+  route<A extends Access, B extends ZodType = never, Q extends ZodType = never, P extends ZodType = never, R extends ZodType = never>(
+    spec: RouteSpec<B, Q, P, A, R>,
+    handler: (ctx: RouteContext<Out<B>, Out<Q>, Out<P>, A>) => Answer<R> | Promise<Answer<R>>,
   ): void {
     this.specs.push(spec);
+    const checkAnswers = this.checkAnswers;
     const deps = this.deps;
     const guard: RequestHandler = async (req, _res, next) => {
       const typeProblem = bodyTypeProblem(req, Boolean(spec.files));
@@ -232,6 +250,7 @@ export class Api {
     };
     const main = async (req: Request, res: Response) => {
       const params = (spec.params ? parseOr400(spec.params, req.params, 'path') : undefined) as Out<P>;
+      if (checkAnswers) answerChecked(res, spec);
       // authorise() has refused every call these types do not allow (no one signed in behind a
       // non-public rule; no site grant on a site rule); the narrowing is checked there, not here.
       const user = (req.user ?? null) as UserOf<A>;
@@ -263,6 +282,26 @@ export class Api {
     };
     this.router[spec.method](spec.path.replace(/^\/api/, ''), guard, ...(spec.before ?? []), main);
   }
+}
+
+/**
+ * Test mode: a success answer that its route's schema refuses becomes a 500 naming the fields, so
+ * an API test that reads it fails loudly. (server/test/responses.test.ts holds every route to a schema.)
+ */
+function answerChecked(res: Response, spec: RouteDoc): void {
+  const schema = spec.response;
+  if (!schema) return;
+  const send = res.json.bind(res);
+  res.json = (body: unknown) => {
+    if (res.statusCode >= 300) return send(body);
+    const where = `${spec.method.toUpperCase()} ${spec.path}`;
+    const r = schema.safeParse(JSON.parse(JSON.stringify(body)));
+    if (r.success) return send(body);
+    const fields = zodFields(r.error);
+    console.error(`[answer] ${where} does not match its response schema`, fields);
+    res.status(500);
+    return send({ error: { code: 'answer_mismatch', message: `${where} answered outside its response schema: ${JSON.stringify(fields)}`, fields } });
+  };
 }
 
 interface AuthedRequest extends Request {

@@ -1,5 +1,6 @@
 import { z, type ZodType } from 'zod';
 import type { RouteDoc } from './http';
+import type { OpenApiAnswer } from '@shared/schemas/system';
 
 const errorSchema = {
   type: 'object',
@@ -24,7 +25,7 @@ function jsonSchema(schema: ZodType, io: 'input' | 'output' = 'input'): Record<s
 }
 
 /** The OpenAPI 3.1 document, generated from the same declarations that authorise and validate. */
-export function openApiDocument(specs: RouteDoc[]): Record<string, unknown> {
+export function openApiDocument(specs: RouteDoc[]): OpenApiAnswer {
   const paths: Record<string, Record<string, unknown>> = {};
   for (const spec of specs) {
     const path = spec.path.replace(/:([A-Za-z_]+)/g, '{$1}');
@@ -48,7 +49,9 @@ export function openApiDocument(specs: RouteDoc[]): Record<string, unknown> {
           ? { description, content: { 'application/json': { schema: { $ref: '#/components/schemas/Error' } } } }
           : spec.produces
             ? { description, content: { [spec.produces]: { schema: { type: 'string', format: 'binary' } } } }
-            : { description };
+            : spec.response && n !== 204
+              ? { description, content: { 'application/json': { schema: jsonSchema(spec.response, 'output') } } }
+              : { description };
     }
     const common: Record<string, string> = { 400: 'Invalid input: the fields and reasons are named' };
     if (spec.access.kind !== 'public') Object.assign(common, { 401: 'Not signed in', 403: 'Not allowed for your role or site' });
@@ -89,7 +92,7 @@ export function openApiDocument(specs: RouteDoc[]): Record<string, unknown> {
     (paths[path] ??= {})[spec.method] = op;
   }
   return {
-    openapi: '3.1.0',
+    openapi: '3.1.0' as const,
     info: {
       title: 'Brink API',
       version: '1',

@@ -26,16 +26,19 @@ export const siteSchema = z.object({
 export type SiteInput = z.input<typeof siteSchema>;
 export const siteUpdateSchema = siteSchema.partial();
 
-export interface Site {
-  id: number;
-  name: string;
-  latitude: number;
-  longitude: number;
-  timezone: string;
-  minimumClearance: number;
-  defaultMethod: (typeof surchargeMethods)[number];
-  createdAt: string;
-}
+export const siteAnswer = z.object({
+  id: z.number().int(),
+  name: z.string(),
+  latitude: z.number(),
+  longitude: z.number(),
+  timezone: z.string(),
+  minimumClearance: z.number(),
+  defaultMethod: z.enum(surchargeMethods),
+  createdAt: z.iso.datetime(),
+});
+export type Site = z.infer<typeof siteAnswer>;
+export const sitesAnswer = z.object({ sites: z.array(siteAnswer) });
+export const oneSiteAnswer = z.object({ site: siteAnswer });
 
 export const membershipSchema = z.object({
   role: siteRoleSchema,
@@ -48,11 +51,15 @@ export const userUpdateSchema = z.object({
   active: z.boolean().optional(),
 });
 
-export interface Person {
-  id: number;
-  email: string;
-  name: string;
-  isAdmin: boolean;
-  active: boolean;
-  memberships: { siteId: number; siteName: string; role: z.infer<typeof siteRoleSchema>; canInspect: boolean }[];
-}
+export const personAnswer = z.object({
+  id: z.number().int(),
+  email: z.string(),
+  name: z.string(),
+  isAdmin: z.boolean(),
+  active: z.boolean(),
+  memberships: z.array(z.object({ siteId: z.number().int(), siteName: z.string(), role: siteRoleSchema, canInspect: z.boolean() })),
+});
+export type Person = z.infer<typeof personAnswer>;
+export const peopleAnswer = z.object({ users: z.array(personAnswer) });
+export const onePersonAnswer = z.object({ user: personAnswer });
+export const createdAnswer = z.object({ id: z.number().int() });

@@ -1,7 +1,8 @@
 import { useQuery, type QueryClient } from '@tanstack/react-query';
-import type { Me } from '@shared/schemas/auth';
+import type { z } from 'zod';
+import type { Me, signedInAnswer } from '@shared/schemas/auth';
 import type { SiteRole } from '@shared/schemas/common';
-import type { Site } from '@shared/schemas/sites';
+import type { Site, sitesAnswer } from '@shared/schemas/sites';
 import { api, isApiError } from './api';
 
 /** Query keys shared by the app and more than one feature. */
@@ -16,7 +17,7 @@ export function useMe() {
     queryKey: sessionKeys.me,
     queryFn: async ({ signal }): Promise<Me | null> => {
       try {
-        const { user } = await api.get<{ user: Me }>('/api/auth/me', signal);
+        const { user } = await api.get<z.output<typeof signedInAnswer>>('/api/auth/me', signal);
         return user;
       } catch (error) {
         if (isApiError(error, 401)) return null;
@@ -46,7 +47,7 @@ export function setSignedOut(queryClient: QueryClient) {
 export function useMySites(enabled = true) {
   return useQuery({
     queryKey: sessionKeys.sites,
-    queryFn: ({ signal }) => api.get<{ sites: Site[] }>('/api/sites', signal).then((r) => r.sites),
+    queryFn: ({ signal }) => api.get<z.output<typeof sitesAnswer>>('/api/sites', signal).then((r) => r.sites),
     enabled,
   });
 }

@@ -4,6 +4,9 @@ import type { Request } from 'express';
 import { z } from 'zod';
 import {
   acceptInvitationSchema,
+  invitationOfferAnswer,
+  messageAnswer,
+  signedInAnswer,
   forgotPasswordSchema,
   resetPasswordSchema,
   signInSchema,
@@ -54,6 +57,7 @@ export function registerAuthRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/auth/sign-in',
+      response: signedInAnswer,
       summary: 'Sign in with e-mail and password',
       tag: 'Sign-in',
       access: { kind: 'public' },
@@ -90,7 +94,7 @@ export function registerAuthRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'post', path: '/api/auth/sign-out', summary: 'Sign out', tag: 'Sign-in', access: { kind: 'public' } },
+    { method: 'post', path: '/api/auth/sign-out', responses: { 204: 'Signed out' }, summary: 'Sign out', tag: 'Sign-in', access: { kind: 'public' } },
     async ({ req, res }) => {
       await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
       res.clearCookie('brink.sid', { path: '/' });
@@ -102,6 +106,7 @@ export function registerAuthRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/auth/me',
+      response: signedInAnswer,
       summary: 'The signed-in person with their site roles',
       tag: 'Sign-in',
       access: { kind: 'signedIn' },
@@ -113,6 +118,7 @@ export function registerAuthRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/auth/forgot-password',
+      response: messageAnswer,
       summary: 'E-mail a password reset link (answers the same whether or not the address is known)',
       tag: 'Sign-in',
       access: { kind: 'public' },
@@ -162,6 +168,7 @@ export function registerAuthRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/auth/reset-password',
+      responses: { 204: 'The password is changed; other sessions and reset links end' },
       summary: 'Set a new password with the link from the reset e-mail',
       tag: 'Sign-in',
       access: { kind: 'public' },
@@ -194,6 +201,7 @@ export function registerAuthRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/invitations/:token',
+      response: invitationOfferAnswer,
       summary: 'What an invitation link offers (before accepting it)',
       tag: 'People',
       access: { kind: 'public' },
@@ -218,6 +226,7 @@ export function registerAuthRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/invitations/accept',
+      response: signedInAnswer,
       summary: 'Accept an invitation: set a name and password and sign in',
       tag: 'People',
       access: { kind: 'public' },

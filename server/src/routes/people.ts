@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { invitationSchema } from '@shared/schemas/auth';
 import { idSchema, roleLabels } from '@shared/schemas/common';
-import { membershipSchema, userUpdateSchema } from '@shared/schemas/sites';
+import { createdAnswer, membershipSchema, onePersonAnswer, peopleAnswer, userUpdateSchema } from '@shared/schemas/sites';
 import { Api, HttpError, notFound } from '../http';
 import { audit } from '../services/audit';
 import { loadPeople, revokeAccess } from '../services/people';
@@ -18,6 +18,7 @@ export function registerPeopleRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/invitations',
+      response: createdAnswer,
       summary: 'Invite a person by e-mail, optionally with a role on a site',
       tag: 'People',
       access: { kind: 'admin' },
@@ -70,7 +71,7 @@ export function registerPeopleRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'get', path: '/api/users', summary: 'Everyone, with their site roles', tag: 'People', access: { kind: 'admin' } },
+    { method: 'get', path: '/api/users', response: peopleAnswer, summary: 'Everyone, with their site roles', tag: 'People', access: { kind: 'admin' } },
     async () => ({ users: await loadPeople(db) }),
   );
 
@@ -78,6 +79,7 @@ export function registerPeopleRoutes(api: Api): void {
     {
       method: 'patch',
       path: '/api/users/:id',
+      response: onePersonAnswer,
       summary: 'Rename, deactivate or reactivate a person, or make them an administrator',
       tag: 'People',
       access: { kind: 'admin' },
@@ -115,6 +117,7 @@ export function registerPeopleRoutes(api: Api): void {
     {
       method: 'put',
       path: '/api/users/:id/memberships/:siteId',
+      response: onePersonAnswer,
       summary: "Set a person's role on a site",
       tag: 'People',
       access: { kind: 'admin' },
@@ -142,6 +145,7 @@ export function registerPeopleRoutes(api: Api): void {
     {
       method: 'delete',
       path: '/api/users/:id/memberships/:siteId',
+      responses: { 204: 'Removed' },
       summary: "Remove a person's role on a site",
       tag: 'People',
       access: { kind: 'admin' },

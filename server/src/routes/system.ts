@@ -4,24 +4,25 @@ import type { Request } from 'express';
 import { connectionLossCount } from '@db/database';
 import { Api, forbidden, HttpError } from '../http';
 import { openApiDocument } from '../openapi';
+import { caughtMailAnswer, configAnswer, healthAnswer, openApiAnswer } from '@shared/schemas/system';
 
 export function registerSystemRoutes(api: Api): void {
   const { db, config } = api.deps;
   const reachable = databaseProbe(() => sql`select 1`.execute(db).then(() => undefined));
 
   api.route(
-    { method: 'get', path: '/api/health', summary: 'Whether the server and its database answer', tag: 'System', access: { kind: 'public' } },
+    { method: 'get', path: '/api/health', response: healthAnswer, summary: 'Whether the server and its database answer', tag: 'System', access: { kind: 'public' } },
     async ({ res }) => {
       if (!(await reachable())) {
         res.status(503).json({ ok: false, database: 'unreachable' });
         return;
       }
-      return { ok: true, database: 'ok', demo: config.demo, mailCatcher: config.mailCatcher.enabled };
+      return { ok: true, database: 'ok', demo: config.demo, mailCatcher: config.mailCatcher.enabled } as const;
     },
   );
 
   api.route(
-    { method: 'get', path: '/api/config', summary: 'Settings the browser needs (map tiles)', tag: 'System', access: { kind: 'public' } },
+    { method: 'get', path: '/api/config', response: configAnswer, summary: 'Settings the browser needs (map tiles)', tag: 'System', access: { kind: 'public' } },
     () => ({ mapTileUrl: config.mapTileUrl, mapTileAttribution: config.mapTileAttribution, demo: config.demo }),
   );
 
@@ -29,6 +30,7 @@ export function registerSystemRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/dev/mail',
+      response: caughtMailAnswer,
       summary: 'Messages kept by the local mail catcher, newest first (only while the catcher is on; administrators, or callers on this machine)',
       tag: 'System',
       access: { kind: 'public' },
@@ -48,7 +50,7 @@ export function registerSystemRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'get', path: '/api/openapi.json', summary: 'This document', tag: 'System', access: { kind: 'public' } },
+    { method: 'get', path: '/api/openapi.json', response: openApiAnswer, summary: 'This document', tag: 'System', access: { kind: 'public' } },
     () => openApiDocument(api.specs),
   );
 }

@@ -1,5 +1,6 @@
 import { sql } from 'kysely';
 import type { Db } from '@db/database';
+import { HttpError } from '../http';
 import type { Me } from '@shared/schemas/auth';
 import type { Person } from '@shared/schemas/sites';
 
@@ -35,9 +36,10 @@ export async function loadPeople(db: Db, ids?: number[]): Promise<Person[]> {
   }));
 }
 
-export async function loadMe(db: Db, id: number): Promise<Me | null> {
+/** The signed-in person with their site roles; one who is gone or deactivated meanwhile is signed out (401). */
+export async function loadMe(db: Db, id: number): Promise<Me> {
   const [p] = await loadPeople(db, [id]);
-  if (!p || !p.active) return null;
+  if (!p || !p.active) throw new HttpError(401, 'signed_out', 'Please sign in.');
   return { id: p.id, email: p.email, name: p.name, isAdmin: p.isAdmin, memberships: p.memberships };
 }
 

@@ -3,6 +3,7 @@ import L from 'leaflet';
 import { ImageOverlay, MapContainer, ScaleControl, TileLayer, useMap, useMapEvents, ZoomControl } from 'react-leaflet';
 import 'leaflet/dist/leaflet.css';
 import { useQuery } from '@tanstack/react-query';
+import type { ConfigAnswer } from '@shared/schemas/system';
 import { api } from '@client/lib/api';
 import { MetricGridLayer, metresPerPixel } from './metricGrid';
 
@@ -16,7 +17,7 @@ const MAX_NATIVE_TILE_ZOOM = 19;
 export function useAppConfig() {
   return useQuery({
     queryKey: ['config'],
-    queryFn: ({ signal }) => api.get<{ mapTileUrl: string | null; mapTileAttribution: string }>('/api/config', signal),
+    queryFn: ({ signal }) => api.get<ConfigAnswer>('/api/config', signal),
     staleTime: Infinity,
   });
 }

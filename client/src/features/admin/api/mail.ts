@@ -1,14 +1,9 @@
 import { useQuery } from '@tanstack/react-query';
+import type { z } from 'zod';
+import type { caughtMailAnswer, CaughtMessage } from '@shared/schemas/system';
 import { api } from '@client/lib/api';
 
-export interface CaughtMessage {
-  id: string | number;
-  to: string | string[];
-  subject: string;
-  text: string;
-  html?: string;
-  date: string;
-}
+export type { CaughtMessage };
 
 const mailKey = ['dev-mail'] as const;
 
@@ -16,7 +11,7 @@ const mailKey = ['dev-mail'] as const;
 export function useCaughtMail(enabled = true) {
   return useQuery({
     queryKey: mailKey,
-    queryFn: ({ signal }) => api.get<{ messages: CaughtMessage[] }>('/api/dev/mail', signal).then((r) => r.messages),
+    queryFn: ({ signal }) => api.get<z.output<typeof caughtMailAnswer>>('/api/dev/mail', signal).then((r) => r.messages),
     enabled,
     retry: false,
   });

@@ -1,7 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { InvitationInput } from '@shared/schemas/auth';
 import type { SiteRole } from '@shared/schemas/common';
-import type { Person } from '@shared/schemas/sites';
+import type { z } from 'zod';
+import type { createdAnswer, onePersonAnswer, peopleAnswer, Person } from '@shared/schemas/sites';
 import { api } from '@client/lib/api';
 import { sessionKeys } from '@client/lib/session';
 
@@ -10,7 +11,7 @@ const peopleKey = ['users'] as const;
 export function usePeople() {
   return useQuery({
     queryKey: peopleKey,
-    queryFn: ({ signal }) => api.get<{ users: Person[] }>('/api/users', signal).then((r) => r.users),
+    queryFn: ({ signal }) => api.get<z.output<typeof peopleAnswer>>('/api/users', signal).then((r) => r.users),
   });
 }
 
@@ -29,7 +30,7 @@ function usePersonSaved() {
 export function useInvite() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: InvitationInput) => api.post<{ id: number }>('/api/invitations', body),
+    mutationFn: (body: InvitationInput) => api.post<z.output<typeof createdAnswer>>('/api/invitations', body),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: peopleKey }),
   });
 }
@@ -38,7 +39,7 @@ export function useUpdatePerson(id: number) {
   const saved = usePersonSaved();
   return useMutation({
     mutationFn: (body: { name?: string; isAdmin?: boolean; active?: boolean }) =>
-      api.patch<{ user: Person }>(`/api/users/${id}`, body).then((r) => r.user),
+      api.patch<z.output<typeof onePersonAnswer>>(`/api/users/${id}`, body).then((r) => r.user),
     onSuccess: saved,
   });
 }
@@ -47,7 +48,7 @@ export function useSetMembership(id: number) {
   const saved = usePersonSaved();
   return useMutation({
     mutationFn: ({ siteId, role, canInspect }: { siteId: number; role: SiteRole; canInspect: boolean }) =>
-      api.put<{ user: Person }>(`/api/users/${id}/memberships/${siteId}`, { role, canInspect }).then((r) => r.user),
+      api.put<z.output<typeof onePersonAnswer>>(`/api/users/${id}/memberships/${siteId}`, { role, canInspect }).then((r) => r.user),
     onSuccess: saved,
   });
 }

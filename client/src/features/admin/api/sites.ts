@@ -1,5 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import type { Site, SiteInput } from '@shared/schemas/sites';
+import type { z } from 'zod';
+import type { oneSiteAnswer, Site, SiteInput } from '@shared/schemas/sites';
 import { api } from '@client/lib/api';
 import { sessionKeys } from '@client/lib/session';
 
@@ -9,7 +10,7 @@ export function useSaveSite(siteId: number | null) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (body: SiteInput) =>
-      (siteId === null ? api.post<{ site: Site }>('/api/sites', body) : api.patch<{ site: Site }>(`/api/sites/${siteId}`, body)).then(
+      (siteId === null ? api.post<z.output<typeof oneSiteAnswer>>('/api/sites', body) : api.patch<z.output<typeof oneSiteAnswer>>(`/api/sites/${siteId}`, body)).then(
         (r) => r.site,
       ),
     onSuccess: (site) => {

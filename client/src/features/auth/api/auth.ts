@@ -1,5 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { Me } from '@shared/schemas/auth';
+import type { z } from 'zod';
+import type { InvitationOffer, signedInAnswer } from '@shared/schemas/auth';
+import type { HealthAnswer } from '@shared/schemas/system';
 import type { SiteRole } from '@shared/schemas/common';
 import { api } from '@client/lib/api';
 import { setSignedIn, setSignedOut } from '@client/lib/session';
@@ -8,7 +10,7 @@ export function useSignIn() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationKey: ['sign-in'],
-    mutationFn: (body: { email: string; password: string }) => api.post<{ user: Me }>('/api/auth/sign-in', body),
+    mutationFn: (body: { email: string; password: string }) => api.post<z.output<typeof signedInAnswer>>('/api/auth/sign-in', body),
     onSuccess: ({ user }) => setSignedIn(queryClient, user),
   });
 }
@@ -31,17 +33,12 @@ export function useResetPassword() {
   });
 }
 
-export interface InvitationSummary {
-  email: string;
-  name: string;
-  siteName: string | null;
-  role: SiteRole | null;
-}
+export type InvitationSummary = InvitationOffer;
 
 export function useInvitation(token: string | null) {
   return useQuery({
     queryKey: ['invitation', token],
-    queryFn: ({ signal }) => api.get<InvitationSummary>(`/api/invitations/${encodeURIComponent(token ?? '')}`, signal),
+    queryFn: ({ signal }) => api.get<InvitationOffer>(`/api/invitations/${encodeURIComponent(token ?? '')}`, signal),
     enabled: token !== null,
     retry: false,
   });
@@ -51,7 +48,7 @@ export function useAcceptInvitation() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (body: { token: string; name: string; password: string }) =>
-      api.post<{ user: Me }>('/api/invitations/accept', body),
+      api.post<z.output<typeof signedInAnswer>>('/api/invitations/accept', body),
     onSuccess: ({ user }) => setSignedIn(queryClient, user),
   });
 }
@@ -60,7 +57,7 @@ export function useAcceptInvitation() {
 export function useDemoMode() {
   return useQuery({
     queryKey: ['health'],
-    queryFn: ({ signal }) => api.get<{ demo?: boolean }>('/api/health', signal),
+    queryFn: ({ signal }) => api.get<HealthAnswer>('/api/health', signal),
     select: (health) => health?.demo === true,
     retry: false,
     staleTime: Infinity,
