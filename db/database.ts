@@ -146,7 +146,7 @@ export interface ExcavationsTable {
   notes: Generated<string>;
   /**
    * The ground outline (GeoJSON Polygon, WGS84) and the influence zone (Polygon or MultiPolygon),
-   * drawn when the row is written (server/src/services/geometry/shapes.ts), never on read; null when
+   * drawn when the row is written (shared/geometry/shapes.ts), never on read; null when
    * no outline forms. Whoever writes geometry, width or depth writes these too.
    */
   outline: ColumnType<unknown, string | null | undefined, string | null>;

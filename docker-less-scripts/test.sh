@@ -1,5 +1,5 @@
 #!/usr/bin/env bash
-# `npm test`: every test on a throw-away PostgreSQL cluster: vitest (unit and API tests against
+# `npm test`: lint and typecheck first, then every test on a throw-away PostgreSQL cluster: vitest (unit and API tests against
 # the real database), the short chaos run (server/src/cli/chaos.ts, its own cluster), then Playwright in Debian's Chromium against the built app. Stops all it
 # started, also when a test fails; exits non-zero on any failure.
 source "$(dirname "$0")/lib.sh"
@@ -21,8 +21,8 @@ export NODE_ENV=test
 export SESSION_SECRET="test-$(date +%s%N)"
 export UPLOAD_DIR="$WORK/uploads"; mkdir -p "$UPLOAD_DIR"
 
-say "typecheck"
-npx tsc --noEmit -p tsconfig.json
+say "lint and typecheck (npm run lint: eslint, tsc)"
+npm run --silent lint
 
 say "dependency check (offline, package-lock.json)"
 npx tsx server/src/cli/checkLockfile.ts

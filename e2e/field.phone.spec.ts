@@ -5,7 +5,7 @@ import { createDb, createPool, type Db } from '@db/database';
 import { localProjection, prepareExcavation, signedDistanceToZoneAt, type LocalProjection } from '@shared/geometry';
 import type { FieldPermit } from '@shared/schemas/field';
 import type { Polygon } from 'geojson';
-import { shapeColumns, shapesOf } from '../server/src/services/geometry/shapes';
+import { shapeColumns, shapesOf } from '../shared/geometry/shapes';
 
 /**
  * The operator's phone (Pixel 7 project): where I stand against the exclusion zone, checked against

@@ -1,6 +1,6 @@
 import type { LineString, Polygon } from 'geojson';
 import type { Db } from '../database';
-import { shapeColumns, shapesOf } from '../../server/src/services/geometry/shapes';
+import { shapeColumns, shapesOf } from '../../shared/geometry/shapes';
 import type { DemoContext } from './people';
 
 /**

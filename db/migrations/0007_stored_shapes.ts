@@ -1,6 +1,6 @@
 import type { Kysely } from 'kysely';
 import type { LineString, Polygon } from 'geojson';
-import { shapeColumns, shapesOf } from '../../server/src/services/geometry/shapes';
+import { shapeColumns, shapesOf } from '../../shared/geometry/shapes';
 
 // Issue 12: excavation outlines and influence zones are stored when written, never drawn on read.
 // Adds the columns and draws them for the rows already there (a register holds tens of rows, each

@@ -133,7 +133,7 @@ describe('concerns', () => {
     let r = agent.post(`/api/permits/${permitId}/concerns`);
     if (key) r = r.set('Idempotency-Key', key);
     for (const [k, v] of Object.entries(fields)) r = r.field(k, v);
-    photos.forEach((p, i) => (r = r.attach('photo', p, { filename: `crack-${i}.png`, contentType: 'image/png' })));
+    for (const [i, p] of photos.entries()) r = r.attach('photo', p, { filename: `crack-${i}.png`, contentType: 'image/png' });
     return r;
   };
   const count = async (key: string) =>

@@ -1,5 +1,4 @@
 import { randomUUID } from 'node:crypto';
-import { inflateSync } from 'node:zlib';
 import bcrypt from 'bcryptjs';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -8,6 +7,7 @@ import { checkOverdueInspections, runReconciliation } from '../src/jobs/inspecti
 import { MB } from '../src/services/uploads';
 import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
 import { act, createPermit, excavatorAt, makeWorld, newTrench, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
+import { binary, pdfPages, pdfText } from './pdf';
 
 // Inspections of open excavations: the record and its checks, who may inspect, photos, the shift
 // clock (an injected clock, never waiting), the overdue e-mail, CSV and the weekly PDF.
@@ -582,8 +582,8 @@ describe('records', () => {
     const pdf = r.body as Buffer;
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
     expect(pdf.subarray(-6).toString('latin1')).toMatch(/%%EOF/);
-    const text = pdfText(pdf);
-    for (const words of [`${a.reference}  Test trench`, `${b.reference}  Test trench`, 'Rory Plumb', 'Not safe: stop work', 'Safe to work', 'No inspection recorded', 'week 2026-W25', 'licensed practice prevail']) {
+    const text = await pdfText(pdf);
+    for (const words of [`${a.reference} Test trench`, `${b.reference} Test trench`, 'Rory Plumb', 'Not safe: stop work', 'Safe to work', 'No inspection recorded', 'week 2026-W25', 'licensed practice prevail']) {
       expect(text).toContain(words);
     }
     expect(pdf.toString('latin1')).toMatch(/\/Subtype\s*\/Image/);
@@ -591,9 +591,9 @@ describe('records', () => {
     // A longer report runs over several pages, each with its footer, and no page of footer alone.
     for (let i = 0; i < 14; i++) await excavation(s, 'open', '2026-06-01T00:00:00Z');
     const long = (await agent.get(`/api/sites/${s}/inspections/report.pdf?week=2026-W25`).buffer(true).parse(binary)).body as Buffer;
-    const pages = Number(/\/Count (\d+)/.exec(long.toString('latin1'))![1]);
+    const pages = await pdfPages(long);
     expect(pages).toBeGreaterThan(1);
-    const longText = pdfText(long);
+    const longText = await pdfText(long);
     for (let n = 1; n <= pages; n++) expect(longText).toContain(`Page ${n} of ${pages}.`);
     expect(longText).not.toContain(`Page ${pages + 1} of`);
 
@@ -602,30 +602,3 @@ describe('records', () => {
     expect(bad.body.error.fields).toHaveProperty('week');
   });
 });
-
-function binary(res: NodeJS.ReadableStream & { setEncoding(e: string): void }, cb: (err: Error | null, body: Buffer) => void) {
-  const chunks: Buffer[] = [];
-  res.on('data', (c: Buffer) => chunks.push(Buffer.from(c)));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
-}
-
-/** The words drawn on the pages: inflates each content stream and joins the strings of each TJ/Tj. */
-function pdfText(pdf: Buffer): string {
-  const raw = pdf.toString('latin1');
-  const out: string[] = [];
-  for (const m of raw.matchAll(/stream\r?\n/g)) {
-    const start = m.index! + m[0].length;
-    const end = raw.indexOf('endstream', start);
-    let body = pdf.subarray(start, end);
-    try {
-      body = inflateSync(body);
-    } catch {
-      // not compressed (or an image)
-    }
-    const s = body.toString('latin1');
-    for (const tj of s.matchAll(/\[(.*?)\]\s*TJ/g)) {
-      out.push([...tj[1].matchAll(/<([0-9a-fA-F]*)>/g)].map((h) => Buffer.from(h[1], 'hex').toString('latin1')).join(''));
-    }
-  }
-  return out.join('\n');
-}

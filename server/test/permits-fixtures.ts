@@ -4,7 +4,7 @@ import bcrypt from 'bcryptjs';
 import request from 'supertest';
 import type { LineString } from 'geojson';
 import { localProjection } from '@shared/geometry';
-import { shapeColumns, shapesOf } from '../src/services/geometry/shapes';
+import { shapeColumns, shapesOf } from '@shared/geometry/shapes';
 import type { PermitCreateInput, PermitStatus, PlacedLoad } from '@shared/schemas/permits';
 import { demo, DEMO_PASSWORD, demoSiteId, signedIn, unique, type TestApp } from './helpers';
 

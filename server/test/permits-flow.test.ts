@@ -1,4 +1,3 @@
-import { inflateSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CAUTION } from '@shared/engineering';
 import { runPermitSchedule } from '../src/jobs/permits';
@@ -9,6 +8,7 @@ import { localProjection } from '@shared/geometry';
 import type { PlacedLoad } from '@shared/schemas/permits';
 import { demo, DEMO_PASSWORD, startTestApp, waitForMail, type TestApp } from './helpers';
 import { act, createPermit, excavatorAt, hoursFrom, makeWorld, newTrench, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
+import { binary, pdfText } from './pdf';
 
 let t: TestApp;
 let w: PermitWorld;
@@ -202,45 +202,17 @@ describe('attachments', () => {
   });
 });
 
-/** The text of a PDF: its streams inflated, the strings of its text operators decoded. */
-function pdfText(buf: Buffer): string {
-  const raw = buf.toString('latin1');
-  const parts: string[] = [];
-  const re = /stream\r?\n/g;
-  let m: RegExpExecArray | null;
-  while ((m = re.exec(raw))) {
-    const start = m.index + m[0].length;
-    const end = raw.indexOf('endstream', start);
-    const body = buf.subarray(start, end);
-    let content: string;
-    try {
-      content = inflateSync(body).toString('latin1');
-    } catch {
-      content = body.toString('latin1');
-    }
-    for (const tj of content.matchAll(/\[((?:<[0-9a-fA-F]*>|\([^)]*\)|-?[\d.]+|\s)*)\]\s*TJ/g)) {
-      const pieces = [...tj[1].matchAll(/<([0-9a-fA-F]*)>|\(([^)]*)\)/g)].map((x) => (x[1] !== undefined ? Buffer.from(x[1], 'hex').toString('latin1') : x[2]));
-      parts.push(pieces.join(''));
-    }
-  }
-  return parts.join(' ').replace(/\s+/g, ' ');
-}
-
 describe('the printed permit', () => {
   it('is a valid PDF holding the permit number, the standoff and the caution', async () => {
     const p = await createPermit(w, { loads: [excavatorAt(w, 1.5)] });
     await submitAndApprove(w, p.id, { standoff: 3, conditions: ['No tracking inside the exclusion zone'] });
-    const r = await w.agents.supervisor.get(`/api/permits/${p.id}/pdf`).buffer(true).parse((res, cb) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const r = await w.agents.supervisor.get(`/api/permits/${p.id}/pdf`).buffer(true).parse(binary);
     expect(r.status).toBe(200);
     expect(r.headers['content-type']).toBe('application/pdf');
     const buf = r.body as Buffer;
     expect(buf.subarray(0, 5).toString()).toBe('%PDF-');
     expect(buf.subarray(-6).toString()).toMatch(/%%EOF/);
-    const text = pdfText(buf);
+    const text = await pdfText(buf);
     expect(text).toContain(`Permit ${p.number}`);
     expect(text).toContain('Keep every load at least 3.00 m from the excavation edge.');
     expect(text).toContain('No tracking inside the exclusion zone');
@@ -265,7 +237,7 @@ describe('the printed permit', () => {
     const y = cy + 0.5 + 1.0;
     const wall: PlacedLoad = { id: 'wall', kind: 'line', label: 'Hoarding footing', path: { type: 'LineString', coordinates: [proj.toWgs84([cx - 10, y]), proj.toWgs84([cx + 10, y])] }, force: 15.2 };
     const p = await createPermit(w, { loads: [wall], method: 'elastic' });
-    const text = pdfText((await permitPdf(t.deps, p.id, { compress: false })).buffer);
+    const text = await pdfText((await permitPdf(t.deps, p.id, { compress: false })).buffer);
     expect(text).toContain('Read before signing');
     expect(text).toContain('the minimum equivalent fluid pressure governs');
     expect(text).toContain('moving it farther away is not always safer');
@@ -276,7 +248,7 @@ describe('the printed permit', () => {
     const p = await createPermit(w);
     const { buffer, number } = await permitPdf(t.deps, p.id, { compress: false });
     expect(number).toBe(p.number);
-    const text = pdfText(buffer);
+    const text = await pdfText(buffer);
     expect(text).toContain(`Permit ${p.number}`);
     expect(text).toContain('No decision yet');
   });

@@ -6,9 +6,8 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { prepareCheck } from './check';
 import { BREAK_EPSILON, loadBreakpoints, NOT_MONOTONIC_WARNING, runCheck } from './index';
-import { blanketEffect, loadEffect } from './loads';
+import { loadEffect } from './loads';
 import { layerIndexAt } from './soil';
-import { standoffSolver } from './standoff';
 import { midpoint } from './test-fixtures';
 import type { CheckRequest, Load, Method, PlacedLoad, SoilLayer } from './types';
 

@@ -17,7 +17,7 @@ import { polygon as turfPolygon } from '@turf/helpers';
 import type { MultiPolygon, Polygon } from 'geojson';
 import type { PreparedOutline } from './outline';
 import type { Ring } from './planar';
-import type { LocalProjection, XY } from './projection';
+import type { LocalProjection } from './projection';
 
 /** The sphere turf converts metres on (its earthRadius). */
 const TURF_EARTH_RADIUS = 6371008.8;

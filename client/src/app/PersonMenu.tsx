@@ -37,7 +37,7 @@ export function PersonLinks({ onDone }: { onDone?: () => void }) {
         variant="secondary"
         busy={signOut.isPending}
         busyText="Signing out…"
-        onClick={() => signOut.mutate(undefined, { onSettled: () => navigate('/sign-in', { replace: true }) })}
+        onClick={() => signOut.mutate(undefined, { onSettled: () => void navigate('/sign-in', { replace: true }) })}
       >
         Sign out
       </Button>

@@ -24,7 +24,7 @@ export function SiteSwitcher({ className = '' }: { className?: string }) {
         onChange={(e) => {
           const next = Number(e.target.value);
           rememberSiteId(me.data!.id, next);
-          navigate(pathname.startsWith('/sites/') ? switchSitePath(pathname, next) : `/sites/${next}`);
+          void navigate(pathname.startsWith('/sites/') ? switchSitePath(pathname, next) : `/sites/${next}`);
         }}
       >
         {sites.map((s) => (

@@ -10,6 +10,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { build } from 'vite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+// eslint-disable-next-line import-x/no-restricted-paths -- the bundle budget is the build tool's (npm run bench), checked here on a real build
 import { BUDGET, budgetOf, bundleReport, type BundleReport } from '@server/cli/bundleSize';
 
 const root = fileURLToPath(new URL('../../..', import.meta.url));

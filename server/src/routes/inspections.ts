@@ -7,7 +7,6 @@ import { toCsv } from '@shared/csv';
 import { Api, badRequest, parseOr400, siteFromParam } from '../http';
 import { filesOf, limits, receiveFiles } from '../services/uploads';
 import {
-  applyConsequences,
   inspectionStates,
   loadExcavation,
   loadInspections,

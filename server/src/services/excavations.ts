@@ -16,13 +16,13 @@ import {
   pointCount,
 } from '@shared/schemas/excavations';
 import { GeometryError, SITE_TOLERANCE, type LocalProjection } from '@shared/geometry';
-import { outlineOf, shapeColumns, type SiteOrigin } from './geometry/shapes';
+import { outlineOf, shapeColumns, type SiteOrigin } from '@shared/geometry/shapes';
 import { GeometryTimeout, type GeometryPool } from './geometry/pool';
 import type { Db, ExcavationsTable } from '@db/database';
 import { badRequest, zodFields } from '../http';
 
 type Row = Selectable<ExcavationsTable>;
-export { projectionOf, type SiteOrigin } from './geometry/shapes';
+export { projectionOf, type SiteOrigin } from '@shared/geometry/shapes';
 
 /**
  * Problems that need the site: a point farther than SITE_RADIUS from the origin, or a geometry that

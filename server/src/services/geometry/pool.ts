@@ -6,7 +6,7 @@
  */
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
-import type { ShapeInput, Shapes, SiteOrigin } from './shapes';
+import type { ShapeInput, Shapes, SiteOrigin } from '@shared/geometry/shapes';
 
 export class GeometryTimeout extends Error {
   override name = 'GeometryTimeout';

@@ -4,7 +4,7 @@ import { parentPort } from 'node:worker_threads';
 import { register } from 'tsx/esm/api';
 
 register();
-const { shapesOf } = await import('./shapes.ts');
+const { shapesOf } = await import('../../../../shared/geometry/shapes.ts');
 parentPort.on('message', ({ id, input, site }) => {
   try {
     parentPort.postMessage({ id, shapes: shapesOf(input, site) });

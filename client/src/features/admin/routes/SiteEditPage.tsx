@@ -27,7 +27,7 @@ export function SiteEditPage() {
         saveLabel={site ? 'Save changes' : 'Add the site'}
         onSave={async (values) => {
           const saved = await save.mutateAsync(values);
-          navigate('/admin/sites', { state: { notice: site ? `Saved ${saved.name}.` : `Added ${saved.name}.` } });
+          void navigate('/admin/sites', { state: { notice: site ? `Saved ${saved.name}.` : `Added ${saved.name}.` } });
         }}
       />
     </Page>

@@ -58,7 +58,7 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
     setSummary(null);
     try {
       await accept.mutateAsync({ token, name, password });
-      navigate('/', { replace: true });
+      void navigate('/', { replace: true });
     } catch (error) {
       if (isApiError(error, 404) || isApiError(error, 410) || (isApiError(error) && error.code === 'invalid_token')) setInvalid(true);
       else setSummary(applyServerErrors(error, setError, ['name', 'password']));

@@ -30,7 +30,7 @@ export function SignInPage() {
     setSummary(null);
     try {
       await signIn.mutateAsync(values);
-      navigate(safeNextPath(params.get('next')), { replace: true });
+      void navigate(safeNextPath(params.get('next')), { replace: true });
     } catch (error) {
       setSummary(applyServerErrors(error, setError, ['email', 'password']));
     }

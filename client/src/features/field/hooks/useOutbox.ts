@@ -8,11 +8,12 @@ export function useOutbox(userId: number): OutboxItem[] {
   const [items, setItems] = useState<OutboxItem[]>([]);
   useEffect(() => {
     let live = true;
-    const load = () =>
+    const load = (): void => {
       outboxItems(userId)
         .then((all) => live && setItems(all))
         .catch(() => undefined);
-    void load();
+    };
+    load();
     const off = onOutboxChange(load);
     return () => {
       live = false;

@@ -124,7 +124,7 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
           ) : null,
         )}
         {loads.map((load) => {
-          let feet: ReturnType<typeof footprintsOf> = [];
+          let feet: ReturnType<typeof footprintsOf>;
           try {
             feet = footprintsOf(load, plant, proj);
           } catch {

@@ -28,7 +28,7 @@ export function NewPermitPage() {
     setError(null);
     try {
       const p = await create.mutateAsync({ siteId, kind, description, windowStart: fromLocalInput(start), windowEnd: fromLocalInput(end), excavationIds: ids });
-      navigate(`/permits/${p.id}/edit`);
+      void navigate(`/permits/${p.id}/edit`);
     } catch (e) {
       if (e instanceof ApiError) {
         setFields(e.fields);

@@ -1,7 +1,6 @@
 import { permitErrorSummary, permitFieldLabel } from '../components/fieldNames';
 import { useEffect, useMemo, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
-import { useQuery } from '@tanstack/react-query';
 import { localProjection, type XY } from '@shared/geometry';
 import { CheckInputError, checkExcavationOf, cumulativeCheck, PlacementError, type PlantForCheck } from '@shared/permits/check';
 import {
@@ -19,7 +18,7 @@ import { Button, ButtonLink } from '@client/components/Button';
 import { CheckboxField, FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
-import { api, ApiError, errorMessage } from '@client/lib/api';
+import { ApiError, errorMessage } from '@client/lib/api';
 import { fieldSentence } from '@client/lib/forms';
 import { parseId } from '@client/lib/session';
 import { checkOnServer, useExcavations, useOperators, usePermit, usePlant, useSite, useTransition, useUpdatePermit } from '../api/permits';
@@ -112,6 +111,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
     } finally {
       measureLiveCheck(started);
     }
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- liveCheck reads exactly these
   }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit.id, permit.number, server]);
 
   function liveCheck(): { check: PermitCheck | null; refused: string | null; invalid: string | null } {
@@ -195,7 +195,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
     if (v === null) return;
     try {
       await move.mutateAsync({ action: 'submit', version: v });
-      navigate(`/permits/${permit.id}`);
+      void navigate(`/permits/${permit.id}`);
     } catch (e) {
       if (e instanceof ApiError) setFields(e.fields);
       setSummary(permitErrorSummary(e));

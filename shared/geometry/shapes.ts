@@ -1,13 +1,13 @@
 /**
  * The stored shapes of an excavation: its ground outline and influence zone (GeoJSON, WGS84), drawn
  * once when the excavation is written (never on read) and kept in the row. The zone is drawn to the
- * site tolerance. Relative imports only: this module also runs in the geometry workers.
+ * site tolerance. Relative imports only: this module also runs in the server's geometry workers (server/src/services/geometry/worker.mjs).
  */
 import type { LineString, MultiPolygon, Polygon } from 'geojson';
-import { excavationOutline, GeometryError, type ExcavationShape } from '../../../../shared/geometry/outline';
-import { localProjection, type LocalProjection } from '../../../../shared/geometry/projection';
-import { SITE_TOLERANCE } from '../../../../shared/geometry/simplify';
-import { influenceZone } from '../../../../shared/geometry/zones';
+import { excavationOutline, GeometryError, type ExcavationShape } from './outline';
+import { localProjection, type LocalProjection } from './projection';
+import { SITE_TOLERANCE } from './simplify';
+import { influenceZone } from './zones';
 
 export interface ShapeInput {
   kind: 'trench' | 'pit';
