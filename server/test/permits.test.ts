@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { permitActions, permitStatuses, type PermitStatus } from '@shared/schemas/permits';
+import { permitActions, permitStatuses } from '@shared/schemas/permits';
 import { allowedTransitions, needsReason, roleFor, signedActions } from './expected-transitions';
 import { DEMO_PASSWORD, startTestApp, type TestApp } from './helpers';
 import { act, createPermit, excavatorAt, forceStatus, makeWorld, newTrench, permitBody, submitAndApprove, trenchBeside, version, type PermitWorld } from './permits-fixtures';
