@@ -2,7 +2,7 @@ import { useQuery, type QueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type { Me, signedInAnswer } from '@shared/schemas/auth';
 import type { SiteRole } from '@shared/schemas/common';
-import type { Site, sitesAnswer } from '@shared/schemas/sites';
+import type { sitesAnswer } from '@shared/schemas/sites';
 import { api, isApiError } from './api';
 
 /** Query keys shared by the app and more than one feature. */

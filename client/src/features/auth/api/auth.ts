@@ -2,7 +2,6 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type { InvitationOffer, signedInAnswer } from '@shared/schemas/auth';
 import type { HealthAnswer } from '@shared/schemas/system';
-import type { SiteRole } from '@shared/schemas/common';
 import { api } from '@client/lib/api';
 import { setSignedIn, setSignedOut } from '@client/lib/session';
 

@@ -1,6 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
 import type { z } from 'zod';
-import type { peopleAnswer, Person } from '@shared/schemas/sites';
+import type { peopleAnswer } from '@shared/schemas/sites';
 import { api } from '@client/lib/api';
 
 /** Counts for the administrator's panels. */
