@@ -65,7 +65,7 @@ test.describe('signing in', () => {
       for (const other of demoPeople.filter((p) => p !== person)) {
         await expect(page.getByRole('heading', { level: 2, name: other.heading, exact: true })).toHaveCount(0);
       }
-      await expect(page.getByText(/do not replace the support's design/)).toBeVisible();
+      await expect(page.getByText(/never replace the support's design/)).toBeVisible();
     });
   }
 

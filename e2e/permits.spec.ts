@@ -76,7 +76,7 @@ test('a load permit from placing to approval and the printed permit', async ({ p
   await expect(coordinator.getByRole('heading', { name: 'Calculation sheet' })).toBeVisible();
   await expect(coordinator.getByRole('img', { name: /lateral pressure \(kPa\) against depth \(m\)/ })).toBeVisible();
   await expect(coordinator.getByText('Surcharge from the loads').first()).toBeVisible();
-  await expect(coordinator.getByText(/do not replace the support's design/).first()).toBeVisible();
+  await expect(coordinator.getByText(/never replace the support's design/).first()).toBeVisible();
 
   // Approves with a 3.0 m standoff and a condition, signing with the password.
   await coordinator.getByRole('button', { name: 'Approve', exact: true }).click();

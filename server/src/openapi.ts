@@ -1,6 +1,7 @@
 import { z, type ZodType } from 'zod';
 import type { RouteDoc } from './http';
 import type { OpenApiAnswer } from '@shared/schemas/system';
+import { CAUTION } from '@shared/caution';
 
 const errorSchema = {
   type: 'object',
@@ -97,7 +98,7 @@ export function openApiDocument(specs: RouteDoc[]): OpenApiAnswer {
       title: 'Brink API',
       version: '1',
       description:
-        'Loads beside open, supported excavations: sites, excavations, permits, inspections. Figures aid a competent temporary works coordinator and never replace the design of the support.',
+        `Loads beside open, supported excavations: sites, excavations, permits, inspections. ${CAUTION}`,
     },
     servers: [{ url: '/' }],
     components: {

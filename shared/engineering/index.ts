@@ -19,9 +19,8 @@ export type { SurchargeEffect } from './surcharge';
 export { standoffSolver, searchOffsets, loadBreakpoints, loadWidth, NO_STANDOFF_MESSAGE, BREAK_EPSILON, type StandoffSolver, type StandoffAnswer, type GroupMember } from './standoff';
 export { elasticStripPressure, navfacLinePressure, navfacPointPressure } from './elastic';
 
-export const CAUTION =
-  'These figures are a check aid for a competent temporary works designer or coordinator. They do not replace ' +
-  "the support's design; local regulations and licensed practice prevail.";
+import { CAUTION } from '../caution';
+export { CAUTION };
 
 /** Start of the warning given when the 5 kPa/m minimum equivalent fluid pressure governs somewhere. */
 export const MINIMUM_PRESSURE_WARNING = 'the minimum equivalent fluid pressure governs';

@@ -84,11 +84,6 @@ export function ringsMeet(a: Ring, b: Ring): boolean {
   return pointInRing(a[0], b) || pointInRing(b[0], a);
 }
 
-/** Least distance between segment ab and segment cd that do not meet. */
-export function segmentSegmentDistance(a: XY, b: XY, c: XY, d: XY): number {
-  return Math.min(pointSegment(a, c, d)[0], pointSegment(b, c, d)[0], pointSegment(c, a, b)[0], pointSegment(d, a, b)[0]);
-}
-
 export interface Bounds {
   minX: number;
   minY: number;

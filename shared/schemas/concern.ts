@@ -8,7 +8,6 @@ export const CONCERN_NOTE_MAX = 2000;
 /** Photos per concern, and the largest photo the server takes (bytes); the phone shrinks larger ones first. */
 export const CONCERN_PHOTOS_MAX = 3;
 export const CONCERN_PHOTO_BYTES_MAX = 10 * 1024 * 1024;
-export const concernPhotoTypes = ['image/jpeg', 'image/png'] as const;
 
 /** Why a concern's note (already trimmed) is refused, or null when it is fine. */
 export function concernNoteReason(note: string): string | null {

@@ -15,7 +15,7 @@ export const idempotencyKeySchema = z
   .trim()
   .regex(/^[A-Za-z0-9_-]{16,100}$/, 'must be 16 to 100 letters, digits, - or _');
 
-export { CONCERN_NOTE_MAX, CONCERN_PHOTOS_MAX, CONCERN_PHOTO_BYTES_MAX, concernPhotoTypes } from './concern';
+export { CONCERN_NOTE_MAX, CONCERN_PHOTOS_MAX, CONCERN_PHOTO_BYTES_MAX } from './concern';
 
 /** The text fields of a concern (multipart form fields, so numbers arrive as text). */
 export const concernFormSchema = z.object({

@@ -45,8 +45,6 @@ export const statusLabels: Record<PermitStatus, string> = {
   withdrawn: 'Withdrawn',
 };
 
-/** Statuses whose content is frozen: a change makes a new revision. */
-export const frozenStatuses: readonly PermitStatus[] = ['approved', 'live', 'suspended', 'handed_back', 'lapsed', 'declined', 'withdrawn'];
 /** Statuses whose content the requester may still edit (PATCH). */
 export const editableStatuses: readonly PermitStatus[] = ['draft', 'returned'];
 /** Permits whose loads may stand beside an excavation during their window: counted in the cumulative check. */

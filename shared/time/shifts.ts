@@ -55,16 +55,6 @@ function formatter(timeZone: string): Intl.DateTimeFormat {
   return f;
 }
 
-/** Whether Intl knows the time zone. */
-export function isTimeZone(timeZone: string): boolean {
-  try {
-    formatter(timeZone);
-    return true;
-  } catch {
-    return false;
-  }
-}
-
 /** What a wall clock in `timeZone` reads at the instant `at`. */
 export function wallClock(at: Date, timeZone: string): WallClock {
   const parts: Record<string, number> = {};

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import nodemailer, { type Transporter } from 'nodemailer';
 import type PgBoss from 'pg-boss';
 import type { Db } from '@db/database';
+import { CAUTION } from '@shared/caution';
 import type { Config } from '../config';
 import { queueConnection } from '../services/tx';
 import { scheduledQueue } from '../jobs/queues';
@@ -161,7 +162,7 @@ export function escapeHtml(s: string): string {
  * parts carry the same words.
  */
 export function notice(opts: { subject: string; lines: string[]; link?: { label: string; url: string } }): Omit<Message, 'to'> {
-  const footer = 'Brink aids a competent temporary works coordinator; it does not replace the design of the support. Local regulations and licensed practice prevail.';
+  const footer = CAUTION;
   const text = [...opts.lines, ...(opts.link ? [`${opts.link.label}: ${opts.link.url}`] : []), '', '-- ', footer].join('\n\n');
   const html = `<div style="font-family:sans-serif;color:#1e293b;max-width:36rem">${opts.lines
     .map((l) => `<p>${escapeHtml(l)}</p>`)

@@ -8,7 +8,7 @@ import type { Concern, FieldExcavation, FieldFootprint, FieldPermit } from '@sha
 import { editableStatuses, type PermitRevision, type PermitStatus } from '@shared/schemas/permits';
 import { loadExcavations } from './excavations';
 import { plantFor } from './permits/check';
-import { CAUTION } from './permits/caution';
+import { CAUTION } from '@shared/caution';
 import { loadRevision, loadSummary, withCurrentRevision } from './permits/read';
 
 /** Permits an operator works under (the briefing is due from Approved on). */

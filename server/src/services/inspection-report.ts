@@ -3,15 +3,13 @@ import { readFile } from 'node:fs/promises';
 import PDFDocument from 'pdfkit';
 import { checklist, outcomeLabels, reasonLabels, type Inspection } from '@shared/schemas/inspections';
 import { formatSiteTime, isoWeekRange, shiftsBetween } from '@shared/time/shifts';
+import { CAUTION } from '@shared/caution';
 import type { Deps } from '../deps';
 import { badRequest } from '../http';
 import { failedItems, loadInspections, siteClock } from './inspections';
 import { t } from './permits/pdf';
 
 /** Printed on every page of the report. */
-export const REPORT_CAUTION =
-  'Brink keeps this record to aid a competent temporary works coordinator; it does not replace the design of the support or the ' +
-  'judgement of the competent person who inspects. Local regulations and licensed practice prevail.';
 const DUTY =
   'Excavations are inspected by a competent person at the start of every shift, after any event likely to have affected their ' +
   'strength or stability, and after any accidental fall of material (UK: CDM 2015 regulation 22 and Schedule 3; US: OSHA 29 CFR 1926.651(k)).';
@@ -78,7 +76,7 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
     t(`Times on the site's clock (${tz}). Shifts: ${clock.shifts.map((s) => `${s.name} from ${s.start}`).join(', ')}. Printed ${formatSiteTime(now, tz)}.`),
   );
   doc.moveDown(0.4).text(DUTY);
-  doc.moveDown(0.4).fillColor(YELLOW_INK).text(REPORT_CAUTION);
+  doc.moveDown(0.4).fillColor(YELLOW_INK).text(CAUTION);
   doc.moveDown(0.8);
 
   if (!excavations.length) doc.fillColor(INK).fontSize(11).text('No excavation was open or inspected this week.');
@@ -151,7 +149,7 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
     const y = doc.page.height - doc.page.margins.bottom + 16;
     doc.page.margins.bottom = 0; // writing in the bottom margin must not start a new page
     doc.font('Helvetica').fontSize(7).fillColor(MUTED);
-    doc.text(`${REPORT_CAUTION}  Page ${p + 1} of ${pages.count}.`, left, y, { width, lineBreak: true, height: 30 });
+    doc.text(`${CAUTION}  Page ${p + 1} of ${pages.count}.`, left, y, { width, lineBreak: true, height: 30 });
   }
   doc.end();
   return done;

@@ -15,7 +15,7 @@ import {
 import { attentionWarnings, bandsWords, failsBeyondPassing, type ProfilePoint } from '@shared/engineering';
 import type { Deps } from '../../deps';
 import { notFound } from '../../http';
-import { CAUTION } from './caution';
+import { CAUTION } from '@shared/caution';
 import type { CheckExcavation } from '@shared/permits/check';
 import { excavationsFor, plantFor } from './check';
 import { loadDetail } from './read';

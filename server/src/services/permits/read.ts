@@ -18,7 +18,7 @@ import {
   type PlantSnapshot,
   type ExcavationSnapshot,
 } from '@shared/schemas/permits';
-import { CAUTION } from './caution';
+import { CAUTION } from '@shared/caution';
 import { DECISIONS, isAuthorOf } from './actors';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
