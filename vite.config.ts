@@ -65,6 +65,8 @@ const pwa = VitePWA({
     navigateFallback: '/index.html',
     navigateFallbackDenylist: [/^\/api\//],
     cleanupOutdatedCaches: true,
+    // Web Push: shows Brink's notifications and opens the permit when one is tapped (client/public/push-sw.js).
+    importScripts: ['/push-sw.js'],
     clientsClaim: true,
     skipWaiting: true,
     runtimeCaching: [

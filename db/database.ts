@@ -346,6 +346,23 @@ export interface MailDeliveriesTable {
   subject: string;
 }
 
+export interface PushSubscriptionsTable {
+  id: Generated<number>;
+  user_id: number;
+  endpoint: string;
+  p256dh: string;
+  auth: string;
+  created_at: Generated<Date>;
+}
+
+export interface PushDeliveriesTable {
+  key: string;
+  delivered_at: Generated<Date>;
+  subscription_id: number;
+  /** 'sent', or 'gone' when the push service said the subscription no longer exists. */
+  outcome: string;
+}
+
 export interface Database {
   users: UsersTable;
   sites: SitesTable;
@@ -371,6 +388,8 @@ export interface Database {
   concerns: ConcernsTable;
   mail_deliveries: MailDeliveriesTable;
   inspection_consequences: InspectionConsequencesTable;
+  push_subscriptions: PushSubscriptionsTable;
+  push_deliveries: PushDeliveriesTable;
 }
 
 export type Db = Kysely<Database>;

@@ -81,6 +81,22 @@ port_is_free() {
   node -e 'const s=require("net").createServer();s.once("error",()=>process.exit(1));s.listen(Number(process.argv[1]),"127.0.0.1",()=>s.close(()=>process.exit(0)))' "$1"
 }
 
+# start_fake_push LOG: the local fake push service (server/src/push/fake-service.ts, web-push-testing)
+# on a free 127.0.0.1 port, in the background; exports PUSH_FAKE_SERVICE_URL and sets FAKE_PUSH_PID.
+# The caller stops it (kill "$FAKE_PUSH_PID").
+start_fake_push() {
+  local port; port="$(free_port)"
+  node --import tsx server/src/push/fake-service.ts "$port" >"$1" 2>&1 &
+  FAKE_PUSH_PID=$!
+  export PUSH_FAKE_SERVICE_URL="http://127.0.0.1:$port"
+  for _ in $(seq 1 60); do
+    if node -e 'fetch(process.argv[1]+"/status",{method:"POST"}).then(r=>process.exit(r.ok?0:1),()=>process.exit(1))' "$PUSH_FAKE_SERVICE_URL"; then return 0; fi
+    if ! kill -0 "$FAKE_PUSH_PID" 2>/dev/null; then cat "$1" >&2; return 1; fi
+    sleep 0.5
+  done
+  echo "the fake push service did not start" >&2; return 1
+}
+
 # init_cluster DIR: a new cluster owned by the user who will run it, with a random password for
 # the `brink` role, kept in DIR/../pg-password (readable only by us).
 init_cluster() {

@@ -21,6 +21,7 @@ import { registerSystemRoutes } from './routes/system';
 import { registerUploadRoutes } from './routes/uploads';
 import { registerPermitRoutes } from './routes/permits';
 import { registerInspectionRoutes } from './routes/inspections';
+import { registerPushRoutes } from './routes/push';
 
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../dist/client');
 
@@ -133,6 +134,7 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerExcavationRoutes(api);
   registerSitePlanRoutes(api);
   registerInspectionRoutes(api);
+  registerPushRoutes(api);
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
 

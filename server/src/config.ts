@@ -17,6 +17,9 @@ const envSchema = z.object({
   MAIL_FROM: z.string().default('Brink <no-reply@brink.invalid>'),
   MAIL_CATCHER: onOff,
   MAIL_CATCHER_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+  PUSH_KEYS_FILE: z.string().optional(),
+  PUSH_SUBJECT: z.string().optional(),
+  PUSH_FAKE_SERVICE_URL: z.string().optional(),
   MAP_TILE_URL: z.string().optional(),
   MAP_TILE_ATTRIBUTION: z.string().optional(),
   SIGNIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(30),
@@ -34,6 +37,11 @@ export interface Config {
   smtpUrl: string | null;
   mailFrom: string;
   mailCatcher: { enabled: boolean; port: number };
+  /**
+   * Web Push: where the VAPID key pair is kept (made at first start), the contact the push services
+   * see, and the local fake push service whose endpoints are accepted besides https ones.
+   */
+  push: { keysFile: string; subject: string; fakeServiceUrl: string | null };
   mapTileUrl: string | null;
   mapTileAttribution: string;
   signInLimitPerIp: number;
@@ -60,6 +68,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     smtpUrl: empty(e.SMTP_URL) ?? (catcher ? `smtp://127.0.0.1:${e.MAIL_CATCHER_PORT}` : null),
     mailFrom: e.MAIL_FROM,
     mailCatcher: { enabled: catcher, port: e.MAIL_CATCHER_PORT },
+    push: {
+      keysFile: empty(e.PUSH_KEYS_FILE) ?? '.data/vapid-keys.json',
+      subject: empty(e.PUSH_SUBJECT) ?? `mailto:${/<([^>]+)>/.exec(e.MAIL_FROM)?.[1] ?? 'no-reply@brink.invalid'}`,
+      fakeServiceUrl: empty(e.PUSH_FAKE_SERVICE_URL)?.replace(/\/$/, '') ?? null,
+    },
     mapTileUrl: empty(e.MAP_TILE_URL),
     mapTileAttribution: e.MAP_TILE_ATTRIBUTION ?? '',
     signInLimitPerIp: e.SIGNIN_LIMIT_PER_IP,

@@ -2,6 +2,7 @@ import type PgBoss from 'pg-boss';
 import type { Db } from '@db/database';
 import type { Config } from './config';
 import type { Mailer } from './mail/mailer';
+import type { Pusher } from './push/pusher';
 import type { GeometryPool } from './services/geometry/pool';
 
 /** What every route and service is given: no globals. */
@@ -9,6 +10,8 @@ export interface Deps {
   db: Db;
   config: Config;
   mailer: Mailer;
+  /** Web Push notifications to people's devices (queued like the mail). */
+  pusher: Pusher;
   boss: PgBoss;
   /** Worker threads for geometry that can take long (influence zones). */
   geometry: GeometryPool;

@@ -3,6 +3,8 @@ import { createDb, createPool, isDatabaseUnavailable } from '@db/database';
 import type { Config } from './config';
 import type { Deps } from './deps';
 import { Mailer } from './mail/mailer';
+import { Pusher } from './push/pusher';
+import { loadOrMakeVapidKeys } from './push/keys';
 import { GeometryPool } from './services/geometry/pool';
 
 export interface Runtime {
@@ -11,7 +13,7 @@ export interface Runtime {
 }
 
 /**
- * Connects to PostgreSQL and starts the job queue and the mail worker. `queuePrefix` keeps the
+ * Connects to PostgreSQL and starts the job queue, the mail worker and the push worker. `queuePrefix` keeps the
  * queues of several app instances on one database apart (tests run many at once).
  */
 export async function startRuntime(config: Config, opts: { now?: () => Date; queuePrefix?: string } = {}): Promise<Runtime> {
@@ -36,8 +38,10 @@ export async function startRuntime(config: Config, opts: { now?: () => Date; que
   const prefix = opts.queuePrefix ?? 'brink';
   const mailer = new Mailer(boss, db, config, `${prefix}.mail`);
   await mailer.start();
+  const pusher = new Pusher(boss, db, config, `${prefix}.push`, loadOrMakeVapidKeys(config.push.keysFile));
+  await pusher.start();
   const geometry = new GeometryPool();
-  const deps: Deps = { db, config, mailer, boss, geometry, now: opts.now ?? (() => new Date()) };
+  const deps: Deps = { db, config, mailer, pusher, boss, geometry, now: opts.now ?? (() => new Date()) };
   return {
     deps,
     async stop() {

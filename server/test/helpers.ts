@@ -1,4 +1,7 @@
 import { randomUUID } from 'node:crypto';
+import { mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import request from 'supertest';
 import type { Express } from 'express';
 import { loadConfig } from '../src/config';
@@ -39,6 +42,8 @@ export interface TestApp {
  */
 export async function startTestApp(env: Record<string, string> = {}): Promise<TestApp> {
   const catcherPort = await freePort();
+  // The VAPID keys of a test app live in a throw-away folder, never in .data/.
+  const pushKeys = join(mkdtempSync(join(tmpdir(), 'brink-push-')), 'vapid-keys.json');
   const config = loadConfig({
     ...process.env,
     NODE_ENV: 'test',
@@ -47,6 +52,7 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Te
     MAIL_CATCHER_PORT: String(catcherPort),
     PUBLIC_URL: TEST_ORIGIN,
     BRINK_DEMO: '1',
+    PUSH_KEYS_FILE: pushKeys,
     ...env,
   });
   const clock: TestApp['clock'] = { now: null };

@@ -20,6 +20,8 @@ interface Row {
   allow: Who[];
   /** The body sent, or a function of the demo site's id for bodies that name it. */
   body?: unknown;
+  /** The query sent (a read that needs one answers 200 with it). */
+  query?: Record<string, string>;
 }
 
 export const matrix: Record<string, Row> = {
@@ -65,6 +67,11 @@ export const matrix: Record<string, Row> = {
   // members of the permit's site. server/test/field.test.ts checks them on a real permit.
   'GET /api/field/permits': { allow: signedInPeople },
   'GET /api/field/permits/:id': { allow: ['admin', ...siteMembers] },
+  // Web Push: anyone signed in may have their own devices told (server/test/push.test.ts).
+  'GET /api/push/key': { allow: signedInPeople },
+  'GET /api/push/subscription': { allow: signedInPeople, query: { endpoint: 'https://fcm.googleapis.com/fcm/send/roles-test' } },
+  'POST /api/push/subscription': { allow: signedInPeople, body: {} },
+  'DELETE /api/push/subscription': { allow: signedInPeople, query: { endpoint: 'https://fcm.googleapis.com/fcm/send/roles-test' } },
   'POST /api/permits/:id/concerns': { allow: siteMembers },
   // The plant library is shared by all sites: everyone signed in reads it; administrators and
   // coordinators (of any site, so the outsider too) keep it.
@@ -150,6 +157,7 @@ describe('role matrix', () => {
         const agent = signOut ? await signedIn(t.app, who === 'outsider' ? outsiderEmail : demo[who]) : agents.get(who)!;
         const m = method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
         let req = agent[m](concrete(path));
+        if (row.query) req = req.query(row.query);
         if (row.body !== undefined) req = req.send((typeof row.body === 'function' ? row.body(siteId) : row.body) as object);
         const r = await req;
         const url = concrete(path);

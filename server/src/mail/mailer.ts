@@ -5,7 +5,7 @@ import type { Db } from '@db/database';
 import { CAUTION } from '@shared/caution';
 import type { Config } from '../config';
 import { queueConnection } from '../services/tx';
-import { scheduledQueue } from '../jobs/queues';
+import { drainingWorker, scheduledQueue } from '../jobs/queues';
 
 export interface Message {
   to: string | string[];
@@ -51,16 +51,7 @@ export class Mailer {
 
   async start(): Promise<void> {
     await scheduledQueue({ boss: this.boss }, this.queue, null, MAIL_QUEUE_OPTIONS);
-    // pg-boss waits a polling interval after every fetch, even when more jobs wait: with one job
-    // per fetch that held the mail to two messages a second, and a backlog of forty (a busy minute
-    // of permit changes) took twenty seconds to reach the last person. After each message the
-    // worker is told to fetch again at once, so a backlog drains as fast as SMTP takes it; an empty
-    // queue is polled every half second.
-    let worker: string | null = null;
-    worker = await this.boss.work<QueuedMessage>(this.queue, { pollingIntervalSeconds: 0.5, batchSize: 1 }, async (jobs) => {
-      for (const job of jobs) await this.deliver(job.data);
-      if (worker) this.boss.notifyWorker(worker);
-    });
+    await drainingWorker<QueuedMessage>(this.boss, this.queue, (m) => this.deliver(m));
   }
 
   /**

@@ -8,6 +8,7 @@ import { notice } from '../mail/mailer';
 import { audit } from '../services/audit';
 import { concernOut, concernQuery, concernRecipients, loadFieldPermit, permitNamesExcavation, permitsNaming } from '../services/field';
 import { siteOfPermit } from '../services/permits/read';
+import { pushConcern } from '../services/permits/push';
 import { filesOf, limits, receiveFiles, storeUpload } from '../services/uploads';
 
 const idParams = z.object({ id: idSchema });
@@ -159,6 +160,7 @@ export function registerFieldRoutes(api: Api): void {
             link: { label: `Open permit ${facts.number}`, url: `${deps.config.publicUrl}/permits/${params.id}` },
           });
           for (const to of await concernRecipients(trx, site.id, user.id)) await deps.mailer.send(trx, { to, ...message });
+          await pushConcern({ ...deps, db: trx }, { permitId: params.id, number: facts.number, reporterId: user.id, reporterName: user.name, excavationReference: excavation.reference });
           return row.id;
         });
       } catch (err) {

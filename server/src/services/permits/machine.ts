@@ -17,6 +17,7 @@ import { DECISIONS, isAuthorOf, roleOf, type Actor } from './actors';
 import { checkStoredRevision } from './check';
 import { unsafeExcavations } from '../unsafe-excavations';
 import { notifyTransition } from './notify';
+import { pushTransition } from './push';
 import { advancePermit } from './schedule';
 import { inTransaction } from '../tx';
 
@@ -303,6 +304,7 @@ export async function transition(
       standoff: action === 'approve' ? (opts.standoff ?? null) : null,
       conditions: action === 'approve' ? opts.conditions : undefined,
     });
+    await pushTransition(inTrx, action, { permitId: p.id, number: p.number, actorId: actor.kind === 'user' ? actor.id : null });
     // Approved inside an open window with every operator briefed (or none named): live at once,
     // in the same transaction.
     if (action === 'approve') await advancePermit(inTrx, permitId);

@@ -29,7 +29,7 @@ export const audiences: Record<NoticeKind, Audience[]> = {
 };
 
 /** What each audience is asked to do after each transition. */
-const asks: Partial<Record<NoticeKind, Partial<Record<Audience, string>>>> = {
+export const asks: Partial<Record<NoticeKind, Partial<Record<Audience, string>>>> = {
   submit: { coordinators: 'Please review the check and decide.' },
   approve: {
     requester: 'Brief the operators named on the permit; it goes live when its window opens and each of them has confirmed the briefing.',
@@ -59,6 +59,12 @@ const asks: Partial<Record<NoticeKind, Partial<Record<Audience, string>>>> = {
 
 /** E-mail addresses of each audience for a permit (inactive people left out, the actor left out). */
 export async function recipients(db: Db, permitId: number, audience: Audience, exceptUserId: number | null): Promise<string[]> {
+  const rows = await audienceMembers(db, permitId, audience);
+  return [...new Set(rows.filter((r) => r.id !== exceptUserId).map((r) => r.email))];
+}
+
+/** The active people of one audience of a permit. */
+export async function audienceMembers(db: Db, permitId: number, audience: Audience): Promise<{ id: number; email: string }[]> {
   let q;
   if (audience === 'requester') {
     q = db.selectFrom('permits as p').innerJoin('users as u', 'u.id', 'p.requested_by').select(['u.email', 'u.id']).where('p.id', '=', permitId).where('u.active', '=', true);
@@ -79,8 +85,7 @@ export async function recipients(db: Db, permitId: number, audience: Audience, e
       .where('p.id', '=', permitId)
       .where('u.active', '=', true);
   }
-  const rows = await q.execute();
-  return [...new Set(rows.filter((r) => r.id !== exceptUserId).map((r) => r.email))];
+  return q.execute();
 }
 
 export interface NoticeFacts {
@@ -98,7 +103,7 @@ export interface NoticeFacts {
   conditions?: string[];
 }
 
-const headline: Record<NoticeKind, string> = {
+export const headline: Record<NoticeKind, string> = {
   submit: 'awaits your review',
   approve: 'is approved',
   return: 'is returned for changes',

@@ -6,6 +6,7 @@ import { useOutbox, useOutboxSender } from '../hooks/useOutbox';
 import { useNoSignal } from '../hooks/useSignal';
 import type { OutboxItem } from '../offline/outbox';
 import { FieldGate, useFieldPerson } from './FieldGate';
+import { PushToggle } from './PushToggle';
 import '../field.css';
 
 interface OutboxContextValue {
@@ -16,7 +17,7 @@ interface OutboxContextValue {
 const OutboxContext = createContext<OutboxContextValue>({ items: [], send: () => undefined });
 export const useFieldOutbox = () => useContext(OutboxContext);
 
-function Frame({ children, status }: { children: ReactNode; status?: ReactNode }) {
+function Frame({ children, status, tools }: { children: ReactNode; status?: ReactNode; tools?: ReactNode }) {
   return (
     <div className="brink-field flex min-h-screen flex-col bg-paper text-lg text-ink">
       <SkipLink />
@@ -34,6 +35,7 @@ function Frame({ children, status }: { children: ReactNode; status?: ReactNode }
       </main>
       <footer className="border-t border-rule bg-sheet">
         <div className="mx-auto max-w-3xl px-4 py-4 text-lg">
+          {tools}
           <Caution className="!text-lg !text-ink" />
           <p className="mt-2">
             <Link to="/" className="inline-flex min-h-12 items-center">
@@ -67,7 +69,7 @@ function Signed() {
   const send = useOutboxSender(person.id, waiting);
   return (
     <OutboxContext.Provider value={{ items, send }}>
-      <Frame status={<Connection waiting={waiting} refused={refused} />}>
+      <Frame status={<Connection waiting={waiting} refused={refused} />} tools={<PushToggle />}>
         <Outlet />
       </Frame>
     </OutboxContext.Provider>

@@ -1,5 +1,6 @@
 import { SIGNED_OUT_EVENT } from '@client/lib/session';
 import { forgetCopies } from './store';
+import { forgetPushSubscription } from './push';
 
 /** The runtime caches the service worker keeps (vite.config.ts): forgotten on sign-out with the copies. */
 const personalCaches = ['brink-field-api', 'brink-field-files'];
@@ -26,5 +27,6 @@ export function registerServiceWorker(): void {
 /** Forgets what was kept for the last person: their permit copies and the worker's cached answers. */
 export async function forgetPersonalCopies(): Promise<void> {
   await forgetCopies().catch(() => undefined);
+  await forgetPushSubscription();
   if (typeof caches !== 'undefined') await Promise.all(personalCaches.map((c) => caches.delete(c).catch(() => false)));
 }

@@ -1,0 +1,31 @@
+import { z } from 'zod';
+
+/** A browser's push subscription (PushSubscription.toJSON()), as the phone view sends it. */
+export const pushSubscriptionSchema = z.object({
+  endpoint: z.string().trim().min(1, 'is required').max(2000, 'must be at most 2000 characters'),
+  keys: z.object({
+    p256dh: z.string().trim().min(1, 'is required').max(200, 'must be at most 200 characters'),
+    auth: z.string().trim().min(1, 'is required').max(100, 'must be at most 100 characters'),
+  }),
+});
+export type PushSubscriptionBody = z.infer<typeof pushSubscriptionSchema>;
+
+export const pushEndpointQuerySchema = z.object({ endpoint: pushSubscriptionSchema.shape.endpoint });
+
+/** GET /api/push/key */
+export interface PushKeyAnswer {
+  publicKey: string;
+}
+
+/** GET /api/push/subscription?endpoint=…: is this device told, for the person signed in? */
+export interface PushStatusAnswer {
+  subscribed: boolean;
+}
+
+/** What the service worker receives in a push (server/src/push/pusher.ts PushMessage). */
+export interface PushPayload {
+  title: string;
+  body: string;
+  path: string;
+  tag: string;
+}
