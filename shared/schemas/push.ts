@@ -13,14 +13,12 @@ export type PushSubscriptionBody = z.infer<typeof pushSubscriptionSchema>;
 export const pushEndpointQuerySchema = z.object({ endpoint: pushSubscriptionSchema.shape.endpoint });
 
 /** GET /api/push/key */
-export interface PushKeyAnswer {
-  publicKey: string;
-}
+export const pushKeyAnswer = z.object({ publicKey: z.string() });
+export type PushKeyAnswer = z.infer<typeof pushKeyAnswer>;
 
-/** GET /api/push/subscription?endpoint=…: is this device told, for the person signed in? */
-export interface PushStatusAnswer {
-  subscribed: boolean;
-}
+/** GET and POST /api/push/subscription: is this device told, for the person signed in? */
+export const pushStatusAnswer = z.object({ subscribed: z.boolean() });
+export type PushStatusAnswer = z.infer<typeof pushStatusAnswer>;
 
 /** What the service worker receives in a push (server/src/push/pusher.ts PushMessage). */
 export interface PushPayload {
