@@ -4,7 +4,7 @@
  * notification, and tapping it opens that page of Brink (an open Brink window is reused).
  */
 self.addEventListener('push', (event) => {
-  let message = {};
+  let message;
   try {
     message = event.data ? event.data.json() : {};
   } catch {
