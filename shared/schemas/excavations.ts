@@ -9,7 +9,7 @@
 import { z } from 'zod';
 import { lineString, polygon } from '@turf/helpers';
 import { kinks } from '@turf/kinks';
-import type { LineString, MultiPolygon, Polygon } from 'geojson';
+import type { LineString, Polygon } from 'geojson';
 import { calcRequestSchema, excavationSchema as calcExcavationSchema, soilLayerSchema } from './calc';
 import type { Excavation as CalcExcavation, SoilLayer } from '../engineering/types';
 import { SITE_TOLERANCE, simplifyLine, simplifyRing } from '../geometry/simplify';
@@ -212,20 +212,31 @@ export const excavationUpdateSchema = z.object({
 }) as unknown as z.ZodType<Partial<Fields> & { version: number }, Partial<ExcavationInput> & { version: number }>;
 export type ExcavationUpdate = Partial<ExcavationInput> & { version: number };
 
+// GeoJSON as the API answers it (stored shapes, already checked when they were saved).
+const position = z.array(z.number()).min(2);
+const lineAnswer = z.object({ type: z.literal('LineString'), coordinates: z.array(position) });
+const polygonAnswer = z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(position)) });
+const multiPolygonAnswer = z.object({ type: z.literal('MultiPolygon'), coordinates: z.array(z.array(z.array(position))) });
+
 /** An excavation as the API returns it. */
-export interface Excavation extends ExcavationValues {
-  id: number;
-  siteId: number;
-  version: number;
+export const excavationAnswer = z.object({
+  ...excavationFields,
+  geometry: z.discriminatedUnion('type', [lineAnswer, polygonAnswer]),
+  id: z.number().int(),
+  siteId: z.number().int(),
+  version: z.number().int(),
   /** The uploaded design drawing (a PDF), served by GET /api/uploads/:id. */
-  drawing: { id: number; name: string; size: number } | null;
+  drawing: z.object({ id: z.number().int(), name: z.string(), size: z.number() }).nullable(),
   /** The ground outline: the trench centre line widened by half its width each side, or the pit polygon. */
-  outline: Polygon | null;
+  outline: polygonAnswer.nullable(),
   /** The influence zone: the ground within the depth H of the outline (docs/calculation.md, "Load spread at 45°" and "Standoff"). */
-  influenceZone: Polygon | MultiPolygon | null;
-  createdAt: string;
-  updatedAt: string;
-}
+  influenceZone: z.discriminatedUnion('type', [polygonAnswer, multiPolygonAnswer]).nullable(),
+  createdAt: z.iso.datetime(),
+  updatedAt: z.iso.datetime(),
+});
+export type Excavation = z.output<typeof excavationAnswer>;
+export const excavationsAnswer = z.object({ excavations: z.array(excavationAnswer) });
+export const oneExcavationAnswer = z.object({ excavation: excavationAnswer });
 
 /** Fields a site plan image is pinned by: its south-west and north-east corners, and how opaque it is drawn. */
 export const planBoundsSchema = z
@@ -243,18 +254,46 @@ export type PlanBounds = z.output<typeof planBoundsSchema>;
 export const planOpacitySchema = z.number({ error: 'must be a number from 0 to 1' }).min(0, 'must be from 0 to 1').max(1, 'must be from 0 to 1');
 export const planUpdateSchema = z.object({ bounds: planBoundsSchema.optional(), opacity: planOpacitySchema.optional() });
 
-export interface SitePlan {
-  uploadId: number;
-  name: string;
-  bounds: PlanBounds;
-  opacity: number;
-}
+export const sitePlanAnswer = z.object({
+  uploadId: z.number().int(),
+  name: z.string(),
+  bounds: z.object({ south: z.number(), west: z.number(), north: z.number(), east: z.number() }),
+  opacity: z.number(),
+});
+export type SitePlan = z.output<typeof sitePlanAnswer>;
+/** The site plan, null when none is pinned. */
+export const planAnswer = z.object({ plan: sitePlanAnswer.nullable() });
 
 /** What an import did with each feature of the file. */
-export interface ImportReport {
-  imported: { index: number; reference: string; id: number; action: 'created' | 'updated' }[];
-  refused: { index: number; reference: string | null; reasons: Record<string, string> }[];
-}
+export const importReportAnswer = z.object({
+  imported: z.array(z.object({ index: z.number().int(), reference: z.string(), id: z.number().int(), action: z.enum(['created', 'updated']) })),
+  refused: z.array(z.object({ index: z.number().int(), reference: z.string().nullable(), reasons: z.record(z.string(), z.string()) })),
+});
+export type ImportReport = z.output<typeof importReportAnswer>;
+export const importAnswer = z.object({ report: importReportAnswer });
+
+/** What a change of an excavation did to a permit that stands on it (server/src/services/permits/recheck.ts). */
+export const recheckOutcomeAnswer = z.object({
+  permitId: z.number().int(),
+  number: z.string(),
+  /** What happened: suspended (was live), sent back for review (was approved), still fails (suspended or awaiting review), passes. */
+  outcome: z.enum(['suspended', 'sent-back', 'still-fails', 'passes']),
+  /** The timeline's words, e.g. "TR-3 deepened from 2.5 m to 3.2 m: utilisation 1.31; …". */
+  text: z.string(),
+});
+export type RecheckOutcome = z.output<typeof recheckOutcomeAnswer>;
+export const changedExcavationAnswer = z.object({ excavation: excavationAnswer, rechecked: z.array(recheckOutcomeAnswer) });
+
+/** One change in an excavation's history: who, when, what (field → from, to). */
+export const historyEntryAnswer = z.object({
+  id: z.number().int(),
+  at: z.iso.datetime(),
+  by: z.string(),
+  action: z.string(),
+  changes: z.record(z.string(), z.object({ from: z.unknown(), to: z.unknown() })).nullable(),
+});
+export type HistoryEntry = z.output<typeof historyEntryAnswer>;
+export const historyAnswer = z.object({ entries: z.array(historyEntryAnswer) });
 
 export const importModes = ['add', 'replace'] as const;
 export type ImportMode = (typeof importModes)[number];

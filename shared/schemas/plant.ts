@@ -76,11 +76,11 @@ export const plantItemUpdateSchema = z
   .object({ ...plantFields, version: z.number().int().positive('must be the version you read') })
   .superRefine(checkElements);
 
-export interface PlantItem extends PlantItemValues {
-  id: number;
-  version: number;
-  updatedAt: string;
-}
+/** A machine as the API answers it (without the form's cross-field rules: the library keeps what was saved). */
+export const plantItemAnswer = z.object({ ...plantFields, id: z.number().int(), version: z.number().int(), updatedAt: z.iso.datetime() });
+export type PlantItem = z.output<typeof plantItemAnswer>;
+export const plantLibraryAnswer = z.object({ plant: z.array(plantItemAnswer) });
+export const onePlantItemAnswer = z.object({ item: plantItemAnswer });
 
 /** Load on one element (kN) and its mean bearing pressure (kPa), the design factor included. */
 export function elementLoad(item: Pick<PlantItemValues, 'operatingMass' | 'designFactor'>, e: PlantElement): { force: number; pressure: number } {

@@ -1,5 +1,6 @@
 import { useQuery } from '@tanstack/react-query';
-import type { Excavation, SitePlan } from '@shared/schemas/excavations';
+import type { z } from 'zod';
+import type { excavationsAnswer, planAnswer } from '@shared/schemas/excavations';
 import { api, ApiError, errorFromResponse } from './api';
 
 /**
@@ -15,7 +16,7 @@ export const excavationKeys = {
 export function useExcavations(siteId: number) {
   return useQuery({
     queryKey: excavationKeys.site(siteId),
-    queryFn: ({ signal }) => api.get<{ excavations: Excavation[] }>(`/api/sites/${siteId}/excavations`, signal).then((r) => r.excavations),
+    queryFn: ({ signal }) => api.get<z.output<typeof excavationsAnswer>>(`/api/sites/${siteId}/excavations`, signal).then((r) => r.excavations),
   });
 }
 
@@ -23,7 +24,7 @@ export function useExcavations(siteId: number) {
 export function useSitePlan(siteId: number) {
   return useQuery({
     queryKey: excavationKeys.plan(siteId),
-    queryFn: ({ signal }) => api.get<{ plan: SitePlan | null }>(`/api/sites/${siteId}/plan`, signal).then((r) => r.plan),
+    queryFn: ({ signal }) => api.get<z.output<typeof planAnswer>>(`/api/sites/${siteId}/plan`, signal).then((r) => r.plan),
   });
 }
 

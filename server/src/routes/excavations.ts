@@ -3,6 +3,11 @@ import type { Request, RequestHandler } from 'express';
 import { idSchema } from '@shared/schemas/common';
 import {
   canonical,
+  changedExcavationAnswer,
+  excavationsAnswer,
+  historyAnswer,
+  importAnswer,
+  oneExcavationAnswer,
   designFieldsIn,
   excavationInputSchema,
   excavationUpdateSchema,
@@ -109,7 +114,7 @@ export function registerExcavationRoutes(api: Api): void {
   const { db } = api.deps;
 
   api.route(
-    { method: 'get', path: '/api/sites/:siteId/excavations', summary: "The site's excavations with their supports, soil, outline and influence zone", tag: 'Excavations', access: siteReaders, params: siteParams },
+    { method: 'get', path: '/api/sites/:siteId/excavations', response: excavationsAnswer, summary: "The site's excavations with their supports, soil, outline and influence zone", tag: 'Excavations', access: siteReaders, params: siteParams },
     async ({ params }) => {
       await siteOrigin(db, params.siteId);
       return { excavations: await loadExcavations(db, params.siteId) };
@@ -120,6 +125,7 @@ export function registerExcavationRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/sites/:siteId/excavations',
+      response: oneExcavationAnswer,
       summary: 'Add an excavation (supervisors, coordinators); the geometry is checked (valid, not crossing itself, within 5 km of the site)',
       tag: 'Excavations',
       access: siteWriters,
@@ -154,6 +160,7 @@ export function registerExcavationRoutes(api: Api): void {
     {
       method: 'patch',
       path: '/api/sites/:siteId/excavations/:id',
+      response: changedExcavationAnswer,
       summary:
         'Change an excavation: any fields with the version you read (409 when stale; design data by coordinators only, 403 naming the fields); changes to depth and support are audited, and a change to the check inputs re-checks every permit that stands on it in the same transaction',
       tag: 'Excavations',
@@ -210,7 +217,7 @@ export function registerExcavationRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'delete', path: '/api/sites/:siteId/excavations/:id', summary: 'Remove an excavation from the register (its record stays in the audit log)', tag: 'Excavations', access: siteWriters, params: oneParams },
+    { method: 'delete', path: '/api/sites/:siteId/excavations/:id', responses: { 204: 'Removed' }, summary: 'Remove an excavation from the register (its record stays in the audit log)', tag: 'Excavations', access: siteWriters, params: oneParams },
     async ({ params, user }) => {
       await db
         .transaction()
@@ -235,6 +242,7 @@ export function registerExcavationRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/sites/:siteId/excavations/:id/history',
+      response: historyAnswer,
       summary: 'Who changed an excavation and when, newest first (depth, support and every other field)',
       tag: 'Excavations',
       access: siteReaders,
@@ -287,6 +295,7 @@ export function registerExcavationRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/sites/:siteId/excavations/import',
+      response: importAnswer,
       summary:
         'Import excavations from a GeoJSON FeatureCollection (multipart `file`; `mode` add or replace). Every feature is checked; if any is refused nothing is imported, and the report says why',
       tag: 'Excavations',
@@ -376,6 +385,7 @@ export function registerExcavationRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/sites/:siteId/excavations/:id/drawing',
+      response: oneExcavationAnswer,
       summary: 'Attach the design drawing of an excavation (multipart `file`, a PDF up to 20 MB, judged by its content)',
       tag: 'Excavations',
       access: siteWriters,
@@ -394,7 +404,7 @@ export function registerExcavationRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'delete', path: '/api/sites/:siteId/excavations/:id/drawing', summary: 'Detach the design drawing of an excavation (the file stays in the audit trail)', tag: 'Excavations', access: siteWriters, params: oneParams },
+    { method: 'delete', path: '/api/sites/:siteId/excavations/:id/drawing', response: oneExcavationAnswer, summary: 'Detach the design drawing of an excavation (the file stays in the audit trail)', tag: 'Excavations', access: siteWriters, params: oneParams },
     async ({ params, user, deps }) => {
       const before = await oneOrNotFound(db, params.siteId, params.id);
       if (!before.drawing) return { excavation: before };

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
-import { plantItemSchema, plantItemUpdateSchema, type PlantItem, type PlantItemValues } from '@shared/schemas/plant';
+import { onePlantItemAnswer, plantItemSchema, plantItemUpdateSchema, plantLibraryAnswer, type PlantItem, type PlantItemValues } from '@shared/schemas/plant';
 import type { Db, PlantItemsTable } from '@db/database';
 import type { Selectable } from 'kysely';
 import { Api, conflict, forbidden, HttpError, notFound, type SessionUser } from '../http';
@@ -66,7 +66,7 @@ export function registerPlantRoutes(api: Api): void {
   const editors = plantEditorsOnly(db);
 
   api.route(
-    { method: 'get', path: '/api/plant', summary: 'The plant library (every signed-in person reads it)', tag: 'Plant', access: { kind: 'signedIn' } },
+    { method: 'get', path: '/api/plant', response: plantLibraryAnswer, summary: 'The plant library (every signed-in person reads it)', tag: 'Plant', access: { kind: 'signedIn' } },
     async () => ({ plant: await loadPlant(db) }),
   );
 
@@ -74,6 +74,7 @@ export function registerPlantRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/plant',
+      response: onePlantItemAnswer,
       summary: 'Add a machine to the plant library (administrators and coordinators)',
       tag: 'Plant',
       access: { kind: 'signedIn' },
@@ -104,6 +105,7 @@ export function registerPlantRoutes(api: Api): void {
     {
       method: 'patch',
       path: '/api/plant/:id',
+      response: onePlantItemAnswer,
       summary: 'Change a machine (the whole item with the version it was read at; 409 when stale)',
       tag: 'Plant',
       access: { kind: 'signedIn' },
@@ -148,6 +150,7 @@ export function registerPlantRoutes(api: Api): void {
     {
       method: 'delete',
       path: '/api/plant/:id',
+      responses: { 204: 'Removed' },
       summary: 'Remove a machine from the plant library',
       tag: 'Plant',
       access: { kind: 'signedIn' },

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
-import { planBoundsSchema, planOpacitySchema, planUpdateSchema, SITE_RADIUS, type PlanBounds, type SitePlan } from '@shared/schemas/excavations';
+import { planAnswer, planBoundsSchema, planOpacitySchema, planUpdateSchema, SITE_RADIUS, type PlanBounds, type SitePlan } from '@shared/schemas/excavations';
 import type { Db } from '@db/database';
 import { Api, badRequest, notFound, parseOr400 } from '../http';
 import { audit } from '../services/audit';
@@ -38,7 +38,7 @@ export function registerSitePlanRoutes(api: Api): void {
   const { db } = api.deps;
 
   api.route(
-    { method: 'get', path: '/api/sites/:siteId/plan', summary: 'The site plan image, its corners and opacity (null when none)', tag: 'Site map', access: siteReaders, params: siteParams },
+    { method: 'get', path: '/api/sites/:siteId/plan', response: planAnswer, summary: 'The site plan image, its corners and opacity (null when none)', tag: 'Site map', access: siteReaders, params: siteParams },
     async ({ params }) => ({ plan: await planOf(db, params.siteId) }),
   );
 
@@ -46,6 +46,7 @@ export function registerSitePlanRoutes(api: Api): void {
     {
       method: 'put',
       path: '/api/sites/:siteId/plan',
+      response: planAnswer,
       summary: 'Upload the site plan image (multipart `file`: PNG or JPEG up to 10 MB, judged by content) with its corners `south`, `west`, `north`, `east` and `opacity`',
       tag: 'Site map',
       access: siteWriters,
@@ -71,7 +72,7 @@ export function registerSitePlanRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'patch', path: '/api/sites/:siteId/plan', summary: "Move the site plan's corners or change its opacity", tag: 'Site map', access: siteWriters, params: siteParams, body: planUpdateSchema },
+    { method: 'patch', path: '/api/sites/:siteId/plan', response: planAnswer, summary: "Move the site plan's corners or change its opacity", tag: 'Site map', access: siteWriters, params: siteParams, body: planUpdateSchema },
     async ({ params, body, user }) => {
       const plan = await planOf(db, params.siteId);
       if (!plan) throw notFound('The site plan');
@@ -90,7 +91,7 @@ export function registerSitePlanRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'delete', path: '/api/sites/:siteId/plan', summary: 'Take the site plan image off the map', tag: 'Site map', access: siteWriters, params: siteParams },
+    { method: 'delete', path: '/api/sites/:siteId/plan', responses: { 204: 'Taken off the map' }, summary: 'Take the site plan image off the map', tag: 'Site map', access: siteWriters, params: siteParams },
     async ({ params, user }) => {
       const plan = await planOf(db, params.siteId);
       if (!plan) return;

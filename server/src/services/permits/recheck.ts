@@ -1,5 +1,5 @@
 import { sql } from 'kysely';
-import { canonical, checkInputFields, type CheckInputs, type ExcavationValues } from '@shared/schemas/excavations';
+import { canonical, checkInputFields, type CheckInputs, type ExcavationValues, type RecheckOutcome } from '@shared/schemas/excavations';
 import type { PermitCheck, PermitDecision, PermitStatus } from '@shared/schemas/permits';
 import { describeExcavationChange, judgeRecheck } from '@shared/permits/recheck';
 import type { Deps } from '../../deps';
@@ -14,14 +14,7 @@ import { withCurrentRevision } from './read';
 /** Permits re-checked when an excavation changes: awaiting review, approved, live or suspended. */
 const RECHECKED: PermitStatus[] = ['submitted', 'approved', 'live', 'suspended'];
 
-export interface RecheckOutcome {
-  permitId: number;
-  number: string;
-  /** What happened: suspended (was live), sent back for review (was approved), still fails (suspended or awaiting review), passes. */
-  outcome: 'suspended' | 'sent-back' | 'still-fails' | 'passes';
-  /** The timeline's words, e.g. "TR-3 deepened from 2.5 m to 3.2 m: utilisation 1.31; …". */
-  text: string;
-}
+export type { RecheckOutcome };
 
 /** Whether a change touches what the check of a load beside the excavation reads. */
 export function checkInputsChanged(before: ExcavationValues, after: ExcavationValues): boolean {

@@ -1,5 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import type { Excavation, ExcavationInput, PlanBounds, SitePlan } from '@shared/schemas/excavations';
+import type { z } from 'zod';
+import type { changedExcavationAnswer, Excavation, ExcavationInput, HistoryEntry, oneExcavationAnswer, PlanBounds, planAnswer, SitePlan } from '@shared/schemas/excavations';
 import { api } from '@client/lib/api';
 import { excavationKeys, postForm } from '@client/lib/excavations';
 
@@ -22,8 +23,8 @@ export function useSaveExcavation(siteId: number) {
   return useMutation({
     mutationFn: ({ id, version, values }: { id: number | null; version: number; values: ExcavationInput }) =>
       (id === null
-        ? api.post<{ excavation: Excavation }>(`/api/sites/${siteId}/excavations`, values)
-        : api.patch<{ excavation: Excavation }>(`/api/sites/${siteId}/excavations/${id}`, { ...values, version })
+        ? api.post<z.output<typeof oneExcavationAnswer>>(`/api/sites/${siteId}/excavations`, values)
+        : api.patch<z.output<typeof changedExcavationAnswer>>(`/api/sites/${siteId}/excavations/${id}`, { ...values, version })
       ).then((r) => r.excavation),
     onSuccess: (e) => settle(e),
   });
@@ -43,22 +44,16 @@ export function useDrawing(siteId: number) {
   return useMutation({
     mutationFn: ({ id, file }: { id: number; file: File | null }) => {
       const path = `/api/sites/${siteId}/excavations/${id}/drawing`;
-      if (!file) return api.delete<{ excavation: Excavation }>(path).then((r) => r.excavation);
+      if (!file) return api.delete<z.output<typeof oneExcavationAnswer>>(path).then((r) => r.excavation);
       const form = new FormData();
       form.append('file', file);
-      return postForm<{ excavation: Excavation }>(path, form).then((r) => r.excavation);
+      return postForm<z.output<typeof oneExcavationAnswer>>(path, form).then((r) => r.excavation);
     },
     onSuccess: (e) => settle(e),
   });
 }
 
-export interface HistoryEntry {
-  id: number;
-  at: string;
-  by: string;
-  action: string;
-  changes: Record<string, { from: unknown; to: unknown }> | null;
-}
+export type { HistoryEntry };
 
 export function historyPath(siteId: number, id: number) {
   return `/api/sites/${siteId}/excavations/${id}/history`;
@@ -74,12 +69,12 @@ export function useSitePlanChanges(siteId: number) {
       for (const [k, v] of Object.entries(bounds)) form.append(k, String(v));
       form.append('opacity', String(opacity));
       form.append('file', file);
-      return postForm<{ plan: SitePlan }>(`/api/sites/${siteId}/plan`, form, 'PUT').then((r) => r.plan);
+      return postForm<z.output<typeof planAnswer>>(`/api/sites/${siteId}/plan`, form, 'PUT').then((r) => r.plan);
     },
     onSuccess: done,
   });
   const change = useMutation({
-    mutationFn: (body: { bounds?: PlanBounds; opacity?: number }) => api.patch<{ plan: SitePlan }>(`/api/sites/${siteId}/plan`, body).then((r) => r.plan),
+    mutationFn: (body: { bounds?: PlanBounds; opacity?: number }) => api.patch<z.output<typeof planAnswer>>(`/api/sites/${siteId}/plan`, body).then((r) => r.plan),
     onSuccess: done,
   });
   const remove = useMutation({

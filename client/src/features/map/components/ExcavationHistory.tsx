@@ -1,8 +1,10 @@
 import { useQuery } from '@tanstack/react-query';
+import type { z } from 'zod';
+import type { historyAnswer } from '@shared/schemas/excavations';
 import { api } from '@client/lib/api';
 import { excavationKeys } from '@client/lib/excavations';
 import { formatDateTime } from '@client/lib/labels';
-import { historyPath, type HistoryEntry } from '../api/excavations';
+import { historyPath } from '../api/excavations';
 
 const actionLabels: Record<string, string> = {
   created: 'Added',
@@ -20,7 +22,7 @@ const show = (v: unknown) => (v === null || v === undefined || v === '' ? 'none'
 export function ExcavationHistory({ siteId, id, version }: { siteId: number; id: number; version: number }) {
   const q = useQuery({
     queryKey: [...excavationKeys.history(siteId, id), version],
-    queryFn: ({ signal }) => api.get<{ entries: HistoryEntry[] }>(historyPath(siteId, id), signal).then((r) => r.entries),
+    queryFn: ({ signal }) => api.get<z.output<typeof historyAnswer>>(historyPath(siteId, id), signal).then((r) => r.entries),
   });
   if (!q.data?.length) return null;
   return (

@@ -1,5 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import type { PlantItem, PlantItemInput } from '@shared/schemas/plant';
+import type { z } from 'zod';
+import type { onePlantItemAnswer, PlantItemInput } from '@shared/schemas/plant';
 import { api } from '@client/lib/api';
 import { plantKey } from '@client/lib/plant';
 
@@ -10,7 +11,7 @@ export function useSavePlant() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: ({ id, version, values }: { id: number | null; version: number; values: PlantItemInput }) =>
-      (id === null ? api.post<{ item: PlantItem }>('/api/plant', values) : api.patch<{ item: PlantItem }>(`/api/plant/${id}`, { ...values, version })).then((r) => r.item),
+      (id === null ? api.post<z.output<typeof onePlantItemAnswer>>('/api/plant', values) : api.patch<z.output<typeof onePlantItemAnswer>>(`/api/plant/${id}`, { ...values, version })).then((r) => r.item),
     onSuccess: () => qc.invalidateQueries({ queryKey: plantKey }),
   });
 }

@@ -10,7 +10,8 @@ import {
   type ColumnDef,
   type SortingState,
 } from '@tanstack/react-table';
-import { excavationStates, importModes, kindLabels, stateLabels, supportLabels, type Excavation, type ImportMode, type ImportReport } from '@shared/schemas/excavations';
+import { excavationStates, importModes, kindLabels, stateLabels, supportLabels, type Excavation, type ImportMode, type ImportReport, type importAnswer } from '@shared/schemas/excavations';
+import type { z } from 'zod';
 import { Button } from '@client/components/Button';
 import { Caution } from '@client/components/Caution';
 import { FormSummary, SelectField } from '@client/components/Fields';
@@ -211,7 +212,7 @@ function ImportPanel({ siteId }: { siteId: number }) {
       const form = new FormData();
       form.append('mode', mode);
       form.append('file', file);
-      const r = await postForm<{ report: ImportReport }>(`/api/sites/${siteId}/excavations/import`, form);
+      const r = await postForm<z.output<typeof importAnswer>>(`/api/sites/${siteId}/excavations/import`, form);
       setReport({ ok: true, report: r.report });
       await qc.invalidateQueries({ queryKey: excavationKeys.site(siteId) });
     } catch (e) {
