@@ -2,7 +2,8 @@ import type { Deps } from '../deps';
 import { runPermitSchedule } from '../services/permits/schedule';
 import { scheduledQueue } from './queues';
 
-export { runPermitSchedule, advancePermit } from '../services/permits/schedule';
+export { runPermitSchedule } from '../services/permits/schedule';
+export { advancePermit } from '../services/permits/machine';
 
 /**
  * Starts the permit schedule on pg-boss: every minute, approved permits whose window has opened

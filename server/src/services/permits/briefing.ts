@@ -2,7 +2,7 @@ import type { Deps } from '../../deps';
 import { withCurrentRevision } from './read';
 import { conflict, forbidden, notFound } from '../../http';
 import { audit } from '../audit';
-import { advancePermit } from './schedule';
+import { advancePermit } from './machine';
 
 /**
  * An operator named on the permit's current revision confirms that they have been briefed on it.

@@ -13,12 +13,12 @@ import {
 import type { Deps } from '../../deps';
 import { badRequest, conflict, forbidden, HttpError, notFound } from '../../http';
 import { audit } from '../audit';
-import { DECISIONS, isAuthorOf, roleOf, type Actor } from './actors';
+import { DECISIONS, isAuthorOf, roleOf, scheduleActor, type Actor } from './actors';
 import { checkStoredRevision } from './check';
 import { unsafeExcavations } from '../unsafe-excavations';
 import { notifyTransition } from './notify';
 import { pushTransition } from './push';
-import { advancePermit } from './schedule';
+import { withCurrentRevision } from './read';
 import { inTransaction } from '../tx';
 
 export interface TransitionOptions {
@@ -387,4 +387,39 @@ async function assertComplete(
   if (Object.keys(fields).length) {
     throw badRequest(`The request is not ready for review: ${Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join('; ')}.`, fields);
   }
+}
+
+/** Another change won the race (or the permit is no longer due): not an error for the schedule. */
+function lostRace(err: unknown): boolean {
+  return err instanceof HttpError && (err.status === 409 || err.status === 404);
+}
+
+/**
+ * What the clock does to one permit at `deps.now()`: an approved permit whose window is open and
+ * whose operators have all confirmed the briefing goes Live; an approved, live or suspended permit
+ * whose window has closed Lapses. Returns what it did.
+ */
+export async function advancePermit(deps: Deps, permitId: number): Promise<'started' | 'lapsed' | null> {
+  const now = deps.now();
+  const row = await withCurrentRevision(deps.db)
+    .select(['p.id', 'p.status', 'p.version', 'r.id as revision_id', 'r.window_start', 'r.window_end'])
+    .where('p.id', '=', permitId)
+    .executeTakeFirst();
+  if (!row) return null;
+  try {
+    if (['approved', 'live', 'suspended'].includes(row.status) && now >= new Date(row.window_end)) {
+      await transition(deps, row.id, 'lapse', scheduleActor, { version: row.version });
+      return 'lapsed';
+    }
+    if (row.status === 'approved' && now >= new Date(row.window_start) && now < new Date(row.window_end)) {
+      const waiting = await deps.db.selectFrom('permit_operators').select('user_id').where('revision_id', '=', row.revision_id).where('briefed_at', 'is', null).execute();
+      if (waiting.length === 0) {
+        await transition(deps, row.id, 'start', scheduleActor, { version: row.version });
+        return 'started';
+      }
+    }
+  } catch (err) {
+    if (!lostRace(err)) throw err;
+  }
+  return null;
 }

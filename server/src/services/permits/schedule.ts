@@ -1,8 +1,7 @@
 import type { Deps } from '../../deps';
 import { withCurrentRevision } from './read';
-import { HttpError } from '../../http';
 import { scheduleActor } from './actors';
-import { transition } from './machine';
+import { advancePermit } from './machine';
 import { notifyTransition } from './notify';
 
 /** Before the window closes, by this much, the requester and operators are reminded (ms). */
@@ -12,41 +11,6 @@ export interface ScheduleOutcome {
   started: number[];
   lapsed: number[];
   reminded: number[];
-}
-
-/** Another change won the race (or the permit is no longer due): not an error for the schedule. */
-function lostRace(err: unknown): boolean {
-  return err instanceof HttpError && (err.status === 409 || err.status === 404);
-}
-
-/**
- * What the clock does to one permit at `deps.now()`: an approved permit whose window is open and
- * whose operators have all confirmed the briefing goes Live; an approved, live or suspended permit
- * whose window has closed Lapses. Returns what it did.
- */
-export async function advancePermit(deps: Deps, permitId: number): Promise<'started' | 'lapsed' | null> {
-  const now = deps.now();
-  const row = await withCurrentRevision(deps.db)
-    .select(['p.id', 'p.status', 'p.version', 'r.id as revision_id', 'r.window_start', 'r.window_end'])
-    .where('p.id', '=', permitId)
-    .executeTakeFirst();
-  if (!row) return null;
-  try {
-    if (['approved', 'live', 'suspended'].includes(row.status) && now >= new Date(row.window_end)) {
-      await transition(deps, row.id, 'lapse', scheduleActor, { version: row.version });
-      return 'lapsed';
-    }
-    if (row.status === 'approved' && now >= new Date(row.window_start) && now < new Date(row.window_end)) {
-      const waiting = await deps.db.selectFrom('permit_operators').select('user_id').where('revision_id', '=', row.revision_id).where('briefed_at', 'is', null).execute();
-      if (waiting.length === 0) {
-        await transition(deps, row.id, 'start', scheduleActor, { version: row.version });
-        return 'started';
-      }
-    }
-  } catch (err) {
-    if (!lostRace(err)) throw err;
-  }
-  return null;
 }
 
 /**

@@ -7,9 +7,9 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { SIX_PROFILE_TOP, SIX_RESULT, sixRequest } from '../engineering/test-fixtures';
+import { SIX_PROFILE_TOP, SIX_RESULT, sixRequest } from '@shared/engineering/test-fixtures';
 
-const root = resolve(__dirname, '../..');
+const root = resolve(__dirname, '../../..');
 const tsx = join(root, 'node_modules/.bin/tsx');
 const dir = mkdtempSync(join(tmpdir(), 'brink-calc-'));
 
