@@ -1,7 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { permitActions, permitStatuses } from '@shared/schemas/permits';
 import { allowedTransitions, needsReason, roleFor, signedActions } from './expected-transitions';
-import { DEMO_PASSWORD, startTestApp, type TestApp } from './helpers';
+import { DEMO_PASSWORD, demo, startTestApp, type TestApp } from './helpers';
+import { transition } from '../src/services/permits/machine';
 import { act, createPermit, excavatorAt, forceStatus, makeWorld, newTrench, permitBody, submitAndApprove, trenchBeside, version, type PermitWorld } from './permits-fixtures';
 
 let t: TestApp;
@@ -334,4 +335,29 @@ it('makes new permit numbers per site in order', async () => {
 it('refuses a request from someone who is not a supervisor on the site', async () => {
   expect((await w.agents.coordinator.post('/api/permits').send(permitBody(w))).status).toBe(403);
   expect((await w.agents.outsider.post('/api/permits').send(permitBody(w))).status).toBe(403);
+});
+
+describe('drafts', () => {
+  it('need a description and an excavation before they are created, each named as the form labels it', async () => {
+    const r = await w.agents.supervisor.post('/api/permits').send(permitBody(w, { description: '   ', excavationIds: [] }));
+    expect(r.status).toBe(400);
+    expect(r.body.error.fields.description).toMatch(/is required/);
+    expect(r.body.error.fields.excavationIds).toMatch(/at least one excavation/);
+    const long = await w.agents.supervisor.post('/api/permits').send(permitBody(w, { description: 'x'.repeat(1001) }));
+    expect(long.body.error.fields.description).toBe('must be at most 1000 characters');
+  });
+
+  it('withdrawn before ever being sent for review, tell nobody; withdrawn after, tell the coordinators', async () => {
+    const supervisor = await t.deps.db.selectFrom('users').select(['id', 'name']).where('id', '=', w.supervisorId).executeTakeFirstOrThrow();
+    const actor = { kind: 'user' as const, id: supervisor.id, name: supervisor.name };
+    const never = await createPermit(w);
+    const quiet = await transition(t.deps, never.id, 'withdraw', actor, { version: never.version });
+    expect(quiet.to).toBe('withdrawn');
+    expect(quiet.notified).toEqual([]);
+    const sent = await createPermit(w);
+    const s = await act(w.agents.supervisor, sent.id, { action: 'submit', version: sent.version });
+    expect(s.status).toBe(200);
+    const told = await transition(t.deps, sent.id, 'withdraw', actor, { version: s.body.permit.version });
+    expect(told.notified).toEqual(expect.arrayContaining([demo.coordinator, w.coordinator2Email]));
+  });
 });

@@ -243,7 +243,7 @@ const when = z.iso.datetime({ offset: true, message: 'must be a date and time (I
 const ids = (most: number) => z.array(z.number().int().positive()).max(most, `must list at most ${most}`);
 
 const contentShape = {
-  description: z.string().trim().max(4000, 'must be at most 4000 characters').default(''),
+  description: z.string({ error: 'is required: say what the work is' }).trim().min(1, 'is required: say what the work is').max(1000, 'must be at most 1000 characters'),
   windowStart: when,
   windowEnd: when,
   excavationIds: ids(20).default([]),
@@ -268,7 +268,7 @@ function uniqueLoadIds(v: { loads?: { id: string }[] }, ctx: z.RefinementCtx): v
 }
 
 export const permitCreateSchema = z
-  .object({ siteId: z.number().int().positive(), kind: z.enum(permitKinds), ...contentShape })
+  .object({ siteId: z.number().int().positive(), kind: z.enum(permitKinds), ...contentShape, excavationIds: ids(20).min(1, 'must name at least one excavation: choose the excavation the work is beside') })
   .superRefine(windowOrder)
   .superRefine(uniqueLoadIds);
 export type PermitCreate = z.infer<typeof permitCreateSchema>;

@@ -290,7 +290,9 @@ export async function transition(
     const outcome: TransitionOutcome = { permitId: p.id, from: p.status, to, version: updated.version, revision: newRevision, notified: [] };
     // The notices are queued in this transaction: they exist if and only if the transition does.
     const inTrx = { ...deps, db: trx };
-    outcome.notified = await notifyTransition(inTrx, action, {
+    // A draft withdrawn before it was ever sent for review concerned nobody but its author: no notice.
+    const neverSent = action === 'withdraw' && p.status === 'draft' && !(await trx.selectFrom('permit_events').select('id').where('permit_id', '=', p.id).where('action', '=', 'submit').executeTakeFirst());
+    if (!neverSent) outcome.notified = await notifyTransition(inTrx, action, {
       permitId: p.id,
       number: p.number,
       siteName: site.name,
