@@ -30,7 +30,7 @@ export const markKeptCopy = {
 
 /**
  * The installable phone app and its service worker (client/src/features/field registers it; see
- * DEVELOPERS.md, "Field view offline"). The worker precaches the app shell, answers every page
+ * docs/phone-offline.md). The worker precaches the app shell, answers every page
  * address with index.html when there is no signal, and keeps the answers of the field view's API
  * calls: network first, the last good copy when the network fails or is too slow.
  */

@@ -4,7 +4,7 @@ import type { Kept } from '../api/kept';
 /**
  * A shown copy older than this (ms) of a permit in force is "possibly out of date" (decided: 5 min;
  * the page asks the server every minute, so a copy this old means several tries failed, and a
- * suspension must not stay unseen for long). See DEVELOPERS.md, "Where an answer came from".
+ * suspension must not stay unseen for long). See docs/phone-offline.md, "Where an answer came from".
  */
 export const STALE_AFTER_MS = 5 * 60_000;
 
