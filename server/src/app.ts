@@ -111,16 +111,8 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
     next();
   });
   app.use('/api', express.json({ limit: '2mb' }));
-  // Who is signed in: the session holds only the id; the person is read fresh on every request,
-  // so a deactivated account stops at once.
-  app.use('/api', async (req, _res, next) => {
-    const id = req.session?.userId;
-    if (id) {
-      const u = await db.selectFrom('users').select(['id', 'email', 'name', 'is_admin', 'active']).where('id', '=', id).executeTakeFirst();
-      if (u && u.active) req.user = { id: u.id, email: u.email, name: u.name, isAdmin: u.is_admin };
-    }
-    next();
-  });
+  // Who is signed in: the session holds only the id; the guard of each route (Api.route in http.ts)
+  // reads the person fresh, with the site and membership the route needs, in one query.
 
   const api = new Api(deps);
   registerSystemRoutes(api);

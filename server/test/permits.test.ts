@@ -152,6 +152,11 @@ describe('the cumulative check', () => {
       [beside.id, false],
     ]);
     expect(r.body.check.warnings).toEqual(expect.arrayContaining([expect.stringContaining(`${beside.reference} is not named on this permit`)]));
+    // The answer leaves out the pressure profiles (the stored check keeps them for the permit page).
+    expect(r.body.check.excavations[0].result).toMatchObject({ passes: expect.any(Boolean) });
+    expect(r.body.check.excavations[0].result).not.toHaveProperty('profile');
+    const stored = await w.agents.supervisor.get(`/api/permits/${p.id}`);
+    expect(stored.body.permit.current.check.excavations[0].result.profile.length).toBeGreaterThan(10);
     // It cannot go for review until the reached excavation is named too.
     const submit = await act(w.agents.supervisor, p.id, { action: 'submit', version: p.version });
     expect(submit.status).toBe(400);

@@ -3,11 +3,10 @@ import { z } from 'zod';
 import type { Request } from 'express';
 import { idSchema } from '@shared/schemas/common';
 import { CONCERN_PHOTOS_MAX, concernFormSchema, idempotencyKeySchema, type FieldPermitAnswer, type FieldPermitsAnswer } from '@shared/schemas/field';
-import { Api, badRequest, conflict, notFound, parseOr400 } from '../http';
+import { Api, badRequest, conflict, notFound, parseOr400, siteOfRow } from '../http';
 import { notice } from '../mail/mailer';
 import { audit } from '../services/audit';
 import { concernOut, concernQuery, concernRecipients, loadFieldPermit, permitNamesExcavation, permitsNaming } from '../services/field';
-import { siteOfPermit } from '../services/permits/read';
 import { pushConcern } from '../services/permits/push';
 import { filesOf, limits, receiveFiles, storeUpload } from '../services/uploads';
 
@@ -32,7 +31,7 @@ function idempotencyKeyOf(req: Request, fromBody: string | undefined): string | 
  */
 export function registerFieldRoutes(api: Api): void {
   const { db } = api.deps;
-  const permitSite = (req: Request) => siteOfPermit(db, Number(req.params.id));
+  const permitSite = siteOfRow('permits');
   const concernByKey = (key: string) => concernQuery(db).where('c.idempotency_key', '=', key).executeTakeFirst();
 
   api.route(

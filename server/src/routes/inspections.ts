@@ -1,10 +1,9 @@
-import type { Request } from 'express';
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
 import { MAX_PHOTOS, answerLabels, checklist, inspectionInputSchema, outcomeLabels, reasonLabels, shiftsInputSchema, weekQuerySchema } from '@shared/schemas/inspections';
 import { isoWeekAt, isoWeekRange, siteTimestamp } from '@shared/time/shifts';
 import { toCsv } from '@shared/csv';
-import { Api, badRequest, parseOr400, siteFromParam } from '../http';
+import { Api, badRequest, parseOr400, siteFromParam, siteOfRow } from '../http';
 import { filesOf, limits, receiveFiles } from '../services/uploads';
 import {
   inspectionStates,
@@ -15,7 +14,6 @@ import {
   setSiteShifts,
   shiftOut,
   siteClock,
-  siteOfExcavation,
   type SiteClock,
 } from '../services/inspections';
 import { weeklyReportPdf } from '../services/inspection-report';
@@ -26,7 +24,7 @@ const siteParams = z.object({ siteId: idSchema });
 /** Excavation inspections: the record, the shift clock, overdue lists, CSV and the weekly PDF. */
 export function registerInspectionRoutes(api: Api): void {
   const { db } = api.deps;
-  const excavationSite = (req: Request) => siteOfExcavation(db, Number(req.params.id));
+  const excavationSite = siteOfRow('excavations');
   /** Any member of the site (and administrators) may read the record. */
   const readSite = { kind: 'site', roles: 'any', admin: true, siteId: siteFromParam } as const;
   const readExcavation = { ...readSite, siteId: excavationSite };

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import type { Request, Response } from 'express';
+import type { Response } from 'express';
 import { idSchema, type SiteRole } from '@shared/schemas/common';
 import {
   attachmentFormSchema,
@@ -13,16 +13,16 @@ import {
   transitionSchema,
   type PermitStatus,
 } from '@shared/schemas/permits';
-import { Api, badRequest, conflict, forbidden, HttpError, notFound, siteFromParam } from '../http';
+import { Api, badRequest, conflict, forbidden, HttpError, notFound, siteFromParam, siteOfRow } from '../http';
 import { audit } from '../services/audit';
 import { filesOf, limits, receiveFiles, sendUpload, storeUpload } from '../services/uploads';
 import { userActor } from '../services/permits/actors';
 import { confirmBriefing } from '../services/permits/briefing';
-import { checkProposal, ensureChecked } from '../services/permits/check';
+import { checkProposal, ensureChecked, withoutProfiles } from '../services/permits/check';
 import { assertMayAct, StaleError, transition, WrongPasswordError } from '../services/permits/machine';
 import { endSessionsOf } from '../services/people';
 import { permitPdf } from '../services/permits/pdf';
-import { listPermits, loadDetail, loadRevision, siteOfPermit } from '../services/permits/read';
+import { listPermits, loadDetail, loadRevision } from '../services/permits/read';
 import { addComment, createPermit, updatePermit } from '../services/permits/write';
 
 const idParams = z.object({ id: idSchema });
@@ -38,7 +38,7 @@ const attachmentParams = z.object({ id: idSchema, attachmentId: idSchema });
 export function registerPermitRoutes(api: Api): void {
   const { db } = api.deps;
   const { decisionPassword } = api.throttles;
-  const permitSite = (req: Request) => siteOfPermit(db, Number(req.params.id));
+  const permitSite = siteOfRow('permits');
   const members = { kind: 'site', roles: 'any', admin: true, siteId: permitSite } as const;
 
   /** Runs a change and answers with the permit as it now is; on a stale version, 409 with the permit too. */
@@ -161,13 +161,13 @@ export function registerPermitRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/permits/:id/check',
-      summary: 'Run the cumulative check: the engine result per excavation, with the other permits counted. With a body, checks those changes without saving them',
+      summary: 'Run the cumulative check: the engine result per excavation, with the other permits counted. With a body, checks those changes without saving them. The pressure profiles are left out (the stored check on the permit has them)',
       tag: 'Permits',
       access: { ...members, roles: ['supervisor', 'coordinator'] },
       params: idParams,
       body: checkProposalSchema,
     },
-    async ({ params, body, deps }) => ({ check: await checkProposal(db, params.id, body, deps.now()) }),
+    async ({ params, body, deps }) => ({ check: withoutProfiles(await checkProposal(db, params.id, body, deps.now())) }),
   );
 
   api.route(

@@ -1,11 +1,10 @@
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
-import { Api } from '../http';
+import { Api, siteOfRow } from '../http';
 import { sendUpload } from '../services/uploads';
 
 /** Any stored file, to members of its site (and administrators); files kept outside the web root. */
 export function registerUploadRoutes(api: Api): void {
-  const { db } = api.deps;
   api.route(
     {
       method: 'get',
@@ -16,12 +15,7 @@ export function registerUploadRoutes(api: Api): void {
         kind: 'site',
         roles: 'any',
         admin: true,
-        siteId: async (req) => {
-          const id = Number(req.params.id);
-          if (!Number.isInteger(id) || id <= 0) return null;
-          const row = await db.selectFrom('uploads').select('site_id').where('id', '=', id).executeTakeFirst();
-          return row?.site_id ?? null;
-        },
+        siteId: siteOfRow('uploads'),
       },
       params: z.object({ id: idSchema }),
       produces: 'application/octet-stream',

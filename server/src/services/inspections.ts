@@ -155,13 +155,6 @@ export async function loadExcavation(db: Db, id: number): Promise<ExcavationRow>
   return e;
 }
 
-/** The site of an excavation (for access rules), or null when there is no such excavation. */
-export async function siteOfExcavation(db: Db, id: number): Promise<number | null> {
-  if (!Number.isInteger(id) || id <= 0) return null;
-  const e = await db.selectFrom('excavations').select('site_id').where('id', '=', id).executeTakeFirst();
-  return e?.site_id ?? null;
-}
-
 /** How far back an inspection may be dated when it is recorded late. */
 export const BACKDATE_HOURS = 12;
 

@@ -1,4 +1,5 @@
 import { sql } from 'kysely';
+import { jsonArrayFrom, jsonObjectFrom } from 'kysely/helpers/postgres';
 import type { Db } from '@db/database';
 import type { Polygon } from 'geojson';
 import { runCheck } from '@shared/engineering';
@@ -49,9 +50,15 @@ export async function plantFor(
   const frozen = new Map([...known, ...(snapshot ? machinesOf(snapshot) : [])]);
   const ids = plantIdsOf(loads).filter((id) => !frozen.has(id));
   if (!ids.length) return frozen;
-  const rows = await db.selectFrom('plant_items').select(['id', 'name', 'operating_mass', 'design_factor', 'elements']).where('id', 'in', ids).execute();
-  for (const r of rows) frozen.set(r.id, { id: r.id, name: r.name, operatingMass: r.operating_mass, designFactor: r.design_factor, elements: r.elements });
-  return frozen;
+  return addPlant(frozen, await db.selectFrom('plant_items').select(['id', 'name', 'operating_mass', 'design_factor', 'elements']).where('id', 'in', ids).execute());
+}
+
+function addPlant(
+  into: Map<number, PlantForCheck>,
+  rows: { id: number; name: string; operating_mass: number; design_factor: number; elements: PlantForCheck['elements'] }[],
+): Map<number, PlantForCheck> {
+  for (const r of rows) into.set(r.id, { id: r.id, name: r.name, operatingMass: r.operating_mass, designFactor: r.design_factor, elements: r.elements });
+  return into;
 }
 
 /** The machines of a snapshot as the check takes them. */
@@ -108,6 +115,10 @@ export async function overlappingPermits(
   opts: { withOpen?: boolean } = {},
 ): Promise<(OtherPermit & { plantSnapshot: PlantSnapshot | null })[]> {
   if (!excavationIds.length && !opts.withOpen) return [];
+  return (await overlappingQuery(db, siteId, exceptPermitId, excavationIds, window, opts).execute()).map(otherPermitOf);
+}
+
+function overlappingQuery(db: Db, siteId: number, exceptPermitId: number | null, excavationIds: number[], window: { start: Date; end: Date }, opts: { withOpen?: boolean }) {
   // withOpen: the site's open excavations count too (found in the same query).
   const named = sql`${sql.val(excavationIds)}::int[]`;
   const ids = opts.withOpen ? sql`(${named} || array(select e.id from excavations e where e.site_id = ${siteId} and e.state = 'open'))` : named;
@@ -119,8 +130,21 @@ export async function overlappingPermits(
     .where('r.window_start', '<', window.end)
     .where('r.window_end', '>', window.start);
   if (exceptPermitId !== null) q = q.where('p.id', '!=', exceptPermitId);
-  const rows = await q.orderBy('p.seq').execute();
-  return rows.map((r) => ({
+  return q.orderBy('p.seq');
+}
+
+/** A row of `overlappingQuery` (timestamps as Date, or as text when read through JSON). */
+function otherPermitOf(r: {
+  id: number;
+  number: string;
+  status: PermitStatus;
+  window_start: Date | string;
+  window_end: Date | string;
+  excavation_ids: number[];
+  loads: unknown;
+  plant_snapshot: unknown;
+}): OtherPermit & { plantSnapshot: PlantSnapshot | null } {
+  return {
     id: r.id,
     number: r.number,
     status: r.status,
@@ -129,22 +153,26 @@ export async function overlappingPermits(
     excavationIds: r.excavation_ids,
     loads: r.loads as PlacedLoad[],
     plantSnapshot: r.plant_snapshot as PlantSnapshot | null,
-  }));
+  };
 }
 
 /**
  * The site's excavations as the check takes them (the named ones, and every open one), with their
  * stored ground outlines: only the columns the check reads, in one query.
  */
-async function checkExcavationRows(db: Db, siteId: number, named: number[]): Promise<(CheckExcavation & { state: string })[]> {
-  const rows = await db
+function checkExcavationQuery(db: Db, siteId: number, named: number[]) {
+  return db
     .selectFrom('excavations')
     .select(['id', 'reference', 'name', 'kind', 'geometry', 'width', 'soil', 'state', 'outline', 'depth', 'groundwater_depth', 'design_surcharge', 'rated_pressure', 'pressure_state', 'wall_friction', 'restraint'])
     .where('site_id', '=', siteId)
     .where((eb) => (named.length ? eb.or([eb('state', '=', 'open'), eb('id', 'in', named)]) : eb('state', '=', 'open')))
-    .orderBy('reference')
-    .execute();
-  return rows.map((r) => ({
+    .orderBy('reference');
+}
+
+type CheckExcavationRow = Awaited<ReturnType<ReturnType<typeof checkExcavationQuery>['execute']>>[number];
+
+function checkExcavationRowOf(r: CheckExcavationRow): CheckExcavation & { state: string } {
+  return {
     state: r.state,
     ...checkExcavationOf({
       id: r.id,
@@ -163,7 +191,7 @@ async function checkExcavationRows(db: Db, siteId: number, named: number[]): Pro
       wallFriction: r.wall_friction,
       restraint: r.restraint,
     }),
-  }));
+  };
 }
 
 /**
@@ -205,8 +233,6 @@ export interface CheckSubject {
   method: 'dispersion-45' | 'elastic';
   /** The machines frozen when the permit was sent for review (null: the library as it is now). */
   plantSnapshot: PlantSnapshot | null;
-  /** The site's origin and clearance when already read (else read by the check). */
-  site?: { latitude: number; longitude: number; minimum_clearance: number };
 }
 
 /**
@@ -215,16 +241,37 @@ export interface CheckSubject {
  * calculation refuses (docs/calculation.md, "Refusals") answer 400 naming the field.
  */
 export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promise<PermitCheck> {
-  // One round of queries side by side (the site, the excavations, the other permits, this permit's
-  // machines), then the library's machines of other permits only if some are still missing.
-  // The named excavations are checked; every other open one when a load reaches it (passed over
+  // One query (one round trip): the site's excavations the check takes (the named ones and every
+  // open one, with stored outlines), the other permits that may count, this permit's machines and
+  // the site's origin and clearance. The library's machines of other permits follow only if some are
+  // still missing. Every other open excavation is checked when a load reaches it (passed over
   // cheaply by its stored outline when no load comes near it).
-  const [site, all, candidates, ownPlant] = await Promise.all([
-    s.site ?? db.selectFrom('sites').select(['latitude', 'longitude', 'minimum_clearance']).where('id', '=', s.siteId).executeTakeFirstOrThrow(),
-    checkExcavationRows(db, s.siteId, s.excavationIds),
-    overlappingPermits(db, s.siteId, s.permitId, s.excavationIds, { start: s.windowStart, end: s.windowEnd }, { withOpen: true }),
-    plantFor(db, s.loads, s.plantSnapshot),
-  ]);
+  const ownIds = plantIdsOf(s.loads).filter((id) => !s.plantSnapshot?.machines.some((m) => m.id === id));
+  const othersQuery = overlappingQuery(db, s.siteId, s.permitId, s.excavationIds, { start: s.windowStart, end: s.windowEnd }, { withOpen: true });
+  const read = await db
+    .selectNoFrom(() => [
+      jsonArrayFrom(checkExcavationQuery(db, s.siteId, s.excavationIds)).as('excavations'),
+      jsonArrayFrom(othersQuery).as('others'),
+      // The library's machines that this permit's loads and the other permits' loads name.
+      jsonArrayFrom(
+        db
+          .selectFrom('plant_items')
+          .select(['id', 'name', 'operating_mass', 'design_factor', 'elements'])
+          .where((eb) =>
+            eb.or([
+              eb('id', 'in', ownIds.length ? ownIds : [0]),
+              sql<boolean>`id in (select (l->>'plantItemId')::int from (${othersQuery}) o, jsonb_array_elements(o.loads) l where l->>'kind' = 'plant')`,
+            ]),
+          ),
+      ).as('plant'),
+      jsonObjectFrom(db.selectFrom('sites').select(['latitude', 'longitude', 'minimum_clearance']).where('id', '=', s.siteId)).as('site'),
+    ])
+    .executeTakeFirstOrThrow();
+  const site = read.site;
+  if (!site) throw notFound('That site');
+  const all = read.excavations.map(checkExcavationRowOf);
+  const candidates = read.others.map(otherPermitOf);
+  const ownPlant = addPlant(s.plantSnapshot ? machinesOf(s.plantSnapshot) : new Map(), read.plant);
   const excavations = s.excavationIds.flatMap((id) => all.filter((e) => e.id === id));
   const nearby = all.filter((e) => e.state === 'open' && !s.excavationIds.includes(e.id));
   // Each permit's loads with its own machines: frozen from review on, the library's for the rest.
@@ -264,9 +311,7 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
 
 async function subjectOf(db: Db, permitId: number): Promise<{ subject: CheckSubject; revisionId: number; status: PermitStatus }> {
   const r = await withCurrentRevision(db)
-    .innerJoin('sites as s', 's.id', 'p.site_id')
     .select(['p.id', 'p.site_id', 'p.number', 'p.status', 'r.id as revision_id', 'r.window_start', 'r.window_end', 'r.excavation_ids', 'r.loads', 'r.method', 'r.plant_snapshot'])
-    .select(['s.latitude', 's.longitude', 's.minimum_clearance'])
     .where('p.id', '=', permitId)
     .executeTakeFirst();
   if (!r) throw notFound('That permit');
@@ -284,7 +329,6 @@ async function subjectOf(db: Db, permitId: number): Promise<{ subject: CheckSubj
       method: r.method,
       // A draft or returned request is checked with the library as it is; from review on, with its frozen machines.
       plantSnapshot: editableStatuses.includes(r.status) ? null : (r.plant_snapshot as PlantSnapshot | null),
-      site: { latitude: r.latitude, longitude: r.longitude, minimum_clearance: r.minimum_clearance },
     },
   };
 }
@@ -324,6 +368,15 @@ export async function keepCheck(db: Db, s: StoredCheck, now: Date): Promise<void
     .set({ check_result: JSON.stringify(s.check), checked_at: now, excavation_snapshot: JSON.stringify(inputs) })
     .where('id', '=', s.revisionId)
     .execute();
+}
+
+/**
+ * A check as answered to POST /api/permits/:id/check: without the pressure profile of each
+ * excavation (a row every 0.05 m, most of the answer's bytes). The placing page reads only the
+ * other permits and figures from it; the permit page draws the profile from the stored check.
+ */
+export function withoutProfiles(check: PermitCheck): PermitCheck {
+  return { ...check, excavations: check.excavations.map(({ result: { profile: _profile, ...result }, ...e }) => ({ ...e, result })) };
 }
 
 /** Checks a proposal (unsaved changes over the saved permit) without keeping anything. */

@@ -232,9 +232,3 @@ export async function loadDetail(db: Db, id: number, viewer: { id: number; role:
   };
 }
 
-/** The site of a permit (for authorisation), or null when there is no such permit. */
-export async function siteOfPermit(db: Db, id: number): Promise<number | null> {
-  if (!Number.isInteger(id) || id <= 0) return null;
-  const r = await db.selectFrom('permits').select('site_id').where('id', '=', id).executeTakeFirst();
-  return r?.site_id ?? null;
-}
