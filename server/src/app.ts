@@ -32,7 +32,7 @@ export const SESSION_MAX_AGE_MS = 12 * 3600_000;
 export const SESSION_TOUCH_MS = 60_000;
 
 export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boolean } = {}): Express {
-  const { config, db } = deps;
+  const { config } = deps;
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
