@@ -5,6 +5,9 @@ export const siteRoles = ['supervisor', 'coordinator', 'operator'] as const;
 export const siteRoleSchema = z.enum(siteRoles);
 export type SiteRole = z.infer<typeof siteRoleSchema>;
 
+/** Where an excavation stands (declared here, not in ./excavations, so light modules can name it without the geometry). */
+export const excavationStates = ['planned', 'open', 'backfilled'] as const;
+
 export const roleLabels: Record<SiteRole, string> = {
   supervisor: 'Site supervisor',
   coordinator: 'Temporary works coordinator',

@@ -7,6 +7,7 @@
  * Units: metres, kPa, kN/m³, degrees.
  */
 import { z } from 'zod';
+import { excavationStates } from './common';
 import { lineString, polygon } from '@turf/helpers';
 import { kinks } from '@turf/kinks';
 import type { LineString, Polygon } from 'geojson';
@@ -18,7 +19,7 @@ export const excavationKinds = ['trench', 'pit'] as const;
 export type ExcavationKind = (typeof excavationKinds)[number];
 export const kindLabels: Record<ExcavationKind, string> = { trench: 'Trench', pit: 'Pit' };
 
-export const excavationStates = ['planned', 'open', 'backfilled'] as const;
+export { excavationStates };
 export type ExcavationState = (typeof excavationStates)[number];
 export const stateLabels: Record<ExcavationState, string> = { planned: 'Planned', open: 'Open', backfilled: 'Backfilled' };
 

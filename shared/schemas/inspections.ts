@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { isoWeekPattern } from '../time/shifts';
+import { excavationStates } from './common';
 
 /**
  * Excavation inspections: the checklist, the form's schema (shared by the phone form and the API),
@@ -128,29 +129,37 @@ export const inspectionInputSchema = z
 export type InspectionInput = z.input<typeof inspectionInputSchema>;
 export type InspectionData = z.output<typeof inspectionInputSchema>;
 
-export interface InspectionPhoto {
-  id: number;
-  url: string;
-  name: string;
-}
+export const inspectionPhotoAnswer = z.object({ id: z.number().int(), url: z.string(), name: z.string() });
+export type InspectionPhoto = z.output<typeof inspectionPhotoAnswer>;
 
-export interface Inspection {
-  id: number;
-  excavationId: number;
-  siteId: number;
-  inspector: { id: number; name: string };
-  inspectedAt: string;
-  recordedAt: string;
-  shift: { name: string; start: string };
-  reason: InspectionReason;
-  reasonDetail: string;
-  checklist: Record<ChecklistKey, { answer: CheckAnswer; note: string }>;
-  outcome: Outcome;
-  remarks: string;
-  photos: InspectionPhoto[];
+export const inspectionAnswer = z.object({
+  id: z.number().int(),
+  excavationId: z.number().int(),
+  siteId: z.number().int(),
+  inspector: z.object({ id: z.number().int(), name: z.string() }),
+  inspectedAt: z.iso.datetime(),
+  recordedAt: z.iso.datetime(),
+  shift: z.object({ name: z.string(), start: z.string() }),
+  reason: z.enum(inspectionReasons),
+  reasonDetail: z.string(),
+  checklist: checklistSchema,
+  outcome: z.enum(outcomes),
+  remarks: z.string(),
+  photos: z.array(inspectionPhotoAnswer),
   /** Permits this inspection suspended (a "not safe" outcome). */
-  suspendedPermits: { id: number; reference: string }[];
-}
+  suspendedPermits: z.array(z.object({ id: z.number().int(), reference: z.string() })),
+});
+export type Inspection = z.output<typeof inspectionAnswer>;
+
+/** What a recorded inspection did: permits suspended, those Brink could not suspend (the leads are told), who was told. */
+export const consequencesAnswer = z.object({
+  suspended: z.array(z.object({ id: z.number().int(), reference: z.string() })),
+  /** Live permits Brink could not suspend (e.g. changed at the same moment); the leads are told to act. */
+  notSuspended: z.array(z.object({ id: z.number().int(), reference: z.string(), why: z.string() })),
+  notified: z.array(z.string()),
+});
+export type Consequences = z.output<typeof consequencesAnswer>;
+export const recordedInspectionAnswer = z.object({ inspection: inspectionAnswer, consequences: consequencesAnswer.nullable() });
 
 /**
  * Where an open excavation stands this shift:
@@ -171,26 +180,31 @@ export const stateLabels: Record<InspectionState, string> = {
 /** Minutes after a shift starts before an uninspected excavation counts as overdue (and the e-mail goes). */
 export const GRACE_MINUTES = 30;
 
-export interface ExcavationInspectionState {
-  excavationId: number;
-  reference: string;
-  name: string;
-  state: InspectionState;
-  lastInspection: { id: number; at: string; outcome: Outcome; inspector: string } | null;
-  lastSafeAt: string | null;
-}
+export const excavationInspectionStateAnswer = z.object({
+  excavationId: z.number().int(),
+  reference: z.string(),
+  name: z.string(),
+  state: z.enum(inspectionStates),
+  lastInspection: z.object({ id: z.number().int(), at: z.iso.datetime(), outcome: z.enum(outcomes), inspector: z.string() }).nullable(),
+  lastSafeAt: z.iso.datetime().nullable(),
+});
+export type ExcavationInspectionState = z.output<typeof excavationInspectionStateAnswer>;
 
-export interface ShiftNow {
-  name: string;
-  start: string;
-  end: string;
-  overdueFrom: string;
-}
+export const shiftNowAnswer = z.object({ name: z.string(), start: z.iso.datetime(), end: z.iso.datetime(), overdueFrom: z.iso.datetime() });
+export type ShiftNow = z.output<typeof shiftNowAnswer>;
 
-export interface InspectionStatesAnswer {
-  shift: ShiftNow;
-  excavations: ExcavationInspectionState[];
-}
+export const inspectionStatesAnswer = z.object({ shift: shiftNowAnswer, excavations: z.array(excavationInspectionStateAnswer) });
+export type InspectionStatesAnswer = z.output<typeof inspectionStatesAnswer>;
+
+/** An excavation's inspections, newest first, with where it stands this shift. */
+export const excavationInspectionsAnswer = z.object({
+  excavation: z.object({ id: z.number().int(), siteId: z.number().int(), reference: z.string(), name: z.string(), state: z.enum(excavationStates) }),
+  shift: shiftNowAnswer,
+  timeZone: z.string(),
+  inspectionState: z.enum(inspectionStates).nullable(),
+  inspections: z.array(inspectionAnswer),
+});
+export type ExcavationInspections = z.output<typeof excavationInspectionsAnswer>;
 
 const timeOfDay = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'must be a time of day as HH:MM (24-hour)');
 export const shiftSchema = z.object({
@@ -215,3 +229,7 @@ export type ShiftsInput = z.input<typeof shiftsInputSchema>;
 export const weekQuerySchema = z.object({
   week: z.string().regex(isoWeekPattern, 'must be an ISO week such as 2026-W14').optional(),
 });
+
+/** A site's shifts, its time zone and the shift now. */
+export const shiftsAnswer = z.object({ timeZone: z.string(), shifts: z.array(z.object({ name: z.string(), start: timeOfDay })), current: shiftNowAnswer });
+export type ShiftsAnswer = z.output<typeof shiftsAnswer>;

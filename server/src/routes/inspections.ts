@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
-import { MAX_PHOTOS, answerLabels, checklist, inspectionInputSchema, outcomeLabels, reasonLabels, shiftsInputSchema, weekQuerySchema } from '@shared/schemas/inspections';
+import { MAX_PHOTOS, answerLabels, checklist, excavationInspectionsAnswer, inspectionInputSchema, inspectionStatesAnswer, outcomeLabels, reasonLabels, recordedInspectionAnswer, shiftsAnswer as shiftsAnswerSchema, shiftsInputSchema, weekQuerySchema } from '@shared/schemas/inspections';
 import { isoWeekAt, isoWeekRange, siteTimestamp } from '@shared/time/shifts';
 import { toCsv } from '@shared/csv';
 import { Api, badRequest, parseOr400, siteFromParam, siteOfRow } from '../http';
@@ -33,6 +33,7 @@ export function registerInspectionRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/excavations/:id/inspections',
+      response: recordedInspectionAnswer,
       summary:
         'Record an inspection of an open excavation. Send multipart/form-data with a field `inspection` holding the JSON of the form ' +
         `(see InspectionInput) and up to ${MAX_PHOTOS} files in \`photos\` (PNG or JPEG, 10 MB each), or send the JSON alone as application/json. ` +
@@ -58,6 +59,7 @@ export function registerInspectionRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/excavations/:id/inspections',
+      response: excavationInspectionsAnswer,
       summary: 'An excavation\u2019s inspections, newest first, with where it stands this shift',
       tag: 'Inspections',
       access: readExcavation,
@@ -112,6 +114,7 @@ export function registerInspectionRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/sites/:siteId/inspections/states',
+      response: inspectionStatesAnswer,
       summary: 'Where every open excavation of the site stands this shift: ok, due, overdue or unsafe (for the map, register and dashboards)',
       tag: 'Inspections',
       access: readSite,
@@ -127,6 +130,7 @@ export function registerInspectionRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/sites/:siteId/inspections/overdue',
+      response: inspectionStatesAnswer,
       summary: 'The open excavations still without a safe inspection this shift (due, overdue, or found not safe)',
       tag: 'Inspections',
       access: readSite,
@@ -164,6 +168,7 @@ export function registerInspectionRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/sites/:siteId/shifts',
+      response: shiftsAnswerSchema,
       summary: 'The site\u2019s shift start times (one day shift at 07:00 until set), its time zone and the current shift',
       tag: 'Inspections',
       access: readSite,
@@ -179,6 +184,7 @@ export function registerInspectionRoutes(api: Api): void {
     {
       method: 'put',
       path: '/api/sites/:siteId/shifts',
+      response: shiftsAnswerSchema,
       summary: 'Set the site\u2019s shift start times (coordinators and administrators)',
       tag: 'Inspections',
       access: { kind: 'site', roles: ['coordinator'], admin: true, siteId: siteFromParam },

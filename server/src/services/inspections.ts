@@ -9,6 +9,7 @@ import {
   type InspectionState,
   type InspectionStatesAnswer,
   type Outcome,
+  type Consequences,
 } from '@shared/schemas/inspections';
 import { DEFAULT_SHIFTS, currentShift, formatSiteTime, type ShiftDef, type ShiftSpan } from '@shared/time/shifts';
 import { notice } from '../mail/mailer';
@@ -326,12 +327,7 @@ export async function siteLeads(db: Db, siteId: number): Promise<{ email: string
 
 /* ---------------------------------------------------------------- consequences */
 
-export interface Consequences {
-  suspended: { id: number; reference: string }[];
-  /** Live permits Brink could not suspend (e.g. changed at the same moment); the leads are told to act. */
-  notSuspended: { id: number; reference: string; why: string }[];
-  notified: string[];
-}
+export type { Consequences };
 
 /**
  * What follows a recorded inspection. "Not safe": every live permit on the excavation is suspended

@@ -1,25 +1,11 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { Inspection, InspectionData, InspectionState, ShiftNow, ShiftsInput } from '@shared/schemas/inspections';
-import type { ShiftDef } from '@shared/time/shifts';
+import type { z } from 'zod';
+import type { ExcavationInspections, InspectionData, recordedInspectionAnswer, ShiftsAnswer, ShiftsInput } from '@shared/schemas/inspections';
 import { api, ApiError, errorFromResponse } from '@client/lib/api';
 import { inspectionStatesKey } from '@client/lib/inspectionStates';
 
-export interface ExcavationInspections {
-  excavation: { id: number; siteId: number; reference: string; name: string; state: 'planned' | 'open' | 'backfilled' };
-  shift: ShiftNow;
-  timeZone: string;
-  inspectionState: InspectionState | null;
-  inspections: Inspection[];
-}
-
-export interface RecordedInspection {
-  inspection: Inspection;
-  consequences: {
-    suspended: { id: number; reference: string }[];
-    notSuspended: { id: number; reference: string; why: string }[];
-    notified: string[];
-  } | null;
-}
+export type { ExcavationInspections, ShiftsAnswer };
+export type RecordedInspection = z.output<typeof recordedInspectionAnswer>;
 
 export const inspectionKeys = {
   excavation: (id: number) => ['inspections', 'excavation', id] as const,
@@ -65,11 +51,6 @@ export function useRecordInspection(siteId: number, excavationId: number) {
   });
 }
 
-export interface ShiftsAnswer {
-  timeZone: string;
-  shifts: ShiftDef[];
-  current: ShiftNow;
-}
 
 export function useShifts(siteId: number) {
   return useQuery({
