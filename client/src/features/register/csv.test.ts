@@ -51,8 +51,13 @@ describe('register CSV', () => {
 
   it('writes a header and one row per excavation with labels and units', () => {
     const lines = registerCsv([e]).split('\r\n');
-    expect(lines[0]).toMatch(/^Reference,Name,Kind,State,Depth \(m\),Width \(m\),Support,/);
-    expect(lines[1]).toBe('TR-07,"Drain, phase 2",Trench,Open,2.4,1.2,Hydraulic frames,10,,unyielding,,"0 m: γ 18, φ′ 27°; 0.5 m: γ 19.5, γsat 20, cu 50 kPa",TW-112 rev B,,,2026-03-02T07:30:00.000Z');
+    expect(lines[0]).toMatch(/^Reference,Name,Kind,State,Inspection this shift,Depth \(m\),Width \(m\),Support,/);
+    expect(lines[1]).toBe('TR-07,"Drain, phase 2",Trench,Open,,2.4,1.2,Hydraulic frames,10,,unyielding,,"0 m: γ 18, φ′ 27°; 0.5 m: γ 19.5, γsat 20, cu 50 kPa",TW-112 rev B,,,2026-03-02T07:30:00.000Z');
     expect(lines).toHaveLength(3);
+  });
+
+  it('has the inspection column the table has, in words', () => {
+    const [, row] = registerCsv([{ ...e, inspection: 'overdue' }]).split('\r\n');
+    expect(row).toContain(',Trench,Open,Inspection overdue,2.4,');
   });
 });

@@ -1,5 +1,6 @@
 import { toCsv } from '@shared/csv';
 import { kindLabels, stateLabels, supportLabels, type Excavation } from '@shared/schemas/excavations';
+import { stateLabels as inspectionLabels, type InspectionState } from '@shared/schemas/inspections';
 
 /** The soil layers in one line: "0 m: γ 18, φ′ 27°; 0.5 m: γ 19.5, cu 50 kPa". */
 export function soilSummary(soil: Excavation['soil']): string {
@@ -19,6 +20,7 @@ export const registerCsvHeader = [
   'Name',
   'Kind',
   'State',
+  'Inspection this shift',
   'Depth (m)',
   'Width (m)',
   'Support',
@@ -33,8 +35,8 @@ export const registerCsvHeader = [
   'Last changed',
 ];
 
-/** The register's rows as CSV, in the order given (the table's sorted and filtered order). */
-export function registerCsv(list: Excavation[]): string {
+/** The register's rows as CSV, in the order given (the table's sorted and filtered order), with the table's inspection column. */
+export function registerCsv(list: (Excavation & { inspection?: InspectionState })[]): string {
   return toCsv([
     registerCsvHeader,
     ...list.map((e) => [
@@ -42,6 +44,7 @@ export function registerCsv(list: Excavation[]): string {
       e.name,
       kindLabels[e.kind],
       stateLabels[e.state],
+      e.inspection ? inspectionLabels[e.inspection] : null,
       e.depth,
       e.width,
       supportLabels[e.supportType],

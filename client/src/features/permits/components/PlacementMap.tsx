@@ -184,7 +184,7 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
       <p className="px-3 py-2 text-sm text-ink-soft">
         North is up. Grey: excavations; dashed: influence zones (within the depth of the edge); red band: exclusion zone
         {standoff ? ` (${standoff.toFixed(2)} m from the edge)` : ''}.
-        {bands.length ? ' Orange bands: offsets where a load fails although it passes nearer the edge — moving a load farther away is not always safer.' : ''} Loads are coloured by the verdict (slate until checked). Drag “Move” to place a load, “Turn” to turn a machine.
+        {bands.length ? ' Orange bands: offsets where a load fails although it passes nearer the edge — moving a load farther away is not always safer.' : ''} Loads are coloured by the verdict (slate until checked).{editable ? ' Drag “Move” to place a load, “Turn” to turn a machine.' : ''}
       </p>
     </div>
   );
