@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { currentShift, isoWeekAt, isoWeekOfDate, isoWeekRange, offsetMinutes, shiftsBetween, siteTimestamp, zonedInstant } from './shifts';
+import { currentShift, isoWeekAt, isoWeekOfDate, isoWeekRange, offsetMinutes, shiftsBetween, siteTimestamp, zonedInstant, formatSiteTime } from './shifts';
 
 // Clock changes used below, from the published rules (not from this code):
 // - UK: summer time from 01:00 UTC on the last Sunday of March to 01:00 UTC on the last Sunday of
@@ -108,5 +108,20 @@ describe('ISO weeks', () => {
     expect(isoWeekRange('2020-W53', 'Europe/London')?.monday).toBe('2020-12-28');
     expect(isoWeekRange('2026-W00', 'Europe/London')).toBeNull();
     expect(isoWeekRange('2026-14', 'Europe/London')).toBeNull();
+  });
+});
+
+describe('site-time formatting (screens, e-mails, the printed permit)', () => {
+  it('shows an instant on the site’s clock, not the machine’s', () => {
+    // UK summer time is UTC+1 from the last Sunday in March (The Summer Time Act 1972, as amended).
+    expect(formatSiteTime('2026-06-16T06:10:00Z', 'Europe/London')).toBe('Tue, 16 Jun 2026, 07:10');
+    expect(formatSiteTime(new Date('2026-01-16T06:10:00Z'), 'Europe/London')).toBe('Fri, 16 Jan 2026, 06:10');
+    // Sydney keeps daylight time (UTC+11) in January (NSW Standard Time Act 1987).
+    expect(formatSiteTime('2026-01-16T06:10:05Z', 'Australia/Sydney', { seconds: true, zone: true })).toBe('Fri, 16 Jan 2026, 17:10:05 (Australia/Sydney)');
+  });
+
+  it('reads midnight as 00:00 (24-hour clock) and gives back text that is not a time', () => {
+    expect(formatSiteTime('2026-03-30T23:00:00Z', 'Europe/London')).toBe('Tue, 31 Mar 2026, 00:00');
+    expect(formatSiteTime('not a time', 'Europe/London')).toBe('not a time');
   });
 });

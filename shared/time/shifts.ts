@@ -192,19 +192,40 @@ export function isoWeekRange(week: string, timeZone: string): { from: Date; to: 
   };
 }
 
-/** "Mon 30 Mar 2026 07:00" on the site's clock, for e-mails, CSV and the PDF. */
-export function formatSiteTime(at: Date, timeZone: string, opts: { seconds?: boolean } = {}): string {
-  return new Intl.DateTimeFormat('en-GB', {
-    timeZone,
-    weekday: 'short',
-    day: 'numeric',
-    month: 'short',
-    year: 'numeric',
-    hour: '2-digit',
-    minute: '2-digit',
-    ...(opts.seconds ? { second: '2-digit' } : {}),
-    hourCycle: 'h23',
-  }).format(at);
+const siteFormatters = new Map<string, Intl.DateTimeFormat>();
+
+/**
+ * The one way Brink shows a time to people: "Mon, 30 Mar 2026, 07:00" on the site's clock (24 h), on
+ * screens, in e-mails, CSV and the PDFs. `zone: true` adds the zone's name, for text read away from
+ * the site (e-mails, the printed permit): "Mon, 30 Mar 2026, 07:00 (Europe/London)". A value that is
+ * not a time comes back as it is.
+ */
+export function formatSiteTime(at: Date | string, timeZone: string, opts: { seconds?: boolean; zone?: boolean } = {}): string {
+  const date = typeof at === 'string' ? new Date(at) : at;
+  if (Number.isNaN(date.getTime())) return String(at);
+  const key = `${timeZone}|${opts.seconds ? 's' : ''}`;
+  let f = siteFormatters.get(key);
+  if (!f) {
+    f = new Intl.DateTimeFormat('en-GB', {
+      timeZone,
+      weekday: 'short',
+      day: 'numeric',
+      month: 'short',
+      year: 'numeric',
+      hour: '2-digit',
+      minute: '2-digit',
+      ...(opts.seconds ? { second: '2-digit' } : {}),
+      hourCycle: 'h23',
+    });
+    siteFormatters.set(key, f);
+  }
+  const text = f.format(date);
+  return opts.zone ? `${text} (${timeZone})` : text;
+}
+
+/** The time zone of the device showing the page (for times that belong to no one site). */
+export function deviceTimeZone(): string {
+  return Intl.DateTimeFormat().resolvedOptions().timeZone || 'UTC';
 }
 
 /** "2026-03-30 07:00" on the site's clock (sortable, for CSV). */

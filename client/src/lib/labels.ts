@@ -1,3 +1,4 @@
+import { deviceTimeZone, formatSiteTime } from '@shared/time/shifts';
 import type { surchargeMethods } from '@shared/schemas/sites';
 
 /** How Brink names each way of spreading a surcharge onto the support. */
@@ -6,10 +7,7 @@ export const surchargeMethodLabels: Record<(typeof surchargeMethods)[number], st
   elastic: 'Elastic half-space (Boussinesq)',
 };
 
-const dateTime = new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short' });
-
-/** "3 Mar 2026, 07:30" in the browser's time zone; the text given when it is not a date. */
-export function formatDateTime(value: string): string {
-  const date = new Date(value);
-  return Number.isNaN(date.getTime()) ? value : dateTime.format(date);
+/** "Tue, 3 Mar 2026, 07:30" on the given clock (the device's when no site is known); the text given when it is not a date. */
+export function formatDateTime(value: string, timeZone: string = deviceTimeZone()): string {
+  return formatSiteTime(value, timeZone);
 }

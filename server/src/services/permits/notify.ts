@@ -2,6 +2,7 @@ import type { Db } from '@db/database';
 import { statusLabels, type PermitAction, type PermitStatus } from '@shared/schemas/permits';
 import type { Deps } from '../../deps';
 import { notice } from '../../mail/mailer';
+import { formatSiteTime } from '@shared/time/shifts';
 import { withCurrentRevision } from './read';
 
 /** Who must hear of a change: the person who asked for the permit, the site's coordinators, the operators it names. */
@@ -120,9 +121,6 @@ export const headline: Record<NoticeKind, string> = {
   recheck: 'fails after its excavation changed',
 };
 
-function when(d: Date): string {
-  return d.toISOString().replace('T', ' ').slice(0, 16) + ' UTC';
-}
 
 /**
  * Queues the e-mails of one transition through `deps.db` (the transition's own transaction): one
@@ -133,6 +131,12 @@ export async function notifyTransition(deps: Pick<Deps, 'db' | 'config' | 'maile
   const sent: string[] = [];
   const base = deps.config.publicUrl;
   const already = new Set<string>();
+  const { timezone } = await deps.db
+    .selectFrom('permits as p')
+    .innerJoin('sites as s', 's.id', 'p.site_id')
+    .select('s.timezone')
+    .where('p.id', '=', f.permitId)
+    .executeTakeFirstOrThrow();
   for (const audience of audiences[action]) {
     const to = (await recipients(deps.db, f.permitId, audience, action === 'reminder' ? null : f.actorId)).filter((e) => !already.has(e));
     if (to.length === 0) continue;
@@ -140,7 +144,7 @@ export async function notifyTransition(deps: Pick<Deps, 'db' | 'config' | 'maile
     const lines = [
       `Permit ${f.number} on ${f.siteName} ${headline[action]}${action === 'reminder' ? '' : ` (${f.actorName})`}.`,
       ...(f.description ? [`Work: ${f.description}`] : []),
-      `Window: ${when(f.windowStart)} to ${when(f.windowEnd)}. Status now: ${statusLabels[f.status]}.`,
+      `Window: ${formatSiteTime(f.windowStart, timezone)} to ${formatSiteTime(f.windowEnd, timezone, { zone: true })}. Status now: ${statusLabels[f.status]}.`,
       ...(f.reason ? [`${action === 'return' ? 'Comments' : 'Reason'}: ${f.reason}`] : []),
       ...(f.standoff != null ? [`Standoff: keep every load at least ${f.standoff.toFixed(2)} m from the excavation edge.`] : []),
       ...(f.conditions?.length ? [`Conditions: ${f.conditions.map((c, i) => `(${i + 1}) ${c}`).join(' ')}`] : []),

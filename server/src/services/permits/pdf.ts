@@ -16,6 +16,7 @@ import { attentionWarnings, bandsWords, failsBeyondPassing, type ProfilePoint } 
 import type { Deps } from '../../deps';
 import { notFound } from '../../http';
 import { CAUTION } from '@shared/caution';
+import { formatSiteTime } from '@shared/time/shifts';
 import type { CheckExcavation } from '@shared/permits/check';
 import { excavationsFor, plantFor } from './check';
 import { loadDetail } from './read';
@@ -54,14 +55,15 @@ export function t(s: string): string {
 
 const m2 = (x: number | null | undefined) => (x == null ? 'none' : `${x.toFixed(2)} m`);
 const kpa = (x: number) => `${x.toFixed(1)} kPa`;
-const when = (s: string | null) => (s ? s.replace('T', ' ').slice(0, 16) + ' UTC' : '-');
 
 /** The permit as a PDF (Buffer), with its number for the file name. `compress: false` keeps the text readable (tests). */
 export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: number, opts: { compress?: boolean } = {}): Promise<{ buffer: Buffer; number: string }> {
   const permit = await loadDetail(deps.db, permitId, { id: 0, role: null });
   if (!permit) throw notFound('That permit');
-  const site = await deps.db.selectFrom('sites').select(['name', 'latitude', 'longitude']).where('id', '=', permit.siteId).executeTakeFirstOrThrow();
+  const site = await deps.db.selectFrom('sites').select(['name', 'latitude', 'longitude', 'timezone']).where('id', '=', permit.siteId).executeTakeFirstOrThrow();
   const rev = permit.current;
+  // Times on the site's clock; the window names the zone once.
+  const when = (s: string | null) => (s ? formatSiteTime(s, site.timezone) : '-');
   const excavations = await excavationsFor(deps.db, permit.siteId, rev.excavationIds);
   const plant = await plantFor(deps.db, rev.loads, editableStatuses.includes(permit.status) ? null : rev.plantSnapshot);
   const qrUrl = `${deps.config.publicUrl}/field/permits/${permit.id}`;
@@ -90,7 +92,7 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
   doc.fontSize(9).fillColor(MUTED).text(t(`Operator's view: ${qrUrl}`), { width: width - 100 });
   doc.moveDown(0.5);
   doc.fillColor(INK).fontSize(10);
-  field(doc, 'Window', `${when(rev.windowStart)} to ${when(rev.windowEnd)}`);
+  field(doc, 'Window', `${when(rev.windowStart)} to ${when(rev.windowEnd)} (${site.timezone} time)`);
   field(doc, 'Requested by', permit.requestedBy.name);
   field(doc, 'Excavations', excavations.map((e) => `${e.reference} ${e.name} (${e.excavation.depth.toFixed(2)} m deep)`).join('; ') || 'none named');
   if (rev.description) field(doc, 'Work', rev.description);
@@ -129,7 +131,7 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
   for (const ex of check?.excavations ?? []) {
     doc.addPage();
     heading(doc, `Check beside ${ex.reference} ${ex.name}`);
-    sheet(doc, ex);
+    sheet(doc, ex, when);
     drawPressureDiagram(doc, ex.result.profile as ProfilePoint[], ex.depth);
   }
   if (!check) {
@@ -186,7 +188,7 @@ function field(doc: PDFKit.PDFDocument, label: string, value: string): void {
 }
 
 /** The calculation sheet's figures for one excavation. */
-function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck): void {
+function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | null) => string): void {
   const r = ex.result as unknown as {
     method: string;
     coefficients: { top: number; K: number }[];

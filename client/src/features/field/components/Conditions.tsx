@@ -1,3 +1,4 @@
+import { deviceTimeZone, formatSiteTime } from '@shared/time/shifts';
 import type { FieldPermit } from '@shared/schemas/field';
 import { metres2 } from '../lib/format';
 
@@ -34,7 +35,7 @@ export function Conditions({ permit }: { permit: FieldPermit }) {
       ) : null}
       {permit.decidedBy ? (
         <p className="text-lg">
-          Decided by {permit.decidedBy.name}, {new Date(permit.decidedBy.at).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}.
+          Decided by {permit.decidedBy.name}, {formatSiteTime(permit.decidedBy.at, deviceTimeZone())}.
         </p>
       ) : null}
       <p className="text-lg font-semibold" data-testid="caution">

@@ -1,3 +1,5 @@
+import { deviceTimeZone, formatSiteTime } from '@shared/time/shifts';
+
 /** An ISO time as the value of a datetime-local input (local time, minutes). */
 export function toLocalInput(iso: string): string {
   const d = new Date(iso);
@@ -10,8 +12,7 @@ export function fromLocalInput(value: string): string {
   return new Date(value).toISOString();
 }
 
-/** A time for reading: "Mon 3 Mar, 07:00". */
-export function when(iso: string | null): string {
-  if (!iso) return '—';
-  return new Date(iso).toLocaleString('en-GB', { weekday: 'short', day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' });
+/** A time for reading, on the site's clock when it is known: "Mon, 3 Mar 2026, 07:00" (shared/time formatSiteTime). */
+export function when(iso: string | null, timeZone: string = deviceTimeZone()): string {
+  return iso ? formatSiteTime(iso, timeZone) : '—';
 }

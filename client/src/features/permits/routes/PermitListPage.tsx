@@ -6,7 +6,7 @@ import { SelectField, TextField } from '@client/components/Fields';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
 import { parseId, roleOnSite, useMe } from '@client/lib/session';
-import { useExcavations, usePermitList } from '../api/permits';
+import { useExcavations, usePermitList, useSite } from '../api/permits';
 import { StatusLabel } from '../components/StatusLabel';
 import { VerdictBadge } from '../components/Verdict';
 import { fromLocalInput, when } from '../components/time';
@@ -23,6 +23,7 @@ const sortLabels: Record<(typeof permitSorts)[number], string> = {
 export function PermitListPage() {
   const siteId = parseId(useParams().siteId) ?? 0;
   const me = useMe();
+  const timeZone = useSite(siteId).data?.timezone;
   const role = me.data ? roleOnSite(me.data, siteId) : null;
   const [params, setParams] = useSearchParams();
   const view = (params.get('view') as PermitView) ?? (role === 'coordinator' ? 'review' : role === 'supervisor' ? 'mine' : 'all');
@@ -86,7 +87,7 @@ export function PermitListPage() {
                   <td className="p-2"><Link to={`/permits/${p.id}`}>{p.number}</Link>{p.revision > 1 ? ` (rev. ${p.revision})` : ''}</td>
                   <td className="p-2"><StatusLabel status={p.status} /></td>
                   <td className="p-2">{p.kind === 'dig' ? 'Dig: ' : ''}{p.description}</td>
-                  <td className="p-2">{when(p.windowStart)} – {when(p.windowEnd)}</td>
+                  <td className="p-2">{when(p.windowStart, timeZone)} – {when(p.windowEnd, timeZone)}</td>
                   <td className="p-2">{p.passes === null ? '—' : <VerdictBadge verdict={verdictOf(p.utilisation, p.passes)} utilisation={p.utilisation} />}</td>
                   <td className="p-2">{p.requestedBy.name}</td>
                 </tr>

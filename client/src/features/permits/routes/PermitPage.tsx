@@ -41,6 +41,7 @@ export function PermitPage() {
 function PermitView({ permit }: { permit: PermitDetail }) {
   const rev = permit.current;
   const site = useSite(permit.siteId);
+  const at = (iso: string | null) => when(iso, site.data?.timezone);
   const excavations = useExcavations(permit.siteId);
   const plantQ = usePlant();
   const proj = useMemo(() => (site.data ? localProjection([site.data.longitude, site.data.latitude]) : null), [site.data]);
@@ -74,7 +75,7 @@ function PermitView({ permit }: { permit: PermitDetail }) {
         </p>
         <dl className="grid gap-x-6 gap-y-1 sm:grid-cols-[max-content_1fr]">
           <dt className="font-semibold">Window</dt>
-          <dd>{when(rev.windowStart)} to {when(rev.windowEnd)}</dd>
+          <dd>{at(rev.windowStart)} to {at(rev.windowEnd)}</dd>
           <dt className="font-semibold">Work</dt>
           <dd>{rev.description || '—'}</dd>
           <dt className="font-semibold">Requested by</dt>
@@ -84,7 +85,7 @@ function PermitView({ permit }: { permit: PermitDetail }) {
           <dt className="font-semibold">Operators</dt>
           <dd>
             {rev.operators.length
-              ? rev.operators.map((o) => `${o.name} (${o.briefedAt ? `briefed ${when(o.briefedAt)}` : 'not yet briefed'})`).join('; ')
+              ? rev.operators.map((o) => `${o.name} (${o.briefedAt ? `briefed ${at(o.briefedAt)}` : 'not yet briefed'})`).join('; ')
               : 'None named'}
           </dd>
         </dl>
@@ -99,7 +100,7 @@ function PermitView({ permit }: { permit: PermitDetail }) {
               const c = rev.dig!.servicesChecks[k];
               return (
                 <li key={k}>
-                  {serviceCheckLabels[k]}: {c.state === 'done' ? `done by ${c.by}, ${when(c.at)}` : c.state === 'not-needed' ? `not needed (${c.notes})` : 'not done yet'}
+                  {serviceCheckLabels[k]}: {c.state === 'done' ? `done by ${c.by}, ${at(c.at)}` : c.state === 'not-needed' ? `not needed (${c.notes})` : 'not done yet'}
                   {c.state === 'done' && c.notes ? ` – ${c.notes}` : ''}
                 </li>
               );
@@ -115,10 +116,10 @@ function PermitView({ permit }: { permit: PermitDetail }) {
       <Panel title="Calculation sheet">
         {rev.check ? (
           <>
-            <p className="text-sm text-ink-soft">Checked {when(rev.checkedAt)}; the server checks again at every save, submission and decision, and whenever a named excavation changes.</p>
+            <p className="text-sm text-ink-soft">Checked {at(rev.checkedAt)}; the server checks again at every save, submission and decision, and whenever a named excavation changes.</p>
             {rev.plantSnapshot && !editable && rev.plantSnapshot.machines.length ? (
               <p className="text-sm" data-testid="computed-with">
-                Computed with {rev.plantSnapshot.machines.map((m) => m.name).join(', ')} as of {when(rev.plantSnapshot.takenAt)} (frozen when the request was sent for review; later changes to the plant library apply to new requests only).
+                Computed with {rev.plantSnapshot.machines.map((m) => m.name).join(', ')} as of {at(rev.plantSnapshot.takenAt)} (frozen when the request was sent for review; later changes to the plant library apply to new requests only).
               </p>
             ) : null}
             <CheckSheets check={rev.check} />
@@ -130,9 +131,9 @@ function PermitView({ permit }: { permit: PermitDetail }) {
           </>
         )}
       </Panel>
-      <Attachments permit={permit} />
-      <Timeline permit={permit} />
-      <Revisions permit={permit} />
+      <Attachments permit={permit} at={at} />
+      <Timeline permit={permit} at={at} />
+      <Revisions permit={permit} at={at} />
     </Page>
   );
 }
@@ -262,7 +263,7 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
   );
 }
 
-function Attachments({ permit }: { permit: PermitDetail }) {
+function Attachments({ permit, at }: { permit: PermitDetail; at: (iso: string | null) => string }) {
   const attach = useAttach(permit.id);
   const [kind, setKind] = useState<string>('method-statement');
   const [file, setFile] = useState<File | null>(null);
@@ -272,7 +273,7 @@ function Attachments({ permit }: { permit: PermitDetail }) {
         <ul>
           {permit.attachments.map((a) => (
             <li key={a.id}>
-              <a href={a.url}>{a.name}</a> – {attachmentKindLabels[a.kind]}, {(a.size / 1024).toFixed(0)} KB, added by {a.addedBy} {when(a.addedAt)} (revision {a.revision})
+              <a href={a.url}>{a.name}</a> – {attachmentKindLabels[a.kind]}, {(a.size / 1024).toFixed(0)} KB, added by {a.addedBy} {at(a.addedAt)} (revision {a.revision})
             </li>
           ))}
         </ul>
@@ -300,7 +301,7 @@ const actionWords: Record<string, string> = {
   ...Object.fromEntries(Object.entries(transitionRules).map(([k, r]) => [k, r.label.toLowerCase()])),
 };
 
-function Timeline({ permit }: { permit: PermitDetail }) {
+function Timeline({ permit, at }: { permit: PermitDetail; at: (iso: string | null) => string }) {
   const comment = useComment(permit.id);
   const [text, setText] = useState('');
   return (
@@ -310,7 +311,7 @@ function Timeline({ permit }: { permit: PermitDetail }) {
           <li key={e.id} className="border-l-4 border-rule pl-3">
             <p>
               <strong>{e.actor.name}</strong> {actionWords[e.action] ?? e.action}
-              {e.toStatus ? ` → ${statusLabels[e.toStatus]}` : ''} <span className="text-sm text-ink-soft">{when(e.at)} (revision {e.revision})</span>
+              {e.toStatus ? ` → ${statusLabels[e.toStatus]}` : ''} <span className="text-sm text-ink-soft">{at(e.at)} (revision {e.revision})</span>
             </p>
             {e.comment ? <p className="whitespace-pre-wrap">“{e.comment}”</p> : null}
           </li>
@@ -329,7 +330,7 @@ function Timeline({ permit }: { permit: PermitDetail }) {
   );
 }
 
-function Revisions({ permit }: { permit: PermitDetail }) {
+function Revisions({ permit, at }: { permit: PermitDetail; at: (iso: string | null) => string }) {
   const [shown, setShown] = useState<number | null>(null);
   const old = useRevision(permit.id, shown);
   if (permit.revisions.length < 2) return null;
@@ -339,14 +340,14 @@ function Revisions({ permit }: { permit: PermitDetail }) {
         {permit.revisions.map((r) => (
           <li key={r.revision}>
             <Button variant={shown === r.revision ? 'primary' : 'quiet'} onClick={() => setShown(r.revision)}>
-              Revision {r.revision} ({when(r.createdAt)}{r.decision ? `, ${r.decision === 'approve' ? 'approved' : r.decision === 'return' ? 'returned' : 'declined'}` : ''})
+              Revision {r.revision} ({at(r.createdAt)}{r.decision ? `, ${r.decision === 'approve' ? 'approved' : r.decision === 'return' ? 'returned' : 'declined'}` : ''})
             </Button>
           </li>
         ))}
       </ul>
       {old.data ? (
         <div className="flex flex-col gap-2">
-          <p>Window {when(old.data.windowStart)} to {when(old.data.windowEnd)}. {old.data.description}</p>
+          <p>Window {at(old.data.windowStart)} to {at(old.data.windowEnd)}. {old.data.description}</p>
           <p>Loads: {old.data.loads.map((l) => l.label || l.id).join(', ') || 'none'}</p>
           {old.data.decision ? <p>Decision: {old.data.decision.action}; {old.data.decision.standoff !== null ? `standoff ${old.data.decision.standoff.toFixed(2)} m; ` : ''}{old.data.decision.signature}</p> : null}
           {old.data.check ? <CheckSheets check={old.data.check} full={false} /> : null}
