@@ -40,6 +40,13 @@ if [ "${PUSH_FAKE_SERVICE:-on}" != off ] && [ -z "${PUSH_FAKE_SERVICE_URL:-}" ];
   say "fake push service on $PUSH_FAKE_SERVICE_URL"
 fi
 
+# Links in e-mails and QR codes: without PUBLIC_URL, the address a phone on the same network can open
+# (this machine's first LAN address), not localhost, which means nothing on a phone.
+if [ -z "${PUBLIC_URL:-}" ]; then
+  LAN_IP="$(node -e 'const os=require("os");const a=Object.values(os.networkInterfaces()).flat().find(l=>l&&l.family==="IPv4"&&!l.internal);if(a)console.log(a.address)')"
+  if [ -n "$LAN_IP" ]; then export PUBLIC_URL="http://$LAN_IP:${PORT:-3000}"; fi
+fi
+
 npx tsx db/cli.ts seed
 say "building the client"
 npx vite build --logLevel warn

@@ -47,9 +47,12 @@ if (config.mailCatcher.enabled) {
 const app = createApp(deps);
 // HOST=127.0.0.1 keeps it to this machine (the bench does).
 const server = app.listen(config.port, process.env.HOST || '0.0.0.0', () => {
+  // start.sh sets PUBLIC_URL to this machine's LAN address when none is given (links and QR codes).
+  const onlyHere = ['localhost', '127.0.0.1'].includes(new URL(config.publicUrl).hostname);
   const lines = [
     '',
-    `Brink is running at ${config.publicUrl}`,
+    `Brink is running at ${config.publicUrl}${onlyHere ? '' : ' (phones on the same network open this; e-mail links and QR codes use it)'}`,
+    ...(onlyHere ? [] : [`On this computer: http://localhost:${config.port}`]),
     ...(config.mailCatcher.enabled ? [`Caught e-mail: ${config.publicUrl}/admin/mail (SMTP on 127.0.0.1:${config.mailCatcher.port})`] : []),
     ...(config.demo
       ? ['Demo sign-ins (password for all: ' + DEMO_PASSWORD + '):', ...demoPeople.map((p) => `  ${p.email.padEnd(30)} ${p.name}`)]
