@@ -242,16 +242,17 @@ export type DigDetails = z.infer<typeof digDetailsSchema>;
 const when = z.iso.datetime({ offset: true, message: 'must be a date and time (ISO 8601)' });
 const ids = (most: number) => z.array(z.number().int().positive()).max(most, `must list at most ${most}`);
 
-const contentShape = {
+/** What a request says; the create, update and check-proposal schemas are all drawn from it. */
+const content = z.object({
   description: z.string({ error: 'is required: say what the work is' }).trim().min(1, 'is required: say what the work is').max(1000, 'must be at most 1000 characters'),
   windowStart: when,
   windowEnd: when,
-  excavationIds: ids(20).default([]),
-  loads: z.array(placedLoadSchema).max(50, 'must list at most 50 loads').default([]),
-  operatorIds: ids(20).default([]),
-  dig: digDetailsSchema.nullable().default(null),
+  excavationIds: ids(20),
+  loads: z.array(placedLoadSchema).max(50, 'must list at most 50 loads'),
+  operatorIds: ids(20),
+  dig: digDetailsSchema.nullable(),
   method: z.enum(surchargeMethods).optional(),
-};
+});
 
 function windowOrder(v: { windowStart?: string; windowEnd?: string }, ctx: z.RefinementCtx): void {
   if (v.windowStart && v.windowEnd && Date.parse(v.windowEnd) <= Date.parse(v.windowStart)) {
@@ -267,38 +268,32 @@ function uniqueLoadIds(v: { loads?: { id: string }[] }, ctx: z.RefinementCtx): v
   });
 }
 
-export const permitCreateSchema = z
-  .object({ siteId: z.number().int().positive(), kind: z.enum(permitKinds), ...contentShape, excavationIds: ids(20).min(1, 'must name at least one excavation: choose the excavation the work is beside') })
+export const permitCreateSchema = content
+  .extend({
+    siteId: z.number().int().positive(),
+    kind: z.enum(permitKinds),
+    excavationIds: content.shape.excavationIds.min(1, 'must name at least one excavation: choose the excavation the work is beside'),
+    loads: content.shape.loads.default([]),
+    operatorIds: content.shape.operatorIds.default([]),
+    dig: content.shape.dig.default(null),
+  })
   .superRefine(windowOrder)
   .superRefine(uniqueLoadIds);
 export type PermitCreate = z.infer<typeof permitCreateSchema>;
 export type PermitCreateInput = z.input<typeof permitCreateSchema>;
 
-export const permitUpdateSchema = z
-  .object({
-    version: z.number().int().positive(),
-    description: contentShape.description.optional(),
-    windowStart: when.optional(),
-    windowEnd: when.optional(),
-    excavationIds: ids(20).optional(),
-    loads: z.array(placedLoadSchema).max(50, 'must list at most 50 loads').optional(),
-    operatorIds: ids(20).optional(),
-    dig: digDetailsSchema.nullable().optional(),
-    method: contentShape.method,
-  })
+/** A change to a draft: any of the request's fields, with the version the person was looking at. */
+export const permitUpdateSchema = content
+  .partial()
+  .extend({ version: z.number().int().positive() })
   .superRefine(windowOrder)
   .superRefine(uniqueLoadIds);
 export type PermitUpdate = z.infer<typeof permitUpdateSchema>;
 
 /** A proposal to check without saving it (the live check while placing); absent fields come from the saved permit. */
-export const checkProposalSchema = z
-  .object({
-    windowStart: when.optional(),
-    windowEnd: when.optional(),
-    excavationIds: ids(20).optional(),
-    loads: z.array(placedLoadSchema).max(50).optional(),
-    method: contentShape.method,
-  })
+export const checkProposalSchema = content
+  .pick({ windowStart: true, windowEnd: true, excavationIds: true, loads: true, method: true })
+  .partial()
   .superRefine(windowOrder)
   .superRefine(uniqueLoadIds);
 export type CheckProposal = z.infer<typeof checkProposalSchema>;

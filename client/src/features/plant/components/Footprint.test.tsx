@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { render } from '@testing-library/react';
-import { Footprint, scaleBarLength } from './Footprint';
+import { scaleBarLength } from '@shared/permits/drawing';
+import { Footprint } from './Footprint';
 
 describe('footprint drawing', () => {
   it('picks a scale bar of 1, 2 or 5 × 10ⁿ m near a quarter of the width', () => {

@@ -1,13 +1,7 @@
+import { scaleBarLength } from '@shared/permits/drawing';
 import { footprintBounds, plantElementKindLabels, type PlantElement, type PlantElementKind } from '@shared/schemas/plant';
 
 const fills: Record<PlantElementKind, string> = { track: '#4c5a64', pad: '#8a7350', wheel: '#1e2a33' };
-
-/** A scale-bar length (m) of 1, 2 or 5 × 10ⁿ near a quarter of the drawing's width. */
-export function scaleBarLength(span: number): number {
-  const target = span / 4;
-  const p = 10 ** Math.floor(Math.log10(target));
-  return [1, 2, 5, 10].map((k) => k * p).reduce((best, v) => (Math.abs(v - target) < Math.abs(best - target) ? v : best));
-}
 
 /**
  * The machine's bearing elements seen from above, to scale: x (forward) to the right, y (left) up,
