@@ -60,6 +60,9 @@ test('a load permit from placing to approval and the printed permit', async ({ p
   await page.mouse.up();
   await expect(live.locator('[data-verdict="passes"]').first()).toBeVisible();
   await expect(live.locator('[data-verdict="fails"]')).toHaveCount(0);
+  // Let go, the full check (with standoffs) is on screen, not the verdict-only check of a drag frame.
+  await expect(live.getByTestId('computed-standoff')).toHaveText(/^\d+\.\d\d m$/);
+  await expect(live.getByText('worked out when you let go')).toHaveCount(0);
 
   await page.getByRole('button', { name: 'Save and send for review' }).click();
   await expect(page).toHaveURL(new RegExp(`/permits/${permitId}$`));

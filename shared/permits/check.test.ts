@@ -121,6 +121,19 @@ describe('an open excavation the permit does not name', () => {
     expect(check.excavations[1].result.utilisation).toBeGreaterThan(0);
   });
 
+  it('gives, without the standoff search (a frame of a drag), the same verdicts and figures as the full check, and no standoff', () => {
+    // Same engine, same loads: only the standoff search is left out (docs/calculation.md, "Standoff").
+    const full = cumulativeCheck(input(22));
+    const quick = cumulativeCheck({ ...input(22), standoffs: false });
+    expect(full.computedStandoff).not.toBeNull();
+    expect(quick.computedStandoff).toBeNull();
+    expect(quick.excavations.flatMap((e) => e.loadStandoffs.map((l) => l.standoff))).toEqual([null, null]);
+    expect([quick.verdict, quick.utilisation, quick.passes]).toEqual([full.verdict, full.utilisation, full.passes]);
+    expect(quick.excavations.map((e) => [e.reference, e.result.utilisation, e.loads.map((l) => l.force)])).toEqual(
+      full.excavations.map((e) => [e.reference, e.result.utilisation, e.loads.map((l) => l.force)]),
+    );
+  });
+
   it('refuses figures the shared schemas refuse, naming the field, instead of giving a verdict (docs/calculation.md, "Refusals")', () => {
     const withHeap = (heap: Record<string, unknown>) => ({ ...input(22), permit: { ...input(22).permit, loads: [{ ...stockpileAt(22), ...heap }] } });
     const refusal = (f: () => unknown) => {

@@ -118,6 +118,12 @@ export interface CheckInput {
   now: Date;
   /** The engine's calls (default: shared/engineering as is); the server passes memoised ones (pure functions of their arguments). */
   engine?: CheckEngine;
+  /**
+   * false: the verdict at the loads' positions only, without the standoff search (every standoff
+   * null, no failing bands). The placing map uses it for each frame of a drag and runs the full
+   * check when the load is let go; a stored or shown-as-final check never uses it.
+   */
+  standoffs?: false;
 }
 
 /** The two engine calls the check makes; both pure, so a caller may memoise them. */
@@ -403,7 +409,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
       { excavation: ex.excavation, soil: ex.soil, method: input.method, minimumClearance: input.minimumClearance, step: 0.05, loads },
       ex.reference,
     );
-    const result = engine.runCheck(request);
+    const result = input.standoffs === false ? engine.runCheck(request, { standoffs: false }) : engine.runCheck(request);
     const checked: CheckedLoad[] = meta.map((m, i) => ({ ...m, force: result.loads[i].force, standoff: result.loads[i].standoff }));
     // A load of one footprint has the engine's standoff; a machine's elements move together.
     const { loads: _all, ...base } = request;
@@ -415,6 +421,8 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
       let answer: Pick<StandoffAnswer, 'standoff' | 'failingBands'>;
       if (parts.length === 1) {
         answer = result.loads[parts[0]];
+      } else if (input.standoffs === false) {
+        answer = { standoff: null, failingBands: [] };
       } else {
         const group = engine.groupStandoff(base, parts.map((i) => loads[i] as Exclude<Load, { kind: 'blanket' }>));
         if (!group.monotonic) result.warnings.push(notMonotonicWarning(label, group));

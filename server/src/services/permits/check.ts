@@ -201,7 +201,7 @@ function checkExcavationRowOf(r: CheckExcavationRow): CheckExcavation & { state:
  * caller may change what it gets.
  */
 const memoEngine: CheckEngine = {
-  runCheck: memoised((request) => runCheck(request)),
+  runCheck: memoised((request, options) => runCheck(request, options)),
   groupStandoff: memoised((base, group) => groupStandoff(base, group)),
 };
 const MEMO_ENTRIES = 500;

@@ -6,10 +6,13 @@ import { PressureDiagram } from './PressureDiagram';
 import { VerdictBadge, VerdictRule } from './Verdict';
 
 const m = (x: number | null) => (x === null ? 'none within 3H' : `${x.toFixed(2)} m`);
+/** Said in place of a standoff while a load is being dragged (the search runs when it is let go). */
+const PENDING = 'worked out when you let go';
 const kN = (x: number) => `${x.toFixed(1)} kN/m`;
 
 /** The calculation sheet of one excavation: inputs, method, diagram, forces, utilisation, standoffs, other permits, warnings. */
-export function ExcavationSheet({ ex, full = true }: { ex: ExcavationCheck; full?: boolean }) {
+export function ExcavationSheet({ ex, full = true, standoffsPending = false }: { ex: ExcavationCheck; full?: boolean; standoffsPending?: boolean }) {
+  const so = (x: number | null) => (standoffsPending ? PENDING : m(x));
   const r = ex.result as unknown as CheckResult;
   const req = ex.request as CheckRequest;
   const e = req.excavation;
@@ -29,7 +32,7 @@ export function ExcavationSheet({ ex, full = true }: { ex: ExcavationCheck; full
         </div>
       ) : null}
       <p>
-        Standoff for this permit's loads: <strong data-testid={`standoff-${ex.excavationId}`}>{m(ex.standoff)}</strong>
+        Standoff for this permit's loads: <strong data-testid={`standoff-${ex.excavationId}`}>{so(ex.standoff)}</strong>
       </p>
       <table className="text-sm">
         <caption className="text-left font-semibold">Each load</caption>
@@ -43,9 +46,9 @@ export function ExcavationSheet({ ex, full = true }: { ex: ExcavationCheck; full
               <tr key={l.loadId}>
                 <td>{l.label}</td>
                 <td>{l.offset.toFixed(2)} m</td>
-                <td>{m(l.standoff)}</td>
+                <td>{so(l.standoff)}</td>
                 <td>
-                  {bands.length ? bandsWords(bands) : 'nowhere from the minimum clearance to 3H'}
+                  {standoffsPending ? PENDING : bands.length ? bandsWords(bands) : 'nowhere from the minimum clearance to 3H'}
                   {failsBeyondPassing(bands, req.minimumClearance) ? ' (passes in between: farther is not always safer)' : ''}
                 </td>
               </tr>
@@ -126,19 +129,19 @@ export function ExcavationSheet({ ex, full = true }: { ex: ExcavationCheck; full
 }
 
 /** The whole check of a permit: the overall verdict, the colour rule, each excavation's sheet and the caution. */
-export function CheckSheets({ check, full = true }: { check: PermitCheck; full?: boolean }) {
+export function CheckSheets({ check, full = true, standoffsPending = false }: { check: PermitCheck; full?: boolean; standoffsPending?: boolean }) {
   return (
     <div className="flex flex-col gap-4" data-testid="check">
       <p className="flex flex-wrap items-center gap-3">
         <VerdictBadge verdict={check.verdict} utilisation={check.utilisation} />
         <span>
-          Computed standoff: <strong data-testid="computed-standoff">{m(check.computedStandoff)}</strong>
+          Computed standoff: <strong data-testid="computed-standoff">{standoffsPending ? PENDING : m(check.computedStandoff)}</strong>
         </span>
       </p>
       <VerdictRule />
       {check.outsideInfluence.length ? <p className="text-sm">Outside every influence zone (no effect on the support): {check.outsideInfluence.join(', ')}.</p> : null}
       {check.excavations.map((ex) => (
-        <ExcavationSheet key={ex.excavationId} ex={ex} full={full} />
+        <ExcavationSheet key={ex.excavationId} ex={ex} full={full} standoffsPending={standoffsPending} />
       ))}
       <Caution />
     </div>

@@ -26,8 +26,11 @@ interface PlacementMapProps {
   /** Standoff drawn as the exclusion zone (m): the approved one, or the computed one. */
   standoff: number | null;
   editable: boolean;
+  /** Each position while a handle is dragged (many a frame: the page coalesces them) and where it is let go. */
   onMove?: (loadId: string, to: XY) => void;
   onRotate?: (loadId: string, bearing: number) => void;
+  /** A Move or Turn handle is taken (true) or let go (false); `onMove`/`onRotate` has had the last position first. */
+  onDragging?: (dragging: boolean) => void;
 }
 
 const makeIcon = (text: string, shape: 'move' | 'turn') =>
@@ -58,7 +61,7 @@ function FitOnce({ bounds }: { bounds: L.LatLngBounds | null }) {
 /** Orange: where a load fails beyond an offset where it passes (not red, which is the exclusion zone). */
 const BAND_COLOUR = '#b45309';
 
-export function PlacementMap({ proj, excavations, loads, plant, check, verdict, standoff, editable, onMove, onRotate }: PlacementMapProps) {
+export function PlacementMap({ proj, excavations, loads, plant, check, verdict, standoff, editable, onMove, onRotate, onDragging }: PlacementMapProps) {
   const prepared = useMemo(
     () =>
       excavations.flatMap((e) => {
@@ -151,9 +154,15 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
                   title={`Move ${name}`}
                   icon={moveIcon}
                   eventHandlers={{
+                    dragstart: () => onDragging?.(true),
                     drag: (ev) => {
                       const ll = (ev.target as L.Marker).getLatLng();
                       onMove?.(load.id, proj.toLocal([ll.lng, ll.lat]));
+                    },
+                    dragend: (ev) => {
+                      const ll = (ev.target as L.Marker).getLatLng();
+                      onMove?.(load.id, proj.toLocal([ll.lng, ll.lat]));
+                      onDragging?.(false);
                     },
                   }}
                 />
@@ -168,9 +177,15 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
                         title={`Turn ${name}`}
                         icon={turnIcon}
                         eventHandlers={{
+                          dragstart: () => onDragging?.(true),
                           drag: (ev) => {
                             const ll = (ev.target as L.Marker).getLatLng();
                             onRotate?.(load.id, bearingOf(c, proj.toLocal([ll.lng, ll.lat])));
+                          },
+                          dragend: (ev) => {
+                            const ll = (ev.target as L.Marker).getLatLng();
+                            onRotate?.(load.id, bearingOf(c, proj.toLocal([ll.lng, ll.lat])));
+                            onDragging?.(false);
                           },
                         }}
                       />

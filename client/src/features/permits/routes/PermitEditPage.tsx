@@ -1,5 +1,5 @@
 import { permitErrorSummary, permitFieldLabel } from '../components/fieldNames';
-import { useEffect, useMemo, useState } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { localProjection, type XY } from '@shared/geometry';
 import { CheckInputError, checkExcavationOf, cumulativeCheck, PlacementError, type PlantForCheck } from '@shared/permits/check';
@@ -102,19 +102,44 @@ function Editor({ permit }: { permit: PermitDetail }) {
     return () => clearTimeout(t);
   }, [permit.id, draft.windowStart, draft.windowEnd, draft.excavationIds]);
 
+  // While a handle is dragged: the positions it reports are applied at most once an animation frame
+  // (the latest wins), and each frame checks only the verdict where the loads stand (no standoff
+  // search). Let go: the last position is applied first, then the full check runs on it, so what
+  // stays on screen is always the full check of where the loads are.
+  const [dragging, setDragging] = useState(false);
+  const pendingMoves = useRef(new Map<string, () => void>());
+  const frame = useRef<number | null>(null);
+  const applyMoves = () => {
+    if (frame.current !== null) cancelAnimationFrame(frame.current);
+    frame.current = null;
+    const moves = [...pendingMoves.current.values()];
+    pendingMoves.current.clear();
+    for (const apply of moves) apply();
+  };
+  const moveOnNextFrame = (key: string, apply: () => void) => {
+    pendingMoves.current.set(key, apply);
+    if (frame.current === null) frame.current = requestAnimationFrame(applyMoves);
+  };
+  useEffect(
+    () => () => {
+      if (frame.current !== null) cancelAnimationFrame(frame.current);
+    },
+    [],
+  );
+
   // The live check, in the browser with the shared engine and the shared schemas, on every move.
   // Figures the schemas refuse give "Cannot check", never a verdict.
-  const live = useMemo((): { check: PermitCheck | null; refused: string | null; invalid: string | null } => {
+  const live = useMemo((): { check: PermitCheck | null; refused: string | null; invalid: string | null; partial: boolean } => {
     const started = performance.now();
     try {
-      return liveCheck();
+      return { ...liveCheck(dragging), partial: dragging };
     } finally {
-      measureLiveCheck(started);
+      measureLiveCheck(started, dragging);
     }
     // eslint-disable-next-line react-hooks/exhaustive-deps -- liveCheck reads exactly these
-  }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit.id, permit.number, server]);
+  }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit.id, permit.number, server, dragging]);
 
-  function liveCheck(): { check: PermitCheck | null; refused: string | null; invalid: string | null } {
+  function liveCheck(verdictOnly: boolean): { check: PermitCheck | null; refused: string | null; invalid: string | null } {
     if (!site.data || !proj || draft.loads.length === 0 || named.length === 0 || !plantQ.data) return { check: null, refused: null, invalid: null };
     try {
       return {
@@ -128,6 +153,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
           plant,
           others: server?.otherPermits ?? [],
           now: new Date(),
+          ...(verdictOnly ? { standoffs: false as const } : {}),
         }),
         refused: null,
         invalid: null,
@@ -204,7 +230,8 @@ function Editor({ permit }: { permit: PermitDetail }) {
 
   const check = live.check ?? null;
   const verdict = live.refused ? 'fails' : (check?.verdict ?? null);
-  const standoff = check?.computedStandoff ?? null;
+  // Mid-drag the check has no standoffs yet: no exclusion zone is drawn until the load is let go.
+  const standoff = live.partial ? null : (check?.computedStandoff ?? null);
 
   return (
     <Page
@@ -224,8 +251,12 @@ function Editor({ permit }: { permit: PermitDetail }) {
             verdict={verdict}
             standoff={standoff}
             editable
-            onMove={(loadId, to) => setLoad(loadId, (l) => moveLoad(l, to, proj))}
-            onRotate={(loadId, bearing) => setLoad(loadId, (l) => (l.kind === 'plant' ? { ...l, rotation: bearing } : l))}
+            onMove={(loadId, to) => moveOnNextFrame(`move:${loadId}`, () => setLoad(loadId, (l) => moveLoad(l, to, proj)))}
+            onRotate={(loadId, bearing) => moveOnNextFrame(`turn:${loadId}`, () => setLoad(loadId, (l) => (l.kind === 'plant' ? { ...l, rotation: bearing } : l)))}
+            onDragging={(on) => {
+              if (!on) applyMoves();
+              setDragging(on);
+            }}
           />
           <Panel title="Loads" level={2}>
             {draft.loads.length === 0 ? <p>No loads yet. Add a machine from the library or an ad hoc load.</p> : null}
@@ -253,7 +284,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
                 {live.refused}
               </p>
             ) : check ? (
-              <CheckSheets check={check} full={false} />
+              <CheckSheets check={check} full={false} standoffsPending={live.partial} />
             ) : (
               <p>Name an excavation and place a load to see the check.</p>
             )}
@@ -391,15 +422,20 @@ function MetresField({ label, value, onCommit }: { label: string; value: number;
   );
 }
 
-/** The User Timing name of one live check (read by `npm run bench -- web` while a load is dragged). */
+/**
+ * The User Timing names of the live check (read by `npm run bench -- web`): one frame of a drag
+ * (the verdict only), and the full check (with standoffs) after a load is let go or changed.
+ */
 const LIVE_CHECK_MEASURE = 'brink:live-check';
+const FULL_CHECK_MEASURE = 'brink:full-check';
 let liveMeasures = 0;
 /** Records one live check's time as a performance measure; the oldest go after 500, so dragging all day keeps nothing growing. */
-function measureLiveCheck(started: number): void {
+function measureLiveCheck(started: number, frame: boolean): void {
   if (typeof performance.measure !== 'function') return;
   if (++liveMeasures > 500) {
     performance.clearMeasures(LIVE_CHECK_MEASURE);
+    performance.clearMeasures(FULL_CHECK_MEASURE);
     liveMeasures = 1;
   }
-  performance.measure(LIVE_CHECK_MEASURE, { start: started, end: performance.now() });
+  performance.measure(frame ? LIVE_CHECK_MEASURE : FULL_CHECK_MEASURE, { start: started, end: performance.now() });
 }
