@@ -177,3 +177,26 @@ describe('the standoff of loads that move together, when 3H is not a whole numbe
     }
   });
 });
+
+describe('a stored check read back (permit_revisions.check_result)', () => {
+  it('fails loudly, naming the path, when a stored shape drifts; accepts the fields added later as absent', async () => {
+    const { storedCheck } = await import('../schemas/permits');
+    const base = {
+      checkedAt: '2026-01-05T08:00:00.000Z',
+      method: 'dispersion-45',
+      excavations: [],
+      utilisation: null,
+      passes: true,
+      verdict: 'passes',
+      computedStandoff: null,
+      outsideInfluence: [],
+      otherPermits: [],
+      warnings: [],
+      caution: 'x',
+    };
+    expect(storedCheck(null)).toBeNull();
+    expect(storedCheck(base)?.verdict).toBe('passes');
+    expect(() => storedCheck({ ...base, verdict: 'green' })).toThrow(/verdict/);
+    expect(() => storedCheck({ ...base, excavations: [{ excavationId: 1 }] })).toThrow(/excavations\.0\.reference/);
+  });
+});

@@ -438,7 +438,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
       name: ex.name,
       depth: ex.excavation.depth,
       request,
-      result: result as unknown as ExcavationCheck['result'],
+      result,
       loads: checked,
       loadStandoffs,
       counted,

@@ -9,6 +9,8 @@ import { z } from 'zod';
 import type { SiteRole } from './common';
 import { surchargeMethods } from './sites';
 import type { PlantElement } from './plant';
+import type { CheckResult } from '../engineering/types';
+import { loadKinds } from './calc';
 
 // ---------------------------------------------------------------------------------------------
 // Statuses and actions
@@ -526,6 +528,8 @@ export interface CountedPermit {
   windowEnd: string;
 }
 
+export type CheckedResult = Omit<CheckResult, 'profile'> & Partial<Pick<CheckResult, 'profile'>>;
+
 export interface ExcavationCheck {
   excavationId: number;
   /** False for an open excavation the permit does not name but whose influence zone a load reaches (checked all the same). */
@@ -535,12 +539,8 @@ export interface ExcavationCheck {
   depth: number;
   /** The engine's request (shared/engineering) and result, as run. */
   request: unknown;
-  result: {
-    utilisation: number | null;
-    passes: boolean;
-    warnings: string[];
-    [k: string]: unknown;
-  };
+  /** The engine's result; without its pressure profile in the answer to POST /api/permits/:id/check (`withoutProfiles`). */
+  result: CheckedResult;
   loads: CheckedLoad[];
   /**
    * Each of this permit's placed loads: its nearest clear distance now and its standoff (m). A
@@ -586,4 +586,93 @@ export interface PermitCheck {
   otherPermits: OtherPermit[];
   warnings: string[];
   caution: string;
+}
+
+// ---------------------------------------------------------------------------------------------
+// A stored check (permit_revisions.check_result), parsed when read: a stored shape that drifts from
+// PermitCheck fails loudly where it is read (and in the tests), never silently in a PDF. Checks are
+// stored whole and never migrated; the fields added after the first checks were stored are accepted
+// absent, explicitly: `named` (true), `failingBands` (none recorded), the engine's `caution` ('').
+
+const offsetBandSchema = z.object({ from: z.number(), to: z.number() });
+const nullableNumber = z.number().nullable();
+
+export const checkResultSchema: z.ZodType<CheckedResult> = z.object({
+  method: z.enum(surchargeMethods),
+  coefficients: z.array(z.object({ top: z.number(), K: z.number() })),
+  profile: z.array(z.object({ z: z.number(), soil: z.number(), water: z.number(), surcharge: z.number(), total: z.number(), allowance: z.number() })).optional(),
+  forces: z.object({ soil: z.number(), water: z.number(), surcharge: z.number(), allowance: z.number() }),
+  moments: z.object({ surcharge: z.number(), allowance: z.number() }),
+  loads: z.array(
+    z.object({
+      id: z.string(),
+      kind: z.enum(loadKinds),
+      force: z.number(),
+      moment: z.number(),
+      top: nullableNumber,
+      bottom: nullableNumber,
+      standoff: nullableNumber,
+      failingBands: z.array(offsetBandSchema).default([]),
+    }),
+  ),
+  utilisation: nullableNumber,
+  governing: z.enum(['force', 'moment', 'rated-pressure', 'no-allowance']).nullable(),
+  maxTotalPressure: z.number(),
+  passes: z.boolean(),
+  warnings: z.array(z.string()),
+  caution: z.string().default(''),
+});
+
+const verdictSchema = z.enum(['fails', 'close', 'passes']);
+const countedPermitSchema = z.object({ id: z.number().int(), number: z.string(), status: z.enum(permitStatuses), windowStart: z.string(), windowEnd: z.string() });
+
+export const excavationCheckSchema: z.ZodType<ExcavationCheck> = z.object({
+  excavationId: z.number().int(),
+  named: z.boolean().default(true),
+  reference: z.string(),
+  name: z.string(),
+  depth: z.number(),
+  request: z.unknown(),
+  result: checkResultSchema,
+  loads: z.array(
+    z.object({
+      engineId: z.string(),
+      permitId: z.number().int().nullable(),
+      permitNumber: z.string(),
+      loadId: z.string(),
+      label: z.string(),
+      element: z.string(),
+      kind: z.enum(['area', 'strip', 'line', 'point']),
+      offset: z.number(),
+      force: z.number(),
+      standoff: nullableNumber,
+      own: z.boolean(),
+    }),
+  ),
+  loadStandoffs: z.array(z.object({ loadId: z.string(), label: z.string(), offset: z.number(), standoff: nullableNumber, failingBands: z.array(offsetBandSchema).optional() })),
+  counted: z.array(countedPermitSchema),
+  standoff: nullableNumber,
+  verdict: verdictSchema,
+});
+
+export const permitCheckSchema: z.ZodType<PermitCheck> = z.object({
+  checkedAt: z.string(),
+  method: z.enum(surchargeMethods),
+  excavations: z.array(excavationCheckSchema),
+  utilisation: nullableNumber,
+  passes: z.boolean(),
+  verdict: verdictSchema,
+  computedStandoff: nullableNumber,
+  outsideInfluence: z.array(z.string()),
+  otherPermits: z.array(countedPermitSchema.extend({ excavationIds: z.array(z.number().int()), loads: z.array(placedLoadSchema) })),
+  warnings: z.array(z.string()),
+  caution: z.string(),
+});
+
+/** A stored check as PermitCheck (null when none is stored); throws naming the path of a field that drifted. */
+export function storedCheck(json: unknown): PermitCheck | null {
+  if (json === null || json === undefined) return null;
+  const r = permitCheckSchema.safeParse(json);
+  if (!r.success) throw new Error(`A stored permit check does not have the shape Brink reads: ${r.error.issues.map((i) => `${i.path.join('.')} ${i.message}`).join('; ')}`);
+  return r.data;
 }

@@ -9,6 +9,7 @@ import {
   type PermitCheck,
   type PermitDecision,
   type PermitStatus,
+  storedCheck,
 } from '@shared/schemas/permits';
 import type { Deps } from '../../deps';
 import { badRequest, conflict, forbidden, HttpError, notFound } from '../../http';
@@ -184,7 +185,7 @@ export async function transition(
       }
       case 'return':
       case 'decline': {
-        const check = rev.check_result as PermitCheck | null;
+        const check = storedCheck(rev.check_result);
         const decision = decisionOf(action, actor, actorName, now, {
           reason: opts.reason!.trim(),
           standoff: null,

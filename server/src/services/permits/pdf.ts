@@ -189,17 +189,7 @@ function field(doc: PDFKit.PDFDocument, label: string, value: string): void {
 
 /** The calculation sheet's figures for one excavation. */
 function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | null) => string): void {
-  const r = ex.result as unknown as {
-    method: string;
-    coefficients: { top: number; K: number }[];
-    forces: { soil: number; water: number; surcharge: number; allowance: number };
-    moments: { surcharge: number; allowance: number };
-    utilisation: number | null;
-    governing: string | null;
-    maxTotalPressure: number;
-    passes: boolean;
-    warnings: string[];
-  };
+  const r = ex.result;
   const req = ex.request as { excavation: Record<string, unknown>; soil: Record<string, unknown>[]; minimumClearance: number };
   const e = req.excavation;
   field(doc, 'Method', r.method === 'elastic' ? 'Elastic (Boussinesq-based, NAVFAC DM-7.02)' : '45 degree load spread');

@@ -6,7 +6,6 @@ import {
   type ActorRole,
   type DigDetails,
   type PermitAttachment,
-  type PermitCheck,
   type PermitDecision,
   type PermitDetail,
   type PermitEvent,
@@ -17,6 +16,7 @@ import {
   type PlacedLoad,
   type PlantSnapshot,
   type ExcavationSnapshot,
+  storedCheck,
 } from '@shared/schemas/permits';
 import { CAUTION } from '@shared/caution';
 import { DECISIONS, isAuthorOf } from './actors';
@@ -59,7 +59,7 @@ function summaryQuery(db: Db) {
 type SummaryRow = Awaited<ReturnType<ReturnType<typeof summaryQuery>['executeTakeFirstOrThrow']>>;
 
 function summaryOut(r: SummaryRow): PermitSummary {
-  const check = r.check_result as PermitCheck | null;
+  const check = storedCheck(r.check_result);
   return {
     id: r.id,
     siteId: r.site_id,
@@ -156,7 +156,7 @@ export async function loadRevision(db: Db, permitId: number, revision: number): 
     loads: r.loads as PlacedLoad[],
     dig: r.dig as DigDetails | null,
     operators: operators.map((o) => ({ id: o.id, name: o.name, email: o.email, briefedAt: o.briefed_at ? iso(o.briefed_at) : null })),
-    check: r.check_result as PermitCheck | null,
+    check: storedCheck(r.check_result),
     checkedAt: r.checked_at ? iso(r.checked_at) : null,
     decision: r.decision as PermitDecision | null,
     plantSnapshot: r.plant_snapshot as PlantSnapshot | null,

@@ -1,6 +1,6 @@
 import { sql } from 'kysely';
 import { canonical, checkInputFields, type CheckInputs, type ExcavationValues, type RecheckOutcome } from '@shared/schemas/excavations';
-import type { PermitCheck, PermitDecision, PermitStatus } from '@shared/schemas/permits';
+import { storedCheck, type PermitCheck, type PermitDecision, type PermitStatus } from '@shared/schemas/permits';
 import { describeExcavationChange, judgeRecheck } from '@shared/permits/recheck';
 import type { Deps } from '../../deps';
 import { HttpError } from '../../http';
@@ -54,7 +54,7 @@ export async function recheckAfterExcavationChange(
       .execute();
     const out: RecheckOutcome[] = [];
     for (const row of rows) {
-      const previous = row.check_result as PermitCheck | null;
+      const previous = storedCheck(row.check_result);
       const named = row.excavation_ids.includes(change.excavationId) || !!previous?.excavations.some((e) => e.excavationId === change.excavationId);
       let stored: StoredCheck | null = null;
       let refusal: string | undefined;

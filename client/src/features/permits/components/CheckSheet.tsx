@@ -1,5 +1,5 @@
 import { Link } from 'react-router-dom';
-import { attentionWarnings, bandsWords, failsBeyondPassing, type CheckResult, type CheckRequest } from '@shared/engineering';
+import { attentionWarnings, bandsWords, failsBeyondPassing, type CheckRequest } from '@shared/engineering';
 import { statusLabels, type ExcavationCheck, type PermitCheck } from '@shared/schemas/permits';
 import { Caution } from '@client/components/Caution';
 import { PressureDiagram } from './PressureDiagram';
@@ -13,7 +13,7 @@ const kN = (x: number) => `${x.toFixed(1)} kN/m`;
 /** The calculation sheet of one excavation: inputs, method, diagram, forces, utilisation, standoffs, other permits, warnings. */
 export function ExcavationSheet({ ex, full = true, standoffsPending = false }: { ex: ExcavationCheck; full?: boolean; standoffsPending?: boolean }) {
   const so = (x: number | null) => (standoffsPending ? PENDING : m(x));
-  const r = ex.result as unknown as CheckResult;
+  const r = ex.result;
   const req = ex.request as CheckRequest;
   const e = req.excavation;
   const attention = attentionWarnings(r.warnings);
@@ -91,7 +91,7 @@ export function ExcavationSheet({ ex, full = true, standoffsPending = false }: {
               : '45° load spread: each load presses on the support in the band of depths its spread reaches.'}{' '}
             Minimum clearance {req.minimumClearance.toFixed(2)} m.
           </p>
-          <PressureDiagram profile={r.profile} depth={ex.depth} title={`Pressure beside ${ex.reference}`} />
+          {r.profile ? <PressureDiagram profile={r.profile} depth={ex.depth} title={`Pressure beside ${ex.reference}`} /> : null}
           <h4 className="font-semibold">Forces and moments (per metre run of support)</h4>
           <ul className="text-sm">
             <li>Soil {kN(r.forces.soil)}, water {kN(r.forces.water)}</li>
