@@ -3,10 +3,12 @@ import { lazy, Suspense, type ComponentProps } from 'react';
 import { RouterProvider } from 'react-router-dom';
 import { Loading } from '@client/components/Status';
 import { createQueryClient } from '@client/lib/queryClient';
+import { askWhoIsSignedIn } from '@client/lib/session';
 import { DashboardSlotsContext, type DashboardSlots } from '@client/features/dashboard/slots';
 import { router } from './router';
 
 const queryClient = createQueryClient();
+askWhoIsSignedIn(queryClient);
 
 // The dashboard's panels load with the dashboard, not with every page.
 const DuePanel = lazy(async () => ({ default: (await import('@client/features/inspections/components/DuePanel')).DuePanel }));

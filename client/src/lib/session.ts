@@ -11,21 +11,33 @@ export const sessionKeys = {
   sites: ['sites'] as const,
 };
 
+/** Who is signed in: GET /api/auth/me (null when signed out). */
+const meQuery = {
+  queryKey: sessionKeys.me,
+  queryFn: async ({ signal }: { signal: AbortSignal }): Promise<Me | null> => {
+    try {
+      const { user } = await api.get<z.output<typeof signedInAnswer>>('/api/auth/me', signal);
+      return user;
+    } catch (error) {
+      if (isApiError(error, 401)) return null;
+      throw error;
+    }
+  },
+  staleTime: 5 * 60_000,
+};
+
 /** The signed-in person, or null when signed out. */
 export function useMe() {
-  return useQuery({
-    queryKey: sessionKeys.me,
-    queryFn: async ({ signal }): Promise<Me | null> => {
-      try {
-        const { user } = await api.get<z.output<typeof signedInAnswer>>('/api/auth/me', signal);
-        return user;
-      } catch (error) {
-        if (isApiError(error, 401)) return null;
-        throw error;
-      }
-    },
-    staleTime: 5 * 60_000,
-  });
+  return useQuery(meQuery);
+}
+
+/**
+ * Asks who is signed in as soon as the app starts, while the page's own code is still loading
+ * (every page waits for the answer; on a slow phone the round trip then overlaps the download).
+ * A failure is left to the page's own query, which asks again.
+ */
+export function askWhoIsSignedIn(queryClient: QueryClient): void {
+  void queryClient.prefetchQuery(meQuery);
 }
 
 /** Records the person after sign-in or accepting an invitation, and drops data of anyone before. */
