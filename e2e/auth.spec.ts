@@ -1,6 +1,5 @@
 import { expect, test, type APIRequestContext, type Page } from '@playwright/test';
-
-const demoPassword = 'brink-demo-2026';
+import { DEMO_PASSWORD as demoPassword } from '../shared/demo';
 
 /** Each demo person and the heading of their part of the dashboard. */
 const demoPeople = [

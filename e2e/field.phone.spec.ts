@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import AxeBuilder from '@axe-core/playwright';
 import { expect, test, type APIRequest, type APIRequestContext, type BrowserContext, type Page, type Route } from '@playwright/test';
+import { DEMO_PASSWORD } from '../shared/demo';
 import { createDb, createPool, type Db } from '@db/database';
 import { localProjection, prepareExcavation, signedDistanceToZoneAt, type LocalProjection } from '@shared/geometry';
 import type { FieldPermit } from '@shared/schemas/field';
@@ -17,7 +18,7 @@ import { shapeColumns, shapesOf } from '../shared/geometry/shapes';
  * it, approved with a 2.00 m standoff, naming the demo operator.
  */
 
-const password = 'brink-demo-2026';
+const password = DEMO_PASSWORD;
 const PIT = { x0: 40, y0: 0, x1: 46, y1: 3 };
 const STANDOFF = 2;
 

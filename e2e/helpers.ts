@@ -1,8 +1,9 @@
 import { randomUUID } from 'node:crypto';
 import { expect, type APIRequestContext, type Page } from '@playwright/test';
+import { DEMO_PASSWORD } from '../shared/demo';
 
 /** Every demo person's password (README). */
-export const demoPassword = 'brink-demo-2026';
+export const demoPassword = DEMO_PASSWORD;
 
 /** Signs in through the page and waits for the site dashboard. */
 export async function signIn(page: Page, email: string) {

@@ -2,7 +2,9 @@ import bcrypt from 'bcryptjs';
 import type { Db } from '../database';
 
 /** The password of every demo person: printed by `npm start` and listed in the README. */
-export const DEMO_PASSWORD = 'brink-demo-2026';
+import { DEMO_PASSWORD } from '../../shared/demo';
+
+export { DEMO_PASSWORD };
 
 export const demoPeople = [
   { email: 'admin@demo.brink.test', name: 'Ada Marsh (demo administrator)', isAdmin: true, role: null },

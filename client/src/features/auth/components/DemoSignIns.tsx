@@ -1,8 +1,8 @@
+import { DEMO_PASSWORD } from '@shared/demo';
 import { Button } from '@client/components/Button';
 import { useDemoMode } from '../api/auth';
 
 /** Invented demo people, seeded only in the demo and local set-up. */
-const demoPassword = 'brink-demo-2026';
 const demoPeople = [
   { email: 'admin@demo.brink.test', role: 'Administrator' },
   { email: 'coordinator@demo.brink.test', role: 'Temporary works coordinator' },
@@ -20,7 +20,7 @@ export function DemoSignIns({ onPick }: { onPick: (email: string, password: stri
         Demo sign-ins
       </h2>
       <p className="mt-1 text-sm text-ink-soft">
-        This server runs the invented demo site. Every demo person's password is <code className="font-semibold text-ink">{demoPassword}</code>.
+        This server runs the invented demo site. Every demo person's password is <code className="font-semibold text-ink">{DEMO_PASSWORD}</code>.
       </p>
       <ul className="mt-3 flex flex-col gap-2">
         {demoPeople.map((p) => (
@@ -29,7 +29,7 @@ export function DemoSignIns({ onPick }: { onPick: (email: string, password: stri
               <span className="block font-semibold">{p.role}</span>
               <span className="text-sm text-ink-soft">{p.email}</span>
             </span>
-            <Button variant="secondary" onClick={() => onPick(p.email, demoPassword)} aria-label={`Fill in the ${p.role} demo sign-in`}>
+            <Button variant="secondary" onClick={() => onPick(p.email, DEMO_PASSWORD)} aria-label={`Fill in the ${p.role} demo sign-in`}>
               Fill in
             </Button>
           </li>

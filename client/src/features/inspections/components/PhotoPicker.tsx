@@ -1,7 +1,8 @@
 import { newUuid } from '@client/lib/random';
 import { useEffect, useId, useMemo, useRef } from 'react';
 import type { DraftPhoto } from '../api/draft';
-import { PHOTO_TYPES, photoProblem, shrinkPhoto } from './photos';
+import { shrinkPhoto } from '@client/lib/photos';
+import { PHOTO_TYPES, photoProblem } from './photos';
 
 /** Photos taken with the phone's camera or picked from its gallery, kept with the draft. */
 export function PhotoPicker({
