@@ -20,7 +20,7 @@ import { Caution } from '@client/components/Caution';
 import { CheckboxField, FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
-import { ApiError, errorMessage } from '@client/lib/api';
+import { ApiError, errorMessage, isApiError } from '@client/lib/api';
 import { fieldSentence } from '@client/lib/forms';
 import { parseId } from '@client/lib/session';
 import { useAttach, useBriefing, useComment, useExcavations, usePermit, usePlant, useRevision, useSite, useTransition } from '../api/permits';
@@ -34,7 +34,12 @@ export function PermitPage() {
   const id = parseId(useParams().permitId) ?? 0;
   const permit = usePermit(id);
   if (permit.isPending) return <Loading what="Loading the permit" />;
-  if (permit.isError) return <LoadError error={permit.error} retry={() => permit.refetch()} />;
+  if (permit.isError)
+    return (
+      <Page title={isApiError(permit.error, 404) ? 'Permit not found' : 'The permit could not be loaded'}>
+        <LoadError error={permit.error} retry={() => permit.refetch()} />
+      </Page>
+    );
   return <PermitView permit={permit.data} />;
 }
 
