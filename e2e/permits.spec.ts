@@ -90,6 +90,8 @@ test('a load permit from placing to approval and the printed permit', async ({ p
   await form.getByLabel('Your password, to sign the decision').fill(demoPassword);
   await form.getByRole('button', { name: 'Approve' }).click();
   await expect(coordinator.getByRole('heading', { name: 'Decision: Approved' })).toBeVisible();
+  // The success is said in words, and stays although nothing is left to do on the permit.
+  await expect(coordinator.getByText('Approved. The person who asked for it and the operators named on it are told by e-mail.')).toBeVisible();
   await expect(coordinator.getByTestId('decision-standoff')).toHaveText('Standoff: keep every load at least 3.00 m from the excavation edge.');
   await coordinatorContext.close();
 

@@ -169,12 +169,25 @@ function DecisionPanel({ permit }: { permit: PermitDetail }) {
   );
 }
 
+/** What a person reads after each action succeeds (the panel stays to say it, even with nothing left to do). */
+const doneMessages: Partial<Record<PermitAction, string>> = {
+  submit: 'Sent for review. The coordinators are told by e-mail.',
+  approve: 'Approved. The person who asked for it and the operators named on it are told by e-mail.',
+  return: 'Returned for changes. The person who asked for it is told by e-mail, with your comments.',
+  decline: 'Declined. The person who asked for it is told by e-mail.',
+  suspend: 'Suspended. Everyone working under it is told to stop.',
+  resume: 'Resumed: the permit is live again. The person who asked for it and the operators are told.',
+  hand_back: 'Handed back: the permit is closed.',
+  withdraw: 'Withdrawn: no work may be done under it.',
+  revise: 'A new revision is open as a draft: change it and send it for review again.',
+};
+
 function Actions({ permit }: { permit: PermitDetail }) {
   const [open, setOpen] = useState<PermitAction | null>(null);
   const briefing = useBriefing(permit.id);
   const [done, setDone] = useState<string | null>(null);
   const shown = permit.actions;
-  if (shown.length === 0 && !permit.briefingDue) return null;
+  if (shown.length === 0 && !permit.briefingDue && !done) return null;
   return (
     <Panel title="What you can do">
       <Notice>{done}</Notice>
@@ -223,7 +236,7 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
         ...(rule.signed ? { password } : {}),
         ...(action === 'approve' ? { conditions, ...(withStandoff && standoff !== '' ? { standoff: Number(standoff) } : {}) } : {}),
       });
-      onDone(`${rule.label}: done.`);
+      onDone(doneMessages[action] ?? `${rule.label}: done.`);
     } catch (e) {
       setError(e instanceof ApiError ? e : new ApiError(0, 'x', errorMessage(e)));
     }
