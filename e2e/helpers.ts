@@ -20,7 +20,7 @@ export async function ok<T>(res: Awaited<ReturnType<APIRequestContext['get']>>, 
 }
 
 /** Metres east and north of a point → [longitude, latitude] (small distances on a sphere). */
-function offset(origin: { latitude: number; longitude: number }, east: number, north: number): [number, number] {
+export function offset(origin: { latitude: number; longitude: number }, east: number, north: number): [number, number] {
   const lat = origin.latitude + north / 111_320;
   const lon = origin.longitude + east / (111_320 * Math.cos((origin.latitude * Math.PI) / 180));
   return [Number(lon.toFixed(7)), Number(lat.toFixed(7))];

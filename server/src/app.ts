@@ -10,6 +10,7 @@ import { createPool } from '@db/database';
 import type { Deps } from './deps';
 import { Api, errorHandler, HttpError } from './http';
 import { sameOrigin } from './csrf';
+import { setPlainMessages } from '@shared/schemas/messages';
 import { registerAuthRoutes } from './routes/auth';
 import { registerFieldRoutes } from './routes/field';
 import { registerExcavationRoutes } from './routes/excavations';
@@ -33,6 +34,8 @@ export const SESSION_TOUCH_MS = 60_000;
 
 export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boolean } = {}): Express {
   const { config } = deps;
+  // The shared schemas' refusals in plain words ("is required", never "expected number, received null").
+  setPlainMessages();
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');

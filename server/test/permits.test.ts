@@ -263,7 +263,7 @@ describe('approving with a standoff', () => {
     expect(plain.body.error.fields.reason).toBeDefined();
     const wrong = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: 'not-my-password', standoff: 10 });
     expect(wrong.status).toBe(400);
-    expect(wrong.body.error.fields.password).toBe('is not your password');
+    expect(wrong.body.error.fields.password).toBe('is not the one you sign in with: type it again');
     const none = await act(w.agents.coordinator, p.id, { action: 'decline', version: p.version, reason: 'x' });
     expect(none.status).toBe(400);
     expect(none.body.error.fields.password).toMatch(/required/);

@@ -53,6 +53,7 @@ export const matrix: Record<string, Row> = {
   'GET /api/permits/:id/revisions/:revision': { allow: ['admin', ...siteMembers] },
   'PATCH /api/permits/:id': { allow: ['supervisor'], body: {} },
   'POST /api/permits/:id/check': { allow: ['admin', 'supervisor', 'coordinator'], body: {} },
+  'POST /api/sites/:siteId/permits/check': { allow: ['admin', 'supervisor', 'coordinator'], body: {} },
   // The role an action needs is decided before the body is read: an operator takes no action on a
   // permit and an administrator without a role on the site neither, so both are refused whatever
   // they send (server/test/security.test.ts checks each action and role).

@@ -330,7 +330,7 @@ describe('permit decisions: the role first, never one\u2019s own permit, a limit
     for (let i = 1; i < limit; i++) {
       const r = await act(c.agent, p.id, { action: 'approve', version: p.version, password: `wrong-${i}` });
       expect(r.status, `attempt ${i}`).toBe(400);
-      expect(r.body.error.fields).toEqual({ password: 'is not your password' });
+      expect(r.body.error.fields).toEqual({ password: 'is not the one you sign in with: type it again' });
     }
     const last = await act(c.agent, p.id, { action: 'approve', version: p.version, password: 'wrong-last' });
     expect(last.status).toBe(401);

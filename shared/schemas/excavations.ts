@@ -14,6 +14,7 @@ import type { LineString, Polygon } from 'geojson';
 import { calcRequestSchema, excavationSchema as calcExcavationSchema, soilLayerSchema } from './calc';
 import type { Excavation as CalcExcavation, SoilLayer } from '../engineering/types';
 import { SITE_TOLERANCE, simplifyLine, simplifyRing } from '../geometry/simplify';
+import { oneOf } from './messages';
 
 export const excavationKinds = ['trench', 'pit'] as const;
 export type ExcavationKind = (typeof excavationKinds)[number];
@@ -135,7 +136,7 @@ const calc = calcExcavationSchema.shape;
 export const excavationFields = {
   reference: z.string({ error: 'is required' }).trim().min(1, 'is required').max(40, 'must be at most 40 characters'),
   name: z.string({ error: 'is required' }).trim().min(1, 'is required').max(120, 'must be at most 120 characters'),
-  kind: z.enum(excavationKinds, { error: `must be one of ${excavationKinds.join(', ')}` }),
+  kind: z.enum(excavationKinds, { error: oneOf(kindLabels) }),
   geometry: geometrySchema,
   width: z
     .number({ error: 'must be a number (m)' })
@@ -144,8 +145,8 @@ export const excavationFields = {
     .nullable()
     .default(null),
   depth: calc.depth,
-  state: z.enum(excavationStates, { error: `must be one of ${excavationStates.join(', ')}` }).default('planned'),
-  supportType: z.enum(supportTypes, { error: `must be one of ${supportTypes.join(', ')}` }),
+  state: z.enum(excavationStates, { error: oneOf(stateLabels) }).default('planned'),
+  supportType: z.enum(supportTypes, { error: oneOf(supportLabels) }),
   designSurcharge: calc.designSurcharge.max(200, 'must be at most 200 kPa').default(DEFAULT_DESIGN_SURCHARGE),
   ratedPressure: calc.ratedPressure,
   restraint: calc.restraint,
@@ -298,6 +299,21 @@ export const historyAnswer = z.object({ entries: z.array(historyEntryAnswer) });
 
 export const importModes = ['add', 'replace'] as const;
 export type ImportMode = (typeof importModes)[number];
+/** The import's choices as the register page offers them (the server's refusals quote them). */
+export const importModeLabels: Record<ImportMode, string> = {
+  add: 'Add new excavations only (a reference already used is refused)',
+  replace: 'Add new ones and replace those with the same reference',
+};
+/** The label of the import's choice of mode on the register page. */
+export const IMPORT_MODE_LABEL = 'What to do with existing references';
+
+/** The stored code of a choice a file may give by its code or by the word people see ("Trench box" → trench-box). */
+export function codeOfLabel<T extends string>(value: unknown, labels: Record<T, string>): unknown {
+  if (typeof value !== 'string') return value;
+  const v = value.trim().toLowerCase();
+  const hit = (Object.entries(labels) as [T, string][]).find(([code, label]) => code === v || label.toLowerCase() === v);
+  return hit ? hit[0] : value;
+}
 
 /**
  * The fields the check of a load beside an excavation reads (its plan shape, depth, support, soil,

@@ -258,14 +258,14 @@ const content = z.object({
 
 function windowOrder(v: { windowStart?: string; windowEnd?: string }, ctx: z.RefinementCtx): void {
   if (v.windowStart && v.windowEnd && Date.parse(v.windowEnd) <= Date.parse(v.windowStart)) {
-    ctx.addIssue({ code: 'custom', path: ['windowEnd'], message: 'must be after the start of the window' });
+    ctx.addIssue({ code: 'custom', path: ['windowEnd'], message: 'must be after the window opens' });
   }
 }
 
 function uniqueLoadIds(v: { loads?: { id: string }[] }, ctx: z.RefinementCtx): void {
   const seen = new Map<string, number>();
   (v.loads ?? []).forEach((l, i) => {
-    if (seen.has(l.id)) ctx.addIssue({ code: 'custom', path: ['loads', i, 'id'], message: `repeats the id of loads[${seen.get(l.id)}]` });
+    if (seen.has(l.id)) ctx.addIssue({ code: 'custom', path: ['loads', i, 'id'], message: `repeats the id of load ${(seen.get(l.id) ?? 0) + 1}` });
     else seen.set(l.id, i);
   });
 }

@@ -6,6 +6,7 @@
  * origin: x forward, y to the left), kN, kPa, kN/m³.
  */
 import { z } from 'zod';
+import { oneOf } from './messages';
 
 /** Standard gravity (m/s²): tonnes × G = kN. */
 export const G = 9.81;
@@ -37,7 +38,7 @@ const finite = (what: string) => z.number({ error: (iss) => (iss.input === undef
 
 export const plantElementSchema = z.object({
   name: z.string().trim().min(1, 'is required').max(60, 'must be at most 60 characters'),
-  kind: z.enum(plantElementKinds, { error: `must be one of ${plantElementKinds.join(', ')}` }),
+  kind: z.enum(plantElementKinds, { error: oneOf(plantElementKindLabels) }),
   x: finite('m').min(-30, 'must be between -30 and 30 m').max(30, 'must be between -30 and 30 m'),
   y: finite('m').min(-30, 'must be between -30 and 30 m').max(30, 'must be between -30 and 30 m'),
   length: finite('m').gt(0, 'must be greater than 0 m').max(20, 'must be at most 20 m'),
@@ -48,7 +49,7 @@ export type PlantElement = z.infer<typeof plantElementSchema>;
 
 const plantFields = {
   name: z.string().trim().min(1, 'is required').max(120, 'must be at most 120 characters'),
-  category: z.enum(plantCategories, { error: `must be one of ${plantCategories.join(', ')}` }),
+  category: z.enum(plantCategories, { error: oneOf(plantCategoryLabels) }),
   operatingMass: finite('t').gt(0, 'must be greater than 0 t').max(1000, 'must be at most 1000 t'),
   elements: z.array(plantElementSchema).min(1, 'must list at least one bearing element').max(32, 'must list at most 32 elements'),
   designFactor: finite('a factor').min(1, 'must be at least 1').max(3, 'must be at most 3').default(1),

@@ -1,4 +1,4 @@
-import { useId, type InputHTMLAttributes, type ReactNode, type Ref, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
+import { useEffect, useId, useRef, type InputHTMLAttributes, type ReactNode, type Ref, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
 import { fieldSentence } from '@client/lib/sentences';
 
 const controlClass =
@@ -131,12 +131,21 @@ export function CheckboxField({ label, hint, error, ...input }: CheckboxFieldPro
   );
 }
 
-/** The form's own message above the fields: why the last save failed. Read out when it appears. */
+/**
+ * The form's own message above the fields: why the last save failed. It takes the focus when it
+ * appears (and again for each new refusal), so the person, and a screen reader, start from it.
+ */
 export function FormSummary({ message }: { message: string | null | undefined }) {
+  const ref = useRef<HTMLParagraphElement>(null);
+  useEffect(() => {
+    if (message) ref.current?.focus();
+  }, [message]);
   return (
     <div role="alert" aria-live="assertive">
       {message ? (
-        <p className="rounded-md border border-error-text/40 bg-sheet px-4 py-3 font-semibold text-error-text">{message}</p>
+        <p ref={ref} tabIndex={-1} data-testid="form-summary" className="rounded-md border border-error-text/40 bg-sheet px-4 py-3 font-semibold text-error-text">
+          {message}
+        </p>
       ) : null}
     </div>
   );

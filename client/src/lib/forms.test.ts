@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { ApiError } from './api';
 import { applyServerErrors, fieldSentence } from './forms';
+import { fieldLabel, serverSummary } from './fieldLabels';
 
 describe('fieldSentence', () => {
   it('joins a reason that reads on from the label', () => {
@@ -23,6 +24,40 @@ describe('applyServerErrors', () => {
     const error = new ApiError(400, 'invalid', 'Please correct the request.', { 'soil[1].top': 'repeats the top of soil[0] (0 m)', depth: 'must be greater than 0 m', geometry: 'must not cross itself' });
     const summary = applyServerErrors(error, setError, ['soil', 'depth'], { geometry: 'The shape' });
     expect(set).toEqual({ 'soil.1.top': 'repeats the top of soil[0] (0 m)', depth: 'must be greater than 0 m' });
-    expect(summary).toBe('Please correct the request. The shape must not cross itself.');
+    expect(summary).toBe('Correct the 2 fields marked below. The shape must not cross itself.');
+  });
+});
+
+describe('serverSummary and fieldLabel: the API refusals in the words of the forms, each said once', () => {
+  it('names loads, dig checks and import features by their labels, never by their paths', () => {
+    expect(fieldLabel('loads[0].unitWeight')).toBe('Load 1: Unit weight (kN/m³)');
+    expect(fieldLabel('loads[2].height')).toBe('Load 3: Height (m)');
+    expect(fieldLabel('windowEnd')).toBe('Window closes');
+    expect(fieldLabel('features[1].supportType')).toBe('Feature 2: Support');
+    expect(fieldLabel('dig.servicesChecks.locatorScan.by')).toBe('Cable-locator scan: Who did it');
+    expect(fieldLabel('someNewField')).toBe('Some new field');
+  });
+
+  it('turns "Please correct the request: loads[0].unitWeight Invalid input" into words', () => {
+    const e = new ApiError(400, 'invalid', 'Please correct the request: loads[0].unitWeight is required', { 'loads[0].unitWeight': 'is required' });
+    expect(serverSummary(e)).toBe('Load 1: Unit weight (kN/m³) is required.');
+    expect(serverSummary(e)).not.toMatch(/loads\[|Invalid input|Please correct/);
+  });
+
+  it('says a reason shown next to its field once: the summary only points to it', () => {
+    const e = new ApiError(400, 'invalid', 'The decision was not signed: the password is not yours.', { password: 'is not the one you sign in with: type it again' });
+    const summary = serverSummary(e, (k) => k === 'password');
+    expect(summary).toBe('Correct the field marked below.');
+    expect(summary).not.toMatch(/password/i);
+    expect(fieldSentence(fieldLabel('password'), e.fields.password)).toBe('Password is not the one you sign in with: type it again.');
+  });
+
+  it('says "Window closes must be after the window opens", not "windowEnd must be after the start"', () => {
+    const e = new ApiError(400, 'invalid', 'Please correct the request: windowEnd must be after the window opens', { windowEnd: 'must be after the window opens' });
+    expect(serverSummary(e)).toBe('Window closes must be after the window opens.');
+  });
+
+  it("keeps the server's own sentence when it names no field", () => {
+    expect(serverSummary(new ApiError(409, 'conflict', 'Someone else changed this permit.'))).toBe('Someone else changed this permit.');
   });
 });

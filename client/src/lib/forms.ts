@@ -1,13 +1,15 @@
 import type { FieldValues, Path, UseFormSetError } from 'react-hook-form';
-import { z } from 'zod';
+import { setPlainMessages } from '@shared/schemas/messages';
 import { ApiError, errorMessage } from './api';
 import { fieldSentence } from './sentences';
+import { fieldLabel, serverSummary } from './fieldLabels';
 
 export { fieldSentence };
 
 /**
  * Puts the server's field reasons under the matching form fields and returns the sentence for the
- * form's summary. Reasons for fields the form does not show are added to the summary, so none is lost.
+ * form's summary (`serverSummary`: reasons for fields the form does not show are spelt out there, by
+ * the one label mapping unless `labels` names them, so none is lost and none is said twice).
  * Never resets the form: what the person typed stays.
  */
 export function applyServerErrors<T extends FieldValues>(
@@ -17,34 +19,21 @@ export function applyServerErrors<T extends FieldValues>(
   labels: Partial<Record<Path<T>, string>> = {},
 ): string {
   if (!(error instanceof ApiError)) return errorMessage(error);
-  const unshown: string[] = [];
+  // The server names list items as `soil[0].top`; react-hook-form as `soil.0.top`.
+  const formName = (serverName: string) => serverName.replace(/\[(\d+)\]/g, '.$1');
+  const isShown = (serverName: string) => {
+    const name = formName(serverName);
+    return (shownFields as readonly string[]).includes(name) || (shownFields as readonly string[]).includes(name.split('.')[0]);
+  };
   for (const [serverName, reason] of Object.entries(error.fields)) {
-    // The server names list items as `soil[0].top`; react-hook-form as `soil.0.top`.
-    const name = serverName.replace(/\[(\d+)\]/g, '.$1');
-    if ((shownFields as readonly string[]).includes(name) || (shownFields as readonly string[]).includes(name.split('.')[0])) {
-      setError(name as Path<T>, { type: 'server', message: reason });
-    } else {
-      unshown.push(fieldSentence(labels[name as Path<T>] ?? name, reason));
-    }
+    if (isShown(serverName)) setError(formName(serverName) as Path<T>, { type: 'server', message: reason });
   }
-  return [error.message, ...unshown].join(' ');
+  return serverSummary(error, isShown, (k) => labels[formName(k) as Path<T>] ?? fieldLabel(k));
 }
 
-let configured = false;
-
-/** Plain reasons for the cases the shared schemas leave to zod's defaults (an empty number box). */
+/** Plain reasons for the cases the shared schemas leave to zod's defaults (shared/schemas/messages.ts). */
 export function configureFormMessages() {
-  if (configured) return;
-  configured = true;
-  z.config({
-    customError: (issue) => {
-      if (issue.code === 'invalid_type') {
-        if (issue.input === undefined || issue.input === null || issue.input === '') return 'is required';
-        if (issue.expected === 'number') return 'must be a number';
-      }
-      return undefined;
-    },
-  });
+  setPlainMessages();
 }
 
 // Every form that validates with the shared schemas imports this module, so the messages are set

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import type { Request, RequestHandler } from 'express';
 import { idSchema } from '@shared/schemas/common';
+import { oneOf } from '@shared/schemas/messages';
 import {
   canonical,
   changedExcavationAnswer,
@@ -11,6 +12,8 @@ import {
   designFieldsIn,
   excavationInputSchema,
   excavationUpdateSchema,
+  IMPORT_MODE_LABEL,
+  importModeLabels,
   importModes,
   type ExcavationValues,
   type ImportReport,
@@ -306,7 +309,7 @@ export function registerExcavationRoutes(api: Api): void {
     },
     async ({ req, res, params, user }) => {
       const site = await siteOrigin(db, params.siteId);
-      const { mode } = parseOr400(z.object({ mode: z.enum(importModes, { error: 'must be add or replace' }).default('add') }), req.body ?? {}, 'request');
+      const { mode } = parseOr400(z.object({ mode: z.enum(importModes, { error: oneOf(importModeLabels) }).default('add') }), req.body ?? {}, 'request');
       const [file] = filesOf(req, 'file');
       if (!file) throw badRequest('Please choose a GeoJSON file.', { file: 'is required' });
       const text = file.buffer.toString('utf8');
@@ -324,7 +327,7 @@ export function registerExcavationRoutes(api: Api): void {
       if (mode === 'add') {
         for (const f of plan.features) {
           if (existing.has(f.values.reference)) {
-            refused.push({ index: f.index, reference: f.values.reference, reasons: { reference: 'is already used on this site (import with mode "replace" to update it)' } });
+            refused.push({ index: f.index, reference: f.values.reference, reasons: { reference: `is already used on this site: to update it, choose "${importModeLabels.replace}" under "${IMPORT_MODE_LABEL}"` } });
           }
         }
       }

@@ -6,8 +6,12 @@
 import type { Selectable } from 'kysely';
 import type { Feature, FeatureCollection } from 'geojson';
 import {
+  codeOfLabel,
   excavationInputSchema,
+  kindLabels,
   SITE_RADIUS,
+  stateLabels,
+  supportLabels,
   type Excavation,
   type ExcavationInput,
   type ExcavationValues,
@@ -219,10 +223,14 @@ export async function readImport(text: string, proj: LocalProjection): Promise<I
       return;
     }
     const gtype = feature.geometry?.type;
-    const input: Partial<ExcavationInput> & Record<string, unknown> = {
+    const input: Record<string, unknown> = {
       ...props,
+      // A file may give a choice by the word the register shows ("Trench box") or by its code.
+      ...('supportType' in props ? { supportType: codeOfLabel(props.supportType, supportLabels) } : {}),
+      ...('state' in props ? { state: codeOfLabel(props.state, stateLabels) } : {}),
+      ...('kind' in props ? { kind: codeOfLabel(props.kind, kindLabels) } : {}),
       geometry: feature.geometry as ExcavationInput['geometry'],
-      kind: (props.kind as ExcavationInput['kind']) ?? (gtype === 'LineString' ? 'trench' : gtype === 'Polygon' ? 'pit' : undefined),
+      kind: (codeOfLabel(props.kind, kindLabels) as ExcavationInput['kind']) ?? (gtype === 'LineString' ? 'trench' : gtype === 'Polygon' ? 'pit' : undefined),
     };
     const parsed = excavationInputSchema.safeParse(input);
     if (!parsed.success) {

@@ -51,7 +51,7 @@ export class StaleError extends HttpError {
 /** A wrong password under a decision: 400 naming the field; the route counts it (attempt limit). */
 export class WrongPasswordError extends HttpError {
   constructor() {
-    super(400, 'invalid', 'That is not your password: the decision was not signed.', { password: 'is not your password' });
+    super(400, 'invalid', 'The decision was not signed: the password is not yours.', { password: 'is not the one you sign in with: type it again' });
   }
 }
 

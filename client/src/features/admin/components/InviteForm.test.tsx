@@ -33,8 +33,10 @@ describe('InviteForm', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Send invitation' }));
 
     expect(await screen.findByText('E-mail already belongs to a person in Brink.')).toBeTruthy();
-    // A reason for a field the form does not show still reaches the person, in the summary.
-    expect(screen.getByRole('alert').textContent).toBe('The invitation was not sent. tenant is unknown.');
+    // The summary says to correct the field marked below (its reason stands there, once); a reason for a
+    // field the form does not show still reaches the person, in words, and the summary takes the focus.
+    expect(screen.getByRole('alert').textContent).toBe('Correct the field marked below. Tenant is unknown.');
+    expect(document.activeElement).toBe(screen.getByTestId('form-summary'));
     expect((screen.getByLabelText('E-mail') as HTMLInputElement).value).toBe('Pat.Digger@Example.test');
     expect((screen.getByLabelText('Name') as HTMLInputElement).value).toBe('Pat Digger');
     expect(screen.getByLabelText('E-mail').getAttribute('aria-invalid')).toBe('true');

@@ -1,4 +1,5 @@
 import { useParams } from 'react-router-dom';
+import { ButtonLink } from '@client/components/Button';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
 import { canInspectOnSite, parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
@@ -18,7 +19,12 @@ export function DashboardPage() {
   // Supervisors and coordinators may always inspect; operators where the site gives them the duty.
   const panelSite = { siteId: site.id, timeZone: site.timezone, canInspect: role === 'supervisor' || role === 'coordinator' || canInspectOnSite(me.data, site.id) };
   return (
-    <Page title={site.name} intro="Your dashboard for this site." documentTitle={`Dashboard, ${site.name}`}>
+    <Page
+      title={site.name}
+      intro="Your dashboard for this site."
+      documentTitle={`Dashboard, ${site.name}`}
+      actions={role === 'supervisor' ? <ButtonLink to={`/sites/${site.id}/permits/new`} variant="primary">Ask for a permit</ButtonLink> : null}
+    >
       {role === 'supervisor' ? <SupervisorPanels site={panelSite} /> : null}
       {role === 'coordinator' ? <CoordinatorPanels site={panelSite} /> : null}
       {role === 'operator' ? <OperatorPanels site={panelSite} /> : null}

@@ -4,7 +4,7 @@ import type L from 'leaflet';
 import type { GeoJsonObject } from 'geojson';
 import { excavationOutline, GeometryError, influenceZone, localProjection, type ExcavationShape } from '@shared/geometry';
 import { designFields, stateLabels, supportLabels, type Excavation, type ExcavationGeometry, type ExcavationKind, type ExcavationState } from '@shared/schemas/excavations';
-import { Button } from '@client/components/Button';
+import { Button, ButtonLink } from '@client/components/Button';
 import { useDocumentTitle } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
 import { fmt, useExcavations, useSitePlan } from '@client/lib/excavations';
@@ -88,6 +88,8 @@ export function SiteMapPage() {
   const canEdit = Boolean(me?.isAdmin || role === 'supervisor' || role === 'coordinator');
   // The support's design data is the coordinator's; registering an excavation sets it, so drawing a new one is theirs too.
   const canEditDesign = Boolean(me?.isAdmin || role === 'coordinator');
+  // Supervisors ask for permits: from an open excavation, the request names it.
+  const askPermit = role === 'supervisor';
   const [drawing, setDrawing] = useState<DrawShape | null>(null);
   const [toolsReady, setToolsReady] = useState(false);
   const [editing, setEditing] = useState<Editing | null>(null);
@@ -231,6 +233,11 @@ export function SiteMapPage() {
         <aside className="flex flex-col gap-5 overflow-y-auto rounded-md border border-rule bg-sheet p-4 lg:h-full" aria-label="Excavation details">
           {editing ? (
             <>
+              {askPermit && editing.excavation?.state === 'open' ? (
+                <ButtonLink to={`/sites/${siteId}/permits/new?excavation=${editing.excavation.id}`} variant="primary" className="self-start">
+                  Ask for a permit beside {editing.excavation.reference}
+                </ButtonLink>
+              ) : null}
               <ExcavationForm
                 key={editing.formKey}
                 excavation={editing.excavation}
@@ -275,7 +282,7 @@ export function SiteMapPage() {
           ) : (
             <>
               <Legend />
-              <ExcavationList list={list} inspection={inspectionById} onOpen={(e) => { open(e); showOnMap(e); }} />
+              <ExcavationList list={list} inspection={inspectionById} onOpen={(e) => { open(e); showOnMap(e); }} askPermit={askPermit ? siteId : null} />
               <PlanControls siteId={siteId} origin={site} plan={plan.data ?? null} canEdit={canEdit} opacity={planOpacity} onOpacity={setOpacity} />
             </>
           )}
@@ -325,7 +332,7 @@ function Legend() {
   );
 }
 
-function ExcavationList({ list, onOpen, inspection }: { list: Excavation[]; onOpen: (e: Excavation) => void; inspection: Record<number, InspectionState> }) {
+function ExcavationList({ list, onOpen, inspection, askPermit }: { list: Excavation[]; onOpen: (e: Excavation) => void; inspection: Record<number, InspectionState>; askPermit: number | null }) {
   if (list.length === 0) return <p className="text-ink-soft">No excavations on this site yet.</p>;
   return (
     <SideSection id="map-list" title="Excavations">
@@ -343,6 +350,11 @@ function ExcavationList({ list, onOpen, inspection }: { list: Excavation[]; onOp
                 {stateLabels[e.state]} · depth {fmt.m(e.depth)} · {supportLabels[e.supportType]} · allowance {fmt.kPa(e.designSurcharge)}
               </span>
             </button>
+            {askPermit !== null && e.state === 'open' ? (
+              <Link className="ml-2 text-sm" to={`/sites/${askPermit}/permits/new?excavation=${e.id}`} aria-label={`Ask for a permit beside ${e.reference}`}>
+                Ask for a permit
+              </Link>
+            ) : null}
           </li>
         ))}
       </ul>

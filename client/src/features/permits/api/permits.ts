@@ -58,7 +58,7 @@ export { usePlant } from '@client/lib/plant';
 export function useOperators(siteId: number, enabled = true) {
   return useQuery({
     queryKey: ['sites', siteId, 'operators'],
-    queryFn: ({ signal }) => api.get<{ operators: { id: number; name: string; email: string }[] }>(`/api/sites/${siteId}/operators`, signal).then((r) => r.operators),
+    queryFn: ({ signal }) => api.get<{ operators: { id: number; name: string; email: string }[]; lastUsed: number[] }>(`/api/sites/${siteId}/operators`, signal),
     enabled,
   });
 }
@@ -101,6 +101,11 @@ export function useTransition(id: number) {
     onSuccess,
     onError: (e) => onError(e, id),
   });
+}
+
+/** The server's check of a request not yet saved (the other permits it counts, above all). */
+export function checkRequestOnServer(siteId: number, proposal: CheckProposal): Promise<PermitCheck> {
+  return api.post<{ check: PermitCheck }>(`/api/sites/${siteId}/permits/check`, proposal).then((r) => r.check);
 }
 
 /** The server's (authoritative) check of proposed changes, without saving them. */

@@ -7,6 +7,8 @@ import { usePermitList } from '../api/permits';
 import { StatusLabel } from './StatusLabel';
 
 const SHOWN = 5;
+/** Requests awaiting a decision are a coordinator's queue: each one is shown (up to this many), so none is a page away. */
+const SHOWN_FOR_REVIEW = 20;
 
 /**
  * A dashboard panel of one permit list of the site (awaiting my review, my requests, live now),
@@ -16,6 +18,7 @@ export function DashboardPermits({ siteId, view, intro }: { siteId: number; view
   // Awaiting review: oldest first; the others by when their window opens.
   const list = usePermitList({ siteId: String(siteId), view, sort: view === 'review' ? 'updated' : 'windowStart', order: 'asc' });
   const title = permitViewLabels[view];
+  const shown = view === 'review' ? SHOWN_FOR_REVIEW : SHOWN;
   return (
     <Panel title={title} level={3}>
       <p className="text-ink-soft">{intro}</p>
@@ -27,7 +30,7 @@ export function DashboardPermits({ siteId, view, intro }: { siteId: number; view
         <p>None at the moment.</p>
       ) : (
         <ul className="flex flex-col gap-2">
-          {list.data.slice(0, SHOWN).map((p) => (
+          {list.data.slice(0, shown).map((p) => (
             <li key={p.id} className="flex flex-col">
               <Link to={`/permits/${p.id}`} className="font-semibold">
                 {p.number}: {p.description}
@@ -41,7 +44,7 @@ export function DashboardPermits({ siteId, view, intro }: { siteId: number; view
       )}
       <p>
         <Link to={`/sites/${siteId}/permits?view=${view}`}>
-          {list.data && list.data.length > SHOWN ? `All ${list.data.length}` : 'Open the list'}
+          {list.data && list.data.length > shown ? `All ${list.data.length}` : 'Open the list'}
         </Link>
       </p>
     </Panel>

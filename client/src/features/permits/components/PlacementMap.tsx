@@ -1,4 +1,4 @@
-import { Fragment, useEffect, useMemo } from 'react';
+import { Fragment, useEffect, useMemo, useState } from 'react';
 import L from 'leaflet';
 import { Marker, Polygon, Polyline, Tooltip, useMap } from 'react-leaflet';
 import { BaseMap } from '@client/components/map/BaseMap';
@@ -26,6 +26,8 @@ interface PlacementMapProps {
   /** Standoff drawn as the exclusion zone (m): the approved one, or the computed one. */
   standoff: number | null;
   editable: boolean;
+  /** A drag of a load's Move or Turn handle begins (the editor keeps the loads as they were, for Undo). */
+  onMoveStart?: () => void;
   /** Each position while a handle is dragged (many a frame: the page coalesces them) and where it is let go. */
   onMove?: (loadId: string, to: XY) => void;
   onRotate?: (loadId: string, bearing: number) => void;
@@ -61,7 +63,8 @@ function FitOnce({ bounds }: { bounds: L.LatLngBounds | null }) {
 /** Orange: where a load fails beyond an offset where it passes (not red, which is the exclusion zone). */
 const BAND_COLOUR = '#b45309';
 
-export function PlacementMap({ proj, excavations, loads, plant, check, verdict, standoff, editable, onMove, onRotate, onDragging }: PlacementMapProps) {
+export function PlacementMap({ proj, excavations, loads, plant, check, verdict, standoff, editable, onMoveStart, onMove, onRotate, onDragging }: PlacementMapProps) {
+  const [zoom, setZoom] = useState<number | null>(null);
   const prepared = useMemo(
     () =>
       excavations.flatMap((e) => {
@@ -106,6 +109,7 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
     <div className="overflow-hidden rounded-md border border-rule-strong">
       <BaseMap origin={{ latitude: origin[0], longitude: origin[1] }} zoom={19} className="h-[28rem] w-full" ariaLabel="Map of the excavations and the loads of this permit">
         <FitOnce bounds={bounds} />
+        <ZoomWatch onZoom={setZoom} />
         {excavations.map((e) =>
           e.influenceZone ? (
             <Polygon key={`iz${e.id}`} positions={toLeaflet(e.influenceZone)} pathOptions={{ color: '#4c5a64', weight: 1, dashArray: '4 4', fill: false }} interactive={false} />
@@ -154,7 +158,10 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
                   title={`Move ${name}`}
                   icon={moveIcon}
                   eventHandlers={{
-                    dragstart: () => onDragging?.(true),
+                    dragstart: () => {
+                      onMoveStart?.();
+                      onDragging?.(true);
+                    },
                     drag: (ev) => {
                       const ll = (ev.target as L.Marker).getLatLng();
                       onMove?.(load.id, proj.toLocal([ll.lng, ll.lat]));
@@ -177,7 +184,10 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
                         title={`Turn ${name}`}
                         icon={turnIcon}
                         eventHandlers={{
-                          dragstart: () => onDragging?.(true),
+                          dragstart: () => {
+                            onMoveStart?.();
+                            onDragging?.(true);
+                          },
                           drag: (ev) => {
                             const ll = (ev.target as L.Marker).getLatLng();
                             onRotate?.(load.id, bearingOf(c, proj.toLocal([ll.lng, ll.lat])));
@@ -196,11 +206,59 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
           );
         })}
       </BaseMap>
+      {editable && zoom !== null ? <ZoomHint loads={loads} plant={plant} proj={proj} zoom={zoom} /> : null}
       <p className="px-3 py-2 text-sm text-ink-soft">
         North is up. Grey: excavations; dashed: influence zones (within the depth of the edge); red band: exclusion zone
         {standoff ? ` (${standoff.toFixed(2)} m from the edge)` : ''}.
         {bands.length ? ' Orange bands: offsets where a load fails although it passes nearer the edge — moving a load farther away is not always safer.' : ''} Loads are coloured by the verdict (slate until checked).{editable ? ' Drag “Move” to place a load, “Turn” to turn a machine.' : ''}
       </p>
     </div>
+  );
+}
+
+/** Reports the map's zoom level now and after each zoom. */
+function ZoomWatch({ onZoom }: { onZoom: (zoom: number) => void }) {
+  const map = useMap();
+  useEffect(() => {
+    const report = () => onZoom(map.getZoom());
+    report();
+    map.on('zoomend', report);
+    return () => {
+      map.off('zoomend', report);
+    };
+  }, [map, onZoom]);
+  return null;
+}
+
+/** Below this many screen pixels across, a machine cannot be placed by eye to a few centimetres. */
+export const SMALL_ON_SCREEN_PX = 16;
+
+/** Web Mercator metres per CSS pixel at a latitude and zoom (256-pixel tiles). */
+export function metresPerPixel(latitude: number, zoom: number): number {
+  return (40075016.686 * Math.cos((latitude * Math.PI) / 180)) / 2 ** (zoom + 8);
+}
+
+/** "Zoom in" when the smallest machine on the plan is only a few pixels across at this zoom. */
+function ZoomHint({ loads, plant, proj, zoom }: { loads: PlacedLoad[]; plant: Map<number, PlantForCheck>; proj: LocalProjection; zoom: number }) {
+  let smallest = Infinity;
+  let name = '';
+  for (const l of loads) {
+    if (l.kind !== 'plant') continue;
+    const item = plant.get(l.plantItemId);
+    if (!item) continue;
+    const xs = item.elements.flatMap((e) => [e.y - e.width / 2, e.y + e.width / 2]);
+    const across = Math.max(...xs) - Math.min(...xs);
+    if (across < smallest) {
+      smallest = across;
+      name = l.label || item.name;
+    }
+  }
+  if (!Number.isFinite(smallest)) return null;
+  const px = smallest / metresPerPixel(proj.origin[1], zoom);
+  if (px >= SMALL_ON_SCREEN_PX) return null;
+  return (
+    <p role="status" className="border-b border-rule bg-paper px-3 py-2 text-sm font-semibold" data-testid="zoom-hint">
+      {name} is only {Math.max(1, Math.round(px))} pixels wide at this zoom: zoom in (the + button, or the mouse wheel) to place it precisely.
+    </p>
   );
 }

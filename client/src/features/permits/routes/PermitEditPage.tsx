@@ -1,8 +1,8 @@
-import { permitErrorSummary, permitFieldLabel } from '../components/fieldNames';
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { Link, useNavigate, useParams } from 'react-router-dom';
+import { useQueryClient } from '@tanstack/react-query';
 import { localProjection, type XY } from '@shared/geometry';
-import { CheckInputError, checkExcavationOf, cumulativeCheck, PlacementError, type PlantForCheck } from '@shared/permits/check';
+import { checkExcavationOf, cumulativeCheck, type PlantForCheck } from '@shared/permits/check';
 import {
   placedLoadLabels,
   serviceCheckKeys,
@@ -18,10 +18,13 @@ import { Button, ButtonLink } from '@client/components/Button';
 import { CheckboxField, FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
-import { ApiError, errorMessage } from '@client/lib/api';
+import { api, ApiError, errorMessage } from '@client/lib/api';
+import { serverSummary } from '@client/lib/fieldLabels';
 import { fieldSentence } from '@client/lib/forms';
 import { parseId } from '@client/lib/session';
-import { checkOnServer, useExcavations, useOperators, usePermit, usePlant, useSite, useTransition, useUpdatePermit } from '../api/permits';
+import { checkOnServer, checkRequestOnServer, permitKeys, useCreatePermit, useExcavations, useOperators, usePermit, usePlant, useSite, useUpdatePermit } from '../api/permits';
+import { placeAtStandoff, PLACING_MARGIN } from '../components/autoPlace';
+import { liveOutcome, type LiveOutcome } from '../components/liveCheck';
 import { CheckSheets } from '../components/CheckSheet';
 import { PlacementMap } from '../components/PlacementMap';
 import { centreOf, moveLoad, rectangle, segment } from '../components/placement';
@@ -33,9 +36,25 @@ interface Draft {
   windowEnd: string;
   excavationIds: number[];
   operatorIds: number[];
-  method: 'dispersion-45' | 'elastic';
+  /** Absent on a new request until chosen: the site's default. */
+  method: 'dispersion-45' | 'elastic' | undefined;
   loads: PlacedLoad[];
   dig: DigDetails | null;
+}
+
+/** A new request: the window from a quarter hour from now for eight hours, the excavation it was asked from. */
+function newDraft(excavationId: number | null): Draft {
+  const now = Date.now();
+  return {
+    description: '',
+    windowStart: new Date(Math.ceil((now + 15 * 60_000) / 300_000) * 300_000).toISOString(),
+    windowEnd: new Date(Math.ceil((now + 15 * 60_000) / 300_000) * 300_000 + 8 * 3600_000).toISOString(),
+    excavationIds: excavationId ? [excavationId] : [],
+    operatorIds: [],
+    method: undefined,
+    loads: [],
+    dig: null,
+  };
 }
 
 function draftOf(p: PermitDetail): Draft {
@@ -71,36 +90,78 @@ export function PermitEditPage() {
   return <Editor permit={permit.data} key={`${permit.data.id}-${permit.data.revision}`} />;
 }
 
-function Editor({ permit }: { permit: PermitDetail }) {
+/** What the editor works on: a saved draft or returned permit, or a request not yet saved (the page that asks for a permit). */
+export type EditorSubject =
+  | { permit: PermitDetail }
+  | { permit: null; siteId: number; excavationId: number | null };
+
+/** How many moves "Undo" can take back. */
+const UNDO_DEPTH = 20;
+
+/**
+ * Asking for a permit and placing its loads, on one page: the request (the work, the window, the
+ * excavations, the operators), the loads on the map with the live check, and the dig checks. A
+ * machine chosen from the library lands at its computed standoff from the named excavation; the
+ * last moves can be undone. A new request is created when it is first saved or sent.
+ */
+export function Editor(subject: EditorSubject) {
+  const { permit } = subject;
+  const siteId = permit ? permit.siteId : subject.siteId;
   const navigate = useNavigate();
-  const site = useSite(permit.siteId);
-  const excavations = useExcavations(permit.siteId);
+  const site = useSite(siteId);
+  const excavations = useExcavations(siteId);
   const plantQ = usePlant();
-  const operators = useOperators(permit.siteId);
-  const update = useUpdatePermit(permit.id);
-  const move = useTransition(permit.id);
-  const [draft, setDraft] = useState<Draft>(() => draftOf(permit));
-  const [version, setVersion] = useState(permit.version);
+  const operators = useOperators(siteId);
+  const create = useCreatePermit();
+  const update = useUpdatePermit(permit?.id ?? 0);
+  const qc = useQueryClient();
+  const [kind, setKind] = useState<'load' | 'dig'>(permit?.kind ?? 'load');
+  const [draft, setDraft] = useState<Draft>(() => (permit ? draftOf(permit) : newDraft(subject.permit === null ? subject.excavationId : null)));
+  const [version, setVersion] = useState(permit?.version ?? 0);
   const [fields, setFields] = useState<Record<string, string>>({});
   const [summary, setSummary] = useState<string | null>(null);
-  const [server, setServer] = useState<PermitCheck | null>(permit.current.check);
-  const [newPlant, setNewPlant] = useState('');
+  const [server, setServer] = useState<PermitCheck | null>(permit?.current.check ?? null);
   const [newKind, setNewKind] = useState<Exclude<PlacedLoadKind, 'plant'>>('stockpile');
+  const [placed, setPlaced] = useState<string | null>(null);
+  const [history, setHistory] = useState<PlacedLoad[][]>([]);
+  const [busy, setBusy] = useState(false);
+  const operatorsOffered = useRef(permit !== null);
+  const undoRef = useRef<() => void>(() => undefined);
+
+  // Ctrl+Z (⌘Z) takes back the last move, except while typing in a box (the box's own undo).
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      const typing = e.target instanceof HTMLInputElement || e.target instanceof HTMLTextAreaElement || e.target instanceof HTMLSelectElement;
+      if ((e.ctrlKey || e.metaKey) && !e.shiftKey && e.key.toLowerCase() === 'z' && !typing) {
+        e.preventDefault();
+        undoRef.current();
+      }
+    };
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, []);
 
   const proj = useMemo(() => (site.data ? localProjection([site.data.longitude, site.data.latitude]) : null), [site.data]);
   const plant = useMemo(() => new Map<number, PlantForCheck>((plantQ.data ?? []).map((p) => [p.id, p])), [plantQ.data]);
   const named = useMemo(() => (excavations.data ?? []).filter((e) => draft.excavationIds.includes(e.id)), [excavations.data, draft.excavationIds]);
   const nearby = useMemo(() => (excavations.data ?? []).filter((e) => e.state === 'open' && !draft.excavationIds.includes(e.id)), [excavations.data, draft.excavationIds]);
+  const method = draft.method ?? site.data?.defaultMethod ?? 'dispersion-45';
+
+  // A new request names the operators of the supervisor's last request on the site, ticked.
+  useEffect(() => {
+    if (operatorsOffered.current || !operators.data) return;
+    operatorsOffered.current = true;
+    setDraft((d) => ({ ...d, operatorIds: operators.data.lastUsed }));
+  }, [operators.data]);
 
   // The other permits to count come from the server (authoritative), again when the window or excavations change.
   useEffect(() => {
     const t = setTimeout(() => {
-      checkOnServer(permit.id, { windowStart: draft.windowStart, windowEnd: draft.windowEnd, excavationIds: draft.excavationIds, loads: [] })
-        .then(setServer)
-        .catch(() => undefined);
+      const proposal = { windowStart: draft.windowStart, windowEnd: draft.windowEnd, excavationIds: draft.excavationIds, loads: [] };
+      (permit ? checkOnServer(permit.id, proposal) : checkRequestOnServer(siteId, proposal)).then(setServer).catch(() => undefined);
     }, 300);
     return () => clearTimeout(t);
-  }, [permit.id, draft.windowStart, draft.windowEnd, draft.excavationIds]);
+  }, [permit, siteId, draft.windowStart, draft.windowEnd, draft.excavationIds]);
 
   // While a handle is dragged: the positions it reports are applied at most once an animation frame
   // (the latest wins), and each frame checks only the verdict where the loads stand (no standoff
@@ -127,9 +188,26 @@ function Editor({ permit }: { permit: PermitDetail }) {
     [],
   );
 
+  const permitRef = { id: permit?.id ?? null, number: permit?.number ?? 'new' };
+  /** The live check of these loads; `verdictOnly` (a drag frame) skips the standoff search. */
+  function runLive(loads: PlacedLoad[], verdictOnly = false): PermitCheck {
+    return cumulativeCheck({
+      origin: [site.data!.longitude, site.data!.latitude],
+      method,
+      minimumClearance: site.data!.minimumClearance,
+      permit: { ...permitRef, windowStart: draft.windowStart, windowEnd: draft.windowEnd, loads },
+      excavations: named.map(checkExcavationOf),
+      nearby: nearby.map(checkExcavationOf),
+      plant,
+      others: server?.otherPermits ?? [],
+      now: new Date(),
+      ...(verdictOnly ? { standoffs: false as const } : {}),
+    });
+  }
+
   // The live check, in the browser with the shared engine and the shared schemas, on every move.
   // Figures the schemas refuse give "Cannot check", never a verdict.
-  const live = useMemo((): { check: PermitCheck | null; refused: string | null; invalid: string | null; partial: boolean } => {
+  const live = useMemo((): LiveOutcome & { partial: boolean } => {
     const started = performance.now();
     try {
       return { ...liveCheck(dragging), partial: dragging };
@@ -137,32 +215,11 @@ function Editor({ permit }: { permit: PermitDetail }) {
       measureLiveCheck(started, dragging);
     }
     // eslint-disable-next-line react-hooks/exhaustive-deps -- liveCheck reads exactly these
-  }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit.id, permit.number, server, dragging]);
+  }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit?.id, permit?.number, server, method, dragging]);
 
-  function liveCheck(verdictOnly: boolean): { check: PermitCheck | null; refused: string | null; invalid: string | null } {
+  function liveCheck(verdictOnly: boolean): LiveOutcome {
     if (!site.data || !proj || draft.loads.length === 0 || named.length === 0 || !plantQ.data) return { check: null, refused: null, invalid: null };
-    try {
-      return {
-        check: cumulativeCheck({
-          origin: [site.data.longitude, site.data.latitude],
-          method: draft.method,
-          minimumClearance: site.data.minimumClearance,
-          permit: { id: permit.id, number: permit.number, windowStart: draft.windowStart, windowEnd: draft.windowEnd, loads: draft.loads },
-          excavations: named.map(checkExcavationOf),
-          nearby: nearby.map(checkExcavationOf),
-          plant,
-          others: server?.otherPermits ?? [],
-          now: new Date(),
-          ...(verdictOnly ? { standoffs: false as const } : {}),
-        }),
-        refused: null,
-        invalid: null,
-      };
-    } catch (e) {
-      if (e instanceof CheckInputError) return { check: null, refused: null, invalid: `Cannot check: ${permitFieldLabel(e.field)} ${e.reason}` };
-      if (e instanceof PlacementError) return { check: null, refused: e.message, invalid: null };
-      return { check: null, refused: 'A load could not be placed: check its figures.', invalid: null };
-    }
+    return liveOutcome(() => runLive(draft.loads, verdictOnly));
   }
 
   if (site.isPending || excavations.isPending || plantQ.isPending) return <Loading what="Loading the site" />;
@@ -170,7 +227,21 @@ function Editor({ permit }: { permit: PermitDetail }) {
   if (!proj) return null;
 
   const set = (patch: Partial<Draft>) => setDraft((d) => ({ ...d, ...patch }));
+  /** Keeps the loads as they are now, for "Undo". */
+  const remember = () => setHistory((h) => [...h.slice(-(UNDO_DEPTH - 1)), draft.loads]);
+  const setLoads = (loads: PlacedLoad[]) => {
+    remember();
+    set({ loads });
+  };
   const setLoad = (loadId: string, f: (l: PlacedLoad) => PlacedLoad) => setDraft((d) => ({ ...d, loads: d.loads.map((l) => (l.id === loadId ? f(l) : l)) }));
+  const undo = () => {
+    const last = history[history.length - 1];
+    if (!last) return;
+    setHistory((h) => h.slice(0, -1));
+    set({ loads: last });
+    setPlaced(null);
+  };
+  undoRef.current = undo;
   const nextId = (prefix: string) => {
     let i = 1;
     while (draft.loads.some((l) => l.id === `${prefix}${i}`)) i++;
@@ -178,11 +249,31 @@ function Editor({ permit }: { permit: PermitDetail }) {
   };
   const startAt: XY = named[0]?.outline ? centreOf({ id: 'x', kind: 'area', label: '', pressure: 1, outline: named[0].outline as never }, proj) : [0, 0];
 
-  function addPlant() {
-    const item = plant.get(Number(newPlant));
+  /** Puts a machine from the library beside the first named excavation, at its computed standoff. */
+  function addPlant(plantId: string) {
+    const item = plant.get(Number(plantId));
     if (!item) return;
-    const at: XY = [startAt[0], startAt[1] + 10];
-    set({ loads: [...draft.loads, { id: nextId('plant'), kind: 'plant', label: item.name, plantItemId: item.id, position: proj!.toWgs84(at) as [number, number], rotation: 90 }] });
+    const load: Extract<PlacedLoad, { kind: 'plant' }> = { id: nextId('plant'), kind: 'plant', label: item.name, plantItemId: item.id, position: proj!.toWgs84([startAt[0], startAt[1] + 10]) as [number, number], rotation: 90 };
+    const beside = named.find((e) => e.state !== 'backfilled');
+    if (!beside) {
+      setLoads([...draft.loads, load]);
+      setPlaced(`${item.name} is placed north of the site origin: name the excavation it works beside, then drag it into place.`);
+      return;
+    }
+    const tryCheck = (l: PlacedLoad) => {
+      try {
+        return runLive([...draft.loads, l]);
+      } catch {
+        return null;
+      }
+    };
+    const { load: at, standoff } = placeAtStandoff(load, beside, proj!, draft.loads.filter((l) => l.kind === 'plant').length, tryCheck);
+    setLoads([...draft.loads, at]);
+    setPlaced(
+      standoff === null
+        ? `${item.name} has no standoff within 3H of ${beside.reference}: it is placed beyond the influence zone. Drag it to where it will work and read the check.`
+        : `${item.name} is placed ${(standoff + PLACING_MARGIN).toFixed(2)} m from the edge of ${beside.reference}, just beyond its computed standoff of ${standoff.toFixed(2)} m. Drag it nearer or farther and watch the verdict.`,
+    );
   }
   function addAdHoc() {
     const at: XY = [startAt[0], startAt[1] + 10];
@@ -196,35 +287,58 @@ function Editor({ permit }: { permit: PermitDetail }) {
           : newKind === 'strip'
             ? { id, kind: 'strip', label: 'Strip load', outline: { type: 'Polygon', coordinates: [rectangle(at, 20, 2, 90, proj!)] }, pressure: 20 }
             : { id, kind: 'line', label: 'Line load', path: { type: 'LineString', coordinates: segment(at, 10, 90, proj!) }, force: 10 };
-    set({ loads: [...draft.loads, load] });
+    setLoads([...draft.loads, load]);
   }
 
-  async function save(): Promise<number | null> {
+  /** The fields this page shows next to their boxes; the summary names only the others. */
+  const shownHere = (path: string) =>
+    ['description', 'windowStart', 'windowEnd', 'excavationIds'].includes(path) || /^loads\[\d+\]/.test(path) || (kind === 'dig' && path.startsWith('dig'));
+  function refused(e: unknown) {
+    if (e instanceof ApiError) {
+      setFields(e.fields);
+      setSummary(e.status === 409 ? `${e.message} Reload the page to see it as it now is.` : serverSummary(e, shownHere));
+    } else setSummary(errorMessage(e));
+  }
+
+  /** Saves the request (creating it the first time); answers with the permit's id and version, or null when refused. */
+  async function save(): Promise<{ id: number; version: number } | null> {
     setSummary(null);
     setFields({});
     try {
-      const saved = await update.mutateAsync({ version, ...draft, method: draft.method });
+      if (!permit) {
+        const created = await create.mutateAsync({ siteId, kind, ...draft, method });
+        return { id: created.id, version: created.version };
+      }
+      const saved = await update.mutateAsync({ version, ...draft, method });
       setVersion(saved.version);
       setServer(saved.current.check);
-      return saved.version;
+      return { id: saved.id, version: saved.version };
     } catch (e) {
-      if (e instanceof ApiError) {
-        setFields(e.fields);
-        setSummary(permitErrorSummary(e));
-        if (e.status === 409) setSummary(`${e.message} Reload the page to see it as it now is.`);
-      } else setSummary(errorMessage(e));
+      refused(e);
       return null;
     }
   }
+  async function saveOnly() {
+    setBusy(true);
+    const saved = await save();
+    setBusy(false);
+    if (saved && !permit) void navigate(`/permits/${saved.id}/edit`, { replace: true });
+  }
   async function saveAndSubmit() {
-    const v = await save();
-    if (v === null) return;
+    setBusy(true);
     try {
-      await move.mutateAsync({ action: 'submit', version: v });
-      void navigate(`/permits/${permit.id}`);
-    } catch (e) {
-      if (e instanceof ApiError) setFields(e.fields);
-      setSummary(permitErrorSummary(e));
+      const saved = await save();
+      if (!saved) return;
+      try {
+        await api.post(`/api/permits/${saved.id}/transitions`, { action: 'submit', version: saved.version });
+        await qc.invalidateQueries({ queryKey: permitKeys.all });
+        void navigate(`/permits/${saved.id}`);
+      } catch (e) {
+        if (!permit) void navigate(`/permits/${saved.id}/edit`, { replace: true });
+        refused(e);
+      }
+    } finally {
+      setBusy(false);
     }
   }
 
@@ -232,16 +346,53 @@ function Editor({ permit }: { permit: PermitDetail }) {
   const verdict = live.refused ? 'fails' : (check?.verdict ?? null);
   // Mid-drag the check has no standoffs yet: no exclusion zone is drawn until the load is let go.
   const standoff = live.partial ? null : (check?.computedStandoff ?? null);
+  const title = permit ? `Permit ${permit.number}: ${permit.kind === 'load' ? 'place the loads' : 'dig details'}` : 'Ask for a permit';
+  const beside = named.map((e) => e.reference).join(', ');
 
   return (
     <Page
-      title={`Permit ${permit.number}: ${permit.kind === 'load' ? 'place the loads' : 'dig details'}`}
-      intro="Place each load on the map; the check runs as you move it. Save keeps your changes; the server checks them again."
-      actions={<ButtonLink to={`/permits/${permit.id}`}>Back to the permit</ButtonLink>}
+      title={title}
+      intro={
+        permit
+          ? 'Place each load on the map; the check runs as you move it. Save keeps your changes; the server checks them again.'
+          : `Say what the work is${beside ? ` beside ${beside}` : ' and tick the excavation beside it'}, choose the machine and drag it where it will work; the check runs as you move it. Sending it asks a coordinator to decide.`
+      }
+      actions={permit ? <ButtonLink to={`/permits/${permit.id}`}>Back to the permit</ButtonLink> : null}
     >
       <FormSummary message={summary} />
+      <Panel title="Request" level={2}>
+        {!permit ? (
+          <SelectField label="Kind of permit" value={kind} onChange={(e) => setKind(e.target.value as 'load' | 'dig')} options={[{ value: 'load', label: 'Place plant or material beside an excavation' }, { value: 'dig', label: 'Dig: open or extend an excavation' }]} />
+        ) : null}
+        <TextField label="What the work is" value={draft.description} onChange={(e) => set({ description: e.target.value })} error={fields.description} maxLength={4000} />
+        <div className="grid gap-3 sm:grid-cols-2">
+          <TextField label="Window opens" type="datetime-local" value={toLocalInput(draft.windowStart)} onChange={(e) => e.target.value && set({ windowStart: fromLocalInput(e.target.value) })} error={fields.windowStart} />
+          <TextField label="Window closes" type="datetime-local" value={toLocalInput(draft.windowEnd)} onChange={(e) => e.target.value && set({ windowEnd: fromLocalInput(e.target.value) })} error={fields.windowEnd} />
+        </div>
+        <fieldset className="flex flex-col gap-1">
+          <legend className="font-semibold">Excavations beside the work</legend>
+          {(excavations.data ?? []).filter((e) => e.state !== 'backfilled').map((e) => (
+            <CheckboxField key={e.id} label={`${e.reference} ${e.name} (${e.depth.toFixed(2)} m deep)`} checked={draft.excavationIds.includes(e.id)} onChange={(ev) => set({ excavationIds: ev.target.checked ? [...draft.excavationIds, e.id] : draft.excavationIds.filter((x) => x !== e.id) })} />
+          ))}
+          {fields.excavationIds ? <p className="text-sm font-semibold text-error-text">{fieldSentence('Excavations beside the work', fields.excavationIds)}</p> : null}
+        </fieldset>
+      </Panel>
       <div className="grid gap-6 lg:grid-cols-[3fr_2fr]">
         <div className="flex flex-col gap-4">
+          <div className="flex flex-wrap items-end gap-3">
+            <SelectField
+              label="Add a machine from the plant library"
+              value=""
+              onChange={(e) => addPlant(e.target.value)}
+              emptyLabel="Choose a machine"
+              options={(plantQ.data ?? []).map((p) => ({ value: p.id, label: `${p.name} (${p.operatingMass} t)` }))}
+              hint={named.length ? `It is placed at its standoff from ${named[0].reference}.` : 'Tick the excavation first: the machine is placed at its standoff from it.'}
+            />
+            <Button variant="secondary" onClick={undo} disabled={history.length === 0} aria-keyshortcuts="Control+Z">
+              Undo the last move{history.length ? ` (${history.length})` : ''}
+            </Button>
+          </div>
+          {placed ? <p role="status" className="text-sm">{placed}</p> : null}
           <PlacementMap
             proj={proj}
             excavations={named.length ? named : (excavations.data ?? [])}
@@ -251,6 +402,7 @@ function Editor({ permit }: { permit: PermitDetail }) {
             verdict={verdict}
             standoff={standoff}
             editable
+            onMoveStart={remember}
             onMove={(loadId, to) => moveOnNextFrame(`move:${loadId}`, () => setLoad(loadId, (l) => moveLoad(l, to, proj)))}
             onRotate={(loadId, bearing) => moveOnNextFrame(`turn:${loadId}`, () => setLoad(loadId, (l) => (l.kind === 'plant' ? { ...l, rotation: bearing } : l)))}
             onDragging={(on) => {
@@ -259,14 +411,10 @@ function Editor({ permit }: { permit: PermitDetail }) {
             }}
           />
           <Panel title="Loads" level={2}>
-            {draft.loads.length === 0 ? <p>No loads yet. Add a machine from the library or an ad hoc load.</p> : null}
+            {draft.loads.length === 0 ? <p>No loads yet. Add a machine from the library above or an ad hoc load.</p> : null}
             {draft.loads.map((l, i) => (
-              <LoadRow key={l.id} load={l} index={i} proj={proj} plantName={l.kind === 'plant' ? plant.get(l.plantItemId)?.name : undefined} fields={fields} onChange={(nl) => setLoad(l.id, () => nl)} onRemove={() => set({ loads: draft.loads.filter((x) => x.id !== l.id) })} />
+              <LoadRow key={l.id} load={l} index={i} proj={proj} plantName={l.kind === 'plant' ? plant.get(l.plantItemId)?.name : undefined} fields={fields} onChange={(nl) => { remember(); setLoad(l.id, () => nl); }} onRemove={() => setLoads(draft.loads.filter((x) => x.id !== l.id))} />
             ))}
-            <div className="flex flex-wrap items-end gap-3">
-              <SelectField label="Machine from the plant library" value={newPlant} onChange={(e) => setNewPlant(e.target.value)} emptyLabel="Choose a machine" options={(plantQ.data ?? []).map((p) => ({ value: p.id, label: `${p.name} (${p.operatingMass} t)` }))} />
-              <Button variant="secondary" onClick={addPlant} disabled={!newPlant}>Add machine</Button>
-            </div>
             <div className="flex flex-wrap items-end gap-3">
               <SelectField label="Ad hoc load" value={newKind} onChange={(e) => setNewKind(e.target.value as typeof newKind)} options={(['stockpile', 'area', 'strip', 'line'] as const).map((k) => ({ value: k, label: placedLoadLabels[k] }))} />
               <Button variant="secondary" onClick={addAdHoc}>Add load</Button>
@@ -291,32 +439,21 @@ function Editor({ permit }: { permit: PermitDetail }) {
           </Panel>
         </div>
       </div>
-      <Panel title="Request" level={2}>
-        <TextField label="What the work is" value={draft.description} onChange={(e) => set({ description: e.target.value })} error={fields.description} />
-        <div className="grid gap-3 sm:grid-cols-2">
-          <TextField label="Window opens" type="datetime-local" value={toLocalInput(draft.windowStart)} onChange={(e) => e.target.value && set({ windowStart: fromLocalInput(e.target.value) })} error={fields.windowStart} />
-          <TextField label="Window closes" type="datetime-local" value={toLocalInput(draft.windowEnd)} onChange={(e) => e.target.value && set({ windowEnd: fromLocalInput(e.target.value) })} error={fields.windowEnd} />
-        </div>
-        <fieldset className="flex flex-col gap-1">
-          <legend className="font-semibold">Excavations beside the work</legend>
-          {(excavations.data ?? []).filter((e) => e.state !== 'backfilled').map((e) => (
-            <CheckboxField key={e.id} label={`${e.reference} ${e.name} (${e.depth.toFixed(2)} m deep)`} checked={draft.excavationIds.includes(e.id)} onChange={(ev) => set({ excavationIds: ev.target.checked ? [...draft.excavationIds, e.id] : draft.excavationIds.filter((x) => x !== e.id) })} />
-          ))}
-          {fields.excavationIds ? <p className="text-sm font-semibold text-error-text">{fieldSentence('Excavations', fields.excavationIds)}</p> : null}
-        </fieldset>
+      <Panel title="People and method" level={2}>
         <fieldset className="flex flex-col gap-1">
           <legend className="font-semibold">Operators to brief (each confirms before work starts)</legend>
-          {(operators.data ?? []).map((o) => (
+          {(operators.data?.operators ?? []).map((o) => (
             <CheckboxField key={o.id} label={o.name} checked={draft.operatorIds.includes(o.id)} onChange={(ev) => set({ operatorIds: ev.target.checked ? [...draft.operatorIds, o.id] : draft.operatorIds.filter((x) => x !== o.id) })} />
           ))}
+          {operators.data && operators.data.lastUsed.length && !permit ? <p className="text-sm text-ink-soft">Ticked: the operators of your last request on this site.</p> : null}
         </fieldset>
-        <SelectField label="Method" value={draft.method} onChange={(e) => set({ method: e.target.value as Draft['method'] })} options={[{ value: 'dispersion-45', label: '45° load spread' }, { value: 'elastic', label: 'Elastic (Boussinesq-based)' }]} />
+        <SelectField label="Method" value={method} onChange={(e) => set({ method: e.target.value as Draft['method'] })} options={[{ value: 'dispersion-45', label: '45° load spread' }, { value: 'elastic', label: 'Elastic (Boussinesq-based)' }]} />
       </Panel>
-      {permit.kind === 'dig' ? <DigForm dig={draft.dig ?? emptyDig} fields={fields} onChange={(dig) => set({ dig })} /> : null}
+      {kind === 'dig' ? <DigForm dig={draft.dig ?? emptyDig} fields={fields} onChange={(dig) => set({ dig })} /> : null}
       <div className="flex flex-wrap gap-3">
-        <Button onClick={() => void save()} busy={update.isPending} busyText="Saving…" variant="secondary">Save</Button>
-        <Button onClick={() => void saveAndSubmit()} busy={move.isPending} busyText="Sending…">Save and send for review</Button>
-        <Link to={`/permits/${permit.id}`} className="self-center">Leave without saving</Link>
+        <Button onClick={() => void saveOnly()} busy={busy && (create.isPending || update.isPending)} disabled={busy} busyText="Saving…" variant="secondary">{permit ? 'Save' : 'Save as a draft'}</Button>
+        <Button onClick={() => void saveAndSubmit()} busy={busy} busyText="Sending…">Send for review</Button>
+        <Link to={permit ? `/permits/${permit.id}` : `/sites/${siteId}/permits`} className="self-center">Leave without saving</Link>
       </div>
     </Page>
   );

@@ -1,4 +1,3 @@
-import { permitErrorSummary } from '../components/fieldNames';
 import { useMemo, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { localProjection } from '@shared/geometry';
@@ -21,6 +20,7 @@ import { CheckboxField, FormSummary, SelectField, TextField } from '@client/comp
 import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
 import { ApiError, errorMessage, isApiError } from '@client/lib/api';
+import { serverSummary } from '@client/lib/fieldLabels';
 import { fieldSentence } from '@client/lib/forms';
 import { parseId } from '@client/lib/session';
 import { useAttach, useBriefing, useComment, useExcavations, usePermit, usePlant, useRevision, useSite, useTransition } from '../api/permits';
@@ -244,7 +244,7 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
 
   return (
     <form noValidate className="flex flex-col gap-3 rounded-md border border-rule-strong p-4" onSubmit={(e) => { e.preventDefault(); void go(); }} aria-label={rule.label}>
-      <FormSummary message={error ? permitErrorSummary(error) : null} />
+      <FormSummary message={error ? serverSummary(error, (k) => ['standoff', 'reason', 'password'].includes(k)) : null} />
       {action === 'approve' ? (
         <>
           <p>Computed standoff: {computed === null ? 'none within 3H (the support must be redesigned or the loads reduced)' : `${computed.toFixed(2)} m`}.</p>
@@ -272,7 +272,7 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
         {f.reason ? <span className="text-sm font-semibold text-error-text">{fieldSentence('Reason', f.reason)}</span> : null}
       </label>
       {rule.signed ? (
-        <TextField label="Your password, to sign the decision" type="password" autoComplete="current-password" value={password} onChange={(e) => setPassword(e.target.value)} error={f.password} />
+        <TextField label="Password" hint="Type your password again: it signs the decision." type="password" autoComplete="current-password" value={password} onChange={(e) => setPassword(e.target.value)} error={f.password} />
       ) : null}
       <div>
         <Button type="submit" busy={move.isPending} busyText="Working…">{rule.label}</Button>

@@ -10,7 +10,7 @@ import {
   type ColumnDef,
   type SortingState,
 } from '@tanstack/react-table';
-import { excavationStates, importModes, kindLabels, stateLabels, supportLabels, type Excavation, type ImportMode, type ImportReport, type importAnswer } from '@shared/schemas/excavations';
+import { excavationStates, IMPORT_MODE_LABEL, importModeLabels, importModes, kindLabels, stateLabels, supportLabels, type Excavation, type ImportMode, type ImportReport, type importAnswer } from '@shared/schemas/excavations';
 import type { z } from 'zod';
 import { Button } from '@client/components/Button';
 import { Caution } from '@client/components/Caution';
@@ -20,6 +20,8 @@ import { LoadError, Loading, Notice } from '@client/components/Status';
 import { errorMessage } from '@client/lib/api';
 import { excavationKeys, fmt, postForm, useExcavations } from '@client/lib/excavations';
 import { formatDateTime } from '@client/lib/labels';
+import { fieldLabel } from '@client/lib/fieldLabels';
+import { fieldSentence } from '@client/lib/sentences';
 import { parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
 import { registerCsv } from '../csv';
 import { useInspectionStates } from '@client/lib/inspectionStates';
@@ -167,7 +169,18 @@ export function RegisterPage() {
                   const numeric = (c.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
                   return (
                     <td key={c.id} className={`px-3 py-2 ${numeric ? 'text-right tabular-nums' : ''}`}>
-                      {c.column.id === 'reference' ? <Link to={`/sites/${siteId}/map?excavation=${r.original.id}`}>{r.original.reference}</Link> : flexRender(c.column.columnDef.cell, c.getContext())}
+                      {c.column.id === 'reference' ? (
+                        <>
+                          <Link to={`/sites/${siteId}/map?excavation=${r.original.id}`}>{r.original.reference}</Link>
+                          {role === 'supervisor' && r.original.state === 'open' ? (
+                            <Link className="ml-2 whitespace-nowrap text-sm" to={`/sites/${siteId}/permits/new?excavation=${r.original.id}`} aria-label={`Ask for a permit beside ${r.original.reference}`}>
+                              Ask for a permit
+                            </Link>
+                          ) : null}
+                        </>
+                      ) : (
+                        flexRender(c.column.columnDef.cell, c.getContext())
+                      )}
                     </td>
                   );
                 })}
@@ -189,10 +202,7 @@ export function RegisterPage() {
   );
 }
 
-const modeLabels: Record<ImportMode, string> = {
-  add: 'Add new excavations only (a reference already used is refused)',
-  replace: 'Add new ones and replace those with the same reference',
-};
+const modeLabels = importModeLabels;
 
 function ImportPanel({ siteId }: { siteId: number }) {
   const qc = useQueryClient();
@@ -238,7 +248,7 @@ function ImportPanel({ siteId }: { siteId: number }) {
         </label>
         <input id={fileId} type="file" accept=".geojson,.json,application/geo+json,application/json" onChange={(e) => setFile(e.target.files?.[0] ?? null)} />
       </div>
-      <SelectField label="What to do with existing references" options={importModes.map((m) => ({ value: m, label: modeLabels[m] }))} value={mode} onChange={(e) => setMode(e.target.value as ImportMode)} />
+      <SelectField label={IMPORT_MODE_LABEL} options={importModes.map((m) => ({ value: m, label: modeLabels[m] }))} value={mode} onChange={(e) => setMode(e.target.value as ImportMode)} />
       <div>
         <Button onClick={run} disabled={!file} busy={busy} busyText="Importing…">
           Import
@@ -269,9 +279,7 @@ function ImportReportView({ ok, report }: { ok: boolean; report: ImportReport })
           detail: (
             <ul>
               {Object.entries(r.reasons).map(([k, v]) => (
-                <li key={k}>
-                  <code>{k}</code> {v}
-                </li>
+                <li key={k}>{fieldSentence(fieldLabel(k), v)}</li>
               ))}
             </ul>
           ),
