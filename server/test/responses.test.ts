@@ -26,6 +26,8 @@ const notYetDescribed: string[] = [
   'POST /api/permits/:id/comments',
   'POST /api/permits/:id/concerns',
   'POST /api/permits/:id/transitions',
+  // The check of a request not yet saved answers like POST /api/permits/:id/check (PermitCheck), described with it.
+  'POST /api/sites/:siteId/permits/check',
 ];
 
 let t: TestApp;
