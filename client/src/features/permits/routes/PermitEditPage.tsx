@@ -364,7 +364,7 @@ export function Editor(subject: EditorSubject) {
         {!permit ? (
           <SelectField label="Kind of permit" value={kind} onChange={(e) => setKind(e.target.value as 'load' | 'dig')} options={[{ value: 'load', label: 'Place plant or material beside an excavation' }, { value: 'dig', label: 'Dig: open or extend an excavation' }]} />
         ) : null}
-        <TextField label="What the work is" value={draft.description} onChange={(e) => set({ description: e.target.value })} error={fields.description} maxLength={4000} />
+        <TextField label="What the work is" value={draft.description} onChange={(e) => set({ description: e.target.value })} error={fields.description} maxLength={1000} />
         <div className="grid gap-3 sm:grid-cols-2">
           <TextField label="Window opens" type="datetime-local" value={toLocalInput(draft.windowStart)} onChange={(e) => e.target.value && set({ windowStart: fromLocalInput(e.target.value) })} error={fields.windowStart} />
           <TextField label="Window closes" type="datetime-local" value={toLocalInput(draft.windowEnd)} onChange={(e) => e.target.value && set({ windowEnd: fromLocalInput(e.target.value) })} error={fields.windowEnd} />
