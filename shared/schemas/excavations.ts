@@ -206,12 +206,14 @@ export type ExcavationValues = z.output<typeof excavationInputSchema>;
  * A change (PATCH): any fields, with the version it was read at; the merged record must pass the
  * whole-record rules. Defaults are taken off, so a field left out keeps its saved value.
  */
+type OptionalFields = { [K in keyof Fields]: z.ZodOptional<z.ZodType<Fields[K], ExcavationInput[K]>> };
+const optionalFields = Object.fromEntries(
+  Object.entries(excavationFields).map(([k, s]) => [k, (s instanceof z.ZodDefault ? (s.unwrap() as z.ZodType) : (s as z.ZodType)).optional()]),
+) as OptionalFields;
 export const excavationUpdateSchema = z.object({
-  ...Object.fromEntries(
-    Object.entries(excavationFields).map(([k, s]) => [k, (s instanceof z.ZodDefault ? (s.unwrap() as z.ZodType) : (s as z.ZodType)).optional()]),
-  ),
+  ...optionalFields,
   version: z.number({ error: 'is required: the version you read' }).int().positive('must be the version you read'),
-}) as unknown as z.ZodType<Partial<Fields> & { version: number }, Partial<ExcavationInput> & { version: number }>;
+});
 export type ExcavationUpdate = Partial<ExcavationInput> & { version: number };
 
 // GeoJSON as the API answers it (stored shapes, already checked when they were saved).

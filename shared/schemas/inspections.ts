@@ -72,7 +72,6 @@ export const checklist = [
   },
 ] as const;
 export type ChecklistKey = (typeof checklist)[number]['key'];
-export const checklistKeys = checklist.map((c) => c.key) as unknown as readonly [ChecklistKey, ...ChecklistKey[]];
 
 const noteSchema = z.string().trim().max(1000, 'must be at most 1000 characters').default('');
 

@@ -1,7 +1,6 @@
 import { useState } from 'react';
-import { useFieldArray, useForm, type Resolver } from 'react-hook-form';
+import { useFieldArray, useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import type { z } from 'zod';
 import { plantCategories, plantCategoryLabels, plantElementKindLabels, plantElementKinds, plantItemSchema, type PlantItemInput, type PlantItemValues } from '@shared/schemas/plant';
 import { Button } from '@client/components/Button';
 import { FormSummary, SelectField, TextField } from '@client/components/Fields';
@@ -30,7 +29,7 @@ interface PlantFormProps {
 export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormProps) {
   const [summary, setSummary] = useState<string | null>(null);
   const { register, handleSubmit, control, watch, setError, formState } = useForm<PlantItemInput, unknown, PlantItemValues>({
-    resolver: zodResolver(plantItemSchema as unknown as z.ZodType<PlantItemValues, PlantItemInput>) as Resolver<PlantItemInput, unknown, PlantItemValues>,
+    resolver: zodResolver(plantItemSchema),
     defaultValues: initial,
   });
   const { fields, append, remove } = useFieldArray({ control, name: 'elements' });
