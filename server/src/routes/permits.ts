@@ -79,7 +79,7 @@ export function registerPermitRoutes(api: Api): void {
           .innerJoin('permits as p', 'p.id', 'r.permit_id')
           .select('r.id')
           .where('p.site_id', '=', params.siteId)
-          .where('r.created_by', '=', user!.id)
+          .where('r.created_by', '=', user.id)
           .where((eb) => eb.exists(eb.selectFrom('permit_operators as o').select('o.user_id').whereRef('o.revision_id', '=', 'r.id')))
           .orderBy('r.id', 'desc')
           .limit(1)
