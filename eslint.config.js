@@ -19,7 +19,12 @@ export default tseslint.config(
   ...tseslint.configs.recommendedTypeChecked,
   {
     languageOptions: {
-      parserOptions: { projectService: { allowDefaultProject: ['eslint.config.js', 'server/src/services/geometry/worker.mjs', 'client/public/push-sw.js'] }, tsconfigRootDir: import.meta.dirname },
+      parserOptions: {
+        projectService: {
+          allowDefaultProject: ['eslint.config.js', 'server/src/services/geometry/worker.mjs', 'client/public/push-sw.js'],
+        },
+        tsconfigRootDir: import.meta.dirname,
+      },
       globals: { ...globals.node, ...globals.browser },
     },
     plugins: { 'import-x': importX },

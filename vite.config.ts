@@ -114,7 +114,10 @@ export default defineConfig({
         // round trip, and one gzip stream compresses better than many small ones.
         codeSplitting: {
           groups: [
-            { name: 'react', test: /node_modules[\\/](react|react-dom|scheduler|react-router|react-router-dom|@tanstack[\\/](query-core|react-query))[\\/]/ },
+            {
+              name: 'react',
+              test: /node_modules[\\/](react|react-dom|scheduler|react-router|react-router-dom|@tanstack[\\/](query-core|react-query))[\\/]/,
+            },
             { name: 'zod', test: /node_modules[\\/]zod[\\/]/ },
             { name: 'leaflet', test: /node_modules[\\/](leaflet|react-leaflet|@react-leaflet[\\/]core)[\\/]/ },
           ],

@@ -430,13 +430,25 @@ export function handlePoolErrors(pool: pg.Pool, name: string): void {
 }
 
 const unavailableCodes = new Set([
-  'ECONNREFUSED', 'ECONNRESET', 'EPIPE', 'ETIMEDOUT', 'EHOSTUNREACH', 'ENETUNREACH', 'ENOTFOUND', 'EAI_AGAIN',
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'EPIPE',
+  'ETIMEDOUT',
+  'EHOSTUNREACH',
+  'ENETUNREACH',
+  'ENOTFOUND',
+  'EAI_AGAIN',
   '57P01', // admin_shutdown (pg_ctl stop)
   '57P02', // crash_shutdown
   '57P03', // cannot_connect_now (starting up or shutting down)
-  '08000', '08001', '08003', '08004', '08006', // connection exceptions
+  '08000',
+  '08001',
+  '08003',
+  '08004',
+  '08006', // connection exceptions
 ]);
-const unavailableMessages = /Connection terminated|connection error and is not queryable|timeout exceeded when trying to connect|terminating connection due to administrator command|the database system is (starting up|shutting down|in recovery mode)|Client was closed and is not queryable/i;
+const unavailableMessages =
+  /Connection terminated|connection error and is not queryable|timeout exceeded when trying to connect|terminating connection due to administrator command|the database system is (starting up|shutting down|in recovery mode)|Client was closed and is not queryable/i;
 
 /** Whether an error means PostgreSQL cannot be reached (down, restarting, connection cut), not that a query was wrong. */
 export function isDatabaseUnavailable(err: unknown, depth = 0): boolean {

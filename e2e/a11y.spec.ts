@@ -13,26 +13,41 @@ async function scan(page: Page, path: string) {
   // Wait for the page's data, not for time: no "Loading…" left.
   await expect(page.getByRole('status').filter({ hasText: /^Loading/ })).toHaveCount(0);
   const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze();
-  const bad = result.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
+  const bad = result.violations
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+    .map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
   expect(bad, path).toEqual([]);
 }
 
 /** The demo site, its permits and an open excavation, read as the person signed in. */
 async function demoSite(page: Page) {
   const siteId = Number(page.url().match(/\/sites\/(\d+)/)![1]);
-  const { permits } = await ok<{ permits: { id: number; status: string }[] }>(await page.request.get(`/api/permits?siteId=${siteId}`), 'permits');
-  const { excavations } = await ok<{ excavations: { id: number; state: string }[] }>(await page.request.get(`/api/sites/${siteId}/excavations`), 'excavations');
+  const { permits } = await ok<{ permits: { id: number; status: string }[] }>(
+    await page.request.get(`/api/permits?siteId=${siteId}`),
+    'permits',
+  );
+  const { excavations } = await ok<{ excavations: { id: number; state: string }[] }>(
+    await page.request.get(`/api/sites/${siteId}/excavations`),
+    'excavations',
+  );
   return { siteId, permits, open: excavations.find((e) => e.state === 'open')! };
 }
 
 test('signed-out pages have no serious or critical accessibility fault', async ({ page }) => {
-  for (const path of ['/sign-in', '/forgot-password', '/reset-password?token=not-a-real-token', '/invitations/accept?token=not-a-real-token']) await scan(page, path);
+  for (const path of [
+    '/sign-in',
+    '/forgot-password',
+    '/reset-password?token=not-a-real-token',
+    '/invitations/accept?token=not-a-real-token',
+  ])
+    await scan(page, path);
 });
 
 test('administration pages have none', async ({ page }) => {
   await signIn(page, 'admin@demo.brink.test');
   const { siteId } = await demoSite(page);
-  for (const path of ['/admin/people', '/admin/sites', '/admin/sites/new', `/admin/sites/${siteId}`, '/admin/mail', '/no-such-page']) await scan(page, path);
+  for (const path of ['/admin/people', '/admin/sites', '/admin/sites/new', `/admin/sites/${siteId}`, '/admin/mail', '/no-such-page'])
+    await scan(page, path);
 });
 
 const coordinatorPages: [string, (s: Awaited<ReturnType<typeof demoSite>>) => string][] = [
@@ -59,5 +74,6 @@ test("a supervisor's pages have none (dashboard, new request, placing, draft)", 
   await signIn(page, 'supervisor@demo.brink.test');
   const s = await demoSite(page);
   const draft = s.permits.find((p) => p.status === 'draft')!;
-  for (const path of [`/sites/${s.siteId}`, `/sites/${s.siteId}/permits/new`, `/permits/${draft.id}/edit`, `/permits/${draft.id}`]) await scan(page, path);
+  for (const path of [`/sites/${s.siteId}`, `/sites/${s.siteId}/permits/new`, `/permits/${draft.id}/edit`, `/permits/${draft.id}`])
+    await scan(page, path);
 });

@@ -42,7 +42,8 @@ async function linkFromMail(request: APIRequestContext, to: string, pathPart: st
         if (!res.ok()) return undefined;
         const { messages } = (await res.json()) as { messages: CaughtMessage[] };
         const message = messages.find((m) => JSON.stringify(m.to).toLowerCase().includes(to.toLowerCase()));
-        const found = message && `${message.text}\n${message.html ?? ''}`.match(new RegExp(`https?://[^\\s"'<>]*${pathPart}\\?token=[\\w.~%-]+`));
+        const found =
+          message && `${message.text}\n${message.html ?? ''}`.match(new RegExp(`https?://[^\\s"'<>]*${pathPart}\\?token=[\\w.~%-]+`));
         link = found?.[0];
         return link;
       },

@@ -5,26 +5,41 @@ import { demoPassword, ok, signIn, trenchWithLivePermit } from './helpers';
 // permit beside it shows Suspended. The trench and its live permit are made for this test through
 // the API, so the demo data other tests read is left as it was.
 
-test('the supervisor records a failed inspection on a phone and the permit on that trench shows Suspended', async ({ page, playwright, baseURL }) => {
+test('the supervisor records a failed inspection on a phone and the permit on that trench shows Suspended', async ({
+  page,
+  playwright,
+  baseURL,
+}) => {
   await signIn(page, 'supervisor@demo.brink.test');
   const siteId = Number(page.url().match(/\/sites\/(\d+)/)![1]);
   const coordinator = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL!).origin } }); // the API takes changes only from Brink's origin
-  await ok(await coordinator.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }), 'coordinator sign-in');
+  await ok(
+    await coordinator.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }),
+    'coordinator sign-in',
+  );
   // The supervisor's session from the page, saying Brink's origin as the page itself would.
-  const supervisor = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL!).origin }, storageState: await page.context().storageState() });
+  const supervisor = await playwright.request.newContext({
+    baseURL,
+    extraHTTPHeaders: { Origin: new URL(baseURL!).origin },
+    storageState: await page.context().storageState(),
+  });
   const { reference, permit } = await trenchWithLivePermit(supervisor, coordinator, siteId);
   await coordinator.dispose();
   await supervisor.dispose();
 
   // The dashboard lists the new trench as due (or overdue) with a button to inspect it.
   await page.goto(`/sites/${siteId}`);
-  const due = page.getByRole('region', { name: 'Excavations due for inspection' }).or(page.locator('section', { has: page.getByRole('heading', { name: 'Excavations due for inspection' }) }));
+  const due = page
+    .getByRole('region', { name: 'Excavations due for inspection' })
+    .or(page.locator('section', { has: page.getByRole('heading', { name: 'Excavations due for inspection' }) }));
   await due.getByRole('link', { name: `Inspect ${reference}` }).click();
   await expect(page.getByRole('heading', { level: 1 })).toHaveText(`Inspect ${reference} Land drain trench (test)`);
 
-  const answer = async (group: string, choice: string) => page.getByRole('group', { name: group, exact: true }).getByText(choice, { exact: true }).click();
+  const answer = async (group: string, choice: string) =>
+    page.getByRole('group', { name: group, exact: true }).getByText(choice, { exact: true }).click();
   await answer('Why', 'Start of shift');
-  for (const item of ['Sides and faces', 'Edges and stored material', 'Access and egress', 'Barriers and covers', 'Loads nearby']) await answer(item, 'Pass');
+  for (const item of ['Sides and faces', 'Edges and stored material', 'Access and egress', 'Barriers and covers', 'Loads nearby'])
+    await answer(item, 'Pass');
   await answer('Atmosphere', 'Not applicable');
   await answer('Support members', 'Fail');
   await answer('Water', 'Fail');
@@ -33,7 +48,9 @@ test('the supervisor records a failed inspection on a phone and the permit on th
   await page.getByLabel('Remarks').fill('Re-set the two frames and re-pin the strut before anyone goes in');
   // A fail without its note is named before anything is sent, and nothing typed is lost.
   await page.getByRole('button', { name: 'Record the inspection' }).click();
-  await expect(page.getByRole('group', { name: 'Water', exact: true }).getByText('Water note is required for a fail: say what is wrong.')).toBeVisible();
+  await expect(
+    page.getByRole('group', { name: 'Water', exact: true }).getByText('Water note is required for a fail: say what is wrong.'),
+  ).toBeVisible();
   await expect(page.getByLabel('Support members note')).toHaveValue('Two frames have dropped at the east end; one strut is loose');
 
   await page.getByLabel('Water note').fill('Water seeping in at the east end, 100 mm deep at formation');

@@ -37,7 +37,10 @@ async function apiAs(requests: APIRequest, baseURL: string, email: string): Prom
 let made: { siteId: number; pitId: number; operatorId: number };
 
 /** A permit for a pipe stack 5 m north of the test pit, approved with a 2.00 m standoff, naming the demo operator. */
-async function approvedPermit(supervisor: APIRequestContext, coordinator: APIRequestContext): Promise<{ id: number; number: string; version: number }> {
+async function approvedPermit(
+  supervisor: APIRequestContext,
+  coordinator: APIRequestContext,
+): Promise<{ id: number; number: string; version: number }> {
   const corner = (x: number, y: number) => proj.toWgs84([x, y]);
   const stack = [corner(PIT.x0, 8), corner(PIT.x1, 8), corner(PIT.x1, 10), corner(PIT.x0, 10), corner(PIT.x0, 8)];
   const now = Date.now();
@@ -58,7 +61,13 @@ async function approvedPermit(supervisor: APIRequestContext, coordinator: APIReq
   const submitted = await supervisor.post(`/api/permits/${draft.id}/transitions`, { data: { action: 'submit', version: draft.version } });
   expect(submitted.status(), await submitted.text()).toBe(200);
   const approved = await coordinator.post(`/api/permits/${draft.id}/transitions`, {
-    data: { action: 'approve', version: (await submitted.json()).permit.version, password, standoff: STANDOFF, conditions: ['Stack the pipes no higher than two rows.'] },
+    data: {
+      action: 'approve',
+      version: (await submitted.json()).permit.version,
+      password,
+      standoff: STANDOFF,
+      conditions: ['Stack the pipes no higher than two rows.'],
+    },
   });
   expect(approved.status(), await approved.text()).toBe(200);
   return (await approved.json()).permit;
@@ -68,10 +77,17 @@ test.beforeAll(async ({ playwright, baseURL }) => {
   const url = process.env.DATABASE_URL;
   if (!url) throw new Error('DATABASE_URL is not set: run the end-to-end tests through `npm test`');
   db = createDb(createPool(url, 2));
-  const site = await db.selectFrom('sites').select(['id', 'latitude', 'longitude']).where('name', '=', 'Alder Marsh pumping station').executeTakeFirstOrThrow();
+  const site = await db
+    .selectFrom('sites')
+    .select(['id', 'latitude', 'longitude'])
+    .where('name', '=', 'Alder Marsh pumping station')
+    .executeTakeFirstOrThrow();
   proj = localProjection([site.longitude, site.latitude]);
   const corner = (x: number, y: number) => proj.toWgs84([x, y]);
-  const pitGeometry: Polygon = { type: 'Polygon', coordinates: [[corner(PIT.x0, PIT.y0), corner(PIT.x1, PIT.y0), corner(PIT.x1, PIT.y1), corner(PIT.x0, PIT.y1), corner(PIT.x0, PIT.y0)]] };
+  const pitGeometry: Polygon = {
+    type: 'Polygon',
+    coordinates: [[corner(PIT.x0, PIT.y0), corner(PIT.x1, PIT.y0), corner(PIT.x1, PIT.y1), corner(PIT.x0, PIT.y1), corner(PIT.x0, PIT.y0)]],
+  };
   const pit = await db
     .insertInto('excavations')
     .values({
@@ -139,7 +155,10 @@ async function shownReading(page: Page): Promise<number> {
 
 const alarm = (page: Page) => page.getByRole('alert').filter({ hasText: 'You are inside the exclusion zone' });
 
-test('the reading matches the shared geometry on both sides of the boundary, and the warning shows only inside', async ({ page, context }) => {
+test('the reading matches the shared geometry on both sides of the boundary, and the warning shows only inside', async ({
+  page,
+  context,
+}) => {
   await signInOperator(page);
   await page.goto(`/field/permits/${permit.id}`);
   await expect(page.getByRole('heading', { name: `Permit ${permit.number}` })).toBeVisible();
@@ -210,9 +229,13 @@ async function holdFieldApi(context: BrowserContext) {
 }
 
 /** HH:MM in the phone's own time zone, as the page writes times. */
-const clockIn = (page: Page, iso: string) => page.evaluate((t) => new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit' }).format(new Date(t)), iso);
+const clockIn = (page: Page, iso: string) =>
+  page.evaluate((t) => new Intl.DateTimeFormat('en-GB', { hour: '2-digit', minute: '2-digit' }).format(new Date(t)), iso);
 
-test('with the field API held while the browser believes it is online, the page says No signal and the copy’s own time', async ({ page, context }) => {
+test('with the field API held while the browser believes it is online, the page says No signal and the copy’s own time', async ({
+  page,
+  context,
+}) => {
   await signInOperator(page);
   await page.goto('/field');
   await expect(page.getByRole('link', { name: new RegExp(permit.number) })).toBeVisible();
@@ -228,7 +251,10 @@ test('with the field API held while the browser believes it is online, the page 
   expect(await page.evaluate(() => navigator.onLine)).toBe(true);
   await expect(page.getByRole('heading', { name: `Permit ${permit.number}` })).toBeVisible();
   // The service worker gives up at 8 s and the page at 10 s: either way the answer is the phone's copy.
-  await expect(page.getByTestId('last-updated')).toContainText(`No signal: showing the copy kept on this phone (from ${await clockIn(page, kept.asOf)}`, { timeout: 20_000 });
+  await expect(page.getByTestId('last-updated')).toContainText(
+    `No signal: showing the copy kept on this phone (from ${await clockIn(page, kept.asOf)}`,
+    { timeout: 20_000 },
+  );
   await expect(page.getByTestId('last-try')).toContainText('no answer from the server');
   await expect(page.getByRole('banner').getByRole('status')).toContainText('No signal');
   await expect(page.getByText('Keep every part of the load at least 2.00 m from the edge')).toBeVisible();
@@ -242,7 +268,12 @@ test('with the field API held while the browser believes it is online, the page 
   await expect(page.getByRole('banner').getByRole('status')).not.toContainText('No signal');
 });
 
-test('a permit suspended on the server after the copy was kept is never shown without the out-of-date warning', async ({ page, context, playwright, baseURL }) => {
+test('a permit suspended on the server after the copy was kept is never shown without the out-of-date warning', async ({
+  page,
+  context,
+  playwright,
+  baseURL,
+}) => {
   const supervisor = await apiAs(playwright.request, baseURL!, 'supervisor@demo.brink.test');
   const coordinator = await apiAs(playwright.request, baseURL!, 'coordinator@demo.brink.test');
   const live = await approvedPermit(supervisor, coordinator);
@@ -257,7 +288,10 @@ test('a permit suspended on the server after the copy was kept is never shown wi
   const answers: Answer[] = [];
   page.on('response', (r) => {
     if (new URL(r.url()).pathname !== `/api/field/permits/${live.id}` || r.status() !== 200) return;
-    r.json().then((b: Answer) => answers.push(b), () => undefined);
+    r.json().then(
+      (b: Answer) => answers.push(b),
+      () => undefined,
+    );
   });
   await page.goto(`/field/permits/${live.id}`);
   await expect(page.getByRole('heading', { name: `Permit ${live.number}` })).toContainText('Live');
@@ -270,7 +304,9 @@ test('a permit suspended on the server after the copy was kept is never shown wi
 
   // Suspended on the server; the phone hears nothing of it, and its clock moves on 6 minutes.
   const detail = await (await coordinator.get(`/api/permits/${live.id}`)).json();
-  const suspended = await coordinator.post(`/api/permits/${live.id}/transitions`, { data: { action: 'suspend', version: detail.permit.version, reason: 'Crack along the north edge.' } });
+  const suspended = await coordinator.post(`/api/permits/${live.id}/transitions`, {
+    data: { action: 'suspend', version: detail.permit.version, reason: 'Crack along the north edge.' },
+  });
   expect(suspended.status(), await suspended.text()).toBe(200);
   await page.clock.setFixedTime(Date.parse(kept.asOf) + 6 * 60_000);
   // From the first moment, every state of the page that shows the permit from a kept copy also shows the warning.
@@ -280,7 +316,8 @@ test('a permit suspended on the server after the copy was kept is never shown wi
     new MutationObserver(() => {
       const heading = document.querySelector('main h1')?.textContent ?? '';
       const line = document.querySelector('[data-testid="last-updated"]')?.textContent ?? '';
-      if (heading.startsWith('Permit') && !line.startsWith('Last updated') && !document.querySelector('[data-testid="stale-copy"]')) w.unwarned.push(`${heading} | ${line}`);
+      if (heading.startsWith('Permit') && !line.startsWith('Last updated') && !document.querySelector('[data-testid="stale-copy"]'))
+        w.unwarned.push(`${heading} | ${line}`);
     }).observe(document, { subtree: true, childList: true, characterData: true });
   });
   const release = await holdFieldApi(context);
@@ -327,7 +364,12 @@ test.describe('without a service worker', () => {
 // The smallest valid PNG: 1 × 1 pixel (PNG specification, ISO/IEC 15948).
 const PNG = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mP8z8BQDwAEhQGAhKmMIQAAAABJRU5ErkJggg==', 'base64');
 
-test('a concern and a briefing made with no signal arrive once when it returns, even when an answer is lost', async ({ page, context, playwright, baseURL }) => {
+test('a concern and a briefing made with no signal arrive once when it returns, even when an answer is lost', async ({
+  page,
+  context,
+  playwright,
+  baseURL,
+}) => {
   await signInOperator(page);
   await page.goto(`/field/permits/${permit.id}`);
   await expect(page.getByRole('heading', { name: `Permit ${permit.number}` })).toBeVisible();
@@ -387,7 +429,9 @@ test('the field pages have no serious or critical accessibility faults, large ty
       await expect(page.getByTestId('reading-figure')).toBeVisible();
     }
     const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze();
-    const bad = result.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
+    const bad = result.violations
+      .filter((v) => v.impact === 'serious' || v.impact === 'critical')
+      .map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`);
     expect(bad, path).toEqual([]);
 
     // Text readable at arm's length: body text of the field view at 18 px or more.
@@ -395,9 +439,9 @@ test('the field pages have no serious or critical accessibility faults, large ty
     expect(sizes.length).toBeGreaterThan(3);
     expect(Math.min(...sizes), `smallest text on ${path}`).toBeGreaterThanOrEqual(18);
     // Every button and link in the page at least 44 px tall.
-    const small = await page.locator('main button:visible, main a:visible, main label:has(input[type=radio])').evaluateAll((els) =>
-      els.filter((e) => e.getBoundingClientRect().height < 44).map((e) => (e.textContent ?? '').trim().slice(0, 40)),
-    );
+    const small = await page
+      .locator('main button:visible, main a:visible, main label:has(input[type=radio])')
+      .evaluateAll((els) => els.filter((e) => e.getBoundingClientRect().height < 44).map((e) => (e.textContent ?? '').trim().slice(0, 40)));
     expect(small, `targets under 44 px on ${path}`).toEqual([]);
   }
 });

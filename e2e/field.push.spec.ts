@@ -19,12 +19,21 @@ interface WorkerScope {
 }
 
 async function fake<T>(path: string, body: unknown): Promise<T> {
-  const r = await fetch(`${fakeUrl}${path}`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
+  const r = await fetch(`${fakeUrl}${path}`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify(body),
+  });
   expect(r.ok, `${path}: ${r.status}`).toBe(true);
   return ((await r.json()) as { data: T }).data;
 }
 
-test('the operator is told on the phone when a permit that names them is suspended, and the notification opens it', async ({ page, context, playwright, baseURL }) => {
+test('the operator is told on the phone when a permit that names them is suspended, and the notification opens it', async ({
+  page,
+  context,
+  playwright,
+  baseURL,
+}) => {
   expect(fakeUrl, 'PUSH_FAKE_SERVICE_URL (set by docker-less-scripts/test.sh)').toBeTruthy();
   const origin = new URL(baseURL!).origin;
   await context.grantPermissions(['notifications'], { origin });
@@ -35,19 +44,32 @@ test('the operator is told on the phone when a permit that names them is suspend
   // The device's subscription at the fake push service, made with Brink's public key; the page's
   // PushManager hands it out when the phone view subscribes.
   const { publicKey } = await ok<{ publicKey: string }>(await page.request.get('/api/push/key'), 'push key');
-  const device = await fake<{ endpoint: string; keys: { p256dh: string; auth: string }; clientHash: string }>('/subscribe', { userVisibleOnly: 'true', applicationServerKey: publicKey });
-  await page.addInitScript((sub) => {
-    let current: PushSubscription | null = null;
-    const make = () =>
-      ({ endpoint: sub.endpoint, expirationTime: null, options: {}, getKey: () => null, toJSON: () => ({ endpoint: sub.endpoint, expirationTime: null, keys: sub.keys }), unsubscribe: async () => ((current = null), true) }) as unknown as PushSubscription;
-    PushManager.prototype.subscribe = async function () {
-      current = make();
-      return current;
-    };
-    PushManager.prototype.getSubscription = async function () {
-      return current;
-    };
-  }, { endpoint: device.endpoint, keys: device.keys });
+  const device = await fake<{ endpoint: string; keys: { p256dh: string; auth: string }; clientHash: string }>('/subscribe', {
+    userVisibleOnly: 'true',
+    applicationServerKey: publicKey,
+  });
+  await page.addInitScript(
+    (sub) => {
+      let current: PushSubscription | null = null;
+      const make = () =>
+        ({
+          endpoint: sub.endpoint,
+          expirationTime: null,
+          options: {},
+          getKey: () => null,
+          toJSON: () => ({ endpoint: sub.endpoint, expirationTime: null, keys: sub.keys }),
+          unsubscribe: async () => ((current = null), true),
+        }) as unknown as PushSubscription;
+      PushManager.prototype.subscribe = async function () {
+        current = make();
+        return current;
+      };
+      PushManager.prototype.getSubscription = async function () {
+        return current;
+      };
+    },
+    { endpoint: device.endpoint, keys: device.keys },
+  );
 
   // The service worker is installed once the phone view has loaded; the switch is usable then.
   await page.goto('/field');
@@ -61,30 +83,48 @@ test('the operator is told on the phone when a permit that names them is suspend
   await expect(page.getByText(/^On: this phone is told when a permit that names you/)).toBeVisible();
 
   // A permit naming the operator goes live (briefed) and is then suspended by the coordinator.
-  const api = (storage?: Awaited<ReturnType<typeof context.storageState>>) => playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: origin }, storageState: storage });
+  const api = (storage?: Awaited<ReturnType<typeof context.storageState>>) =>
+    playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: origin }, storageState: storage });
   const coordinator = await api();
-  await ok(await coordinator.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }), 'coordinator sign-in');
+  await ok(
+    await coordinator.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }),
+    'coordinator sign-in',
+  );
   const supervisor = await api();
-  await ok(await supervisor.post('/api/auth/sign-in', { data: { email: 'supervisor@demo.brink.test', password: demoPassword } }), 'supervisor sign-in');
+  await ok(
+    await supervisor.post('/api/auth/sign-in', { data: { email: 'supervisor@demo.brink.test', password: demoPassword } }),
+    'supervisor sign-in',
+  );
   const { permit } = await trenchWithLivePermit(supervisor, coordinator, siteId, [me.user.id], 90);
   const operator = await api(await context.storageState());
   const briefed = await ok<{ briefing: { status: string } }>(await operator.post(`/api/permits/${permit.id}/briefing`), 'briefing');
   expect(briefed.briefing.status).toBe('live');
   const detail = await ok<{ permit: { version: number } }>(await coordinator.get(`/api/permits/${permit.id}`), 'permit');
-  await ok(await coordinator.post(`/api/permits/${permit.id}/transitions`, { data: { action: 'suspend', version: detail.permit.version, reason: 'Water in the trench' } }), 'suspend');
+  await ok(
+    await coordinator.post(`/api/permits/${permit.id}/transitions`, {
+      data: { action: 'suspend', version: detail.permit.version, reason: 'Water in the trench' },
+    }),
+    'suspend',
+  );
   await Promise.all([coordinator.dispose(), supervisor.dispose(), operator.dispose()]);
 
   // The fake push service received (and decrypted) Brink's notification of the suspension.
   const title = `Permit ${permit.number} is suspended`;
   let payload = '';
   await expect
-    .poll(async () => {
-      const { messages } = await fake<{ messages: string[] }>('/get-notifications', { clientHash: device.clientHash });
-      payload = messages.find((m) => (JSON.parse(m) as { title: string }).title === title) ?? '';
-      return payload !== '';
-    }, { timeout: 20_000 })
+    .poll(
+      async () => {
+        const { messages } = await fake<{ messages: string[] }>('/get-notifications', { clientHash: device.clientHash });
+        payload = messages.find((m) => (JSON.parse(m) as { title: string }).title === title) ?? '';
+        return payload !== '';
+      },
+      { timeout: 20_000 },
+    )
     .toBe(true);
-  expect(JSON.parse(payload)).toMatchObject({ path: `/field/permits/${permit.id}`, body: 'Stop work under this permit now and move clear of the excavation.' });
+  expect(JSON.parse(payload)).toMatchObject({
+    path: `/field/permits/${permit.id}`,
+    body: 'Stop work under this permit now and move clear of the excavation.',
+  });
 
   // Handed to the phone's service worker as the push it is: shown as a notification…
   await worker.evaluate((data) => {
@@ -96,7 +136,11 @@ test('the operator is told on the phone when a permit that names them is suspend
       const list = await (self as unknown as WorkerScope).registration.getNotifications();
       return list.filter((n) => n.title === t).map((n) => ({ body: n.body, data: n.data as { path: string } }));
     }, title);
-  await expect.poll(shown).toEqual([{ body: 'Stop work under this permit now and move clear of the excavation.', data: { path: `/field/permits/${permit.id}` } }]);
+  await expect
+    .poll(shown)
+    .toEqual([
+      { body: 'Stop work under this permit now and move clear of the excavation.', data: { path: `/field/permits/${permit.id}` } },
+    ]);
 
   // …and tapping it opens the permit on the phone.
   await worker.evaluate(async (t) => {

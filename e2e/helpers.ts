@@ -31,7 +31,13 @@ export function offset(origin: { latitude: number; longitude: number }, east: nu
  * different ones), and a permit for a pallet stack beside it: live at
  * once, or approved and waiting for the briefing of the operators it names.
  */
-export async function trenchWithLivePermit(supervisor: APIRequestContext, coordinator: APIRequestContext, siteId: number, operatorIds: number[] = [], north = 50) {
+export async function trenchWithLivePermit(
+  supervisor: APIRequestContext,
+  coordinator: APIRequestContext,
+  siteId: number,
+  operatorIds: number[] = [],
+  north = 50,
+) {
   const { site } = await ok<{ site: { latitude: number; longitude: number } }>(await supervisor.get(`/api/sites/${siteId}`), 'site');
   const reference = `E2E-${randomUUID().slice(0, 4)}`;
   const { excavation } = await ok<{ excavation: { id: number } }>(
@@ -52,7 +58,13 @@ export async function trenchWithLivePermit(supervisor: APIRequestContext, coordi
     'excavation',
   );
   const now = Date.now();
-  const pallets = [offset(site, -2, north + 6), offset(site, 2, north + 6), offset(site, 2, north + 8), offset(site, -2, north + 8), offset(site, -2, north + 6)];
+  const pallets = [
+    offset(site, -2, north + 6),
+    offset(site, 2, north + 6),
+    offset(site, 2, north + 8),
+    offset(site, -2, north + 8),
+    offset(site, -2, north + 6),
+  ];
   const { permit } = await ok<{ permit: { id: number; number: string; version: number } }>(
     await supervisor.post('/api/permits', {
       data: {
@@ -73,7 +85,9 @@ export async function trenchWithLivePermit(supervisor: APIRequestContext, coordi
     'submit',
   );
   const approved = await ok<{ permit: { status: string } }>(
-    await coordinator.post(`/api/permits/${permit.id}/transitions`, { data: { action: 'approve', version: submitted.permit.version, password: demoPassword } }),
+    await coordinator.post(`/api/permits/${permit.id}/transitions`, {
+      data: { action: 'approve', version: submitted.permit.version, password: demoPassword },
+    }),
     'approve',
   );
   expect(approved.permit.status).toBe(operatorIds.length ? 'approved' : 'live');

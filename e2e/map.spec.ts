@@ -12,7 +12,9 @@ interface ExcavationRow {
 }
 
 test.describe('site map and register', () => {
-  test('a coordinator draws a trench, describes it, finds it again with its influence zone, and in the register and its CSV', async ({ page }) => {
+  test('a coordinator draws a trench, describes it, finds it again with its influence zone, and in the register and its CSV', async ({
+    page,
+  }) => {
     const external: string[] = [];
     const appOrigin = new URL(test.info().project.use.baseURL!).origin;
     page.on('request', (r) => {

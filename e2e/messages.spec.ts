@@ -42,11 +42,17 @@ test('a request refused by the server: each reason once, by its label, next to i
 test('a wrong password under a decision is said once, in words', async ({ page, playwright, baseURL }) => {
   // A request sent for review through the API, beside a trench of the test's own.
   const supervisor = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL!).origin } });
-  await ok(await supervisor.post('/api/auth/sign-in', { data: { email: 'supervisor@demo.brink.test', password: demoPassword } }), 'supervisor sign-in');
+  await ok(
+    await supervisor.post('/api/auth/sign-in', { data: { email: 'supervisor@demo.brink.test', password: demoPassword } }),
+    'supervisor sign-in',
+  );
   const { sites } = await ok<{ sites: { id: number }[] }>(await supervisor.get('/api/sites'), 'sites');
   const siteId = sites[0].id;
   const { site } = await ok<{ site: { latitude: number; longitude: number } }>(await supervisor.get(`/api/sites/${siteId}`), 'site');
-  const { excavations } = await ok<{ excavations: { id: number; reference: string }[] }>(await supervisor.get(`/api/sites/${siteId}/excavations`), 'excavations');
+  const { excavations } = await ok<{ excavations: { id: number; reference: string }[] }>(
+    await supervisor.get(`/api/sites/${siteId}/excavations`),
+    'excavations',
+  );
   const tr01 = excavations.find((e) => e.reference === 'TR-01')!;
   const now = Date.now();
   // A small stack of kerbs 6 m north of TR-01 (it runs east-west about 22 m south of the origin).
@@ -65,7 +71,10 @@ test('a wrong password under a decision is said once, in words', async ({ page, 
     }),
     'permit',
   );
-  const sent = await ok<{ permit: { version: number } }>(await supervisor.post(`/api/permits/${permit.id}/transitions`, { data: { action: 'submit', version: permit.version } }), 'submit');
+  const sent = await ok<{ permit: { version: number } }>(
+    await supervisor.post(`/api/permits/${permit.id}/transitions`, { data: { action: 'submit', version: permit.version } }),
+    'submit',
+  );
 
   await signIn(page, 'coordinator@demo.brink.test');
   await page.goto(`/permits/${permit.id}`);
@@ -79,7 +88,10 @@ test('a wrong password under a decision is said once, in words', async ({ page, 
   await expect(page.getByTestId('form-summary')).toBeFocused();
   await expect(page.getByText(/That is not your password|is not your password/)).toHaveCount(0);
   // Withdrawn again, so the coordinator's queue holds only what other tests send.
-  await ok(await supervisor.post(`/api/permits/${permit.id}/transitions`, { data: { action: 'withdraw', version: sent.permit.version } }), 'withdraw');
+  await ok(
+    await supervisor.post(`/api/permits/${permit.id}/transitions`, { data: { action: 'withdraw', version: sent.permit.version } }),
+    'withdraw',
+  );
   await supervisor.dispose();
 });
 
@@ -91,15 +103,29 @@ test('the import report names fields and choices by their labels, not codes', as
   const trench = (reference: string, supportType: string) => ({
     type: 'Feature',
     geometry: { type: 'LineString', coordinates: [offset(site, 400, 400), offset(site, 420, 400)] },
-    properties: { reference, name: 'Import test', width: 0.9, depth: 1.5, state: 'planned', supportType, soil: [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 0 }] },
+    properties: {
+      reference,
+      name: 'Import test',
+      width: 0.9,
+      depth: 1.5,
+      state: 'planned',
+      supportType,
+      soil: [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 0 }],
+    },
   });
   const file = { type: 'FeatureCollection', features: [trench('IMP-BOX', 'Box'), trench('TR-01', 'Trench box')] };
-  await page.getByLabel('GeoJSON file').setInputFiles({ name: 'import.geojson', mimeType: 'application/geo+json', buffer: Buffer.from(JSON.stringify(file)) });
+  await page
+    .getByLabel('GeoJSON file')
+    .setInputFiles({ name: 'import.geojson', mimeType: 'application/geo+json', buffer: Buffer.from(JSON.stringify(file)) });
   await page.getByRole('button', { name: 'Import', exact: true }).click();
   const report = page.getByLabel('Import report');
-  await expect(report.getByText('Support must be one of: Trench box, Hydraulic frames, Sheet piles, Timbering, Battered back or Unsupported.')).toBeVisible();
   await expect(
-    report.getByText('Reference is already used on this site: to update it, choose "Add new ones and replace those with the same reference" under "What to do with existing references".'),
+    report.getByText('Support must be one of: Trench box, Hydraulic frames, Sheet piles, Timbering, Battered back or Unsupported.'),
+  ).toBeVisible();
+  await expect(
+    report.getByText(
+      'Reference is already used on this site: to update it, choose "Add new ones and replace those with the same reference" under "What to do with existing references".',
+    ),
   ).toBeVisible();
   await expect(page.getByText(/trench-box|hydraulic-frames|mode "replace"|features\[/)).toHaveCount(0);
 });

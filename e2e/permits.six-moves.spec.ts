@@ -60,7 +60,10 @@ async function centreY(l: Locator): Promise<number> {
  */
 async function ownTrench(playwright: { request: { newContext: (o: object) => Promise<APIRequestContext> } }, baseURL: string) {
   const api = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL).origin } });
-  await ok(await api.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }), 'coordinator sign-in');
+  await ok(
+    await api.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }),
+    'coordinator sign-in',
+  );
   const { sites } = await ok<{ sites: { id: number }[] }>(await api.get('/api/sites'), 'sites');
   const siteId = sites[0].id;
   const { site } = await ok<{ site: { latitude: number; longitude: number } }>(await api.get(`/api/sites/${siteId}`), 'site');
@@ -102,7 +105,9 @@ test('a load permit asked for in six moves and decided in four', async ({ page, 
 
   // It lands at its computed standoff: the check passes where it stands.
   const live = page.locator('section', { has: page.getByRole('heading', { name: 'Live check' }) });
-  await expect(page.getByText(new RegExp(`Excavator 21 t is placed [\\d.]+ m from the edge of ${reference}, just beyond its computed standoff`))).toBeVisible();
+  await expect(
+    page.getByText(new RegExp(`Excavator 21 t is placed [\\d.]+ m from the edge of ${reference}, just beyond its computed standoff`)),
+  ).toBeVisible();
   await expect(live.locator('[data-verdict="passes"], [data-verdict="close"]').first()).toBeVisible();
   await expect(live.locator('[data-verdict="fails"]')).toHaveCount(0);
 

@@ -35,14 +35,19 @@ test('a load permit from placing to approval and the printed permit', async ({ p
   // It lands at its standoff beside the trench's longest side; here it is set facing east by hand.
   await page.getByLabel('Facing (degrees from north)').fill('90');
   // Typed key by key, as a person does (a minus sign first), and applied with Enter.
-  for (const [label, figure] of [['East of the site origin (m)', '-18'], ['North of the site origin (m)', '-19.6']]) {
+  for (const [label, figure] of [
+    ['East of the site origin (m)', '-18'],
+    ['North of the site origin (m)', '-19.6'],
+  ]) {
     const field = page.getByLabel(label);
     await field.fill('');
     await field.pressSequentially(figure);
     await field.press('Enter');
     await expect(field).toHaveValue(Number(figure).toFixed(2));
   }
-  const live = page.getByRole('region', { name: 'Live check' }).or(page.locator('section', { has: page.getByRole('heading', { name: 'Live check' }) }));
+  const live = page
+    .getByRole('region', { name: 'Live check' })
+    .or(page.locator('section', { has: page.getByRole('heading', { name: 'Live check' }) }));
   await expect(live.locator('[data-verdict="fails"]').first()).toBeVisible();
   await expect(live.getByTestId('computed-standoff')).toHaveText(/^\d+\.\d\d m$/);
   const standoff = Number((await live.getByTestId('computed-standoff').textContent())!.replace(' m', ''));
@@ -90,15 +95,22 @@ test('a load permit from placing to approval and the printed permit', async ({ p
   await form.getByRole('button', { name: 'Approve' }).click();
   await expect(coordinator.getByRole('heading', { name: 'Decision: Approved' })).toBeVisible();
   // The success is said in words, and stays although nothing is left to do on the permit.
-  await expect(coordinator.getByText('Approved. The person who asked for it and the operators named on it are told by e-mail.')).toBeVisible();
-  await expect(coordinator.getByTestId('decision-standoff')).toHaveText('Standoff: keep every load at least 3.00 m from the excavation edge.');
+  await expect(
+    coordinator.getByText('Approved. The person who asked for it and the operators named on it are told by e-mail.'),
+  ).toBeVisible();
+  await expect(coordinator.getByTestId('decision-standoff')).toHaveText(
+    'Standoff: keep every load at least 3.00 m from the excavation edge.',
+  );
   await coordinatorContext.close();
 
   // The supervisor sees it approved and downloads the printed permit.
   await page.reload();
   await expect(page.locator('[data-status="approved"]')).toBeVisible();
   await expect(page.getByText('A banksman is present whenever the machine moves or slews inside the influence zone.')).toBeVisible();
-  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download the permit (PDF)' }).click()]);
+  const [download] = await Promise.all([
+    page.waitForEvent('download'),
+    page.getByRole('link', { name: 'Download the permit (PDF)' }).click(),
+  ]);
   expect(download.suggestedFilename()).toBe(`permit-${number}.pdf`);
   const pdf = await readFile((await download.path())!);
   expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');

@@ -25,7 +25,11 @@ export const demoExcavations = [
     reference: 'TR-01',
     name: 'Rising main trench, pump house to inlet chamber',
     kind: 'trench' as const,
-    line: [[-35, -22], [0, -22], [28, 4]],
+    line: [
+      [-35, -22],
+      [0, -22],
+      [28, 4],
+    ],
     width: 1.2,
     depth: 2.4,
     state: 'open' as const,
@@ -42,7 +46,12 @@ export const demoExcavations = [
     reference: 'PIT-01',
     name: 'Wet well excavation',
     kind: 'pit' as const,
-    line: [[21, 32], [29, 32], [29, 38], [21, 38]],
+    line: [
+      [21, 32],
+      [29, 32],
+      [29, 38],
+      [21, 38],
+    ],
     width: null,
     depth: 4.5,
     state: 'open' as const,
@@ -62,7 +71,10 @@ export const demoExcavations = [
     reference: 'TR-02',
     name: 'Kiosk cable duct trench',
     kind: 'trench' as const,
-    line: [[-62, 38], [-22, 58]],
+    line: [
+      [-62, 38],
+      [-22, 58],
+    ],
     width: 0.6,
     depth: 1.2,
     state: 'planned' as const,
@@ -81,7 +93,8 @@ export async function seedExcavations(db: Db, ctx: DemoContext): Promise<void> {
   const site = await db.selectFrom('sites').select(['latitude', 'longitude']).where('id', '=', ctx.siteId).executeTakeFirstOrThrow();
   for (const e of demoExcavations) {
     const points = e.line.map(([x, y]) => lonLat(site, x, y));
-    const geometry = e.kind === 'trench' ? { type: 'LineString', coordinates: points } : { type: 'Polygon', coordinates: [[...points, points[0]]] };
+    const geometry =
+      e.kind === 'trench' ? { type: 'LineString', coordinates: points } : { type: 'Polygon', coordinates: [[...points, points[0]]] };
     const { line: _line, ...columns } = e;
     await db
       .insertInto('excavations')
@@ -89,7 +102,9 @@ export async function seedExcavations(db: Db, ctx: DemoContext): Promise<void> {
         ...columns,
         site_id: ctx.siteId,
         geometry: JSON.stringify(geometry),
-        ...shapeColumns(shapesOf({ kind: e.kind, geometry: geometry as LineString | Polygon, width: e.width ?? null, depth: e.depth }, site)),
+        ...shapeColumns(
+          shapesOf({ kind: e.kind, geometry: geometry as LineString | Polygon, width: e.width ?? null, depth: e.depth }, site),
+        ),
         soil: JSON.stringify(e.soil),
         created_by: ctx.people.coordinator,
       })

@@ -17,17 +17,38 @@ function answers(over: Partial<Record<(typeof keys)[number], Answer>> = {}): str
 function londonTime(daysAgo: number, hour: number, minute: number): Date {
   const today = new Date();
   const noon = new Date(Date.UTC(today.getUTCFullYear(), today.getUTCMonth(), today.getUTCDate() - daysAgo, 12));
-  const londonNoon = Number(new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/London', hour: 'numeric', hourCycle: 'h23' }).format(noon));
+  const londonNoon = Number(
+    new Intl.DateTimeFormat('en-GB', { timeZone: 'Europe/London', hour: 'numeric', hourCycle: 'h23' }).format(noon),
+  );
   const offsetHours = londonNoon - 12;
   return new Date(Date.UTC(noon.getUTCFullYear(), noon.getUTCMonth(), noon.getUTCDate(), hour - offsetHours, minute));
 }
 
 export async function seedInspections(db: Db, ctx: DemoContext): Promise<void> {
   await db.insertInto('site_shifts').values({ site_id: ctx.siteId, name: 'Day shift', start_time: '07:00' }).execute();
-  const open = await db.selectFrom('excavations').select(['id']).where('site_id', '=', ctx.siteId).where('state', '=', 'open').orderBy('reference').execute();
+  const open = await db
+    .selectFrom('excavations')
+    .select(['id'])
+    .where('site_id', '=', ctx.siteId)
+    .where('state', '=', 'open')
+    .orderBy('reference')
+    .execute();
   if (!open.length) return;
 
-  const record = (excavationId: number, daysAgo: number, h: number, m: number, f: { by: number; reason?: 'shift-start' | 'after-event' | 'after-fall'; reasonDetail?: string; checklist?: string; outcome?: 'safe' | 'not-safe'; remarks?: string }) => ({
+  const record = (
+    excavationId: number,
+    daysAgo: number,
+    h: number,
+    m: number,
+    f: {
+      by: number;
+      reason?: 'shift-start' | 'after-event' | 'after-fall';
+      reasonDetail?: string;
+      checklist?: string;
+      outcome?: 'safe' | 'not-safe';
+      remarks?: string;
+    },
+  ) => ({
     excavation_id: excavationId,
     site_id: ctx.siteId,
     inspector_id: f.by,

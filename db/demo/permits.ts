@@ -30,8 +30,18 @@ const coordinatorName = 'Colm Ridley (demo coordinator)';
 
 function demoPermits(site: { latitude: number; longitude: number }, plant: Record<string, number>): DemoPermit[] {
   const at = (east: number, north: number) => lonLat(site, east, north);
-  const rect = (e0: number, n0: number, e1: number, n1: number) => ({ type: 'Polygon', coordinates: [[at(e0, n0), at(e1, n0), at(e1, n1), at(e0, n1), at(e0, n0)]] });
-  const machine = (id: string, name: string, east: number, north: number, rotation: number) => ({ id, kind: 'plant', label: name, plantItemId: plant[name], position: at(east, north), rotation });
+  const rect = (e0: number, n0: number, e1: number, n1: number) => ({
+    type: 'Polygon',
+    coordinates: [[at(e0, n0), at(e1, n0), at(e1, n1), at(e0, n1), at(e0, n0)]],
+  });
+  const machine = (id: string, name: string, east: number, north: number, rotation: number) => ({
+    id,
+    kind: 'plant',
+    label: name,
+    plantItemId: plant[name],
+    position: at(east, north),
+    rotation,
+  });
   const submitted: Step = { action: 'submit', to: 'submitted', by: 'supervisor', hoursAgo: 20 };
   const approved: Step = { action: 'approve', to: 'approved', by: 'coordinator', hoursAgo: 18 };
   return [
@@ -64,7 +74,16 @@ function demoPermits(site: { latitude: number; longitude: number }, plant: Recor
       loads: [machine('wagon', 'Concrete wagon, 4 axles, laden 32 t', -30, -27, 90)],
       operators: true,
       decision: { action: 'return', reason: 'Please add the chute length and where the wagon turns; the method statement is missing.' },
-      steps: [submitted, { action: 'return', to: 'returned', by: 'coordinator', hoursAgo: 19, comment: 'Please add the chute length and where the wagon turns; the method statement is missing.' }],
+      steps: [
+        submitted,
+        {
+          action: 'return',
+          to: 'returned',
+          by: 'coordinator',
+          hoursAgo: 19,
+          comment: 'Please add the chute length and where the wagon turns; the method statement is missing.',
+        },
+      ],
     },
     {
       kind: 'load',
@@ -74,7 +93,14 @@ function demoPermits(site: { latitude: number; longitude: number }, plant: Recor
       excavation: 'PIT-01',
       loads: [machine('crane', 'Mobile crane 45 t on outriggers', 36, 35, 0)],
       operators: true,
-      decision: { action: 'approve', standoff: 2.5, conditions: ['Outriggers and pads stand on mats of the agreed size, never on bare ground.', 'A banksman is present whenever the machine moves or slews inside the influence zone.'] },
+      decision: {
+        action: 'approve',
+        standoff: 2.5,
+        conditions: [
+          'Outriggers and pads stand on mats of the agreed size, never on bare ground.',
+          'A banksman is present whenever the machine moves or slews inside the influence zone.',
+        ],
+      },
       steps: [submitted, approved],
     },
     {
@@ -98,8 +124,23 @@ function demoPermits(site: { latitude: number; longitude: number }, plant: Recor
       loads: [machine('dumper', 'Forward-tip dumper 6 t, laden', 25, 44, 180)],
       operators: true,
       briefed: true,
-      decision: { action: 'approve', standoff: 3.5, conditions: ['Stop and tell the coordinator if water appears in the excavation or cracks open at the edge.'] },
-      steps: [submitted, approved, { action: 'start', to: 'live', by: 'system', hoursAgo: 3 }, { action: 'suspend', to: 'suspended', by: 'coordinator', hoursAgo: 1, comment: 'Water rising on the north side: wellpoint pump down. Resume after the pump is back and the pit inspected.' }],
+      decision: {
+        action: 'approve',
+        standoff: 3.5,
+        conditions: ['Stop and tell the coordinator if water appears in the excavation or cracks open at the edge.'],
+      },
+      steps: [
+        submitted,
+        approved,
+        { action: 'start', to: 'live', by: 'system', hoursAgo: 3 },
+        {
+          action: 'suspend',
+          to: 'suspended',
+          by: 'coordinator',
+          hoursAgo: 1,
+          comment: 'Water rising on the north side: wellpoint pump down. Resume after the pump is back and the pit inspected.',
+        },
+      ],
     },
     {
       kind: 'load',
@@ -110,7 +151,16 @@ function demoPermits(site: { latitude: number; longitude: number }, plant: Recor
       loads: [{ id: 'spoil', kind: 'stockpile', label: 'Spoil heap', outline: rect(-30, -21, -10, -18), unitWeight: 19, height: 2 }],
       operators: false,
       decision: { action: 'decline', reason: 'The frames are not designed for a heap this size this close. Keep spoil in the compound.' },
-      steps: [submitted, { action: 'decline', to: 'declined', by: 'coordinator', hoursAgo: 19, comment: 'The frames are not designed for a heap this size this close. Keep spoil in the compound.' }],
+      steps: [
+        submitted,
+        {
+          action: 'decline',
+          to: 'declined',
+          by: 'coordinator',
+          hoursAgo: 19,
+          comment: 'The frames are not designed for a heap this size this close. Keep spoil in the compound.',
+        },
+      ],
     },
     {
       kind: 'load',
@@ -121,7 +171,11 @@ function demoPermits(site: { latitude: number; longitude: number }, plant: Recor
       loads: [machine('roller', 'Single-drum roller 7 t', -20, -28, 90)],
       operators: true,
       briefed: true,
-      decision: { action: 'approve', standoff: 3, conditions: ['A banksman is present whenever the machine moves or slews inside the influence zone.'] },
+      decision: {
+        action: 'approve',
+        standoff: 3,
+        conditions: ['A banksman is present whenever the machine moves or slews inside the influence zone.'],
+      },
       steps: [
         { ...submitted, hoursAgo: 40 },
         { ...approved, hoursAgo: 36 },
@@ -179,7 +233,11 @@ function demoPermits(site: { latitude: number; longitude: number }, plant: Recor
 }
 
 export async function seedPermits(db: Db, ctx: DemoContext): Promise<void> {
-  const site = await db.selectFrom('sites').select(['latitude', 'longitude', 'default_method']).where('id', '=', ctx.siteId).executeTakeFirstOrThrow();
+  const site = await db
+    .selectFrom('sites')
+    .select(['latitude', 'longitude', 'default_method'])
+    .where('id', '=', ctx.siteId)
+    .executeTakeFirstOrThrow();
   const plantRows = await db.selectFrom('plant_items').select(['id', 'name']).execute();
   const plant = Object.fromEntries(plantRows.map((p) => [p.name, p.id]));
   const excavations = await db.selectFrom('excavations').select(['id', 'reference']).where('site_id', '=', ctx.siteId).execute();
@@ -196,7 +254,17 @@ export async function seedPermits(db: Db, ctx: DemoContext): Promise<void> {
     const updated = last ? hours(-last.hoursAgo) : hours(-24);
     const permit = await db
       .insertInto('permits')
-      .values({ site_id: ctx.siteId, seq, number, kind: p.kind, status: p.status, version: p.steps.length + 1, requested_by: ctx.people.supervisor, created_at: hours(-24 - p.steps.length), updated_at: updated })
+      .values({
+        site_id: ctx.siteId,
+        seq,
+        number,
+        kind: p.kind,
+        status: p.status,
+        version: p.steps.length + 1,
+        requested_by: ctx.people.supervisor,
+        created_at: hours(-24 - p.steps.length),
+        updated_at: updated,
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     const decisionStep = p.steps.find((s) => ['approve', 'return', 'decline'].includes(s.action));
@@ -212,7 +280,9 @@ export async function seedPermits(db: Db, ctx: DemoContext): Promise<void> {
           signature: `Signed by ${coordinatorName} with their password at ${decisionAt!.replace('T', ' ').slice(0, 19)} UTC`,
         }
       : null;
-    const dig = p.dig ? JSON.parse(JSON.stringify(p.dig).replace(/"HOURS:(-?\d+)"/g, (_m, h) => JSON.stringify(hours(Number(h)).toISOString()))) : null;
+    const dig = p.dig
+      ? JSON.parse(JSON.stringify(p.dig).replace(/"HOURS:(-?\d+)"/g, (_m, h) => JSON.stringify(hours(Number(h)).toISOString())))
+      : null;
     const rev = await db
       .insertInto('permit_revisions')
       .values({
@@ -233,13 +303,42 @@ export async function seedPermits(db: Db, ctx: DemoContext): Promise<void> {
       .returning('id')
       .executeTakeFirstOrThrow();
     if (p.operators) {
-      await db.insertInto('permit_operators').values({ revision_id: rev.id, user_id: ctx.people.operator, briefed_at: p.briefed ? hours(-(p.steps.find((s) => s.action === 'start')?.hoursAgo ?? 1) - 0.5) : null }).execute();
+      await db
+        .insertInto('permit_operators')
+        .values({
+          revision_id: rev.id,
+          user_id: ctx.people.operator,
+          briefed_at: p.briefed ? hours(-(p.steps.find((s) => s.action === 'start')?.hoursAgo ?? 1) - 0.5) : null,
+        })
+        .execute();
     }
     const events = [
-      { action: 'create', from: null as Status | null, to: 'draft' as Status | null, by: 'supervisor' as Step['by'], at: hours(-24 - p.steps.length), comment: '' },
-      ...p.steps.map((s, i) => ({ action: s.action, from: (i === 0 ? 'draft' : p.steps[i - 1].to) as Status, to: s.to, by: s.by, at: hours(-s.hoursAgo), comment: s.comment ?? '' })),
+      {
+        action: 'create',
+        from: null as Status | null,
+        to: 'draft' as Status | null,
+        by: 'supervisor' as Step['by'],
+        at: hours(-24 - p.steps.length),
+        comment: '',
+      },
+      ...p.steps.map((s, i) => ({
+        action: s.action,
+        from: (i === 0 ? 'draft' : p.steps[i - 1].to) as Status,
+        to: s.to,
+        by: s.by,
+        at: hours(-s.hoursAgo),
+        comment: s.comment ?? '',
+      })),
     ];
-    if (p.briefed) events.push({ action: 'briefed', from: null, to: null, by: 'operator', at: hours(-(p.steps.find((s) => s.action === 'start')?.hoursAgo ?? 1) - 0.5), comment: '' });
+    if (p.briefed)
+      events.push({
+        action: 'briefed',
+        from: null,
+        to: null,
+        by: 'operator',
+        at: hours(-(p.steps.find((s) => s.action === 'start')?.hoursAgo ?? 1) - 0.5),
+        comment: '',
+      });
     events.sort((a, b) => a.at.getTime() - b.at.getTime());
     for (const e of events) {
       const actorId = e.by === 'system' ? null : ctx.people[e.by];

@@ -32,7 +32,8 @@ function axle(label: string, x: number, track: number, contactLength: number, co
   ];
 }
 
-const TRACK_NOTE = 'Equal shares on both tracks: the machine standing level with the arm tucked in. Digging or lifting over one track loads it far more; raise its share or the design factor for that case.';
+const TRACK_NOTE =
+  'Equal shares on both tracks: the machine standing level with the arm tucked in. Digging or lifting over one track loads it far more; raise its share or the design factor for that case.';
 
 export const demoPlant: DemoPlant[] = [
   { name: 'Mini excavator 1.5 t', category: 'excavator', mass: 1.5, elements: tracks(1.25, 0.23, 0.77), notes: TRACK_NOTE },
@@ -52,7 +53,7 @@ export const demoPlant: DemoPlant[] = [
       { name: 'Rear right pad', kind: 'pad', x: -3.6, y: -3.5, length: 1.2, width: 1.2, share: 0.25 },
     ],
     notes:
-      'Equal quarter shares are only the simple default (crane set up, nothing on the hook). A lift can put well over half of the crane and its load on one outrigger: take the worst outrigger reaction from the lift plan and set that pad\'s share and the design factor to match. Pads are 1.2 m square mats.',
+      "Equal quarter shares are only the simple default (crane set up, nothing on the hook). A lift can put well over half of the crane and its load on one outrigger: take the worst outrigger reaction from the lift plan and set that pad's share and the design factor to match. Pads are 1.2 m square mats.",
   },
   {
     name: 'Concrete wagon, 4 axles, laden 32 t',
@@ -85,7 +86,8 @@ export const demoPlant: DemoPlant[] = [
     category: 'telehandler',
     mass: 11.5,
     elements: [...axle('Front axle', 1.45, 1.9, 0.3, 0.4, 0.3), ...axle('Rear axle', -1.45, 1.9, 0.3, 0.4, 0.2)],
-    notes: 'Travelling with a load carried low. Lifting at reach moves nearly all the weight to the front axle: set the front shares to suit the load chart.',
+    notes:
+      'Travelling with a load carried low. Lifting at reach moves nearly all the weight to the front axle: set the front shares to suit the load chart.',
   },
   {
     name: 'Single-drum roller 7 t',
@@ -96,7 +98,8 @@ export const demoPlant: DemoPlant[] = [
       ...axle('Rear axle', -1.45, 1.4, 0.25, 0.45, 0.225),
     ],
     designFactor: 1.3,
-    notes: 'Design factor 1.3 is an allowance for the vibrating drum; replace it with the roller\'s own dynamic force when known. Keep vibration off near supported excavations where you can.',
+    notes:
+      "Design factor 1.3 is an allowance for the vibrating drum; replace it with the roller's own dynamic force when known. Keep vibration off near supported excavations where you can.",
   },
 ];
 

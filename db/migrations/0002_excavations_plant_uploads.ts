@@ -32,7 +32,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('geometry', 'jsonb', (c) => c.notNull())
     .addColumn('width', 'double precision')
     .addColumn('depth', 'double precision', (c) => c.notNull().check(sql`depth > 0`))
-    .addColumn('state', 'text', (c) => c.notNull().defaultTo('planned').check(sql`state in ('planned','open','backfilled')`))
+    .addColumn('state', 'text', (c) =>
+      c
+        .notNull()
+        .defaultTo('planned')
+        .check(sql`state in ('planned','open','backfilled')`),
+    )
     .addColumn('support_type', 'text', (c) => c.notNull())
     .addColumn('design_surcharge', 'double precision', (c) => c.notNull().defaultTo(10))
     .addColumn('rated_pressure', 'double precision')

@@ -14,7 +14,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .execute();
   for (const r of rows) {
     const shapes = shapesOf(
-      { kind: r.kind as 'trench' | 'pit', geometry: r.geometry as LineString | Polygon, width: r.width as number | null, depth: Number(r.depth) },
+      {
+        kind: r.kind as 'trench' | 'pit',
+        geometry: r.geometry as LineString | Polygon,
+        width: r.width as number | null,
+        depth: Number(r.depth),
+      },
       { latitude: Number(r.latitude), longitude: Number(r.longitude) },
     );
     await db.updateTable('excavations').set(shapeColumns(shapes)).where('id', '=', r.id).execute();

@@ -8,11 +8,7 @@ import type { Kysely } from 'kysely';
 // every stored check. Both null on revisions stored before this migration (their check uses the
 // library until they are next checked).
 export async function up(db: Kysely<any>): Promise<void> {
-  await db.schema
-    .alterTable('permit_revisions')
-    .addColumn('plant_snapshot', 'jsonb')
-    .addColumn('excavation_snapshot', 'jsonb')
-    .execute();
+  await db.schema.alterTable('permit_revisions').addColumn('plant_snapshot', 'jsonb').addColumn('excavation_snapshot', 'jsonb').execute();
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

@@ -3,7 +3,7 @@ import { z } from 'zod';
 const onOff = z
   .string()
   .optional()
-  .transform((v) => v === undefined || v === '' ? undefined : !['0', 'off', 'false', 'no'].includes(v.toLowerCase()));
+  .transform((v) => (v === undefined || v === '' ? undefined : !['0', 'off', 'false', 'no'].includes(v.toLowerCase())));
 
 const envSchema = z.object({
   NODE_ENV: z.string().default('development'),

@@ -22,7 +22,8 @@ import { HttpError } from './http';
 
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
 
-export const crossSite = (why: string) => new HttpError(403, 'cross_site', `Refused: ${why}. Changes are accepted only from Brink's own pages.`);
+export const crossSite = (why: string) =>
+  new HttpError(403, 'cross_site', `Refused: ${why}. Changes are accepted only from Brink's own pages.`);
 
 function ownOrigins(req: Request, publicUrl: string): string[] {
   const out = [new URL(publicUrl).origin];
@@ -36,18 +37,29 @@ export function sameOrigin(publicUrl: string): RequestHandler {
   return (req, _res, next) => {
     const encoding = req.get('content-encoding');
     if (encoding !== undefined && encoding.trim().toLowerCase() !== 'identity') {
-      next(new HttpError(415, 'unsupported_encoding', `Content-Encoding ${JSON.stringify(encoding)} is not accepted; send the body uncompressed.`));
+      next(
+        new HttpError(
+          415,
+          'unsupported_encoding',
+          `Content-Encoding ${JSON.stringify(encoding)} is not accepted; send the body uncompressed.`,
+        ),
+      );
       return;
     }
     if (SAFE.has(req.method)) return next();
     const origin = req.get('origin');
     if (origin !== undefined) {
-      if (!ownOrigins(req, publicUrl).includes(origin.toLowerCase())) return next(crossSite(`the request came from ${origin === 'null' ? 'an opaque origin' : origin}`));
+      if (!ownOrigins(req, publicUrl).includes(origin.toLowerCase()))
+        return next(crossSite(`the request came from ${origin === 'null' ? 'an opaque origin' : origin}`));
       return next();
     }
     const site = req.get('sec-fetch-site');
     if (site === 'same-origin') return next();
-    next(crossSite(site ? `the request came from a ${site} page` : 'the request says neither where it came from (Origin) nor how (Sec-Fetch-Site)'));
+    next(
+      crossSite(
+        site ? `the request came from a ${site} page` : 'the request says neither where it came from (Origin) nor how (Sec-Fetch-Site)',
+      ),
+    );
   };
 }
 

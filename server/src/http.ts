@@ -38,18 +38,15 @@ export class HttpError extends Error {
 export const notFound = (what = 'That') => new HttpError(404, 'not_found', `${what} was not found.`);
 export const forbidden = (message = 'Your role does not allow this.') => new HttpError(403, 'forbidden', message);
 export const conflict = (message: string) => new HttpError(409, 'conflict', message);
-export const badRequest = (message: string, fields?: Record<string, string>) =>
-  new HttpError(400, 'invalid', message, fields);
+export const badRequest = (message: string, fields?: Record<string, string>) => new HttpError(400, 'invalid', message, fields);
 
 /** Turns zod issues into a field → reason map, paths written as `a.b[0].c`. */
 export function zodFields(error: z.ZodError): Record<string, string> {
   const fields: Record<string, string> = {};
   for (const issue of error.issues) {
     const key =
-      issue.path.reduce<string>(
-        (acc, p) => (typeof p === 'number' ? `${acc}[${p}]` : acc ? `${acc}.${String(p)}` : String(p)),
-        '',
-      ) || '(body)';
+      issue.path.reduce<string>((acc, p) => (typeof p === 'number' ? `${acc}[${p}]` : acc ? `${acc}.${String(p)}` : String(p)), '') ||
+      '(body)';
     fields[key] ??= issue.message;
   }
   return fields;
@@ -64,7 +61,12 @@ const LONE_SURROGATE = /[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[
  */
 export function badText(value: unknown): Record<string, string> {
   const out: Record<string, string> = {};
-  const bad = (s: string) => (s.includes('\u0000') ? 'must not contain a NUL character (\\u0000)' : LONE_SURROGATE.test(s) ? 'must not contain half of a surrogate pair (e.g. \\ud800): send well-formed text' : null);
+  const bad = (s: string) =>
+    s.includes('\u0000')
+      ? 'must not contain a NUL character (\\u0000)'
+      : LONE_SURROGATE.test(s)
+        ? 'must not contain half of a surrogate pair (e.g. \\ud800): send well-formed text'
+        : null;
   // An explicit stack, not recursion: a deeply nested body cannot exhaust the call stack.
   const stack: [unknown, string][] = [[value, '']];
   while (stack.length) {
@@ -87,7 +89,14 @@ export function badText(value: unknown): Record<string, string> {
 function refuseBadText(value: unknown, where: string): void {
   const fields = badText(value);
   if (Object.keys(fields).length) {
-    throw new HttpError(400, 'invalid', `Please correct the ${where}: ${Object.entries(fields).map(([k, v]) => `${k} ${v}`).join('; ')}`, fields);
+    throw new HttpError(
+      400,
+      'invalid',
+      `Please correct the ${where}: ${Object.entries(fields)
+        .map(([k, v]) => `${k} ${v}`)
+        .join('; ')}`,
+      fields,
+    );
   }
 }
 
@@ -163,7 +172,13 @@ export interface RouteContext<B, Q, P, A extends Access = Access> {
   deps: Deps;
 }
 
-export interface RouteSpec<B extends ZodType, Q extends ZodType, P extends ZodType, A extends Access = Access, R extends ZodType = ZodType> {
+export interface RouteSpec<
+  B extends ZodType,
+  Q extends ZodType,
+  P extends ZodType,
+  A extends Access = Access,
+  R extends ZodType = ZodType,
+> {
   method: 'get' | 'post' | 'put' | 'patch' | 'delete';
   path: string;
   summary: string;
@@ -203,7 +218,15 @@ type Out<S> = S extends ZodType ? z.output<S> : undefined;
  * wire has ISO strings: `res.json` writes them so.
  */
 export type Answer<R> = [R] extends [never] ? unknown : R extends ZodType ? Dated<z.input<R>> | void : unknown;
-type Dated<T> = T extends string ? (string extends T ? T | Date : T) : T extends (infer E)[] ? Dated<E>[] : T extends object ? { [K in keyof T]: Dated<T[K]> } : T;
+type Dated<T> = T extends string
+  ? string extends T
+    ? T | Date
+    : T
+  : T extends (infer E)[]
+    ? Dated<E>[]
+    : T extends object
+      ? { [K in keyof T]: Dated<T[K]> }
+      : T;
 
 /** What the OpenAPI document reads of a route: its declaration without the code that runs. */
 export type RouteDoc = Omit<RouteSpec<ZodType, ZodType, ZodType>, 'beforeBody' | 'before'>;
@@ -318,7 +341,9 @@ function answerChecked(res: Response, spec: RouteDoc): void {
     const fields = zodFields(r.error);
     console.error(`[answer] ${where} does not match its response schema`, fields);
     res.status(500);
-    return send({ error: { code: 'answer_mismatch', message: `${where} answered outside its response schema: ${JSON.stringify(fields)}`, fields } });
+    return send({
+      error: { code: 'answer_mismatch', message: `${where} answered outside its response schema: ${JSON.stringify(fields)}`, fields },
+    });
   };
 }
 
@@ -377,8 +402,20 @@ async function authorise(access: Access, req: Request, deps: Deps): Promise<Site
     await signedIn();
     throw notFound();
   }
-  const siteExpr = typeof found === 'number' ? sql<number>`${found}::int` : sql<number>`(select site_id from ${sql.table(found.table)} where id = ${found.id})`;
-  const { rows } = await sql<{ id: number; email: string; name: string; is_admin: boolean; active: boolean; site_id: number | null; role: SiteRole | null; can_inspect: boolean | null }>`
+  const siteExpr =
+    typeof found === 'number'
+      ? sql<number>`${found}::int`
+      : sql<number>`(select site_id from ${sql.table(found.table)} where id = ${found.id})`;
+  const { rows } = await sql<{
+    id: number;
+    email: string;
+    name: string;
+    is_admin: boolean;
+    active: boolean;
+    site_id: number | null;
+    role: SiteRole | null;
+    can_inspect: boolean | null;
+  }>`
     select u.id, u.email, u.name, u.is_admin, u.active, s.id as site_id, m.role, m.can_inspect
     from users u
     left join sites s on s.id = ${siteExpr}
@@ -404,7 +441,8 @@ async function authorise(access: Access, req: Request, deps: Deps): Promise<Site
 }
 
 /** What every API call answers (503) while PostgreSQL cannot be reached. */
-export const DATABASE_UNAVAILABLE = 'Brink cannot reach its database just now. Please try again in a minute; if this was a change, check afterwards whether it was saved.';
+export const DATABASE_UNAVAILABLE =
+  'Brink cannot reach its database just now. Please try again in a minute; if this was a change, check afterwards whether it was saved.';
 
 /** The one error handler: known errors as JSON, anything else logged and answered without detail. */
 export function errorHandler(err: unknown, req: Request, res: Response, next: NextFunction): void {
@@ -426,12 +464,22 @@ export function errorHandler(err: unknown, req: Request, res: Response, next: Ne
   }
   if (e?.type === 'entity.too.large' || e?.code === 'LIMIT_FILE_SIZE') {
     res.status(413).json({
-      error: { code: 'too_large', message: e.field ? `The file in ${e.field} is too large.` : 'The request is too large.', ...(e.field ? { fields: { [e.field]: 'is too large' } } : {}) },
+      error: {
+        code: 'too_large',
+        message: e.field ? `The file in ${e.field} is too large.` : 'The request is too large.',
+        ...(e.field ? { fields: { [e.field]: 'is too large' } } : {}),
+      },
     });
     return;
   }
   if (typeof e?.code === 'string' && e.code.startsWith('LIMIT_')) {
-    res.status(400).json({ error: { code: 'invalid', message: `Upload refused: ${e.message}`, ...(e.field ? { fields: { [e.field]: e.message ?? 'refused' } } : {}) } });
+    res.status(400).json({
+      error: {
+        code: 'invalid',
+        message: `Upload refused: ${e.message}`,
+        ...(e.field ? { fields: { [e.field]: e.message ?? 'refused' } } : {}),
+      },
+    });
     return;
   }
   console.error(`[error] ${req.method} ${req.originalUrl}`, err);

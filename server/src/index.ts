@@ -40,7 +40,9 @@ if (config.mailCatcher.enabled) {
   try {
     await catcher.start(config.mailCatcher.port);
   } catch (err) {
-    console.error(`[mail catcher] could not listen on 127.0.0.1:${config.mailCatcher.port} (${(err as Error).message}); e-mail will wait in the queue`);
+    console.error(
+      `[mail catcher] could not listen on 127.0.0.1:${config.mailCatcher.port} (${(err as Error).message}); e-mail will wait in the queue`,
+    );
   }
 }
 

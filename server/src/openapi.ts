@@ -80,7 +80,9 @@ export function openApiDocument(specs: RouteDoc[]): OpenApiAnswer {
             schema: {
               type: 'object',
               properties: {
-                ...(form ? { [form.field]: { type: 'string', contentMediaType: 'application/json', contentSchema: jsonSchema(form.schema) } } : {}),
+                ...(form
+                  ? { [form.field]: { type: 'string', contentMediaType: 'application/json', contentSchema: jsonSchema(form.schema) } }
+                  : {}),
                 ...fileProps,
               },
               ...(form ? { required: [form.field] } : {}),
@@ -97,8 +99,7 @@ export function openApiDocument(specs: RouteDoc[]): OpenApiAnswer {
     info: {
       title: 'Brink API',
       version: '1',
-      description:
-        `Loads beside open, supported excavations: sites, excavations, permits, inspections. ${CAUTION}`,
+      description: `Loads beside open, supported excavations: sites, excavations, permits, inspections. ${CAUTION}`,
     },
     servers: [{ url: '/' }],
     components: {

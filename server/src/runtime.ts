@@ -23,7 +23,14 @@ export async function startRuntime(config: Config, opts: { now?: () => Date; que
   const connectTimeout = { connectionTimeoutMillis: 5000 } as object;
   // Maintenance every 20 s (pg-boss's default: 2 min): a job left active by a server that died
   // is expired and retried soon after its expiry (30 s for e-mail) instead of minutes later.
-  const boss = new PgBoss({ connectionString: config.databaseUrl, max: 4, schedule: true, supervise: true, maintenanceIntervalSeconds: 20, ...connectTimeout });
+  const boss = new PgBoss({
+    connectionString: config.databaseUrl,
+    max: 4,
+    schedule: true,
+    supervise: true,
+    maintenanceIntervalSeconds: 20,
+    ...connectTimeout,
+  });
   // While PostgreSQL is down every poll fails: one line per outage burst, not one per poll. The
   // workers keep polling and pick up where they were when it is back.
   let quietUntil = 0;

@@ -68,7 +68,10 @@ describe('sign-in', () => {
 
   it('rate-limits repeated failures on one account (429), and the right password does not get through then', async () => {
     const email = unique('limited');
-    await t.deps.db.insertInto('users').values({ email, name: 'Limited', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).execute();
+    await t.deps.db
+      .insertInto('users')
+      .values({ email, name: 'Limited', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+      .execute();
     for (let i = 0; i < 5; i++) {
       const r = await request(t.app).post('/api/auth/sign-in').send({ email, password: 'wrong-password' });
       expect(r.status).toBe(401);
@@ -106,7 +109,9 @@ describe('invitations', () => {
     expect(acc.body.user.memberships).toEqual([expect.objectContaining({ siteId, role: 'operator' })]);
     expect((await agent.get('/api/auth/me')).body.user.email).toBe(email);
 
-    const again = await request(t.app).post('/api/invitations/accept').send({ token, name: 'Someone Else', password: 'another-password-2' });
+    const again = await request(t.app)
+      .post('/api/invitations/accept')
+      .send({ token, name: 'Someone Else', password: 'another-password-2' });
     expect(again.status).toBe(400);
     expect(again.body.error.code).toBe('invalid_token');
     expect((await request(t.app).get(`/api/invitations/${token}`)).status).toBe(410);
@@ -139,10 +144,15 @@ describe('invitations', () => {
 describe('password reset', () => {
   it('e-mails a link that sets a new password once; the old password stops working', async () => {
     const email = unique('forgetful');
-    await t.deps.db.insertInto('users').values({ email, name: 'Forgetful Fay', password_hash: await bcrypt.hash('old-password-1', 10) }).execute();
+    await t.deps.db
+      .insertInto('users')
+      .values({ email, name: 'Forgetful Fay', password_hash: await bcrypt.hash('old-password-1', 10) })
+      .execute();
     const r = await request(t.app).post('/api/auth/forgot-password').send({ email });
     expect(r.status).toBe(202);
-    const unknown = await request(t.app).post('/api/auth/forgot-password').send({ email: unique('nobody') });
+    const unknown = await request(t.app)
+      .post('/api/auth/forgot-password')
+      .send({ email: unique('nobody') });
     expect(unknown.status).toBe(202);
     expect(unknown.body).toEqual(r.body);
 
@@ -157,7 +167,10 @@ describe('password reset', () => {
 
   it('refuses a reset link after its hour', async () => {
     const email = unique('slow');
-    await t.deps.db.insertInto('users').values({ email, name: 'Slow Sam', password_hash: await bcrypt.hash('old-password-1', 10) }).execute();
+    await t.deps.db
+      .insertInto('users')
+      .values({ email, name: 'Slow Sam', password_hash: await bcrypt.hash('old-password-1', 10) })
+      .execute();
     await request(t.app).post('/api/auth/forgot-password').send({ email }).expect(202);
     const token = linkToken((await waitForMail(t.deps, email, /reset/i)).text, '/reset-password');
     t.clock.now = new Date(Date.now() + 3600_000 + 60_000);
@@ -171,7 +184,9 @@ describe('password reset', () => {
   });
 
   it('names a too-short password', async () => {
-    const r = await request(t.app).post('/api/auth/reset-password').send({ token: 'x'.repeat(40), password: 'short' });
+    const r = await request(t.app)
+      .post('/api/auth/reset-password')
+      .send({ token: 'x'.repeat(40), password: 'short' });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.password).toMatch(/at least 10/);
   });
@@ -182,7 +197,10 @@ describe('audit log', () => {
     const { sql } = await import('kysely');
     await expect(sql`update audit_log set action = 'x'`.execute(t.deps.db)).rejects.toThrow(/append-only/);
     await expect(sql`delete from audit_log`.execute(t.deps.db)).rejects.toThrow(/append-only/);
-    const n = await t.deps.db.selectFrom('audit_log').select((eb) => eb.fn.countAll().as('n')).executeTakeFirstOrThrow();
+    const n = await t.deps.db
+      .selectFrom('audit_log')
+      .select((eb) => eb.fn.countAll().as('n'))
+      .executeTakeFirstOrThrow();
     expect(Number(n.n)).toBeGreaterThan(0);
   });
 });
@@ -190,7 +208,9 @@ describe('audit log', () => {
 describe('the session on every request', () => {
   // The session row as stored: its expiry and when it was last moved on.
   async function row(sid: string) {
-    const r = await sql<{ expire: Date; sess: { touchedAt?: number } }>`select expire, sess from session where sid = ${sid}`.execute(t.deps.db);
+    const r = await sql<{ expire: Date; sess: { touchedAt?: number } }>`select expire, sess from session where sid = ${sid}`.execute(
+      t.deps.db,
+    );
     return r.rows[0];
   }
   const sidOf = (setCookie: string) => /brink\.sid=s:([^.;]+)/.exec(decodeURIComponent(setCookie))![1];
@@ -216,7 +236,9 @@ describe('the session on every request', () => {
 
     // As if the last move were two minutes ago: the next request moves the expiry and resends the cookie.
     const earlier = first.sess.touchedAt! - 120_000;
-    await sql`update session set sess = jsonb_set(sess::jsonb, '{touchedAt}', to_jsonb(${earlier}::bigint))::json, expire = expire - interval '2 minutes' where sid = ${sid}`.execute(t.deps.db);
+    await sql`update session set sess = jsonb_set(sess::jsonb, '{touchedAt}', to_jsonb(${earlier}::bigint))::json, expire = expire - interval '2 minutes' where sid = ${sid}`.execute(
+      t.deps.db,
+    );
     const moved = await agent.get('/api/auth/me');
     expect(moved.status).toBe(200);
     expect(String(moved.headers['set-cookie'])).toMatch(/brink\.sid=/);

@@ -92,16 +92,26 @@ describe('excavation register: roles', () => {
 
     const before = await count();
     expect((await as.operator.post(`/api/sites/${siteId}/excavations`).send(trench())).status).toBe(403);
-    expect((await as.operator.patch(`/api/sites/${siteId}/excavations/${made.id}`).send({ depth: 9, version: made.version })).status).toBe(403);
+    expect((await as.operator.patch(`/api/sites/${siteId}/excavations/${made.id}`).send({ depth: 9, version: made.version })).status).toBe(
+      403,
+    );
     expect((await as.operator.delete(`/api/sites/${siteId}/excavations/${made.id}`)).status).toBe(403);
     expect(await count()).toBe(before);
     expect((await request(t.app).get(`/api/sites/${siteId}/excavations`)).status).toBe(401);
   });
 
   it('keeps each site to its own people: another site is 403, another site’s excavation is 404', async () => {
-    const other = await t.deps.db.insertInto('sites').values({ name: `Other ${randomUUID().slice(0, 6)}`, latitude: origin.latitude, longitude: origin.longitude }).returning('id').executeTakeFirstOrThrow();
+    const other = await t.deps.db
+      .insertInto('sites')
+      .values({ name: `Other ${randomUUID().slice(0, 6)}`, latitude: origin.latitude, longitude: origin.longitude })
+      .returning('id')
+      .executeTakeFirstOrThrow();
     const email = unique('othercoord');
-    const u = await t.deps.db.insertInto('users').values({ email, name: 'Other coordinator', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+    const u = await t.deps.db
+      .insertInto('users')
+      .values({ email, name: 'Other coordinator', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+      .returning('id')
+      .executeTakeFirstOrThrow();
     await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role: 'coordinator' }).execute();
     const outsider = await signedIn(t.app, email);
 
@@ -113,10 +123,16 @@ describe('excavation register: roles', () => {
     expect((await outsider.patch(`/api/sites/${siteId}/excavations/${mine.id}`).send({ depth: 3, version: 1 })).status).toBe(403);
     expect((await as.coordinator.get(`/api/sites/${other.id}/excavations`)).status).toBe(403);
     // The other site's excavation through this site's path: not found here, and not changed.
-    const cross = await as.coordinator.patch(`/api/sites/${siteId}/excavations/${theirs.body.excavation.id}`).send({ depth: 3, version: 1 });
+    const cross = await as.coordinator
+      .patch(`/api/sites/${siteId}/excavations/${theirs.body.excavation.id}`)
+      .send({ depth: 3, version: 1 });
     expect(cross.status).toBe(404);
     expect((await as.coordinator.delete(`/api/sites/${siteId}/excavations/${theirs.body.excavation.id}`)).status).toBe(404);
-    const still = await t.deps.db.selectFrom('excavations').select('depth').where('id', '=', theirs.body.excavation.id).executeTakeFirstOrThrow();
+    const still = await t.deps.db
+      .selectFrom('excavations')
+      .select('depth')
+      .where('id', '=', theirs.body.excavation.id)
+      .executeTakeFirstOrThrow();
     expect(still.depth).toBe(2.4);
   });
 });
@@ -137,14 +153,30 @@ describe('excavation register: what an excavation carries', () => {
     const tr01 = seeded.find((e) => e.reference === 'TR-01')!;
     expect(area(tr01.outline!)).toBeGreaterThan(85);
     expect(area(tr01.outline!)).toBeLessThan(91);
-    expect(seeded.find((e) => e.reference === 'PIT-01')).toMatchObject({ depth: 4.5, supportType: 'sheet-piles', state: 'open', groundwaterDepth: 2.2 });
+    expect(seeded.find((e) => e.reference === 'PIT-01')).toMatchObject({
+      depth: 4.5,
+      supportType: 'sheet-piles',
+      state: 'open',
+      groundwaterDepth: 2.2,
+    });
   });
 
   it('returns the calculation fields, the ground outline and the influence zone', async () => {
-    const c = await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(trench({ designSurcharge: 12.5, ratedPressure: 40, restraint: 'yielding' }));
+    const c = await as.coordinator
+      .post(`/api/sites/${siteId}/excavations`)
+      .send(trench({ designSurcharge: 12.5, ratedPressure: 40, restraint: 'yielding' }));
     expect(c.status).toBe(201);
     const e: Excavation = c.body.excavation;
-    expect(e).toMatchObject({ depth: 2.4, designSurcharge: 12.5, ratedPressure: 40, restraint: 'yielding', pressureState: 'active', wallFriction: 0, groundwaterDepth: null, state: 'open' });
+    expect(e).toMatchObject({
+      depth: 2.4,
+      designSurcharge: 12.5,
+      ratedPressure: 40,
+      restraint: 'yielding',
+      pressureState: 'active',
+      wallFriction: 0,
+      groundwaterDepth: null,
+      state: 'open',
+    });
     // A calculation request can be made straight from it.
     const req = calcRequestSchema.safeParse({ excavation: calcExcavationOf(e), soil: e.soil, method: 'dispersion-45', loads: [] });
     expect(req.success).toBe(true);
@@ -159,7 +191,12 @@ describe('excavation register: what an excavation carries', () => {
 
   it('sorts soil layers by depth and defaults the design surcharge allowance to 10 kPa', async () => {
     const c = await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(
-      pit({ soil: [{ top: 1.5, unitWeight: 20, frictionAngle: 35 }, { top: 0, unitWeight: 18, frictionAngle: 28 }] }),
+      pit({
+        soil: [
+          { top: 1.5, unitWeight: 20, frictionAngle: 35 },
+          { top: 0, unitWeight: 18, frictionAngle: 28 },
+        ],
+      }),
     );
     expect(c.status).toBe(201);
     expect(c.body.excavation.designSurcharge).toBe(10);
@@ -175,14 +212,32 @@ describe('excavation register: bad input is refused naming the field, and nothin
     for (const geometry of [
       { type: 'LineString', coordinates: [[-1.04, 52.37]] },
       { type: 'LineString', coordinates: 'nowhere' },
-      { type: 'Polygon', coordinates: [[[-1.04, 52.37], [-1.0401, 52.37], [-1.0401, 52.3701]]] },
-      { type: 'LineString', coordinates: [[-1.04, 95], [-1.04, 52.37]] },
+      {
+        type: 'Polygon',
+        coordinates: [
+          [
+            [-1.04, 52.37],
+            [-1.0401, 52.37],
+            [-1.0401, 52.3701],
+          ],
+        ],
+      },
+      {
+        type: 'LineString',
+        coordinates: [
+          [-1.04, 95],
+          [-1.04, 52.37],
+        ],
+      },
       { type: 'Point', coordinates: [-1.04, 52.37] },
       null,
     ]) {
       const r = await post(trench({ geometry: geometry as never }));
       expect(r.status, JSON.stringify(geometry)).toBe(400);
-      expect(Object.keys(r.body.error.fields).some((k) => k.startsWith('geometry')), JSON.stringify(r.body.error.fields)).toBe(true);
+      expect(
+        Object.keys(r.body.error.fields).some((k) => k.startsWith('geometry')),
+        JSON.stringify(r.body.error.fields),
+      ).toBe(true);
     }
   });
 
@@ -218,7 +273,9 @@ describe('excavation register: bad input is refused naming the field, and nothin
     }
     expect((await post(trench({ width: null }))).body.error.fields).toEqual({ width: 'is required for a trench (0.3 to 10 m)' });
     expect((await post(pit({ width: 2 }))).body.error.fields).toEqual({ width: 'applies to trenches only; leave it empty for a pit' });
-    expect((await post(pit({ kind: 'trench', width: 1 }))).body.error.fields).toEqual({ geometry: 'a trench is drawn as its centre line (a LineString)' });
+    expect((await post(pit({ kind: 'trench', width: 1 }))).body.error.fields).toEqual({
+      geometry: 'a trench is drawn as its centre line (a LineString)',
+    });
   });
 
   it('refuses soil the calculation would refuse, with the same field names', async () => {
@@ -243,7 +300,9 @@ describe('excavation register: changes', () => {
     const e = (await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(trench())).body.excavation as Excavation;
     t.clock.now = new Date('2026-03-02T07:30:00Z');
     try {
-      const p = await as.coordinator.patch(`/api/sites/${siteId}/excavations/${e.id}`).send({ depth: 3.1, supportType: 'trench-box', version: e.version });
+      const p = await as.coordinator
+        .patch(`/api/sites/${siteId}/excavations/${e.id}`)
+        .send({ depth: 3.1, supportType: 'trench-box', version: e.version });
       expect(p.status).toBe(200);
       expect(p.body.excavation).toMatchObject({ depth: 3.1, supportType: 'trench-box', version: e.version + 1 });
     } finally {
@@ -258,11 +317,21 @@ describe('excavation register: changes', () => {
     const [saved] = (await as.operator.get(`/api/sites/${siteId}/excavations`)).body.excavations.filter((x: Excavation) => x.id === e.id);
     expect(saved).toMatchObject({ depth: 3.1, supportType: 'trench-box', version: e.version + 1 });
 
-    const coordinatorId = (await t.deps.db.selectFrom('users').select('id').where('email', '=', demo.coordinator).executeTakeFirstOrThrow()).id;
-    const log = await t.deps.db.selectFrom('audit_log').selectAll().where('entity', '=', 'excavation').where('entity_id', '=', String(e.id)).orderBy('id').execute();
+    const coordinatorId = (await t.deps.db.selectFrom('users').select('id').where('email', '=', demo.coordinator).executeTakeFirstOrThrow())
+      .id;
+    const log = await t.deps.db
+      .selectFrom('audit_log')
+      .selectAll()
+      .where('entity', '=', 'excavation')
+      .where('entity_id', '=', String(e.id))
+      .orderBy('id')
+      .execute();
     expect(log.map((l) => l.action)).toEqual(['created', 'depth-or-support-changed']);
     expect(log[1].actor_id).toBe(coordinatorId);
-    expect((log[1].detail as { changes: unknown }).changes).toEqual({ depth: { from: 2.4, to: 3.1 }, supportType: { from: 'hydraulic-frames', to: 'trench-box' } });
+    expect((log[1].detail as { changes: unknown }).changes).toEqual({
+      depth: { from: 2.4, to: 3.1 },
+      supportType: { from: 'hydraulic-frames', to: 'trench-box' },
+    });
 
     const history = await as.operator.get(`/api/sites/${siteId}/excavations/${e.id}/history`);
     expect(history.status).toBe(200);
@@ -272,17 +341,29 @@ describe('excavation register: changes', () => {
 
   it('checks a changed geometry as strictly as a new one', async () => {
     const e = (await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(pit())).body.excavation as Excavation;
-    const r = await as.coordinator.patch(`/api/sites/${siteId}/excavations/${e.id}`).send({ geometry: { type: 'Polygon', coordinates: [[at(0, 0), at(10, 10), at(10, 0), at(0, 10), at(0, 0)]] }, version: e.version });
+    const r = await as.coordinator
+      .patch(`/api/sites/${siteId}/excavations/${e.id}`)
+      .send({ geometry: { type: 'Polygon', coordinates: [[at(0, 0), at(10, 10), at(10, 0), at(0, 10), at(0, 0)]] }, version: e.version });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.geometry).toMatch(/must not cross itself/);
-    const moved = await as.coordinator.patch(`/api/sites/${siteId}/excavations/${e.id}`).send({ geometry: { type: 'Polygon', coordinates: [[at(0, 0), at(9_000, 0), at(9_000, 6), at(0, 6), at(0, 0)]] }, version: e.version });
+    const moved = await as.coordinator.patch(`/api/sites/${siteId}/excavations/${e.id}`).send({
+      geometry: { type: 'Polygon', coordinates: [[at(0, 0), at(9_000, 0), at(9_000, 6), at(0, 6), at(0, 0)]] },
+      version: e.version,
+    });
     expect(moved.status).toBe(400);
     expect(moved.body.error.fields.geometry).toMatch(/within 5 km/);
   });
 });
 
 /** A multipart upload of `content` as `name` in field `file`, with text fields. */
-function upload(agent: Agent, path: string, content: Buffer | string, name: string, fields: Record<string, string> = {}, method: 'post' | 'put' = 'post') {
+function upload(
+  agent: Agent,
+  path: string,
+  content: Buffer | string,
+  name: string,
+  fields: Record<string, string> = {},
+  method: 'post' | 'put' = 'post',
+) {
   let r = agent[method](path);
   for (const [k, v] of Object.entries(fields)) r = r.field(k, v);
   return r.attach('file', Buffer.isBuffer(content) ? content : Buffer.from(content), name);
@@ -311,13 +392,22 @@ describe('GeoJSON export and import', () => {
     const good = trench();
     const r = await importTo(as.coordinator, siteId, {
       type: 'FeatureCollection',
-      features: [feature(good), { type: 'Feature', geometry: { type: 'Point', coordinates: at(5, 5) }, properties: { reference: ref('PT'), name: 'A point', depth: 2, supportType: 'trench-box', soil: good.soil } }],
+      features: [
+        feature(good),
+        {
+          type: 'Feature',
+          geometry: { type: 'Point', coordinates: at(5, 5) },
+          properties: { reference: ref('PT'), name: 'A point', depth: 2, supportType: 'trench-box', soil: good.soil },
+        },
+      ],
     });
     expect(r.status).toBe(400);
     expect(r.body.report.imported).toEqual([]);
     expect(r.body.report.refused).toHaveLength(1);
     expect(r.body.report.refused[0].index).toBe(1);
-    expect(r.body.report.refused[0].reasons).toEqual({ 'geometry.type': 'must be a LineString (a trench centre line) or a Polygon (a pit outline), not "Point"' });
+    expect(r.body.report.refused[0].reasons).toEqual({
+      'geometry.type': 'must be a LineString (a trench centre line) or a Polygon (a pit outline), not "Point"',
+    });
     expect(await count(good.reference)).toBe(0);
   });
 
@@ -325,7 +415,10 @@ describe('GeoJSON export and import', () => {
     const goods = [trench(), pit(), trench({ geometry: { type: 'LineString', coordinates: [at(-100, 90), at(-60, 95)] } })];
     const bad = trench({ depth: 0 });
     const before = await count();
-    const r = await importTo(as.coordinator, siteId, { type: 'FeatureCollection', features: [feature(goods[0]), feature(goods[1]), feature(bad), feature(goods[2])] });
+    const r = await importTo(as.coordinator, siteId, {
+      type: 'FeatureCollection',
+      features: [feature(goods[0]), feature(goods[1]), feature(bad), feature(goods[2])],
+    });
     expect(r.status).toBe(400);
     expect(r.body.error.message).toMatch(/Nothing was imported: 1 of 4 features was refused/);
     expect(r.body.report.refused).toEqual([{ index: 2, reference: bad.reference, reasons: { depth: 'must be greater than 0 m' } }]);
@@ -343,13 +436,19 @@ describe('GeoJSON export and import', () => {
     expect(exp.headers['content-disposition']).toMatch(/attachment; filename="alder-marsh-pumping-station-excavations.geojson"/);
     const fc = JSON.parse(exp.text);
     expect(fc.type).toBe('FeatureCollection');
-    const exported = fc.features.filter((f: { properties: { reference: string } }) => made.some((m) => m.reference === f.properties.reference));
+    const exported = fc.features.filter((f: { properties: { reference: string } }) =>
+      made.some((m) => m.reference === f.properties.reference),
+    );
     expect(exported).toHaveLength(2);
     expect(exported[0].properties).toMatchObject({ depth: expect.any(Number), supportType: expect.any(String), soil: expect.any(Array) });
 
     // Into a new site at the same origin: every feature is created with the same geometry.
     const admin = as.admin;
-    const fresh = (await admin.post('/api/sites').send({ name: `Import target ${randomUUID().slice(0, 6)}`, latitude: origin.latitude, longitude: origin.longitude })).body.site;
+    const fresh = (
+      await admin
+        .post('/api/sites')
+        .send({ name: `Import target ${randomUUID().slice(0, 6)}`, latitude: origin.latitude, longitude: origin.longitude })
+    ).body.site;
     const imp = await importTo(admin, fresh.id, fc);
     expect(imp.status, JSON.stringify(imp.body)).toBe(200);
     expect(imp.body.report.imported).toHaveLength(fc.features.length);
@@ -358,13 +457,21 @@ describe('GeoJSON export and import', () => {
     for (const f of fc.features) {
       const e = back.find((x) => x.reference === f.properties.reference)!;
       expect(e.geometry).toEqual(f.geometry);
-      expect(e).toMatchObject({ depth: f.properties.depth, width: f.properties.width, soil: f.properties.soil, supportType: f.properties.supportType });
+      expect(e).toMatchObject({
+        depth: f.properties.depth,
+        width: f.properties.width,
+        soil: f.properties.soil,
+        supportType: f.properties.supportType,
+      });
     }
 
     // Into the same site: "add" refuses existing references; "replace" updates them in place.
     const add = await importTo(as.coordinator, siteId, { type: 'FeatureCollection', features: exported });
     expect(add.status).toBe(400);
-    expect(add.body.report.refused.map((r: { reasons: Record<string, string> }) => r.reasons.reference)).toEqual([expect.stringMatching(/already used/), expect.stringMatching(/already used/)]);
+    expect(add.body.report.refused.map((r: { reasons: Record<string, string> }) => r.reasons.reference)).toEqual([
+      expect.stringMatching(/already used/),
+      expect.stringMatching(/already used/),
+    ]);
     const replace = await importTo(as.coordinator, siteId, { type: 'FeatureCollection', features: exported }, { mode: 'replace' });
     expect(replace.status).toBe(200);
     expect(replace.body.report.imported.map((i: { action: string }) => i.action)).toEqual(['updated', 'updated']);
@@ -409,16 +516,30 @@ describe('uploads: design drawings and the site plan', () => {
     expect(r.status).toBe(413);
     expect(r.body.error.fields).toEqual({ file: 'is too large' });
     const bigImage = Buffer.concat([png, Buffer.alloc(10 * 1024 * 1024)]);
-    const corners = { south: String(origin.latitude - 0.001), west: String(origin.longitude - 0.002), north: String(origin.latitude + 0.001), east: String(origin.longitude + 0.002) };
+    const corners = {
+      south: String(origin.latitude - 0.001),
+      west: String(origin.longitude - 0.002),
+      north: String(origin.latitude + 0.001),
+      east: String(origin.longitude + 0.002),
+    };
     const p = await upload(as.coordinator, `/api/sites/${siteId}/plan`, bigImage, 'plan.png', corners, 'put');
     expect(p.status).toBe(413);
   });
 
   it('pins a site plan image by two corners, changes its opacity, and refuses a PDF or crossed corners', async () => {
     // A site of its own, so the demo site's plan is left alone.
-    const site = (await as.admin.post('/api/sites').send({ name: `Plan site ${randomUUID().slice(0, 6)}`, latitude: origin.latitude, longitude: origin.longitude })).body.site;
+    const site = (
+      await as.admin
+        .post('/api/sites')
+        .send({ name: `Plan site ${randomUUID().slice(0, 6)}`, latitude: origin.latitude, longitude: origin.longitude })
+    ).body.site;
     const path = `/api/sites/${site.id}/plan`;
-    const corners = { south: String(origin.latitude - 0.001), west: String(origin.longitude - 0.002), north: String(origin.latitude + 0.001), east: String(origin.longitude + 0.002) };
+    const corners = {
+      south: String(origin.latitude - 0.001),
+      west: String(origin.longitude - 0.002),
+      north: String(origin.latitude + 0.001),
+      east: String(origin.longitude + 0.002),
+    };
     expect((await as.admin.get(path)).body.plan).toBeNull();
     const asPut = (body: Buffer, name: string, fields: Record<string, string>) => upload(as.admin, path, body, name, fields, 'put');
     const wrongType = await asPut(pdf, 'plan.png', corners);

@@ -102,7 +102,12 @@ describe('briefing', () => {
     const again = await people.a.agent.post(`/api/permits/${named.id}/briefing`).set('Idempotency-Key', randomUUID());
     expect(again.status).toBe(200);
     expect(again.body.briefing.briefedAt).toBe(first.body.briefing.briefedAt);
-    const events = await t.deps.db.selectFrom('permit_events').select('actor_id').where('permit_id', '=', named.id).where('action', '=', 'briefed').execute();
+    const events = await t.deps.db
+      .selectFrom('permit_events')
+      .select('actor_id')
+      .where('permit_id', '=', named.id)
+      .where('action', '=', 'briefed')
+      .execute();
     expect(events).toEqual([{ actor_id: people.a.id }]);
     const p = (await myPermits(people.a.agent)).find((x) => x.id === named.id)!;
     expect(p.myBriefedAt).toBe(first.body.briefing.briefedAt);
@@ -137,21 +142,38 @@ describe('concerns', () => {
     return r;
   };
   const count = async (key: string) =>
-    (await t.deps.db.selectFrom('concerns').select((eb) => eb.fn.countAll<number>().as('n')).where('idempotency_key', '=', key).executeTakeFirstOrThrow()).n;
+    (
+      await t.deps.db
+        .selectFrom('concerns')
+        .select((eb) => eb.fn.countAll<number>().as('n'))
+        .where('idempotency_key', '=', key)
+        .executeTakeFirstOrThrow()
+    ).n;
 
   it('makes one concern per idempotency key, on the timeline, and e-mails the coordinators and supervisors', async () => {
     const key = randomUUID();
     const note = `Crack opening along the north edge ${key.slice(0, 6)}`;
     const first = await send(people.a.agent, named.id, { excavationId: String(w.trenchId), note }, [PNG], key);
     expect(first.status).toBe(201);
-    expect(first.body.concern).toMatchObject({ permitId: named.id, excavationId: w.trenchId, excavationReference: w.trenchRef, note, reporter: { id: people.a.id } });
+    expect(first.body.concern).toMatchObject({
+      permitId: named.id,
+      excavationId: w.trenchId,
+      excavationReference: w.trenchRef,
+      note,
+      reporter: { id: people.a.id },
+    });
     expect(first.body.concern.photoIds).toHaveLength(1);
     // The answer was lost and the phone sends again with the same key.
     const again = await send(people.a.agent, named.id, { excavationId: String(w.trenchId), note }, [PNG], key);
     expect(again.status).toBe(200);
     expect(again.body).toMatchObject({ replayed: true, concern: { id: first.body.concern.id } });
     expect(await count(key)).toBe(1);
-    const events = await t.deps.db.selectFrom('permit_events').select(['action', 'comment']).where('permit_id', '=', named.id).where('action', '=', 'concern').execute();
+    const events = await t.deps.db
+      .selectFrom('permit_events')
+      .select(['action', 'comment'])
+      .where('permit_id', '=', named.id)
+      .where('action', '=', 'concern')
+      .execute();
     expect(events.filter((e) => e.comment === note)).toHaveLength(1);
     const p = (await people.a.agent.get(`/api/field/permits/${named.id}`)).body.permit as FieldPermit;
     expect(p.concerns.filter((c) => c.note === note)).toHaveLength(1);
@@ -167,10 +189,21 @@ describe('concerns', () => {
 
   it('accepts the key as a form field too, and refuses a header and field that differ', async () => {
     const key = randomUUID();
-    const r = await send(people.a.agent, named.id, { excavationId: String(w.trenchId), note: 'Water in the trench', idempotencyKey: key }, []);
+    const r = await send(
+      people.a.agent,
+      named.id,
+      { excavationId: String(w.trenchId), note: 'Water in the trench', idempotencyKey: key },
+      [],
+    );
     expect(r.status).toBe(201);
     expect(r.body.concern.idempotencyKey).toBe(key);
-    const bad = await send(people.a.agent, named.id, { excavationId: String(w.trenchId), note: 'x', idempotencyKey: randomUUID() }, [], randomUUID());
+    const bad = await send(
+      people.a.agent,
+      named.id,
+      { excavationId: String(w.trenchId), note: 'x', idempotencyKey: randomUUID() },
+      [],
+      randomUUID(),
+    );
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields).toHaveProperty('idempotencyKey');
   });
@@ -207,7 +240,12 @@ describe('concerns', () => {
     const tooMany = await send(people.a.agent, named.id, fields, [PNG, PNG, PNG, PNG], key);
     expect(tooMany.status).toBe(400);
     expect(await count(key)).toBe(0);
-    const uploads = await t.deps.db.selectFrom('uploads').select('id').where('purpose', '=', 'concern-photo').where('original_name', '=', 'crack-3.png').execute();
+    const uploads = await t.deps.db
+      .selectFrom('uploads')
+      .select('id')
+      .where('purpose', '=', 'concern-photo')
+      .where('original_name', '=', 'crack-3.png')
+      .execute();
     expect(uploads).toEqual([]);
   });
 

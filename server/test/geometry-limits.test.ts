@@ -30,7 +30,11 @@ import { HOSTILE_ORIGIN } from './fixtures/make-hostile-geojson';
  */
 const HEALTH_TYPICAL_MS = 200;
 
-function expectResponsive(h: { latencies: number[]; answeredWhileInFlight: number }, what: string, o: { atLeast: number; median: boolean }): void {
+function expectResponsive(
+  h: { latencies: number[]; answeredWhileInFlight: number },
+  what: string,
+  o: { atLeast: number; median: boolean },
+): void {
   const sorted = [...h.latencies].sort((a, b) => a - b);
   const median = sorted[Math.floor(sorted.length / 2)];
   console.log(
@@ -103,7 +107,15 @@ const cut = (n: number, lines: number, prefix: string) => ({
 });
 
 const count = async () =>
-  Number((await t.deps.db.selectFrom('excavations').select((eb) => eb.fn.countAll().as('n')).where('site_id', '=', siteId).executeTakeFirstOrThrow()).n);
+  Number(
+    (
+      await t.deps.db
+        .selectFrom('excavations')
+        .select((eb) => eb.fn.countAll().as('n'))
+        .where('site_id', '=', siteId)
+        .executeTakeFirstOrThrow()
+    ).n,
+  );
 
 describe('geometry work is bounded', () => {
   it('refuses the hostile file (10 zig-zag lines of 500 points) naming every feature, while /api/health answers', async () => {
@@ -112,7 +124,9 @@ describe('geometry work is bounded', () => {
     const { result: r, ...health } = await healthDuring(importTo(hostile));
     expect(r.status).toBe(400);
     expect(r.body.report.imported).toEqual([]);
-    expect(r.body.report.refused.map((x: { reference: string }) => x.reference)).toEqual(hostile.features.map((f) => f.properties.reference));
+    expect(r.body.report.refused.map((x: { reference: string }) => x.reference)).toEqual(
+      hostile.features.map((f) => f.properties.reference),
+    );
     expect(r.body.error.fields['features[0].geometry']).toBe(
       `has 500 points after simplifying to 0.05 m; at most ${MAX_OUTLINE_POINTS} are allowed (split it into separate excavations)`,
     );
@@ -129,7 +143,9 @@ describe('geometry work is bounded', () => {
     // 400 points along a straight line 40 m long: every inner point lies on the line and is dropped.
     const [lon0, lat0] = f.geometry.coordinates[0];
     const straight = Array.from({ length: 400 }, (_, i) => [lon0 + i * 1.5e-6, lat0]);
-    const ok = await admin.post(`/api/sites/${siteId}/excavations`).send({ ...body, reference: `ST-${randomUUID().slice(0, 4)}`, geometry: { type: 'LineString', coordinates: straight } });
+    const ok = await admin
+      .post(`/api/sites/${siteId}/excavations`)
+      .send({ ...body, reference: `ST-${randomUUID().slice(0, 4)}`, geometry: { type: 'LineString', coordinates: straight } });
     expect(ok.status, JSON.stringify(ok.body)).toBe(201);
     expect(ok.body.excavation.geometry.coordinates).toEqual([straight[0], straight[399]]);
     expect(ok.body.excavation.influenceZone.type).toBe('Polygon');
@@ -138,13 +154,22 @@ describe('geometry work is bounded', () => {
   it('refuses an import over the total limit, naming the feature that passes it', async () => {
     // 11 lines of 200 points: the 11th brings the file to 2200.
     const doc = cut(200, 10, 'SUM');
-    doc.features.push({ ...doc.features[0], properties: { ...doc.features[0].properties, reference: `SUM-11-${randomUUID().slice(0, 4)}` } });
+    doc.features.push({
+      ...doc.features[0],
+      properties: { ...doc.features[0].properties, reference: `SUM-11-${randomUUID().slice(0, 4)}` },
+    });
     doc.features[10].geometry = { type: 'LineString', coordinates: hostile.features[0].geometry.coordinates.slice(200, 400) };
     const before = await count();
     const r = await importTo(doc);
     expect(r.status).toBe(400);
     expect(r.body.report.refused).toEqual([
-      { index: 10, reference: doc.features[10].properties.reference, reasons: { geometry: `brings the file to 2200 points (after simplifying to 0.05 m); an import may hold at most ${MAX_IMPORT_POINTS}: split the file` } },
+      {
+        index: 10,
+        reference: doc.features[10].properties.reference,
+        reasons: {
+          geometry: `brings the file to 2200 points (after simplifying to 0.05 m); an import may hold at most ${MAX_IMPORT_POINTS}: split the file`,
+        },
+      },
     ]);
     expect(await count()).toBe(before);
   });
@@ -158,7 +183,12 @@ describe('geometry work is bounded', () => {
     expectResponsive(health, 'an import of 4 zig-zag trenches of 200 points', { atLeast: 10, median: true });
 
     // Stored when written: the row holds the outline and zone the API answers with.
-    const rows = await t.deps.db.selectFrom('excavations').select(['reference', 'outline', 'influence_zone']).where('site_id', '=', siteId).where('reference', 'like', 'ZZ-%').execute();
+    const rows = await t.deps.db
+      .selectFrom('excavations')
+      .select(['reference', 'outline', 'influence_zone'])
+      .where('site_id', '=', siteId)
+      .where('reference', 'like', 'ZZ-%')
+      .execute();
     expect(rows).toHaveLength(4);
     const t0 = performance.now();
     const list = (await admin.get(`/api/sites/${siteId}/excavations`)).body.excavations as Excavation[];

@@ -30,7 +30,10 @@ describe('the database probe behind /api/health', () => {
   it('answers false while the ping fails, and true again once it answers', async () => {
     let up = false;
     let now = 0;
-    const probe = databaseProbe(() => (up ? Promise.resolve() : Promise.reject(new Error('connection refused'))), () => now);
+    const probe = databaseProbe(
+      () => (up ? Promise.resolve() : Promise.reject(new Error('connection refused'))),
+      () => now,
+    );
     expect(await probe()).toBe(false);
     up = true;
     expect(await probe()).toBe(false); // the failed answer stands for its second
@@ -41,7 +44,11 @@ describe('the database probe behind /api/health', () => {
   it('pings again at once when a pooled connection was lost since the last answer', async () => {
     let up = true;
     let lost = 0;
-    const probe = databaseProbe(() => (up ? Promise.resolve() : Promise.reject(new Error('terminating connection'))), () => 0, () => lost);
+    const probe = databaseProbe(
+      () => (up ? Promise.resolve() : Promise.reject(new Error('terminating connection'))),
+      () => 0,
+      () => lost,
+    );
     expect(await probe()).toBe(true);
     up = false;
     expect(await probe()).toBe(true); // within the second, nothing noticed yet

@@ -25,7 +25,6 @@ export type DemoRole = keyof typeof demo;
 /** The test app's own origin (its PUBLIC_URL): supertest requests say they come from it (setup-origin.ts). */
 export const TEST_ORIGIN = 'http://brink.test';
 
-
 export interface TestApp {
   app: Express;
   deps: Deps;

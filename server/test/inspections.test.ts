@@ -27,7 +27,11 @@ const agents: Record<string, request.Agent> = {};
 
 /** 1 × 1 PNG and a tiny JPEG, made by hand for these tests. */
 const PNG = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNkYPhfDwAChwGA60e6kgAAAABJRU5ErkJggg==', 'base64');
-const JPEG = Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0, 0x00, 0x10]), Buffer.from('JFIF\0\x01\x01\0\0\x01\0\x01\0\0', 'latin1'), Buffer.from([0xff, 0xd9])]);
+const JPEG = Buffer.concat([
+  Buffer.from([0xff, 0xd8, 0xff, 0xe0, 0x00, 0x10]),
+  Buffer.from('JFIF\0\x01\x01\0\0\x01\0\x01\0\0', 'latin1'),
+  Buffer.from([0xff, 0xd9]),
+]);
 
 async function person(email: string, name: string): Promise<number> {
   const u = await t.deps.db.insertInto('users').values({ email, name, password_hash: hash }).returning('id').executeTakeFirstOrThrow();
@@ -35,12 +39,20 @@ async function person(email: string, name: string): Promise<number> {
 }
 
 async function newSite(name: string, timezone = 'Europe/London'): Promise<number> {
-  const s = await t.deps.db.insertInto('sites').values({ name, latitude: 52.1, longitude: -1.1, timezone }).returning('id').executeTakeFirstOrThrow();
+  const s = await t.deps.db
+    .insertInto('sites')
+    .values({ name, latitude: 52.1, longitude: -1.1, timezone })
+    .returning('id')
+    .executeTakeFirstOrThrow();
   return s.id;
 }
 
 let refs = 0;
-async function excavation(site = siteId, state: 'planned' | 'open' | 'backfilled' = 'open', created = '2026-01-01T00:00:00Z'): Promise<{ id: number; reference: string }> {
+async function excavation(
+  site = siteId,
+  state: 'planned' | 'open' | 'backfilled' = 'open',
+  created = '2026-01-01T00:00:00Z',
+): Promise<{ id: number; reference: string }> {
   const reference = `IT${++refs}`;
   const e = await t.deps.db
     .insertInto('excavations')
@@ -49,7 +61,13 @@ async function excavation(site = siteId, state: 'planned' | 'open' | 'backfilled
       reference,
       name: `Test trench ${refs}`,
       kind: 'trench',
-      geometry: JSON.stringify({ type: 'LineString', coordinates: [[-1.1, 52.1], [-1.0999, 52.1]] }),
+      geometry: JSON.stringify({
+        type: 'LineString',
+        coordinates: [
+          [-1.1, 52.1],
+          [-1.0999, 52.1],
+        ],
+      }),
       width: 1.2,
       depth: 2.4,
       // No outline or zone stored: these tests read neither.
@@ -67,7 +85,9 @@ async function excavation(site = siteId, state: 'planned' | 'open' | 'backfilled
 function form(over: Partial<InspectionInput> = {}): InspectionInput {
   return {
     reason: 'shift-start',
-    checklist: Object.fromEntries(checklist.map((c) => [c.key, { answer: c.key === 'atmosphere' ? 'na' : 'pass', note: '' }])) as InspectionInput['checklist'],
+    checklist: Object.fromEntries(
+      checklist.map((c) => [c.key, { answer: c.key === 'atmosphere' ? 'na' : 'pass', note: '' }]),
+    ) as InspectionInput['checklist'],
     outcome: 'safe',
     ...over,
   };
@@ -139,9 +159,19 @@ describe('recording an inspection', () => {
     (bad.checklist as Record<string, unknown>).barriers = { answer: 'maybe' };
     const r = await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).send(bad);
     expect(r.status).toBe(400);
-    expect(Object.keys(r.body.error.fields).sort()).toEqual(['checklist.barriers.answer', 'checklist.support.note', 'checklist.water', 'reasonDetail', 'remarks']);
+    expect(Object.keys(r.body.error.fields).sort()).toEqual([
+      'checklist.barriers.answer',
+      'checklist.support.note',
+      'checklist.water',
+      'reasonDetail',
+      'remarks',
+    ]);
     expect(r.body.error.message).toContain('checklist.support.note');
-    const n = await t.deps.db.selectFrom('inspections').select((eb) => eb.fn.countAll<number>().as('n')).where('excavation_id', '=', e.id).executeTakeFirstOrThrow();
+    const n = await t.deps.db
+      .selectFrom('inspections')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .where('excavation_id', '=', e.id)
+      .executeTakeFirstOrThrow();
     expect(Number(n.n)).toBe(0);
   });
 
@@ -165,8 +195,13 @@ describe('recording an inspection', () => {
     const future = await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).send(form({ inspectedAt: '2026-06-10T09:00:00Z' }));
     expect(future.status).toBe(400);
     expect(future.body.error.fields).toHaveProperty('inspectedAt');
-    await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).send(form({ inspectedAt: '2026-06-10T07:30:00Z' })).expect(201);
-    const earlier = await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).send(form({ inspectedAt: '2026-06-10T07:00:00Z' }));
+    await agents.supervisor
+      .post(`/api/excavations/${e.id}/inspections`)
+      .send(form({ inspectedAt: '2026-06-10T07:30:00Z' }))
+      .expect(201);
+    const earlier = await agents.supervisor
+      .post(`/api/excavations/${e.id}/inspections`)
+      .send(form({ inspectedAt: '2026-06-10T07:00:00Z' }));
     expect(earlier.status).toBe(400);
     expect(earlier.body.error.fields.inspectedAt).toMatch(/before the latest/);
   });
@@ -193,7 +228,9 @@ describe('recording an inspection', () => {
 
   it('keeps inspections as records: the database refuses to change or remove one', async () => {
     const row = await t.deps.db.selectFrom('inspections').select('id').where('site_id', '=', siteId).executeTakeFirstOrThrow();
-    await expect(t.deps.db.updateTable('inspections').set({ outcome: 'safe' }).where('id', '=', row.id).execute()).rejects.toThrow(/never changed/);
+    await expect(t.deps.db.updateTable('inspections').set({ outcome: 'safe' }).where('id', '=', row.id).execute()).rejects.toThrow(
+      /never changed/,
+    );
     await expect(t.deps.db.deleteFrom('inspections').where('id', '=', row.id).execute()).rejects.toThrow(/never changed/);
   });
 });
@@ -213,7 +250,10 @@ describe('who may inspect', () => {
     expect((await agents.elsewhere.post(`/api/excavations/${e.id}/inspections`).send(form())).status).toBe(403);
     expect((await agents.elsewhere.get(`/api/excavations/${e.id}/inspections`)).status).toBe(403);
     // a forbidden call is refused before its body or photos are read
-    const multipart = await agents.operator.post(`/api/excavations/${e.id}/inspections`).field('inspection', 'not json').attach('photos', PNG, 'a.png');
+    const multipart = await agents.operator
+      .post(`/api/excavations/${e.id}/inspections`)
+      .field('inspection', 'not json')
+      .attach('photos', PNG, 'a.png');
     expect(multipart.status).toBe(403);
   });
 });
@@ -237,7 +277,10 @@ describe('photos', () => {
 
   it('judges the type from the content: a text file named .png is refused, naming it, and nothing is stored', async () => {
     const e = await excavation();
-    const uploadsBefore = await t.deps.db.selectFrom('uploads').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+    const uploadsBefore = await t.deps.db
+      .selectFrom('uploads')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .executeTakeFirstOrThrow();
     const r = await agents.supervisor
       .post(`/api/excavations/${e.id}/inspections`)
       .field('inspection', JSON.stringify(form()))
@@ -246,14 +289,20 @@ describe('photos', () => {
     expect(r.status).toBe(400);
     expect(r.body.error.fields).toEqual({ 'photos[1]': 'must be a PNG or JPEG image' });
     expect(await t.deps.db.selectFrom('inspections').select('id').where('excavation_id', '=', e.id).execute()).toHaveLength(0);
-    const uploadsAfter = await t.deps.db.selectFrom('uploads').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+    const uploadsAfter = await t.deps.db
+      .selectFrom('uploads')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .executeTakeFirstOrThrow();
     expect(Number(uploadsAfter.n)).toBe(Number(uploadsBefore.n));
   });
 
   it('refuses a photo over 10 MB (413) and more than 8 photos (400)', async () => {
     const e = await excavation();
     const big = Buffer.concat([PNG, Buffer.alloc(10 * MB)]);
-    const r = await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).field('inspection', JSON.stringify(form())).attach('photos', big, 'big.png');
+    const r = await agents.supervisor
+      .post(`/api/excavations/${e.id}/inspections`)
+      .field('inspection', JSON.stringify(form()))
+      .attach('photos', big, 'big.png');
     expect(r.status).toBe(413);
     expect(r.body.error.fields).toEqual({ photos: 'is too large' });
     let many = agents.supervisor.post(`/api/excavations/${e.id}/inspections`).field('inspection', JSON.stringify(form()));
@@ -267,7 +316,10 @@ describe('photos', () => {
     const missing = await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).attach('photos', PNG, 'a.png');
     expect(missing.status).toBe(400);
     expect(missing.body.error.fields).toEqual({ inspection: 'is required' });
-    const broken = await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).field('inspection', '{"reason":').attach('photos', PNG, 'a.png');
+    const broken = await agents.supervisor
+      .post(`/api/excavations/${e.id}/inspections`)
+      .field('inspection', '{"reason":')
+      .attach('photos', PNG, 'a.png');
     expect(broken.body.error.fields).toEqual({ inspection: 'is not valid JSON' });
   });
 });
@@ -289,13 +341,18 @@ describe('a failed inspection', () => {
       .select('mail_to')
       .where('subject', 'like', `Not safe: ${e.reference} %`)
       .execute();
-    expect(stray.map((m) => m.mail_to).join(' ')).not.toMatch(new RegExp(`${people.operator}|${people.inspectingOperator}|${people.elsewhere}`));
+    expect(stray.map((m) => m.mail_to).join(' ')).not.toMatch(
+      new RegExp(`${people.operator}|${people.inspectingOperator}|${people.elsewhere}`),
+    );
 
     const states = await agents.supervisor.get(`/api/sites/${siteId}/inspections/states`);
     expect(states.body.excavations.find((x: { excavationId: number }) => x.excavationId === e.id).state).toBe('unsafe');
     // a later safe inspection clears the red state
     at('2026-06-11T07:40:00Z');
-    await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).send(form({ reason: 'after-event', reasonDetail: 'Waling re-fixed and struts re-pinned' })).expect(201);
+    await agents.supervisor
+      .post(`/api/excavations/${e.id}/inspections`)
+      .send(form({ reason: 'after-event', reasonDetail: 'Waling re-fixed and struts re-pinned' }))
+      .expect(201);
     const after = await agents.supervisor.get(`/api/sites/${siteId}/inspections/states`);
     expect(after.body.excavations.find((x: { excavationId: number }) => x.excavationId === e.id).state).toBe('ok');
   });
@@ -315,7 +372,8 @@ describe('a failed inspection stops the work beside it', () => {
     expect(approved.status).toBe('live');
     return p;
   }
-  const statusOf = async (id: number) => (await t.deps.db.selectFrom('permits').select('status').where('id', '=', id).executeTakeFirstOrThrow()).status;
+  const statusOf = async (id: number) =>
+    (await t.deps.db.selectFrom('permits').select('status').where('id', '=', id).executeTakeFirstOrThrow()).status;
 
   it('suspends every live permit on that excavation and only those, and e-mails the right people; a later safe one clears the red state and leaves them suspended', async () => {
     t.clock.now = null;
@@ -330,11 +388,15 @@ describe('a failed inspection stops the work beside it', () => {
     await newTrench(w);
     const elsewhere = await livePermit(w.trenchId, 6);
 
-    const r = await w.agents.supervisor.post(`/api/excavations/${trench.id}/inspections`).send(notSafe('Two frames have slipped on the north side'));
+    const r = await w.agents.supervisor
+      .post(`/api/excavations/${trench.id}/inspections`)
+      .send(notSafe('Two frames have slipped on the north side'));
     expect(r.status).toBe(201);
     expect(r.body.consequences.suspended.map((p: { id: number }) => p.id).sort()).toEqual([first.id, second.id].sort());
     expect(r.body.consequences.notSuspended).toEqual([]);
-    expect(r.body.inspection.suspendedPermits.map((p: { reference: string }) => p.reference).sort()).toEqual([first.number, second.number].sort());
+    expect(r.body.inspection.suspendedPermits.map((p: { reference: string }) => p.reference).sort()).toEqual(
+      [first.number, second.number].sort(),
+    );
     expect(await statusOf(first.id)).toBe('suspended');
     expect(await statusOf(second.id)).toBe('suspended');
     expect(await statusOf(waiting.id)).toBe('approved');
@@ -361,26 +423,41 @@ describe('a failed inspection stops the work beside it', () => {
     const failed = await waitForMail(t.deps, w.coordinator2Email, new RegExp(`Not safe: ${trench.reference}`));
     expect(failed.text).toContain(first.number);
     expect(failed.text).toContain(second.number);
-    const toOperator = await t.deps.db.selectFrom('caught_mail').select('subject').where('mail_to', 'ilike', `%${demo.operator}%`).where('subject', 'like', `Not safe: ${trench.reference}%`).execute();
+    const toOperator = await t.deps.db
+      .selectFrom('caught_mail')
+      .select('subject')
+      .where('mail_to', 'ilike', `%${demo.operator}%`)
+      .where('subject', 'like', `Not safe: ${trench.reference}%`)
+      .execute();
     expect(toOperator).toEqual([]);
 
     const state = async () => (await w.agents.coordinator.get(`/api/excavations/${trench.id}/inspections`)).body.inspectionState;
     expect(await state()).toBe('unsafe');
     // While the excavation stands not safe, nothing beside it goes live: not a resume, and not an
     // approved permit whose last operator confirms the briefing.
-    const early = await act(w.agents.coordinator, first.id, { action: 'resume', version: await version(w, first.id), reason: 'Frames look fine now' });
+    const early = await act(w.agents.coordinator, first.id, {
+      action: 'resume',
+      version: await version(w, first.id),
+      reason: 'Frames look fine now',
+    });
     expect(early.status).toBe(409);
     expect(early.body.error.message).toContain(`${trench.reference} was found not safe`);
     expect((await w.agents.operator.post(`/api/permits/${waiting.id}/briefing`).send({})).status).toBeLessThan(300);
     expect(await statusOf(waiting.id)).toBe('approved');
-    const later = await w.agents.coordinator.post(`/api/excavations/${trench.id}/inspections`).send(form({ reason: 'after-event', reasonDetail: 'Frames re-set and re-pinned', remarks: 'Re-inspected after repair.' }));
+    const later = await w.agents.coordinator
+      .post(`/api/excavations/${trench.id}/inspections`)
+      .send(form({ reason: 'after-event', reasonDetail: 'Frames re-set and re-pinned', remarks: 'Re-inspected after repair.' }));
     expect(later.status).toBe(201);
     expect(later.body.consequences).toEqual({ suspended: [], notSuspended: [], notified: [] });
     expect(await state()).toBe('ok');
     // resuming stays the coordinator's decision, and is allowed again once the excavation is safe
     expect(await statusOf(first.id)).toBe('suspended');
     expect(await statusOf(second.id)).toBe('suspended');
-    const resumed = await act(w.agents.coordinator, first.id, { action: 'resume', version: await version(w, first.id), reason: 'Re-inspected safe after repair' });
+    const resumed = await act(w.agents.coordinator, first.id, {
+      action: 'resume',
+      version: await version(w, first.id),
+      reason: 'Re-inspected safe after repair',
+    });
     expect(resumed.status).toBe(200);
     expect(await statusOf(first.id)).toBe('live');
   });
@@ -398,7 +475,12 @@ describe('a failed inspection stops the work beside it', () => {
     expect(again.status).toBe(200);
     expect(again.body.inspection.id).toBe(first.body.inspection.id);
     expect(again.body.consequences).toEqual(first.body.consequences);
-    const suspensions = await t.deps.db.selectFrom('permit_events').select('id').where('permit_id', '=', p.id).where('action', '=', 'suspend').execute();
+    const suspensions = await t.deps.db
+      .selectFrom('permit_events')
+      .select('id')
+      .where('permit_id', '=', p.id)
+      .where('action', '=', 'suspend')
+      .execute();
     expect(suspensions).toHaveLength(1);
   });
 
@@ -432,7 +514,12 @@ describe('a failed inspection stops the work beside it', () => {
     const mine = found.filter((f) => f.inspectionId === row.id);
     expect(mine).toEqual([{ inspectionId: row.id, excavation: w.trenchRef, suspended: [p.number], notSuspended: [] }]);
     expect(await statusOf(p.id)).toBe('suspended');
-    const event = await t.deps.db.selectFrom('permit_events').select('comment').where('permit_id', '=', p.id).where('action', '=', 'suspend').executeTakeFirstOrThrow();
+    const event = await t.deps.db
+      .selectFrom('permit_events')
+      .select('comment')
+      .where('permit_id', '=', p.id)
+      .where('action', '=', 'suspend')
+      .executeTakeFirstOrThrow();
     expect(event.comment).toContain(`Inspection ${row.id} of ${w.trenchRef}`);
     await waitForMail(t.deps, demo.supervisor, new RegExp(`Not safe: ${w.trenchRef} `));
     // the inspection now answers with what the reconciliation did
@@ -446,18 +533,44 @@ describe('a failed inspection stops the work beside it', () => {
 describe('the shift clock', () => {
   it('reads and sets the site\u2019s shifts (coordinators and administrators only), naming bad fields', async () => {
     const s = await newSite('Shift set-up site');
-    await t.deps.db.insertInto('site_members').values([
-      { site_id: s, user_id: (await t.deps.db.selectFrom('users').select('id').where('email', '=', people.coordinator).executeTakeFirstOrThrow()).id, role: 'coordinator' },
-      { site_id: s, user_id: (await t.deps.db.selectFrom('users').select('id').where('email', '=', people.supervisor).executeTakeFirstOrThrow()).id, role: 'supervisor' },
-    ]).execute();
+    await t.deps.db
+      .insertInto('site_members')
+      .values([
+        {
+          site_id: s,
+          user_id: (await t.deps.db.selectFrom('users').select('id').where('email', '=', people.coordinator).executeTakeFirstOrThrow()).id,
+          role: 'coordinator',
+        },
+        {
+          site_id: s,
+          user_id: (await t.deps.db.selectFrom('users').select('id').where('email', '=', people.supervisor).executeTakeFirstOrThrow()).id,
+          role: 'supervisor',
+        },
+      ])
+      .execute();
     at('2026-01-14T12:00:00Z');
     const d = await agents.supervisor.get(`/api/sites/${s}/shifts`);
-    expect(d.body).toMatchObject({ timeZone: 'Europe/London', shifts: [{ name: 'Day shift', start: '07:00' }], current: { start: '2026-01-14T07:00:00.000Z', overdueFrom: '2026-01-14T07:30:00.000Z' } });
+    expect(d.body).toMatchObject({
+      timeZone: 'Europe/London',
+      shifts: [{ name: 'Day shift', start: '07:00' }],
+      current: { start: '2026-01-14T07:00:00.000Z', overdueFrom: '2026-01-14T07:30:00.000Z' },
+    });
     expect((await agents.supervisor.put(`/api/sites/${s}/shifts`).send({ shifts: [{ name: 'Early', start: '06:00' }] })).status).toBe(403);
-    const bad = await agents.coordinator.put(`/api/sites/${s}/shifts`).send({ shifts: [{ name: 'Early', start: '06:00' }, { name: '', start: '06:00' }, { name: 'Late', start: '25:00' }] });
+    const bad = await agents.coordinator.put(`/api/sites/${s}/shifts`).send({
+      shifts: [
+        { name: 'Early', start: '06:00' },
+        { name: '', start: '06:00' },
+        { name: 'Late', start: '25:00' },
+      ],
+    });
     expect(bad.status).toBe(400);
     expect(Object.keys(bad.body.error.fields).sort()).toEqual(['shifts[1].name', 'shifts[1].start', 'shifts[2].start']);
-    const ok = await agents.coordinator.put(`/api/sites/${s}/shifts`).send({ shifts: [{ name: 'Late shift', start: '14:00' }, { name: 'Early shift', start: '06:00' }] });
+    const ok = await agents.coordinator.put(`/api/sites/${s}/shifts`).send({
+      shifts: [
+        { name: 'Late shift', start: '14:00' },
+        { name: 'Early shift', start: '06:00' },
+      ],
+    });
     expect(ok.status).toBe(200);
     expect(ok.body.shifts.map((x: { start: string }) => x.start)).toEqual(['06:00', '14:00']);
     expect(ok.body.current).toMatchObject({ name: 'Early shift', start: '2026-01-14T06:00:00.000Z' });
@@ -465,7 +578,8 @@ describe('the shift clock', () => {
 
   it('lists an excavation as due, then overdue, as the shift clock moves, and clears it when inspected safe', async () => {
     const s = await newSite('Overdue clock site');
-    const supervisorId = (await t.deps.db.selectFrom('users').select('id').where('email', '=', people.supervisor).executeTakeFirstOrThrow()).id;
+    const supervisorId = (await t.deps.db.selectFrom('users').select('id').where('email', '=', people.supervisor).executeTakeFirstOrThrow())
+      .id;
     await t.deps.db.insertInto('site_members').values({ site_id: s, user_id: supervisorId, role: 'supervisor' }).execute();
     const e = await excavation(s);
     const overdue = async () => (await agents.supervisor.get(`/api/sites/${s}/inspections/overdue`)).body;
@@ -496,11 +610,14 @@ describe('the overdue e-mail (scheduled job, run here with an injected clock)', 
     const sup = unique('rem-supervisor');
     const coord = unique('rem-coordinator');
     const op = unique('rem-operator');
-    await t.deps.db.insertInto('site_members').values([
-      { site_id: s, user_id: await person(sup, 'Rita Shore'), role: 'supervisor' },
-      { site_id: s, user_id: await person(coord, 'Cole Brace'), role: 'coordinator' },
-      { site_id: s, user_id: await person(op, 'Opal Track'), role: 'operator', can_inspect: true },
-    ]).execute();
+    await t.deps.db
+      .insertInto('site_members')
+      .values([
+        { site_id: s, user_id: await person(sup, 'Rita Shore'), role: 'supervisor' },
+        { site_id: s, user_id: await person(coord, 'Cole Brace'), role: 'coordinator' },
+        { site_id: s, user_id: await person(op, 'Opal Track'), role: 'operator', can_inspect: true },
+      ])
+      .execute();
     const a = await excavation(s);
     const b = await excavation(s);
     const run = async () => (await checkOverdueInspections(t.deps, { siteIds: [s] }))[0];
@@ -522,14 +639,22 @@ describe('the overdue e-mail (scheduled job, run here with an injected clock)', 
     expect(await run()).toBeUndefined();
     at('2026-07-02T11:32:00Z');
     expect((await run()).sentTo).toHaveLength(2);
-    const rows = await t.deps.db.selectFrom('inspection_reminders').select('shift_start').where('site_id', '=', s).orderBy('shift_start').execute();
+    const rows = await t.deps.db
+      .selectFrom('inspection_reminders')
+      .select('shift_start')
+      .where('site_id', '=', s)
+      .orderBy('shift_start')
+      .execute();
     expect(rows.map((r) => new Date(r.shift_start).toISOString())).toEqual(['2026-07-01T11:00:00.000Z', '2026-07-02T11:00:00.000Z']);
   });
 
   it('sends nothing when every open excavation was inspected safe this shift', async () => {
     const s = await newSite('Quiet site');
     const sup = unique('quiet-supervisor');
-    await t.deps.db.insertInto('site_members').values({ site_id: s, user_id: await person(sup, 'Quinn Level'), role: 'supervisor' }).execute();
+    await t.deps.db
+      .insertInto('site_members')
+      .values({ site_id: s, user_id: await person(sup, 'Quinn Level'), role: 'supervisor' })
+      .execute();
     const e = await excavation(s);
     at('2026-07-01T06:10:00Z');
     await (await signedIn(t.app, sup)).post(`/api/excavations/${e.id}/inspections`).send(form()).expect(201);
@@ -548,11 +673,17 @@ describe('records', () => {
     const e = await excavation();
     await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).send(notSafe('=cmd|calc; stop work')).expect(201);
     at('2026-06-12T09:00:00Z');
-    await agents.supervisor.post(`/api/excavations/${e.id}/inspections`).send(form({ reason: 'after-fall', reasonDetail: 'Small fall from the west face, cleared' })).expect(201);
+    await agents.supervisor
+      .post(`/api/excavations/${e.id}/inspections`)
+      .send(form({ reason: 'after-fall', reasonDetail: 'Small fall from the west face, cleared' }))
+      .expect(201);
     const r = await agents.coordinator.get(`/api/excavations/${e.id}/inspections.csv`);
     expect(r.status).toBe(200);
     expect(r.headers['content-type']).toMatch(/text\/csv/);
-    const lines = r.text.replace(/^\uFEFF/, '').trim().split('\r\n');
+    const lines = r.text
+      .replace(/^\uFEFF/, '')
+      .trim()
+      .split('\r\n');
     expect(lines).toHaveLength(3);
     expect(lines[0]).toMatch(/^inspection,excavation,shift,shift start,inspected at,time zone,inspector,reason/);
     expect(lines[1]).toContain(`${e.reference},Day shift,2026-06-12 07:00,2026-06-12 10:00,Europe/London`);
@@ -564,14 +695,24 @@ describe('records', () => {
   it('prints the weekly report as a PDF with each excavation, shift, inspector, outcome and photo', async () => {
     const s = await newSite('Report site');
     const sup = unique('report-supervisor');
-    await t.deps.db.insertInto('site_members').values({ site_id: s, user_id: await person(sup, 'Rory Plumb'), role: 'supervisor' }).execute();
+    await t.deps.db
+      .insertInto('site_members')
+      .values({ site_id: s, user_id: await person(sup, 'Rory Plumb'), role: 'supervisor' })
+      .execute();
     const agent = await signedIn(t.app, sup);
     const a = await excavation(s, 'open', '2026-06-01T00:00:00Z');
     const b = await excavation(s, 'open', '2026-06-01T00:00:00Z');
     at('2026-06-16T06:10:00Z'); // Tuesday of 2026-W25
-    await agent.post(`/api/excavations/${a.id}/inspections`).field('inspection', JSON.stringify(notSafe())).attach('photos', PNG, 'waling.png').expect(201);
+    await agent
+      .post(`/api/excavations/${a.id}/inspections`)
+      .field('inspection', JSON.stringify(notSafe()))
+      .attach('photos', PNG, 'waling.png')
+      .expect(201);
     at('2026-06-16T11:00:00Z');
-    await agent.post(`/api/excavations/${a.id}/inspections`).send(form({ reason: 'after-event', reasonDetail: 'Waling re-fixed' })).expect(201);
+    await agent
+      .post(`/api/excavations/${a.id}/inspections`)
+      .send(form({ reason: 'after-event', reasonDetail: 'Waling re-fixed' }))
+      .expect(201);
     at('2026-06-17T06:10:00Z');
     await agent.post(`/api/excavations/${b.id}/inspections`).send(form()).expect(201);
     at('2026-06-18T12:00:00Z');
@@ -583,7 +724,16 @@ describe('records', () => {
     expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
     expect(pdf.subarray(-6).toString('latin1')).toMatch(/%%EOF/);
     const text = await pdfText(pdf);
-    for (const words of [`${a.reference} Test trench`, `${b.reference} Test trench`, 'Rory Plumb', 'Not safe: stop work', 'Safe to work', 'No inspection recorded', 'week 2026-W25', 'licensed practice prevail']) {
+    for (const words of [
+      `${a.reference} Test trench`,
+      `${b.reference} Test trench`,
+      'Rory Plumb',
+      'Not safe: stop work',
+      'Safe to work',
+      'No inspection recorded',
+      'week 2026-W25',
+      'licensed practice prevail',
+    ]) {
       expect(text).toContain(words);
     }
     expect(pdf.toString('latin1')).toMatch(/\/Subtype\s*\/Image/);

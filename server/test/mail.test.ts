@@ -14,7 +14,8 @@ beforeAll(async () => {
 });
 afterAll(async () => t.stop());
 
-const caught = async (to: string) => t.deps.db.selectFrom('caught_mail').select(['id', 'subject']).where('mail_to', 'ilike', `%${to}%`).execute();
+const caught = async (to: string) =>
+  t.deps.db.selectFrom('caught_mail').select(['id', 'subject']).where('mail_to', 'ilike', `%${to}%`).execute();
 
 /** The mail jobs addressed to `to`, with pg-boss's own record of their tries. */
 async function jobsTo(to: string): Promise<{ state: string; retry_count: number }[]> {
@@ -74,9 +75,7 @@ it('sends a message once when its job is delivered twice (the same idempotency k
   const message: QueuedMessage = { to: [to], subject: 'Only once', text: 'Sent once, whatever the queue does.', key: randomUUID() };
   await t.deps.boss.send(t.deps.mailer.queue, message);
   await t.deps.boss.send(t.deps.mailer.queue, message);
-  await expect
-    .poll(async () => (await jobsTo(to)).map((j) => j.state), { timeout: 20_000 })
-    .toEqual(['completed', 'completed']);
+  await expect.poll(async () => (await jobsTo(to)).map((j) => j.state), { timeout: 20_000 }).toEqual(['completed', 'completed']);
   expect(await caught(to)).toHaveLength(1);
   const delivered = await t.deps.db.selectFrom('mail_deliveries').select('key').where('key', '=', message.key).execute();
   expect(delivered).toHaveLength(1);

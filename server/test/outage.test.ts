@@ -60,7 +60,7 @@ beforeAll(async () => {
   server.stdout!.on('data', (b) => (output += b));
   server.stderr!.on('data', (b) => (output += b));
   // Ready when it answers its health check (or gone, with its output to say why).
-  for (const t0 = Date.now(); (await call('/api/health')).status !== 200; ) {
+  for (const t0 = Date.now(); (await call('/api/health')).status !== 200;) {
     if (!alive() || Date.now() - t0 > 120_000) throw new Error(`the server did not start:\n${output}`);
     await new Promise((r) => setTimeout(r, 250));
   }
@@ -80,7 +80,11 @@ async function call(url: string, opts: { method?: string; body?: unknown; cookie
   try {
     const r = await fetch(base + url, {
       method: opts.method ?? 'GET',
-      headers: { origin: base, ...(opts.body ? { 'content-type': 'application/json' } : {}), ...(opts.cookie ? { cookie: opts.cookie } : {}) },
+      headers: {
+        origin: base,
+        ...(opts.body ? { 'content-type': 'application/json' } : {}),
+        ...(opts.cookie ? { cookie: opts.cookie } : {}),
+      },
       body: opts.body ? JSON.stringify(opts.body) : undefined,
     });
     const text = await r.text();
@@ -126,7 +130,11 @@ it('answers 503 with a plain message while PostgreSQL is down, stays up, and rec
   const again = await signIn(demo.supervisor);
   expect(again.status).toBe(503);
   expect(again.body.error.message).toBe(DATABASE_UNAVAILABLE);
-  const transition = await call('/api/permits/1/transitions', { method: 'POST', cookie, body: { action: 'suspend', version: 1, reason: 'Outage test' } });
+  const transition = await call('/api/permits/1/transitions', {
+    method: 'POST',
+    cookie,
+    body: { action: 'suspend', version: 1, reason: 'Outage test' },
+  });
   expect(transition.status).toBe(503);
   // The mail and schedule workers keep polling into the outage; the process is still the same one.
   await expect.poll(() => output, { timeout: 20_000 }).toMatch(/\[jobs\]/);
@@ -162,7 +170,9 @@ it('answers 503 with a plain message while PostgreSQL is down, stays up, and rec
     .poll(
       async () => {
         const mail = await call(`/api/dev/mail?to=${encodeURIComponent(demo.supervisor)}`);
-        return (mail.body.messages ?? []).some((m: { subject: string }) => m.subject === `Permit ${live.number} at ${site.name} is suspended`);
+        return (mail.body.messages ?? []).some(
+          (m: { subject: string }) => m.subject === `Permit ${live.number} at ${site.name} is suspended`,
+        );
       },
       { timeout: 30_000, interval: 250 },
     )

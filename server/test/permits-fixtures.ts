@@ -61,12 +61,22 @@ export async function trenchBeside(w: PermitWorld, north: number): Promise<{ id:
   return addTrench(w.t, w.siteId, w.origin, [w.trenchCentre[0], w.trenchCentre[1] + north]);
 }
 
-async function addTrench(t: TestApp, siteId: number, origin: [number, number], at?: [number, number]): Promise<{ id: number; reference: string; centre: [number, number] }> {
+async function addTrench(
+  t: TestApp,
+  siteId: number,
+  origin: [number, number],
+  at?: [number, number],
+): Promise<{ id: number; reference: string; centre: [number, number] }> {
   const proj = localProjection(origin);
   const reference = `TT-${randomUUID().slice(0, 6)}`;
   const [cx, cy] = at ?? (await freshCentre(t));
-  const geometry: LineString = { type: 'LineString', coordinates: [proj.toWgs84([cx - TRENCH.length / 2, cy]), proj.toWgs84([cx + TRENCH.length / 2, cy])] };
-  const shapes = shapeColumns(shapesOf({ kind: 'trench', geometry, width: TRENCH.width, depth: TRENCH.depth }, { longitude: origin[0], latitude: origin[1] }));
+  const geometry: LineString = {
+    type: 'LineString',
+    coordinates: [proj.toWgs84([cx - TRENCH.length / 2, cy]), proj.toWgs84([cx + TRENCH.length / 2, cy])],
+  };
+  const shapes = shapeColumns(
+    shapesOf({ kind: 'trench', geometry, width: TRENCH.width, depth: TRENCH.depth }, { longitude: origin[0], latitude: origin[1] }),
+  );
   const row = await t.deps.db
     .insertInto('excavations')
     .values({
@@ -94,15 +104,31 @@ export async function makeWorld(t: TestApp): Promise<PermitWorld> {
   const trench = await addTrench(t, siteId, [site.longitude, site.latitude]);
   const trenchRef = trench.reference;
   const excavator = await t.deps.db.selectFrom('plant_items').select('id').where('name', '=', EXCAVATOR.name).executeTakeFirstOrThrow();
-  const ids = await t.deps.db.selectFrom('users').select(['id', 'email']).where('email', 'in', [demo.operator, demo.supervisor, demo.coordinator]).execute();
+  const ids = await t.deps.db
+    .selectFrom('users')
+    .select(['id', 'email'])
+    .where('email', 'in', [demo.operator, demo.supervisor, demo.coordinator])
+    .execute();
   const idOf = (e: string) => ids.find((u) => u.email === e)!.id;
 
   const coordinator2Email = unique('coordinator2');
-  const c2 = await t.deps.db.insertInto('users').values({ email: coordinator2Email, name: 'Cora Second (test coordinator)', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+  const c2 = await t.deps.db
+    .insertInto('users')
+    .values({ email: coordinator2Email, name: 'Cora Second (test coordinator)', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+    .returning('id')
+    .executeTakeFirstOrThrow();
   await t.deps.db.insertInto('site_members').values({ site_id: siteId, user_id: c2.id, role: 'coordinator' }).execute();
   const outsiderEmail = unique('outsider');
-  const other = await t.deps.db.insertInto('sites').values({ name: `Other site ${randomUUID().slice(0, 4)}`, latitude: 51, longitude: 0 }).returning('id').executeTakeFirstOrThrow();
-  const o = await t.deps.db.insertInto('users').values({ email: outsiderEmail, name: 'Otto Outsider', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+  const other = await t.deps.db
+    .insertInto('sites')
+    .values({ name: `Other site ${randomUUID().slice(0, 4)}`, latitude: 51, longitude: 0 })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  const o = await t.deps.db
+    .insertInto('users')
+    .values({ email: outsiderEmail, name: 'Otto Outsider', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+    .returning('id')
+    .executeTakeFirstOrThrow();
   await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: o.id, role: 'coordinator' }).execute();
 
   const agents = {
@@ -134,7 +160,14 @@ export function excavatorAt(w: PermitWorld, clear: number, id = 'exc'): PlacedLo
   const proj = localProjection(w.origin);
   const centreNorth = TRENCH.width / 2 + clear + EXCAVATOR.shoe / 2 + EXCAVATOR.gauge / 2;
   const [cx, cy] = w.trenchCentre;
-  return { id, kind: 'plant', label: 'Excavator', plantItemId: w.excavatorId, position: proj.toWgs84([cx, cy + centreNorth]), rotation: 90 };
+  return {
+    id,
+    kind: 'plant',
+    label: 'Excavator',
+    plantItemId: w.excavatorId,
+    position: proj.toWgs84([cx, cy + centreNorth]),
+    rotation: 90,
+  };
 }
 
 export function hoursFrom(base: Date, h: number): string {
@@ -166,7 +199,12 @@ export async function createPermit(w: PermitWorld, over: Partial<PermitCreateInp
 
 /** Sets a permit's status directly (a fixture for the status-machine table; the real paths are tested too). */
 export async function forceStatus(w: PermitWorld, id: number, status: PermitStatus): Promise<number> {
-  const r = await w.t.deps.db.updateTable('permits').set((eb) => ({ status, version: eb('version', '+', 1) })).where('id', '=', id).returning('version').executeTakeFirstOrThrow();
+  const r = await w.t.deps.db
+    .updateTable('permits')
+    .set((eb) => ({ status, version: eb('version', '+', 1) }))
+    .where('id', '=', id)
+    .returning('version')
+    .executeTakeFirstOrThrow();
   return r.version;
 }
 
@@ -176,7 +214,7 @@ export function act(agent: request.Agent, id: number, body: Record<string, unkno
 
 /** Submits (supervisor) and approves (coordinator) a draft. */
 export async function submitAndApprove(w: PermitWorld, id: number, approve: Record<string, unknown> = {}) {
-  const s = await act(w.agents.supervisor, id, { action: 'submit', version: (await version(w, id)) });
+  const s = await act(w.agents.supervisor, id, { action: 'submit', version: await version(w, id) });
   if (s.status !== 200) throw new Error(`submit: ${s.status} ${JSON.stringify(s.body)}`);
   const a = await act(w.agents.coordinator, id, { action: 'approve', version: s.body.permit.version, password: DEMO_PASSWORD, ...approve });
   if (a.status !== 200) throw new Error(`approve: ${a.status} ${JSON.stringify(a.body)}`);

@@ -7,7 +7,17 @@ import { permitPdf } from '../src/services/permits/pdf';
 import { localProjection } from '@shared/geometry';
 import type { PlacedLoad } from '@shared/schemas/permits';
 import { demo, DEMO_PASSWORD, startTestApp, waitForMail, type TestApp } from './helpers';
-import { act, createPermit, excavatorAt, hoursFrom, makeWorld, newTrench, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
+import {
+  act,
+  createPermit,
+  excavatorAt,
+  hoursFrom,
+  makeWorld,
+  newTrench,
+  submitAndApprove,
+  version,
+  type PermitWorld,
+} from './permits-fixtures';
 import { binary, pdfText } from './pdf';
 
 let t: TestApp;
@@ -20,7 +30,12 @@ afterAll(async () => t.stop());
 
 /** Every message to `to` about permit `number` since the test began, by subject. */
 async function subjectsTo(to: string, number: string): Promise<string[]> {
-  const rows = await t.deps.db.selectFrom('caught_mail').select(['subject']).where('mail_to', 'ilike', `%${to}%`).where('subject', 'like', `Permit ${number} %`).execute();
+  const rows = await t.deps.db
+    .selectFrom('caught_mail')
+    .select(['subject'])
+    .where('mail_to', 'ilike', `%${to}%`)
+    .where('subject', 'like', `Permit ${number} %`)
+    .execute();
   return rows.map((r) => r.subject);
 }
 
@@ -34,13 +49,24 @@ describe('e-mails of each transition reach the people who act next', () => {
     expect(toCoordinator.text).toContain(`http://brink.test/permits/${p.id}`);
     await waitForMail(t.deps, w.coordinator2Email, new RegExp(`Permit ${n} .* awaits your review`));
 
-    const ret = await act(w.agents.coordinator, p.id, { action: 'return', version: sub.body.permit.version, password: DEMO_PASSWORD, reason: 'Add the banksman to the method statement' });
+    const ret = await act(w.agents.coordinator, p.id, {
+      action: 'return',
+      version: sub.body.permit.version,
+      password: DEMO_PASSWORD,
+      reason: 'Add the banksman to the method statement',
+    });
     expect(ret.status).toBe(200);
     const returned = await waitForMail(t.deps, demo.supervisor, new RegExp(`Permit ${n} .* is returned for changes`));
     expect(returned.text).toContain('Comments: Add the banksman to the method statement');
 
     const again = await act(w.agents.supervisor, p.id, { action: 'submit', version: ret.body.permit.version });
-    const ok = await act(w.agents.coordinator, p.id, { action: 'approve', version: again.body.permit.version, password: DEMO_PASSWORD, standoff: 3, conditions: ['A banksman is present'] });
+    const ok = await act(w.agents.coordinator, p.id, {
+      action: 'approve',
+      version: again.body.permit.version,
+      password: DEMO_PASSWORD,
+      standoff: 3,
+      conditions: ['A banksman is present'],
+    });
     expect(ok.status).toBe(200);
     const approvedToSupervisor = await waitForMail(t.deps, demo.supervisor, new RegExp(`Permit ${n} .* is approved`));
     expect(approvedToSupervisor.text).toContain('Standoff: keep every load at least 3.00 m from the excavation edge.');
@@ -58,10 +84,19 @@ describe('e-mails of each transition reach the people who act next', () => {
     await waitForMail(t.deps, demo.operator, new RegExp(`Permit ${n} .* is live`));
     await waitForMail(t.deps, demo.supervisor, new RegExp(`Permit ${n} .* is live`));
 
-    const susp = await act(w.agents.coordinator, p.id, { action: 'suspend', version: await version(w, p.id), reason: 'Water in the trench' });
+    const susp = await act(w.agents.coordinator, p.id, {
+      action: 'suspend',
+      version: await version(w, p.id),
+      reason: 'Water in the trench',
+    });
     expect(susp.status).toBe(200);
-    for (const to of [demo.supervisor, demo.operator, w.coordinator2Email]) await waitForMail(t.deps, to, new RegExp(`Permit ${n} .* is suspended`));
-    const res = await act(w.agents.coordinator, p.id, { action: 'resume', version: susp.body.permit.version, reason: 'Pumped out and inspected' });
+    for (const to of [demo.supervisor, demo.operator, w.coordinator2Email])
+      await waitForMail(t.deps, to, new RegExp(`Permit ${n} .* is suspended`));
+    const res = await act(w.agents.coordinator, p.id, {
+      action: 'resume',
+      version: susp.body.permit.version,
+      reason: 'Pumped out and inspected',
+    });
     expect(res.status).toBe(200);
     for (const to of [demo.supervisor, demo.operator]) await waitForMail(t.deps, to, new RegExp(`Permit ${n} .* is live again`));
 
@@ -76,14 +111,30 @@ describe('e-mails of each transition reach the people who act next', () => {
 
     // The timeline tells the whole story, with the comments.
     const detail = await w.agents.coordinator.get(`/api/permits/${p.id}`);
-    expect(detail.body.permit.events.map((e: { action: string }) => e.action)).toEqual(['create', 'submit', 'return', 'submit', 'approve', 'briefed', 'start', 'suspend', 'resume', 'hand_back']);
+    expect(detail.body.permit.events.map((e: { action: string }) => e.action)).toEqual([
+      'create',
+      'submit',
+      'return',
+      'submit',
+      'approve',
+      'briefed',
+      'start',
+      'suspend',
+      'resume',
+      'hand_back',
+    ]);
     expect(detail.body.permit.events.find((e: { action: string }) => e.action === 'start').actor.name).toBe('Brink schedule');
   });
 
   it('tells the requester of a decline with its reason', async () => {
     const p = await createPermit(w);
     const s = await act(w.agents.supervisor, p.id, { action: 'submit', version: p.version });
-    await act(w.agents.coordinator, p.id, { action: 'decline', version: s.body.permit.version, password: DEMO_PASSWORD, reason: 'Use the far side of the trench' }).expect(200);
+    await act(w.agents.coordinator, p.id, {
+      action: 'decline',
+      version: s.body.permit.version,
+      password: DEMO_PASSWORD,
+      reason: 'Use the far side of the trench',
+    }).expect(200);
     const m = await waitForMail(t.deps, demo.supervisor, new RegExp(`Permit ${p.number} .* is declined`));
     expect(m.text).toContain('Reason: Use the far side of the trench');
   });
@@ -92,8 +143,12 @@ describe('e-mails of each transition reach the people who act next', () => {
     const p = await createPermit(w, { operatorIds: [] });
     const approved = await submitAndApprove(w, p.id);
     expect(approved.status).toBe('live');
-    await expect(transition(t.deps, p.id, 'suspend', inspectionActor('Shift inspection failed'), {})).rejects.toMatchObject({ status: 400 });
-    const out = await transition(t.deps, p.id, 'suspend', inspectionActor('Shift inspection failed'), { reason: 'Frame strut missing at chainage 12 m' });
+    await expect(transition(t.deps, p.id, 'suspend', inspectionActor('Shift inspection failed'), {})).rejects.toMatchObject({
+      status: 400,
+    });
+    const out = await transition(t.deps, p.id, 'suspend', inspectionActor('Shift inspection failed'), {
+      reason: 'Frame strut missing at chainage 12 m',
+    });
     expect(out.to).toBe('suspended');
     expect(out.notified).toEqual(expect.arrayContaining([demo.supervisor, demo.coordinator]));
     const m = await waitForMail(t.deps, demo.coordinator, new RegExp(`Permit ${p.number} .* is suspended`));
@@ -158,11 +213,21 @@ describe('the schedule, on an injected clock', () => {
 describe('attachments', () => {
   const pdf = Buffer.from('%PDF-1.4\n1 0 obj <<>> endobj\ntrailer <<>>\n%%EOF\n');
   // The first bytes of a Windows executable (an "MZ" header with a PE signature).
-  const exe = Buffer.concat([Buffer.from('MZ'), Buffer.alloc(58), Buffer.from([0x80, 0, 0, 0]), Buffer.alloc(64), Buffer.from('PE\0\0'), Buffer.alloc(400)]);
+  const exe = Buffer.concat([
+    Buffer.from('MZ'),
+    Buffer.alloc(58),
+    Buffer.from([0x80, 0, 0, 0]),
+    Buffer.alloc(64),
+    Buffer.from('PE\0\0'),
+    Buffer.alloc(400),
+  ]);
 
   it('keeps a method statement PDF, served only to members of the site', async () => {
     const p = await createPermit(w);
-    const r = await w.agents.supervisor.post(`/api/permits/${p.id}/attachments`).field('kind', 'method-statement').attach('file', pdf, 'method.pdf');
+    const r = await w.agents.supervisor
+      .post(`/api/permits/${p.id}/attachments`)
+      .field('kind', 'method-statement')
+      .attach('file', pdf, 'method.pdf');
     expect(r.status).toBe(201);
     expect(r.body.attachment).toMatchObject({ kind: 'method-statement', mime: 'application/pdf', name: 'method.pdf' });
     const got = await w.agents.operator.get(r.body.attachment.url);
@@ -175,7 +240,10 @@ describe('attachments', () => {
 
   it('refuses an executable renamed .pdf', async () => {
     const p = await createPermit(w);
-    const r = await w.agents.supervisor.post(`/api/permits/${p.id}/attachments`).field('kind', 'method-statement').attach('file', exe, 'method.pdf');
+    const r = await w.agents.supervisor
+      .post(`/api/permits/${p.id}/attachments`)
+      .field('kind', 'method-statement')
+      .attach('file', exe, 'method.pdf');
     expect(r.status).toBe(400);
     expect(r.body.error.fields.file).toBe('must be a PDF');
     expect((await w.agents.supervisor.get(`/api/permits/${p.id}`)).body.permit.attachments).toEqual([]);
@@ -184,9 +252,15 @@ describe('attachments', () => {
   it('keeps what was reviewed: after submission a document is refused (409), a photo still accepted', async () => {
     const p = await createPermit(w);
     await act(w.agents.supervisor, p.id, { action: 'submit', version: p.version }).expect(200);
-    const doc = await w.agents.supervisor.post(`/api/permits/${p.id}/attachments`).field('kind', 'method-statement').attach('file', pdf, 'late.pdf');
+    const doc = await w.agents.supervisor
+      .post(`/api/permits/${p.id}/attachments`)
+      .field('kind', 'method-statement')
+      .attach('file', pdf, 'late.pdf');
     expect(doc.status).toBe(409);
-    const png = Buffer.from('89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8cfc0f01f0005000201a5d4cb3b0000000049454e44ae426082', 'hex');
+    const png = Buffer.from(
+      '89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8cfc0f01f0005000201a5d4cb3b0000000049454e44ae426082',
+      'hex',
+    );
     const photo = await w.agents.supervisor.post(`/api/permits/${p.id}/attachments`).field('kind', 'photo').attach('file', png, 'edge.png');
     expect(photo.status).toBe(201);
     const names = (await w.agents.supervisor.get(`/api/permits/${p.id}`)).body.permit.attachments.map((a: { name: string }) => a.name);
@@ -235,7 +309,13 @@ describe('the printed permit', () => {
     const proj = localProjection(w.origin);
     const [cx, cy] = w.trenchCentre;
     const y = cy + 0.5 + 1.0;
-    const wall: PlacedLoad = { id: 'wall', kind: 'line', label: 'Hoarding footing', path: { type: 'LineString', coordinates: [proj.toWgs84([cx - 10, y]), proj.toWgs84([cx + 10, y])] }, force: 15.2 };
+    const wall: PlacedLoad = {
+      id: 'wall',
+      kind: 'line',
+      label: 'Hoarding footing',
+      path: { type: 'LineString', coordinates: [proj.toWgs84([cx - 10, y]), proj.toWgs84([cx + 10, y])] },
+      force: 15.2,
+    };
     const p = await createPermit(w, { loads: [wall], method: 'elastic' });
     const text = await pdfText((await permitPdf(t.deps, p.id, { compress: false })).buffer);
     expect(text).toContain('Read before signing');

@@ -3,7 +3,19 @@ import { permitActions, permitStatuses } from '@shared/schemas/permits';
 import { allowedTransitions, needsReason, roleFor, signedActions } from './expected-transitions';
 import { DEMO_PASSWORD, demo, startTestApp, type TestApp } from './helpers';
 import { transition } from '../src/services/permits/machine';
-import { act, createPermit, excavatorAt, forceStatus, makeWorld, newTrench, permitBody, submitAndApprove, trenchBeside, version, type PermitWorld } from './permits-fixtures';
+import {
+  act,
+  createPermit,
+  excavatorAt,
+  forceStatus,
+  makeWorld,
+  newTrench,
+  permitBody,
+  submitAndApprove,
+  trenchBeside,
+  version,
+  type PermitWorld,
+} from './permits-fixtures';
 
 let t: TestApp;
 let w: PermitWorld;
@@ -18,7 +30,12 @@ const people: Who[] = ['outsider', 'admin', 'operator', 'supervisor', 'coordinat
 
 /** What a body needs for each action to be accepted when it is allowed. */
 function bodyFor(action: string, v: number): Record<string, unknown> {
-  return { action, version: v, ...(needsReason.includes(action) ? { reason: 'Table test reason' } : {}), ...(signedActions.includes(action) ? { password: DEMO_PASSWORD } : {}) };
+  return {
+    action,
+    version: v,
+    ...(needsReason.includes(action) ? { reason: 'Table test reason' } : {}),
+    ...(signedActions.includes(action) ? { password: DEMO_PASSWORD } : {}),
+  };
 }
 
 describe('the status machine, for every status, action and role', () => {
@@ -63,7 +80,13 @@ describe('the status machine, for every status, action and role', () => {
   it('records the audit log for a transition', async () => {
     const p = await createPermit(w);
     await act(w.agents.supervisor, p.id, { action: 'withdraw', version: p.version }).expect(200);
-    const rows = await t.deps.db.selectFrom('audit_log').selectAll().where('entity', '=', 'permit').where('entity_id', '=', String(p.id)).orderBy('id').execute();
+    const rows = await t.deps.db
+      .selectFrom('audit_log')
+      .selectAll()
+      .where('entity', '=', 'permit')
+      .where('entity_id', '=', String(p.id))
+      .orderBy('id')
+      .execute();
     expect(rows.map((r) => r.action)).toEqual(['created', 'withdraw']);
   });
 });
@@ -90,7 +113,9 @@ describe('two coordinators deciding at once', () => {
   it('refuses a change quoting an old version', async () => {
     const p = await createPermit(w);
     await w.agents.supervisor.patch(`/api/permits/${p.id}`).send({ version: p.version, description: 'First change' }).expect(200);
-    const stale = await w.agents.supervisor.patch(`/api/permits/${p.id}`).send({ version: p.version, description: 'Second change from an old screen' });
+    const stale = await w.agents.supervisor
+      .patch(`/api/permits/${p.id}`)
+      .send({ version: p.version, description: 'Second change from an old screen' });
     expect(stale.status).toBe(409);
     expect(stale.body.permit.description).toBe('First change');
   });
@@ -99,7 +124,9 @@ describe('two coordinators deciding at once', () => {
 describe('editing', () => {
   it('names each bad field and keeps what was saved', async () => {
     const p = await createPermit(w);
-    const bad = await w.agents.supervisor.patch(`/api/permits/${p.id}`).send({ version: p.version, windowEnd: 'tomorrow', excavationIds: [999999], loads: [{ id: 'x', kind: 'stockpile' }] });
+    const bad = await w.agents.supervisor
+      .patch(`/api/permits/${p.id}`)
+      .send({ version: p.version, windowEnd: 'tomorrow', excavationIds: [999999], loads: [{ id: 'x', kind: 'stockpile' }] });
     expect(bad.status).toBe(400);
     expect(Object.keys(bad.body.error.fields)).toEqual(expect.arrayContaining(['windowEnd', 'loads[0].outline']));
     const after = await w.agents.supervisor.get(`/api/permits/${p.id}`);
@@ -121,13 +148,18 @@ describe('editing', () => {
     const p = await createPermit(w);
     const approved = await submitAndApprove(w, p.id, { conditions: ['Banksman present'] });
     expect(approved.status).toBe('approved');
-    const frozen = await w.agents.supervisor.patch(`/api/permits/${p.id}`).send({ version: approved.version, description: 'Sneaky change' });
+    const frozen = await w.agents.supervisor
+      .patch(`/api/permits/${p.id}`)
+      .send({ version: approved.version, description: 'Sneaky change' });
     expect(frozen.status).toBe(409);
     const revised = await act(w.agents.supervisor, p.id, { action: 'revise', version: approved.version, reason: 'Longer window needed' });
     expect(revised.status).toBe(200);
     expect(revised.body.permit).toMatchObject({ status: 'draft', revision: 2 });
     expect(revised.body.permit.current.decision).toBeNull();
-    await w.agents.supervisor.patch(`/api/permits/${p.id}`).send({ version: revised.body.permit.version, description: 'Longer window' }).expect(200);
+    await w.agents.supervisor
+      .patch(`/api/permits/${p.id}`)
+      .send({ version: revised.body.permit.version, description: 'Longer window' })
+      .expect(200);
     const first = await w.agents.coordinator.get(`/api/permits/${p.id}/revisions/1`);
     expect(first.status).toBe(200);
     expect(first.body.revision.description).toBe('Excavator loading out spoil beside the trench');
@@ -151,7 +183,9 @@ describe('the cumulative check', () => {
       [w.trenchId, true],
       [beside.id, false],
     ]);
-    expect(r.body.check.warnings).toEqual(expect.arrayContaining([expect.stringContaining(`${beside.reference} is not named on this permit`)]));
+    expect(r.body.check.warnings).toEqual(
+      expect.arrayContaining([expect.stringContaining(`${beside.reference} is not named on this permit`)]),
+    );
     // The answer leaves out the pressure profiles (the stored check keeps them for the permit page).
     expect(r.body.check.excavations[0].result).toMatchObject({ passes: expect.any(Boolean) });
     expect(r.body.check.excavations[0].result).not.toHaveProperty('profile');
@@ -190,7 +224,9 @@ describe('the cumulative check', () => {
     const others = ex.loads.filter((l: { own: boolean }) => !l.own);
     expect(others.map((l: { permitNumber: string }) => l.permitNumber)).toEqual([live.number, live.number]);
     expect(ex.request.loads).toHaveLength(4);
-    const alone = await w.agents.supervisor.post(`/api/permits/${mine.id}/check`).send({ windowStart: h(24 * 30), windowEnd: h(24 * 30 + 1) });
+    const alone = await w.agents.supervisor
+      .post(`/api/permits/${mine.id}/check`)
+      .send({ windowStart: h(24 * 30), windowEnd: h(24 * 30 + 1) });
     const aloneEx = alone.body.check.excavations[0];
     expect(aloneEx.counted).toEqual([]);
     expect(ex.result.utilisation).toBeGreaterThan(aloneEx.result.utilisation);
@@ -225,7 +261,12 @@ describe('approving with a standoff', () => {
 
   it('refuses a standoff below the computed one without a reason (400 naming the standoff)', async () => {
     const p = await submittedNearTheEdge();
-    const r = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD, standoff: p.computed - 0.5 });
+    const r = await act(w.agents.coordinator, p.id, {
+      action: 'approve',
+      version: p.version,
+      password: DEMO_PASSWORD,
+      standoff: p.computed - 0.5,
+    });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.standoff).toMatch(/must be at least/);
     expect((await w.agents.coordinator.get(`/api/permits/${p.id}`)).body.permit.status).toBe('submitted');
@@ -233,14 +274,28 @@ describe('approving with a standoff', () => {
 
   it('accepts a standoff below the computed one with a recorded reason', async () => {
     const p = await submittedNearTheEdge();
-    const r = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD, standoff: p.computed - 0.5, reason: 'Designer confirmed the frames take it (calc ref TW-12)' });
+    const r = await act(w.agents.coordinator, p.id, {
+      action: 'approve',
+      version: p.version,
+      password: DEMO_PASSWORD,
+      standoff: p.computed - 0.5,
+      reason: 'Designer confirmed the frames take it (calc ref TW-12)',
+    });
     expect(r.status).toBe(200);
-    expect(r.body.permit.current.decision).toMatchObject({ standoff: p.computed - 0.5, reason: 'Designer confirmed the frames take it (calc ref TW-12)' });
+    expect(r.body.permit.current.decision).toMatchObject({
+      standoff: p.computed - 0.5,
+      reason: 'Designer confirmed the frames take it (calc ref TW-12)',
+    });
   });
 
   it('refuses a standoff at least the computed one without a reason while the loads as placed fail the cumulative check', async () => {
     const p = await submittedNearTheEdge();
-    const r = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD, standoff: Math.ceil(p.computed) + 1 });
+    const r = await act(w.agents.coordinator, p.id, {
+      action: 'approve',
+      version: p.version,
+      password: DEMO_PASSWORD,
+      standoff: Math.ceil(p.computed) + 1,
+    });
     expect(r.status).toBe(400);
     expect(Object.keys(r.body.error.fields)).toEqual(['reason']);
     expect((await w.agents.coordinator.get(`/api/permits/${p.id}`)).body.permit.status).toBe('submitted');
@@ -248,10 +303,22 @@ describe('approving with a standoff', () => {
 
   it('accepts a standoff at least the computed one, with conditions and a reason, and records the signature', async () => {
     const p = await submittedNearTheEdge();
-    const r = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD, standoff: Math.ceil(p.computed) + 1, conditions: ['No tracking inside the zone'], reason: 'Approved for the standoff: the machine works from there' });
+    const r = await act(w.agents.coordinator, p.id, {
+      action: 'approve',
+      version: p.version,
+      password: DEMO_PASSWORD,
+      standoff: Math.ceil(p.computed) + 1,
+      conditions: ['No tracking inside the zone'],
+      reason: 'Approved for the standoff: the machine works from there',
+    });
     expect(r.status).toBe(200);
     const d = r.body.permit.current.decision;
-    expect(d).toMatchObject({ action: 'approve', standoff: Math.ceil(p.computed) + 1, computedStandoff: p.computed, conditions: ['No tracking inside the zone'] });
+    expect(d).toMatchObject({
+      action: 'approve',
+      standoff: Math.ceil(p.computed) + 1,
+      computedStandoff: p.computed,
+      conditions: ['No tracking inside the zone'],
+    });
     expect(d.by.name).toMatch(/Colm Ridley/);
     expect(d.signature).toMatch(/^Signed by Colm Ridley/);
   });
@@ -261,7 +328,12 @@ describe('approving with a standoff', () => {
     const plain = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD });
     expect(plain.status).toBe(400);
     expect(plain.body.error.fields.reason).toBeDefined();
-    const wrong = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: 'not-my-password', standoff: 10 });
+    const wrong = await act(w.agents.coordinator, p.id, {
+      action: 'approve',
+      version: p.version,
+      password: 'not-my-password',
+      standoff: 10,
+    });
     expect(wrong.status).toBe(400);
     expect(wrong.body.error.fields.password).toBe('is not the one you sign in with: type it again');
     const none = await act(w.agents.coordinator, p.id, { action: 'decline', version: p.version, reason: 'x' });
@@ -279,7 +351,9 @@ describe('lists', () => {
     expect(review.body.permits.map((p: { id: number }) => p.id)).toContain(b.id);
     expect(review.body.permits.map((p: { id: number }) => p.id)).not.toContain(a.id);
     expect((await w.agents.supervisor.get('/api/permits?view=review')).body.permits).toEqual([]);
-    const mine = await w.agents.supervisor.get(`/api/permits?view=mine&siteId=${w.siteId}&excavationId=${w.trenchId}&status=draft&sort=number&order=asc`);
+    const mine = await w.agents.supervisor.get(
+      `/api/permits?view=mine&siteId=${w.siteId}&excavationId=${w.trenchId}&status=draft&sort=number&order=asc`,
+    );
     const ids = mine.body.permits.map((p: { id: number }) => p.id);
     expect(ids).toContain(a.id);
     expect(ids).not.toContain(b.id);
@@ -300,7 +374,11 @@ describe('dig permits', () => {
       dig: {
         depth: 1.2,
         supportMethod: 'Battered back at 45°',
-        servicesChecks: { drawings: { state: 'done', by: 'Sana Whitlock', at: new Date().toISOString() }, locatorScan: { state: 'pending' }, trialHoles: { state: 'pending' } },
+        servicesChecks: {
+          drawings: { state: 'done', by: 'Sana Whitlock', at: new Date().toISOString() },
+          locatorScan: { state: 'pending' },
+          trialHoles: { state: 'pending' },
+        },
       },
     });
     const early = await act(w.agents.supervisor, p.id, { action: 'submit', version: p.version });
@@ -308,10 +386,22 @@ describe('dig permits', () => {
     expect(Object.keys(early.body.error.fields).sort()).toEqual(['dig.servicesChecks.locatorScan', 'dig.servicesChecks.trialHoles']);
     const missingWho = await w.agents.supervisor.patch(`/api/permits/${p.id}`).send({
       version: p.version,
-      dig: { depth: 1.2, supportMethod: 'Battered', servicesChecks: { drawings: { state: 'done', by: 'S', at: new Date().toISOString() }, locatorScan: { state: 'done' }, trialHoles: { state: 'not-needed' } } },
+      dig: {
+        depth: 1.2,
+        supportMethod: 'Battered',
+        servicesChecks: {
+          drawings: { state: 'done', by: 'S', at: new Date().toISOString() },
+          locatorScan: { state: 'done' },
+          trialHoles: { state: 'not-needed' },
+        },
+      },
     });
     expect(missingWho.status).toBe(400);
-    expect(Object.keys(missingWho.body.error.fields).sort()).toEqual(['dig.servicesChecks.locatorScan.at', 'dig.servicesChecks.locatorScan.by', 'dig.servicesChecks.trialHoles.notes']);
+    expect(Object.keys(missingWho.body.error.fields).sort()).toEqual([
+      'dig.servicesChecks.locatorScan.at',
+      'dig.servicesChecks.locatorScan.by',
+      'dig.servicesChecks.trialHoles.notes',
+    ]);
     const done = await w.agents.supervisor.patch(`/api/permits/${p.id}`).send({
       version: p.version,
       dig: {
@@ -353,7 +443,11 @@ describe('drafts', () => {
   });
 
   it('withdrawn before ever being sent for review, tell nobody; withdrawn after, tell the coordinators', async () => {
-    const supervisor = await t.deps.db.selectFrom('users').select(['id', 'name']).where('id', '=', w.supervisorId).executeTakeFirstOrThrow();
+    const supervisor = await t.deps.db
+      .selectFrom('users')
+      .select(['id', 'name'])
+      .where('id', '=', w.supervisorId)
+      .executeTakeFirstOrThrow();
     const actor = { kind: 'user' as const, id: supervisor.id, name: supervisor.name };
     const never = await createPermit(w);
     const quiet = await transition(t.deps, never.id, 'withdraw', actor, { version: never.version });

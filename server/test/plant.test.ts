@@ -30,7 +30,8 @@ describe('plant library', () => {
     const r = await op.get('/api/plant');
     expect(r.status).toBe(200);
     const names = r.body.plant.map((p: { name: string }) => p.name);
-    for (const n of ['Mini excavator 1.5 t', 'Excavator 30 t', 'Mobile crane 45 t on outriggers', 'Single-drum roller 7 t']) expect(names).toContain(n);
+    for (const n of ['Mini excavator 1.5 t', 'Excavator 30 t', 'Mobile crane 45 t on outriggers', 'Single-drum roller 7 t'])
+      expect(names).toContain(n);
     for (const p of r.body.plant) {
       const parsed = plantItemSchema.safeParse(p);
       expect(parsed.success, `${p.name}: ${JSON.stringify(parsed.error?.issues)}`).toBe(true);
@@ -59,7 +60,13 @@ describe('plant library', () => {
 
     expect((await co.delete(`/api/plant/${id}`)).status).toBe(204);
     expect((await co.delete(`/api/plant/${id}`)).status).toBe(404);
-    const log = await t.deps.db.selectFrom('audit_log').select(['action']).where('entity', '=', 'plant').where('entity_id', '=', String(id)).orderBy('id').execute();
+    const log = await t.deps.db
+      .selectFrom('audit_log')
+      .select(['action'])
+      .where('entity', '=', 'plant')
+      .where('entity_id', '=', String(id))
+      .orderBy('id')
+      .execute();
     expect(log.map((l) => l.action)).toEqual(['created', 'updated', 'deleted']);
   });
 
@@ -74,10 +81,18 @@ describe('plant library', () => {
   });
 
   it('lets a coordinator of another site edit the (shared) library, but not a supervisor of one', async () => {
-    const other = await t.deps.db.insertInto('sites').values({ name: 'Plant test other site', latitude: 51.2, longitude: -0.5 }).returning('id').executeTakeFirstOrThrow();
+    const other = await t.deps.db
+      .insertInto('sites')
+      .values({ name: 'Plant test other site', latitude: 51.2, longitude: -0.5 })
+      .returning('id')
+      .executeTakeFirstOrThrow();
     const emails = { coordinator: unique('co'), supervisor: unique('su') } as const;
     for (const [role, email] of Object.entries(emails) as ['coordinator' | 'supervisor', string][]) {
-      const u = await t.deps.db.insertInto('users').values({ email, name: `Plant ${role}`, password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+      const u = await t.deps.db
+        .insertInto('users')
+        .values({ email, name: `Plant ${role}`, password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+        .returning('id')
+        .executeTakeFirstOrThrow();
       await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role }).execute();
     }
     expect((await (await signedIn(t.app, emails.coordinator)).post('/api/plant').send(machine(uniqueName('Far')))).status).toBe(201);

@@ -18,7 +18,11 @@ const people: Record<'operator' | 'supervisor', { id: number; agent: request.Age
 
 async function person(role: 'operator' | 'supervisor') {
   const email = unique(`push-${role}`);
-  const u = await t.deps.db.insertInto('users').values({ email, name: `Pat Push (${role})`, password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+  const u = await t.deps.db
+    .insertInto('users')
+    .values({ email, name: `Pat Push (${role})`, password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+    .returning('id')
+    .executeTakeFirstOrThrow();
   await t.deps.db.insertInto('site_members').values({ site_id: w.siteId, user_id: u.id, role }).execute();
   return { id: u.id, agent: await signedIn(t.app, email) };
 }
@@ -26,14 +30,22 @@ async function person(role: 'operator' | 'supervisor') {
 /** A new device at the fake push service, subscribed with the server's public key. */
 async function device(): Promise<{ endpoint: string; keys: { p256dh: string; auth: string }; clientHash: string }> {
   const { publicKey } = (await people.operator.agent.get('/api/push/key')).body as { publicKey: string };
-  const r = await fetch(`${fake.url}/subscribe`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ userVisibleOnly: 'true', applicationServerKey: publicKey }) });
+  const r = await fetch(`${fake.url}/subscribe`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ userVisibleOnly: 'true', applicationServerKey: publicKey }),
+  });
   expect(r.status).toBe(200);
   return ((await r.json()) as { data: { endpoint: string; keys: { p256dh: string; auth: string }; clientHash: string } }).data;
 }
 
 /** The notifications the fake service decrypted for a device (payloads parsed). */
 async function received(clientHash: string): Promise<{ title: string; body: string; path: string; tag: string }[]> {
-  const r = await fetch(`${fake.url}/get-notifications`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ clientHash }) });
+  const r = await fetch(`${fake.url}/get-notifications`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ clientHash }),
+  });
   const messages = ((await r.json()) as { data: { messages: string[] } }).data.messages;
   return messages.map((m) => JSON.parse(m));
 }
@@ -57,7 +69,9 @@ afterAll(async () => {
 
 describe('push subscriptions', () => {
   it('refuses an address that is no browser push service, naming the field', async () => {
-    const r = await people.operator.agent.post('/api/push/subscription').send({ endpoint: 'http://10.0.0.1/hook', keys: { p256dh: 'x', auth: 'y' } });
+    const r = await people.operator.agent
+      .post('/api/push/subscription')
+      .send({ endpoint: 'http://10.0.0.1/hook', keys: { p256dh: 'x', auth: 'y' } });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.endpoint).toMatch(/push service/);
   });
@@ -72,7 +86,9 @@ describe('push subscriptions', () => {
     expect((await people.supervisor.agent.post('/api/push/subscription').send({ endpoint: d.endpoint, keys: d.keys })).status).toBe(201);
     expect((await status()).body).toEqual({ subscribed: false });
     expect((await people.supervisor.agent.delete('/api/push/subscription').query({ endpoint: d.endpoint })).status).toBe(204);
-    expect(await t.deps.db.selectFrom('push_subscriptions').select('id').where('endpoint', '=', d.endpoint).executeTakeFirst()).toBeUndefined();
+    expect(
+      await t.deps.db.selectFrom('push_subscriptions').select('id').where('endpoint', '=', d.endpoint).executeTakeFirst(),
+    ).toBeUndefined();
   });
 });
 
@@ -85,28 +101,55 @@ describe('notifications of a permit', () => {
     const id = created.body.permit.id as number;
     const number = created.body.permit.number as string;
     expect((await act(people.supervisor.agent, id, { action: 'submit', version: await version(w, id) })).status).toBe(200);
-    expect((await act(w.agents.coordinator, id, { action: 'approve', version: await version(w, id), password: DEMO_PASSWORD })).status).toBe(200);
+    expect(
+      (await act(w.agents.coordinator, id, { action: 'approve', version: await version(w, id), password: DEMO_PASSWORD })).status,
+    ).toBe(200);
     // Approved but not yet briefed: nothing pushed. The briefing makes it live.
     expect((await people.operator.agent.post(`/api/permits/${id}/briefing`)).body.briefing.status).toBe('live');
     await expect.poll(() => received(d.clientHash), { timeout: 20_000 }).toHaveLength(1);
     const [live] = await received(d.clientHash);
-    expect(live).toEqual({ title: `Permit ${number} is live`, body: 'Work may go ahead: keep out of the exclusion zone.', path: `/field/permits/${id}`, tag: `permit-${id}` });
+    expect(live).toEqual({
+      title: `Permit ${number} is live`,
+      body: 'Work may go ahead: keep out of the exclusion zone.',
+      path: `/field/permits/${id}`,
+      tag: `permit-${id}`,
+    });
 
-    expect((await act(w.agents.coordinator, id, { action: 'suspend', version: await version(w, id), reason: 'Water in the trench' })).status).toBe(200);
-    await expect.poll(async () => (await received(d.clientHash)).map((m) => m.title), { timeout: 20_000 }).toEqual([`Permit ${number} is live`, `Permit ${number} is suspended`]);
+    expect(
+      (await act(w.agents.coordinator, id, { action: 'suspend', version: await version(w, id), reason: 'Water in the trench' })).status,
+    ).toBe(200);
+    await expect
+      .poll(async () => (await received(d.clientHash)).map((m) => m.title), { timeout: 20_000 })
+      .toEqual([`Permit ${number} is live`, `Permit ${number} is suspended`]);
 
     // Exactly once: the job of the first notification delivered again (a crash, a retry) sends nothing.
     const sub = await t.deps.db.selectFrom('push_subscriptions').select('id').where('endpoint', '=', d.endpoint).executeTakeFirstOrThrow();
-    const first = await t.deps.db.selectFrom('push_deliveries').select('key').where('subscription_id', '=', sub.id).orderBy('delivered_at').executeTakeFirstOrThrow();
+    const first = await t.deps.db
+      .selectFrom('push_deliveries')
+      .select('key')
+      .where('subscription_id', '=', sub.id)
+      .orderBy('delivered_at')
+      .executeTakeFirstOrThrow();
     await t.deps.boss.send(t.deps.pusher.queue, { key: first.key, subscriptionId: sub.id, message: live });
     await queueDrained();
     expect(await received(d.clientHash)).toHaveLength(2);
 
     // The browser dropped the subscription: the push service answers 410 and Brink forgets the device.
     expect((await fetch(`${fake.url}/expire-subscription/${d.clientHash}`, { method: 'POST' })).status).toBe(200);
-    expect((await act(w.agents.coordinator, id, { action: 'resume', version: await version(w, id), reason: 'Pumped out and inspected' })).status).toBe(200);
-    await expect.poll(async () => t.deps.db.selectFrom('push_subscriptions').select('id').where('id', '=', sub.id).executeTakeFirst(), { timeout: 20_000 }).toBeUndefined();
-    const outcomes = await t.deps.db.selectFrom('push_deliveries').select('outcome').where('subscription_id', '=', sub.id).orderBy('delivered_at').execute();
+    expect(
+      (await act(w.agents.coordinator, id, { action: 'resume', version: await version(w, id), reason: 'Pumped out and inspected' })).status,
+    ).toBe(200);
+    await expect
+      .poll(async () => t.deps.db.selectFrom('push_subscriptions').select('id').where('id', '=', sub.id).executeTakeFirst(), {
+        timeout: 20_000,
+      })
+      .toBeUndefined();
+    const outcomes = await t.deps.db
+      .selectFrom('push_deliveries')
+      .select('outcome')
+      .where('subscription_id', '=', sub.id)
+      .orderBy('delivered_at')
+      .execute();
     expect(outcomes.map((o) => o.outcome)).toEqual(['sent', 'sent', 'gone']);
     expect(await received(d.clientHash)).toHaveLength(2);
   });
@@ -117,8 +160,13 @@ describe('notifications of a permit', () => {
     const created = await people.supervisor.agent.post('/api/permits').send(permitBody(w, { operatorIds: [people.operator.id] }));
     const id = created.body.permit.id as number;
     expect((await act(people.supervisor.agent, id, { action: 'submit', version: await version(w, id) })).status).toBe(200);
-    expect((await act(w.agents.coordinator, id, { action: 'approve', version: await version(w, id), password: DEMO_PASSWORD })).status).toBe(200);
-    const concern = await people.operator.agent.post(`/api/permits/${id}/concerns`).field('excavationId', String(w.trenchId)).field('note', 'Crack opening along the north edge');
+    expect(
+      (await act(w.agents.coordinator, id, { action: 'approve', version: await version(w, id), password: DEMO_PASSWORD })).status,
+    ).toBe(200);
+    const concern = await people.operator.agent
+      .post(`/api/permits/${id}/concerns`)
+      .field('excavationId', String(w.trenchId))
+      .field('note', 'Crack opening along the north edge');
     expect(concern.status).toBe(201);
     await expect.poll(() => received(d.clientHash), { timeout: 20_000 }).toHaveLength(1);
     const [m] = await received(d.clientHash);

@@ -29,7 +29,11 @@ async function detail(id: number): Promise<PermitDetail> {
 }
 
 async function excavation(id = w.trenchId) {
-  return t.deps.db.selectFrom('excavations').select(['id', 'version', 'depth', 'rated_pressure']).where('id', '=', id).executeTakeFirstOrThrow();
+  return t.deps.db
+    .selectFrom('excavations')
+    .select(['id', 'version', 'depth', 'rated_pressure'])
+    .where('id', '=', id)
+    .executeTakeFirstOrThrow();
 }
 
 async function patchExcavation(agent: PermitWorld['agents'][keyof PermitWorld['agents']], body: Record<string, unknown>) {
@@ -60,7 +64,11 @@ async function approvedPermit(opts: { live: boolean; clear?: number; operators?:
 }
 
 async function outboxFor(number: string): Promise<number> {
-  const { rows } = await sql<{ n: number }>`select count(*)::int as n from pgboss.job where name = ${t.deps.mailer.queue} and data::text like ${`%Permit ${number} %`}`.execute(t.deps.db);
+  const { rows } = await sql<{
+    n: number;
+  }>`select count(*)::int as n from pgboss.job where name = ${t.deps.mailer.queue} and data::text like ${`%Permit ${number} %`}`.execute(
+    t.deps.db,
+  );
   return rows[0].n;
 }
 
@@ -145,7 +153,8 @@ describe('re-check on change', () => {
     expect(after.current.decision).toBeNull();
     expect(after.events.at(-1)).toMatchObject({ action: 'reconsider', fromStatus: 'approved', toStatus: 'submitted' });
     expect(after.events.at(-1)!.comment).toMatch(new RegExp(`^${w.trenchRef} deepened from 2.4 m to 3.2 m: utilisation 1\\.\\d\\d`));
-    for (const who of [demo.supervisor, demo.operator, demo.coordinator]) await waitForMail(t.deps, who, new RegExp(`Permit ${p.number} at .* goes back for review`));
+    for (const who of [demo.supervisor, demo.operator, demo.coordinator])
+      await waitForMail(t.deps, who, new RegExp(`Permit ${p.number} at .* goes back for review`));
 
     // The coordinator decides again on the new check: it fails, so approval needs a reason.
     const again = await act(w.agents.coordinator, p.id, { action: 'approve', version: after.version, password: DEMO_PASSWORD });
@@ -214,7 +223,10 @@ describe('design data by coordinators', () => {
     const before = await excavation();
     const r = await patchExcavation(w.agents.supervisor, { supportType: 'trench-box', designSurcharge: 5, depth: 2.5 });
     expect(r.status).toBe(403);
-    expect(r.body.error.fields).toEqual({ supportType: 'is set by a coordinator or an administrator', designSurcharge: 'is set by a coordinator or an administrator' });
+    expect(r.body.error.fields).toEqual({
+      supportType: 'is set by a coordinator or an administrator',
+      designSurcharge: 'is set by a coordinator or an administrator',
+    });
     expect(r.body.error.message).toMatch(/supportType, designSurcharge/);
     expect(await excavation()).toEqual(before);
 
@@ -222,12 +234,19 @@ describe('design data by coordinators', () => {
     expect(dug.status).toBe(200);
     expect(dug.body.excavation).toMatchObject({ depth: 2.5, notes: 'Dug to 2.5 m at the east end.' });
 
-    const created = await w.agents.supervisor.post(`/api/sites/${w.siteId}/excavations`).send({ reference: 'SV-1', name: 'x', kind: 'pit', depth: 2, soil: [], groundwaterDepth: 1 });
+    const created = await w.agents.supervisor
+      .post(`/api/sites/${w.siteId}/excavations`)
+      .send({ reference: 'SV-1', name: 'x', kind: 'pit', depth: 2, soil: [], groundwaterDepth: 1 });
     expect(created.status).toBe(403);
     expect(Object.keys(created.body.error.fields)).toEqual(['soil', 'groundwaterDepth']);
 
-    const file = JSON.stringify({ type: 'FeatureCollection', features: [{ type: 'Feature', geometry: null, properties: { reference: 'SV-2', wallFriction: 10 } }] });
-    const imported = await w.agents.supervisor.post(`/api/sites/${w.siteId}/excavations/import`).attach('file', Buffer.from(file), 'e.geojson');
+    const file = JSON.stringify({
+      type: 'FeatureCollection',
+      features: [{ type: 'Feature', geometry: null, properties: { reference: 'SV-2', wallFriction: 10 } }],
+    });
+    const imported = await w.agents.supervisor
+      .post(`/api/sites/${w.siteId}/excavations/import`)
+      .attach('file', Buffer.from(file), 'e.geojson');
     expect(imported.status).toBe(403);
     expect(imported.body.error.fields).toEqual({ 'features[0].wallFriction': 'is set by a coordinator or an administrator' });
 

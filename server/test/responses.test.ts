@@ -61,7 +61,10 @@ it('turns an answer outside its schema into a 500 naming the field, under NODE_E
   const api = new Api(t.deps);
   const answer = z.object({ count: z.number() });
   let sent: unknown = { count: 3 };
-  api.route({ method: 'get', path: '/api/probe', summary: 'probe', tag: 'Test', access: { kind: 'public' }, response: answer }, () => sent as z.input<typeof answer>);
+  api.route(
+    { method: 'get', path: '/api/probe', summary: 'probe', tag: 'Test', access: { kind: 'public' }, response: answer },
+    () => sent as z.input<typeof answer>,
+  );
   const app = express().use('/api', api.router);
   expect((await request(app).get('/api/probe')).body).toEqual({ count: 3 });
   sent = { count: 'three' };

@@ -112,8 +112,16 @@ const outsiderEmail = unique('outsider');
 beforeAll(async () => {
   t = await startTestApp({ SIGNIN_LIMIT_PER_IP: '1000' });
   siteId = await demoSiteId(t.deps);
-  const other = await t.deps.db.insertInto('sites').values({ name: 'Matrix other site', latitude: 51, longitude: 0 }).returning('id').executeTakeFirstOrThrow();
-  const u = await t.deps.db.insertInto('users').values({ email: outsiderEmail, name: 'Olive Outsider', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+  const other = await t.deps.db
+    .insertInto('sites')
+    .values({ name: 'Matrix other site', latitude: 51, longitude: 0 })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  const u = await t.deps.db
+    .insertInto('users')
+    .values({ email: outsiderEmail, name: 'Olive Outsider', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+    .returning('id')
+    .executeTakeFirstOrThrow();
   await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role: 'coordinator' }).execute();
   for (const who of ['admin', 'coordinator', 'supervisor', 'operator'] as const) agents.set(who, await signedIn(t.app, demo[who]));
   agents.set('outsider', await signedIn(t.app, outsiderEmail));
@@ -123,7 +131,10 @@ beforeAll(async () => {
   const w = await makeWorld(t);
   real.permit = (await createPermit(w)).id;
   real.excavation = w.trenchId;
-  const png = Buffer.from('89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8cfc0f01f0005000201a5d4cb3b0000000049454e44ae426082', 'hex');
+  const png = Buffer.from(
+    '89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8cfc0f01f0005000201a5d4cb3b0000000049454e44ae426082',
+    'hex',
+  );
   real.upload = (
     await storeUpload(t.deps, { buffer: png, originalname: 'matrix.png', size: png.length } as Express.Multer.File, {
       field: 'file',
@@ -220,13 +231,21 @@ describe('role matrix: design data of an excavation', () => {
       const allowed = who !== 'supervisor';
       it(`PATCH ${field} as ${who} → ${allowed ? 'allowed' : '403 naming it'}`, async () => {
         const e = await t.deps.db.selectFrom('excavations').select(['version']).where('id', '=', real.excavation).executeTakeFirstOrThrow();
-        const r = await agents.get(who)!.patch(`/api/sites/${siteId}/excavations/${real.excavation}`).send({ version: e.version, [field]: bad });
+        const r = await agents
+          .get(who)!
+          .patch(`/api/sites/${siteId}/excavations/${real.excavation}`)
+          .send({ version: e.version, [field]: bad });
         expect(r.status).toBe(allowed ? 400 : 403);
-        expect(Object.keys(r.body.error.fields ?? {}).some((k) => k === field || k.startsWith(`${field}.`) || k.startsWith(`${field}[`))).toBe(true);
+        expect(
+          Object.keys(r.body.error.fields ?? {}).some((k) => k === field || k.startsWith(`${field}.`) || k.startsWith(`${field}[`)),
+        ).toBe(true);
       });
     }
     it(`POST with ${field} as supervisor → 403 naming it`, async () => {
-      const r = await agents.get('supervisor')!.post(`/api/sites/${siteId}/excavations`).send({ reference: 'X', [field]: bad });
+      const r = await agents
+        .get('supervisor')!
+        .post(`/api/sites/${siteId}/excavations`)
+        .send({ reference: 'X', [field]: bad });
       expect(r.status).toBe(403);
       expect(r.body.error.fields).toEqual({ [field]: 'is set by a coordinator or an administrator' });
     });
@@ -236,7 +255,11 @@ describe('role matrix: design data of an excavation', () => {
 describe('administration of people', () => {
   it('deactivating a person ends their sessions at once', async () => {
     const email = unique('leaver');
-    const u = await t.deps.db.insertInto('users').values({ email, name: 'Lee Leaver', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+    const u = await t.deps.db
+      .insertInto('users')
+      .values({ email, name: 'Lee Leaver', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+      .returning('id')
+      .executeTakeFirstOrThrow();
     const leaver = await signedIn(t.app, email);
     await agents.get('admin')!.patch(`/api/users/${u.id}`).send({ active: false }).expect(200);
     expect((await leaver.get('/api/auth/me')).status).toBe(401);
@@ -245,7 +268,11 @@ describe('administration of people', () => {
 
   it('sets and removes a role on a site', async () => {
     const email = unique('roled');
-    const u = await t.deps.db.insertInto('users').values({ email, name: 'Rae Roled', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) }).returning('id').executeTakeFirstOrThrow();
+    const u = await t.deps.db
+      .insertInto('users')
+      .values({ email, name: 'Rae Roled', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+      .returning('id')
+      .executeTakeFirstOrThrow();
     const admin = agents.get('admin')!;
     const put = await admin.put(`/api/users/${u.id}/memberships/${siteId}`).send({ role: 'supervisor', canInspect: true });
     expect(put.status).toBe(200);

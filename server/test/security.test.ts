@@ -26,7 +26,10 @@ let stateChanging: [string, string][] = [];
 /** This file's own upload folder, so that the files counted are this file's alone. */
 const uploadDir = mkdtempSync(path.join(tmpdir(), 'brink-sec-uploads-'));
 const filesKept = () => readdirSync(uploadDir, { recursive: true, withFileTypes: true }).filter((d) => d.isFile()).length;
-const PNG = Buffer.from('89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8cfc0f01f0005000201a5d4cb3b0000000049454e44ae426082', 'hex');
+const PNG = Buffer.from(
+  '89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8cfc0f01f0005000201a5d4cb3b0000000049454e44ae426082',
+  'hex',
+);
 
 beforeAll(async () => {
   t = await startTestApp({ SIGNIN_LIMIT_PER_IP: '1000', UPLOAD_DIR: uploadDir });
@@ -53,7 +56,14 @@ const foreign: Record<string, Record<string, string>> = {
 describe('cross-site requests: every state-changing route', () => {
   it('lists the state-changing routes (at least the sign-out, comment, briefing and concern)', () => {
     const names = stateChanging.map(([m, p]) => `${m} ${p}`);
-    expect(names).toEqual(expect.arrayContaining(['post /api/auth/sign-out', 'post /api/permits/1/comments', 'post /api/permits/1/briefing', 'post /api/permits/1/concerns']));
+    expect(names).toEqual(
+      expect.arrayContaining([
+        'post /api/auth/sign-out',
+        'post /api/permits/1/comments',
+        'post /api/permits/1/briefing',
+        'post /api/permits/1/concerns',
+      ]),
+    );
   });
 
   for (const [way, headers] of Object.entries(foreign)) {
@@ -114,7 +124,11 @@ describe('cross-site requests: every state-changing route', () => {
 
   it('answers 415 to a compressed or otherwise encoded body', async () => {
     for (const enc of ['compress', 'gzip', 'x-unknown']) {
-      const r = await admin.post('/api/permits/1/comments').set('Content-Encoding', enc).set('Content-Type', 'application/json').send('{"text":"x"}');
+      const r = await admin
+        .post('/api/permits/1/comments')
+        .set('Content-Encoding', enc)
+        .set('Content-Type', 'application/json')
+        .send('{"text":"x"}');
       expect(r.status, enc).toBe(415);
       expect(r.body.error.code).toBe('unsupported_encoding');
     }
@@ -123,24 +137,45 @@ describe('cross-site requests: every state-changing route', () => {
 
 async function person(active = true): Promise<{ id: number; email: string }> {
   const email = unique('sec');
-  const u = await t.deps.db.insertInto('users').values({ email, name: 'Sam Second', password_hash: await bcrypt.hash(DEMO_PASSWORD, 4), active }).returning('id').executeTakeFirstOrThrow();
+  const u = await t.deps.db
+    .insertInto('users')
+    .values({ email, name: 'Sam Second', password_hash: await bcrypt.hash(DEMO_PASSWORD, 4), active })
+    .returning('id')
+    .executeTakeFirstOrThrow();
   return { id: u.id, email };
 }
 async function invitation(email: string): Promise<string> {
   const { token, hash } = newToken();
-  await t.deps.db.insertInto('invitations').values({ email, name: 'Sam Second', site_id: siteId, role: 'coordinator', token_hash: hash, expires_at: new Date(Date.now() + 3600_000) }).execute();
+  await t.deps.db
+    .insertInto('invitations')
+    .values({
+      email,
+      name: 'Sam Second',
+      site_id: siteId,
+      role: 'coordinator',
+      token_hash: hash,
+      expires_at: new Date(Date.now() + 3600_000),
+    })
+    .execute();
   return token;
 }
 async function resetToken(userId: number): Promise<string> {
   const { token, hash } = newToken();
-  await t.deps.db.insertInto('password_resets').values({ user_id: userId, token_hash: hash, expires_at: new Date(Date.now() + 3600_000) }).execute();
+  await t.deps.db
+    .insertInto('password_resets')
+    .values({ user_id: userId, token_hash: hash, expires_at: new Date(Date.now() + 3600_000) })
+    .execute();
   return token;
 }
 const mailsTo = async (email: string) =>
   (await t.deps.db.selectFrom('caught_mail').select('id').where('mail_to', 'ilike', `%${email}%`).execute()).length;
 /** Each forgot-password request from an address of its own (the per-address limit is tested on its own). */
 let ip = 0;
-const forgot = (email: string) => request(t.app).post('/api/auth/forgot-password').set('X-Forwarded-For', `10.9.${Math.floor(++ip / 250)}.${ip % 250}`).send({ email });
+const forgot = (email: string) =>
+  request(t.app)
+    .post('/api/auth/forgot-password')
+    .set('X-Forwarded-For', `10.9.${Math.floor(++ip / 250)}.${ip % 250}`)
+    .send({ email });
 
 describe('accounts: deactivation, resets and locks', () => {
   it('deactivating a person revokes their invitations, reset links and sessions', async () => {
@@ -150,7 +185,9 @@ describe('accounts: deactivation, resets and locks', () => {
     const session = await signedIn(t.app, p.email);
     expect((await admin.patch(`/api/users/${p.id}`).send({ active: false })).status).toBe(200);
     expect((await session.get('/api/auth/me')).status).toBe(401);
-    const accept = await request(t.app).post('/api/invitations/accept').send({ token: inv, name: 'Sam Back', password: 'a-new-password-123' });
+    const accept = await request(t.app)
+      .post('/api/invitations/accept')
+      .send({ token: inv, name: 'Sam Back', password: 'a-new-password-123' });
     expect(accept.status).toBe(400);
     expect(accept.body.error.code).toBe('invalid_token');
     expect((await request(t.app).post('/api/auth/reset-password').send({ token: reset, password: 'a-new-password-123' })).status).toBe(400);
@@ -180,12 +217,21 @@ describe('accounts: deactivation, resets and locks', () => {
       expect(a.body).toEqual(unknown.body);
     }
     await expect.poll(() => mailsTo(p.email), { timeout: 20_000 }).toBe(3);
-    const live = await t.deps.db.selectFrom('password_resets').select('id').where('user_id', '=', p.id).where('used_at', 'is', null).execute();
+    const live = await t.deps.db
+      .selectFrom('password_resets')
+      .select('id')
+      .where('user_id', '=', p.id)
+      .where('used_at', 'is', null)
+      .execute();
     expect(live).toHaveLength(1);
   });
 
   it('limits forgot-password per address: the 11th request in a quarter hour is 429', async () => {
-    const from = (n: number) => request(t.app).post('/api/auth/forgot-password').set('X-Forwarded-For', '10.77.0.1').send({ email: unique(`many${n}`) });
+    const from = (n: number) =>
+      request(t.app)
+        .post('/api/auth/forgot-password')
+        .set('X-Forwarded-For', '10.77.0.1')
+        .send({ email: unique(`many${n}`) });
     for (let i = 0; i < 10; i++) expect((await from(i)).status).toBe(202);
     expect((await from(10)).status).toBe(429);
   });
@@ -195,9 +241,12 @@ describe('accounts: deactivation, resets and locks', () => {
     const first = await resetToken(p.id);
     const second = await resetToken(p.id);
     const session = await signedIn(t.app, p.email);
-    for (let i = 0; i < 8; i++) expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: 'wrong-password' })).status).toBe(401);
+    for (let i = 0; i < 8; i++)
+      expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: 'wrong-password' })).status).toBe(401);
     expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: DEMO_PASSWORD })).status).toBe(429);
-    expect((await request(t.app).post('/api/auth/reset-password').send({ token: second, password: 'fresh-password-456' })).status).toBe(204);
+    expect((await request(t.app).post('/api/auth/reset-password').send({ token: second, password: 'fresh-password-456' })).status).toBe(
+      204,
+    );
     expect((await session.get('/api/auth/me')).status).toBe(401);
     expect((await request(t.app).post('/api/auth/reset-password').send({ token: first, password: 'other-password-789' })).status).toBe(400);
     expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: 'fresh-password-456' })).status).toBe(200);
@@ -205,7 +254,8 @@ describe('accounts: deactivation, resets and locks', () => {
 
   it('counts sign-in failures per account and address: 8 wrong from elsewhere do not lock the owner out', async () => {
     const p = await person();
-    const elsewhere = () => request(t.app).post('/api/auth/sign-in').set('X-Forwarded-For', '10.66.0.9').send({ email: p.email, password: 'wrong-password' });
+    const elsewhere = () =>
+      request(t.app).post('/api/auth/sign-in').set('X-Forwarded-For', '10.66.0.9').send({ email: p.email, password: 'wrong-password' });
     for (let i = 0; i < 8; i++) expect((await elsewhere()).status).toBe(401);
     expect((await elsewhere()).status).toBe(429);
     expect((await request(t.app).post('/api/auth/sign-in').send({ email: p.email, password: DEMO_PASSWORD })).status).toBe(200);
@@ -257,11 +307,13 @@ describe('permit decisions: the role first, never one\u2019s own permit, a limit
     for (const action of [...permitActions, 'no-such-action', undefined]) {
       for (const [who, role] of Object.entries(roles)) {
         const r = await act(w.agents[who as keyof typeof roles], p.id, action === undefined ? {} : { action });
-        const mayTake = typeof action === 'string' && (permitActions as readonly string[]).includes(action)
-          ? roleFor(action) === role
-          : role !== 'operator'; // an operator takes no action at all: refused whatever the body
+        const mayTake =
+          typeof action === 'string' && (permitActions as readonly string[]).includes(action)
+            ? roleFor(action) === role
+            : role !== 'operator'; // an operator takes no action at all: refused whatever the body
         const expected = mayTake ? 400 : 403;
-        if (r.status !== expected || (expected === 400 && !r.body.error.fields)) wrong.push(`${who} ${String(action)} → ${r.status}, expected ${expected}`);
+        if (r.status !== expected || (expected === 400 && !r.body.error.fields))
+          wrong.push(`${who} ${String(action)} → ${r.status}, expected ${expected}`);
       }
       for (const who of ['outsider', 'admin'] as const) {
         const r = await act(w.agents[who], p.id, action === undefined ? {} : { action });
@@ -291,9 +343,16 @@ describe('permit decisions: the role first, never one\u2019s own permit, a limit
     expect(await version(w, p.id)).toBe(p.version);
     // The permit page offers them no decision; another coordinator is offered all three.
     expect((await x.agent.get(`/api/permits/${p.id}`)).body.permit.actions).toEqual([]);
-    expect((await w.agents.coordinator.get(`/api/permits/${p.id}`)).body.permit.actions).toEqual(expect.arrayContaining(['approve', 'return', 'decline']));
+    expect((await w.agents.coordinator.get(`/api/permits/${p.id}`)).body.permit.actions).toEqual(
+      expect.arrayContaining(['approve', 'return', 'decline']),
+    );
     // Another coordinator may: the refusal was about the person.
-    const other = await act(w.agents.coordinator, p.id, { action: 'return', reason: 'Move the loads', version: p.version, password: DEMO_PASSWORD });
+    const other = await act(w.agents.coordinator, p.id, {
+      action: 'return',
+      reason: 'Move the loads',
+      version: p.version,
+      password: DEMO_PASSWORD,
+    });
     expect(other.status).toBe(200);
   });
 
@@ -301,7 +360,9 @@ describe('permit decisions: the role first, never one\u2019s own permit, a limit
     const editor = await member('supervisor');
     const reviser = await member('supervisor');
     const p = await createPermit(w);
-    expect((await editor.agent.patch(`/api/permits/${p.id}`).send({ version: p.version, description: 'Edited by a second supervisor' })).status).toBe(200);
+    expect(
+      (await editor.agent.patch(`/api/permits/${p.id}`).send({ version: p.version, description: 'Edited by a second supervisor' })).status,
+    ).toBe(200);
     const s = await act(w.agents.supervisor, p.id, { action: 'submit', version: await version(w, p.id) });
     expect(s.status).toBe(200);
     await setRole(editor.id, 'coordinator');
@@ -316,7 +377,12 @@ describe('permit decisions: the role first, never one\u2019s own permit, a limit
     const s2 = await act(w.agents.supervisor, p.id, { action: 'submit', version: r.body.permit.version });
     expect(s2.status).toBe(200);
     await setRole(reviser.id, 'coordinator');
-    const revised = await act(reviser.agent, p.id, { action: 'decline', reason: 'No', version: s2.body.permit.version, password: DEMO_PASSWORD });
+    const revised = await act(reviser.agent, p.id, {
+      action: 'decline',
+      reason: 'No',
+      version: s2.body.permit.version,
+      password: DEMO_PASSWORD,
+    });
     expect(revised.status).toBe(403);
     expect(revised.body.error.message).toMatch(/requested or changed/);
     await act(w.agents.supervisor, p.id, { action: 'withdraw', version: s2.body.permit.version }).expect(200);
@@ -356,16 +422,43 @@ describe('odd input: text, multipart, files left behind, what a refusal names', 
 
   it('answers 400 naming the field for a NUL character or a lone surrogate in any text, in bodies, nested fields, queries and paths', async () => {
     const wrong: string[] = [];
-    for (const [bad, what] of [['\u0000', /NUL/], ['\ud800', /surrogate/]] as const) {
+    for (const [bad, what] of [
+      ['\u0000', /NUL/],
+      ['\ud800', /surrogate/],
+    ] as const) {
       const cases: [string, () => request.Test, string][] = [
         ['comment', () => w.agents.supervisor.post(`/api/permits/${permit.id}/comments`).send({ text: `hello${bad}` }), 'text'],
-        ['permit description', () => w.agents.supervisor.post('/api/permits').send(permitBody(w, { description: `dig${bad}` })), 'description'],
-        ['a load\u2019s label', () => w.agents.supervisor.post('/api/permits').send({ ...permitBody(w), loads: [{ ...permitBody(w).loads![0], label: `x${bad}` }] }), 'loads[0].label'],
-        ['transition reason', () => act(w.agents.supervisor, permit.id, { action: 'withdraw', version: permit.version, reason: `why${bad}` }), 'reason'],
-        ['excavation reference', () => w.agents.coordinator.post(`/api/sites/${w.siteId}/excavations`).send({ reference: `T${bad}` }), 'reference'],
+        [
+          'permit description',
+          () => w.agents.supervisor.post('/api/permits').send(permitBody(w, { description: `dig${bad}` })),
+          'description',
+        ],
+        [
+          'a load\u2019s label',
+          () =>
+            w.agents.supervisor.post('/api/permits').send({ ...permitBody(w), loads: [{ ...permitBody(w).loads![0], label: `x${bad}` }] }),
+          'loads[0].label',
+        ],
+        [
+          'transition reason',
+          () => act(w.agents.supervisor, permit.id, { action: 'withdraw', version: permit.version, reason: `why${bad}` }),
+          'reason',
+        ],
+        [
+          'excavation reference',
+          () => w.agents.coordinator.post(`/api/sites/${w.siteId}/excavations`).send({ reference: `T${bad}` }),
+          'reference',
+        ],
         ['plant name', () => admin.post('/api/plant').send({ name: `Digger${bad}` }), 'name'],
         ['site name', () => admin.patch(`/api/sites/${w.siteId}`).send({ name: `Site${bad}` }), 'name'],
-        ['sign-in e-mail', () => request(t.app).post('/api/auth/sign-in').send({ email: `a${bad}@example.test`, password: 'x' }), 'email'],
+        [
+          'sign-in e-mail',
+          () =>
+            request(t.app)
+              .post('/api/auth/sign-in')
+              .send({ email: `a${bad}@example.test`, password: 'x' }),
+          'email',
+        ],
         // A URL carries UTF-8, where half a surrogate pair cannot be written: NUL only there.
         ...(bad === '\u0000'
           ? ([
@@ -376,7 +469,8 @@ describe('odd input: text, multipart, files left behind, what a refusal names', 
       ];
       for (const [name, send, field] of cases) {
         const r = await send();
-        if (r.status !== 400 || !what.test(r.body.error?.fields?.[field] ?? '')) wrong.push(`${name} with ${JSON.stringify(bad)} → ${r.status} ${JSON.stringify(r.body.error?.fields)}`);
+        if (r.status !== 400 || !what.test(r.body.error?.fields?.[field] ?? ''))
+          wrong.push(`${name} with ${JSON.stringify(bad)} → ${r.status} ${JSON.stringify(r.body.error?.fields)}`);
       }
     }
     expect(wrong).toEqual([]);
@@ -387,11 +481,14 @@ describe('odd input: text, multipart, files left behind, what a refusal names', 
     const before = filesKept();
     const part = (disposition: string, body: Buffer | string, close = true) =>
       Buffer.concat([
-        Buffer.from(`--XB\r\nContent-Disposition: form-data; name="kind"\r\n\r\nphoto\r\n--XB\r\nContent-Disposition: form-data; name="file"; ${disposition}\r\nContent-Type: image/png\r\n\r\n`),
+        Buffer.from(
+          `--XB\r\nContent-Disposition: form-data; name="kind"\r\n\r\nphoto\r\n--XB\r\nContent-Disposition: form-data; name="file"; ${disposition}\r\nContent-Type: image/png\r\n\r\n`,
+        ),
         Buffer.isBuffer(body) ? body : Buffer.from(body),
         Buffer.from(close ? '\r\n--XB--\r\n' : ''),
       ]);
-    const post = (raw: Buffer) => w.agents.supervisor.post(`/api/permits/${permit.id}/attachments`).set('Content-Type', 'multipart/form-data; boundary=XB').send(raw);
+    const post = (raw: Buffer) =>
+      w.agents.supervisor.post(`/api/permits/${permit.id}/attachments`).set('Content-Type', 'multipart/form-data; boundary=XB').send(raw);
     const truncated = await post(part('filename="site.png"', PNG.subarray(0, 20), false));
     expect(truncated.status).toBe(400);
     expect(truncated.body.error.message).toMatch(/cut short|well-formed/);
@@ -411,16 +508,30 @@ describe('odd input: text, multipart, files left behind, what a refusal names', 
   it('removes every stored file a request does not keep: refused after storing, or rolled back', async () => {
     const api = new Api(t.deps);
     let stored = 0;
-    for (const [path, keep] of [['/api/test/refused', false], ['/api/test/kept', true]] as const) {
-      api.route({ method: 'post', path, summary: 'test', tag: 'test', access: { kind: 'public' }, before: [receiveFiles(['file'], limits.image)], files: ['file'] }, async ({ req, deps }) => {
-        const file = (req.files as Record<string, Express.Multer.File[]>).file[0];
-        await deps.db.transaction().execute(async (trx) => {
-          await storeUpload(deps, file, { field: 'file', accept: 'image', purpose: 'test', siteId: null, userId: null, db: trx });
-          stored += 1;
-          if (!keep) throw conflict('Refused after the file was stored.');
-        });
-        return { ok: true };
-      });
+    for (const [path, keep] of [
+      ['/api/test/refused', false],
+      ['/api/test/kept', true],
+    ] as const) {
+      api.route(
+        {
+          method: 'post',
+          path,
+          summary: 'test',
+          tag: 'test',
+          access: { kind: 'public' },
+          before: [receiveFiles(['file'], limits.image)],
+          files: ['file'],
+        },
+        async ({ req, deps }) => {
+          const file = (req.files as Record<string, Express.Multer.File[]>).file[0];
+          await deps.db.transaction().execute(async (trx) => {
+            await storeUpload(deps, file, { field: 'file', accept: 'image', purpose: 'test', siteId: null, userId: null, db: trx });
+            stored += 1;
+            if (!keep) throw conflict('Refused after the file was stored.');
+          });
+          return { ok: true };
+        },
+      );
     }
     const app = express();
     app.use('/api', api.router);
@@ -437,7 +548,11 @@ describe('odd input: text, multipart, files left behind, what a refusal names', 
 
   it('a 409 on deleting an excavation never names another site\u2019s permits: their excavation is 404 like a missing one', async () => {
     // A coordinator of a second site, and the world's trench on the demo site named on a permit.
-    const other = await t.deps.db.insertInto('sites').values({ name: `Second site ${unique('s')}`, latitude: 51.2, longitude: 0.1 }).returning('id').executeTakeFirstOrThrow();
+    const other = await t.deps.db
+      .insertInto('sites')
+      .values({ name: `Second site ${unique('s')}`, latitude: 51.2, longitude: 0.1 })
+      .returning('id')
+      .executeTakeFirstOrThrow();
     const p = await person();
     await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: p.id, role: 'coordinator' }).execute();
     const them = await signedIn(t.app, p.email);

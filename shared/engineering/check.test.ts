@@ -29,7 +29,9 @@ describe('the check (docs/calculation.md, "The check")', () => {
   });
 
   it('zero design allowance and no surcharge reaching the support: utilisation 0, passes', () => {
-    const r = runCheck(withLoads(withExcavation(sixRequest(), { designSurcharge: 0 }), [{ id: 'far', kind: 'strip', pressure: 60, width: 1, offset: 4 }]));
+    const r = runCheck(
+      withLoads(withExcavation(sixRequest(), { designSurcharge: 0 }), [{ id: 'far', kind: 'strip', pressure: 60, width: 1, offset: 4 }]),
+    );
     expect(r.utilisation).toBe(0);
     expect(r.passes).toBe(true);
   });
@@ -51,10 +53,12 @@ describe('the check (docs/calculation.md, "The check")', () => {
   it('a rated pressure is checked at a band edge that falls between grid points', () => {
     // Band 1.02..1.04 m lies wholly between the 0.05 m grid points; 600 kPa·K = 200 kPa
     // (hand calculation, Rankine K = 1/3 for φ′ = 30° as in Craig's Soil Mechanics).
-    const req = withLoads(withExcavation(sixRequest(), { ratedPressure: 100 }), [{ id: 'thin', kind: 'strip', pressure: 600, width: 0.02, offset: 1.02 }]);
+    const req = withLoads(withExcavation(sixRequest(), { ratedPressure: 100 }), [
+      { id: 'thin', kind: 'strip', pressure: 600, width: 0.02, offset: 1.02 },
+    ]);
     const r = runCheck(req, { standoffs: false });
     expect(r.profile.every((p) => p.surcharge === 0)).toBe(true);
-    expect(r.maxTotalPressure).toBeCloseTo(200 + 19 * 1.04 / 3, 3);
+    expect(r.maxTotalPressure).toBeCloseTo(200 + (19 * 1.04) / 3, 3);
   });
 
   it('Coulomb wall friction applies once: a blanket gives Ka·cos δ·q, not a further cos δ (docs/calculation.md, "Soil and water")', () => {
@@ -73,7 +77,7 @@ describe('the check (docs/calculation.md, "The check")', () => {
     expect(r.warnings.some((w) => w.includes('mat') && w.includes('strip'))).toBe(true);
     expect(r.loads[0]).toMatchObject({ top: 0, bottom: 3 });
     // Jarquio via Das: (60/90)·3·(atan(2/3) − atan(1/3)) in degrees = 26.3176 kN/m
-    expect(r.loads[0].force).toBeCloseTo((60 / 90) * 3 * ((Math.atan(2 / 3) - Math.atan(1 / 3)) * 180) / Math.PI, 3);
+    expect(r.loads[0].force).toBeCloseTo(((60 / 90) * 3 * ((Math.atan(2 / 3) - Math.atan(1 / 3)) * 180)) / Math.PI, 3);
     expect(r.loads[1].force).toBe(10);
   });
 

@@ -20,11 +20,21 @@ describe('dispersion-45 (common practice, no published source)', () => {
   });
 
   it('offset 0: band from the surface, 20 kN/m and moment 20·(3² − 2²)/2 = 50 (hand calculation; common practice, no published source)', () => {
-    expect(single({ id: 'a', kind: 'strip', pressure: 60, width: 1, offset: 0 })).toMatchObject({ force: 20, moment: 50, top: 0, bottom: 1 });
+    expect(single({ id: 'a', kind: 'strip', pressure: 60, width: 1, offset: 0 })).toMatchObject({
+      force: 20,
+      moment: 50,
+      top: 0,
+      bottom: 1,
+    });
   });
 
   it('band clipped at formation: d = 2.5 m gives half the band, 10 kN/m (hand calculation; common practice, no published source)', () => {
-    expect(single({ id: 'a', kind: 'strip', pressure: 60, width: 1, offset: 2.5 })).toMatchObject({ force: 10, moment: 2.5, top: 2.5, bottom: 3 });
+    expect(single({ id: 'a', kind: 'strip', pressure: 60, width: 1, offset: 2.5 })).toMatchObject({
+      force: 10,
+      moment: 2.5,
+      top: 2.5,
+      bottom: 3,
+    });
   });
 
   it('offset beyond H: no pressure, no band, and a warning (docs/calculation.md, "Load spread at 45°")', () => {

@@ -20,7 +20,11 @@ function jarquio(q: number, d: number, B: number, H: number): number {
 
 describe('elastic strip (Poulos & Davis 1974; NAVFAC DM-7.02)', () => {
   it('pointwise formula agrees with the angle form of the published formula', () => {
-    for (const [q, d, B, z] of [[100, 1, 2, 0.7], [50, 0, 1, 2.2], [20, 3, 0.5, 0.1]]) {
+    for (const [q, d, B, z] of [
+      [100, 1, 2, 0.7],
+      [50, 0, 1, 2.2],
+      [20, 3, 0.5, 0.1],
+    ]) {
       expect(elasticStripPressure(q, d, B, z, 2)).toBeCloseTo(stripByAngles(q, d, B, z, 2), 10);
     }
   });
@@ -102,10 +106,19 @@ describe('NAVFAC line load (Terzaghi 1954, as given in NAVFAC DM-7.02)', () => {
   });
 
   it('closed-form force and moment match a fine integral of the published formula, both ranges', () => {
-    for (const [d, H] of [[0.3, 3], [2, 3]]) {
+    for (const [d, H] of [
+      [0.3, 3],
+      [2, 3],
+    ]) {
       const e = navfacLine(10, d, H, 2);
-      expect(e.force).toBeCloseTo(simpson((z) => navfacLineByFormula(10, d, H, z), 0, H), 8);
-      expect(e.moment).toBeCloseTo(simpson((z) => navfacLineByFormula(10, d, H, z) * (H - z), 0, H), 8);
+      expect(e.force).toBeCloseTo(
+        simpson((z) => navfacLineByFormula(10, d, H, z), 0, H),
+        8,
+      );
+      expect(e.moment).toBeCloseTo(
+        simpson((z) => navfacLineByFormula(10, d, H, z) * (H - z), 0, H),
+        8,
+      );
       expect(e.pressureAt(1.1, 0)).toBeCloseTo(navfacLineByFormula(10, d, H, 1.1), 12);
       expect(navfacLine(10, d, H, 1).force).toBeCloseTo(e.force / 2, 12);
     }
@@ -125,10 +138,20 @@ describe('NAVFAC point load (after Gerber 1929 and Spangler 1938, as given in NA
   });
 
   it('closed-form force and moment match a fine integral of the published formula, both ranges', () => {
-    for (const [d, H] of [[0.5, 3], [1.5, 3], [5, 2]]) {
+    for (const [d, H] of [
+      [0.5, 3],
+      [1.5, 3],
+      [5, 2],
+    ]) {
       const e = navfacPoint(100, d, H, 2);
-      expect(e.force).toBeCloseTo(simpson((z) => navfacPointByFormula(100, d, H, z), 0, H), 8);
-      expect(e.moment).toBeCloseTo(simpson((z) => navfacPointByFormula(100, d, H, z) * (H - z), 0, H), 8);
+      expect(e.force).toBeCloseTo(
+        simpson((z) => navfacPointByFormula(100, d, H, z), 0, H),
+        8,
+      );
+      expect(e.moment).toBeCloseTo(
+        simpson((z) => navfacPointByFormula(100, d, H, z) * (H - z), 0, H),
+        8,
+      );
       expect(e.pressureAt(0.9, 0)).toBeCloseTo(navfacPointByFormula(100, d, H, 0.9), 12);
     }
   });

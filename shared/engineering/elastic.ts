@@ -141,7 +141,14 @@ class NavfacEffect implements SurchargeEffect {
   }
 }
 
-function navfacEffect(form: NavfacForm, F: number, offset: number, H: number, r: number, integrals: (a: number) => [number, number]): SurchargeEffect {
+function navfacEffect(
+  form: NavfacForm,
+  F: number,
+  offset: number,
+  H: number,
+  r: number,
+  integrals: (a: number) => [number, number],
+): SurchargeEffect {
   return new NavfacEffect(form, F, offset, H, r, integrals);
 }
 

@@ -16,7 +16,17 @@ export { buildSoilModel, type SoilModel } from './soil';
 export { prepareCheck, profileDepths, PASS_TOLERANCE, type CheckContext } from './check';
 export { loadEffect, placedEffect, blanketEffect } from './loads';
 export type { SurchargeEffect } from './surcharge';
-export { standoffSolver, searchOffsets, loadBreakpoints, loadWidth, NO_STANDOFF_MESSAGE, BREAK_EPSILON, type StandoffSolver, type StandoffAnswer, type GroupMember } from './standoff';
+export {
+  standoffSolver,
+  searchOffsets,
+  loadBreakpoints,
+  loadWidth,
+  NO_STANDOFF_MESSAGE,
+  BREAK_EPSILON,
+  type StandoffSolver,
+  type StandoffAnswer,
+  type GroupMember,
+} from './standoff';
 export { elasticStripPressure, navfacLinePressure, navfacPointPressure } from './elastic';
 
 import { CAUTION } from '../caution';

@@ -28,7 +28,13 @@ export function uniformForceMoment(a: number, b: number, p: number, H: number): 
  * each part. `lastGoverns` says whether the last function is strictly the largest on some part
  * (used to tell when a minimum pressure governs).
  */
-export function maxOfLinesForceMoment(a: number, b: number, pa: readonly number[], pb: readonly number[], H: number): [number, number, boolean] {
+export function maxOfLinesForceMoment(
+  a: number,
+  b: number,
+  pa: readonly number[],
+  pb: readonly number[],
+  H: number,
+): [number, number, boolean] {
   const n = pa.length;
   const cuts = [0, 1];
   for (let i = 0; i < n; i++) {

@@ -87,12 +87,16 @@ export function loadWarnings(model: SoilModel, opts: MethodOptions, load: Load):
   const H = model.H;
   if (opts.method === 'dispersion-45') {
     if (load.offset >= H) {
-      out.push(`load ${load.id}: at ${load.offset} m from the face it is beyond the reach of a 45° spread to formation (H = ${H} m) and adds no pressure`);
+      out.push(
+        `load ${load.id}: at ${load.offset} m from the face it is beyond the reach of a 45° spread to formation (H = ${H} m) and adds no pressure`,
+      );
     }
     if (load.kind === 'line') out.push(`load ${load.id}: line load analysed as a strip ${LINE_LOAD_WIDTH} m wide`);
     if (load.kind === 'point') {
       if (load.padWidth === undefined || load.padLength === undefined) {
-        out.push(`load ${load.id}: point load spread over a pad of ${load.padWidth ?? DEFAULT_PAD} m × ${load.padLength ?? DEFAULT_PAD} m (default pad side ${DEFAULT_PAD} m)`);
+        out.push(
+          `load ${load.id}: point load spread over a pad of ${load.padWidth ?? DEFAULT_PAD} m × ${load.padLength ?? DEFAULT_PAD} m (default pad side ${DEFAULT_PAD} m)`,
+        );
       } else {
         out.push(`load ${load.id}: point load analysed as an area load on its pad`);
       }

@@ -18,10 +18,7 @@ const drainedLayer = fc.record({
   frictionAngle: fc.integer({ min: 20, max: 40 }),
   cohesion: cm(0, 8),
 });
-const anyLayer = fc.oneof(
-  drainedLayer,
-  fc.record({ unitWeight: cm(16, 21), undrainedShearStrength: cm(5, 60) }),
-);
+const anyLayer = fc.oneof(drainedLayer, fc.record({ unitWeight: cm(16, 21), undrainedShearStrength: cm(5, 60) }));
 
 function soilOf(layers: Omit<SoilLayer, 'top'>[], tops: number[]): SoilLayer[] {
   const cuts = [0, ...[...new Set(tops)].sort((a, b) => a - b)];
@@ -29,12 +26,26 @@ function soilOf(layers: Omit<SoilLayer, 'top'>[], tops: number[]): SoilLayer[] {
 }
 
 const placedLoad = (H: number, maxOffset = 2 * H): fc.Arbitrary<PlacedLoad> =>
-  fc.oneof(
-    fc.record({ kind: fc.constant('strip' as const), pressure: cm(5, 150), width: cm(0.2, 3), offset: cm(0, maxOffset) }),
-    fc.record({ kind: fc.constant('line' as const), force: cm(5, 80), offset: cm(0, maxOffset) }),
-    fc.record({ kind: fc.constant('area' as const), pressure: cm(5, 150), width: cm(0.2, 3), length: cm(0.3, 6), offset: cm(0, maxOffset) }),
-    fc.record({ kind: fc.constant('point' as const), force: cm(5, 300), offset: cm(0, maxOffset), padWidth: cm(0.2, 1), padLength: cm(0.2, 1) }),
-  ).map((l) => ({ ...l, id: '' }) as PlacedLoad);
+  fc
+    .oneof(
+      fc.record({ kind: fc.constant('strip' as const), pressure: cm(5, 150), width: cm(0.2, 3), offset: cm(0, maxOffset) }),
+      fc.record({ kind: fc.constant('line' as const), force: cm(5, 80), offset: cm(0, maxOffset) }),
+      fc.record({
+        kind: fc.constant('area' as const),
+        pressure: cm(5, 150),
+        width: cm(0.2, 3),
+        length: cm(0.3, 6),
+        offset: cm(0, maxOffset),
+      }),
+      fc.record({
+        kind: fc.constant('point' as const),
+        force: cm(5, 300),
+        offset: cm(0, maxOffset),
+        padWidth: cm(0.2, 1),
+        padLength: cm(0.2, 1),
+      }),
+    )
+    .map((l) => ({ ...l, id: '' }) as PlacedLoad);
 
 const requestArb = (opts: { layers?: boolean; method?: Method; rated?: boolean } = {}) =>
   cm(1, 5).chain((H) =>
@@ -54,7 +65,15 @@ const requestArb = (opts: { layers?: boolean; method?: Method; rated?: boolean }
         const loads: Load[] = placed.map((l, i) => ({ ...l, id: `L${i}` }));
         if (blanket !== null) loads.push({ id: 'B', kind: 'blanket', pressure: blanket });
         return {
-          excavation: { depth: H, groundwaterDepth: zw, designSurcharge: qd, ratedPressure: rated, pressureState: 'active', wallFriction: 0, restraint },
+          excavation: {
+            depth: H,
+            groundwaterDepth: zw,
+            designSurcharge: qd,
+            ratedPressure: rated,
+            pressureState: 'active',
+            wallFriction: 0,
+            restraint,
+          },
           soil: soilOf(layers, tops),
           method,
           minimumClearance: 0.6,
@@ -107,13 +126,15 @@ describe('properties of the check', () => {
         const from = Math.round(s * 100);
         for (let cm = from; cm <= top; cm++) expect(passes(cm / 100), `${cm / 100} m`).toBe(true);
         for (const b of loadBreakpoints(model, load, req.method)) {
-          for (const d of [b - BREAK_EPSILON, b, b + BREAK_EPSILON]) if (d >= s && d <= top / 100) expect(passes(d), `break point ${d} m`).toBe(true);
+          for (const d of [b - BREAK_EPSILON, b, b + BREAK_EPSILON])
+            if (d >= s && d <= top / 100) expect(passes(d), `break point ${d} m`).toBe(true);
         }
         if (from > Math.ceil(req.minimumClearance * 100 - 1e-9)) {
           // Something in [s − 0.01, s) fails: the centimetre itself or a break point just inside.
-          const inside = [(from - 1) / 100, ...loadBreakpoints(model, load, req.method).flatMap((b) => [b - BREAK_EPSILON, b + BREAK_EPSILON])].filter(
-            (d) => d >= (from - 1) / 100 && d < s,
-          );
+          const inside = [
+            (from - 1) / 100,
+            ...loadBreakpoints(model, load, req.method).flatMap((b) => [b - BREAK_EPSILON, b + BREAK_EPSILON]),
+          ].filter((d) => d >= (from - 1) / 100 && d < s);
           expect(inside.some((d) => !passes(d))).toBe(true);
         } else {
           expect(s).toBe(Math.ceil(req.minimumClearance * 100 - 1e-9) / 100);

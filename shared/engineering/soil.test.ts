@@ -62,7 +62,12 @@ describe('soil and water (docs/calculation.md, "Soil and water"; effective stres
   it('c′ with water at the surface: soil + water ≥ 5z, so the soil is raised only to 5z − u (CIRIA C760 minimum; from memory; pore pressure as in Craig)', () => {
     // γsat 20: σ′v = 10.19z, K·σ′v − 2c′√K = 3.397z − 5.774 < 0 to 1.70 m; 5z − 9.81z < 0: the tension
     // cut-off governs above 1.70 m, Rankine with cohesion below. The minimum does not govern.
-    const req = withLoads(withExcavation(withSoil(sixRequest(), [{ top: 0, unitWeight: 19, saturatedUnitWeight: 20, frictionAngle: 30, cohesion: 5 }]), { groundwaterDepth: 0 }), []);
+    const req = withLoads(
+      withExcavation(withSoil(sixRequest(), [{ top: 0, unitWeight: 19, saturatedUnitWeight: 20, frictionAngle: 30, cohesion: 5 }]), {
+        groundwaterDepth: 0,
+      }),
+      [],
+    );
     const m = model(req);
     const slope = K30 * (20 - GAMMA_WATER);
     const c = 2 * 5 * Math.sqrt(K30);
@@ -72,7 +77,9 @@ describe('soil and water (docs/calculation.md, "Soil and water"; effective stres
   });
 
   it('at rest with c′: K0·σ′v and no cohesion term (Jaky; Craig; Bond & Harris, Decoding Eurocode 7, §12.4.3)', () => {
-    const req = withExcavation(withSoil(sixRequest(), [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 10 }]), { pressureState: 'at-rest' });
+    const req = withExcavation(withSoil(sixRequest(), [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 10 }]), {
+      pressureState: 'at-rest',
+    });
     const m = model(req);
     expect(soilPressure(m, 0, 2)).toBeCloseTo(0.5 * 19 * 2, 9);
     expect(m.soilForce).toBeCloseTo(42.75, 9);

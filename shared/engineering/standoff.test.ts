@@ -72,7 +72,10 @@ describe('standoff (docs/calculation.md, "Standoff")', () => {
       { top: 0, unitWeight: 19, frictionAngle: 20 },
       { top: 1.5, unitWeight: 19, frictionAngle: 40 },
     ];
-    const req = (d: number) => withLoads(withExcavation({ ...sixRequest(), soil }, { ratedPressure: 40, designSurcharge: 100 }), [{ id: 's', kind: 'strip', pressure: 90, width: 0.2, offset: d }]);
+    const req = (d: number) =>
+      withLoads(withExcavation({ ...sixRequest(), soil }, { ratedPressure: 40, designSurcharge: 100 }), [
+        { id: 's', kind: 'strip', pressure: 90, width: 0.2, offset: d },
+      ]);
     expect(runCheck(req(1.5 - 1e-6), { standoffs: false }).maxTotalPressure).toBeCloseTo(0.4903 * 118.5, 1);
     expect(runCheck(req(1.5 + 1e-6), { standoffs: false }).maxTotalPressure).toBeCloseTo(0.2174 * 122.3, 1);
     expect(runCheck(req(1.5 - 1e-6), { standoffs: false }).passes).toBe(false);
@@ -103,26 +106,29 @@ describe('standoff (docs/calculation.md, "Standoff")', () => {
     { id: 'area', kind: 'area', pressure: 40, width: 0.9, length: 2, offset: 1 },
     { id: 'point', kind: 'point', force: 80, offset: 1, padWidth: 0.5, padLength: 0.6 },
   ];
-  it.each(['dispersion-45', 'elastic'] as const)('%s: force and moment are continuous across every break point but m = 0.4 (elementary continuity of the published formulas)', (method) => {
-    const req = { ...layered, method };
-    const ctx = prepareCheck(req);
-    for (const load of kinds) {
-      const one = (d: number) => runCheck(withLoads(req, [{ ...load, offset: d }]), { standoffs: false });
-      const bps = loadBreakpoints(ctx.model, load, method).filter((b) => b > 0);
-      expect(bps.length).toBeGreaterThan(3);
-      for (const b of bps) {
-        const lo = one(b - 1e-7);
-        const hi = one(b + 1e-7);
-        const jump = method === 'elastic' && (load.kind === 'line' || load.kind === 'point') && Math.abs(b - 0.4 * 3) < 1e-9;
-        if (jump) {
-          expect(Math.abs(hi.forces.surcharge - lo.forces.surcharge), `${load.id} at m = 0.4`).toBeGreaterThan(0.01);
-        } else {
-          expect(Math.abs(hi.forces.surcharge - lo.forces.surcharge), `${load.id} force at ${b}`).toBeLessThanOrEqual(0.001);
-          expect(Math.abs(hi.moments.surcharge - lo.moments.surcharge), `${load.id} moment at ${b}`).toBeLessThanOrEqual(0.001);
+  it.each(['dispersion-45', 'elastic'] as const)(
+    '%s: force and moment are continuous across every break point but m = 0.4 (elementary continuity of the published formulas)',
+    (method) => {
+      const req = { ...layered, method };
+      const ctx = prepareCheck(req);
+      for (const load of kinds) {
+        const one = (d: number) => runCheck(withLoads(req, [{ ...load, offset: d }]), { standoffs: false });
+        const bps = loadBreakpoints(ctx.model, load, method).filter((b) => b > 0);
+        expect(bps.length).toBeGreaterThan(3);
+        for (const b of bps) {
+          const lo = one(b - 1e-7);
+          const hi = one(b + 1e-7);
+          const jump = method === 'elastic' && (load.kind === 'line' || load.kind === 'point') && Math.abs(b - 0.4 * 3) < 1e-9;
+          if (jump) {
+            expect(Math.abs(hi.forces.surcharge - lo.forces.surcharge), `${load.id} at m = 0.4`).toBeGreaterThan(0.01);
+          } else {
+            expect(Math.abs(hi.forces.surcharge - lo.forces.surcharge), `${load.id} force at ${b}`).toBeLessThanOrEqual(0.001);
+            expect(Math.abs(hi.moments.surcharge - lo.moments.surcharge), `${load.id} moment at ${b}`).toBeLessThanOrEqual(0.001);
+          }
         }
       }
-    }
-  });
+    },
+  );
 
   it('a machine of two elements is searched like one load, with both elements\' break points (docs/calculation.md, "Standoff")', () => {
     const req = withLoads(layered, []);
@@ -130,8 +136,18 @@ describe('standoff (docs/calculation.md, "Standoff")', () => {
     const solver = standoffSolver(ctx, []);
     const a: PlacedLoad = { id: 'a', kind: 'area', pressure: 60, width: 0.6, length: 3, offset: 1 };
     const b: PlacedLoad = { id: 'b', kind: 'area', pressure: 60, width: 0.6, length: 3, offset: 2.3 };
-    const answer = solver.searchGroup([{ load: a, relative: 0 }, { load: b, relative: 1.3 }]);
-    const both = (d: number) => runCheck(withLoads(req, [{ ...a, offset: d }, { ...b, offset: d + 1.3 }]), { standoffs: false }).passes;
+    const answer = solver.searchGroup([
+      { load: a, relative: 0 },
+      { load: b, relative: 1.3 },
+    ]);
+    const both = (d: number) =>
+      runCheck(
+        withLoads(req, [
+          { ...a, offset: d },
+          { ...b, offset: d + 1.3 },
+        ]),
+        { standoffs: false },
+      ).passes;
     expect(answer.standoff).not.toBeNull();
     const s = answer.standoff as number;
     for (let cm = Math.round(s * 100); cm <= 900; cm += 1) expect(both(cm / 100), `${cm / 100} m`).toBe(true);

@@ -161,7 +161,12 @@ const exact = (x: number) => Math.round(x * 1e7) / 1e7;
  * at every break point in that range. The standoff is the centimetre just beyond the farthest
  * failing offset (the minimum clearance when none fails), or null when 3H itself fails.
  */
-export function searchOffsets(passes: (d: number) => boolean, H: number, minimumClearance: number, breakpoints: readonly number[]): StandoffAnswer {
+export function searchOffsets(
+  passes: (d: number) => boolean,
+  H: number,
+  minimumClearance: number,
+  breakpoints: readonly number[],
+): StandoffAnswer {
   const top = Math.floor(3 * H * 100 + 1e-9);
   const least = Math.ceil(minimumClearance * 100 - 1e-9);
   const samples: number[] = [];

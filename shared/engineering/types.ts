@@ -36,10 +36,32 @@ export interface SoilLayer {
   undrainedShearStrength?: number;
 }
 
-export interface BlanketLoad { id: string; kind: 'blanket'; pressure: number }
-export interface StripLoad { id: string; kind: 'strip'; pressure: number; width: number; offset: number }
-export interface LineLoad { id: string; kind: 'line'; force: number; offset: number }
-export interface AreaLoad { id: string; kind: 'area'; pressure: number; width: number; length: number; offset: number }
+export interface BlanketLoad {
+  id: string;
+  kind: 'blanket';
+  pressure: number;
+}
+export interface StripLoad {
+  id: string;
+  kind: 'strip';
+  pressure: number;
+  width: number;
+  offset: number;
+}
+export interface LineLoad {
+  id: string;
+  kind: 'line';
+  force: number;
+  offset: number;
+}
+export interface AreaLoad {
+  id: string;
+  kind: 'area';
+  pressure: number;
+  width: number;
+  length: number;
+  offset: number;
+}
 export interface PointLoad {
   id: string;
   kind: 'point';

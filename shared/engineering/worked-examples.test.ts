@@ -19,7 +19,9 @@ describe('worked examples (docs/calculation.md)', () => {
 
   it('2. at rest with c′ = 10 kPa: K0·σ′v with no cohesion term, 42.75 kN/m, peak 28.5 kPa, U 1.425 (Jaky K0 = 1 − sin φ′; Craig; Bond & Harris, Decoding Eurocode 7, §12.4.3)', () => {
     const req = withLoads(
-      withSoil(withExcavation(sixRequest(), { pressureState: 'at-rest', ratedPressure: 20 }), [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 10 }]),
+      withSoil(withExcavation(sixRequest(), { pressureState: 'at-rest', ratedPressure: 20 }), [
+        { top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 10 },
+      ]),
       [],
     );
     const r = runCheck(req);
@@ -76,7 +78,9 @@ describe('worked examples (docs/calculation.md)', () => {
   });
 
   it('5. an elastic strip: resultant 109.19 kN/m for q = 100 kPa, d = 1 m, B = 2 m, H = 5 m (Jarquio 1981, as given in Das, Principles of Foundation Engineering)', () => {
-    const req = withLoads(withExcavation(sixRequest({ method: 'elastic' }), { depth: 5 }), [{ id: 'road', kind: 'strip', pressure: 100, width: 2, offset: 1 }]);
+    const req = withLoads(withExcavation(sixRequest({ method: 'elastic' }), { depth: 5 }), [
+      { id: 'road', kind: 'strip', pressure: 100, width: 2, offset: 1 },
+    ]);
     const r = runCheck(req, { standoffs: false });
     expect(r.loads[0].force).toBeCloseTo(109.19, 2);
     // P = (q/90)·H·(θ2′ − θ1′) with the angles at z = H in degrees.

@@ -26,7 +26,12 @@ function rotate(p: XY, deg: number, about: XY = [0, 0]): XY {
   const y = p[1] - about[1];
   return [about[0] + x * Math.cos(t) - y * Math.sin(t), about[1] + x * Math.sin(t) + y * Math.cos(t)];
 }
-const rect = (x0: number, y0: number, x1: number, y1: number): XY[] => [[x0, y0], [x1, y0], [x1, y1], [x0, y1]];
+const rect = (x0: number, y0: number, x1: number, y1: number): XY[] => [
+  [x0, y0],
+  [x1, y0],
+  [x1, y1],
+  [x0, y1],
+];
 const pit = rect(0, 0, 10, 6);
 
 describe('local projection (WGS84 radii of curvature; any geodesy text)', () => {
@@ -50,7 +55,10 @@ describe('offset, width and length (docs/calculation.md, "Loads"; hand-worked ca
 
   it.each([30, 72.5, 135, 200])('the same case rotated by %f° gives the same answers', (deg) => {
     const got = placeFootprint(
-      prepareRing(pit.map((p) => rotate(p, deg)), 'pit'),
+      prepareRing(
+        pit.map((p) => rotate(p, deg)),
+        'pit',
+      ),
       rect(4, 8, 6, 9).map((p) => rotate(p, deg)),
     );
     expect(got.offset).toBeCloseTo(2, 9);
@@ -60,7 +68,9 @@ describe('offset, width and length (docs/calculation.md, "Loads"; hand-worked ca
 
   it('a unit square turned 45° with its corner 1.5 m from the edge: offset 1.5, B = L = √2', () => {
     const c: XY = [5, 6 + 1.5 + Math.SQRT1_2];
-    const foot = rect(-0.5, -0.5, 0.5, 0.5).map((p) => rotate(p, 45)).map((p): XY => [p[0] + c[0], p[1] + c[1]]);
+    const foot = rect(-0.5, -0.5, 0.5, 0.5)
+      .map((p) => rotate(p, 45))
+      .map((p): XY => [p[0] + c[0], p[1] + c[1]]);
     const got = placeFootprint(prepareRing(pit, 'pit'), foot);
     expect(got.offset).toBeCloseTo(1.5, 9);
     expect(got.width).toBeCloseTo(Math.SQRT2, 9);
@@ -69,7 +79,10 @@ describe('offset, width and length (docs/calculation.md, "Loads"; hand-worked ca
 
   it('a footprint by a trench 1.2 m wide along a 60° centre line: offset 2 − 0.6 = 1.4, B 1, L 2', () => {
     const ring = trenchRing([rotate([0, 0], 60), rotate([20, 0], 60)], 1.2);
-    const got = placeFootprint(prepareRing(ring, 'trench'), rect(5, 2, 7, 3).map((p) => rotate(p, 60)));
+    const got = placeFootprint(
+      prepareRing(ring, 'trench'),
+      rect(5, 2, 7, 3).map((p) => rotate(p, 60)),
+    );
     expect(got.offset).toBeCloseTo(1.4, 9);
     expect(got.width).toBeCloseTo(1, 9);
     expect(got.length).toBeCloseTo(2, 9);
@@ -90,7 +103,10 @@ describe('offset, width and length (docs/calculation.md, "Loads"; hand-worked ca
 
   it('from GeoJSON: a footprint 3 m north of a trench, 1 m wide, measures 2.5 m to within a millimetre', () => {
     const ll = (p: readonly number[]) => proj.toWgs84(p);
-    const trench = prepareExcavation({ kind: 'trench', centreLine: { type: 'LineString', coordinates: [ll([-10, 0]), ll([10, 0])] }, width: 1 }, proj);
+    const trench = prepareExcavation(
+      { kind: 'trench', centreLine: { type: 'LineString', coordinates: [ll([-10, 0]), ll([10, 0])] }, width: 1 },
+      proj,
+    );
     const foot: Polygon = { type: 'Polygon', coordinates: [[...rect(-1, 3, 1, 4), [-1, 3]].map(ll)] };
     const got = measureLoad(trench, { kind: 'polygon', footprint: foot }, proj);
     expect(got.offset).toBeCloseTo(2.5, 3);
@@ -120,11 +136,27 @@ describe('overlap is rejected (docs/calculation.md, "Loads")', () => {
 
 describe('trench outlines', () => {
   it('a 90° bend is mitred: 10 m + 10 m legs 2 m wide enclose 40 m² (hand calculation)', () => {
-    const ring = trenchRing([[0, 0], [10, 0], [10, 10]], 2);
+    const ring = trenchRing(
+      [
+        [0, 0],
+        [10, 0],
+        [10, 10],
+      ],
+      2,
+    );
     expect(Math.abs(signedArea(ring))).toBeCloseTo(40, 6);
   });
   it('a bend sharper than 135° is refused', () => {
-    expect(() => trenchRing([[0, 0], [10, 0], [0, 1]], 1)).toThrow(/split it into separate trenches/);
+    expect(() =>
+      trenchRing(
+        [
+          [0, 0],
+          [10, 0],
+          [0, 1],
+        ],
+        1,
+      ),
+    ).toThrow(/split it into separate trenches/);
   });
 });
 
@@ -155,14 +187,34 @@ describe('zones (docs/calculation.md, "Standoff")', () => {
     expect(at([-2.999, 3])).toBe(true);
     expect(at(diag(2.999))).toBe(true);
     expect(at([5, 9.05])).toBe(false);
-    const L = prepareRing([[0, 0], [10, 0], [10, 4], [4, 4], [4, 10], [0, 10]], 'pit');
+    const L = prepareRing(
+      [
+        [0, 0],
+        [10, 0],
+        [10, 4],
+        [4, 4],
+        [4, 10],
+        [0, 10],
+      ],
+      'pit',
+    );
     const concave = influenceZone(L, 2, eq);
     expect(booleanPointInPolygon(turfPoint(eq.toWgs84([2, 11.999])), concave)).toBe(true);
     expect(booleanPointInPolygon(turfPoint(eq.toWgs84([2, 12.05])), concave)).toBe(false);
   });
 
   it('an L-shaped pit gets one zone that fills its inner corner', () => {
-    const L = prepareRing([[0, 0], [10, 0], [10, 4], [4, 4], [4, 10], [0, 10]], 'pit');
+    const L = prepareRing(
+      [
+        [0, 0],
+        [10, 0],
+        [10, 4],
+        [4, 4],
+        [4, 10],
+        [0, 10],
+      ],
+      'pit',
+    );
     const zone = influenceZone(L, 2, proj);
     expect(zone.type).toBe('Polygon');
     expect(inside(zone, [7, 7])).toBe(false); // 3 m from both inner edges

@@ -9,10 +9,28 @@ import { placeFootprint, placePad, type Placement } from './placement';
 import type { LocalProjection, LonLat } from './projection';
 
 export { localProjection, type LocalProjection, type LonLat, type XY } from './projection';
-export { GeometryError, excavationOutline, trenchRing, prepareRing, type ExcavationShape, type FootprintShape, type PreparedOutline } from './outline';
+export {
+  GeometryError,
+  excavationOutline,
+  trenchRing,
+  prepareRing,
+  type ExcavationShape,
+  type FootprintShape,
+  type PreparedOutline,
+} from './outline';
 export { placeFootprint, placePad, type Placement } from './placement';
 export { influenceZone, exclusionZone, zonePolygon, stepsFor, ARC_STEPS } from './zones';
-export { boundsGap, boundsOf, distanceToRing, signedDistanceToRing, signedDistanceToZone, signedArea, pointInRing, type Ring, type Bounds } from './planar';
+export {
+  boundsGap,
+  boundsOf,
+  distanceToRing,
+  signedDistanceToRing,
+  signedDistanceToZone,
+  signedArea,
+  pointInRing,
+  type Ring,
+  type Bounds,
+} from './planar';
 
 /** Pad side of a point load when none is given (m), as in the engine. */
 export const DEFAULT_PAD_SIDE = 0.3;

@@ -11,13 +11,10 @@ export class GeometryError extends Error {
   override name = 'GeometryError';
 }
 
-export type ExcavationShape =
-  | { kind: 'trench'; centreLine: LineString; width: number }
-  | { kind: 'pit'; outline: Polygon };
+export type ExcavationShape = { kind: 'trench'; centreLine: LineString; width: number } | { kind: 'pit'; outline: Polygon };
 
 export type FootprintShape =
-  | { kind: 'polygon'; footprint: Polygon }
-  | { kind: 'point'; position: Point; padWidth?: number; padLength?: number };
+  { kind: 'polygon'; footprint: Polygon } | { kind: 'point'; position: Point; padWidth?: number; padLength?: number };
 
 export interface PreparedOutline {
   /** Anticlockwise ring in site-local metres. */
@@ -29,7 +26,8 @@ export interface PreparedOutline {
 export const MAX_TRENCH_TURN = 135;
 
 function checkSimple(ring: Ring, what: string): void {
-  if (ring.length < 3 || Math.abs(signedArea(ring)) < 1e-6) throw new GeometryError(`${what} must enclose an area (at least three distinct corners)`);
+  if (ring.length < 3 || Math.abs(signedArea(ring)) < 1e-6)
+    throw new GeometryError(`${what} must enclose an area (at least three distinct corners)`);
   const n = ring.length;
   for (let i = 0; i < n; i++) {
     for (let k = i + 2; k < n; k++) {
@@ -66,7 +64,9 @@ export function trenchRing(centre: XY[], width: number): Ring {
     const dot = n1[0] * n2[0] + n1[1] * n2[1];
     const turn = (Math.acos(Math.max(-1, Math.min(1, dot))) * 180) / Math.PI;
     if (turn > MAX_TRENCH_TURN) {
-      throw new GeometryError(`trench centre line turns by ${turn.toFixed(0)}° at point ${i}: at most ${MAX_TRENCH_TURN}°; split it into separate trenches`);
+      throw new GeometryError(
+        `trench centre line turns by ${turn.toFixed(0)}° at point ${i}: at most ${MAX_TRENCH_TURN}°; split it into separate trenches`,
+      );
     }
     // The mitre point of both offset lines lies along n1 + n2 at h/cos(turn/2) = h·2/|n1 + n2|²·|n1 + n2|.
     const k = h / (1 + dot);
@@ -79,9 +79,14 @@ export function trenchRing(centre: XY[], width: number): Ring {
 
 export function excavationOutline(shape: ExcavationShape, proj: LocalProjection): PreparedOutline {
   if (shape.kind === 'trench') {
-    return prepareRing(trenchRing(shape.centreLine.coordinates.map((c) => proj.toLocal(c)), shape.width), 'trench outline');
+    return prepareRing(
+      trenchRing(
+        shape.centreLine.coordinates.map((c) => proj.toLocal(c)),
+        shape.width,
+      ),
+      'trench outline',
+    );
   }
   if (shape.outline.coordinates.length !== 1) throw new GeometryError('pit outline must be one ring without holes');
   return prepareRing(openRing(shape.outline.coordinates[0].map((c) => proj.toLocal(c))), 'pit outline');
 }
-

@@ -49,7 +49,9 @@ export function segmentsMeet(a: XY, b: XY, c: XY, d: XY): boolean {
   const o3 = orient(c, d, a);
   const o4 = orient(c, d, b);
   if (((o1 > 0 && o2 < 0) || (o1 < 0 && o2 > 0)) && ((o3 > 0 && o4 < 0) || (o3 < 0 && o4 > 0))) return true;
-  return pointSegment(c, a, b)[0] === 0 || pointSegment(d, a, b)[0] === 0 || pointSegment(a, c, d)[0] === 0 || pointSegment(b, c, d)[0] === 0;
+  return (
+    pointSegment(c, a, b)[0] === 0 || pointSegment(d, a, b)[0] === 0 || pointSegment(a, c, d)[0] === 0 || pointSegment(b, c, d)[0] === 0
+  );
 }
 
 /** Even-odd point in ring (points on the boundary may go either way; callers test distance first). */

@@ -45,7 +45,10 @@ export function shapesOf(v: ShapeInput, site: SiteOrigin): Shapes {
   try {
     const prepared = excavationOutline(shapeOf(v), proj);
     const ring = prepared.ring.map((p) => proj.toWgs84(p));
-    return { outline: { type: 'Polygon', coordinates: [[...ring, ring[0]]] }, influenceZone: influenceZone(prepared, v.depth, proj, SITE_TOLERANCE) };
+    return {
+      outline: { type: 'Polygon', coordinates: [[...ring, ring[0]]] },
+      influenceZone: influenceZone(prepared, v.depth, proj, SITE_TOLERANCE),
+    };
   } catch (e) {
     if (e instanceof GeometryError) return { outline: null, influenceZone: null };
     throw e;
@@ -54,5 +57,8 @@ export function shapesOf(v: ShapeInput, site: SiteOrigin): Shapes {
 
 /** The stored columns of the shapes (jsonb as text). */
 export function shapeColumns(s: Shapes): { outline: string | null; influence_zone: string | null } {
-  return { outline: s.outline ? JSON.stringify(s.outline) : null, influence_zone: s.influenceZone ? JSON.stringify(s.influenceZone) : null };
+  return {
+    outline: s.outline ? JSON.stringify(s.outline) : null,
+    influence_zone: s.influenceZone ? JSON.stringify(s.influenceZone) : null,
+  };
 }

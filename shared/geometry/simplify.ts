@@ -51,7 +51,10 @@ type Position = [number, number];
 export function simplifyLine(coords: readonly Position[], tolerance = SITE_TOLERANCE): Position[] {
   if (coords.length <= 2) return coords.map((c) => [c[0], c[1]]);
   const proj = localProjection([coords[0][0], coords[0][1]]);
-  return keep(coords.map((c) => proj.toLocal(c)), tolerance).map((i) => [coords[i][0], coords[i][1]]);
+  return keep(
+    coords.map((c) => proj.toLocal(c)),
+    tolerance,
+  ).map((i) => [coords[i][0], coords[i][1]]);
 }
 
 /**
@@ -64,7 +67,8 @@ export function simplifyRing(coords: readonly Position[], tolerance = SITE_TOLER
   const proj = localProjection([open[0][0], open[0][1]]);
   const pts = open.map((c) => proj.toLocal(c));
   let far = 1;
-  for (let i = 1; i < pts.length; i++) if (Math.hypot(pts[i][0] - pts[0][0], pts[i][1] - pts[0][1]) > Math.hypot(pts[far][0] - pts[0][0], pts[far][1] - pts[0][1])) far = i;
+  for (let i = 1; i < pts.length; i++)
+    if (Math.hypot(pts[i][0] - pts[0][0], pts[i][1] - pts[0][1]) > Math.hypot(pts[far][0] - pts[0][0], pts[far][1] - pts[0][1])) far = i;
   const first = keep(pts.slice(0, far + 1), tolerance);
   const second = keep([...pts.slice(far), pts[0]], tolerance).map((i) => i + far);
   const idx = [...first, ...second.slice(1, -1)];

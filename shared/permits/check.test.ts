@@ -4,7 +4,15 @@ import { localProjection } from '../geometry';
 import { CheckInputError, cumulativeCheck, elementCorners, groupStandoff, windowsOverlap } from './check';
 
 const base: Omit<CheckRequest, 'loads'> = {
-  excavation: { depth: 3, groundwaterDepth: null, designSurcharge: 10, ratedPressure: null, pressureState: 'active', wallFriction: 0, restraint: 'unyielding' },
+  excavation: {
+    depth: 3,
+    groundwaterDepth: null,
+    designSurcharge: 10,
+    ratedPressure: null,
+    pressureState: 'active',
+    wallFriction: 0,
+    restraint: 'unyielding',
+  },
   soil: [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 0 }],
   method: 'dispersion-45',
   minimumClearance: 0.6,
@@ -73,7 +81,13 @@ describe('an open excavation the permit does not name', () => {
   // Two pits 3 m deep in the same ground, 20 m apart east–west, in site-local metres.
   const proj = localProjection([-1.04833, 52.37124]);
   const square = (x0: number, y0: number, w: number): [number, number][] => {
-    const pts: [number, number][] = [[x0, y0], [x0 + w, y0], [x0 + w, y0 + w], [x0, y0 + w], [x0, y0]];
+    const pts: [number, number][] = [
+      [x0, y0],
+      [x0 + w, y0],
+      [x0 + w, y0 + w],
+      [x0, y0 + w],
+      [x0, y0],
+    ];
     return pts.map((p) => proj.toWgs84(p) as [number, number]);
   };
   const pit = (id: number, reference: string, x0: number) => ({
@@ -135,7 +149,10 @@ describe('an open excavation the permit does not name', () => {
   });
 
   it('refuses figures the shared schemas refuse, naming the field, instead of giving a verdict (docs/calculation.md, "Refusals")', () => {
-    const withHeap = (heap: Record<string, unknown>) => ({ ...input(22), permit: { ...input(22).permit, loads: [{ ...stockpileAt(22), ...heap }] } });
+    const withHeap = (heap: Record<string, unknown>) => ({
+      ...input(22),
+      permit: { ...input(22).permit, loads: [{ ...stockpileAt(22), ...heap }] },
+    });
     const refusal = (f: () => unknown) => {
       try {
         f();
@@ -147,8 +164,14 @@ describe('an open excavation the permit does not name', () => {
     expect(refusal(() => cumulativeCheck(withHeap({ unitWeight: -19 })))).toBe('loads[0].unitWeight must be more than 0 kN/m³');
     expect(refusal(() => cumulativeCheck(withHeap({ height: NaN })))).toMatch(/^loads\[0\]\.height /);
     // An excavation whose figures the calculation refuses: at rest with an undrained layer.
-    const atRest = { ...named, excavation: { ...named.excavation, pressureState: 'at-rest' as const }, soil: [{ top: 0, unitWeight: 18, undrainedShearStrength: 40 }] };
-    expect(refusal(() => cumulativeCheck({ ...input(22), excavations: [atRest] }))).toMatch(/^PIT-A soil\[0\]\.undrainedShearStrength .*at rest needs φ′/);
+    const atRest = {
+      ...named,
+      excavation: { ...named.excavation, pressureState: 'at-rest' as const },
+      soil: [{ top: 0, unitWeight: 18, undrainedShearStrength: 40 }],
+    };
+    expect(refusal(() => cumulativeCheck({ ...input(22), excavations: [atRest] }))).toMatch(
+      /^PIT-A soil\[0\]\.undrainedShearStrength .*at rest needs φ′/,
+    );
   });
 
   it('is left out when every load stands beyond its influence zone', () => {

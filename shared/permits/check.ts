@@ -54,13 +54,17 @@ import {
 
 /** An excavation of the register as the check needs it: its plan shape and its engine inputs. */
 export function checkExcavationOf(
-  e: Pick<RegisterExcavation, 'id' | 'reference' | 'name' | 'kind' | 'geometry' | 'width' | 'soil'> & CalcFields & { outline?: Polygon | null },
+  e: Pick<RegisterExcavation, 'id' | 'reference' | 'name' | 'kind' | 'geometry' | 'width' | 'soil'> &
+    CalcFields & { outline?: Polygon | null },
 ): CheckExcavation {
   return {
     id: e.id,
     reference: e.reference,
     name: e.name,
-    shape: e.kind === 'trench' ? { kind: 'trench', centreLine: e.geometry as LineString, width: e.width ?? 0 } : { kind: 'pit', outline: e.geometry as Polygon },
+    shape:
+      e.kind === 'trench'
+        ? { kind: 'trench', centreLine: e.geometry as LineString, width: e.width ?? 0 }
+        : { kind: 'pit', outline: e.geometry as Polygon },
     excavation: calcExcavationOf(e),
     soil: e.soil as SoilLayer[],
     groundOutline: e.outline ?? null,
@@ -226,13 +230,35 @@ export function footprintsOf(load: PlacedLoad, plant: Map<number, PlantForCheck>
       }));
     }
     case 'stockpile':
-      return [{ loadId: load.id, label, element: '', kind: 'area', local: ring(load.outline.coordinates[0], proj), intensity: stockpilePressure(load.unitWeight, load.height) }];
+      return [
+        {
+          loadId: load.id,
+          label,
+          element: '',
+          kind: 'area',
+          local: ring(load.outline.coordinates[0], proj),
+          intensity: stockpilePressure(load.unitWeight, load.height),
+        },
+      ];
     case 'area':
-      return [{ loadId: load.id, label, element: '', kind: 'area', local: ring(load.outline.coordinates[0], proj), intensity: load.pressure }];
+      return [
+        { loadId: load.id, label, element: '', kind: 'area', local: ring(load.outline.coordinates[0], proj), intensity: load.pressure },
+      ];
     case 'strip':
-      return [{ loadId: load.id, label, element: '', kind: 'strip', local: ring(load.outline.coordinates[0], proj), intensity: load.pressure }];
+      return [
+        { loadId: load.id, label, element: '', kind: 'strip', local: ring(load.outline.coordinates[0], proj), intensity: load.pressure },
+      ];
     case 'line':
-      return [{ loadId: load.id, label, element: '', kind: 'line', local: load.path.coordinates.map((c) => proj.toLocal(c)), intensity: load.force }];
+      return [
+        {
+          loadId: load.id,
+          label,
+          element: '',
+          kind: 'line',
+          local: load.path.coordinates.map((c) => proj.toLocal(c)),
+          intensity: load.force,
+        },
+      ];
   }
 }
 
@@ -240,7 +266,8 @@ function ring(coords: LngLat[], proj: LocalProjection): XY[] {
   return coords.slice(0, -1).map((c) => proj.toLocal(c));
 }
 
-const TOUCHES = (ref: string) => `touches or overlaps excavation ${ref}: move it clear of the edge (loads are only checked clear of the edge)`;
+const TOUCHES = (ref: string) =>
+  `touches or overlaps excavation ${ref}: move it clear of the edge (loads are only checked clear of the edge)`;
 
 /** Least distance (m) from a path to the outline; throws GeometryError when it meets or enters it. */
 function pathOffset(outline: PreparedOutline, path: XY[]): number {
@@ -266,7 +293,14 @@ export function engineLoad(f: Footprint, outline: PreparedOutline, id: string): 
   if (f.kind === 'line') return { id, kind: 'line', force: f.intensity, offset: round(pathOffset(outline, f.local)) };
   const placed = placeFootprint(outline, prepareRing(f.local, 'load footprint').ring);
   if (f.kind === 'strip') return { id, kind: 'strip', pressure: f.intensity, width: round(placed.width), offset: round(placed.offset) };
-  return { id, kind: 'area', pressure: f.intensity, width: round(placed.width), length: round(placed.length), offset: round(placed.offset) };
+  return {
+    id,
+    kind: 'area',
+    pressure: f.intensity,
+    width: round(placed.width),
+    length: round(placed.length),
+    offset: round(placed.offset),
+  };
 }
 
 /** Do two windows overlap (a shared instant, not merely touching ends)? */
@@ -350,10 +384,16 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
 
   const named = new Set(input.excavations.map((e) => e.id));
   const boxes = own.flatMap(({ feet }) => feet.map((f) => boxOf(f.local)));
-  const reached = (input.nearby ?? []).filter((ex) => !named.has(ex.id) && mayReach(boxes, ex, proj) && reachesInfluenceZone(own, ex, proj));
+  const reached = (input.nearby ?? []).filter(
+    (ex) => !named.has(ex.id) && mayReach(boxes, ex, proj) && reachesInfluenceZone(own, ex, proj),
+  );
   const engine = input.engine ?? { runCheck, groupStandoff };
   for (const ex of reached) {
-    const labels = [...new Set(own.filter(({ feet }) => feet.some((f) => footprintReaches(f, ex, proj))).map(({ feet, load }) => feet[0]?.label ?? load.id))];
+    const labels = [
+      ...new Set(
+        own.filter(({ feet }) => feet.some((f) => footprintReaches(f, ex, proj))).map(({ feet, load }) => feet[0]?.label ?? load.id),
+      ),
+    ];
     warnings.push(
       `${ex.reference} is not named on this permit, but ${labels.join(', ')} ${labels.length === 1 ? 'stands' : 'stand'} within its influence zone: it is checked too. Name it on the permit.`,
     );
@@ -369,12 +409,28 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
         try {
           const el = engineLoad(f, outline, id);
           loads.push(el);
-          meta.push({ engineId: id, permitId: input.permit.id, permitNumber: input.permit.number, loadId: load.id, label: f.label, element: f.element, kind: el.kind, offset: el.offset, own: true });
+          meta.push({
+            engineId: id,
+            permitId: input.permit.id,
+            permitNumber: input.permit.number,
+            loadId: load.id,
+            label: f.label,
+            element: f.element,
+            kind: el.kind,
+            offset: el.offset,
+            own: true,
+          });
           if (el.offset < ex.excavation.depth) outside.delete(load.id);
         } catch (err) {
           if (!(err instanceof GeometryError)) throw err;
           if (!refusals.some((r) => r.loadId === load.id && r.excavationId === ex.id)) {
-            refusals.push({ loadId: load.id, index, excavationId: ex.id, reference: ex.reference, message: `${f.label}${f.element ? ` (${f.element})` : ''} ${TOUCHES(ex.reference)}` });
+            refusals.push({
+              loadId: load.id,
+              index,
+              excavationId: ex.id,
+              reference: ex.reference,
+              message: `${f.label}${f.element ? ` (${f.element})` : ''} ${TOUCHES(ex.reference)}`,
+            });
           }
         }
       }
@@ -396,7 +452,17 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
           try {
             const el = engineLoad(f, outline, id);
             loads.push(el);
-            meta.push({ engineId: id, permitId: o.id, permitNumber: o.number, loadId: load.id, label: f.label, element: f.element, kind: el.kind, offset: el.offset, own: false });
+            meta.push({
+              engineId: id,
+              permitId: o.id,
+              permitNumber: o.number,
+              loadId: load.id,
+              label: f.label,
+              element: f.element,
+              kind: el.kind,
+              offset: el.offset,
+              own: false,
+            });
           } catch (err) {
             if (!(err instanceof GeometryError)) throw err;
             warnings.push(`permit ${o.number}: ${f.label} ${TOUCHES(ex.reference)}`);
@@ -424,11 +490,22 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
       } else if (input.standoffs === false) {
         answer = { standoff: null, failingBands: [] };
       } else {
-        const group = engine.groupStandoff(base, parts.map((i) => loads[i] as Exclude<Load, { kind: 'blanket' }>));
+        const group = engine.groupStandoff(
+          base,
+          parts.map((i) => loads[i] as Exclude<Load, { kind: 'blanket' }>),
+        );
         if (!group.monotonic) result.warnings.push(notMonotonicWarning(label, group));
         answer = group;
       }
-      return [{ loadId: load.id, label, standoff: answer.standoff, failingBands: answer.failingBands, offset: Math.min(...parts.map((i) => checked[i].offset)) }];
+      return [
+        {
+          loadId: load.id,
+          label,
+          standoff: answer.standoff,
+          failingBands: answer.failingBands,
+          offset: Math.min(...parts.map((i) => checked[i].offset)),
+        },
+      ];
     });
     const standoff = maxOrNull(loadStandoffs.map((l) => l.standoff));
     excavations.push({

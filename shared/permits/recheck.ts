@@ -19,19 +19,25 @@ function listed(parts: string[]): string {
 /** The changed check inputs, e.g. "TR-3 deepened from 2.5 m to 3.2 m and support changed from Trench box to Sheet piles". */
 export function describeExcavationChange(reference: string, before: CheckInputs, after: CheckInputs): string {
   const parts: string[] = [];
-  if (before.depth !== after.depth) parts.push(`${after.depth > before.depth ? 'deepened' : 'made shallower'} from ${m(before.depth)} to ${m(after.depth)}`);
+  if (before.depth !== after.depth)
+    parts.push(`${after.depth > before.depth ? 'deepened' : 'made shallower'} from ${m(before.depth)} to ${m(after.depth)}`);
   if (before.kind !== after.kind) parts.push(`changed from a ${before.kind} to a ${after.kind}`);
   else if (before.width !== null && after.width !== null && before.width !== after.width) {
     parts.push(`${after.width > before.width ? 'widened' : 'narrowed'} from ${m(before.width)} to ${m(after.width)}`);
   }
   if (canonical(before.geometry) !== canonical(after.geometry)) parts.push('redrawn on the plan');
   if (before.state !== after.state) parts.push(`set from ${stateLabels[before.state]} to ${stateLabels[after.state]}`);
-  if (before.supportType !== after.supportType) parts.push(`support changed from ${supportLabels[before.supportType]} to ${supportLabels[after.supportType]}`);
-  if (before.designSurcharge !== after.designSurcharge) parts.push(`design surcharge changed from ${kPa(before.designSurcharge)} to ${kPa(after.designSurcharge)}`);
-  if (before.ratedPressure !== after.ratedPressure) parts.push(`rated pressure changed from ${kPa(before.ratedPressure)} to ${kPa(after.ratedPressure)}`);
+  if (before.supportType !== after.supportType)
+    parts.push(`support changed from ${supportLabels[before.supportType]} to ${supportLabels[after.supportType]}`);
+  if (before.designSurcharge !== after.designSurcharge)
+    parts.push(`design surcharge changed from ${kPa(before.designSurcharge)} to ${kPa(after.designSurcharge)}`);
+  if (before.ratedPressure !== after.ratedPressure)
+    parts.push(`rated pressure changed from ${kPa(before.ratedPressure)} to ${kPa(after.ratedPressure)}`);
   if (before.restraint !== after.restraint) parts.push(`restraint changed from ${before.restraint} to ${after.restraint}`);
-  if (before.pressureState !== after.pressureState) parts.push(`pressure state changed from ${before.pressureState.replace('-', ' ')} to ${after.pressureState.replace('-', ' ')}`);
-  if (before.wallFriction !== after.wallFriction) parts.push(`wall friction changed from ${before.wallFriction}° to ${after.wallFriction}°`);
+  if (before.pressureState !== after.pressureState)
+    parts.push(`pressure state changed from ${before.pressureState.replace('-', ' ')} to ${after.pressureState.replace('-', ' ')}`);
+  if (before.wallFriction !== after.wallFriction)
+    parts.push(`wall friction changed from ${before.wallFriction}° to ${after.wallFriction}°`);
   if (canonical(before.soil) !== canonical(after.soil)) parts.push('soil layers changed');
   if (before.groundwaterDepth !== after.groundwaterDepth) {
     const gw = (x: number | null) => (x === null ? 'none' : `${m(x)} down`);
@@ -63,10 +69,17 @@ function acceptedStandoff(d: PermitDecision): number | null {
  *   any more where one did;
  * - worse when a load can no longer be checked (it touches or overlaps the excavation: `refusal`).
  */
-export function judgeRecheck(o: { check: PermitCheck | null; refusal?: string; previous: PermitCheck | null; decision: PermitDecision | null }): RecheckJudgement {
+export function judgeRecheck(o: {
+  check: PermitCheck | null;
+  refusal?: string;
+  previous: PermitCheck | null;
+  decision: PermitDecision | null;
+}): RecheckJudgement {
   if (!o.check) return { worse: true, figures: o.refusal ?? 'its loads can no longer be checked' };
   const c = o.check;
-  const parts: string[] = [c.utilisation === null ? 'the support has no allowance for these loads' : `utilisation ${c.utilisation.toFixed(2)}`];
+  const parts: string[] = [
+    c.utilisation === null ? 'the support has no allowance for these loads' : `utilisation ${c.utilisation.toFixed(2)}`,
+  ];
   const prev = o.previous;
   const rose = prev === null || prev.utilisation === null ? false : c.utilisation === null || c.utilisation > prev.utilisation + 0.005;
   let worse = !c.passes && (prev === null || prev.passes || rose);

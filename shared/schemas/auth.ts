@@ -37,12 +37,23 @@ export const acceptInvitationSchema = z.object({
 export const membershipAnswer = z.object({ siteId: z.number().int(), siteName: z.string(), role: siteRoleSchema, canInspect: z.boolean() });
 export type Membership = z.infer<typeof membershipAnswer>;
 
-export const meAnswer = z.object({ id: z.number().int(), email: z.string(), name: z.string(), isAdmin: z.boolean(), memberships: z.array(membershipAnswer) });
+export const meAnswer = z.object({
+  id: z.number().int(),
+  email: z.string(),
+  name: z.string(),
+  isAdmin: z.boolean(),
+  memberships: z.array(membershipAnswer),
+});
 export type Me = z.infer<typeof meAnswer>;
 
 // Answers of the sign-in and invitation routes (server/src/routes/auth.ts).
 /** Signed in (sign-in, who-am-I, an accepted invitation): the person with their site roles. */
 export const signedInAnswer = z.object({ user: meAnswer });
 export const messageAnswer = z.object({ message: z.string() });
-export const invitationOfferAnswer = z.object({ email: z.string(), name: z.string(), siteName: z.string().nullable(), role: siteRoleSchema.nullable() });
+export const invitationOfferAnswer = z.object({
+  email: z.string(),
+  name: z.string(),
+  siteName: z.string().nullable(),
+  role: siteRoleSchema.nullable(),
+});
 export type InvitationOffer = z.infer<typeof invitationOfferAnswer>;

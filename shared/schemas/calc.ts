@@ -46,7 +46,8 @@ export const BOUNDS = {
 } as const;
 
 const withUnit = (n: number, unit: string) => (unit === '°' ? `${n}°` : `${n.toLocaleString('en-GB')} ${unit}`);
-const bound = (unit: string) => (unit === 'kPa' ? BOUNDS.pressure : unit === 'kN' || unit === 'kN/m' ? BOUNDS.force : unit === 'm' ? BOUNDS.length : Infinity);
+const bound = (unit: string) =>
+  unit === 'kPa' ? BOUNDS.pressure : unit === 'kN' || unit === 'kN/m' ? BOUNDS.force : unit === 'm' ? BOUNDS.length : Infinity;
 const capped = (schema: z.ZodNumber, unit: string) => {
   const max = bound(unit);
   return max === Infinity ? schema : schema.max(max, `must be at most ${withUnit(max, unit)}`);
@@ -56,8 +57,7 @@ const atLeastZero = (unit: string) => capped(num().min(0, `must be at least ${wi
 
 function choice<const T extends readonly [string, ...string[]]>(values: T) {
   return z.enum(values, {
-    error: (iss) =>
-      iss.input === undefined ? 'is required' : `must be one of ${values.join(', ')} (got ${describe(iss.input)})`,
+    error: (iss) => (iss.input === undefined ? 'is required' : `must be one of ${values.join(', ')} (got ${describe(iss.input)})`),
   });
 }
 
@@ -66,28 +66,37 @@ export const MAX_DEPTH = 50;
 export const STEP_RANGE = [0.005, 0.5] as const;
 const FRICTION_MESSAGE = 'must be greater than 0° and at most 60°';
 
-export const excavationSchema = z.strictObject({
-  depth: positive('m').max(MAX_DEPTH, `must be at most ${MAX_DEPTH} m`),
-  groundwaterDepth: atLeastZero('m').nullable().default(null),
-  designSurcharge: atLeastZero('kPa'),
-  ratedPressure: positive('kPa').nullable().default(null),
-  pressureState: choice(['active', 'at-rest']).default('active'),
-  wallFriction: atLeastZero('°').max(60, 'must be at most 60°').default(0),
-  restraint: choice(['unyielding', 'yielding']).default('unyielding'),
-}, objectError('an excavation object'));
+export const excavationSchema = z.strictObject(
+  {
+    depth: positive('m').max(MAX_DEPTH, `must be at most ${MAX_DEPTH} m`),
+    groundwaterDepth: atLeastZero('m').nullable().default(null),
+    designSurcharge: atLeastZero('kPa'),
+    ratedPressure: positive('kPa').nullable().default(null),
+    pressureState: choice(['active', 'at-rest']).default('active'),
+    wallFriction: atLeastZero('°').max(60, 'must be at most 60°').default(0),
+    restraint: choice(['unyielding', 'yielding']).default('unyielding'),
+  },
+  objectError('an excavation object'),
+);
 
 export const soilLayerSchema = z
-  .strictObject({
-    top: atLeastZero('m'),
-    unitWeight: positive('kN/m³').max(BOUNDS.unitWeight, `must be at most ${BOUNDS.unitWeight} kN/m³`),
-    saturatedUnitWeight: num()
-      .min(GAMMA_WATER, `must be at least the unit weight of water, ${GAMMA_WATER} kN/m³ (a lighter soil would have negative effective stress)`)
-      .max(BOUNDS.unitWeight, `must be at most ${BOUNDS.unitWeight} kN/m³`)
-      .optional(),
-    frictionAngle: num().gt(0, FRICTION_MESSAGE).max(60, FRICTION_MESSAGE).optional(),
-    cohesion: atLeastZero('kPa').optional(),
-    undrainedShearStrength: positive('kPa').optional(),
-  }, objectError('a soil layer object'))
+  .strictObject(
+    {
+      top: atLeastZero('m'),
+      unitWeight: positive('kN/m³').max(BOUNDS.unitWeight, `must be at most ${BOUNDS.unitWeight} kN/m³`),
+      saturatedUnitWeight: num()
+        .min(
+          GAMMA_WATER,
+          `must be at least the unit weight of water, ${GAMMA_WATER} kN/m³ (a lighter soil would have negative effective stress)`,
+        )
+        .max(BOUNDS.unitWeight, `must be at most ${BOUNDS.unitWeight} kN/m³`)
+        .optional(),
+      frictionAngle: num().gt(0, FRICTION_MESSAGE).max(60, FRICTION_MESSAGE).optional(),
+      cohesion: atLeastZero('kPa').optional(),
+      undrainedShearStrength: positive('kPa').optional(),
+    },
+    objectError('a soil layer object'),
+  )
   .superRefine((layer, ctx) => {
     const drained = layer.frictionAngle !== undefined;
     const undrained = layer.undrainedShearStrength !== undefined;
@@ -109,7 +118,9 @@ export const soilLayerSchema = z
       });
     }
   })
-  .transform(({ cohesion, ...layer }): typeof layer & { cohesion?: number } => (layer.frictionAngle !== undefined ? { ...layer, cohesion: cohesion ?? 0 } : layer));
+  .transform(({ cohesion, ...layer }): typeof layer & { cohesion?: number } =>
+    layer.frictionAngle !== undefined ? { ...layer, cohesion: cohesion ?? 0 } : layer,
+  );
 
 const id = z
   .string({ error: (iss) => (iss.input === undefined ? 'is required' : `must be text, not ${describe(iss.input)}`) })
@@ -153,22 +164,29 @@ export const loadSchema = z.discriminatedUnion(
 );
 
 export const calcRequestSchema = z
-  .strictObject({
-    excavation: excavationSchema,
-    soil: z.array(soilLayerSchema, objectError('a list of soil layers')).min(1, 'must list at least one layer'),
-    method: choice(['dispersion-45', 'elastic']),
-    minimumClearance: num().min(0, 'must be at least 0 m').max(10, 'must be at most 10 m').default(0.6),
-    step: num()
-      .min(STEP_RANGE[0], `must be at least ${STEP_RANGE[0]} m`)
-      .max(STEP_RANGE[1], `must be at most ${STEP_RANGE[1]} m`)
-      .default(0.05),
-    loads: z.array(loadSchema, objectError('a list of loads')),
-  }, objectError('a request object'))
+  .strictObject(
+    {
+      excavation: excavationSchema,
+      soil: z.array(soilLayerSchema, objectError('a list of soil layers')).min(1, 'must list at least one layer'),
+      method: choice(['dispersion-45', 'elastic']),
+      minimumClearance: num().min(0, 'must be at least 0 m').max(10, 'must be at most 10 m').default(0.6),
+      step: num()
+        .min(STEP_RANGE[0], `must be at least ${STEP_RANGE[0]} m`)
+        .max(STEP_RANGE[1], `must be at most ${STEP_RANGE[1]} m`)
+        .default(0.05),
+      loads: z.array(loadSchema, objectError('a list of loads')),
+    },
+    objectError('a request object'),
+  )
   .superRefine((req, ctx) => {
     const tops = req.soil.map((l) => l.top);
     const shallowest = tops.indexOf(Math.min(...tops));
     if (tops.length > 0 && tops[shallowest] !== 0) {
-      ctx.addIssue({ code: 'custom', path: ['soil', shallowest, 'top'], message: 'the shallowest layer must start at ground level (top 0 m)' });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['soil', shallowest, 'top'],
+        message: 'the shallowest layer must start at ground level (top 0 m)',
+      });
     }
     tops.forEach((t, i) => {
       const first = tops.indexOf(t);
@@ -205,7 +223,8 @@ export const calcRequestSchema = z
     const ids = req.loads.map((l) => l.id);
     ids.forEach((v, i) => {
       const first = ids.indexOf(v);
-      if (first !== i) ctx.addIssue({ code: 'custom', path: ['loads', i, 'id'], message: `repeats the id of loads[${first}] (${JSON.stringify(v)})` });
+      if (first !== i)
+        ctx.addIssue({ code: 'custom', path: ['loads', i, 'id'], message: `repeats the id of loads[${first}] (${JSON.stringify(v)})` });
     });
   });
 

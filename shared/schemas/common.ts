@@ -15,12 +15,16 @@ export const roleLabels: Record<SiteRole, string> = {
 };
 
 /** A record id: a positive whole number that fits PostgreSQL's integer (ids of 2³¹ and above are refused with 400, not 500). */
-export const idSchema = z.coerce.number({ error: 'must be a record id (a whole number)' }).int('must be a record id (a whole number)').positive('must be a record id (a whole number)').max(2147483647, 'must be a record id (a whole number below 2³¹)');
-export const emailSchema = z.email('must be an e-mail address').max(254).transform((s) => s.trim().toLowerCase());
-export const passwordSchema = z
-  .string()
-  .min(10, 'must be at least 10 characters')
-  .max(200, 'must be at most 200 characters');
+export const idSchema = z.coerce
+  .number({ error: 'must be a record id (a whole number)' })
+  .int('must be a record id (a whole number)')
+  .positive('must be a record id (a whole number)')
+  .max(2147483647, 'must be a record id (a whole number below 2³¹)');
+export const emailSchema = z
+  .email('must be an e-mail address')
+  .max(254)
+  .transform((s) => s.trim().toLowerCase());
+export const passwordSchema = z.string().min(10, 'must be at least 10 characters').max(200, 'must be at most 200 characters');
 export const nameSchema = z.string().trim().min(1, 'is required').max(120, 'must be at most 120 characters');
 
 /** The JSON body of every error answer of the API. */

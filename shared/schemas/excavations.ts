@@ -44,7 +44,10 @@ export const DEFAULT_DESIGN_SURCHARGE = 10;
 
 const listOf = (what: string) => `must be ${what}`;
 const coordinate = (lo: number, hi: number, what: string) =>
-  z.number({ error: `must be a number (${what})` }).min(lo, `must be a ${what} between ${lo} and ${hi}`).max(hi, `must be a ${what} between ${lo} and ${hi}`);
+  z
+    .number({ error: `must be a number (${what})` })
+    .min(lo, `must be a ${what} between ${lo} and ${hi}`)
+    .max(hi, `must be a ${what} between ${lo} and ${hi}`);
 
 /** A GeoJSON position [longitude, latitude] (an altitude, if given, is dropped). */
 export const positionSchema = z
@@ -56,7 +59,10 @@ export const positionSchema = z
 
 export const lineStringSchema = z.object({
   type: z.literal('LineString'),
-  coordinates: z.array(positionSchema, { error: listOf('a list of positions') }).min(2, 'a trench centre line needs at least two points').max(500, 'must have at most 500 points'),
+  coordinates: z
+    .array(positionSchema, { error: listOf('a list of positions') })
+    .min(2, 'a trench centre line needs at least two points')
+    .max(500, 'must have at most 500 points'),
 });
 
 const samePosition = (a: number[], b: number[]) => a[0] === b[0] && a[1] === b[1];
@@ -87,7 +93,8 @@ export const MAX_OUTLINE_POINTS = 200;
 export const MAX_IMPORT_POINTS = 2000;
 
 /** Points of a geometry as stored (a ring's closing point not counted). */
-export const pointCount = (g: LineString | Polygon): number => (g.type === 'LineString' ? g.coordinates.length : g.coordinates[0].length - 1);
+export const pointCount = (g: LineString | Polygon): number =>
+  g.type === 'LineString' ? g.coordinates.length : g.coordinates[0].length - 1;
 
 /**
  * A trench centre line or a pit outline, valid GeoJSON, simplified to the site tolerance, within
@@ -104,7 +111,9 @@ export const geometrySchema = z
   })
   .transform((g, ctx): LineString | Polygon => {
     const simple: LineString | Polygon =
-      g.type === 'LineString' ? { type: 'LineString', coordinates: simplifyLine(g.coordinates) } : { type: 'Polygon', coordinates: [simplifyRing(g.coordinates[0])] };
+      g.type === 'LineString'
+        ? { type: 'LineString', coordinates: simplifyLine(g.coordinates) }
+        : { type: 'Polygon', coordinates: [simplifyRing(g.coordinates[0])] };
     const n = pointCount(simple);
     if (n > MAX_OUTLINE_POINTS) {
       ctx.addIssue({
@@ -152,7 +161,10 @@ export const excavationFields = {
   restraint: calc.restraint,
   pressureState: calc.pressureState,
   wallFriction: calc.wallFriction,
-  soil: z.array(soilLayerSchema, { error: listOf('a list of soil layers') }).min(1, 'must list at least one layer').max(20, 'must list at most 20 layers'),
+  soil: z
+    .array(soilLayerSchema, { error: listOf('a list of soil layers') })
+    .min(1, 'must list at least one layer')
+    .max(20, 'must list at most 20 layers'),
   groundwaterDepth: calc.groundwaterDepth,
   designReference: z.string().trim().max(200, 'must be at most 200 characters').default(''),
   notes: z.string().max(4000, 'must be at most 4000 characters').default(''),
@@ -180,10 +192,13 @@ type Fields = z.output<z.ZodObject<typeof excavationFields>>;
  */
 function checkRecord(v: Fields, ctx: z.RefinementCtx): void {
   if (v.kind === 'trench') {
-    if (v.geometry.type !== 'LineString') ctx.addIssue({ code: 'custom', path: ['geometry'], message: 'a trench is drawn as its centre line (a LineString)' });
-    if (v.width === null) ctx.addIssue({ code: 'custom', path: ['width'], message: `is required for a trench (${TRENCH_WIDTH.min} to ${TRENCH_WIDTH.max} m)` });
+    if (v.geometry.type !== 'LineString')
+      ctx.addIssue({ code: 'custom', path: ['geometry'], message: 'a trench is drawn as its centre line (a LineString)' });
+    if (v.width === null)
+      ctx.addIssue({ code: 'custom', path: ['width'], message: `is required for a trench (${TRENCH_WIDTH.min} to ${TRENCH_WIDTH.max} m)` });
   } else {
-    if (v.geometry.type !== 'Polygon') ctx.addIssue({ code: 'custom', path: ['geometry'], message: 'a pit is drawn as its outline (a Polygon)' });
+    if (v.geometry.type !== 'Polygon')
+      ctx.addIssue({ code: 'custom', path: ['geometry'], message: 'a pit is drawn as its outline (a Polygon)' });
     if (v.width !== null) ctx.addIssue({ code: 'custom', path: ['width'], message: 'applies to trenches only; leave it empty for a pit' });
   }
   const r = calcRequestSchema.safeParse({ excavation: calcExcavationOf(v), soil: v.soil, method: 'dispersion-45', loads: [] });
@@ -208,7 +223,10 @@ export type ExcavationValues = z.output<typeof excavationInputSchema>;
  */
 type OptionalFields = { [K in keyof Fields]: z.ZodOptional<z.ZodType<Fields[K], ExcavationInput[K]>> };
 const optionalFields = Object.fromEntries(
-  Object.entries(excavationFields).map(([k, s]) => [k, (s instanceof z.ZodDefault ? (s.unwrap() as z.ZodType) : (s as z.ZodType)).optional()]),
+  Object.entries(excavationFields).map(([k, s]) => [
+    k,
+    (s instanceof z.ZodDefault ? (s.unwrap() as z.ZodType) : (s as z.ZodType)).optional(),
+  ]),
 ) as OptionalFields;
 export const excavationUpdateSchema = z.object({
   ...optionalFields,
@@ -255,7 +273,10 @@ export const planBoundsSchema = z
     if (b.east <= b.west) ctx.addIssue({ code: 'custom', path: ['east'], message: 'must be east of the west edge' });
   });
 export type PlanBounds = z.output<typeof planBoundsSchema>;
-export const planOpacitySchema = z.number({ error: 'must be a number from 0 to 1' }).min(0, 'must be from 0 to 1').max(1, 'must be from 0 to 1');
+export const planOpacitySchema = z
+  .number({ error: 'must be a number from 0 to 1' })
+  .min(0, 'must be from 0 to 1')
+  .max(1, 'must be from 0 to 1');
 export const planUpdateSchema = z.object({ bounds: planBoundsSchema.optional(), opacity: planOpacitySchema.optional() });
 
 export const sitePlanAnswer = z.object({
@@ -270,7 +291,9 @@ export const planAnswer = z.object({ plan: sitePlanAnswer.nullable() });
 
 /** What an import did with each feature of the file. */
 export const importReportAnswer = z.object({
-  imported: z.array(z.object({ index: z.number().int(), reference: z.string(), id: z.number().int(), action: z.enum(['created', 'updated']) })),
+  imported: z.array(
+    z.object({ index: z.number().int(), reference: z.string(), id: z.number().int(), action: z.enum(['created', 'updated']) }),
+  ),
   refused: z.array(z.object({ index: z.number().int(), reference: z.string().nullable(), reasons: z.record(z.string(), z.string()) })),
 });
 export type ImportReport = z.output<typeof importReportAnswer>;
@@ -366,6 +389,8 @@ export function designFieldsIn(body: unknown): DesignField[] {
 /** JSON with object keys sorted: PostgreSQL's jsonb keeps its own key order, so values are compared this way. */
 export function canonical(v: unknown): string {
   return JSON.stringify(v, (_k, x: unknown) =>
-    x && typeof x === 'object' && !Array.isArray(x) ? Object.fromEntries(Object.entries(x as Record<string, unknown>).sort(([a], [b]) => (a < b ? -1 : 1))) : x,
+    x && typeof x === 'object' && !Array.isArray(x)
+      ? Object.fromEntries(Object.entries(x as Record<string, unknown>).sort(([a], [b]) => (a < b ? -1 : 1)))
+      : x,
   );
 }

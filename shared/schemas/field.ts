@@ -78,8 +78,21 @@ export interface FieldOperator {
 }
 
 /** One permit as the phone shows it: its summary, then what the operator needs on the ground. */
-export interface FieldPermit
-  extends Pick<PermitSummary, 'id' | 'number' | 'siteId' | 'siteName' | 'kind' | 'status' | 'statusLabel' | 'version' | 'revision' | 'description' | 'windowStart' | 'windowEnd'> {
+export interface FieldPermit extends Pick<
+  PermitSummary,
+  | 'id'
+  | 'number'
+  | 'siteId'
+  | 'siteName'
+  | 'kind'
+  | 'status'
+  | 'statusLabel'
+  | 'version'
+  | 'revision'
+  | 'description'
+  | 'windowStart'
+  | 'windowEnd'
+> {
   /** The site's origin: the centre of the local projection the geometry is measured in. */
   origin: { latitude: number; longitude: number };
   /** The permitted position: the middle of the permitted loads (or of the excavations for a dig). */

@@ -33,7 +33,8 @@ export const checklist = [
   {
     key: 'support',
     label: 'Support members',
-    prompt: 'Frames, struts, walings, sheets, boxes and their pins are all in place, straight, tight and undamaged; nothing has been removed or knocked.',
+    prompt:
+      'Frames, struts, walings, sheets, boxes and their pins are all in place, straight, tight and undamaged; nothing has been removed or knocked.',
   },
   {
     key: 'faces',
@@ -63,12 +64,14 @@ export const checklist = [
   {
     key: 'loads',
     label: 'Loads nearby',
-    prompt: 'Plant, vehicles, outriggers and stockpiles stand outside their exclusion zones as their permits set; nothing heavy without a permit.',
+    prompt:
+      'Plant, vehicles, outriggers and stockpiles stand outside their exclusion zones as their permits set; nothing heavy without a permit.',
   },
   {
     key: 'atmosphere',
     label: 'Atmosphere',
-    prompt: 'Where fumes or lack of oxygen may gather (deep pits, near sewers, fuel or exhausts): the air has been tested and is fit to enter.',
+    prompt:
+      'Where fumes or lack of oxygen may gather (deep pits, near sewers, fuel or exhausts): the air has been tested and is fit to enter.',
   },
 ] as const;
 export type ChecklistKey = (typeof checklist)[number]['key'];
@@ -81,7 +84,8 @@ export const checkSchema = z
     note: noteSchema,
   })
   .superRefine((v, ctx) => {
-    if (v.answer === 'fail' && !v.note) ctx.addIssue({ code: 'custom', path: ['note'], message: 'is required for a fail: say what is wrong' });
+    if (v.answer === 'fail' && !v.note)
+      ctx.addIssue({ code: 'custom', path: ['note'], message: 'is required for a fail: say what is wrong' });
   });
 export type CheckInput = z.input<typeof checkSchema>;
 
@@ -197,7 +201,13 @@ export type InspectionStatesAnswer = z.output<typeof inspectionStatesAnswer>;
 
 /** An excavation's inspections, newest first, with where it stands this shift. */
 export const excavationInspectionsAnswer = z.object({
-  excavation: z.object({ id: z.number().int(), siteId: z.number().int(), reference: z.string(), name: z.string(), state: z.enum(excavationStates) }),
+  excavation: z.object({
+    id: z.number().int(),
+    siteId: z.number().int(),
+    reference: z.string(),
+    name: z.string(),
+    state: z.enum(excavationStates),
+  }),
   shift: shiftNowAnswer,
   timeZone: z.string(),
   inspectionState: z.enum(inspectionStates).nullable(),
@@ -218,7 +228,8 @@ export const shiftsInputSchema = z.object({
     .superRefine((list, ctx) => {
       const seen = new Map<string, number>();
       list.forEach((s, i) => {
-        if (seen.has(s.start)) ctx.addIssue({ code: 'custom', path: [i, 'start'], message: `is the same as shift ${seen.get(s.start)! + 1}` });
+        if (seen.has(s.start))
+          ctx.addIssue({ code: 'custom', path: [i, 'start'], message: `is the same as shift ${seen.get(s.start)! + 1}` });
         else seen.set(s.start, i);
       });
     }),
@@ -230,5 +241,9 @@ export const weekQuerySchema = z.object({
 });
 
 /** A site's shifts, its time zone and the shift now. */
-export const shiftsAnswer = z.object({ timeZone: z.string(), shifts: z.array(z.object({ name: z.string(), start: timeOfDay })), current: shiftNowAnswer });
+export const shiftsAnswer = z.object({
+  timeZone: z.string(),
+  shifts: z.array(z.object({ name: z.string(), start: timeOfDay })),
+  current: shiftNowAnswer,
+});
 export type ShiftsAnswer = z.output<typeof shiftsAnswer>;

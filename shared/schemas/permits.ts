@@ -52,7 +52,20 @@ export const editableStatuses: readonly PermitStatus[] = ['draft', 'returned'];
 /** Permits whose loads may stand beside an excavation during their window: counted in the cumulative check. */
 export const countedStatuses: readonly PermitStatus[] = ['approved', 'live', 'suspended'];
 
-export const permitActions = ['submit', 'approve', 'return', 'decline', 'start', 'suspend', 'resume', 'hand_back', 'lapse', 'revise', 'withdraw', 'reconsider'] as const;
+export const permitActions = [
+  'submit',
+  'approve',
+  'return',
+  'decline',
+  'start',
+  'suspend',
+  'resume',
+  'hand_back',
+  'lapse',
+  'revise',
+  'withdraw',
+  'reconsider',
+] as const;
 export type PermitAction = (typeof permitActions)[number];
 
 /** Who acts: a role on the permit's site, or Brink itself (the schedule, a failed inspection). */
@@ -84,8 +97,22 @@ export const transitionRules: Record<PermitAction, TransitionRule> = {
   resume: { from: ['suspended'], to: 'live', by: ['coordinator'], reason: true, signed: false, label: 'Resume work' },
   hand_back: { from: ['live', 'suspended'], to: 'handed_back', by: ['supervisor'], reason: false, signed: false, label: 'Hand back' },
   lapse: { from: ['approved', 'live', 'suspended'], to: 'lapsed', by: ['system'], reason: false, signed: false, label: 'Lapse' },
-  revise: { from: ['approved', 'live', 'suspended'], to: 'draft', by: ['supervisor'], reason: true, signed: false, label: 'Change (new revision)' },
-  withdraw: { from: ['draft', 'submitted', 'returned', 'approved'], to: 'withdrawn', by: ['supervisor'], reason: false, signed: false, label: 'Withdraw' },
+  revise: {
+    from: ['approved', 'live', 'suspended'],
+    to: 'draft',
+    by: ['supervisor'],
+    reason: true,
+    signed: false,
+    label: 'Change (new revision)',
+  },
+  withdraw: {
+    from: ['draft', 'submitted', 'returned', 'approved'],
+    to: 'withdrawn',
+    by: ['supervisor'],
+    reason: false,
+    signed: false,
+    label: 'Withdraw',
+  },
   // An approved permit whose excavation changed so that its loads now fail, or need more standoff
   // than was approved, goes back for a coordinator's decision (server/src/services/permits/recheck.ts).
   reconsider: { from: ['approved'], to: 'submitted', by: ['system'], reason: true, signed: false, label: 'Send back for review' },
@@ -246,7 +273,11 @@ const ids = (most: number) => z.array(z.number().int().positive()).max(most, `mu
 
 /** What a request says; the create, update and check-proposal schemas are all drawn from it. */
 const content = z.object({
-  description: z.string({ error: 'is required: say what the work is' }).trim().min(1, 'is required: say what the work is').max(1000, 'must be at most 1000 characters'),
+  description: z
+    .string({ error: 'is required: say what the work is' })
+    .trim()
+    .min(1, 'is required: say what the work is')
+    .max(1000, 'must be at most 1000 characters'),
   windowStart: when,
   windowEnd: when,
   excavationIds: ids(20),
@@ -265,7 +296,8 @@ function windowOrder(v: { windowStart?: string; windowEnd?: string }, ctx: z.Ref
 function uniqueLoadIds(v: { loads?: { id: string }[] }, ctx: z.RefinementCtx): void {
   const seen = new Map<string, number>();
   (v.loads ?? []).forEach((l, i) => {
-    if (seen.has(l.id)) ctx.addIssue({ code: 'custom', path: ['loads', i, 'id'], message: `repeats the id of load ${(seen.get(l.id) ?? 0) + 1}` });
+    if (seen.has(l.id))
+      ctx.addIssue({ code: 'custom', path: ['loads', i, 'id'], message: `repeats the id of load ${(seen.get(l.id) ?? 0) + 1}` });
     else seen.set(l.id, i);
   });
 }
@@ -313,9 +345,14 @@ export const transitionSchema = z
   .superRefine((t, ctx) => {
     const rule = transitionRules[t.action];
     if (rule.reason && !t.reason) ctx.addIssue({ code: 'custom', path: ['reason'], message: `is required to ${rule.label.toLowerCase()}` });
-    if (rule.signed && !t.password) ctx.addIssue({ code: 'custom', path: ['password'], message: 'is required: type your password again to sign the decision' });
+    if (rule.signed && !t.password)
+      ctx.addIssue({ code: 'custom', path: ['password'], message: 'is required: type your password again to sign the decision' });
     if (t.action !== 'approve' && (t.standoff !== undefined || t.conditions !== undefined)) {
-      ctx.addIssue({ code: 'custom', path: [t.standoff !== undefined ? 'standoff' : 'conditions'], message: 'belongs to an approval only' });
+      ctx.addIssue({
+        code: 'custom',
+        path: [t.standoff !== undefined ? 'standoff' : 'conditions'],
+        message: 'belongs to an approval only',
+      });
     }
   });
 export type TransitionInput = z.input<typeof transitionSchema>;
@@ -350,7 +387,10 @@ export const permitListQuerySchema = z.object({
     .optional()
     .transform((s, ctx) => {
       if (!s) return undefined;
-      const list = s.split(',').map((x) => x.trim()).filter(Boolean);
+      const list = s
+        .split(',')
+        .map((x) => x.trim())
+        .filter(Boolean);
       const bad = list.filter((x) => !(permitStatuses as readonly string[]).includes(x));
       if (bad.length) {
         ctx.addIssue({ code: 'custom', message: `unknown status ${bad.join(', ')}: use ${permitStatuses.join(', ')}` });
@@ -600,7 +640,11 @@ const nullableNumber = z.number().nullable();
 export const checkResultSchema: z.ZodType<CheckedResult> = z.object({
   method: z.enum(surchargeMethods),
   coefficients: z.array(z.object({ top: z.number(), K: z.number() })),
-  profile: z.array(z.object({ z: z.number(), soil: z.number(), water: z.number(), surcharge: z.number(), total: z.number(), allowance: z.number() })).optional(),
+  profile: z
+    .array(
+      z.object({ z: z.number(), soil: z.number(), water: z.number(), surcharge: z.number(), total: z.number(), allowance: z.number() }),
+    )
+    .optional(),
   forces: z.object({ soil: z.number(), water: z.number(), surcharge: z.number(), allowance: z.number() }),
   moments: z.object({ surcharge: z.number(), allowance: z.number() }),
   loads: z.array(
@@ -624,7 +668,13 @@ export const checkResultSchema: z.ZodType<CheckedResult> = z.object({
 });
 
 const verdictSchema = z.enum(['fails', 'close', 'passes']);
-const countedPermitSchema = z.object({ id: z.number().int(), number: z.string(), status: z.enum(permitStatuses), windowStart: z.string(), windowEnd: z.string() });
+const countedPermitSchema = z.object({
+  id: z.number().int(),
+  number: z.string(),
+  status: z.enum(permitStatuses),
+  windowStart: z.string(),
+  windowEnd: z.string(),
+});
 
 export const excavationCheckSchema: z.ZodType<ExcavationCheck> = z.object({
   excavationId: z.number().int(),
@@ -649,7 +699,15 @@ export const excavationCheckSchema: z.ZodType<ExcavationCheck> = z.object({
       own: z.boolean(),
     }),
   ),
-  loadStandoffs: z.array(z.object({ loadId: z.string(), label: z.string(), offset: z.number(), standoff: nullableNumber, failingBands: z.array(offsetBandSchema).optional() })),
+  loadStandoffs: z.array(
+    z.object({
+      loadId: z.string(),
+      label: z.string(),
+      offset: z.number(),
+      standoff: nullableNumber,
+      failingBands: z.array(offsetBandSchema).optional(),
+    }),
+  ),
   counted: z.array(countedPermitSchema),
   standoff: nullableNumber,
   verdict: verdictSchema,
@@ -673,6 +731,9 @@ export const permitCheckSchema: z.ZodType<PermitCheck> = z.object({
 export function storedCheck(json: unknown): PermitCheck | null {
   if (json === null || json === undefined) return null;
   const r = permitCheckSchema.safeParse(json);
-  if (!r.success) throw new Error(`A stored permit check does not have the shape Brink reads: ${r.error.issues.map((i) => `${i.path.join('.')} ${i.message}`).join('; ')}`);
+  if (!r.success)
+    throw new Error(
+      `A stored permit check does not have the shape Brink reads: ${r.error.issues.map((i) => `${i.path.join('.')} ${i.message}`).join('; ')}`,
+    );
   return r.data;
 }

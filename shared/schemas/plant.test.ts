@@ -5,7 +5,10 @@ describe('plant arithmetic', () => {
   it('gives an element its share of the weight times the design factor over its area', () => {
     // 20 t × 9.81 m/s² (standard gravity 9.80665, rounded as in common practice) = 196.2 kN; half on a
     // 3 m × 0.6 m track, factor 1.5: 147.15 kN, 81.75 kPa (arithmetic). The figures pin the gravity used.
-    const r = elementLoad({ operatingMass: 20, designFactor: 1.5 }, { name: 't', kind: 'track', x: 0, y: 1, length: 3, width: 0.6, share: 0.5 });
+    const r = elementLoad(
+      { operatingMass: 20, designFactor: 1.5 },
+      { name: 't', kind: 'track', x: 0, y: 1, length: 3, width: 0.6, share: 0.5 },
+    );
     expect(r.force).toBeCloseTo(147.15, 6);
     expect(r.pressure).toBeCloseTo(81.75, 6);
   });

@@ -63,7 +63,8 @@ function checkElements(item: { elements: PlantElement[] }, ctx: z.RefinementCtx)
   }
   const names = item.elements.map((e) => e.name.toLowerCase());
   names.forEach((n, i) => {
-    if (names.indexOf(n) !== i) ctx.addIssue({ code: 'custom', path: ['elements', i, 'name'], message: `repeats the name of element ${names.indexOf(n) + 1}` });
+    if (names.indexOf(n) !== i)
+      ctx.addIssue({ code: 'custom', path: ['elements', i, 'name'], message: `repeats the name of element ${names.indexOf(n) + 1}` });
   });
 }
 
@@ -84,13 +85,21 @@ export const plantLibraryAnswer = z.object({ plant: z.array(plantItemAnswer) });
 export const onePlantItemAnswer = z.object({ item: plantItemAnswer });
 
 /** Load on one element (kN) and its mean bearing pressure (kPa), the design factor included. */
-export function elementLoad(item: Pick<PlantItemValues, 'operatingMass' | 'designFactor'>, e: PlantElement): { force: number; pressure: number } {
+export function elementLoad(
+  item: Pick<PlantItemValues, 'operatingMass' | 'designFactor'>,
+  e: PlantElement,
+): { force: number; pressure: number } {
   const force = item.operatingMass * G * e.share * item.designFactor;
   return { force, pressure: force / (e.length * e.width) };
 }
 
 /** The machine's plan extent (m) over all its elements: for drawings and scale bars. */
-export function footprintBounds(elements: Pick<PlantElement, 'x' | 'y' | 'length' | 'width'>[]): { minX: number; maxX: number; minY: number; maxY: number } {
+export function footprintBounds(elements: Pick<PlantElement, 'x' | 'y' | 'length' | 'width'>[]): {
+  minX: number;
+  maxX: number;
+  minY: number;
+  maxY: number;
+} {
   let minX = Infinity;
   let maxX = -Infinity;
   let minY = Infinity;

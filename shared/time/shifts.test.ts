@@ -1,5 +1,15 @@
 import { describe, expect, it } from 'vitest';
-import { currentShift, isoWeekAt, isoWeekOfDate, isoWeekRange, offsetMinutes, shiftsBetween, siteTimestamp, zonedInstant, formatSiteTime } from './shifts';
+import {
+  currentShift,
+  isoWeekAt,
+  isoWeekOfDate,
+  isoWeekRange,
+  offsetMinutes,
+  shiftsBetween,
+  siteTimestamp,
+  zonedInstant,
+  formatSiteTime,
+} from './shifts';
 
 // Clock changes used below, from the published rules (not from this code):
 // - UK: summer time from 01:00 UTC on the last Sunday of March to 01:00 UTC on the last Sunday of
@@ -40,7 +50,7 @@ describe('zoned wall-clock times', () => {
 });
 
 describe('the current shift', () => {
-  it('is today\'s day shift after 07:00 and yesterday\'s before it', () => {
+  it("is today's day shift after 07:00 and yesterday's before it", () => {
     const s = currentShift(day, 'Europe/London', new Date('2026-02-10T09:00:00Z'));
     expect(s.start.toISOString()).toBe('2026-02-10T07:00:00.000Z');
     expect(s.end.toISOString()).toBe('2026-02-11T07:00:00.000Z');
@@ -117,7 +127,9 @@ describe('site-time formatting (screens, e-mails, the printed permit)', () => {
     expect(formatSiteTime('2026-06-16T06:10:00Z', 'Europe/London')).toBe('Tue, 16 Jun 2026, 07:10');
     expect(formatSiteTime(new Date('2026-01-16T06:10:00Z'), 'Europe/London')).toBe('Fri, 16 Jan 2026, 06:10');
     // Sydney keeps daylight time (UTC+11) in January (NSW Standard Time Act 1987).
-    expect(formatSiteTime('2026-01-16T06:10:05Z', 'Australia/Sydney', { seconds: true, zone: true })).toBe('Fri, 16 Jan 2026, 17:10:05 (Australia/Sydney)');
+    expect(formatSiteTime('2026-01-16T06:10:05Z', 'Australia/Sydney', { seconds: true, zone: true })).toBe(
+      'Fri, 16 Jan 2026, 17:10:05 (Australia/Sydney)',
+    );
   });
 
   it('reads midnight as 00:00 (24-hour clock) and gives back text that is not a time', () => {

@@ -119,7 +119,11 @@ function startsOnDays(shifts: readonly ShiftDef[], timeZone: string, first: { ye
     const d = addDays(first.year, first.month, first.day, k);
     for (const s of defs) {
       const mins = parseTimeOfDay(s.start);
-      out.push({ name: s.name, start: zonedInstant(d.year, d.month, d.day, Math.floor(mins / 60), mins % 60, timeZone), date: isoDate(d.year, d.month, d.day) });
+      out.push({
+        name: s.name,
+        start: zonedInstant(d.year, d.month, d.day, Math.floor(mins / 60), mins % 60, timeZone),
+        date: isoDate(d.year, d.month, d.day),
+      });
     }
   }
   return out;

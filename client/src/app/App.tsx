@@ -12,7 +12,9 @@ askWhoIsSignedIn(queryClient);
 
 // The dashboard's panels load with the dashboard, not with every page.
 const DuePanel = lazy(async () => ({ default: (await import('@client/features/inspections/components/DuePanel')).DuePanel }));
-const DashboardPermits = lazy(async () => ({ default: (await import('@client/features/permits/components/DashboardPermits')).DashboardPermits }));
+const DashboardPermits = lazy(async () => ({
+  default: (await import('@client/features/permits/components/DashboardPermits')).DashboardPermits,
+}));
 
 /** Panels the features lend the dashboard. */
 const dashboardSlots: DashboardSlots = {

@@ -22,7 +22,12 @@ beforeAll(async () => {
   const nodeEnv = process.env.NODE_ENV;
   process.env.NODE_ENV = 'production';
   try {
-    await build({ configFile: join(root, 'vite.config.ts'), mode: 'production', logLevel: 'silent', build: { outDir: out, emptyOutDir: true } });
+    await build({
+      configFile: join(root, 'vite.config.ts'),
+      mode: 'production',
+      logLevel: 'silent',
+      build: { outDir: out, emptyOutDir: true },
+    });
   } finally {
     process.env.NODE_ENV = nodeEnv;
   }

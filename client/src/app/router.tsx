@@ -41,7 +41,11 @@ export const routes: RouteObject[] = [
                 errorElement: <ErrorPage />,
                 children: [
                   { index: true, lazy: async () => ({ Component: (await import('./SiteScope')).HomeRedirect }) },
-                  { path: 'sites/:siteId', lazy: async () => ({ Component: (await import('./SiteScope')).SiteScope }), children: siteRoutes },
+                  {
+                    path: 'sites/:siteId',
+                    lazy: async () => ({ Component: (await import('./SiteScope')).SiteScope }),
+                    children: siteRoutes,
+                  },
                   ...signedInRoutes,
                   { path: 'admin', Component: RequireAdmin, children: adminRoutes },
                   { path: '*', Component: NotFound },

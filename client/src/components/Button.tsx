@@ -26,7 +26,16 @@ interface ButtonProps extends ButtonHTMLAttributes<HTMLButtonElement> {
 }
 
 /** Actions. Ordinary buttons never take the safety colours. Touch target at least 44 px tall. */
-export function Button({ variant = 'primary', busy = false, busyText, className = '', type = 'button', disabled, children, ...rest }: ButtonProps) {
+export function Button({
+  variant = 'primary',
+  busy = false,
+  busyText,
+  className = '',
+  type = 'button',
+  disabled,
+  children,
+  ...rest
+}: ButtonProps) {
   return (
     <button type={type} className={buttonClass(variant, className)} disabled={disabled || busy} aria-busy={busy || undefined} {...rest}>
       {busy && busyText ? busyText : children}

@@ -18,13 +18,30 @@ interface ConfirmActionProps {
 }
 
 /** A consequential action in two presses: the button, then a plain question with yes and no. */
-export function ConfirmAction({ label, question, confirmLabel, cancelLabel = 'Cancel', ariaLabel, variant = 'secondary', busy = false, onConfirm }: ConfirmActionProps) {
+export function ConfirmAction({
+  label,
+  question,
+  confirmLabel,
+  cancelLabel = 'Cancel',
+  ariaLabel,
+  variant = 'secondary',
+  busy = false,
+  onConfirm,
+}: ConfirmActionProps) {
   const [asking, setAsking] = useState(false);
   const [failed, setFailed] = useState<string | null>(null);
   if (!asking) {
     return (
       <>
-        <Button variant={variant} aria-label={ariaLabel} disabled={busy} onClick={() => { setFailed(null); setAsking(true); }}>
+        <Button
+          variant={variant}
+          aria-label={ariaLabel}
+          disabled={busy}
+          onClick={() => {
+            setFailed(null);
+            setAsking(true);
+          }}
+        >
           {label}
         </Button>
         {failed ? (

@@ -1,4 +1,13 @@
-import { useEffect, useId, useRef, type InputHTMLAttributes, type ReactNode, type Ref, type SelectHTMLAttributes, type TextareaHTMLAttributes } from 'react';
+import {
+  useEffect,
+  useId,
+  useRef,
+  type InputHTMLAttributes,
+  type ReactNode,
+  type Ref,
+  type SelectHTMLAttributes,
+  type TextareaHTMLAttributes,
+} from 'react';
 import { fieldSentence } from '@client/lib/sentences';
 
 const controlClass =
@@ -60,7 +69,13 @@ export function TextField({ label, hint, error, className = '', ...input }: Text
   const id = useId();
   return (
     <FieldFrame id={id} label={label} hint={hint} error={error}>
-      <input id={id} className={`${controlClass} ${className}`} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, error)} {...input} />
+      <input
+        id={id}
+        className={`${controlClass} ${className}`}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={describedBy(id, hint, error)}
+        {...input}
+      />
     </FieldFrame>
   );
 }
@@ -77,7 +92,14 @@ export function TextAreaField({ label, hint, error, className = '', rows = 2, ..
   const id = useId();
   return (
     <FieldFrame id={id} label={label} hint={hint} error={error}>
-      <textarea id={id} rows={rows} className={`${controlClass} ${className}`} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, error)} {...textarea} />
+      <textarea
+        id={id}
+        rows={rows}
+        className={`${controlClass} ${className}`}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={describedBy(id, hint, error)}
+        {...textarea}
+      />
     </FieldFrame>
   );
 }
@@ -96,7 +118,13 @@ export function SelectField({ label, hint, error, options, emptyLabel, className
   const id = useId();
   return (
     <FieldFrame id={id} label={label} hint={hint} error={error}>
-      <select id={id} className={`${controlClass} ${className}`} aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, error)} {...select}>
+      <select
+        id={id}
+        className={`${controlClass} ${className}`}
+        aria-invalid={error ? true : undefined}
+        aria-describedby={describedBy(id, hint, error)}
+        {...select}
+      >
         {emptyLabel !== undefined ? <option value="">{emptyLabel}</option> : null}
         {options.map((o) => (
           <option key={o.value} value={o.value}>
@@ -120,7 +148,14 @@ export function CheckboxField({ label, hint, error, ...input }: CheckboxFieldPro
   return (
     <div className="flex flex-col gap-1">
       <div className="flex min-h-11 items-center gap-3">
-        <input id={id} type="checkbox" className="size-6 shrink-0 accent-accent" aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, hint, error)} {...input} />
+        <input
+          id={id}
+          type="checkbox"
+          className="size-6 shrink-0 accent-accent"
+          aria-invalid={error ? true : undefined}
+          aria-describedby={describedBy(id, hint, error)}
+          {...input}
+        />
         <label htmlFor={id} className="font-semibold">
           {label}
         </label>
@@ -143,7 +178,12 @@ export function FormSummary({ message }: { message: string | null | undefined })
   return (
     <div role="alert" aria-live="assertive">
       {message ? (
-        <p ref={ref} tabIndex={-1} data-testid="form-summary" className="rounded-md border border-error-text/40 bg-sheet px-4 py-3 font-semibold text-error-text">
+        <p
+          ref={ref}
+          tabIndex={-1}
+          data-testid="form-summary"
+          className="rounded-md border border-error-text/40 bg-sheet px-4 py-3 font-semibold text-error-text"
+        >
           {message}
         </p>
       ) : null}

@@ -13,7 +13,10 @@ const looks: Record<InspectionState, string> = {
 
 export function InspectionStateBadge({ state }: { state: InspectionState }) {
   return (
-    <span className={`inline-flex items-center rounded-md border-2 px-2 py-0.5 text-sm font-bold ${looks[state]}`} data-inspection-state={state}>
+    <span
+      className={`inline-flex items-center rounded-md border-2 px-2 py-0.5 text-sm font-bold ${looks[state]}`}
+      data-inspection-state={state}
+    >
       {stateLabels[state]}
     </span>
   );

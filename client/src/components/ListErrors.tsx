@@ -12,7 +12,12 @@ interface ArrayErrors {
  * The reasons react-hook-form holds for an editable list (soil layers, bearing elements) as sentences:
  * the list's own ("the shares must add up to 1") first, then each row's fields by their names.
  */
-export function listErrorMessages(errors: ArrayErrors | undefined, rows: number, listLabel: string, rowLabel: (i: number, field: string) => string): string[] {
+export function listErrorMessages(
+  errors: ArrayErrors | undefined,
+  rows: number,
+  listLabel: string,
+  rowLabel: (i: number, field: string) => string,
+): string[] {
   if (!errors) return [];
   const out: string[] = [];
   for (const m of [errors.message, errors.root?.message]) if (m) out.push(fieldSentence(listLabel, m));

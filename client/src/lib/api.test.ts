@@ -2,14 +2,22 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { api, ApiError } from './api';
 
 function answer(status: number, body: string | null, contentType = 'application/json') {
-  vi.stubGlobal('fetch', vi.fn(async () => new Response(body, { status, headers: { 'Content-Type': contentType } })));
+  vi.stubGlobal(
+    'fetch',
+    vi.fn(async () => new Response(body, { status, headers: { 'Content-Type': contentType } })),
+  );
 }
 
 afterEach(() => vi.unstubAllGlobals());
 
 describe('api wrapper', () => {
   it('reads code, message and field reasons from an error body', async () => {
-    answer(400, JSON.stringify({ error: { code: 'invalid_body', message: 'Check the fields.', fields: { email: 'must be an e-mail address', age: 3 } } }));
+    answer(
+      400,
+      JSON.stringify({
+        error: { code: 'invalid_body', message: 'Check the fields.', fields: { email: 'must be an e-mail address', age: 3 } },
+      }),
+    );
     const error = await api.post('/api/invitations', { email: 'x' }).catch((e: unknown) => e);
     expect(error).toBeInstanceOf(ApiError);
     expect(error).toMatchObject({ status: 400, code: 'invalid_body', message: 'Check the fields.' });
@@ -27,7 +35,10 @@ describe('api wrapper', () => {
   });
 
   it('reports a lost connection as status 0', async () => {
-    vi.stubGlobal('fetch', vi.fn(async () => Promise.reject(new TypeError('Failed to fetch'))));
+    vi.stubGlobal(
+      'fetch',
+      vi.fn(async () => Promise.reject(new TypeError('Failed to fetch'))),
+    );
     const error = (await api.get('/api/auth/me').catch((e: unknown) => e)) as ApiError;
     expect(error).toMatchObject({ status: 0, code: 'network' });
     expect(error.message).toMatch(/could not reach the server/);

@@ -20,9 +20,7 @@ export function useCurrentSite(): { siteId: number | null; site: Site | null; si
   const fromPath = siteIdFromPath(pathname);
   const remembered = me.data ? rememberedSiteId(me.data.id) : null;
   const site =
-    list.find((s) => s.id === fromPath) ??
-    (fromPath === null ? (list.find((s) => s.id === remembered) ?? list[0]) : undefined) ??
-    null;
+    list.find((s) => s.id === fromPath) ?? (fromPath === null ? (list.find((s) => s.id === remembered) ?? list[0]) : undefined) ?? null;
   return { siteId: site?.id ?? null, site, sites: list };
 }
 

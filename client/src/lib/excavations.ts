@@ -16,7 +16,8 @@ export const excavationKeys = {
 export function useExcavations(siteId: number) {
   return useQuery({
     queryKey: excavationKeys.site(siteId),
-    queryFn: ({ signal }) => api.get<z.output<typeof excavationsAnswer>>(`/api/sites/${siteId}/excavations`, signal).then((r) => r.excavations),
+    queryFn: ({ signal }) =>
+      api.get<z.output<typeof excavationsAnswer>>(`/api/sites/${siteId}/excavations`, signal).then((r) => r.excavations),
   });
 }
 

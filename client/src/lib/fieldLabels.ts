@@ -75,7 +75,15 @@ const loadLabels: Record<string, string> = {
 const digLabels: Record<string, string> = { depth: 'Depth (m)', supportMethod: 'Support method' };
 const serviceLabels: Record<string, string> = { drawings: 'Record drawings', locatorScan: 'Cable-locator scan', trialHoles: 'Trial holes' };
 const serviceFieldLabels: Record<string, string> = { state: 'State', by: 'Who did it', at: 'When', notes: 'Notes' };
-const soilLabels: Record<string, string> = { top: 'top (m)', unitWeight: 'unit weight (kN/m³)', saturatedUnitWeight: 'saturated unit weight (kN/m³)', frictionAngle: 'friction angle (°)', cohesion: 'cohesion (kPa)', undrainedShear: 'undrained shear strength (kPa)', model: 'strength' };
+const soilLabels: Record<string, string> = {
+  top: 'top (m)',
+  unitWeight: 'unit weight (kN/m³)',
+  saturatedUnitWeight: 'saturated unit weight (kN/m³)',
+  frictionAngle: 'friction angle (°)',
+  cohesion: 'cohesion (kPa)',
+  undrainedShear: 'undrained shear strength (kPa)',
+  model: 'strength',
+};
 
 /** The words for a field path the API names; an unknown path is shown in words of its own name, never as code. */
 export function fieldLabel(path: string): string {
@@ -84,7 +92,8 @@ export function fieldLabel(path: string): string {
   const feature = path.match(/^features\[(\d+)\](?:\.(.+))?$/);
   if (feature) return `Feature ${Number(feature[1]) + 1}${feature[2] ? `: ${fieldLabel(feature[2])}` : ''}`;
   const service = path.match(/^dig\.servicesChecks\.(\w+)(?:\.(\w+))?/);
-  if (service) return `${serviceLabels[service[1]] ?? words(service[1])}${service[2] ? `: ${serviceFieldLabels[service[2]] ?? words(service[2])}` : ''}`;
+  if (service)
+    return `${serviceLabels[service[1]] ?? words(service[1])}${service[2] ? `: ${serviceFieldLabels[service[2]] ?? words(service[2])}` : ''}`;
   const dig = path.match(/^dig\.(\w+)$/);
   if (dig) return digLabels[dig[1]] ?? words(dig[1]);
   const soil = path.match(/^soil[.[](\d+)\]?(?:\.(\w+))?$/);
@@ -96,7 +105,12 @@ export function fieldLabel(path: string): string {
 
 /** `unitWeight` → "Unit weight": a last resort, so a code never reaches the screen. */
 function words(key: string): string {
-  const s = key.replace(/\[(\d+)\]/g, ' $1').replace(/[._]/g, ' ').replace(/([a-z])([A-Z])/g, '$1 $2').toLowerCase().trim();
+  const s = key
+    .replace(/\[(\d+)\]/g, ' $1')
+    .replace(/[._]/g, ' ')
+    .replace(/([a-z])([A-Z])/g, '$1 $2')
+    .toLowerCase()
+    .trim();
   return s.charAt(0).toUpperCase() + s.slice(1);
 }
 
@@ -106,7 +120,11 @@ function words(key: string): string {
  * to correct them; reasons for fields it does not show are spelt out here, by their labels.
  * Without field reasons, the server's own sentence.
  */
-export function serverSummary(error: unknown, shown: (path: string) => boolean = () => false, label: (path: string) => string = fieldLabel): string {
+export function serverSummary(
+  error: unknown,
+  shown: (path: string) => boolean = () => false,
+  label: (path: string) => string = fieldLabel,
+): string {
   if (!(error instanceof ApiError)) return errorMessage(error);
   const entries = Object.entries(error.fields);
   if (entries.length === 0) return error.message;

@@ -21,7 +21,11 @@ describe('applyServerErrors', () => {
     const setError = ((name: string, e: { message?: string }) => {
       set[name] = e.message;
     }) as Parameters<typeof applyServerErrors>[1];
-    const error = new ApiError(400, 'invalid', 'Please correct the request.', { 'soil[1].top': 'repeats the top of soil[0] (0 m)', depth: 'must be greater than 0 m', geometry: 'must not cross itself' });
+    const error = new ApiError(400, 'invalid', 'Please correct the request.', {
+      'soil[1].top': 'repeats the top of soil[0] (0 m)',
+      depth: 'must be greater than 0 m',
+      geometry: 'must not cross itself',
+    });
     const summary = applyServerErrors(error, setError, ['soil', 'depth'], { geometry: 'The shape' });
     expect(set).toEqual({ 'soil.1.top': 'repeats the top of soil[0] (0 m)', depth: 'must be greater than 0 m' });
     expect(summary).toBe('Correct the 2 fields marked below. The shape must not cross itself.');
@@ -39,13 +43,17 @@ describe('serverSummary and fieldLabel: the API refusals in the words of the for
   });
 
   it('turns "Please correct the request: loads[0].unitWeight Invalid input" into words', () => {
-    const e = new ApiError(400, 'invalid', 'Please correct the request: loads[0].unitWeight is required', { 'loads[0].unitWeight': 'is required' });
+    const e = new ApiError(400, 'invalid', 'Please correct the request: loads[0].unitWeight is required', {
+      'loads[0].unitWeight': 'is required',
+    });
     expect(serverSummary(e)).toBe('Load 1: Unit weight (kN/m³) is required.');
     expect(serverSummary(e)).not.toMatch(/loads\[|Invalid input|Please correct/);
   });
 
   it('says a reason shown next to its field once: the summary only points to it', () => {
-    const e = new ApiError(400, 'invalid', 'The decision was not signed: the password is not yours.', { password: 'is not the one you sign in with: type it again' });
+    const e = new ApiError(400, 'invalid', 'The decision was not signed: the password is not yours.', {
+      password: 'is not the one you sign in with: type it again',
+    });
     const summary = serverSummary(e, (k) => k === 'password');
     expect(summary).toBe('Correct the field marked below.');
     expect(summary).not.toMatch(/password/i);
@@ -53,7 +61,9 @@ describe('serverSummary and fieldLabel: the API refusals in the words of the for
   });
 
   it('says "Window closes must be after the window opens", not "windowEnd must be after the start"', () => {
-    const e = new ApiError(400, 'invalid', 'Please correct the request: windowEnd must be after the window opens', { windowEnd: 'must be after the window opens' });
+    const e = new ApiError(400, 'invalid', 'Please correct the request: windowEnd must be after the window opens', {
+      windowEnd: 'must be after the window opens',
+    });
     expect(serverSummary(e)).toBe('Window closes must be after the window opens.');
   });
 

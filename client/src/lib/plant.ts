@@ -8,5 +8,8 @@ export const plantKey = ['plant'] as const;
 
 /** The plant library (shared by every site), read by the library page and the pages that place loads. */
 export function usePlant() {
-  return useQuery({ queryKey: plantKey, queryFn: ({ signal }) => api.get<z.output<typeof plantLibraryAnswer>>('/api/plant', signal).then((r) => r.plant) });
+  return useQuery({
+    queryKey: plantKey,
+    queryFn: ({ signal }) => api.get<z.output<typeof plantLibraryAnswer>>('/api/plant', signal).then((r) => r.plant),
+  });
 }

@@ -25,7 +25,8 @@ export function fakeApi(answers: Record<string, FakeAnswer | (() => FakeAnswer)>
       const key = `${init.method ?? 'GET'} ${url}`;
       calls.push({ key, body: typeof init.body === 'string' ? JSON.parse(init.body) : undefined });
       const entry = answers[key];
-      const answer = typeof entry === 'function' ? entry() : (entry ?? { status: 404, body: { error: { code: 'not_found', message: 'Not found' } } });
+      const answer =
+        typeof entry === 'function' ? entry() : (entry ?? { status: 404, body: { error: { code: 'not_found', message: 'Not found' } } });
       return new Response(answer.body === undefined ? null : JSON.stringify(answer.body), {
         status: answer.status,
         headers: { 'Content-Type': 'application/json' },

@@ -74,7 +74,15 @@ function rng(seed: number): () => number {
 
 function baseRequest(method: Method, loads: Load[], depth = 3): CheckRequest {
   return {
-    excavation: { depth, groundwaterDepth: 2, designSurcharge: 10, ratedPressure: 60, pressureState: 'active', wallFriction: 0, restraint: 'unyielding' },
+    excavation: {
+      depth,
+      groundwaterDepth: 2,
+      designSurcharge: 10,
+      ratedPressure: 60,
+      pressureState: 'active',
+      wallFriction: 0,
+      restraint: 'unyielding',
+    },
     soil: [
       { top: 0, unitWeight: 18, frictionAngle: 32, cohesion: 0 },
       { top: 1.2, unitWeight: 19, saturatedUnitWeight: 20, frictionAngle: 28, cohesion: 2 },
@@ -113,9 +121,19 @@ function makeSite(seed: number): Site {
   const origin: LonLat = [-1.25, 52.5];
   const proj = localProjection(origin);
   const ll = (p: XY) => proj.toWgs84(p);
-  const rot = (p: XY, c: XY, t: number): XY => [c[0] + p[0] * Math.cos(t) - p[1] * Math.sin(t), c[1] + p[0] * Math.sin(t) + p[1] * Math.cos(t)];
+  const rot = (p: XY, c: XY, t: number): XY => [
+    c[0] + p[0] * Math.cos(t) - p[1] * Math.sin(t),
+    c[1] + p[0] * Math.sin(t) + p[1] * Math.cos(t),
+  ];
   const rectangle = (c: XY, w: number, h: number, t: number): Polygon => {
-    const pts = ([[-w / 2, -h / 2], [w / 2, -h / 2], [w / 2, h / 2], [-w / 2, h / 2]] as XY[]).map((p) => ll(rot(p, c, t)));
+    const pts = (
+      [
+        [-w / 2, -h / 2],
+        [w / 2, -h / 2],
+        [w / 2, h / 2],
+        [-w / 2, h / 2],
+      ] as XY[]
+    ).map((p) => ll(rot(p, c, t)));
     return { type: 'Polygon', coordinates: [[...pts, pts[0]]] };
   };
   const excavations: Site['excavations'] = [];
@@ -131,7 +149,11 @@ function makeSite(seed: number): Site {
       frames.push({ c, t, along: half, across: width / 2 });
       excavations.push({
         depth,
-        shape: { kind: 'trench', width, centreLine: { type: 'LineString', coordinates: [ll(rot([-half, 0], c, t)), ll(rot([half, 0], c, t))] } },
+        shape: {
+          kind: 'trench',
+          width,
+          centreLine: { type: 'LineString', coordinates: [ll(rot([-half, 0], c, t)), ll(rot([half, 0], c, t))] },
+        },
       });
     } else {
       const w = 4 + rand() * 4;
@@ -147,9 +169,15 @@ function makeSite(seed: number): Site {
     const side = rand() < 0.5 ? -1 : 1;
     const p = rot([(rand() - 0.5) * 2 * f.along, side * (f.across + 0.3 + rand() * 4)], f.c, f.t);
     if (j % 3 === 0) {
-      footprints.push({ magnitude: 50 + rand() * 150, shape: { kind: 'point', position: { type: 'Point', coordinates: ll(p) }, padWidth: 0.6, padLength: 0.6 } });
+      footprints.push({
+        magnitude: 50 + rand() * 150,
+        shape: { kind: 'point', position: { type: 'Point', coordinates: ll(p) }, padWidth: 0.6, padLength: 0.6 },
+      });
     } else {
-      footprints.push({ magnitude: 10 + rand() * 50, shape: { kind: 'polygon', footprint: rectangle(p, 0.5 + rand() * 2, 0.5 + rand() * 2, rand() * Math.PI) } });
+      footprints.push({
+        magnitude: 10 + rand() * 50,
+        shape: { kind: 'polygon', footprint: rectangle(p, 0.5 + rand() * 2, 0.5 + rand() * 2, rand() * Math.PI) },
+      });
     }
   }
   return { origin, excavations, footprints };
@@ -169,7 +197,9 @@ function runSite(site: Site, method: Method, zones: boolean): SiteRun {
   const ex = site.excavations.map((e) => ({ ...e, outline: prepareExcavation(e.shape, proj) }));
   const feet = site.footprints.map((f) => {
     const pts: XY[] =
-      f.shape.kind === 'point' ? [proj.toLocal(f.shape.position.coordinates)] : f.shape.footprint.coordinates[0].map((c) => proj.toLocal(c));
+      f.shape.kind === 'point'
+        ? [proj.toLocal(f.shape.position.coordinates)]
+        : f.shape.footprint.coordinates[0].map((c) => proj.toLocal(c));
     return { ...f, bounds: boundsOf(pts) };
   });
   const run: SiteRun = { placed: 0, rejected: 0, checks: 0, standoffs: 0, failing: 0 };
@@ -206,12 +236,19 @@ function runSite(site: Site, method: Method, zones: boolean): SiteRun {
 }
 
 function calcBench(): void {
-  const load = loadavg().map((x) => x.toFixed(1)).join(' ');
+  const load = loadavg()
+    .map((x) => x.toFixed(1))
+    .join(' ');
   console.log(`Brink calculation benchmark — Node ${process.version}, ${cpus().length} cores, load average ${load}`);
   console.log('Medians over repeated runs: wall-clock time per call (judged against the target), processor time beside it.\n');
   for (const method of ['dispersion-45', 'elastic'] as const) {
     const req = baseRequest(method, tenLoads());
-    row(`one check, 10 loads, H = 3 m, step 0.05 m (${method})`, time(() => runCheck(req, { standoffs: false }), 200, 51), 50e-6, 'profile, forces, moments, utilisation');
+    row(
+      `one check, 10 loads, H = 3 m, step 0.05 m (${method})`,
+      time(() => runCheck(req, { standoffs: false }), 200, 51),
+      50e-6,
+      'profile, forces, moments, utilisation',
+    );
   }
   for (const method of ['dispersion-45', 'elastic'] as const) {
     const req = baseRequest(method, [{ id: 'traffic', kind: 'blanket', pressure: 5 }]);
@@ -225,10 +262,20 @@ function calcBench(): void {
     let last: SiteRun | undefined;
     const s = time(() => (last = runSite(site, method, false)), 1, 7);
     const r = last as SiteRun;
-    row(`whole site, 200 excavations, 500 loads (${method})`, s, 1, `geometry from GeoJSON, ${r.placed} loads in influence zones, ${r.standoffs} standoffs, ${r.rejected} footprints rejected as overlapping, ${r.failing} of ${r.checks} checks failing`);
+    row(
+      `whole site, 200 excavations, 500 loads (${method})`,
+      s,
+      1,
+      `geometry from GeoJSON, ${r.placed} loads in influence zones, ${r.standoffs} standoffs, ${r.rejected} footprints rejected as overlapping, ${r.failing} of ${r.checks} checks failing`,
+    );
   }
   const withZones = time(() => runSite(site, 'dispersion-45', true), 1, 5);
-  row('whole site as above plus its 200 influence-zone outlines (dispersion-45)', withZones, 1, 'the GeoJSON zone polygons for the map as well');
+  row(
+    'whole site as above plus its 200 influence-zone outlines (dispersion-45)',
+    withZones,
+    1,
+    'the GeoJSON zone polygons for the map as well',
+  );
 }
 
 /**
@@ -242,7 +289,11 @@ async function main(): Promise<void> {
   if (parts.includes('calc')) calcBench();
   if (parts.includes('api')) await (await import('./benchApi')).runApiBench();
   if (parts.includes('web')) await (await import('./benchWeb')).runWebBench();
-  console.log(`\nload average at the end: ${loadavg().map((x) => x.toFixed(1)).join(' ')} (other programs on this machine skew the times; the ratios less)`);
+  console.log(
+    `\nload average at the end: ${loadavg()
+      .map((x) => x.toFixed(1))
+      .join(' ')} (other programs on this machine skew the times; the ratios less)`,
+  );
 }
 
 await main();

@@ -30,7 +30,10 @@ async function waitFor(url: string, child: ChildProcess, seconds = 90): Promise<
   const until = Date.now() + seconds * 1000;
   while (Date.now() < until) {
     if (child.exitCode !== null) throw new Error(`${url}: the server stopped (exit ${child.exitCode})`);
-    const ok = await fetch(url).then((r) => r.ok, () => false);
+    const ok = await fetch(url).then(
+      (r) => r.ok,
+      () => false,
+    );
     if (ok) return;
     await new Promise((r) => setTimeout(r, 250)); // polling a process that is starting: no state to wait on
   }
@@ -91,7 +94,10 @@ export async function signIn(base: string, port: number, email: string): Promise
     body: JSON.stringify({ email, password: DEMO_PASSWORD }),
   });
   if (!r.ok) throw new Error(`sign-in as ${email}: ${r.status}`);
-  return r.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+  return r.headers
+    .getSetCookie()
+    .map((c) => c.split(';')[0])
+    .join('; ');
 }
 
 interface Load {
@@ -111,12 +117,21 @@ interface Measured {
 }
 
 async function hammer(l: Load, seconds: number): Promise<Measured> {
-  const r = await autocannon({ url: l.url, method: l.method ?? 'GET', headers: l.headers, body: l.body, connections: 10, duration: seconds });
+  const r = await autocannon({
+    url: l.url,
+    method: l.method ?? 'GET',
+    headers: l.headers,
+    body: l.body,
+    connections: 10,
+    duration: seconds,
+  });
   return { rps: r.requests.average, p50: r.latency.p50, p99: r.latency.p99, errors: r.errors + r.timeouts, non2xx: r.non2xx };
 }
 
 export async function runApiBench(seconds = 5): Promise<void> {
-  console.log(`\napi — autocannon, 10 connections, ${seconds} s per route, 127.0.0.1 only; Brink's server and a bare Express route each in its own process`);
+  console.log(
+    `\napi — autocannon, 10 connections, ${seconds} s per route, 127.0.0.1 only; Brink's server and a bare Express route each in its own process`,
+  );
   const brink = await startBrink();
   const bare = await startBare();
   try {
@@ -135,7 +150,13 @@ export async function runApiBench(seconds = 5): Promise<void> {
       { label: 'bare Express route {ok:true}', url: bare.url },
       { label: 'GET /api/health without a cookie', url: `${base}/api/health` },
       { label: 'GET /api/health with a session cookie', url: `${base}/api/health`, headers: auth },
-      { label: `POST /api/permits/${permitId}/check (demo permit)`, url: `${base}/api/permits/${permitId}/check`, method: 'POST', headers: { ...auth, 'content-type': 'application/json' }, body: '{}' },
+      {
+        label: `POST /api/permits/${permitId}/check (demo permit)`,
+        url: `${base}/api/permits/${permitId}/check`,
+        method: 'POST',
+        headers: { ...auth, 'content-type': 'application/json' },
+        body: '{}',
+      },
       { label: `GET /api/permits/${permitId}`, url: `${base}/api/permits/${permitId}`, headers: auth },
       // health reads no session since the outage work; this reads it (and the person) like every other call.
       { label: 'GET /api/auth/me (session and person read)', url: `${base}/api/auth/me`, headers: auth },
@@ -146,7 +167,9 @@ export async function runApiBench(seconds = 5): Promise<void> {
       const m = await hammer(l, seconds);
       got.set(l.label, m);
       const bad = m.errors || m.non2xx ? `  (${m.non2xx} non-2xx, ${m.errors} errors)` : '';
-      console.log(`${l.label.padEnd(48)} ${m.rps.toFixed(0).padStart(7)} req/s  p50 ${String(m.p50).padStart(4)} ms  p99 ${String(m.p99).padStart(4)} ms${bad}`);
+      console.log(
+        `${l.label.padEnd(48)} ${m.rps.toFixed(0).padStart(7)} req/s  p50 ${String(m.p50).padStart(4)} ms  p99 ${String(m.p99).padStart(4)} ms${bad}`,
+      );
     }
     const v = (l: Load) => got.get(l.label)!.rps;
     const [bareL, healthL, sessionL, checkL, permitL, meL, exL] = loads;
@@ -165,7 +188,9 @@ export async function runApiBench(seconds = 5): Promise<void> {
     // as health with a cookie did when the target was set.
     ratio('check route / who am I (session and person read)', v(checkL), v(meL), null);
     const ex = got.get(exL.label)!;
-    console.log(`${"site's excavations, p50".padEnd(64)} ${String(ex.p50).padStart(4)} ms  target ≤ 100 ms  ${ex.p50 <= 100 ? 'meets' : 'MISSES'} (demo site; outlines stored on write: issue 12)`);
+    console.log(
+      `${"site's excavations, p50".padEnd(64)} ${String(ex.p50).padStart(4)} ms  target ≤ 100 ms  ${ex.p50 <= 100 ? 'meets' : 'MISSES'} (demo site; outlines stored on write: issue 12)`,
+    );
   } finally {
     await bare.stop();
     await brink.stop();

@@ -29,7 +29,12 @@ async function openOnPhone(browser: Browser, base: string, cookie: string | null
     const cdp = await context.newCDPSession(page);
     await cdp.send('Emulation.setCPUThrottlingRate', { rate: 4 });
     await cdp.send('Network.enable');
-    await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 150, downloadThroughput: 1.6e6 / 8, uploadThroughput: 750e3 / 8 });
+    await cdp.send('Network.emulateNetworkConditions', {
+      offline: false,
+      latency: 150,
+      downloadThroughput: 1.6e6 / 8,
+      uploadThroughput: 750e3 / 8,
+    });
     const t0 = performance.now();
     await page.goto(path, { waitUntil: 'commit', timeout: 120_000 });
     if (heading) await page.getByRole('heading', { level: 1 }).first().waitFor({ timeout: 120_000 });
@@ -97,10 +102,13 @@ export async function runWebBench(): Promise<void> {
   const report = bundleReport('dist/client');
   for (const p of report.pages) {
     const budget = budgetOf(p);
-    const verdict = budget === null ? '(loaded on first use, no budget)' : `target ≤ ${kb(budget)}  ${p.gzip <= budget ? 'meets' : 'MISSES'}`;
+    const verdict =
+      budget === null ? '(loaded on first use, no budget)' : `target ≤ ${kb(budget)}  ${p.gzip <= budget ? 'meets' : 'MISSES'}`;
     console.log(`${p.page.padEnd(48)} ${kb(p.gzip).padStart(10)}  ${verdict}`);
   }
-  console.log(`${'all JavaScript of the build (once one script)'.padEnd(48)} ${kb(report.total.gzip).padStart(10)}  (${report.total.files} files)`);
+  console.log(
+    `${'all JavaScript of the build (once one script)'.padEnd(48)} ${kb(report.total.gzip).padStart(10)}  (${report.total.files} files)`,
+  );
 
   console.log(`\nweb — first open, Pixel 7, 4× CPU slowdown, 1.6 Mbit/s down, 150 ms round trip, no service worker; median of ${ROUNDS}`);
   const brink = await startBrink();
@@ -108,12 +116,20 @@ export async function runWebBench(): Promise<void> {
   try {
     const operator = await signIn(brink.url, brink.port, 'operator@demo.brink.test');
     const supervisor = await signIn(brink.url, brink.port, 'supervisor@demo.brink.test');
-    const answer = (await (await fetch(`${brink.url}/api/permits?siteId=1`, { headers: { cookie: supervisor, origin: ORIGIN_HEADER(brink.port) } })).json()) as Record<string, unknown>;
+    const answer = (await (
+      await fetch(`${brink.url}/api/permits?siteId=1`, { headers: { cookie: supervisor, origin: ORIGIN_HEADER(brink.port) } })
+    ).json()) as Record<string, unknown>;
     const permit = ((Object.values(answer).find(Array.isArray) ?? []) as { id: number }[])[0];
     const cases: { label: string; path: string; cookie: string | null; heading: boolean; target: number | null }[] = [
       { label: 'a bare JSON page (/api/health), for reference', path: '/api/health', cookie: null, heading: false, target: null },
       { label: '/field, signed in as the demo operator', path: '/field', cookie: operator, heading: true, target: 3 },
-      { label: `the placing page /permits/${permit?.id}/edit (supervisor)`, path: `/permits/${permit?.id}/edit`, cookie: supervisor, heading: true, target: null },
+      {
+        label: `the placing page /permits/${permit?.id}/edit (supervisor)`,
+        path: `/permits/${permit?.id}/edit`,
+        cookie: supervisor,
+        heading: true,
+        target: null,
+      },
     ];
     for (const c of cases) {
       const times: number[] = [];

@@ -33,11 +33,21 @@ export const PAGES: { page: string; modules: string[]; phone?: true; afterUse?: 
   { page: '/invitations/accept', modules: [auth, 'src/features/auth/routes/AcceptInvitationPage.tsx'] },
   {
     page: '/sites/:id (dashboard)',
-    modules: [signedIn, site, 'src/features/dashboard/routes/DashboardPage.tsx', 'src/features/inspections/components/DuePanel.tsx', 'src/features/permits/components/DashboardPermits.tsx'],
+    modules: [
+      signedIn,
+      site,
+      'src/features/dashboard/routes/DashboardPage.tsx',
+      'src/features/inspections/components/DuePanel.tsx',
+      'src/features/permits/components/DashboardPermits.tsx',
+    ],
   },
   { page: '/sites/:id/map', modules: [signedIn, site, 'src/features/map/routes/SiteMapPage.tsx'] },
   // The drawing tools load when someone first draws or edits a shape: no first load, shown for reference.
-  { page: '/sites/:id/map once drawing', modules: [signedIn, site, 'src/features/map/routes/SiteMapPage.tsx', 'src/features/map/components/DrawTools.tsx'], afterUse: true },
+  {
+    page: '/sites/:id/map once drawing',
+    modules: [signedIn, site, 'src/features/map/routes/SiteMapPage.tsx', 'src/features/map/components/DrawTools.tsx'],
+    afterUse: true,
+  },
   { page: '/sites/:id/register', modules: [signedIn, site, 'src/features/register/routes/RegisterPage.tsx'] },
   { page: '/sites/:id/permits', modules: [signedIn, site, 'src/features/permits/routes/PermitListPage.tsx'] },
   { page: '/sites/:id/permits/new', modules: [signedIn, site, 'src/features/permits/routes/NewPermitPage.tsx'] },
@@ -109,14 +119,25 @@ export function bundleReport(dist: string): BundleReport {
     keys.forEach(visit);
     return seen;
   };
-  const entries = Object.entries(manifest).filter(([, c]) => c.isEntry && c.file.endsWith('.js')).map(([k]) => k);
+  const entries = Object.entries(manifest)
+    .filter(([, c]) => c.isEntry && c.file.endsWith('.js'))
+    .map(([k]) => k);
   const pages = PAGES.map(({ page, modules, phone, afterUse }) => {
     const files = [...closure([...entries, ...modules])].filter((f) => f.endsWith('.js')).sort();
-    return { page, phone: Boolean(phone), afterUse: Boolean(afterUse), files, raw: files.reduce((a, f) => a + size(f).raw, 0), gzip: files.reduce((a, f) => a + size(f).gzip, 0) };
+    return {
+      page,
+      phone: Boolean(phone),
+      afterUse: Boolean(afterUse),
+      files,
+      raw: files.reduce((a, f) => a + size(f).raw, 0),
+      gzip: files.reduce((a, f) => a + size(f).gzip, 0),
+    };
   });
   const listed = new Set(PAGES.flatMap((p) => p.modules));
   const unlisted = Object.entries(manifest)
-    .filter(([k, c]) => c.isDynamicEntry && (k.includes('/routes/') || k.endsWith('/pages.ts') || k.startsWith('src/app/')) && !listed.has(k))
+    .filter(
+      ([k, c]) => c.isDynamicEntry && (k.includes('/routes/') || k.endsWith('/pages.ts') || k.startsWith('src/app/')) && !listed.has(k),
+    )
     .map(([k]) => k);
   const all = [...new Set(Object.values(manifest).map((c) => c.file))].filter((f) => f.endsWith('.js'));
   return {

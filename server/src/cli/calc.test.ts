@@ -36,7 +36,11 @@ function expectRejected(r: ReturnType<typeof calc>, fields: string[]) {
   expect(r.code).toBe(2);
   expect(r.stdout).toBe('');
   const lines = r.stderr.trim().split('\n');
-  for (const f of fields) expect(lines.some((l) => l.startsWith(`${f}: `)), `${f} in:\n${r.stderr}`).toBe(true);
+  for (const f of fields)
+    expect(
+      lines.some((l) => l.startsWith(`${f}: `)),
+      `${f} in:\n${r.stderr}`,
+    ).toBe(true);
 }
 
 describe('npm run calc', { timeout: 60_000 }, () => {
@@ -52,7 +56,12 @@ describe('npm run calc', { timeout: 60_000 }, () => {
   });
 
   it('reads standard input and answers a list with a list, defaults filled in', () => {
-    const minimal = { excavation: { depth: 3, designSurcharge: 10 }, soil: [{ top: 0, unitWeight: 19, frictionAngle: 30 }], method: 'dispersion-45', loads: [] };
+    const minimal = {
+      excavation: { depth: 3, designSurcharge: 10 },
+      soil: [{ top: 0, unitWeight: 19, frictionAngle: 30 }],
+      method: 'dispersion-45',
+      loads: [],
+    };
     const r = calc([six(), minimal], true);
     expect(r.code).toBe(0);
     const out = JSON.parse(r.stdout);
@@ -86,7 +95,10 @@ describe('npm run calc', { timeout: 60_000 }, () => {
 
   it('unknown load kind, missing fields, strings, NaN and an empty soil list, each named, in one go', () => {
     const a = six();
-    a.loads = [{ id: 'crane', kind: 'crane', force: 100, offset: 1 }, { id: 'x', kind: 'strip', pressure: 'NaN', offset: 1 }];
+    a.loads = [
+      { id: 'crane', kind: 'crane', force: 100, offset: 1 },
+      { id: 'x', kind: 'strip', pressure: 'NaN', offset: 1 },
+    ];
     a.soil = [];
     a.excavation.depth = '3';
     delete a.method;

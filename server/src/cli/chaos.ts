@@ -64,7 +64,6 @@ function overTime(): boolean {
   return Date.now() > deadline;
 }
 
-
 // ------------------------------------------------------------------------------------------------
 // The mail catcher: every message received, by Message-ID.
 
@@ -105,7 +104,8 @@ class Catcher {
 // ------------------------------------------------------------------------------------------------
 // PostgreSQL and the supervised server.
 
-const cluster = (...a: string[]) => run('bash', [path.join(root, 'docker-less-scripts/pg-cluster.sh'), ...a], { cwd: root, timeout: 180_000 });
+const cluster = (...a: string[]) =>
+  run('bash', [path.join(root, 'docker-less-scripts/pg-cluster.sh'), ...a], { cwd: root, timeout: 180_000 });
 
 interface Env {
   work: string;
@@ -169,7 +169,11 @@ class Client {
     try {
       const r = await fetch(this.base + url, {
         method,
-        headers: { origin: this.base, ...(body ? { 'content-type': 'application/json' } : {}), ...(this.cookie ? { cookie: this.cookie } : {}) },
+        headers: {
+          origin: this.base,
+          ...(body ? { 'content-type': 'application/json' } : {}),
+          ...(this.cookie ? { cookie: this.cookie } : {}),
+        },
         body: body ? JSON.stringify(body) : undefined,
         signal: AbortSignal.timeout(20_000),
       });
@@ -282,11 +286,25 @@ async function livePermit(w: World, excavationId: number, centre: [number, numbe
     windowEnd: new Date(now + 8 * 3600_000).toISOString(),
     excavationIds: [excavationId],
     // the 21 t excavator of the demo library, its near track 4 m from the trench edge
-    loads: [{ id: 'exc', kind: 'plant', label: 'Excavator', plantItemId: w.excavatorId, position: proj.toWgs84([centre[0], centre[1] + 0.5 + 4 + 0.3 + 1.1]), rotation: 90 }],
+    loads: [
+      {
+        id: 'exc',
+        kind: 'plant',
+        label: 'Excavator',
+        plantItemId: w.excavatorId,
+        position: proj.toWgs84([centre[0], centre[1] + 0.5 + 4 + 0.3 + 1.1]),
+        rotation: 90,
+      },
+    ],
     operatorIds: [],
   });
   if (created.status !== 201) throw new Error(`permit: ${created.status} ${JSON.stringify(created.body)}`);
-  const p: PermitState = { id: created.body.permit.id, number: created.body.permit.number, version: created.body.permit.version, status: 'draft' };
+  const p: PermitState = {
+    id: created.body.permit.id,
+    number: created.body.permit.number,
+    version: created.body.permit.version,
+    status: 'draft',
+  };
   // Before the chaos starts: these go through first time.
   for (const [c, action, extra] of [
     [w.supervisor, 'submit', {}],
@@ -302,7 +320,13 @@ async function livePermit(w: World, excavationId: number, centre: [number, numbe
 function inspectionForm(outcome: 'safe' | 'not-safe'): Record<string, unknown> {
   const items = Object.fromEntries(checklist.map((c) => [c.key, { answer: c.key === 'atmosphere' ? 'na' : 'pass', note: '' }]));
   if (outcome === 'not-safe') items.support = { answer: 'fail', note: 'Frame 3 has slipped 100 mm' };
-  return { reason: 'shift-start', checklist: items, outcome, ...(outcome === 'not-safe' ? { remarks: 'Frame 3 slipped; keep loads back' } : {}), clientRef: randomUUID() };
+  return {
+    reason: 'shift-start',
+    checklist: items,
+    outcome,
+    ...(outcome === 'not-safe' ? { remarks: 'Frame 3 slipped; keep loads back' } : {}),
+    clientRef: randomUUID(),
+  };
 }
 
 /** Sends one inspection form until it is acknowledged (the same clientRef each time). */
@@ -335,7 +359,11 @@ async function drive(w: World, i: number, share: { transitions: number; inspecti
   const every = Math.max(2, Math.floor(share.transitions / Math.max(1, share.inspections)));
   for (let n = 0; !(mine >= share.transitions && inspected >= share.inspections && done()); n++) {
     if (overTime()) throw new Error('time limit reached while driving');
-    if ((n % every === every - 1 && inspected < share.inspections) || (mine >= share.transitions && inspected < share.inspections) || unsafe) {
+    if (
+      (n % every === every - 1 && inspected < share.inspections) ||
+      (mine >= share.transitions && inspected < share.inspections) ||
+      unsafe
+    ) {
       // not safe (suspends the live permits with it), then safe again before anything resumes
       unsafe = !unsafe;
       await inspect(w, excavationId, unsafe ? 'not-safe' : 'safe');
@@ -393,7 +421,10 @@ async function stopStartPostgres(env: Env): Promise<void> {
   log(`stopping PostgreSQL (${stats.acked.length} transitions acknowledged)`);
   await cluster('stop', env.pgDir);
   stats.pgStops++;
-  const down = await fetch(`${env.base}/api/health`).then((r) => r.status, () => 0);
+  const down = await fetch(`${env.base}/api/health`).then(
+    (r) => r.status,
+    () => 0,
+  );
   await pause(3000);
   await cluster('start', env.pgDir, String(env.pgPort));
   log(`PostgreSQL started again (health answered ${down} while it was down)`);
@@ -419,7 +450,9 @@ async function verify(db: Db, w: World, catcher: Catcher, permitIds: number[], s
   // The status machine's steps (the first event, 'create', makes the draft).
   const transitions = events.filter((e) => e.to_status !== null && e.action !== 'create');
   const byUsers = transitions.filter((e) => e.actor_id !== null);
-  const created = new Set(events.filter((e) => e.action === 'create' && e.from_status === null && e.to_status === 'draft').map((e) => e.permit_id));
+  const created = new Set(
+    events.filter((e) => e.action === 'create' && e.from_status === null && e.to_status === 'draft').map((e) => e.permit_id),
+  );
 
   // Every acknowledged transition is in its permit's timeline, in the order it was acknowledged.
   let found = 0;
@@ -469,8 +502,14 @@ async function verify(db: Db, w: World, catcher: Catcher, permitIds: number[], s
     .execute();
   let mismatched = 0;
   for (const id of permitIds) {
-    const a = audits.filter((x) => x.entity_id === String(id)).map((x) => x.action).join(',');
-    const t = transitions.filter((e) => e.permit_id === id).map((e) => e.action).join(',');
+    const a = audits
+      .filter((x) => x.entity_id === String(id))
+      .map((x) => x.action)
+      .join(',');
+    const t = transitions
+      .filter((e) => e.permit_id === id)
+      .map((e) => e.action)
+      .join(',');
     if (a !== t) mismatched++;
   }
   rows.push(['audit vs timeline mismatches', mismatched, mismatched === 0]);
@@ -484,7 +523,11 @@ async function verify(db: Db, w: World, catcher: Catcher, permitIds: number[], s
       select 1 from permits p join permit_revisions r on r.permit_id = p.id and r.revision = p.revision
       where p.status = 'live' and l.excavation_id = any(r.excavation_ids))`.execute(db);
   const inspections = await db.selectFrom('inspections').select(['outcome']).where('recorded_at', '>=', since).execute();
-  rows.push(['inspections recorded (not safe)', `${inspections.length} (${inspections.filter((i) => i.outcome === 'not-safe').length})`, inspections.length >= stats.inspections]);
+  rows.push([
+    'inspections recorded (not safe)',
+    `${inspections.length} (${inspections.filter((i) => i.outcome === 'not-safe').length})`,
+    inspections.length >= stats.inspections,
+  ]);
   rows.push(['not-safe excavations with live permits after reconciliation', stale[0].n, stale[0].n === 0]);
 
   // Notices. Expected: every message queued (the outbox: queued if and only if its change
@@ -510,10 +553,18 @@ async function verify(db: Db, w: World, catcher: Catcher, permitIds: number[], s
     duplicated += Math.max(0, queued - committed);
     missing += Math.max(0, committed - queued);
   };
-  const numbers = new Map((await db.selectFrom('permits').select(['id', 'number']).where('id', 'in', permitIds).execute()).map((p) => [p.id, p.number]));
+  const numbers = new Map(
+    (await db.selectFrom('permits').select(['id', 'number']).where('id', 'in', permitIds).execute()).map((p) => [p.id, p.number]),
+  );
   for (const id of permitIds) {
-    for (const [action, headline] of [['suspend', 'is suspended'], ['resume', 'is live again']] as const) {
-      tally(transitions.filter((e) => e.permit_id === id && e.action === action).length, toSupervisor(`Permit ${numbers.get(id)} at ${w.siteName} ${headline}`));
+    for (const [action, headline] of [
+      ['suspend', 'is suspended'],
+      ['resume', 'is live again'],
+    ] as const) {
+      tally(
+        transitions.filter((e) => e.permit_id === id && e.action === action).length,
+        toSupervisor(`Permit ${numbers.get(id)} at ${w.siteName} ${headline}`),
+      );
     }
   }
   const { rows: unsafeByExcavation } = await sql<{ reference: string; name: string; n: number }>`
@@ -536,7 +587,9 @@ async function verify(db: Db, w: World, catcher: Catcher, permitIds: number[], s
 async function drained(db: Db): Promise<void> {
   log('waiting for the mail queue to drain');
   for (;;) {
-    const { rows } = await sql<{ n: number }>`select count(*)::int as n from pgboss.job where name = 'brink.mail' and state in ('created', 'retry', 'active')`.execute(db);
+    const { rows } = await sql<{
+      n: number;
+    }>`select count(*)::int as n from pgboss.job where name = 'brink.mail' and state in ('created', 'retry', 'active')`.execute(db);
     if (rows[0].n === 0) return;
     if (overTime()) throw new Error(`time limit reached with ${rows[0].n} e-mails still queued`);
     await pause(500);
@@ -545,11 +598,21 @@ async function drained(db: Db): Promise<void> {
 
 async function main(): Promise<number> {
   const work = await mkdtemp('/tmp/brink-chaos-');
-  const env: Env = { work, pgDir: path.join(work, 'pg'), pgPort: await freePort(), url: '', base: '', pidFile: path.join(work, 'server.pid'), supervisor: null };
+  const env: Env = {
+    work,
+    pgDir: path.join(work, 'pg'),
+    pgPort: await freePort(),
+    url: '',
+    base: '',
+    pidFile: path.join(work, 'server.pid'),
+    supervisor: null,
+  };
   const catcher = new Catcher();
   let db: Db | null = null;
   try {
-    log(`${opts.kills} kills, ${opts.transitions} transitions, ${opts.inspections} inspections, ${opts.clients} clients; time limit ${opts.timeLimitS} s; in ${work}`);
+    log(
+      `${opts.kills} kills, ${opts.transitions} transitions, ${opts.inspections} inspections, ${opts.clients} clients; time limit ${opts.timeLimitS} s; in ${work}`,
+    );
     env.url = (await cluster('up', env.pgDir, String(env.pgPort))).stdout.trim().split('\n').pop()!;
     db = createDb(createPool(env.url, 3, { name: 'chaos' }));
     await migrateToLatest(db);
@@ -630,13 +693,18 @@ async function main(): Promise<number> {
     );
     figures.ok &&= restarts === stats.kills && stats.pgStops === 1;
     console.log('');
-    for (const [label, value, ok] of figures.rows) console.log(`  ${label.padEnd(74)} ${String(value).padStart(10)}  ${ok === null ? '' : ok ? 'ok' : 'FAILED'}`);
-    console.log(`\n[chaos] ${figures.ok ? 'every invariant holds' : 'INVARIANTS FAILED'} (${((Date.now() - started) / 1000).toFixed(0)} s)`);
+    for (const [label, value, ok] of figures.rows)
+      console.log(`  ${label.padEnd(74)} ${String(value).padStart(10)}  ${ok === null ? '' : ok ? 'ok' : 'FAILED'}`);
+    console.log(
+      `\n[chaos] ${figures.ok ? 'every invariant holds' : 'INVARIANTS FAILED'} (${((Date.now() - started) / 1000).toFixed(0)} s)`,
+    );
     return figures.ok ? 0 : 1;
   } catch (err) {
     console.error(`[chaos] ${(err as Error).message}`);
     try {
-      console.error('--- server log (last lines) ---\n' + (await readFile(path.join(work, 'server.log'), 'utf8')).split('\n').slice(-40).join('\n'));
+      console.error(
+        '--- server log (last lines) ---\n' + (await readFile(path.join(work, 'server.log'), 'utf8')).split('\n').slice(-40).join('\n'),
+      );
     } catch {
       /* no log */
     }

@@ -4,7 +4,14 @@ import { lockfileProblems } from './checkLockfile';
 
 /** The offline dependency check (issue 12): what it refuses, and that the project's own files pass. */
 const sha = 'sha512-' + 'A'.repeat(86) + '==';
-const good = { lockfileVersion: 3, packages: { '': {}, 'node_modules/a': { version: '1.2.3', integrity: sha }, 'node_modules/esbuild': { version: '0.25.0', integrity: sha, hasInstallScript: true } } };
+const good = {
+  lockfileVersion: 3,
+  packages: {
+    '': {},
+    'node_modules/a': { version: '1.2.3', integrity: sha },
+    'node_modules/esbuild': { version: '0.25.0', integrity: sha, hasInstallScript: true },
+  },
+};
 
 describe('offline dependency check', () => {
   it('passes the project\u2019s own package.json and package-lock.json', () => {

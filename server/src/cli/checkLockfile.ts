@@ -42,7 +42,10 @@ const EXACT = /^\d+\.\d+\.\d+(-[0-9A-Za-z.-]+)?(\+[0-9A-Za-z.-]+)?$/;
 export function lockfileProblems(manifest: Manifest, lock: Lock): string[] {
   const out: string[] = [];
   if ((lock.lockfileVersion ?? 0) < 2 || !lock.packages) out.push('package-lock.json: lockfileVersion 2 or 3 with "packages" is required');
-  for (const [kind, deps] of [['dependencies', manifest.dependencies], ['devDependencies', manifest.devDependencies]] as const) {
+  for (const [kind, deps] of [
+    ['dependencies', manifest.dependencies],
+    ['devDependencies', manifest.devDependencies],
+  ] as const) {
     for (const [name, spec] of Object.entries(deps ?? {})) {
       if (!EXACT.test(spec)) out.push(`package.json ${kind}: ${name} is "${spec}", not an exact version (npm i -E ${name}@<version>)`);
     }
@@ -51,9 +54,11 @@ export function lockfileProblems(manifest: Manifest, lock: Lock): string[] {
     if (where === '' || e.link) continue;
     const name = where.replace(/^.*node_modules\//, '');
     if (!e.version || !EXACT.test(e.version)) out.push(`${where}: version ${JSON.stringify(e.version)} is not an exact registry version`);
-    if (e.resolved && !e.resolved.startsWith('https://registry.npmjs.org/')) out.push(`${where}: comes from ${e.resolved}, not the npm registry`);
+    if (e.resolved && !e.resolved.startsWith('https://registry.npmjs.org/'))
+      out.push(`${where}: comes from ${e.resolved}, not the npm registry`);
     if (!e.inBundle && !e.integrity?.startsWith('sha512-')) out.push(`${where}: no sha512 integrity hash`);
-    if (e.hasInstallScript && !INSTALL_SCRIPTS_ALLOWED.includes(name)) out.push(`${where}: runs an install script and is not on INSTALL_SCRIPTS_ALLOWED`);
+    if (e.hasInstallScript && !INSTALL_SCRIPTS_ALLOWED.includes(name))
+      out.push(`${where}: runs an install script and is not on INSTALL_SCRIPTS_ALLOWED`);
   }
   return out;
 }
@@ -64,8 +69,12 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
   const problems = lockfileProblems(manifest, lock);
   const count = Object.keys(lock.packages ?? {}).length - 1;
   if (problems.length) {
-    console.error(`Dependency check: ${problems.length} problem(s) in ${count} locked packages:\n${problems.map((p) => `- ${p}`).join('\n')}`);
+    console.error(
+      `Dependency check: ${problems.length} problem(s) in ${count} locked packages:\n${problems.map((p) => `- ${p}`).join('\n')}`,
+    );
     process.exit(1);
   }
-  console.log(`Dependency check: ${count} locked packages pinned with sha512 hashes; install scripts only from ${INSTALL_SCRIPTS_ALLOWED.join(', ')}. (Known vulnerabilities need \`npm audit\`, online.)`);
+  console.log(
+    `Dependency check: ${count} locked packages pinned with sha512 hashes; install scripts only from ${INSTALL_SCRIPTS_ALLOWED.join(', ')}. (Known vulnerabilities need \`npm audit\`, online.)`,
+  );
 }

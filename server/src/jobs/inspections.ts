@@ -47,7 +47,12 @@ export async function checkOverdueInspections(deps: Deps, opts: { siteIds?: numb
     await deps.db.transaction().execute(async (trx) => {
       const claimed = await trx
         .insertInto('inspection_reminders')
-        .values({ site_id: siteId, shift_start: clock.shift.start, sent_at: now, excavation_ids: JSON.stringify(late.map((e) => e.excavationId)) })
+        .values({
+          site_id: siteId,
+          shift_start: clock.shift.start,
+          sent_at: now,
+          excavation_ids: JSON.stringify(late.map((e) => e.excavationId)),
+        })
         .onConflict((oc) => oc.doNothing())
         .returning('site_id')
         .executeTakeFirst();
@@ -64,7 +69,9 @@ export async function checkOverdueInspections(deps: Deps, opts: { siteIds?: numb
             ...late.map(
               (e) =>
                 `${e.reference} ${e.name}: ${stateLabels[e.state].toLowerCase()}` +
-                (e.lastInspection ? `; last inspected ${formatSiteTime(new Date(e.lastInspection.at), tz)} by ${e.lastInspection.inspector}` : '; never inspected'),
+                (e.lastInspection
+                  ? `; last inspected ${formatSiteTime(new Date(e.lastInspection.at), tz)} by ${e.lastInspection.inspector}`
+                  : '; never inspected'),
             ),
             'Nobody works in or beside them until a competent person has inspected them and found them safe.',
           ],

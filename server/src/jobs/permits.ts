@@ -16,7 +16,10 @@ export async function startPermitJobs(deps: Deps, prefix = 'brink'): Promise<voi
   await deps.boss.work(queue, { pollingIntervalSeconds: 5 }, async () => {
     const out = await runPermitSchedule(deps);
     const n = out.started.length + out.lapsed.length + out.reminded.length;
-    if (n) console.log(`[permits] started ${out.started.join(',') || '-'}; lapsed ${out.lapsed.join(',') || '-'}; reminded ${out.reminded.join(',') || '-'}`);
+    if (n)
+      console.log(
+        `[permits] started ${out.started.join(',') || '-'}; lapsed ${out.lapsed.join(',') || '-'}; reminded ${out.reminded.join(',') || '-'}`,
+      );
   });
   // Catch up at once after a restart rather than waiting for the first minute.
   await runPermitSchedule(deps);

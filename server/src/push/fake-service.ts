@@ -13,7 +13,10 @@ const require = createRequire(import.meta.url);
  * it; API tests start one of their own.
  */
 export async function startFakePushService(port = 0): Promise<{ url: string; close(): Promise<void> }> {
-  const TestingServer = require('web-push-testing/src/server.js') as new (model: unknown, port: number) => {
+  const TestingServer = require('web-push-testing/src/server.js') as new (
+    model: unknown,
+    port: number,
+  ) => {
     _app: { listen(port: number, host: string, cb: () => void): Server };
     setRequestHandlers(): void;
   };

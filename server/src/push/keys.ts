@@ -15,7 +15,8 @@ export interface VapidKeys {
 export function loadOrMakeVapidKeys(file: string): VapidKeys {
   try {
     const kept = JSON.parse(readFileSync(file, 'utf8')) as Partial<VapidKeys>;
-    if (typeof kept.publicKey === 'string' && typeof kept.privateKey === 'string') return { publicKey: kept.publicKey, privateKey: kept.privateKey };
+    if (typeof kept.publicKey === 'string' && typeof kept.privateKey === 'string')
+      return { publicKey: kept.publicKey, privateKey: kept.privateKey };
     throw new Error(`${file} does not hold a publicKey and a privateKey`);
   } catch (err) {
     if ((err as NodeJS.ErrnoException).code !== 'ENOENT') throw err;

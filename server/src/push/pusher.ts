@@ -30,7 +30,12 @@ export const PUSH_QUEUE_OPTIONS = { retryLimit: 12, retryDelay: 1, retryBackoff:
  * other host is refused, so Brink never posts to an address a user typed in; the local fake push
  * service (PUSH_FAKE_SERVICE_URL) is allowed besides these.
  */
-const PUSH_SERVICE_HOSTS = [/^fcm\.googleapis\.com$/, /^updates\.push\.services\.mozilla\.com$/, /(^|\.)push\.apple\.com$/, /(^|\.)notify\.windows\.com$/];
+const PUSH_SERVICE_HOSTS = [
+  /^fcm\.googleapis\.com$/,
+  /^updates\.push\.services\.mozilla\.com$/,
+  /(^|\.)push\.apple\.com$/,
+  /(^|\.)notify\.windows\.com$/,
+];
 
 /** Why an endpoint is refused, or null when Brink may send to it. */
 export function endpointProblem(endpoint: string, config: Pick<Config, 'push'>): string | null {
@@ -117,7 +122,11 @@ export class Pusher {
         if (status >= 400 && status < 500 && status !== 408 && status !== 429) {
           // A refusal a retry would not change (bad payload, keys): logged, not retried.
           console.warn(`[push] subscription ${sub.id}: the push service refused the notification (${status})`);
-          await trx.updateTable('push_deliveries').set({ outcome: `refused ${status}` }).where('key', '=', job.key).execute();
+          await trx
+            .updateTable('push_deliveries')
+            .set({ outcome: `refused ${status}` })
+            .where('key', '=', job.key)
+            .execute();
           return;
         }
         throw err;
@@ -131,11 +140,15 @@ export class Pusher {
    * service is plain http on loopback.
    */
   private async post(sub: { endpoint: string; p256dh: string; auth: string }, message: PushMessage): Promise<void> {
-    const request = webpush.generateRequestDetails({ endpoint: sub.endpoint, keys: { p256dh: sub.p256dh, auth: sub.auth } }, JSON.stringify(message), {
-      vapidDetails: { subject: this.config.push.subject, publicKey: this.keys.publicKey, privateKey: this.keys.privateKey },
-      TTL: 6 * 3600,
-      urgency: 'high',
-    });
+    const request = webpush.generateRequestDetails(
+      { endpoint: sub.endpoint, keys: { p256dh: sub.p256dh, auth: sub.auth } },
+      JSON.stringify(message),
+      {
+        vapidDetails: { subject: this.config.push.subject, publicKey: this.keys.publicKey, privateKey: this.keys.privateKey },
+        TTL: 6 * 3600,
+        urgency: 'high',
+      },
+    );
     const res = await fetch(request.endpoint, {
       method: request.method,
       headers: request.headers as Record<string, string>,

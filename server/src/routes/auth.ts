@@ -74,11 +74,7 @@ export function registerAuthRoutes(api: Api): void {
       if (signIn.blocked(here) || signInAccount.blocked(everywhere)) {
         throw new HttpError(429, 'rate_limited', 'Too many failed sign-ins for this account. Wait 15 minutes or reset the password.');
       }
-      const u = await db
-        .selectFrom('users')
-        .select(['id', 'password_hash', 'active'])
-        .where('email', '=', body.email)
-        .executeTakeFirst();
+      const u = await db.selectFrom('users').select(['id', 'password_hash', 'active']).where('email', '=', body.email).executeTakeFirst();
       const ok = await bcrypt.compare(body.password, u?.password_hash ?? DUMMY_HASH);
       if (!u || !ok || !u.active || !u.password_hash) {
         signIn.hit(here);
@@ -94,7 +90,14 @@ export function registerAuthRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'post', path: '/api/auth/sign-out', responses: { 204: 'Signed out' }, summary: 'Sign out', tag: 'Sign-in', access: { kind: 'public' } },
+    {
+      method: 'post',
+      path: '/api/auth/sign-out',
+      responses: { 204: 'Signed out' },
+      summary: 'Sign out',
+      tag: 'Sign-in',
+      access: { kind: 'public' },
+    },
     async ({ req, res }) => {
       await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
       res.clearCookie('brink.sid', { path: '/' });
@@ -128,7 +131,8 @@ export function registerAuthRoutes(api: Api): void {
     async ({ req, body, res, deps }) => {
       // Per address: refused openly. Per account: quietly (the answer must not tell whether the
       // address has an account), so at most FORGOT_PER_ACCOUNT mails an hour.
-      if (!forgotPerIp.hit(req.ip ?? '')) throw new HttpError(429, 'rate_limited', 'Too many password reset requests from this address. Wait a few minutes and try again.');
+      if (!forgotPerIp.hit(req.ip ?? ''))
+        throw new HttpError(429, 'rate_limited', 'Too many password reset requests from this address. Wait a few minutes and try again.');
       // The same answer at once for known and unknown addresses; the work is done after it.
       res.status(202).json({ message: 'If that address has an account, a reset link is on its way.' });
       if (!forgotPerAccount.hit(accountKey(body.email))) return;
@@ -137,31 +141,36 @@ export function registerAuthRoutes(api: Api): void {
   );
 
   async function sendReset(email: string, deps: typeof api.deps): Promise<void> {
-      const u = await db.selectFrom('users').select(['id', 'name', 'email']).where('email', '=', email).where('active', '=', true).executeTakeFirst();
-      if (u) {
-        const { token, hash } = newToken();
-        await db.transaction().execute(async (trx) => {
-          // A new link revokes the older ones (the person's row locked, so concurrent requests queue).
-          await trx.selectFrom('users').select('id').where('id', '=', u.id).forUpdate().execute();
-          await revokeResets(trx, u.id, deps.now());
-          await trx
-            .insertInto('password_resets')
-            .values({ user_id: u.id, token_hash: hash, expires_at: new Date(deps.now().getTime() + RESET_HOURS * 3600_000) })
-            .execute();
-          await deps.mailer.send(trx, {
-            to: u.email,
-            ...notice({
-              subject: 'Reset your Brink password',
-              lines: [
-                `Hello ${u.name},`,
-                `Someone asked to reset the password of your Brink account. The link works once, for ${RESET_HOURS} hour. If it was not you, ignore this message; your password stays as it is.`,
-              ],
-              link: { label: 'Choose a new password', url: `${config.publicUrl}/reset-password?token=${token}` },
-            }),
-          });
-          await audit(trx, { actorId: u.id, entity: 'user', entityId: u.id, action: 'password-reset-requested' });
+    const u = await db
+      .selectFrom('users')
+      .select(['id', 'name', 'email'])
+      .where('email', '=', email)
+      .where('active', '=', true)
+      .executeTakeFirst();
+    if (u) {
+      const { token, hash } = newToken();
+      await db.transaction().execute(async (trx) => {
+        // A new link revokes the older ones (the person's row locked, so concurrent requests queue).
+        await trx.selectFrom('users').select('id').where('id', '=', u.id).forUpdate().execute();
+        await revokeResets(trx, u.id, deps.now());
+        await trx
+          .insertInto('password_resets')
+          .values({ user_id: u.id, token_hash: hash, expires_at: new Date(deps.now().getTime() + RESET_HOURS * 3600_000) })
+          .execute();
+        await deps.mailer.send(trx, {
+          to: u.email,
+          ...notice({
+            subject: 'Reset your Brink password',
+            lines: [
+              `Hello ${u.name},`,
+              `Someone asked to reset the password of your Brink account. The link works once, for ${RESET_HOURS} hour. If it was not you, ignore this message; your password stays as it is.`,
+            ],
+            link: { label: 'Choose a new password', url: `${config.publicUrl}/reset-password?token=${token}` },
+          }),
         });
-      }
+        await audit(trx, { actorId: u.id, entity: 'user', entityId: u.id, action: 'password-reset-requested' });
+      });
+    }
   }
 
   api.route(
@@ -185,8 +194,16 @@ export function registerAuthRoutes(api: Api): void {
           .where('expires_at', '>', deps.now())
           .returning('user_id')
           .executeTakeFirst();
-        if (!row) throw new HttpError(400, 'invalid_token', 'This reset link has expired or was already used. Ask for a new one.', { token: 'has expired or was already used' });
-        const person = await trx.updateTable('users').set({ password_hash: hash }).where('id', '=', row.user_id).returning('email').executeTakeFirstOrThrow();
+        if (!row)
+          throw new HttpError(400, 'invalid_token', 'This reset link has expired or was already used. Ask for a new one.', {
+            token: 'has expired or was already used',
+          });
+        const person = await trx
+          .updateTable('users')
+          .set({ password_hash: hash })
+          .where('id', '=', row.user_id)
+          .returning('email')
+          .executeTakeFirstOrThrow();
         // Every other session and reset link of that person ends, and the sign-in locks on the account clear.
         await endSessionsOf(trx, row.user_id);
         await revokeResets(trx, row.user_id, deps.now());
@@ -211,7 +228,14 @@ export function registerAuthRoutes(api: Api): void {
       const inv = await db
         .selectFrom('invitations')
         .leftJoin('sites', 'sites.id', 'invitations.site_id')
-        .select(['invitations.email', 'invitations.name', 'invitations.role', 'invitations.used_at', 'invitations.expires_at', 'sites.name as siteName'])
+        .select([
+          'invitations.email',
+          'invitations.name',
+          'invitations.role',
+          'invitations.used_at',
+          'invitations.expires_at',
+          'sites.name as siteName',
+        ])
         .where('token_hash', '=', hashToken(params.token))
         .executeTakeFirst();
       if (!inv) throw new HttpError(404, 'not_found', 'This invitation link is not valid.');
@@ -243,17 +267,37 @@ export function registerAuthRoutes(api: Api): void {
           .where('expires_at', '>', deps.now())
           .returningAll()
           .executeTakeFirst();
-        if (!inv) throw new HttpError(400, 'invalid_token', 'This invitation has expired or was already used. Ask an administrator for a new one.', { token: 'has expired or was already used' });
+        if (!inv)
+          throw new HttpError(
+            400,
+            'invalid_token',
+            'This invitation has expired or was already used. Ask an administrator for a new one.',
+            { token: 'has expired or was already used' },
+          );
         const existing = await trx.selectFrom('users').select(['id', 'active']).where('email', '=', inv.email).executeTakeFirst();
         if (existing && !existing.active) {
-          throw new HttpError(403, 'deactivated', 'This account has been deactivated; an invitation cannot reactivate it. Ask an administrator.');
+          throw new HttpError(
+            403,
+            'deactivated',
+            'This account has been deactivated; an invitation cannot reactivate it. Ask an administrator.',
+          );
         }
         let id: number;
         if (existing) {
-          await trx.updateTable('users').set({ name: body.name, password_hash: hash, active: true, ...(inv.is_admin ? { is_admin: true } : {}) }).where('id', '=', existing.id).execute();
+          await trx
+            .updateTable('users')
+            .set({ name: body.name, password_hash: hash, active: true, ...(inv.is_admin ? { is_admin: true } : {}) })
+            .where('id', '=', existing.id)
+            .execute();
           id = existing.id;
         } else {
-          id = (await trx.insertInto('users').values({ email: inv.email, name: body.name, password_hash: hash, is_admin: inv.is_admin }).returning('id').executeTakeFirstOrThrow()).id;
+          id = (
+            await trx
+              .insertInto('users')
+              .values({ email: inv.email, name: body.name, password_hash: hash, is_admin: inv.is_admin })
+              .returning('id')
+              .executeTakeFirstOrThrow()
+          ).id;
         }
         if (inv.site_id && inv.role) {
           await trx

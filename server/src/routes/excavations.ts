@@ -22,7 +22,16 @@ import type { Db } from '@db/database';
 import { Api, badRequest, conflict, HttpError, notFound, parseOr400, siteAccessOf, siteFromParam, type SiteAccess } from '../http';
 import { audit } from '../services/audit';
 import { listNumbers, permitsReferring } from '../services/permit-references';
-import { columnsOf, loadExcavations, placementProblems, projectionOf, readImport, rowValues, storedShapes, toFeatureCollection } from '../services/excavations';
+import {
+  columnsOf,
+  loadExcavations,
+  placementProblems,
+  projectionOf,
+  readImport,
+  rowValues,
+  storedShapes,
+  toFeatureCollection,
+} from '../services/excavations';
 import { isForeignKeyViolation, isUniqueViolation } from '../services/pg-errors';
 import { filesOf, limits, MB, receiveFiles, storeUpload } from '../services/uploads';
 import { recheckAfterExcavationChange, type RecheckOutcome } from '../services/permits/recheck';
@@ -68,7 +77,9 @@ function designFieldsInImport(text: string): string[] {
   try {
     const doc = JSON.parse(text.replace(/^\uFEFF/, '')) as { features?: unknown };
     if (!Array.isArray(doc?.features)) return [];
-    return doc.features.flatMap((f: unknown, i: number) => designFieldsIn((f as { properties?: unknown } | null)?.properties).map((k) => `features[${i}].${k}`));
+    return doc.features.flatMap((f: unknown, i: number) =>
+      designFieldsIn((f as { properties?: unknown } | null)?.properties).map((k) => `features[${i}].${k}`),
+    );
   } catch {
     return [];
   }
@@ -87,7 +98,12 @@ async function siteOrigin(db: Db, siteId: number) {
 function checkPlacement(values: ExcavationValues, site: { latitude: number; longitude: number }): void {
   const fields = placementProblems(values, projectionOf(site));
   if (Object.keys(fields).length) {
-    throw badRequest(`Please correct the request: ${Object.entries(fields).map(([k, v]) => `${k} ${v}`).join('; ')}`, fields);
+    throw badRequest(
+      `Please correct the request: ${Object.entries(fields)
+        .map(([k, v]) => `${k} ${v}`)
+        .join('; ')}`,
+      fields,
+    );
   }
 }
 
@@ -110,14 +126,28 @@ async function oneOrNotFound(db: Db, siteId: number, id: number) {
 }
 
 function safeFileName(s: string): string {
-  return s.replace(/[^A-Za-z0-9 _-]+/g, '').trim().replace(/\s+/g, '-').toLowerCase() || 'site';
+  return (
+    s
+      .replace(/[^A-Za-z0-9 _-]+/g, '')
+      .trim()
+      .replace(/\s+/g, '-')
+      .toLowerCase() || 'site'
+  );
 }
 
 export function registerExcavationRoutes(api: Api): void {
   const { db } = api.deps;
 
   api.route(
-    { method: 'get', path: '/api/sites/:siteId/excavations', response: excavationsAnswer, summary: "The site's excavations with their supports, soil, outline and influence zone", tag: 'Excavations', access: siteReaders, params: siteParams },
+    {
+      method: 'get',
+      path: '/api/sites/:siteId/excavations',
+      response: excavationsAnswer,
+      summary: "The site's excavations with their supports, soil, outline and influence zone",
+      tag: 'Excavations',
+      access: siteReaders,
+      params: siteParams,
+    },
     async ({ params }) => {
       await siteOrigin(db, params.siteId);
       return { excavations: await loadExcavations(db, params.siteId) };
@@ -129,7 +159,8 @@ export function registerExcavationRoutes(api: Api): void {
       method: 'post',
       path: '/api/sites/:siteId/excavations',
       response: oneExcavationAnswer,
-      summary: 'Add an excavation (supervisors, coordinators); the geometry is checked (valid, not crossing itself, within 5 km of the site)',
+      summary:
+        'Add an excavation (supervisors, coordinators); the geometry is checked (valid, not crossing itself, within 5 km of the site)',
       tag: 'Excavations',
       access: siteWriters,
       params: siteParams,
@@ -149,7 +180,14 @@ export function registerExcavationRoutes(api: Api): void {
             .values({ ...columnsOf(body), ...shapes, site_id: site.id, created_by: user.id })
             .returning('id')
             .executeTakeFirstOrThrow();
-          await audit(trx, { actorId: user.id, siteId: site.id, entity: 'excavation', entityId: r.id, action: 'created', detail: { values: body } });
+          await audit(trx, {
+            actorId: user.id,
+            siteId: site.id,
+            entity: 'excavation',
+            entityId: r.id,
+            action: 'created',
+            detail: { values: body },
+          });
           return r.id;
         })
         .catch((e) => {
@@ -177,10 +215,18 @@ export function registerExcavationRoutes(api: Api): void {
       const rechecked: RecheckOutcome[] = await db
         .transaction()
         .execute(async (trx) => {
-          const old = await trx.selectFrom('excavations').selectAll().where('id', '=', params.id).where('site_id', '=', site.id).forUpdate().executeTakeFirst();
+          const old = await trx
+            .selectFrom('excavations')
+            .selectAll()
+            .where('id', '=', params.id)
+            .where('site_id', '=', site.id)
+            .forUpdate()
+            .executeTakeFirst();
           if (!old) throw notFound('That excavation');
           if (old.version !== body.version) {
-            throw conflict(`Someone changed ${old.reference} since you opened it (version ${old.version}, yours ${body.version}); reload it and make your change again.`);
+            throw conflict(
+              `Someone changed ${old.reference} since you opened it (version ${old.version}, yours ${body.version}); reload it and make your change again.`,
+            );
           }
           const before = rowValues(old);
           const { version: _v, ...changes } = body;
@@ -200,7 +246,10 @@ export function registerExcavationRoutes(api: Api): void {
             .execute();
           // The permits that stand on it are re-checked in this transaction: the change and its
           // consequences (suspensions, reviews, notices) commit together.
-          const outcomes = await recheckAfterExcavationChange({ ...deps, db: trx }, { siteId: site.id, excavationId: old.id, before, after, by: user.name });
+          const outcomes = await recheckAfterExcavationChange(
+            { ...deps, db: trx },
+            { siteId: site.id, excavationId: old.id, before, after, by: user.name },
+          );
           const supportChanged = SUPPORT_FIELDS.filter((f) => f in diff);
           await audit(trx, {
             actorId: user.id,
@@ -208,7 +257,12 @@ export function registerExcavationRoutes(api: Api): void {
             entity: 'excavation',
             entityId: old.id,
             action: supportChanged.length ? 'depth-or-support-changed' : 'updated',
-            detail: { reference: after.reference, changes: diff, version: old.version + 1, ...(outcomes.length ? { rechecked: outcomes } : {}) },
+            detail: {
+              reference: after.reference,
+              changes: diff,
+              version: old.version + 1,
+              ...(outcomes.length ? { rechecked: outcomes } : {}),
+            },
           });
           return outcomes;
         })
@@ -220,23 +274,52 @@ export function registerExcavationRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'delete', path: '/api/sites/:siteId/excavations/:id', responses: { 204: 'Removed' }, summary: 'Remove an excavation from the register (its record stays in the audit log)', tag: 'Excavations', access: siteWriters, params: oneParams },
+    {
+      method: 'delete',
+      path: '/api/sites/:siteId/excavations/:id',
+      responses: { 204: 'Removed' },
+      summary: 'Remove an excavation from the register (its record stays in the audit log)',
+      tag: 'Excavations',
+      access: siteWriters,
+      params: oneParams,
+    },
     async ({ params, user }) => {
       await db
         .transaction()
         .execute(async (trx) => {
           // The excavation is found on this site first: one of a site the caller cannot see answers
           // 404 like a missing one, and the 409 below names only this site's permits.
-          const mine = await trx.selectFrom('excavations').select('id').where('id', '=', params.id).where('site_id', '=', params.siteId).forUpdate().executeTakeFirst();
+          const mine = await trx
+            .selectFrom('excavations')
+            .select('id')
+            .where('id', '=', params.id)
+            .where('site_id', '=', params.siteId)
+            .forUpdate()
+            .executeTakeFirst();
           if (!mine) throw notFound('That excavation');
           const named = await permitsReferring(trx, { excavationId: params.id, siteId: params.siteId });
-          if (named.length) throw conflict(`That excavation is named on permit ${listNumbers(named)}; set it to backfilled instead of removing it.`);
-          const old = await trx.deleteFrom('excavations').where('id', '=', params.id).where('site_id', '=', params.siteId).returningAll().executeTakeFirst();
+          if (named.length)
+            throw conflict(`That excavation is named on permit ${listNumbers(named)}; set it to backfilled instead of removing it.`);
+          const old = await trx
+            .deleteFrom('excavations')
+            .where('id', '=', params.id)
+            .where('site_id', '=', params.siteId)
+            .returningAll()
+            .executeTakeFirst();
           if (!old) throw notFound('That excavation');
-          await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'excavation', entityId: old.id, action: 'deleted', detail: { values: rowValues(old) } });
+          await audit(trx, {
+            actorId: user.id,
+            siteId: params.siteId,
+            entity: 'excavation',
+            entityId: old.id,
+            action: 'deleted',
+            detail: { values: rowValues(old) },
+          });
         })
         .catch((e) => {
-          throw isForeignKeyViolation(e) ? conflict('That excavation is named on permits or inspections; set it to backfilled instead of removing it.') : e;
+          throw isForeignKeyViolation(e)
+            ? conflict('That excavation is named on permits or inspections; set it to backfilled instead of removing it.')
+            : e;
         });
     },
   );
@@ -269,7 +352,7 @@ export function registerExcavationRoutes(api: Api): void {
           at: new Date(r.at).toISOString(),
           by: r.by ?? 'unknown',
           action: r.action,
-          changes: ((r.detail as { changes?: Record<string, { from: unknown; to: unknown }> }).changes ?? null),
+          changes: (r.detail as { changes?: Record<string, { from: unknown; to: unknown }> }).changes ?? null,
         })),
       };
     },
@@ -309,7 +392,11 @@ export function registerExcavationRoutes(api: Api): void {
     },
     async ({ req, res, params, user }) => {
       const site = await siteOrigin(db, params.siteId);
-      const { mode } = parseOr400(z.object({ mode: z.enum(importModes, { error: oneOf(importModeLabels) }).default('add') }), req.body ?? {}, 'request');
+      const { mode } = parseOr400(
+        z.object({ mode: z.enum(importModes, { error: oneOf(importModeLabels) }).default('add') }),
+        req.body ?? {},
+        'request',
+      );
       const [file] = filesOf(req, 'file');
       if (!file) throw badRequest('Please choose a GeoJSON file.', { file: 'is required' });
       const text = file.buffer.toString('utf8');
@@ -321,30 +408,49 @@ export function registerExcavationRoutes(api: Api): void {
       if (plan.fileError) throw badRequest(`The file ${plan.fileError}.`, { file: plan.fileError });
 
       const existing = new Map(
-        (await db.selectFrom('excavations').select(['id', 'reference']).where('site_id', '=', site.id).execute()).map((r) => [r.reference, r.id]),
+        (await db.selectFrom('excavations').select(['id', 'reference']).where('site_id', '=', site.id).execute()).map((r) => [
+          r.reference,
+          r.id,
+        ]),
       );
       const refused = [...plan.refused];
       if (mode === 'add') {
         for (const f of plan.features) {
           if (existing.has(f.values.reference)) {
-            refused.push({ index: f.index, reference: f.values.reference, reasons: { reference: `is already used on this site: to update it, choose "${importModeLabels.replace}" under "${IMPORT_MODE_LABEL}"` } });
+            refused.push({
+              index: f.index,
+              reference: f.values.reference,
+              reasons: {
+                reference: `is already used on this site: to update it, choose "${importModeLabels.replace}" under "${IMPORT_MODE_LABEL}"`,
+              },
+            });
           }
         }
       }
       if (refused.length) {
         refused.sort((a, b) => a.index - b.index);
         const total = plan.features.length + plan.refused.length;
-        const fields = Object.fromEntries(refused.flatMap((r) => Object.entries(r.reasons).map(([k, v]) => [`features[${r.index}].${k}`, v])));
+        const fields = Object.fromEntries(
+          refused.flatMap((r) => Object.entries(r.reasons).map(([k, v]) => [`features[${r.index}].${k}`, v])),
+        );
         const report: ImportReport = { imported: [], refused };
         res.status(400).json({
-          error: { code: 'invalid', message: `Nothing was imported: ${refused.length} of ${total} features ${refused.length === 1 ? 'was' : 'were'} refused.`, fields },
+          error: {
+            code: 'invalid',
+            message: `Nothing was imported: ${refused.length} of ${total} features ${refused.length === 1 ? 'was' : 'were'} refused.`,
+            fields,
+          },
           report,
         });
         return;
       }
 
       // Drawn in the geometry workers before the transaction opens, so no row is locked meanwhile.
-      const shapes = await storedShapes(api.deps.geometry, plan.features.map((f) => f.values), site);
+      const shapes = await storedShapes(
+        api.deps.geometry,
+        plan.features.map((f) => f.values),
+        site,
+      );
       const report: ImportReport = await db
         .transaction()
         .execute(async (trx) => {
@@ -352,8 +458,19 @@ export function registerExcavationRoutes(api: Api): void {
           for (const [n, { index, values }] of plan.features.entries()) {
             const oldId = existing.get(values.reference);
             if (oldId === undefined) {
-              const r = await trx.insertInto('excavations').values({ ...columnsOf(values), ...shapes[n], site_id: site.id, created_by: user.id }).returning('id').executeTakeFirstOrThrow();
-              await audit(trx, { actorId: user.id, siteId: site.id, entity: 'excavation', entityId: r.id, action: 'imported', detail: { values } });
+              const r = await trx
+                .insertInto('excavations')
+                .values({ ...columnsOf(values), ...shapes[n], site_id: site.id, created_by: user.id })
+                .returning('id')
+                .executeTakeFirstOrThrow();
+              await audit(trx, {
+                actorId: user.id,
+                siteId: site.id,
+                entity: 'excavation',
+                entityId: r.id,
+                action: 'imported',
+                detail: { values },
+              });
               imported.push({ index, reference: values.reference, id: r.id, action: 'created' });
             } else {
               const old = await trx.selectFrom('excavations').selectAll().where('id', '=', oldId).forUpdate().executeTakeFirstOrThrow();
@@ -363,14 +480,22 @@ export function registerExcavationRoutes(api: Api): void {
                 .set({ ...columnsOf(values), ...shapes[n], version: old.version + 1, updated_at: api.deps.now() })
                 .where('id', '=', oldId)
                 .execute();
-              const outcomes = await recheckAfterExcavationChange({ ...api.deps, db: trx }, { siteId: site.id, excavationId: oldId, before: rowValues(old), after: values, by: user.name });
+              const outcomes = await recheckAfterExcavationChange(
+                { ...api.deps, db: trx },
+                { siteId: site.id, excavationId: oldId, before: rowValues(old), after: values, by: user.name },
+              );
               await audit(trx, {
                 actorId: user.id,
                 siteId: site.id,
                 entity: 'excavation',
                 entityId: oldId,
                 action: 'import-replaced',
-                detail: { reference: values.reference, changes: diff, version: old.version + 1, ...(outcomes.length ? { rechecked: outcomes } : {}) },
+                detail: {
+                  reference: values.reference,
+                  changes: diff,
+                  version: old.version + 1,
+                  ...(outcomes.length ? { rechecked: outcomes } : {}),
+                },
               });
               imported.push({ index, reference: values.reference, id: oldId, action: 'updated' });
             }
@@ -378,7 +503,9 @@ export function registerExcavationRoutes(api: Api): void {
           return { imported, refused: [] };
         })
         .catch((e) => {
-          throw isUniqueViolation(e) ? conflict('Someone added an excavation with one of these references meanwhile; nothing was imported. Try again.') : e;
+          throw isUniqueViolation(e)
+            ? conflict('Someone added an excavation with one of these references meanwhile; nothing was imported. Try again.')
+            : e;
         });
       return { report };
     },
@@ -400,18 +527,46 @@ export function registerExcavationRoutes(api: Api): void {
       const before = await oneOrNotFound(db, params.siteId, params.id);
       const [file] = filesOf(req, 'file');
       if (!file) throw badRequest('Please choose the drawing (a PDF).', { file: 'is required' });
-      const stored = await storeUpload(deps, file, { field: 'file', accept: 'pdf', purpose: 'drawing', siteId: params.siteId, userId: user.id });
-      await setDrawing(db, { siteId: params.siteId, id: before.id, uploadId: stored.id, actorId: user.id, now: deps.now(), detail: { name: stored.originalName, size: stored.size, replaced: before.drawing?.name ?? null } });
+      const stored = await storeUpload(deps, file, {
+        field: 'file',
+        accept: 'pdf',
+        purpose: 'drawing',
+        siteId: params.siteId,
+        userId: user.id,
+      });
+      await setDrawing(db, {
+        siteId: params.siteId,
+        id: before.id,
+        uploadId: stored.id,
+        actorId: user.id,
+        now: deps.now(),
+        detail: { name: stored.originalName, size: stored.size, replaced: before.drawing?.name ?? null },
+      });
       return { excavation: await oneOrNotFound(db, params.siteId, params.id) };
     },
   );
 
   api.route(
-    { method: 'delete', path: '/api/sites/:siteId/excavations/:id/drawing', response: oneExcavationAnswer, summary: 'Detach the design drawing of an excavation (the file stays in the audit trail)', tag: 'Excavations', access: siteWriters, params: oneParams },
+    {
+      method: 'delete',
+      path: '/api/sites/:siteId/excavations/:id/drawing',
+      response: oneExcavationAnswer,
+      summary: 'Detach the design drawing of an excavation (the file stays in the audit trail)',
+      tag: 'Excavations',
+      access: siteWriters,
+      params: oneParams,
+    },
     async ({ params, user, deps }) => {
       const before = await oneOrNotFound(db, params.siteId, params.id);
       if (!before.drawing) return { excavation: before };
-      await setDrawing(db, { siteId: params.siteId, id: before.id, uploadId: null, actorId: user.id, now: deps.now(), detail: { removed: before.drawing.name } });
+      await setDrawing(db, {
+        siteId: params.siteId,
+        id: before.id,
+        uploadId: null,
+        actorId: user.id,
+        now: deps.now(),
+        detail: { removed: before.drawing.name },
+      });
       return { excavation: await oneOrNotFound(db, params.siteId, params.id) };
     },
   );
@@ -430,6 +585,13 @@ async function setDrawing(
       .returning('reference')
       .executeTakeFirst();
     if (!r) throw notFound('That excavation');
-    await audit(trx, { actorId: o.actorId, siteId: o.siteId, entity: 'excavation', entityId: o.id, action: o.uploadId ? 'drawing-attached' : 'drawing-removed', detail: { reference: r.reference, ...o.detail } });
+    await audit(trx, {
+      actorId: o.actorId,
+      siteId: o.siteId,
+      entity: 'excavation',
+      entityId: o.id,
+      action: o.uploadId ? 'drawing-attached' : 'drawing-removed',
+      detail: { reference: r.reference, ...o.detail },
+    });
   });
 }

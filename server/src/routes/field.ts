@@ -2,7 +2,13 @@ import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import type { Request } from 'express';
 import { idSchema } from '@shared/schemas/common';
-import { CONCERN_PHOTOS_MAX, concernFormSchema, idempotencyKeySchema, type FieldPermitAnswer, type FieldPermitsAnswer } from '@shared/schemas/field';
+import {
+  CONCERN_PHOTOS_MAX,
+  concernFormSchema,
+  idempotencyKeySchema,
+  type FieldPermitAnswer,
+  type FieldPermitsAnswer,
+} from '@shared/schemas/field';
 import { Api, badRequest, conflict, notFound, parseOr400, siteOfRow } from '../http';
 import { notice } from '../mail/mailer';
 import { audit } from '../services/audit';
@@ -19,7 +25,10 @@ class Replay extends Error {}
 function idempotencyKeyOf(req: Request, fromBody: string | undefined): string | null {
   const header = req.get('Idempotency-Key');
   const key = header === undefined ? undefined : parseOr400(idempotencyKeySchema, header, 'Idempotency-Key header');
-  if (key && fromBody && key !== fromBody) throw badRequest('The Idempotency-Key header and the idempotencyKey field differ.', { idempotencyKey: 'differs from the Idempotency-Key header' });
+  if (key && fromBody && key !== fromBody)
+    throw badRequest('The Idempotency-Key header and the idempotencyKey field differ.', {
+      idempotencyKey: 'differs from the Idempotency-Key header',
+    });
   return key ?? fromBody ?? null;
 }
 
@@ -38,7 +47,8 @@ export function registerFieldRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/field/permits',
-      summary: 'The permits that name me as an operator (approved, live, suspended, or closed in the last 12 hours), each with its zones, for the phone',
+      summary:
+        'The permits that name me as an operator (approved, live, suspended, or closed in the last 12 hours), each with its zones, for the phone',
       tag: 'Field',
       access: { kind: 'signedIn' },
     },
@@ -96,7 +106,8 @@ export function registerFieldRoutes(api: Api): void {
       if (await replay()) return;
 
       const excavation = await permitNamesExcavation(db, params.id, body.excavationId);
-      if (!excavation) throw badRequest('Choose one of the excavations this permit names.', { excavationId: 'is not one of this permit’s excavations' });
+      if (!excavation)
+        throw badRequest('Choose one of the excavations this permit names.', { excavationId: 'is not one of this permit’s excavations' });
       const photos = filesOf(req, 'photo');
       const now = deps.now();
       let concernId: number;
@@ -105,9 +116,16 @@ export function registerFieldRoutes(api: Api): void {
           const photoIds: number[] = [];
           for (const [i, f] of photos.entries()) {
             const field = photos.length > 1 ? `photo[${i}]` : 'photo';
-            photoIds.push((await storeUpload(deps, f, { field, accept: 'image', purpose: 'concern-photo', siteId: site.id, userId: user.id, db: trx })).id);
+            photoIds.push(
+              (await storeUpload(deps, f, { field, accept: 'image', purpose: 'concern-photo', siteId: site.id, userId: user.id, db: trx }))
+                .id,
+            );
           }
-          const permit = await trx.selectFrom('permits').select(['revision', 'number']).where('id', '=', params.id).executeTakeFirstOrThrow();
+          const permit = await trx
+            .selectFrom('permits')
+            .select(['revision', 'number'])
+            .where('id', '=', params.id)
+            .executeTakeFirstOrThrow();
           const row = await trx
             .insertInto('concerns')
             .values({
@@ -137,10 +155,22 @@ export function registerFieldRoutes(api: Api): void {
               from_status: null,
               to_status: null,
               comment: body.note,
-              detail: JSON.stringify({ concernId: row.id, excavationId: body.excavationId, excavationReference: excavation.reference, photoIds }),
+              detail: JSON.stringify({
+                concernId: row.id,
+                excavationId: body.excavationId,
+                excavationReference: excavation.reference,
+                photoIds,
+              }),
             })
             .execute();
-          await audit(trx, { actorId: user.id, siteId: site.id, entity: 'permit', entityId: params.id, action: 'concern', detail: { number: permit.number, concernId: row.id } });
+          await audit(trx, {
+            actorId: user.id,
+            siteId: site.id,
+            entity: 'permit',
+            entityId: params.id,
+            action: 'concern',
+            detail: { number: permit.number, concernId: row.id },
+          });
           // The notices are queued in the same transaction as the concern.
           const facts = await trx
             .selectFrom('permits as p')
@@ -153,13 +183,24 @@ export function registerFieldRoutes(api: Api): void {
             lines: [
               `${user.name} reported a concern on permit ${facts.number} at ${facts.site_name}, about excavation ${excavation.reference}.`,
               `"${body.note}"`,
-              photos.length ? `${photos.length === 1 ? 'One photo is' : `${photos.length} photos are`} on the permit's timeline.` : 'No photo was sent.',
+              photos.length
+                ? `${photos.length === 1 ? 'One photo is' : `${photos.length} photos are`} on the permit's timeline.`
+                : 'No photo was sent.',
               'Please look at it and decide whether work under the permit must stop.',
             ],
             link: { label: `Open permit ${facts.number}`, url: `${deps.config.publicUrl}/permits/${params.id}` },
           });
           for (const to of await concernRecipients(trx, site.id, user.id)) await deps.mailer.send(trx, { to, ...message });
-          await pushConcern({ ...deps, db: trx }, { permitId: params.id, number: facts.number, reporterId: user.id, reporterName: user.name, excavationReference: excavation.reference });
+          await pushConcern(
+            { ...deps, db: trx },
+            {
+              permitId: params.id,
+              number: facts.number,
+              reporterId: user.id,
+              reporterName: user.name,
+              excavationReference: excavation.reference,
+            },
+          );
           return row.id;
         });
       } catch (err) {

@@ -1,6 +1,19 @@
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
-import { MAX_PHOTOS, answerLabels, checklist, excavationInspectionsAnswer, inspectionInputSchema, inspectionStatesAnswer, outcomeLabels, reasonLabels, recordedInspectionAnswer, shiftsAnswer as shiftsAnswerSchema, shiftsInputSchema, weekQuerySchema } from '@shared/schemas/inspections';
+import {
+  MAX_PHOTOS,
+  answerLabels,
+  checklist,
+  excavationInspectionsAnswer,
+  inspectionInputSchema,
+  inspectionStatesAnswer,
+  outcomeLabels,
+  reasonLabels,
+  recordedInspectionAnswer,
+  shiftsAnswer as shiftsAnswerSchema,
+  shiftsInputSchema,
+  weekQuerySchema,
+} from '@shared/schemas/inspections';
 import { isoWeekAt, isoWeekRange, siteTimestamp } from '@shared/time/shifts';
 import { toCsv } from '@shared/csv';
 import { Api, badRequest, parseOr400, siteFromParam, siteOfRow } from '../http';
@@ -41,16 +54,31 @@ export function registerInspectionRoutes(api: Api): void {
         'A "not-safe" outcome suspends every live permit on the excavation and e-mails the site\u2019s supervisors and coordinators. ' +
         'Sending the same clientRef again answers 200 with the inspection already recorded.',
       tag: 'Inspections',
-      access: { kind: 'site', roles: ['supervisor', 'coordinator', 'operator'], siteId: excavationSite, allow: (m) => m.role !== 'operator' || m.canInspect },
+      access: {
+        kind: 'site',
+        roles: ['supervisor', 'coordinator', 'operator'],
+        siteId: excavationSite,
+        allow: (m) => m.role !== 'operator' || m.canInspect,
+      },
       params: excavationParams,
       before: [receiveFiles(['photos'], limits.image, MAX_PHOTOS)],
       files: ['photos'],
       formJson: { field: 'inspection', schema: inspectionInputSchema },
-      responses: { 201: 'Recorded', 200: 'Already recorded (same clientRef)', 409: 'The excavation is not open', 413: 'A photo is larger than 10 MB' },
+      responses: {
+        201: 'Recorded',
+        200: 'Already recorded (same clientRef)',
+        409: 'The excavation is not open',
+        413: 'A photo is larger than 10 MB',
+      },
     },
     async ({ req, res, params, user, deps }) => {
       const data = parseOr400(inspectionInputSchema, readInspectionBody(req), 'inspection');
-      const { inspection, created, consequences } = await recordInspection(deps, { excavationId: params.id, inspectorId: user.id, data, photos: filesOf(req, 'photos') });
+      const { inspection, created, consequences } = await recordInspection(deps, {
+        excavationId: params.id,
+        inspectorId: user.id,
+        data,
+        photos: filesOf(req, 'photos'),
+      });
       res.status(created ? 201 : 200).json({ inspection, consequences });
     },
   );
@@ -94,15 +122,36 @@ export function registerInspectionRoutes(api: Api): void {
       const { timeZone } = await siteClock(db, exc.site_id, api.deps.now());
       const list = await loadInspections(db, { excavationId: exc.id });
       const header = [
-        'inspection', 'excavation', 'shift', 'shift start', 'inspected at', 'time zone', 'inspector', 'reason', 'what happened',
+        'inspection',
+        'excavation',
+        'shift',
+        'shift start',
+        'inspected at',
+        'time zone',
+        'inspector',
+        'reason',
+        'what happened',
         ...checklist.flatMap((c) => [c.label, `${c.label} note`]),
-        'outcome', 'remarks', 'photos', 'permits suspended',
+        'outcome',
+        'remarks',
+        'photos',
+        'permits suspended',
       ];
       const rows = list.map((i) => [
-        i.id, exc.reference, i.shift.name, siteTimestamp(new Date(i.shift.start), timeZone), siteTimestamp(new Date(i.inspectedAt), timeZone), timeZone,
-        i.inspector.name, reasonLabels[i.reason], i.reasonDetail,
+        i.id,
+        exc.reference,
+        i.shift.name,
+        siteTimestamp(new Date(i.shift.start), timeZone),
+        siteTimestamp(new Date(i.inspectedAt), timeZone),
+        timeZone,
+        i.inspector.name,
+        reasonLabels[i.reason],
+        i.reasonDetail,
         ...checklist.flatMap((c) => [answerLabels[i.checklist[c.key]?.answer] ?? '', i.checklist[c.key]?.note ?? '']),
-        outcomeLabels[i.outcome], i.remarks, i.photos.length, i.suspendedPermits.map((p) => p.reference).join(' '),
+        outcomeLabels[i.outcome],
+        i.remarks,
+        i.photos.length,
+        i.suspendedPermits.map((p) => p.reference).join(' '),
       ]);
       res.setHeader('Content-Type', 'text/csv; charset=utf-8');
       res.setHeader('Content-Disposition', `attachment; filename="inspections-${exc.reference.replace(/[^A-Za-z0-9_-]+/g, '_')}.csv"`);
@@ -115,7 +164,8 @@ export function registerInspectionRoutes(api: Api): void {
       method: 'get',
       path: '/api/sites/:siteId/inspections/states',
       response: inspectionStatesAnswer,
-      summary: 'Where every open excavation of the site stands this shift: ok, due, overdue or unsafe (for the map, register and dashboards)',
+      summary:
+        'Where every open excavation of the site stands this shift: ok, due, overdue or unsafe (for the map, register and dashboards)',
       tag: 'Inspections',
       access: readSite,
       params: siteParams,
@@ -146,7 +196,8 @@ export function registerInspectionRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/sites/:siteId/inspections/report.pdf',
-      summary: 'The weekly inspection report of a site as a PDF (week: ISO week such as 2026-W14; default this week on the site\u2019s clock)',
+      summary:
+        'The weekly inspection report of a site as a PDF (week: ISO week such as 2026-W14; default this week on the site\u2019s clock)',
       tag: 'Inspections',
       access: readSite,
       params: siteParams,
@@ -206,7 +257,8 @@ function shiftsAnswer(clock: SiteClock) {
 function readInspectionBody(req: { is(type: string): string | false | null; body?: unknown }): unknown {
   if (!req.is('multipart/form-data')) return req.body ?? {};
   const raw = (req.body as Record<string, unknown> | undefined)?.inspection;
-  if (typeof raw !== 'string') throw badRequest('The form is missing: send it as JSON in the field `inspection`.', { inspection: 'is required' });
+  if (typeof raw !== 'string')
+    throw badRequest('The form is missing: send it as JSON in the field `inspection`.', { inspection: 'is required' });
   try {
     return JSON.parse(raw);
   } catch {

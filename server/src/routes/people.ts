@@ -48,7 +48,14 @@ export function registerPeopleRoutes(api: Api): void {
           })
           .returning('id')
           .executeTakeFirstOrThrow();
-        await audit(trx, { actorId: user.id, siteId: body.siteId, entity: 'invitation', entityId: inv.id, action: 'created', detail: { email: body.email, role: body.role, isAdmin: body.isAdmin } });
+        await audit(trx, {
+          actorId: user.id,
+          siteId: body.siteId,
+          entity: 'invitation',
+          entityId: inv.id,
+          action: 'created',
+          detail: { email: body.email, role: body.role, isAdmin: body.isAdmin },
+        });
         // The e-mail is queued in the same transaction: no invitation without its message.
         await deps.mailer.send(trx, {
           to: body.email,
@@ -71,7 +78,14 @@ export function registerPeopleRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'get', path: '/api/users', response: peopleAnswer, summary: 'Everyone, with their site roles', tag: 'People', access: { kind: 'admin' } },
+    {
+      method: 'get',
+      path: '/api/users',
+      response: peopleAnswer,
+      summary: 'Everyone, with their site roles',
+      tag: 'People',
+      access: { kind: 'admin' },
+    },
     async () => ({ users: await loadPeople(db) }),
   );
 
@@ -134,7 +148,14 @@ export function registerPeopleRoutes(api: Api): void {
           .values({ site_id: params.siteId, user_id: params.id, role: body.role, can_inspect: body.canInspect })
           .onConflict((oc) => oc.columns(['site_id', 'user_id']).doUpdateSet({ role: body.role, can_inspect: body.canInspect }))
           .execute();
-        await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'user', entityId: params.id, action: 'role-set', detail: body });
+        await audit(trx, {
+          actorId: user.id,
+          siteId: params.siteId,
+          entity: 'user',
+          entityId: params.id,
+          action: 'role-set',
+          detail: body,
+        });
       });
       const [p] = await loadPeople(db, [params.id]);
       return { user: p };
@@ -153,7 +174,11 @@ export function registerPeopleRoutes(api: Api): void {
     },
     async ({ params, user }) => {
       await db.transaction().execute(async (trx) => {
-        const r = await trx.deleteFrom('site_members').where('site_id', '=', params.siteId).where('user_id', '=', params.id).executeTakeFirst();
+        const r = await trx
+          .deleteFrom('site_members')
+          .where('site_id', '=', params.siteId)
+          .where('user_id', '=', params.id)
+          .executeTakeFirst();
         if (!r.numDeletedRows) throw notFound('That role');
         await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'user', entityId: params.id, action: 'role-removed' });
       });

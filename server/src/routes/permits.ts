@@ -42,12 +42,19 @@ export function registerPermitRoutes(api: Api): void {
   const members = { kind: 'site', roles: 'any', admin: true, siteId: permitSite } as const;
 
   /** Runs a change and answers with the permit as it now is; on a stale version, 409 with the permit too. */
-  async function answerWithPermit(res: Response, id: number, viewer: { id: number; role: SiteRole | null }, change: () => Promise<unknown>) {
+  async function answerWithPermit(
+    res: Response,
+    id: number,
+    viewer: { id: number; role: SiteRole | null },
+    change: () => Promise<unknown>,
+  ) {
     try {
       await change();
     } catch (err) {
       if (!(err instanceof StaleError)) throw err;
-      res.status(409).json({ error: { code: err.code, message: err.message, fields: err.fields }, permit: await loadDetail(db, id, viewer) });
+      res
+        .status(409)
+        .json({ error: { code: err.code, message: err.message, fields: err.fields }, permit: await loadDetail(db, id, viewer) });
       return;
     }
     return { permit: await loadDetail(db, id, viewer) };
@@ -85,7 +92,9 @@ export function registerPermitRoutes(api: Api): void {
           .limit(1)
           .executeTakeFirst(),
       ]);
-      const named = last ? (await db.selectFrom('permit_operators').select('user_id').where('revision_id', '=', last.id).execute()).map((o) => o.user_id) : [];
+      const named = last
+        ? (await db.selectFrom('permit_operators').select('user_id').where('revision_id', '=', last.id).execute()).map((o) => o.user_id)
+        : [];
       return { operators, lastUsed: operators.filter((o) => named.includes(o.id)).map((o) => o.id) };
     },
   );
@@ -94,7 +103,8 @@ export function registerPermitRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/sites/:siteId/permits/check',
-      summary: 'Run the cumulative check of a request not yet saved (the page that asks for a permit): its window, excavations and loads, with the other permits counted',
+      summary:
+        'Run the cumulative check of a request not yet saved (the page that asks for a permit): its window, excavations and loads, with the other permits counted',
       tag: 'Permits',
       access: { kind: 'site', roles: ['supervisor', 'coordinator'], admin: true, siteId: siteFromParam },
       params: z.object({ siteId: idSchema }),
@@ -102,26 +112,31 @@ export function registerPermitRoutes(api: Api): void {
     },
     async ({ params, body, deps }) => {
       if (!body.windowStart || !body.windowEnd) {
-        throw badRequest('Give the window of the work.', { ...(body.windowStart ? {} : { windowStart: 'is required' }), ...(body.windowEnd ? {} : { windowEnd: 'is required' }) });
+        throw badRequest('Give the window of the work.', {
+          ...(body.windowStart ? {} : { windowStart: 'is required' }),
+          ...(body.windowEnd ? {} : { windowEnd: 'is required' }),
+        });
       }
       const site = await db.selectFrom('sites').select(['default_method']).where('id', '=', params.siteId).executeTakeFirst();
       if (!site) throw notFound('That site');
       return {
-        check: withoutProfiles(await runPermitCheck(
-          db,
-          {
-            siteId: params.siteId,
-            permitId: null,
-            number: 'new',
-            windowStart: new Date(body.windowStart),
-            windowEnd: new Date(body.windowEnd),
-            excavationIds: body.excavationIds ?? [],
-            loads: body.loads ?? [],
-            method: body.method ?? (site.default_method as 'dispersion-45' | 'elastic'),
-            plantSnapshot: null,
-          },
-          deps.now(),
-        )),
+        check: withoutProfiles(
+          await runPermitCheck(
+            db,
+            {
+              siteId: params.siteId,
+              permitId: null,
+              number: 'new',
+              windowStart: new Date(body.windowStart),
+              windowEnd: new Date(body.windowEnd),
+              excavationIds: body.excavationIds ?? [],
+              loads: body.loads ?? [],
+              method: body.method ?? (site.default_method as 'dispersion-45' | 'elastic'),
+              plantSnapshot: null,
+            },
+            deps.now(),
+          ),
+        ),
       };
     },
   );
@@ -154,14 +169,20 @@ export function registerPermitRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/permits',
-      summary: 'Permits I may see: awaiting my review, my requests, live now, or all, filtered by site, status, kind, excavation and window, sorted',
+      summary:
+        'Permits I may see: awaiting my review, my requests, live now, or all, filtered by site, status, kind, excavation and window, sorted',
       tag: 'Permits',
       access: { kind: 'signedIn' },
       query: permitListQuerySchema,
     },
     async ({ query, user }) => {
       if (query.siteId && !user.isAdmin) {
-        const m = await db.selectFrom('site_members').select('role').where('site_id', '=', query.siteId).where('user_id', '=', user.id).executeTakeFirst();
+        const m = await db
+          .selectFrom('site_members')
+          .select('role')
+          .where('site_id', '=', query.siteId)
+          .where('user_id', '=', user.id)
+          .executeTakeFirst();
         if (!m) throw forbidden('You are not a member of this site.');
       }
       return { permits: await listPermits(db, user, query) };
@@ -169,7 +190,14 @@ export function registerPermitRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'get', path: '/api/permits/:id', summary: 'One permit: its current revision, check, decision, operators, timeline and attachments', tag: 'Permits', access: members, params: idParams },
+    {
+      method: 'get',
+      path: '/api/permits/:id',
+      summary: 'One permit: its current revision, check, decision, operators, timeline and attachments',
+      tag: 'Permits',
+      access: members,
+      params: idParams,
+    },
     async ({ params, user, site, deps }) => {
       await ensureChecked(db, params.id, deps.now());
       const permit = await loadDetail(db, params.id, { id: user.id, role: site?.role ?? null });
@@ -212,7 +240,8 @@ export function registerPermitRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/permits/:id/check',
-      summary: 'Run the cumulative check: the engine result per excavation, with the other permits counted. With a body, checks those changes without saving them. The pressure profiles are left out (the stored check on the permit has them)',
+      summary:
+        'Run the cumulative check: the engine result per excavation, with the other permits counted. With a body, checks those changes without saving them. The pressure profiles are left out (the stored check on the permit has them)',
       tag: 'Permits',
       access: { ...members, roles: ['supervisor', 'coordinator'] },
       params: idParams,
@@ -225,7 +254,8 @@ export function registerPermitRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/permits/:id/transitions',
-      summary: 'Move a permit on: submit, approve (standoff, conditions), return, decline, suspend, resume, hand back, revise, withdraw. Decisions need the password again',
+      summary:
+        'Move a permit on: submit, approve (standoff, conditions), return, decline, suspend, resume, hand back, revise, withdraw. Decisions need the password again',
       tag: 'Permits',
       access: members,
       params: idParams,
@@ -247,7 +277,11 @@ export function registerPermitRoutes(api: Api): void {
         await endSessionsOf(db, user.id);
         await new Promise<void>((resolve) => req.session.destroy(() => resolve()));
         res.clearCookie('brink.sid', { path: '/' });
-        return new HttpError(401, 'signed_out', 'Too many wrong passwords under a decision: you have been signed out. Sign in again to continue.');
+        return new HttpError(
+          401,
+          'signed_out',
+          'Too many wrong passwords under a decision: you have been signed out. Sign in again to continue.',
+        );
       };
       if (transitionRules[body.action].signed && decisionPassword.blocked(key)) throw await signOff();
       return answerWithPermit(res, params.id, { id: user.id, role: site?.role ?? null }, async () => {
@@ -324,7 +358,8 @@ export function registerPermitRoutes(api: Api): void {
     {
       method: 'post',
       path: '/api/permits/:id/attachments',
-      summary: 'Attach a method statement (PDF), a photo (PNG or JPEG) or another document (PDF or image); the type is judged from the content',
+      summary:
+        'Attach a method statement (PDF), a photo (PNG or JPEG) or another document (PDF or image); the type is judged from the content',
       tag: 'Permits',
       access: { ...members, roles: ['supervisor', 'coordinator'], admin: false },
       params: idParams,
@@ -340,30 +375,70 @@ export function registerPermitRoutes(api: Api): void {
       if (accept === 'image' && file.size > limits.image) {
         throw new HttpError(413, 'too_large', 'The photo is too large (at most 10 MB).', { file: 'is too large' });
       }
-      const p = await db.selectFrom('permits').select(['id', 'revision', 'number', 'site_id', 'status']).where('id', '=', params.id).executeTakeFirstOrThrow();
+      const p = await db
+        .selectFrom('permits')
+        .select(['id', 'revision', 'number', 'site_id', 'status'])
+        .where('id', '=', params.id)
+        .executeTakeFirstOrThrow();
       // What was reviewed stays as it was: after submission only photos (a record of the work) may be added.
       if (body.kind !== 'photo' && !editableStatuses.includes(p.status as PermitStatus)) {
         throw conflict(`Permit ${p.number} is no longer a draft: documents are added to a new revision; photos may still be added.`);
       }
       const row = await db.transaction().execute(async (trx) => {
-        const stored = await storeUpload(deps, file, { field: 'file', accept, purpose: 'permit-attachment', siteId: site.id, userId: user.id, db: trx });
+        const stored = await storeUpload(deps, file, {
+          field: 'file',
+          accept,
+          purpose: 'permit-attachment',
+          siteId: site.id,
+          userId: user.id,
+          db: trx,
+        });
         const added = await trx
           .insertInto('permit_attachments')
           .values({ permit_id: p.id, revision: p.revision, upload_id: stored.id, kind: body.kind, added_by: user.id, added_at: deps.now() })
           .returning('id')
           .executeTakeFirstOrThrow();
-        await audit(trx, { actorId: user.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'attached', detail: { number: p.number, kind: body.kind, name: stored.originalName } });
+        await audit(trx, {
+          actorId: user.id,
+          siteId: p.site_id,
+          entity: 'permit',
+          entityId: p.id,
+          action: 'attached',
+          detail: { number: p.number, kind: body.kind, name: stored.originalName },
+        });
         return { id: added.id, stored };
       });
       const stored = row.stored;
-      res.status(201).json({ attachment: { id: row.id, kind: body.kind, name: stored.originalName, mime: stored.mime, size: stored.size, url: `/api/permits/${p.id}/attachments/${row.id}` } });
+      res.status(201).json({
+        attachment: {
+          id: row.id,
+          kind: body.kind,
+          name: stored.originalName,
+          mime: stored.mime,
+          size: stored.size,
+          url: `/api/permits/${p.id}/attachments/${row.id}`,
+        },
+      });
     },
   );
 
   api.route(
-    { method: 'get', path: '/api/permits/:id/attachments/:attachmentId', summary: 'One attachment, to members of the permit\u2019s site', tag: 'Permits', access: members, params: attachmentParams, produces: 'application/octet-stream' },
+    {
+      method: 'get',
+      path: '/api/permits/:id/attachments/:attachmentId',
+      summary: 'One attachment, to members of the permit\u2019s site',
+      tag: 'Permits',
+      access: members,
+      params: attachmentParams,
+      produces: 'application/octet-stream',
+    },
     async ({ params, res, deps }) => {
-      const a = await db.selectFrom('permit_attachments').select('upload_id').where('id', '=', params.attachmentId).where('permit_id', '=', params.id).executeTakeFirst();
+      const a = await db
+        .selectFrom('permit_attachments')
+        .select('upload_id')
+        .where('id', '=', params.attachmentId)
+        .where('permit_id', '=', params.id)
+        .executeTakeFirst();
       if (!a) throw notFound('That attachment');
       await sendUpload(deps, res, a.upload_id);
     },
@@ -379,14 +454,30 @@ export function registerPermitRoutes(api: Api): void {
       params: attachmentParams,
     },
     async ({ params, user }) => {
-      const p = await db.selectFrom('permits').select(['id', 'status', 'revision', 'number', 'site_id']).where('id', '=', params.id).executeTakeFirstOrThrow();
-      const a = await db.selectFrom('permit_attachments').select(['id', 'revision']).where('id', '=', params.attachmentId).where('permit_id', '=', p.id).executeTakeFirst();
+      const p = await db
+        .selectFrom('permits')
+        .select(['id', 'status', 'revision', 'number', 'site_id'])
+        .where('id', '=', params.id)
+        .executeTakeFirstOrThrow();
+      const a = await db
+        .selectFrom('permit_attachments')
+        .select(['id', 'revision'])
+        .where('id', '=', params.attachmentId)
+        .where('permit_id', '=', p.id)
+        .executeTakeFirst();
       if (!a) throw notFound('That attachment');
       if (!editableStatuses.includes(p.status as PermitStatus) || a.revision !== p.revision) {
         throw conflict(`Permit ${p.number} is frozen: its attachments stay with the revision they belong to.`);
       }
       await db.deleteFrom('permit_attachments').where('id', '=', a.id).execute();
-      await audit(db, { actorId: user.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'detached', detail: { number: p.number, attachmentId: a.id } });
+      await audit(db, {
+        actorId: user.id,
+        siteId: p.site_id,
+        entity: 'permit',
+        entityId: p.id,
+        action: 'detached',
+        detail: { number: p.number, attachmentId: a.id },
+      });
     },
   );
 }

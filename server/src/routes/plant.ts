@@ -1,6 +1,13 @@
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
-import { onePlantItemAnswer, plantItemSchema, plantItemUpdateSchema, plantLibraryAnswer, type PlantItem, type PlantItemValues } from '@shared/schemas/plant';
+import {
+  onePlantItemAnswer,
+  plantItemSchema,
+  plantItemUpdateSchema,
+  plantLibraryAnswer,
+  type PlantItem,
+  type PlantItemValues,
+} from '@shared/schemas/plant';
 import type { Db, PlantItemsTable } from '@db/database';
 import type { Selectable } from 'kysely';
 import { Api, conflict, forbidden, HttpError, notFound, type SessionUser } from '../http';
@@ -41,7 +48,12 @@ export async function loadPlant(db: Db, ids?: number[]): Promise<PlantItem[]> {
 function plantEditorsOnly(db: Db) {
   return async ({ user }: { user: SessionUser }): Promise<void> => {
     if (user.isAdmin) return;
-    const m = await db.selectFrom('site_members').select('site_id').where('user_id', '=', user.id).where('role', '=', 'coordinator').executeTakeFirst();
+    const m = await db
+      .selectFrom('site_members')
+      .select('site_id')
+      .where('user_id', '=', user.id)
+      .where('role', '=', 'coordinator')
+      .executeTakeFirst();
     if (!m) throw forbidden('Only administrators and temporary works coordinators may change the plant library.');
   };
 }
@@ -57,7 +69,8 @@ function plantColumns(body: PlantItemValues) {
   };
 }
 
-const nameTaken = (name: string) => new HttpError(400, 'invalid', `A machine called "${name}" is already in the library.`, { name: 'is already in the library' });
+const nameTaken = (name: string) =>
+  new HttpError(400, 'invalid', `A machine called "${name}" is already in the library.`, { name: 'is already in the library' });
 
 const params = z.object({ id: idSchema });
 
@@ -66,7 +79,14 @@ export function registerPlantRoutes(api: Api): void {
   const editors = plantEditorsOnly(db);
 
   api.route(
-    { method: 'get', path: '/api/plant', response: plantLibraryAnswer, summary: 'The plant library (every signed-in person reads it)', tag: 'Plant', access: { kind: 'signedIn' } },
+    {
+      method: 'get',
+      path: '/api/plant',
+      response: plantLibraryAnswer,
+      summary: 'The plant library (every signed-in person reads it)',
+      tag: 'Plant',
+      access: { kind: 'signedIn' },
+    },
     async () => ({ plant: await loadPlant(db) }),
   );
 
@@ -86,12 +106,14 @@ export function registerPlantRoutes(api: Api): void {
       const row = await db
         .transaction()
         .execute(async (trx) => {
-          const r = await trx
-            .insertInto('plant_items')
-            .values(plantColumns(body))
-            .returningAll()
-            .executeTakeFirstOrThrow();
-          await audit(trx, { actorId: user.id, entity: 'plant', entityId: r.id, action: 'created', detail: { name: body.name, operatingMass: body.operatingMass } });
+          const r = await trx.insertInto('plant_items').values(plantColumns(body)).returningAll().executeTakeFirstOrThrow();
+          await audit(trx, {
+            actorId: user.id,
+            entity: 'plant',
+            entityId: r.id,
+            action: 'created',
+            detail: { name: body.name, operatingMass: body.operatingMass },
+          });
           return r;
         })
         .catch((e) => {
@@ -119,7 +141,10 @@ export function registerPlantRoutes(api: Api): void {
         .execute(async (trx) => {
           const old = await trx.selectFrom('plant_items').selectAll().where('id', '=', params.id).forUpdate().executeTakeFirst();
           if (!old) throw notFound('That machine');
-          if (old.version !== body.version) throw conflict(`Someone changed ${old.name} since you opened it (version ${old.version}, yours ${body.version}); reload it and make your change again.`);
+          if (old.version !== body.version)
+            throw conflict(
+              `Someone changed ${old.name} since you opened it (version ${old.version}, yours ${body.version}); reload it and make your change again.`,
+            );
           const r = await trx
             .updateTable('plant_items')
             .set({
@@ -135,7 +160,10 @@ export function registerPlantRoutes(api: Api): void {
             entity: 'plant',
             entityId: r.id,
             action: 'updated',
-            detail: { before: { name: old.name, operatingMass: old.operating_mass, elements: old.elements, designFactor: old.design_factor }, after: { name: body.name, operatingMass: body.operatingMass, elements: body.elements, designFactor: body.designFactor } },
+            detail: {
+              before: { name: old.name, operatingMass: old.operating_mass, elements: old.elements, designFactor: old.design_factor },
+              after: { name: body.name, operatingMass: body.operatingMass, elements: body.elements, designFactor: body.designFactor },
+            },
           });
           return r;
         })
@@ -164,7 +192,8 @@ export function registerPlantRoutes(api: Api): void {
           const named = await permitsReferring(trx, { plantItemId: params.id, visibleTo: user });
           if (named.length) throw conflict(`That machine is placed on permit ${listNumbers(named)}, so it stays in the library.`);
           // Permits of sites the caller cannot see keep it too, unnamed.
-          if ((await permitsReferring(trx, { plantItemId: params.id })).length) throw conflict('That machine is placed on permits of other sites, so it stays in the library.');
+          if ((await permitsReferring(trx, { plantItemId: params.id })).length)
+            throw conflict('That machine is placed on permits of other sites, so it stays in the library.');
           const old = await trx.deleteFrom('plant_items').where('id', '=', params.id).returning(['id', 'name']).executeTakeFirst();
           if (!old) throw notFound('That machine');
           await audit(trx, { actorId: user.id, entity: 'plant', entityId: old.id, action: 'deleted', detail: { name: old.name } });

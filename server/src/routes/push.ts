@@ -12,7 +12,14 @@ export function registerPushRoutes(api: Api): void {
   const { db, config } = api.deps;
 
   api.route(
-    { method: 'get', path: '/api/push/key', response: pushKeyAnswer, summary: "The server's public VAPID key, for a browser's push subscription", tag: 'Push', access: { kind: 'signedIn' } },
+    {
+      method: 'get',
+      path: '/api/push/key',
+      response: pushKeyAnswer,
+      summary: "The server's public VAPID key, for a browser's push subscription",
+      tag: 'Push',
+      access: { kind: 'signedIn' },
+    },
     ({ deps }) => ({ publicKey: deps.pusher.keys.publicKey }),
   );
 
@@ -27,7 +34,12 @@ export function registerPushRoutes(api: Api): void {
       query: pushEndpointQuerySchema,
     },
     async ({ query, user }) => {
-      const row = await db.selectFrom('push_subscriptions').select('id').where('endpoint', '=', query.endpoint).where('user_id', '=', user.id).executeTakeFirst();
+      const row = await db
+        .selectFrom('push_subscriptions')
+        .select('id')
+        .where('endpoint', '=', query.endpoint)
+        .where('user_id', '=', user.id)
+        .executeTakeFirst();
       return { subscribed: Boolean(row) };
     },
   );
@@ -52,7 +64,14 @@ export function registerPushRoutes(api: Api): void {
           .values({ user_id: user.id, endpoint: body.endpoint, p256dh: body.keys.p256dh, auth: body.keys.auth })
           .onConflict((oc) => oc.column('endpoint').doUpdateSet({ user_id: user.id, p256dh: body.keys.p256dh, auth: body.keys.auth }))
           .execute();
-        await audit(trx, { actorId: user.id, siteId: null, entity: 'user', entityId: user.id, action: 'push_on', detail: { host: new URL(body.endpoint).host } });
+        await audit(trx, {
+          actorId: user.id,
+          siteId: null,
+          entity: 'user',
+          entityId: user.id,
+          action: 'push_on',
+          detail: { host: new URL(body.endpoint).host },
+        });
       });
       res.status(201);
       return { subscribed: true };
@@ -71,8 +90,21 @@ export function registerPushRoutes(api: Api): void {
     },
     async ({ query, user }) => {
       await db.transaction().execute(async (trx) => {
-        const gone = await trx.deleteFrom('push_subscriptions').where('endpoint', '=', query.endpoint).where('user_id', '=', user.id).returning('id').executeTakeFirst();
-        if (gone) await audit(trx, { actorId: user.id, siteId: null, entity: 'user', entityId: user.id, action: 'push_off', detail: { host: new URL(query.endpoint).host } });
+        const gone = await trx
+          .deleteFrom('push_subscriptions')
+          .where('endpoint', '=', query.endpoint)
+          .where('user_id', '=', user.id)
+          .returning('id')
+          .executeTakeFirst();
+        if (gone)
+          await audit(trx, {
+            actorId: user.id,
+            siteId: null,
+            entity: 'user',
+            entityId: user.id,
+            action: 'push_off',
+            detail: { host: new URL(query.endpoint).host },
+          });
       });
     },
   );

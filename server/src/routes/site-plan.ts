@@ -1,6 +1,14 @@
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
-import { planAnswer, planBoundsSchema, planOpacitySchema, planUpdateSchema, SITE_RADIUS, type PlanBounds, type SitePlan } from '@shared/schemas/excavations';
+import {
+  planAnswer,
+  planBoundsSchema,
+  planOpacitySchema,
+  planUpdateSchema,
+  SITE_RADIUS,
+  type PlanBounds,
+  type SitePlan,
+} from '@shared/schemas/excavations';
 import type { Db } from '@db/database';
 import { Api, badRequest, notFound, parseOr400 } from '../http';
 import { audit } from '../services/audit';
@@ -27,9 +35,12 @@ async function checkNearSite(db: Db, siteId: number, b: PlanBounds): Promise<voi
   const site = await db.selectFrom('sites').select(['latitude', 'longitude']).where('id', '=', siteId).executeTakeFirstOrThrow();
   const [x, y] = projectionOf(site).toLocal([(b.west + b.east) / 2, (b.south + b.north) / 2]);
   if (Math.hypot(x, y) > SITE_RADIUS) {
-    throw badRequest(`The plan's corners put it ${(Math.hypot(x, y) / 1000).toFixed(1)} km from the site origin; it must lie within ${SITE_RADIUS / 1000} km.`, {
-      bounds: `must lie within ${SITE_RADIUS / 1000} km of the site origin`,
-    });
+    throw badRequest(
+      `The plan's corners put it ${(Math.hypot(x, y) / 1000).toFixed(1)} km from the site origin; it must lie within ${SITE_RADIUS / 1000} km.`,
+      {
+        bounds: `must lie within ${SITE_RADIUS / 1000} km of the site origin`,
+      },
+    );
   }
 }
 
@@ -38,7 +49,15 @@ export function registerSitePlanRoutes(api: Api): void {
   const { db } = api.deps;
 
   api.route(
-    { method: 'get', path: '/api/sites/:siteId/plan', response: planAnswer, summary: 'The site plan image, its corners and opacity (null when none)', tag: 'Site map', access: siteReaders, params: siteParams },
+    {
+      method: 'get',
+      path: '/api/sites/:siteId/plan',
+      response: planAnswer,
+      summary: 'The site plan image, its corners and opacity (null when none)',
+      tag: 'Site map',
+      access: siteReaders,
+      params: siteParams,
+    },
     async ({ params }) => ({ plan: await planOf(db, params.siteId) }),
   );
 
@@ -47,7 +66,8 @@ export function registerSitePlanRoutes(api: Api): void {
       method: 'put',
       path: '/api/sites/:siteId/plan',
       response: planAnswer,
-      summary: 'Upload the site plan image (multipart `file`: PNG or JPEG up to 10 MB, judged by content) with its corners `south`, `west`, `north`, `east` and `opacity`',
+      summary:
+        'Upload the site plan image (multipart `file`: PNG or JPEG up to 10 MB, judged by content) with its corners `south`, `west`, `north`, `east` and `opacity`',
       tag: 'Site map',
       access: siteWriters,
       params: siteParams,
@@ -57,22 +77,55 @@ export function registerSitePlanRoutes(api: Api): void {
     async ({ req, params, user, deps }) => {
       const text = (req.body ?? {}) as Record<string, string | undefined>;
       const num = (k: string) => (text[k] === undefined || text[k] === '' ? undefined : Number(text[k]));
-      const bounds = parseOr400(planBoundsSchema, { south: num('south'), west: num('west'), north: num('north'), east: num('east') }, 'plan corners');
-      const opacity = num('opacity') === undefined ? 0.7 : parseOr400(z.object({ opacity: planOpacitySchema }), { opacity: num('opacity') }, 'request').opacity;
+      const bounds = parseOr400(
+        planBoundsSchema,
+        { south: num('south'), west: num('west'), north: num('north'), east: num('east') },
+        'plan corners',
+      );
+      const opacity =
+        num('opacity') === undefined
+          ? 0.7
+          : parseOr400(z.object({ opacity: planOpacitySchema }), { opacity: num('opacity') }, 'request').opacity;
       await checkNearSite(db, params.siteId, bounds);
       const [file] = filesOf(req, 'file');
       if (!file) throw badRequest('Please choose the site plan image (PNG or JPEG).', { file: 'is required' });
-      const stored = await storeUpload(deps, file, { field: 'file', accept: 'image', purpose: 'site-plan', siteId: params.siteId, userId: user.id });
+      const stored = await storeUpload(deps, file, {
+        field: 'file',
+        accept: 'image',
+        purpose: 'site-plan',
+        siteId: params.siteId,
+        userId: user.id,
+      });
       await db.transaction().execute(async (trx) => {
-        await trx.updateTable('sites').set({ plan_upload_id: stored.id, plan_bounds: JSON.stringify(bounds), plan_opacity: opacity }).where('id', '=', params.siteId).execute();
-        await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'site', entityId: params.siteId, action: 'plan-uploaded', detail: { name: stored.originalName, size: stored.size, bounds, opacity } });
+        await trx
+          .updateTable('sites')
+          .set({ plan_upload_id: stored.id, plan_bounds: JSON.stringify(bounds), plan_opacity: opacity })
+          .where('id', '=', params.siteId)
+          .execute();
+        await audit(trx, {
+          actorId: user.id,
+          siteId: params.siteId,
+          entity: 'site',
+          entityId: params.siteId,
+          action: 'plan-uploaded',
+          detail: { name: stored.originalName, size: stored.size, bounds, opacity },
+        });
       });
       return { plan: await planOf(db, params.siteId) };
     },
   );
 
   api.route(
-    { method: 'patch', path: '/api/sites/:siteId/plan', response: planAnswer, summary: "Move the site plan's corners or change its opacity", tag: 'Site map', access: siteWriters, params: siteParams, body: planUpdateSchema },
+    {
+      method: 'patch',
+      path: '/api/sites/:siteId/plan',
+      response: planAnswer,
+      summary: "Move the site plan's corners or change its opacity",
+      tag: 'Site map',
+      access: siteWriters,
+      params: siteParams,
+      body: planUpdateSchema,
+    },
     async ({ params, body, user }) => {
       const plan = await planOf(db, params.siteId);
       if (!plan) throw notFound('The site plan');
@@ -81,23 +134,48 @@ export function registerSitePlanRoutes(api: Api): void {
       await db.transaction().execute(async (trx) => {
         await trx
           .updateTable('sites')
-          .set({ ...(body.bounds ? { plan_bounds: JSON.stringify(body.bounds) } : {}), ...(body.opacity !== undefined ? { plan_opacity: body.opacity } : {}) })
+          .set({
+            ...(body.bounds ? { plan_bounds: JSON.stringify(body.bounds) } : {}),
+            ...(body.opacity !== undefined ? { plan_opacity: body.opacity } : {}),
+          })
           .where('id', '=', params.siteId)
           .execute();
-        await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'site', entityId: params.siteId, action: 'plan-changed', detail: { before: { bounds: plan.bounds, opacity: plan.opacity }, after: body } });
+        await audit(trx, {
+          actorId: user.id,
+          siteId: params.siteId,
+          entity: 'site',
+          entityId: params.siteId,
+          action: 'plan-changed',
+          detail: { before: { bounds: plan.bounds, opacity: plan.opacity }, after: body },
+        });
       });
       return { plan: await planOf(db, params.siteId) };
     },
   );
 
   api.route(
-    { method: 'delete', path: '/api/sites/:siteId/plan', responses: { 204: 'Taken off the map' }, summary: 'Take the site plan image off the map', tag: 'Site map', access: siteWriters, params: siteParams },
+    {
+      method: 'delete',
+      path: '/api/sites/:siteId/plan',
+      responses: { 204: 'Taken off the map' },
+      summary: 'Take the site plan image off the map',
+      tag: 'Site map',
+      access: siteWriters,
+      params: siteParams,
+    },
     async ({ params, user }) => {
       const plan = await planOf(db, params.siteId);
       if (!plan) return;
       await db.transaction().execute(async (trx) => {
         await trx.updateTable('sites').set({ plan_upload_id: null, plan_bounds: null }).where('id', '=', params.siteId).execute();
-        await audit(trx, { actorId: user.id, siteId: params.siteId, entity: 'site', entityId: params.siteId, action: 'plan-removed', detail: { name: plan.name } });
+        await audit(trx, {
+          actorId: user.id,
+          siteId: params.siteId,
+          entity: 'site',
+          entityId: params.siteId,
+          action: 'plan-removed',
+          detail: { name: plan.name },
+        });
       });
     },
   );

@@ -5,7 +5,16 @@ import type { Db } from '@db/database';
 import { Api, notFound, siteFromParam } from '../http';
 import { audit } from '../services/audit';
 
-type SiteRow = { id: number; name: string; latitude: number; longitude: number; timezone: string; minimum_clearance: number; default_method: string; created_at: Date };
+type SiteRow = {
+  id: number;
+  name: string;
+  latitude: number;
+  longitude: number;
+  timezone: string;
+  minimum_clearance: number;
+  default_method: string;
+  created_at: Date;
+};
 
 export function siteOut(r: SiteRow): Site {
   return {
@@ -31,7 +40,14 @@ export function registerSiteRoutes(api: Api): void {
   const { db } = api.deps;
 
   api.route(
-    { method: 'get', path: '/api/sites', response: sitesAnswer, summary: 'The sites I am a member of (all sites for an administrator)', tag: 'Sites', access: { kind: 'signedIn' } },
+    {
+      method: 'get',
+      path: '/api/sites',
+      response: sitesAnswer,
+      summary: 'The sites I am a member of (all sites for an administrator)',
+      tag: 'Sites',
+      access: { kind: 'signedIn' },
+    },
     async ({ user }) => {
       let q = db.selectFrom('sites').selectAll('sites').orderBy('sites.name');
       if (!user.isAdmin) q = q.innerJoin('site_members', 'site_members.site_id', 'sites.id').where('site_members.user_id', '=', user.id);
@@ -40,7 +56,15 @@ export function registerSiteRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'get', path: '/api/sites/:siteId', response: oneSiteAnswer, summary: 'One site', tag: 'Sites', access: { kind: 'site', roles: 'any', admin: true, siteId: siteFromParam }, params: siteParams },
+    {
+      method: 'get',
+      path: '/api/sites/:siteId',
+      response: oneSiteAnswer,
+      summary: 'One site',
+      tag: 'Sites',
+      access: { kind: 'site', roles: 'any', admin: true, siteId: siteFromParam },
+      params: siteParams,
+    },
     async ({ params }) => {
       const site = await getSite(db, params.siteId);
       if (!site) throw notFound('That site');
@@ -49,12 +73,28 @@ export function registerSiteRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'post', path: '/api/sites', response: oneSiteAnswer, summary: 'Create a site', tag: 'Sites', access: { kind: 'admin' }, body: siteSchema, responses: { 201: 'Created' } },
+    {
+      method: 'post',
+      path: '/api/sites',
+      response: oneSiteAnswer,
+      summary: 'Create a site',
+      tag: 'Sites',
+      access: { kind: 'admin' },
+      body: siteSchema,
+      responses: { 201: 'Created' },
+    },
     async ({ body, user, res }) => {
       const site = await db.transaction().execute(async (trx) => {
         const r = await trx
           .insertInto('sites')
-          .values({ name: body.name, latitude: body.latitude, longitude: body.longitude, timezone: body.timezone, minimum_clearance: body.minimumClearance, default_method: body.defaultMethod })
+          .values({
+            name: body.name,
+            latitude: body.latitude,
+            longitude: body.longitude,
+            timezone: body.timezone,
+            minimum_clearance: body.minimumClearance,
+            default_method: body.defaultMethod,
+          })
           .returningAll()
           .executeTakeFirstOrThrow();
         await audit(trx, { actorId: user.id, siteId: r.id, entity: 'site', entityId: r.id, action: 'created', detail: body });
@@ -65,7 +105,16 @@ export function registerSiteRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'patch', path: '/api/sites/:siteId', response: oneSiteAnswer, summary: 'Change a site', tag: 'Sites', access: { kind: 'admin' }, params: siteParams, body: siteUpdateSchema },
+    {
+      method: 'patch',
+      path: '/api/sites/:siteId',
+      response: oneSiteAnswer,
+      summary: 'Change a site',
+      tag: 'Sites',
+      access: { kind: 'admin' },
+      params: siteParams,
+      body: siteUpdateSchema,
+    },
     async ({ params, body, user }) => {
       const set = {
         ...(body.name !== undefined ? { name: body.name } : {}),

@@ -11,7 +11,14 @@ export function registerSystemRoutes(api: Api): void {
   const reachable = databaseProbe(() => sql`select 1`.execute(db).then(() => undefined));
 
   api.route(
-    { method: 'get', path: '/api/health', response: healthAnswer, summary: 'Whether the server and its database answer', tag: 'System', access: { kind: 'public' } },
+    {
+      method: 'get',
+      path: '/api/health',
+      response: healthAnswer,
+      summary: 'Whether the server and its database answer',
+      tag: 'System',
+      access: { kind: 'public' },
+    },
     async ({ res }) => {
       if (!(await reachable())) {
         res.status(503).json({ ok: false, database: 'unreachable' });
@@ -22,7 +29,14 @@ export function registerSystemRoutes(api: Api): void {
   );
 
   api.route(
-    { method: 'get', path: '/api/config', response: configAnswer, summary: 'Settings the browser needs (map tiles)', tag: 'System', access: { kind: 'public' } },
+    {
+      method: 'get',
+      path: '/api/config',
+      response: configAnswer,
+      summary: 'Settings the browser needs (map tiles)',
+      tag: 'System',
+      access: { kind: 'public' },
+    },
     () => ({ mapTileUrl: config.mapTileUrl, mapTileAttribution: config.mapTileAttribution, demo: config.demo }),
   );
 
@@ -31,7 +45,8 @@ export function registerSystemRoutes(api: Api): void {
       method: 'get',
       path: '/api/dev/mail',
       response: caughtMailAnswer,
-      summary: 'Messages kept by the local mail catcher, newest first (only while the catcher is on; administrators, or callers on this machine)',
+      summary:
+        'Messages kept by the local mail catcher, newest first (only while the catcher is on; administrators, or callers on this machine)',
       tag: 'System',
       access: { kind: 'public' },
       query: z.object({ to: z.string().optional(), limit: z.coerce.number().int().min(1).max(500).default(100) }),
@@ -44,13 +59,28 @@ export function registerSystemRoutes(api: Api): void {
       if (query.to) q = q.where('mail_to', 'ilike', `%${query.to.replace(/[%_\\]/g, (c) => `\\${c}`)}%`);
       const rows = await q.execute();
       return {
-        messages: rows.map((r) => ({ id: r.id, from: r.mail_from, to: r.mail_to, subject: r.subject, text: r.text, html: r.html, date: new Date(r.received_at).toISOString() })),
+        messages: rows.map((r) => ({
+          id: r.id,
+          from: r.mail_from,
+          to: r.mail_to,
+          subject: r.subject,
+          text: r.text,
+          html: r.html,
+          date: new Date(r.received_at).toISOString(),
+        })),
       };
     },
   );
 
   api.route(
-    { method: 'get', path: '/api/openapi.json', response: openApiAnswer, summary: 'This document', tag: 'System', access: { kind: 'public' } },
+    {
+      method: 'get',
+      path: '/api/openapi.json',
+      response: openApiAnswer,
+      summary: 'This document',
+      tag: 'System',
+      access: { kind: 'public' },
+    },
     () => openApiDocument(api.specs),
   );
 }
@@ -80,14 +110,16 @@ export function databaseProbe(
   return () => {
     // A connection lost since the answer (PostgreSQL stopped or restarted) makes it stale at once.
     if (answer && clock() - answer.at < PING_FRESH_MS && answer.losses === losses()) return Promise.resolve(answer.ok);
-    inFlight ??= ping().then(
-      () => true,
-      () => false,
-    ).then((ok) => {
-      answer = { ok, at: clock(), losses: losses() };
-      inFlight = null;
-      return ok;
-    });
+    inFlight ??= ping()
+      .then(
+        () => true,
+        () => false,
+      )
+      .then((ok) => {
+        answer = { ok, at: clock(), losses: losses() };
+        inFlight = null;
+        return ok;
+      });
     return inFlight;
   };
 }

@@ -33,7 +33,10 @@ export { projectionOf, type SiteOrigin } from '@shared/geometry/shapes';
  * forms no outline (a trench bent back on itself, a pit of no area). Field → reason; empty when fine.
  * Only the outline is formed here (milliseconds); the zone is drawn in a worker (storedShapes).
  */
-export function placementProblems(v: Pick<ExcavationValues, 'kind' | 'geometry' | 'width' | 'depth'>, proj: LocalProjection): Record<string, string> {
+export function placementProblems(
+  v: Pick<ExcavationValues, 'kind' | 'geometry' | 'width' | 'depth'>,
+  proj: LocalProjection,
+): Record<string, string> {
   const points = v.geometry.type === 'LineString' ? v.geometry.coordinates : v.geometry.coordinates.flat();
   let farthest = 0;
   for (const p of points) {
@@ -58,13 +61,25 @@ export function placementProblems(v: Pick<ExcavationValues, 'kind' | 'geometry' 
  * (off the request thread). A drawing that runs past the pool's time limit is refused as 400 on
  * `geometry` (naming the excavation's reference).
  */
-export async function storedShapes(pool: GeometryPool, list: ExcavationValues[], site: SiteOrigin): Promise<ReturnType<typeof shapeColumns>[]> {
+export async function storedShapes(
+  pool: GeometryPool,
+  list: ExcavationValues[],
+  site: SiteOrigin,
+): Promise<ReturnType<typeof shapeColumns>[]> {
   const out = await Promise.all(
     list.map((v) =>
-      pool.shapes({ kind: v.kind, geometry: v.geometry, width: v.width, depth: v.depth }, { latitude: site.latitude, longitude: site.longitude }).catch((e: unknown) => {
-        if (e instanceof GeometryTimeout) throw badRequest(`${v.reference}: the outline is too intricate to draw (${e.message}); simplify it.`, { geometry: `${v.reference} is too intricate to draw; simplify it` });
-        throw e;
-      }),
+      pool
+        .shapes(
+          { kind: v.kind, geometry: v.geometry, width: v.width, depth: v.depth },
+          { latitude: site.latitude, longitude: site.longitude },
+        )
+        .catch((e: unknown) => {
+          if (e instanceof GeometryTimeout)
+            throw badRequest(`${v.reference}: the outline is too intricate to draw (${e.message}); simplify it.`, {
+              geometry: `${v.reference} is too intricate to draw; simplify it`,
+            });
+          throw e;
+        }),
     ),
   );
   return out.map(shapeColumns);
@@ -119,7 +134,10 @@ export function columnsOf(v: ExcavationValues) {
 function excavationOut(r: Row, drawing: Excavation['drawing']): Excavation {
   const values = rowValues(r);
   // Drawn when written (never here); null when no outline forms.
-  const shapes = { outline: (r.outline ?? null) as Excavation['outline'], influenceZone: (r.influence_zone ?? null) as Excavation['influenceZone'] };
+  const shapes = {
+    outline: (r.outline ?? null) as Excavation['outline'],
+    influenceZone: (r.influence_zone ?? null) as Excavation['influenceZone'],
+  };
   return {
     id: r.id,
     siteId: r.site_id,
@@ -148,7 +166,10 @@ export async function loadExcavations(db: Db, siteId: number, ids?: number[]): P
     .orderBy('excavations.reference');
   if (ids) q = q.where('excavations.id', 'in', ids);
   return (await q.execute()).map((r) =>
-    excavationOut(r, r.drawing_upload_id ? { id: r.drawing_upload_id, name: r.drawing_name ?? 'drawing.pdf', size: r.drawing_size ?? 0 } : null),
+    excavationOut(
+      r,
+      r.drawing_upload_id ? { id: r.drawing_upload_id, name: r.drawing_name ?? 'drawing.pdf', size: r.drawing_size ?? 0 } : null,
+    ),
   );
 }
 
@@ -215,8 +236,15 @@ export async function readImport(text: string, proj: LocalProjection): Promise<I
   return plan;
 
   function readFeature(f: unknown, index: number): void {
-    const feature = (typeof f === 'object' && f !== null ? f : {}) as { type?: unknown; geometry?: { type?: unknown } | null; properties?: unknown };
-    const props = (typeof feature.properties === 'object' && feature.properties !== null ? feature.properties : {}) as Record<string, unknown>;
+    const feature = (typeof f === 'object' && f !== null ? f : {}) as {
+      type?: unknown;
+      geometry?: { type?: unknown } | null;
+      properties?: unknown;
+    };
+    const props = (typeof feature.properties === 'object' && feature.properties !== null ? feature.properties : {}) as Record<
+      string,
+      unknown
+    >;
     const reference = typeof props.reference === 'string' ? props.reference.trim() : null;
     if (feature.type !== 'Feature') {
       plan.refused.push({ index, reference, reasons: { type: 'must be "Feature"' } });
@@ -230,7 +258,9 @@ export async function readImport(text: string, proj: LocalProjection): Promise<I
       ...('state' in props ? { state: codeOfLabel(props.state, stateLabels) } : {}),
       ...('kind' in props ? { kind: codeOfLabel(props.kind, kindLabels) } : {}),
       geometry: feature.geometry as ExcavationInput['geometry'],
-      kind: (codeOfLabel(props.kind, kindLabels) as ExcavationInput['kind']) ?? (gtype === 'LineString' ? 'trench' : gtype === 'Polygon' ? 'pit' : undefined),
+      kind:
+        (codeOfLabel(props.kind, kindLabels) as ExcavationInput['kind']) ??
+        (gtype === 'LineString' ? 'trench' : gtype === 'Polygon' ? 'pit' : undefined),
     };
     const parsed = excavationInputSchema.safeParse(input);
     if (!parsed.success) {
@@ -246,7 +276,9 @@ export async function readImport(text: string, proj: LocalProjection): Promise<I
       plan.refused.push({
         index,
         reference: parsed.data.reference,
-        reasons: { geometry: `brings the file to ${points} points (after simplifying to ${SITE_TOLERANCE} m); an import may hold at most ${MAX_IMPORT_POINTS}: split the file` },
+        reasons: {
+          geometry: `brings the file to ${points} points (after simplifying to ${SITE_TOLERANCE} m); an import may hold at most ${MAX_IMPORT_POINTS}: split the file`,
+        },
       });
       return;
     }

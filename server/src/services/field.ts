@@ -46,7 +46,12 @@ function closedRing(ring: XY[], proj: LocalProjection): Polygon {
  * is the whole reach of the search, 3H: the phone never shows a smaller zone than the check
  * supports. Null before approval (nothing is permitted yet).
  */
-export function exclusionDistance(rev: Pick<PermitRevision, 'decision' | 'check'>, excavationId: number, minimumClearance: number, depth: number): number | null {
+export function exclusionDistance(
+  rev: Pick<PermitRevision, 'decision' | 'check'>,
+  excavationId: number,
+  minimumClearance: number,
+  depth: number,
+): number | null {
   if (rev.decision?.action !== 'approve') return null;
   const forThis = rev.check?.excavations.find((e) => e.excavationId === excavationId);
   const checked = forThis ? forThis.standoff : (rev.check?.computedStandoff ?? null);
@@ -59,7 +64,18 @@ export function concernQuery(db: Db) {
   return db
     .selectFrom('concerns as c')
     .innerJoin('users as u', 'u.id', 'c.reporter_id')
-    .select(['c.id', 'c.permit_id', 'c.excavation_id', 'c.excavation_reference', 'c.note', 'c.photo_upload_ids', 'c.reporter_id', 'u.name', 'c.created_at', 'c.idempotency_key']);
+    .select([
+      'c.id',
+      'c.permit_id',
+      'c.excavation_id',
+      'c.excavation_reference',
+      'c.note',
+      'c.photo_upload_ids',
+      'c.reporter_id',
+      'u.name',
+      'c.created_at',
+      'c.idempotency_key',
+    ]);
 }
 
 export async function concernsOf(db: Db, permitId: number): Promise<Concern[]> {
@@ -99,7 +115,11 @@ export async function loadFieldPermit(db: Db, permitId: number, viewerId: number
   const summary = await loadSummary(db, permitId);
   if (!summary) return null;
   const rev = (await loadRevision(db, permitId, summary.revision))!;
-  const site = await db.selectFrom('sites').select(['latitude', 'longitude', 'minimum_clearance']).where('id', '=', summary.siteId).executeTakeFirstOrThrow();
+  const site = await db
+    .selectFrom('sites')
+    .select(['latitude', 'longitude', 'minimum_clearance'])
+    .where('id', '=', summary.siteId)
+    .executeTakeFirstOrThrow();
   const proj = localProjection([site.longitude, site.latitude]);
   // The register's excavations (outline and influence zone as the site map draws them).
   const rows = await loadExcavations(db, summary.siteId, rev.excavationIds);
@@ -142,7 +162,9 @@ export async function loadFieldPermit(db: Db, permitId: number, viewerId: number
     }
   }
   if (!centres.length) for (const o of prepared) centres.push(...o.ring);
-  const mid: XY = centres.length ? [centres.reduce((s, p) => s + p[0], 0) / centres.length, centres.reduce((s, p) => s + p[1], 0) / centres.length] : [0, 0];
+  const mid: XY = centres.length
+    ? [centres.reduce((s, p) => s + p[0], 0) / centres.length, centres.reduce((s, p) => s + p[1], 0) / centres.length]
+    : [0, 0];
   const [lon, lat] = proj.toWgs84(mid);
   const standoffs = excavations.flatMap((e) => (e.standoff === null ? [] : [e.standoff]));
   const me = rev.operators.find((o) => o.id === viewerId);

@@ -51,7 +51,9 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
     .select(['id', 'reference', 'name', 'state', 'depth', 'support_type', 'created_at'])
     .where('site_id', '=', siteId)
     .orderBy('reference');
-  q = inspectedIds.length ? q.where((eb) => eb.or([eb('state', '=', 'open'), eb('id', 'in', inspectedIds)])) : q.where('state', '=', 'open');
+  q = inspectedIds.length
+    ? q.where((eb) => eb.or([eb('state', '=', 'open'), eb('id', 'in', inspectedIds)]))
+    : q.where('state', '=', 'open');
   const excavations = await q.execute();
   const shiftsSoFar = shiftsBetween(clock.shifts, tz, range.from, new Date(Math.min(range.to.getTime(), now.getTime())));
   const uploads = await photoFiles(deps, inspections);
@@ -71,10 +73,18 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
   };
 
   doc.fillColor(INK).font('Helvetica-Bold').fontSize(18).text('Excavation inspections');
-  doc.font('Helvetica').fontSize(12).text(t(`${clock.siteName}  |  week ${week}: Monday ${range.monday} to Sunday ${range.sunday}`));
-  doc.fontSize(9).fillColor(MUTED).text(
-    t(`Times on the site's clock (${tz}). Shifts: ${clock.shifts.map((s) => `${s.name} from ${s.start}`).join(', ')}. Printed ${formatSiteTime(now, tz)}.`),
-  );
+  doc
+    .font('Helvetica')
+    .fontSize(12)
+    .text(t(`${clock.siteName}  |  week ${week}: Monday ${range.monday} to Sunday ${range.sunday}`));
+  doc
+    .fontSize(9)
+    .fillColor(MUTED)
+    .text(
+      t(
+        `Times on the site's clock (${tz}). Shifts: ${clock.shifts.map((s) => `${s.name} from ${s.start}`).join(', ')}. Printed ${formatSiteTime(now, tz)}.`,
+      ),
+    );
   doc.moveDown(0.4).text(DUTY);
   doc.moveDown(0.4).fillColor(YELLOW_INK).text(CAUTION);
   doc.moveDown(0.8);
@@ -84,15 +94,35 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
   for (const e of excavations) {
     const own = inspections.filter((i) => i.excavationId === e.id);
     ensure(90);
-    doc.moveTo(left, doc.y).lineTo(left + width, doc.y).strokeColor(RULE).lineWidth(1).stroke();
+    doc
+      .moveTo(left, doc.y)
+      .lineTo(left + width, doc.y)
+      .strokeColor(RULE)
+      .lineWidth(1)
+      .stroke();
     doc.moveDown(0.4);
-    doc.fillColor(INK).font('Helvetica-Bold').fontSize(13).text(t(`${e.reference}  ${e.name}`));
-    doc.font('Helvetica').fontSize(9).fillColor(MUTED).text(`${e.state}, ${e.depth.toFixed(2)} m deep, support: ${e.support_type.replace(/-/g, ' ')}`);
+    doc
+      .fillColor(INK)
+      .font('Helvetica-Bold')
+      .fontSize(13)
+      .text(t(`${e.reference}  ${e.name}`));
+    doc
+      .font('Helvetica')
+      .fontSize(9)
+      .fillColor(MUTED)
+      .text(`${e.state}, ${e.depth.toFixed(2)} m deep, support: ${e.support_type.replace(/-/g, ' ')}`);
     doc.moveDown(0.3);
 
-    for (const g of groupByShift(own, e.state === 'open' ? shiftsSoFar.filter((s) => s.end.getTime() > new Date(e.created_at).getTime()) : [])) {
+    for (const g of groupByShift(
+      own,
+      e.state === 'open' ? shiftsSoFar.filter((s) => s.end.getTime() > new Date(e.created_at).getTime()) : [],
+    )) {
       ensure(40);
-      doc.fillColor(INK).font('Helvetica-Bold').fontSize(10).text(t(`${g.name}, from ${formatSiteTime(g.start, tz)}`));
+      doc
+        .fillColor(INK)
+        .font('Helvetica-Bold')
+        .fontSize(10)
+        .text(t(`${g.name}, from ${formatSiteTime(g.start, tz)}`));
       doc.font('Helvetica').fontSize(9);
       if (!g.inspections.length) {
         doc.fillColor(RED).text('No inspection recorded in this shift.', { indent: 12 });
@@ -101,15 +131,30 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
       }
       for (const i of g.inspections) {
         ensure(46);
-        doc.fillColor(INK).text(t(`${formatSiteTime(new Date(i.inspectedAt), tz)}  ${i.inspector.name}  (${reasonLabels[i.reason]}${i.reasonDetail ? `: ${i.reasonDetail}` : ''})`), { indent: 12 });
-        doc.font('Helvetica-Bold').fillColor(i.outcome === 'safe' ? GREEN : RED).text(outcomeLabels[i.outcome], { indent: 12, continued: !!i.remarks });
-        if (i.remarks) doc.font('Helvetica').fillColor(INK).text(t(`  ${i.remarks}`));
+        doc
+          .fillColor(INK)
+          .text(
+            t(
+              `${formatSiteTime(new Date(i.inspectedAt), tz)}  ${i.inspector.name}  (${reasonLabels[i.reason]}${i.reasonDetail ? `: ${i.reasonDetail}` : ''})`,
+            ),
+            { indent: 12 },
+          );
+        doc
+          .font('Helvetica-Bold')
+          .fillColor(i.outcome === 'safe' ? GREEN : RED)
+          .text(outcomeLabels[i.outcome], { indent: 12, continued: !!i.remarks });
+        if (i.remarks)
+          doc
+            .font('Helvetica')
+            .fillColor(INK)
+            .text(t(`  ${i.remarks}`));
         doc.font('Helvetica').fillColor(INK);
         const failed = failedItems(i.checklist);
         if (failed.length) doc.text(t(`Failed: ${failed.map((f) => `${f.label} (${f.note})`).join('; ')}`), { indent: 12 });
         const na = checklist.filter((c) => i.checklist[c.key]?.answer === 'na').map((c) => c.label);
         if (na.length) doc.fillColor(MUTED).text(`Not applicable: ${na.join(', ')}`, { indent: 12 });
-        if (i.suspendedPermits.length) doc.fillColor(INK).text(`Permits suspended: ${i.suspendedPermits.map((p) => p.reference).join(', ')}`, { indent: 12 });
+        if (i.suspendedPermits.length)
+          doc.fillColor(INK).text(`Permits suspended: ${i.suspendedPermits.map((p) => p.reference).join(', ')}`, { indent: 12 });
         if (i.photos.length) {
           ensure(THUMB_H + 8);
           let x = left + 12;
@@ -121,16 +166,25 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>,
               try {
                 doc.image(bytes, x, y, { fit: [THUMB_W, THUMB_H], align: 'center', valign: 'center' });
               } catch {
-                doc.fontSize(7).fillColor(MUTED).text('(photo unreadable)', x, y + THUMB_H / 2, { width: THUMB_W, align: 'center' });
+                doc
+                  .fontSize(7)
+                  .fillColor(MUTED)
+                  .text('(photo unreadable)', x, y + THUMB_H / 2, { width: THUMB_W, align: 'center' });
               }
             } else {
-              doc.fontSize(7).fillColor(MUTED).text('(photo missing)', x, y + THUMB_H / 2, { width: THUMB_W, align: 'center' });
+              doc
+                .fontSize(7)
+                .fillColor(MUTED)
+                .text('(photo missing)', x, y + THUMB_H / 2, { width: THUMB_W, align: 'center' });
             }
             doc.rect(x, y, THUMB_W, THUMB_H).strokeColor(RULE).lineWidth(0.5).stroke();
             x += THUMB_W + 6;
           }
           if (i.photos.length * (THUMB_W + 6) > width - 12) {
-            doc.fontSize(7).fillColor(MUTED).text(`(${i.photos.length} photos; the first ones shown)`, left + 12, y + THUMB_H + 2);
+            doc
+              .fontSize(7)
+              .fillColor(MUTED)
+              .text(`(${i.photos.length} photos; the first ones shown)`, left + 12, y + THUMB_H + 2);
           }
           doc.x = left;
           doc.y = y + THUMB_H + 12;

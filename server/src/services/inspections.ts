@@ -30,7 +30,12 @@ import { inTransaction, withSavepoint } from './tx';
 
 /** The site's shifts in start order (one day shift at 07:00 when none are set). */
 export async function siteShifts(db: Db, siteId: number): Promise<ShiftDef[]> {
-  const rows = await db.selectFrom('site_shifts').select(['name', 'start_time']).where('site_id', '=', siteId).orderBy('start_time').execute();
+  const rows = await db
+    .selectFrom('site_shifts')
+    .select(['name', 'start_time'])
+    .where('site_id', '=', siteId)
+    .orderBy('start_time')
+    .execute();
   return rows.length ? rows.map((r) => ({ name: r.name, start: r.start_time })) : [...DEFAULT_SHIFTS];
 }
 
@@ -63,7 +68,14 @@ export async function siteClock(db: Db, siteId: number, now: Date): Promise<Site
   if (!site) throw notFound('That site');
   const shifts = await siteShifts(db, siteId);
   const shift = currentShift(shifts, site.timezone, now);
-  return { siteId, siteName: site.name, timeZone: site.timezone, shifts, shift, overdueFrom: new Date(shift.start.getTime() + GRACE_MINUTES * 60_000) };
+  return {
+    siteId,
+    siteName: site.name,
+    timeZone: site.timezone,
+    shifts,
+    shift,
+    overdueFrom: new Date(shift.start.getTime() + GRACE_MINUTES * 60_000),
+  };
 }
 
 /* ---------------------------------------------------------------- state */
@@ -73,7 +85,13 @@ export async function siteClock(db: Db, siteId: number, now: Date): Promise<Site
  * `ok` with a safe inspection since the shift started, else `due` inside the grace time and
  * `overdue` after it.
  */
-export function decideState(f: { latestOutcome: Outcome | null; lastSafeAt: Date | null; shiftStart: Date; overdueFrom: Date; now: Date }): InspectionState {
+export function decideState(f: {
+  latestOutcome: Outcome | null;
+  lastSafeAt: Date | null;
+  shiftStart: Date;
+  overdueFrom: Date;
+  now: Date;
+}): InspectionState {
   if (f.latestOutcome === 'not-safe') return 'unsafe';
   if (f.lastSafeAt && f.lastSafeAt.getTime() >= f.shiftStart.getTime()) return 'ok';
   return f.now.getTime() < f.overdueFrom.getTime() ? 'due' : 'overdue';
@@ -83,9 +101,19 @@ export function decideState(f: { latestOutcome: Outcome | null; lastSafeAt: Date
  * The inspection state of every open excavation of a site at `now` (or of the named ones). The map,
  * the register and the dashboards read this through GET /api/sites/:siteId/inspections/states.
  */
-export async function inspectionStates(db: Db, siteId: number, now: Date, opts: { excavationIds?: number[] } = {}): Promise<InspectionStatesAnswer & { clock: SiteClock }> {
+export async function inspectionStates(
+  db: Db,
+  siteId: number,
+  now: Date,
+  opts: { excavationIds?: number[] } = {},
+): Promise<InspectionStatesAnswer & { clock: SiteClock }> {
   const clock = await siteClock(db, siteId, now);
-  let q = db.selectFrom('excavations').select(['id', 'reference', 'name']).where('site_id', '=', siteId).where('state', '=', 'open').orderBy('reference');
+  let q = db
+    .selectFrom('excavations')
+    .select(['id', 'reference', 'name'])
+    .where('site_id', '=', siteId)
+    .where('state', '=', 'open')
+    .orderBy('reference');
   if (opts.excavationIds) {
     if (opts.excavationIds.length === 0) return { clock, shift: shiftOut(clock), excavations: [] };
     q = q.where('id', 'in', opts.excavationIds);
@@ -123,7 +151,13 @@ export async function inspectionStates(db: Db, siteId: number, now: Date, opts: 
       excavationId: e.id,
       reference: e.reference,
       name: e.name,
-      state: decideState({ latestOutcome: l?.outcome ?? null, lastSafeAt, shiftStart: clock.shift.start, overdueFrom: clock.overdueFrom, now }),
+      state: decideState({
+        latestOutcome: l?.outcome ?? null,
+        lastSafeAt,
+        shiftStart: clock.shift.start,
+        overdueFrom: clock.overdueFrom,
+        now,
+      }),
       lastInspection: l ? { id: l.id, at: new Date(l.inspected_at).toISOString(), outcome: l.outcome, inspector: l.name } : null,
       lastSafeAt: lastSafeAt?.toISOString() ?? null,
     };
@@ -132,7 +166,12 @@ export async function inspectionStates(db: Db, siteId: number, now: Date, opts: 
 }
 
 export function shiftOut(c: SiteClock): InspectionStatesAnswer['shift'] {
-  return { name: c.shift.name, start: c.shift.start.toISOString(), end: c.shift.end.toISOString(), overdueFrom: c.overdueFrom.toISOString() };
+  return {
+    name: c.shift.name,
+    start: c.shift.start.toISOString(),
+    end: c.shift.end.toISOString(),
+    overdueFrom: c.overdueFrom.toISOString(),
+  };
 }
 
 /** The open excavations still waiting for a safe inspection this shift (due, overdue or not safe). */
@@ -151,7 +190,11 @@ export interface ExcavationRow {
 }
 
 export async function loadExcavation(db: Db, id: number): Promise<ExcavationRow> {
-  const e = await db.selectFrom('excavations').select(['id', 'site_id', 'reference', 'name', 'state']).where('id', '=', id).executeTakeFirst();
+  const e = await db
+    .selectFrom('excavations')
+    .select(['id', 'site_id', 'reference', 'name', 'state'])
+    .where('id', '=', id)
+    .executeTakeFirst();
   if (!e) throw notFound('That excavation');
   return e;
 }
@@ -172,10 +215,19 @@ export async function recordInspection(
   const { db } = deps;
   const { data } = args;
   if (data.clientRef) {
-    const seen = await db.selectFrom('inspections').select(['id', 'excavation_id']).where('client_ref', '=', data.clientRef).executeTakeFirst();
+    const seen = await db
+      .selectFrom('inspections')
+      .select(['id', 'excavation_id'])
+      .where('client_ref', '=', data.clientRef)
+      .executeTakeFirst();
     if (seen) {
-      if (seen.excavation_id !== args.excavationId) throw badRequest('That form was already sent for another excavation.', { clientRef: 'belongs to another excavation' });
-      return { inspection: (await loadInspections(db, { ids: [seen.id] }))[0], created: false, consequences: await storedConsequences(db, seen.id) };
+      if (seen.excavation_id !== args.excavationId)
+        throw badRequest('That form was already sent for another excavation.', { clientRef: 'belongs to another excavation' });
+      return {
+        inspection: (await loadInspections(db, { ids: [seen.id] }))[0],
+        created: false,
+        consequences: await storedConsequences(db, seen.id),
+      };
     }
   }
   const exc = await loadExcavation(db, args.excavationId);
@@ -183,13 +235,22 @@ export async function recordInspection(
 
   const now = deps.now();
   const at = data.inspectedAt ? new Date(data.inspectedAt) : now;
-  if (at.getTime() > now.getTime() + 5 * 60_000) throw badRequest('The inspection time is in the future.', { inspectedAt: 'is in the future' });
+  if (at.getTime() > now.getTime() + 5 * 60_000)
+    throw badRequest('The inspection time is in the future.', { inspectedAt: 'is in the future' });
   if (at.getTime() < now.getTime() - BACKDATE_HOURS * 3600_000) {
-    throw badRequest(`The inspection time is more than ${BACKDATE_HOURS} hours ago.`, { inspectedAt: `may be at most ${BACKDATE_HOURS} hours ago` });
+    throw badRequest(`The inspection time is more than ${BACKDATE_HOURS} hours ago.`, {
+      inspectedAt: `may be at most ${BACKDATE_HOURS} hours ago`,
+    });
   }
-  const previous = await db.selectFrom('inspections').select(sql<Date | null>`max(inspected_at)`.as('at')).where('excavation_id', '=', exc.id).executeTakeFirst();
+  const previous = await db
+    .selectFrom('inspections')
+    .select(sql<Date | null>`max(inspected_at)`.as('at'))
+    .where('excavation_id', '=', exc.id)
+    .executeTakeFirst();
   if (previous?.at && at.getTime() < new Date(previous.at).getTime()) {
-    throw badRequest('The inspection time is before the latest inspection of this excavation.', { inspectedAt: 'is before the latest inspection of this excavation' });
+    throw badRequest('The inspection time is before the latest inspection of this excavation.', {
+      inspectedAt: 'is before the latest inspection of this excavation',
+    });
   }
   // Judge every photo's type before storing any, so that a bad one leaves nothing behind.
   for (const [i, f] of args.photos.entries()) await checkUploadType(f, `photos[${i}]`, 'image');
@@ -198,7 +259,9 @@ export async function recordInspection(
   const stored = await db.transaction().execute(async (trx) => {
     // The same form sent twice at once: the second waits here and finds the first.
     if (data.clientRef) await sql`select pg_advisory_xact_lock(hashtext(${data.clientRef}))`.execute(trx);
-    const twin = data.clientRef ? await trx.selectFrom('inspections').select('id').where('client_ref', '=', data.clientRef).executeTakeFirst() : undefined;
+    const twin = data.clientRef
+      ? await trx.selectFrom('inspections').select('id').where('client_ref', '=', data.clientRef).executeTakeFirst()
+      : undefined;
     if (twin) return { id: twin.id, created: false, consequences: await storedConsequences(trx, twin.id) };
     const row = await trx
       .insertInto('inspections')
@@ -220,7 +283,14 @@ export async function recordInspection(
       .returning('id')
       .executeTakeFirstOrThrow();
     for (const [i, f] of args.photos.entries()) {
-      const up = await storeUpload(deps, f, { field: `photos[${i}]`, accept: 'image', purpose: 'inspection-photo', siteId: exc.site_id, userId: args.inspectorId, db: trx });
+      const up = await storeUpload(deps, f, {
+        field: `photos[${i}]`,
+        accept: 'image',
+        purpose: 'inspection-photo',
+        siteId: exc.site_id,
+        userId: args.inspectorId,
+        db: trx,
+      });
       await trx.insertInto('inspection_photos').values({ inspection_id: row.id, upload_id: up.id, position: i }).execute();
     }
     await audit(trx, {
@@ -421,7 +491,12 @@ export async function reconcileUnsafe(deps: Deps, opts: { siteIds?: number[] } =
       const all = await applyConsequences({ ...deps, db: trx }, inspection);
       return { ...all, suspended: all.suspended.slice(before) };
     });
-    out.push({ inspectionId: row.id, excavation: row.reference, suspended: c.suspended.map((p) => p.reference), notSuspended: c.notSuspended.map((p) => p.reference) });
+    out.push({
+      inspectionId: row.id,
+      excavation: row.reference,
+      suspended: c.suspended.map((p) => p.reference),
+      notSuspended: c.notSuspended.map((p) => p.reference),
+    });
   }
   return out;
 }

@@ -37,7 +37,13 @@ export function receiveFiles(fields: string[], maxBytes: number, maxCount = 1): 
     receive(req, res, (err: unknown) => {
       if (err) {
         if (err instanceof multer.MulterError) return next(err);
-        return next(new HttpError(400, 'invalid', 'The upload could not be read: it was cut short or is not well-formed multipart/form-data. Send it again.'));
+        return next(
+          new HttpError(
+            400,
+            'invalid',
+            'The upload could not be read: it was cut short or is not well-formed multipart/form-data. Send it again.',
+          ),
+        );
       }
       const written: string[] = [];
       writtenBy.set(req, written);
@@ -46,7 +52,8 @@ export function receiveFiles(fields: string[], maxBytes: number, maxCount = 1): 
         for (const [i, f] of files.entries()) {
           const name = files.length > 1 ? `${field}[${i}]` : field;
           const why = badText(f.originalname)['(body)'];
-          if (why) return next(new HttpError(400, 'invalid', `The name of the file in ${name} ${why}.`, { [name]: `its file name ${why}` }));
+          if (why)
+            return next(new HttpError(400, 'invalid', `The name of the file in ${name} ${why}.`, { [name]: `its file name ${why}` }));
           writtenFor.set(f, written);
         }
       }
@@ -101,9 +108,14 @@ export async function checkUploadType(file: Express.Multer.File, field: string, 
   const rule = accepts[accept];
   const detected = await fileTypeFromBuffer(file.buffer);
   if (!detected || !(rule.mimes as readonly string[]).includes(detected.mime)) {
-    throw new HttpError(400, 'invalid', `The file in ${field} must be ${rule.words}; its content is ${detected ? detected.mime : 'not a known type'}.`, {
-      [field]: `must be ${rule.words}`,
-    });
+    throw new HttpError(
+      400,
+      'invalid',
+      `The file in ${field} must be ${rule.words}; its content is ${detected ? detected.mime : 'not a known type'}.`,
+      {
+        [field]: `must be ${rule.words}`,
+      },
+    );
   }
   return detected;
 }
@@ -148,10 +160,7 @@ export async function sendUpload(deps: Pick<Deps, 'db' | 'config'>, res: Respons
   res.setHeader('Content-Length', String(row.size));
   res.setHeader('X-Content-Type-Options', 'nosniff');
   res.setHeader('Cache-Control', 'private, max-age=3600');
-  res.setHeader(
-    'Content-Disposition',
-    `${inline ? 'inline' : 'attachment'}; filename*=UTF-8''${encodeURIComponent(row.original_name)}`,
-  );
+  res.setHeader('Content-Disposition', `${inline ? 'inline' : 'attachment'}; filename*=UTF-8''${encodeURIComponent(row.original_name)}`);
   await new Promise<void>((resolve, reject) => {
     const s = createReadStream(path.resolve(deps.config.uploadDir, row.storage_key));
     s.on('error', reject);

@@ -57,7 +57,11 @@ function OfflineGrid({ origin }: { origin: BaseMapProps['origin'] }) {
 
 /** Keeps the ratio scale (1:n at 96 dpi) in step with the zoom. */
 function ScaleRatio({ onChange }: { onChange: (n: number) => void }) {
-  const map = useMapEvents({ zoomend: () => onChange(ratioOf(map)), moveend: () => onChange(ratioOf(map)), resize: () => onChange(ratioOf(map)) });
+  const map = useMapEvents({
+    zoomend: () => onChange(ratioOf(map)),
+    moveend: () => onChange(ratioOf(map)),
+    resize: () => onChange(ratioOf(map)),
+  });
   useEffect(() => onChange(ratioOf(map)), [map, onChange]);
   return null;
 }
@@ -90,7 +94,18 @@ function NorthArrow({ ratio }: { ratio: number | null }) {
  * from the configured address when there is one, and nothing fetched from outside otherwise), the
  * pinned site plan, a metric scale bar, the 1:n ratio and a north arrow. Layers come in as children.
  */
-export function BaseMap({ origin, center, zoom = 18, className = 'h-full w-full', ariaLabel, plan, planOpacity = 0.7, scrollWheelZoom = true, mapRef, children }: BaseMapProps) {
+export function BaseMap({
+  origin,
+  center,
+  zoom = 18,
+  className = 'h-full w-full',
+  ariaLabel,
+  plan,
+  planOpacity = 0.7,
+  scrollWheelZoom = true,
+  mapRef,
+  children,
+}: BaseMapProps) {
   const [ratio, setRatio] = useState<number | null>(null);
   const config = useAppConfig();
   const tileUrl = config.data?.mapTileUrl ?? null;
@@ -110,7 +125,12 @@ export function BaseMap({ origin, center, zoom = 18, className = 'h-full w-full'
         ref={mapRef}
       >
         {tileUrl ? (
-          <TileLayer url={tileUrl} attribution={config.data?.mapTileAttribution ?? ''} maxNativeZoom={MAX_NATIVE_TILE_ZOOM} maxZoom={MAX_ZOOM} />
+          <TileLayer
+            url={tileUrl}
+            attribution={config.data?.mapTileAttribution ?? ''}
+            maxNativeZoom={MAX_NATIVE_TILE_ZOOM}
+            maxZoom={MAX_ZOOM}
+          />
         ) : (
           <OfflineGrid origin={origin} />
         )}

@@ -100,8 +100,22 @@ export class MetricGridLayer extends L.Layer {
     // One family of lines per axis: vertical lines at x = k·step (labelled E/W along the top),
     // horizontal lines at y = k·step (labelled N/S down the left side).
     const axes = [
-      { from: x0, to: x1, at: (v: number) => Math.round(toScreen(v, yMid).x) + 0.5, line: (p: number) => [p, 0, p, size.y], label: (p: number) => [p + 3, 4], dirs: ['E', 'W'] },
-      { from: y0, to: y1, at: (v: number) => Math.round(toScreen(xMid, v).y) + 0.5, line: (p: number) => [0, p, size.x, p], label: (p: number) => [4, p + 3], dirs: ['N', 'S'] },
+      {
+        from: x0,
+        to: x1,
+        at: (v: number) => Math.round(toScreen(v, yMid).x) + 0.5,
+        line: (p: number) => [p, 0, p, size.y],
+        label: (p: number) => [p + 3, 4],
+        dirs: ['E', 'W'],
+      },
+      {
+        from: y0,
+        to: y1,
+        at: (v: number) => Math.round(toScreen(xMid, v).y) + 0.5,
+        line: (p: number) => [0, p, size.x, p],
+        label: (p: number) => [4, p + 3],
+        dirs: ['N', 'S'],
+      },
     ] as const;
     for (const [n, axis] of axes.entries()) {
       for (let k = Math.ceil(axis.from / step); k * step <= axis.to; k++) {

@@ -6,4 +6,3 @@ export const inspectionRoutes: RouteObject[] = [
   { path: 'excavations/:excavationId/inspect', lazy: async () => ({ Component: (await import('./routes/InspectPage')).InspectPage }) },
   { path: 'excavations/:excavationId/inspections', lazy: async () => ({ Component: (await import('./routes/HistoryPage')).HistoryPage }) },
 ];
-

@@ -11,4 +11,3 @@ export const permitRoutes: RouteObject[] = [
   { path: 'permits/:permitId', lazy: async () => ({ Component: (await import('./routes/PermitPage')).PermitPage }) },
   { path: 'permits/:permitId/edit', lazy: async () => ({ Component: (await import('./routes/PermitEditPage')).PermitEditPage }) },
 ];
-

@@ -5,11 +5,19 @@ import { registerCsv, soilSummary } from './csv';
 
 describe('CSV (RFC 4180)', () => {
   it('quotes fields with commas, quotes and line breaks, and ends rows with CRLF', () => {
-    expect(toCsv([['a', 'b'], ['x, y', 'say "hi"'], ['two\nlines', 3.5]])).toBe('a,b\r\n"x, y","say ""hi"""\r\n"two\nlines",3.5\r\n');
+    expect(
+      toCsv([
+        ['a', 'b'],
+        ['x, y', 'say "hi"'],
+        ['two\nlines', 3.5],
+      ]),
+    ).toBe('a,b\r\n"x, y","say ""hi"""\r\n"two\nlines",3.5\r\n');
   });
 
   it('keeps text from running as a spreadsheet formula, but writes negative numbers as numbers', () => {
-    expect(toCsv([['v'], ['=HYPERLINK("x")'], ['@SUM(A1)'], [-2.5], [null]])).toBe('v\r\n"\'=HYPERLINK(""x"")"\r\n\'@SUM(A1)\r\n-2.5\r\n\r\n');
+    expect(toCsv([['v'], ['=HYPERLINK("x")'], ['@SUM(A1)'], [-2.5], [null]])).toBe(
+      'v\r\n"\'=HYPERLINK(""x"")"\r\n\'@SUM(A1)\r\n-2.5\r\n\r\n',
+    );
   });
 });
 
@@ -20,7 +28,13 @@ describe('register CSV', () => {
     reference: 'TR-07',
     name: 'Drain, phase 2',
     kind: 'trench',
-    geometry: { type: 'LineString', coordinates: [[0, 0], [0, 0.001]] },
+    geometry: {
+      type: 'LineString',
+      coordinates: [
+        [0, 0],
+        [0, 0.001],
+      ],
+    },
     width: 1.2,
     depth: 2.4,
     state: 'open',
@@ -52,7 +66,9 @@ describe('register CSV', () => {
   it('writes a header and one row per excavation with labels and units', () => {
     const lines = registerCsv([e]).split('\r\n');
     expect(lines[0]).toMatch(/^Reference,Name,Kind,State,Inspection this shift,Depth \(m\),Width \(m\),Support,/);
-    expect(lines[1]).toBe('TR-07,"Drain, phase 2",Trench,Open,,2.4,1.2,Hydraulic frames,10,,unyielding,,"0 m: γ 18, φ′ 27°; 0.5 m: γ 19.5, γsat 20, cu 50 kPa",TW-112 rev B,,,2026-03-02T07:30:00.000Z');
+    expect(lines[1]).toBe(
+      'TR-07,"Drain, phase 2",Trench,Open,,2.4,1.2,Hydraulic frames,10,,unyielding,,"0 m: γ 18, φ′ 27°; 0.5 m: γ 19.5, γsat 20, cu 50 kPa",TW-112 rev B,,,2026-03-02T07:30:00.000Z',
+    );
     expect(lines).toHaveLength(3);
   });
 

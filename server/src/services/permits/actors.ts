@@ -48,9 +48,16 @@ export async function isAuthorOf(db: Db, permitId: number, userId: number): Prom
       eb
         .or([
           eb('p.requested_by', '=', userId),
-          eb.exists(eb.selectFrom('permit_revisions as r').select('r.id').whereRef('r.permit_id', '=', 'p.id').where('r.created_by', '=', userId)),
           eb.exists(
-            eb.selectFrom('permit_events as e').select('e.id').whereRef('e.permit_id', '=', 'p.id').where('e.actor_id', '=', userId).where('e.action', 'in', AUTHORING),
+            eb.selectFrom('permit_revisions as r').select('r.id').whereRef('r.permit_id', '=', 'p.id').where('r.created_by', '=', userId),
+          ),
+          eb.exists(
+            eb
+              .selectFrom('permit_events as e')
+              .select('e.id')
+              .whereRef('e.permit_id', '=', 'p.id')
+              .where('e.actor_id', '=', userId)
+              .where('e.action', 'in', AUTHORING),
           ),
         ])
         .as('author'),

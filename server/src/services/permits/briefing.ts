@@ -24,12 +24,20 @@ export async function confirmBriefing(
   if (!row) throw notFound('That permit');
   // A confirmation made (perhaps offline) on an earlier revision does not brief the operator on this one.
   if (opts.revision !== undefined && opts.revision !== row.revision) {
-    throw conflict(`Permit ${row.number} has changed since that briefing (now revision ${row.revision}): read it again and confirm the new briefing.`);
+    throw conflict(
+      `Permit ${row.number} has changed since that briefing (now revision ${row.revision}): read it again and confirm the new briefing.`,
+    );
   }
-  const mine = await deps.db.selectFrom('permit_operators').select('briefed_at').where('revision_id', '=', row.revision_id).where('user_id', '=', user.id).executeTakeFirst();
+  const mine = await deps.db
+    .selectFrom('permit_operators')
+    .select('briefed_at')
+    .where('revision_id', '=', row.revision_id)
+    .where('user_id', '=', user.id)
+    .executeTakeFirst();
   if (!mine) throw forbidden(`You are not named as an operator on permit ${row.number}.`);
   if (mine.briefed_at) return { briefedAt: new Date(mine.briefed_at).toISOString(), status: row.status };
-  if (!['approved', 'live', 'suspended'].includes(row.status)) throw conflict(`Permit ${row.number} is not approved yet: the briefing comes after approval.`);
+  if (!['approved', 'live', 'suspended'].includes(row.status))
+    throw conflict(`Permit ${row.number} is not approved yet: the briefing comes after approval.`);
   await deps.db.transaction().execute(async (trx) => {
     // One briefing at a time per permit, so the last operator's confirmation sees all the others'
     // and the permit goes live in the same transaction.
@@ -45,12 +53,35 @@ export async function confirmBriefing(
     if (!set) return;
     await trx
       .insertInto('permit_events')
-      .values({ permit_id: row.id, revision: row.revision, at: now, actor_id: user.id, actor_name: user.name, action: 'briefed', from_status: null, to_status: null, comment: '', detail: JSON.stringify({}) })
+      .values({
+        permit_id: row.id,
+        revision: row.revision,
+        at: now,
+        actor_id: user.id,
+        actor_name: user.name,
+        action: 'briefed',
+        from_status: null,
+        to_status: null,
+        comment: '',
+        detail: JSON.stringify({}),
+      })
       .execute();
-    await audit(trx, { actorId: user.id, siteId: row.site_id, entity: 'permit', entityId: row.id, action: 'briefed', detail: { number: row.number, revision: row.revision } });
+    await audit(trx, {
+      actorId: user.id,
+      siteId: row.site_id,
+      entity: 'permit',
+      entityId: row.id,
+      action: 'briefed',
+      detail: { number: row.number, revision: row.revision },
+    });
     await advancePermit({ ...deps, db: trx }, row.id);
   });
   const after = await deps.db.selectFrom('permits').select('status').where('id', '=', row.id).executeTakeFirstOrThrow();
-  const b = await deps.db.selectFrom('permit_operators').select('briefed_at').where('revision_id', '=', row.revision_id).where('user_id', '=', user.id).executeTakeFirstOrThrow();
+  const b = await deps.db
+    .selectFrom('permit_operators')
+    .select('briefed_at')
+    .where('revision_id', '=', row.revision_id)
+    .where('user_id', '=', user.id)
+    .executeTakeFirstOrThrow();
   return { briefedAt: new Date(b.briefed_at!).toISOString(), status: after.status };
 }

@@ -50,27 +50,45 @@ export async function plantFor(
   const frozen = new Map([...known, ...(snapshot ? machinesOf(snapshot) : [])]);
   const ids = plantIdsOf(loads).filter((id) => !frozen.has(id));
   if (!ids.length) return frozen;
-  return addPlant(frozen, await db.selectFrom('plant_items').select(['id', 'name', 'operating_mass', 'design_factor', 'elements']).where('id', 'in', ids).execute());
+  return addPlant(
+    frozen,
+    await db
+      .selectFrom('plant_items')
+      .select(['id', 'name', 'operating_mass', 'design_factor', 'elements'])
+      .where('id', 'in', ids)
+      .execute(),
+  );
 }
 
 function addPlant(
   into: Map<number, PlantForCheck>,
   rows: { id: number; name: string; operating_mass: number; design_factor: number; elements: PlantForCheck['elements'] }[],
 ): Map<number, PlantForCheck> {
-  for (const r of rows) into.set(r.id, { id: r.id, name: r.name, operatingMass: r.operating_mass, designFactor: r.design_factor, elements: r.elements });
+  for (const r of rows)
+    into.set(r.id, { id: r.id, name: r.name, operatingMass: r.operating_mass, designFactor: r.design_factor, elements: r.elements });
   return into;
 }
 
 /** The machines of a snapshot as the check takes them. */
 export function machinesOf(snapshot: PlantSnapshot): Map<number, PlantForCheck> {
-  return new Map(snapshot.machines.map((m) => [m.id, { id: m.id, name: m.name, operatingMass: m.operatingMass, designFactor: m.designFactor, elements: m.elements }]));
+  return new Map(
+    snapshot.machines.map((m) => [
+      m.id,
+      { id: m.id, name: m.name, operatingMass: m.operatingMass, designFactor: m.designFactor, elements: m.elements },
+    ]),
+  );
 }
 
 /** The library's machines that the loads name, as they are now: frozen on a revision sent for review. */
 export async function takePlantSnapshot(db: Db, loads: PlacedLoad[], now: Date): Promise<PlantSnapshot> {
   const ids = plantIdsOf(loads);
   const rows = ids.length
-    ? await db.selectFrom('plant_items').select(['id', 'name', 'operating_mass', 'design_factor', 'elements', 'version', 'updated_at']).where('id', 'in', ids).orderBy('id').execute()
+    ? await db
+        .selectFrom('plant_items')
+        .select(['id', 'name', 'operating_mass', 'design_factor', 'elements', 'version', 'updated_at'])
+        .where('id', 'in', ids)
+        .orderBy('id')
+        .execute()
     : [];
   return {
     takenAt: now.toISOString(),
@@ -88,7 +106,11 @@ export async function takePlantSnapshot(db: Db, loads: PlacedLoad[], now: Date):
 
 /** The check inputs of the excavations a check used, from the register as it is now. */
 async function excavationSnapshotOf(db: Db, siteId: number, check: PermitCheck, now: Date): Promise<ExcavationSnapshot> {
-  const list = await loadExcavations(db, siteId, check.excavations.map((e) => e.excavationId));
+  const list = await loadExcavations(
+    db,
+    siteId,
+    check.excavations.map((e) => e.excavationId),
+  );
   return {
     takenAt: now.toISOString(),
     excavations: list.map((e) => ({
@@ -118,10 +140,19 @@ export async function overlappingPermits(
   return (await overlappingQuery(db, siteId, exceptPermitId, excavationIds, window, opts).execute()).map(otherPermitOf);
 }
 
-function overlappingQuery(db: Db, siteId: number, exceptPermitId: number | null, excavationIds: number[], window: { start: Date; end: Date }, opts: { withOpen?: boolean }) {
+function overlappingQuery(
+  db: Db,
+  siteId: number,
+  exceptPermitId: number | null,
+  excavationIds: number[],
+  window: { start: Date; end: Date },
+  opts: { withOpen?: boolean },
+) {
   // withOpen: the site's open excavations count too (found in the same query).
   const named = sql`${sql.val(excavationIds)}::int[]`;
-  const ids = opts.withOpen ? sql`(${named} || array(select e.id from excavations e where e.site_id = ${siteId} and e.state = 'open'))` : named;
+  const ids = opts.withOpen
+    ? sql`(${named} || array(select e.id from excavations e where e.site_id = ${siteId} and e.state = 'open'))`
+    : named;
   let q = withCurrentRevision(db)
     .select(['p.id', 'p.number', 'p.status', 'r.window_start', 'r.window_end', 'r.excavation_ids', 'r.loads', 'r.plant_snapshot'])
     .where('p.site_id', '=', siteId)
@@ -163,7 +194,24 @@ function otherPermitOf(r: {
 function checkExcavationQuery(db: Db, siteId: number, named: number[]) {
   return db
     .selectFrom('excavations')
-    .select(['id', 'reference', 'name', 'kind', 'geometry', 'width', 'soil', 'state', 'outline', 'depth', 'groundwater_depth', 'design_surcharge', 'rated_pressure', 'pressure_state', 'wall_friction', 'restraint'])
+    .select([
+      'id',
+      'reference',
+      'name',
+      'kind',
+      'geometry',
+      'width',
+      'soil',
+      'state',
+      'outline',
+      'depth',
+      'groundwater_depth',
+      'design_surcharge',
+      'rated_pressure',
+      'pressure_state',
+      'wall_friction',
+      'restraint',
+    ])
     .where('site_id', '=', siteId)
     .where((eb) => (named.length ? eb.or([eb('state', '=', 'open'), eb('id', 'in', named)]) : eb('state', '=', 'open')))
     .orderBy('reference');
@@ -247,7 +295,14 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
   // still missing. Every other open excavation is checked when a load reaches it (passed over
   // cheaply by its stored outline when no load comes near it).
   const ownIds = plantIdsOf(s.loads).filter((id) => !s.plantSnapshot?.machines.some((m) => m.id === id));
-  const othersQuery = overlappingQuery(db, s.siteId, s.permitId, s.excavationIds, { start: s.windowStart, end: s.windowEnd }, { withOpen: true });
+  const othersQuery = overlappingQuery(
+    db,
+    s.siteId,
+    s.permitId,
+    s.excavationIds,
+    { start: s.windowStart, end: s.windowEnd },
+    { withOpen: true },
+  );
   const read = await db
     .selectNoFrom(() => [
       jsonArrayFrom(checkExcavationQuery(db, s.siteId, s.excavationIds)).as('excavations'),
@@ -275,17 +330,31 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
   const excavations = s.excavationIds.flatMap((id) => all.filter((e) => e.id === id));
   const nearby = all.filter((e) => e.state === 'open' && !s.excavationIds.includes(e.id));
   // Each permit's loads with its own machines: frozen from review on, the library's for the rest.
-  const plant = await plantFor(db, candidates.flatMap((o) => o.loads), null, ownPlant);
+  const plant = await plantFor(
+    db,
+    candidates.flatMap((o) => o.loads),
+    null,
+    ownPlant,
+  );
   const otherPlant = new Map(candidates.flatMap((o) => (o.plantSnapshot ? [[o.id, machinesOf(o.plantSnapshot)] as const] : [])));
   const others = candidates.map(({ plantSnapshot: _p, ...o }) => o);
   const missing = s.loads.findIndex((l) => l.kind === 'plant' && !plant.has(l.plantItemId));
-  if (missing >= 0) throw badRequest('A load names a machine that is not in the plant library.', { [`loads[${missing}].plantItemId`]: 'is not in the plant library' });
+  if (missing >= 0)
+    throw badRequest('A load names a machine that is not in the plant library.', {
+      [`loads[${missing}].plantItemId`]: 'is not in the plant library',
+    });
   try {
     return cumulativeCheck({
       origin: [site.longitude, site.latitude],
       method: s.method,
       minimumClearance: site.minimum_clearance,
-      permit: { id: s.permitId, number: s.number, windowStart: s.windowStart.toISOString(), windowEnd: s.windowEnd.toISOString(), loads: s.loads },
+      permit: {
+        id: s.permitId,
+        number: s.number,
+        windowStart: s.windowStart.toISOString(),
+        windowEnd: s.windowEnd.toISOString(),
+        loads: s.loads,
+      },
       excavations,
       nearby,
       plant,
@@ -303,7 +372,9 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
     if (err instanceof CheckInputError) {
       // A load's own field, or an excavation's figures (named by its reference) that the check refuses.
       const key = err.field.startsWith('loads[') ? err.field : 'excavationIds';
-      throw badRequest(`Cannot check: ${err.field} ${err.reason}.`, { [key]: key === 'excavationIds' ? `${err.field} ${err.reason}` : err.reason });
+      throw badRequest(`Cannot check: ${err.field} ${err.reason}.`, {
+        [key]: key === 'excavationIds' ? `${err.field} ${err.reason}` : err.reason,
+      });
     }
     throw err;
   }
@@ -311,7 +382,19 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
 
 async function subjectOf(db: Db, permitId: number): Promise<{ subject: CheckSubject; revisionId: number; status: PermitStatus }> {
   const r = await withCurrentRevision(db)
-    .select(['p.id', 'p.site_id', 'p.number', 'p.status', 'r.id as revision_id', 'r.window_start', 'r.window_end', 'r.excavation_ids', 'r.loads', 'r.method', 'r.plant_snapshot'])
+    .select([
+      'p.id',
+      'p.site_id',
+      'p.number',
+      'p.status',
+      'r.id as revision_id',
+      'r.window_start',
+      'r.window_end',
+      'r.excavation_ids',
+      'r.loads',
+      'r.method',
+      'r.plant_snapshot',
+    ])
     .where('p.id', '=', permitId)
     .executeTakeFirst();
   if (!r) throw notFound('That permit');
@@ -355,7 +438,11 @@ export async function checkOfStored(db: Db, permitId: number, now: Date, opts: {
   const { subject, revisionId, status } = await subjectOf(db, permitId);
   if (opts.freeze || (!subject.plantSnapshot && !editableStatuses.includes(status))) {
     subject.plantSnapshot = await takePlantSnapshot(db, subject.loads, now);
-    await db.updateTable('permit_revisions').set({ plant_snapshot: JSON.stringify(subject.plantSnapshot) }).where('id', '=', revisionId).execute();
+    await db
+      .updateTable('permit_revisions')
+      .set({ plant_snapshot: JSON.stringify(subject.plantSnapshot) })
+      .where('id', '=', revisionId)
+      .execute();
   }
   return { revisionId, siteId: subject.siteId, check: await runPermitCheck(db, subject, now) };
 }
@@ -390,7 +477,8 @@ export async function checkProposal(db: Db, permitId: number, proposal: CheckPro
     loads: proposal.loads ?? subject.loads,
     method: proposal.method ?? subject.method,
   };
-  if (s.windowEnd <= s.windowStart) throw badRequest('The window must end after it starts.', { windowEnd: 'must be after the start of the window' });
+  if (s.windowEnd <= s.windowStart)
+    throw badRequest('The window must end after it starts.', { windowEnd: 'must be after the start of the window' });
   return runPermitCheck(db, s, now);
 }
 

@@ -43,7 +43,10 @@ export interface TransitionOutcome {
 
 /** A 409 that says what the permit is now, so the client can show it. */
 export class StaleError extends HttpError {
-  constructor(message: string, readonly current: { status: PermitStatus; version: number }) {
+  constructor(
+    message: string,
+    readonly current: { status: PermitStatus; version: number },
+  ) {
     super(409, 'conflict', message, { version: `now ${current.version} (${statusLabels[current.status]})` });
   }
 }
@@ -51,11 +54,21 @@ export class StaleError extends HttpError {
 /** A wrong password under a decision: 400 naming the field; the route counts it (attempt limit). */
 export class WrongPasswordError extends HttpError {
   constructor() {
-    super(400, 'invalid', 'The decision was not signed: the password is not yours.', { password: 'is not the one you sign in with: type it again' });
+    super(400, 'invalid', 'The decision was not signed: the password is not yours.', {
+      password: 'is not the one you sign in with: type it again',
+    });
   }
 }
 
-type PermitRow = { id: number; site_id: number; number: string; status: PermitStatus; version: number; revision: number; requested_by: number };
+type PermitRow = {
+  id: number;
+  site_id: number;
+  number: string;
+  status: PermitStatus;
+  version: number;
+  revision: number;
+  requested_by: number;
+};
 
 /**
  * Who may take `action` on the permit: its site role (403 naming who may), and for a decision
@@ -63,12 +76,18 @@ type PermitRow = { id: number; site_id: number; number: string; status: PermitSt
  * validated (`action` is then untrusted: an unknown one passes only for a role that can take some
  * action, and the body's validation names it) and again inside the transition, under the lock.
  */
-export async function assertMayAct(db: Db, p: { id: number; site_id: number; number: string }, action: unknown, actor: Actor): Promise<void> {
+export async function assertMayAct(
+  db: Db,
+  p: { id: number; site_id: number; number: string },
+  action: unknown,
+  actor: Actor,
+): Promise<void> {
   const role = await roleOf(db, actor, p.site_id);
   if (!role) throw forbidden('You are not a member of this permit\u2019s site.');
   const known = (permitActions as readonly unknown[]).includes(action) ? (action as PermitAction) : null;
   if (!known) {
-    if (!permitActions.some((a) => transitionRules[a].by.includes(role))) throw forbidden(`Your role on this site (${role}) does not move permits on.`);
+    if (!permitActions.some((a) => transitionRules[a].by.includes(role)))
+      throw forbidden(`Your role on this site (${role}) does not move permits on.`);
     return;
   }
   const rule = transitionRules[known];
@@ -80,7 +99,9 @@ export async function assertMayAct(db: Db, p: { id: number; site_id: number; num
     );
   }
   if (actor.kind === 'user' && DECISIONS.includes(known) && (await isAuthorOf(db, p.id, actor.id))) {
-    throw forbidden(`You requested or changed permit ${p.number}, so you cannot decide on it (${rule.label.toLowerCase()}): another coordinator must.`);
+    throw forbidden(
+      `You requested or changed permit ${p.number}, so you cannot decide on it (${rule.label.toLowerCase()}): another coordinator must.`,
+    );
   }
 }
 
@@ -116,7 +137,8 @@ export async function transition(
     if (!p) throw notFound('That permit');
 
     await assertMayAct(trx, p, action, actor);
-    if (rule.reason && !opts.reason?.trim()) throw badRequest(`A reason is required to ${rule.label.toLowerCase()}.`, { reason: 'is required' });
+    if (rule.reason && !opts.reason?.trim())
+      throw badRequest(`A reason is required to ${rule.label.toLowerCase()}.`, { reason: 'is required' });
     if (actor.kind === 'user' && opts.version === undefined) throw badRequest('The version is required.', { version: 'is required' });
     if (opts.version !== undefined && opts.version !== p.version) {
       throw new StaleError(
@@ -125,7 +147,10 @@ export async function transition(
       );
     }
     if (!rule.from.includes(p.status)) {
-      throw new StaleError(`A permit that is ${statusLabels[p.status]} cannot be sent to "${rule.label}".`, { status: p.status, version: p.version });
+      throw new StaleError(`A permit that is ${statusLabels[p.status]} cannot be sent to "${rule.label}".`, {
+        status: p.status,
+        version: p.version,
+      });
     }
 
     const rev = await trx
@@ -169,17 +194,38 @@ export async function transition(
         const fields: Record<string, string> = {};
         if (!check.passes && !reason) fields.reason = 'is required to approve loads that fail the cumulative check';
         if (opts.standoff !== undefined && (computed === null || opts.standoff < computed) && !reason) {
-          fields.standoff = computed === null ? 'no computed standoff exists: give a reason' : `must be at least ${computed.toFixed(2)} m, or give a reason`;
+          fields.standoff =
+            computed === null
+              ? 'no computed standoff exists: give a reason'
+              : `must be at least ${computed.toFixed(2)} m, or give a reason`;
         }
         if (Object.keys(fields).length) {
           const why = [
             ...(fields.reason ? ['the cumulative check fails as the loads are placed'] : []),
-            ...(fields.standoff ? [computed === null ? 'no standoff lets the support carry these loads' : `the standoff ${opts.standoff!.toFixed(2)} m is less than the computed ${computed.toFixed(2)} m`] : []),
+            ...(fields.standoff
+              ? [
+                  computed === null
+                    ? 'no standoff lets the support carry these loads'
+                    : `the standoff ${opts.standoff!.toFixed(2)} m is less than the computed ${computed.toFixed(2)} m`,
+                ]
+              : []),
           ];
-          throw badRequest(`Approval needs a recorded reason: ${why.join('; ')}. Give a reason, or return the request so the loads are moved.`, fields);
+          throw badRequest(
+            `Approval needs a recorded reason: ${why.join('; ')}. Give a reason, or return the request so the loads are moved.`,
+            fields,
+          );
         }
-        const decision = decisionOf('approve', actor, actorName, now, { reason, standoff: opts.standoff ?? null, computed, conditions: opts.conditions ?? [] });
-        await trx.updateTable('permit_revisions').set({ decision: JSON.stringify(decision), updated_at: now }).where('id', '=', rev.id).execute();
+        const decision = decisionOf('approve', actor, actorName, now, {
+          reason,
+          standoff: opts.standoff ?? null,
+          computed,
+          conditions: opts.conditions ?? [],
+        });
+        await trx
+          .updateTable('permit_revisions')
+          .set({ decision: JSON.stringify(decision), updated_at: now })
+          .where('id', '=', rev.id)
+          .execute();
         Object.assign(detail, { decision, check: summaryOf(check) });
         break;
       }
@@ -192,13 +238,22 @@ export async function transition(
           computed: check?.computedStandoff ?? null,
           conditions: [],
         });
-        await trx.updateTable('permit_revisions').set({ decision: JSON.stringify(decision), updated_at: now }).where('id', '=', rev.id).execute();
+        await trx
+          .updateTable('permit_revisions')
+          .set({ decision: JSON.stringify(decision), updated_at: now })
+          .where('id', '=', rev.id)
+          .execute();
         detail.decision = decision;
         break;
       }
       case 'start': {
         if (now < windowStart || now >= windowEnd) throw conflict(`Permit ${p.number} can go live only within its window.`);
-        const waiting = await trx.selectFrom('permit_operators').select('user_id').where('revision_id', '=', rev.id).where('briefed_at', 'is', null).execute();
+        const waiting = await trx
+          .selectFrom('permit_operators')
+          .select('user_id')
+          .where('revision_id', '=', rev.id)
+          .where('briefed_at', 'is', null)
+          .execute();
         if (waiting.length) throw conflict(`Permit ${p.number} waits for ${waiting.length} operator(s) to confirm the briefing.`);
         await assertNoneUnsafe(trx, p.number, rev.excavation_ids, now);
         break;
@@ -262,7 +317,11 @@ export async function transition(
       .where('version', '=', p.version)
       .returning(['version'])
       .executeTakeFirst();
-    if (!updated) throw new StaleError(`Permit ${p.number} has just been changed by someone else. Look again before you act.`, { status: p.status, version: p.version });
+    if (!updated)
+      throw new StaleError(`Permit ${p.number} has just been changed by someone else. Look again before you act.`, {
+        status: p.status,
+        version: p.version,
+      });
 
     await trx
       .insertInto('permit_events')
@@ -285,28 +344,47 @@ export async function transition(
       entity: 'permit',
       entityId: p.id,
       action,
-      detail: { number: p.number, from: p.status, to, revision: newRevision, by: actorName, ...(opts.reason ? { reason: opts.reason } : {}), ...(detail.decision ? { decision: detail.decision } : {}) },
+      detail: {
+        number: p.number,
+        from: p.status,
+        to,
+        revision: newRevision,
+        by: actorName,
+        ...(opts.reason ? { reason: opts.reason } : {}),
+        ...(detail.decision ? { decision: detail.decision } : {}),
+      },
     });
     const site = await trx.selectFrom('sites').select('name').where('id', '=', p.site_id).executeTakeFirstOrThrow();
-    const outcome: TransitionOutcome = { permitId: p.id, from: p.status, to, version: updated.version, revision: newRevision, notified: [] };
+    const outcome: TransitionOutcome = {
+      permitId: p.id,
+      from: p.status,
+      to,
+      version: updated.version,
+      revision: newRevision,
+      notified: [],
+    };
     // The notices are queued in this transaction: they exist if and only if the transition does.
     const inTrx = { ...deps, db: trx };
     // A draft withdrawn before it was ever sent for review concerned nobody but its author: no notice.
-    const neverSent = action === 'withdraw' && p.status === 'draft' && !(await trx.selectFrom('permit_events').select('id').where('permit_id', '=', p.id).where('action', '=', 'submit').executeTakeFirst());
-    if (!neverSent) outcome.notified = await notifyTransition(inTrx, action, {
-      permitId: p.id,
-      number: p.number,
-      siteName: site.name,
-      description: rev.description,
-      status: to,
-      windowStart,
-      windowEnd,
-      actorName,
-      actorId: actor.kind === 'user' ? actor.id : null,
-      reason: opts.reason?.trim(),
-      standoff: action === 'approve' ? (opts.standoff ?? null) : null,
-      conditions: action === 'approve' ? opts.conditions : undefined,
-    });
+    const neverSent =
+      action === 'withdraw' &&
+      p.status === 'draft' &&
+      !(await trx.selectFrom('permit_events').select('id').where('permit_id', '=', p.id).where('action', '=', 'submit').executeTakeFirst());
+    if (!neverSent)
+      outcome.notified = await notifyTransition(inTrx, action, {
+        permitId: p.id,
+        number: p.number,
+        siteName: site.name,
+        description: rev.description,
+        status: to,
+        windowStart,
+        windowEnd,
+        actorName,
+        actorId: actor.kind === 'user' ? actor.id : null,
+        reason: opts.reason?.trim(),
+        standoff: action === 'approve' ? (opts.standoff ?? null) : null,
+        conditions: action === 'approve' ? opts.conditions : undefined,
+      });
     await pushTransition(inTrx, action, { permitId: p.id, number: p.number, actorId: actor.kind === 'user' ? actor.id : null });
     // Approved inside an open window with every operator briefed (or none named): live at once,
     // in the same transaction.
@@ -341,7 +419,11 @@ export function summaryOf(c: PermitCheck) {
     utilisation: c.utilisation,
     passes: c.passes,
     computedStandoff: c.computedStandoff,
-    excavations: c.excavations.map((e) => ({ reference: e.reference, utilisation: e.result.utilisation, counted: e.counted.map((o) => o.number) })),
+    excavations: c.excavations.map((e) => ({
+      reference: e.reference,
+      utilisation: e.result.utilisation,
+      counted: e.counted.map((o) => o.number),
+    })),
   };
 }
 
@@ -349,7 +431,9 @@ export function summaryOf(c: PermitCheck) {
 async function assertNoneUnsafe(db: Db, number: string, excavationIds: number[], now: Date): Promise<void> {
   const unsafe = await unsafeExcavations(db, excavationIds, now);
   if (unsafe.length) {
-    throw conflict(`Permit ${number} cannot go live: ${unsafe.join(', ')} was found not safe at its last inspection. A safe inspection comes first.`);
+    throw conflict(
+      `Permit ${number} cannot go live: ${unsafe.join(', ')} was found not safe at its last inspection. A safe inspection comes first.`,
+    );
   }
 }
 
@@ -360,9 +444,12 @@ async function assertNoneUnsafe(db: Db, number: string, excavationIds: number[],
 function assertAllNamed(check: PermitCheck): void {
   const unnamed = check.excavations.filter((e) => e.named === false).map((e) => e.reference);
   if (unnamed.length) {
-    throw badRequest(`A load stands within the influence zone of ${unnamed.join(', ')}: name ${unnamed.length === 1 ? 'it' : 'them'} on the permit.`, {
-      excavationIds: `also name ${unnamed.join(', ')}`,
-    });
+    throw badRequest(
+      `A load stands within the influence zone of ${unnamed.join(', ')}: name ${unnamed.length === 1 ? 'it' : 'them'} on the permit.`,
+      {
+        excavationIds: `also name ${unnamed.join(', ')}`,
+      },
+    );
   }
 }
 
@@ -383,12 +470,18 @@ async function assertComplete(
     if (!dig) fields.dig = 'give the depth, the support method and the buried-services checks';
     else {
       for (const [k, c] of Object.entries(dig.servicesChecks ?? {})) {
-        if (c.state === 'pending') fields[`dig.servicesChecks.${k}`] = 'must be done (or, for trial holes, said not to be needed) before review';
+        if (c.state === 'pending')
+          fields[`dig.servicesChecks.${k}`] = 'must be done (or, for trial holes, said not to be needed) before review';
       }
     }
   }
   if (Object.keys(fields).length) {
-    throw badRequest(`The request is not ready for review: ${Object.entries(fields).map(([k, v]) => `${k}: ${v}`).join('; ')}.`, fields);
+    throw badRequest(
+      `The request is not ready for review: ${Object.entries(fields)
+        .map(([k, v]) => `${k}: ${v}`)
+        .join('; ')}.`,
+      fields,
+    );
   }
 }
 
@@ -415,7 +508,12 @@ export async function advancePermit(deps: Deps, permitId: number): Promise<'star
       return 'lapsed';
     }
     if (row.status === 'approved' && now >= new Date(row.window_start) && now < new Date(row.window_end)) {
-      const waiting = await deps.db.selectFrom('permit_operators').select('user_id').where('revision_id', '=', row.revision_id).where('briefed_at', 'is', null).execute();
+      const waiting = await deps.db
+        .selectFrom('permit_operators')
+        .select('user_id')
+        .where('revision_id', '=', row.revision_id)
+        .where('briefed_at', 'is', null)
+        .execute();
       if (waiting.length === 0) {
         await transition(deps, row.id, 'start', scheduleActor, { version: row.version });
         return 'started';

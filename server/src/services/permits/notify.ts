@@ -38,14 +38,34 @@ export const asks: Partial<Record<NoticeKind, Partial<Record<Audience, string>>>
   },
   return: { requester: 'Please change the request as the comments ask and send it for review again.' },
   decline: { requester: 'The load must not be placed as requested.' },
-  start: { requester: 'Work under the permit may go ahead within its terms.', operators: 'Work may go ahead: keep out of the exclusion zone.' },
-  suspend: { requester: 'Stop work under this permit now.', operators: 'Stop work under this permit now and move clear of the excavation.', coordinators: 'For your information.' },
-  resume: { requester: 'Work may go ahead again within the permit\u2019s terms.', operators: 'Work may go ahead again: keep out of the exclusion zone.' },
+  start: {
+    requester: 'Work under the permit may go ahead within its terms.',
+    operators: 'Work may go ahead: keep out of the exclusion zone.',
+  },
+  suspend: {
+    requester: 'Stop work under this permit now.',
+    operators: 'Stop work under this permit now and move clear of the excavation.',
+    coordinators: 'For your information.',
+  },
+  resume: {
+    requester: 'Work may go ahead again within the permit\u2019s terms.',
+    operators: 'Work may go ahead again: keep out of the exclusion zone.',
+  },
   hand_back: { coordinators: 'The area has been handed back.', operators: 'The permit is closed: no more work under it.' },
-  lapse: { requester: 'Its window has closed: ask for a new permit if the work is not finished.', operators: 'Its window has closed: no more work under it.', coordinators: 'For your information.' },
-  revise: { coordinators: 'A new revision is being prepared and will come to you for review.', operators: 'The approved terms no longer apply: stop work under it until the new revision is approved.' },
+  lapse: {
+    requester: 'Its window has closed: ask for a new permit if the work is not finished.',
+    operators: 'Its window has closed: no more work under it.',
+    coordinators: 'For your information.',
+  },
+  revise: {
+    coordinators: 'A new revision is being prepared and will come to you for review.',
+    operators: 'The approved terms no longer apply: stop work under it until the new revision is approved.',
+  },
   withdraw: { coordinators: 'No decision is needed.', operators: 'No work may be done under it.' },
-  reminder: { requester: 'Its window closes in an hour: hand it back when the area is clear, or ask for a new permit.', operators: 'Its window closes in an hour.' },
+  reminder: {
+    requester: 'Its window closes in an hour: hand it back when the area is clear, or ask for a new permit.',
+    operators: 'Its window closes in an hour.',
+  },
   reconsider: {
     requester: 'Do not start work under it: it needs a new decision on the excavation as it is now.',
     operators: 'Do not start work under it until it is approved again.',
@@ -68,7 +88,12 @@ export async function recipients(db: Db, permitId: number, audience: Audience, e
 export async function audienceMembers(db: Db, permitId: number, audience: Audience): Promise<{ id: number; email: string }[]> {
   let q;
   if (audience === 'requester') {
-    q = db.selectFrom('permits as p').innerJoin('users as u', 'u.id', 'p.requested_by').select(['u.email', 'u.id']).where('p.id', '=', permitId).where('u.active', '=', true);
+    q = db
+      .selectFrom('permits as p')
+      .innerJoin('users as u', 'u.id', 'p.requested_by')
+      .select(['u.email', 'u.id'])
+      .where('p.id', '=', permitId)
+      .where('u.active', '=', true);
   } else if (audience === 'coordinators') {
     q = db
       .selectFrom('permits as p')
@@ -121,13 +146,16 @@ export const headline: Record<NoticeKind, string> = {
   recheck: 'fails after its excavation changed',
 };
 
-
 /**
  * Queues the e-mails of one transition through `deps.db` (the transition's own transaction): one
  * message per address, each with the link its audience uses (operators get the field view,
  * everybody else the permit page). Returns the addresses.
  */
-export async function notifyTransition(deps: Pick<Deps, 'db' | 'config' | 'mailer'>, action: NoticeKind, f: NoticeFacts): Promise<string[]> {
+export async function notifyTransition(
+  deps: Pick<Deps, 'db' | 'config' | 'mailer'>,
+  action: NoticeKind,
+  f: NoticeFacts,
+): Promise<string[]> {
   const sent: string[] = [];
   const base = deps.config.publicUrl;
   const already = new Set<string>();
@@ -151,7 +179,11 @@ export async function notifyTransition(deps: Pick<Deps, 'db' | 'config' | 'maile
       ...(asks[action]?.[audience] ? [asks[action]![audience]!] : []),
     ];
     const url = audience === 'operators' ? `${base}/field/permits/${f.permitId}` : `${base}/permits/${f.permitId}`;
-    const message = notice({ subject: `Permit ${f.number} at ${f.siteName} ${headline[action]}`, lines, link: { label: `Open permit ${f.number}`, url } });
+    const message = notice({
+      subject: `Permit ${f.number} at ${f.siteName} ${headline[action]}`,
+      lines,
+      link: { label: `Open permit ${f.number}`, url },
+    });
     // One message each: people do not see each other's addresses.
     for (const address of to) await deps.mailer.send(deps.db, { to: address, ...message });
     sent.push(...to);

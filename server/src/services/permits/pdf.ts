@@ -57,10 +57,18 @@ const m2 = (x: number | null | undefined) => (x == null ? 'none' : `${x.toFixed(
 const kpa = (x: number) => `${x.toFixed(1)} kPa`;
 
 /** The permit as a PDF (Buffer), with its number for the file name. `compress: false` keeps the text readable (tests). */
-export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: number, opts: { compress?: boolean } = {}): Promise<{ buffer: Buffer; number: string }> {
+export async function permitPdf(
+  deps: Pick<Deps, 'db' | 'config'>,
+  permitId: number,
+  opts: { compress?: boolean } = {},
+): Promise<{ buffer: Buffer; number: string }> {
   const permit = await loadDetail(deps.db, permitId, { id: 0, role: null });
   if (!permit) throw notFound('That permit');
-  const site = await deps.db.selectFrom('sites').select(['name', 'latitude', 'longitude', 'timezone']).where('id', '=', permit.siteId).executeTakeFirstOrThrow();
+  const site = await deps.db
+    .selectFrom('sites')
+    .select(['name', 'latitude', 'longitude', 'timezone'])
+    .where('id', '=', permit.siteId)
+    .executeTakeFirstOrThrow();
   const rev = permit.current;
   // Times on the site's clock; the window names the zone once.
   const when = (s: string | null) => (s ? formatSiteTime(s, site.timezone) : '-');
@@ -83,18 +91,38 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
 
   // Header and QR code
   doc.image(qr, MARGIN + width - 90, MARGIN, { width: 90 });
-  doc.font('Helvetica').fontSize(9).fillColor(MUTED).text(t(`${site.name}`), MARGIN, MARGIN, { width: width - 100 });
-  doc.font('Helvetica-Bold').fontSize(20).fillColor(INK).text(t(`Permit ${permit.number}`), { width: width - 100 });
+  doc
+    .font('Helvetica')
+    .fontSize(9)
+    .fillColor(MUTED)
+    .text(t(`${site.name}`), MARGIN, MARGIN, { width: width - 100 });
+  doc
+    .font('Helvetica-Bold')
+    .fontSize(20)
+    .fillColor(INK)
+    .text(t(`Permit ${permit.number}`), { width: width - 100 });
   doc
     .font('Helvetica')
     .fontSize(11)
-    .text(t(`${permit.kind === 'load' ? 'Load beside an excavation' : 'Dig (open or extend an excavation)'} - revision ${permit.revision} - ${statusLabels[permit.status]}`), { width: width - 100 });
-  doc.fontSize(9).fillColor(MUTED).text(t(`Operator's view: ${qrUrl}`), { width: width - 100 });
+    .text(
+      t(
+        `${permit.kind === 'load' ? 'Load beside an excavation' : 'Dig (open or extend an excavation)'} - revision ${permit.revision} - ${statusLabels[permit.status]}`,
+      ),
+      { width: width - 100 },
+    );
+  doc
+    .fontSize(9)
+    .fillColor(MUTED)
+    .text(t(`Operator's view: ${qrUrl}`), { width: width - 100 });
   doc.moveDown(0.5);
   doc.fillColor(INK).fontSize(10);
   field(doc, 'Window', `${when(rev.windowStart)} to ${when(rev.windowEnd)} (${site.timezone} time)`);
   field(doc, 'Requested by', permit.requestedBy.name);
-  field(doc, 'Excavations', excavations.map((e) => `${e.reference} ${e.name} (${e.excavation.depth.toFixed(2)} m deep)`).join('; ') || 'none named');
+  field(
+    doc,
+    'Excavations',
+    excavations.map((e) => `${e.reference} ${e.name} (${e.excavation.depth.toFixed(2)} m deep)`).join('; ') || 'none named',
+  );
   if (rev.description) field(doc, 'Work', rev.description);
   doc.y = Math.max(doc.y, MARGIN + 100);
   doc.moveDown(0.5);
@@ -106,11 +134,29 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
     doc.font('Helvetica').fontSize(10).text(t('No decision yet: this permit does not authorise any work.'));
   } else {
     const words = { approve: 'APPROVED', return: 'RETURNED FOR CHANGES', decline: 'DECLINED' }[d.action];
-    doc.font('Helvetica-Bold').fontSize(13).fillColor(d.action === 'approve' ? INK : ZONE).text(t(words));
+    doc
+      .font('Helvetica-Bold')
+      .fontSize(13)
+      .fillColor(d.action === 'approve' ? INK : ZONE)
+      .text(t(words));
     doc.fillColor(INK).font('Helvetica').fontSize(10);
     if (d.action === 'approve') {
-      field(doc, 'Standoff', d.standoff != null ? `Keep every load at least ${m2(d.standoff)} from the excavation edge.` : 'Loads as placed on the plan (no standoff set).');
-      field(doc, 'Computed standoff', d.computedStandoff === undefined ? 'not recorded with this decision' : d.computedStandoff === null ? 'none: no offset within 3H lets the support carry the loads' : m2(d.computedStandoff));
+      field(
+        doc,
+        'Standoff',
+        d.standoff != null
+          ? `Keep every load at least ${m2(d.standoff)} from the excavation edge.`
+          : 'Loads as placed on the plan (no standoff set).',
+      );
+      field(
+        doc,
+        'Computed standoff',
+        d.computedStandoff === undefined
+          ? 'not recorded with this decision'
+          : d.computedStandoff === null
+            ? 'none: no offset within 3H lets the support carry the loads'
+            : m2(d.computedStandoff),
+      );
       if (d.conditions.length) {
         doc.font('Helvetica-Bold').text('Conditions');
         doc.font('Helvetica');
@@ -148,7 +194,8 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
     field(doc, 'Support method', rev.dig.supportMethod);
     for (const k of serviceCheckKeys) {
       const c = rev.dig.servicesChecks[k];
-      const state = c.state === 'done' ? `done by ${c.by} at ${when(c.at)}` : c.state === 'not-needed' ? `not needed: ${c.notes}` : 'NOT DONE';
+      const state =
+        c.state === 'done' ? `done by ${c.by} at ${when(c.at)}` : c.state === 'not-needed' ? `not needed: ${c.notes}` : 'NOT DONE';
       field(doc, serviceCheckLabels[k], state + (c.state === 'done' && c.notes ? ` (${c.notes})` : ''));
     }
     doc.moveDown(0.5);
@@ -159,7 +206,11 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
   doc.moveDown(0.5);
   heading(doc, 'Signatures and times');
   for (const e of permit.events.filter((e) => e.toStatus || e.action === 'briefed')) {
-    field(doc, when(e.at), `${e.actor.name}: ${e.action.replace('_', ' ')}${e.toStatus ? ` -> ${statusLabels[e.toStatus]}` : ''}${e.comment ? ` - "${e.comment}"` : ''}`);
+    field(
+      doc,
+      when(e.at),
+      `${e.actor.name}: ${e.action.replace('_', ' ')}${e.toStatus ? ` -> ${statusLabels[e.toStatus]}` : ''}${e.comment ? ` - "${e.comment}"` : ''}`,
+    );
   }
 
   // The caution on every page
@@ -169,8 +220,19 @@ export async function permitPdf(deps: Pick<Deps, 'db' | 'config'>, permitId: num
     // The footer sits inside the bottom margin: lift the margin so pdfkit does not start a new page.
     doc.page.margins.bottom = 0;
     const y = doc.page.height - MARGIN - 24;
-    doc.save().moveTo(MARGIN, y - 4).lineTo(MARGIN + width, y - 4).lineWidth(0.5).strokeColor(LINE).stroke().restore();
-    doc.font('Helvetica').fontSize(8).fillColor(MUTED).text(t(`Caution: ${CAUTION}`), MARGIN, y, { width: width - 60, lineBreak: true, height: 30 });
+    doc
+      .save()
+      .moveTo(MARGIN, y - 4)
+      .lineTo(MARGIN + width, y - 4)
+      .lineWidth(0.5)
+      .strokeColor(LINE)
+      .stroke()
+      .restore();
+    doc
+      .font('Helvetica')
+      .fontSize(8)
+      .fillColor(MUTED)
+      .text(t(`Caution: ${CAUTION}`), MARGIN, y, { width: width - 60, lineBreak: true, height: 30 });
     doc.text(`Page ${i - range.start + 1} of ${range.count}`, MARGIN + width - 55, y, { width: 55, align: 'right', lineBreak: false });
   }
   doc.end();
@@ -183,7 +245,11 @@ function heading(doc: PDFKit.PDFDocument, s: string): void {
 }
 
 function field(doc: PDFKit.PDFDocument, label: string, value: string): void {
-  doc.font('Helvetica-Bold').fontSize(10).fillColor(INK).text(t(`${label}: `), MARGIN, undefined, { continued: true });
+  doc
+    .font('Helvetica-Bold')
+    .fontSize(10)
+    .fillColor(INK)
+    .text(t(`${label}: `), MARGIN, undefined, { continued: true });
   doc.font('Helvetica').text(t(value));
 }
 
@@ -193,18 +259,37 @@ function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | 
   const req = ex.request as { excavation: Record<string, unknown>; soil: Record<string, unknown>[]; minimumClearance: number };
   const e = req.excavation;
   field(doc, 'Method', r.method === 'elastic' ? 'Elastic (Boussinesq-based, NAVFAC DM-7.02)' : '45 degree load spread');
-  field(doc, 'Excavation', `depth ${m2(ex.depth)}; design surcharge ${kpa(Number(e.designSurcharge))}; rated pressure ${e.ratedPressure == null ? 'none' : kpa(Number(e.ratedPressure))}; ${e.pressureState}, wall friction ${e.wallFriction} deg, ${e.restraint}; groundwater ${e.groundwaterDepth == null ? 'none' : m2(Number(e.groundwaterDepth))}`);
+  field(
+    doc,
+    'Excavation',
+    `depth ${m2(ex.depth)}; design surcharge ${kpa(Number(e.designSurcharge))}; rated pressure ${e.ratedPressure == null ? 'none' : kpa(Number(e.ratedPressure))}; ${e.pressureState}, wall friction ${e.wallFriction} deg, ${e.restraint}; groundwater ${e.groundwaterDepth == null ? 'none' : m2(Number(e.groundwaterDepth))}`,
+  );
   field(
     doc,
     'Soil',
     req.soil
-      .map((l) => `from ${Number(l.top).toFixed(2)} m: ${l.unitWeight} kN/m3${l.frictionAngle !== undefined ? `, phi' ${l.frictionAngle} deg, c' ${l.cohesion ?? 0} kPa` : `, cu ${l.undrainedShearStrength} kPa`}`)
+      .map(
+        (l) =>
+          `from ${Number(l.top).toFixed(2)} m: ${l.unitWeight} kN/m3${l.frictionAngle !== undefined ? `, phi' ${l.frictionAngle} deg, c' ${l.cohesion ?? 0} kPa` : `, cu ${l.undrainedShearStrength} kPa`}`,
+      )
       .join('; '),
   );
   field(doc, 'Coefficients', r.coefficients.map((c) => `K = ${c.K.toFixed(3)} from ${c.top.toFixed(2)} m`).join('; '));
-  field(doc, 'Forces', `soil ${r.forces.soil.toFixed(1)} kN/m, water ${r.forces.water.toFixed(1)} kN/m, surcharge ${r.forces.surcharge.toFixed(1)} kN/m, allowance ${r.forces.allowance.toFixed(1)} kN/m`);
-  field(doc, 'Moments about formation', `surcharge ${r.moments.surcharge.toFixed(1)} kN.m/m, allowance ${r.moments.allowance.toFixed(1)} kN.m/m`);
-  field(doc, 'Utilisation', `${r.utilisation == null ? 'no allowance' : r.utilisation.toFixed(2)} (${r.governing ?? '-'} governs) - ${r.passes ? 'passes' : 'FAILS'}`);
+  field(
+    doc,
+    'Forces',
+    `soil ${r.forces.soil.toFixed(1)} kN/m, water ${r.forces.water.toFixed(1)} kN/m, surcharge ${r.forces.surcharge.toFixed(1)} kN/m, allowance ${r.forces.allowance.toFixed(1)} kN/m`,
+  );
+  field(
+    doc,
+    'Moments about formation',
+    `surcharge ${r.moments.surcharge.toFixed(1)} kN.m/m, allowance ${r.moments.allowance.toFixed(1)} kN.m/m`,
+  );
+  field(
+    doc,
+    'Utilisation',
+    `${r.utilisation == null ? 'no allowance' : r.utilisation.toFixed(2)} (${r.governing ?? '-'} governs) - ${r.passes ? 'passes' : 'FAILS'}`,
+  );
   const attention = attentionWarnings(r.warnings);
   if (attention.length) {
     doc.moveDown(0.2).font('Helvetica-Bold').fontSize(10).fillColor(ZONE).text('Read before signing');
@@ -213,7 +298,9 @@ function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | 
     for (const l of ex.loadStandoffs) {
       const bands = l.failingBands ?? [];
       if (failsBeyondPassing(bands, req.minimumClearance)) {
-        doc.text(t(`- ${l.label} fails at ${bandsWords(bands)} from the edge (passing in between); its standoff is ${m2(l.standoff)}.`), { indent: 10 });
+        doc.text(t(`- ${l.label} fails at ${bandsWords(bands)} from the edge (passing in between); its standoff is ${m2(l.standoff)}.`), {
+          indent: 10,
+        });
       }
     }
     doc.fontSize(10).moveDown(0.2);
@@ -231,7 +318,13 @@ function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | 
     );
   }
   doc.fontSize(10);
-  field(doc, 'Other permits counted', ex.counted.length ? ex.counted.map((c) => `${c.number} (${statusLabels[c.status]}, ${when(c.windowStart)} to ${when(c.windowEnd)})`).join('; ') : 'none');
+  field(
+    doc,
+    'Other permits counted',
+    ex.counted.length
+      ? ex.counted.map((c) => `${c.number} (${statusLabels[c.status]}, ${when(c.windowStart)} to ${when(c.windowEnd)})`).join('; ')
+      : 'none',
+  );
   const others = r.warnings.filter((w) => !attention.includes(w));
   if (others.length) field(doc, 'Warnings', others.join('; '));
   doc.moveDown(0.5);
@@ -252,18 +345,40 @@ function drawPressureDiagram(doc: PDFKit.PDFDocument, profile: ProfilePoint[], H
   const sy = boxH / dz[dz.length - 1];
   const X = (p: number) => x0 + p * sx;
   const Y = (z: number) => y0 + z * sy;
-  doc.font('Helvetica-Bold').fontSize(10).fillColor(INK).text('Pressure diagram (depth downward)', MARGIN, y0 - 36);
+  doc
+    .font('Helvetica-Bold')
+    .fontSize(10)
+    .fillColor(INK)
+    .text('Pressure diagram (depth downward)', MARGIN, y0 - 36);
   doc.font('Helvetica').fontSize(8).fillColor(MUTED);
   for (const v of px) {
-    doc.save().moveTo(X(v), Y(0)).lineTo(X(v), Y(dz[dz.length - 1])).lineWidth(0.3).strokeColor('#e2e8f0').stroke().restore();
+    doc
+      .save()
+      .moveTo(X(v), Y(0))
+      .lineTo(X(v), Y(dz[dz.length - 1]))
+      .lineWidth(0.3)
+      .strokeColor('#e2e8f0')
+      .stroke()
+      .restore();
     doc.text(String(v), X(v) - 15, Y(0) - 10, { width: 30, align: 'center', lineBreak: false });
   }
   for (const v of dz) {
-    doc.save().moveTo(X(0), Y(v)).lineTo(X(px[px.length - 1]), Y(v)).lineWidth(0.3).strokeColor('#e2e8f0').stroke().restore();
+    doc
+      .save()
+      .moveTo(X(0), Y(v))
+      .lineTo(X(px[px.length - 1]), Y(v))
+      .lineWidth(0.3)
+      .strokeColor('#e2e8f0')
+      .stroke()
+      .restore();
     doc.text(v.toFixed(1), x0 - 34, Y(v) - 4, { width: 30, align: 'right', lineBreak: false });
   }
   doc.text('pressure (kPa)', x0 + boxW / 2 - 30, Y(0) - 20, { lineBreak: false });
-  doc.save().rotate(-90, { origin: [x0 - 42, y0 + boxH / 2] }).text('depth (m)', x0 - 62, y0 + boxH / 2 - 4, { lineBreak: false }).restore();
+  doc
+    .save()
+    .rotate(-90, { origin: [x0 - 42, y0 + boxH / 2] })
+    .text('depth (m)', x0 - 62, y0 + boxH / 2 - 4, { lineBreak: false })
+    .restore();
   const series: { key: keyof ProfilePoint; colour: string; dash?: number; label: string }[] = [
     { key: 'soil', colour: '#64748b', label: 'soil' },
     { key: 'water', colour: WATER, label: 'water' },
@@ -277,13 +392,25 @@ function drawPressureDiagram(doc: PDFKit.PDFDocument, profile: ProfilePoint[], H
     doc.stroke().restore();
   }
   doc.save().moveTo(X(0), Y(0)).lineTo(X(0), Y(H)).lineWidth(1).strokeColor(INK).stroke().restore();
-  doc.save().moveTo(X(0), Y(H)).lineTo(X(px[px.length - 1]), Y(H)).lineWidth(0.6).dash(2, { space: 2 }).strokeColor(INK).stroke().restore();
+  doc
+    .save()
+    .moveTo(X(0), Y(H))
+    .lineTo(X(px[px.length - 1]), Y(H))
+    .lineWidth(0.6)
+    .dash(2, { space: 2 })
+    .strokeColor(INK)
+    .stroke()
+    .restore();
   doc.fillColor(INK).text(`formation ${H.toFixed(2)} m`, X(px[px.length - 1]) + 4, Y(H) - 4, { lineBreak: false });
   let ly = y0;
   for (const s of series) {
     doc.save().lineWidth(1.4).strokeColor(s.colour);
     if (s.dash) doc.dash(s.dash, { space: 2 });
-    doc.moveTo(x0 + boxW + 20, ly + 4).lineTo(x0 + boxW + 40, ly + 4).stroke().restore();
+    doc
+      .moveTo(x0 + boxW + 20, ly + 4)
+      .lineTo(x0 + boxW + 40, ly + 4)
+      .stroke()
+      .restore();
     doc.fillColor(INK).text(s.label, x0 + boxW + 44, ly, { lineBreak: false });
     ly += 12;
   }
@@ -331,7 +458,10 @@ function drawPlan(
   const top = doc.y + 4;
   doc.save().rect(MARGIN, top, boxW, boxH).lineWidth(0.5).strokeColor(LINE).stroke().restore();
   if (pts.length === 0) {
-    doc.font('Helvetica').fontSize(10).text('Nothing to draw: no excavation or load is placed.', MARGIN + 10, top + 10);
+    doc
+      .font('Helvetica')
+      .fontSize(10)
+      .text('Nothing to draw: no excavation or load is placed.', MARGIN + 10, top + 10);
     doc.y = top + boxH + 10;
     return;
   }
@@ -362,7 +492,11 @@ function drawPlan(
     doc.fillOpacity(0.6).lineWidth(1).fillAndStroke('#a8a29e', INK);
     doc.restore();
     const c = r.ring.reduce((a, p) => [a[0] + p[0] / r.ring.length, a[1] + p[1] / r.ring.length], [0, 0] as XY);
-    doc.font('Helvetica-Bold').fontSize(8).fillColor(INK).text(t(r.ref), P(c)[0] - 20, P(c)[1] - 4, { width: 40, align: 'center', lineBreak: false });
+    doc
+      .font('Helvetica-Bold')
+      .fontSize(8)
+      .fillColor(INK)
+      .text(t(r.ref), P(c)[0] - 20, P(c)[1] - 4, { width: 40, align: 'center', lineBreak: false });
   }
   for (const f of feet) {
     doc.save();
@@ -392,11 +526,21 @@ function drawPlan(
   doc.text(`Scale 1:${n} on A4`, bx + bar * k + 24, by - 2, { lineBreak: false });
   const nx = MARGIN + boxW - 24;
   const ny = top + 14;
-  doc.save().moveTo(nx, ny).lineTo(nx - 6, ny + 18).lineTo(nx, ny + 13).lineTo(nx + 6, ny + 18).closePath().fill(INK).restore();
+  doc
+    .save()
+    .moveTo(nx, ny)
+    .lineTo(nx - 6, ny + 18)
+    .lineTo(nx, ny + 13)
+    .lineTo(nx + 6, ny + 18)
+    .closePath()
+    .fill(INK)
+    .restore();
   doc.text('N', nx - 3, ny + 20, { lineBreak: false });
   doc.font('Helvetica').fontSize(8).fillColor(MUTED);
   doc.text(
-    t(`Grey: excavation. Blue: loads (tracks, pads, drawn loads). Red band: exclusion zone${standoff ? `, ${m2(standoff)} from the edge` : ''}.`),
+    t(
+      `Grey: excavation. Blue: loads (tracks, pads, drawn loads). Red band: exclusion zone${standoff ? `, ${m2(standoff)} from the edge` : ''}.`,
+    ),
     MARGIN,
     top + boxH + 4,
     { width: boxW },

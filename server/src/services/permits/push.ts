@@ -10,18 +10,30 @@ const pushedToOperators: NoticeKind[] = ['start', 'suspend', 'resume', 'lapse'];
  * when it goes live, is suspended, is resumed or lapses. The notification opens the permit on the
  * phone view. Returns how many devices.
  */
-export async function pushTransition(deps: Pick<Deps, 'db' | 'pusher'>, action: NoticeKind, f: { permitId: number; number: string; actorId: number | null }): Promise<number> {
+export async function pushTransition(
+  deps: Pick<Deps, 'db' | 'pusher'>,
+  action: NoticeKind,
+  f: { permitId: number; number: string; actorId: number | null },
+): Promise<number> {
   if (!pushedToOperators.includes(action)) return 0;
   const operators = (await audienceMembers(deps.db, f.permitId, 'operators')).filter((u) => u.id !== f.actorId);
   return deps.pusher.notify(
     deps.db,
     operators.map((u) => u.id),
-    { title: `Permit ${f.number} ${headline[action]}`, body: asks[action]?.operators ?? '', path: `/field/permits/${f.permitId}`, tag: `permit-${f.permitId}` },
+    {
+      title: `Permit ${f.number} ${headline[action]}`,
+      body: asks[action]?.operators ?? '',
+      path: `/field/permits/${f.permitId}`,
+      tag: `permit-${f.permitId}`,
+    },
   );
 }
 
 /** Queues the notification of a concern to the supervisor who asked for the permit, in the concern's transaction. */
-export async function pushConcern(deps: Pick<Deps, 'db' | 'pusher'>, f: { permitId: number; number: string; reporterId: number; reporterName: string; excavationReference: string }): Promise<number> {
+export async function pushConcern(
+  deps: Pick<Deps, 'db' | 'pusher'>,
+  f: { permitId: number; number: string; reporterId: number; reporterName: string; excavationReference: string },
+): Promise<number> {
   const requester = (await audienceMembers(deps.db, f.permitId, 'requester')).filter((u) => u.id !== f.reporterId);
   return deps.pusher.notify(
     deps.db,

@@ -108,16 +108,18 @@ export async function listPermits(db: Db, user: { id: number; isAdmin: boolean }
   if (sites !== 'all') query = query.where('p.site_id', 'in', sites);
   if (q.siteId) query = query.where('p.site_id', '=', q.siteId);
   if (q.view === 'review') {
-    query = query.where('p.status', '=', 'submitted').where((eb) =>
-      eb.exists(
-        eb
-          .selectFrom('site_members as m')
-          .select('m.user_id')
-          .whereRef('m.site_id', '=', 'p.site_id')
-          .where('m.user_id', '=', user.id)
-          .where('m.role', '=', 'coordinator'),
-      ),
-    );
+    query = query
+      .where('p.status', '=', 'submitted')
+      .where((eb) =>
+        eb.exists(
+          eb
+            .selectFrom('site_members as m')
+            .select('m.user_id')
+            .whereRef('m.site_id', '=', 'p.site_id')
+            .where('m.user_id', '=', user.id)
+            .where('m.role', '=', 'coordinator'),
+        ),
+      );
   }
   if (q.view === 'mine') query = query.where('p.requested_by', '=', user.id);
   if (q.view === 'live') query = query.where('p.status', '=', 'live');
@@ -137,7 +139,12 @@ export async function loadSummary(db: Db, id: number): Promise<PermitSummary | n
 
 /** One revision of a permit with its operators, as the API shows it. */
 export async function loadRevision(db: Db, permitId: number, revision: number): Promise<PermitRevision | null> {
-  const r = await db.selectFrom('permit_revisions').selectAll().where('permit_id', '=', permitId).where('revision', '=', revision).executeTakeFirst();
+  const r = await db
+    .selectFrom('permit_revisions')
+    .selectAll()
+    .where('permit_id', '=', permitId)
+    .where('revision', '=', revision)
+    .executeTakeFirst();
   if (!r) return null;
   const operators = await db
     .selectFrom('permit_operators as o')
@@ -208,14 +215,20 @@ export async function loadDetail(db: Db, id: number, viewer: { id: number; role:
   if (!summary) return null;
   const [current, revisions, events, attachments] = await Promise.all([
     loadRevision(db, id, summary.revision),
-    db.selectFrom('permit_revisions').select(['revision', 'created_at', 'decision']).where('permit_id', '=', id).orderBy('revision', 'desc').execute(),
+    db
+      .selectFrom('permit_revisions')
+      .select(['revision', 'created_at', 'decision'])
+      .where('permit_id', '=', id)
+      .orderBy('revision', 'desc')
+      .execute(),
     loadEvents(db, id),
     loadAttachments(db, id),
   ]);
   const me = current!.operators.find((o) => o.id === viewer.id);
   let actions = allowedActions(summary.status, viewer.role);
   // An author of the permit is not offered a decision on it (the transition would refuse it).
-  if (actions.some((a) => DECISIONS.includes(a)) && (await isAuthorOf(db, id, viewer.id))) actions = actions.filter((a) => !DECISIONS.includes(a));
+  if (actions.some((a) => DECISIONS.includes(a)) && (await isAuthorOf(db, id, viewer.id)))
+    actions = actions.filter((a) => !DECISIONS.includes(a));
   return {
     ...summary,
     current: current!,
@@ -231,4 +244,3 @@ export async function loadDetail(db: Db, id: number, viewer: { id: number; role:
     caution: CAUTION,
   };
 }
-

@@ -55,7 +55,8 @@ export async function recheckAfterExcavationChange(
     const out: RecheckOutcome[] = [];
     for (const row of rows) {
       const previous = storedCheck(row.check_result);
-      const named = row.excavation_ids.includes(change.excavationId) || !!previous?.excavations.some((e) => e.excavationId === change.excavationId);
+      const named =
+        row.excavation_ids.includes(change.excavationId) || !!previous?.excavations.some((e) => e.excavationId === change.excavationId);
       let stored: StoredCheck | null = null;
       let refusal: string | undefined;
       try {
@@ -76,7 +77,14 @@ export async function recheckAfterExcavationChange(
       if (stored) await keepCheck(trx, stored, now);
       const text = `${what}: ${judged.figures}`;
       if (!judged.worse) {
-        await event(trx, row, actor, `${what}: still passes: ${judged.figures}`, { passes: true, check: stored && figuresOf(stored.check) }, now);
+        await event(
+          trx,
+          row,
+          actor,
+          `${what}: still passes: ${judged.figures}`,
+          { passes: true, check: stored && figuresOf(stored.check) },
+          now,
+        );
         out.push({ permitId: row.id, number: row.number, outcome: 'passes', text });
       } else if (row.status === 'live' || row.status === 'approved') {
         const action = row.status === 'live' ? 'suspend' : 'reconsider';

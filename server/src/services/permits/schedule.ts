@@ -79,4 +79,3 @@ export async function runPermitSchedule(deps: Deps, scope: { permitIds?: number[
   }
   return out;
 }
-

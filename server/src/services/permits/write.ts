@@ -25,7 +25,12 @@ async function assertReferences(
 ): Promise<void> {
   const fields: Record<string, string> = {};
   if (c.excavationIds?.length) {
-    const rows = await db.selectFrom('excavations').select(['id', 'state']).where('site_id', '=', siteId).where('id', 'in', c.excavationIds).execute();
+    const rows = await db
+      .selectFrom('excavations')
+      .select(['id', 'state'])
+      .where('site_id', '=', siteId)
+      .where('id', 'in', c.excavationIds)
+      .execute();
     c.excavationIds.forEach((id, i) => {
       const row = rows.find((r) => r.id === id);
       if (!row) fields[`excavationIds[${i}]`] = 'is not an excavation of this site';
@@ -51,18 +56,32 @@ async function assertReferences(
   if (plantIds.length) {
     const rows = await db.selectFrom('plant_items').select('id').where('id', 'in', plantIds).execute();
     (c.loads ?? []).forEach((l, i) => {
-      if (l.kind === 'plant' && !rows.some((r) => r.id === l.plantItemId)) fields[`loads[${i}].plantItemId`] = 'is not in the plant library';
+      if (l.kind === 'plant' && !rows.some((r) => r.id === l.plantItemId))
+        fields[`loads[${i}].plantItemId`] = 'is not in the plant library';
     });
   }
   if (Object.keys(fields).length) {
-    throw badRequest(`Please correct the request: ${Object.entries(fields).map(([k, v]) => `${k} ${v}`).join('; ')}`, fields);
+    throw badRequest(
+      `Please correct the request: ${Object.entries(fields)
+        .map(([k, v]) => `${k} ${v}`)
+        .join('; ')}`,
+      fields,
+    );
   }
 }
 
 async function setOperators(db: Db, revisionId: number, operatorIds: number[]): Promise<void> {
-  await db.deleteFrom('permit_operators').where('revision_id', '=', revisionId).where('user_id', 'not in', operatorIds.length ? operatorIds : [0]).execute();
+  await db
+    .deleteFrom('permit_operators')
+    .where('revision_id', '=', revisionId)
+    .where('user_id', 'not in', operatorIds.length ? operatorIds : [0])
+    .execute();
   for (const userId of operatorIds) {
-    await db.insertInto('permit_operators').values({ revision_id: revisionId, user_id: userId }).onConflict((oc) => oc.doNothing()).execute();
+    await db
+      .insertInto('permit_operators')
+      .values({ revision_id: revisionId, user_id: userId })
+      .onConflict((oc) => oc.doNothing())
+      .execute();
   }
 }
 
@@ -74,10 +93,19 @@ async function setOperators(db: Db, revisionId: number, operatorIds: number[]): 
 export async function createPermit(deps: Deps, user: { id: number; name: string }, body: PermitCreate): Promise<number> {
   const now = deps.now();
   return deps.db.transaction().execute(async (trx) => {
-    const site = await trx.selectFrom('sites').select(['id', 'default_method']).where('id', '=', body.siteId).forUpdate().executeTakeFirst();
+    const site = await trx
+      .selectFrom('sites')
+      .select(['id', 'default_method'])
+      .where('id', '=', body.siteId)
+      .forUpdate()
+      .executeTakeFirst();
     if (!site) throw badRequest('That site does not exist.', { siteId: 'is not a site' });
     await assertReferences(trx, site.id, body);
-    const last = await trx.selectFrom('permits').select(sql<number>`coalesce(max(seq), 0)`.as('seq')).where('site_id', '=', site.id).executeTakeFirstOrThrow();
+    const last = await trx
+      .selectFrom('permits')
+      .select(sql<number>`coalesce(max(seq), 0)`.as('seq'))
+      .where('site_id', '=', site.id)
+      .executeTakeFirstOrThrow();
     const seq = Number(last.seq) + 1;
     const number = `P-${String(seq).padStart(4, '0')}`;
     const permit = await trx
@@ -107,9 +135,26 @@ export async function createPermit(deps: Deps, user: { id: number; name: string 
     if (body.excavationIds.length && body.loads.length) await checkStoredRevision(trx, permit.id, now);
     await trx
       .insertInto('permit_events')
-      .values({ permit_id: permit.id, revision: 1, at: now, actor_id: user.id, actor_name: user.name, action: 'create', from_status: null, to_status: 'draft', detail: JSON.stringify({ number }) })
+      .values({
+        permit_id: permit.id,
+        revision: 1,
+        at: now,
+        actor_id: user.id,
+        actor_name: user.name,
+        action: 'create',
+        from_status: null,
+        to_status: 'draft',
+        detail: JSON.stringify({ number }),
+      })
       .execute();
-    await audit(trx, { actorId: user.id, siteId: site.id, entity: 'permit', entityId: permit.id, action: 'created', detail: { number, kind: body.kind } });
+    await audit(trx, {
+      actorId: user.id,
+      siteId: site.id,
+      entity: 'permit',
+      entityId: permit.id,
+      action: 'created',
+      detail: { number, kind: body.kind },
+    });
     return permit.id;
   });
 }
@@ -122,19 +167,32 @@ export async function createPermit(deps: Deps, user: { id: number; name: string 
 export async function updatePermit(deps: Deps, user: { id: number; name: string }, permitId: number, body: PermitUpdate): Promise<void> {
   const now = deps.now();
   await deps.db.transaction().execute(async (trx) => {
-    const p = await trx.selectFrom('permits').select(['id', 'site_id', 'number', 'status', 'version', 'revision']).where('id', '=', permitId).forUpdate().executeTakeFirst();
+    const p = await trx
+      .selectFrom('permits')
+      .select(['id', 'site_id', 'number', 'status', 'version', 'revision'])
+      .where('id', '=', permitId)
+      .forUpdate()
+      .executeTakeFirst();
     if (!p) throw notFound('That permit');
     if (body.version !== p.version) {
-      throw new StaleError(`Permit ${p.number} has changed since you opened it (now version ${p.version}, ${statusLabels[p.status]}). Reload it before you change it.`, {
-        status: p.status,
-        version: p.version,
-      });
+      throw new StaleError(
+        `Permit ${p.number} has changed since you opened it (now version ${p.version}, ${statusLabels[p.status]}). Reload it before you change it.`,
+        {
+          status: p.status,
+          version: p.version,
+        },
+      );
     }
     if (!editableStatuses.includes(p.status as PermitStatus)) {
       throw conflict(`Permit ${p.number} is ${statusLabels[p.status]}: its content is frozen. Make a new revision to change it.`);
     }
     await assertReferences(trx, p.site_id, body);
-    const rev = await trx.selectFrom('permit_revisions').selectAll().where('permit_id', '=', p.id).where('revision', '=', p.revision).executeTakeFirstOrThrow();
+    const rev = await trx
+      .selectFrom('permit_revisions')
+      .selectAll()
+      .where('permit_id', '=', p.id)
+      .where('revision', '=', p.revision)
+      .executeTakeFirstOrThrow();
     const start = body.windowStart ? new Date(body.windowStart) : new Date(rev.window_start);
     const end = body.windowEnd ? new Date(body.windowEnd) : new Date(rev.window_end);
     if (end <= start) throw badRequest('The window must end after it starts.', { windowEnd: 'must be after the start of the window' });
@@ -147,18 +205,47 @@ export async function updatePermit(deps: Deps, user: { id: number; name: string 
       ...(body.dig !== undefined ? { dig: body.dig === null ? null : JSON.stringify(body.dig) } : {}),
       ...(body.method !== undefined ? { method: body.method } : {}),
     };
-    await trx.updateTable('permit_revisions').set({ ...set, updated_at: now }).where('id', '=', rev.id).execute();
+    await trx
+      .updateTable('permit_revisions')
+      .set({ ...set, updated_at: now })
+      .where('id', '=', rev.id)
+      .execute();
     if (body.operatorIds) await setOperators(trx, rev.id, body.operatorIds);
-    const after = await trx.selectFrom('permit_revisions').select(['excavation_ids', 'loads']).where('id', '=', rev.id).executeTakeFirstOrThrow();
+    const after = await trx
+      .selectFrom('permit_revisions')
+      .select(['excavation_ids', 'loads'])
+      .where('id', '=', rev.id)
+      .executeTakeFirstOrThrow();
     if (after.excavation_ids.length && (after.loads as unknown[]).length) await checkStoredRevision(trx, p.id, now);
     else await trx.updateTable('permit_revisions').set({ check_result: null, checked_at: null }).where('id', '=', rev.id).execute();
-    await trx.updateTable('permits').set({ version: p.version + 1, updated_at: now }).where('id', '=', p.id).execute();
+    await trx
+      .updateTable('permits')
+      .set({ version: p.version + 1, updated_at: now })
+      .where('id', '=', p.id)
+      .execute();
     const changed = Object.keys(body).filter((k) => k !== 'version');
     await trx
       .insertInto('permit_events')
-      .values({ permit_id: p.id, revision: p.revision, at: now, actor_id: user.id, actor_name: user.name, action: 'edit', from_status: null, to_status: null, detail: JSON.stringify({ changed }) })
+      .values({
+        permit_id: p.id,
+        revision: p.revision,
+        at: now,
+        actor_id: user.id,
+        actor_name: user.name,
+        action: 'edit',
+        from_status: null,
+        to_status: null,
+        detail: JSON.stringify({ changed }),
+      })
       .execute();
-    await audit(trx, { actorId: user.id, siteId: p.site_id, entity: 'permit', entityId: p.id, action: 'updated', detail: { number: p.number, changed } });
+    await audit(trx, {
+      actorId: user.id,
+      siteId: p.site_id,
+      entity: 'permit',
+      entityId: p.id,
+      action: 'updated',
+      detail: { number: p.number, changed },
+    });
   });
 }
 
@@ -168,6 +255,16 @@ export async function addComment(deps: Deps, user: { id: number; name: string },
   if (!p) throw notFound('That permit');
   await deps.db
     .insertInto('permit_events')
-    .values({ permit_id: p.id, revision: p.revision, at: deps.now(), actor_id: user.id, actor_name: user.name, action: 'comment', from_status: null, to_status: null, comment: text })
+    .values({
+      permit_id: p.id,
+      revision: p.revision,
+      at: deps.now(),
+      actor_id: user.id,
+      actor_name: user.name,
+      action: 'comment',
+      from_status: null,
+      to_status: null,
+      comment: text,
+    })
     .execute();
 }

@@ -10,9 +10,10 @@ export function useSaveSite(siteId: number | null) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (body: SiteInput) =>
-      (siteId === null ? api.post<z.output<typeof oneSiteAnswer>>('/api/sites', body) : api.patch<z.output<typeof oneSiteAnswer>>(`/api/sites/${siteId}`, body)).then(
-        (r) => r.site,
-      ),
+      (siteId === null
+        ? api.post<z.output<typeof oneSiteAnswer>>('/api/sites', body)
+        : api.patch<z.output<typeof oneSiteAnswer>>(`/api/sites/${siteId}`, body)
+      ).then((r) => r.site),
     onSuccess: (site) => {
       queryClient.setQueryData<Site[]>(sessionKeys.sites, (list) =>
         list ? (list.some((s) => s.id === site.id) ? list.map((s) => (s.id === site.id ? site : s)) : [...list, site]) : list,

@@ -49,7 +49,12 @@ export function AddMembershipForm({ person, sites, onAdd }: AddMembershipFormPro
   });
 
   return (
-    <form onSubmit={onSubmit} noValidate aria-label={`Add ${person.name} to a site`} className="mt-4 flex flex-col gap-4 rounded-md border border-rule p-4">
+    <form
+      onSubmit={onSubmit}
+      noValidate
+      aria-label={`Add ${person.name} to a site`}
+      className="mt-4 flex flex-col gap-4 rounded-md border border-rule p-4"
+    >
       <FormSummary message={summary} />
       <div className="grid gap-4 sm:grid-cols-2">
         <SelectField

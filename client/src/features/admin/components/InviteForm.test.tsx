@@ -5,7 +5,16 @@ import { fakeApi, renderAt } from '@client/test/render';
 import { InviteForm } from './InviteForm';
 
 const sites: Site[] = [
-  { id: 3, name: 'Alder Marsh pumping station', latitude: 52.1, longitude: 0.2, timezone: 'Europe/London', minimumClearance: 0.6, defaultMethod: 'dispersion-45', createdAt: '2026-01-05T08:00:00Z' },
+  {
+    id: 3,
+    name: 'Alder Marsh pumping station',
+    latitude: 52.1,
+    longitude: 0.2,
+    timezone: 'Europe/London',
+    minimumClearance: 0.6,
+    defaultMethod: 'dispersion-45',
+    createdAt: '2026-01-05T08:00:00Z',
+  },
 ];
 
 afterEach(() => {
@@ -22,7 +31,13 @@ describe('InviteForm', () => {
     const calls = fakeApi({
       'POST /api/invitations': {
         status: 400,
-        body: { error: { code: 'invalid_body', message: 'The invitation was not sent.', fields: { email: 'already belongs to a person in Brink', tenant: 'is unknown' } } },
+        body: {
+          error: {
+            code: 'invalid_body',
+            message: 'The invitation was not sent.',
+            fields: { email: 'already belongs to a person in Brink', tenant: 'is unknown' },
+          },
+        },
       },
     });
     renderAt(<InviteForm sites={sites} />);

@@ -63,7 +63,12 @@ export function InviteForm({ sites }: { sites: readonly Site[] }) {
           {...register('role', { setValueAs: (v: string) => (v === '' || v === null ? null : (v as SiteRole)) })}
         />
       </div>
-      <CheckboxField label="Administrator" hint="Administrators manage people, invitations and sites, on every site." error={errors.isAdmin?.message} {...register('isAdmin')} />
+      <CheckboxField
+        label="Administrator"
+        hint="Administrators manage people, invitations and sites, on every site."
+        error={errors.isAdmin?.message}
+        {...register('isAdmin')}
+      />
       <div>
         <Button type="submit" busy={formState.isSubmitting} busyText="Sending…">
           Send invitation

@@ -28,7 +28,10 @@ export function PersonCard({ person, sites, isMe }: PersonCardProps) {
   const headingId = `person-${person.id}`;
 
   return (
-    <article aria-labelledby={headingId} className={`rounded-lg border border-rule bg-sheet p-5 shadow-sm ${person.active ? '' : 'border-dashed border-rule-strong'}`}>
+    <article
+      aria-labelledby={headingId}
+      className={`rounded-lg border border-rule bg-sheet p-5 shadow-sm ${person.active ? '' : 'border-dashed border-rule-strong'}`}
+    >
       <div className="flex flex-wrap items-start justify-between gap-3">
         <div className="min-w-0">
           <h3 id={headingId} className="text-lg font-bold">
@@ -137,7 +140,13 @@ function MembershipRow({ personName, membership: m, busy, onChange, onRemove }: 
         ))}
       </select>
       <label className="flex min-h-11 items-center gap-2">
-        <input type="checkbox" className="size-6 accent-accent" checked={m.canInspect} disabled={busy} onChange={(e) => onChange(m.role, e.target.checked)} />
+        <input
+          type="checkbox"
+          className="size-6 accent-accent"
+          checked={m.canInspect}
+          disabled={busy}
+          onChange={(e) => onChange(m.role, e.target.checked)}
+        />
         Inspects excavations
       </label>
       <ConfirmAction

@@ -58,9 +58,7 @@ export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
     try {
       await onSave(values);
     } catch (error) {
-      setSummary(
-        applyServerErrors(error, setError, ['name', 'latitude', 'longitude', 'timezone', 'minimumClearance', 'defaultMethod']),
-      );
+      setSummary(applyServerErrors(error, setError, ['name', 'latitude', 'longitude', 'timezone', 'minimumClearance', 'defaultMethod']));
     }
   });
 
@@ -74,8 +72,24 @@ export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
         <legend className="mb-2 text-lg font-semibold">Origin</legend>
         <p className="text-ink-soft">The point every plan on this site is measured from. Type it, or click the map to set it.</p>
         <div className="grid gap-4 sm:grid-cols-2">
-          <TextField label="Latitude (°)" type="number" step="any" inputMode="decimal" hint="North positive, e.g. 52.204512" error={errors.latitude?.message} {...register('latitude', number)} />
-          <TextField label="Longitude (°)" type="number" step="any" inputMode="decimal" hint="East positive, e.g. 0.121817" error={errors.longitude?.message} {...register('longitude', number)} />
+          <TextField
+            label="Latitude (°)"
+            type="number"
+            step="any"
+            inputMode="decimal"
+            hint="North positive, e.g. 52.204512"
+            error={errors.latitude?.message}
+            {...register('latitude', number)}
+          />
+          <TextField
+            label="Longitude (°)"
+            type="number"
+            step="any"
+            inputMode="decimal"
+            hint="East positive, e.g. 0.121817"
+            error={errors.longitude?.message}
+            {...register('longitude', number)}
+          />
         </div>
         <OriginMap
           latitude={latitude ?? Number.NaN}
@@ -88,7 +102,14 @@ export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
       </fieldset>
 
       <div className="grid gap-4 sm:grid-cols-2">
-        <TextField label="Time zone" list="brink-time-zones" autoComplete="off" hint="Permit windows and shifts use this clock." error={errors.timezone?.message} {...register('timezone')} />
+        <TextField
+          label="Time zone"
+          list="brink-time-zones"
+          autoComplete="off"
+          hint="Permit windows and shifts use this clock."
+          error={errors.timezone?.message}
+          {...register('timezone')}
+        />
         <datalist id="brink-time-zones">
           {zones.map((z) => (
             <option key={z} value={z} />
@@ -105,7 +126,13 @@ export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
           error={errors.minimumClearance?.message}
           {...register('minimumClearance', number)}
         />
-        <SelectField label="Default surcharge method" options={methodOptions} hint="New checks on this site start with this method." error={errors.defaultMethod?.message} {...register('defaultMethod')} />
+        <SelectField
+          label="Default surcharge method"
+          options={methodOptions}
+          hint="New checks on this site start with this method."
+          error={errors.defaultMethod?.message}
+          {...register('defaultMethod')}
+        />
       </div>
 
       <div>

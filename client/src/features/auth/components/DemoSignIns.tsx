@@ -20,7 +20,8 @@ export function DemoSignIns({ onPick }: { onPick: (email: string, password: stri
         Demo sign-ins
       </h2>
       <p className="mt-1 text-sm text-ink-soft">
-        This server runs the invented demo site. Every demo person's password is <code className="font-semibold text-ink">{DEMO_PASSWORD}</code>.
+        This server runs the invented demo site. Every demo person's password is{' '}
+        <code className="font-semibold text-ink">{DEMO_PASSWORD}</code>.
       </p>
       <ul className="mt-3 flex flex-col gap-2">
         {demoPeople.map((p) => (

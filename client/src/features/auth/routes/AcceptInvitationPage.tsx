@@ -71,18 +71,29 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
       intro={
         <p>
           You have been invited as <strong className="text-ink">{invitation.email}</strong>
-          {invitation.siteName && invitation.role
-            ? `, as ${roleLabels[invitation.role].toLowerCase()} on ${invitation.siteName}`
-            : ''}
-          . Check your name and choose a password to finish.
+          {invitation.siteName && invitation.role ? `, as ${roleLabels[invitation.role].toLowerCase()} on ${invitation.siteName}` : ''}.
+          Check your name and choose a password to finish.
         </p>
       }
     >
       <form onSubmit={onSubmit} noValidate className="flex flex-col gap-5">
         <FormSummary message={summary} />
         <TextField label="Your name" autoComplete="name" error={formState.errors.name?.message} {...register('name')} />
-        <TextField label="Password" type="password" autoComplete="new-password" hint="At least 10 characters." error={formState.errors.password?.message} {...register('password')} />
-        <TextField label="Password again" type="password" autoComplete="new-password" error={formState.errors.confirm?.message} {...register('confirm')} />
+        <TextField
+          label="Password"
+          type="password"
+          autoComplete="new-password"
+          hint="At least 10 characters."
+          error={formState.errors.password?.message}
+          {...register('password')}
+        />
+        <TextField
+          label="Password again"
+          type="password"
+          autoComplete="new-password"
+          error={formState.errors.confirm?.message}
+          {...register('confirm')}
+        />
         <Button type="submit" busy={formState.isSubmitting} busyText="Setting up…">
           Set password and sign in
         </Button>

@@ -37,7 +37,14 @@ export function ForgotPasswordPage() {
       </Notice>
       <form onSubmit={onSubmit} noValidate className="flex flex-col gap-5">
         <FormSummary message={summary} />
-        <TextField label="E-mail" type="email" autoComplete="username" inputMode="email" error={formState.errors.email?.message} {...register('email')} />
+        <TextField
+          label="E-mail"
+          type="email"
+          autoComplete="username"
+          inputMode="email"
+          error={formState.errors.email?.message}
+          {...register('email')}
+        />
         <Button type="submit" busy={formState.isSubmitting} busyText="Sending…">
           {sentTo ? 'Send the link again' : 'Send the link'}
         </Button>

@@ -61,8 +61,20 @@ export function ResetPasswordPage() {
     <AuthCard title="Choose a new password" intro="At least 10 characters. A few unrelated words make a strong one.">
       <form onSubmit={onSubmit} noValidate className="flex flex-col gap-5">
         <FormSummary message={summary} />
-        <TextField label="New password" type="password" autoComplete="new-password" error={formState.errors.password?.message} {...register('password')} />
-        <TextField label="New password again" type="password" autoComplete="new-password" error={formState.errors.confirm?.message} {...register('confirm')} />
+        <TextField
+          label="New password"
+          type="password"
+          autoComplete="new-password"
+          error={formState.errors.password?.message}
+          {...register('password')}
+        />
+        <TextField
+          label="New password again"
+          type="password"
+          autoComplete="new-password"
+          error={formState.errors.confirm?.message}
+          {...register('confirm')}
+        />
         <Button type="submit" busy={formState.isSubmitting} busyText="Saving…">
           Save the new password
         </Button>

@@ -18,7 +18,10 @@ describe('SignInPage', () => {
   it('says why a sign-in failed and keeps the e-mail', async () => {
     fakeApi({
       'GET /api/auth/me': { status: 401, body: { error: { code: 'unauthenticated', message: 'Sign in first.' } } },
-      'POST /api/auth/sign-in': { status: 401, body: { error: { code: 'bad_credentials', message: 'That e-mail and password do not match.' } } },
+      'POST /api/auth/sign-in': {
+        status: 401,
+        body: { error: { code: 'bad_credentials', message: 'That e-mail and password do not match.' } },
+      },
     });
     renderAt(<SignInPage />, '/sign-in');
     signIn('coordinator@demo.brink.test', 'wrong-password');

@@ -40,8 +40,21 @@ export function SignInPage() {
     <AuthCard title="Sign in to Brink" intro={params.get('next') ? 'Sign in to carry on where you were.' : undefined}>
       <form onSubmit={onSubmit} noValidate className="flex flex-col gap-5">
         <FormSummary message={summary} />
-        <TextField label="E-mail" type="email" autoComplete="username" inputMode="email" error={formState.errors.email?.message} {...register('email')} />
-        <TextField label="Password" type="password" autoComplete="current-password" error={formState.errors.password?.message} {...register('password')} />
+        <TextField
+          label="E-mail"
+          type="email"
+          autoComplete="username"
+          inputMode="email"
+          error={formState.errors.email?.message}
+          {...register('email')}
+        />
+        <TextField
+          label="Password"
+          type="password"
+          autoComplete="current-password"
+          error={formState.errors.password?.message}
+          {...register('password')}
+        />
         <Button type="submit" busy={formState.isSubmitting} busyText="Signing in…">
           Sign in
         </Button>

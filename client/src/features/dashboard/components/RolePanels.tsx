@@ -37,7 +37,12 @@ export function SupervisorPanels({ site }: { site: SiteOfPanel }) {
 export function CoordinatorPanels({ site }: { site: SiteOfPanel }) {
   return (
     <RoleSection title={roleLabels.coordinator} intro="Review and decide permits, keep the excavation register, suspend work when needed.">
-      <Permits siteId={site.siteId} view="review" title="Permits awaiting my review" intro="Requests sent to you for a decision, oldest first." />
+      <Permits
+        siteId={site.siteId}
+        view="review"
+        title="Permits awaiting my review"
+        intro="Requests sent to you for a decision, oldest first."
+      />
       <Permits siteId={site.siteId} view="live" title="Live now" intro="Every live permit on this site." />
       <InspectionsDue site={site} fallback="Open excavations not yet inspected this shift." />
     </RoleSection>
@@ -48,7 +53,10 @@ export function OperatorPanels({ site }: { site: SiteOfPanel }) {
   return (
     <RoleSection title={roleLabels.operator} intro="See the permits that name you and where loads may go.">
       <Panel title="My permits" level={3}>
-        <p>The permits that name you, with their exclusion zones, where you stand against them, the briefing to confirm and a way to report a concern. Made for your phone, and it keeps working with poor signal.</p>
+        <p>
+          The permits that name you, with their exclusion zones, where you stand against them, the briefing to confirm and a way to report a
+          concern. Made for your phone, and it keeps working with poor signal.
+        </p>
         <p>
           <Link to="/field">Open my permits</Link>
         </p>

@@ -17,13 +17,23 @@ export function DashboardPage() {
 
   const role = roleOnSite(me.data, site.id);
   // Supervisors and coordinators may always inspect; operators where the site gives them the duty.
-  const panelSite = { siteId: site.id, timeZone: site.timezone, canInspect: role === 'supervisor' || role === 'coordinator' || canInspectOnSite(me.data, site.id) };
+  const panelSite = {
+    siteId: site.id,
+    timeZone: site.timezone,
+    canInspect: role === 'supervisor' || role === 'coordinator' || canInspectOnSite(me.data, site.id),
+  };
   return (
     <Page
       title={site.name}
       intro="Your dashboard for this site."
       documentTitle={`Dashboard, ${site.name}`}
-      actions={role === 'supervisor' ? <ButtonLink to={`/sites/${site.id}/permits/new`} variant="primary">Ask for a permit</ButtonLink> : null}
+      actions={
+        role === 'supervisor' ? (
+          <ButtonLink to={`/sites/${site.id}/permits/new`} variant="primary">
+            Ask for a permit
+          </ButtonLink>
+        ) : null
+      }
     >
       {role === 'supervisor' ? <SupervisorPanels site={panelSite} /> : null}
       {role === 'coordinator' ? <CoordinatorPanels site={panelSite} /> : null}

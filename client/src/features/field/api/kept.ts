@@ -71,7 +71,10 @@ export async function readKept<T extends { asOf: string }>(o: ReadKeptOptions<T>
   });
   const phoneCopy = async (error: unknown): Promise<Kept<T>> => {
     const copy = await o.saved().catch(() => null);
-    if (!copy) throw error instanceof OverLimit ? new ApiError(0, 'no_answer', 'Brink could not reach the server in time. Check the connection and try again.') : error;
+    if (!copy)
+      throw error instanceof OverLimit
+        ? new ApiError(0, 'no_answer', 'Brink could not reach the server in time. Check the connection and try again.')
+        : error;
     return { answer: copy, source: 'phone', triedAt: now() };
   };
   try {

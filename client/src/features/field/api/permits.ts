@@ -21,7 +21,12 @@ export const fieldKeys = {
  * limit, or the service worker's kept copy), shows the phone's copy with the source "phone". Runs
  * also when the browser says it is offline (networkMode 'always'), so the copy shows at once.
  */
-function useKeptQuery<T extends { asOf: string }>(key: readonly unknown[], path: string, save: (answer: T) => Promise<void>, saved: () => Promise<T | null>) {
+function useKeptQuery<T extends { asOf: string }>(
+  key: readonly unknown[],
+  path: string,
+  save: (answer: T) => Promise<void>,
+  saved: () => Promise<T | null>,
+) {
   const query = useQuery({
     queryKey: key,
     networkMode: 'always',

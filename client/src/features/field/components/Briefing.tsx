@@ -43,8 +43,8 @@ export function Briefing({ permit }: { permit: FieldPermit }) {
     body = (
       <>
         <p>
-          Press this once the supervisor has briefed you on this permit: the exclusion zone, the standoff and the conditions below. Brink records your name and the
-          time.
+          Press this once the supervisor has briefed you on this permit: the exclusion zone, the standoff and the conditions below. Brink
+          records your name and the time.
         </p>
         <Button
           className="min-h-16 w-full text-xl"
@@ -60,7 +60,11 @@ export function Briefing({ permit }: { permit: FieldPermit }) {
         >
           I have been briefed on {permit.number}
         </Button>
-        {failed ? <p role="alert" className="font-semibold text-error-text">{failed}</p> : null}
+        {failed ? (
+          <p role="alert" className="font-semibold text-error-text">
+            {failed}
+          </p>
+        ) : null}
       </>
     );
   } else {
@@ -82,7 +86,9 @@ export function Briefing({ permit }: { permit: FieldPermit }) {
           ))}
         </ul>
       ) : null}
-      {permit.status === 'approved' ? <p className="text-lg">The permit goes live when its window opens and every named operator has confirmed.</p> : null}
+      {permit.status === 'approved' ? (
+        <p className="text-lg">The permit goes live when its window opens and every named operator has confirmed.</p>
+      ) : null}
     </section>
   );
 }

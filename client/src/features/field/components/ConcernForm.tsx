@@ -90,7 +90,9 @@ export function ConcernForm({ permit }: { permit: FieldPermit }) {
         photos,
       });
     } catch {
-      setErrors({ form: 'This phone could not keep the concern (its storage is full or blocked). Nothing was sent; your note is still here. Try again, or phone the coordinator.' });
+      setErrors({
+        form: 'This phone could not keep the concern (its storage is full or blocked). Nothing was sent; your note is still here. Try again, or phone the coordinator.',
+      });
       setBusy(false);
       return;
     }
@@ -100,7 +102,9 @@ export function ConcernForm({ permit }: { permit: FieldPermit }) {
     setExcavationId(only);
     setErrors({});
     setBusy(false);
-    setDone(`Your concern about ${excavation.reference} is kept on this phone and is being sent. It stays in the list below until the server has it.`);
+    setDone(
+      `Your concern about ${excavation.reference} is kept on this phone and is being sent. It stays in the list below until the server has it.`,
+    );
   }
 
   if (!permit.excavations.length) return null;
@@ -109,7 +113,10 @@ export function ConcernForm({ permit }: { permit: FieldPermit }) {
       <h2 id="concern-title" className="text-2xl font-bold">
         Report a concern
       </h2>
-      <p>A crack at the edge, water coming in, a support that moved, a load too close: say what you saw. The coordinator and the supervisor are e-mailed.</p>
+      <p>
+        A crack at the edge, water coming in, a support that moved, a load too close: say what you saw. The coordinator and the supervisor
+        are e-mailed.
+      </p>
       <form
         noValidate
         className="flex flex-col gap-4"
@@ -122,7 +129,10 @@ export function ConcernForm({ permit }: { permit: FieldPermit }) {
           <legend className="mb-2 font-semibold">{labels.excavationId}</legend>
           <div className="flex flex-col gap-2">
             {permit.excavations.map((x) => (
-              <label key={x.id} className="flex min-h-12 items-center gap-3 rounded-md border-2 border-rule-strong px-3 has-[:checked]:border-ink has-[:checked]:bg-accent-wash">
+              <label
+                key={x.id}
+                className="flex min-h-12 items-center gap-3 rounded-md border-2 border-rule-strong px-3 has-[:checked]:border-ink has-[:checked]:bg-accent-wash"
+              >
                 <input
                   type="radio"
                   name="excavation"
@@ -157,7 +167,9 @@ export function ConcernForm({ permit }: { permit: FieldPermit }) {
         </div>
 
         <div className="flex flex-col gap-2">
-          <span className="font-semibold">{labels.photo} (up to {CONCERN_PHOTOS_MAX}, optional)</span>
+          <span className="font-semibold">
+            {labels.photo} (up to {CONCERN_PHOTOS_MAX}, optional)
+          </span>
           <input
             id={ids.photo}
             type="file"

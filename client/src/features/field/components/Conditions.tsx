@@ -14,12 +14,15 @@ export function Conditions({ permit }: { permit: FieldPermit }) {
         <ul className="flex flex-col gap-2 text-2xl font-semibold leading-snug">
           {zoned.map((e) => (
             <li key={e.id}>
-              Keep every part of the load at least <span className="font-bold">{metres2(e.standoff!)}</span> from the edge of {e.reference} ({e.name}).
+              Keep every part of the load at least <span className="font-bold">{metres2(e.standoff!)}</span> from the edge of {e.reference}{' '}
+              ({e.name}).
             </li>
           ))}
         </ul>
       ) : (
-        <p className="text-xl font-semibold">No standoff is set: this permit is not approved yet, so no load may go beside the excavation under it.</p>
+        <p className="text-xl font-semibold">
+          No standoff is set: this permit is not approved yet, so no load may go beside the excavation under it.
+        </p>
       )}
       {permit.minimumClearance > 0 && zoned.length ? (
         <p>No standoff is less than the site’s least clearance from any edge, {metres2(permit.minimumClearance)}.</p>

@@ -57,15 +57,23 @@ export function FieldGate({ children, fallback }: { children: ReactNode; fallbac
     }
   }, [me.data, saved]);
 
-  if (me.data) return <PersonContext.Provider value={{ id: me.data.id, name: me.data.name, email: me.data.email, fromPhone: false }}>{children}</PersonContext.Provider>;
+  if (me.data)
+    return (
+      <PersonContext.Provider value={{ id: me.data.id, name: me.data.name, email: me.data.email, fromPhone: false }}>
+        {children}
+      </PersonContext.Provider>
+    );
   if (me.data === null) {
     const here = location.pathname + location.search;
     return <Navigate to={`/sign-in?next=${encodeURIComponent(here)}`} replace />;
   }
-  const noSignal = (me.isError && !isApiError(me.error, 401)) || (me.isPending && (slow || (typeof navigator !== 'undefined' && !navigator.onLine)));
+  const noSignal =
+    (me.isError && !isApiError(me.error, 401)) || (me.isPending && (slow || (typeof navigator !== 'undefined' && !navigator.onLine)));
   if (noSignal && saved) return <PersonContext.Provider value={{ ...saved, fromPhone: true }}>{children}</PersonContext.Provider>;
   if (me.isError && saved === null) {
-    return fallback('There is no signal, and this phone has no saved copy yet. Open Brink once with signal and sign in; your permits are then kept here.');
+    return fallback(
+      'There is no signal, and this phone has no saved copy yet. Open Brink once with signal and sign in; your permits are then kept here.',
+    );
   }
   return fallback('Checking who is signed in…');
 }

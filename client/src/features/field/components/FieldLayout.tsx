@@ -54,7 +54,10 @@ function Connection({ waiting, refused }: { waiting: number; refused: number }) 
   const person = useFieldPerson();
   return (
     <div className="ml-auto flex flex-col items-end text-lg leading-snug" role="status" aria-live="polite">
-      <span className="font-semibold">{noSignal ? 'No signal' : 'Signal'}{person.fromPhone ? ' · saved copy' : ''}</span>
+      <span className="font-semibold">
+        {noSignal ? 'No signal' : 'Signal'}
+        {person.fromPhone ? ' · saved copy' : ''}
+      </span>
       {waiting ? <span>{waiting === 1 ? '1 item' : `${waiting} items`} waiting to send</span> : null}
       {refused ? <span className="font-semibold">{refused === 1 ? '1 item' : `${refused} items`} not accepted</span> : null}
     </div>
@@ -82,7 +85,13 @@ function Signed() {
  */
 export function FieldLayout() {
   return (
-    <FieldGate fallback={(message) => <Frame><p role="status">{message}</p></Frame>}>
+    <FieldGate
+      fallback={(message) => (
+        <Frame>
+          <p role="status">{message}</p>
+        </Frame>
+      )}
+    >
       <Signed />
     </FieldGate>
   );

@@ -3,8 +3,10 @@ import { errorMessage } from '@client/lib/api';
 import { pushState, turnPushOff, turnPushOn, type PushState } from '../offline/push';
 
 const why: Partial<Record<PushState, string>> = {
-  unsupported: 'This browser cannot show Brink’s notifications. Add Brink to the home screen from a browser that can (Chrome, Edge, Firefox, Safari on iOS 16.4 or later).',
-  'no-worker': 'Notifications need the installed phone view: open Brink at its https address (or on this computer at localhost) and reload once.',
+  unsupported:
+    'This browser cannot show Brink’s notifications. Add Brink to the home screen from a browser that can (Chrome, Edge, Firefox, Safari on iOS 16.4 or later).',
+  'no-worker':
+    'Notifications need the installed phone view: open Brink at its https address (or on this computer at localhost) and reload once.',
   blocked: 'Notifications from Brink are blocked on this phone. Allow them in the browser’s site settings, then turn them on here.',
 };
 
@@ -54,9 +56,13 @@ export function PushToggle() {
       <p className="text-base" role="status">
         {state === 'on'
           ? 'On: this phone is told when a permit that names you goes live, is suspended, is resumed or lapses.'
-          : why[state] ?? 'Off: turn on to be told at once when a permit that names you changes.'}
+          : (why[state] ?? 'Off: turn on to be told at once when a permit that names you changes.')}
       </p>
-      {error ? <p className="text-base font-semibold text-error-text" role="alert">{error}</p> : null}
+      {error ? (
+        <p className="text-base font-semibold text-error-text" role="alert">
+          {error}
+        </p>
+      ) : null}
     </div>
   );
 }

@@ -55,7 +55,11 @@ const frame = {
 function ReadingPanel({ reading, at }: { reading: Exclude<Reading, { kind: 'none' }>; at: Date }) {
   const ref = reading.excavation.reference;
   const headline =
-    reading.kind === 'outside' ? 'Outside the exclusion zone' : reading.kind === 'inside' ? 'Inside the exclusion zone' : 'Cannot tell which side you are';
+    reading.kind === 'outside'
+      ? 'Outside the exclusion zone'
+      : reading.kind === 'inside'
+        ? 'Inside the exclusion zone'
+        : 'Cannot tell which side you are';
   return (
     <div className={`rounded-md border-l-[12px] border-2 bg-sheet p-4 ${frame[reading.kind]}`}>
       <p className="text-xl font-bold">{headline}</p>
@@ -67,8 +71,8 @@ function ReadingPanel({ reading, at }: { reading: Exclude<Reading, { kind: 'none
       </p>
       {reading.kind === 'undecided' ? (
         <p className="mt-2 font-semibold">
-          The phone’s position is only good to ±{metres(reading.accuracy)}, more than the {metres(reading.distance)} between you and the line, so this
-          reading cannot decide whether you are inside. Go by the marks on the ground and the banksman.
+          The phone’s position is only good to ±{metres(reading.accuracy)}, more than the {metres(reading.distance)} between you and the
+          line, so this reading cannot decide whether you are inside. Go by the marks on the ground and the banksman.
         </p>
       ) : (
         <p className="mt-2">Phone accuracy ±{metres(reading.accuracy)}.</p>
@@ -112,7 +116,8 @@ function InsideAlarm({ reading }: { reading: Exclude<Reading, { kind: 'none' }> 
 function useVibrateOnEntry(inside: boolean) {
   const was = useRef(false);
   useEffect(() => {
-    if (inside && !was.current && typeof navigator !== 'undefined' && typeof navigator.vibrate === 'function') navigator.vibrate([600, 200, 600, 200, 600]);
+    if (inside && !was.current && typeof navigator !== 'undefined' && typeof navigator.vibrate === 'function')
+      navigator.vibrate([600, 200, 600, 200, 600]);
     was.current = inside;
   }, [inside]);
 }
@@ -122,8 +127,8 @@ function LocationMessage({ location }: { location: LocationState }) {
   if (location.status === 'denied')
     return (
       <p role="alert" className="font-semibold">
-        The phone did not allow Brink to read its position. To allow it, open the browser’s settings for this site and allow location; then press “Show where I am”
-        again. The map and the zone still show without it.
+        The phone did not allow Brink to read its position. To allow it, open the browser’s settings for this site and allow location; then
+        press “Show where I am” again. The map and the zone still show without it.
       </p>
     );
   if (location.status === 'unavailable') return <p role="alert">{location.message}</p>;
@@ -147,8 +152,8 @@ export function WhereAmI({ permit, onFix }: { permit: FieldPermit; onFix: (fix: 
       {!active ? (
         <>
           <p>
-            Brink can use this phone’s location to show you on the map and say how far you are from the exclusion zone’s boundary. Your position stays on this phone:
-            it is not sent or kept. The phone will ask you to allow it.
+            Brink can use this phone’s location to show you on the map and say how far you are from the exclusion zone’s boundary. Your
+            position stays on this phone: it is not sent or kept. The phone will ask you to allow it.
           </p>
           <Button className="min-h-14 w-full text-xl" onClick={start}>
             Show where I am
@@ -160,7 +165,13 @@ export function WhereAmI({ permit, onFix }: { permit: FieldPermit; onFix: (fix: 
           {reading && reading.kind !== 'none' && location.status === 'on' ? <ReadingPanel reading={reading} at={location.at} /> : null}
           {reading?.kind === 'none' ? <p>This permit has no exclusion zone yet, so there is no line to measure against.</p> : null}
           <p className="sr-only" aria-live="assertive">
-            {reading && reading.kind !== 'none' ? (reading.kind === 'inside' ? 'Inside the exclusion zone' : reading.kind === 'outside' ? 'Outside the exclusion zone' : 'Cannot tell which side') : ''}
+            {reading && reading.kind !== 'none'
+              ? reading.kind === 'inside'
+                ? 'Inside the exclusion zone'
+                : reading.kind === 'outside'
+                  ? 'Outside the exclusion zone'
+                  : 'Cannot tell which side'
+              : ''}
           </p>
           <Button variant="secondary" className="min-h-12 w-full" onClick={stop}>
             Stop showing my position

@@ -39,13 +39,20 @@ export function ZoneMap({ permit, fix }: { permit: FieldPermit; fix: Fix | null 
   const bounds = useMemo(() => boundsOf(permit), [permit]);
   return (
     <div className="relative h-[55vh] min-h-72 overflow-hidden rounded-md border-2 border-ink">
-      <BaseMap origin={permit.origin} center={[permit.centre.latitude, permit.centre.longitude]} zoom={19} ariaLabel={`Map of permit ${permit.number}: zones and the permitted position`}>
+      <BaseMap
+        origin={permit.origin}
+        center={[permit.centre.latitude, permit.centre.longitude]}
+        zoom={19}
+        ariaLabel={`Map of permit ${permit.number}: zones and the permitted position`}
+      >
         <Fit bounds={bounds} />
         {permit.excavations.map((e) => (
           <GeoJSON key={`i-${e.id}`} data={e.influenceZone} style={() => zoneStyles.influence} interactive={false} />
         ))}
         {permit.excavations.map((e) =>
-          e.exclusionZone ? <GeoJSON key={`x-${e.id}`} data={e.exclusionZone} style={() => zoneStyles.exclusion} interactive={false} /> : null,
+          e.exclusionZone ? (
+            <GeoJSON key={`x-${e.id}`} data={e.exclusionZone} style={() => zoneStyles.exclusion} interactive={false} />
+          ) : null,
         )}
         {permit.excavations.map((e) => (
           <GeoJSON key={`e-${e.id}`} data={e.outline} style={() => zoneStyles.excavation} interactive={false} />
@@ -55,7 +62,12 @@ export function ZoneMap({ permit, fix }: { permit: FieldPermit; fix: Fix | null 
         ))}
         {fix ? (
           <>
-            <Circle center={[fix.latitude, fix.longitude]} radius={Math.max(fix.accuracy, 0.1)} pathOptions={zoneStyles.accuracy} interactive={false} />
+            <Circle
+              center={[fix.latitude, fix.longitude]}
+              radius={Math.max(fix.accuracy, 0.1)}
+              pathOptions={zoneStyles.accuracy}
+              interactive={false}
+            />
             <CircleMarker center={[fix.latitude, fix.longitude]} radius={9} pathOptions={zoneStyles.me} interactive={false} />
           </>
         ) : null}
@@ -67,12 +79,18 @@ export function ZoneMap({ permit, fix }: { permit: FieldPermit; fix: Fix | null 
 /** The map's key, in words beside each colour. */
 export function MapKey({ hasFix }: { hasFix: boolean }) {
   const swatch = (fill: string, border: string, dashed = false) => (
-    <span aria-hidden="true" className="inline-block size-6 shrink-0 rounded-sm border-2" style={{ background: fill, borderColor: border, borderStyle: dashed ? 'dashed' : 'solid' }} />
+    <span
+      aria-hidden="true"
+      className="inline-block size-6 shrink-0 rounded-sm border-2"
+      style={{ background: fill, borderColor: border, borderStyle: dashed ? 'dashed' : 'solid' }}
+    />
   );
   return (
     <ul className="grid grid-cols-1 gap-2 text-lg sm:grid-cols-2">
       <li className="flex items-center gap-3">{swatch('rgba(193,18,31,0.6)', '#c1121f')}Exclusion zone: no part of the load inside</li>
-      <li className="flex items-center gap-3">{swatch('rgba(244,194,13,0.55)', '#1e2a33', true)}Influence zone (within the depth of the edge)</li>
+      <li className="flex items-center gap-3">
+        {swatch('rgba(244,194,13,0.55)', '#1e2a33', true)}Influence zone (within the depth of the edge)
+      </li>
       <li className="flex items-center gap-3">{swatch('#3a4650', '#1e2a33')}Excavation</li>
       <li className="flex items-center gap-3">{swatch('#fffdf8', '#1e2a33')}Permitted position of the load</li>
       {hasFix ? <li className="flex items-center gap-3">{swatch('#47508f', '#1e2a33')}You, with the phone’s accuracy circle</li> : null}

@@ -25,11 +25,20 @@ export function useGeolocation(active: boolean): LocationState {
     }
     setState({ status: 'waiting' });
     const id = navigator.geolocation.watchPosition(
-      (p) => setState({ status: 'on', fix: { latitude: p.coords.latitude, longitude: p.coords.longitude, accuracy: p.coords.accuracy }, at: new Date(p.timestamp) }),
+      (p) =>
+        setState({
+          status: 'on',
+          fix: { latitude: p.coords.latitude, longitude: p.coords.longitude, accuracy: p.coords.accuracy },
+          at: new Date(p.timestamp),
+        }),
       (e) => {
         if (e.code === e.PERMISSION_DENIED) setState({ status: 'denied' });
         else if (e.code === e.TIMEOUT) setState((s) => (s.status === 'on' ? s : { status: 'waiting' }));
-        else setState({ status: 'unavailable', message: 'The phone cannot find its position here just now (under cover, or location switched off).' });
+        else
+          setState({
+            status: 'unavailable',
+            message: 'The phone cannot find its position here just now (under cover, or location switched off).',
+          });
       },
       { enableHighAccuracy: true, maximumAge: 0, timeout: 30_000 },
     );

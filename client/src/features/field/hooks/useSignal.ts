@@ -21,7 +21,11 @@ function subscribe(listener: () => void) {
 }
 
 export function useLastFieldTry(): LastTry | null {
-  return useSyncExternalStore(subscribe, () => last, () => null);
+  return useSyncExternalStore(
+    subscribe,
+    () => last,
+    () => null,
+  );
 }
 
 /** True when the browser says offline or the last read got no answer from the server. */

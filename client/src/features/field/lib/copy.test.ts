@@ -24,7 +24,8 @@ describe('a copy that may be out of date', () => {
   });
 
   it('does not warn for permits no longer in force', () => {
-    for (const status of ['handed_back', 'lapsed', 'withdrawn'] as const) expect(possiblyOutOfDate(copy('phone', null), [status], t0 + 60 * min)).toBe(false);
+    for (const status of ['handed_back', 'lapsed', 'withdrawn'] as const)
+      expect(possiblyOutOfDate(copy('phone', null), [status], t0 + 60 * min)).toBe(false);
     // A list warns when any permit in it is in force.
     expect(possiblyOutOfDate(copy('phone', null), ['lapsed', 'live'], t0 + 60 * min)).toBe(true);
   });

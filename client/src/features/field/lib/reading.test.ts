@@ -6,7 +6,13 @@ import { prepareZones, readFix, sideText, type Reading } from './reading';
 // A 10 m × 4 m pit with its south-west corner at the site origin, and a 3 m standoff.
 const origin = { latitude: 52.2, longitude: 0.12 };
 const proj = localProjection([origin.longitude, origin.latitude]);
-const ring = [[0, 0], [10, 0], [10, 4], [0, 4], [0, 0]].map((p) => proj.toWgs84(p));
+const ring = [
+  [0, 0],
+  [10, 0],
+  [10, 4],
+  [0, 4],
+  [0, 0],
+].map((p) => proj.toWgs84(p));
 const square = { type: 'Polygon' as const, coordinates: [ring] };
 const pit: FieldExcavation = {
   id: 1,

@@ -30,8 +30,7 @@ export interface Fix {
  * - `none`: the permit has no exclusion zone to measure against.
  */
 export type Reading =
-  | { kind: 'outside' | 'inside' | 'undecided'; distance: number; accuracy: number; excavation: FieldExcavation }
-  | { kind: 'none' };
+  { kind: 'outside' | 'inside' | 'undecided'; distance: number; accuracy: number; excavation: FieldExcavation } | { kind: 'none' };
 
 export function readFix(prepared: PreparedZones, fix: Fix): Reading {
   let best: { distance: number; excavation: FieldExcavation } | null = null;

@@ -84,7 +84,13 @@ export function onOutboxSent(listener: (item: OutboxItem) => void): () => void {
 }
 
 /** Puts an action in the outbox with its idempotency key and the time it was made. */
-export async function addToOutbox(key: string, userId: number, permit: { id: number; number: string }, item: NewOutboxItem, now = new Date()): Promise<OutboxItem> {
+export async function addToOutbox(
+  key: string,
+  userId: number,
+  permit: { id: number; number: string },
+  item: NewOutboxItem,
+  now = new Date(),
+): Promise<OutboxItem> {
   const full = {
     ...item,
     key,
@@ -132,7 +138,12 @@ async function attempt(item: OutboxItem): Promise<Outcome> {
     const headers: Record<string, string> = { Accept: 'application/json', 'Idempotency-Key': item.key };
     if (item.kind === 'briefing') {
       headers['Content-Type'] = 'application/json';
-      res = await fetch(`/api/permits/${item.permitId}/briefing`, { method: 'POST', headers, body: JSON.stringify({ idempotencyKey: item.key, revision: item.revision }), credentials: 'same-origin' });
+      res = await fetch(`/api/permits/${item.permitId}/briefing`, {
+        method: 'POST',
+        headers,
+        body: JSON.stringify({ idempotencyKey: item.key, revision: item.revision }),
+        credentials: 'same-origin',
+      });
     } else {
       const form = new FormData();
       form.set('excavationId', String(item.excavationId));
@@ -146,7 +157,8 @@ async function attempt(item: OutboxItem): Promise<Outcome> {
   }
   if (res.ok) return { kind: 'sent' };
   if (res.status === 401) return { kind: 'stop', problem: 'Your sign-in has lapsed: sign in again and it will be sent.' };
-  if (res.status >= 500 || res.status === 408 || res.status === 429) return { kind: 'stop', problem: 'The server could not take it just now; Brink will try again.' };
+  if (res.status >= 500 || res.status === 408 || res.status === 429)
+    return { kind: 'stop', problem: 'The server could not take it just now; Brink will try again.' };
   const error = await errorFromResponse(res);
   return { kind: 'refused', problem: error.message, fields: error.fields };
 }

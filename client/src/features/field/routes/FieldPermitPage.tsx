@@ -55,7 +55,10 @@ export function FieldPermitPage() {
       </header>
       {possiblyOutOfDate(shown, [permit.status], Date.now()) ? <StaleCopyBanner asOf={shown.answer.asOf} what="permit" /> : null}
       {stopped[permit.status] ? (
-        <p role="alert" className={`rounded-md border-4 p-4 text-2xl font-bold ${permit.status === 'suspended' ? 'border-safety-red bg-safety-red text-white' : 'border-ink bg-sheet'}`}>
+        <p
+          role="alert"
+          className={`rounded-md border-4 p-4 text-2xl font-bold ${permit.status === 'suspended' ? 'border-safety-red bg-safety-red text-white' : 'border-ink bg-sheet'}`}
+        >
           {stopped[permit.status]}
         </p>
       ) : null}

@@ -37,7 +37,13 @@ export function MyPermitsPage() {
       <p>The permits that name you, {person.name}. Open one to see its zone, where you stand, and to confirm the briefing.</p>
       {shown ? (
         <>
-          {possiblyOutOfDate(shown, shown.answer.permits.map((p) => p.status), Date.now()) ? <StaleCopyBanner asOf={shown.answer.asOf} what="list" /> : null}
+          {possiblyOutOfDate(
+            shown,
+            shown.answer.permits.map((p) => p.status),
+            Date.now(),
+          ) ? (
+            <StaleCopyBanner asOf={shown.answer.asOf} what="list" />
+          ) : null}
           <LastUpdated shown={shown} lastTry={lastTry} refreshing={query.isFetching} onRefresh={() => void query.refetch()} />
           {shown.answer.permits.length === 0 ? <p className="text-xl">No approved permit names you at the moment.</p> : null}
           {groupPermits(shown.answer.permits).map((g) => (

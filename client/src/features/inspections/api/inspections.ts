@@ -1,6 +1,12 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
-import type { ExcavationInspections, InspectionData, recordedInspectionAnswer, ShiftsAnswer, ShiftsInput } from '@shared/schemas/inspections';
+import type {
+  ExcavationInspections,
+  InspectionData,
+  recordedInspectionAnswer,
+  ShiftsAnswer,
+  ShiftsInput,
+} from '@shared/schemas/inspections';
 import { api, ApiError, errorFromResponse } from '@client/lib/api';
 import { inspectionStatesKey } from '@client/lib/inspectionStates';
 
@@ -30,9 +36,18 @@ export async function sendInspection(excavationId: number, data: InspectionData,
   photos.forEach((p, i) => body.append('photos', p, p instanceof File ? p.name : `photo-${i + 1}.jpg`));
   let res: Response;
   try {
-    res = await fetch(`/api/excavations/${excavationId}/inspections`, { method: 'POST', body, credentials: 'same-origin', headers: { Accept: 'application/json' } });
+    res = await fetch(`/api/excavations/${excavationId}/inspections`, {
+      method: 'POST',
+      body,
+      credentials: 'same-origin',
+      headers: { Accept: 'application/json' },
+    });
   } catch {
-    throw new ApiError(0, 'network', 'No connection: the inspection was not sent. Your answers and photos are kept on this phone; send again when you have signal.');
+    throw new ApiError(
+      0,
+      'network',
+      'No connection: the inspection was not sent. Your answers and photos are kept on this phone; send again when you have signal.',
+    );
   }
   if (!res.ok) throw await errorFromResponse(res);
   return (await res.json()) as RecordedInspection;
@@ -50,7 +65,6 @@ export function useRecordInspection(siteId: number, excavationId: number) {
     },
   });
 }
-
 
 export function useShifts(siteId: number) {
   return useQuery({

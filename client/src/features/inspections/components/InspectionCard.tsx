@@ -27,7 +27,9 @@ export function InspectionCard({ inspection: i, timeZone }: { inspection: Inspec
     <article className="flex flex-col gap-2 rounded-lg border border-rule bg-sheet p-4" aria-label={`Inspection ${i.id}`}>
       <div className="flex flex-wrap items-center justify-between gap-2">
         <h3 className="text-lg font-semibold">{formatSiteTime(new Date(i.inspectedAt), timeZone)}</h3>
-        <span className={`rounded-md px-2 py-0.5 font-bold text-white ${safe ? 'bg-safety-green' : 'bg-safety-red'}`}>{outcomeLabels[i.outcome]}</span>
+        <span className={`rounded-md px-2 py-0.5 font-bold text-white ${safe ? 'bg-safety-green' : 'bg-safety-red'}`}>
+          {outcomeLabels[i.outcome]}
+        </span>
       </div>
       <p>
         {i.inspector.name} · {i.shift.name} · {reasonLabels[i.reason]}
@@ -43,7 +45,9 @@ export function InspectionCard({ inspection: i, timeZone }: { inspection: Inspec
           ))}
         </ul>
       ) : (
-        <p className="text-ink-soft">Every check passed{na.length ? ` (not applicable: ${na.map((c) => c.label.toLowerCase()).join(', ')})` : ''}.</p>
+        <p className="text-ink-soft">
+          Every check passed{na.length ? ` (not applicable: ${na.map((c) => c.label.toLowerCase()).join(', ')})` : ''}.
+        </p>
       )}
       {notes.length ? (
         <ul className="text-ink-soft">
@@ -64,7 +68,12 @@ export function InspectionCard({ inspection: i, timeZone }: { inspection: Inspec
           {i.photos.map((p, n) => (
             <li key={p.id}>
               <a href={p.url} target="_blank" rel="noreferrer" className="block">
-                <img src={p.url} alt={`Photo ${n + 1} of inspection ${i.id}: ${p.name}`} loading="lazy" className="h-24 w-32 rounded-md border border-rule object-cover" />
+                <img
+                  src={p.url}
+                  alt={`Photo ${n + 1} of inspection ${i.id}: ${p.name}`}
+                  loading="lazy"
+                  className="h-24 w-32 rounded-md border border-rule object-cover"
+                />
               </a>
             </li>
           ))}

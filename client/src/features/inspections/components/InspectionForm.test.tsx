@@ -32,7 +32,10 @@ function answerAll(answer = 'Pass') {
   for (const c of checklist) choose(c.label, answer);
 }
 
-const recorded = { inspection: { id: 5, outcome: 'not-safe' }, consequences: { suspended: [], notSuspended: [], notified: [] } } as unknown as RecordedInspection;
+const recorded = {
+  inspection: { id: 5, outcome: 'not-safe' },
+  consequences: { suspended: [], notSuspended: [], notified: [] },
+} as unknown as RecordedInspection;
 
 async function renderForm(send: (d: InspectionData, p: Blob[]) => Promise<RecordedInspection>, onRecorded = vi.fn()) {
   renderAt(<InspectionForm userId={1} excavationId={7} reference="T1" send={send} onRecorded={onRecorded} />);
@@ -86,7 +89,11 @@ describe('InspectionForm', () => {
       reasonDetail: 'Spoil slipped in at chainage 40',
       outcome: 'not-safe',
       remarks: 'Re-fit the strut before anyone goes in',
-      checklist: { support: { answer: 'fail', note: 'Bottom strut knocked out' }, atmosphere: { answer: 'na', note: '' }, water: { answer: 'pass', note: '' } },
+      checklist: {
+        support: { answer: 'fail', note: 'Bottom strut knocked out' },
+        atmosphere: { answer: 'na', note: '' },
+        water: { answer: 'pass', note: '' },
+      },
     });
     expect(data.clientRef).toMatch(/^[0-9a-f-]{36}$/);
     expect(photos).toEqual([]);
@@ -114,7 +121,10 @@ describe('InspectionForm', () => {
 
   it('puts the server\u2019s reasons under their fields and keeps what was typed', async () => {
     const send = vi.fn(async (): Promise<RecordedInspection> => {
-      throw new ApiError(400, 'invalid', 'Please correct the inspection.', { inspectedAt: 'is before the latest inspection of this excavation', 'photos[0]': 'must be a PNG or JPEG image' });
+      throw new ApiError(400, 'invalid', 'Please correct the inspection.', {
+        inspectedAt: 'is before the latest inspection of this excavation',
+        'photos[0]': 'must be a PNG or JPEG image',
+      });
     });
     await renderForm(send);
     choose('Why', 'Start of shift');

@@ -42,8 +42,16 @@ const answerChoices = checkAnswers.map((a) => ({
         : undefined,
 }));
 const outcomeChoices = [
-  { value: 'safe', label: outcomeLabels.safe, chosen: 'peer-checked:border-safety-green peer-checked:bg-safety-green peer-checked:text-white' },
-  { value: 'not-safe', label: outcomeLabels['not-safe'], chosen: 'peer-checked:border-safety-red peer-checked:bg-safety-red peer-checked:text-white' },
+  {
+    value: 'safe',
+    label: outcomeLabels.safe,
+    chosen: 'peer-checked:border-safety-green peer-checked:bg-safety-green peer-checked:text-white',
+  },
+  {
+    value: 'not-safe',
+    label: outcomeLabels['not-safe'],
+    chosen: 'peer-checked:border-safety-red peer-checked:bg-safety-red peer-checked:text-white',
+  },
 ];
 const reasonChoices = inspectionReasons.map((r) => ({ value: r, label: reasonLabels[r] }));
 
@@ -54,7 +62,13 @@ const fieldLabels: Record<string, string> = {
   inspectedAt: 'Time of the inspection',
   outcome: 'Outcome',
   remarks: 'Remarks',
-  ...Object.fromEntries(checklist.flatMap((c) => [[`checklist.${c.key}`, c.label], [`checklist.${c.key}.answer`, c.label], [`checklist.${c.key}.note`, `${c.label} note`]])),
+  ...Object.fromEntries(
+    checklist.flatMap((c) => [
+      [`checklist.${c.key}`, c.label],
+      [`checklist.${c.key}.answer`, c.label],
+      [`checklist.${c.key}.note`, `${c.label} note`],
+    ]),
+  ),
 };
 const shownFields = Object.keys(fieldLabels).filter((k) => !/^checklist\.[a-z]+$/.test(k)) as Path<FormValues>[];
 
@@ -93,7 +107,9 @@ interface InspectionFormProps {
  * the phone as it is given (also photos), so a lost signal or a refused send loses nothing.
  */
 export function InspectionForm({ userId, excavationId, reference, send, onRecorded }: InspectionFormProps) {
-  const { register, handleSubmit, reset, setError, clearErrors, watch, getValues, formState } = useForm<FormValues>({ defaultValues: emptyValues });
+  const { register, handleSubmit, reset, setError, clearErrors, watch, getValues, formState } = useForm<FormValues>({
+    defaultValues: emptyValues,
+  });
   const { errors } = formState;
   const [photos, setPhotos] = useState<DraftPhoto[]>([]);
   const [photoError, setPhotoError] = useState<string | null>(null);
@@ -166,7 +182,10 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
     }
     setSending(true);
     try {
-      const recorded = await send(parsed.data, photos.map((p) => p.blob));
+      const recorded = await send(
+        parsed.data,
+        photos.map((p) => p.blob),
+      );
       sent.current = true;
       await clearDraft(userId, excavationId);
       setWaitingForSignal(false);
@@ -178,7 +197,19 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
       } else if (error instanceof ApiError) {
         const photoFields = Object.entries(error.fields).filter(([k]) => k.startsWith('photos'));
         if (photoFields.length) setPhotoError(photoFields.map(([k, v]) => namedSentence(photoLabel(k, photos), v)).join(' '));
-        setSummary(applyServerErrors(new ApiError(error.status, error.code, error.message, Object.fromEntries(Object.entries(error.fields).filter(([k]) => !k.startsWith('photos')))), setError, shownFields, fieldLabels));
+        setSummary(
+          applyServerErrors(
+            new ApiError(
+              error.status,
+              error.code,
+              error.message,
+              Object.fromEntries(Object.entries(error.fields).filter(([k]) => !k.startsWith('photos'))),
+            ),
+            setError,
+            shownFields,
+            fieldLabels,
+          ),
+        );
       } else {
         setSummary(applyServerErrors(error, setError, shownFields, fieldLabels));
       }
@@ -207,7 +238,12 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
 
       <ChoiceGroup legend="Why" choices={reasonChoices} columns={1} error={errors.reason?.message} registration={register('reason')} />
       {reason && reason !== 'shift-start' ? (
-        <TextAreaField label="What happened" hint="The rain, strike, vibration or fall that makes this inspection needed." error={errors.reasonDetail?.message} {...register('reasonDetail')} />
+        <TextAreaField
+          label="What happened"
+          hint="The rain, strike, vibration or fall that makes this inspection needed."
+          error={errors.reasonDetail?.message}
+          {...register('reasonDetail')}
+        />
       ) : null}
 
       <section aria-labelledby="checks-heading" className="flex flex-col gap-5">
@@ -222,8 +258,19 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
           const failed = answers?.[c.key]?.answer === 'fail';
           return (
             <div key={c.key} className="rounded-lg border border-rule bg-sheet p-4">
-              <ChoiceGroup legend={c.label} hint={c.prompt} choices={answerChoices} error={e?.answer?.message} registration={register(`checklist.${c.key}.answer`)}>
-                <TextAreaField label={`${c.label} note`} hint={failed ? 'Required: what is wrong, and where.' : 'Optional.'} error={e?.note?.message} {...register(`checklist.${c.key}.note`)} />
+              <ChoiceGroup
+                legend={c.label}
+                hint={c.prompt}
+                choices={answerChoices}
+                error={e?.answer?.message}
+                registration={register(`checklist.${c.key}.answer`)}
+              >
+                <TextAreaField
+                  label={`${c.label} note`}
+                  hint={failed ? 'Required: what is wrong, and where.' : 'Optional.'}
+                  error={e?.note?.message}
+                  {...register(`checklist.${c.key}.note`)}
+                />
               </ChoiceGroup>
             </div>
           );
@@ -240,7 +287,13 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
         {...register('inspectedAt')}
       />
 
-      <ChoiceGroup legend="Outcome" choices={outcomeChoices} columns={2} error={errors.outcome?.message} registration={register('outcome')} />
+      <ChoiceGroup
+        legend="Outcome"
+        choices={outcomeChoices}
+        columns={2}
+        error={errors.outcome?.message}
+        registration={register('outcome')}
+      />
       <TextAreaField
         label="Remarks"
         rows={3}
@@ -266,7 +319,9 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
           {waitingForSignal ? 'Send again' : 'Record the inspection'}
         </Button>
         <p role="status" className="text-sm text-ink-soft">
-          {keptAt ? `Your answers are kept on this phone (last at ${new Date(keptAt).toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit' })}) until they are sent.` : ''}
+          {keptAt
+            ? `Your answers are kept on this phone (last at ${new Date(keptAt).toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit' })}) until they are sent.`
+            : ''}
         </p>
       </div>
     </form>

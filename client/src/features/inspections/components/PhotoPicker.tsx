@@ -54,7 +54,11 @@ export function PhotoPicker({
         <ul className="grid grid-cols-2 gap-3 sm:grid-cols-4">
           {photos.map((p, i) => (
             <li key={p.id} className="flex flex-col gap-1">
-              <img src={urls.find((u) => u.id === p.id)?.url} alt={`Photo ${i + 1}: ${p.name}`} className="aspect-[4/3] w-full rounded-md border border-rule object-cover" />
+              <img
+                src={urls.find((u) => u.id === p.id)?.url}
+                alt={`Photo ${i + 1}: ${p.name}`}
+                className="aspect-[4/3] w-full rounded-md border border-rule object-cover"
+              />
               <button
                 type="button"
                 className="min-h-11 rounded-md border border-rule-strong bg-sheet px-2 font-semibold text-accent"
@@ -69,7 +73,15 @@ export function PhotoPicker({
       ) : null}
       {photos.length < max ? (
         <label className="inline-flex min-h-12 cursor-pointer items-center justify-center rounded-md border-2 border-accent bg-sheet px-4 font-semibold text-accent focus-within:outline focus-within:outline-3 focus-within:outline-accent">
-          <input ref={input} type="file" accept="image/png,image/jpeg" capture="environment" multiple className="sr-only" onChange={(e) => void add(e.target.files)} />
+          <input
+            ref={input}
+            type="file"
+            accept="image/png,image/jpeg"
+            capture="environment"
+            multiple
+            className="sr-only"
+            onChange={(e) => void add(e.target.files)}
+          />
           {photos.length ? 'Add another photo' : 'Add a photo'}
         </label>
       ) : null}

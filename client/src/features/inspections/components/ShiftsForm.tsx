@@ -27,7 +27,13 @@ export function ShiftsForm({ siteId, current }: { siteId: number; current: Shift
       await save.mutateAsync(values);
       setSaved('Shifts saved. Inspections are due from each start time.');
     } catch (error) {
-      setSummary(applyServerErrors(error, setError, fields.flatMap((_f, i) => [`shifts.${i}.name`, `shifts.${i}.start`] as const)));
+      setSummary(
+        applyServerErrors(
+          error,
+          setError,
+          fields.flatMap((_f, i) => [`shifts.${i}.name`, `shifts.${i}.start`] as const),
+        ),
+      );
     }
   });
 
@@ -36,7 +42,8 @@ export function ShiftsForm({ siteId, current }: { siteId: number; current: Shift
       <FormSummary message={summary ?? (errors?.root?.message || errors?.message || null)} />
       <Notice>{saved}</Notice>
       <p className="text-ink-soft">
-        Times on the site’s clock ({current.timeZone}). Each shift runs until the next one starts; an open excavation is due for inspection at each start and overdue 30 minutes later.
+        Times on the site’s clock ({current.timeZone}). Each shift runs until the next one starts; an open excavation is due for inspection
+        at each start and overdue 30 minutes later.
       </p>
       {fields.map((f, i) => (
         <div key={f.id} className="grid items-end gap-3 sm:grid-cols-[1fr_10rem_auto]">

@@ -22,7 +22,11 @@ export function HistoryPage() {
       intro={inspectionState ? <InspectionStateBadge state={inspectionState} /> : `This excavation is ${excavation.state}.`}
       actions={
         <>
-          {mayInspect && excavation.state === 'open' ? <ButtonLink variant="primary" to={`/sites/${site.id}/excavations/${excavation.id}/inspect`}>Inspect now</ButtonLink> : null}
+          {mayInspect && excavation.state === 'open' ? (
+            <ButtonLink variant="primary" to={`/sites/${site.id}/excavations/${excavation.id}/inspect`}>
+              Inspect now
+            </ButtonLink>
+          ) : null}
           <a className={buttonClass('secondary')} href={`/api/excavations/${excavation.id}/inspections.csv`} download>
             Download as CSV
           </a>
@@ -30,7 +34,11 @@ export function HistoryPage() {
       }
     >
       <Notice>{recorded ? <RecordedNotice recorded={recorded} /> : null}</Notice>
-      <Panel title={inspections.length ? `${inspections.length} inspection${inspections.length === 1 ? '' : 's'}, newest first` : 'No inspections yet'}>
+      <Panel
+        title={
+          inspections.length ? `${inspections.length} inspection${inspections.length === 1 ? '' : 's'}, newest first` : 'No inspections yet'
+        }
+      >
         {inspections.map((i) => (
           <InspectionCard key={i.id} inspection={i} timeZone={timeZone} />
         ))}

@@ -41,12 +41,18 @@ export function InspectionsPage() {
                   </span>
                   <span className="flex flex-wrap items-center gap-2 text-sm text-ink-soft">
                     <InspectionStateBadge state={e.state} />
-                    {e.lastInspection ? `Last: ${formatSiteTime(new Date(e.lastInspection.at), tz)} by ${e.lastInspection.inspector}` : 'Never inspected'}
+                    {e.lastInspection
+                      ? `Last: ${formatSiteTime(new Date(e.lastInspection.at), tz)} by ${e.lastInspection.inspector}`
+                      : 'Never inspected'}
                   </span>
                 </div>
                 <div className="flex flex-wrap gap-2">
                   {mayInspect ? (
-                    <ButtonLink variant="primary" to={`/sites/${site.id}/excavations/${e.excavationId}/inspect`} aria-label={`Inspect ${e.reference}`}>
+                    <ButtonLink
+                      variant="primary"
+                      to={`/sites/${site.id}/excavations/${e.excavationId}/inspect`}
+                      aria-label={`Inspect ${e.reference}`}
+                    >
                       Inspect
                     </ButtonLink>
                   ) : null}

@@ -9,7 +9,9 @@ export function usePageSite() {
   const me = useMe().data ?? null;
   const site = useMySites().data?.find((s) => s.id === siteId) ?? null;
   const role = me && site ? roleOnSite(me, site.id) : null;
-  const mayInspect = Boolean(me && site && (role === 'supervisor' || role === 'coordinator' || (role === 'operator' && canInspectOnSite(me, site.id))));
+  const mayInspect = Boolean(
+    me && site && (role === 'supervisor' || role === 'coordinator' || (role === 'operator' && canInspectOnSite(me, site.id))),
+  );
   const maySetShifts = Boolean(me && (me.isAdmin || role === 'coordinator'));
   return { siteId, excavationId, me, site, role, mayInspect, maySetShifts };
 }

@@ -1,6 +1,15 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
-import type { changedExcavationAnswer, Excavation, ExcavationInput, HistoryEntry, oneExcavationAnswer, PlanBounds, planAnswer, SitePlan } from '@shared/schemas/excavations';
+import type {
+  changedExcavationAnswer,
+  Excavation,
+  ExcavationInput,
+  HistoryEntry,
+  oneExcavationAnswer,
+  PlanBounds,
+  planAnswer,
+  SitePlan,
+} from '@shared/schemas/excavations';
 import { api } from '@client/lib/api';
 import { excavationKeys, postForm } from '@client/lib/excavations';
 
@@ -74,7 +83,8 @@ export function useSitePlanChanges(siteId: number) {
     onSuccess: done,
   });
   const change = useMutation({
-    mutationFn: (body: { bounds?: PlanBounds; opacity?: number }) => api.patch<z.output<typeof planAnswer>>(`/api/sites/${siteId}/plan`, body).then((r) => r.plan),
+    mutationFn: (body: { bounds?: PlanBounds; opacity?: number }) =>
+      api.patch<z.output<typeof planAnswer>>(`/api/sites/${siteId}/plan`, body).then((r) => r.plan),
     onSuccess: done,
   });
   const remove = useMutation({

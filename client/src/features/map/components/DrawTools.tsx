@@ -21,7 +21,9 @@ function latLngsOf(g: ExcavationGeometry): L.LatLngExpression[] {
 export function geometryOfLayer(layer: { toGeoJSON(): unknown }): ExcavationGeometry {
   const g = (layer.toGeoJSON() as GeoJSON.Feature<LineString | Polygon>).geometry;
   const round = (p: number[]): [number, number] => [Math.round(p[0] * 1e7) / 1e7, Math.round(p[1] * 1e7) / 1e7];
-  return g.type === 'LineString' ? { type: 'LineString', coordinates: g.coordinates.map(round) } : { type: 'Polygon', coordinates: g.coordinates.map((r) => r.map(round)) };
+  return g.type === 'LineString'
+    ? { type: 'LineString', coordinates: g.coordinates.map(round) }
+    : { type: 'Polygon', coordinates: g.coordinates.map((r) => r.map(round)) };
 }
 
 interface DrawToolsProps {
@@ -67,7 +69,12 @@ export function DrawTools({ drawing, onDrawn, editing, onEdited, onReady }: Draw
       onDrawnRef.current(geometry);
     };
     map.on('pm:create', onCreate);
-    map.pm.enableDraw(shapeOf[drawing], { templineStyle: editLine, hintlineStyle: { ...editLine, dashArray: '4 4' }, pathOptions: editLine, tooltips: true } as L.PM.DrawModeOptions);
+    map.pm.enableDraw(shapeOf[drawing], {
+      templineStyle: editLine,
+      hintlineStyle: { ...editLine, dashArray: '4 4' },
+      pathOptions: editLine,
+      tooltips: true,
+    } as L.PM.DrawModeOptions);
     return () => {
       map.off('pm:create', onCreate);
       map.pm.disableDraw();
@@ -80,7 +87,8 @@ export function DrawTools({ drawing, onDrawn, editing, onEdited, onReady }: Draw
   useEffect(() => {
     const g = startGeometry.current;
     if (!editKey || !g) return;
-    const layer: L.Polyline = g.type === 'LineString' ? L.polyline(latLngsOf(g), editLine) : (L.polygon(latLngsOf(g), editLine) as unknown as L.Polyline);
+    const layer: L.Polyline =
+      g.type === 'LineString' ? L.polyline(latLngsOf(g), editLine) : (L.polygon(latLngsOf(g), editLine) as unknown as L.Polyline);
     layer.addTo(map);
     layer.pm.enable({ allowSelfIntersection: false, snappable: false } as L.PM.EditModeOptions);
     const changed = () => onEditedRef.current(geometryOfLayer(layer));

@@ -63,7 +63,13 @@ export interface ExcavationFormProps {
   editingShape: boolean;
   onEditShape: () => void;
   /** What the map should preview while the form changes. */
-  onPreview: (v: { kind: ExcavationFormValues['kind']; geometry: ExcavationGeometry | null; width: number | null; depth: number | null; state: ExcavationFormValues['state'] }) => void;
+  onPreview: (v: {
+    kind: ExcavationFormValues['kind'];
+    geometry: ExcavationGeometry | null;
+    width: number | null;
+    depth: number | null;
+    state: ExcavationFormValues['state'];
+  }) => void;
   onSave: (values: ExcavationInput, drawing: File | null) => Promise<void>;
   onDelete: () => Promise<void>;
   onRemoveDrawing: () => Promise<void>;
@@ -76,12 +82,34 @@ export interface ExcavationFormProps {
  * same fields, and what was typed stays.
  */
 export function ExcavationForm(props: ExcavationFormProps) {
-  const { excavation, initial, soilFrom, canEdit, canEditDesign, geometry, editingShape, onEditShape, onPreview, onSave, onDelete, onRemoveDrawing, onClose } = props;
+  const {
+    excavation,
+    initial,
+    soilFrom,
+    canEdit,
+    canEditDesign,
+    geometry,
+    editingShape,
+    onEditShape,
+    onPreview,
+    onSave,
+    onDelete,
+    onRemoveDrawing,
+    onClose,
+  } = props;
   const [summary, setSummary] = useState<string | null>(null);
   const [drawing, setDrawing] = useState<File | null>(null);
   const fileId = useId();
-  const { register, handleSubmit, setError, setValue, watch, control, formState } = useForm<ExcavationFormValues, unknown, ExcavationValues>({
-    resolver: zodResolver(excavationFormSchema as unknown as z.ZodType<ExcavationValues, ExcavationFormValues>) as Resolver<ExcavationFormValues, unknown, ExcavationValues>,
+  const { register, handleSubmit, setError, setValue, watch, control, formState } = useForm<
+    ExcavationFormValues,
+    unknown,
+    ExcavationValues
+  >({
+    resolver: zodResolver(excavationFormSchema as unknown as z.ZodType<ExcavationValues, ExcavationFormValues>) as Resolver<
+      ExcavationFormValues,
+      unknown,
+      ExcavationValues
+    >,
     defaultValues: initial,
   });
   const { errors } = formState;
@@ -96,7 +124,13 @@ export function ExcavationForm(props: ExcavationFormProps) {
   const depth = watch('depth');
   const state = watch('state');
   useEffect(() => {
-    onPreview({ kind, geometry, width: typeof width === 'number' && Number.isFinite(width) ? width : null, depth: typeof depth === 'number' && Number.isFinite(depth) ? depth : null, state });
+    onPreview({
+      kind,
+      geometry,
+      width: typeof width === 'number' && Number.isFinite(width) ? width : null,
+      depth: typeof depth === 'number' && Number.isFinite(depth) ? depth : null,
+      state,
+    });
   }, [kind, geometry, width, depth, state, onPreview]);
 
   const submit = handleSubmit(
@@ -116,9 +150,16 @@ export function ExcavationForm(props: ExcavationFormProps) {
   const ro = !canEdit;
   const designRo = !canEdit || !canEditDesign;
   return (
-    <form onSubmit={submit} noValidate className="flex flex-col gap-4" aria-label={excavation ? `Excavation ${excavation.reference}` : 'New excavation'}>
+    <form
+      onSubmit={submit}
+      noValidate
+      className="flex flex-col gap-4"
+      aria-label={excavation ? `Excavation ${excavation.reference}` : 'New excavation'}
+    >
       <div className="flex items-start justify-between gap-3">
-        <h2 className="text-xl font-bold">{excavation ? `${excavation.reference}: ${excavation.name}` : `New ${kindLabels[kind].toLowerCase()}`}</h2>
+        <h2 className="text-xl font-bold">
+          {excavation ? `${excavation.reference}: ${excavation.name}` : `New ${kindLabels[kind].toLowerCase()}`}
+        </h2>
         <Button variant="quiet" onClick={onClose}>
           Close
         </Button>
@@ -126,7 +167,8 @@ export function ExcavationForm(props: ExcavationFormProps) {
       <FormSummary message={summary} />
       {soilFrom && !excavation ? (
         <p className="rounded-md border border-rule-strong bg-paper px-3 py-2 text-sm">
-          Soil layers and groundwater are copied from <strong>{soilFrom}</strong>. Check them against the ground investigation for this place.
+          Soil layers and groundwater are copied from <strong>{soilFrom}</strong>. Check them against the ground investigation for this
+          place.
         </p>
       ) : null}
 
@@ -135,7 +177,12 @@ export function ExcavationForm(props: ExcavationFormProps) {
           <TextField label="Reference" error={errors.reference?.message} {...register('reference')} />
           <SelectField label="State" options={stateOptions} error={errors.state?.message} {...register('state')} />
         </div>
-        <TextField label="Name" hint="What it is for, e.g. “Rising main, pump house to inlet chamber”" error={errors.name?.message} {...register('name')} />
+        <TextField
+          label="Name"
+          hint="What it is for, e.g. “Rising main, pump house to inlet chamber”"
+          error={errors.name?.message}
+          {...register('name')}
+        />
         <div className="flex flex-col gap-2">
           <p className="font-semibold">
             Shape: {kindLabels[kind]} {kind === 'trench' ? '(centre line and width)' : '(outline)'}
@@ -151,24 +198,67 @@ export function ExcavationForm(props: ExcavationFormProps) {
         </div>
         <div className="grid grid-cols-2 gap-3">
           {kind === 'trench' ? (
-            <TextField label="Width (m)" type="number" step="0.05" min={TRENCH_WIDTH.min} max={TRENCH_WIDTH.max} inputMode="decimal" error={errors.width?.message} {...register('width', num)} />
+            <TextField
+              label="Width (m)"
+              type="number"
+              step="0.05"
+              min={TRENCH_WIDTH.min}
+              max={TRENCH_WIDTH.max}
+              inputMode="decimal"
+              error={errors.width?.message}
+              {...register('width', num)}
+            />
           ) : null}
-          <TextField label="Depth H (m)" type="number" step="0.05" min={0} inputMode="decimal" hint="Ground to formation level" error={errors.depth?.message} {...register('depth', num)} />
+          <TextField
+            label="Depth H (m)"
+            type="number"
+            step="0.05"
+            min={0}
+            inputMode="decimal"
+            hint="Ground to formation level"
+            error={errors.depth?.message}
+            {...register('depth', num)}
+          />
         </div>
       </fieldset>
 
       {canEdit && !canEditDesign ? (
         <p className="rounded-md border border-rule-strong bg-paper px-3 py-2 text-sm">
-          The support, the ground and the design reference are the coordinator&rsquo;s design data: shown here read-only. You record what is on the ground: the shape, the depth as dug, the state, the name and notes.
+          The support, the ground and the design reference are the coordinator&rsquo;s design data: shown here read-only. You record what is
+          on the ground: the shape, the depth as dug, the state, the name and notes.
         </p>
       ) : null}
 
       <fieldset className="flex flex-col gap-3" disabled={designRo}>
         <legend className="mb-1 text-lg font-semibold">Support</legend>
-        <SelectField label="Support" options={supportOptions} emptyLabel="Choose the support" error={errors.supportType?.message} {...register('supportType')} />
+        <SelectField
+          label="Support"
+          options={supportOptions}
+          emptyLabel="Choose the support"
+          error={errors.supportType?.message}
+          {...register('supportType')}
+        />
         <div className="grid grid-cols-2 gap-3">
-          <TextField label="Design surcharge allowance (kPa)" type="number" step="0.5" min={0} inputMode="decimal" hint="What the support was designed for; 10 kPa is the usual site allowance" error={errors.designSurcharge?.message} {...register('designSurcharge', num)} />
-          <TextField label="Rated pressure (kPa)" type="number" step="any" min={0} inputMode="decimal" hint="Proprietary box or frame only; else empty" error={errors.ratedPressure?.message} {...register('ratedPressure', num)} />
+          <TextField
+            label="Design surcharge allowance (kPa)"
+            type="number"
+            step="0.5"
+            min={0}
+            inputMode="decimal"
+            hint="What the support was designed for; 10 kPa is the usual site allowance"
+            error={errors.designSurcharge?.message}
+            {...register('designSurcharge', num)}
+          />
+          <TextField
+            label="Rated pressure (kPa)"
+            type="number"
+            step="any"
+            min={0}
+            inputMode="decimal"
+            hint="Proprietary box or frame only; else empty"
+            error={errors.ratedPressure?.message}
+            {...register('ratedPressure', num)}
+          />
         </div>
         <SelectField
           label="Restraint"
@@ -191,7 +281,15 @@ export function ExcavationForm(props: ExcavationFormProps) {
               error={errors.pressureState?.message}
               {...register('pressureState')}
             />
-            <TextField label="Wall friction δ (°)" type="number" step="any" min={0} inputMode="decimal" error={errors.wallFriction?.message} {...register('wallFriction', num)} />
+            <TextField
+              label="Wall friction δ (°)"
+              type="number"
+              step="any"
+              min={0}
+              inputMode="decimal"
+              error={errors.wallFriction?.message}
+              {...register('wallFriction', num)}
+            />
           </div>
         </details>
       </fieldset>
@@ -199,12 +297,27 @@ export function ExcavationForm(props: ExcavationFormProps) {
       <fieldset className="flex flex-col gap-3" disabled={designRo}>
         <legend className="mb-1 text-lg font-semibold">Ground</legend>
         <SoilTable control={control} register={register} watch={watch} errors={errors} readOnly={designRo} />
-        <TextField label="Groundwater depth (m)" type="number" step="0.05" min={0} inputMode="decimal" hint="Below ground level; empty when none was found" error={errors.groundwaterDepth?.message} {...register('groundwaterDepth', num)} />
+        <TextField
+          label="Groundwater depth (m)"
+          type="number"
+          step="0.05"
+          min={0}
+          inputMode="decimal"
+          hint="Below ground level; empty when none was found"
+          error={errors.groundwaterDepth?.message}
+          {...register('groundwaterDepth', num)}
+        />
       </fieldset>
 
       <fieldset className="flex flex-col gap-3" disabled={ro}>
         <legend className="mb-1 text-lg font-semibold">Design</legend>
-        <TextField label="Design reference" hint="Drawing or calculation number and revision" readOnly={designRo} error={errors.designReference?.message} {...register('designReference')} />
+        <TextField
+          label="Design reference"
+          hint="Drawing or calculation number and revision"
+          readOnly={designRo}
+          error={errors.designReference?.message}
+          {...register('designReference')}
+        />
         <div className="flex flex-col gap-1">
           <label htmlFor={fileId} className="font-semibold">
             Design drawing (PDF, up to 20 MB)
@@ -222,14 +335,21 @@ export function ExcavationForm(props: ExcavationFormProps) {
               ) : null}
             </p>
           ) : null}
-          {canEdit ? <input id={fileId} type="file" accept="application/pdf,.pdf" onChange={(e) => setDrawing(e.target.files?.[0] ?? null)} /> : null}
+          {canEdit ? (
+            <input id={fileId} type="file" accept="application/pdf,.pdf" onChange={(e) => setDrawing(e.target.files?.[0] ?? null)} />
+          ) : null}
           {drawing ? <p className="text-sm text-ink-soft">{drawing.name} is sent when you save.</p> : null}
         </div>
         <div className="flex flex-col gap-1">
           <label htmlFor={`${fileId}-notes`} className="font-semibold">
             Notes
           </label>
-          <textarea id={`${fileId}-notes`} rows={3} className="rounded-md border border-rule-strong bg-sheet px-3 py-2" {...register('notes')} />
+          <textarea
+            id={`${fileId}-notes`}
+            rows={3}
+            className="rounded-md border border-rule-strong bg-sheet px-3 py-2"
+            {...register('notes')}
+          />
         </div>
       </fieldset>
 

@@ -95,10 +95,21 @@ export function PlanControls({ siteId, origin, plan, canEdit, opacity, onOpacity
         <details className="rounded-md border border-rule px-3 py-2">
           <summary className="cursor-pointer font-semibold">{plan ? 'Move or replace the plan' : 'Pin a plan image'}</summary>
           <div className="mt-3 flex flex-col gap-3">
-            <p className="text-sm text-ink-soft">Give the plan’s south-west and north-east corners as latitude and longitude, read from the drawing’s survey grid.</p>
+            <p className="text-sm text-ink-soft">
+              Give the plan’s south-west and north-east corners as latitude and longitude, read from the drawing’s survey grid.
+            </p>
             <div className="grid grid-cols-2 gap-3">
               {cornerFields.map(([k, label]) => (
-                <TextField key={k} label={label} type="number" step="any" inputMode="decimal" value={bounds[k]} error={errors[k] ?? (k === 'south' ? errors.bounds : undefined)} onChange={(e) => setBounds({ ...bounds, [k]: e.target.value })} />
+                <TextField
+                  key={k}
+                  label={label}
+                  type="number"
+                  step="any"
+                  inputMode="decimal"
+                  value={bounds[k]}
+                  error={errors[k] ?? (k === 'south' ? errors.bounds : undefined)}
+                  onChange={(e) => setBounds({ ...bounds, [k]: e.target.value })}
+                />
               ))}
             </div>
             <div className="flex flex-col gap-1">

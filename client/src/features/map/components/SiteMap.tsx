@@ -37,7 +37,17 @@ function FocusOn({ focus }: { focus: SiteMapProps['focus'] }) {
   return null;
 }
 
-function ExcavationShape({ e, selected, onSelect, inspection }: { e: Excavation; selected: boolean; onSelect: (id: number) => void; inspection?: InspectionState }) {
+function ExcavationShape({
+  e,
+  selected,
+  onSelect,
+  inspection,
+}: {
+  e: Excavation;
+  selected: boolean;
+  onSelect: (id: number) => void;
+  inspection?: InspectionState;
+}) {
   if (!e.outline) return null;
   const style = {
     ...stateStyles[e.state],
@@ -78,13 +88,22 @@ export function SiteMap(props: SiteMapProps) {
       {shown
         .filter((e) => e.state === 'open' && e.influenceZone)
         .map((e) => (
-          <GeoJSON key={`zone-${e.id}-${e.version}`} data={e.influenceZone!} style={() => ({ ...influenceStyle, className: `brink-influence-zone brink-zone-of-${e.id}` })} interactive={false} />
+          <GeoJSON
+            key={`zone-${e.id}-${e.version}`}
+            data={e.influenceZone!}
+            style={() => ({ ...influenceStyle, className: `brink-influence-zone brink-zone-of-${e.id}` })}
+            interactive={false}
+          />
         ))}
-      {draft?.zone ? <GeoJSON key={`draft-zone-${JSON.stringify(draft.zone)}`} data={draft.zone} style={() => influenceStyle} interactive={false} /> : null}
+      {draft?.zone ? (
+        <GeoJSON key={`draft-zone-${JSON.stringify(draft.zone)}`} data={draft.zone} style={() => influenceStyle} interactive={false} />
+      ) : null}
       {shown.map((e) => (
         <ExcavationShape key={e.id} e={e} selected={e.id === selectedId} onSelect={onSelect} inspection={inspection?.[e.id]} />
       ))}
-      {draft?.outline ? <GeoJSON key={`draft-${JSON.stringify(draft.outline)}`} data={draft.outline} style={() => draftStyle} interactive={false} /> : null}
+      {draft?.outline ? (
+        <GeoJSON key={`draft-${JSON.stringify(draft.outline)}`} data={draft.outline} style={() => draftStyle} interactive={false} />
+      ) : null}
       <FocusOn focus={focus} />
       {children}
     </BaseMap>

@@ -30,7 +30,8 @@ const longNames: Record<string, string> = {
   undrainedShearStrength: 'undrained shear strength cu',
 };
 
-const cell = 'w-20 rounded border border-rule-strong bg-sheet px-2 py-1.5 text-right aria-[invalid=true]:border-error-text disabled:bg-paper disabled:text-ink-soft';
+const cell =
+  'w-20 rounded border border-rule-strong bg-sheet px-2 py-1.5 text-right aria-[invalid=true]:border-error-text disabled:bg-paper disabled:text-ink-soft';
 
 /**
  * The soil layers, each from its top down to the next layer's top (the last runs to any depth).
@@ -40,23 +41,35 @@ const cell = 'w-20 rounded border border-rule-strong bg-sheet px-2 py-1.5 text-r
 export function SoilTable({ control, register, watch, errors, readOnly }: SoilTableProps) {
   const { fields, append, remove } = useFieldArray({ control, name: 'soil' });
   const rows = watch('soil');
-  const messages = listErrorMessages(errors.soil as Parameters<typeof listErrorMessages>[0], fields.length, 'Soil layers', (i, k) => `Layer ${i + 1} ${longNames[k] ?? k}`);
+  const messages = listErrorMessages(
+    errors.soil as Parameters<typeof listErrorMessages>[0],
+    fields.length,
+    'Soil layers',
+    (i, k) => `Layer ${i + 1} ${longNames[k] ?? k}`,
+  );
 
   return (
     <fieldset className="flex flex-col gap-2">
       <legend className="mb-1 font-semibold">Soil layers</legend>
-      <p className="text-sm text-ink-soft">From ground level down. γsat applies below the water table (empty: same as γ). Give φ′ and c′ for a drained layer, or cu for an undrained clay.</p>
+      <p className="text-sm text-ink-soft">
+        From ground level down. γsat applies below the water table (empty: same as γ). Give φ′ and c′ for a drained layer, or cu for an
+        undrained clay.
+      </p>
       <div className="overflow-x-auto">
         <table className="text-sm">
           <thead>
             <tr>
-              <th scope="col" className="px-1 text-left">Layer</th>
+              <th scope="col" className="px-1 text-left">
+                Layer
+              </th>
               {columns.map((c) => (
                 <th key={c.key} scope="col" className="px-1 text-right font-semibold">
                   {c.label} <span className="font-normal text-ink-soft">({c.unit})</span>
                 </th>
               ))}
-              <th scope="col" className="px-1 text-left">Strength</th>
+              <th scope="col" className="px-1 text-left">
+                Strength
+              </th>
               <th scope="col">
                 <span className="sr-only">Remove</span>
               </th>
@@ -89,15 +102,18 @@ export function SoilTable({ control, register, watch, errors, readOnly }: SoilTa
                     );
                   })}
                   <td className="px-1 py-1">
-                    <select aria-label={`Layer ${i + 1} strength`} className="rounded border border-rule-strong bg-sheet px-1 py-1.5" disabled={readOnly} {...register(`soil.${i}.model`)}>
+                    <select
+                      aria-label={`Layer ${i + 1} strength`}
+                      className="rounded border border-rule-strong bg-sheet px-1 py-1.5"
+                      disabled={readOnly}
+                      {...register(`soil.${i}.model`)}
+                    >
                       <option value="drained">Drained (φ′, c′)</option>
                       <option value="undrained">Undrained (cu)</option>
                     </select>
                   </td>
                   <td className="px-1 py-1">
-                    {!readOnly && fields.length > 1 ? (
-                      <RemoveRowButton label={`Remove layer ${i + 1}`} onClick={() => remove(i)} />
-                    ) : null}
+                    {!readOnly && fields.length > 1 ? <RemoveRowButton label={`Remove layer ${i + 1}`} onClick={() => remove(i)} /> : null}
                   </td>
                 </tr>
               );

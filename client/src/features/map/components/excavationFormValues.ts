@@ -43,7 +43,7 @@ export interface ExcavationFormValues {
 /** An empty box is null; anything else a number (NaN for text that is not one, which the schema names). */
 export const numberOrNull = (v: unknown): number | null => (v === '' || v === null || v === undefined ? null : Number(v));
 
-const present = <T,>(v: T | null): T | undefined => (v === null ? undefined : v);
+const present = <T>(v: T | null): T | undefined => (v === null ? undefined : v);
 
 /** The form's values as the API's input: layers keep only the strength fields of their model. */
 export function toInput(v: ExcavationFormValues): Record<string, unknown> {
@@ -134,12 +134,19 @@ export function nextReference(kind: ExcavationKind, taken: string[]): string {
  * A new excavation drawn on the map. Its soil is copied from the site's most recently changed
  * excavation when there is one (named in `soilFrom`, so the form can ask for it to be checked).
  */
-export function newValues(kind: ExcavationKind, geometry: ExcavationGeometry, existing: Excavation[]): { values: ExcavationFormValues; soilFrom: string | null } {
+export function newValues(
+  kind: ExcavationKind,
+  geometry: ExcavationGeometry,
+  existing: Excavation[],
+): { values: ExcavationFormValues; soilFrom: string | null } {
   const latest = [...existing].sort((a, b) => b.updatedAt.localeCompare(a.updatedAt))[0];
   return {
     soilFrom: latest?.reference ?? null,
     values: {
-      reference: nextReference(kind, existing.map((e) => e.reference)),
+      reference: nextReference(
+        kind,
+        existing.map((e) => e.reference),
+      ),
       name: '',
       kind,
       geometry,

@@ -27,7 +27,13 @@ describe('excavation form values', () => {
     reference: 'TR-09',
     name: 'Drain',
     kind: 'trench',
-    geometry: { type: 'LineString', coordinates: [[-1.04833, 52.37124], [-1.04803, 52.37124]] },
+    geometry: {
+      type: 'LineString',
+      coordinates: [
+        [-1.04833, 52.37124],
+        [-1.04803, 52.37124],
+      ],
+    },
     width: 1.2,
     depth: 2.4,
     state: 'open',

@@ -3,7 +3,15 @@ import { Link, useParams, useSearchParams } from 'react-router-dom';
 import type L from 'leaflet';
 import type { GeoJsonObject } from 'geojson';
 import { excavationOutline, GeometryError, influenceZone, localProjection, type ExcavationShape } from '@shared/geometry';
-import { designFields, stateLabels, supportLabels, type Excavation, type ExcavationGeometry, type ExcavationKind, type ExcavationState } from '@shared/schemas/excavations';
+import {
+  designFields,
+  stateLabels,
+  supportLabels,
+  type Excavation,
+  type ExcavationGeometry,
+  type ExcavationKind,
+  type ExcavationState,
+} from '@shared/schemas/excavations';
 import { Button, ButtonLink } from '@client/components/Button';
 import { useDocumentTitle } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
@@ -25,10 +33,19 @@ import { SiteMap } from '../components/SiteMap';
 // The drawing tools (leaflet-geoman) load when someone first draws or edits a shape, not with the map.
 const DrawTools = lazy(async () => ({ default: (await import('../components/DrawTools')).DrawTools }));
 
-type Preview = { kind: ExcavationKind; geometry: ExcavationGeometry | null; width: number | null; depth: number | null; state: ExcavationState };
+type Preview = {
+  kind: ExcavationKind;
+  geometry: ExcavationGeometry | null;
+  width: number | null;
+  depth: number | null;
+  state: ExcavationState;
+};
 
 /** The outline and (for an open excavation with a depth) the influence zone of a shape not yet saved. */
-function previewShapes(p: Preview | null, origin: { latitude: number; longitude: number }): { outline: GeoJsonObject | null; zone: GeoJsonObject | null } | null {
+function previewShapes(
+  p: Preview | null,
+  origin: { latitude: number; longitude: number },
+): { outline: GeoJsonObject | null; zone: GeoJsonObject | null } | null {
   if (!p?.geometry) return null;
   const proj = localProjection([origin.longitude, origin.latitude]);
   const shape: ExcavationShape | null =
@@ -69,7 +86,9 @@ interface Editing {
  * the server is given a tile address.
  */
 const drawingHint = (shape: DrawShape) =>
-  shape === 'trench' ? 'Click the map at each point of the trench’s centre line, then press Finish.' : 'Click the map at each corner of the pit, then press Finish.';
+  shape === 'trench'
+    ? 'Click the map at each point of the trench’s centre line, then press Finish.'
+    : 'Click the map at each corner of the pit, then press Finish.';
 
 export function SiteMapPage() {
   const siteId = parseId(useParams().siteId)!;
@@ -100,16 +119,23 @@ export function SiteMapPage() {
   const showOnMap = (e: Excavation) => setFocus({ key: `${e.id}-${Date.now()}`, bounds: boundsOf(e) });
   const list = useMemo(() => excavations.data ?? [], [excavations.data]);
   const inspections = useInspectionStates(siteId);
-  const inspectionById = useMemo(() => Object.fromEntries((inspections.data?.excavations ?? []).map((x) => [x.excavationId, x.state])), [inspections.data]);
-
-  const open = useCallback(
-    (e: Excavation) => {
-      setDrawing(null);
-      setNotice(null);
-      setEditing({ excavation: e, initial: valuesOf(e), soilFrom: null, geometry: e.geometry, shapeKey: null, formKey: `${e.id}-${e.version}` });
-    },
-    [],
+  const inspectionById = useMemo(
+    () => Object.fromEntries((inspections.data?.excavations ?? []).map((x) => [x.excavationId, x.state])),
+    [inspections.data],
   );
+
+  const open = useCallback((e: Excavation) => {
+    setDrawing(null);
+    setNotice(null);
+    setEditing({
+      excavation: e,
+      initial: valuesOf(e),
+      soilFrom: null,
+      geometry: e.geometry,
+      shapeKey: null,
+      formKey: `${e.id}-${e.version}`,
+    });
+  }, []);
 
   // /sites/1/map?excavation=5 opens that excavation (links from the register).
   const wanted = parseId(search.get('excavation') ?? undefined);
@@ -160,7 +186,8 @@ export function SiteMapPage() {
         <div>
           <h1 className="text-3xl font-bold leading-tight">Site map</h1>
           <p className="text-ink-soft">
-            {site.name}: {list.length} excavation{list.length === 1 ? '' : 's'}, {openCount} open. <Link to={`/sites/${siteId}/register`}>Open the register</Link>
+            {site.name}: {list.length} excavation{list.length === 1 ? '' : 's'}, {openCount} open.{' '}
+            <Link to={`/sites/${siteId}/register`}>Open the register</Link>
           </p>
         </div>
         {canEditDesign ? (
@@ -170,12 +197,19 @@ export function SiteMapPage() {
                 <Button
                   disabled={!toolsReady}
                   onClick={() => {
-                    if (mapRef.current && !finishDrawing(mapRef.current)) setNotice(drawing === 'trench' ? 'A trench needs at least two points.' : 'A pit needs at least three corners.');
+                    if (mapRef.current && !finishDrawing(mapRef.current))
+                      setNotice(drawing === 'trench' ? 'A trench needs at least two points.' : 'A pit needs at least three corners.');
                   }}
                 >
                   Finish
                 </Button>
-                <Button variant="secondary" onClick={() => { setDrawing(null); setNotice(null); }}>
+                <Button
+                  variant="secondary"
+                  onClick={() => {
+                    setDrawing(null);
+                    setNotice(null);
+                  }}
+                >
                   Cancel drawing
                 </Button>
               </>
@@ -230,11 +264,18 @@ export function SiteMapPage() {
           </SiteMap>
         </div>
 
-        <aside className="flex flex-col gap-5 overflow-y-auto rounded-md border border-rule bg-sheet p-4 lg:h-full" aria-label="Excavation details">
+        <aside
+          className="flex flex-col gap-5 overflow-y-auto rounded-md border border-rule bg-sheet p-4 lg:h-full"
+          aria-label="Excavation details"
+        >
           {editing ? (
             <>
               {askPermit && editing.excavation?.state === 'open' ? (
-                <ButtonLink to={`/sites/${siteId}/permits/new?excavation=${editing.excavation.id}`} variant="primary" className="self-start">
+                <ButtonLink
+                  to={`/sites/${siteId}/permits/new?excavation=${editing.excavation.id}`}
+                  variant="primary"
+                  className="self-start"
+                >
                   Ask for a permit beside {editing.excavation.reference}
                 </ButtonLink>
               ) : null}
@@ -251,8 +292,16 @@ export function SiteMapPage() {
                 onPreview={setPreview}
                 onSave={async (values, file) => {
                   // A supervisor's change leaves the design data out: the server refuses it from them (403).
-                  const sent = canEditDesign ? values : (Object.fromEntries(Object.entries(values).filter(([k]) => !(designFields as readonly string[]).includes(k))) as typeof values);
-                  const saved = await save.mutateAsync({ id: editing.excavation?.id ?? null, version: editing.excavation?.version ?? 0, values: sent });
+                  const sent = canEditDesign
+                    ? values
+                    : (Object.fromEntries(
+                        Object.entries(values).filter(([k]) => !(designFields as readonly string[]).includes(k)),
+                      ) as typeof values);
+                  const saved = await save.mutateAsync({
+                    id: editing.excavation?.id ?? null,
+                    version: editing.excavation?.version ?? 0,
+                    values: sent,
+                  });
                   let final = saved;
                   let extra = '';
                   if (file) {
@@ -277,13 +326,30 @@ export function SiteMapPage() {
                 }}
                 onClose={close}
               />
-              {editing.excavation ? <ExcavationHistory siteId={siteId} id={editing.excavation.id} version={editing.excavation.version} /> : null}
+              {editing.excavation ? (
+                <ExcavationHistory siteId={siteId} id={editing.excavation.id} version={editing.excavation.version} />
+              ) : null}
             </>
           ) : (
             <>
               <Legend />
-              <ExcavationList list={list} inspection={inspectionById} onOpen={(e) => { open(e); showOnMap(e); }} askPermit={askPermit ? siteId : null} />
-              <PlanControls siteId={siteId} origin={site} plan={plan.data ?? null} canEdit={canEdit} opacity={planOpacity} onOpacity={setOpacity} />
+              <ExcavationList
+                list={list}
+                inspection={inspectionById}
+                onOpen={(e) => {
+                  open(e);
+                  showOnMap(e);
+                }}
+                askPermit={askPermit ? siteId : null}
+              />
+              <PlanControls
+                siteId={siteId}
+                origin={site}
+                plan={plan.data ?? null}
+                canEdit={canEdit}
+                opacity={planOpacity}
+                onOpacity={setOpacity}
+              />
             </>
           )}
         </aside>
@@ -321,18 +387,40 @@ function Legend() {
         {legendItems.map(({ label, style }) => (
           <li key={label} className="flex items-center gap-2">
             <svg width="36" height="18" aria-hidden="true">
-              <rect x="2" y="2" width="32" height="14" fill={style.fillColor} fillOpacity={style.fillOpacity} stroke={style.color} strokeWidth={style.weight} strokeDasharray={style.dashArray as string | undefined} />
+              <rect
+                x="2"
+                y="2"
+                width="32"
+                height="14"
+                fill={style.fillColor}
+                fillOpacity={style.fillOpacity}
+                stroke={style.color}
+                strokeWidth={style.weight}
+                strokeDasharray={style.dashArray as string | undefined}
+              />
             </svg>
             {label}
           </li>
         ))}
       </ul>
-      <p className="mt-2 text-sm text-ink-soft">Hover over or tap an excavation for its depth, support and allowance; click it to open its details.</p>
+      <p className="mt-2 text-sm text-ink-soft">
+        Hover over or tap an excavation for its depth, support and allowance; click it to open its details.
+      </p>
     </SideSection>
   );
 }
 
-function ExcavationList({ list, onOpen, inspection, askPermit }: { list: Excavation[]; onOpen: (e: Excavation) => void; inspection: Record<number, InspectionState>; askPermit: number | null }) {
+function ExcavationList({
+  list,
+  onOpen,
+  inspection,
+  askPermit,
+}: {
+  list: Excavation[];
+  onOpen: (e: Excavation) => void;
+  inspection: Record<number, InspectionState>;
+  askPermit: number | null;
+}) {
   if (list.length === 0) return <p className="text-ink-soft">No excavations on this site yet.</p>;
   return (
     <SideSection id="map-list" title="Excavations">
@@ -351,7 +439,11 @@ function ExcavationList({ list, onOpen, inspection, askPermit }: { list: Excavat
               </span>
             </button>
             {askPermit !== null && e.state === 'open' ? (
-              <Link className="ml-2 text-sm" to={`/sites/${askPermit}/permits/new?excavation=${e.id}`} aria-label={`Ask for a permit beside ${e.reference}`}>
+              <Link
+                className="ml-2 text-sm"
+                to={`/sites/${askPermit}/permits/new?excavation=${e.id}`}
+                aria-label={`Ask for a permit beside ${e.reference}`}
+              >
                 Ask for a permit
               </Link>
             ) : null}

@@ -38,7 +38,8 @@ export function usePermit(id: number) {
 export function useRevision(id: number, revision: number | null) {
   return useQuery({
     queryKey: permitKeys.revision(id, revision ?? 0),
-    queryFn: ({ signal }) => api.get<{ revision: PermitRevision }>(`/api/permits/${id}/revisions/${revision}`, signal).then((r) => r.revision),
+    queryFn: ({ signal }) =>
+      api.get<{ revision: PermitRevision }>(`/api/permits/${id}/revisions/${revision}`, signal).then((r) => r.revision),
     enabled: revision !== null,
   });
 }
@@ -58,7 +59,8 @@ export { usePlant } from '@client/lib/plant';
 export function useOperators(siteId: number, enabled = true) {
   return useQuery({
     queryKey: ['sites', siteId, 'operators'],
-    queryFn: ({ signal }) => api.get<{ operators: { id: number; name: string; email: string }[]; lastUsed: number[] }>(`/api/sites/${siteId}/operators`, signal),
+    queryFn: ({ signal }) =>
+      api.get<{ operators: { id: number; name: string; email: string }[]; lastUsed: number[] }>(`/api/sites/${siteId}/operators`, signal),
     enabled,
   });
 }
@@ -97,7 +99,8 @@ export function useUpdatePermit(id: number) {
 export function useTransition(id: number) {
   const { onSuccess, onError } = usePermitAnswer();
   return useMutation({
-    mutationFn: (body: TransitionInput & { action: PermitAction }) => api.post<{ permit: PermitDetail }>(`/api/permits/${id}/transitions`, body).then((r) => r.permit),
+    mutationFn: (body: TransitionInput & { action: PermitAction }) =>
+      api.post<{ permit: PermitDetail }>(`/api/permits/${id}/transitions`, body).then((r) => r.permit),
     onSuccess,
     onError: (e) => onError(e, id),
   });

@@ -22,7 +22,15 @@ function check() {
       number: 'P-T',
       windowStart: '2030-01-01T08:00:00Z',
       windowEnd: '2030-01-01T12:00:00Z',
-      loads: [{ id: 'wall', kind: 'line', label: 'Hoarding footing', path: { type: 'LineString', coordinates: [ll(-10, 6), ll(15, 6)] }, force: 15.2 }],
+      loads: [
+        {
+          id: 'wall',
+          kind: 'line',
+          label: 'Hoarding footing',
+          path: { type: 'LineString', coordinates: [ll(-10, 6), ll(15, 6)] },
+          force: 15.2,
+        },
+      ],
     },
     excavations: [
       {
@@ -30,7 +38,15 @@ function check() {
         reference: 'PIT-A',
         name: 'Pit A',
         shape: { kind: 'pit', outline: { type: 'Polygon', coordinates: [[ll(0, 0), ll(5, 0), ll(5, 5), ll(0, 5), ll(0, 0)]] } },
-        excavation: { depth: 3, groundwaterDepth: null, designSurcharge: 10, ratedPressure: null, pressureState: 'active', wallFriction: 0, restraint: 'unyielding' },
+        excavation: {
+          depth: 3,
+          groundwaterDepth: null,
+          designSurcharge: 10,
+          ratedPressure: null,
+          pressureState: 'active',
+          wallFriction: 0,
+          restraint: 'unyielding',
+        },
         soil: [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 5 }],
       },
     ],

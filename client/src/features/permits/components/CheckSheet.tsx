@@ -11,7 +11,15 @@ const PENDING = 'worked out when you let go';
 const kN = (x: number) => `${x.toFixed(1)} kN/m`;
 
 /** The calculation sheet of one excavation: inputs, method, diagram, forces, utilisation, standoffs, other permits, warnings. */
-export function ExcavationSheet({ ex, full = true, standoffsPending = false }: { ex: ExcavationCheck; full?: boolean; standoffsPending?: boolean }) {
+export function ExcavationSheet({
+  ex,
+  full = true,
+  standoffsPending = false,
+}: {
+  ex: ExcavationCheck;
+  full?: boolean;
+  standoffsPending?: boolean;
+}) {
   const so = (x: number | null) => (standoffsPending ? PENDING : m(x));
   const r = ex.result;
   const req = ex.request as CheckRequest;
@@ -22,13 +30,19 @@ export function ExcavationSheet({ ex, full = true, standoffsPending = false }: {
     <section className="flex flex-col gap-3 rounded-md border border-rule p-4" aria-label={`Check beside ${ex.reference}`}>
       <h3 className="text-lg font-semibold">
         {ex.reference} {ex.name}
-        {ex.named === false ? <span className="ml-2 text-base font-normal">(not named on the permit; a load stands within its influence zone)</span> : null}
+        {ex.named === false ? (
+          <span className="ml-2 text-base font-normal">(not named on the permit; a load stands within its influence zone)</span>
+        ) : null}
       </h3>
       <VerdictBadge verdict={ex.verdict} utilisation={r.utilisation} />
       {attention.length ? (
         <div role="note" className="rounded-md border-2 border-[#b45309] p-3" data-testid={`attention-${ex.excavationId}`}>
           <h4 className="font-semibold">Read before signing</h4>
-          <ul className="list-disc pl-5 text-sm">{attention.map((w) => <li key={w}>{w}</li>)}</ul>
+          <ul className="list-disc pl-5 text-sm">
+            {attention.map((w) => (
+              <li key={w}>{w}</li>
+            ))}
+          </ul>
         </div>
       ) : null}
       <p>
@@ -37,7 +51,12 @@ export function ExcavationSheet({ ex, full = true, standoffsPending = false }: {
       <table className="text-sm">
         <caption className="text-left font-semibold">Each load</caption>
         <thead>
-          <tr className="text-left"><th>Load</th><th>Clear distance now</th><th>Standoff</th><th>Fails at</th></tr>
+          <tr className="text-left">
+            <th>Load</th>
+            <th>Clear distance now</th>
+            <th>Standoff</th>
+            <th>Fails at</th>
+          </tr>
         </thead>
         <tbody>
           {ex.loadStandoffs.map((l) => {
@@ -74,12 +93,20 @@ export function ExcavationSheet({ ex, full = true, standoffsPending = false }: {
         <>
           <h4 className="font-semibold">Inputs</h4>
           <ul className="text-sm">
-            <li>Depth {e.depth.toFixed(2)} m; design surcharge {e.designSurcharge.toFixed(1)} kPa; rated pressure {e.ratedPressure === null ? 'none' : `${e.ratedPressure.toFixed(1)} kPa`}</li>
-            <li>Earth pressure {e.pressureState}, wall friction {e.wallFriction}°, support {e.restraint}; groundwater {e.groundwaterDepth === null ? 'none' : `${e.groundwaterDepth.toFixed(2)} m`}</li>
+            <li>
+              Depth {e.depth.toFixed(2)} m; design surcharge {e.designSurcharge.toFixed(1)} kPa; rated pressure{' '}
+              {e.ratedPressure === null ? 'none' : `${e.ratedPressure.toFixed(1)} kPa`}
+            </li>
+            <li>
+              Earth pressure {e.pressureState}, wall friction {e.wallFriction}°, support {e.restraint}; groundwater{' '}
+              {e.groundwaterDepth === null ? 'none' : `${e.groundwaterDepth.toFixed(2)} m`}
+            </li>
             {req.soil.map((l, i) => (
               <li key={i}>
                 Soil from {l.top.toFixed(2)} m: {l.unitWeight} kN/m³
-                {l.frictionAngle !== undefined ? `, φ′ ${l.frictionAngle}°, c′ ${l.cohesion ?? 0} kPa` : `, cu ${l.undrainedShearStrength} kPa`}
+                {l.frictionAngle !== undefined
+                  ? `, φ′ ${l.frictionAngle}°, c′ ${l.cohesion ?? 0} kPa`
+                  : `, cu ${l.undrainedShearStrength} kPa`}
               </li>
             ))}
             <li>Coefficients: {r.coefficients.map((c) => `K = ${c.K.toFixed(3)} from ${c.top.toFixed(2)} m`).join('; ')}</li>
@@ -94,21 +121,40 @@ export function ExcavationSheet({ ex, full = true, standoffsPending = false }: {
           {r.profile ? <PressureDiagram profile={r.profile} depth={ex.depth} title={`Pressure beside ${ex.reference}`} /> : null}
           <h4 className="font-semibold">Forces and moments (per metre run of support)</h4>
           <ul className="text-sm">
-            <li>Soil {kN(r.forces.soil)}, water {kN(r.forces.water)}</li>
-            <li>Surcharge {kN(r.forces.surcharge)} against the allowance {kN(r.forces.allowance)}</li>
-            <li>Moment about formation: surcharge {r.moments.surcharge.toFixed(1)} kN·m/m against the allowance {r.moments.allowance.toFixed(1)} kN·m/m</li>
-            <li>Utilisation {r.utilisation === null ? 'no allowance' : r.utilisation.toFixed(2)} ({r.governing ?? '—'} governs); largest pressure {r.maxTotalPressure.toFixed(1)} kPa</li>
+            <li>
+              Soil {kN(r.forces.soil)}, water {kN(r.forces.water)}
+            </li>
+            <li>
+              Surcharge {kN(r.forces.surcharge)} against the allowance {kN(r.forces.allowance)}
+            </li>
+            <li>
+              Moment about formation: surcharge {r.moments.surcharge.toFixed(1)} kN·m/m against the allowance{' '}
+              {r.moments.allowance.toFixed(1)} kN·m/m
+            </li>
+            <li>
+              Utilisation {r.utilisation === null ? 'no allowance' : r.utilisation.toFixed(2)} ({r.governing ?? '—'} governs); largest
+              pressure {r.maxTotalPressure.toFixed(1)} kPa
+            </li>
           </ul>
           <table className="text-sm">
             <caption className="text-left font-semibold">Loads in the check</caption>
             <thead>
-              <tr className="text-left"><th>Permit</th><th>Load</th><th>Kind</th><th>Offset</th><th>Force</th></tr>
+              <tr className="text-left">
+                <th>Permit</th>
+                <th>Load</th>
+                <th>Kind</th>
+                <th>Offset</th>
+                <th>Force</th>
+              </tr>
             </thead>
             <tbody>
               {ex.loads.map((l) => (
                 <tr key={l.engineId}>
                   <td>{l.own ? 'this' : l.permitNumber}</td>
-                  <td>{l.label}{l.element ? ` – ${l.element}` : ''}</td>
+                  <td>
+                    {l.label}
+                    {l.element ? ` – ${l.element}` : ''}
+                  </td>
                   <td>{l.kind}</td>
                   <td>{l.offset.toFixed(2)} m</td>
                   <td>{kN(l.force)}</td>
@@ -121,7 +167,11 @@ export function ExcavationSheet({ ex, full = true, standoffsPending = false }: {
       {others.length ? (
         <div>
           <h4 className="font-semibold">Warnings</h4>
-          <ul className="list-disc pl-5 text-sm">{others.map((w) => <li key={w}>{w}</li>)}</ul>
+          <ul className="list-disc pl-5 text-sm">
+            {others.map((w) => (
+              <li key={w}>{w}</li>
+            ))}
+          </ul>
         </div>
       ) : null}
     </section>
@@ -129,7 +179,15 @@ export function ExcavationSheet({ ex, full = true, standoffsPending = false }: {
 }
 
 /** The whole check of a permit: the overall verdict, the colour rule, each excavation's sheet and the caution. */
-export function CheckSheets({ check, full = true, standoffsPending = false }: { check: PermitCheck; full?: boolean; standoffsPending?: boolean }) {
+export function CheckSheets({
+  check,
+  full = true,
+  standoffsPending = false,
+}: {
+  check: PermitCheck;
+  full?: boolean;
+  standoffsPending?: boolean;
+}) {
   return (
     <div className="flex flex-col gap-4" data-testid="check">
       <p className="flex flex-wrap items-center gap-3">
@@ -139,7 +197,9 @@ export function CheckSheets({ check, full = true, standoffsPending = false }: { 
         </span>
       </p>
       <VerdictRule />
-      {check.outsideInfluence.length ? <p className="text-sm">Outside every influence zone (no effect on the support): {check.outsideInfluence.join(', ')}.</p> : null}
+      {check.outsideInfluence.length ? (
+        <p className="text-sm">Outside every influence zone (no effect on the support): {check.outsideInfluence.join(', ')}.</p>
+      ) : null}
       {check.excavations.map((ex) => (
         <ExcavationSheet key={ex.excavationId} ex={ex} full={full} standoffsPending={standoffsPending} />
       ))}

@@ -13,7 +13,9 @@ import { bearingOf, centreOf, handleAt } from './placement';
 
 type LatLngRings = [number, number][][];
 const toLeaflet = (g: GeoPolygon | MultiPolygon): LatLngRings[] =>
-  (g.type === 'Polygon' ? [g.coordinates] : g.coordinates).map((poly) => poly.map((ring) => ring.map(([lng, lat]) => [lat, lng] as [number, number])));
+  (g.type === 'Polygon' ? [g.coordinates] : g.coordinates).map((poly) =>
+    poly.map((ring) => ring.map(([lng, lat]) => [lat, lng] as [number, number])),
+  );
 
 interface PlacementMapProps {
   proj: LocalProjection;
@@ -63,7 +65,20 @@ function FitOnce({ bounds }: { bounds: L.LatLngBounds | null }) {
 /** Orange: where a load fails beyond an offset where it passes (not red, which is the exclusion zone). */
 const BAND_COLOUR = '#b45309';
 
-export function PlacementMap({ proj, excavations, loads, plant, check, verdict, standoff, editable, onMoveStart, onMove, onRotate, onDragging }: PlacementMapProps) {
+export function PlacementMap({
+  proj,
+  excavations,
+  loads,
+  plant,
+  check,
+  verdict,
+  standoff,
+  editable,
+  onMoveStart,
+  onMove,
+  onRotate,
+  onDragging,
+}: PlacementMapProps) {
   const [zoom, setZoom] = useState<number | null>(null);
   const prepared = useMemo(
     () =>
@@ -76,7 +91,10 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
       }),
     [excavations, proj],
   );
-  const zones = useMemo(() => (standoff && standoff > 0 ? prepared.map((p) => toLeaflet(exclusionZone(p.outline, standoff, proj))) : []), [prepared, standoff, proj]);
+  const zones = useMemo(
+    () => (standoff && standoff > 0 ? prepared.map((p) => toLeaflet(exclusionZone(p.outline, standoff, proj))) : []),
+    [prepared, standoff, proj],
+  );
   // The failing bands of each load that fails farther out than where it passes: the ground between
   // the band's near and far offsets from the excavation outline (docs/calculation.md, "Standoff").
   const bands = useMemo(() => {
@@ -92,7 +110,11 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
           // A band found only beside a break point is drawn 1 cm wide so it can be seen.
           const outer = toLeaflet(exclusionZone(p.outline, Math.max(b.to, b.from + 0.01), proj))[0];
           const inner = b.from > 0 ? toLeaflet(exclusionZone(p.outline, b.from, proj))[0][0] : null;
-          out.push({ key: `${ex.excavationId}-${l.loadId}-${i}`, positions: inner ? [...outer, inner] : outer, label: `${l.label} fails ${bandsWords([b])} from ${ex.reference}` });
+          out.push({
+            key: `${ex.excavationId}-${l.loadId}-${i}`,
+            positions: inner ? [...outer, inner] : outer,
+            label: `${l.label} fails ${bandsWords([b])} from ${ex.reference}`,
+          });
         });
       }
     }
@@ -107,26 +129,51 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
 
   return (
     <div className="overflow-hidden rounded-md border border-rule-strong">
-      <BaseMap origin={{ latitude: origin[0], longitude: origin[1] }} zoom={19} className="h-[28rem] w-full" ariaLabel="Map of the excavations and the loads of this permit">
+      <BaseMap
+        origin={{ latitude: origin[0], longitude: origin[1] }}
+        zoom={19}
+        className="h-[28rem] w-full"
+        ariaLabel="Map of the excavations and the loads of this permit"
+      >
         <FitOnce bounds={bounds} />
         <ZoomWatch onZoom={setZoom} />
         {excavations.map((e) =>
           e.influenceZone ? (
-            <Polygon key={`iz${e.id}`} positions={toLeaflet(e.influenceZone)} pathOptions={{ color: '#4c5a64', weight: 1, dashArray: '4 4', fill: false }} interactive={false} />
+            <Polygon
+              key={`iz${e.id}`}
+              positions={toLeaflet(e.influenceZone)}
+              pathOptions={{ color: '#4c5a64', weight: 1, dashArray: '4 4', fill: false }}
+              interactive={false}
+            />
           ) : null,
         )}
         {zones.map((z, i) => (
-          <Polygon key={`ez${i}`} positions={z} pathOptions={{ color: verdictColours.fails, weight: 2, fillColor: verdictColours.fails, fillOpacity: 0.12 }} interactive={false} />
+          <Polygon
+            key={`ez${i}`}
+            positions={z}
+            pathOptions={{ color: verdictColours.fails, weight: 2, fillColor: verdictColours.fails, fillOpacity: 0.12 }}
+            interactive={false}
+          />
         ))}
         {bands.map((b) => (
-          <Polygon key={`fb${b.key}`} positions={b.positions} pathOptions={{ color: BAND_COLOUR, weight: 1, dashArray: '2 3', fillColor: BAND_COLOUR, fillOpacity: 0.35 }}>
+          <Polygon
+            key={`fb${b.key}`}
+            positions={b.positions}
+            pathOptions={{ color: BAND_COLOUR, weight: 1, dashArray: '2 3', fillColor: BAND_COLOUR, fillOpacity: 0.35 }}
+          >
             <Tooltip>{b.label}</Tooltip>
           </Polygon>
         ))}
         {excavations.map((e) =>
           e.outline ? (
-            <Polygon key={`ex${e.id}`} positions={toLeaflet(e.outline)} pathOptions={{ color: '#1e2a33', weight: 2, fillColor: '#a8a29e', fillOpacity: 0.7 }}>
-              <Tooltip permanent direction="center">{e.reference}</Tooltip>
+            <Polygon
+              key={`ex${e.id}`}
+              positions={toLeaflet(e.outline)}
+              pathOptions={{ color: '#1e2a33', weight: 2, fillColor: '#a8a29e', fillOpacity: 0.7 }}
+            >
+              <Tooltip permanent direction="center">
+                {e.reference}
+              </Tooltip>
             </Polygon>
           ) : null,
         )}
@@ -144,10 +191,28 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
             <Fragment key={load.id}>
               {feet.map((f, i) =>
                 f.kind === 'line' ? (
-                  <Polyline key={i} positions={f.local.map((p) => { const q = proj.toWgs84(p); return [q[1], q[0]] as [number, number]; })} pathOptions={{ color: colour, weight: 5 }} />
+                  <Polyline
+                    key={i}
+                    positions={f.local.map((p) => {
+                      const q = proj.toWgs84(p);
+                      return [q[1], q[0]] as [number, number];
+                    })}
+                    pathOptions={{ color: colour, weight: 5 }}
+                  />
                 ) : (
-                  <Polygon key={i} positions={f.local.map((p) => { const q = proj.toWgs84(p); return [q[1], q[0]] as [number, number]; })} pathOptions={{ color: '#1e2a33', weight: 1, fillColor: colour, fillOpacity: 0.8 }}>
-                    <Tooltip>{f.label}{f.element ? ` – ${f.element}` : ''}: {f.intensity.toFixed(1)} {f.kind === 'area' || f.kind === 'strip' ? 'kPa' : 'kN/m'}</Tooltip>
+                  <Polygon
+                    key={i}
+                    positions={f.local.map((p) => {
+                      const q = proj.toWgs84(p);
+                      return [q[1], q[0]] as [number, number];
+                    })}
+                    pathOptions={{ color: '#1e2a33', weight: 1, fillColor: colour, fillOpacity: 0.8 }}
+                  >
+                    <Tooltip>
+                      {f.label}
+                      {f.element ? ` – ${f.element}` : ''}: {f.intensity.toFixed(1)}{' '}
+                      {f.kind === 'area' || f.kind === 'strip' ? 'kPa' : 'kN/m'}
+                    </Tooltip>
                   </Polygon>
                 ),
               )}
@@ -210,7 +275,10 @@ export function PlacementMap({ proj, excavations, loads, plant, check, verdict, 
       <p className="px-3 py-2 text-sm text-ink-soft">
         North is up. Grey: excavations; dashed: influence zones (within the depth of the edge); red band: exclusion zone
         {standoff ? ` (${standoff.toFixed(2)} m from the edge)` : ''}.
-        {bands.length ? ' Orange bands: offsets where a load fails although it passes nearer the edge — moving a load farther away is not always safer.' : ''} Loads are coloured by the verdict (slate until checked).{editable ? ' Drag “Move” to place a load, “Turn” to turn a machine.' : ''}
+        {bands.length
+          ? ' Orange bands: offsets where a load fails although it passes nearer the edge — moving a load farther away is not always safer.'
+          : ''}{' '}
+        Loads are coloured by the verdict (slate until checked).{editable ? ' Drag “Move” to place a load, “Turn” to turn a machine.' : ''}
       </p>
     </div>
   );
@@ -239,7 +307,17 @@ export function metresPerPixel(latitude: number, zoom: number): number {
 }
 
 /** "Zoom in" when the smallest machine on the plan is only a few pixels across at this zoom. */
-function ZoomHint({ loads, plant, proj, zoom }: { loads: PlacedLoad[]; plant: Map<number, PlantForCheck>; proj: LocalProjection; zoom: number }) {
+function ZoomHint({
+  loads,
+  plant,
+  proj,
+  zoom,
+}: {
+  loads: PlacedLoad[];
+  plant: Map<number, PlantForCheck>;
+  proj: LocalProjection;
+  zoom: number;
+}) {
   let smallest = Infinity;
   let name = '';
   for (const l of loads) {
@@ -258,7 +336,8 @@ function ZoomHint({ loads, plant, proj, zoom }: { loads: PlacedLoad[]; plant: Ma
   if (px >= SMALL_ON_SCREEN_PX) return null;
   return (
     <p role="status" className="border-b border-rule bg-paper px-3 py-2 text-sm font-semibold" data-testid="zoom-hint">
-      {name} is only {Math.max(1, Math.round(px))} pixels wide at this zoom: zoom in (the + button, or the mouse wheel) to place it precisely.
+      {name} is only {Math.max(1, Math.round(px))} pixels wide at this zoom: zoom in (the + button, or the mouse wheel) to place it
+      precisely.
     </p>
   );
 }

@@ -40,7 +40,11 @@ export function placeAtStandoff(
   const out: XY = [along[1], -along[0]];
   const slide = ((already % 5) - 2) * Math.min(8, length / 5);
   const mid: XY = [(a[0] + b[0]) / 2 + along[0] * slide, (a[1] + b[1]) / 2 + along[1] * slide];
-  const at = (d: number): PlacedLoad => ({ ...load, rotation: bearingOf(a, b), position: proj.toWgs84([mid[0] + out[0] * d, mid[1] + out[1] * d]) as LngLat });
+  const at = (d: number): PlacedLoad => ({
+    ...load,
+    rotation: bearingOf(a, b),
+    position: proj.toWgs84([mid[0] + out[0] * d, mid[1] + out[1] * d]) as LngLat,
+  });
 
   const depth = excavation.depth;
   let d = Math.max(3 * depth, 3);
@@ -55,6 +59,8 @@ export function placeAtStandoff(
     placed = at(d);
     if (Math.abs(own.standoff + PLACING_MARGIN - own.offset) < 0.005) return { load: placed, standoff: own.standoff };
   }
-  const own = check(placed)?.excavations.find((e) => e.excavationId === excavation.id)?.loadStandoffs.find((l) => l.loadId === load.id);
+  const own = check(placed)
+    ?.excavations.find((e) => e.excavationId === excavation.id)
+    ?.loadStandoffs.find((l) => l.loadId === load.id);
   return { load: placed, standoff: own?.standoff ?? null };
 }

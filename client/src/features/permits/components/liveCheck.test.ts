@@ -7,13 +7,29 @@ import { liveOutcome } from './liveCheck';
 // A pit 3 m deep, 5 m square, and a gravel heap 1 m from its east face, in site-local metres.
 const proj = localProjection([-1.04833, 52.37124]);
 const square = (x0: number, y0: number, w: number): [number, number][] =>
-  ([[x0, y0], [x0 + w, y0], [x0 + w, y0 + w], [x0, y0 + w], [x0, y0]] as [number, number][]).map((p) => proj.toWgs84(p) as [number, number]);
+  (
+    [
+      [x0, y0],
+      [x0 + w, y0],
+      [x0 + w, y0 + w],
+      [x0, y0 + w],
+      [x0, y0],
+    ] as [number, number][]
+  ).map((p) => proj.toWgs84(p) as [number, number]);
 const pit = {
   id: 1,
   reference: 'PIT-A',
   name: 'Pit',
   shape: { kind: 'pit' as const, outline: { type: 'Polygon' as const, coordinates: [square(0, 0, 5)] } },
-  excavation: { depth: 3, groundwaterDepth: null, designSurcharge: 10, ratedPressure: null, pressureState: 'active' as const, wallFriction: 0, restraint: 'unyielding' as const },
+  excavation: {
+    depth: 3,
+    groundwaterDepth: null,
+    designSurcharge: 10,
+    ratedPressure: null,
+    pressureState: 'active' as const,
+    wallFriction: 0,
+    restraint: 'unyielding' as const,
+  },
   soil: [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 0 }],
 };
 const withHeap = (heap: { unitWeight: number; height: number }): CheckInput => ({
@@ -55,7 +71,11 @@ describe('the live check beside the placing map', () => {
   });
 
   it('names an excavation figure the calculation refuses by the excavation and the soil layer', () => {
-    const atRest = { ...pit, excavation: { ...pit.excavation, pressureState: 'at-rest' as const }, soil: [{ top: 0, unitWeight: 18, undrainedShearStrength: 40 }] };
+    const atRest = {
+      ...pit,
+      excavation: { ...pit.excavation, pressureState: 'at-rest' as const },
+      soil: [{ top: 0, unitWeight: 18, undrainedShearStrength: 40 }],
+    };
     const out = liveOutcome(() => cumulativeCheck({ ...withHeap({ unitWeight: 19, height: 1.5 }), excavations: [atRest] }));
     expect(out.invalid).toMatch(/^Cannot check: PIT-A Layer 1 /);
   });

@@ -18,7 +18,8 @@ export function liveOutcome(run: () => PermitCheck): LiveOutcome {
   try {
     return { check: run(), refused: null, invalid: null };
   } catch (e) {
-    if (e instanceof CheckInputError) return { check: null, refused: null, invalid: `Cannot check: ${checkFieldWords(e.field)} ${e.reason}.` };
+    if (e instanceof CheckInputError)
+      return { check: null, refused: null, invalid: `Cannot check: ${checkFieldWords(e.field)} ${e.reason}.` };
     if (e instanceof PlacementError) return { check: null, refused: e.message, invalid: null };
     return { check: null, refused: 'A load could not be placed: check its figures.', invalid: null };
   }

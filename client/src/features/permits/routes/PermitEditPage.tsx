@@ -22,7 +22,18 @@ import { api, ApiError, errorMessage } from '@client/lib/api';
 import { serverSummary } from '@client/lib/fieldLabels';
 import { fieldSentence } from '@client/lib/forms';
 import { parseId } from '@client/lib/session';
-import { checkOnServer, checkRequestOnServer, permitKeys, useCreatePermit, useExcavations, useOperators, usePermit, usePlant, useSite, useUpdatePermit } from '../api/permits';
+import {
+  checkOnServer,
+  checkRequestOnServer,
+  permitKeys,
+  useCreatePermit,
+  useExcavations,
+  useOperators,
+  usePermit,
+  usePlant,
+  useSite,
+  useUpdatePermit,
+} from '../api/permits';
 import { placeAtStandoff, PLACING_MARGIN } from '../components/autoPlace';
 import { liveOutcome, type LiveOutcome } from '../components/liveCheck';
 import { CheckSheets } from '../components/CheckSheet';
@@ -91,9 +102,7 @@ export function PermitEditPage() {
 }
 
 /** What the editor works on: a saved draft or returned permit, or a request not yet saved (the page that asks for a permit). */
-export type EditorSubject =
-  | { permit: PermitDetail }
-  | { permit: null; siteId: number; excavationId: number | null };
+export type EditorSubject = { permit: PermitDetail } | { permit: null; siteId: number; excavationId: number | null };
 
 /** How many moves "Undo" can take back. */
 const UNDO_DEPTH = 20;
@@ -116,7 +125,9 @@ export function Editor(subject: EditorSubject) {
   const update = useUpdatePermit(permit?.id ?? 0);
   const qc = useQueryClient();
   const [kind, setKind] = useState<'load' | 'dig'>(permit?.kind ?? 'load');
-  const [draft, setDraft] = useState<Draft>(() => (permit ? draftOf(permit) : newDraft(subject.permit === null ? subject.excavationId : null)));
+  const [draft, setDraft] = useState<Draft>(() =>
+    permit ? draftOf(permit) : newDraft(subject.permit === null ? subject.excavationId : null),
+  );
   const [version, setVersion] = useState(permit?.version ?? 0);
   const [fields, setFields] = useState<Record<string, string>>({});
   const [summary, setSummary] = useState<string | null>(null);
@@ -131,7 +142,8 @@ export function Editor(subject: EditorSubject) {
   // Ctrl+Z (⌘Z) takes back the last move, except while typing in a box (the box's own undo).
   useEffect(() => {
     const onKey = (e: KeyboardEvent) => {
-      const typing = e.target instanceof HTMLInputElement || e.target instanceof HTMLTextAreaElement || e.target instanceof HTMLSelectElement;
+      const typing =
+        e.target instanceof HTMLInputElement || e.target instanceof HTMLTextAreaElement || e.target instanceof HTMLSelectElement;
       if ((e.ctrlKey || e.metaKey) && !e.shiftKey && e.key.toLowerCase() === 'z' && !typing) {
         e.preventDefault();
         undoRef.current();
@@ -143,8 +155,14 @@ export function Editor(subject: EditorSubject) {
 
   const proj = useMemo(() => (site.data ? localProjection([site.data.longitude, site.data.latitude]) : null), [site.data]);
   const plant = useMemo(() => new Map<number, PlantForCheck>((plantQ.data ?? []).map((p) => [p.id, p])), [plantQ.data]);
-  const named = useMemo(() => (excavations.data ?? []).filter((e) => draft.excavationIds.includes(e.id)), [excavations.data, draft.excavationIds]);
-  const nearby = useMemo(() => (excavations.data ?? []).filter((e) => e.state === 'open' && !draft.excavationIds.includes(e.id)), [excavations.data, draft.excavationIds]);
+  const named = useMemo(
+    () => (excavations.data ?? []).filter((e) => draft.excavationIds.includes(e.id)),
+    [excavations.data, draft.excavationIds],
+  );
+  const nearby = useMemo(
+    () => (excavations.data ?? []).filter((e) => e.state === 'open' && !draft.excavationIds.includes(e.id)),
+    [excavations.data, draft.excavationIds],
+  );
   const method = draft.method ?? site.data?.defaultMethod ?? 'dispersion-45';
 
   // A new request names the operators of the supervisor's last request on the site, ticked.
@@ -218,7 +236,8 @@ export function Editor(subject: EditorSubject) {
   }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit?.id, permit?.number, server, method, dragging]);
 
   function liveCheck(verdictOnly: boolean): LiveOutcome {
-    if (!site.data || !proj || draft.loads.length === 0 || named.length === 0 || !plantQ.data) return { check: null, refused: null, invalid: null };
+    if (!site.data || !proj || draft.loads.length === 0 || named.length === 0 || !plantQ.data)
+      return { check: null, refused: null, invalid: null };
     return liveOutcome(() => runLive(draft.loads, verdictOnly));
   }
 
@@ -233,7 +252,8 @@ export function Editor(subject: EditorSubject) {
     remember();
     set({ loads });
   };
-  const setLoad = (loadId: string, f: (l: PlacedLoad) => PlacedLoad) => setDraft((d) => ({ ...d, loads: d.loads.map((l) => (l.id === loadId ? f(l) : l)) }));
+  const setLoad = (loadId: string, f: (l: PlacedLoad) => PlacedLoad) =>
+    setDraft((d) => ({ ...d, loads: d.loads.map((l) => (l.id === loadId ? f(l) : l)) }));
   const undo = () => {
     const last = history[history.length - 1];
     if (!last) return;
@@ -247,13 +267,22 @@ export function Editor(subject: EditorSubject) {
     while (draft.loads.some((l) => l.id === `${prefix}${i}`)) i++;
     return `${prefix}${i}`;
   };
-  const startAt: XY = named[0]?.outline ? centreOf({ id: 'x', kind: 'area', label: '', pressure: 1, outline: named[0].outline as never }, proj) : [0, 0];
+  const startAt: XY = named[0]?.outline
+    ? centreOf({ id: 'x', kind: 'area', label: '', pressure: 1, outline: named[0].outline as never }, proj)
+    : [0, 0];
 
   /** Puts a machine from the library beside the first named excavation, at its computed standoff. */
   function addPlant(plantId: string) {
     const item = plant.get(Number(plantId));
     if (!item) return;
-    const load: Extract<PlacedLoad, { kind: 'plant' }> = { id: nextId('plant'), kind: 'plant', label: item.name, plantItemId: item.id, position: proj!.toWgs84([startAt[0], startAt[1] + 10]) as [number, number], rotation: 90 };
+    const load: Extract<PlacedLoad, { kind: 'plant' }> = {
+      id: nextId('plant'),
+      kind: 'plant',
+      label: item.name,
+      plantItemId: item.id,
+      position: proj!.toWgs84([startAt[0], startAt[1] + 10]) as [number, number],
+      rotation: 90,
+    };
     const beside = named.find((e) => e.state !== 'backfilled');
     if (!beside) {
       setLoads([...draft.loads, load]);
@@ -285,14 +314,22 @@ export function Editor(subject: EditorSubject) {
         : newKind === 'area'
           ? { id, kind: 'area', label: 'Area load', outline, pressure: 20 }
           : newKind === 'strip'
-            ? { id, kind: 'strip', label: 'Strip load', outline: { type: 'Polygon', coordinates: [rectangle(at, 20, 2, 90, proj!)] }, pressure: 20 }
+            ? {
+                id,
+                kind: 'strip',
+                label: 'Strip load',
+                outline: { type: 'Polygon', coordinates: [rectangle(at, 20, 2, 90, proj!)] },
+                pressure: 20,
+              }
             : { id, kind: 'line', label: 'Line load', path: { type: 'LineString', coordinates: segment(at, 10, 90, proj!) }, force: 10 };
     setLoads([...draft.loads, load]);
   }
 
   /** The fields this page shows next to their boxes; the summary names only the others. */
   const shownHere = (path: string) =>
-    ['description', 'windowStart', 'windowEnd', 'excavationIds'].includes(path) || /^loads\[\d+\]/.test(path) || (kind === 'dig' && path.startsWith('dig'));
+    ['description', 'windowStart', 'windowEnd', 'excavationIds'].includes(path) ||
+    /^loads\[\d+\]/.test(path) ||
+    (kind === 'dig' && path.startsWith('dig'));
   function refused(e: unknown) {
     if (e instanceof ApiError) {
       setFields(e.fields);
@@ -362,19 +399,56 @@ export function Editor(subject: EditorSubject) {
       <FormSummary message={summary} />
       <Panel title="Request" level={2}>
         {!permit ? (
-          <SelectField label="Kind of permit" value={kind} onChange={(e) => setKind(e.target.value as 'load' | 'dig')} options={[{ value: 'load', label: 'Place plant or material beside an excavation' }, { value: 'dig', label: 'Dig: open or extend an excavation' }]} />
+          <SelectField
+            label="Kind of permit"
+            value={kind}
+            onChange={(e) => setKind(e.target.value as 'load' | 'dig')}
+            options={[
+              { value: 'load', label: 'Place plant or material beside an excavation' },
+              { value: 'dig', label: 'Dig: open or extend an excavation' },
+            ]}
+          />
         ) : null}
-        <TextField label="What the work is" value={draft.description} onChange={(e) => set({ description: e.target.value })} error={fields.description} maxLength={1000} />
+        <TextField
+          label="What the work is"
+          value={draft.description}
+          onChange={(e) => set({ description: e.target.value })}
+          error={fields.description}
+          maxLength={1000}
+        />
         <div className="grid gap-3 sm:grid-cols-2">
-          <TextField label="Window opens" type="datetime-local" value={toLocalInput(draft.windowStart)} onChange={(e) => e.target.value && set({ windowStart: fromLocalInput(e.target.value) })} error={fields.windowStart} />
-          <TextField label="Window closes" type="datetime-local" value={toLocalInput(draft.windowEnd)} onChange={(e) => e.target.value && set({ windowEnd: fromLocalInput(e.target.value) })} error={fields.windowEnd} />
+          <TextField
+            label="Window opens"
+            type="datetime-local"
+            value={toLocalInput(draft.windowStart)}
+            onChange={(e) => e.target.value && set({ windowStart: fromLocalInput(e.target.value) })}
+            error={fields.windowStart}
+          />
+          <TextField
+            label="Window closes"
+            type="datetime-local"
+            value={toLocalInput(draft.windowEnd)}
+            onChange={(e) => e.target.value && set({ windowEnd: fromLocalInput(e.target.value) })}
+            error={fields.windowEnd}
+          />
         </div>
         <fieldset className="flex flex-col gap-1">
           <legend className="font-semibold">Excavations beside the work</legend>
-          {(excavations.data ?? []).filter((e) => e.state !== 'backfilled').map((e) => (
-            <CheckboxField key={e.id} label={`${e.reference} ${e.name} (${e.depth.toFixed(2)} m deep)`} checked={draft.excavationIds.includes(e.id)} onChange={(ev) => set({ excavationIds: ev.target.checked ? [...draft.excavationIds, e.id] : draft.excavationIds.filter((x) => x !== e.id) })} />
-          ))}
-          {fields.excavationIds ? <p className="text-sm font-semibold text-error-text">{fieldSentence('Excavations beside the work', fields.excavationIds)}</p> : null}
+          {(excavations.data ?? [])
+            .filter((e) => e.state !== 'backfilled')
+            .map((e) => (
+              <CheckboxField
+                key={e.id}
+                label={`${e.reference} ${e.name} (${e.depth.toFixed(2)} m deep)`}
+                checked={draft.excavationIds.includes(e.id)}
+                onChange={(ev) =>
+                  set({ excavationIds: ev.target.checked ? [...draft.excavationIds, e.id] : draft.excavationIds.filter((x) => x !== e.id) })
+                }
+              />
+            ))}
+          {fields.excavationIds ? (
+            <p className="text-sm font-semibold text-error-text">{fieldSentence('Excavations beside the work', fields.excavationIds)}</p>
+          ) : null}
         </fieldset>
       </Panel>
       <div className="grid gap-6 lg:grid-cols-[3fr_2fr]">
@@ -386,13 +460,21 @@ export function Editor(subject: EditorSubject) {
               onChange={(e) => addPlant(e.target.value)}
               emptyLabel="Choose a machine"
               options={(plantQ.data ?? []).map((p) => ({ value: p.id, label: `${p.name} (${p.operatingMass} t)` }))}
-              hint={named.length ? `It is placed at its standoff from ${named[0].reference}.` : 'Tick the excavation first: the machine is placed at its standoff from it.'}
+              hint={
+                named.length
+                  ? `It is placed at its standoff from ${named[0].reference}.`
+                  : 'Tick the excavation first: the machine is placed at its standoff from it.'
+              }
             />
             <Button variant="secondary" onClick={undo} disabled={history.length === 0} aria-keyshortcuts="Control+Z">
               Undo the last move{history.length ? ` (${history.length})` : ''}
             </Button>
           </div>
-          {placed ? <p role="status" className="text-sm">{placed}</p> : null}
+          {placed ? (
+            <p role="status" className="text-sm">
+              {placed}
+            </p>
+          ) : null}
           <PlacementMap
             proj={proj}
             excavations={named.length ? named : (excavations.data ?? [])}
@@ -404,7 +486,9 @@ export function Editor(subject: EditorSubject) {
             editable
             onMoveStart={remember}
             onMove={(loadId, to) => moveOnNextFrame(`move:${loadId}`, () => setLoad(loadId, (l) => moveLoad(l, to, proj)))}
-            onRotate={(loadId, bearing) => moveOnNextFrame(`turn:${loadId}`, () => setLoad(loadId, (l) => (l.kind === 'plant' ? { ...l, rotation: bearing } : l)))}
+            onRotate={(loadId, bearing) =>
+              moveOnNextFrame(`turn:${loadId}`, () => setLoad(loadId, (l) => (l.kind === 'plant' ? { ...l, rotation: bearing } : l)))
+            }
             onDragging={(on) => {
               if (!on) applyMoves();
               setDragging(on);
@@ -413,11 +497,30 @@ export function Editor(subject: EditorSubject) {
           <Panel title="Loads" level={2}>
             {draft.loads.length === 0 ? <p>No loads yet. Add a machine from the library above or an ad hoc load.</p> : null}
             {draft.loads.map((l, i) => (
-              <LoadRow key={l.id} load={l} index={i} proj={proj} plantName={l.kind === 'plant' ? plant.get(l.plantItemId)?.name : undefined} fields={fields} onChange={(nl) => { remember(); setLoad(l.id, () => nl); }} onRemove={() => setLoads(draft.loads.filter((x) => x.id !== l.id))} />
+              <LoadRow
+                key={l.id}
+                load={l}
+                index={i}
+                proj={proj}
+                plantName={l.kind === 'plant' ? plant.get(l.plantItemId)?.name : undefined}
+                fields={fields}
+                onChange={(nl) => {
+                  remember();
+                  setLoad(l.id, () => nl);
+                }}
+                onRemove={() => setLoads(draft.loads.filter((x) => x.id !== l.id))}
+              />
             ))}
             <div className="flex flex-wrap items-end gap-3">
-              <SelectField label="Ad hoc load" value={newKind} onChange={(e) => setNewKind(e.target.value as typeof newKind)} options={(['stockpile', 'area', 'strip', 'line'] as const).map((k) => ({ value: k, label: placedLoadLabels[k] }))} />
-              <Button variant="secondary" onClick={addAdHoc}>Add load</Button>
+              <SelectField
+                label="Ad hoc load"
+                value={newKind}
+                onChange={(e) => setNewKind(e.target.value as typeof newKind)}
+                options={(['stockpile', 'area', 'strip', 'line'] as const).map((k) => ({ value: k, label: placedLoadLabels[k] }))}
+              />
+              <Button variant="secondary" onClick={addAdHoc}>
+                Add load
+              </Button>
             </div>
           </Panel>
         </div>
@@ -443,17 +546,46 @@ export function Editor(subject: EditorSubject) {
         <fieldset className="flex flex-col gap-1">
           <legend className="font-semibold">Operators to brief (each confirms before work starts)</legend>
           {(operators.data?.operators ?? []).map((o) => (
-            <CheckboxField key={o.id} label={o.name} checked={draft.operatorIds.includes(o.id)} onChange={(ev) => set({ operatorIds: ev.target.checked ? [...draft.operatorIds, o.id] : draft.operatorIds.filter((x) => x !== o.id) })} />
+            <CheckboxField
+              key={o.id}
+              label={o.name}
+              checked={draft.operatorIds.includes(o.id)}
+              onChange={(ev) =>
+                set({ operatorIds: ev.target.checked ? [...draft.operatorIds, o.id] : draft.operatorIds.filter((x) => x !== o.id) })
+              }
+            />
           ))}
-          {operators.data && operators.data.lastUsed.length && !permit ? <p className="text-sm text-ink-soft">Ticked: the operators of your last request on this site.</p> : null}
+          {operators.data && operators.data.lastUsed.length && !permit ? (
+            <p className="text-sm text-ink-soft">Ticked: the operators of your last request on this site.</p>
+          ) : null}
         </fieldset>
-        <SelectField label="Method" value={method} onChange={(e) => set({ method: e.target.value as Draft['method'] })} options={[{ value: 'dispersion-45', label: '45° load spread' }, { value: 'elastic', label: 'Elastic (Boussinesq-based)' }]} />
+        <SelectField
+          label="Method"
+          value={method}
+          onChange={(e) => set({ method: e.target.value as Draft['method'] })}
+          options={[
+            { value: 'dispersion-45', label: '45° load spread' },
+            { value: 'elastic', label: 'Elastic (Boussinesq-based)' },
+          ]}
+        />
       </Panel>
       {kind === 'dig' ? <DigForm dig={draft.dig ?? emptyDig} fields={fields} onChange={(dig) => set({ dig })} /> : null}
       <div className="flex flex-wrap gap-3">
-        <Button onClick={() => void saveOnly()} busy={busy && (create.isPending || update.isPending)} disabled={busy} busyText="Saving…" variant="secondary">{permit ? 'Save' : 'Save as a draft'}</Button>
-        <Button onClick={() => void saveAndSubmit()} busy={busy} busyText="Sending…">Send for review</Button>
-        <Link to={permit ? `/permits/${permit.id}` : `/sites/${siteId}/permits`} className="self-center">Leave without saving</Link>
+        <Button
+          onClick={() => void saveOnly()}
+          busy={busy && (create.isPending || update.isPending)}
+          disabled={busy}
+          busyText="Saving…"
+          variant="secondary"
+        >
+          {permit ? 'Save' : 'Save as a draft'}
+        </Button>
+        <Button onClick={() => void saveAndSubmit()} busy={busy} busyText="Sending…">
+          Send for review
+        </Button>
+        <Link to={permit ? `/permits/${permit.id}` : `/sites/${siteId}/permits`} className="self-center">
+          Leave without saving
+        </Link>
       </div>
     </Page>
   );
@@ -463,7 +595,15 @@ function num(v: string): number {
   return v === '' ? NaN : Number(v);
 }
 
-function LoadRow({ load, index, proj, plantName, fields, onChange, onRemove }: {
+function LoadRow({
+  load,
+  index,
+  proj,
+  plantName,
+  fields,
+  onChange,
+  onRemove,
+}: {
   load: PlacedLoad;
   index: number;
   proj: ReturnType<typeof localProjection>;
@@ -476,29 +616,84 @@ function LoadRow({ load, index, proj, plantName, fields, onChange, onRemove }: {
   const err = (k: string) => fields[`loads[${index}].${k}`] ?? (k === '' ? fields[`loads[${index}]`] : undefined);
   return (
     <fieldset className="flex flex-col gap-2 rounded-md border border-rule p-3" aria-label={`Load ${load.label || load.id}`}>
-      <legend className="font-semibold">{load.label || load.id}{plantName ? ` – ${plantName}` : ''}</legend>
+      <legend className="font-semibold">
+        {load.label || load.id}
+        {plantName ? ` – ${plantName}` : ''}
+      </legend>
       {fields[`loads[${index}]`] ? <p className="text-sm font-semibold text-error-text">{fields[`loads[${index}]`]}</p> : null}
       <div className="grid gap-2 sm:grid-cols-3">
         <TextField label="Name" value={load.label} onChange={(e) => onChange({ ...load, label: e.target.value })} />
         <MetresField label="East of the site origin (m)" value={c[0]} onCommit={(x) => onChange(moveLoad(load, [x, c[1]], proj))} />
         <MetresField label="North of the site origin (m)" value={c[1]} onCommit={(y) => onChange(moveLoad(load, [c[0], y], proj))} />
         {load.kind === 'plant' ? (
-          <TextField label="Facing (degrees from north)" type="number" step="1" min="0" max="360" value={load.rotation} onChange={(e) => Number.isFinite(num(e.target.value)) && onChange({ ...load, rotation: num(e.target.value) })} error={err('rotation')} />
+          <TextField
+            label="Facing (degrees from north)"
+            type="number"
+            step="1"
+            min="0"
+            max="360"
+            value={load.rotation}
+            onChange={(e) => Number.isFinite(num(e.target.value)) && onChange({ ...load, rotation: num(e.target.value) })}
+            error={err('rotation')}
+          />
         ) : null}
         {load.kind === 'stockpile' ? (
           <>
-            <SelectField label="Material" value="" emptyLabel="Typical unit weights…" onChange={(e) => e.target.value && onChange({ ...load, unitWeight: Number(e.target.value) })} options={stockpileMaterials.map((m) => ({ value: m.unitWeight, label: `${m.name}: ${m.unitWeight} kN/m³` }))} />
-            <TextField label="Unit weight (kN/m³)" type="number" step="0.5" value={load.unitWeight} onChange={(e) => onChange({ ...load, unitWeight: num(e.target.value) })} error={err('unitWeight')} />
-            <TextField label="Height (m)" type="number" step="0.1" value={load.height} onChange={(e) => onChange({ ...load, height: num(e.target.value) })} error={err('height')} hint={Number.isFinite(load.unitWeight * load.height) ? `Presses ${(load.unitWeight * load.height).toFixed(1)} kPa` : 'Give the unit weight and the height'} />
+            <SelectField
+              label="Material"
+              value=""
+              emptyLabel="Typical unit weights…"
+              onChange={(e) => e.target.value && onChange({ ...load, unitWeight: Number(e.target.value) })}
+              options={stockpileMaterials.map((m) => ({ value: m.unitWeight, label: `${m.name}: ${m.unitWeight} kN/m³` }))}
+            />
+            <TextField
+              label="Unit weight (kN/m³)"
+              type="number"
+              step="0.5"
+              value={load.unitWeight}
+              onChange={(e) => onChange({ ...load, unitWeight: num(e.target.value) })}
+              error={err('unitWeight')}
+            />
+            <TextField
+              label="Height (m)"
+              type="number"
+              step="0.1"
+              value={load.height}
+              onChange={(e) => onChange({ ...load, height: num(e.target.value) })}
+              error={err('height')}
+              hint={
+                Number.isFinite(load.unitWeight * load.height)
+                  ? `Presses ${(load.unitWeight * load.height).toFixed(1)} kPa`
+                  : 'Give the unit weight and the height'
+              }
+            />
           </>
         ) : null}
         {load.kind === 'area' || load.kind === 'strip' ? (
-          <TextField label="Pressure (kPa)" type="number" step="1" value={load.pressure} onChange={(e) => onChange({ ...load, pressure: num(e.target.value) })} error={err('pressure')} />
+          <TextField
+            label="Pressure (kPa)"
+            type="number"
+            step="1"
+            value={load.pressure}
+            onChange={(e) => onChange({ ...load, pressure: num(e.target.value) })}
+            error={err('pressure')}
+          />
         ) : null}
-        {load.kind === 'line' ? <TextField label="Force (kN/m)" type="number" step="1" value={load.force} onChange={(e) => onChange({ ...load, force: num(e.target.value) })} error={err('force')} /> : null}
+        {load.kind === 'line' ? (
+          <TextField
+            label="Force (kN/m)"
+            type="number"
+            step="1"
+            value={load.force}
+            onChange={(e) => onChange({ ...load, force: num(e.target.value) })}
+            error={err('force')}
+          />
+        ) : null}
       </div>
       <div>
-        <Button variant="quiet" onClick={onRemove}>Remove this load</Button>
+        <Button variant="quiet" onClick={onRemove}>
+          Remove this load
+        </Button>
       </div>
     </fieldset>
   );
@@ -508,8 +703,20 @@ function DigForm({ dig, fields, onChange }: { dig: DigDetails; fields: Record<st
   return (
     <Panel title="Dig: depth, support and buried services" level={2}>
       <div className="grid gap-3 sm:grid-cols-2">
-        <TextField label="Depth (m)" type="number" step="0.1" value={dig.depth} onChange={(e) => onChange({ ...dig, depth: num(e.target.value) })} error={fields['dig.depth']} />
-        <TextField label="Support method" value={dig.supportMethod} onChange={(e) => onChange({ ...dig, supportMethod: e.target.value })} error={fields['dig.supportMethod'] ?? fields.dig} />
+        <TextField
+          label="Depth (m)"
+          type="number"
+          step="0.1"
+          value={dig.depth}
+          onChange={(e) => onChange({ ...dig, depth: num(e.target.value) })}
+          error={fields['dig.depth']}
+        />
+        <TextField
+          label="Support method"
+          value={dig.supportMethod}
+          onChange={(e) => onChange({ ...dig, supportMethod: e.target.value })}
+          error={fields['dig.supportMethod'] ?? fields.dig}
+        />
       </div>
       {serviceCheckKeys.map((k) => {
         const c = dig.servicesChecks[k];
@@ -518,9 +725,25 @@ function DigForm({ dig, fields, onChange }: { dig: DigDetails; fields: Record<st
         return (
           <fieldset key={k} className="grid gap-2 rounded-md border border-rule p-3 sm:grid-cols-4">
             <legend className="font-semibold">{serviceCheckLabels[k]}</legend>
-            <SelectField label="State" value={c.state} onChange={(e) => setC({ state: e.target.value as typeof c.state })} options={[{ value: 'pending', label: 'Not done yet' }, { value: 'done', label: 'Done' }, ...(k === 'trialHoles' ? [{ value: 'not-needed', label: 'Not needed' }] : [])]} error={fields[`dig.servicesChecks.${k}`] ?? f('state')} />
+            <SelectField
+              label="State"
+              value={c.state}
+              onChange={(e) => setC({ state: e.target.value as typeof c.state })}
+              options={[
+                { value: 'pending', label: 'Not done yet' },
+                { value: 'done', label: 'Done' },
+                ...(k === 'trialHoles' ? [{ value: 'not-needed', label: 'Not needed' }] : []),
+              ]}
+              error={fields[`dig.servicesChecks.${k}`] ?? f('state')}
+            />
             <TextField label="Who did it" value={c.by} onChange={(e) => setC({ by: e.target.value })} error={f('by')} />
-            <TextField label="When" type="datetime-local" value={c.at ? toLocalInput(c.at) : ''} onChange={(e) => setC({ at: e.target.value ? fromLocalInput(e.target.value) : null })} error={f('at')} />
+            <TextField
+              label="When"
+              type="datetime-local"
+              value={c.at ? toLocalInput(c.at) : ''}
+              onChange={(e) => setC({ at: e.target.value ? fromLocalInput(e.target.value) : null })}
+              error={f('at')}
+            />
             <TextField label="Notes" value={c.notes} onChange={(e) => setC({ notes: e.target.value })} error={f('notes')} />
           </fieldset>
         );

@@ -1,6 +1,14 @@
 import { useState } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
-import { permitSorts, permitStatuses, permitViewLabels, permitViews, statusLabels, verdictOf, type PermitView } from '@shared/schemas/permits';
+import {
+  permitSorts,
+  permitStatuses,
+  permitViewLabels,
+  permitViews,
+  statusLabels,
+  verdictOf,
+  type PermitView,
+} from '@shared/schemas/permits';
 import { ButtonLink } from '@client/components/Button';
 import { SelectField, TextField } from '@client/components/Fields';
 import { Page } from '@client/components/Page';
@@ -49,24 +57,65 @@ export function PermitListPage() {
     <Page
       title="Permits"
       intro="Every request to place a load beside an excavation or to dig, and where each stands."
-      actions={role === 'supervisor' ? <ButtonLink to={`/sites/${siteId}/permits/new`} variant="primary">Ask for a permit</ButtonLink> : null}
+      actions={
+        role === 'supervisor' ? (
+          <ButtonLink to={`/sites/${siteId}/permits/new`} variant="primary">
+            Ask for a permit
+          </ButtonLink>
+        ) : null
+      }
     >
       <nav aria-label="Permit lists" className="flex flex-wrap gap-2">
         {permitViews.map((v) => (
-          <Link key={v} to={`?view=${v}`} aria-current={v === view ? 'page' : undefined} className={`rounded-md px-3 py-2 font-semibold ${v === view ? 'bg-accent text-white no-underline' : ''}`} onClick={() => setParams({ view: v })}>
+          <Link
+            key={v}
+            to={`?view=${v}`}
+            aria-current={v === view ? 'page' : undefined}
+            className={`rounded-md px-3 py-2 font-semibold ${v === view ? 'bg-accent text-white no-underline' : ''}`}
+            onClick={() => setParams({ view: v })}
+          >
             {permitViewLabels[v]}
           </Link>
         ))}
       </nav>
       <form className="grid gap-3 sm:grid-cols-3 lg:grid-cols-6" aria-label="Filters" onSubmit={(e) => e.preventDefault()}>
-        <SelectField label="Status" value={status} onChange={(e) => setStatus(e.target.value)} emptyLabel="Any" options={permitStatuses.map((s) => ({ value: s, label: statusLabels[s] }))} />
-        <SelectField label="Excavation" value={excavationId} onChange={(e) => setExcavationId(e.target.value)} emptyLabel="Any" options={(excavations.data ?? []).map((e) => ({ value: e.id, label: e.reference }))} />
+        <SelectField
+          label="Status"
+          value={status}
+          onChange={(e) => setStatus(e.target.value)}
+          emptyLabel="Any"
+          options={permitStatuses.map((s) => ({ value: s, label: statusLabels[s] }))}
+        />
+        <SelectField
+          label="Excavation"
+          value={excavationId}
+          onChange={(e) => setExcavationId(e.target.value)}
+          emptyLabel="Any"
+          options={(excavations.data ?? []).map((e) => ({ value: e.id, label: e.reference }))}
+        />
         <TextField label="Window from" type="datetime-local" value={from} onChange={(e) => setFrom(e.target.value)} />
         <TextField label="Window to" type="datetime-local" value={to} onChange={(e) => setTo(e.target.value)} />
-        <SelectField label="Sort by" value={sort} onChange={(e) => setSort(e.target.value as typeof sort)} options={permitSorts.map((s) => ({ value: s, label: sortLabels[s] }))} />
-        <SelectField label="Order" value={order} onChange={(e) => setOrder(e.target.value as typeof order)} options={[{ value: 'desc', label: 'Newest / highest first' }, { value: 'asc', label: 'Oldest / lowest first' }]} />
+        <SelectField
+          label="Sort by"
+          value={sort}
+          onChange={(e) => setSort(e.target.value as typeof sort)}
+          options={permitSorts.map((s) => ({ value: s, label: sortLabels[s] }))}
+        />
+        <SelectField
+          label="Order"
+          value={order}
+          onChange={(e) => setOrder(e.target.value as typeof order)}
+          options={[
+            { value: 'desc', label: 'Newest / highest first' },
+            { value: 'asc', label: 'Oldest / lowest first' },
+          ]}
+        />
       </form>
-      {list.isPending ? <Loading what="Loading permits" /> : list.isError ? <LoadError error={list.error} retry={() => list.refetch()} /> : list.data.length === 0 ? (
+      {list.isPending ? (
+        <Loading what="Loading permits" />
+      ) : list.isError ? (
+        <LoadError error={list.error} retry={() => list.refetch()} />
+      ) : list.data.length === 0 ? (
         <p>No permits match.</p>
       ) : (
         <div className="overflow-x-auto">
@@ -84,11 +133,23 @@ export function PermitListPage() {
             <tbody>
               {list.data.map((p) => (
                 <tr key={p.id} className="border-b border-rule">
-                  <td className="p-2"><Link to={`/permits/${p.id}`}>{p.number}</Link>{p.revision > 1 ? ` (rev. ${p.revision})` : ''}</td>
-                  <td className="p-2"><StatusLabel status={p.status} /></td>
-                  <td className="p-2">{p.kind === 'dig' ? 'Dig: ' : ''}{p.description}</td>
-                  <td className="p-2">{when(p.windowStart, timeZone)} – {when(p.windowEnd, timeZone)}</td>
-                  <td className="p-2">{p.passes === null ? '—' : <VerdictBadge verdict={verdictOf(p.utilisation, p.passes)} utilisation={p.utilisation} />}</td>
+                  <td className="p-2">
+                    <Link to={`/permits/${p.id}`}>{p.number}</Link>
+                    {p.revision > 1 ? ` (rev. ${p.revision})` : ''}
+                  </td>
+                  <td className="p-2">
+                    <StatusLabel status={p.status} />
+                  </td>
+                  <td className="p-2">
+                    {p.kind === 'dig' ? 'Dig: ' : ''}
+                    {p.description}
+                  </td>
+                  <td className="p-2">
+                    {when(p.windowStart, timeZone)} – {when(p.windowEnd, timeZone)}
+                  </td>
+                  <td className="p-2">
+                    {p.passes === null ? '—' : <VerdictBadge verdict={verdictOf(p.utilisation, p.passes)} utilisation={p.utilisation} />}
+                  </td>
                   <td className="p-2">{p.requestedBy.name}</td>
                 </tr>
               ))}

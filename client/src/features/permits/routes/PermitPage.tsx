@@ -23,7 +23,17 @@ import { ApiError, errorMessage, isApiError } from '@client/lib/api';
 import { serverSummary } from '@client/lib/fieldLabels';
 import { fieldSentence } from '@client/lib/forms';
 import { parseId } from '@client/lib/session';
-import { useAttach, useBriefing, useComment, useExcavations, usePermit, usePlant, useRevision, useSite, useTransition } from '../api/permits';
+import {
+  useAttach,
+  useBriefing,
+  useComment,
+  useExcavations,
+  usePermit,
+  usePlant,
+  useRevision,
+  useSite,
+  useTransition,
+} from '../api/permits';
 import { CheckSheets } from '../components/CheckSheet';
 import { PlacementMap } from '../components/PlacementMap';
 import { StatusLabel } from '../components/StatusLabel';
@@ -54,7 +64,11 @@ function PermitView({ permit }: { permit: PermitDetail }) {
   const editable = editableStatuses.includes(permit.status);
   // From review on, the machines as they were frozen with the revision (the library may have changed since).
   const plant = useMemo(
-    () => new Map<number, PlantForCheck>([...(plantQ.data ?? []).map((p) => [p.id, p] as const), ...(frozen && !editable ? frozen.machines.map((m) => [m.id, m] as const) : [])]),
+    () =>
+      new Map<number, PlantForCheck>([
+        ...(plantQ.data ?? []).map((p) => [p.id, p] as const),
+        ...(frozen && !editable ? frozen.machines.map((m) => [m.id, m] as const) : []),
+      ]),
     [plantQ.data, frozen, editable],
   );
   const named = (excavations.data ?? []).filter((e) => rev.excavationIds.includes(e.id));
@@ -67,7 +81,11 @@ function PermitView({ permit }: { permit: PermitDetail }) {
       intro={`${permit.kind === 'load' ? 'Load beside an excavation' : 'Dig: open or extend an excavation'} on ${permit.siteName}. Revision ${permit.revision}.`}
       actions={
         <>
-          {canEdit ? <ButtonLink to={`/permits/${permit.id}/edit`} variant="primary">Change the request</ButtonLink> : null}
+          {canEdit ? (
+            <ButtonLink to={`/permits/${permit.id}/edit`} variant="primary">
+              Change the request
+            </ButtonLink>
+          ) : null}
           <a className={buttonClass('secondary')} href={`/api/permits/${permit.id}/pdf`} download>
             Download the permit (PDF)
           </a>
@@ -80,7 +98,9 @@ function PermitView({ permit }: { permit: PermitDetail }) {
         </p>
         <dl className="grid gap-x-6 gap-y-1 sm:grid-cols-[max-content_1fr]">
           <dt className="font-semibold">Window</dt>
-          <dd>{at(rev.windowStart)} to {at(rev.windowEnd)}</dd>
+          <dd>
+            {at(rev.windowStart)} to {at(rev.windowEnd)}
+          </dd>
           <dt className="font-semibold">Work</dt>
           <dd>{rev.description || '—'}</dd>
           <dt className="font-semibold">Requested by</dt>
@@ -99,13 +119,20 @@ function PermitView({ permit }: { permit: PermitDetail }) {
       <Actions permit={permit} />
       {rev.dig ? (
         <Panel title="Dig: depth, support and buried services">
-          <p>Depth {rev.dig.depth.toFixed(2)} m. Support: {rev.dig.supportMethod}</p>
+          <p>
+            Depth {rev.dig.depth.toFixed(2)} m. Support: {rev.dig.supportMethod}
+          </p>
           <ul>
             {serviceCheckKeys.map((k) => {
               const c = rev.dig!.servicesChecks[k];
               return (
                 <li key={k}>
-                  {serviceCheckLabels[k]}: {c.state === 'done' ? `done by ${c.by}, ${at(c.at)}` : c.state === 'not-needed' ? `not needed (${c.notes})` : 'not done yet'}
+                  {serviceCheckLabels[k]}:{' '}
+                  {c.state === 'done'
+                    ? `done by ${c.by}, ${at(c.at)}`
+                    : c.state === 'not-needed'
+                      ? `not needed (${c.notes})`
+                      : 'not done yet'}
                   {c.state === 'done' && c.notes ? ` – ${c.notes}` : ''}
                 </li>
               );
@@ -115,16 +142,29 @@ function PermitView({ permit }: { permit: PermitDetail }) {
       ) : null}
       {proj && named.length ? (
         <Panel title="Plan">
-          <PlacementMap proj={proj} excavations={named} loads={rev.loads} plant={plant} check={rev.check} verdict={rev.check?.verdict ?? null} standoff={standoff} editable={false} />
+          <PlacementMap
+            proj={proj}
+            excavations={named}
+            loads={rev.loads}
+            plant={plant}
+            check={rev.check}
+            verdict={rev.check?.verdict ?? null}
+            standoff={standoff}
+            editable={false}
+          />
         </Panel>
       ) : null}
       <Panel title="Calculation sheet">
         {rev.check ? (
           <>
-            <p className="text-sm text-ink-soft">Checked {at(rev.checkedAt)}; the server checks again at every save, submission and decision, and whenever a named excavation changes.</p>
+            <p className="text-sm text-ink-soft">
+              Checked {at(rev.checkedAt)}; the server checks again at every save, submission and decision, and whenever a named excavation
+              changes.
+            </p>
             {rev.plantSnapshot && !editable && rev.plantSnapshot.machines.length ? (
               <p className="text-sm" data-testid="computed-with">
-                Computed with {rev.plantSnapshot.machines.map((m) => m.name).join(', ')} as of {at(rev.plantSnapshot.takenAt)} (frozen when the request was sent for review; later changes to the plant library apply to new requests only).
+                Computed with {rev.plantSnapshot.machines.map((m) => m.name).join(', ')} as of {at(rev.plantSnapshot.takenAt)} (frozen when
+                the request was sent for review; later changes to the plant library apply to new requests only).
               </p>
             ) : null}
             <CheckSheets check={rev.check} />
@@ -151,18 +191,36 @@ function DecisionPanel({ permit }: { permit: PermitDetail }) {
       {d.action === 'approve' ? (
         <>
           <p data-testid="decision-standoff">
-            {d.standoff !== null ? `Standoff: keep every load at least ${d.standoff.toFixed(2)} m from the excavation edge.` : 'Approved as placed on the plan (no standoff set).'}
+            {d.standoff !== null
+              ? `Standoff: keep every load at least ${d.standoff.toFixed(2)} m from the excavation edge.`
+              : 'Approved as placed on the plan (no standoff set).'}
           </p>
-          <p className="text-sm text-ink-soft">Computed standoff at the decision: {d.computedStandoff === undefined ? 'not recorded' : d.computedStandoff === null ? 'none within 3H' : `${d.computedStandoff.toFixed(2)} m`}.</p>
+          <p className="text-sm text-ink-soft">
+            Computed standoff at the decision:{' '}
+            {d.computedStandoff === undefined
+              ? 'not recorded'
+              : d.computedStandoff === null
+                ? 'none within 3H'
+                : `${d.computedStandoff.toFixed(2)} m`}
+            .
+          </p>
           {d.conditions.length ? (
             <>
               <h3 className="font-semibold">Conditions</h3>
-              <ol className="list-decimal pl-6">{d.conditions.map((c) => <li key={c}>{c}</li>)}</ol>
+              <ol className="list-decimal pl-6">
+                {d.conditions.map((c) => (
+                  <li key={c}>{c}</li>
+                ))}
+              </ol>
             </>
           ) : null}
         </>
       ) : null}
-      {d.reason ? <p>{d.action === 'return' ? 'Comments' : 'Reason'}: {d.reason}</p> : null}
+      {d.reason ? (
+        <p>
+          {d.action === 'return' ? 'Comments' : 'Reason'}: {d.reason}
+        </p>
+      ) : null}
       <p className="text-sm">{d.signature}</p>
       <Caution />
     </Panel>
@@ -193,8 +251,14 @@ function Actions({ permit }: { permit: PermitDetail }) {
       <Notice>{done}</Notice>
       {permit.briefingDue ? (
         <div className="flex flex-col gap-2">
-          <p>You are named on this permit. Confirm once the supervisor has briefed you on the loads, the exclusion zone and the conditions.</p>
-          <Button onClick={() => briefing.mutate(undefined, { onSuccess: () => setDone('Briefing confirmed.') })} busy={briefing.isPending} busyText="Confirming…">
+          <p>
+            You are named on this permit. Confirm once the supervisor has briefed you on the loads, the exclusion zone and the conditions.
+          </p>
+          <Button
+            onClick={() => briefing.mutate(undefined, { onSuccess: () => setDone('Briefing confirmed.') })}
+            busy={briefing.isPending}
+            busyText="Confirming…"
+          >
             I have been briefed
           </Button>
           {briefing.isError ? <FormSummary message={errorMessage(briefing.error)} /> : null}
@@ -202,12 +266,27 @@ function Actions({ permit }: { permit: PermitDetail }) {
       ) : null}
       <div className="flex flex-wrap gap-3">
         {shown.map((a) => (
-          <Button key={a} variant={open === a ? 'primary' : 'secondary'} onClick={() => setOpen(open === a ? null : a)} aria-expanded={open === a}>
+          <Button
+            key={a}
+            variant={open === a ? 'primary' : 'secondary'}
+            onClick={() => setOpen(open === a ? null : a)}
+            aria-expanded={open === a}
+          >
             {transitionRules[a].label}
           </Button>
         ))}
       </div>
-      {open ? <TransitionForm key={open} permit={permit} action={open} onDone={(msg) => { setOpen(null); setDone(msg); }} /> : null}
+      {open ? (
+        <TransitionForm
+          key={open}
+          permit={permit}
+          action={open}
+          onDone={(msg) => {
+            setOpen(null);
+            setDone(msg);
+          }}
+        />
+      ) : null}
     </Panel>
   );
 }
@@ -227,7 +306,13 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
 
   async function go() {
     setError(null);
-    const conditions = [...ticked, ...extra.split('\n').map((s) => s.trim()).filter(Boolean)];
+    const conditions = [
+      ...ticked,
+      ...extra
+        .split('\n')
+        .map((s) => s.trim())
+        .filter(Boolean),
+    ];
     try {
       await move.mutateAsync({
         action,
@@ -243,39 +328,89 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
   }
 
   return (
-    <form noValidate className="flex flex-col gap-3 rounded-md border border-rule-strong p-4" onSubmit={(e) => { e.preventDefault(); void go(); }} aria-label={rule.label}>
+    <form
+      noValidate
+      className="flex flex-col gap-3 rounded-md border border-rule-strong p-4"
+      onSubmit={(e) => {
+        e.preventDefault();
+        void go();
+      }}
+      aria-label={rule.label}
+    >
       <FormSummary message={error ? serverSummary(error, (k) => ['standoff', 'reason', 'password'].includes(k)) : null} />
       {action === 'approve' ? (
         <>
-          <p>Computed standoff: {computed === null ? 'none within 3H (the support must be redesigned or the loads reduced)' : `${computed.toFixed(2)} m`}.</p>
+          <p>
+            Computed standoff:{' '}
+            {computed === null ? 'none within 3H (the support must be redesigned or the loads reduced)' : `${computed.toFixed(2)} m`}.
+          </p>
           <CheckboxField label="Approve with a standoff" checked={withStandoff} onChange={(e) => setWithStandoff(e.target.checked)} />
           {withStandoff ? (
-            <TextField label="Standoff from the excavation edge (m)" type="number" step="0.01" min="0" value={standoff} onChange={(e) => setStandoff(e.target.value)} error={f.standoff} hint="At least the computed standoff, or give a reason below." />
+            <TextField
+              label="Standoff from the excavation edge (m)"
+              type="number"
+              step="0.01"
+              min="0"
+              value={standoff}
+              onChange={(e) => setStandoff(e.target.value)}
+              error={f.standoff}
+              hint="At least the computed standoff, or give a reason below."
+            />
           ) : null}
           <fieldset className="flex flex-col gap-1">
             <legend className="font-semibold">Conditions</legend>
             {commonConditions.map((c) => (
-              <CheckboxField key={c.key} label={c.text} checked={ticked.includes(c.text)} onChange={(e) => setTicked(e.target.checked ? [...ticked, c.text] : ticked.filter((t) => t !== c.text))} />
+              <CheckboxField
+                key={c.key}
+                label={c.text}
+                checked={ticked.includes(c.text)}
+                onChange={(e) => setTicked(e.target.checked ? [...ticked, c.text] : ticked.filter((t) => t !== c.text))}
+              />
             ))}
             <label className="flex flex-col gap-1">
               <span className="font-semibold">Other conditions (one a line)</span>
-              <textarea className="min-h-20 rounded-md border border-rule-strong bg-sheet p-2" value={extra} onChange={(e) => setExtra(e.target.value)} />
+              <textarea
+                className="min-h-20 rounded-md border border-rule-strong bg-sheet p-2"
+                value={extra}
+                onChange={(e) => setExtra(e.target.value)}
+              />
             </label>
           </fieldset>
         </>
       ) : null}
       <label className="flex flex-col gap-1">
         <span className="font-semibold">
-          {action === 'return' ? 'Comments for the requester' : rule.reason ? 'Reason' : action === 'approve' ? 'Reason (needed for a standoff below the computed one, or a failing check)' : 'Comment (optional)'}
+          {action === 'return'
+            ? 'Comments for the requester'
+            : rule.reason
+              ? 'Reason'
+              : action === 'approve'
+                ? 'Reason (needed for a standoff below the computed one, or a failing check)'
+                : 'Comment (optional)'}
         </span>
-        <textarea className="min-h-20 rounded-md border border-rule-strong bg-sheet p-2" value={reason} onChange={(e) => setReason(e.target.value)} aria-invalid={f.reason ? true : undefined} />
+        <textarea
+          className="min-h-20 rounded-md border border-rule-strong bg-sheet p-2"
+          value={reason}
+          onChange={(e) => setReason(e.target.value)}
+          aria-invalid={f.reason ? true : undefined}
+        />
         {f.reason ? <span className="text-sm font-semibold text-error-text">{fieldSentence('Reason', f.reason)}</span> : null}
       </label>
       {rule.signed ? (
-        <TextField label="Password" hint="Type your password again: it signs the decision." type="password" autoComplete="current-password" value={password} onChange={(e) => setPassword(e.target.value)} error={f.password} />
+        <TextField
+          label="Password"
+          hint="Type your password again: it signs the decision."
+          type="password"
+          autoComplete="current-password"
+          value={password}
+          onChange={(e) => setPassword(e.target.value)}
+          error={f.password}
+        />
       ) : null}
       <div>
-        <Button type="submit" busy={move.isPending} busyText="Working…">{rule.label}</Button>
+        <Button type="submit" busy={move.isPending} busyText="Working…">
+          {rule.label}
+        </Button>
       </div>
     </form>
   );
@@ -291,20 +426,34 @@ function Attachments({ permit, at }: { permit: PermitDetail; at: (iso: string | 
         <ul>
           {permit.attachments.map((a) => (
             <li key={a.id}>
-              <a href={a.url}>{a.name}</a> – {attachmentKindLabels[a.kind]}, {(a.size / 1024).toFixed(0)} KB, added by {a.addedBy} {at(a.addedAt)} (revision {a.revision})
+              <a href={a.url}>{a.name}</a> – {attachmentKindLabels[a.kind]}, {(a.size / 1024).toFixed(0)} KB, added by {a.addedBy}{' '}
+              {at(a.addedAt)} (revision {a.revision})
             </li>
           ))}
         </ul>
       ) : (
         <p>No attachments.</p>
       )}
-      <form className="flex flex-wrap items-end gap-3" onSubmit={(e) => { e.preventDefault(); if (file) attach.mutate({ file, kind }); }}>
-        <SelectField label="Kind" value={kind} onChange={(e) => setKind(e.target.value)} options={attachmentKinds.map((k) => ({ value: k, label: attachmentKindLabels[k] }))} />
+      <form
+        className="flex flex-wrap items-end gap-3"
+        onSubmit={(e) => {
+          e.preventDefault();
+          if (file) attach.mutate({ file, kind });
+        }}
+      >
+        <SelectField
+          label="Kind"
+          value={kind}
+          onChange={(e) => setKind(e.target.value)}
+          options={attachmentKinds.map((k) => ({ value: k, label: attachmentKindLabels[k] }))}
+        />
         <label className="flex flex-col gap-1">
           <span className="font-semibold">File (PDF up to 20 MB, photos up to 10 MB)</span>
           <input type="file" accept="application/pdf,image/png,image/jpeg" onChange={(e) => setFile(e.target.files?.[0] ?? null)} />
         </label>
-        <Button type="submit" variant="secondary" disabled={!file} busy={attach.isPending} busyText="Uploading…">Attach</Button>
+        <Button type="submit" variant="secondary" disabled={!file} busy={attach.isPending} busyText="Uploading…">
+          Attach
+        </Button>
       </form>
       {attach.isError ? <FormSummary message={errorMessage(attach.error)} /> : null}
     </Panel>
@@ -329,19 +478,34 @@ function Timeline({ permit, at }: { permit: PermitDetail; at: (iso: string | nul
           <li key={e.id} className="border-l-4 border-rule pl-3">
             <p>
               <strong>{e.actor.name}</strong> {actionWords[e.action] ?? e.action}
-              {e.toStatus ? ` → ${statusLabels[e.toStatus]}` : ''} <span className="text-sm text-ink-soft">{at(e.at)} (revision {e.revision})</span>
+              {e.toStatus ? ` → ${statusLabels[e.toStatus]}` : ''}{' '}
+              <span className="text-sm text-ink-soft">
+                {at(e.at)} (revision {e.revision})
+              </span>
             </p>
             {e.comment ? <p className="whitespace-pre-wrap">“{e.comment}”</p> : null}
           </li>
         ))}
       </ol>
-      <form className="flex flex-col gap-2" onSubmit={(e) => { e.preventDefault(); if (text.trim()) comment.mutate(text.trim(), { onSuccess: () => setText('') }); }}>
+      <form
+        className="flex flex-col gap-2"
+        onSubmit={(e) => {
+          e.preventDefault();
+          if (text.trim()) comment.mutate(text.trim(), { onSuccess: () => setText('') });
+        }}
+      >
         <label className="flex flex-col gap-1">
           <span className="font-semibold">Add a comment</span>
-          <textarea className="min-h-16 rounded-md border border-rule-strong bg-sheet p-2" value={text} onChange={(e) => setText(e.target.value)} />
+          <textarea
+            className="min-h-16 rounded-md border border-rule-strong bg-sheet p-2"
+            value={text}
+            onChange={(e) => setText(e.target.value)}
+          />
         </label>
         <div>
-          <Button type="submit" variant="secondary" busy={comment.isPending} busyText="Adding…">Add comment</Button>
+          <Button type="submit" variant="secondary" busy={comment.isPending} busyText="Adding…">
+            Add comment
+          </Button>
         </div>
       </form>
     </Panel>
@@ -358,20 +522,31 @@ function Revisions({ permit, at }: { permit: PermitDetail; at: (iso: string | nu
         {permit.revisions.map((r) => (
           <li key={r.revision}>
             <Button variant={shown === r.revision ? 'primary' : 'quiet'} onClick={() => setShown(r.revision)}>
-              Revision {r.revision} ({at(r.createdAt)}{r.decision ? `, ${r.decision === 'approve' ? 'approved' : r.decision === 'return' ? 'returned' : 'declined'}` : ''})
+              Revision {r.revision} ({at(r.createdAt)}
+              {r.decision ? `, ${r.decision === 'approve' ? 'approved' : r.decision === 'return' ? 'returned' : 'declined'}` : ''})
             </Button>
           </li>
         ))}
       </ul>
       {old.data ? (
         <div className="flex flex-col gap-2">
-          <p>Window {at(old.data.windowStart)} to {at(old.data.windowEnd)}. {old.data.description}</p>
+          <p>
+            Window {at(old.data.windowStart)} to {at(old.data.windowEnd)}. {old.data.description}
+          </p>
           <p>Loads: {old.data.loads.map((l) => l.label || l.id).join(', ') || 'none'}</p>
-          {old.data.decision ? <p>Decision: {old.data.decision.action}; {old.data.decision.standoff !== null ? `standoff ${old.data.decision.standoff.toFixed(2)} m; ` : ''}{old.data.decision.signature}</p> : null}
+          {old.data.decision ? (
+            <p>
+              Decision: {old.data.decision.action};{' '}
+              {old.data.decision.standoff !== null ? `standoff ${old.data.decision.standoff.toFixed(2)} m; ` : ''}
+              {old.data.decision.signature}
+            </p>
+          ) : null}
           {old.data.check ? <CheckSheets check={old.data.check} full={false} /> : null}
         </div>
       ) : null}
-      <p className="text-sm"><Link to={`/sites/${permit.siteId}/permits`}>All permits of the site</Link></p>
+      <p className="text-sm">
+        <Link to={`/sites/${permit.siteId}/permits`}>All permits of the site</Link>
+      </p>
     </Panel>
   );
 }

@@ -11,7 +11,10 @@ export function useSavePlant() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: ({ id, version, values }: { id: number | null; version: number; values: PlantItemInput }) =>
-      (id === null ? api.post<z.output<typeof onePlantItemAnswer>>('/api/plant', values) : api.patch<z.output<typeof onePlantItemAnswer>>(`/api/plant/${id}`, { ...values, version })).then((r) => r.item),
+      (id === null
+        ? api.post<z.output<typeof onePlantItemAnswer>>('/api/plant', values)
+        : api.patch<z.output<typeof onePlantItemAnswer>>(`/api/plant/${id}`, { ...values, version })
+      ).then((r) => r.item),
     onSuccess: () => qc.invalidateQueries({ queryKey: plantKey }),
   });
 }

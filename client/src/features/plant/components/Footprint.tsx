@@ -7,7 +7,17 @@ const fills: Record<PlantElementKind, string> = { track: '#4c5a64', pad: '#8a735
  * The machine's bearing elements seen from above, to scale: x (forward) to the right, y (left) up,
  * the origin marked, with a scale bar in metres and the front marked with an arrow.
  */
-export function Footprint({ elements, name, width = 360, height = 260 }: { elements: PlantElement[]; name: string; width?: number; height?: number }) {
+export function Footprint({
+  elements,
+  name,
+  width = 360,
+  height = 260,
+}: {
+  elements: PlantElement[];
+  name: string;
+  width?: number;
+  height?: number;
+}) {
   if (elements.length === 0) return null;
   const b = footprintBounds(elements);
   const minX = Math.min(b.minX, 0);
@@ -19,8 +29,8 @@ export function Footprint({ elements, name, width = 360, height = 260 }: { eleme
   const spanX = Math.max(maxX - minX, 0.5);
   const spanY = Math.max(maxY - minY, 0.5);
   const k = Math.min((width - 2 * margin) / spanX, (height - margin - bottom) / spanY);
-  const ox = margin + ((width - 2 * margin) - spanX * k) / 2 - minX * k;
-  const oy = margin + ((height - margin - bottom) - spanY * k) / 2 + maxY * k;
+  const ox = margin + (width - 2 * margin - spanX * k) / 2 - minX * k;
+  const oy = margin + (height - margin - bottom - spanY * k) / 2 + maxY * k;
   const sx = (x: number) => ox + x * k;
   const sy = (y: number) => oy - y * k;
   const bar = scaleBarLength(spanX);
@@ -28,12 +38,28 @@ export function Footprint({ elements, name, width = 360, height = 260 }: { eleme
 
   return (
     <figure className="flex flex-col gap-1">
-      <svg width={width} height={height} viewBox={`0 0 ${width} ${height}`} role="img" aria-label={`Footprint of ${name}, to scale`} className="rounded border border-rule bg-sheet">
+      <svg
+        width={width}
+        height={height}
+        viewBox={`0 0 ${width} ${height}`}
+        role="img"
+        aria-label={`Footprint of ${name}, to scale`}
+        className="rounded border border-rule bg-sheet"
+      >
         <line x1={sx(0) - 6} y1={sy(0)} x2={sx(0) + 6} y2={sy(0)} stroke="#47508f" strokeWidth={1.5} />
         <line x1={sx(0)} y1={sy(0) - 6} x2={sx(0)} y2={sy(0) + 6} stroke="#47508f" strokeWidth={1.5} />
         {elements.map((e, i) => (
           <g key={`${e.name}-${i}`}>
-            <rect x={sx(e.x - e.length / 2)} y={sy(e.y + e.width / 2)} width={Math.max(e.length * k, 1)} height={Math.max(e.width * k, 1)} fill={fills[e.kind]} fillOpacity={0.85} stroke="#1e2a33" strokeWidth={0.75}>
+            <rect
+              x={sx(e.x - e.length / 2)}
+              y={sy(e.y + e.width / 2)}
+              width={Math.max(e.length * k, 1)}
+              height={Math.max(e.width * k, 1)}
+              fill={fills[e.kind]}
+              fillOpacity={0.85}
+              stroke="#1e2a33"
+              strokeWidth={0.75}
+            >
               <title>{`${e.name}: ${e.length} m × ${e.width} m, ${(e.share * 100).toFixed(1)} % of the weight`}</title>
             </rect>
             <text x={sx(e.x)} y={sy(e.y) - Math.max((e.width * k) / 2, 1) - 3} textAnchor="middle" fontSize={11} fill="#1e2a33">

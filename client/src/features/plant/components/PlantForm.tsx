@@ -1,7 +1,15 @@
 import { useState } from 'react';
 import { useFieldArray, useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { plantCategories, plantCategoryLabels, plantElementKindLabels, plantElementKinds, plantItemSchema, type PlantItemInput, type PlantItemValues } from '@shared/schemas/plant';
+import {
+  plantCategories,
+  plantCategoryLabels,
+  plantElementKindLabels,
+  plantElementKinds,
+  plantItemSchema,
+  type PlantItemInput,
+  type PlantItemValues,
+} from '@shared/schemas/plant';
 import { Button } from '@client/components/Button';
 import { FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { ListErrors, listErrorMessages, RemoveRowButton } from '@client/components/ListErrors';
@@ -35,10 +43,17 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
   const { fields, append, remove } = useFieldArray({ control, name: 'elements' });
   const { errors } = formState;
   const elements = watch('elements') ?? [];
-  const drawable = elements.filter((e) => [e.x, e.y, e.length, e.width].every((v) => typeof v === 'number' && Number.isFinite(v)) && e.length > 0 && e.width > 0);
+  const drawable = elements.filter(
+    (e) => [e.x, e.y, e.length, e.width].every((v) => typeof v === 'number' && Number.isFinite(v)) && e.length > 0 && e.width > 0,
+  );
   const shareTotal = elements.reduce((s, e) => s + (Number.isFinite(e.share) ? e.share : 0), 0);
 
-  const elementMessages = listErrorMessages(errors.elements as Parameters<typeof listErrorMessages>[0], fields.length, 'Bearing elements', (i, k) => `Element ${i + 1} ${k}`);
+  const elementMessages = listErrorMessages(
+    errors.elements as Parameters<typeof listErrorMessages>[0],
+    fields.length,
+    'Bearing elements',
+    (i, k) => `Element ${i + 1} ${k}`,
+  );
 
   const submit = handleSubmit(
     async (values) => {
@@ -57,21 +72,52 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
       <FormSummary message={summary} />
       <div className="grid gap-3 sm:grid-cols-2">
         <TextField label="Name" error={errors.name?.message} {...register('name')} />
-        <SelectField label="Kind of machine" options={plantCategories.map((c) => ({ value: c, label: plantCategoryLabels[c] }))} error={errors.category?.message} {...register('category')} />
-        <TextField label="Operating mass (t)" type="number" step="any" inputMode="decimal" hint="As it stands beside the excavation: laden, with its attachment" error={errors.operatingMass?.message} {...register('operatingMass', num)} />
-        <TextField label="Design factor" type="number" step="0.05" min={1} inputMode="decimal" hint="Multiplies every element's load (dynamic effects, uneven loading); 1 for none" error={errors.designFactor?.message} {...register('designFactor', num)} />
+        <SelectField
+          label="Kind of machine"
+          options={plantCategories.map((c) => ({ value: c, label: plantCategoryLabels[c] }))}
+          error={errors.category?.message}
+          {...register('category')}
+        />
+        <TextField
+          label="Operating mass (t)"
+          type="number"
+          step="any"
+          inputMode="decimal"
+          hint="As it stands beside the excavation: laden, with its attachment"
+          error={errors.operatingMass?.message}
+          {...register('operatingMass', num)}
+        />
+        <TextField
+          label="Design factor"
+          type="number"
+          step="0.05"
+          min={1}
+          inputMode="decimal"
+          hint="Multiplies every element's load (dynamic effects, uneven loading); 1 for none"
+          error={errors.designFactor?.message}
+          {...register('designFactor', num)}
+        />
       </div>
 
       <fieldset className="flex flex-col gap-2">
         <legend className="font-semibold">Bearing elements</legend>
-        <p className="text-sm text-ink-soft">Rectangles the machine stands on, centred at x (forward) and y (to the left) from its origin, with the share of its weight each carries. Shares now add up to {shareTotal.toFixed(3)}.</p>
+        <p className="text-sm text-ink-soft">
+          Rectangles the machine stands on, centred at x (forward) and y (to the left) from its origin, with the share of its weight each
+          carries. Shares now add up to {shareTotal.toFixed(3)}.
+        </p>
         <div className="overflow-x-auto">
           <table className="text-sm">
             <thead>
               <tr>
-                <th scope="col" className="px-1 text-left">#</th>
-                <th scope="col" className="px-1 text-left">Name</th>
-                <th scope="col" className="px-1 text-left">Kind</th>
+                <th scope="col" className="px-1 text-left">
+                  #
+                </th>
+                <th scope="col" className="px-1 text-left">
+                  Name
+                </th>
+                <th scope="col" className="px-1 text-left">
+                  Kind
+                </th>
                 {elementColumns.map(([, label]) => (
                   <th key={label} scope="col" className="px-1 text-right">
                     {label}
@@ -87,10 +133,18 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
                 <tr key={f.id}>
                   <td className="px-1">{i + 1}</td>
                   <td className="px-1 py-1">
-                    <input aria-label={`Element ${i + 1} name`} className="w-36 rounded border border-rule-strong bg-sheet px-2 py-1.5" {...register(`elements.${i}.name`)} />
+                    <input
+                      aria-label={`Element ${i + 1} name`}
+                      className="w-36 rounded border border-rule-strong bg-sheet px-2 py-1.5"
+                      {...register(`elements.${i}.name`)}
+                    />
                   </td>
                   <td className="px-1 py-1">
-                    <select aria-label={`Element ${i + 1} kind`} className="rounded border border-rule-strong bg-sheet px-1 py-1.5" {...register(`elements.${i}.kind`)}>
+                    <select
+                      aria-label={`Element ${i + 1} kind`}
+                      className="rounded border border-rule-strong bg-sheet px-1 py-1.5"
+                      {...register(`elements.${i}.kind`)}
+                    >
                       {plantElementKinds.map((k) => (
                         <option key={k} value={k}>
                           {plantElementKindLabels[k]}
@@ -112,9 +166,7 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
                     </td>
                   ))}
                   <td className="px-1">
-                    {fields.length > 1 ? (
-                      <RemoveRowButton label={`Remove element ${i + 1}`} onClick={() => remove(i)} />
-                    ) : null}
+                    {fields.length > 1 ? <RemoveRowButton label={`Remove element ${i + 1}`} onClick={() => remove(i)} /> : null}
                   </td>
                 </tr>
               ))}
@@ -123,7 +175,10 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
         </div>
         <ListErrors messages={elementMessages} />
         <div>
-          <Button variant="secondary" onClick={() => append({ name: `Element ${fields.length + 1}`, kind: 'pad', x: 0, y: 0, length: 0.6, width: 0.6, share: 0 })}>
+          <Button
+            variant="secondary"
+            onClick={() => append({ name: `Element ${fields.length + 1}`, kind: 'pad', x: 0, y: 0, length: 0.6, width: 0.6, share: 0 })}
+          >
             Add an element
           </Button>
         </div>

@@ -1,5 +1,13 @@
 import { useState } from 'react';
-import { elementLoad, G, plantCategories, plantCategoryLabels, plantElementKindLabels, type PlantItem, type PlantItemInput } from '@shared/schemas/plant';
+import {
+  elementLoad,
+  G,
+  plantCategories,
+  plantCategoryLabels,
+  plantElementKindLabels,
+  type PlantItem,
+  type PlantItemInput,
+} from '@shared/schemas/plant';
 import { Button } from '@client/components/Button';
 import { Caution } from '@client/components/Caution';
 import { ConfirmAction } from '@client/components/ConfirmAction';
@@ -24,7 +32,14 @@ const blank: PlantItemInput = {
   ],
 };
 
-const inputOf = (p: PlantItem): PlantItemInput => ({ name: p.name, category: p.category, operatingMass: p.operatingMass, designFactor: p.designFactor, notes: p.notes, elements: p.elements });
+const inputOf = (p: PlantItem): PlantItemInput => ({
+  name: p.name,
+  category: p.category,
+  operatingMass: p.operatingMass,
+  designFactor: p.designFactor,
+  notes: p.notes,
+  elements: p.elements,
+});
 
 /** The plant library: every machine with its bearing elements drawn to scale and what each carries. */
 export function PlantPage() {
@@ -60,7 +75,11 @@ export function PlantPage() {
             saveLabel={editing === 'new' ? 'Add to the library' : 'Save changes'}
             onCancel={() => setEditing(null)}
             onSave={async (values) => {
-              const item = await save.mutateAsync({ id: editing === 'new' ? null : editing.id, version: editing === 'new' ? 0 : editing.version, values });
+              const item = await save.mutateAsync({
+                id: editing === 'new' ? null : editing.id,
+                version: editing === 'new' ? 0 : editing.version,
+                values,
+              });
               setEditing(null);
               setNotice(`${item.name} saved.`);
             }}
@@ -69,37 +88,39 @@ export function PlantPage() {
       ) : null}
       <StockpileHelper />
       <div className="grid gap-6 xl:grid-cols-2">
-        {[...plant.data].sort((a, b) => plantCategories.indexOf(a.category) - plantCategories.indexOf(b.category) || a.operatingMass - b.operatingMass).map((p) => (
-          <Panel
-            key={p.id}
-            title={p.name}
-            actions={
-              canEdit && editing === null ? (
-                <div className="flex flex-wrap gap-2">
-                  <Button variant="secondary" onClick={() => setEditing(p)} aria-label={`Change ${p.name}`}>
-                    Change
-                  </Button>
-                  <ConfirmAction
-                    label="Remove"
-                    ariaLabel={`Remove ${p.name}`}
-                    question={`Remove ${p.name} from the plant library? Permits that already name it keep their own copy of its figures.`}
-                    confirmLabel="Remove it"
-                    onConfirm={async () => {
-                      try {
-                        await del.mutateAsync(p.id);
-                        setNotice(`${p.name} removed.`);
-                      } catch (e) {
-                        setNotice(errorMessage(e));
-                      }
-                    }}
-                  />
-                </div>
-              ) : null
-            }
-          >
-            <PlantSummary item={p} />
-          </Panel>
-        ))}
+        {[...plant.data]
+          .sort((a, b) => plantCategories.indexOf(a.category) - plantCategories.indexOf(b.category) || a.operatingMass - b.operatingMass)
+          .map((p) => (
+            <Panel
+              key={p.id}
+              title={p.name}
+              actions={
+                canEdit && editing === null ? (
+                  <div className="flex flex-wrap gap-2">
+                    <Button variant="secondary" onClick={() => setEditing(p)} aria-label={`Change ${p.name}`}>
+                      Change
+                    </Button>
+                    <ConfirmAction
+                      label="Remove"
+                      ariaLabel={`Remove ${p.name}`}
+                      question={`Remove ${p.name} from the plant library? Permits that already name it keep their own copy of its figures.`}
+                      confirmLabel="Remove it"
+                      onConfirm={async () => {
+                        try {
+                          await del.mutateAsync(p.id);
+                          setNotice(`${p.name} removed.`);
+                        } catch (e) {
+                          setNotice(errorMessage(e));
+                        }
+                      }}
+                    />
+                  </div>
+                ) : null
+              }
+            >
+              <PlantSummary item={p} />
+            </Panel>
+          ))}
       </div>
     </Page>
   );
@@ -109,19 +130,32 @@ function PlantSummary({ item }: { item: PlantItem }) {
   return (
     <>
       <p>
-        {plantCategoryLabels[item.category]} · operating mass <strong>{item.operatingMass.toFixed(1)} t</strong> ({(item.operatingMass * G).toFixed(1)} kN) · design factor {item.designFactor.toFixed(2)}
+        {plantCategoryLabels[item.category]} · operating mass <strong>{item.operatingMass.toFixed(1)} t</strong> (
+        {(item.operatingMass * G).toFixed(1)} kN) · design factor {item.designFactor.toFixed(2)}
       </p>
       <Footprint elements={item.elements} name={item.name} />
       <div className="overflow-x-auto">
         <table className="text-sm">
           <thead>
             <tr className="border-b border-rule-strong">
-              <th scope="col" className="pr-3 text-left">#</th>
-              <th scope="col" className="pr-3 text-left">Element</th>
-              <th scope="col" className="pr-3 text-right">Size (m)</th>
-              <th scope="col" className="pr-3 text-right">Share</th>
-              <th scope="col" className="pr-3 text-right">Load (kN)</th>
-              <th scope="col" className="text-right">Pressure (kPa)</th>
+              <th scope="col" className="pr-3 text-left">
+                #
+              </th>
+              <th scope="col" className="pr-3 text-left">
+                Element
+              </th>
+              <th scope="col" className="pr-3 text-right">
+                Size (m)
+              </th>
+              <th scope="col" className="pr-3 text-right">
+                Share
+              </th>
+              <th scope="col" className="pr-3 text-right">
+                Load (kN)
+              </th>
+              <th scope="col" className="text-right">
+                Pressure (kPa)
+              </th>
             </tr>
           </thead>
           <tbody>

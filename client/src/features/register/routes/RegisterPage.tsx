@@ -10,7 +10,19 @@ import {
   type ColumnDef,
   type SortingState,
 } from '@tanstack/react-table';
-import { excavationStates, IMPORT_MODE_LABEL, importModeLabels, importModes, kindLabels, stateLabels, supportLabels, type Excavation, type ImportMode, type ImportReport, type importAnswer } from '@shared/schemas/excavations';
+import {
+  excavationStates,
+  IMPORT_MODE_LABEL,
+  importModeLabels,
+  importModes,
+  kindLabels,
+  stateLabels,
+  supportLabels,
+  type Excavation,
+  type ImportMode,
+  type ImportReport,
+  type importAnswer,
+} from '@shared/schemas/excavations';
 import type { z } from 'zod';
 import { Button } from '@client/components/Button';
 import { Caution } from '@client/components/Caution';
@@ -66,7 +78,11 @@ function download(name: string, text: string, type: string) {
   setTimeout(() => URL.revokeObjectURL(url), 1000);
 }
 
-const slug = (s: string) => s.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'site';
+const slug = (s: string) =>
+  s
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '-')
+    .replace(/^-|-$/g, '') || 'site';
 
 /**
  * The excavation register of a site: every excavation in a table to sort and filter, out as CSV or
@@ -117,10 +133,19 @@ export function RegisterPage() {
       intro={`${site.name}: every trench and pit, with its support and ground. Click a reference to see it on the map.`}
       actions={
         <>
-          <Button variant="secondary" onClick={() => download(`${slug(site.name)}-excavation-register.csv`, registerCsv(rows.map((r) => r.original)), 'text/csv;charset=utf-8')}>
+          <Button
+            variant="secondary"
+            onClick={() =>
+              download(`${slug(site.name)}-excavation-register.csv`, registerCsv(rows.map((r) => r.original)), 'text/csv;charset=utf-8')
+            }
+          >
             Download CSV ({rows.length})
           </Button>
-          <a className="inline-flex min-h-11 items-center rounded-md border border-accent bg-sheet px-4 font-semibold text-accent no-underline hover:bg-accent-wash" href={`/api/sites/${siteId}/excavations.geojson`} download>
+          <a
+            className="inline-flex min-h-11 items-center rounded-md border border-accent bg-sheet px-4 font-semibold text-accent no-underline hover:bg-accent-wash"
+            href={`/api/sites/${siteId}/excavations.geojson`}
+            download
+          >
             Download GeoJSON (all)
           </a>
         </>
@@ -131,10 +156,29 @@ export function RegisterPage() {
           <label htmlFor={filterId} className="font-semibold">
             Find
           </label>
-          <input id={filterId} type="search" className="min-h-11 rounded-md border border-rule-strong bg-sheet px-3" placeholder="Reference, name, design reference…" value={globalFilter} onChange={(e) => setGlobalFilter(e.target.value)} />
+          <input
+            id={filterId}
+            type="search"
+            className="min-h-11 rounded-md border border-rule-strong bg-sheet px-3"
+            placeholder="Reference, name, design reference…"
+            value={globalFilter}
+            onChange={(e) => setGlobalFilter(e.target.value)}
+          />
         </div>
-        <SelectField label="State" emptyLabel="Any state" options={excavationStates.map((s) => ({ value: s, label: stateLabels[s] }))} value={state} onChange={(e) => setState(e.target.value)} />
-        <SelectField label="Support" emptyLabel="Any support" options={Object.entries(supportLabels).map(([value, label]) => ({ value, label }))} value={support} onChange={(e) => setSupport(e.target.value)} />
+        <SelectField
+          label="State"
+          emptyLabel="Any state"
+          options={excavationStates.map((s) => ({ value: s, label: stateLabels[s] }))}
+          value={state}
+          onChange={(e) => setState(e.target.value)}
+        />
+        <SelectField
+          label="Support"
+          emptyLabel="Any support"
+          options={Object.entries(supportLabels).map(([value, label]) => ({ value, label }))}
+          value={support}
+          onChange={(e) => setSupport(e.target.value)}
+        />
         <p className="pb-2 text-ink-soft" role="status">
           {rows.length} of {q.data.length} shown
         </p>
@@ -149,8 +193,17 @@ export function RegisterPage() {
                   const sorted = h.column.getIsSorted();
                   const numeric = (h.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
                   return (
-                    <th key={h.id} scope="col" aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'} className={`px-3 py-2 ${numeric ? 'text-right' : 'text-left'}`}>
-                      <button type="button" className="inline-flex min-h-9 items-center gap-1 font-semibold" onClick={h.column.getToggleSortingHandler()}>
+                    <th
+                      key={h.id}
+                      scope="col"
+                      aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : 'none'}
+                      className={`px-3 py-2 ${numeric ? 'text-right' : 'text-left'}`}
+                    >
+                      <button
+                        type="button"
+                        className="inline-flex min-h-9 items-center gap-1 font-semibold"
+                        onClick={h.column.getToggleSortingHandler()}
+                      >
                         {flexRender(h.column.columnDef.header, h.getContext())}
                         <span aria-hidden="true" className="text-ink-soft">
                           {sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}
@@ -173,7 +226,11 @@ export function RegisterPage() {
                         <>
                           <Link to={`/sites/${siteId}/map?excavation=${r.original.id}`}>{r.original.reference}</Link>
                           {role === 'supervisor' && r.original.state === 'open' ? (
-                            <Link className="ml-2 whitespace-nowrap text-sm" to={`/sites/${siteId}/permits/new?excavation=${r.original.id}`} aria-label={`Ask for a permit beside ${r.original.reference}`}>
+                            <Link
+                              className="ml-2 whitespace-nowrap text-sm"
+                              to={`/sites/${siteId}/permits/new?excavation=${r.original.id}`}
+                              aria-label={`Ask for a permit beside ${r.original.reference}`}
+                            >
                               Ask for a permit
                             </Link>
                           ) : null}
@@ -189,7 +246,9 @@ export function RegisterPage() {
             {rows.length === 0 ? (
               <tr>
                 <td colSpan={columns.length} className="px-3 py-4 text-ink-soft">
-                  {q.data.length ? 'No excavation matches these filters.' : 'No excavations yet. Draw them on the site map, or import a GeoJSON file.'}
+                  {q.data.length
+                    ? 'No excavation matches these filters.'
+                    : 'No excavations yet. Draw them on the site map, or import a GeoJSON file.'}
                 </td>
               </tr>
             ) : null}
@@ -228,7 +287,12 @@ function ImportPanel({ siteId }: { siteId: number }) {
     } catch (e) {
       const body = (e as { body?: { report?: ImportReport } }).body;
       if (body?.report) setReport({ ok: false, report: body.report });
-      setError(errorMessage(e) + ((e as { fields?: Record<string, string> }).fields?.file ? ` The file ${(e as { fields: Record<string, string> }).fields.file}.` : ''));
+      setError(
+        errorMessage(e) +
+          ((e as { fields?: Record<string, string> }).fields?.file
+            ? ` The file ${(e as { fields: Record<string, string> }).fields.file}.`
+            : ''),
+      );
     } finally {
       setBusy(false);
     }
@@ -240,15 +304,27 @@ function ImportPanel({ siteId }: { siteId: number }) {
         Import from GeoJSON
       </h2>
       <p className="max-w-prose text-ink-soft">
-        A FeatureCollection in WGS84 like the one this page downloads: a LineString per trench (its centre line, with a width), a Polygon per pit, and the register’s fields as properties. Every feature is checked; if any is refused, nothing is imported and the report says why.
+        A FeatureCollection in WGS84 like the one this page downloads: a LineString per trench (its centre line, with a width), a Polygon
+        per pit, and the register’s fields as properties. Every feature is checked; if any is refused, nothing is imported and the report
+        says why.
       </p>
       <div className="flex flex-col gap-1">
         <label htmlFor={fileId} className="font-semibold">
           GeoJSON file
         </label>
-        <input id={fileId} type="file" accept=".geojson,.json,application/geo+json,application/json" onChange={(e) => setFile(e.target.files?.[0] ?? null)} />
+        <input
+          id={fileId}
+          type="file"
+          accept=".geojson,.json,application/geo+json,application/json"
+          onChange={(e) => setFile(e.target.files?.[0] ?? null)}
+        />
       </div>
-      <SelectField label={IMPORT_MODE_LABEL} options={importModes.map((m) => ({ value: m, label: modeLabels[m] }))} value={mode} onChange={(e) => setMode(e.target.value as ImportMode)} />
+      <SelectField
+        label={IMPORT_MODE_LABEL}
+        options={importModes.map((m) => ({ value: m, label: modeLabels[m] }))}
+        value={mode}
+        onChange={(e) => setMode(e.target.value as ImportMode)}
+      />
       <div>
         <Button onClick={run} disabled={!file} busy={busy} busyText="Importing…">
           Import
@@ -267,7 +343,11 @@ function ImportReportView({ ok, report }: { ok: boolean; report: ImportReport })
       <ReportTable
         caption="Imported"
         last="Done"
-        rows={report.imported.map((i) => ({ index: i.index, reference: i.reference, detail: i.action === 'created' ? 'Added' : 'Replaced' }))}
+        rows={report.imported.map((i) => ({
+          index: i.index,
+          reference: i.reference,
+          detail: i.action === 'created' ? 'Added' : 'Replaced',
+        }))}
       />
       <ReportTable
         caption="Refused (nothing was imported)"
@@ -289,7 +369,17 @@ function ImportReportView({ ok, report }: { ok: boolean; report: ImportReport })
   );
 }
 
-function ReportTable({ caption, last, rows, refused = false }: { caption: string; last: string; refused?: boolean; rows: { index: number; reference: string | null; detail: ReactNode }[] }) {
+function ReportTable({
+  caption,
+  last,
+  rows,
+  refused = false,
+}: {
+  caption: string;
+  last: string;
+  refused?: boolean;
+  rows: { index: number; reference: string | null; detail: ReactNode }[];
+}) {
   if (rows.length === 0) return null;
   return (
     <table className="text-sm">
