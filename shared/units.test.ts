@@ -1,0 +1,202 @@
+/**
+ * Units at the edges (shared/units.ts). Every factor is checked against the value NIST Special
+ * Publication 811 (2008), Appendix B.8 "Factors for units listed alphabetically", prints beside it:
+ * seven significant figures, so each check is to a relative 5e-7 unless NIST marks it exact.
+ */
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import {
+  FOOT,
+  INCH,
+  KIP,
+  POUND_FORCE,
+  formatLength,
+  formatQuantity,
+  fromSI,
+  fromSystem,
+  inSystem,
+  inputText,
+  parseQuantity,
+  roundTo,
+  toSI,
+  unitLabel,
+  type Quantity,
+} from './units';
+
+/** Equal to the published figure to its printed significant figures. */
+function expectPublished(actual: number, published: number, figures = 7) {
+  expect(Math.abs(actual - published) / Math.abs(published)).toBeLessThan(0.5 * 10 ** (1 - figures));
+}
+
+const parsed = (text: string, q: Quantity, system: 'metric' | 'us' = 'us') => {
+  const r = parseQuantity(text, q, system);
+  if (!r.ok) throw new Error(`${text}: ${r.reason}`);
+  return r.value;
+};
+
+describe('factors (NIST SP 811, 2008, Appendix B.8)', () => {
+  it('the foot and the inch are exact', () => {
+    expect(FOOT).toBe(0.3048); // NIST SP 811 B.8: foot (ft) = 3.048 E-01 m, exact
+    expect(INCH).toBe(0.0254); // NIST SP 811 B.8: inch (in) = 2.54 E-02 m, exact
+    expect(toSI('length', 12, 'in')).toBeCloseTo(toSI('length', 1, 'ft'), 15);
+  });
+
+  it('pound-force and kip', () => {
+    // NIST SP 811 B.8: pound-force (lbf) = 4.448 222 E+00 N; its derivation 0.45359237 kg × 9.80665 m/s²
+    // (pound, avoirdupois, exact; standard acceleration of free fall, exact) gives 4.4482216152605 N.
+    expectPublished(POUND_FORCE, 4.448222);
+    expect(POUND_FORCE).toBeCloseTo(4.4482216152605, 13);
+    // NIST SP 811 B.8: kip (1 kip = 1000 lbf) = 4.448 222 E+03 N.
+    expectPublished(KIP, 4448.222);
+    expectPublished(toSI('force', 1, 'kip'), 4.448222); // kN
+    expectPublished(toSI('force', 1, 'lbf'), 4.448222e-3); // kN
+  });
+
+  it('pressures', () => {
+    // NIST SP 811 B.8: pound-force per square foot (lbf/ft²) = 4.788 026 E+01 Pa.
+    expectPublished(toSI('pressure', 1, 'psf') * 1000, 47.88026);
+    // 1 ksf = 1000 lbf/ft² (NIST SP 811 B.8: kip = 1000 lbf), so 4.788 026 E+01 kPa.
+    expectPublished(toSI('pressure', 1, 'ksf'), 47.88026);
+    // NIST SP 811 B.8: pound-force per square inch (psi) = 6.894 757 E+00 kPa.
+    expectPublished(toSI('pressure', 1, 'psi'), 6.894757);
+  });
+
+  it('line loads and unit weights', () => {
+    // NIST SP 811 B.8: pound-force per foot (lbf/ft) = 1.459 390 E+01 N/m.
+    expectPublished(toSI('lineForce', 1, 'lbf/ft') * 1000, 14.5939);
+    expectPublished(toSI('lineForce', 1, 'kip/ft'), 14.5939); // kN/m
+    // NIST SP 811 B.8: pound per cubic foot (lb/ft³) = 1.601 846 E+01 kg/m³, times the standard
+    // acceleration of free fall 9.80665 m/s² (NIST SP 811 §8.2, exact): 157.0875 N/m³ = 0.1570875 kN/m³.
+    expectPublished(toSI('unitWeight', 1, 'pcf'), (16.01846 * 9.80665) / 1000, 6);
+    expect(toSI('unitWeight', 1, 'pcf')).toBeCloseTo(0.15708746, 8);
+  });
+
+  it('moments per run of support', () => {
+    // NIST SP 811 B.8: pound-force foot (lbf·ft) = 1.355 818 E+00 N·m; per foot of wall, ÷ 0.3048 m.
+    expectPublished(toSI('moment', 1, 'lbf·ft/ft') * 1000, 1.355818 / 0.3048, 6);
+  });
+
+  it('converting there and back returns the figure', () => {
+    const quantities: Quantity[] = ['length', 'pressure', 'force', 'lineForce', 'unitWeight', 'moment'];
+    fc.assert(
+      fc.property(fc.constantFrom(...quantities), fc.double({ min: 1e-6, max: 1e6, noNaN: true }), (q, si) => {
+        expect(fromSystem(q, inSystem(q, si, 'us'), 'us')).toBeCloseTo(si, 9);
+      }),
+    );
+  });
+});
+
+describe('facts of the trade in both systems', () => {
+  it("OSHA's 2 ft is 0.61 m", () => {
+    // OSHA 29 CFR 1926.651(j)(2): "at least 2 feet (.61 m) from the edge of excavations".
+    expect(toSI('length', 2, 'ft')).toBeCloseTo(0.6096, 10);
+    expect(formatLength(0.6096, 'metric')).toBe('0.61 m');
+    expect(formatLength(0.6096, 'us')).toBe('2.0 ft');
+    expect(formatLength(0.6096, 'us', { rounding: 'up' })).toBe('2.0 ft'); // exact: no creep to 2.1 ft
+    expect(formatLength(0.6096, 'us', { feetInches: true, rounding: 'up' })).toBe('2 ft');
+  });
+
+  it('a 120 pcf soil is 18.85 kN/m³; 10 kPa is 209 psf', () => {
+    // NIST SP 811 factors above: 120 × 0.1570875 = 18.850 kN/m³; 10 / 0.04788026 = 208.85 psf.
+    expect(formatQuantity('unitWeight', toSI('unitWeight', 120, 'pcf'), 'metric')).toBe('18.9 kN/m³');
+    expect(formatQuantity('pressure', 10, 'us')).toBe('209 psf');
+  });
+});
+
+describe('formatting', () => {
+  it('to sensible precision: 0.01 m, 0.1 ft or 1 in', () => {
+    expect(formatLength(2.5, 'metric')).toBe('2.50 m');
+    expect(formatLength(2.5, 'us')).toBe('8.2 ft'); // 2.5 / 0.3048 = 8.2021 ft (NIST SP 811 foot)
+    expect(formatLength(2.5, 'us', { rounding: 'up' })).toBe('8.3 ft');
+    expect(formatLength(2.5, 'us', { feetInches: true })).toBe('8 ft 2 in'); // 98.43 in
+    expect(formatLength(2.5, 'us', { feetInches: true, rounding: 'up' })).toBe('8 ft 3 in');
+    expect(formatLength(0.3, 'us', { feetInches: true })).toBe('1 ft'); // 11.81 in → 12 in = 1 ft
+    expect(formatLength(0.2, 'us', { feetInches: true })).toBe('8 in'); // 7.87 in
+  });
+
+  it('a standoff rounded up never reads less than the distance (any length)', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: 30_000 }), (cm) => {
+        const m = cm / 100;
+        const ft = Number(formatLength(m, 'us', { rounding: 'up', bare: true }).replace(/,/g, ''));
+        expect(ft * FOOT).toBeGreaterThanOrEqual(m - 1e-9);
+      }),
+    );
+  });
+
+  it('forces, pressures and unit weights', () => {
+    expect(formatQuantity('pressure', 20, 'metric')).toBe('20.0 kPa');
+    expect(formatQuantity('pressure', 20, 'us')).toBe('418 psf'); // 20 / 0.04788026 = 417.7
+    expect(formatQuantity('force', 50, 'us')).toBe('11.24 kip'); // 50 / 4.448222 = 11.241
+    expect(formatQuantity('lineForce', 20, 'us')).toBe('1,370 lbf/ft'); // 20 / 0.01459390 = 1370.4
+    expect(formatQuantity('lineForce', 20, 'us', { bare: true })).toBe('1,370');
+    expect(unitLabel('pressure', 'us')).toBe('psf');
+    expect(unitLabel('length', 'metric')).toBe('m');
+  });
+
+  it('roundTo keeps exact steps and rounds up only when asked', () => {
+    expect(roundTo(8.2021, 0.1)).toBe(8.2);
+    expect(roundTo(8.2021, 0.1, 'up')).toBe(8.3);
+    expect(roundTo(8.2, 0.1, 'up')).toBe(8.2);
+    expect(roundTo(0.6096 / 0.3048, 0.1, 'up')).toBe(2);
+  });
+
+  it('inputText keeps enough figures to read back the saved value', () => {
+    expect(inputText('length', 2.5, 'us')).toBe('8.2021');
+    expect(inputText('length', 2.5, 'metric')).toBe('2.5');
+    expect(inputText('length', null, 'us')).toBe('');
+    expect(Math.abs(parsed(inputText('length', 2.5, 'us'), 'length') - 2.5)).toBeLessThan(0.0001);
+  });
+});
+
+describe('parsing what people type, in either system', () => {
+  it('lengths', () => {
+    expect(parsed('2 ft 6 in', 'length')).toBeCloseTo(0.762, 12); // 30 × 0.0254 (NIST SP 811, exact)
+    expect(parsed('2.5 ft', 'length')).toBeCloseTo(0.762, 12);
+    expect(parsed('30 in', 'length')).toBeCloseTo(0.762, 12);
+    expect(parsed(`2' 6"`, 'length')).toBeCloseTo(0.762, 12);
+    expect(parsed(`2'-6"`, 'length')).toBeCloseTo(0.762, 12);
+    expect(parsed('2ft6in', 'length')).toBeCloseTo(0.762, 12);
+    expect(parsed('2 ft 6', 'length')).toBeCloseTo(0.762, 12);
+    expect(parsed('2.5', 'length')).toBeCloseTo(0.762, 12); // a bare number is in the person's system
+    expect(parsed('2.5', 'length', 'metric')).toBe(2.5);
+    expect(parsed('2.5 m', 'length')).toBe(2.5); // metric typed by a US user still reads as metres
+    expect(parsed('250 mm', 'length', 'metric')).toBeCloseTo(0.25, 12);
+    expect(parsed('1 m 20 cm', 'length', 'metric')).toBeCloseTo(1.2, 12);
+    expect(parsed('3 Feet', 'length')).toBeCloseTo(0.9144, 12);
+  });
+
+  it('pressures, forces, line loads and unit weights', () => {
+    expect(parsed('500 psf', 'pressure')).toBeCloseTo(23.94013, 5); // 500 × 0.04788026 kPa (NIST SP 811)
+    expect(parsed('0.5 ksf', 'pressure')).toBeCloseTo(23.94013, 5);
+    expect(parsed('500', 'pressure')).toBeCloseTo(23.94013, 5);
+    expect(parsed('20 kPa', 'pressure')).toBe(20);
+    expect(parsed('10 kip', 'force')).toBeCloseTo(44.482216, 6); // 10 × 4.448222 kN (NIST SP 811)
+    expect(parsed('2,000 lbf', 'force')).toBeCloseTo(8.896443, 6);
+    expect(parsed('10', 'force')).toBeCloseTo(44.482216, 6);
+    expect(parsed('45 kN', 'force', 'metric')).toBe(45);
+    expect(parsed('2 kip/ft', 'lineForce')).toBeCloseTo(29.18781, 5); // 2 × 14.59390 kN/m (NIST SP 811)
+    expect(parsed('500 lb/ft', 'lineForce')).toBeCloseTo(7.29695, 5);
+    expect(parsed('30 kN/m', 'lineForce', 'us')).toBe(30);
+    expect(parsed('120 pcf', 'unitWeight')).toBeCloseTo(18.8505, 4); // 120 × 0.1570875 (NIST SP 811 × gn)
+    expect(parsed('19 kN/m3', 'unitWeight')).toBe(19);
+    expect(parsed('19 kN/m³', 'unitWeight')).toBe(19);
+  });
+
+  it('refuses what it cannot read, saying why and how to write it', () => {
+    const reasons = ['', 'two feet', '2 ft 6 in 3', '6 in 2 ft', '2 psf', '2,5 m', '1 ft ft', '2 kip 3 kip', '--2'].map((t) => {
+      const r = parseQuantity(t, 'length', 'us');
+      expect(r.ok, t).toBe(false);
+      return r.ok ? '' : r.reason;
+    });
+    expect(reasons[0]).toBe('is required');
+    expect(reasons[1]).toMatch(/2 ft 6 in/);
+    expect(reasons[4]).toMatch(/unit Brink does not know here \("psf"\)/);
+    const kpaAsForce = parseQuantity('20 kPa', 'force', 'metric');
+    expect(kpaAsForce).toEqual({ ok: false, reason: expect.stringMatching(/10 kip/) });
+  });
+
+  it('fromSI and toSI are inverse', () => {
+    expect(fromSI('pressure', toSI('pressure', 500, 'psf'), 'psf')).toBeCloseTo(500, 10);
+  });
+});
