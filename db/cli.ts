@@ -23,7 +23,11 @@ try {
     console.log(ran.length ? `migrated: ${ran.join(', ')}` : 'database is up to date');
   }
   if (command === 'seed' || command === 'reset') {
-    console.log((await seedDemoIfEmpty(db)) ? 'seeded the demo site' : 'database already has people; not seeded');
+    console.log(
+      (await seedDemoIfEmpty(db))
+        ? "seeded the demo site (Brink keeps its permits' checks when it starts)"
+        : 'database already has people; not seeded',
+    );
   }
   if (!['migrate', 'seed', 'reset'].includes(command ?? '')) {
     console.error('usage: tsx db/cli.ts migrate|seed|reset');

@@ -6,7 +6,8 @@ import type { DemoContext } from './people';
  * Demo permits (invented), at least one in every status, on the demo excavations. Windows are set
  * relative to the moment of seeding so that "live now" is live. The permits counted in checks
  * (approved, live, suspended) stand beside the wet-well pit PIT-01, leaving the pipe trench TR-01
- * free for a new request. The check of each is run by the server the first time it is opened.
+ * free for a new request. They are stored without a check: the server keeps one for each when it
+ * starts (checkUnchecked in server/src/services/permits/check.ts), as db/ cannot run the server's check.
  */
 type Status = 'draft' | 'submitted' | 'returned' | 'approved' | 'declined' | 'live' | 'suspended' | 'handed_back' | 'lapsed' | 'withdrawn';
 type Step = { action: string; to: Status; by: 'supervisor' | 'coordinator' | 'operator' | 'system'; hoursAgo: number; comment?: string };

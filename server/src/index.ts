@@ -6,6 +6,7 @@ import { migrateToLatest } from '@db/migrate';
 import { isDatabaseUnavailable } from '@db/database';
 import { DEMO_PASSWORD, demoPeople } from '@db/demo/people';
 import { startPermitJobs } from './jobs/permits';
+import { checkUnchecked } from './services/permits/check';
 import { startInspectionJobs } from './jobs/inspections';
 
 // Starts Brink: database migrations, the job queue, the local mail catcher, and one Express
@@ -31,6 +32,10 @@ const config = loadConfig();
 const runtime = await startRuntime(config);
 const { deps } = runtime;
 await migrateToLatest(deps.db);
+// Once, before anything reads or moves a permit: keep a check on revisions stored without one (the
+// demo seed's; reads never write). A refused one stays without and is named here.
+const filled = await checkUnchecked(deps.db, deps.now());
+if (filled.refused.length) console.error(`[brink] permits whose check the calculation refuses: ${filled.refused.join(', ')}`);
 // Permits go Live and Lapse on the clock; reminders before a window closes.
 await startPermitJobs(deps);
 await startInspectionJobs(deps);

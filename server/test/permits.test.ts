@@ -1,8 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { permitActions, permitStatuses } from '@shared/schemas/permits';
 import { allowedTransitions, needsReason, roleFor, signedActions } from './expected-transitions';
-import { DEMO_PASSWORD, demo, startTestApp, type TestApp } from './helpers';
+import { DEMO_PASSWORD, demo, demoSiteId, startTestApp, type TestApp } from './helpers';
 import { transition } from '../src/services/permits/machine';
+import { checkUnchecked } from '../src/services/permits/check';
+import { withCurrentRevision } from '../src/services/permits/read';
 import {
   act,
   createPermit,
@@ -458,5 +460,44 @@ describe('drafts', () => {
     expect(s.status).toBe(200);
     const told = await transition(t.deps, sent.id, 'withdraw', actor, { version: s.body.permit.version });
     expect(told.notified).toEqual(expect.arrayContaining([demo.coordinator, w.coordinator2Email]));
+  });
+});
+
+const storedCheck = async (id: number) =>
+  (await withCurrentRevision(t.deps.db).select('r.check_result').where('p.id', '=', id).executeTakeFirstOrThrow()).check_result;
+
+describe('a permit stored without a check', () => {
+  it('is not checked by reading it; the start-up step keeps its check once', async () => {
+    const p = await createPermit(w);
+    expect(await storedCheck(p.id)).not.toBeNull();
+    // As the demo seed stores its permits (or a database from before checks were kept).
+    await t.deps.db.updateTable('permit_revisions').set({ check_result: null, checked_at: null }).where('permit_id', '=', p.id).execute();
+
+    const read = await w.agents.supervisor.get(`/api/permits/${p.id}`);
+    expect(read.status).toBe(200);
+    expect(read.body.permit.current.check).toBeNull();
+    expect(await storedCheck(p.id)).toBeNull();
+    expect((await w.agents.supervisor.get(`/api/permits/${p.id}/pdf`)).status).toBe(200);
+    expect(await storedCheck(p.id)).toBeNull();
+
+    expect(await checkUnchecked(t.deps.db, t.deps.now(), [p.id])).toEqual({ checked: [p.number], refused: [] });
+    const after = await w.agents.supervisor.get(`/api/permits/${p.id}`);
+    expect(after.body.permit.current.check.excavations.map((e: { excavationId: number }) => e.excavationId)).toEqual([w.trenchId]);
+    expect(await checkUnchecked(t.deps.db, t.deps.now(), [p.id])).toEqual({ checked: [], refused: [] });
+  });
+
+  it('the demo permits counted in checks (approved P-0004, live P-0005, suspended P-0006) have theirs before anyone reads them', async () => {
+    const siteId = await demoSiteId(t.deps);
+    const rows = await withCurrentRevision(t.deps.db)
+      .select(['p.number', 'p.status', 'r.check_result'])
+      .where('p.site_id', '=', siteId)
+      .where('p.number', 'in', ['P-0004', 'P-0005', 'P-0006'])
+      .orderBy('p.number')
+      .execute();
+    expect(rows.map((r) => [r.number, r.status, r.check_result !== null])).toEqual([
+      ['P-0004', 'approved', true],
+      ['P-0005', 'live', true],
+      ['P-0006', 'suspended', true],
+    ]);
   });
 });

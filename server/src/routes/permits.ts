@@ -18,7 +18,7 @@ import { audit } from '../services/audit';
 import { filesOf, limits, receiveFiles, sendUpload, storeUpload } from '../services/uploads';
 import { userActor } from '../services/permits/actors';
 import { confirmBriefing } from '../services/permits/briefing';
-import { checkProposal, ensureChecked, runPermitCheck, withoutProfiles } from '../services/permits/check';
+import { checkProposal, runPermitCheck, withoutProfiles } from '../services/permits/check';
 import { assertMayAct, StaleError, transition, WrongPasswordError } from '../services/permits/machine';
 import { endSessionsOf } from '../services/people';
 import { permitPdf } from '../services/permits/pdf';
@@ -198,8 +198,7 @@ export function registerPermitRoutes(api: Api): void {
       access: members,
       params: idParams,
     },
-    async ({ params, user, site, deps }) => {
-      await ensureChecked(db, params.id, deps.now());
+    async ({ params, user, site }) => {
       const permit = await loadDetail(db, params.id, { id: user.id, role: site?.role ?? null });
       if (!permit) throw notFound('That permit');
       return { permit };
@@ -345,7 +344,6 @@ export function registerPermitRoutes(api: Api): void {
       produces: 'application/pdf',
     },
     async ({ params, deps, res }) => {
-      await ensureChecked(db, params.id, deps.now());
       const { buffer, number } = await permitPdf(deps, params.id);
       res.setHeader('Content-Type', 'application/pdf');
       res.setHeader('Content-Disposition', `attachment; filename="permit-${number}.pdf"`);

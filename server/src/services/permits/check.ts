@@ -483,18 +483,28 @@ export async function checkProposal(db: Db, permitId: number, proposal: CheckPro
 }
 
 /**
- * Runs and keeps the check of a permit whose current revision has loads and excavations but no
- * check yet (demo permits seeded without one). A check the placement refuses is left absent.
+ * Runs and keeps the check of every permit whose current revision names loads and excavations but
+ * has no check (the demo site is seeded without checks: db/ cannot run the server's check). Brink
+ * runs it once at start, after the migrations, so reads never write. A check the placement or the
+ * figures refuse (400) is left absent and named in the answer. Returns the permits checked and refused.
+ * `onlyPermits` narrows it (tests, which share a database).
  */
-export async function ensureChecked(db: Db, permitId: number, now: Date): Promise<void> {
-  const r = await withCurrentRevision(db)
-    .select(['r.check_result', 'r.excavation_ids', 'r.loads'])
-    .where('p.id', '=', permitId)
-    .executeTakeFirst();
-  if (!r || r.check_result !== null || r.excavation_ids.length === 0 || (r.loads as unknown[]).length === 0) return;
-  try {
-    await checkStoredRevision(db, permitId, now);
-  } catch (err) {
-    if (!(err instanceof HttpError && err.status === 400)) throw err;
+export async function checkUnchecked(db: Db, now: Date, onlyPermits?: number[]): Promise<{ checked: string[]; refused: string[] }> {
+  let q = withCurrentRevision(db)
+    .select(['p.id', 'p.number'])
+    .where('r.check_result', 'is', null)
+    .where(sql<boolean>`cardinality(r.excavation_ids) > 0 and jsonb_array_length(r.loads) > 0`);
+  if (onlyPermits) q = q.where('p.id', 'in', onlyPermits.length ? onlyPermits : [0]);
+  const rows = await q.orderBy('p.id').execute();
+  const out = { checked: [] as string[], refused: [] as string[] };
+  for (const r of rows) {
+    try {
+      await checkStoredRevision(db, r.id, now);
+      out.checked.push(r.number);
+    } catch (err) {
+      if (!(err instanceof HttpError && err.status === 400)) throw err;
+      out.refused.push(r.number);
+    }
   }
+  return out;
 }
