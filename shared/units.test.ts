@@ -16,6 +16,7 @@ import {
   fromSystem,
   inSystem,
   inputText,
+  localizeWords,
   parseQuantity,
   roundTo,
   toSI,
@@ -198,5 +199,21 @@ describe('parsing what people type, in either system', () => {
 
   it('fromSI and toSI are inverse', () => {
     expect(fromSI('pressure', toSI('pressure', 500, 'psf'), 'psf')).toBeCloseTo(500, 10);
+  });
+});
+
+describe('sentences written in SI, read in US units', () => {
+  it('restates each figure with its unit (NIST SP 811 factors above)', () => {
+    expect(localizeWords('load a: 0.5 m from the face is closer than the minimum clearance of 0.6096 m', 'us')).toBe(
+      'load a: 1.64 ft from the face is closer than the minimum clearance of 2.00 ft',
+    );
+    expect(localizeWords('soil + water ≥ 5 kPa/m × depth', 'us')).toBe('soil + water ≥ 32 psf/ft × depth'); // 5 ÷ 0.04788026 × 0.3048 = 31.8
+    expect(localizeWords('must be at most 10,000 kPa', 'us')).toBe('must be at most 208,854 psf');
+    expect(localizeWords('water, 9.81 kN/m³', 'us')).toBe('water, 62 pcf'); // 9.81 ÷ 0.1570875 = 62.45
+    expect(localizeWords('at most 100,000 kN/m; a point at most 100,000 kN', 'us')).toBe(
+      'at most 6,852,177 lbf/ft; a point at most 22,480.89 kip',
+    );
+    expect(localizeWords('φ′ 30°, 3 m deep', 'metric')).toBe('φ′ 30°, 3 m deep');
+    expect(localizeWords('a 2 mm gap in 3 months', 'us')).toBe('a 2 mm gap in 3 months');
   });
 });

@@ -276,3 +276,33 @@ export function inputText(quantity: Quantity, si: number | null | undefined, sys
   const value = inSystem(quantity, si, system);
   return String(Number(value.toFixed(4)));
 }
+
+/**
+ * A sentence Brink wrote in SI (a warning, a refusal) as a person in `system` reads it: each figure
+ * followed by m, kPa, kPa/m, kN, kN/m or kN/m³ is restated in US units (`1.20 m` → `3.9 ft`,
+ * `5 kPa/m` → `32 psf/ft`). Metric sentences come back unchanged.
+ */
+export function localizeWords(text: string, system: UnitSystem): string {
+  if (system === 'metric') return text;
+  const fig = (v: number, places: number) => v.toLocaleString('en-US', { maximumFractionDigits: places, minimumFractionDigits: places });
+  return text.replace(
+    /(-?\d{1,3}(?:,\d{3})+(?:\.\d+)?|-?\d+(?:\.\d+)?) ?(kPa\/m|kPa|kN\/m³|kN\/m|kN|m)(?![\w²³/·])/g,
+    (_, num: string, unit: string) => {
+      const v = Number(num.replace(/,/g, ''));
+      switch (unit) {
+        case 'm':
+          return `${fig(roundTo(inSystem('length', v, 'us'), 0.01), 2)} ft`;
+        case 'kPa':
+          return `${fig(roundTo(inSystem('pressure', v, 'us'), 1), 0)} psf`;
+        case 'kPa/m':
+          return `${fig(roundTo(inSystem('pressure', v, 'us') * FOOT, 1), 0)} psf/ft`;
+        case 'kN':
+          return `${fig(roundTo(inSystem('force', v, 'us'), 0.01), 2)} kip`;
+        case 'kN/m':
+          return `${fig(roundTo(inSystem('lineForce', v, 'us'), 1), 0)} lbf/ft`;
+        default:
+          return `${fig(roundTo(inSystem('unitWeight', v, 'us'), 1), 0)} pcf`;
+      }
+    },
+  );
+}

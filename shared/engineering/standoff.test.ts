@@ -33,6 +33,13 @@ describe('standoff (docs/calculation.md, "Standoff")', () => {
     expect(runCheck(req).loads[0].standoff).toBe(0.6);
   });
 
+  it("under OSHA's 2 ft (0.6096 m) a light load stands at 2 ft itself, a heavy one at the centimetre beyond its last failing offset (OSHA 29 CFR 1926.651(j)(2); NIST SP 811: 1 ft = 0.3048 m)", () => {
+    const light = withLoads(sixRequest(), [{ id: 'light', kind: 'strip', pressure: 5, width: 1, offset: 2 }]);
+    expect(runCheck({ ...light, minimumClearance: 0.6096 }).loads[0].standoff).toBe(0.6096);
+    // Worked example 1's strip: 2.5 m whatever the clearance below it.
+    expect(runCheck({ ...sixRequest(), minimumClearance: 0.6096 }).loads[0].standoff).toBe(2.5);
+  });
+
   it('no offset within 3H: null, with the redesign message', () => {
     const req = withLoads(withExcavation(sixRequest({ method: 'elastic' }), { designSurcharge: 1 }), [
       { id: 'heavy', kind: 'strip', pressure: 1000, width: 2, offset: 1 },

@@ -157,8 +157,8 @@ const exact = (x: number) => Math.round(x * 1e7) / 1e7;
 
 /**
  * The search of docs/calculation.md, "Standoff", over any pass/fail test of an offset d (m): every
- * whole centimetre from 3H down to the minimum clearance (rounded up to a centimetre) and d ± 1e-6 m
- * at every break point in that range. The standoff is the centimetre just beyond the farthest
+ * whole centimetre from 3H down to the minimum clearance, the minimum clearance itself (when it falls
+ * between centimetres, e.g. 2 ft = 0.6096 m) and d ± 1e-6 m at every break point in that range. The standoff is the centimetre just beyond the farthest
  * failing offset (the minimum clearance when none fails), or null when 3H itself fails.
  */
 export function searchOffsets(
@@ -169,9 +169,11 @@ export function searchOffsets(
 ): StandoffAnswer {
   const top = Math.floor(3 * H * 100 + 1e-9);
   const least = Math.ceil(minimumClearance * 100 - 1e-9);
-  const samples: number[] = [];
+  // A clearance between centimetres (OSHA's 2 ft = 0.6096 m) is tried itself, then every centimetre beyond it.
+  const start = Math.min(exact(minimumClearance), least / 100);
+  const samples: number[] = start < least / 100 ? [start] : [];
   for (let cm = least; cm <= Math.max(top, least); cm++) samples.push(cm / 100);
-  const lo = least / 100;
+  const lo = start;
   const hi = Math.max(top, least) / 100;
   for (const b of breakpoints) {
     for (const d of [b - BREAK_EPSILON, b + BREAK_EPSILON]) if (d > lo && d < hi) samples.push(d);
@@ -195,6 +197,7 @@ export function searchOffsets(
       break;
     }
   }
-  const cm = farthest === -Infinity ? least : Math.max(least, Math.floor(farthest * 100 + 1e-7) + 1);
+  if (farthest === -Infinity) return { standoff: start, failingBands: bands, monotonic };
+  const cm = Math.max(least, Math.floor(farthest * 100 + 1e-7) + 1);
   return { standoff: cm / 100, failingBands: bands, monotonic };
 }
