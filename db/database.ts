@@ -390,6 +390,15 @@ export interface Database {
   inspection_consequences: InspectionConsequencesTable;
   push_subscriptions: PushSubscriptionsTable;
   push_deliveries: PushDeliveriesTable;
+  attempt_counts: AttemptCountsTable;
+}
+
+/** Attempt limits shared by every server (server/src/services/throttle.ts). */
+export interface AttemptCountsTable {
+  scope: string;
+  key: string;
+  count: number;
+  reset_at: Date;
 }
 
 export type Db = Kysely<Database>;

@@ -15,6 +15,11 @@ export interface Deps {
   boss: PgBoss;
   /** Worker threads for geometry that can take long (influence zones). */
   geometry: GeometryPool;
+  /**
+   * Keeps the job queues and attempt counts of several Brinks on one database apart: `brink` for an
+   * installation (all its servers share them); each test app has its own.
+   */
+  namespace: string;
   /** The time now; tests inject their own clock. */
   now: () => Date;
 }

@@ -12,14 +12,19 @@ const QUARTER_HOUR = 15 * 60_000;
 /** The attempt limits (issue 12). Sign-in: SIGNIN_LIMIT_PER_ACCOUNT failures per account and address, five times that per account. */
 function createThrottles(deps: Deps) {
   const now = () => deps.now().getTime();
+  // Counted in PostgreSQL, shared by every server of one installation; the namespace keeps test apps on one database apart.
+  const throttle = (name: string, limit: number, windowMs: number) =>
+    new Throttle(deps.db, `${deps.namespace}:${name}`, limit, windowMs, now);
   return {
-    signIn: new Throttle(deps.config.signInLimitPerAccount, QUARTER_HOUR, now),
-    signInAccount: new Throttle(deps.config.signInLimitPerAccount * 5, QUARTER_HOUR, now),
+    /** Sign-in failures per address (express-rate-limit's store): SIGNIN_LIMIT_PER_IP a quarter hour. */
+    signInPerIp: throttle('sign-in-ip', deps.config.signInLimitPerIp, QUARTER_HOUR),
+    signIn: throttle('sign-in', deps.config.signInLimitPerAccount, QUARTER_HOUR),
+    signInAccount: throttle('sign-in-account', deps.config.signInLimitPerAccount * 5, QUARTER_HOUR),
     /** Forgot-password: 10 requests per address a quarter hour; 3 mails per account an hour (quietly). */
-    forgotPerIp: new Throttle(10, QUARTER_HOUR, now),
-    forgotPerAccount: new Throttle(3, 60 * 60_000, now),
+    forgotPerIp: throttle('forgot-ip', 10, QUARTER_HOUR),
+    forgotPerAccount: throttle('forgot-account', 3, 60 * 60_000),
     /** The password that signs a permit decision: SIGNIN_LIMIT_PER_ACCOUNT failures per person a quarter hour, then every session of theirs ends. */
-    decisionPassword: new Throttle(deps.config.signInLimitPerAccount, QUARTER_HOUR, now),
+    decisionPassword: throttle('decision-password', deps.config.signInLimitPerAccount, QUARTER_HOUR),
   };
 }
 
@@ -262,7 +267,7 @@ export class Api {
   readonly router: Router = express.Router();
   readonly specs: RouteDoc[] = [];
 
-  /** Attempt limits kept per app (server/src/services/throttle.ts). */
+  /** Attempt limits, counted in PostgreSQL (server/src/services/throttle.ts). */
   readonly throttles: ReturnType<typeof createThrottles>;
 
   /** Under NODE_ENV=test every JSON answer is checked against its route's response schema. */

@@ -48,7 +48,7 @@ export async function startRuntime(config: Config, opts: { now?: () => Date; que
   const pusher = new Pusher(boss, db, config, `${prefix}.push`, loadOrMakeVapidKeys(config.push.keysFile));
   await pusher.start();
   const geometry = new GeometryPool();
-  const deps: Deps = { db, config, mailer, pusher, boss, geometry, now: opts.now ?? (() => new Date()) };
+  const deps: Deps = { db, config, mailer, pusher, boss, geometry, namespace: prefix, now: opts.now ?? (() => new Date()) };
   return {
     deps,
     async stop() {

@@ -16,6 +16,7 @@ import { audit } from '../services/audit';
 import { endSessionsOf, loadMe, revokeResets } from '../services/people';
 import { hashToken, newToken, RESET_HOURS } from '../services/tokens';
 import { notice } from '../mail/mailer';
+import { ThrottleStore } from '../services/throttle';
 
 export const BCRYPT_COST = 12;
 // Compared against when the address is unknown, so both answers take as long.
@@ -42,15 +43,16 @@ const tooMany = (message: string) => ({ error: { code: 'rate_limited', message }
 export function registerAuthRoutes(api: Api): void {
   const { db, config } = api.deps;
   const window = 15 * 60 * 1000;
+  const { signInPerIp, signIn, signInAccount, forgotPerIp, forgotPerAccount, decisionPassword } = api.throttles;
   const perIp = rateLimit({
     windowMs: window,
+    store: new ThrottleStore(signInPerIp),
     limit: config.signInLimitPerIp,
     skipSuccessfulRequests: true,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     message: tooMany('Too many sign-in attempts from this address. Wait a few minutes and try again.'),
   });
-  const { signIn, signInAccount, forgotPerIp, forgotPerAccount, decisionPassword } = api.throttles;
   const accountKey = (email: string) => `${email.trim().toLowerCase()}|`;
 
   api.route(
@@ -71,19 +73,19 @@ export function registerAuthRoutes(api: Api): void {
       // spread over many addresses). A successful reset clears both.
       const here = `${accountKey(body.email)}${req.ip ?? ''}`;
       const everywhere = `${accountKey(body.email)}*`;
-      if (signIn.blocked(here) || signInAccount.blocked(everywhere)) {
+      if ((await signIn.blocked(here)) || (await signInAccount.blocked(everywhere))) {
         throw new HttpError(429, 'rate_limited', 'Too many failed sign-ins for this account. Wait 15 minutes or reset the password.');
       }
       const u = await db.selectFrom('users').select(['id', 'password_hash', 'active']).where('email', '=', body.email).executeTakeFirst();
       const ok = await bcrypt.compare(body.password, u?.password_hash ?? DUMMY_HASH);
       if (!u || !ok || !u.active || !u.password_hash) {
-        signIn.hit(here);
-        signInAccount.hit(everywhere);
+        await signIn.hit(here);
+        await signInAccount.hit(everywhere);
         throw new HttpError(401, 'bad_credentials', 'That e-mail and password do not match an active account.');
       }
       await signInSession(req, u.id);
       // Signing in proves the password: the count of wrong ones under decisions starts again.
-      decisionPassword.clear(`${u.id}|`);
+      await decisionPassword.clear(`${u.id}|`);
       await audit(db, { actorId: u.id, entity: 'user', entityId: u.id, action: 'signed-in' });
       return { user: await loadMe(db, u.id) };
     },
@@ -131,11 +133,11 @@ export function registerAuthRoutes(api: Api): void {
     async ({ req, body, res, deps }) => {
       // Per address: refused openly. Per account: quietly (the answer must not tell whether the
       // address has an account), so at most FORGOT_PER_ACCOUNT mails an hour.
-      if (!forgotPerIp.hit(req.ip ?? ''))
+      if (!(await forgotPerIp.hit(req.ip ?? '')))
         throw new HttpError(429, 'rate_limited', 'Too many password reset requests from this address. Wait a few minutes and try again.');
       // The same answer at once for known and unknown addresses; the work is done after it.
       res.status(202).json({ message: 'If that address has an account, a reset link is on its way.' });
-      if (!forgotPerAccount.hit(accountKey(body.email))) return;
+      if (!(await forgotPerAccount.hit(accountKey(body.email)))) return;
       void sendReset(body.email, deps).catch((e: unknown) => console.error('[forgot-password]', e));
     },
   );
@@ -185,7 +187,7 @@ export function registerAuthRoutes(api: Api): void {
     },
     async ({ body, deps }) => {
       const hash = await bcrypt.hash(body.password, BCRYPT_COST);
-      await db.transaction().execute(async (trx) => {
+      const email = await db.transaction().execute(async (trx) => {
         const row = await trx
           .updateTable('password_resets')
           .set({ used_at: deps.now() })
@@ -204,13 +206,14 @@ export function registerAuthRoutes(api: Api): void {
           .where('id', '=', row.user_id)
           .returning('email')
           .executeTakeFirstOrThrow();
-        // Every other session and reset link of that person ends, and the sign-in locks on the account clear.
+        // Every other session and reset link of that person ends (and, once committed, the sign-in locks on the account clear).
         await endSessionsOf(trx, row.user_id);
         await revokeResets(trx, row.user_id, deps.now());
-        signIn.clear(accountKey(person.email));
-        signInAccount.clear(accountKey(person.email));
         await audit(trx, { actorId: row.user_id, entity: 'user', entityId: row.user_id, action: 'password-reset' });
+        return person.email;
       });
+      await signIn.clear(accountKey(email));
+      await signInAccount.clear(accountKey(email));
     },
   );
 

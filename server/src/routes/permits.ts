@@ -282,7 +282,7 @@ export function registerPermitRoutes(api: Api): void {
           'Too many wrong passwords under a decision: you have been signed out. Sign in again to continue.',
         );
       };
-      if (transitionRules[body.action].signed && decisionPassword.blocked(key)) throw await signOff();
+      if (transitionRules[body.action].signed && (await decisionPassword.blocked(key))) throw await signOff();
       return answerWithPermit(res, params.id, { id: user.id, role: site?.role ?? null }, async () => {
         try {
           return await transition(deps, params.id, body.action, userActor(user), {
@@ -294,8 +294,8 @@ export function registerPermitRoutes(api: Api): void {
           });
         } catch (err) {
           if (err instanceof WrongPasswordError) {
-            decisionPassword.hit(key);
-            if (decisionPassword.blocked(key)) throw await signOff();
+            await decisionPassword.hit(key);
+            if (await decisionPassword.blocked(key)) throw await signOff();
           }
           throw err;
         }
