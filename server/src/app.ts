@@ -5,6 +5,7 @@ import express, { type Express } from 'express';
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import helmet from 'helmet';
+import compression from 'compression';
 import pg from 'pg';
 import { createPool } from '@db/database';
 import type { Deps } from './deps';
@@ -23,6 +24,7 @@ import { registerUploadRoutes } from './routes/uploads';
 import { registerPermitRoutes } from './routes/permits';
 import { registerInspectionRoutes } from './routes/inspections';
 import { registerPushRoutes } from './routes/push';
+import { pageShell } from './shell';
 
 const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../dist/client');
 
@@ -63,6 +65,9 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
       crossOriginEmbedderPolicy: false,
     }),
   );
+
+  // gzip for whatever a browser accepts it for (the scripts, styles and page; JSON answers over 1 KB).
+  app.use(compression());
 
   if (opts.log ?? config.env !== 'test') {
     app.use((req, res, next) => {
@@ -133,11 +138,12 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));
 
-  if (existsSync(clientDir)) {
+  if (existsSync(path.join(clientDir, 'index.html'))) {
+    const shell = pageShell(clientDir);
     app.use(express.static(clientDir, { index: false, maxAge: '1h', setHeaders: noCacheForShell }));
-    app.get(/^(?!\/api\/).*/, (_req, res) => {
+    app.get(/^(?!\/api\/).*/, (req, res) => {
       res.setHeader('Cache-Control', 'no-cache');
-      res.sendFile(path.join(clientDir, 'index.html'));
+      res.type('html').send(shell(req.path));
     });
   }
   app.use(errorHandler);

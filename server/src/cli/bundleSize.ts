@@ -8,6 +8,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
+import { entryModules, moduleFiles, PAGES, readManifest } from '../clientPages';
 
 /** Budgets of issue 14 (bytes, gzip; 1 KB = 1000 bytes, as the issue counts). */
 export const BUDGET = {
@@ -16,61 +17,6 @@ export const BUDGET = {
   /** Any page's first load. */
   page: 350_000,
 } as const;
-
-const signedIn = 'src/app/Layout.tsx';
-const site = 'src/app/SiteScope.tsx';
-const auth = 'src/app/Layout.tsx'; // PublicLayout lives beside the signed-in frame
-
-/**
- * Pages by the module(s) their first open loads (keys of the manifest, relative to client/). Every
- * lazy route module must appear here (the test checks), so a new page cannot escape the budget.
- */
-export const PAGES: { page: string; modules: string[]; phone?: true; afterUse?: true }[] = [
-  { page: '/field and /field/permits/:id (phone view)', modules: ['src/features/field/pages.ts'], phone: true },
-  { page: '/sign-in', modules: [auth, 'src/features/auth/routes/SignInPage.tsx'] },
-  { page: '/forgot-password', modules: [auth, 'src/features/auth/routes/ForgotPasswordPage.tsx'] },
-  { page: '/reset-password', modules: [auth, 'src/features/auth/routes/ResetPasswordPage.tsx'] },
-  { page: '/invitations/accept', modules: [auth, 'src/features/auth/routes/AcceptInvitationPage.tsx'] },
-  {
-    page: '/sites/:id (dashboard)',
-    modules: [
-      signedIn,
-      site,
-      'src/features/dashboard/routes/DashboardPage.tsx',
-      'src/features/inspections/components/DuePanel.tsx',
-      'src/features/permits/components/DashboardPermits.tsx',
-    ],
-  },
-  { page: '/sites/:id/map', modules: [signedIn, site, 'src/features/map/routes/SiteMapPage.tsx'] },
-  // The drawing tools load when someone first draws or edits a shape: no first load, shown for reference.
-  {
-    page: '/sites/:id/map once drawing',
-    modules: [signedIn, site, 'src/features/map/routes/SiteMapPage.tsx', 'src/features/map/components/DrawTools.tsx'],
-    afterUse: true,
-  },
-  { page: '/sites/:id/register', modules: [signedIn, site, 'src/features/register/routes/RegisterPage.tsx'] },
-  { page: '/sites/:id/permits', modules: [signedIn, site, 'src/features/permits/routes/PermitListPage.tsx'] },
-  { page: '/sites/:id/permits/new', modules: [signedIn, site, 'src/features/permits/routes/NewPermitPage.tsx'] },
-  { page: '/sites/:id/inspections', modules: [signedIn, site, 'src/features/inspections/routes/InspectionsPage.tsx'] },
-  { page: '/sites/:id/excavations/:id/inspect', modules: [signedIn, site, 'src/features/inspections/routes/InspectPage.tsx'] },
-  { page: '/sites/:id/excavations/:id/inspections', modules: [signedIn, site, 'src/features/inspections/routes/HistoryPage.tsx'] },
-  { page: '/permits/:id', modules: [signedIn, 'src/features/permits/routes/PermitPage.tsx'] },
-  { page: '/permits/:id/edit (placing)', modules: [signedIn, 'src/features/permits/routes/PermitEditPage.tsx'] },
-  { page: '/plant', modules: [signedIn, 'src/features/plant/routes/PlantPage.tsx'] },
-  { page: '/admin/people', modules: [signedIn, 'src/features/admin/routes/PeoplePage.tsx'] },
-  { page: '/admin/sites', modules: [signedIn, 'src/features/admin/routes/SitesPage.tsx'] },
-  { page: '/admin/sites/:id', modules: [signedIn, 'src/features/admin/routes/SiteEditPage.tsx'] },
-  { page: '/admin/mail', modules: [signedIn, 'src/features/admin/routes/MailPage.tsx'] },
-];
-
-interface ManifestChunk {
-  file: string;
-  isEntry?: boolean;
-  isDynamicEntry?: boolean;
-  imports?: string[];
-  dynamicImports?: string[];
-}
-type Manifest = Record<string, ManifestChunk>;
 
 export interface PageBytes {
   page: string;
@@ -90,10 +36,6 @@ export interface BundleReport {
   unlisted: string[];
 }
 
-export function readManifest(dist: string): Manifest {
-  return JSON.parse(readFileSync(join(dist, '.vite', 'manifest.json'), 'utf8')) as Manifest;
-}
-
 /** Bytes per page of the client built in `dist` (default dist/client). */
 export function bundleReport(dist: string): BundleReport {
   const manifest = readManifest(dist);
@@ -107,23 +49,9 @@ export function bundleReport(dist: string): BundleReport {
     }
     return s;
   };
-  const closure = (keys: string[]): Set<string> => {
-    const seen = new Set<string>();
-    const visit = (key: string) => {
-      const c = manifest[key];
-      if (!c) throw new Error(`${key} is not in the build's manifest (renamed or no longer lazy?)`);
-      if (seen.has(c.file)) return;
-      seen.add(c.file);
-      for (const i of c.imports ?? []) visit(i);
-    };
-    keys.forEach(visit);
-    return seen;
-  };
-  const entries = Object.entries(manifest)
-    .filter(([, c]) => c.isEntry && c.file.endsWith('.js'))
-    .map(([k]) => k);
+  const entries = entryModules(manifest);
   const pages = PAGES.map(({ page, modules, phone, afterUse }) => {
-    const files = [...closure([...entries, ...modules])].filter((f) => f.endsWith('.js')).sort();
+    const files = moduleFiles(manifest, [...entries, ...modules]).scripts.sort();
     return {
       page,
       phone: Boolean(phone),
