@@ -236,9 +236,9 @@ export type ExcavationUpdate = Partial<ExcavationInput> & { version: number };
 
 // GeoJSON as the API answers it (stored shapes, already checked when they were saved).
 const position = z.array(z.number()).min(2);
-const lineAnswer = z.object({ type: z.literal('LineString'), coordinates: z.array(position) });
-const polygonAnswer = z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(position)) });
-const multiPolygonAnswer = z.object({ type: z.literal('MultiPolygon'), coordinates: z.array(z.array(z.array(position))) });
+export const lineAnswer = z.object({ type: z.literal('LineString'), coordinates: z.array(position) });
+export const polygonAnswer = z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(position)) });
+export const multiPolygonAnswer = z.object({ type: z.literal('MultiPolygon'), coordinates: z.array(z.array(z.array(position))) });
 
 /** An excavation as the API returns it. */
 export const excavationAnswer = z.object({

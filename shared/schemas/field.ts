@@ -1,6 +1,7 @@
 import { z } from 'zod';
-import type { LineString, MultiPolygon, Polygon } from 'geojson';
-import type { PermitSummary } from './permits';
+import { permitSummaryAnswer } from './permits';
+import { excavationStates } from './common';
+import { excavationKinds, lineAnswer, multiPolygonAnswer, polygonAnswer } from './excavations';
 import { concernNoteReason } from './concern';
 
 /**
@@ -31,98 +32,107 @@ export const concernFormSchema = z.object({
 });
 export type ConcernForm = z.infer<typeof concernFormSchema>;
 
-export interface Concern {
-  id: number;
-  permitId: number;
-  excavationId: number | null;
-  excavationReference: string;
-  note: string;
+const int = z.number().int();
+const isoTime = z.iso.datetime();
+
+export const concernAnswer = z.object({
+  id: int,
+  permitId: int,
+  excavationId: int.nullable(),
+  excavationReference: z.string(),
+  note: z.string(),
   /** Stored photos, each served by GET /api/uploads/:id to members of the site. */
-  photoIds: number[];
-  reporter: { id: number; name: string };
-  createdAt: string;
-  idempotencyKey: string;
-}
+  photoIds: z.array(int),
+  reporter: z.object({ id: int, name: z.string() }),
+  createdAt: isoTime,
+  idempotencyKey: z.string(),
+});
+export type Concern = z.output<typeof concernAnswer>;
+
+/** POST /api/permits/:id/concerns: the concern (the first one when the key was already used); `id` on a new one. */
+export const concernReportedAnswer = z.object({ concern: concernAnswer, replayed: z.boolean(), id: int.optional() });
+export type ConcernReported = z.output<typeof concernReportedAnswer>;
+
+const zone = z.discriminatedUnion('type', [polygonAnswer, multiPolygonAnswer]);
 
 /** An excavation a permit names, with its zones for the phone's map and reading. */
-export interface FieldExcavation {
-  id: number;
-  reference: string;
-  name: string;
-  kind: 'trench' | 'pit';
-  state: 'planned' | 'open' | 'backfilled';
-  depth: number;
-  supportLabel: string;
+export const fieldExcavationAnswer = z.object({
+  id: int,
+  reference: z.string(),
+  name: z.string(),
+  kind: z.enum(excavationKinds),
+  state: z.enum(excavationStates),
+  depth: z.number(),
+  supportLabel: z.string(),
   /** The shape as the shared geometry reads it: a trench's centre line with its width, or a pit's outline. */
-  shape: { kind: 'trench'; centreLine: LineString; width: number } | { kind: 'pit'; outline: Polygon };
+  shape: z.discriminatedUnion('kind', [
+    z.object({ kind: z.literal('trench'), centreLine: lineAnswer, width: z.number() }),
+    z.object({ kind: z.literal('pit'), outline: polygonAnswer }),
+  ]),
   /** The outline on the ground (WGS84). */
-  outline: Polygon;
+  outline: polygonAnswer,
   /** Ground within the depth H of the edge: ISO 3864 warning yellow on the map. */
-  influenceZone: Polygon | MultiPolygon;
+  influenceZone: zone,
   /** Where no part of the permitted load may go: within `standoff` of the edge. Null when none was set. */
-  exclusionZone: Polygon | MultiPolygon | null;
+  exclusionZone: zone.nullable(),
   /** Distance (m) of the exclusion zone's boundary from the excavation's edge. */
-  standoff: number | null;
-}
+  standoff: z.number().nullable(),
+});
+export type FieldExcavation = z.output<typeof fieldExcavationAnswer>;
 
 /** A load the permit allows, as drawn on the ground. */
-export interface FieldFootprint {
-  label: string;
-  geometry: Polygon | LineString;
-}
+export const fieldFootprintAnswer = z.object({ label: z.string(), geometry: z.discriminatedUnion('type', [polygonAnswer, lineAnswer]) });
+export type FieldFootprint = z.output<typeof fieldFootprintAnswer>;
 
-export interface FieldOperator {
-  id: number;
-  name: string;
-  briefedAt: string | null;
-}
+export const fieldOperatorAnswer = z.object({ id: int, name: z.string(), briefedAt: isoTime.nullable() });
+export type FieldOperator = z.output<typeof fieldOperatorAnswer>;
+
+const latLng = z.object({ latitude: z.number(), longitude: z.number() });
 
 /** One permit as the phone shows it: its summary, then what the operator needs on the ground. */
-export interface FieldPermit extends Pick<
-  PermitSummary,
-  | 'id'
-  | 'number'
-  | 'siteId'
-  | 'siteName'
-  | 'kind'
-  | 'status'
-  | 'statusLabel'
-  | 'version'
-  | 'revision'
-  | 'description'
-  | 'windowStart'
-  | 'windowEnd'
-> {
-  /** The site's origin: the centre of the local projection the geometry is measured in. */
-  origin: { latitude: number; longitude: number };
-  /** The permitted position: the middle of the permitted loads (or of the excavations for a dig). */
-  centre: { latitude: number; longitude: number };
-  /** The standoff that governs this permit (m): the largest exclusion distance of its excavations. */
-  standoff: number | null;
-  /** The site's least clearance from any edge (m), which no standoff goes below. */
-  minimumClearance: number;
-  conditions: string[];
-  decidedBy: { name: string; at: string } | null;
-  operators: FieldOperator[];
-  /** Whether the person reading is named on the permit, and their briefing. */
-  named: boolean;
-  myBriefedAt: string | null;
-  /** Named, not confirmed yet, and the permit is approved or later (the briefing comes after approval). */
-  briefingDue: boolean;
-  excavations: FieldExcavation[];
-  footprints: FieldFootprint[];
-  concerns: Concern[];
-  caution: string;
-}
+export const fieldPermitAnswer = permitSummaryAnswer
+  .pick({
+    id: true,
+    number: true,
+    siteId: true,
+    siteName: true,
+    kind: true,
+    status: true,
+    statusLabel: true,
+    version: true,
+    revision: true,
+    description: true,
+    windowStart: true,
+    windowEnd: true,
+  })
+  .extend({
+    /** The site's origin: the centre of the local projection the geometry is measured in. */
+    origin: latLng,
+    /** The permitted position: the middle of the permitted loads (or of the excavations for a dig). */
+    centre: latLng,
+    /** The standoff that governs this permit (m): the largest exclusion distance of its excavations. */
+    standoff: z.number().nullable(),
+    /** The site's least clearance from any edge (m), which no standoff goes below. */
+    minimumClearance: z.number(),
+    conditions: z.array(z.string()),
+    decidedBy: z.object({ name: z.string(), at: isoTime }).nullable(),
+    operators: z.array(fieldOperatorAnswer),
+    /** Whether the person reading is named on the permit, and their briefing. */
+    named: z.boolean(),
+    myBriefedAt: isoTime.nullable(),
+    /** Named, not confirmed yet, and the permit is approved or later (the briefing comes after approval). */
+    briefingDue: z.boolean(),
+    excavations: z.array(fieldExcavationAnswer),
+    footprints: z.array(fieldFootprintAnswer),
+    concerns: z.array(concernAnswer),
+    caution: z.string(),
+  });
+export type FieldPermit = z.output<typeof fieldPermitAnswer>;
 
 /** GET /api/field/permits: the permits that name me; `asOf` is the server's time of the answer. */
-export interface FieldPermitsAnswer {
-  asOf: string;
-  permits: FieldPermit[];
-}
+export const fieldPermitsAnswer = z.object({ asOf: isoTime, permits: z.array(fieldPermitAnswer) });
+export type FieldPermitsAnswer = z.output<typeof fieldPermitsAnswer>;
 
 /** GET /api/field/permits/:id */
-export interface FieldPermitAnswer {
-  asOf: string;
-  permit: FieldPermit;
-}
+export const oneFieldPermitAnswer = z.object({ asOf: isoTime, permit: fieldPermitAnswer });
+export type FieldPermitAnswer = z.output<typeof oneFieldPermitAnswer>;

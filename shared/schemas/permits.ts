@@ -8,8 +8,7 @@
 import { z } from 'zod';
 import type { SiteRole } from './common';
 import { surchargeMethods } from './sites';
-import type { PlantElement } from './plant';
-import type { CheckResult } from '../engineering/types';
+import { plantElementSchema } from './plant';
 import { loadKinds } from './calc';
 
 // ---------------------------------------------------------------------------------------------
@@ -410,234 +409,122 @@ export const permitListQuerySchema = z.object({
 export type PermitListQuery = z.infer<typeof permitListQuerySchema>;
 
 // ---------------------------------------------------------------------------------------------
-// Answers
+// Answers: each is a zod schema, and its type is what the schema puts out. The server checks every
+// answer against its schema under NODE_ENV=test; the client takes the types (server/src/http.ts).
+// Stored jsonb (a check, a decision, snapshots) is parsed with the same schemas when read: a stored
+// shape that drifts fails loudly where it is read (and in the tests), never silently in a PDF.
 
-export interface PermitSummary {
-  id: number;
-  siteId: number;
-  siteName: string;
-  number: string;
-  kind: 'load' | 'dig';
-  status: PermitStatus;
-  statusLabel: string;
-  version: number;
-  revision: number;
-  description: string;
-  windowStart: string;
-  windowEnd: string;
-  excavationIds: number[];
-  requestedBy: { id: number; name: string };
+const int = z.number().int();
+const isoTime = z.iso.datetime();
+const nullableNumber = z.number().nullable();
+const personRef = z.object({ id: int, name: z.string() });
+const verdictSchema = z.enum(['fails', 'close', 'passes']);
+
+export const permitSummaryAnswer = z.object({
+  id: int,
+  siteId: int,
+  siteName: z.string(),
+  number: z.string(),
+  kind: z.enum(permitKinds),
+  status: z.enum(permitStatuses),
+  statusLabel: z.string(),
+  version: int,
+  revision: int,
+  description: z.string(),
+  windowStart: isoTime,
+  windowEnd: isoTime,
+  excavationIds: z.array(int),
+  requestedBy: personRef,
   /** The governing utilisation of the last check, and whether it passed (null before any check). */
-  utilisation: number | null;
-  passes: boolean | null;
-  updatedAt: string;
-}
+  utilisation: nullableNumber,
+  passes: z.boolean().nullable(),
+  updatedAt: isoTime,
+});
+export type PermitSummary = z.output<typeof permitSummaryAnswer>;
 
-export interface PermitDecision {
-  action: 'approve' | 'return' | 'decline';
-  by: { id: number; name: string };
-  at: string;
-  reason: string;
+/**
+ * A coordinator's decision (permit_revisions.decision). Decisions stored before the computed
+ * standoff was recorded (the demo seed's too) have no `computedStandoff`: it stays absent.
+ */
+export const permitDecisionSchema = z.object({
+  action: z.enum(['approve', 'return', 'decline']),
+  by: personRef,
+  at: isoTime,
+  reason: z.string(),
   /** The standoff the coordinator set (m), or null when approved as placed. */
-  standoff: number | null;
-  /** The computed standoff when the decision was made (m; null when no offset works; absent where none was recorded, as in demo data). */
-  computedStandoff?: number | null;
-  conditions: string[];
+  standoff: nullableNumber,
+  /** The computed standoff when the decision was made (m; null when no offset works; absent where none was recorded). */
+  computedStandoff: nullableNumber.optional(),
+  conditions: z.array(z.string()),
   /** "Signed by typing the password": name and time. */
-  signature: string;
-}
+  signature: z.string(),
+});
+export type PermitDecision = z.output<typeof permitDecisionSchema>;
 
-export interface PermitOperator {
-  id: number;
-  name: string;
-  email: string;
-  briefedAt: string | null;
-}
+export const permitOperatorAnswer = z.object({ id: int, name: z.string(), email: z.string(), briefedAt: isoTime.nullable() });
+export type PermitOperator = z.output<typeof permitOperatorAnswer>;
 
-export interface PermitEvent {
-  id: number;
-  revision: number;
-  at: string;
-  actor: { id: number | null; name: string };
-  action: string;
-  fromStatus: PermitStatus | null;
-  toStatus: PermitStatus | null;
-  comment: string;
-  detail: Record<string, unknown>;
-}
+export const permitEventAnswer = z.object({
+  id: int,
+  revision: int,
+  at: isoTime,
+  actor: z.object({ id: int.nullable(), name: z.string() }),
+  action: z.string(),
+  fromStatus: z.enum(permitStatuses).nullable(),
+  toStatus: z.enum(permitStatuses).nullable(),
+  comment: z.string(),
+  detail: z.record(z.string(), z.unknown()),
+});
+export type PermitEvent = z.output<typeof permitEventAnswer>;
 
-export interface PermitAttachment {
-  id: number;
-  revision: number;
-  kind: AttachmentKind;
-  name: string;
-  mime: string;
-  size: number;
-  addedBy: string;
-  addedAt: string;
-  url: string;
-}
+export const permitAttachmentAnswer = z.object({
+  id: int,
+  revision: int,
+  kind: z.enum(attachmentKinds),
+  name: z.string(),
+  mime: z.string(),
+  size: z.number(),
+  addedBy: z.string(),
+  addedAt: isoTime,
+  url: z.string(),
+});
+export type PermitAttachment = z.output<typeof permitAttachmentAnswer>;
 
 /** A machine of the plant library as a revision's check used it (element loads and footprints). */
-export interface SnapshotMachine {
-  id: number;
-  name: string;
-  operatingMass: number;
-  designFactor: number;
-  elements: PlantElement[];
+export const snapshotMachineSchema = z.object({
+  id: int,
+  name: z.string(),
+  operatingMass: z.number(),
+  designFactor: z.number(),
+  elements: z.array(plantElementSchema),
   /** The library entry's version and last change when it was taken. */
-  version: number;
-  updatedAt: string;
-}
+  version: int,
+  updatedAt: isoTime,
+});
+export type SnapshotMachine = z.output<typeof snapshotMachineSchema>;
 
 /**
  * The machines a revision's loads name, frozen when it was sent for review: from then on its check
  * uses these, so a later change to the shared plant library changes drafts only.
  */
-export interface PlantSnapshot {
-  takenAt: string;
-  machines: SnapshotMachine[];
-}
+export const plantSnapshotSchema = z.object({ takenAt: isoTime, machines: z.array(snapshotMachineSchema) });
+export type PlantSnapshot = z.output<typeof plantSnapshotSchema>;
 
 /** The check inputs of the excavations a revision's last stored check used, with their register version. */
-export interface ExcavationSnapshot {
-  takenAt: string;
-  excavations: ({ id: number; reference: string; name: string; version: number } & Record<string, unknown>)[];
-}
+export const excavationSnapshotSchema = z.object({
+  takenAt: isoTime,
+  excavations: z.array(z.looseObject({ id: int, reference: z.string(), name: z.string(), version: int })),
+});
+export type ExcavationSnapshot = z.output<typeof excavationSnapshotSchema>;
 
-export interface PermitRevision {
-  revision: number;
-  description: string;
-  windowStart: string;
-  windowEnd: string;
-  excavationIds: number[];
-  method: 'dispersion-45' | 'elastic';
-  loads: PlacedLoad[];
-  dig: DigDetails | null;
-  operators: PermitOperator[];
-  check: PermitCheck | null;
-  checkedAt: string | null;
-  decision: PermitDecision | null;
-  /** The machines its check uses from review on (null for a draft, or a revision stored before snapshots). */
-  plantSnapshot: PlantSnapshot | null;
-  /** The excavation inputs its last stored check used (null before any). */
-  excavationSnapshot: ExcavationSnapshot | null;
-  createdAt: string;
-}
-
-export interface PermitDetail extends PermitSummary {
-  current: PermitRevision;
-  /** Every revision's number, newest first; GET /api/permits/:id/revisions/:revision shows one. */
-  revisions: { revision: number; createdAt: string; decision: PermitDecision['action'] | null }[];
-  events: PermitEvent[];
-  attachments: PermitAttachment[];
-  /** What the signed-in person may do now. */
-  actions: PermitAction[];
-  /** Whether the signed-in person is named on the permit and still has to confirm the briefing. */
-  briefingDue: boolean;
-  caution: string;
-}
-
-// The cumulative check, per excavation
-
-export interface CheckedLoad {
-  /** The id the engine saw (`<permit number>/<load id>/<element>`). */
-  engineId: string;
-  permitId: number | null;
-  permitNumber: string;
-  loadId: string;
-  label: string;
-  /** The bearing element of a plant item (track, pad, wheel), or '' for an ad hoc load. */
-  element: string;
-  kind: 'area' | 'strip' | 'line' | 'point';
-  /** Clear distance from the excavation edge (m). */
-  offset: number;
-  /** Force on the support of this load alone (kN/m). */
-  force: number;
-  /** The least offset at which this load alone passes (m), or null when none within 3H. */
-  standoff: number | null;
-  /** A load of this permit (false: of another permit counted in the cumulative check). */
-  own: boolean;
-}
-
-export interface CountedPermit {
-  id: number;
-  number: string;
-  status: PermitStatus;
-  windowStart: string;
-  windowEnd: string;
-}
-
-export type CheckedResult = Omit<CheckResult, 'profile'> & Partial<Pick<CheckResult, 'profile'>>;
-
-export interface ExcavationCheck {
-  excavationId: number;
-  /** False for an open excavation the permit does not name but whose influence zone a load reaches (checked all the same). */
-  named?: boolean;
-  reference: string;
-  name: string;
-  depth: number;
-  /** The engine's request (shared/engineering) and result, as run. */
-  request: unknown;
-  /** The engine's result; without its pressure profile in the answer to POST /api/permits/:id/check (`withoutProfiles`). */
-  result: CheckedResult;
-  loads: CheckedLoad[];
-  /**
-   * Each of this permit's placed loads: its nearest clear distance now and its standoff (m). A
-   * machine's elements move together, so its standoff is that of all of them at once.
-   */
-  loadStandoffs: {
-    loadId: string;
-    label: string;
-    offset: number;
-    standoff: number | null;
-    /**
-     * Clear distances (m) at which this load alone fails, nearest first (docs/calculation.md,
-     * "Standoff"); absent on checks stored before they were recorded.
-     */
-    failingBands?: { from: number; to: number }[];
-  }[];
-  /** Other approved, live or suspended permits whose window overlaps, counted in this check. */
-  counted: CountedPermit[];
-  /** The largest of `loadStandoffs` (m); null when one has none. */
-  standoff: number | null;
-  verdict: Verdict;
-}
-
-/** A permit whose loads share an excavation and an overlapping window with the one checked. */
-export interface OtherPermit extends CountedPermit {
-  excavationIds: number[];
-  loads: PlacedLoad[];
-}
-
-export interface PermitCheck {
-  checkedAt: string;
-  method: 'dispersion-45' | 'elastic';
-  excavations: ExcavationCheck[];
-  /** Worst over the excavations. */
-  utilisation: number | null;
-  passes: boolean;
-  verdict: Verdict;
-  /** The largest standoff over every load and excavation (m); null when some load has none. */
-  computedStandoff: number | null;
-  /** Labels of the loads farther than the influence zone of every named excavation. */
-  outsideInfluence: string[];
-  /** The other permits counted, with their loads as they were: what the check added up. */
-  otherPermits: OtherPermit[];
-  warnings: string[];
-  caution: string;
-}
-
-// ---------------------------------------------------------------------------------------------
-// A stored check (permit_revisions.check_result), parsed when read: a stored shape that drifts from
-// PermitCheck fails loudly where it is read (and in the tests), never silently in a PDF. Checks are
-// stored whole and never migrated; the fields added after the first checks were stored are accepted
-// absent, explicitly: `named` (true), `failingBands` (none recorded), the engine's `caution` ('').
+// The cumulative check, per excavation. Checks are stored whole and never migrated; the fields added
+// after the first checks were stored are accepted absent, explicitly: `named` (true), `failingBands`
+// (none recorded), the engine's `caution` ('').
 
 const offsetBandSchema = z.object({ from: z.number(), to: z.number() });
-const nullableNumber = z.number().nullable();
 
-export const checkResultSchema: z.ZodType<CheckedResult> = z.object({
+/** The engine's result (shared/engineering, CheckResult: shared/permits/check.ts stores it as this type); the pressure profile is left out of the check route's answer. */
+export const checkResultSchema = z.object({
   method: z.enum(surchargeMethods),
   coefficients: z.array(z.object({ top: z.number(), K: z.number() })),
   profile: z
@@ -666,39 +553,56 @@ export const checkResultSchema: z.ZodType<CheckedResult> = z.object({
   warnings: z.array(z.string()),
   caution: z.string().default(''),
 });
+export type CheckedResult = z.output<typeof checkResultSchema>;
 
-const verdictSchema = z.enum(['fails', 'close', 'passes']);
-const countedPermitSchema = z.object({
-  id: z.number().int(),
+export const checkedLoadSchema = z.object({
+  /** The id the engine saw (`<permit number>/<load id>/<element>`). */
+  engineId: z.string(),
+  permitId: int.nullable(),
+  permitNumber: z.string(),
+  loadId: z.string(),
+  label: z.string(),
+  /** The bearing element of a plant item (track, pad, wheel), or '' for an ad hoc load. */
+  element: z.string(),
+  kind: z.enum(['area', 'strip', 'line', 'point']),
+  /** Clear distance from the excavation edge (m). */
+  offset: z.number(),
+  /** Force on the support of this load alone (kN/m). */
+  force: z.number(),
+  /** The least offset at which this load alone passes (m), or null when none within 3H. */
+  standoff: nullableNumber,
+  /** A load of this permit (false: of another permit counted in the cumulative check). */
+  own: z.boolean(),
+});
+export type CheckedLoad = z.output<typeof checkedLoadSchema>;
+
+export const countedPermitSchema = z.object({
+  id: int,
   number: z.string(),
   status: z.enum(permitStatuses),
   windowStart: z.string(),
   windowEnd: z.string(),
 });
+export type CountedPermit = z.output<typeof countedPermitSchema>;
 
-export const excavationCheckSchema: z.ZodType<ExcavationCheck> = z.object({
-  excavationId: z.number().int(),
+export const excavationCheckSchema = z.object({
+  excavationId: int,
+  /** False for an open excavation the permit does not name but whose influence zone a load reaches (checked all the same). */
   named: z.boolean().default(true),
   reference: z.string(),
   name: z.string(),
   depth: z.number(),
+  /** The engine's request (shared/engineering), as run. */
   request: z.unknown(),
+  /** The engine's result; without its pressure profile in the answer to POST /api/permits/:id/check (`withoutProfiles`). */
   result: checkResultSchema,
-  loads: z.array(
-    z.object({
-      engineId: z.string(),
-      permitId: z.number().int().nullable(),
-      permitNumber: z.string(),
-      loadId: z.string(),
-      label: z.string(),
-      element: z.string(),
-      kind: z.enum(['area', 'strip', 'line', 'point']),
-      offset: z.number(),
-      force: z.number(),
-      standoff: nullableNumber,
-      own: z.boolean(),
-    }),
-  ),
+  loads: z.array(checkedLoadSchema),
+  /**
+   * Each of this permit's placed loads: its nearest clear distance now and its standoff (m). A
+   * machine's elements move together, so its standoff is that of all of them at once.
+   * `failingBands`: clear distances (m) at which this load alone fails, nearest first
+   * (docs/calculation.md, "Standoff"); absent on checks stored before they were recorded.
+   */
   loadStandoffs: z.array(
     z.object({
       loadId: z.string(),
@@ -708,24 +612,36 @@ export const excavationCheckSchema: z.ZodType<ExcavationCheck> = z.object({
       failingBands: z.array(offsetBandSchema).optional(),
     }),
   ),
+  /** Other approved, live or suspended permits whose window overlaps, counted in this check. */
   counted: z.array(countedPermitSchema),
+  /** The largest of `loadStandoffs` (m); null when one has none. */
   standoff: nullableNumber,
   verdict: verdictSchema,
 });
+export type ExcavationCheck = z.output<typeof excavationCheckSchema>;
 
-export const permitCheckSchema: z.ZodType<PermitCheck> = z.object({
+/** A permit whose loads share an excavation and an overlapping window with the one checked. */
+export const otherPermitSchema = countedPermitSchema.extend({ excavationIds: z.array(int), loads: z.array(placedLoadSchema) });
+export type OtherPermit = z.output<typeof otherPermitSchema>;
+
+export const permitCheckSchema = z.object({
   checkedAt: z.string(),
   method: z.enum(surchargeMethods),
   excavations: z.array(excavationCheckSchema),
+  /** Worst over the excavations. */
   utilisation: nullableNumber,
   passes: z.boolean(),
   verdict: verdictSchema,
+  /** The largest standoff over every load and excavation (m); null when some load has none. */
   computedStandoff: nullableNumber,
+  /** Labels of the loads farther than the influence zone of every named excavation. */
   outsideInfluence: z.array(z.string()),
-  otherPermits: z.array(countedPermitSchema.extend({ excavationIds: z.array(z.number().int()), loads: z.array(placedLoadSchema) })),
+  /** The other permits counted, with their loads as they were: what the check added up. */
+  otherPermits: z.array(otherPermitSchema),
   warnings: z.array(z.string()),
   caution: z.string(),
 });
+export type PermitCheck = z.output<typeof permitCheckSchema>;
 
 /** A stored check as PermitCheck (null when none is stored); throws naming the path of a field that drifted. */
 export function storedCheck(json: unknown): PermitCheck | null {
@@ -737,3 +653,69 @@ export function storedCheck(json: unknown): PermitCheck | null {
     );
   return r.data;
 }
+
+export const permitRevisionAnswer = z.object({
+  revision: int,
+  description: z.string(),
+  windowStart: isoTime,
+  windowEnd: isoTime,
+  excavationIds: z.array(int),
+  method: z.enum(surchargeMethods),
+  loads: z.array(placedLoadSchema),
+  dig: digDetailsSchema.nullable(),
+  operators: z.array(permitOperatorAnswer),
+  check: permitCheckSchema.nullable(),
+  checkedAt: isoTime.nullable(),
+  decision: permitDecisionSchema.nullable(),
+  /** The machines its check uses from review on (null for a draft, or a revision stored before snapshots). */
+  plantSnapshot: plantSnapshotSchema.nullable(),
+  /** The excavation inputs its last stored check used (null before any). */
+  excavationSnapshot: excavationSnapshotSchema.nullable(),
+  createdAt: isoTime,
+});
+export type PermitRevision = z.output<typeof permitRevisionAnswer>;
+
+export const permitDetailAnswer = permitSummaryAnswer.extend({
+  current: permitRevisionAnswer,
+  /** Every revision's number, newest first; GET /api/permits/:id/revisions/:revision shows one. */
+  revisions: z.array(z.object({ revision: int, createdAt: isoTime, decision: permitDecisionSchema.shape.action.nullable() })),
+  events: z.array(permitEventAnswer),
+  attachments: z.array(permitAttachmentAnswer),
+  /** What the signed-in person may do now. */
+  actions: z.array(z.enum(permitActions)),
+  /** Whether the signed-in person is named on the permit and still has to confirm the briefing. */
+  briefingDue: z.boolean(),
+  caution: z.string(),
+});
+export type PermitDetail = z.output<typeof permitDetailAnswer>;
+
+/** GET /api/permits */
+export const permitsAnswer = z.object({ permits: z.array(permitSummaryAnswer) });
+/** One permit as it now is: GET /api/permits/:id and every change (create, PATCH, transitions). */
+export const onePermitAnswer = z.object({ permit: permitDetailAnswer });
+/** GET /api/permits/:id/revisions/:revision */
+export const oneRevisionAnswer = z.object({ revision: permitRevisionAnswer });
+/** The check of a permit (with changes not saved) or of a request not saved yet, without pressure profiles. */
+export const permitCheckAnswer = z.object({ check: permitCheckSchema });
+export type PermitCheckAnswer = z.output<typeof permitCheckAnswer>;
+
+/** GET /api/sites/:siteId/operators: the site's operators, and those named on the caller's latest request there. */
+export const siteOperatorsAnswer = z.object({
+  operators: z.array(z.object({ id: int, name: z.string(), email: z.string() })),
+  lastUsed: z.array(int),
+});
+export type SiteOperators = z.output<typeof siteOperatorsAnswer>;
+export type SiteOperator = SiteOperators['operators'][number];
+
+/** POST /api/permits/:id/briefing: when the operator confirmed it (the first confirmation stays), and the permit's status. */
+export const briefingAnswer = z.object({ briefing: z.object({ briefedAt: isoTime, status: z.enum(permitStatuses) }) });
+export type BriefingAnswer = z.output<typeof briefingAnswer>;
+
+/** POST /api/permits/:id/comments */
+export const commentAddedAnswer = z.object({ ok: z.literal(true) });
+
+/** POST /api/permits/:id/attachments */
+export const attachmentAddedAnswer = z.object({
+  attachment: z.object({ id: int, kind: z.enum(attachmentKinds), name: z.string(), mime: z.string(), size: z.number(), url: z.string() }),
+});
+export type AttachmentAdded = z.output<typeof attachmentAddedAnswer>['attachment'];

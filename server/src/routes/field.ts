@@ -6,8 +6,9 @@ import {
   CONCERN_PHOTOS_MAX,
   concernFormSchema,
   idempotencyKeySchema,
-  type FieldPermitAnswer,
-  type FieldPermitsAnswer,
+  concernReportedAnswer,
+  fieldPermitsAnswer,
+  oneFieldPermitAnswer,
 } from '@shared/schemas/field';
 import { Api, badRequest, conflict, notFound, parseOr400, siteOfRow } from '../http';
 import { notice } from '../mail/mailer';
@@ -51,8 +52,9 @@ export function registerFieldRoutes(api: Api): void {
         'The permits that name me as an operator (approved, live, suspended, or closed in the last 12 hours), each with its zones, for the phone',
       tag: 'Field',
       access: { kind: 'signedIn' },
+      response: fieldPermitsAnswer,
     },
-    async ({ user, deps }): Promise<FieldPermitsAnswer> => {
+    async ({ user, deps }) => {
       const now = deps.now();
       const ids = await permitsNaming(db, user.id, now);
       const permits = [];
@@ -69,8 +71,9 @@ export function registerFieldRoutes(api: Api): void {
       tag: 'Field',
       access: { kind: 'site', roles: 'any', admin: true, siteId: permitSite },
       params: idParams,
+      response: oneFieldPermitAnswer,
     },
-    async ({ params, user, deps }): Promise<FieldPermitAnswer> => {
+    async ({ params, user, deps }) => {
       const permit = await loadFieldPermit(db, params.id, user.id);
       if (!permit) throw notFound('That permit');
       return { asOf: deps.now().toISOString(), permit };
@@ -90,6 +93,7 @@ export function registerFieldRoutes(api: Api): void {
       before: [receiveFiles(['photo'], limits.image, CONCERN_PHOTOS_MAX)],
       files: ['photo'],
       body: concernFormSchema,
+      response: concernReportedAnswer,
       responses: { 201: 'Reported', 200: 'Already reported with this key' },
     },
     async ({ req, res, params, body, user, site, deps }) => {

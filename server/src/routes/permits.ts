@@ -12,6 +12,14 @@ import {
   transitionRules,
   transitionSchema,
   type PermitStatus,
+  attachmentAddedAnswer,
+  briefingAnswer,
+  commentAddedAnswer,
+  onePermitAnswer,
+  oneRevisionAnswer,
+  permitCheckAnswer,
+  permitsAnswer,
+  siteOperatorsAnswer,
 } from '@shared/schemas/permits';
 import { Api, badRequest, conflict, forbidden, HttpError, notFound, siteFromParam, siteOfRow } from '../http';
 import { audit } from '../services/audit';
@@ -57,7 +65,9 @@ export function registerPermitRoutes(api: Api): void {
         .json({ error: { code: err.code, message: err.message, fields: err.fields }, permit: await loadDetail(db, id, viewer) });
       return;
     }
-    return { permit: await loadDetail(db, id, viewer) };
+    const permit = await loadDetail(db, id, viewer);
+    if (!permit) throw notFound('That permit');
+    return { permit };
   }
 
   api.route(
@@ -65,6 +75,7 @@ export function registerPermitRoutes(api: Api): void {
       method: 'get',
       path: '/api/sites/:siteId/operators',
       summary: 'The plant operators of a site, to name on a permit',
+      response: siteOperatorsAnswer,
       tag: 'Permits',
       access: { kind: 'site', roles: ['supervisor', 'coordinator'], admin: true, siteId: siteFromParam },
       params: z.object({ siteId: idSchema }),
@@ -109,6 +120,7 @@ export function registerPermitRoutes(api: Api): void {
       access: { kind: 'site', roles: ['supervisor', 'coordinator'], admin: true, siteId: siteFromParam },
       params: z.object({ siteId: idSchema }),
       body: checkProposalSchema,
+      response: permitCheckAnswer,
     },
     async ({ params, body, deps }) => {
       if (!body.windowStart || !body.windowEnd) {
@@ -157,6 +169,7 @@ export function registerPermitRoutes(api: Api): void {
         },
       },
       body: permitCreateSchema,
+      response: onePermitAnswer,
       responses: { 201: 'Created' },
     },
     async ({ body, user, res, deps }) => {
@@ -174,6 +187,7 @@ export function registerPermitRoutes(api: Api): void {
       tag: 'Permits',
       access: { kind: 'signedIn' },
       query: permitListQuerySchema,
+      response: permitsAnswer,
     },
     async ({ query, user }) => {
       if (query.siteId && !user.isAdmin) {
@@ -194,6 +208,7 @@ export function registerPermitRoutes(api: Api): void {
       method: 'get',
       path: '/api/permits/:id',
       summary: 'One permit: its current revision, check, decision, operators, timeline and attachments',
+      response: onePermitAnswer,
       tag: 'Permits',
       access: members,
       params: idParams,
@@ -213,6 +228,7 @@ export function registerPermitRoutes(api: Api): void {
       tag: 'Permits',
       access: members,
       params: revisionParams,
+      response: oneRevisionAnswer,
     },
     async ({ params }) => {
       const revision = await loadRevision(db, params.id, params.revision);
@@ -230,6 +246,7 @@ export function registerPermitRoutes(api: Api): void {
       access: { ...members, roles: ['supervisor'], admin: false },
       params: idParams,
       body: permitUpdateSchema,
+      response: onePermitAnswer,
     },
     async ({ params, body, user, site, deps, res }) =>
       answerWithPermit(res, params.id, { id: user.id, role: site?.role ?? null }, () => updatePermit(deps, user, params.id, body)),
@@ -245,6 +262,7 @@ export function registerPermitRoutes(api: Api): void {
       access: { ...members, roles: ['supervisor', 'coordinator'] },
       params: idParams,
       body: checkProposalSchema,
+      response: permitCheckAnswer,
     },
     async ({ params, body, deps }) => ({ check: withoutProfiles(await checkProposal(db, params.id, body, deps.now())) }),
   );
@@ -266,6 +284,7 @@ export function registerPermitRoutes(api: Api): void {
         await assertMayAct(db, p, (rawBody as { action?: unknown } | undefined)?.action, userActor(user));
       },
       body: transitionSchema,
+      response: onePermitAnswer,
       responses: { 401: 'Signed out after too many wrong passwords under decisions' },
     },
     async ({ params, body, user, site, deps, req, res }) => {
@@ -312,6 +331,7 @@ export function registerPermitRoutes(api: Api): void {
       access: { ...members, roles: ['operator'], admin: false },
       params: idParams,
       body: briefingBodySchema,
+      response: briefingAnswer,
     },
     async ({ params, body, user, deps }) => ({ briefing: await confirmBriefing(deps, params.id, user, { revision: body.revision }) }),
   );
@@ -325,6 +345,7 @@ export function registerPermitRoutes(api: Api): void {
       access: { ...members, admin: false },
       params: idParams,
       body: commentSchema,
+      response: commentAddedAnswer,
       responses: { 201: 'Added' },
     },
     async ({ params, body, user, deps, res }) => {
@@ -364,6 +385,7 @@ export function registerPermitRoutes(api: Api): void {
       before: [receiveFiles(['file'], limits.pdfOrImage)],
       files: ['file'],
       body: attachmentFormSchema,
+      response: attachmentAddedAnswer,
       responses: { 201: 'Stored', 413: 'The file is too large' },
     },
     async ({ params, body, user, site, req, res, deps }) => {
@@ -450,6 +472,7 @@ export function registerPermitRoutes(api: Api): void {
       tag: 'Permits',
       access: { ...members, roles: ['supervisor', 'coordinator'], admin: false },
       params: attachmentParams,
+      responses: { 204: 'Removed' },
     },
     async ({ params, user }) => {
       const p = await db

@@ -4,6 +4,7 @@ import { ImageOverlay, MapContainer, ScaleControl, TileLayer, useMap, useMapEven
 import 'leaflet/dist/leaflet.css';
 import { useQuery } from '@tanstack/react-query';
 import type { ConfigAnswer } from '@shared/schemas/system';
+import type { SitePlan } from '@shared/schemas/excavations';
 import { api } from '@client/lib/api';
 import { MetricGridLayer, metresPerPixel } from './metricGrid';
 
@@ -22,10 +23,7 @@ export function useAppConfig() {
   });
 }
 
-export interface PinnedPlan {
-  uploadId: number;
-  bounds: { south: number; west: number; north: number; east: number };
-}
+export type PinnedPlan = Pick<SitePlan, 'uploadId' | 'bounds'>;
 
 interface BaseMapProps {
   /** The site origin: the metric grid counts metres from here. */

@@ -1,3 +1,4 @@
+import type { BriefingAnswer } from '@shared/schemas/permits';
 import type { Deps } from '../../deps';
 import { withCurrentRevision } from './read';
 import { conflict, forbidden, notFound } from '../../http';
@@ -15,7 +16,7 @@ export async function confirmBriefing(
   permitId: number,
   user: { id: number; name: string },
   opts: { revision?: number } = {},
-): Promise<{ briefedAt: string; status: string }> {
+): Promise<BriefingAnswer['briefing']> {
   const now = deps.now();
   const row = await withCurrentRevision(deps.db)
     .select(['p.id', 'p.number', 'p.site_id', 'p.status', 'p.revision', 'r.id as revision_id'])

@@ -1,5 +1,6 @@
 import { createStore, del, get, keys, set, type UseStore } from 'idb-keyval';
-import type { FieldPermit, FieldPermitsAnswer } from '@shared/schemas/field';
+import type { FieldPermitAnswer, FieldPermitsAnswer } from '@shared/schemas/field';
+import type { Me } from '@shared/schemas/auth';
 
 /**
  * The copies kept on the phone for reading with no signal, in IndexedDB (database `brink-field`):
@@ -13,17 +14,11 @@ function store(): UseStore {
   return copies;
 }
 
-export interface SavedPerson {
-  id: number;
-  name: string;
-  email: string;
-}
+/** Who last signed in on this phone (from the sign-in answer). */
+export type SavedPerson = Pick<Me, 'id' | 'name' | 'email'>;
 
-/** A permit as kept on the phone, with the time the server gave it out. */
-export interface SavedPermit {
-  asOf: string;
-  permit: FieldPermit;
-}
+/** A permit as kept on the phone: the server's answer, with the time it gave it out. */
+export type SavedPermit = FieldPermitAnswer;
 
 const meKey = 'me';
 const listKey = (userId: number) => `permits:${userId}`;

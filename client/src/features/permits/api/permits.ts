@@ -1,16 +1,23 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { z } from 'zod';
 import type {
+  AttachmentAdded,
+  BriefingAnswer,
   CheckProposal,
+  commentAddedAnswer,
+  onePermitAnswer,
+  oneRevisionAnswer,
   PermitAction,
   PermitCheck,
+  PermitCheckAnswer,
   PermitCreateInput,
   PermitDetail,
-  PermitRevision,
-  PermitSummary,
+  permitsAnswer,
   PermitUpdate,
+  SiteOperators,
   TransitionInput,
 } from '@shared/schemas/permits';
-import type { Site } from '@shared/schemas/sites';
+import type { oneSiteAnswer } from '@shared/schemas/sites';
 import { api, ApiError, errorFromResponse } from '@client/lib/api';
 
 export const permitKeys = {
@@ -20,18 +27,20 @@ export const permitKeys = {
   revision: (id: number, revision: number) => ['permits', 'one', id, 'revision', revision] as const,
 };
 
+type PermitAnswer = z.output<typeof onePermitAnswer>;
+
 export function usePermitList(query: Record<string, string>) {
   const qs = new URLSearchParams(Object.entries(query).filter(([, v]) => v !== '')).toString();
   return useQuery({
     queryKey: permitKeys.list(query),
-    queryFn: ({ signal }) => api.get<{ permits: PermitSummary[] }>(`/api/permits?${qs}`, signal).then((r) => r.permits),
+    queryFn: ({ signal }) => api.get<z.output<typeof permitsAnswer>>(`/api/permits?${qs}`, signal).then((r) => r.permits),
   });
 }
 
 export function usePermit(id: number) {
   return useQuery({
     queryKey: permitKeys.one(id),
-    queryFn: ({ signal }) => api.get<{ permit: PermitDetail }>(`/api/permits/${id}`, signal).then((r) => r.permit),
+    queryFn: ({ signal }) => api.get<PermitAnswer>(`/api/permits/${id}`, signal).then((r) => r.permit),
   });
 }
 
@@ -39,7 +48,7 @@ export function useRevision(id: number, revision: number | null) {
   return useQuery({
     queryKey: permitKeys.revision(id, revision ?? 0),
     queryFn: ({ signal }) =>
-      api.get<{ revision: PermitRevision }>(`/api/permits/${id}/revisions/${revision}`, signal).then((r) => r.revision),
+      api.get<z.output<typeof oneRevisionAnswer>>(`/api/permits/${id}/revisions/${revision}`, signal).then((r) => r.revision),
     enabled: revision !== null,
   });
 }
@@ -47,7 +56,7 @@ export function useRevision(id: number, revision: number | null) {
 export function useSite(siteId: number) {
   return useQuery({
     queryKey: ['sites', siteId],
-    queryFn: ({ signal }) => api.get<{ site: Site }>(`/api/sites/${siteId}`, signal).then((r) => r.site),
+    queryFn: ({ signal }) => api.get<z.output<typeof oneSiteAnswer>>(`/api/sites/${siteId}`, signal).then((r) => r.site),
   });
 }
 
@@ -59,8 +68,7 @@ export { usePlant } from '@client/lib/plant';
 export function useOperators(siteId: number, enabled = true) {
   return useQuery({
     queryKey: ['sites', siteId, 'operators'],
-    queryFn: ({ signal }) =>
-      api.get<{ operators: { id: number; name: string; email: string }[]; lastUsed: number[] }>(`/api/sites/${siteId}/operators`, signal),
+    queryFn: ({ signal }) => api.get<SiteOperators>(`/api/sites/${siteId}/operators`, signal),
     enabled,
   });
 }
@@ -82,7 +90,7 @@ function usePermitAnswer() {
 export function useCreatePermit() {
   const { onSuccess } = usePermitAnswer();
   return useMutation({
-    mutationFn: (body: PermitCreateInput) => api.post<{ permit: PermitDetail }>('/api/permits', body).then((r) => r.permit),
+    mutationFn: (body: PermitCreateInput) => api.post<PermitAnswer>('/api/permits', body).then((r) => r.permit),
     onSuccess,
   });
 }
@@ -90,7 +98,7 @@ export function useCreatePermit() {
 export function useUpdatePermit(id: number) {
   const { onSuccess, onError } = usePermitAnswer();
   return useMutation({
-    mutationFn: (body: PermitUpdate) => api.patch<{ permit: PermitDetail }>(`/api/permits/${id}`, body).then((r) => r.permit),
+    mutationFn: (body: PermitUpdate) => api.patch<PermitAnswer>(`/api/permits/${id}`, body).then((r) => r.permit),
     onSuccess,
     onError: (e) => onError(e, id),
   });
@@ -100,7 +108,7 @@ export function useTransition(id: number) {
   const { onSuccess, onError } = usePermitAnswer();
   return useMutation({
     mutationFn: (body: TransitionInput & { action: PermitAction }) =>
-      api.post<{ permit: PermitDetail }>(`/api/permits/${id}/transitions`, body).then((r) => r.permit),
+      api.post<PermitAnswer>(`/api/permits/${id}/transitions`, body).then((r) => r.permit),
     onSuccess,
     onError: (e) => onError(e, id),
   });
@@ -108,18 +116,18 @@ export function useTransition(id: number) {
 
 /** The server's check of a request not yet saved (the other permits it counts, above all). */
 export function checkRequestOnServer(siteId: number, proposal: CheckProposal): Promise<PermitCheck> {
-  return api.post<{ check: PermitCheck }>(`/api/sites/${siteId}/permits/check`, proposal).then((r) => r.check);
+  return api.post<PermitCheckAnswer>(`/api/sites/${siteId}/permits/check`, proposal).then((r) => r.check);
 }
 
 /** The server's (authoritative) check of proposed changes, without saving them. */
 export function checkOnServer(id: number, proposal: CheckProposal): Promise<PermitCheck> {
-  return api.post<{ check: PermitCheck }>(`/api/permits/${id}/check`, proposal).then((r) => r.check);
+  return api.post<PermitCheckAnswer>(`/api/permits/${id}/check`, proposal).then((r) => r.check);
 }
 
 export function useComment(id: number) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (text: string) => api.post(`/api/permits/${id}/comments`, { text }),
+    mutationFn: (text: string) => api.post<z.output<typeof commentAddedAnswer>>(`/api/permits/${id}/comments`, { text }),
     onSuccess: () => qc.invalidateQueries({ queryKey: permitKeys.one(id) }),
   });
 }
@@ -127,7 +135,7 @@ export function useComment(id: number) {
 export function useBriefing(id: number) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: () => api.post(`/api/permits/${id}/briefing`),
+    mutationFn: () => api.post<BriefingAnswer>(`/api/permits/${id}/briefing`),
     onSuccess: () => qc.invalidateQueries({ queryKey: permitKeys.one(id) }),
   });
 }
@@ -135,13 +143,13 @@ export function useBriefing(id: number) {
 export function useAttach(id: number) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: async ({ file, kind }: { file: File; kind: string }) => {
+    mutationFn: async ({ file, kind }: { file: File; kind: string }): Promise<AttachmentAdded> => {
       const form = new FormData();
       form.append('kind', kind);
       form.append('file', file);
       const res = await fetch(`/api/permits/${id}/attachments`, { method: 'POST', body: form, credentials: 'same-origin' });
       if (!res.ok) throw await errorFromResponse(res);
-      return res.json();
+      return ((await res.json()) as { attachment: AttachmentAdded }).attachment;
     },
     onSuccess: () => qc.invalidateQueries({ queryKey: permitKeys.one(id) }),
   });
