@@ -8,6 +8,7 @@ import type { InspectionReason, Outcome } from '../shared/schemas/inspections';
 import type { AttachmentKind, PermitKind, PermitStatus } from '../shared/schemas/permits';
 import type { PlantElementKind } from '../shared/schemas/plant';
 import type { SurchargeMethod } from '../shared/schemas/sites';
+import type { UnitSystem } from '../shared/units';
 
 /**
  * The typed shape of Brink's PostgreSQL database. Each migration in db/migrations adds tables here.
@@ -25,6 +26,8 @@ export interface UsersTable {
   is_admin: Generated<boolean>;
   active: Generated<boolean>;
   created_at: CreatedAt;
+  /** The person's own units, or null to follow each site's (docs/calculation.md, "Units"). */
+  units: UnitSystem | null;
 }
 
 export interface SitesTable {
@@ -35,6 +38,8 @@ export interface SitesTable {
   timezone: Generated<string>;
   minimum_clearance: Generated<number>;
   default_method: Generated<string>;
+  /** The units the site's people read and type unless they chose their own. */
+  units: Generated<UnitSystem>;
   created_at: CreatedAt;
   /** The site plan image pinned to the map, and its corners as { south, west, north, east } in degrees. */
   plan_upload_id: number | null;

@@ -9,6 +9,7 @@ import * as m0008 from './0008_outbox';
 import * as m0009 from './0009_revision_snapshots';
 import * as m0010 from './0010_push';
 import * as m0011 from './0011_attempt_counts';
+import * as m0012 from './0012_units';
 
 /**
  * Every migration, in order. Listed here (not read from the folder) so that the same code runs
@@ -25,4 +26,5 @@ export const migrations: Record<string, Migration> = {
   '0009_revision_snapshots': m0009,
   '0010_push': m0010,
   '0011_attempt_counts': m0011,
+  '0012_units': m0012,
 };

@@ -6,6 +6,7 @@ import { excavationKinds, excavationStates } from '@shared/schemas/excavations';
 import { inspectionReasons, outcomes } from '@shared/schemas/inspections';
 import { attachmentKinds, permitKinds, permitStatuses } from '@shared/schemas/permits';
 import { surchargeMethods } from '@shared/schemas/sites';
+import { unitSystems } from '@shared/units';
 
 // Roles, statuses and states are declared once, in shared/. The migrations write their CHECK lists
 // out literally (an applied migration never changes), so this test reads the lists the database
@@ -20,6 +21,8 @@ const shared: Record<string, readonly string[]> = {
   'permits.kind': permitKinds,
   'permit_revisions.method': surchargeMethods,
   'permit_attachments.kind': attachmentKinds,
+  'sites.units': unitSystems,
+  'users.units': unitSystems,
 };
 
 const db = createDb(createPool(process.env.DATABASE_URL!, 1));

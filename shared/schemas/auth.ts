@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { emailSchema, nameSchema, passwordSchema, siteRoleSchema } from './common';
+import { unitSystemSchema } from './sites';
 
 export const signInSchema = z.object({
   email: emailSchema,
@@ -42,9 +43,14 @@ export const meAnswer = z.object({
   email: z.string(),
   name: z.string(),
   isAdmin: z.boolean(),
+  /** The person's own units; null follows each site's (docs/calculation.md, "Units"). */
+  units: unitSystemSchema.nullable(),
   memberships: z.array(membershipAnswer),
 });
 export type Me = z.infer<typeof meAnswer>;
+
+/** A person's own choice of units (null: follow each site's default). */
+export const myUnitsSchema = z.object({ units: unitSystemSchema.nullable() });
 
 // Answers of the sign-in and invitation routes (server/src/routes/auth.ts).
 /** Signed in (sign-in, who-am-I, an accepted invitation): the person with their site roles. */

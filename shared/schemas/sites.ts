@@ -1,8 +1,12 @@
 import { z } from 'zod';
+import { unitSystems } from '../units';
 import { siteRoleSchema } from './common';
 
 export const surchargeMethods = ['dispersion-45', 'elastic'] as const;
 export type SurchargeMethod = (typeof surchargeMethods)[number];
+
+/** Metric or US customary (docs/calculation.md, "Units"). */
+export const unitSystemSchema = z.enum(unitSystems, { error: 'must be metric or US customary' });
 
 export const siteSchema = z.object({
   name: z.string().trim().min(1, 'is required').max(120),
@@ -20,11 +24,15 @@ export const siteSchema = z.object({
       }
     }, 'is not a known time zone')
     .default('Europe/London'),
-  minimumClearance: z.number().min(0, 'must be at least 0 m').max(10, 'must be at most 10 m').default(0.6),
+  /** Absent: 0.6 m, or OSHA's 2 ft (0.6096 m) on a US site (docs/calculation.md, "Units"). */
+  minimumClearance: z.number().min(0, 'must be at least 0 m').max(10, 'must be at most 10 m').optional(),
   defaultMethod: z.enum(surchargeMethods).default('dispersion-45'),
+  units: unitSystemSchema.default('metric'),
 });
 export type SiteInput = z.input<typeof siteSchema>;
 export const siteUpdateSchema = siteSchema.partial();
+/** What a coordinator may change of their site: its default units. */
+export const siteUnitsSchema = z.object({ units: unitSystemSchema });
 
 export const siteAnswer = z.object({
   id: z.number().int(),
@@ -34,6 +42,7 @@ export const siteAnswer = z.object({
   timezone: z.string(),
   minimumClearance: z.number(),
   defaultMethod: z.enum(surchargeMethods),
+  units: unitSystemSchema,
   createdAt: z.iso.datetime(),
 });
 export type Site = z.infer<typeof siteAnswer>;

@@ -5,6 +5,7 @@ import { Button } from '@client/components/Button';
 import { useMailCatcherOn } from '@client/features/admin';
 import { useSignOut } from '@client/features/auth';
 import { useMe } from '@client/lib/session';
+import { UnitsSettings } from './UnitsSettings';
 
 /** Who is signed in, their roles, the caught-mail page on local set-ups, and signing out. */
 export function PersonLinks({ onDone }: { onDone?: () => void }) {
@@ -28,6 +29,7 @@ export function PersonLinks({ onDone }: { onDone?: () => void }) {
           </li>
         ))}
       </ul>
+      <UnitsSettings />
       {mailOn ? (
         <Link to="/admin/mail" onClick={onDone} className="flex min-h-11 items-center">
           Caught mail

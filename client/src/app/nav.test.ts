@@ -13,6 +13,7 @@ const operator: Me = {
   email: 'op@example.test',
   name: 'Op',
   isAdmin: false,
+  units: null,
   memberships: [
     { siteId: 1, siteName: 'One', role: 'operator', canInspect: false },
     { siteId: 2, siteName: 'Two', role: 'coordinator', canInspect: true },

@@ -6,6 +6,7 @@ import {
   acceptInvitationSchema,
   invitationOfferAnswer,
   messageAnswer,
+  myUnitsSchema,
   signedInAnswer,
   forgotPasswordSchema,
   resetPasswordSchema,
@@ -117,6 +118,25 @@ export function registerAuthRoutes(api: Api): void {
       access: { kind: 'signedIn' },
     },
     async ({ user }) => ({ user: await loadMe(db, user.id) }),
+  );
+
+  api.route(
+    {
+      method: 'patch',
+      path: '/api/auth/me',
+      response: signedInAnswer,
+      summary: 'Choose my units: metric, US customary, or null to follow each site (figures stay in SI in the API)',
+      tag: 'Sign-in',
+      access: { kind: 'signedIn' },
+      body: myUnitsSchema,
+    },
+    async ({ user, body }) => {
+      await db.transaction().execute(async (trx) => {
+        await trx.updateTable('users').set({ units: body.units }).where('id', '=', user.id).execute();
+        await audit(trx, { actorId: user.id, entity: 'user', entityId: user.id, action: 'units-chosen', detail: body });
+      });
+      return { user: await loadMe(db, user.id) };
+    },
   );
 
   api.route(

@@ -1,6 +1,8 @@
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
-import { oneSiteAnswer, siteSchema, sitesAnswer, siteUpdateSchema, type Site } from '@shared/schemas/sites';
+import { oneSiteAnswer, siteSchema, sitesAnswer, siteUnitsSchema, siteUpdateSchema, type Site } from '@shared/schemas/sites';
+import { DEFAULT_CLEARANCE } from '@shared/schemas/calcUnits';
+import type { UnitSystem } from '@shared/units';
 import type { Db } from '@db/database';
 import { Api, notFound, siteFromParam } from '../http';
 import { audit } from '../services/audit';
@@ -13,6 +15,7 @@ type SiteRow = {
   timezone: string;
   minimum_clearance: number;
   default_method: string;
+  units: UnitSystem;
   created_at: Date;
 };
 
@@ -25,6 +28,7 @@ export function siteOut(r: SiteRow): Site {
     timezone: r.timezone,
     minimumClearance: r.minimum_clearance,
     defaultMethod: r.default_method as Site['defaultMethod'],
+    units: r.units,
     createdAt: new Date(r.created_at).toISOString(),
   };
 }
@@ -35,6 +39,15 @@ export async function getSite(db: Db, id: number): Promise<Site | null> {
 }
 
 const siteParams = z.object({ siteId: idSchema });
+
+/**
+ * A change of a site's units moves a minimum clearance still at the other system's default (0.6 m,
+ * or OSHA's 2 ft) to the new system's; a clearance set otherwise stays (docs/calculation.md, "Units").
+ */
+function clearanceForUnits(units: UnitSystem, current: number): number {
+  const other: UnitSystem = units === 'us' ? 'metric' : 'us';
+  return Math.abs(current - DEFAULT_CLEARANCE[other]) < 1e-9 ? DEFAULT_CLEARANCE[units] : current;
+}
 
 export function registerSiteRoutes(api: Api): void {
   const { db } = api.deps;
@@ -92,8 +105,9 @@ export function registerSiteRoutes(api: Api): void {
             latitude: body.latitude,
             longitude: body.longitude,
             timezone: body.timezone,
-            minimum_clearance: body.minimumClearance,
+            minimum_clearance: body.minimumClearance ?? DEFAULT_CLEARANCE[body.units],
             default_method: body.defaultMethod,
+            units: body.units,
           })
           .returningAll()
           .executeTakeFirstOrThrow();
@@ -116,7 +130,10 @@ export function registerSiteRoutes(api: Api): void {
       body: siteUpdateSchema,
     },
     async ({ params, body, user }) => {
+      const before = body.units !== undefined && body.minimumClearance === undefined ? await getSite(db, params.siteId) : null;
       const set = {
+        ...(body.units !== undefined ? { units: body.units } : {}),
+        ...(before && body.units ? { minimum_clearance: clearanceForUnits(body.units, before.minimumClearance) } : {}),
         ...(body.name !== undefined ? { name: body.name } : {}),
         ...(body.latitude !== undefined ? { latitude: body.latitude } : {}),
         ...(body.longitude !== undefined ? { longitude: body.longitude } : {}),
@@ -130,6 +147,39 @@ export function registerSiteRoutes(api: Api): void {
           : await trx.selectFrom('sites').selectAll().where('id', '=', params.siteId).executeTakeFirst();
         if (!r) throw notFound('That site');
         await audit(trx, { actorId: user.id, siteId: r.id, entity: 'site', entityId: r.id, action: 'updated', detail: body });
+        return r;
+      });
+      return { site: siteOut(site) };
+    },
+  );
+
+  api.route(
+    {
+      method: 'put',
+      path: '/api/sites/:siteId/units',
+      response: oneSiteAnswer,
+      summary: "Set a site's default units (metric or US customary) for its people who have not chosen their own",
+      tag: 'Sites',
+      access: { kind: 'site', roles: ['coordinator'], admin: true, siteId: siteFromParam },
+      params: siteParams,
+      body: siteUnitsSchema,
+    },
+    async ({ params, body, user }) => {
+      const site = await db.transaction().execute(async (trx) => {
+        const now = await trx
+          .selectFrom('sites')
+          .select('minimum_clearance')
+          .where('id', '=', params.siteId)
+          .forUpdate()
+          .executeTakeFirst();
+        if (!now) throw notFound('That site');
+        const r = await trx
+          .updateTable('sites')
+          .set({ units: body.units, minimum_clearance: clearanceForUnits(body.units, now.minimum_clearance) })
+          .where('id', '=', params.siteId)
+          .returningAll()
+          .executeTakeFirstOrThrow();
+        await audit(trx, { actorId: user.id, siteId: r.id, entity: 'site', entityId: r.id, action: 'units-set', detail: body });
         return r;
       });
       return { site: siteOut(site) };

@@ -38,9 +38,12 @@ export async function loadPeople(db: Db, ids?: number[]): Promise<Person[]> {
 
 /** The signed-in person with their site roles; one who is gone or deactivated meanwhile is signed out (401). */
 export async function loadMe(db: Db, id: number): Promise<Me> {
-  const [p] = await loadPeople(db, [id]);
+  const [[p], own] = await Promise.all([
+    loadPeople(db, [id]),
+    db.selectFrom('users').select('units').where('id', '=', id).executeTakeFirst(),
+  ]);
   if (!p || !p.active) throw new HttpError(401, 'signed_out', 'Please sign in.');
-  return { id: p.id, email: p.email, name: p.name, isAdmin: p.isAdmin, memberships: p.memberships };
+  return { id: p.id, email: p.email, name: p.name, isAdmin: p.isAdmin, units: own?.units ?? null, memberships: p.memberships };
 }
 
 /** Ends every session of a person (after a password reset or deactivation). */

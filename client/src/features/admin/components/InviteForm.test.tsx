@@ -13,6 +13,7 @@ const sites: Site[] = [
     timezone: 'Europe/London',
     minimumClearance: 0.6,
     defaultMethod: 'dispersion-45',
+    units: 'metric',
     createdAt: '2026-01-05T08:00:00Z',
   },
 ];

@@ -2,6 +2,7 @@ import { useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { siteSchema, surchargeMethods, type Site, type SiteInput } from '@shared/schemas/sites';
+import { unitSystemLabels, unitSystems } from '@shared/units';
 import { Button } from '@client/components/Button';
 import { FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { applyServerErrors } from '@client/lib/forms';
@@ -9,6 +10,7 @@ import { surchargeMethodLabels } from '@client/lib/labels';
 import { OriginMap } from './OriginMap';
 
 const methodOptions = surchargeMethods.map((m) => ({ value: m, label: surchargeMethodLabels[m] }));
+const unitOptions = unitSystems.map((u) => ({ value: u, label: unitSystemLabels[u] }));
 
 function timeZones(): string[] {
   try {
@@ -25,6 +27,7 @@ const newSite: SiteInput = {
   timezone: Intl.DateTimeFormat().resolvedOptions().timeZone || 'Europe/London',
   minimumClearance: 0.6,
   defaultMethod: 'dispersion-45',
+  units: 'metric',
 };
 
 interface SiteFormProps {
@@ -36,7 +39,7 @@ interface SiteFormProps {
 export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
   const zones = useMemo(timeZones, []);
   const [summary, setSummary] = useState<string | null>(null);
-  const { register, handleSubmit, setError, setValue, watch, formState } = useForm({
+  const { register, handleSubmit, setError, setValue, getValues, watch, formState } = useForm({
     resolver: zodResolver(siteSchema),
     defaultValues: site
       ? {
@@ -46,6 +49,7 @@ export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
           timezone: site.timezone,
           minimumClearance: site.minimumClearance,
           defaultMethod: site.defaultMethod,
+          units: site.units,
         }
       : newSite,
   });
@@ -58,7 +62,9 @@ export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
     try {
       await onSave(values);
     } catch (error) {
-      setSummary(applyServerErrors(error, setError, ['name', 'latitude', 'longitude', 'timezone', 'minimumClearance', 'defaultMethod']));
+      setSummary(
+        applyServerErrors(error, setError, ['name', 'latitude', 'longitude', 'timezone', 'minimumClearance', 'defaultMethod', 'units']),
+      );
     }
   });
 
@@ -132,6 +138,20 @@ export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
           hint="New checks on this site start with this method."
           error={errors.defaultMethod?.message}
           {...register('defaultMethod')}
+        />
+        <SelectField
+          label="Default units"
+          options={unitOptions}
+          hint="What this site's people read and type, unless they choose their own. US customary starts the clearance at OSHA's 2 ft (0.61 m)."
+          error={errors.units?.message}
+          {...register('units', {
+            onChange: (e: { target: { value: string } }) => {
+              // A clearance still at the other system's default moves with the units (docs/calculation.md, "Units").
+              const clearance = getValues('minimumClearance');
+              const us = e.target.value === 'us';
+              if (clearance === (us ? 0.6 : 0.6096)) setValue('minimumClearance', us ? 0.6096 : 0.6, { shouldDirty: true });
+            },
+          })}
         />
       </div>
 

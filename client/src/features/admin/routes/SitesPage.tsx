@@ -3,10 +3,13 @@ import { ButtonLink } from '@client/components/Button';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
 import { surchargeMethodLabels } from '@client/lib/labels';
+import { useFigures } from '@client/lib/units';
+import { unitSystemLabels } from '@shared/units';
 import { useSites } from '../api/sites';
 
 export function SitesPage() {
   const sites = useSites();
+  const f = useFigures();
   const notice = (useLocation().state as { notice?: string } | null)?.notice ?? null;
   return (
     <Page
@@ -34,7 +37,9 @@ export function SitesPage() {
               <dt className="text-ink-soft">Time zone</dt>
               <dd>{site.timezone}</dd>
               <dt className="text-ink-soft">Minimum clearance</dt>
-              <dd>{site.minimumClearance.toFixed(2)} m</dd>
+              <dd>{f.length(site.minimumClearance, { rounding: 'up' })}</dd>
+              <dt className="text-ink-soft">Default units</dt>
+              <dd>{unitSystemLabels[site.units]}</dd>
               <dt className="text-ink-soft">Surcharge method</dt>
               <dd>{surchargeMethodLabels[site.defaultMethod] ?? site.defaultMethod}</dd>
             </dl>

@@ -2,13 +2,14 @@ import { Link } from 'react-router-dom';
 import { attentionWarnings, bandsWords, failsBeyondPassing, type CheckRequest } from '@shared/engineering';
 import { statusLabels, type ExcavationCheck, type PermitCheck } from '@shared/schemas/permits';
 import { Caution } from '@client/components/Caution';
+import { useFigures, type Figures } from '@client/lib/units';
 import { PressureDiagram } from './PressureDiagram';
 import { VerdictBadge, VerdictRule } from './Verdict';
 
-const m = (x: number | null) => (x === null ? 'none within 3H' : `${x.toFixed(2)} m`);
+/** A standoff in the person's units, rounded up (docs/calculation.md, "Units"). */
+const standoffText = (f: Figures, x: number | null) => (x === null ? 'none within 3H' : f.length(x, { rounding: 'up' }));
 /** Said in place of a standoff while a load is being dragged (the search runs when it is let go). */
 const PENDING = 'worked out when you let go';
-const kN = (x: number) => `${x.toFixed(1)} kN/m`;
 
 /** The calculation sheet of one excavation: inputs, method, diagram, forces, utilisation, standoffs, other permits, warnings. */
 export function ExcavationSheet({
@@ -20,7 +21,10 @@ export function ExcavationSheet({
   full?: boolean;
   standoffsPending?: boolean;
 }) {
-  const so = (x: number | null) => (standoffsPending ? PENDING : m(x));
+  const f = useFigures();
+  const so = (x: number | null) => (standoffsPending ? PENDING : standoffText(f, x));
+  const len = (x: number) => f.length(x);
+  const kN = (x: number) => f.lineForce(x);
   const r = ex.result;
   const req = ex.request as CheckRequest;
   const e = req.excavation;
@@ -40,7 +44,7 @@ export function ExcavationSheet({
           <h4 className="font-semibold">Read before signing</h4>
           <ul className="list-disc pl-5 text-sm">
             {attention.map((w) => (
-              <li key={w}>{w}</li>
+              <li key={w}>{f.words(w)}</li>
             ))}
           </ul>
         </div>
@@ -64,10 +68,10 @@ export function ExcavationSheet({
             return (
               <tr key={l.loadId}>
                 <td>{l.label}</td>
-                <td>{l.offset.toFixed(2)} m</td>
+                <td>{len(l.offset)}</td>
                 <td>{so(l.standoff)}</td>
                 <td>
-                  {standoffsPending ? PENDING : bands.length ? bandsWords(bands) : 'nowhere from the minimum clearance to 3H'}
+                  {standoffsPending ? PENDING : bands.length ? f.words(bandsWords(bands)) : 'nowhere from the minimum clearance to 3H'}
                   {failsBeyondPassing(bands, req.minimumClearance) ? ' (passes in between: farther is not always safer)' : ''}
                 </td>
               </tr>
@@ -94,32 +98,32 @@ export function ExcavationSheet({
           <h4 className="font-semibold">Inputs</h4>
           <ul className="text-sm">
             <li>
-              Depth {e.depth.toFixed(2)} m; design surcharge {e.designSurcharge.toFixed(1)} kPa; rated pressure{' '}
-              {e.ratedPressure === null ? 'none' : `${e.ratedPressure.toFixed(1)} kPa`}
+              Depth {len(e.depth)}; design surcharge {f.pressure(e.designSurcharge)}; rated pressure{' '}
+              {e.ratedPressure === null ? 'none' : f.pressure(e.ratedPressure)}
             </li>
             <li>
               Earth pressure {e.pressureState}, wall friction {e.wallFriction}°, support {e.restraint}; groundwater{' '}
-              {e.groundwaterDepth === null ? 'none' : `${e.groundwaterDepth.toFixed(2)} m`}
+              {e.groundwaterDepth === null ? 'none' : len(e.groundwaterDepth)}
             </li>
             {req.soil.map((l, i) => (
               <li key={i}>
-                Soil from {l.top.toFixed(2)} m: {l.unitWeight} kN/m³
+                Soil from {len(l.top)}: {f.unitWeight(l.unitWeight)}
                 {l.frictionAngle !== undefined
-                  ? `, φ′ ${l.frictionAngle}°, c′ ${l.cohesion ?? 0} kPa`
-                  : `, cu ${l.undrainedShearStrength} kPa`}
+                  ? `, φ′ ${l.frictionAngle}°, c′ ${f.pressure(l.cohesion ?? 0)}`
+                  : `, cu ${f.pressure(l.undrainedShearStrength ?? 0)}`}
               </li>
             ))}
-            <li>Coefficients: {r.coefficients.map((c) => `K = ${c.K.toFixed(3)} from ${c.top.toFixed(2)} m`).join('; ')}</li>
+            <li>Coefficients: {r.coefficients.map((c) => `K = ${c.K.toFixed(3)} from ${len(c.top)}`).join('; ')}</li>
           </ul>
           <h4 className="font-semibold">Method</h4>
           <p className="text-sm">
             {r.method === 'elastic'
               ? 'Elastic solutions (Boussinesq-based, as given in NAVFAC DM-7.02); area loads analysed as strips of their width.'
               : '45° load spread: each load presses on the support in the band of depths its spread reaches.'}{' '}
-            Minimum clearance {req.minimumClearance.toFixed(2)} m.
+            Minimum clearance {f.length(req.minimumClearance, { rounding: 'up' })}.
           </p>
           {r.profile ? <PressureDiagram profile={r.profile} depth={ex.depth} title={`Pressure beside ${ex.reference}`} /> : null}
-          <h4 className="font-semibold">Forces and moments (per metre run of support)</h4>
+          <h4 className="font-semibold">Forces and moments (per {f.system === 'us' ? 'foot' : 'metre'} run of support)</h4>
           <ul className="text-sm">
             <li>
               Soil {kN(r.forces.soil)}, water {kN(r.forces.water)}
@@ -128,12 +132,11 @@ export function ExcavationSheet({
               Surcharge {kN(r.forces.surcharge)} against the allowance {kN(r.forces.allowance)}
             </li>
             <li>
-              Moment about formation: surcharge {r.moments.surcharge.toFixed(1)} kN·m/m against the allowance{' '}
-              {r.moments.allowance.toFixed(1)} kN·m/m
+              Moment about formation: surcharge {f.moment(r.moments.surcharge)} against the allowance {f.moment(r.moments.allowance)}
             </li>
             <li>
               Utilisation {r.utilisation === null ? 'no allowance' : r.utilisation.toFixed(2)} ({r.governing ?? '—'} governs); largest
-              pressure {r.maxTotalPressure.toFixed(1)} kPa
+              pressure {f.pressure(r.maxTotalPressure)}
             </li>
           </ul>
           <table className="text-sm">
@@ -156,7 +159,7 @@ export function ExcavationSheet({
                     {l.element ? ` – ${l.element}` : ''}
                   </td>
                   <td>{l.kind}</td>
-                  <td>{l.offset.toFixed(2)} m</td>
+                  <td>{len(l.offset)}</td>
                   <td>{kN(l.force)}</td>
                 </tr>
               ))}
@@ -169,7 +172,7 @@ export function ExcavationSheet({
           <h4 className="font-semibold">Warnings</h4>
           <ul className="list-disc pl-5 text-sm">
             {others.map((w) => (
-              <li key={w}>{w}</li>
+              <li key={w}>{f.words(w)}</li>
             ))}
           </ul>
         </div>
@@ -188,12 +191,14 @@ export function CheckSheets({
   full?: boolean;
   standoffsPending?: boolean;
 }) {
+  const f = useFigures();
   return (
     <div className="flex flex-col gap-4" data-testid="check">
       <p className="flex flex-wrap items-center gap-3">
         <VerdictBadge verdict={check.verdict} utilisation={check.utilisation} />
         <span>
-          Computed standoff: <strong data-testid="computed-standoff">{standoffsPending ? PENDING : m(check.computedStandoff)}</strong>
+          Computed standoff:{' '}
+          <strong data-testid="computed-standoff">{standoffsPending ? PENDING : standoffText(f, check.computedStandoff)}</strong>
         </span>
       </p>
       <VerdictRule />

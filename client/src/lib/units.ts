@@ -1,0 +1,115 @@
+import { useMemo } from 'react';
+import type { RegisterOptions } from 'react-hook-form';
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import type { z } from 'zod';
+import type { signedInAnswer } from '@shared/schemas/auth';
+import type { oneSiteAnswer, Site } from '@shared/schemas/sites';
+import { cautionFor } from '@shared/caution';
+import {
+  formatQuantity,
+  inputText,
+  localizeWords,
+  parseQuantity,
+  unitLabel,
+  type FormatOptions,
+  type Quantity,
+  type UnitSystem,
+} from '@shared/units';
+import { api } from './api';
+import { useCurrentSite } from './currentSite';
+import { sessionKeys, useMe } from './session';
+
+/**
+ * The units the signed-in person reads and types: their own choice, else the current site's default,
+ * else metric (docs/calculation.md, "Units"). The API's figures are always SI; convert only here.
+ */
+export function useUnits(): UnitSystem {
+  const me = useMe().data;
+  const { site } = useCurrentSite();
+  return me?.units ?? site?.units ?? 'metric';
+}
+
+export interface Figures {
+  system: UnitSystem;
+  /** A length in metres as the person reads it; `up` for standoffs, clearances and zones. */
+  length: (m: number, options?: FormatOptions) => string;
+  pressure: (kPa: number, options?: FormatOptions) => string;
+  /** A point load (kN). */
+  force: (kN: number, options?: FormatOptions) => string;
+  /** A line load or a force per run of support (kN/m). */
+  lineForce: (kNm: number, options?: FormatOptions) => string;
+  unitWeight: (kNm3: number, options?: FormatOptions) => string;
+  moment: (kNmm: number, options?: FormatOptions) => string;
+  /** The unit shown for a quantity (`ft`, `psf`), for labels and table heads. */
+  unit: (q: Quantity) => string;
+  /** A sentence written in SI (a warning, a refusal) restated in the person's units. */
+  words: (text: string) => string;
+  /** The caution in the person's units (US: names OSHA 29 CFR 1926 Subpart P). */
+  caution: string;
+}
+
+/** Figures in a given system: the one formatter every screen uses at its edge. */
+export function figuresIn(system: UnitSystem): Figures {
+  const f = (q: Quantity) => (si: number, options?: FormatOptions) => formatQuantity(q, si, system, options);
+  return {
+    system,
+    length: f('length'),
+    pressure: f('pressure'),
+    force: f('force'),
+    lineForce: f('lineForce'),
+    unitWeight: f('unitWeight'),
+    moment: f('moment'),
+    unit: (q) => unitLabel(q, system),
+    words: (text) => localizeWords(text, system),
+    caution: cautionFor(system),
+  };
+}
+
+/** The person's figures (see `useUnits`). */
+export function useFigures(): Figures {
+  const system = useUnits();
+  return useMemo(() => figuresIn(system), [system]);
+}
+
+/**
+ * react-hook-form options for a figure typed in either system (`2 ft 6 in`, `500 psf`, `2.5`): the
+ * form's value is SI, NaN when unreadable (the shared schema then refuses it by the field's label).
+ * Give the input `defaultValue={quantityText(...)}` or set the form's default with it.
+ */
+export function quantityField(quantity: Quantity, system: UnitSystem): RegisterOptions {
+  return {
+    setValueAs: (v: unknown) => {
+      if (typeof v === 'number') return v;
+      if (v === '' || v === null || v === undefined) return Number.NaN;
+      const r = parseQuantity(String(v), quantity, system);
+      return r.ok ? r.value : Number.NaN;
+    },
+  };
+}
+
+/** The text an input of `quantityField` starts with for a saved SI figure. */
+export function quantityText(quantity: Quantity, si: number | null | undefined, system: UnitSystem): string {
+  return inputText(quantity, si, system);
+}
+
+/** Choose my units (null: follow each site's default). */
+export function useChooseMyUnits() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (units: UnitSystem | null) => api.patch<z.output<typeof signedInAnswer>>('/api/auth/me', { units }).then((r) => r.user),
+    onSuccess: (user) => queryClient.setQueryData(sessionKeys.me, user),
+  });
+}
+
+/** Set a site's default units (its coordinators and administrators). */
+export function useSetSiteUnits() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ siteId, units }: { siteId: number; units: UnitSystem }) =>
+      api.put<z.output<typeof oneSiteAnswer>>(`/api/sites/${siteId}/units`, { units }).then((r) => r.site),
+    onSuccess: (site) => {
+      queryClient.setQueryData<Site[]>(sessionKeys.sites, (list) => list?.map((s) => (s.id === site.id ? site : s)));
+      void queryClient.invalidateQueries({ queryKey: sessionKeys.sites });
+    },
+  });
+}
