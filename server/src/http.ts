@@ -44,6 +44,11 @@ export const notFound = (what = 'That') => new HttpError(404, 'not_found', `${wh
 export const forbidden = (message = 'Your role does not allow this.') => new HttpError(403, 'forbidden', message);
 export const conflict = (message: string) => new HttpError(409, 'conflict', message);
 export const badRequest = (message: string, fields?: Record<string, string>) => new HttpError(400, 'invalid', message, fields);
+/** 400 naming each field (field → reason) when there is any; nothing when `fields` is empty. */
+export function refuseFields(fields: Record<string, string>): void {
+  const list = Object.entries(fields);
+  if (list.length) throw badRequest(`Please correct the request: ${list.map(([k, v]) => `${k} ${v}`).join('; ')}`, fields);
+}
 
 /** Turns zod issues into a field → reason map, paths written as `a.b[0].c`. */
 export function zodFields(error: z.ZodError): Record<string, string> {

@@ -7,7 +7,7 @@ import { canonical, excavationInputSchema, IMPORT_MODE_LABEL, importModeLabels }
 import type { ExcavationUpdate, ExcavationValues, ImportMode, ImportReport } from '@shared/schemas/excavations';
 import type { Db } from '@db/database';
 import type { Deps } from '../deps';
-import { badRequest, conflict, HttpError, notFound, parseOr400 } from '../http';
+import { badRequest, conflict, HttpError, notFound, parseOr400, refuseFields } from '../http';
 import { audit } from './audit';
 import { columnsOf, loadExcavations, placementProblems, projectionOf, readImport, rowValues, storedShapes } from './excavations';
 import { listNumbers, permitsReferring } from './permit-references';
@@ -34,15 +34,7 @@ export async function oneOrNotFound(db: Db, siteId: number, id: number) {
 
 /** 400 naming each field when the excavation cannot be placed on this site. */
 function checkPlacement(values: ExcavationValues, site: { latitude: number; longitude: number }): void {
-  const fields = placementProblems(values, projectionOf(site));
-  if (Object.keys(fields).length) {
-    throw badRequest(
-      `Please correct the request: ${Object.entries(fields)
-        .map(([k, v]) => `${k} ${v}`)
-        .join('; ')}`,
-      fields,
-    );
-  }
+  refuseFields(placementProblems(values, projectionOf(site)));
 }
 
 const referenceTaken = (reference: string) =>

@@ -9,7 +9,7 @@ import {
   type PlacedLoad,
 } from '@shared/schemas/permits';
 import type { Deps } from '../../deps';
-import { badRequest, conflict, notFound } from '../../http';
+import { badRequest, conflict, notFound, refuseFields } from '../../http';
 import { audit } from '../audit';
 import { checkStoredRevision } from './check';
 import { StaleError } from './machine';
@@ -60,14 +60,7 @@ async function assertReferences(
         fields[`loads[${i}].plantItemId`] = 'is not in the plant library';
     });
   }
-  if (Object.keys(fields).length) {
-    throw badRequest(
-      `Please correct the request: ${Object.entries(fields)
-        .map(([k, v]) => `${k} ${v}`)
-        .join('; ')}`,
-      fields,
-    );
-  }
+  refuseFields(fields);
 }
 
 async function setOperators(db: Db, revisionId: number, operatorIds: number[]): Promise<void> {
