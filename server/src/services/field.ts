@@ -1,11 +1,11 @@
-import { sql } from 'kysely';
 import type { LineString, Polygon } from 'geojson';
 import type { Db } from '@db/database';
 import { exclusionZone, localProjection, prepareExcavation, type LocalProjection, type PreparedOutline, type XY } from '@shared/geometry';
 import { checkExcavationOf, footprintsOf } from '@shared/permits/check';
 import { supportLabels } from '@shared/schemas/excavations';
-import type { Concern, FieldExcavation, FieldFootprint, FieldPermit } from '@shared/schemas/field';
+import type { FieldExcavation, FieldFootprint, FieldPermit } from '@shared/schemas/field';
 import { editableStatuses, type PermitRevision, type PermitStatus } from '@shared/schemas/permits';
+import { concernsOf } from './concerns';
 import { loadExcavations } from './excavations';
 import { plantFor } from './permits/check';
 import { CAUTION } from '@shared/caution';
@@ -57,57 +57,6 @@ export function exclusionDistance(
   const checked = forThis ? forThis.standoff : (rev.check?.computedStandoff ?? null);
   const standoff = rev.decision.standoff ?? checked ?? 3 * depth;
   return Math.max(standoff, minimumClearance);
-}
-
-/** Concerns with their reporter's name; narrow with `.where(…)`. */
-export function concernQuery(db: Db) {
-  return db
-    .selectFrom('concerns as c')
-    .innerJoin('users as u', 'u.id', 'c.reporter_id')
-    .select([
-      'c.id',
-      'c.permit_id',
-      'c.excavation_id',
-      'c.excavation_reference',
-      'c.note',
-      'c.photo_upload_ids',
-      'c.reporter_id',
-      'u.name',
-      'c.created_at',
-      'c.idempotency_key',
-    ]);
-}
-
-export async function concernsOf(db: Db, permitId: number): Promise<Concern[]> {
-  const rows = await concernQuery(db).where('c.permit_id', '=', permitId).orderBy('c.id').execute();
-  return rows.map(concernOut);
-}
-
-type ConcernRow = {
-  id: number;
-  permit_id: number;
-  excavation_id: number | null;
-  excavation_reference: string;
-  note: string;
-  photo_upload_ids: number[];
-  reporter_id: number;
-  name: string;
-  created_at: Date;
-  idempotency_key: string;
-};
-
-export function concernOut(r: ConcernRow): Concern {
-  return {
-    id: r.id,
-    permitId: r.permit_id,
-    excavationId: r.excavation_id,
-    excavationReference: r.excavation_reference,
-    note: r.note,
-    photoIds: r.photo_upload_ids,
-    reporter: { id: r.reporter_id, name: r.name },
-    createdAt: new Date(r.created_at).toISOString(),
-    idempotencyKey: r.idempotency_key,
-  };
 }
 
 /** Everything the phone shows of one permit, for one reader; null when there is no such permit. */
@@ -197,31 +146,4 @@ export async function loadFieldPermit(db: Db, permitId: number, viewerId: number
     concerns: await concernsOf(db, permitId),
     caution: CAUTION,
   };
-}
-
-/** The coordinators' and supervisors' addresses on a site (active people), but not the reporter's. */
-export async function concernRecipients(db: Db, siteId: number, exceptUserId: number): Promise<string[]> {
-  const rows = await db
-    .selectFrom('site_members as m')
-    .innerJoin('users as u', 'u.id', 'm.user_id')
-    .select('u.email')
-    .where('m.site_id', '=', siteId)
-    .where('m.role', 'in', ['coordinator', 'supervisor'])
-    .where('u.active', '=', true)
-    .where('u.id', '<>', exceptUserId)
-    .orderBy('u.email')
-    .execute();
-  return rows.map((r) => r.email);
-}
-
-/** Is the excavation one of those the permit's current revision names? */
-export async function permitNamesExcavation(db: Db, permitId: number, excavationId: number): Promise<{ reference: string } | null> {
-  const row = await withCurrentRevision(db)
-    .innerJoin('excavations as e', 'e.site_id', 'p.site_id')
-    .select('e.reference')
-    .where('p.id', '=', permitId)
-    .where('e.id', '=', excavationId)
-    .where(sql<boolean>`e.id = any(r.excavation_ids)`)
-    .executeTakeFirst();
-  return row ?? null;
 }
