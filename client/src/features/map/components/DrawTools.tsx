@@ -8,6 +8,14 @@ import type { ExcavationGeometry } from '@shared/schemas/excavations';
 
 export type DrawShape = 'trench' | 'pit';
 
+// leaflet-geoman's reInitLayer equips a map too (its `layer instanceof L.Map` branch); its typings name layers only.
+declare module 'leaflet' {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace PM {
+    function reInitLayer(layer: L.Map): void;
+  }
+}
+
 const shapeOf = { trench: 'Line', pit: 'Polygon' } as const;
 const editLine = { color: '#47508f', weight: 3 };
 
@@ -54,7 +62,7 @@ export function DrawTools({ drawing, onDrawn, editing, onEdited, onReady }: Draw
 
   useEffect(() => {
     // leaflet-geoman equips maps made after it loads; this one was made before (the tools load on first use).
-    if (!map.pm) L.PM.reInitLayer(map as unknown as L.Layer); // it accepts maps too
+    if (!map.pm) L.PM.reInitLayer(map);
     map.pm.setGlobalOptions({ allowSelfIntersection: false, snappable: false, finishOnEnter: true } as L.PM.GlobalOptions);
     map.pm.setLang('en');
     onReadyRef.current?.();
@@ -87,8 +95,8 @@ export function DrawTools({ drawing, onDrawn, editing, onEdited, onReady }: Draw
   useEffect(() => {
     const g = startGeometry.current;
     if (!editKey || !g) return;
-    const layer: L.Polyline =
-      g.type === 'LineString' ? L.polyline(latLngsOf(g), editLine) : (L.polygon(latLngsOf(g), editLine) as unknown as L.Polyline);
+    const layer: L.Polyline<GeoJSON.LineString | GeoJSON.MultiLineString | GeoJSON.Polygon | GeoJSON.MultiPolygon> =
+      g.type === 'LineString' ? L.polyline(latLngsOf(g), editLine) : L.polygon(latLngsOf(g), editLine);
     layer.addTo(map);
     layer.pm.enable({ allowSelfIntersection: false, snappable: false } as L.PM.EditModeOptions);
     const changed = () => onEditedRef.current(geometryOfLayer(layer));

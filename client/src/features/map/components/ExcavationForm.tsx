@@ -1,7 +1,6 @@
 import { useEffect, useId, useState } from 'react';
-import { useForm, type Path, type Resolver } from 'react-hook-form';
+import { useForm, type Path } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import type { z } from 'zod';
 import {
   excavationStates,
   kindLabels,
@@ -105,11 +104,7 @@ export function ExcavationForm(props: ExcavationFormProps) {
     unknown,
     ExcavationValues
   >({
-    resolver: zodResolver(excavationFormSchema as unknown as z.ZodType<ExcavationValues, ExcavationFormValues>) as Resolver<
-      ExcavationFormValues,
-      unknown,
-      ExcavationValues
-    >,
+    resolver: zodResolver(excavationFormSchema),
     defaultValues: initial,
   });
   const { errors } = formState;

@@ -76,7 +76,7 @@ export function toInput(v: ExcavationFormValues): Record<string, unknown> {
 }
 
 /** The shared schema, read from the form's shape: its field paths (soil[0].top) match the form's names (soil.0.top). */
-export const excavationFormSchema = z.preprocess((v) => toInput(v as ExcavationFormValues), excavationInputSchema);
+export const excavationFormSchema = z.preprocess((v: ExcavationFormValues) => toInput(v), excavationInputSchema);
 
 export function rowOf(l: Excavation['soil'][number]): SoilRow {
   return {

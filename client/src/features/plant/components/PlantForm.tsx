@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { useFieldArray, useForm } from 'react-hook-form';
+import { useFieldArray, useForm, type DefaultValues } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import {
   plantCategories,
@@ -27,7 +27,7 @@ const elementColumns = [
 const cell = 'w-24 rounded border border-rule-strong bg-sheet px-2 py-1.5 text-right aria-[invalid=true]:border-error-text';
 
 interface PlantFormProps {
-  initial: PlantItemInput;
+  initial: DefaultValues<PlantItemInput>;
   saveLabel: string;
   onSave: (values: PlantItemValues) => Promise<void>;
   onCancel: () => void;

@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import type { DefaultValues } from 'react-hook-form';
 import {
   elementLoad,
   G,
@@ -20,10 +21,10 @@ import { Footprint } from '../components/Footprint';
 import { PlantForm } from '../components/PlantForm';
 import { StockpileHelper } from '../components/StockpileHelper';
 
-const blank: PlantItemInput = {
+/** A new machine: the operating mass starts empty (the form asks for it). */
+const blank: DefaultValues<PlantItemInput> = {
   name: '',
   category: 'excavator',
-  operatingMass: undefined as unknown as number,
   designFactor: 1,
   notes: '',
   elements: [
