@@ -15,6 +15,7 @@ import {
   signedDistanceToZone,
   signedDistanceToZoneAt,
   trenchRing,
+  type ExcavationShape,
   type XY,
 } from './index';
 
@@ -226,5 +227,35 @@ describe('zones (docs/calculation.md, "Standoff")', () => {
     expect(signedDistanceToZone(ex, [5, 10], 3)).toBeCloseTo(1, 12);
     expect(signedDistanceToZone(ex, [5, 3], 3)).toBeCloseTo(-6, 12);
     expect(signedDistanceToZoneAt(ex, proj.toWgs84([5, 10]), 3, proj)).toBeCloseTo(1, 6);
+  });
+});
+
+describe('prepared outlines are kept while the shape stays the same', () => {
+  const ll = (p: readonly number[]) => proj.toWgs84(p);
+  const trenchOf = (x: number): Extract<ExcavationShape, { kind: 'trench' }> => ({
+    kind: 'trench',
+    centreLine: { type: 'LineString', coordinates: [ll([-x, 0]), ll([x, 0])] },
+    width: 1,
+  });
+
+  it('the same content (another object) answers the kept outline; a shape changed in place is prepared again', () => {
+    const shape = trenchOf(10);
+    const first = prepareExcavation(shape, proj);
+    expect(prepareExcavation(trenchOf(10), proj)).toBe(first);
+    expect(Object.isFrozen(first)).toBe(true);
+    // 20 m long, 1 m wide (common practice, no published source: a rectangle's extent).
+    expect(first.bounds).toMatchObject({ minX: expect.closeTo(-10, 3), maxX: expect.closeTo(10, 3) });
+    shape.centreLine.coordinates[1] = ll([30, 0]);
+    const moved = prepareExcavation(shape, proj);
+    expect(moved).not.toBe(first);
+    expect(moved.bounds.maxX).toBeCloseTo(30, 3);
+  });
+
+  it('another origin prepares it again, in its own site-local metres', () => {
+    const shape = trenchOf(10);
+    const here = prepareExcavation(shape, proj);
+    const there = prepareExcavation(shape, localProjection(proj.toWgs84([100, 0])));
+    expect(there).not.toBe(here);
+    expect(there.bounds.minX).toBeCloseTo(-110, 2);
   });
 });

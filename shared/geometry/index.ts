@@ -50,10 +50,28 @@ export function measureLoad(excavation: PreparedOutline, footprint: FootprintSha
   return placeFootprint(excavation, ring);
 }
 
-/** Prepare an excavation's outline once (site-local metres) for many measurements. */
+/**
+ * Prepare an excavation's outline once (site-local metres) for many measurements. Outlines are kept
+ * between calls by the shape's content and the projection's origin (the same excavation is measured
+ * for every load, every frame of a drag on the placing map and every check request), so a shape is
+ * prepared once while it stays the same; keyed by content, never by object, so a shape changed in
+ * place is prepared again. A kept outline is frozen; at most KEPT_OUTLINES are kept (least recently
+ * used goes first). A shape that cannot be prepared throws GeometryError each time.
+ */
 export function prepareExcavation(shape: ExcavationShape, proj: LocalProjection): PreparedOutline {
-  return excavationOutline(shape, proj);
+  const key = `${proj.origin[0]},${proj.origin[1]}|${JSON.stringify(shape)}`;
+  let outline = keptOutlines.get(key);
+  if (outline) {
+    keptOutlines.delete(key);
+  } else {
+    outline = Object.freeze(excavationOutline(shape, proj));
+    if (keptOutlines.size >= KEPT_OUTLINES) keptOutlines.delete(keptOutlines.keys().next().value!);
+  }
+  keptOutlines.set(key, outline);
+  return outline;
 }
+const KEPT_OUTLINES = 500;
+const keptOutlines = new Map<string, PreparedOutline>();
 
 /** Signed distance (m) from a WGS84 position to the zone within `distance` of the outline: + outside, − inside. */
 export function signedDistanceToZoneAt(excavation: PreparedOutline, position: LonLat, distance: number, proj: LocalProjection): number {

@@ -51,7 +51,10 @@ export async function startBrink(): Promise<{ port: number; url: string; stop: (
     PUBLIC_URL: ORIGIN_HEADER(port),
     MAIL_CATCHER_PORT: String(await freePort()),
     BRINK_DEMO: '1',
-    NODE_ENV: 'test',
+    // As deployed: NODE_ENV=test would also check every answer against its response schema (http.ts),
+    // work a real server never does. The mail catcher stays on so that no mail leaves the machine.
+    NODE_ENV: 'production',
+    MAIL_CATCHER: 'on',
     SESSION_SECRET: process.env.SESSION_SECRET ?? `bench-${process.pid}-${Date.now()}`,
     UPLOAD_DIR: process.env.UPLOAD_DIR ?? mkdtempSync(join(tmpdir(), 'brink-bench-uploads-')),
   };
