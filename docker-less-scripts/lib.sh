@@ -89,12 +89,35 @@ start_fake_push() {
   node --import tsx server/src/push/fake-service.ts "$port" >"$1" 2>&1 &
   FAKE_PUSH_PID=$!
   export PUSH_FAKE_SERVICE_URL="http://127.0.0.1:$port"
+  wait_for_local_service "$FAKE_PUSH_PID" "$1" "the fake push service" \
+    'fetch(process.argv[1]+"/status",{method:"POST"}).then(r=>process.exit(r.ok?0:1),()=>process.exit(1))' "$PUSH_FAKE_SERVICE_URL"
+}
+
+# wait_for_local_service PID LOG WHAT JS ARG: until `node -e JS ARG` succeeds (up to 30 s); fails
+# with the log when the process PID has died, or when it does not answer in time.
+wait_for_local_service() {
+  local pid="$1" log="$2" what="$3" js="$4" arg="$5"
   for _ in $(seq 1 60); do
-    if node -e 'fetch(process.argv[1]+"/status",{method:"POST"}).then(r=>process.exit(r.ok?0:1),()=>process.exit(1))' "$PUSH_FAKE_SERVICE_URL"; then return 0; fi
-    if ! kill -0 "$FAKE_PUSH_PID" 2>/dev/null; then cat "$1" >&2; return 1; fi
+    if node -e "$js" "$arg"; then return 0; fi
+    if ! kill -0 "$pid" 2>/dev/null; then cat "$log" >&2; return 1; fi
     sleep 0.5
   done
-  echo "the fake push service did not start" >&2; return 1
+  echo "$what did not start" >&2; return 1
+}
+
+# start_fake_s3 DIR LOG: the local S3-compatible object store (server/src/files/fake-s3.ts, s3rver)
+# on a free 127.0.0.1 port, its objects under DIR, in the background, when STORAGE=s3 and no
+# S3_ENDPOINT is set; exports S3_ENDPOINT and the fake's key pair and sets FAKE_S3_PID. The caller
+# stops it (kill "$FAKE_S3_PID").
+start_fake_s3() {
+  FAKE_S3_PID=""
+  if [ "${STORAGE:-disk}" != s3 ] || [ -n "${S3_ENDPOINT:-}" ]; then return 0; fi
+  local port; port="$(free_port)"
+  mkdir -p "$1"
+  node --import tsx server/src/files/fake-s3.ts "$1" "$port" >"$2" 2>&1 &
+  FAKE_S3_PID=$!
+  export S3_ENDPOINT="http://127.0.0.1:$port" S3_ACCESS_KEY_ID=S3RVER S3_SECRET_ACCESS_KEY=S3RVER
+  wait_for_local_service "$FAKE_S3_PID" "$2" "the fake S3 store" 'fetch(process.argv[1]).then(()=>process.exit(0),()=>process.exit(1))' "$S3_ENDPOINT"
 }
 
 # init_cluster DIR: a new cluster owned by the user who will run it, with a random password for

@@ -10,9 +10,11 @@ ensure_chromium
 
 SERVER_PID=""
 FAKE_PUSH_PID=""
+FAKE_S3_PID=""
 before_cleanup() {
   if [ -n "$SERVER_PID" ]; then kill "$SERVER_PID" 2>/dev/null; wait "$SERVER_PID" 2>/dev/null; fi
   if [ -n "$FAKE_PUSH_PID" ]; then kill "$FAKE_PUSH_PID" 2>/dev/null; wait "$FAKE_PUSH_PID" 2>/dev/null; fi
+  if [ -n "$FAKE_S3_PID" ]; then kill "$FAKE_S3_PID" 2>/dev/null; wait "$FAKE_S3_PID" 2>/dev/null; fi
 }
 throwaway_cluster test
 ensure_database "$PGPORT" "$PW" brink_test
@@ -22,6 +24,9 @@ load_env_file .env.example
 export NODE_ENV=test
 export SESSION_SECRET="test-$(date +%s%N)"
 export UPLOAD_DIR="$WORK/uploads"; mkdir -p "$UPLOAD_DIR"
+# Uploads go through the S3 API (.env.example: STORAGE=s3) to the local fake S3 store, for every
+# test below (API tests, chaos, end-to-end).
+start_fake_s3 "$WORK/s3" "$WORK/fake-s3.log"
 
 say "lint and typecheck (npm run lint: eslint, tsc)"
 npm run --silent lint

@@ -12,6 +12,16 @@ const envSchema = z.object({
   DATABASE_URL: z.string().min(1, 'DATABASE_URL is required'),
   SESSION_SECRET: z.string().min(8, 'SESSION_SECRET must be at least 8 characters'),
   UPLOAD_DIR: z.string().optional(),
+  STORAGE: z
+    .string()
+    .optional()
+    .transform((v) => (v && v.trim() ? v.trim().toLowerCase() : 'disk'))
+    .pipe(z.enum(['disk', 's3'], { message: 'STORAGE must be disk or s3' })),
+  S3_ENDPOINT: z.string().optional(),
+  S3_REGION: z.string().optional(),
+  S3_BUCKET: z.string().optional(),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
   BRINK_DEMO: onOff,
   SMTP_URL: z.string().optional(),
   MAIL_FROM: z.string().default('Brink <no-reply@brink.invalid>'),
@@ -33,6 +43,13 @@ export interface Config {
   databaseUrl: string;
   sessionSecret: string;
   uploadDir: string;
+  /**
+   * Where uploads are kept: `disk` (UPLOAD_DIR, one machine) or `s3` (a bucket of an S3-compatible
+   * object store, shared by every server; docs/scaling.md). UPLOAD_DIR stays readable under s3.
+   */
+  storage:
+    | { kind: 'disk' }
+    | { kind: 's3'; endpoint: string | null; region: string; bucket: string; accessKeyId: string | null; secretAccessKey: string | null };
   demo: boolean;
   smtpUrl: string | null;
   mailFrom: string;
@@ -64,6 +81,17 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     databaseUrl: e.DATABASE_URL,
     sessionSecret: e.SESSION_SECRET,
     uploadDir: empty(e.UPLOAD_DIR) ?? '.data/uploads',
+    storage:
+      e.STORAGE === 'disk'
+        ? { kind: 'disk' }
+        : {
+            kind: 's3',
+            endpoint: empty(e.S3_ENDPOINT)?.replace(/\/$/, '') ?? null,
+            region: empty(e.S3_REGION) ?? 'us-east-1',
+            bucket: empty(e.S3_BUCKET) ?? 'brink-uploads',
+            accessKeyId: empty(e.S3_ACCESS_KEY_ID),
+            secretAccessKey: empty(e.S3_SECRET_ACCESS_KEY),
+          },
     demo: e.BRINK_DEMO ?? false,
     smtpUrl: empty(e.SMTP_URL) ?? (catcher ? `smtp://127.0.0.1:${e.MAIL_CATCHER_PORT}` : null),
     mailFrom: e.MAIL_FROM,

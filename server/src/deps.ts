@@ -1,6 +1,7 @@
 import type PgBoss from 'pg-boss';
 import type { Db } from '@db/database';
 import type { Config } from './config';
+import type { FileStore } from './files/store';
 import type { Mailer } from './mail/mailer';
 import type { Pusher } from './push/pusher';
 import type { GeometryPool } from './services/geometry/pool';
@@ -13,6 +14,8 @@ export interface Deps {
   /** Web Push notifications to people's devices (queued like the mail). */
   pusher: Pusher;
   boss: PgBoss;
+  /** Uploaded files (disk or S3: server/src/files/store.ts). */
+  files: FileStore;
   /** Worker threads for geometry that can take long (influence zones). */
   geometry: GeometryPool;
   /**

@@ -6,6 +6,7 @@ import { Mailer } from './mail/mailer';
 import { Pusher } from './push/pusher';
 import { loadOrMakeVapidKeys } from './push/keys';
 import { GeometryPool } from './services/geometry/pool';
+import { createFileStore } from './files/store';
 
 export interface Runtime {
   deps: Deps;
@@ -19,6 +20,9 @@ export interface Runtime {
 export async function startRuntime(config: Config, opts: { now?: () => Date; queuePrefix?: string } = {}): Promise<Runtime> {
   const pool = createPool(config.databaseUrl, 10, { name: 'db' });
   const db = createDb(pool);
+  // The upload store first: a bucket that cannot be reached stops the start with its reason.
+  const files = createFileStore(config);
+  await files.ready();
   // Handed to pg-boss's own pg.Pool (its types do not list pg's options).
   const connectTimeout = { connectionTimeoutMillis: 5000 } as object;
   // Maintenance every 20 s (pg-boss's default: 2 min): a job left active by a server that died
@@ -48,7 +52,7 @@ export async function startRuntime(config: Config, opts: { now?: () => Date; que
   const pusher = new Pusher(boss, db, config, `${prefix}.push`, loadOrMakeVapidKeys(config.push.keysFile));
   await pusher.start();
   const geometry = new GeometryPool();
-  const deps: Deps = { db, config, mailer, pusher, boss, geometry, namespace: prefix, now: opts.now ?? (() => new Date()) };
+  const deps: Deps = { db, config, mailer, pusher, boss, files, geometry, namespace: prefix, now: opts.now ?? (() => new Date()) };
   return {
     deps,
     async stop() {

@@ -11,6 +11,9 @@ import { MailCatcher } from '../src/mail/catcher';
 import { DEMO_PASSWORD } from '@db/demo/people';
 import type { Deps } from '../src/deps';
 import { freePort } from '../src/services/ports';
+import { readdirSync } from 'node:fs';
+import { ListObjectsV2Command } from '@aws-sdk/client-s3';
+import { DiskStore, type FileStore } from '../src/files/store';
 
 export { DEMO_PASSWORD, freePort };
 
@@ -113,4 +116,26 @@ export function linkToken(text: string, path: string): string {
 export async function demoSiteId(deps: Deps): Promise<number> {
   const s = await deps.db.selectFrom('sites').select('id').where('name', '=', 'Alder Marsh pumping station').executeTakeFirstOrThrow();
   return s.id;
+}
+
+/**
+ * How many files a store holds: its folder's files or its bucket's objects. Give the test app a
+ * folder and a bucket of its own (`ownFileStore()`) so that the count is the file's alone.
+ */
+export async function filesIn(store: FileStore): Promise<number> {
+  if (store instanceof DiskStore) return readdirSync(store.dir, { recursive: true, withFileTypes: true }).filter((d) => d.isFile()).length;
+  const s3 = store as FileStore & { client: import('@aws-sdk/client-s3').S3Client; bucket: string };
+  let n = 0;
+  let token: string | undefined;
+  do {
+    const page = await s3.client.send(new ListObjectsV2Command({ Bucket: s3.bucket, ContinuationToken: token }));
+    n += page.KeyCount ?? 0;
+    token = page.NextContinuationToken;
+  } while (token);
+  return n;
+}
+
+/** Settings for a test app with an upload folder and an S3 bucket of its own (whichever STORAGE names). */
+export function ownFileStore(): Record<string, string> {
+  return { UPLOAD_DIR: mkdtempSync(join(tmpdir(), 'brink-uploads-')), S3_BUCKET: `brink-test-${randomUUID().slice(0, 12)}` };
 }

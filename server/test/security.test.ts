@@ -1,11 +1,19 @@
-import { mkdtempSync, readdirSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
 import express from 'express';
 import request from 'supertest';
 import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demo, DEMO_PASSWORD, demoSiteId, signedIn, startTestApp, TEST_ORIGIN, unique, type TestApp } from './helpers';
+import {
+  demo,
+  DEMO_PASSWORD,
+  demoSiteId,
+  filesIn,
+  ownFileStore,
+  signedIn,
+  startTestApp,
+  TEST_ORIGIN,
+  unique,
+  type TestApp,
+} from './helpers';
 import { newToken } from '../src/services/tokens';
 import { Api, conflict, errorHandler } from '../src/http';
 import { limits, receiveFiles, storeUpload } from '../src/services/uploads';
@@ -23,16 +31,15 @@ type Agent = Awaited<ReturnType<typeof signedIn>>;
 let admin: Agent;
 let stateChanging: [string, string][] = [];
 
-/** This file's own upload folder, so that the files counted are this file's alone. */
-const uploadDir = mkdtempSync(path.join(tmpdir(), 'brink-sec-uploads-'));
-const filesKept = () => readdirSync(uploadDir, { recursive: true, withFileTypes: true }).filter((d) => d.isFile()).length;
+/** This file's own upload folder and bucket (ownFileStore), so that the files counted are this file's alone. */
+const filesKept = () => filesIn(t.deps.files);
 const PNG = Buffer.from(
   '89504e470d0a1a0a0000000d49484452000000010000000108060000001f15c4890000000d4944415478da63f8cfc0f01f0005000201a5d4cb3b0000000049454e44ae426082',
   'hex',
 );
 
 beforeAll(async () => {
-  t = await startTestApp({ SIGNIN_LIMIT_PER_IP: '1000', UPLOAD_DIR: uploadDir });
+  t = await startTestApp({ SIGNIN_LIMIT_PER_IP: '1000', ...ownFileStore() });
   siteId = await demoSiteId(t.deps);
   admin = await signedIn(t.app, demo.admin);
   const doc = (await request(t.app).get('/api/openapi.json')).body as { paths: Record<string, Record<string, unknown>> };
@@ -478,7 +485,7 @@ describe('odd input: text, multipart, files left behind, what a refusal names', 
   });
 
   it('answers 400 to a truncated multipart body and to a NUL in an upload\u2019s file name, and keeps no file', async () => {
-    const before = filesKept();
+    const before = await filesKept();
     const part = (disposition: string, body: Buffer | string, close = true) =>
       Buffer.concat([
         Buffer.from(
@@ -502,7 +509,7 @@ describe('odd input: text, multipart, files left behind, what a refusal names', 
     // The same upload with a plain name is kept: the refusals were about the body and the name.
     const ok = await post(part('filename="site.png"', PNG));
     expect(ok.status).toBe(201);
-    expect(filesKept()).toBe(before + 1);
+    expect(await filesKept()).toBe(before + 1);
   });
 
   it('removes every stored file a request does not keep: refused after storing, or rolled back', async () => {
@@ -536,14 +543,14 @@ describe('odd input: text, multipart, files left behind, what a refusal names', 
     const app = express();
     app.use('/api', api.router);
     app.use(errorHandler);
-    const before = filesKept();
+    const before = await filesKept();
     const refused = await request(app).post('/api/test/refused').attach('file', PNG, { filename: 'a.png', contentType: 'image/png' });
     expect(refused.status).toBe(409);
-    expect(filesKept()).toBe(before);
+    expect(await filesKept()).toBe(before);
     const kept = await request(app).post('/api/test/kept').attach('file', PNG, { filename: 'b.png', contentType: 'image/png' });
     expect(kept.status).toBe(200);
     expect(stored).toBe(2);
-    expect(filesKept()).toBe(before + 1);
+    expect(await filesKept()).toBe(before + 1);
   });
 
   it('a 409 on deleting an excavation never names another site\u2019s permits: their excavation is 404 like a missing one', async () => {

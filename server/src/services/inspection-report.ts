@@ -1,5 +1,3 @@
-import path from 'node:path';
-import { readFile } from 'node:fs/promises';
 import PDFDocument from 'pdfkit';
 import { checklist, outcomeLabels, reasonLabels, type Inspection } from '@shared/schemas/inspections';
 import { formatSiteTime, isoWeekRange, shiftsBetween } from '@shared/time/shifts';
@@ -37,7 +35,7 @@ interface ShiftGroup {
  * failed checks and the photos as thumbnails; shifts of an open excavation with no inspection say
  * so. Returns the PDF bytes.
  */
-export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'now'>, siteId: number, week: string): Promise<Buffer> {
+export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'files' | 'now'>, siteId: number, week: string): Promise<Buffer> {
   const now = deps.now();
   const clock = await siteClock(deps.db, siteId, now);
   const tz = clock.timeZone;
@@ -222,16 +220,16 @@ function groupByShift(list: Inspection[], expected: { start: Date; name: string 
   return [...groups.values()].sort((a, b) => a.start.getTime() - b.start.getTime());
 }
 
-async function photoFiles(deps: Pick<Deps, 'db' | 'config'>, list: Inspection[]): Promise<Map<number, Buffer>> {
+async function photoFiles(deps: Pick<Deps, 'db' | 'files'>, list: Inspection[]): Promise<Map<number, Buffer>> {
   const ids = list.flatMap((i) => i.photos.map((p) => p.id));
   const out = new Map<number, Buffer>();
   if (!ids.length) return out;
   const rows = await deps.db.selectFrom('uploads').select(['id', 'storage_key']).where('id', 'in', ids).execute();
   for (const r of rows) {
     try {
-      out.set(r.id, await readFile(path.resolve(deps.config.uploadDir, r.storage_key)));
+      out.set(r.id, await deps.files.read(r.storage_key));
     } catch {
-      // a file gone from disk prints as "(photo missing)"
+      // a file gone from the store prints as "(photo missing)"
     }
   }
   return out;

@@ -1,13 +1,12 @@
 import { randomUUID } from 'node:crypto';
-import { createReadStream } from 'node:fs';
-import { mkdir, unlink, writeFile } from 'node:fs/promises';
-import path from 'node:path';
+import { pipeline } from 'node:stream/promises';
 import multer from 'multer';
 import { fileTypeFromBuffer } from 'file-type';
 import type { Request, RequestHandler, Response } from 'express';
 import type { Db } from '@db/database';
 import type { Deps } from '../deps';
 import { badText, HttpError } from '../http';
+import { MissingFile } from '../files/store';
 
 export const MB = 1024 * 1024;
 
@@ -71,7 +70,7 @@ const writtenFor = new WeakMap<Express.Multer.File, string[]>();
  * every file that `storeUpload` wrote for this request and that no committed `uploads` row keeps.
  * The one place where refused and rolled-back uploads are cleaned up.
  */
-export async function discardUnkept(deps: Pick<Deps, 'db' | 'config'>, req: Request): Promise<string[]> {
+export async function discardUnkept(deps: Pick<Deps, 'db' | 'files'>, req: Request): Promise<string[]> {
   const written = writtenBy.get(req);
   if (!written?.length) return [];
   const kept = new Set(
@@ -79,9 +78,7 @@ export async function discardUnkept(deps: Pick<Deps, 'db' | 'config'>, req: Requ
   );
   const removed = written.filter((k) => !kept.has(k));
   for (const key of removed) {
-    await unlink(path.resolve(deps.config.uploadDir, key)).catch((e: NodeJS.ErrnoException) => {
-      if (e.code !== 'ENOENT') console.error(`[uploads] could not remove ${key}`, e);
-    });
+    await deps.files.remove(key).catch((e: unknown) => console.error(`[uploads] could not remove ${key}`, e));
   }
   written.length = 0;
   return removed;
@@ -121,21 +118,19 @@ export async function checkUploadType(file: Express.Multer.File, field: string, 
 }
 
 /**
- * Checks a received file's type from its content and keeps it under UPLOAD_DIR (outside the web
- * root), recording it in `uploads`. A file of the wrong type answers 400 naming the field.
+ * Checks a received file's type from its content and keeps it in the file store (UPLOAD_DIR or the
+ * S3 bucket; never public), recording it in `uploads`. A file of the wrong type answers 400 naming the field.
  */
 export async function storeUpload(
-  deps: Pick<Deps, 'db' | 'config'>,
+  deps: Pick<Deps, 'db' | 'files'>,
   file: Express.Multer.File,
   opts: { field: string; accept: Accept; purpose: string; siteId: number | null; userId: number | null; db?: Db },
 ): Promise<StoredUpload> {
   const detected = await checkUploadType(file, opts.field, opts.accept);
-  const key = path.join(new Date().toISOString().slice(0, 7), `${randomUUID()}.${detected.ext}`);
-  const full = path.resolve(deps.config.uploadDir, key);
-  await mkdir(path.dirname(full), { recursive: true });
+  const key = `${new Date().toISOString().slice(0, 7)}/${randomUUID()}.${detected.ext}`;
   // Noted before writing: if the request does not keep it (refused, rolled back), it is removed.
   writtenFor.get(file)?.push(key);
-  await writeFile(full, file.buffer, { mode: 0o600 });
+  await deps.files.put(key, file.buffer, detected.mime);
   const row = await (opts.db ?? deps.db)
     .insertInto('uploads')
     .values({
@@ -152,19 +147,23 @@ export async function storeUpload(
   return { id: row.id, mime: row.mime, size: row.size, originalName: row.original_name };
 }
 
-/** Sends a stored upload with its checked type; `inline` for images and PDFs shown in the page. */
-export async function sendUpload(deps: Pick<Deps, 'db' | 'config'>, res: Response, id: number, inline = true): Promise<void> {
+/**
+ * Sends a stored upload with its checked type; `inline` for images and PDFs shown in the page.
+ * Streamed through this server from the store, after the route's access check: the store itself
+ * is never handed out (no public or signed address).
+ */
+export async function sendUpload(deps: Pick<Deps, 'db' | 'files'>, res: Response, id: number, inline = true): Promise<void> {
   const row = await deps.db.selectFrom('uploads').selectAll().where('id', '=', id).executeTakeFirst();
   if (!row) throw new HttpError(404, 'not_found', 'That file was not found.');
+  const body = await deps.files.open(row.storage_key).catch((e: unknown) => {
+    if (!(e instanceof MissingFile)) throw e;
+    console.error(`[uploads] upload ${id} is recorded but ${e.message}`);
+    throw new HttpError(404, 'not_found', 'That file is recorded but its content is missing. Upload it again.');
+  });
   res.setHeader('Content-Type', row.mime);
   res.setHeader('Content-Length', String(row.size));
   res.setHeader('X-Content-Type-Options', 'nosniff');
   res.setHeader('Cache-Control', 'private, max-age=3600');
   res.setHeader('Content-Disposition', `${inline ? 'inline' : 'attachment'}; filename*=UTF-8''${encodeURIComponent(row.original_name)}`);
-  await new Promise<void>((resolve, reject) => {
-    const s = createReadStream(path.resolve(deps.config.uploadDir, row.storage_key));
-    s.on('error', reject);
-    s.on('end', () => resolve());
-    s.pipe(res);
-  });
+  await pipeline(body, res);
 }
