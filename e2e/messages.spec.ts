@@ -27,13 +27,15 @@ test('a request refused by the server: each reason once, by its label, next to i
   await expect(page.getByLabel('Window closes')).toHaveAttribute('aria-invalid', 'true');
   await expect(page.getByText(/windowEnd|must be after the start/)).toHaveCount(0);
 
-  // A stockpile with no height, sent as it is: the server's reason stands under "Height (m)".
+  // A stockpile with no height, sent as it is: the form's check of the shared schema puts the
+  // reason under "Height (m)", once (the live check's "Cannot check: …" is its own line).
   await page.getByLabel('Window closes').fill(`${day}T18:00`);
   await page.getByLabel('Ad hoc load').selectOption('stockpile');
   await page.getByRole('button', { name: 'Add load' }).click();
   await page.getByLabel('Height (m)').fill('');
   await page.getByRole('button', { name: 'Send for review' }).click();
-  await expect(page.getByText('Height (m) is required.')).toHaveCount(1);
+  await expect(page.getByText('Height (m) is required: type a figure.', { exact: true })).toHaveCount(1);
+  await expect(page.getByLabel('Height (m)')).toHaveAttribute('aria-invalid', 'true');
   await expect(summary).toHaveText('Correct the field marked below.');
   await expect(summary).toBeFocused();
   await expect(page.getByText(/loads\[|Invalid input|expected number|received null/)).toHaveCount(0);

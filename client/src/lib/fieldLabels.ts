@@ -126,8 +126,21 @@ export function serverSummary(
   label: (path: string) => string = fieldLabel,
 ): string {
   if (!(error instanceof ApiError)) return errorMessage(error);
-  const entries = Object.entries(error.fields);
-  if (entries.length === 0) return error.message;
+  if (Object.keys(error.fields).length === 0) return error.message;
+  return fieldsSummary(error.fields, shown, label);
+}
+
+/**
+ * The summary sentence for field reasons, from the server or the form's own check of the shared
+ * schema: "Correct the field marked below." for the fields shown with their reasons, and the
+ * others spelt out by their labels.
+ */
+export function fieldsSummary(
+  fields: Record<string, string>,
+  shown: (path: string) => boolean = () => false,
+  label: (path: string) => string = fieldLabel,
+): string {
+  const entries = Object.entries(fields);
   const unshown = entries.filter(([k]) => !shown(k)).map(([k, v]) => fieldSentence(label(k), v));
   const marked = entries.length - unshown.length;
   const lead = marked === 0 ? [] : [`Correct the ${marked === 1 ? 'field' : `${marked} fields`} marked below.`];

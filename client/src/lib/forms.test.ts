@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { ApiError } from './api';
-import { applyServerErrors, fieldSentence } from './forms';
-import { fieldLabel, serverSummary } from './fieldLabels';
+import { applyServerErrors, errorPaths, fieldSentence } from './forms';
+import { fieldLabel, fieldsSummary, serverSummary } from './fieldLabels';
 
 describe('fieldSentence', () => {
   it('joins a reason that reads on from the label', () => {
@@ -69,5 +69,28 @@ describe('serverSummary and fieldLabel: the API refusals in the words of the for
 
   it("keeps the server's own sentence when it names no field", () => {
     expect(serverSummary(new ApiError(409, 'conflict', 'Someone else changed this permit.'))).toBe('Someone else changed this permit.');
+  });
+});
+
+describe('errorPaths', () => {
+  it("names nested form errors as the API names fields, so the form's own refusals read like the server's", () => {
+    // The shape react-hook-form gives after the shared schema refused a request.
+    const errors = {
+      windowEnd: { type: 'custom', message: 'must be after the window opens' },
+      loads: [undefined, { height: { type: 'invalid_type', message: 'is required: type a figure' } }],
+      dig: { servicesChecks: { drawings: { by: { type: 'custom', message: 'who did it is required once it is done' } } } },
+      operatorIds: { type: 'too_big', message: 'must list at most 20' },
+    };
+    const flat = errorPaths(errors);
+    expect(flat).toEqual({
+      windowEnd: 'must be after the window opens',
+      'loads[1].height': 'is required: type a figure',
+      'dig.servicesChecks.drawings.by': 'who did it is required once it is done',
+      operatorIds: 'must list at most 20',
+    });
+    // The fields the page shows stand by their boxes; the others are spelt out by their labels.
+    expect(fieldsSummary(flat, (p) => p === 'windowEnd' || p.startsWith('loads'))).toBe(
+      'Correct the 2 fields marked below. Who did it is required once it is done. Operators to brief must list at most 20.',
+    );
   });
 });

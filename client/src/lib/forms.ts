@@ -1,4 +1,4 @@
-import type { FieldValues, Path, UseFormSetError } from 'react-hook-form';
+import type { FieldErrors, FieldValues, Path, UseFormSetError } from 'react-hook-form';
 import { setPlainMessages } from '@shared/schemas/messages';
 import { ApiError, errorMessage } from './api';
 import { fieldSentence } from './sentences';
@@ -29,6 +29,26 @@ export function applyServerErrors<T extends FieldValues>(
     if (isShown(serverName)) setError(formName(serverName) as Path<T>, { type: 'server', message: reason });
   }
   return serverSummary(error, isShown, (k) => labels[formName(k) as Path<T>] ?? fieldLabel(k));
+}
+
+/**
+ * react-hook-form's nested errors as flat reasons named as the API names fields (`loads[0].height`,
+ * `dig.servicesChecks.drawings.by`), so a page reads its form's own refusals and the server's alike.
+ */
+export function errorPaths(errors: FieldErrors): Record<string, string> {
+  const out: Record<string, string> = {};
+  const walk = (node: unknown, path: string) => {
+    if (!node || typeof node !== 'object') return;
+    const own = (node as { message?: unknown }).message;
+    if (path && typeof own === 'string' && own) out[path] = own;
+    for (const [k, v] of Object.entries(node)) {
+      if (k === 'ref' || k === 'type' || k === 'types' || k === 'message') continue;
+      const key = k === 'root' ? path : Array.isArray(node) ? `${path}[${k}]` : path ? `${path}.${k}` : k;
+      walk(v, key);
+    }
+  };
+  walk(errors, '');
+  return out;
 }
 
 /** Plain reasons for the cases the shared schemas leave to zod's defaults (shared/schemas/messages.ts). */

@@ -1,26 +1,32 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
+import { useForm, type FieldErrors, type Path, type PathValue, type Resolver } from 'react-hook-form';
+import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useQueryClient } from '@tanstack/react-query';
 import { localProjection, type XY } from '@shared/geometry';
 import { checkExcavationOf, cumulativeCheck, type PlantForCheck } from '@shared/permits/check';
 import {
+  permitCreateSchema,
   placedLoadLabels,
   serviceCheckKeys,
   serviceCheckLabels,
   type DigDetails,
   type PermitCheck,
+  type PermitCreate,
   type PermitDetail,
+  type PermitKind,
   type PlacedLoad,
   type PlacedLoadKind,
 } from '@shared/schemas/permits';
 import { stockpileMaterials } from '@shared/schemas/plant';
+import type { SurchargeMethod } from '@shared/schemas/sites';
 import { Button, ButtonLink } from '@client/components/Button';
 import { CheckboxField, FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
-import { api, ApiError, errorMessage } from '@client/lib/api';
-import { serverSummary } from '@client/lib/fieldLabels';
-import { fieldSentence } from '@client/lib/forms';
+import { api, ApiError } from '@client/lib/api';
+import { fieldsSummary } from '@client/lib/fieldLabels';
+import { applyServerErrors, errorPaths, fieldSentence } from '@client/lib/forms';
 import { parseId } from '@client/lib/session';
 import {
   checkOnServer,
@@ -41,28 +47,32 @@ import { PlacementMap } from '../components/PlacementMap';
 import { centreOf, moveLoad, rectangle, segment } from '../components/placement';
 import { fromLocalInput, toLocalInput } from '../components/time';
 
+/** The form's values: a request as the shared create schema reads it (the same schema checks it before it is sent). */
 interface Draft {
+  siteId: number;
+  kind: PermitKind;
   description: string;
   windowStart: string;
   windowEnd: string;
   excavationIds: number[];
   operatorIds: number[];
   /** Absent on a new request until chosen: the site's default. */
-  method: 'dispersion-45' | 'elastic' | undefined;
+  method?: SurchargeMethod;
   loads: PlacedLoad[];
   dig: DigDetails | null;
 }
 
 /** A new request: the window from a quarter hour from now for eight hours, the excavation it was asked from. */
-function newDraft(excavationId: number | null): Draft {
+function newDraft(siteId: number, excavationId: number | null): Draft {
   const now = Date.now();
   return {
+    siteId,
+    kind: 'load',
     description: '',
     windowStart: new Date(Math.ceil((now + 15 * 60_000) / 300_000) * 300_000).toISOString(),
     windowEnd: new Date(Math.ceil((now + 15 * 60_000) / 300_000) * 300_000 + 8 * 3600_000).toISOString(),
     excavationIds: excavationId ? [excavationId] : [],
     operatorIds: [],
-    method: undefined,
     loads: [],
     dig: null,
   };
@@ -71,6 +81,8 @@ function newDraft(excavationId: number | null): Draft {
 function draftOf(p: PermitDetail): Draft {
   const r = p.current;
   return {
+    siteId: p.siteId,
+    kind: p.kind,
     description: r.description,
     windowStart: r.windowStart,
     windowEnd: r.windowEnd,
@@ -124,13 +136,25 @@ export function Editor(subject: EditorSubject) {
   const create = useCreatePermit();
   const update = useUpdatePermit(permit?.id ?? 0);
   const qc = useQueryClient();
-  const [kind, setKind] = useState<'load' | 'dig'>(permit?.kind ?? 'load');
-  const [draft, setDraft] = useState<Draft>(() =>
-    permit ? draftOf(permit) : newDraft(subject.permit === null ? subject.excavationId : null),
-  );
+  // The request is a react-hook-form form checked with the shared create schema before anything is
+  // sent; the map, the load rows and Undo change its values with setValue.
+  const form = useForm<Draft, unknown, PermitCreate>({
+    // The values are always whole (every load complete, lists present), a narrower shape than the
+    // schema's input, which its resolver is typed for.
+    resolver: zodResolver(permitCreateSchema) as Resolver<Draft, unknown, PermitCreate>,
+    defaultValues: permit ? draftOf(permit) : newDraft(siteId, subject.permit === null ? subject.excavationId : null),
+    // The summary above the form takes the focus, not the first field.
+    shouldFocusError: false,
+  });
+  const { register, setValue, getValues, setError, handleSubmit } = form;
+  const draft = form.watch();
+  const kind = draft.kind;
+  /** The refusals of the form's check and of the server, named as the API names fields (`loads[0].height`). */
+  const fields = errorPaths(form.formState.errors);
   const [version, setVersion] = useState(permit?.version ?? 0);
-  const [fields, setFields] = useState<Record<string, string>>({});
-  const [summary, setSummary] = useState<string | null>(null);
+  // Each refusal shows the summary anew (and it takes the focus again), even with the same words.
+  const [summary, setSummary] = useState<{ text: string; n: number } | null>(null);
+  const say = (text: string | null) => setSummary((s) => (text === null ? null : { text, n: (s?.n ?? 0) + 1 }));
   const [server, setServer] = useState<PermitCheck | null>(permit?.current.check ?? null);
   const [newKind, setNewKind] = useState<Exclude<PlacedLoadKind, 'plant'>>('stockpile');
   const [placed, setPlaced] = useState<string | null>(null);
@@ -169,8 +193,8 @@ export function Editor(subject: EditorSubject) {
   useEffect(() => {
     if (operatorsOffered.current || !operators.data) return;
     operatorsOffered.current = true;
-    setDraft((d) => ({ ...d, operatorIds: operators.data.lastUsed }));
-  }, [operators.data]);
+    setValue('operatorIds', operators.data.lastUsed);
+  }, [operators.data, setValue]);
 
   // The other permits to count come from the server (authoritative), again when the window or excavations change.
   useEffect(() => {
@@ -233,7 +257,22 @@ export function Editor(subject: EditorSubject) {
       measureLiveCheck(started, dragging);
     }
     // eslint-disable-next-line react-hooks/exhaustive-deps -- liveCheck reads exactly these
-  }, [site.data, proj, draft, named, nearby, plant, plantQ.data, permit?.id, permit?.number, server, method, dragging]);
+  }, [
+    site.data,
+    proj,
+    draft.loads,
+    draft.windowStart,
+    draft.windowEnd,
+    named,
+    nearby,
+    plant,
+    plantQ.data,
+    permit?.id,
+    permit?.number,
+    server,
+    method,
+    dragging,
+  ]);
 
   function liveCheck(verdictOnly: boolean): LiveOutcome {
     if (!site.data || !proj || draft.loads.length === 0 || named.length === 0 || !plantQ.data)
@@ -245,20 +284,26 @@ export function Editor(subject: EditorSubject) {
   if (site.isError || excavations.isError || plantQ.isError) return <LoadError error={site.error ?? excavations.error ?? plantQ.error} />;
   if (!proj) return null;
 
-  const set = (patch: Partial<Draft>) => setDraft((d) => ({ ...d, ...patch }));
+  const set = <K extends Path<Draft>>(name: K, value: PathValue<Draft, K>) => setValue(name, value, { shouldDirty: true });
   /** Keeps the loads as they are now, for "Undo". */
-  const remember = () => setHistory((h) => [...h.slice(-(UNDO_DEPTH - 1)), draft.loads]);
+  const remember = () => {
+    const now = getValues('loads');
+    setHistory((h) => [...h.slice(-(UNDO_DEPTH - 1)), now]);
+  };
   const setLoads = (loads: PlacedLoad[]) => {
     remember();
-    set({ loads });
+    set('loads', loads);
   };
   const setLoad = (loadId: string, f: (l: PlacedLoad) => PlacedLoad) =>
-    setDraft((d) => ({ ...d, loads: d.loads.map((l) => (l.id === loadId ? f(l) : l)) }));
+    set(
+      'loads',
+      getValues('loads').map((l) => (l.id === loadId ? f(l) : l)),
+    );
   const undo = () => {
     const last = history[history.length - 1];
     if (!last) return;
     setHistory((h) => h.slice(0, -1));
-    set({ loads: last });
+    set('loads', last);
     setPlaced(null);
   };
   undoRef.current = undo;
@@ -327,26 +372,34 @@ export function Editor(subject: EditorSubject) {
 
   /** The fields this page shows next to their boxes; the summary names only the others. */
   const shownHere = (path: string) =>
-    ['description', 'windowStart', 'windowEnd', 'excavationIds'].includes(path) ||
+    ['description', 'windowStart', 'windowEnd', 'excavationIds', 'loads'].includes(path) ||
     /^loads\[\d+\]/.test(path) ||
     (kind === 'dig' && path.startsWith('dig'));
+  const shownFields: Path<Draft>[] = [
+    'description',
+    'windowStart',
+    'windowEnd',
+    'excavationIds',
+    'loads',
+    ...(kind === 'dig' ? (['dig'] as const) : []),
+  ];
+  /** The form's own check refused it: each reason stands by its field, the summary names the others. */
+  const invalid = (errors: FieldErrors<Draft>) => say(fieldsSummary(errorPaths(errors), shownHere));
   function refused(e: unknown) {
-    if (e instanceof ApiError) {
-      setFields(e.fields);
-      setSummary(e.status === 409 ? `${e.message} Reload the page to see it as it now is.` : serverSummary(e, shownHere));
-    } else setSummary(errorMessage(e));
+    if (e instanceof ApiError && e.status === 409) say(`${e.message} Reload the page to see it as it now is.`);
+    else say(applyServerErrors(e, setError, shownFields));
   }
 
   /** Saves the request (creating it the first time); answers with the permit's id and version, or null when refused. */
-  async function save(): Promise<{ id: number; version: number } | null> {
-    setSummary(null);
-    setFields({});
+  async function save(values: PermitCreate): Promise<{ id: number; version: number } | null> {
+    say(null);
     try {
       if (!permit) {
-        const created = await create.mutateAsync({ siteId, kind, ...draft, method });
+        const created = await create.mutateAsync(values);
         return { id: created.id, version: created.version };
       }
-      const saved = await update.mutateAsync({ version, ...draft, method });
+      const { siteId: _site, kind: _kind, ...change } = values;
+      const saved = await update.mutateAsync({ version, ...change });
       setVersion(saved.version);
       setServer(saved.current.check);
       return { id: saved.id, version: saved.version };
@@ -355,16 +408,16 @@ export function Editor(subject: EditorSubject) {
       return null;
     }
   }
-  async function saveOnly() {
+  const saveOnly = handleSubmit(async (values) => {
     setBusy(true);
-    const saved = await save();
+    const saved = await save(values);
     setBusy(false);
     if (saved && !permit) void navigate(`/permits/${saved.id}/edit`, { replace: true });
-  }
-  async function saveAndSubmit() {
+  }, invalid);
+  const saveAndSubmit = handleSubmit(async (values) => {
     setBusy(true);
     try {
-      const saved = await save();
+      const saved = await save(values);
       if (!saved) return;
       try {
         await api.post(`/api/permits/${saved.id}/transitions`, { action: 'submit', version: saved.version });
@@ -377,7 +430,7 @@ export function Editor(subject: EditorSubject) {
     } finally {
       setBusy(false);
     }
-  }
+  }, invalid);
 
   const check = live.check ?? null;
   const verdict = live.refused ? 'fails' : (check?.verdict ?? null);
@@ -396,39 +449,32 @@ export function Editor(subject: EditorSubject) {
       }
       actions={permit ? <ButtonLink to={`/permits/${permit.id}`}>Back to the permit</ButtonLink> : null}
     >
-      <FormSummary message={summary} />
+      <FormSummary message={summary?.text} key={summary?.n} />
       <Panel title="Request" level={2}>
         {!permit ? (
           <SelectField
             label="Kind of permit"
-            value={kind}
-            onChange={(e) => setKind(e.target.value as 'load' | 'dig')}
+            {...register('kind')}
             options={[
               { value: 'load', label: 'Place plant or material beside an excavation' },
               { value: 'dig', label: 'Dig: open or extend an excavation' },
             ]}
           />
         ) : null}
-        <TextField
-          label="What the work is"
-          value={draft.description}
-          onChange={(e) => set({ description: e.target.value })}
-          error={fields.description}
-          maxLength={1000}
-        />
+        <TextField label="What the work is" error={fields.description} maxLength={1000} {...register('description')} />
         <div className="grid gap-3 sm:grid-cols-2">
           <TextField
             label="Window opens"
             type="datetime-local"
             value={toLocalInput(draft.windowStart)}
-            onChange={(e) => e.target.value && set({ windowStart: fromLocalInput(e.target.value) })}
+            onChange={(e) => e.target.value && set('windowStart', fromLocalInput(e.target.value))}
             error={fields.windowStart}
           />
           <TextField
             label="Window closes"
             type="datetime-local"
             value={toLocalInput(draft.windowEnd)}
-            onChange={(e) => e.target.value && set({ windowEnd: fromLocalInput(e.target.value) })}
+            onChange={(e) => e.target.value && set('windowEnd', fromLocalInput(e.target.value))}
             error={fields.windowEnd}
           />
         </div>
@@ -442,7 +488,7 @@ export function Editor(subject: EditorSubject) {
                 label={`${e.reference} ${e.name} (${e.depth.toFixed(2)} m deep)`}
                 checked={draft.excavationIds.includes(e.id)}
                 onChange={(ev) =>
-                  set({ excavationIds: ev.target.checked ? [...draft.excavationIds, e.id] : draft.excavationIds.filter((x) => x !== e.id) })
+                  set('excavationIds', ev.target.checked ? [...draft.excavationIds, e.id] : draft.excavationIds.filter((x) => x !== e.id))
                 }
               />
             ))}
@@ -551,7 +597,7 @@ export function Editor(subject: EditorSubject) {
               label={o.name}
               checked={draft.operatorIds.includes(o.id)}
               onChange={(ev) =>
-                set({ operatorIds: ev.target.checked ? [...draft.operatorIds, o.id] : draft.operatorIds.filter((x) => x !== o.id) })
+                set('operatorIds', ev.target.checked ? [...draft.operatorIds, o.id] : draft.operatorIds.filter((x) => x !== o.id))
               }
             />
           ))}
@@ -562,14 +608,14 @@ export function Editor(subject: EditorSubject) {
         <SelectField
           label="Method"
           value={method}
-          onChange={(e) => set({ method: e.target.value as Draft['method'] })}
+          onChange={(e) => set('method', e.target.value as SurchargeMethod)}
           options={[
             { value: 'dispersion-45', label: '45° load spread' },
             { value: 'elastic', label: 'Elastic (Boussinesq-based)' },
           ]}
         />
       </Panel>
-      {kind === 'dig' ? <DigForm dig={draft.dig ?? emptyDig} fields={fields} onChange={(dig) => set({ dig })} /> : null}
+      {kind === 'dig' ? <DigForm dig={draft.dig ?? emptyDig} fields={fields} onChange={(dig) => set('dig', dig)} /> : null}
       <div className="flex flex-wrap gap-3">
         <Button
           onClick={() => void saveOnly()}
