@@ -3,7 +3,9 @@ import bcrypt from 'bcryptjs';
 import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { localProjection, prepareExcavation, signedDistanceToZoneAt } from '@shared/geometry';
+import { exclusionDistance } from '@shared/permits/exclusion';
 import type { FieldPermit } from '@shared/schemas/field';
+import type { PermitDetail } from '@shared/schemas/permits';
 import { DEMO_PASSWORD, demo, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
 import { createPermit, makeWorld, submitAndApprove, type PermitWorld } from './permits-fixtures';
 
@@ -84,6 +86,21 @@ describe('the permits that name me', () => {
     const [cx, cy] = w.trenchCentre;
     const d = signedDistanceToZoneAt(prepareExcavation(x.shape, proj), proj.toWgs84([cx, cy + 5]), x.standoff!, proj);
     expect(d).toBeCloseTo(1.0, 6);
+  });
+
+  it('shows a permit approved as placed at the figure the permit page shows, saying why (no 3H, no other figure)', async () => {
+    const p = (await myPermits(people.a.agent)).find((x) => x.id === pair.id)!;
+    const detail: PermitDetail = (await w.agents.coordinator.get(`/api/permits/${pair.id}`)).body.permit;
+    expect(detail.current.decision).toMatchObject({ action: 'approve', standoff: null });
+    const [x] = p.excavations;
+    const computed = detail.current.check!.excavations.find((e) => e.excavationId === x.id)!.standoff;
+    expect(computed).not.toBeNull();
+    expect(x.standoff).toBe(Math.max(computed!, p.minimumClearance));
+    expect(x.standoffBasis).toBe(computed! >= p.minimumClearance ? 'computed' : 'clearance');
+    // The permit page computes it with the same function from what GET /api/permits/:id answers.
+    expect(exclusionDistance(detail.current, x.id, p.minimumClearance, x.depth)).toEqual({ distance: x.standoff, basis: x.standoffBasis });
+    // The coordinator's own figure is said as theirs.
+    expect((await myPermits(people.a.agent)).find((y) => y.id === named.id)!.excavations[0].standoffBasis).toBe('set');
   });
 
   it('lets members of the site open one permit, and refuses other sites', async () => {

@@ -55,6 +55,14 @@ export type ConcernReported = z.output<typeof concernReportedAnswer>;
 
 const zone = z.discriminatedUnion('type', [polygonAnswer, multiPolygonAnswer]);
 
+/**
+ * Where an approved permit's exclusion distance comes from: the standoff the coordinator set, the
+ * standoff the check computed for that excavation (approved as placed, no standoff set), the whole
+ * reach of the check, 3H (no standoff found), or the site's least clearance when that is larger.
+ */
+export const exclusionBases = ['set', 'computed', 'whole-reach', 'clearance'] as const;
+export type ExclusionBasis = (typeof exclusionBases)[number];
+
 /** An excavation a permit names, with its zones for the phone's map and reading. */
 export const fieldExcavationAnswer = z.object({
   id: int,
@@ -75,8 +83,10 @@ export const fieldExcavationAnswer = z.object({
   influenceZone: zone,
   /** Where no part of the permitted load may go: within `standoff` of the edge. Null when none was set. */
   exclusionZone: zone.nullable(),
-  /** Distance (m) of the exclusion zone's boundary from the excavation's edge. */
+  /** Distance (m) of the exclusion zone's boundary from the excavation's edge (shared/permits/exclusion.ts). */
   standoff: z.number().nullable(),
+  /** Where that distance comes from (the coordinator's standoff, the computed one, …); null when none is set. */
+  standoffBasis: z.enum(exclusionBases).nullable(),
 });
 export type FieldExcavation = z.output<typeof fieldExcavationAnswer>;
 

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import type { FieldErrors } from 'react-hook-form';
 import { ApiError } from './api';
 import { applyServerErrors, errorPaths, fieldSentence } from './forms';
 import { fieldLabel, fieldsSummary, serverSummary } from './fieldLabels';
@@ -75,7 +76,12 @@ describe('serverSummary and fieldLabel: the API refusals in the words of the for
 describe('errorPaths', () => {
   it("names nested form errors as the API names fields, so the form's own refusals read like the server's", () => {
     // The shape react-hook-form gives after the shared schema refused a request.
-    const errors = {
+    const errors: FieldErrors<{
+      windowEnd: string;
+      loads: { height: number }[];
+      dig: { servicesChecks: { drawings: { by: string } } };
+      operatorIds: number[];
+    }> = {
       windowEnd: { type: 'custom', message: 'must be after the window opens' },
       loads: [undefined, { height: { type: 'invalid_type', message: 'is required: type a figure' } }],
       dig: { servicesChecks: { drawings: { by: { type: 'custom', message: 'who did it is required once it is done' } } } },

@@ -2,9 +2,10 @@ import type { LineString, Polygon } from 'geojson';
 import type { Db } from '@db/database';
 import { exclusionZone, localProjection, prepareExcavation, type LocalProjection, type PreparedOutline, type XY } from '@shared/geometry';
 import { checkExcavationOf, footprintsOf } from '@shared/permits/check';
+import { exclusionDistance } from '@shared/permits/exclusion';
 import { supportLabels } from '@shared/schemas/excavations';
 import type { FieldExcavation, FieldFootprint, FieldPermit } from '@shared/schemas/field';
-import { editableStatuses, type PermitRevision, type PermitStatus } from '@shared/schemas/permits';
+import { editableStatuses, type PermitStatus } from '@shared/schemas/permits';
 import { concernsOf } from './concerns';
 import { loadExcavations } from './excavations';
 import { plantFor } from './permits/check';
@@ -39,26 +40,6 @@ function closedRing(ring: XY[], proj: LocalProjection): Polygon {
   return { type: 'Polygon', coordinates: [[...out, out[0]]] };
 }
 
-/**
- * The exclusion distance of one excavation under an approved revision: the coordinator's standoff
- * when they set one, else the check's standoff for that excavation, never below the site's least
- * clearance. Where the check found no standoff at all (approved with a recorded reason), the zone
- * is the whole reach of the search, 3H: the phone never shows a smaller zone than the check
- * supports. Null before approval (nothing is permitted yet).
- */
-export function exclusionDistance(
-  rev: Pick<PermitRevision, 'decision' | 'check'>,
-  excavationId: number,
-  minimumClearance: number,
-  depth: number,
-): number | null {
-  if (rev.decision?.action !== 'approve') return null;
-  const forThis = rev.check?.excavations.find((e) => e.excavationId === excavationId);
-  const checked = forThis ? forThis.standoff : (rev.check?.computedStandoff ?? null);
-  const standoff = rev.decision.standoff ?? checked ?? 3 * depth;
-  return Math.max(standoff, minimumClearance);
-}
-
 /** Everything the phone shows of one permit, for one reader; null when there is no such permit. */
 export async function loadFieldPermit(db: Db, permitId: number, viewerId: number): Promise<FieldPermit | null> {
   const summary = await loadSummary(db, permitId);
@@ -79,7 +60,7 @@ export async function loadFieldPermit(db: Db, permitId: number, viewerId: number
     const { shape } = checkExcavationOf(r);
     const outline = prepareExcavation(shape, proj);
     prepared.push(outline);
-    const standoff = exclusionDistance(rev, r.id, site.minimum_clearance, r.depth);
+    const exclusion = exclusionDistance(rev, r.id, site.minimum_clearance, r.depth);
     return [
       {
         id: r.id,
@@ -92,8 +73,9 @@ export async function loadFieldPermit(db: Db, permitId: number, viewerId: number
         shape,
         outline: r.outline,
         influenceZone: r.influenceZone,
-        exclusionZone: standoff === null ? null : exclusionZone(outline, standoff, proj),
-        standoff,
+        exclusionZone: exclusion === null ? null : exclusionZone(outline, exclusion.distance, proj),
+        standoff: exclusion?.distance ?? null,
+        standoffBasis: exclusion?.basis ?? null,
       },
     ];
   });

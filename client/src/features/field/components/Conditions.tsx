@@ -1,4 +1,5 @@
 import { deviceTimeZone, formatSiteTime } from '@shared/time/shifts';
+import { exclusionReason } from '@shared/permits/exclusion';
 import type { FieldPermit } from '@shared/schemas/field';
 import { metres2 } from '../lib/format';
 
@@ -16,6 +17,11 @@ export function Conditions({ permit }: { permit: FieldPermit }) {
             <li key={e.id}>
               Keep every part of the load at least <span className="font-bold">{metres2(e.standoff!)}</span> from the edge of {e.reference}{' '}
               ({e.name}).
+              {e.standoffBasis ? (
+                <span className="block text-lg font-normal" data-testid="standoff-why">
+                  Why {metres2(e.standoff!)}: {exclusionReason(e.standoffBasis)}.
+                </span>
+              ) : null}
             </li>
           ))}
         </ul>

@@ -27,6 +27,7 @@ const pit: FieldExcavation = {
   influenceZone: square,
   exclusionZone: square,
   standoff: 3,
+  standoffBasis: 'set',
 };
 const at = (x: number, y: number, accuracy = 0.5) => {
   const [longitude, latitude] = proj.toWgs84([x, y]);

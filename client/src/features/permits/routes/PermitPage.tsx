@@ -1,4 +1,4 @@
-import { useMemo, useState } from 'react';
+import { useMemo, useState, type ReactNode } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { localProjection } from '@shared/geometry';
 import type { PlantForCheck } from '@shared/permits/check';
@@ -19,6 +19,7 @@ import { Caution } from '@client/components/Caution';
 import { CheckboxField, FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
+import { ExclusionsOnTheGround } from '../components/ExclusionsOnTheGround';
 import { ApiError, errorMessage, isApiError } from '@client/lib/api';
 import { serverSummary } from '@client/lib/fieldLabels';
 import { fieldSentence } from '@client/lib/forms';
@@ -115,7 +116,11 @@ function PermitView({ permit }: { permit: PermitDetail }) {
           </dd>
         </dl>
       </Panel>
-      {rev.decision ? <DecisionPanel permit={permit} /> : null}
+      {rev.decision ? (
+        <DecisionPanel permit={permit}>
+          <ExclusionsOnTheGround rev={rev} excavations={excavations.data ?? []} minimumClearance={site.data?.minimumClearance ?? 0} />
+        </DecisionPanel>
+      ) : null}
       <Actions permit={permit} />
       {rev.dig ? (
         <Panel title="Dig: depth, support and buried services">
@@ -183,7 +188,7 @@ function PermitView({ permit }: { permit: PermitDetail }) {
   );
 }
 
-function DecisionPanel({ permit }: { permit: PermitDetail }) {
+function DecisionPanel({ permit, children }: { permit: PermitDetail; children?: ReactNode }) {
   const d = permit.current.decision!;
   const title = d.action === 'approve' ? 'Approved' : d.action === 'return' ? 'Returned for changes' : 'Declined';
   return (
@@ -195,6 +200,7 @@ function DecisionPanel({ permit }: { permit: PermitDetail }) {
               ? `Standoff: keep every load at least ${d.standoff.toFixed(2)} m from the excavation edge.`
               : 'Approved as placed on the plan (no standoff set).'}
           </p>
+          {children}
           <p className="text-sm text-ink-soft">
             Computed standoff at the decision:{' '}
             {d.computedStandoff === undefined
