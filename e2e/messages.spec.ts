@@ -7,7 +7,7 @@ import { demoPassword, ok, offset, signIn } from './helpers';
 // "That is not your password … Password is not your password.", "must be one of trench-box, …",
 // 'mode "replace"').
 
-test('a request refused by the server: each reason once, by its label, next to its field', async ({ page }) => {
+test('a refused request: each reason once, by its label, next to its field', async ({ page }) => {
   await signIn(page, 'supervisor@demo.brink.test');
   const siteId = page.url().match(/\/sites\/(\d+)/)![1];
   await page.goto(`/sites/${siteId}/permits/new`);
