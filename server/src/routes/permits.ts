@@ -5,13 +5,11 @@ import {
   attachmentFormSchema,
   checkProposalSchema,
   commentSchema,
-  editableStatuses,
   permitCreateSchema,
   permitListQuerySchema,
   permitUpdateSchema,
   transitionRules,
   transitionSchema,
-  type PermitStatus,
   attachmentAddedAnswer,
   briefingAnswer,
   commentAddedAnswer,
@@ -21,10 +19,10 @@ import {
   permitsAnswer,
   siteOperatorsAnswer,
 } from '@shared/schemas/permits';
-import { Api, badRequest, conflict, forbidden, HttpError, notFound, siteFromParam, siteOfRow } from '../http';
-import { audit } from '../services/audit';
-import { filesOf, limits, receiveFiles, sendUpload, storeUpload } from '../services/uploads';
+import { Api, badRequest, forbidden, HttpError, notFound, siteFromParam, siteOfRow } from '../http';
+import { filesOf, limits, receiveFiles, sendUpload } from '../services/uploads';
 import { userActor } from '../services/permits/actors';
+import { addAttachment, attachmentUploadId, removeAttachment } from '../services/permits/attachments';
 import { confirmBriefing } from '../services/permits/briefing';
 import { checkProposal, runPermitCheck, withoutProfiles } from '../services/permits/check';
 import { assertMayAct, StaleError, transition, WrongPasswordError } from '../services/permits/machine';
@@ -391,54 +389,8 @@ export function registerPermitRoutes(api: Api): void {
     async ({ params, body, user, site, req, res, deps }) => {
       const [file] = filesOf(req, 'file');
       if (!file) throw badRequest('Please choose a file.', { file: 'is required' });
-      const accept = body.kind === 'method-statement' ? 'pdf' : body.kind === 'photo' ? 'image' : 'pdfOrImage';
-      if (accept === 'image' && file.size > limits.image) {
-        throw new HttpError(413, 'too_large', 'The photo is too large (at most 10 MB).', { file: 'is too large' });
-      }
-      const p = await db
-        .selectFrom('permits')
-        .select(['id', 'revision', 'number', 'site_id', 'status'])
-        .where('id', '=', params.id)
-        .executeTakeFirstOrThrow();
-      // What was reviewed stays as it was: after submission only photos (a record of the work) may be added.
-      if (body.kind !== 'photo' && !editableStatuses.includes(p.status as PermitStatus)) {
-        throw conflict(`Permit ${p.number} is no longer a draft: documents are added to a new revision; photos may still be added.`);
-      }
-      const row = await db.transaction().execute(async (trx) => {
-        const stored = await storeUpload(deps, file, {
-          field: 'file',
-          accept,
-          purpose: 'permit-attachment',
-          siteId: site.id,
-          userId: user.id,
-          db: trx,
-        });
-        const added = await trx
-          .insertInto('permit_attachments')
-          .values({ permit_id: p.id, revision: p.revision, upload_id: stored.id, kind: body.kind, added_by: user.id, added_at: deps.now() })
-          .returning('id')
-          .executeTakeFirstOrThrow();
-        await audit(trx, {
-          actorId: user.id,
-          siteId: p.site_id,
-          entity: 'permit',
-          entityId: p.id,
-          action: 'attached',
-          detail: { number: p.number, kind: body.kind, name: stored.originalName },
-        });
-        return { id: added.id, stored };
-      });
-      const stored = row.stored;
-      res.status(201).json({
-        attachment: {
-          id: row.id,
-          kind: body.kind,
-          name: stored.originalName,
-          mime: stored.mime,
-          size: stored.size,
-          url: `/api/permits/${p.id}/attachments/${row.id}`,
-        },
-      });
+      const attachment = await addAttachment(deps, { permitId: params.id, siteId: site.id, kind: body.kind, file, by: user.id });
+      res.status(201).json({ attachment });
     },
   );
 
@@ -453,14 +405,7 @@ export function registerPermitRoutes(api: Api): void {
       produces: 'application/octet-stream',
     },
     async ({ params, res, deps }) => {
-      const a = await db
-        .selectFrom('permit_attachments')
-        .select('upload_id')
-        .where('id', '=', params.attachmentId)
-        .where('permit_id', '=', params.id)
-        .executeTakeFirst();
-      if (!a) throw notFound('That attachment');
-      await sendUpload(deps, res, a.upload_id);
+      await sendUpload(deps, res, await attachmentUploadId(db, params.id, params.attachmentId));
     },
   );
 
@@ -475,30 +420,7 @@ export function registerPermitRoutes(api: Api): void {
       responses: { 204: 'Removed' },
     },
     async ({ params, user }) => {
-      const p = await db
-        .selectFrom('permits')
-        .select(['id', 'status', 'revision', 'number', 'site_id'])
-        .where('id', '=', params.id)
-        .executeTakeFirstOrThrow();
-      const a = await db
-        .selectFrom('permit_attachments')
-        .select(['id', 'revision'])
-        .where('id', '=', params.attachmentId)
-        .where('permit_id', '=', p.id)
-        .executeTakeFirst();
-      if (!a) throw notFound('That attachment');
-      if (!editableStatuses.includes(p.status as PermitStatus) || a.revision !== p.revision) {
-        throw conflict(`Permit ${p.number} is frozen: its attachments stay with the revision they belong to.`);
-      }
-      await db.deleteFrom('permit_attachments').where('id', '=', a.id).execute();
-      await audit(db, {
-        actorId: user.id,
-        siteId: p.site_id,
-        entity: 'permit',
-        entityId: p.id,
-        action: 'detached',
-        detail: { number: p.number, attachmentId: a.id },
-      });
+      await removeAttachment(db, params.id, params.attachmentId, user.id);
     },
   );
 }
