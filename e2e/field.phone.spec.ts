@@ -379,7 +379,12 @@ test('a concern and a briefing made with no signal arrive once when it returns, 
   await page.getByRole('button', { name: `I have been briefed on ${permit.number}` }).click();
   await expect(page.getByTestId('briefing-state')).toContainText('recorded on this phone');
   await page.getByLabel('What you saw').fill(note);
+  // A file that is not an image is refused on the phone, before anything is kept or sent, in words.
+  await page.locator('input[type=file]').setInputFiles({ name: 'edge.txt', mimeType: 'text/plain', buffer: Buffer.from('not a photo') });
+  await expect(page.getByText('Photo must be a photo (PNG or JPEG).', { exact: true })).toHaveCount(1);
+  await expect(page.getByText('Photo 1:')).toHaveCount(0);
   await page.locator('input[type=file]').setInputFiles({ name: 'edge.png', mimeType: 'image/png', buffer: PNG });
+  await expect(page.getByText('Photo must be a photo (PNG or JPEG).')).toHaveCount(0);
   await expect(page.getByText('Photo 1:')).toBeVisible();
   await page.getByRole('button', { name: 'Send the concern' }).click();
   await expect(page.getByTestId('concern-on-phone').filter({ hasText: note })).toContainText('waiting to send');
