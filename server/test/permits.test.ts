@@ -1,3 +1,4 @@
+import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { permitActions, permitStatuses } from '@shared/schemas/permits';
 import { allowedTransitions, needsReason, roleFor, signedActions } from './expected-transitions';
@@ -365,6 +366,35 @@ describe('lists', () => {
     expect(bad.body.error.fields.status).toMatch(/unknown status pending/);
     expect((await w.agents.outsider.get(`/api/permits?siteId=${w.siteId}`)).status).toBe(403);
     expect((await w.agents.outsider.get('/api/permits')).body.permits.some((p: { siteId: number }) => p.siteId === w.siteId)).toBe(false);
+  });
+});
+
+describe('text search of the list', () => {
+  it('finds words in the reference, the work, a named excavation and a machine, case-insensitive, % and _ taken literally', async () => {
+    await newTrench(w);
+    const tag = randomUUID().slice(0, 8);
+    const a = await createPermit(w, {
+      description: `Spoil heap at 50% of bay ${tag}`,
+      loads: [{ ...excavatorAt(w, 4), label: 'Loader bucket' }],
+    });
+    const b = await createPermit(w, { description: `Quiet bay ${tag}`, loads: [] });
+    const found = async (q: string) => {
+      const r = await w.agents.supervisor.get(`/api/permits?siteId=${w.siteId}&q=${encodeURIComponent(q)}`).expect(200);
+      return r.body.permits.map((p: { id: number }) => p.id) as number[];
+    };
+    expect(await found(tag.toUpperCase())).toEqual(expect.arrayContaining([a.id, b.id]));
+    expect(await found(`50% of bay ${tag}`)).toEqual([a.id]);
+    expect(await found(`5_% of bay ${tag}`)).toEqual([]); // _ is a character, not a wildcard
+    expect(await found(a.number)).toEqual([a.id]);
+    expect(await found(w.trenchRef.toLowerCase())).toEqual(expect.arrayContaining([a.id, b.id])); // both name the fresh trench
+    const byMachine = await found('excavator 21');
+    expect(byMachine).toContain(a.id);
+    expect(byMachine).not.toContain(b.id);
+    expect(await found('loader BUCKET')).toContain(a.id);
+    expect(await found(`nothing-${randomUUID()}`)).toEqual([]);
+    const long = await w.agents.supervisor.get(`/api/permits?q=${'x'.repeat(101)}`);
+    expect(long.status).toBe(400);
+    expect(long.body.error.fields.q).toMatch(/at most 100 characters/);
   });
 });
 

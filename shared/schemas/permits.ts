@@ -377,6 +377,9 @@ export const permitViewLabels: Record<PermitView, string> = {
 };
 export const permitSorts = ['number', 'windowStart', 'windowEnd', 'status', 'updated'] as const;
 
+/** The longest text search of the permits list (characters). */
+export const permitSearchMax = 100;
+
 export const permitListQuerySchema = z.object({
   siteId: z.coerce.number().int().positive().optional(),
   view: z.enum(permitViews).default('all'),
@@ -399,6 +402,8 @@ export const permitListQuerySchema = z.object({
     }),
   kind: z.enum(permitKinds).optional(),
   excavationId: z.coerce.number().int().positive().optional(),
+  /** Words to find in the reference, the work, a named excavation's reference or name, or a load's machine or label. */
+  q: z.string().trim().max(permitSearchMax, `must be at most ${permitSearchMax} characters`).optional(),
   /** Permits whose window overlaps from..to. */
   from: when.optional(),
   to: when.optional(),

@@ -98,8 +98,8 @@ const sortColumns = {
 
 /**
  * Permits a person may see, filtered: `review` = awaiting review on sites where they coordinate,
- * `mine` = requested by them, `live` = live now; plus site, status, kind, excavation and a window
- * that overlaps from..to.
+ * `mine` = requested by them, `live` = live now; plus site, status, kind, excavation, a window
+ * that overlaps from..to, and a text search (`q`, case-insensitive, % and _ taken literally).
  */
 export async function listPermits(db: Db, user: { id: number; isAdmin: boolean }, q: PermitListQuery): Promise<PermitSummary[]> {
   const sites = await visibleSites(db, user);
@@ -126,6 +126,15 @@ export async function listPermits(db: Db, user: { id: number; isAdmin: boolean }
   if (q.status) query = query.where('p.status', 'in', q.status);
   if (q.kind) query = query.where('p.kind', '=', q.kind);
   if (q.excavationId) query = query.where(sql<boolean>`${q.excavationId}::int = any(r.excavation_ids)`);
+  if (q.q) {
+    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    query = query.where(
+      sql<boolean>`(p.number ilike ${like} or r.description ilike ${like}
+        or exists (select 1 from excavations e where e.id = any(r.excavation_ids) and (e.reference ilike ${like} or e.name ilike ${like}))
+        or exists (select 1 from jsonb_array_elements(r.loads) l left join plant_items m on m.id = (l->>'plantItemId')::int
+                   where l->>'label' ilike ${like} or m.name ilike ${like}))`,
+    );
+  }
   if (q.from) query = query.where('r.window_end', '>', new Date(q.from));
   if (q.to) query = query.where('r.window_start', '<', new Date(q.to));
   const rows = await query.orderBy(sortColumns[q.sort], q.order).orderBy('p.id', q.order).limit(q.limit).execute();

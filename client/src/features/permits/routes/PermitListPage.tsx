@@ -1,6 +1,7 @@
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import {
+  permitSearchMax,
   permitSorts,
   permitStatuses,
   permitViewLabels,
@@ -27,7 +28,10 @@ const sortLabels: Record<(typeof permitSorts)[number], string> = {
   status: 'Status',
 };
 
-/** The site's permits: awaiting my review, my requests, live now, all; filtered and sorted. */
+/** How long typing must pause before the search is sent (ms). */
+const SEARCH_PAUSE_MS = 300;
+
+/** The site's permits: awaiting my review, my requests, live now, all; searched, filtered and sorted. */
 export function PermitListPage() {
   const siteId = parseId(useParams().siteId) ?? 0;
   const me = useMe();
@@ -35,6 +39,27 @@ export function PermitListPage() {
   const role = me.data ? roleOnSite(me.data, siteId) : null;
   const [params, setParams] = useSearchParams();
   const view = (params.get('view') as PermitView) ?? (role === 'coordinator' ? 'review' : role === 'supervisor' ? 'mine' : 'all');
+  // The search lives in the URL (?q=), so a reload or a shared link keeps it; typing is sent once it pauses.
+  const q = params.get('q') ?? '';
+  const [search, setSearch] = useState(q);
+  useEffect(() => {
+    const wanted = search.trim();
+    if (wanted === q) return;
+    const timer = setTimeout(
+      () =>
+        setParams(
+          (prev) => {
+            const next = new URLSearchParams(prev);
+            if (wanted) next.set('q', wanted);
+            else next.delete('q');
+            return next;
+          },
+          { replace: true },
+        ),
+      SEARCH_PAUSE_MS,
+    );
+    return () => clearTimeout(timer);
+  }, [search, q, setParams]);
   const [status, setStatus] = useState('');
   const [excavationId, setExcavationId] = useState('');
   const [from, setFrom] = useState('');
@@ -45,6 +70,7 @@ export function PermitListPage() {
   const list = usePermitList({
     siteId: String(siteId),
     view,
+    q,
     status,
     excavationId,
     from: from ? fromLocalInput(from) : '',
@@ -69,16 +95,25 @@ export function PermitListPage() {
         {permitViews.map((v) => (
           <Link
             key={v}
-            to={`?view=${v}`}
+            to={`?${new URLSearchParams({ view: v, ...(q ? { q } : {}) }).toString()}`}
             aria-current={v === view ? 'page' : undefined}
             className={`rounded-md px-3 py-2 font-semibold ${v === view ? 'bg-accent text-white no-underline' : ''}`}
-            onClick={() => setParams({ view: v })}
           >
             {permitViewLabels[v]}
           </Link>
         ))}
       </nav>
       <form className="grid gap-3 sm:grid-cols-3 lg:grid-cols-6" aria-label="Filters" onSubmit={(e) => e.preventDefault()}>
+        <div className="sm:col-span-3 lg:col-span-6">
+          <TextField
+            label="Search"
+            hint="A permit's reference, its work, an excavation it names or a machine on it."
+            type="search"
+            maxLength={permitSearchMax}
+            value={search}
+            onChange={(e) => setSearch(e.target.value)}
+          />
+        </div>
         <SelectField
           label="Status"
           value={status}
@@ -116,7 +151,7 @@ export function PermitListPage() {
       ) : list.isError ? (
         <LoadError error={list.error} retry={() => list.refetch()} />
       ) : list.data.length === 0 ? (
-        <p>No permits match.</p>
+        <p>{q ? `No permits match “${q}”.` : 'No permits match.'}</p>
       ) : (
         <div className="overflow-x-auto">
           <table className="w-full border-collapse text-left">
