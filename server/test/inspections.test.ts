@@ -405,11 +405,15 @@ describe('a failed inspection stops the work beside it', () => {
     // the permits' own suspension, with the inspection as the reason, on their timeline
     const event = await t.deps.db
       .selectFrom('permit_events')
-      .select(['actor_id', 'actor_name', 'comment', 'to_status'])
+      .select(['actor_id', 'actor_name', 'comment', 'to_status', 'detail'])
       .where('permit_id', '=', first.id)
       .where('action', '=', 'suspend')
       .executeTakeFirstOrThrow();
-    expect(event).toMatchObject({ actor_id: null, to_status: 'suspended' });
+    expect(event).toMatchObject({
+      actor_id: null,
+      to_status: 'suspended',
+      detail: { inspection: { id: r.body.inspection.id, excavationReference: trench.reference } },
+    });
     expect(event.actor_name).toContain(`Inspection ${r.body.inspection.id} of ${trench.reference}`);
     expect(event.comment).toContain('Two frames have slipped on the north side');
 
@@ -448,7 +452,13 @@ describe('a failed inspection stops the work beside it', () => {
       .post(`/api/excavations/${trench.id}/inspections`)
       .send(form({ reason: 'after-event', reasonDetail: 'Frames re-set and re-pinned', remarks: 'Re-inspected after repair.' }));
     expect(later.status).toBe(201);
-    expect(later.body.consequences).toEqual({ suspended: [], notSuspended: [], notified: [] });
+    // nothing resumes by itself: the answer names the permits that stay suspended, for the page to link
+    expect(later.body.consequences).toEqual({
+      suspended: [],
+      notSuspended: [],
+      notified: [],
+      stillSuspended: [first, second].sort((a, b) => a.id - b.id).map((p) => ({ id: p.id, reference: p.number })),
+    });
     expect(await state()).toBe('ok');
     // resuming stays the coordinator's decision, and is allowed again once the excavation is safe
     expect(await statusOf(first.id)).toBe('suspended');

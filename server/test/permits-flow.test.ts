@@ -123,7 +123,10 @@ describe('e-mails of each transition reach the people who act next', () => {
       'resume',
       'hand_back',
     ]);
-    expect(detail.body.permit.events.find((e: { action: string }) => e.action === 'start').actor.name).toBe('Brink schedule');
+    const start = detail.body.permit.events.find((e: { action: string }) => e.action === 'start');
+    expect(start.actor.name).toBe('Brink schedule');
+    // The operator's briefing came after the window opened: that is what let it go live.
+    expect(start.detail.startedBy).toBe('briefing');
   });
 
   it('tells the requester of a decline with its reason', async () => {

@@ -129,14 +129,14 @@ describe('re-check on change', () => {
     expect(after.status).toBe('suspended');
     const reason = after.events.at(-1)!;
     expect(reason).toMatchObject({ action: 'suspend', fromStatus: 'live', toStatus: 'suspended' });
-    expect(reason.comment).toMatch(new RegExp(`^${w.trenchRef} deepened from 2.4 m to 3.2 m: utilisation 1\\.\\d\\d; `));
+    expect(reason.comment).toMatch(new RegExp(`^${w.trenchRef} deepened from 2.40 m to 3.20 m: utilisation 1\\.\\d\\d; `));
     expect(reason.comment).toContain('the cumulative check fails');
     expect(after.current.check!.passes).toBe(false);
     expect(after.current.excavationSnapshot!.excavations[0]).toMatchObject({ id: w.trenchId, depth: 3.2, ratedPressure: 25 });
 
     for (const who of [demo.supervisor, demo.operator, demo.coordinator]) {
       const m = await waitForMail(t.deps, who, new RegExp(`Permit ${p.number} at .* is suspended`));
-      expect(m.text).toContain(`${w.trenchRef} deepened from 2.4 m to 3.2 m: utilisation`);
+      expect(m.text).toContain(`${w.trenchRef} deepened from 2.40 m to 3.20 m: utilisation`);
     }
   });
 
@@ -152,7 +152,7 @@ describe('re-check on change', () => {
     expect(after.statusLabel).toBe('Awaiting review');
     expect(after.current.decision).toBeNull();
     expect(after.events.at(-1)).toMatchObject({ action: 'reconsider', fromStatus: 'approved', toStatus: 'submitted' });
-    expect(after.events.at(-1)!.comment).toMatch(new RegExp(`^${w.trenchRef} deepened from 2.4 m to 3.2 m: utilisation 1\\.\\d\\d`));
+    expect(after.events.at(-1)!.comment).toMatch(new RegExp(`^${w.trenchRef} deepened from 2.40 m to 3.20 m: utilisation 1\\.\\d\\d`));
     for (const who of [demo.supervisor, demo.operator, demo.coordinator])
       await waitForMail(t.deps, who, new RegExp(`Permit ${p.number} at .* goes back for review`));
 
@@ -176,7 +176,7 @@ describe('re-check on change', () => {
     const check = after.current.check as PermitCheck;
     expect(check.utilisation).not.toBe(before.utilisation);
     expect(line.comment).toBe(
-      `${w.trenchRef} deepened from 2.4 m to 2.6 m: still passes: utilisation ${check.utilisation!.toFixed(2)}; computed standoff ${Number(check.computedStandoff!.toFixed(2))} m, approved ${Number(before.computedStandoff!.toFixed(2))} m`,
+      `${w.trenchRef} deepened from 2.40 m to 2.60 m: still passes: utilisation ${check.utilisation!.toFixed(2)}; computed standoff ${check.computedStandoff!.toFixed(2)} m, approved ${before.computedStandoff!.toFixed(2)} m`,
     );
   });
 

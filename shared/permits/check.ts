@@ -41,6 +41,7 @@ import { elementLoad, stockpilePressure, type PlantElement } from '../schemas/pl
 import { calcExcavationOf, type Excavation as RegisterExcavation } from '../schemas/excavations';
 import type { LineString, Polygon } from 'geojson';
 import {
+  loadName,
   placedLoadSchema,
   verdictOf,
   type CheckedLoad,
@@ -214,7 +215,7 @@ export function elementCorners(e: Pick<PlantElement, 'x' | 'y' | 'length' | 'wid
  * share × design factor (kN) spread over their rectangle; a stockpile presses unit weight × height.
  */
 export function footprintsOf(load: PlacedLoad, plant: Map<number, PlantForCheck>, proj: LocalProjection): Footprint[] {
-  const label = load.label || load.id;
+  const label = loadName(load, (id) => plant.get(id)?.name);
   switch (load.kind) {
     case 'plant': {
       const item = plant.get(load.plantItemId);
@@ -222,7 +223,7 @@ export function footprintsOf(load: PlacedLoad, plant: Map<number, PlantForCheck>
       const at = proj.toLocal(load.position);
       return item.elements.map((e) => ({
         loadId: load.id,
-        label: load.label || item.name,
+        label,
         element: e.name,
         kind: 'area' as const,
         local: elementCorners(e, at, load.rotation),
@@ -391,7 +392,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
   for (const ex of reached) {
     const labels = [
       ...new Set(
-        own.filter(({ feet }) => feet.some((f) => footprintReaches(f, ex, proj))).map(({ feet, load }) => feet[0]?.label ?? load.id),
+        own.filter(({ feet }) => feet.some((f) => footprintReaches(f, ex, proj))).map(({ feet, load }) => feet[0]?.label ?? loadName(load)),
       ),
     ];
     warnings.push(
@@ -444,7 +445,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
         try {
           feet = footprintsOf(load, input.otherPlant?.get(o.id) ?? input.plant, proj);
         } catch {
-          warnings.push(`permit ${o.number}: load ${load.id} could not be placed and is not counted`);
+          warnings.push(`permit ${o.number}: ${loadName(load)} could not be placed and is not counted`);
           continue;
         }
         for (const f of feet) {

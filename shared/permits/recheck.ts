@@ -9,7 +9,7 @@
 import { canonical, stateLabels, supportLabels, type CheckInputs } from '../schemas/excavations';
 import type { PermitCheck, PermitDecision } from '../schemas/permits';
 
-const m = (x: number) => `${Number(x.toFixed(2))} m`;
+const m = (x: number) => `${x.toFixed(2)} m`;
 const kPa = (x: number | null) => (x === null ? 'none' : `${Number(x.toFixed(1))} kPa`);
 
 function listed(parts: string[]): string {

@@ -160,6 +160,8 @@ export const consequencesAnswer = z.object({
   /** Live permits Brink could not suspend (e.g. changed at the same moment); the leads are told to act. */
   notSuspended: z.array(z.object({ id: z.number().int(), reference: z.string(), why: z.string() })),
   notified: z.array(z.string()),
+  /** After a safe inspection: the permits on the excavation still suspended (a coordinator resumes them; nothing resumes by itself). */
+  stillSuspended: z.array(z.object({ id: z.number().int(), reference: z.string() })).optional(),
 });
 export type Consequences = z.output<typeof consequencesAnswer>;
 export const recordedInspectionAnswer = z.object({ inspection: inspectionAnswer, consequences: consequencesAnswer.nullable() });

@@ -209,6 +209,20 @@ export const placedLoadSchema = z.discriminatedUnion('kind', [
 export type PlacedLoad = z.infer<typeof placedLoadSchema>;
 export type PlacedLoadKind = PlacedLoad['kind'];
 
+/** A load's kind in words, for a load with no label. */
+export const loadKindWords: Record<PlacedLoadKind, string> = {
+  plant: 'Machine',
+  stockpile: 'Stockpile',
+  area: 'Area load',
+  strip: 'Strip load',
+  line: 'Line load',
+};
+
+/** What people read for a load: its label, else its machine's name, else its kind; never its internal id. */
+export function loadName(load: PlacedLoad, plantName?: (plantItemId: number) => string | undefined): string {
+  return load.label || (load.kind === 'plant' ? plantName?.(load.plantItemId) : undefined) || loadKindWords[load.kind];
+}
+
 export const placedLoadLabels: Record<PlacedLoadKind, string> = {
   plant: 'Plant from the library',
   stockpile: 'Stockpile (unit weight × height)',

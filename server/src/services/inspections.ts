@@ -223,11 +223,8 @@ export async function recordInspection(
     if (seen) {
       if (seen.excavation_id !== args.excavationId)
         throw badRequest('That form was already sent for another excavation.', { clientRef: 'belongs to another excavation' });
-      return {
-        inspection: (await loadInspections(db, { ids: [seen.id] }))[0],
-        created: false,
-        consequences: await storedConsequences(db, seen.id),
-      };
+      const inspection = (await loadInspections(db, { ids: [seen.id] }))[0];
+      return { inspection, created: false, consequences: await withStillSuspended(db, inspection, await storedConsequences(db, seen.id)) };
     }
   }
   const exc = await loadExcavation(db, args.excavationId);
@@ -305,7 +302,29 @@ export async function recordInspection(
     const consequences = await applyConsequences({ ...deps, db: trx }, inspection);
     return { id: row.id, created: true, consequences };
   });
-  return { inspection: (await loadInspections(db, { ids: [stored.id] }))[0], created: stored.created, consequences: stored.consequences };
+  const inspection = (await loadInspections(db, { ids: [stored.id] }))[0];
+  return { inspection, created: stored.created, consequences: await withStillSuspended(db, inspection, stored.consequences) };
+}
+
+/**
+ * A safe inspection does not resume anything: the permits on the excavation that stand suspended
+ * stay so until a coordinator resumes them. They are named with the answer, so the page can say so.
+ */
+async function withStillSuspended(db: Db, inspection: Inspection, consequences: Consequences): Promise<Consequences> {
+  if (inspection.outcome !== 'safe') return consequences;
+  const rows = await permitsOnExcavation(db, { id: inspection.excavationId, site_id: inspection.siteId }, 'suspended');
+  return { ...consequences, stillSuspended: rows.map((r) => ({ id: r.id, reference: r.number })) };
+}
+
+/** The permits of one status whose current revision names the excavation, in number order. */
+function permitsOnExcavation(db: Db, exc: { id: number; site_id: number }, status: 'live' | 'suspended') {
+  return withCurrentRevision(db)
+    .select(['p.id', 'p.number'])
+    .where('p.status', '=', status)
+    .where('p.site_id', '=', exc.site_id)
+    .where(sql<boolean>`${exc.id}::int = any(r.excavation_ids)`)
+    .orderBy('p.id')
+    .execute();
 }
 
 /** The consequences an inspection caused, as recorded beside it (none for a safe one). */
@@ -542,18 +561,17 @@ async function suspendLivePermits(
   inspectionId: number,
   reason: string,
 ): Promise<{ suspended: Consequences['suspended']; notSuspended: Consequences['notSuspended'] }> {
-  const live = await withCurrentRevision(deps.db)
-    .select(['p.id', 'p.number'])
-    .where('p.status', '=', 'live')
-    .where('p.site_id', '=', exc.site_id)
-    .where(sql<boolean>`${exc.id}::int = any(r.excavation_ids)`)
-    .orderBy('p.id')
-    .execute();
+  const live = await permitsOnExcavation(deps.db, exc, 'live');
   const actor = inspectionActor(`Inspection ${inspectionId} of ${exc.reference}: not safe`);
   const out: Awaited<ReturnType<typeof suspendLivePermits>> = { suspended: [], notSuspended: [] };
   for (const p of live) {
     try {
-      await withSavepoint(deps.db, () => transition(deps, p.id, 'suspend', actor, { reason }));
+      await withSavepoint(deps.db, () =>
+        transition(deps, p.id, 'suspend', actor, {
+          reason,
+          cause: { inspection: { id: inspectionId, excavationReference: exc.reference } },
+        }),
+      );
       out.suspended.push({ id: p.id, reference: p.number });
     } catch (err) {
       const now = await deps.db.selectFrom('permits').select('status').where('id', '=', p.id).executeTakeFirst();

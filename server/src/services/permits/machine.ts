@@ -29,6 +29,8 @@ export interface TransitionOptions {
   standoff?: number;
   conditions?: string[];
   password?: string;
+  /** What caused a change Brink makes by itself, kept on the timeline event (e.g. `{ inspection: { id, excavationReference } }`). */
+  cause?: Record<string, unknown>;
 }
 
 export interface TransitionOutcome {
@@ -161,7 +163,7 @@ export async function transition(
       .executeTakeFirstOrThrow();
     const windowStart = new Date(rev.window_start);
     const windowEnd = new Date(rev.window_end);
-    const detail: Record<string, unknown> = {};
+    const detail: Record<string, unknown> = { ...opts.cause };
     let newRevision = p.revision;
     let actorName = actor.name;
 
@@ -256,6 +258,19 @@ export async function transition(
           .execute();
         if (waiting.length) throw conflict(`Permit ${p.number} waits for ${waiting.length} operator(s) to confirm the briefing.`);
         await assertNoneUnsafe(trx, p.number, rev.excavation_ids, now);
+        // What let it go live, for the timeline: the last of its window opening, its approval and the last briefing.
+        const lastBriefing = await trx
+          .selectFrom('permit_operators')
+          .select((eb) => eb.fn.max('briefed_at').as('at'))
+          .where('revision_id', '=', rev.id)
+          .executeTakeFirst();
+        const approvedAt = (rev.decision as PermitDecision | null)?.at;
+        const times = {
+          window: windowStart.getTime(),
+          approval: approvedAt ? Date.parse(approvedAt) : 0,
+          briefing: lastBriefing?.at ? new Date(lastBriefing.at).getTime() : 0,
+        };
+        detail.startedBy = (['briefing', 'approval', 'window'] as const).reduce((a, b) => (times[b] > times[a] ? b : a));
         break;
       }
       case 'resume': {

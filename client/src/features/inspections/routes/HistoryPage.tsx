@@ -49,7 +49,20 @@ export function HistoryPage() {
 
 function RecordedNotice({ recorded }: { recorded: RecordedInspection }) {
   const c = recorded.consequences;
-  if (recorded.inspection.outcome === 'safe') return <>Inspection recorded: safe to work.</>;
+  if (recorded.inspection.outcome === 'safe') {
+    const still = c?.stillSuspended ?? [];
+    return (
+      <>
+        Inspection recorded: safe to work.{' '}
+        {still.length ? (
+          <>
+            {still.length === 1 ? 'Its suspended permit stays' : `Its ${still.length} suspended permits stay`} suspended until a coordinator
+            resumes {still.length === 1 ? 'it' : 'them'}: <PermitLinks permits={still} />.
+          </>
+        ) : null}
+      </>
+    );
+  }
   return (
     <>
       Inspection recorded: not safe. Work in and beside it must stop.{' '}

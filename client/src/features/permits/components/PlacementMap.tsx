@@ -6,7 +6,7 @@ import type { MultiPolygon, Polygon as GeoPolygon } from 'geojson';
 import { exclusionZone, prepareExcavation, type LocalProjection, type XY } from '@shared/geometry';
 import { checkExcavationOf, footprintsOf, type PlantForCheck } from '@shared/permits/check';
 import type { Excavation } from '@shared/schemas/excavations';
-import type { PermitCheck, PlacedLoad, Verdict } from '@shared/schemas/permits';
+import { loadName, type PermitCheck, type PlacedLoad, type Verdict } from '@shared/schemas/permits';
 import { bandsWords, failsBeyondPassing, type CheckRequest } from '@shared/engineering';
 import { verdictColours } from './Verdict';
 import { bearingOf, centreOf, handleAt } from './placement';
@@ -186,7 +186,7 @@ export function PlacementMap({
           }
           const c = centreOf(load, proj);
           const cLL = proj.toWgs84(c);
-          const name = load.label || load.id;
+          const name = loadName(load, (id) => plant.get(id)?.name);
           return (
             <Fragment key={load.id}>
               {feet.map((f, i) =>

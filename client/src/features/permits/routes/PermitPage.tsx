@@ -5,15 +5,19 @@ import type { PlantForCheck } from '@shared/permits/check';
 import {
   attachmentKindLabels,
   attachmentKinds,
+  commentSchema,
   commonConditions,
   editableStatuses,
+  loadName,
   serviceCheckKeys,
   serviceCheckLabels,
-  statusLabels,
   transitionRules,
+  transitionSchema,
   type PermitAction,
   type PermitDetail,
+  type PermitEvent,
 } from '@shared/schemas/permits';
+import { deviceTimeZone } from '@shared/time/shifts';
 import { Button, ButtonLink, buttonClass } from '@client/components/Button';
 import { Caution } from '@client/components/Caution';
 import { CheckboxField, FormSummary, SelectField, TextField } from '@client/components/Fields';
@@ -22,7 +26,7 @@ import { LoadError, Loading, Notice } from '@client/components/Status';
 import { ExclusionsOnTheGround } from '../components/ExclusionsOnTheGround';
 import { ApiError, errorMessage, isApiError } from '@client/lib/api';
 import { serverSummary } from '@client/lib/fieldLabels';
-import { fieldSentence } from '@client/lib/forms';
+import { fieldSentence, maxLengths } from '@client/lib/forms';
 import { parseId } from '@client/lib/session';
 import {
   useAttach,
@@ -39,6 +43,10 @@ import { CheckSheets } from '../components/CheckSheet';
 import { PlacementMap } from '../components/PlacementMap';
 import { StatusLabel } from '../components/StatusLabel';
 import { when } from '../components/time';
+import { timelineLine } from '../components/timeline';
+
+const decisionMax = maxLengths(transitionSchema.shape);
+const commentMax = maxLengths(commentSchema.shape);
 
 /** One permit: where it stands, the decision, the check sheet, what the viewer may do, the timeline. */
 export function PermitPage() {
@@ -182,8 +190,8 @@ function PermitView({ permit }: { permit: PermitDetail }) {
         )}
       </Panel>
       <Attachments permit={permit} at={at} />
-      <Timeline permit={permit} at={at} />
-      <Revisions permit={permit} at={at} />
+      <Timeline permit={permit} at={at} timeZone={site.data?.timezone ?? deviceTimeZone()} />
+      <Revisions permit={permit} at={at} plant={plant} />
     </Page>
   );
 }
@@ -397,6 +405,7 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
         <textarea
           className="min-h-20 rounded-md border border-rule-strong bg-sheet p-2"
           value={reason}
+          maxLength={decisionMax.reason}
           onChange={(e) => setReason(e.target.value)}
           aria-invalid={f.reason ? true : undefined}
         />
@@ -431,9 +440,16 @@ function Attachments({ permit, at }: { permit: PermitDetail; at: (iso: string | 
       {permit.attachments.length ? (
         <ul>
           {permit.attachments.map((a) => (
-            <li key={a.id}>
-              <a href={a.url}>{a.name}</a> – {attachmentKindLabels[a.kind]}, {(a.size / 1024).toFixed(0)} KB, added by {a.addedBy}{' '}
-              {at(a.addedAt)} (revision {a.revision})
+            <li key={a.id} className="flex flex-wrap items-center gap-3">
+              {a.mime.startsWith('image/') ? <Thumbnail url={a.url} alt={a.name} /> : null}
+              <span>
+                <a href={a.url} target="_blank" rel="noopener">
+                  {a.name}
+                  <span className="sr-only"> (opens full size in a new tab)</span>
+                </a>{' '}
+                – {attachmentKindLabels[a.kind]}, {(a.size / 1024).toFixed(0)} KB, added by {a.addedBy} {at(a.addedAt)} (revision{' '}
+                {a.revision})
+              </span>
             </li>
           ))}
         </ul>
@@ -466,32 +482,54 @@ function Attachments({ permit, at }: { permit: PermitDetail; at: (iso: string | 
   );
 }
 
-const actionWords: Record<string, string> = {
-  create: 'asked for the permit',
-  edit: 'changed the request',
-  comment: 'commented',
-  briefed: 'confirmed the briefing',
-  ...Object.fromEntries(Object.entries(transitionRules).map(([k, r]) => [k, r.label.toLowerCase()])),
-};
+/** A small picture that opens full size, in a new tab, through Brink's access checks (the uploads route). */
+function Thumbnail({ url, alt, label = 'Open full size' }: { url: string; alt: string; label?: string }) {
+  return (
+    <a href={url} target="_blank" rel="noopener" className="inline-flex flex-col items-start gap-1">
+      <img src={url} alt={alt} loading="lazy" width={112} height={112} className="h-28 w-28 rounded border border-rule object-cover" />
+      <span className="text-sm">
+        {label}
+        <span className="sr-only"> (opens in a new tab)</span>
+      </span>
+    </a>
+  );
+}
 
-function Timeline({ permit, at }: { permit: PermitDetail; at: (iso: string | null) => string }) {
+/** The photos sent with a concern (their upload ids, kept on the timeline event). */
+function concernPhotoIds(e: PermitEvent): number[] {
+  const ids = e.action === 'concern' ? e.detail.photoIds : undefined;
+  return Array.isArray(ids) ? ids.filter((x): x is number => typeof x === 'number') : [];
+}
+
+function Timeline({ permit, at, timeZone }: { permit: PermitDetail; at: (iso: string | null) => string; timeZone: string }) {
   const comment = useComment(permit.id);
   const [text, setText] = useState('');
   return (
     <Panel title="Timeline">
       <ol className="flex flex-col gap-2">
-        {permit.events.map((e) => (
-          <li key={e.id} className="border-l-4 border-rule pl-3">
-            <p>
-              <strong>{e.actor.name}</strong> {actionWords[e.action] ?? e.action}
-              {e.toStatus ? ` → ${statusLabels[e.toStatus]}` : ''}{' '}
-              <span className="text-sm text-ink-soft">
-                {at(e.at)} (revision {e.revision})
-              </span>
-            </p>
-            {e.comment ? <p className="whitespace-pre-wrap">“{e.comment}”</p> : null}
-          </li>
-        ))}
+        {permit.events.map((e) => {
+          const photos = concernPhotoIds(e);
+          return (
+            <li key={e.id} className="border-l-4 border-rule pl-3" data-testid="timeline-line">
+              <p>
+                <span className="font-semibold">{timelineLine(e, timeZone)}</span>{' '}
+                <span className="text-sm text-ink-soft">
+                  {at(e.at)} (revision {e.revision})
+                </span>
+              </p>
+              {e.comment ? <p className="whitespace-pre-wrap">“{e.comment}”</p> : null}
+              {photos.length ? (
+                <ul className="mt-1 flex flex-wrap gap-3" aria-label={`Photos of the concern by ${e.actor.name}`}>
+                  {photos.map((id, i) => (
+                    <li key={id}>
+                      <Thumbnail url={`/api/uploads/${id}`} alt={`Photo ${i + 1} of the concern by ${e.actor.name}`} />
+                    </li>
+                  ))}
+                </ul>
+              ) : null}
+            </li>
+          );
+        })}
       </ol>
       <form
         className="flex flex-col gap-2"
@@ -505,6 +543,7 @@ function Timeline({ permit, at }: { permit: PermitDetail; at: (iso: string | nul
           <textarea
             className="min-h-16 rounded-md border border-rule-strong bg-sheet p-2"
             value={text}
+            maxLength={commentMax.text}
             onChange={(e) => setText(e.target.value)}
           />
         </label>
@@ -518,7 +557,7 @@ function Timeline({ permit, at }: { permit: PermitDetail; at: (iso: string | nul
   );
 }
 
-function Revisions({ permit, at }: { permit: PermitDetail; at: (iso: string | null) => string }) {
+function Revisions({ permit, at, plant }: { permit: PermitDetail; at: (iso: string | null) => string; plant: Map<number, PlantForCheck> }) {
   const [shown, setShown] = useState<number | null>(null);
   const old = useRevision(permit.id, shown);
   if (permit.revisions.length < 2) return null;
@@ -539,7 +578,7 @@ function Revisions({ permit, at }: { permit: PermitDetail; at: (iso: string | nu
           <p>
             Window {at(old.data.windowStart)} to {at(old.data.windowEnd)}. {old.data.description}
           </p>
-          <p>Loads: {old.data.loads.map((l) => l.label || l.id).join(', ') || 'none'}</p>
+          <p>Loads: {old.data.loads.map((l) => loadName(l, (id) => plant.get(id)?.name)).join(', ') || 'none'}</p>
           {old.data.decision ? (
             <p>
               Decision: {old.data.decision.action};{' '}
