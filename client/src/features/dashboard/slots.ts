@@ -8,7 +8,7 @@ export interface DashboardSlots {
   /** "Excavations due for inspection" for the site. */
   inspectionsDue?: ComponentType<{ siteId: number; timeZone: string; canInspect: boolean }>;
   /** A list of the site's permits: awaiting my review, my requests or live now. */
-  permits?: ComponentType<{ siteId: number; view: 'review' | 'mine' | 'live'; intro: string }>;
+  permits?: ComponentType<{ siteId: number; view: 'review' | 'mine' | 'live'; intro: string; timeZone: string }>;
 }
 
 export const DashboardSlotsContext = createContext<DashboardSlots>({});

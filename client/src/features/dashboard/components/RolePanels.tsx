@@ -19,16 +19,25 @@ function InspectionsDue({ site, fallback }: { site: SiteOfPanel; fallback: strin
 }
 
 /** A permit list from the permits feature, or the "not yet connected" panel when the app gave none. */
-function Permits({ siteId, view, title, intro }: { siteId: number; view: 'review' | 'mine' | 'live'; title: string; intro: string }) {
+function Permits({ site, view, title, intro }: { site: SiteOfPanel; view: 'review' | 'mine' | 'live'; title: string; intro: string }) {
   const { permits: List } = useDashboardSlots();
-  return List ? <List siteId={siteId} view={view} intro={intro} /> : <ComingPanel title={title} lists={intro} />;
+  return List ? (
+    <List siteId={site.siteId} view={view} intro={intro} timeZone={site.timeZone} />
+  ) : (
+    <ComingPanel title={title} lists={intro} />
+  );
 }
 
 export function SupervisorPanels({ site }: { site: SiteOfPanel }) {
   return (
     <RoleSection title={roleLabels.supervisor} intro="Ask for permits, brief the operators, hand permits back.">
-      <Permits siteId={site.siteId} view="mine" title="My requests" intro="The permits you have asked for, and where each one stands." />
-      <Permits siteId={site.siteId} view="live" title="Live now" intro="Permits working on this site now." />
+      <Permits
+        site={site}
+        view="mine"
+        title="What needs you first"
+        intro="Your requests returned for changes, your drafts, and your permits working today."
+      />
+      <Permits site={site} view="live" title="Live now" intro="Permits working on this site now." />
       <InspectionsDue site={site} fallback="Open excavations not yet inspected this shift." />
     </RoleSection>
   );
@@ -37,13 +46,8 @@ export function SupervisorPanels({ site }: { site: SiteOfPanel }) {
 export function CoordinatorPanels({ site }: { site: SiteOfPanel }) {
   return (
     <RoleSection title={roleLabels.coordinator} intro="Review and decide permits, keep the excavation register, suspend work when needed.">
-      <Permits
-        siteId={site.siteId}
-        view="review"
-        title="Permits awaiting my review"
-        intro="Requests sent to you for a decision, oldest first."
-      />
-      <Permits siteId={site.siteId} view="live" title="Live now" intro="Every live permit on this site." />
+      <Permits site={site} view="review" title="Permits awaiting my review" intro="Requests sent to you for a decision, oldest first." />
+      <Permits site={site} view="live" title="Live now" intro="Every live permit on this site." />
       <InspectionsDue site={site} fallback="Open excavations not yet inspected this shift." />
     </RoleSection>
   );
