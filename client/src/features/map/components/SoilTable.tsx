@@ -31,12 +31,13 @@ const longNames: Record<string, string> = {
 };
 
 const cell =
-  'w-20 rounded border border-rule-strong bg-sheet px-2 py-1.5 text-right aria-[invalid=true]:border-error-text disabled:bg-paper disabled:text-ink-soft';
+  'w-full min-w-0 rounded border border-rule-strong bg-sheet px-2 py-1.5 text-right aria-[invalid=true]:border-error-text disabled:bg-paper disabled:text-ink-soft';
 
 /**
  * The soil layers, each from its top down to the next layer's top (the last runs to any depth).
  * A drained layer gives φ′ and c′ (effective stress); an undrained clay gives cu (total stress).
- * γsat is used below the water table; left empty it is taken as γ.
+ * γsat is used below the water table; left empty it is taken as γ. Only the strength figures of
+ * the layer's model are shown.
  */
 export function SoilTable({ control, register, watch, errors, readOnly }: SoilTableProps) {
   const { fields, append, remove } = useFieldArray({ control, name: 'soil' });
@@ -55,39 +56,37 @@ export function SoilTable({ control, register, watch, errors, readOnly }: SoilTa
         From ground level down. γsat applies below the water table (empty: same as γ). Give φ′ and c′ for a drained layer, or cu for an
         undrained clay.
       </p>
-      <div className="overflow-x-auto">
-        <table className="text-sm">
-          <thead>
-            <tr>
-              <th scope="col" className="px-1 text-left">
-                Layer
-              </th>
-              {columns.map((c) => (
-                <th key={c.key} scope="col" className="px-1 text-right font-semibold">
-                  {c.label} <span className="font-normal text-ink-soft">({c.unit})</span>
-                </th>
-              ))}
-              <th scope="col" className="px-1 text-left">
-                Strength
-              </th>
-              <th scope="col">
-                <span className="sr-only">Remove</span>
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {fields.map((f, i) => {
-              const model = rows?.[i]?.model ?? 'drained';
-              return (
-                <tr key={f.id}>
-                  <th scope="row" className="px-1 text-left font-normal">
-                    {i + 1}
-                  </th>
-                  {columns.map((c) => {
-                    const off = c.only !== undefined && c.only !== model;
+      {/* One block per layer, its figures three to a row: it fits the site map's side panel (27rem) without a sideways scroll. */}
+      <ol className="flex flex-col gap-3">
+        {fields.map((f, i) => {
+          const model = rows?.[i]?.model ?? 'drained';
+          return (
+            <li key={f.id} className="rounded border border-rule p-2" aria-label={`Layer ${i + 1}`}>
+              <div className="mb-1 flex flex-wrap items-center gap-2">
+                <span className="font-semibold">Layer {i + 1}</span>
+                <select
+                  aria-label={`Layer ${i + 1} strength`}
+                  className="min-w-0 rounded border border-rule-strong bg-sheet px-1 py-1.5 text-sm"
+                  disabled={readOnly}
+                  {...register(`soil.${i}.model`)}
+                >
+                  <option value="drained">Drained (φ′, c′)</option>
+                  <option value="undrained">Undrained (cu)</option>
+                </select>
+                <span className="ml-auto">
+                  {!readOnly && fields.length > 1 ? <RemoveRowButton label={`Remove layer ${i + 1}`} onClick={() => remove(i)} /> : null}
+                </span>
+              </div>
+              <div className="grid grid-cols-3 gap-2 text-sm">
+                {columns
+                  .filter((c) => c.only === undefined || c.only === model)
+                  .map((c) => {
                     const invalid = Boolean((errors.soil?.[i] as Record<string, unknown> | undefined)?.[c.key]);
                     return (
-                      <td key={c.key} className="px-1 py-1">
+                      <label key={c.key} className="flex min-w-0 flex-col gap-0.5">
+                        <span aria-hidden="true">
+                          {c.label} <span className="text-ink-soft">({c.unit})</span>
+                        </span>
                         <input
                           type="number"
                           step="any"
@@ -95,32 +94,17 @@ export function SoilTable({ control, register, watch, errors, readOnly }: SoilTa
                           aria-label={`Layer ${i + 1} ${longNames[c.key]} (${c.unit})`}
                           aria-invalid={invalid || undefined}
                           className={cell}
-                          disabled={readOnly || off}
+                          disabled={readOnly}
                           {...register(`soil.${i}.${c.key}` as `soil.${number}.top`, { setValueAs: numberOrNull })}
                         />
-                      </td>
+                      </label>
                     );
                   })}
-                  <td className="px-1 py-1">
-                    <select
-                      aria-label={`Layer ${i + 1} strength`}
-                      className="rounded border border-rule-strong bg-sheet px-1 py-1.5"
-                      disabled={readOnly}
-                      {...register(`soil.${i}.model`)}
-                    >
-                      <option value="drained">Drained (φ′, c′)</option>
-                      <option value="undrained">Undrained (cu)</option>
-                    </select>
-                  </td>
-                  <td className="px-1 py-1">
-                    {!readOnly && fields.length > 1 ? <RemoveRowButton label={`Remove layer ${i + 1}`} onClick={() => remove(i)} /> : null}
-                  </td>
-                </tr>
-              );
-            })}
-          </tbody>
-        </table>
-      </div>
+              </div>
+            </li>
+          );
+        })}
+      </ol>
       <ListErrors messages={messages} />
       {!readOnly ? (
         <div>

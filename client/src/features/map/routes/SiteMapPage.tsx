@@ -228,7 +228,7 @@ export function SiteMapPage() {
       </header>
       <Notice>{notice}</Notice>
 
-      <div className="grid gap-4 lg:h-[calc(100dvh-13rem)] lg:min-h-[34rem] lg:grid-cols-[minmax(0,1fr)_27rem]">
+      <div className="grid gap-4 lg:h-[calc(100dvh-16rem)] lg:min-h-[30rem] lg:grid-cols-[minmax(0,1fr)_27rem]">
         <div className="h-[70dvh] min-h-80 overflow-hidden rounded-md border border-rule-strong lg:h-full" data-testid="site-map">
           <SiteMap
             mapRef={mapRef}
