@@ -1,7 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import type { FieldErrors } from 'react-hook-form';
 import { ApiError } from './api';
-import { applyServerErrors, errorPaths, fieldSentence } from './forms';
+import { z } from 'zod';
+import { invitationSchema } from '@shared/schemas/auth';
+import { excavationFields } from '@shared/schemas/excavations';
+import { commentSchema, transitionSchema } from '@shared/schemas/permits';
+import { applyServerErrors, errorPaths, fieldSentence, maxLengths } from './forms';
 import { fieldLabel, fieldsSummary, serverSummary } from './fieldLabels';
 
 describe('fieldSentence', () => {
@@ -98,5 +102,21 @@ describe('errorPaths', () => {
     expect(fieldsSummary(flat, (p) => p === 'windowEnd' || p.startsWith('loads'))).toBe(
       'Correct the 2 fields marked below. Who did it is required once it is done. Operators to brief must list at most 20.',
     );
+  });
+});
+
+describe('maxLengths', () => {
+  it('reads each text field’s limit from the shared schema, through defaults and optionals', () => {
+    // The limits written in shared/schemas (excavations.ts, permits.ts).
+    expect(maxLengths(excavationFields)).toMatchObject({ reference: 40, name: 120, designReference: 200, notes: 4000 });
+    expect(maxLengths(transitionSchema.shape).reason).toBe(4000);
+    expect(maxLengths(commentSchema.shape).text).toBe(4000);
+    // An e-mail address: 254 characters before its transform (shared/schemas/common.ts).
+    expect(maxLengths(invitationSchema.shape)).toMatchObject({ email: 254, name: 120 });
+  });
+
+  it('gives no limit to a field without one, or that is not text', () => {
+    const limits = maxLengths({ free: z.string(), count: z.number().max(3), maybe: z.string().max(9).nullable().default(null) });
+    expect(limits).toEqual({ maybe: 9 });
   });
 });

@@ -59,3 +59,22 @@ export function configureFormMessages() {
 // Every form that validates with the shared schemas imports this module, so the messages are set
 // before the first check (and zod stays out of pages without forms, e.g. the phone view).
 configureFormMessages();
+
+/** Zod wrappers that hold the field's own schema (default, optional, nullable; a transform's input). */
+type Wrapped = { unwrap?: () => unknown; in?: unknown; maxLength?: number | null };
+
+/**
+ * The most characters each text field of a shared schema's shape takes (its zod `.max`), for the
+ * inputs' `maxLength`: the browser stops typing where the server would refuse.
+ * `maxLengths(excavationFields).reference` → 40.
+ */
+export function maxLengths<K extends string>(shape: Record<K, unknown>): Partial<Record<K, number>> {
+  const out: Partial<Record<K, number>> = {};
+  for (const key of Object.keys(shape) as K[]) {
+    let s = shape[key] as Wrapped | undefined;
+    for (let depth = 0; s && s.maxLength === undefined && depth < 5; depth++)
+      s = (typeof s.unwrap === 'function' ? s.unwrap() : s.in) as Wrapped;
+    if (typeof s?.maxLength === 'number') out[key] = s.maxLength;
+  }
+  return out;
+}

@@ -7,7 +7,9 @@ import type { Site } from '@shared/schemas/sites';
 import { Button } from '@client/components/Button';
 import { CheckboxField, FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { Notice } from '@client/components/Status';
-import { applyServerErrors } from '@client/lib/forms';
+import { applyServerErrors, maxLengths } from '@client/lib/forms';
+
+const max = maxLengths(invitationSchema.shape);
 import { useInvite } from '../api/people';
 
 export const roleOptions = siteRoles.map((r) => ({ value: r, label: roleLabels[r] }));
@@ -45,8 +47,16 @@ export function InviteForm({ sites }: { sites: readonly Site[] }) {
       <Notice>{sent}</Notice>
       <FormSummary message={summary} />
       <div className="grid gap-5 sm:grid-cols-2">
-        <TextField label="E-mail" type="email" autoComplete="off" inputMode="email" error={errors.email?.message} {...register('email')} />
-        <TextField label="Name" autoComplete="off" error={errors.name?.message} {...register('name')} />
+        <TextField
+          label="E-mail"
+          type="email"
+          autoComplete="off"
+          inputMode="email"
+          maxLength={max.email}
+          error={errors.email?.message}
+          {...register('email')}
+        />
+        <TextField label="Name" autoComplete="off" maxLength={max.name} error={errors.name?.message} {...register('name')} />
         <SelectField
           label="Site"
           hint="Optional. Give a site and a role together."

@@ -5,8 +5,10 @@ import { siteSchema, surchargeMethods, type Site, type SiteInput } from '@shared
 import { unitSystemLabels, unitSystems } from '@shared/units';
 import { Button } from '@client/components/Button';
 import { FormSummary, SelectField, TextField } from '@client/components/Fields';
-import { applyServerErrors } from '@client/lib/forms';
+import { applyServerErrors, maxLengths } from '@client/lib/forms';
 import { surchargeMethodLabels } from '@client/lib/labels';
+
+const max = maxLengths(siteSchema.shape);
 import { OriginMap } from './OriginMap';
 
 const methodOptions = surchargeMethods.map((m) => ({ value: m, label: surchargeMethodLabels[m] }));
@@ -72,7 +74,7 @@ export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
   return (
     <form onSubmit={onSubmit} noValidate className="flex flex-col gap-5">
       <FormSummary message={summary} />
-      <TextField label="Site name" error={errors.name?.message} {...register('name')} />
+      <TextField label="Site name" maxLength={max.name} error={errors.name?.message} {...register('name')} />
 
       <fieldset className="flex flex-col gap-4">
         <legend className="mb-2 text-lg font-semibold">Origin</legend>

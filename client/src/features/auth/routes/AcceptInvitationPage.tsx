@@ -8,9 +8,11 @@ import { Button, ButtonLink } from '@client/components/Button';
 import { FormSummary, TextField } from '@client/components/Fields';
 import { LoadError, Loading } from '@client/components/Status';
 import { isApiError } from '@client/lib/api';
-import { applyServerErrors } from '@client/lib/forms';
+import { applyServerErrors, maxLengths } from '@client/lib/forms';
 import { useAcceptInvitation, useInvitation, type InvitationSummary } from '../api/auth';
 import { AuthCard } from '../components/AuthCard';
+
+const max = maxLengths(acceptInvitationSchema.shape);
 import { withPasswordConfirmation } from '../components/confirmPassword';
 
 const schema = withPasswordConfirmation(acceptInvitationSchema);
@@ -78,7 +80,13 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
     >
       <form onSubmit={onSubmit} noValidate className="flex flex-col gap-5">
         <FormSummary message={summary} />
-        <TextField label="Your name" autoComplete="name" error={formState.errors.name?.message} {...register('name')} />
+        <TextField
+          label="Your name"
+          autoComplete="name"
+          maxLength={max.name}
+          error={formState.errors.name?.message}
+          {...register('name')}
+        />
         <TextField
           label="Password"
           type="password"

@@ -6,6 +6,7 @@ import {
   answerLabels,
   checkAnswers,
   checklist,
+  checkSchema,
   inspectionInputSchema,
   inspectionReasons,
   outcomeLabels,
@@ -15,11 +16,14 @@ import {
 import { Button } from '@client/components/Button';
 import { FormSummary, TextAreaField, TextField } from '@client/components/Fields';
 import { ApiError, isApiError } from '@client/lib/api';
-import { applyServerErrors } from '@client/lib/forms';
+import { applyServerErrors, maxLengths } from '@client/lib/forms';
 import { namedSentence } from './named';
 import { clearDraft, loadDraft, saveDraft, type DraftPhoto, type FormValues } from '../api/draft';
 import type { RecordedInspection } from '../api/inspections';
 import { ChoiceGroup } from './ChoiceGroup';
+
+const max = maxLengths(inspectionInputSchema.shape);
+const noteMax = maxLengths(checkSchema.shape).note;
 import { PhotoPicker } from './PhotoPicker';
 
 const emptyValues: FormValues = {
@@ -242,6 +246,7 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
           label="What happened"
           hint="The rain, strike, vibration or fall that makes this inspection needed."
           error={errors.reasonDetail?.message}
+          maxLength={max.reasonDetail}
           {...register('reasonDetail')}
         />
       ) : null}
@@ -269,6 +274,7 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
                   label={`${c.label} note`}
                   hint={failed ? 'Required: what is wrong, and where.' : 'Optional.'}
                   error={e?.note?.message}
+                  maxLength={noteMax}
                   {...register(`checklist.${c.key}.note`)}
                 />
               </ChoiceGroup>
@@ -305,6 +311,7 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
               : 'Optional.'
         }
         error={errors.remarks?.message}
+        maxLength={max.remarks}
         {...register('remarks')}
       />
 

@@ -1,11 +1,13 @@
 import { useState } from 'react';
 import { useFieldArray, useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { shiftsInputSchema, type ShiftsInput } from '@shared/schemas/inspections';
+import { shiftSchema, shiftsInputSchema, type ShiftsInput } from '@shared/schemas/inspections';
 import { Button } from '@client/components/Button';
 import { FormSummary, TextField } from '@client/components/Fields';
 import { Notice } from '@client/components/Status';
-import { applyServerErrors } from '@client/lib/forms';
+import { applyServerErrors, maxLengths } from '@client/lib/forms';
+
+const max = maxLengths(shiftSchema.shape);
 import { useSaveShifts, type ShiftsAnswer } from '../api/inspections';
 
 /** The site's shift start times, for coordinators and administrators. */
@@ -47,7 +49,12 @@ export function ShiftsForm({ siteId, current }: { siteId: number; current: Shift
       </p>
       {fields.map((f, i) => (
         <div key={f.id} className="grid items-end gap-3 sm:grid-cols-[1fr_10rem_auto]">
-          <TextField label={`Shift ${i + 1} name`} error={errors?.[i]?.name?.message} {...register(`shifts.${i}.name`)} />
+          <TextField
+            label={`Shift ${i + 1} name`}
+            maxLength={max.name}
+            error={errors?.[i]?.name?.message}
+            {...register(`shifts.${i}.name`)}
+          />
           <TextField label={`Shift ${i + 1} starts`} type="time" error={errors?.[i]?.start?.message} {...register(`shifts.${i}.start`)} />
           <Button variant="quiet" onClick={() => remove(i)} disabled={fields.length === 1} aria-label={`Remove shift ${i + 1}`}>
             Remove

@@ -2,6 +2,7 @@ import { useEffect, useId, useState } from 'react';
 import { useForm, type Path } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import {
+  excavationFields,
   excavationStates,
   kindLabels,
   stateLabels,
@@ -17,9 +18,11 @@ import { Button } from '@client/components/Button';
 import { Caution } from '@client/components/Caution';
 import { ConfirmAction } from '@client/components/ConfirmAction';
 import { FormSummary, SelectField, TextField } from '@client/components/Fields';
-import { applyServerErrors } from '@client/lib/forms';
+import { applyServerErrors, maxLengths } from '@client/lib/forms';
 import { excavationFormSchema, numberOrNull, type ExcavationFormValues } from './excavationFormValues';
 import { SoilTable } from './SoilTable';
+
+const max = maxLengths(excavationFields);
 
 const stateOptions = excavationStates.map((s) => ({ value: s, label: stateLabels[s] }));
 const supportOptions = supportTypes.map((s) => ({ value: s, label: supportLabels[s] }));
@@ -169,12 +172,13 @@ export function ExcavationForm(props: ExcavationFormProps) {
 
       <fieldset className="flex flex-col gap-3" disabled={ro}>
         <div className="grid grid-cols-2 gap-3">
-          <TextField label="Reference" error={errors.reference?.message} {...register('reference')} />
+          <TextField label="Reference" maxLength={max.reference} error={errors.reference?.message} {...register('reference')} />
           <SelectField label="State" options={stateOptions} error={errors.state?.message} {...register('state')} />
         </div>
         <TextField
           label="Name"
           hint="What it is for, e.g. “Rising main, pump house to inlet chamber”"
+          maxLength={max.name}
           error={errors.name?.message}
           {...register('name')}
         />
@@ -310,6 +314,7 @@ export function ExcavationForm(props: ExcavationFormProps) {
           label="Design reference"
           hint="Drawing or calculation number and revision"
           readOnly={designRo}
+          maxLength={max.designReference}
           error={errors.designReference?.message}
           {...register('designReference')}
         />
@@ -343,6 +348,7 @@ export function ExcavationForm(props: ExcavationFormProps) {
             id={`${fileId}-notes`}
             rows={3}
             className="rounded-md border border-rule-strong bg-sheet px-3 py-2"
+            maxLength={max.notes}
             {...register('notes')}
           />
         </div>

@@ -6,6 +6,7 @@ import {
   plantCategoryLabels,
   plantElementKindLabels,
   plantElementKinds,
+  plantElementSchema,
   plantItemSchema,
   type PlantItemInput,
   type PlantItemValues,
@@ -13,7 +14,10 @@ import {
 import { Button } from '@client/components/Button';
 import { FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { ListErrors, listErrorMessages, RemoveRowButton } from '@client/components/ListErrors';
-import { applyServerErrors } from '@client/lib/forms';
+import { applyServerErrors, maxLengths } from '@client/lib/forms';
+
+const max = maxLengths(plantItemSchema.shape);
+const elementMax = maxLengths(plantElementSchema.shape);
 import { Footprint } from './Footprint';
 
 const num = { setValueAs: (v: unknown) => (v === '' || v === null || v === undefined ? undefined : Number(v)) } as const;
@@ -71,7 +75,7 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
     <form onSubmit={submit} noValidate className="flex flex-col gap-4" aria-label="Machine">
       <FormSummary message={summary} />
       <div className="grid gap-3 sm:grid-cols-2">
-        <TextField label="Name" error={errors.name?.message} {...register('name')} />
+        <TextField label="Name" maxLength={max.name} error={errors.name?.message} {...register('name')} />
         <SelectField
           label="Kind of machine"
           options={plantCategories.map((c) => ({ value: c, label: plantCategoryLabels[c] }))}
@@ -136,6 +140,7 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
                     <input
                       aria-label={`Element ${i + 1} name`}
                       className="w-36 rounded border border-rule-strong bg-sheet px-2 py-1.5"
+                      maxLength={elementMax.name}
                       {...register(`elements.${i}.name`)}
                     />
                   </td>
@@ -188,7 +193,13 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
         <label htmlFor="plant-notes" className="font-semibold">
           Notes
         </label>
-        <textarea id="plant-notes" rows={3} className="rounded-md border border-rule-strong bg-sheet px-3 py-2" {...register('notes')} />
+        <textarea
+          id="plant-notes"
+          rows={3}
+          className="rounded-md border border-rule-strong bg-sheet px-3 py-2"
+          maxLength={max.notes}
+          {...register('notes')}
+        />
       </div>
       <div className="flex flex-wrap gap-3">
         <Button type="submit" busy={formState.isSubmitting} busyText="Saving…">
