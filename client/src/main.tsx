@@ -1,11 +1,5 @@
-// The weights the pages use (400, font-semibold 600, font-bold 700), Latin and Latin Extended only
-// (names with accents); the browser fetches a subset only when the page has its characters.
-import '@fontsource/source-sans-3/latin-400.css';
-import '@fontsource/source-sans-3/latin-ext-400.css';
-import '@fontsource/source-sans-3/latin-600.css';
-import '@fontsource/source-sans-3/latin-ext-600.css';
-import '@fontsource/source-sans-3/latin-700.css';
-import '@fontsource/source-sans-3/latin-ext-700.css';
+// Fonts: the weights and subsets the pages use, each fetched only when a page shows its characters.
+import './fonts.css';
 import './styles.css';
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';

@@ -14,6 +14,8 @@ const auth = 'src/app/Layout.tsx'; // PublicLayout lives beside the signed-in fr
 export interface ClientPage {
   page: string;
   modules: string[];
+  /** Modules the page loads by itself once it has shown: counted in its bytes, not named in the page shell. */
+  later?: string[];
   /** The addresses the page opens at (none for a tool loaded on first use). */
   address?: RegExp;
   phone?: true;
@@ -28,6 +30,8 @@ export const PAGES: ClientPage[] = [
   {
     page: '/field and /field/permits/:id (phone view)',
     modules: ['src/features/field/pages.ts'],
+    // The map's code loads once the page has shown (LazyZoneMap.tsx): counted, not named in the shell.
+    later: ['src/features/field/components/ZoneMap.tsx'],
     address: /^\/field(\/permits\/\d+)?\/?$/,
     phone: true,
   },

@@ -50,8 +50,8 @@ export function bundleReport(dist: string): BundleReport {
     return s;
   };
   const entries = entryModules(manifest);
-  const pages = PAGES.map(({ page, modules, phone, afterUse }) => {
-    const files = moduleFiles(manifest, [...entries, ...modules]).scripts.sort();
+  const pages = PAGES.map(({ page, modules, later, phone, afterUse }) => {
+    const files = moduleFiles(manifest, [...entries, ...modules, ...(later ?? [])]).scripts.sort();
     return {
       page,
       phone: Boolean(phone),
@@ -61,7 +61,7 @@ export function bundleReport(dist: string): BundleReport {
       gzip: files.reduce((a, f) => a + size(f).gzip, 0),
     };
   });
-  const listed = new Set(PAGES.flatMap((p) => p.modules));
+  const listed = new Set(PAGES.flatMap((p) => [...p.modules, ...(p.later ?? [])]));
   const unlisted = Object.entries(manifest)
     .filter(
       ([k, c]) => c.isDynamicEntry && (k.includes('/routes/') || k.endsWith('/pages.ts') || k.startsWith('src/app/')) && !listed.has(k),

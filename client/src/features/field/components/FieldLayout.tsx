@@ -1,4 +1,4 @@
-import { createContext, useContext, type ReactNode } from 'react';
+import { createContext, useContext, useEffect, type ReactNode } from 'react';
 import { Link, Outlet } from 'react-router-dom';
 import { Caution } from '@client/components/Caution';
 import { SkipLink } from '@client/components/SkipLink';
@@ -6,6 +6,7 @@ import { useOutbox, useOutboxSender } from '../hooks/useOutbox';
 import { useNoSignal } from '../hooks/useSignal';
 import type { OutboxItem } from '../offline/outbox';
 import { FieldGate, useFieldPerson } from './FieldGate';
+import { preloadZoneMap } from './LazyZoneMap';
 import { PushToggle } from './PushToggle';
 import '../field.css';
 
@@ -64,7 +65,21 @@ function Connection({ waiting, refused }: { waiting: number; refused: number }) 
   );
 }
 
+/** Once the page has shown and the phone has a quiet moment, the map's code (see LazyZoneMap.tsx). */
+function usePreloadedMap() {
+  useEffect(() => {
+    const start = () => void preloadZoneMap().catch(() => undefined);
+    if (typeof requestIdleCallback === 'function') {
+      const id = requestIdleCallback(start, { timeout: 5000 });
+      return () => cancelIdleCallback(id);
+    }
+    const id = setTimeout(start, 1000);
+    return () => clearTimeout(id);
+  }, []);
+}
+
 function Signed() {
+  usePreloadedMap();
   const person = useFieldPerson();
   const items = useOutbox(person.id);
   const waiting = items.filter((i) => i.state === 'waiting').length;
