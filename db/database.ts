@@ -5,7 +5,18 @@ import pg from 'pg';
 import type { SiteRole } from '../shared/schemas/common';
 import type { ExcavationKind, ExcavationState as SharedExcavationState } from '../shared/schemas/excavations';
 import type { InspectionReason, Outcome } from '../shared/schemas/inspections';
-import type { AttachmentKind, PermitKind, PermitStatus } from '../shared/schemas/permits';
+import type {
+  AttachmentKind,
+  DigDetails,
+  ExcavationSnapshot,
+  PermitCheck,
+  PermitDecision,
+  PermitKind,
+  PermitStatus,
+  PlacedLoad,
+  PlantSnapshot,
+} from '../shared/schemas/permits';
+import type { Stored } from '../shared/schemas/stored';
 import type { PlantElementKind } from '../shared/schemas/plant';
 import type { SurchargeMethod } from '../shared/schemas/sites';
 import type { UnitSystem } from '../shared/units';
@@ -106,6 +117,11 @@ export interface SessionTable {
 
 /** A jsonb column: objects go in as JSON text (Kysely passes strings through) and come out parsed. */
 export type Json<T> = ColumnType<T, string, string>;
+/**
+ * A jsonb column whose rows may be older than the code: it comes out as `Stored<T>`, which is read
+ * only through its shared schema (`readStored`, shared/schemas/stored.ts), so a drifted shape fails loudly.
+ */
+export type StoredJson<T> = ColumnType<Stored<T>, string, string>;
 
 export interface UploadsTable {
   id: Generated<number>;
@@ -279,18 +295,18 @@ export interface PermitRevisionsTable {
   excavation_ids: ColumnType<number[], number[] | undefined, number[]>;
   method: SurchargeMethod;
   /** Placed loads (shared/schemas/permits.ts `PlacedLoad[]`). */
-  loads: Json<unknown[]>;
+  loads: StoredJson<PlacedLoad[]>;
   /** Dig permits: depth, support method and the buried-services checks. */
-  dig: Json<unknown> | null;
+  dig: StoredJson<DigDetails> | null;
   /** The last authoritative cumulative check (`PermitCheck`). */
-  check_result: Json<unknown> | null;
+  check_result: StoredJson<PermitCheck> | null;
   checked_at: Timestamp | null;
   /** The coordinator's decision on this revision (`PermitDecision`). */
-  decision: Json<unknown> | null;
+  decision: StoredJson<PermitDecision> | null;
   /** The machines the loads name, frozen when the revision was sent for review (`PlantSnapshot`). */
-  plant_snapshot: Json<unknown> | null;
+  plant_snapshot: StoredJson<PlantSnapshot> | null;
   /** The check inputs of the excavations the last stored check used (`ExcavationSnapshot`). */
-  excavation_snapshot: Json<unknown> | null;
+  excavation_snapshot: StoredJson<ExcavationSnapshot> | null;
   created_by: number | null;
   created_at: CreatedAt;
   updated_at: CreatedAt;

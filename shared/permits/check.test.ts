@@ -2,6 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { runCheck, type CheckRequest } from '../engineering';
 import { localProjection } from '../geometry';
 import { CheckInputError, cumulativeCheck, elementCorners, groupStandoff, windowsOverlap } from './check';
+import type { PermitCheck } from '../schemas/permits';
+import type { Stored } from '../schemas/stored';
 
 const base: Omit<CheckRequest, 'loads'> = {
   excavation: {
@@ -204,6 +206,8 @@ describe('the standoff of loads that move together, when 3H is not a whole numbe
 describe('a stored check read back (permit_revisions.check_result)', () => {
   it('fails loudly, naming the path, when a stored shape drifts; accepts the fields added later as absent', async () => {
     const { storedCheck } = await import('../schemas/permits');
+    // What the database hands back: not yet trusted.
+    const stored = (json: object) => json as Stored<PermitCheck>;
     const base = {
       checkedAt: '2026-01-05T08:00:00.000Z',
       method: 'dispersion-45',
@@ -218,8 +222,8 @@ describe('a stored check read back (permit_revisions.check_result)', () => {
       caution: 'x',
     };
     expect(storedCheck(null)).toBeNull();
-    expect(storedCheck(base)?.verdict).toBe('passes');
-    expect(() => storedCheck({ ...base, verdict: 'green' })).toThrow(/verdict/);
-    expect(() => storedCheck({ ...base, excavations: [{ excavationId: 1 }] })).toThrow(/excavations\.0\.reference/);
+    expect(storedCheck(stored(base))?.verdict).toBe('passes');
+    expect(() => storedCheck(stored({ ...base, verdict: 'green' }))).toThrow(/verdict/);
+    expect(() => storedCheck(stored({ ...base, excavations: [{ excavationId: 1 }] }))).toThrow(/excavations\.0\.reference/);
   });
 });

@@ -9,6 +9,7 @@ import { z } from 'zod';
 import type { SiteRole } from './common';
 import { surchargeMethods } from './sites';
 import { plantElementSchema } from './plant';
+import { readStored, readStoredOrNull, type Stored } from './stored';
 import { loadKinds } from './calc';
 
 // ---------------------------------------------------------------------------------------------
@@ -662,16 +663,26 @@ export const permitCheckSchema = z.object({
 });
 export type PermitCheck = z.output<typeof permitCheckSchema>;
 
-/** A stored check as PermitCheck (null when none is stored); throws naming the path of a field that drifted. */
-export function storedCheck(json: unknown): PermitCheck | null {
-  if (json === null || json === undefined) return null;
-  const r = permitCheckSchema.safeParse(json);
-  if (!r.success)
-    throw new Error(
-      `A stored permit check does not have the shape Brink reads: ${r.error.issues.map((i) => `${i.path.join('.')} ${i.message}`).join('; ')}`,
-    );
-  return r.data;
+/** A stored check as PermitCheck (null when none is stored); throws StoredShapeError naming the path of a field that drifted. */
+export function storedCheck(json: Stored<PermitCheck> | null): PermitCheck | null {
+  return readStoredOrNull('permit check', permitCheckSchema, json);
 }
+
+/** A revision's placed loads as stored (permit_revisions.loads). */
+export const storedLoads = (json: Stored<PlacedLoad[]>): PlacedLoad[] =>
+  readStored('list of placed loads', z.array(placedLoadSchema), json);
+/** A dig permit's details as stored (permit_revisions.dig; null on a load permit). */
+export const storedDig = (json: Stored<DigDetails> | null): DigDetails | null =>
+  readStoredOrNull('dig permit detail', digDetailsSchema, json);
+/** A coordinator's decision as stored (permit_revisions.decision; null before one). */
+export const storedDecision = (json: Stored<PermitDecision> | null): PermitDecision | null =>
+  readStoredOrNull('permit decision', permitDecisionSchema, json);
+/** The machines frozen at review (permit_revisions.plant_snapshot; null for a draft or a revision stored before snapshots). */
+export const storedPlantSnapshot = (json: Stored<PlantSnapshot> | null): PlantSnapshot | null =>
+  readStoredOrNull('plant snapshot', plantSnapshotSchema, json);
+/** The excavation inputs of the last stored check (permit_revisions.excavation_snapshot; null before one). */
+export const storedExcavationSnapshot = (json: Stored<ExcavationSnapshot> | null): ExcavationSnapshot | null =>
+  readStoredOrNull('excavation snapshot', excavationSnapshotSchema, json);
 
 export const permitRevisionAnswer = z.object({
   revision: int,

@@ -1,6 +1,7 @@
 import { sql } from 'kysely';
 import { jsonArrayFrom, jsonObjectFrom } from 'kysely/helpers/postgres';
 import type { Db } from '@db/database';
+import type { Stored } from '@shared/schemas/stored';
 import type { Polygon } from 'geojson';
 import { runCheck } from '@shared/engineering';
 import {
@@ -23,6 +24,8 @@ import {
   type PermitStatus,
   type PlacedLoad,
   type PlantSnapshot,
+  storedLoads,
+  storedPlantSnapshot,
 } from '@shared/schemas/permits';
 import { checkInputFields, type Excavation as RegisterExcavation } from '@shared/schemas/excavations';
 import { badRequest, HttpError, notFound } from '../../http';
@@ -172,8 +175,8 @@ function otherPermitOf(r: {
   window_start: Date | string;
   window_end: Date | string;
   excavation_ids: number[];
-  loads: unknown;
-  plant_snapshot: unknown;
+  loads: Stored<PlacedLoad[]>;
+  plant_snapshot: Stored<PlantSnapshot> | null;
 }): OtherPermit & { plantSnapshot: PlantSnapshot | null } {
   return {
     id: r.id,
@@ -182,8 +185,8 @@ function otherPermitOf(r: {
     windowStart: new Date(r.window_start).toISOString(),
     windowEnd: new Date(r.window_end).toISOString(),
     excavationIds: r.excavation_ids,
-    loads: r.loads as PlacedLoad[],
-    plantSnapshot: r.plant_snapshot as PlantSnapshot | null,
+    loads: storedLoads(r.loads),
+    plantSnapshot: storedPlantSnapshot(r.plant_snapshot),
   };
 }
 
@@ -408,10 +411,10 @@ async function subjectOf(db: Db, permitId: number): Promise<{ subject: CheckSubj
       windowStart: new Date(r.window_start),
       windowEnd: new Date(r.window_end),
       excavationIds: r.excavation_ids,
-      loads: r.loads as PlacedLoad[],
+      loads: storedLoads(r.loads),
       method: r.method,
       // A draft or returned request is checked with the library as it is; from review on, with its frozen machines.
-      plantSnapshot: editableStatuses.includes(r.status) ? null : (r.plant_snapshot as PlantSnapshot | null),
+      plantSnapshot: editableStatuses.includes(r.status) ? null : storedPlantSnapshot(r.plant_snapshot),
     },
   };
 }

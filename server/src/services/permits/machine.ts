@@ -1,6 +1,7 @@
 import bcrypt from 'bcryptjs';
 import { sql } from 'kysely';
 import type { Db } from '@db/database';
+import type { Stored } from '@shared/schemas/stored';
 import {
   permitActions,
   statusLabels,
@@ -10,6 +11,10 @@ import {
   type PermitDecision,
   type PermitStatus,
   storedCheck,
+  storedLoads,
+  storedDig,
+  type PlacedLoad,
+  type DigDetails,
 } from '@shared/schemas/permits';
 import type { Deps } from '../../deps';
 import { badRequest, conflict, forbidden, HttpError, notFound } from '../../http';
@@ -472,19 +477,19 @@ function assertAllNamed(check: PermitCheck): void {
 async function assertComplete(
   trx: Db,
   p: PermitRow & { kind?: string },
-  rev: { window_end: Date; excavation_ids: number[]; loads: unknown; dig: unknown },
+  rev: { window_end: Date; excavation_ids: number[]; loads: Stored<PlacedLoad[]>; dig: Stored<DigDetails> | null },
   now: Date,
 ): Promise<void> {
   const permit = await trx.selectFrom('permits').select('kind').where('id', '=', p.id).executeTakeFirstOrThrow();
   const fields: Record<string, string> = {};
   if (rev.excavation_ids.length === 0) fields.excavationIds = 'name at least one excavation';
   if (new Date(rev.window_end) <= now) fields.windowEnd = 'the window has already closed';
-  if (permit.kind === 'load' && (rev.loads as unknown[]).length === 0) fields.loads = 'place at least one load';
+  if (permit.kind === 'load' && storedLoads(rev.loads).length === 0) fields.loads = 'place at least one load';
   if (permit.kind === 'dig') {
-    const dig = rev.dig as { servicesChecks?: Record<string, { state: string }> } | null;
+    const dig = storedDig(rev.dig);
     if (!dig) fields.dig = 'give the depth, the support method and the buried-services checks';
     else {
-      for (const [k, c] of Object.entries(dig.servicesChecks ?? {})) {
+      for (const [k, c] of Object.entries(dig.servicesChecks)) {
         if (c.state === 'pending')
           fields[`dig.servicesChecks.${k}`] = 'must be done (or, for trial holes, said not to be needed) before review';
       }

@@ -1,6 +1,6 @@
 import { sql } from 'kysely';
 import { canonical, checkInputFields, type CheckInputs, type ExcavationValues, type RecheckOutcome } from '@shared/schemas/excavations';
-import { storedCheck, type PermitCheck, type PermitDecision, type PermitStatus } from '@shared/schemas/permits';
+import { storedCheck, type PermitCheck, type PermitStatus, storedDecision } from '@shared/schemas/permits';
 import { describeExcavationChange, judgeRecheck } from '@shared/permits/recheck';
 import type { Deps } from '../../deps';
 import { HttpError } from '../../http';
@@ -73,7 +73,7 @@ export async function recheckAfterExcavationChange(
         .select(['r.decision', 'r.description', 'r.window_start', 'r.window_end', 'p.site_id'])
         .where('p.id', '=', row.id)
         .executeTakeFirstOrThrow();
-      const judged = judgeRecheck({ check: stored?.check ?? null, refusal, previous, decision: rev.decision as PermitDecision | null });
+      const judged = judgeRecheck({ check: stored?.check ?? null, refusal, previous, decision: storedDecision(rev.decision) });
       if (stored) await keepCheck(trx, stored, now);
       const text = `${what}: ${judged.figures}`;
       if (!judged.worse) {

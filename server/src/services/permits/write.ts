@@ -7,6 +7,7 @@ import {
   type PermitStatus,
   type PermitUpdate,
   type PlacedLoad,
+  storedLoads,
 } from '@shared/schemas/permits';
 import type { Deps } from '../../deps';
 import { badRequest, conflict, notFound, refuseFields } from '../../http';
@@ -209,7 +210,7 @@ export async function updatePermit(deps: Deps, user: { id: number; name: string 
       .select(['excavation_ids', 'loads'])
       .where('id', '=', rev.id)
       .executeTakeFirstOrThrow();
-    if (after.excavation_ids.length && (after.loads as unknown[]).length) await checkStoredRevision(trx, p.id, now);
+    if (after.excavation_ids.length && storedLoads(after.loads).length) await checkStoredRevision(trx, p.id, now);
     else await trx.updateTable('permit_revisions').set({ check_result: null, checked_at: null }).where('id', '=', rev.id).execute();
     await trx
       .updateTable('permits')
