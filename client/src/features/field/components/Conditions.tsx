@@ -1,10 +1,11 @@
 import { deviceTimeZone, formatSiteTime } from '@shared/time/shifts';
 import { exclusionReason } from '@shared/permits/exclusion';
 import type { FieldPermit } from '@shared/schemas/field';
-import { metres2 } from '../lib/format';
+import { useFigures } from '@client/lib/units';
 
 /** The standoff and the conditions in large type, with the caution beside the figures. */
 export function Conditions({ permit }: { permit: FieldPermit }) {
+  const figures = useFigures();
   const zoned = permit.excavations.filter((e) => e.standoff !== null);
   return (
     <section aria-labelledby="conditions-title" className="flex flex-col gap-3 rounded-md border-2 border-ink bg-sheet p-4">
@@ -15,11 +16,11 @@ export function Conditions({ permit }: { permit: FieldPermit }) {
         <ul className="flex flex-col gap-2 text-2xl font-semibold leading-snug">
           {zoned.map((e) => (
             <li key={e.id}>
-              Keep every part of the load at least <span className="font-bold">{metres2(e.standoff!)}</span> from the edge of {e.reference}{' '}
-              ({e.name}).
+              Keep every part of the load at least <span className="font-bold">{figures.length(e.standoff!, { rounding: 'up' })}</span> from
+              the edge of {e.reference} ({e.name}).
               {e.standoffBasis ? (
                 <span className="block text-lg font-normal" data-testid="standoff-why">
-                  Why {metres2(e.standoff!)}: {exclusionReason(e.standoffBasis)}.
+                  Why {figures.length(e.standoff!, { rounding: 'up' })}: {figures.words(exclusionReason(e.standoffBasis))}.
                 </span>
               ) : null}
             </li>
@@ -31,7 +32,9 @@ export function Conditions({ permit }: { permit: FieldPermit }) {
         </p>
       )}
       {permit.minimumClearance > 0 && zoned.length ? (
-        <p>No standoff is less than the site’s least clearance from any edge, {metres2(permit.minimumClearance)}.</p>
+        <p>
+          No standoff is less than the site’s least clearance from any edge, {figures.length(permit.minimumClearance, { rounding: 'up' })}.
+        </p>
       ) : null}
       {permit.conditions.length ? (
         <ol className="flex list-decimal flex-col gap-2 pl-7 text-xl leading-snug">

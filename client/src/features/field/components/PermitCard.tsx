@@ -1,9 +1,11 @@
 import { Link } from 'react-router-dom';
 import type { FieldPermit } from '@shared/schemas/field';
-import { metres2, windowText } from '../lib/format';
+import { useFigures } from '@client/lib/units';
+import { windowText } from '../lib/format';
 
 /** One permit in my list: a large link to it, with what an operator needs to know at a glance. */
 export function PermitCard({ permit, briefingWaiting }: { permit: FieldPermit; briefingWaiting: boolean }) {
+  const figures = useFigures();
   const briefing = permit.myBriefedAt
     ? 'Briefing confirmed'
     : briefingWaiting
@@ -24,7 +26,7 @@ export function PermitCard({ permit, briefingWaiting }: { permit: FieldPermit; b
       <span className="mt-1 block font-semibold">{windowText(permit.windowStart, permit.windowEnd)}</span>
       <span className="block">
         {permit.excavations.map((e) => e.reference).join(', ') || 'No excavation named'}
-        {permit.standoff !== null ? ` · standoff ${metres2(permit.standoff)}` : ''}
+        {permit.standoff !== null ? ` · standoff ${figures.length(permit.standoff, { rounding: 'up' })}` : ''}
       </span>
       {briefing ? <span className="mt-1 block font-bold underline underline-offset-4">{briefing}</span> : null}
     </Link>

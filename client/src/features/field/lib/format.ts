@@ -40,11 +40,6 @@ export function stampText(iso: string, now = new Date()): string {
   return p.ago ? `${p.clock}, ${p.ago}` : p.clock;
 }
 
-/** Metres to 0.01, as Brink shows set figures. */
-export function metres2(value: number): string {
-  return `${value.toFixed(2)} m`;
-}
-
 /** Does the permit's window touch today? */
 export function isToday(start: string, end: string, now = new Date()): boolean {
   const dayStart = new Date(now.getFullYear(), now.getMonth(), now.getDate());

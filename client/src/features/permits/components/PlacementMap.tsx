@@ -10,6 +10,7 @@ import { loadName, type PermitCheck, type PlacedLoad, type Verdict } from '@shar
 import { bandsWords, failsBeyondPassing, type CheckRequest } from '@shared/engineering';
 import { verdictColours } from './Verdict';
 import { bearingOf, centreOf, handleAt } from './placement';
+import { useFigures } from '@client/lib/units';
 
 type LatLngRings = [number, number][][];
 const toLeaflet = (g: GeoPolygon | MultiPolygon): LatLngRings[] =>
@@ -80,6 +81,7 @@ export function PlacementMap({
   onDragging,
 }: PlacementMapProps) {
   const [zoom, setZoom] = useState<number | null>(null);
+  const figures = useFigures();
   const prepared = useMemo(
     () =>
       excavations.flatMap((e) => {
@@ -210,8 +212,8 @@ export function PlacementMap({
                   >
                     <Tooltip>
                       {f.label}
-                      {f.element ? ` – ${f.element}` : ''}: {f.intensity.toFixed(1)}{' '}
-                      {f.kind === 'area' || f.kind === 'strip' ? 'kPa' : 'kN/m'}
+                      {f.element ? ` – ${f.element}` : ''}:{' '}
+                      {f.kind === 'area' || f.kind === 'strip' ? figures.pressure(f.intensity) : figures.lineForce(f.intensity)}
                     </Tooltip>
                   </Polygon>
                 ),
@@ -274,7 +276,7 @@ export function PlacementMap({
       {editable && zoom !== null ? <ZoomHint loads={loads} plant={plant} proj={proj} zoom={zoom} /> : null}
       <p className="px-3 py-2 text-sm text-ink-soft">
         North is up. Grey: excavations; dashed: influence zones (within the depth of the edge); red band: exclusion zone
-        {standoff ? ` (${standoff.toFixed(2)} m from the edge)` : ''}.
+        {standoff ? ` (${figures.length(standoff, { rounding: 'up' })} from the edge)` : ''}.
         {bands.length
           ? ' Orange bands: offsets where a load fails although it passes nearer the edge — moving a load farther away is not always safer.'
           : ''}{' '}

@@ -46,6 +46,7 @@ import { CheckSheets } from '../components/CheckSheet';
 import { PlacementMap } from '../components/PlacementMap';
 import { centreOf, moveLoad, rectangle, segment } from '../components/placement';
 import { fromLocalInput, toLocalInput } from '../components/time';
+import { useFigures } from '@client/lib/units';
 
 /** The form's values: a request as the shared create schema reads it (the same schema checks it before it is sent). */
 interface Draft {
@@ -126,6 +127,7 @@ const UNDO_DEPTH = 20;
  * last moves can be undone. A new request is created when it is first saved or sent.
  */
 export function Editor(subject: EditorSubject) {
+  const figures = useFigures();
   const { permit } = subject;
   const siteId = permit ? permit.siteId : subject.siteId;
   const navigate = useNavigate();
@@ -346,7 +348,7 @@ export function Editor(subject: EditorSubject) {
     setPlaced(
       standoff === null
         ? `${item.name} has no standoff within 3H of ${beside.reference}: it is placed beyond the influence zone. Drag it to where it will work and read the check.`
-        : `${item.name} is placed ${(standoff + PLACING_MARGIN).toFixed(2)} m from the edge of ${beside.reference}, just beyond its computed standoff of ${standoff.toFixed(2)} m. Drag it nearer or farther and watch the verdict.`,
+        : `${item.name} is placed ${figures.length(standoff + PLACING_MARGIN)} from the edge of ${beside.reference}, just beyond its computed standoff of ${figures.length(standoff, { rounding: 'up' })}. Drag it nearer or farther and watch the verdict.`,
     );
   }
   function addAdHoc() {

@@ -44,6 +44,7 @@ import { PlacementMap } from '../components/PlacementMap';
 import { StatusLabel } from '../components/StatusLabel';
 import { when } from '../components/time';
 import { timelineLine } from '../components/timeline';
+import { useFigures } from '@client/lib/units';
 
 const decisionMax = maxLengths(transitionSchema.shape);
 const commentMax = maxLengths(commentSchema.shape);
@@ -197,6 +198,7 @@ function PermitView({ permit }: { permit: PermitDetail }) {
 }
 
 function DecisionPanel({ permit, children }: { permit: PermitDetail; children?: ReactNode }) {
+  const figures = useFigures();
   const d = permit.current.decision!;
   const title = d.action === 'approve' ? 'Approved' : d.action === 'return' ? 'Returned for changes' : 'Declined';
   return (
@@ -205,7 +207,7 @@ function DecisionPanel({ permit, children }: { permit: PermitDetail; children?: 
         <>
           <p data-testid="decision-standoff">
             {d.standoff !== null
-              ? `Standoff: keep every load at least ${d.standoff.toFixed(2)} m from the excavation edge.`
+              ? `Standoff: keep every load at least ${figures.length(d.standoff, { rounding: 'up' })} from the excavation edge.`
               : 'Approved as placed on the plan (no standoff set).'}
           </p>
           {children}
@@ -215,7 +217,7 @@ function DecisionPanel({ permit, children }: { permit: PermitDetail; children?: 
               ? 'not recorded'
               : d.computedStandoff === null
                 ? 'none within 3H'
-                : `${d.computedStandoff.toFixed(2)} m`}
+                : figures.length(d.computedStandoff, { rounding: 'up' })}
             .
           </p>
           {d.conditions.length ? (
@@ -306,6 +308,7 @@ function Actions({ permit }: { permit: PermitDetail }) {
 }
 
 function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; action: PermitAction; onDone: (msg: string) => void }) {
+  const figures = useFigures();
   const rule = transitionRules[action];
   const move = useTransition(permit.id);
   const computed = permit.current.check?.computedStandoff ?? null;
@@ -356,7 +359,10 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
         <>
           <p>
             Computed standoff:{' '}
-            {computed === null ? 'none within 3H (the support must be redesigned or the loads reduced)' : `${computed.toFixed(2)} m`}.
+            {computed === null
+              ? 'none within 3H (the support must be redesigned or the loads reduced)'
+              : figures.length(computed, { rounding: 'up' })}
+            .
           </p>
           <CheckboxField label="Approve with a standoff" checked={withStandoff} onChange={(e) => setWithStandoff(e.target.checked)} />
           {withStandoff ? (
