@@ -1,4 +1,7 @@
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { render, screen } from '@testing-library/react';
+import type { ReactNode } from 'react';
+import { MemoryRouter } from 'react-router-dom';
 import { describe, expect, it } from 'vitest';
 import { exclusionDistance } from '@shared/permits/exclusion';
 import type { FieldPermit } from '@shared/schemas/field';
@@ -15,10 +18,22 @@ const rev = {
 };
 const minimumClearance = 0.5;
 
+// Both screens read the person's units through the session and the current site: nobody is signed in
+// here and no site is open, so metric.
+function withQueries({ children }: { children: ReactNode }) {
+  const client = new QueryClient({ defaultOptions: { queries: { retry: false, enabled: false } } });
+  return (
+    <QueryClientProvider client={client}>
+      <MemoryRouter>{children}</MemoryRouter>
+    </QueryClientProvider>
+  );
+}
+
 describe('the standoff on the phone and on the desktop', () => {
   it('is the same figure with the same reason for a permit approved as placed', () => {
     const desktop = render(
       <ExclusionsOnTheGround rev={rev} excavations={[{ id: 9, reference: 'TR-9', depth: 2 }]} minimumClearance={minimumClearance} />,
+      { wrapper: withQueries },
     );
     const onDesktop = screen.getByTestId('exclusions-on-the-ground').textContent ?? '';
     desktop.unmount();
@@ -32,7 +47,7 @@ describe('the standoff on the phone and on the desktop', () => {
       decidedBy: null,
       caution: 'aids a competent temporary works designer',
     } as unknown as FieldPermit;
-    render(<Conditions permit={permit} />);
+    render(<Conditions permit={permit} />, { wrapper: withQueries });
     const onPhone = screen.getByTestId('standoff-why').textContent ?? '';
 
     expect(onPhone).toBe(
