@@ -40,7 +40,9 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   setPlainMessages();
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  // Forwarded client addresses (the per-address limits) and https (the Secure cookie) are believed
+  // only from these proxies: loopback, or the load balancer's addresses in TRUST_PROXY.
+  app.set('trust proxy', config.trustProxy);
 
   const tileOrigin = config.mapTileUrl ? safeOrigin(config.mapTileUrl) : null;
   app.use(

@@ -1,3 +1,4 @@
+import net from 'node:net';
 import { z } from 'zod';
 
 const onOff = z
@@ -34,7 +35,32 @@ const envSchema = z.object({
   MAP_TILE_ATTRIBUTION: z.string().optional(),
   SIGNIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(30),
   SIGNIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(8),
+  TRUST_PROXY: z
+    .string()
+    .optional()
+    .transform((v) =>
+      v && v.trim()
+        ? v
+            .split(',')
+            .map((s) => s.trim())
+            .filter(Boolean)
+        : ['loopback'],
+    )
+    .refine((list) => list.every(isProxyAddress), {
+      message: 'TRUST_PROXY must list addresses or subnets (e.g. 10.0.0.0/8, 192.0.2.7) or loopback, linklocal, uniquelocal',
+    }),
 });
+
+/** Express's names for address ranges, or an IPv4/IPv6 address with an optional prefix length. */
+function isProxyAddress(entry: string): boolean {
+  if (['loopback', 'linklocal', 'uniquelocal'].includes(entry)) return true;
+  const [address, prefix, ...rest] = entry.split('/');
+  const family = net.isIP(address ?? '');
+  if (family === 0 || rest.length > 0) return false;
+  if (prefix === undefined) return true;
+  const bits = Number(prefix);
+  return /^\d+$/.test(prefix) && bits <= (family === 4 ? 32 : 128);
+}
 
 export interface Config {
   env: string;
@@ -63,6 +89,11 @@ export interface Config {
   mapTileAttribution: string;
   signInLimitPerIp: number;
   signInLimitPerAccount: number;
+  /**
+   * The proxies whose X-Forwarded-For and X-Forwarded-Proto are believed (Express's `trust proxy`):
+   * loopback by default; behind a load balancer on another host, its addresses or subnet.
+   */
+  trustProxy: string[];
 }
 
 /** Reads the settings from the environment (see .env.example); throws naming each bad variable. */
@@ -105,5 +136,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     mapTileAttribution: e.MAP_TILE_ATTRIBUTION ?? '',
     signInLimitPerIp: e.SIGNIN_LIMIT_PER_IP,
     signInLimitPerAccount: e.SIGNIN_LIMIT_PER_ACCOUNT,
+    trustProxy: e.TRUST_PROXY,
   };
 }
