@@ -1,5 +1,5 @@
-import { useMemo } from 'react';
-import type { RegisterOptions } from 'react-hook-form';
+import { useMemo, useState, type ChangeEvent } from 'react';
+import { useController, type Control, type FieldPath, type FieldValues } from 'react-hook-form';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type { signedInAnswer } from '@shared/schemas/auth';
@@ -71,23 +71,66 @@ export function useFigures(): Figures {
   return useMemo(() => figuresIn(system), [system]);
 }
 
+/** A figure's text as typed and the SI value it was read as (NaN: unreadable, null: empty). */
+interface QuantityState {
+  text: string;
+  value: number | null;
+  system: UnitSystem;
+}
+
+/** Reads a box's text as an SI figure: null when empty, NaN when it cannot be read (with the reason). */
+export function readQuantity(text: string, quantity: Quantity, system: UnitSystem): { value: number | null; reason: string | null } {
+  if (text.trim() === '') return { value: null, reason: null };
+  const r = parseQuantity(text, quantity, system);
+  return r.ok ? { value: r.value, reason: null } : { value: Number.NaN, reason: r.reason };
+}
+
 /**
- * react-hook-form options for a figure typed in either system (`2 ft 6 in`, `500 psf`, `2.5`): the
- * form's value is SI, NaN when unreadable (the shared schema then refuses it by the field's label).
- * Give the input `defaultValue={quantityText(...)}` or set the form's default with it.
+ * A react-hook-form field that holds an SI figure (m, kPa, kN/m³ …) while the person reads and types
+ * it in their units: `2 ft 6 in`, `500 psf`, `1.5 m` or a bare figure in their system's unit. The box
+ * keeps what was typed; the form's value is SI (null when empty, NaN when unreadable, which the
+ * shared schema refuses). `error` is the reason to show: the box's own reading first ("must be a
+ * number, with a unit if you like: …"), else the schema's or the server's, restated in the person's units.
  */
-export function quantityField(quantity: Quantity, system: UnitSystem): RegisterOptions {
+export function useQuantityInput<T extends FieldValues, Out extends FieldValues>(
+  control: Control<T, unknown, Out>,
+  name: FieldPath<T>,
+  quantity: Quantity,
+) {
+  const system = useUnits();
+  const { field, fieldState } = useController({ control, name });
+  const value = (typeof field.value === 'number' ? field.value : null) as number | null;
+  const [state, setState] = useState<QuantityState>(() => ({ text: quantityText(quantity, value, system), value, system }));
+  let shown = state;
+  // The figure changed from outside (the form was reset, the person changed units): show it afresh.
+  if (!Object.is(state.value, value) || state.system !== system) {
+    shown = { text: quantityText(quantity, value, system), value, system };
+    setState(shown);
+  }
+  const reading = readQuantity(shown.text, quantity, system);
+  const problem = fieldState.error ? (reading.reason ?? localizeWords(fieldState.error.message ?? '', system)) : undefined;
   return {
-    setValueAs: (v: unknown) => {
-      if (typeof v === 'number') return v;
-      if (v === '' || v === null || v === undefined) return Number.NaN;
-      const r = parseQuantity(String(v), quantity, system);
-      return r.ok ? r.value : Number.NaN;
+    unit: unitLabel(quantity, system),
+    error: problem,
+    input: {
+      name: field.name,
+      ref: field.ref,
+      value: shown.text,
+      onBlur: field.onBlur,
+      type: 'text' as const,
+      inputMode: 'decimal' as const,
+      autoComplete: 'off',
+      onChange: (event: ChangeEvent<HTMLInputElement>) => {
+        const text = event.target.value;
+        const next = readQuantity(text, quantity, system).value;
+        setState({ text, value: next, system });
+        field.onChange(next);
+      },
     },
   };
 }
 
-/** The text an input of `quantityField` starts with for a saved SI figure. */
+/** The text a box starts with for a saved SI figure (plain digits in the person's unit). */
 export function quantityText(quantity: Quantity, si: number | null | undefined, system: UnitSystem): string {
   return inputText(quantity, si, system);
 }

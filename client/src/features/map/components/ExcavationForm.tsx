@@ -8,7 +8,6 @@ import {
   stateLabels,
   supportLabels,
   supportTypes,
-  TRENCH_WIDTH,
   type Excavation,
   type ExcavationGeometry,
   type ExcavationInput,
@@ -18,7 +17,9 @@ import { Button } from '@client/components/Button';
 import { Caution } from '@client/components/Caution';
 import { ConfirmAction } from '@client/components/ConfirmAction';
 import { FormSummary, SelectField, TextField } from '@client/components/Fields';
+import { QuantityField } from '@client/components/QuantityField';
 import { applyServerErrors, maxLengths } from '@client/lib/forms';
+import { useFigures } from '@client/lib/units';
 import { excavationFormSchema, numberOrNull, type ExcavationFormValues } from './excavationFormValues';
 import { SoilTable } from './SoilTable';
 
@@ -145,6 +146,7 @@ export function ExcavationForm(props: ExcavationFormProps) {
   );
 
   const num = { setValueAs: numberOrNull } as const;
+  const figures = useFigures();
   const ro = !canEdit;
   const designRo = !canEdit || !canEditDesign;
   return (
@@ -196,28 +198,8 @@ export function ExcavationForm(props: ExcavationFormProps) {
           ) : null}
         </div>
         <div className="grid grid-cols-2 gap-3">
-          {kind === 'trench' ? (
-            <TextField
-              label="Width (m)"
-              type="number"
-              step="0.05"
-              min={TRENCH_WIDTH.min}
-              max={TRENCH_WIDTH.max}
-              inputMode="decimal"
-              error={errors.width?.message}
-              {...register('width', num)}
-            />
-          ) : null}
-          <TextField
-            label="Depth H (m)"
-            type="number"
-            step="0.05"
-            min={0}
-            inputMode="decimal"
-            hint="Ground to formation level"
-            error={errors.depth?.message}
-            {...register('depth', num)}
-          />
+          {kind === 'trench' ? <QuantityField control={control} name="width" quantity="length" label="Width" /> : null}
+          <QuantityField control={control} name="depth" quantity="length" label="Depth H" hint="Ground to formation level" />
         </div>
       </fieldset>
 
@@ -238,25 +220,19 @@ export function ExcavationForm(props: ExcavationFormProps) {
           {...register('supportType')}
         />
         <div className="grid grid-cols-2 gap-3">
-          <TextField
-            label="Design surcharge allowance (kPa)"
-            type="number"
-            step="0.5"
-            min={0}
-            inputMode="decimal"
-            hint="What the support was designed for; 10 kPa is the usual site allowance"
-            error={errors.designSurcharge?.message}
-            {...register('designSurcharge', num)}
+          <QuantityField
+            control={control}
+            name="designSurcharge"
+            quantity="pressure"
+            label="Design surcharge allowance"
+            hint={figures.words('What the support was designed for; 10 kPa is the usual site allowance')}
           />
-          <TextField
-            label="Rated pressure (kPa)"
-            type="number"
-            step="any"
-            min={0}
-            inputMode="decimal"
+          <QuantityField
+            control={control}
+            name="ratedPressure"
+            quantity="pressure"
+            label="Rated pressure"
             hint="Proprietary box or frame only; else empty"
-            error={errors.ratedPressure?.message}
-            {...register('ratedPressure', num)}
           />
         </div>
         <SelectField
@@ -296,15 +272,12 @@ export function ExcavationForm(props: ExcavationFormProps) {
       <fieldset className="flex flex-col gap-3" disabled={designRo}>
         <legend className="mb-1 text-lg font-semibold">Ground</legend>
         <SoilTable control={control} register={register} watch={watch} errors={errors} readOnly={designRo} />
-        <TextField
-          label="Groundwater depth (m)"
-          type="number"
-          step="0.05"
-          min={0}
-          inputMode="decimal"
+        <QuantityField
+          control={control}
+          name="groundwaterDepth"
+          quantity="length"
+          label="Groundwater depth"
           hint="Below ground level; empty when none was found"
-          error={errors.groundwaterDepth?.message}
-          {...register('groundwaterDepth', num)}
         />
       </fieldset>
 

@@ -2,6 +2,8 @@ import { useFieldArray, type Control, type FieldErrors, type UseFormRegister, ty
 import { Button } from '@client/components/Button';
 import { ListErrors, listErrorMessages, RemoveRowButton } from '@client/components/ListErrors';
 import type { ExcavationValues } from '@shared/schemas/excavations';
+import type { Quantity } from '@shared/units';
+import { useFigures, useQuantityInput } from '@client/lib/units';
 import { emptyRow, numberOrNull, type ExcavationFormValues, type SoilRow } from './excavationFormValues';
 
 interface SoilTableProps {
@@ -12,13 +14,16 @@ interface SoilTableProps {
   readOnly: boolean;
 }
 
-const columns: { key: keyof SoilRow; label: string; unit: string; only?: SoilRow['model'] }[] = [
-  { key: 'top', label: 'Top', unit: 'm' },
-  { key: 'unitWeight', label: 'γ', unit: 'kN/m³' },
-  { key: 'saturatedUnitWeight', label: 'γsat', unit: 'kN/m³' },
-  { key: 'frictionAngle', label: 'φ′', unit: '°', only: 'drained' },
-  { key: 'cohesion', label: 'c′', unit: 'kPa', only: 'drained' },
-  { key: 'undrainedShearStrength', label: 'cu', unit: 'kPa', only: 'undrained' },
+type Column = { key: Exclude<keyof SoilRow, 'model'>; label: string; quantity: Quantity | null; only?: SoilRow['model'] };
+
+/** Each figure of a layer and what it measures (null: an angle, in degrees whatever the units). */
+const columns: Column[] = [
+  { key: 'top', label: 'Top', quantity: 'length' },
+  { key: 'unitWeight', label: 'γ', quantity: 'unitWeight' },
+  { key: 'saturatedUnitWeight', label: 'γsat', quantity: 'unitWeight' },
+  { key: 'frictionAngle', label: 'φ′', quantity: null, only: 'drained' },
+  { key: 'cohesion', label: 'c′', quantity: 'pressure', only: 'drained' },
+  { key: 'undrainedShearStrength', label: 'cu', quantity: 'pressure', only: 'undrained' },
 ];
 
 const longNames: Record<string, string> = {
@@ -42,12 +47,13 @@ const cell =
 export function SoilTable({ control, register, watch, errors, readOnly }: SoilTableProps) {
   const { fields, append, remove } = useFieldArray({ control, name: 'soil' });
   const rows = watch('soil');
+  const figures = useFigures();
   const messages = listErrorMessages(
     errors.soil as Parameters<typeof listErrorMessages>[0],
     fields.length,
     'Soil layers',
     (i, k) => `Layer ${i + 1} ${longNames[k] ?? k}`,
-  );
+  ).map(figures.words);
 
   return (
     <fieldset className="flex flex-col gap-2">
@@ -82,20 +88,31 @@ export function SoilTable({ control, register, watch, errors, readOnly }: SoilTa
                   .filter((c) => c.only === undefined || c.only === model)
                   .map((c) => {
                     const invalid = Boolean((errors.soil?.[i] as Record<string, unknown> | undefined)?.[c.key]);
-                    return (
+                    const name = `soil.${i}.${c.key}` as const;
+                    return c.quantity ? (
+                      <QuantityCell
+                        key={c.key}
+                        control={control}
+                        name={name}
+                        quantity={c.quantity}
+                        row={i}
+                        column={c}
+                        disabled={readOnly}
+                      />
+                    ) : (
                       <label key={c.key} className="flex min-w-0 flex-col gap-0.5">
                         <span aria-hidden="true">
-                          {c.label} <span className="text-ink-soft">({c.unit})</span>
+                          {c.label} <span className="text-ink-soft">(°)</span>
                         </span>
                         <input
                           type="number"
                           step="any"
                           inputMode="decimal"
-                          aria-label={`Layer ${i + 1} ${longNames[c.key]} (${c.unit})`}
+                          aria-label={`Layer ${i + 1} ${longNames[c.key]} (°)`}
                           aria-invalid={invalid || undefined}
                           className={cell}
                           disabled={readOnly}
-                          {...register(`soil.${i}.${c.key}` as `soil.${number}.top`, { setValueAs: numberOrNull })}
+                          {...register(name, { setValueAs: numberOrNull })}
                         />
                       </label>
                     );
@@ -114,5 +131,33 @@ export function SoilTable({ control, register, watch, errors, readOnly }: SoilTa
         </div>
       ) : null}
     </fieldset>
+  );
+}
+
+interface QuantityCellProps {
+  control: SoilTableProps['control'];
+  name: `soil.${number}.${Column['key']}`;
+  quantity: Quantity;
+  row: number;
+  column: Column;
+  disabled: boolean;
+}
+
+/** One figure of a layer in the person's units (the form keeps SI); its refusal is listed under the table. */
+function QuantityCell({ control, name, quantity, row, column, disabled }: QuantityCellProps) {
+  const { unit, error, input } = useQuantityInput(control, name, quantity);
+  return (
+    <label className="flex min-w-0 flex-col gap-0.5">
+      <span aria-hidden="true">
+        {column.label} <span className="text-ink-soft">({unit})</span>
+      </span>
+      <input
+        aria-label={`Layer ${row + 1} ${longNames[column.key]} (${unit})`}
+        aria-invalid={error ? true : undefined}
+        className={cell}
+        disabled={disabled}
+        {...input}
+      />
+    </label>
   );
 }
