@@ -10,7 +10,10 @@ import '@client/lib/forms';
 // Factors: NIST SP 811 (2008), Appendix B.8: 1 ft = 0.3048 m and 1 in = 0.0254 m exactly;
 // 1 lbf = 4.4482216152605 N, so 1 psf = 47.880 258 98 Pa.
 // The limit is worded as the shared calculation schema words its own ("must be at most 50 m").
-const schema = z.object({ depth: z.number().positive().max(30, 'must be at most 30 m'), surcharge: z.number().min(0).nullable() });
+const schema = z.object({
+  depth: z.number().positive().max(30, 'must be at most 30 m').nullable(),
+  surcharge: z.number().min(0).nullable(),
+});
 type Values = { depth: number | null; surcharge: number | null };
 
 function Form({ onSave, initial }: { onSave: (v: z.output<typeof schema>) => void; initial: Values }) {
