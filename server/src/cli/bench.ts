@@ -281,7 +281,8 @@ function calcBench(): void {
 /**
  * Parts: `calc` (above), `api` (benchApi.ts) and `web` (benchWeb.ts); all three by default, or name
  * them: `npm run bench -- api web`. The api and web parts need the throw-away database and the
- * build that docker-less-scripts/bench.sh makes (`npm run bench` runs it).
+ * build that docker-less-scripts/bench.sh makes (`npm run bench` runs it). `large` (benchLarge.ts,
+ * only when named) reads the seed:large data set that bench.sh makes (or LARGE_DATABASE_URL names).
  */
 async function main(): Promise<void> {
   const asked = process.argv.slice(2).filter((a) => !a.startsWith('-'));
@@ -289,6 +290,7 @@ async function main(): Promise<void> {
   if (parts.includes('calc')) calcBench();
   if (parts.includes('api')) await (await import('./benchApi')).runApiBench();
   if (parts.includes('web')) await (await import('./benchWeb')).runWebBench();
+  if (parts.includes('large')) await (await import('./benchLarge')).runLargeBench();
   console.log(
     `\nload average at the end: ${loadavg()
       .map((x) => x.toFixed(1))

@@ -41,11 +41,14 @@ async function waitFor(url: string, child: ChildProcess, seconds = 90): Promise<
 }
 
 /** Brink's server on 127.0.0.1 (stopped by stop()). */
-export async function startBrink(): Promise<{ port: number; url: string; stop: () => Promise<void> }> {
-  if (!process.env.DATABASE_URL) throw new Error('DATABASE_URL is not set: run `npm run bench` (docker-less-scripts/bench.sh)');
+export async function startBrink(
+  databaseUrl = process.env.DATABASE_URL,
+): Promise<{ port: number; url: string; stop: () => Promise<void> }> {
+  if (!databaseUrl) throw new Error('DATABASE_URL is not set: run `npm run bench` (docker-less-scripts/bench.sh)');
   const port = await freePort();
   const env = {
     ...process.env,
+    DATABASE_URL: databaseUrl,
     HOST,
     PORT: String(port),
     PUBLIC_URL: ORIGIN_HEADER(port),
