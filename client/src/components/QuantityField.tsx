@@ -1,7 +1,8 @@
 import type { Control, FieldPath, FieldValues } from 'react-hook-form';
 import type { ReactNode } from 'react';
 import type { Quantity } from '@shared/units';
-import { useQuantityInput } from '@client/lib/units';
+import { localizeWords } from '@shared/units';
+import { quantityInputProps, useQuantityInput, useQuantityText } from '@client/lib/units';
 import { TextField } from './Fields';
 
 interface QuantityFieldProps<T extends FieldValues, Out extends FieldValues> {
@@ -25,4 +26,32 @@ export function QuantityField<T extends FieldValues, Out extends FieldValues>({
 }: QuantityFieldProps<T, Out>) {
   const { unit, error, input } = useQuantityInput(control, name, quantity);
   return <TextField label={`${label} (${unit})`} hint={hint} error={error} readOnly={readOnly} {...input} />;
+}
+
+interface QuantityBoxProps {
+  /** The label without its unit ("Height"): the person's unit is added ("Height (ft)"). */
+  label: string;
+  quantity: Quantity;
+  /** The SI figure held by the page (NaN: what was typed could not be read). */
+  value: number | null;
+  onChange: (si: number | null) => void;
+  /** The reason from the page's own check or the server, in SI words: restated in the person's units. */
+  error?: string;
+  hint?: ReactNode;
+}
+
+/** A labelled box for a figure in the person's units whose page keeps the SI figure in its own state. */
+export function QuantityBox({ label, quantity, value, onChange, error, hint }: QuantityBoxProps) {
+  const box = useQuantityText(value, onChange, quantity);
+  const shownError = error ? (box.reason ?? localizeWords(error, box.system)) : undefined;
+  return (
+    <TextField
+      label={`${label} (${box.unit})`}
+      hint={hint}
+      error={shownError}
+      {...quantityInputProps}
+      value={box.text}
+      onChange={box.onChange}
+    />
+  );
 }

@@ -86,47 +86,52 @@ export function readQuantity(text: string, quantity: Quantity, system: UnitSyste
 }
 
 /**
- * A react-hook-form field that holds an SI figure (m, kPa, kN/m³ …) while the person reads and types
- * it in their units: `2 ft 6 in`, `500 psf`, `1.5 m` or a bare figure in their system's unit. The box
- * keeps what was typed; the form's value is SI (null when empty, NaN when unreadable, which the
- * shared schema refuses). `error` is the reason to show: the box's own reading first ("must be a
- * number, with a unit if you like: …"), else the schema's or the server's, restated in the person's units.
+ * A box for an SI figure (m, kPa, kN/m³ …) that the person reads and types in their units: `2 ft 6 in`,
+ * `500 psf`, `1.5 m` or a bare figure in their system's unit. The box keeps what was typed; `onValue`
+ * receives SI (null when empty, NaN when unreadable, which the shared schemas refuse). `reason` is why
+ * the text cannot be read ("must be a number, with a unit if you like: …"), else null.
+ */
+export function useQuantityText(value: number | null, onValue: (si: number | null) => void, quantity: Quantity) {
+  const system = useUnits();
+  const [state, setState] = useState<QuantityState>(() => ({ text: quantityText(quantity, value, system), value, system }));
+  let shown = state;
+  // The figure changed from outside (a reset, a load dragged, the person changed units): show it afresh.
+  if (!Object.is(state.value, value) || state.system !== system) {
+    shown = { text: quantityText(quantity, value, system), value, system };
+    setState(shown);
+  }
+  return {
+    system,
+    unit: unitLabel(quantity, system),
+    reason: readQuantity(shown.text, quantity, system).reason,
+    text: shown.text,
+    onChange: (event: ChangeEvent<HTMLInputElement>) => {
+      const text = event.target.value;
+      const next = readQuantity(text, quantity, system).value;
+      setState({ text, value: next, system });
+      onValue(next);
+    },
+  };
+}
+
+/** What every box of a figure in the person's units sets on its input. */
+export const quantityInputProps = { type: 'text', inputMode: 'decimal', autoComplete: 'off' } as const;
+
+/**
+ * `useQuantityText` for a react-hook-form field that holds the SI figure. `error` is the reason to
+ * show: the box's own reading first, else the schema's or the server's, restated in the person's units.
  */
 export function useQuantityInput<T extends FieldValues, Out extends FieldValues>(
   control: Control<T, unknown, Out>,
   name: FieldPath<T>,
   quantity: Quantity,
 ) {
-  const system = useUnits();
   const { field, fieldState } = useController({ control, name });
-  const value = (typeof field.value === 'number' ? field.value : null) as number | null;
-  const [state, setState] = useState<QuantityState>(() => ({ text: quantityText(quantity, value, system), value, system }));
-  let shown = state;
-  // The figure changed from outside (the form was reset, the person changed units): show it afresh.
-  if (!Object.is(state.value, value) || state.system !== system) {
-    shown = { text: quantityText(quantity, value, system), value, system };
-    setState(shown);
-  }
-  const reading = readQuantity(shown.text, quantity, system);
-  const problem = fieldState.error ? (reading.reason ?? localizeWords(fieldState.error.message ?? '', system)) : undefined;
+  const box = useQuantityText(typeof field.value === 'number' ? field.value : null, field.onChange, quantity);
   return {
-    unit: unitLabel(quantity, system),
-    error: problem,
-    input: {
-      name: field.name,
-      ref: field.ref,
-      value: shown.text,
-      onBlur: field.onBlur,
-      type: 'text' as const,
-      inputMode: 'decimal' as const,
-      autoComplete: 'off',
-      onChange: (event: ChangeEvent<HTMLInputElement>) => {
-        const text = event.target.value;
-        const next = readQuantity(text, quantity, system).value;
-        setState({ text, value: next, system });
-        field.onChange(next);
-      },
-    },
+    unit: box.unit,
+    error: fieldState.error ? (box.reason ?? localizeWords(fieldState.error.message ?? '', box.system)) : undefined,
+    input: { ...quantityInputProps, name: field.name, ref: field.ref, value: box.text, onBlur: field.onBlur, onChange: box.onChange },
   };
 }
 

@@ -46,7 +46,9 @@ import { CheckSheets } from '../components/CheckSheet';
 import { PlacementMap } from '../components/PlacementMap';
 import { centreOf, moveLoad, rectangle, segment } from '../components/placement';
 import { fromLocalInput, toLocalInput } from '../components/time';
-import { useFigures } from '@client/lib/units';
+import { readQuantity, useFigures, useUnits } from '@client/lib/units';
+import { QuantityBox } from '@client/components/QuantityField';
+import { inSystem, unitLabel } from '@shared/units';
 
 /** The form's values: a request as the shared create schema reads it (the same schema checks it before it is sent). */
 interface Draft {
@@ -661,6 +663,7 @@ function LoadRow({
   onRemove: () => void;
 }) {
   const c = centreOf(load, proj);
+  const figures = useFigures();
   const err = (k: string) => fields[`loads[${index}].${k}`] ?? (k === '' ? fields[`loads[${index}]`] : undefined);
   return (
     <fieldset className="flex flex-col gap-2 rounded-md border border-rule p-3" aria-label={`Load ${load.label || load.id}`}>
@@ -671,8 +674,8 @@ function LoadRow({
       {fields[`loads[${index}]`] ? <p className="text-sm font-semibold text-error-text">{fields[`loads[${index}]`]}</p> : null}
       <div className="grid gap-2 sm:grid-cols-3">
         <TextField label="Name" value={load.label} onChange={(e) => onChange({ ...load, label: e.target.value })} />
-        <MetresField label="East of the site origin (m)" value={c[0]} onCommit={(x) => onChange(moveLoad(load, [x, c[1]], proj))} />
-        <MetresField label="North of the site origin (m)" value={c[1]} onCommit={(y) => onChange(moveLoad(load, [c[0], y], proj))} />
+        <OffsetField label="East of the site origin" value={c[0]} onCommit={(x) => onChange(moveLoad(load, [x, c[1]], proj))} />
+        <OffsetField label="North of the site origin" value={c[1]} onCommit={(y) => onChange(moveLoad(load, [c[0], y], proj))} />
         {load.kind === 'plant' ? (
           <TextField
             label="Facing (degrees from north)"
@@ -692,48 +695,44 @@ function LoadRow({
               value=""
               emptyLabel="Typical unit weights…"
               onChange={(e) => e.target.value && onChange({ ...load, unitWeight: Number(e.target.value) })}
-              options={stockpileMaterials.map((m) => ({ value: m.unitWeight, label: `${m.name}: ${m.unitWeight} kN/m³` }))}
+              options={stockpileMaterials.map((m) => ({ value: m.unitWeight, label: `${m.name}: ${figures.unitWeight(m.unitWeight)}` }))}
             />
-            <TextField
-              label="Unit weight (kN/m³)"
-              type="number"
-              step="0.5"
+            <QuantityBox
+              label="Unit weight"
+              quantity="unitWeight"
               value={load.unitWeight}
-              onChange={(e) => onChange({ ...load, unitWeight: num(e.target.value) })}
+              onChange={(v) => onChange({ ...load, unitWeight: v ?? NaN })}
               error={err('unitWeight')}
             />
-            <TextField
-              label="Height (m)"
-              type="number"
-              step="0.1"
+            <QuantityBox
+              label="Height"
+              quantity="length"
               value={load.height}
-              onChange={(e) => onChange({ ...load, height: num(e.target.value) })}
+              onChange={(v) => onChange({ ...load, height: v ?? NaN })}
               error={err('height')}
               hint={
                 Number.isFinite(load.unitWeight * load.height)
-                  ? `Presses ${(load.unitWeight * load.height).toFixed(1)} kPa`
+                  ? `Presses ${figures.pressure(load.unitWeight * load.height)}`
                   : 'Give the unit weight and the height'
               }
             />
           </>
         ) : null}
         {load.kind === 'area' || load.kind === 'strip' ? (
-          <TextField
-            label="Pressure (kPa)"
-            type="number"
-            step="1"
+          <QuantityBox
+            label="Pressure"
+            quantity="pressure"
             value={load.pressure}
-            onChange={(e) => onChange({ ...load, pressure: num(e.target.value) })}
+            onChange={(v) => onChange({ ...load, pressure: v ?? NaN })}
             error={err('pressure')}
           />
         ) : null}
         {load.kind === 'line' ? (
-          <TextField
-            label="Force (kN/m)"
-            type="number"
-            step="1"
+          <QuantityBox
+            label="Force"
+            quantity="lineForce"
             value={load.force}
-            onChange={(e) => onChange({ ...load, force: num(e.target.value) })}
+            onChange={(v) => onChange({ ...load, force: v ?? NaN })}
             error={err('force')}
           />
         ) : null}
@@ -751,12 +750,11 @@ function DigForm({ dig, fields, onChange }: { dig: DigDetails; fields: Record<st
   return (
     <Panel title="Dig: depth, support and buried services" level={2}>
       <div className="grid gap-3 sm:grid-cols-2">
-        <TextField
-          label="Depth (m)"
-          type="number"
-          step="0.1"
+        <QuantityBox
+          label="Depth"
+          quantity="length"
           value={dig.depth}
-          onChange={(e) => onChange({ ...dig, depth: num(e.target.value) })}
+          onChange={(v) => onChange({ ...dig, depth: v ?? NaN })}
           error={fields['dig.depth']}
         />
         <TextField
@@ -804,19 +802,21 @@ function DigForm({ dig, fields, onChange }: { dig: DigDetails; fields: Record<st
  * A position in metres typed freely (a minus sign, a half-typed number) and applied when the field
  * is left or Enter is pressed; while it is not being typed in it follows the load as it is dragged.
  */
-function MetresField({ label, value, onCommit }: { label: string; value: number; onCommit: (x: number) => void }) {
+/** A load's offset from the site origin, in the person's units, moved when the figure is committed. */
+function OffsetField({ label, value, onCommit }: { label: string; value: number; onCommit: (x: number) => void }) {
   const [text, setText] = useState<string | null>(null);
+  const system = useUnits();
   const commit = () => {
     if (text === null) return;
-    const x = Number(text.trim().replace(',', '.'));
-    if (text.trim() !== '' && Number.isFinite(x)) onCommit(x);
+    const x = readQuantity(text.replace(',', '.'), 'length', system).value;
+    if (x !== null && Number.isFinite(x)) onCommit(x);
     setText(null);
   };
   return (
     <TextField
-      label={label}
+      label={`${label} (${unitLabel('length', system)})`}
       inputMode="decimal"
-      value={text ?? value.toFixed(2)}
+      value={text ?? inSystem('length', value, system).toFixed(2)}
       onChange={(e) => setText(e.target.value)}
       onBlur={commit}
       onKeyDown={(e) => {
