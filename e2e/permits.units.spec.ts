@@ -30,7 +30,17 @@ test('a US user places a load and reads the standoff in feet', async ({ page }) 
     const feet = Number((await standoff.textContent())!.replace(' ft', ''));
     await expect(live.getByText(/OSHA 29 CFR 1926 Subpart P/).first()).toBeVisible();
 
+    // Typed in feet and inches: the machine moves half a foot east (6 in = 0.1524 m).
+    const eastFt = page.getByLabel('East of the site origin (ft)');
+    const eastBefore = Number(await eastFt.inputValue());
+    await eastFt.fill(`${eastBefore} ft 6 in`);
+    await eastFt.press('Enter');
+    await expect(eastFt).toHaveValue((eastBefore + 0.5).toFixed(2));
+
     await myUnits('Metric (m, kN, kPa)');
+    // The same place read in metres (1 ft = 0.3048 m exactly; the box shows 0.01 m).
+    const eastM = Number(await page.getByLabel('East of the site origin (m)').inputValue());
+    expect(Math.abs(eastM - (eastBefore + 0.5) * 0.3048)).toBeLessThan(0.006);
     await expect(standoff).toHaveText(/^\d+\.\d\d m$/);
     const metres = Number((await standoff.textContent())!.replace(' m', ''));
     expect(metres).toBeGreaterThan(0);
