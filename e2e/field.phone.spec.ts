@@ -420,6 +420,76 @@ test('a concern and a briefing made with no signal arrive once when it returns, 
   await coordinator.dispose();
 });
 
+test('a concern the server refuses comes back into the form, its reason in words next to the field, the summary focused', async ({
+  page,
+}) => {
+  await signInOperator(page);
+  await page.goto(`/field/permits/${permit.id}`);
+  await expect(page.getByRole('heading', { name: `Permit ${permit.number}` })).toBeVisible();
+  const note = `Water seeping at the south-west corner, ${randomUUID().slice(0, 8)}`;
+  await page.getByLabel('What you saw').fill(note);
+  // Named and typed as a PNG but not one: the phone cannot tell, the server judges the content and refuses it.
+  await page
+    .locator('input[type=file]')
+    .setInputFiles({ name: 'corner.png', mimeType: 'image/png', buffer: Buffer.from('not a photo at all') });
+  await expect(page.getByText('Photo 1:')).toBeVisible();
+  await page.getByRole('button', { name: 'Send the concern' }).click();
+
+  const summary = page.getByTestId('form-summary');
+  await expect(summary).toHaveText(
+    'Brink did not accept this concern. Correct the field marked below. Send it again when it is right, or discard it in the list below.',
+  );
+  await expect(summary).toBeFocused();
+  await expect(page.getByText('Photo must be a PNG or JPEG image.', { exact: true })).toHaveCount(1);
+  await expect(page.getByLabel('What you saw')).toHaveValue(note);
+  await expect(page.getByTestId('concern-on-phone')).toContainText('It is back in the form above');
+  // Never the API's own text or field names.
+  await expect(page.locator('main')).not.toContainText('The file in photo');
+  await expect(page.locator('main')).not.toContainText('Not accepted by the server');
+
+  // Corrected (the photo taken out) and sent again: it arrives, and the refused copy is gone.
+  await page.getByRole('button', { name: 'Remove photo 1' }).click();
+  await page.getByRole('button', { name: 'Send the concern' }).click();
+  await expect(page.getByTestId('concern-sent').filter({ hasText: note })).toBeVisible({ timeout: 30_000 });
+  await expect(page.getByTestId('concern-on-phone')).toHaveCount(0);
+  await expect(summary).toHaveCount(0);
+
+  // The form's own check: both fields named as labelled, once each, the summary focused.
+  await page.getByRole('button', { name: 'Send the concern' }).click();
+  await expect(summary).toHaveText('Correct the field marked below.');
+  await expect(summary).toBeFocused();
+  await expect(page.getByText('What you saw is required: say what you saw.', { exact: true })).toHaveCount(1);
+});
+
+test('a briefing the server refuses says why in words and what to do', async ({ page, context, playwright, baseURL }) => {
+  const supervisor = await apiAs(playwright.request, baseURL!, 'supervisor@demo.brink.test');
+  const coordinator = await apiAs(playwright.request, baseURL!, 'coordinator@demo.brink.test');
+  const fresh = await approvedPermit(supervisor, coordinator);
+  await signInOperator(page);
+  await page.goto(`/field/permits/${fresh.id}`);
+  await expect(page.getByRole('heading', { name: `Permit ${fresh.number}` })).toBeVisible();
+
+  // Briefed with no signal on revision 1; meanwhile the supervisor changes the permit (revision 2).
+  await context.setOffline(true);
+  await page.getByRole('button', { name: `I have been briefed on ${fresh.number}` }).click();
+  await expect(page.getByTestId('briefing-state')).toContainText('recorded on this phone');
+  const revised = await supervisor.post(`/api/permits/${fresh.id}/transitions`, {
+    data: { action: 'revise', version: fresh.version, reason: 'Stack moved one metre west' },
+  });
+  expect(revised.status(), await revised.text()).toBe(200);
+  await context.setOffline(false);
+
+  const refusal = page.getByTestId('briefing-state').getByRole('alert');
+  await expect(refusal).toHaveText(
+    `Brink did not record it: Permit ${fresh.number} has changed since that briefing (now revision 2): read it again and confirm the new briefing.`,
+    { timeout: 30_000 },
+  );
+  await expect(page.getByText(/has changed since that briefing/)).toHaveCount(1);
+  await expect(page.getByRole('button', { name: 'Discard it, to confirm the briefing again' })).toBeVisible();
+  await supervisor.dispose();
+  await coordinator.dispose();
+});
+
 test('the field pages have no serious or critical accessibility faults, large type and large touch targets', async ({ page, context }) => {
   await signInOperator(page);
   const pages = ['/field', `/field/permits/${permit.id}`];

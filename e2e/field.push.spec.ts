@@ -1,4 +1,4 @@
-import { expect, test, type Worker } from '@playwright/test';
+import { expect, test, type BrowserContext, type Page, type Worker } from '@playwright/test';
 import { demoPassword, ok, signIn, trenchWithLivePermit } from './helpers';
 
 // On a phone: the operator turns on "Notifications on this phone". The browser's push service is
@@ -28,6 +28,38 @@ async function fake<T>(path: string, body: unknown): Promise<T> {
   return ((await r.json()) as { data: T }).data;
 }
 
+/** The page's PushManager hands out this subscription (as if from the browser's push service). */
+async function subscribeAt(page: Page, sub: { endpoint: string; keys: { p256dh: string; auth: string } }) {
+  await page.addInitScript((sub) => {
+    let current: PushSubscription | null = null;
+    const make = () =>
+      ({
+        endpoint: sub.endpoint,
+        expirationTime: null,
+        options: {},
+        getKey: () => null,
+        toJSON: () => ({ endpoint: sub.endpoint, expirationTime: null, keys: sub.keys }),
+        unsubscribe: async () => ((current = null), true),
+      }) as unknown as PushSubscription;
+    PushManager.prototype.subscribe = async function () {
+      current = make();
+      return current;
+    };
+    PushManager.prototype.getSubscription = async function () {
+      return current;
+    };
+  }, sub);
+}
+
+/** Opens /field and reloads once its service worker runs (the switch needs it); answers the worker. */
+async function openPhoneView(page: Page, context: BrowserContext): Promise<Worker> {
+  await page.goto('/field');
+  const worker: Worker = context.serviceWorkers()[0] ?? (await context.waitForEvent('serviceworker'));
+  await page.evaluate(() => navigator.serviceWorker.ready.then(() => true));
+  await page.reload();
+  return worker;
+}
+
 test('the operator is told on the phone when a permit that names them is suspended, and the notification opens it', async ({
   page,
   context,
@@ -48,34 +80,10 @@ test('the operator is told on the phone when a permit that names them is suspend
     userVisibleOnly: 'true',
     applicationServerKey: publicKey,
   });
-  await page.addInitScript(
-    (sub) => {
-      let current: PushSubscription | null = null;
-      const make = () =>
-        ({
-          endpoint: sub.endpoint,
-          expirationTime: null,
-          options: {},
-          getKey: () => null,
-          toJSON: () => ({ endpoint: sub.endpoint, expirationTime: null, keys: sub.keys }),
-          unsubscribe: async () => ((current = null), true),
-        }) as unknown as PushSubscription;
-      PushManager.prototype.subscribe = async function () {
-        current = make();
-        return current;
-      };
-      PushManager.prototype.getSubscription = async function () {
-        return current;
-      };
-    },
-    { endpoint: device.endpoint, keys: device.keys },
-  );
+  await subscribeAt(page, { endpoint: device.endpoint, keys: device.keys });
 
   // The service worker is installed once the phone view has loaded; the switch is usable then.
-  await page.goto('/field');
-  const worker: Worker = context.serviceWorkers()[0] ?? (await context.waitForEvent('serviceworker'));
-  await page.evaluate(() => navigator.serviceWorker.ready.then(() => true));
-  await page.reload();
+  const worker = await openPhoneView(page, context);
   const toggle = page.getByRole('checkbox', { name: 'Notifications on this phone' });
   await expect(toggle).toBeEnabled();
   await toggle.click();
@@ -150,4 +158,22 @@ test('the operator is told on the phone when a permit that names them is suspend
   }, title);
   await expect(page).toHaveURL(new RegExp(`/field/permits/${permit.id}$`));
   await expect(page.getByText('Suspended').first()).toBeVisible();
+});
+
+test('a push address Brink will not send to is refused in words, and the switch stays off', async ({ page, context, baseURL }) => {
+  await context.grantPermissions(['notifications'], { origin: new URL(baseURL!).origin });
+  await signIn(page, 'operator@demo.brink.test');
+  // A browser whose push service is none Brink sends to (nor the local fake one).
+  await subscribeAt(page, { endpoint: 'https://push.example.invalid/device-1', keys: { p256dh: 'BPk3', auth: 'a1b2' } });
+  await openPhoneView(page, context);
+  const toggle = page.getByRole('checkbox', { name: 'Notifications on this phone' });
+  await expect(toggle).toBeEnabled();
+  await toggle.click();
+  const problem =
+    'Notifications were not turned on. This phone’s push service is not a known browser push service. ' +
+    'Use Chrome, Edge, Firefox or Safari, whose push services Brink sends to, or tell the supervisor.';
+  await expect(page.getByRole('alert').filter({ hasText: 'Notifications were not turned on' })).toHaveText(problem);
+  await expect(page.getByText('not a known browser push service')).toHaveCount(1);
+  await expect(toggle).not.toBeChecked();
+  await expect(toggle).toHaveAccessibleDescription(problem);
 });

@@ -55,6 +55,9 @@ const labels: Record<string, string> = {
   designFactor: 'Design factor',
   category: 'Kind of machine',
   elements: 'Bearing elements',
+  // the phone view
+  endpoint: 'This phone’s push service',
+  revision: 'The revision you were briefed on',
 };
 
 /** A placed load's fields, as its row on the placing page labels them. */
@@ -126,8 +129,20 @@ export function serverSummary(
   label: (path: string) => string = fieldLabel,
 ): string {
   if (!(error instanceof ApiError)) return errorMessage(error);
-  if (Object.keys(error.fields).length === 0) return error.message;
-  return fieldsSummary(error.fields, shown, label);
+  return refusalSummary(error, shown, label);
+}
+
+/**
+ * `serverSummary` for a refusal kept as its sentence and field reasons (the phone's outbox keeps
+ * them for an item the server refused while nobody was looking).
+ */
+export function refusalSummary(
+  refusal: { message: string; fields: Record<string, string> },
+  shown: (path: string) => boolean = () => false,
+  label: (path: string) => string = fieldLabel,
+): string {
+  if (Object.keys(refusal.fields).length === 0) return refusal.message;
+  return fieldsSummary(refusal.fields, shown, label);
 }
 
 /**

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import type { FieldPermit } from '@shared/schemas/field';
 import { Button } from '@client/components/Button';
+import { refusalSummary } from '@client/lib/fieldLabels';
 import { newIdempotencyKey } from '@client/lib/random';
 import { addToOutbox, discardItem } from '../offline/outbox';
 import { clock, whenText } from '../lib/format';
@@ -31,7 +32,13 @@ export function Briefing({ permit }: { permit: FieldPermit }) {
     body = (
       <div data-testid="briefing-state">
         <p className="text-xl font-semibold">Briefing recorded on this phone at {clock(mine.createdAt)}.</p>
-        <p>{mine.state === 'refused' ? `It was not accepted: ${mine.problem}` : (mine.problem ?? 'Sending…')}</p>
+        {mine.state === 'refused' ? (
+          <p role="alert" className="font-semibold text-error-text">
+            Brink did not record it: {refusalSummary({ message: mine.problem ?? '', fields: mine.fields ?? {} })}
+          </p>
+        ) : (
+          <p>{mine.problem ?? 'Sending…'}</p>
+        )}
         {mine.state === 'refused' ? (
           <Button variant="secondary" className="mt-2 min-h-12" onClick={() => void discardItem(mine.key)}>
             Discard it, to confirm the briefing again

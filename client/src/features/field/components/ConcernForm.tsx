@@ -1,25 +1,43 @@
-import { useId, useState } from 'react';
+import { useEffect, useId, useRef, useState } from 'react';
 import { CONCERN_NOTE_MAX, CONCERN_PHOTO_BYTES_MAX, CONCERN_PHOTOS_MAX, concernNoteReason } from '@shared/schemas/concern';
-import type { FieldPermit } from '@shared/schemas/field';
 import { Button } from '@client/components/Button';
+import { FormSummary } from '@client/components/Fields';
+import { fieldsSummary } from '@client/lib/fieldLabels';
 import { fieldSentence } from '@client/lib/sentences';
 import { newIdempotencyKey } from '@client/lib/random';
-import { addToOutbox, type OutboxPhoto } from '../offline/outbox';
+import { addToOutbox, discardItem, type ConcernItem, type OutboxPhoto } from '../offline/outbox';
 import { preparePhoto } from '../offline/photos';
+import {
+  concernField,
+  concernLabel,
+  concernLabels as labels,
+  concernRefusal,
+  type ConcernField,
+  type CorrectingProps,
+} from '../lib/concernFields';
 import { useFieldPerson } from './FieldGate';
 import { useFieldOutbox } from './FieldLayout';
 
-type Errors = Partial<Record<'excavationId' | 'note' | 'photo' | 'form', string>>;
+/** Each field's message as a sentence naming it ("What you saw is required: say what you saw."). */
+type Errors = Partial<Record<ConcernField, string>>;
 
-const labels = { excavationId: 'Which excavation', note: 'What you saw', photo: 'Photo' } as const;
-
-function Problem({ id, field, errors }: { id: string; field: keyof typeof labels; errors: Errors }) {
-  const reason = errors[field];
-  return reason ? (
+function Problem({ id, field, errors }: { id: string; field: ConcernField; errors: Errors }) {
+  const sentence = errors[field];
+  return sentence ? (
     <p id={id} className="font-semibold text-error-text">
-      {fieldSentence(labels[field], reason)}
+      {sentence}
     </p>
   ) : null;
+}
+
+/** A concern the server refused, as the form shows it: each reason next to its field, and the summary. */
+export function refusedConcernErrors(item: Pick<ConcernItem, 'fields'>): Errors {
+  const errors: Errors = {};
+  for (const [path, reason] of Object.entries(item.fields ?? {})) {
+    const field = concernField(path);
+    if (field) errors[field] ??= fieldSentence(concernLabel(path), reason);
+  }
+  return errors;
 }
 
 /**
@@ -27,39 +45,75 @@ function Problem({ id, field, errors }: { id: string; field: keyof typeof labels
  * the phone first (never lost), and is sent now or when the signal returns; the coordinators and
  * supervisors are e-mailed and it shows on the permit's timeline.
  */
-export function ConcernForm({ permit }: { permit: FieldPermit }) {
+export function ConcernForm({ permit, correcting, onCorrect }: CorrectingProps) {
   const person = useFieldPerson();
-  const { send } = useFieldOutbox();
+  const { items, send } = useFieldOutbox();
   const ids = { note: useId(), photo: useId(), exc: useId() };
   const only = permit.excavations.length === 1 ? permit.excavations[0].id : null;
   const [excavationId, setExcavationId] = useState<number | null>(only);
   const [note, setNote] = useState('');
   const [photos, setPhotos] = useState<OutboxPhoto[]>([]);
   const [errors, setErrors] = useState<Errors>({});
+  const [summary, setSummary] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
   const [done, setDone] = useState<string | null>(null);
+  /** The concern this form kept last: if the server refuses it, it comes back here at once. */
+  const lastKept = useRef<string | null>(null);
+  const loaded = useRef<string | null>(null);
+
+  const refused = items.filter((i): i is ConcernItem => i.kind === 'concern' && i.permitId === permit.id && i.state === 'refused');
+  const backNow = refused.find((i) => i.key === lastKept.current);
+  useEffect(() => {
+    if (backNow && correcting !== backNow.key) {
+      lastKept.current = null;
+      onCorrect(backNow.key);
+    }
+  }, [backNow, correcting, onCorrect]);
+
+  // A refused concern put back: what was sent, each reason next to its field, the summary focused.
+  const toCorrect = refused.find((i) => i.key === correcting);
+  useEffect(() => {
+    if (correcting === null && loaded.current) {
+      // Discarded in the list: what is typed stays, the refusal goes.
+      loaded.current = null;
+      setErrors({});
+      setSummary(null);
+    }
+    if (!toCorrect || loaded.current === toCorrect.key) return;
+    loaded.current = toCorrect.key;
+    setExcavationId(permit.excavations.some((x) => x.id === toCorrect.excavationId) ? toCorrect.excavationId : only);
+    setNote(toCorrect.note);
+    setPhotos(toCorrect.photos);
+    setDone(null);
+    const next = refusedConcernErrors(toCorrect);
+    setErrors(next);
+    setSummary(
+      `Brink did not accept this concern. ${concernRefusal(toCorrect, true)} Send it again when it is right, or discard it in the list below.`,
+    );
+  }, [toCorrect, correcting, permit.excavations, only]);
 
   async function addPhotos(files: FileList | null) {
     if (!files?.length) return;
     setErrors((e) => ({ ...e, photo: undefined }));
+    const photoProblem = (reason: string) => setErrors((e) => ({ ...e, photo: fieldSentence(labels.photo, reason) }));
     const room = CONCERN_PHOTOS_MAX - photos.length;
     if (files.length > room) {
-      setErrors((e) => ({ ...e, photo: `can be at most ${CONCERN_PHOTOS_MAX} per concern` }));
+      photoProblem(`can be at most ${CONCERN_PHOTOS_MAX} per concern`);
       return;
     }
     const ready: OutboxPhoto[] = [];
     for (const f of Array.from(files)) {
       if (!f.type.startsWith('image/')) {
-        setErrors((e) => ({ ...e, photo: 'must be a photo (PNG or JPEG)' }));
+        photoProblem('must be a photo (PNG or JPEG)');
         return;
       }
       const p = await preparePhoto(f);
       if (!['image/jpeg', 'image/png'].includes(p.type)) {
-        setErrors((e) => ({ ...e, photo: 'must be a PNG or JPEG photo' }));
+        photoProblem('must be a PNG or JPEG photo');
         return;
       }
       if (p.data.byteLength > CONCERN_PHOTO_BYTES_MAX) {
-        setErrors((e) => ({ ...e, photo: 'is larger than 10 MB even after shrinking' }));
+        photoProblem('is larger than 10 MB even after shrinking');
         return;
       }
       ready.push(p);
@@ -72,17 +126,19 @@ export function ConcernForm({ permit }: { permit: FieldPermit }) {
     // The rules of the server's concernFormSchema, without zod (see shared/schemas/concern.ts).
     const text = note.trim();
     const excavation = permit.excavations.find((e) => e.id === Number(excavationId ?? NaN));
-    const next: Errors = {};
+    const next: Record<string, string> = {};
     if (!excavation) next.excavationId = 'is required: choose the excavation';
     const noteReason = concernNoteReason(text);
     if (noteReason) next.note = noteReason;
     if (!excavation || noteReason) {
-      setErrors(next);
+      setErrors(refusedConcernErrors({ fields: next }));
+      setSummary(fieldsSummary(next, () => true));
       return;
     }
     setBusy(true);
+    const key = newIdempotencyKey();
     try {
-      await addToOutbox(newIdempotencyKey(), person.id, permit, {
+      await addToOutbox(key, person.id, permit, {
         kind: 'concern',
         excavationId: excavation.id,
         excavationReference: excavation.reference,
@@ -90,17 +146,25 @@ export function ConcernForm({ permit }: { permit: FieldPermit }) {
         photos,
       });
     } catch {
-      setErrors({
-        form: 'This phone could not keep the concern (its storage is full or blocked). Nothing was sent; your note is still here. Try again, or phone the coordinator.',
-      });
+      setErrors({});
+      setSummary(
+        'This phone could not keep the concern (its storage is full or blocked). Nothing was sent; your note is still here. Try again, or phone the coordinator.',
+      );
       setBusy(false);
       return;
     }
+    // The corrected concern replaces the refused one it was made from.
+    if (correcting) {
+      await discardItem(correcting).catch(() => undefined);
+      onCorrect(null);
+    }
+    lastKept.current = key;
     send();
     setNote('');
     setPhotos([]);
     setExcavationId(only);
     setErrors({});
+    setSummary(null);
     setBusy(false);
     setDone(
       `Your concern about ${excavation.reference} is kept on this phone and is being sent. It stays in the list below until the server has it.`,
@@ -117,6 +181,7 @@ export function ConcernForm({ permit }: { permit: FieldPermit }) {
         A crack at the edge, water coming in, a support that moved, a load too close: say what you saw. The coordinator and the supervisor
         are e-mailed.
       </p>
+      <FormSummary message={summary} />
       <form
         noValidate
         className="flex flex-col gap-4"
@@ -206,11 +271,6 @@ export function ConcernForm({ permit }: { permit: FieldPermit }) {
           ) : null}
         </div>
 
-        {errors.form ? (
-          <p role="alert" className="font-semibold text-error-text">
-            {errors.form}
-          </p>
-        ) : null}
         <Button type="submit" className="min-h-16 w-full text-xl" busy={busy} busyText="Keeping it on the phone…">
           Send the concern
         </Button>

@@ -1,11 +1,11 @@
-import type { FieldPermit } from '@shared/schemas/field';
 import { Button } from '@client/components/Button';
 import { discardItem, type ConcernItem } from '../offline/outbox';
+import { concernRefusal, type CorrectingProps } from '../lib/concernFields';
 import { whenText } from '../lib/format';
 import { useFieldOutbox } from './FieldLayout';
 
 /** Concerns on this permit: those still on the phone (waiting or not accepted) first, then those the server has. */
-export function Concerns({ permit }: { permit: FieldPermit }) {
+export function Concerns({ permit, correcting, onCorrect }: CorrectingProps) {
   const { items, send } = useFieldOutbox();
   const mine = items.filter((i): i is ConcernItem => i.kind === 'concern' && i.permitId === permit.id);
   if (!mine.length && !permit.concerns.length) return null;
@@ -18,16 +18,27 @@ export function Concerns({ permit }: { permit: FieldPermit }) {
         {mine.map((c) => (
           <li key={c.key} className="rounded-md border-2 border-dashed border-ink bg-sheet p-3" data-testid="concern-on-phone">
             <p className="font-bold">
-              {c.state === 'refused' ? 'Not accepted by the server' : 'On this phone, waiting to send'} · {c.excavationReference}
+              {c.state === 'refused' ? 'Not sent: Brink did not accept it' : 'On this phone, waiting to send'} · {c.excavationReference}
             </p>
             <p className="whitespace-pre-wrap">{c.note}</p>
             <p className="text-lg">
               Made {whenText(c.createdAt)}
-              {c.photos.length ? `, ${c.photos.length} photo${c.photos.length > 1 ? 's' : ''}` : ''}. {c.problem ?? ''}
+              {c.photos.length ? `, ${c.photos.length} photo${c.photos.length > 1 ? 's' : ''}` : ''}.{' '}
+              {c.state === 'refused' ? '' : (c.problem ?? '')}
             </p>
-            {c.state === 'refused' ? (
+            {c.state === 'refused' && c.key === correcting ? (
               <div className="mt-2 flex flex-wrap gap-3">
-                <p className="basis-full text-lg">Copy the note if you want to report it again, then discard this one.</p>
+                <p className="basis-full text-lg font-semibold">It is back in the form above, to correct and send again.</p>
+                <Button variant="secondary" className="min-h-12" onClick={() => void discardItem(c.key).then(() => onCorrect(null))}>
+                  Discard this concern
+                </Button>
+              </div>
+            ) : c.state === 'refused' ? (
+              <div className="mt-2 flex flex-wrap gap-3">
+                <p className="basis-full text-lg font-semibold text-error-text">{concernRefusal(c, false)}</p>
+                <Button variant="secondary" className="min-h-12" onClick={() => onCorrect(c.key)}>
+                  Correct it in the form
+                </Button>
                 <Button variant="secondary" className="min-h-12" onClick={() => void discardItem(c.key)}>
                   Discard this concern
                 </Button>

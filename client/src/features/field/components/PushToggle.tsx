@@ -1,5 +1,6 @@
-import { useEffect, useState } from 'react';
-import { errorMessage } from '@client/lib/api';
+import { useEffect, useId, useState } from 'react';
+import { ApiError } from '@client/lib/api';
+import { serverSummary } from '@client/lib/fieldLabels';
 import { pushState, turnPushOff, turnPushOn, type PushState } from '../offline/push';
 
 const why: Partial<Record<PushState, string>> = {
@@ -11,6 +12,23 @@ const why: Partial<Record<PushState, string>> = {
 };
 
 /**
+ * Why turning notifications on or off failed, and what to do: Brink's refusal in the words of the
+ * one label mapping (`serverSummary`), or the browser's push service not answering.
+ */
+export function pushProblem(err: unknown, on: boolean): string {
+  const lead = `Notifications were not turned ${on ? 'on' : 'off'}.`;
+  if (err instanceof ApiError && err.status !== 0) {
+    const what = err.fields.endpoint
+      ? 'Use Chrome, Edge, Firefox or Safari, whose push services Brink sends to, or tell the supervisor.'
+      : 'Try again in a moment.';
+    return `${lead} ${serverSummary(err)} ${what}`;
+  }
+  if (err instanceof ApiError) return `${lead} ${err.message}`;
+  // PushManager.subscribe failed: the browser's own push service refused or could not be reached.
+  return `${lead} This phone’s browser could not reach its push service. Check the signal and try again.`;
+}
+
+/**
  * "Tell me on this phone": a switch per device. On, Brink sends a notification here when a permit
  * that names me goes live, is suspended, is resumed or lapses (and, for a supervisor, when a concern
  * is raised on their permit); it opens the permit.
@@ -19,6 +37,7 @@ export function PushToggle() {
   const [state, setState] = useState<PushState | 'loading'>('loading');
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<string | null>(null);
+  const errorId = useId();
   useEffect(() => {
     let live = true;
     pushState()
@@ -35,7 +54,7 @@ export function PushToggle() {
     try {
       setState(on ? await turnPushOn() : await turnPushOff());
     } catch (err) {
-      setError(`Could not turn notifications ${on ? 'on' : 'off'}: ${errorMessage(err)}`);
+      setError(pushProblem(err, on));
     } finally {
       setBusy(false);
     }
@@ -48,6 +67,7 @@ export function PushToggle() {
           type="checkbox"
           className="h-6 w-6"
           checked={state === 'on'}
+          aria-describedby={error ? errorId : undefined}
           disabled={!usable || busy}
           onChange={(e) => void change(e.target.checked)}
         />
@@ -59,7 +79,7 @@ export function PushToggle() {
           : (why[state] ?? 'Off: turn on to be told at once when a permit that names you changes.')}
       </p>
       {error ? (
-        <p className="text-base font-semibold text-error-text" role="alert">
+        <p id={errorId} className="text-base font-semibold text-error-text" role="alert">
           {error}
         </p>
       ) : null}

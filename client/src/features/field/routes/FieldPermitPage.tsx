@@ -33,6 +33,8 @@ export function FieldPermitPage() {
   const { query, shown, lastTry } = useFieldPermit(person.id, permitId);
   useNow(); // re-render as the copy ages
   const [fix, setFix] = useState<Fix | null>(null);
+  /** A refused concern put back in the form to be corrected (its key in the outbox). */
+  const [correcting, setCorrecting] = useState<string | null>(null);
   const permit = shown?.answer.permit;
   useDocumentTitle(permit ? `Permit ${permit.number}` : 'Permit');
 
@@ -71,8 +73,8 @@ export function FieldPermitPage() {
         <MapKey hasFix={Boolean(fix)} />
       </section>
       <Conditions permit={permit} />
-      <ConcernForm permit={permit} />
-      <Concerns permit={permit} />
+      <ConcernForm permit={permit} correcting={correcting} onCorrect={setCorrecting} />
+      <Concerns permit={permit} correcting={correcting} onCorrect={setCorrecting} />
     </div>
   );
 }
