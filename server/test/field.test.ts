@@ -2,7 +2,8 @@ import { randomUUID } from 'node:crypto';
 import bcrypt from 'bcryptjs';
 import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { localProjection, prepareExcavation, signedDistanceToZoneAt } from '@shared/geometry';
+import type { Polygon } from 'geojson';
+import { localProjection, prepareExcavation, signedDistanceToZoneAt, SITE_TOLERANCE } from '@shared/geometry';
 import { exclusionDistance } from '@shared/permits/exclusion';
 import type { FieldPermit } from '@shared/schemas/field';
 import type { PermitDetail } from '@shared/schemas/permits';
@@ -86,6 +87,13 @@ describe('the permits that name me', () => {
     const [cx, cy] = w.trenchCentre;
     const d = signedDistanceToZoneAt(prepareExcavation(x.shape, proj), proj.toWgs84([cx, cy + 5]), x.standoff!, proj);
     expect(d).toBeCloseTo(1.0, 6);
+    // The drawn zone (the site's tolerance, not 64 chords a quarter circle): every corner on or
+    // beyond the 3.5 m line, none more than SITE_TOLERANCE beyond it, so it never shows less ground.
+    const ring = (x.exclusionZone as Polygon).coordinates[0];
+    const beyond = ring.map((c) => signedDistanceToZoneAt(prepareExcavation(x.shape, proj), c as [number, number], 3.5, proj));
+    expect(Math.min(...beyond)).toBeGreaterThan(-1e-6);
+    expect(Math.max(...beyond)).toBeLessThanOrEqual(SITE_TOLERANCE + 1e-6);
+    expect(ring.length).toBeLessThan(60);
   });
 
   it('shows a permit approved as placed at the figure the permit page shows, saying why (no 3H, no other figure)', async () => {

@@ -107,9 +107,12 @@ export function influenceZone(excavation: PreparedOutline, depth: number, proj: 
   return zonePolygon(excavation, depth, proj, tolerance);
 }
 
-/** Exclusion zone: the ground within a load's standoff of the outline. */
-export function exclusionZone(excavation: PreparedOutline, standoff: number, proj: LocalProjection): Polygon | MultiPolygon {
-  return zonePolygon(excavation, standoff, proj);
+/**
+ * Exclusion zone: the ground within a load's standoff of the outline; with `tolerance`, drawn with
+ * fewer chords that never fall inside it (the phone draws it to SITE_TOLERANCE: see stepsFor).
+ */
+export function exclusionZone(excavation: PreparedOutline, standoff: number, proj: LocalProjection, tolerance = 0): Polygon | MultiPolygon {
+  return zonePolygon(excavation, standoff, proj, tolerance);
 }
 
 // Measuring against a zone needs no drawing library: it lives in planar.ts, so the phone's bundle leaves turf out.

@@ -53,6 +53,13 @@ import {
   type PlacedLoad,
 } from '../schemas/permits';
 
+/** The plan shape of a register excavation: a trench's centre line with its width, or a pit's outline. */
+export function excavationShapeOf(e: Pick<RegisterExcavation, 'kind' | 'width'> & { geometry: unknown }): ExcavationShape {
+  return e.kind === 'trench'
+    ? { kind: 'trench', centreLine: e.geometry as LineString, width: e.width ?? 0 }
+    : { kind: 'pit', outline: e.geometry as Polygon };
+}
+
 /** An excavation of the register as the check needs it: its plan shape and its engine inputs. */
 export function checkExcavationOf(
   e: Pick<RegisterExcavation, 'id' | 'reference' | 'name' | 'kind' | 'geometry' | 'width' | 'soil'> &
@@ -62,10 +69,7 @@ export function checkExcavationOf(
     id: e.id,
     reference: e.reference,
     name: e.name,
-    shape:
-      e.kind === 'trench'
-        ? { kind: 'trench', centreLine: e.geometry as LineString, width: e.width ?? 0 }
-        : { kind: 'pit', outline: e.geometry as Polygon },
+    shape: excavationShapeOf(e),
     excavation: calcExcavationOf(e),
     soil: e.soil as SoilLayer[],
     groundOutline: e.outline ?? null,

@@ -668,6 +668,17 @@ export function storedCheck(json: Stored<PermitCheck> | null): PermitCheck | nul
   return readStoredOrNull('permit check', permitCheckSchema, json);
 }
 
+/**
+ * The standoffs of a stored check and nothing else (the phone's exclusion zones need no more): read
+ * in SQL from `check_result` without its profiles, figures and loads (server/src/services/field.ts).
+ */
+export const checkStandoffsSchema = permitCheckSchema
+  .pick({ computedStandoff: true })
+  .extend({ excavations: z.array(excavationCheckSchema.pick({ excavationId: true, standoff: true })) });
+export type CheckStandoffs = z.output<typeof checkStandoffsSchema>;
+export const storedCheckStandoffs = (json: Stored<CheckStandoffs> | null): CheckStandoffs | null =>
+  readStoredOrNull('permit check', checkStandoffsSchema, json);
+
 /** A revision's placed loads as stored (permit_revisions.loads). */
 export const storedLoads = (json: Stored<PlacedLoad[]>): PlacedLoad[] =>
   readStored('list of placed loads', z.array(placedLoadSchema), json);

@@ -12,7 +12,7 @@ import {
 } from '@shared/schemas/field';
 import { Api, badRequest, notFound, parseOr400, siteOfRow } from '../http';
 import { reportConcern } from '../services/concerns';
-import { loadFieldPermit, permitsNaming } from '../services/field';
+import { loadFieldPermit, loadMyFieldPermits } from '../services/field';
 import { filesOf, limits, receiveFiles } from '../services/uploads';
 
 const idParams = z.object({ id: idSchema });
@@ -50,10 +50,7 @@ export function registerFieldRoutes(api: Api): void {
     },
     async ({ user, deps }) => {
       const now = deps.now();
-      const ids = await permitsNaming(db, user.id, now);
-      const permits = [];
-      for (const id of ids) permits.push((await loadFieldPermit(db, id, user.id))!);
-      return { asOf: now.toISOString(), permits };
+      return { asOf: now.toISOString(), permits: await loadMyFieldPermits(db, user.id, now) };
     },
   );
 

@@ -47,7 +47,8 @@ type ConcernRow = {
   photo_upload_ids: number[];
   reporter_id: number;
   name: string;
-  created_at: Date;
+  /** A Date, or text when read through JSON. */
+  created_at: Date | string;
   idempotency_key: string;
 };
 

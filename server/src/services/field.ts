@@ -1,28 +1,111 @@
+import { sql } from 'kysely';
+import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import type { LineString, Polygon } from 'geojson';
 import type { Db } from '@db/database';
-import { exclusionZone, localProjection, prepareExcavation, type LocalProjection, type PreparedOutline, type XY } from '@shared/geometry';
-import { checkExcavationOf, footprintsOf } from '@shared/permits/check';
+import { CAUTION } from '@shared/caution';
+import {
+  exclusionZone,
+  localProjection,
+  prepareExcavation,
+  SITE_TOLERANCE,
+  type LocalProjection,
+  type PreparedOutline,
+  type XY,
+} from '@shared/geometry';
+import { excavationShapeOf, footprintsOf } from '@shared/permits/check';
 import { exclusionDistance } from '@shared/permits/exclusion';
 import { supportLabels } from '@shared/schemas/excavations';
 import type { FieldExcavation, FieldFootprint, FieldPermit } from '@shared/schemas/field';
-import { editableStatuses, type PermitStatus } from '@shared/schemas/permits';
-import { concernsOf } from './concerns';
-import { loadExcavations } from './excavations';
-import { plantFor } from './permits/check';
-import { CAUTION } from '@shared/caution';
-import { loadRevision, loadSummary, withCurrentRevision } from './permits/read';
+import {
+  editableStatuses,
+  statusLabels,
+  storedCheckStandoffs,
+  storedDecision,
+  storedLoads,
+  storedPlantSnapshot,
+  type CheckStandoffs,
+  type PermitStatus,
+} from '@shared/schemas/permits';
+import type { Stored } from '@shared/schemas/stored';
+import { concernOut, concernQuery } from './concerns';
+import { machinesOf, plantOf } from './permits/check';
+import { withCurrentRevision } from './permits/read';
+
+const iso = (d: Date | string) => new Date(d).toISOString();
 
 /** Permits an operator works under (the briefing is due from Approved on). */
 export const fieldStatuses: readonly PermitStatus[] = ['approved', 'live', 'suspended'];
 /** Closed permits stay in the operator's list this long after their window, so they see that work has stopped. */
 export const CLOSED_SHOWN_FOR_MS = 12 * 3600_000;
 
-/** Ids of the permits whose current revision names `userId` as an operator, on sites where they are still a member. */
-export async function permitsNaming(db: Db, userId: number, now: Date): Promise<number[]> {
-  const rows = await withCurrentRevision(db)
-    .innerJoin('permit_operators as o', (j) => j.onRef('o.revision_id', '=', 'r.id').on('o.user_id', '=', userId))
-    .innerJoin('site_members as m', (j) => j.onRef('m.site_id', '=', 'p.site_id').on('m.user_id', '=', userId))
-    .select(['p.id'])
+/**
+ * Everything the phone shows of permits, in one statement (one round trip, however many permits):
+ * each permit with its current revision, its site, its operators, its named excavations (stored
+ * outline and influence zone), the library's machines its loads name, its concerns, and of the
+ * stored check only the standoffs.
+ */
+function fieldQuery(db: Db) {
+  return withCurrentRevision(db)
+    .innerJoin('sites as s', 's.id', 'p.site_id')
+    .select((eb) => [
+      'p.id',
+      'p.number',
+      'p.site_id',
+      's.name as site_name',
+      's.latitude',
+      's.longitude',
+      's.minimum_clearance',
+      'p.kind',
+      'p.status',
+      'p.version',
+      'p.revision',
+      'r.description',
+      'r.window_start',
+      'r.window_end',
+      'r.loads',
+      'r.decision',
+      'r.plant_snapshot',
+      sql<Stored<CheckStandoffs> | null>`case when r.check_result is null then null else jsonb_build_object(
+        'computedStandoff', r.check_result->'computedStandoff',
+        'excavations', coalesce((select jsonb_agg(jsonb_build_object('excavationId', x->'excavationId', 'standoff', x->'standoff'))
+          from jsonb_array_elements(r.check_result->'excavations') x), '[]'::jsonb)) end`.as('check_standoffs'),
+      jsonArrayFrom(
+        eb
+          .selectFrom('permit_operators as o')
+          .innerJoin('users as u', 'u.id', 'o.user_id')
+          .select(['u.id', 'u.name', 'o.briefed_at'])
+          .whereRef('o.revision_id', '=', 'r.id')
+          .orderBy('u.name'),
+      ).as('operators'),
+      jsonArrayFrom(
+        eb
+          .selectFrom('excavations as e')
+          .select(['e.id', 'e.reference', 'e.name', 'e.kind', 'e.state', 'e.depth', 'e.support_type', 'e.geometry', 'e.width', 'e.outline'])
+          .select('e.influence_zone')
+          .whereRef('e.site_id', '=', 'p.site_id')
+          .where(sql<boolean>`e.id = any(r.excavation_ids)`)
+          .orderBy('e.reference'),
+      ).as('excavations'),
+      jsonArrayFrom(
+        eb
+          .selectFrom('plant_items as m')
+          .select(['m.id', 'm.name', 'm.operating_mass', 'm.design_factor', 'm.elements'])
+          .where(sql<boolean>`m.id in (select (l->>'plantItemId')::int from jsonb_array_elements(r.loads) l where l->>'kind' = 'plant')`),
+      ).as('plant'),
+      jsonArrayFrom(
+        concernQuery(db)
+          .where(sql<boolean>`c.permit_id = p.id`)
+          .orderBy('c.id'),
+      ).as('concerns'),
+    ]);
+}
+type FieldRow = Awaited<ReturnType<ReturnType<typeof fieldQuery>['execute']>>[number];
+
+/** The permits whose current revision names `userId` as an operator, on sites where they are still a member, for them. */
+export async function loadMyFieldPermits(db: Db, userId: number, now: Date): Promise<FieldPermit[]> {
+  const rows = await fieldQuery(db)
+    .innerJoin('permit_operators as mine', (j) => j.onRef('mine.revision_id', '=', 'r.id').on('mine.user_id', '=', userId))
+    .innerJoin('site_members as sm', (j) => j.onRef('sm.site_id', '=', 'p.site_id').on('sm.user_id', '=', userId))
     .where((eb) =>
       eb.or([
         eb('p.status', 'in', fieldStatuses),
@@ -32,7 +115,13 @@ export async function permitsNaming(db: Db, userId: number, now: Date): Promise<
     .orderBy('r.window_start')
     .orderBy('p.id')
     .execute();
-  return rows.map((r) => r.id);
+  return rows.map((r) => fieldPermitOf(r, userId));
+}
+
+/** Everything the phone shows of one permit, for one reader; null when there is no such permit. */
+export async function loadFieldPermit(db: Db, permitId: number, viewerId: number): Promise<FieldPermit | null> {
+  const row = await fieldQuery(db).where('p.id', '=', permitId).executeTakeFirst();
+  return row ? fieldPermitOf(row, viewerId) : null;
 }
 
 function closedRing(ring: XY[], proj: LocalProjection): Polygon {
@@ -40,27 +129,23 @@ function closedRing(ring: XY[], proj: LocalProjection): Polygon {
   return { type: 'Polygon', coordinates: [[...out, out[0]]] };
 }
 
-/** Everything the phone shows of one permit, for one reader; null when there is no such permit. */
-export async function loadFieldPermit(db: Db, permitId: number, viewerId: number): Promise<FieldPermit | null> {
-  const summary = await loadSummary(db, permitId);
-  if (!summary) return null;
-  const rev = (await loadRevision(db, permitId, summary.revision))!;
-  const site = await db
-    .selectFrom('sites')
-    .select(['latitude', 'longitude', 'minimum_clearance'])
-    .where('id', '=', summary.siteId)
-    .executeTakeFirstOrThrow();
-  const proj = localProjection([site.longitude, site.latitude]);
-  // The register's excavations (outline and influence zone as the site map draws them).
-  const rows = await loadExcavations(db, summary.siteId, rev.excavationIds);
+/** One row of fieldQuery as the phone reads it. */
+function fieldPermitOf(row: FieldRow, viewerId: number): FieldPermit {
+  const proj = localProjection([row.longitude, row.latitude]);
+  const loads = storedLoads(row.loads);
+  const decision = storedDecision(row.decision);
+  const rev = { decision, check: storedCheckStandoffs(row.check_standoffs) };
 
   const prepared: PreparedOutline[] = [];
-  const excavations: FieldExcavation[] = rows.flatMap((r) => {
-    if (!r.outline || !r.influenceZone) return [];
-    const { shape } = checkExcavationOf(r);
-    const outline = prepareExcavation(shape, proj);
-    prepared.push(outline);
-    const exclusion = exclusionDistance(rev, r.id, site.minimum_clearance, r.depth);
+  const excavations: FieldExcavation[] = row.excavations.flatMap((r) => {
+    // The register's outline and influence zone, as the site map draws them (stored when written).
+    const outline = r.outline as Polygon | null;
+    const influence = r.influence_zone as FieldExcavation['influenceZone'] | null;
+    if (!outline || !influence) return [];
+    const shape = excavationShapeOf(r);
+    const ring = prepareExcavation(shape, proj);
+    prepared.push(ring);
+    const exclusion = exclusionDistance(rev, r.id, row.minimum_clearance, r.depth);
     return [
       {
         id: r.id,
@@ -69,22 +154,26 @@ export async function loadFieldPermit(db: Db, permitId: number, viewerId: number
         kind: r.kind,
         state: r.state,
         depth: r.depth,
-        supportLabel: supportLabels[r.supportType],
+        supportLabel: supportLabels[r.support_type as keyof typeof supportLabels],
         shape,
-        outline: r.outline,
-        influenceZone: r.influenceZone,
-        exclusionZone: exclusion === null ? null : exclusionZone(outline, exclusion.distance, proj),
+        outline,
+        influenceZone: influence,
+        // Drawn to the site's tolerance, never inside the zone (where I stand is measured from `shape` and `standoff`).
+        exclusionZone: exclusion === null ? null : exclusionZone(ring, exclusion.distance, proj, SITE_TOLERANCE),
         standoff: exclusion?.distance ?? null,
         standoffBasis: exclusion?.basis ?? null,
       },
     ];
   });
 
-  // The machines the permit was approved with (frozen at review), not the library as it is now.
-  const plant = await plantFor(db, rev.loads, editableStatuses.includes(summary.status) ? null : rev.plantSnapshot);
+  // The machines the permit was approved with (frozen at review), not the library as it is now;
+  // the library's own for a draft, or for a machine a snapshot lacks.
+  const library = plantOf(row.plant);
+  const snapshot = editableStatuses.includes(row.status) ? null : storedPlantSnapshot(row.plant_snapshot);
+  const plant = snapshot ? new Map([...library, ...machinesOf(snapshot)]) : library;
   const footprints: FieldFootprint[] = [];
   const centres: XY[] = [];
-  for (const load of rev.loads) {
+  for (const load of loads) {
     for (const f of footprintsOf(load, plant, proj)) {
       const geometry: Polygon | LineString =
         f.kind === 'line' ? { type: 'LineString', coordinates: f.local.map((p) => proj.toWgs84(p)) } : closedRing(f.local, proj);
@@ -98,34 +187,35 @@ export async function loadFieldPermit(db: Db, permitId: number, viewerId: number
     : [0, 0];
   const [lon, lat] = proj.toWgs84(mid);
   const standoffs = excavations.flatMap((e) => (e.standoff === null ? [] : [e.standoff]));
-  const me = rev.operators.find((o) => o.id === viewerId);
+  const operators = row.operators.map((o) => ({ id: o.id, name: o.name, briefedAt: o.briefed_at ? iso(o.briefed_at) : null }));
+  const me = operators.find((o) => o.id === viewerId);
 
   return {
-    id: summary.id,
-    number: summary.number,
-    siteId: summary.siteId,
-    siteName: summary.siteName,
-    kind: summary.kind,
-    status: summary.status,
-    statusLabel: summary.statusLabel,
-    version: summary.version,
-    revision: summary.revision,
-    description: summary.description,
-    windowStart: summary.windowStart,
-    windowEnd: summary.windowEnd,
-    origin: { latitude: site.latitude, longitude: site.longitude },
+    id: row.id,
+    number: row.number,
+    siteId: row.site_id,
+    siteName: row.site_name,
+    kind: row.kind,
+    status: row.status,
+    statusLabel: statusLabels[row.status],
+    version: row.version,
+    revision: row.revision,
+    description: row.description,
+    windowStart: iso(row.window_start),
+    windowEnd: iso(row.window_end),
+    origin: { latitude: row.latitude, longitude: row.longitude },
     centre: { latitude: lat, longitude: lon },
     standoff: standoffs.length ? Math.max(...standoffs) : null,
-    minimumClearance: site.minimum_clearance,
-    conditions: rev.decision?.action === 'approve' ? rev.decision.conditions : [],
-    decidedBy: rev.decision ? { name: rev.decision.by.name, at: rev.decision.at } : null,
-    operators: rev.operators.map((o) => ({ id: o.id, name: o.name, briefedAt: o.briefedAt })),
+    minimumClearance: row.minimum_clearance,
+    conditions: decision?.action === 'approve' ? decision.conditions : [],
+    decidedBy: decision ? { name: decision.by.name, at: decision.at } : null,
+    operators,
     named: Boolean(me),
     myBriefedAt: me?.briefedAt ?? null,
-    briefingDue: Boolean(me && !me.briefedAt && fieldStatuses.includes(summary.status)),
+    briefingDue: Boolean(me && !me.briefedAt && fieldStatuses.includes(row.status)),
     excavations,
     footprints,
-    concerns: await concernsOf(db, permitId),
+    concerns: row.concerns.map(concernOut),
     caution: CAUTION,
   };
 }

@@ -63,6 +63,9 @@ export async function plantFor(
   );
 }
 
+/** Machines of the library as the check takes them, from their rows. */
+export const plantOf = (rows: Parameters<typeof addPlant>[1]) => addPlant(new Map(), rows);
+
 function addPlant(
   into: Map<number, PlantForCheck>,
   rows: { id: number; name: string; operating_mass: number; design_factor: number; elements: PlantForCheck['elements'] }[],
