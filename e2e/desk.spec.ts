@@ -147,6 +147,36 @@ test('a supervisor sees what needs them first, and finds a permit by a word that
   await expect(rows.first()).toContainText(permit.number);
 });
 
+test('on a phone the permits list folds its filters behind one button that counts those on; on a desktop all show', async ({ page }) => {
+  await page.setViewportSize({ width: 390, height: 844 });
+  await signIn(page, 'supervisor@demo.brink.test');
+  const siteId = Number(page.url().match(/\/sites\/(\d+)/)![1]);
+  await page.goto(`/sites/${siteId}/permits?view=all`);
+  const toggle = page.getByTestId('filters-toggle');
+  const status = page.getByLabel('Status', { exact: true });
+  await expect(page.getByLabel('Search')).toBeVisible();
+  await expect(toggle).toHaveText('Filters');
+  await expect(toggle).toHaveAttribute('aria-expanded', 'false');
+  await expect(status).toBeHidden();
+  await expect(page.getByLabel('Sort by')).toBeHidden();
+
+  await toggle.click();
+  await expect(toggle).toHaveAttribute('aria-expanded', 'true');
+  await expect(status).toBeVisible();
+  await status.selectOption({ label: 'Live' });
+  await expect(toggle).toHaveText('Hide the filters (1 on)');
+  await toggle.click();
+  await expect(status).toBeHidden();
+  await expect(page.getByRole('button', { name: 'Filters (1 on)' })).toHaveAttribute('aria-expanded', 'false');
+  await expect(page.locator('tbody tr').first()).toContainText('Live');
+
+  // Wider than a phone: no button, every filter in view.
+  await page.setViewportSize({ width: 1280, height: 800 });
+  await expect(toggle).toBeHidden();
+  await expect(status).toBeVisible();
+  await expect(status).toHaveValue('live');
+});
+
 test('the site map, its zoom controls and the soil-layer table fit a 1440 px window', async ({ page }) => {
   await page.setViewportSize({ width: 1440, height: 900 });
   await signIn(page, 'coordinator@demo.brink.test');

@@ -1,4 +1,4 @@
-import { useEffect, useState } from 'react';
+import { useEffect, useId, useState } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import {
   permitSearchMax,
@@ -10,7 +10,7 @@ import {
   verdictOf,
   type PermitView,
 } from '@shared/schemas/permits';
-import { ButtonLink } from '@client/components/Button';
+import { Button, ButtonLink } from '@client/components/Button';
 import { SelectField, TextField } from '@client/components/Fields';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
@@ -66,6 +66,10 @@ export function PermitListPage() {
   const [to, setTo] = useState('');
   const [sort, setSort] = useState<(typeof permitSorts)[number]>('updated');
   const [order, setOrder] = useState<'asc' | 'desc'>('desc');
+  // On a phone the filters fold behind one button that says how many are on; wider, they all show.
+  const [unfolded, setUnfolded] = useState(false);
+  const filtersId = useId();
+  const activeFilters = [status, excavationId, from, to].filter(Boolean).length;
   const excavations = useExcavations(siteId);
   const list = usePermitList({
     siteId: String(siteId),
@@ -114,37 +118,52 @@ export function PermitListPage() {
             onChange={(e) => setSearch(e.target.value)}
           />
         </div>
-        <SelectField
-          label="Status"
-          value={status}
-          onChange={(e) => setStatus(e.target.value)}
-          emptyLabel="Any"
-          options={permitStatuses.map((s) => ({ value: s, label: statusLabels[s] }))}
-        />
-        <SelectField
-          label="Excavation"
-          value={excavationId}
-          onChange={(e) => setExcavationId(e.target.value)}
-          emptyLabel="Any"
-          options={(excavations.data ?? []).map((e) => ({ value: e.id, label: e.reference }))}
-        />
-        <TextField label="Window from" type="datetime-local" value={from} onChange={(e) => setFrom(e.target.value)} />
-        <TextField label="Window to" type="datetime-local" value={to} onChange={(e) => setTo(e.target.value)} />
-        <SelectField
-          label="Sort by"
-          value={sort}
-          onChange={(e) => setSort(e.target.value as typeof sort)}
-          options={permitSorts.map((s) => ({ value: s, label: sortLabels[s] }))}
-        />
-        <SelectField
-          label="Order"
-          value={order}
-          onChange={(e) => setOrder(e.target.value as typeof order)}
-          options={[
-            { value: 'desc', label: 'Newest / highest first' },
-            { value: 'asc', label: 'Oldest / lowest first' },
-          ]}
-        />
+        <div className="sm:hidden">
+          <Button
+            variant="secondary"
+            className="w-full"
+            aria-expanded={unfolded}
+            aria-controls={filtersId}
+            onClick={() => setUnfolded((u) => !u)}
+            data-testid="filters-toggle"
+          >
+            {unfolded ? 'Hide the filters' : 'Filters'}
+            {activeFilters ? ` (${activeFilters} on)` : ''}
+          </Button>
+        </div>
+        <div id={filtersId} className={unfolded ? 'contents' : 'hidden sm:contents'}>
+          <SelectField
+            label="Status"
+            value={status}
+            onChange={(e) => setStatus(e.target.value)}
+            emptyLabel="Any"
+            options={permitStatuses.map((s) => ({ value: s, label: statusLabels[s] }))}
+          />
+          <SelectField
+            label="Excavation"
+            value={excavationId}
+            onChange={(e) => setExcavationId(e.target.value)}
+            emptyLabel="Any"
+            options={(excavations.data ?? []).map((e) => ({ value: e.id, label: e.reference }))}
+          />
+          <TextField label="Window from" type="datetime-local" value={from} onChange={(e) => setFrom(e.target.value)} />
+          <TextField label="Window to" type="datetime-local" value={to} onChange={(e) => setTo(e.target.value)} />
+          <SelectField
+            label="Sort by"
+            value={sort}
+            onChange={(e) => setSort(e.target.value as typeof sort)}
+            options={permitSorts.map((s) => ({ value: s, label: sortLabels[s] }))}
+          />
+          <SelectField
+            label="Order"
+            value={order}
+            onChange={(e) => setOrder(e.target.value as typeof order)}
+            options={[
+              { value: 'desc', label: 'Newest / highest first' },
+              { value: 'asc', label: 'Oldest / lowest first' },
+            ]}
+          />
+        </div>
       </form>
       {list.isPending ? (
         <Loading what="Loading permits" />
