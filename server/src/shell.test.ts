@@ -29,6 +29,7 @@ describe('the page shell', () => {
     expect(head).toContain('<link rel="stylesheet" crossorigin href="/assets/leaflet-1.css">');
     expect(head).toContain('<link rel="preload" as="fetch" crossorigin="anonymous" href="/api/auth/me">');
     expect(head).toContain('<link rel="preload" as="fetch" crossorigin="anonymous" href="/api/field/permits">');
+    expect(head).toContain('<link rel="preload" as="fetch" crossorigin="anonymous" href="/api/sites">');
     // The entry's own imports are already named by index.html.
     expect(head).not.toContain('react-1.js');
   });
@@ -37,12 +38,14 @@ describe('the page shell', () => {
     const page = shell('/field/permits/42');
     expect(page).toContain('href="/api/field/permits/42"');
     expect(page).not.toContain('href="/api/field/permits">');
+    expect(page).toContain('href="/api/sites"');
   });
 
   it('adds only who is signed in for an address of no known page', () => {
     const page = shell('/no/such/page');
     expect(page).toContain('href="/api/auth/me"');
     expect(page).not.toContain('modulepreload');
+    expect(page).not.toContain('href="/api/sites"');
   });
 });
 

@@ -11,12 +11,17 @@ import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { entryModules, moduleFiles, PAGES, readManifest } from './clientPages';
 
-/** The API reads a page makes as soon as it opens (each page's own code asks them again and takes the preloaded answer). */
+/**
+ * The API reads a page makes as soon as it opens (each page's own code asks them again and takes the
+ * preloaded answer). The phone view also reads my sites (a figure's units follow the site unless I
+ * chose mine: client/src/lib/units.ts), which it would otherwise ask only once who I am has come
+ * back: one more round trip after the page has shown.
+ */
 export function firstReads(address: string): string[] {
   const reads = ['/api/auth/me'];
-  if (/^\/field\/?$/.test(address)) reads.push('/api/field/permits');
+  if (/^\/field\/?$/.test(address)) reads.push('/api/field/permits', '/api/sites');
   const permit = /^\/field\/permits\/(\d+)\/?$/.exec(address);
-  if (permit) reads.push(`/api/field/permits/${permit[1]}`);
+  if (permit) reads.push(`/api/field/permits/${permit[1]}`, '/api/sites');
   return reads;
 }
 
