@@ -1,5 +1,5 @@
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { api, ApiError } from './api';
+import { api, ApiError, sendForm } from './api';
 
 function answer(status: number, body: string | null, contentType = 'application/json') {
   vi.stubGlobal(
@@ -61,5 +61,33 @@ describe('api wrapper', () => {
       credentials: 'same-origin',
       signal: undefined,
     });
+  });
+
+  it('sends a multipart form as it is (the browser writes its boundary) with extra headers, and reads the answer', async () => {
+    const fetchMock = vi.fn(async () => new Response(JSON.stringify({ plan: null }), { status: 200 }));
+    vi.stubGlobal('fetch', fetchMock);
+    const form = new FormData();
+    form.append('opacity', '0.5');
+    await expect(sendForm('/api/sites/1/plan', form, { method: 'PUT', headers: { 'Idempotency-Key': 'k1' } })).resolves.toEqual({
+      plan: null,
+    });
+    expect(fetchMock).toHaveBeenCalledWith('/api/sites/1/plan', {
+      method: 'PUT',
+      headers: { Accept: 'application/json', 'Idempotency-Key': 'k1' },
+      body: form,
+      credentials: 'same-origin',
+      signal: undefined,
+    });
+  });
+
+  it('keeps the whole body of a refused upload on the error (an import refusal carries its report)', async () => {
+    const refusal = {
+      error: { code: 'invalid_body', message: 'One feature was refused.', fields: { 'features[0].depth': 'is required' } },
+      report: { refused: [] },
+    };
+    answer(400, JSON.stringify(refusal));
+    const error = (await sendForm('/api/sites/1/excavations/import', new FormData()).catch((e: unknown) => e)) as ApiError;
+    expect(error).toMatchObject({ status: 400, fields: { 'features[0].depth': 'is required' } });
+    expect(error.body).toEqual(refusal);
   });
 });

@@ -1,3 +1,4 @@
+import type { z } from 'zod';
 import type { ApiErrorBody } from '@shared/schemas/common';
 
 /** An answer from the API that was not a success, or no answer at all (status 0). */
@@ -6,13 +7,16 @@ export class ApiError extends Error {
   readonly code: string;
   /** Field name → reason, for 400 answers that name the fields at fault. */
   readonly fields: Record<string, string>;
+  /** The answer's whole JSON body, or null: some refusals carry more than the error (an import's report). */
+  readonly body: unknown;
 
-  constructor(status: number, code: string, message: string, fields: Record<string, string> = {}) {
+  constructor(status: number, code: string, message: string, fields: Record<string, string> = {}, body: unknown = null) {
     super(message);
     this.name = 'ApiError';
     this.status = status;
     this.code = code;
     this.fields = fields;
+    this.body = body;
   }
 }
 
@@ -53,27 +57,31 @@ export async function errorFromResponse(res: Response): Promise<ApiError> {
         if (typeof reason === 'string') cleanFields[name] = reason;
       }
     }
-    return new ApiError(res.status, code, message || fallbackMessage(res.status), cleanFields);
+    return new ApiError(res.status, code, message || fallbackMessage(res.status), cleanFields, body);
   }
-  return new ApiError(res.status, `http_${res.status}`, fallbackMessage(res.status));
+  return new ApiError(res.status, `http_${res.status}`, fallbackMessage(res.status), {}, body);
 }
 
 export interface RequestOptions {
   method?: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
+  /** Sent as JSON, or as it is when a FormData (multipart: the browser writes its boundary). */
   body?: unknown;
+  /** More headers (the phone's outbox sends an Idempotency-Key). */
+  headers?: Record<string, string>;
   signal?: AbortSignal;
 }
 
 /** Sends one request; answers with the response when it is a success, else throws ApiError. */
-async function send(path: string, { method = 'GET', body, signal }: RequestOptions): Promise<Response> {
-  const headers: Record<string, string> = { Accept: 'application/json' };
-  if (body !== undefined) headers['Content-Type'] = 'application/json';
+async function send(path: string, { method = 'GET', body, headers: extra, signal }: RequestOptions): Promise<Response> {
+  const headers: Record<string, string> = { Accept: 'application/json', ...extra };
+  const multipart = body instanceof FormData;
+  if (body !== undefined && !multipart) headers['Content-Type'] = 'application/json';
   let res: Response;
   try {
     res = await fetch(path, {
       method,
       headers,
-      body: body === undefined ? undefined : JSON.stringify(body),
+      body: body === undefined ? undefined : multipart ? body : JSON.stringify(body),
       credentials: 'same-origin',
       signal,
     });
@@ -103,6 +111,19 @@ export async function apiFetch<T>(path: string, options: RequestOptions = {}): P
 export async function apiGetWithHeaders<T>(path: string, signal?: AbortSignal): Promise<{ body: T; headers: Headers }> {
   const res = await send(path, { signal });
   return { body: await readBody<T>(res), headers: res.headers };
+}
+
+/**
+ * The one multipart upload (files with their fields): the answer is typed by the route's response
+ * schema in shared/schemas, `sendForm<typeof planAnswer>(path, form, { method: 'PUT' })`. Throws
+ * ApiError as the JSON calls do (status 0 with no connection; the refusal's whole body on `body`).
+ */
+export function sendForm<Schema extends z.ZodType>(
+  path: string,
+  form: FormData,
+  { method = 'POST', headers }: { method?: 'POST' | 'PUT'; headers?: Record<string, string> } = {},
+): Promise<z.output<Schema>> {
+  return apiFetch<z.output<Schema>>(path, { method, body: form, headers });
 }
 
 export const api = {

@@ -1,5 +1,7 @@
 import { createStore, del, get, set, values, type UseStore } from 'idb-keyval';
-import { errorFromResponse } from '@client/lib/api';
+import type { concernReportedAnswer } from '@shared/schemas/field';
+import type { BriefingAnswer } from '@shared/schemas/permits';
+import { ApiError, apiFetch, sendForm } from '@client/lib/api';
 
 /**
  * The outbox: briefing confirmations and concerns made on the phone, kept in IndexedDB (database
@@ -133,16 +135,13 @@ const noSignal = 'No signal: it will be sent when the phone has a connection.';
 
 /** One attempt at sending one item, with its idempotency key. */
 async function attempt(item: OutboxItem): Promise<Outcome> {
-  let res: Response;
+  const headers = { 'Idempotency-Key': item.key };
   try {
-    const headers: Record<string, string> = { Accept: 'application/json', 'Idempotency-Key': item.key };
     if (item.kind === 'briefing') {
-      headers['Content-Type'] = 'application/json';
-      res = await fetch(`/api/permits/${item.permitId}/briefing`, {
+      await apiFetch<BriefingAnswer>(`/api/permits/${item.permitId}/briefing`, {
         method: 'POST',
         headers,
-        body: JSON.stringify({ idempotencyKey: item.key, revision: item.revision }),
-        credentials: 'same-origin',
+        body: { idempotencyKey: item.key, revision: item.revision },
       });
     } else {
       const form = new FormData();
@@ -150,17 +149,16 @@ async function attempt(item: OutboxItem): Promise<Outcome> {
       form.set('note', item.note);
       form.set('idempotencyKey', item.key);
       for (const p of item.photos) form.append('photo', new Blob([p.data], { type: p.type }), p.name);
-      res = await fetch(`/api/permits/${item.permitId}/concerns`, { method: 'POST', headers, body: form, credentials: 'same-origin' });
+      await sendForm<typeof concernReportedAnswer>(`/api/permits/${item.permitId}/concerns`, form, { headers });
     }
-  } catch {
-    return { kind: 'stop', problem: noSignal };
+    return { kind: 'sent' };
+  } catch (error) {
+    if (!(error instanceof ApiError) || error.status === 0) return { kind: 'stop', problem: noSignal };
+    if (error.status === 401) return { kind: 'stop', problem: 'Your sign-in has lapsed: sign in again and it will be sent.' };
+    if (error.status >= 500 || error.status === 408 || error.status === 429)
+      return { kind: 'stop', problem: 'The server could not take it just now; Brink will try again.' };
+    return { kind: 'refused', problem: error.message, fields: error.fields };
   }
-  if (res.ok) return { kind: 'sent' };
-  if (res.status === 401) return { kind: 'stop', problem: 'Your sign-in has lapsed: sign in again and it will be sent.' };
-  if (res.status >= 500 || res.status === 408 || res.status === 429)
-    return { kind: 'stop', problem: 'The server could not take it just now; Brink will try again.' };
-  const error = await errorFromResponse(res);
-  return { kind: 'refused', problem: error.message, fields: error.fields };
 }
 
 let running: Promise<OutboxSummary> | null = null;

@@ -7,7 +7,7 @@ import type {
   ShiftsAnswer,
   ShiftsInput,
 } from '@shared/schemas/inspections';
-import { api, ApiError, errorFromResponse } from '@client/lib/api';
+import { api, ApiError, isApiError, sendForm } from '@client/lib/api';
 import { inspectionStatesKey } from '@client/lib/inspectionStates';
 
 export type { ExcavationInspections, ShiftsAnswer };
@@ -34,23 +34,16 @@ export async function sendInspection(excavationId: number, data: InspectionData,
   const body = new FormData();
   body.append('inspection', JSON.stringify(data));
   photos.forEach((p, i) => body.append('photos', p, p instanceof File ? p.name : `photo-${i + 1}.jpg`));
-  let res: Response;
   try {
-    res = await fetch(`/api/excavations/${excavationId}/inspections`, {
-      method: 'POST',
-      body,
-      credentials: 'same-origin',
-      headers: { Accept: 'application/json' },
-    });
-  } catch {
+    return await sendForm<typeof recordedInspectionAnswer>(`/api/excavations/${excavationId}/inspections`, body);
+  } catch (error) {
+    if (!isApiError(error, 0)) throw error;
     throw new ApiError(
       0,
       'network',
       'No connection: the inspection was not sent. Your answers and photos are kept on this phone; send again when you have signal.',
     );
   }
-  if (!res.ok) throw await errorFromResponse(res);
-  return (await res.json()) as RecordedInspection;
 }
 
 export function useRecordInspection(siteId: number, excavationId: number) {

@@ -197,7 +197,7 @@ export function InspectionForm({ userId, excavationId, reference, send, onRecord
     } catch (error) {
       if (isApiError(error, 0)) {
         setWaitingForSignal(true);
-        setSummary((error as ApiError).message);
+        setSummary(error.message);
       } else if (error instanceof ApiError) {
         const photoFields = Object.entries(error.fields).filter(([k]) => k.startsWith('photos'));
         if (photoFields.length) setPhotoError(photoFields.map(([k, v]) => namedSentence(photoLabel(k, photos), v)).join(' '));

@@ -10,8 +10,8 @@ import type {
   planAnswer,
   SitePlan,
 } from '@shared/schemas/excavations';
-import { api } from '@client/lib/api';
-import { excavationKeys, postForm } from '@client/lib/excavations';
+import { api, sendForm } from '@client/lib/api';
+import { excavationKeys } from '@client/lib/excavations';
 
 /** Put one saved excavation into the cached list, then refetch it. */
 function useSettle(siteId: number) {
@@ -56,7 +56,7 @@ export function useDrawing(siteId: number) {
       if (!file) return api.delete<z.output<typeof oneExcavationAnswer>>(path).then((r) => r.excavation);
       const form = new FormData();
       form.append('file', file);
-      return postForm<z.output<typeof oneExcavationAnswer>>(path, form).then((r) => r.excavation);
+      return sendForm<typeof oneExcavationAnswer>(path, form).then((r) => r.excavation);
     },
     onSuccess: (e) => settle(e),
   });
@@ -78,7 +78,7 @@ export function useSitePlanChanges(siteId: number) {
       for (const [k, v] of Object.entries(bounds)) form.append(k, String(v));
       form.append('opacity', String(opacity));
       form.append('file', file);
-      return postForm<z.output<typeof planAnswer>>(`/api/sites/${siteId}/plan`, form, 'PUT').then((r) => r.plan);
+      return sendForm<typeof planAnswer>(`/api/sites/${siteId}/plan`, form, { method: 'PUT' }).then((r) => r.plan);
     },
     onSuccess: done,
   });

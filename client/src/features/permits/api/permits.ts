@@ -2,6 +2,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type {
   AttachmentAdded,
+  attachmentAddedAnswer,
   BriefingAnswer,
   CheckProposal,
   commentAddedAnswer,
@@ -18,7 +19,7 @@ import type {
   TransitionInput,
 } from '@shared/schemas/permits';
 import type { oneSiteAnswer } from '@shared/schemas/sites';
-import { api, ApiError, errorFromResponse } from '@client/lib/api';
+import { api, ApiError, sendForm } from '@client/lib/api';
 
 export const permitKeys = {
   all: ['permits'] as const,
@@ -147,9 +148,7 @@ export function useAttach(id: number) {
       const form = new FormData();
       form.append('kind', kind);
       form.append('file', file);
-      const res = await fetch(`/api/permits/${id}/attachments`, { method: 'POST', body: form, credentials: 'same-origin' });
-      if (!res.ok) throw await errorFromResponse(res);
-      return ((await res.json()) as { attachment: AttachmentAdded }).attachment;
+      return (await sendForm<typeof attachmentAddedAnswer>(`/api/permits/${id}/attachments`, form)).attachment;
     },
     onSuccess: () => qc.invalidateQueries({ queryKey: permitKeys.one(id) }),
   });

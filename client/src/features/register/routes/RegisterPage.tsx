@@ -21,16 +21,15 @@ import {
   type Excavation,
   type ImportMode,
   type ImportReport,
-  type importAnswer,
+  importAnswer,
 } from '@shared/schemas/excavations';
-import type { z } from 'zod';
 import { Button } from '@client/components/Button';
 import { Caution } from '@client/components/Caution';
 import { FormSummary, SelectField } from '@client/components/Fields';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
-import { errorMessage } from '@client/lib/api';
-import { excavationKeys, fmt, postForm, useExcavations } from '@client/lib/excavations';
+import { ApiError, errorMessage, sendForm } from '@client/lib/api';
+import { excavationKeys, fmt, useExcavations } from '@client/lib/excavations';
 import { formatDateTime } from '@client/lib/labels';
 import { fieldLabel } from '@client/lib/fieldLabels';
 import { fieldSentence } from '@client/lib/sentences';
@@ -281,18 +280,15 @@ function ImportPanel({ siteId }: { siteId: number }) {
       const form = new FormData();
       form.append('mode', mode);
       form.append('file', file);
-      const r = await postForm<z.output<typeof importAnswer>>(`/api/sites/${siteId}/excavations/import`, form);
+      const r = await sendForm<typeof importAnswer>(`/api/sites/${siteId}/excavations/import`, form);
       setReport({ ok: true, report: r.report });
       await qc.invalidateQueries({ queryKey: excavationKeys.site(siteId) });
     } catch (e) {
-      const body = (e as { body?: { report?: ImportReport } }).body;
-      if (body?.report) setReport({ ok: false, report: body.report });
-      setError(
-        errorMessage(e) +
-          ((e as { fields?: Record<string, string> }).fields?.file
-            ? ` The file ${(e as { fields: Record<string, string> }).fields.file}.`
-            : ''),
-      );
+      // A refused import answers its report beside the error: which features, and why.
+      const refused = e instanceof ApiError ? importAnswer.safeParse(e.body) : null;
+      if (refused?.success) setReport({ ok: false, report: refused.data.report });
+      const fileReason = e instanceof ApiError ? e.fields.file : undefined;
+      setError(errorMessage(e) + (fileReason ? ` The file ${fileReason}.` : ''));
     } finally {
       setBusy(false);
     }
