@@ -4,6 +4,11 @@ import { siteRoleSchema } from './common';
 
 export const surchargeMethods = ['dispersion-45', 'elastic'] as const;
 export type SurchargeMethod = (typeof surchargeMethods)[number];
+/** How Brink names each way of spreading a surcharge onto the support (site defaults, permits, the calculation sheet). */
+export const surchargeMethodLabels: Record<SurchargeMethod, string> = {
+  'dispersion-45': '45° load spread',
+  elastic: 'Elastic (Boussinesq-based)',
+};
 
 /** Metric or US customary (docs/calculation.md, "Units"). */
 export const unitSystemSchema = z.enum(unitSystems, { error: 'must be metric or US customary' });

@@ -28,9 +28,3 @@ export function useSitePlan(siteId: number) {
     queryFn: ({ signal }) => api.get<z.output<typeof planAnswer>>(`/api/sites/${siteId}/plan`, signal).then((r) => r.plan),
   });
 }
-
-/** Metres to 0.01 m, kPa to 0.1: the precision Brink shows figures with. */
-export const fmt = {
-  m: (v: number | null | undefined) => (v === null || v === undefined ? '—' : `${v.toFixed(2)} m`),
-  kPa: (v: number | null | undefined) => (v === null || v === undefined ? '—' : `${v.toFixed(1)} kPa`),
-};

@@ -1,12 +1,11 @@
 import { useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { siteSchema, surchargeMethods, type Site, type SiteInput } from '@shared/schemas/sites';
+import { siteSchema, surchargeMethodLabels, surchargeMethods, type Site, type SiteInput } from '@shared/schemas/sites';
 import { unitSystemLabels, unitSystems } from '@shared/units';
 import { Button } from '@client/components/Button';
 import { FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { applyServerErrors, maxLengths } from '@client/lib/forms';
-import { surchargeMethodLabels } from '@client/lib/labels';
 
 const max = maxLengths(siteSchema.shape);
 import { OriginMap } from './OriginMap';

@@ -3,7 +3,7 @@ import { Page } from '@client/components/Page';
 import { Button } from '@client/components/Button';
 import { LoadError, Loading } from '@client/components/Status';
 import { isApiError } from '@client/lib/api';
-import { formatDateTime } from '@client/lib/labels';
+import { deviceTimeZone, formatSiteTime } from '@shared/time/shifts';
 import { useCaughtMail, type CaughtMessage } from '../api/mail';
 
 /** Makes the links in a plain-text message clickable; the rest stays text. */
@@ -51,7 +51,7 @@ export function MailPage() {
           <li key={m.id} className="rounded-lg border border-rule bg-sheet p-5 shadow-sm">
             <h2 className="text-lg font-bold">{m.subject || '(no subject)'}</h2>
             <p className="text-ink-soft">
-              To <span className="break-all text-ink">{recipients(m.to)}</span> · {formatDateTime(m.date)}
+              To <span className="break-all text-ink">{recipients(m.to)}</span> · {formatSiteTime(m.date, deviceTimeZone())}
             </p>
             <pre className="mt-3 whitespace-pre-wrap break-words font-sans">
               <TextWithLinks text={m.text} />

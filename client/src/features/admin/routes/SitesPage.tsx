@@ -2,9 +2,9 @@ import { useLocation } from 'react-router-dom';
 import { ButtonLink } from '@client/components/Button';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
-import { surchargeMethodLabels } from '@client/lib/labels';
 import { useFigures } from '@client/lib/units';
 import { unitSystemLabels } from '@shared/units';
+import { surchargeMethodLabels } from '@shared/schemas/sites';
 import { useSites } from '../api/sites';
 
 export function SitesPage() {

@@ -1,9 +1,9 @@
 import { useQuery } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type { historyAnswer } from '@shared/schemas/excavations';
+import { formatSiteTime } from '@shared/time/shifts';
 import { api } from '@client/lib/api';
 import { excavationKeys } from '@client/lib/excavations';
-import { formatDateTime } from '@client/lib/labels';
 import { historyPath } from '../api/excavations';
 
 const actionLabels: Record<string, string> = {
@@ -18,8 +18,8 @@ const actionLabels: Record<string, string> = {
 
 const show = (v: unknown) => (v === null || v === undefined || v === '' ? 'none' : typeof v === 'object' ? 'changed' : String(v));
 
-/** Who changed this excavation and when, newest first. */
-export function ExcavationHistory({ siteId, id, version }: { siteId: number; id: number; version: number }) {
+/** Who changed this excavation and when (on the site's clock), newest first. */
+export function ExcavationHistory({ siteId, id, version, timeZone }: { siteId: number; id: number; version: number; timeZone: string }) {
   const q = useQuery({
     queryKey: [...excavationKeys.history(siteId, id), version],
     queryFn: ({ signal }) => api.get<z.output<typeof historyAnswer>>(historyPath(siteId, id), signal).then((r) => r.entries),
@@ -31,7 +31,7 @@ export function ExcavationHistory({ siteId, id, version }: { siteId: number; id:
       <ol className="mt-2 flex flex-col gap-2 text-sm">
         {q.data.map((h) => (
           <li key={h.id}>
-            <span className="font-semibold">{actionLabels[h.action] ?? h.action}</span> by {h.by}, {formatDateTime(h.at)}
+            <span className="font-semibold">{actionLabels[h.action] ?? h.action}</span> by {h.by}, {formatSiteTime(h.at, timeZone)}
             {h.changes ? (
               <ul className="ml-4 list-disc text-ink-soft">
                 {Object.entries(h.changes).map(([k, c]) => (

@@ -4,7 +4,7 @@ import { GeoJSON, Tooltip, useMap } from 'react-leaflet';
 import { BaseMap } from '@client/components/map/BaseMap';
 import type { GeoJsonObject } from 'geojson';
 import { stateLabels, supportLabels, type Excavation, type SitePlan } from '@shared/schemas/excavations';
-import { fmt } from '@client/lib/excavations';
+import { useFigures } from '@client/lib/units';
 import { stateLabels as inspectionLabels, type InspectionState } from '@shared/schemas/inspections';
 import { draftStyle, influenceStyle, inspectionStyles, selectedStyle, stateStyles } from './mapStyles';
 
@@ -48,6 +48,7 @@ function ExcavationShape({
   onSelect: (id: number) => void;
   inspection?: InspectionState;
 }) {
+  const figures = useFigures();
   if (!e.outline) return null;
   const style = {
     ...stateStyles[e.state],
@@ -68,9 +69,9 @@ function ExcavationShape({
         </span>
         <span className="block">{e.name}</span>
         {inspection ? <span className="block font-semibold">{inspectionLabels[inspection]}</span> : null}
-        <span className="block">Depth {fmt.m(e.depth)}</span>
+        <span className="block">Depth {figures.length(e.depth)}</span>
         <span className="block">{supportLabels[e.supportType]}</span>
-        <span className="block">Surcharge allowance {fmt.kPa(e.designSurcharge)}</span>
+        <span className="block">Surcharge allowance {figures.pressure(e.designSurcharge)}</span>
       </Tooltip>
     </GeoJSON>
   );

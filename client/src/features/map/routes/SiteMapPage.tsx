@@ -15,7 +15,8 @@ import {
 import { Button, ButtonLink } from '@client/components/Button';
 import { useDocumentTitle } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
-import { fmt, useExcavations, useSitePlan } from '@client/lib/excavations';
+import { useExcavations, useSitePlan } from '@client/lib/excavations';
+import { useFigures } from '@client/lib/units';
 import { parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
 import { useInspectionStates } from '@client/lib/inspectionStates';
 import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
@@ -327,7 +328,12 @@ export function SiteMapPage() {
                 onClose={close}
               />
               {editing.excavation ? (
-                <ExcavationHistory siteId={siteId} id={editing.excavation.id} version={editing.excavation.version} />
+                <ExcavationHistory
+                  siteId={siteId}
+                  id={editing.excavation.id}
+                  version={editing.excavation.version}
+                  timeZone={site.timezone}
+                />
               ) : null}
             </>
           ) : (
@@ -421,6 +427,7 @@ function ExcavationList({
   inspection: Record<number, InspectionState>;
   askPermit: number | null;
 }) {
+  const figures = useFigures();
   if (list.length === 0) return <p className="text-ink-soft">No excavations on this site yet.</p>;
   return (
     <SideSection id="map-list" title="Excavations">
@@ -435,7 +442,8 @@ function ExcavationList({
                 </span>
               ) : null}
               <span className="block text-sm text-ink-soft">
-                {stateLabels[e.state]} · depth {fmt.m(e.depth)} · {supportLabels[e.supportType]} · allowance {fmt.kPa(e.designSurcharge)}
+                {stateLabels[e.state]} · depth {figures.length(e.depth)} · {supportLabels[e.supportType]} · allowance{' '}
+                {figures.pressure(e.designSurcharge)}
               </span>
             </button>
             {askPermit !== null && e.state === 'open' ? (

@@ -2,7 +2,7 @@ import { Link } from 'react-router-dom';
 import { permitViewLabels, type PermitSummary, type PermitView } from '@shared/schemas/permits';
 import { Panel } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
-import { formatDateTime } from '@client/lib/labels';
+import { formatSiteTime } from '@shared/time/shifts';
 import { usePermitList } from '../api/permits';
 import { needHints, needStatuses, needTitles, needsFirst } from './needsFirst';
 import { StatusLabel } from './StatusLabel';
@@ -120,7 +120,7 @@ function PermitItem({ permit: p, timeZone }: { permit: PermitSummary; timeZone: 
         {p.number}: {p.description || 'no description yet'}
       </Link>
       <span className="text-sm">
-        <StatusLabel status={p.status} /> · {formatDateTime(p.windowStart, timeZone)} to {formatDateTime(p.windowEnd, timeZone)}
+        <StatusLabel status={p.status} /> · {formatSiteTime(p.windowStart, timeZone)} to {formatSiteTime(p.windowEnd, timeZone)}
       </span>
     </li>
   );

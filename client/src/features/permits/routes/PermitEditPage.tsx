@@ -19,7 +19,7 @@ import {
   type PlacedLoadKind,
 } from '@shared/schemas/permits';
 import { stockpileMaterials } from '@shared/schemas/plant';
-import type { SurchargeMethod } from '@shared/schemas/sites';
+import { surchargeMethodLabels, surchargeMethods, type SurchargeMethod } from '@shared/schemas/sites';
 import { Button, ButtonLink } from '@client/components/Button';
 import { CheckboxField, FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { Page, Panel } from '@client/components/Page';
@@ -613,10 +613,7 @@ export function Editor(subject: EditorSubject) {
           label="Method"
           value={method}
           onChange={(e) => set('method', e.target.value as SurchargeMethod)}
-          options={[
-            { value: 'dispersion-45', label: '45° load spread' },
-            { value: 'elastic', label: 'Elastic (Boussinesq-based)' },
-          ]}
+          options={surchargeMethods.map((m) => ({ value: m, label: surchargeMethodLabels[m] }))}
         />
       </Panel>
       {kind === 'dig' ? <DigForm dig={draft.dig ?? emptyDig} fields={fields} onChange={(dig) => set('dig', dig)} /> : null}

@@ -29,8 +29,8 @@ import { FormSummary, SelectField } from '@client/components/Fields';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
 import { ApiError, errorMessage, sendForm } from '@client/lib/api';
-import { excavationKeys, fmt, useExcavations } from '@client/lib/excavations';
-import { formatDateTime } from '@client/lib/labels';
+import { excavationKeys, useExcavations } from '@client/lib/excavations';
+import { useFigures, type Figures } from '@client/lib/units';
 import { fieldLabel } from '@client/lib/fieldLabels';
 import { fieldSentence } from '@client/lib/sentences';
 import { parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
@@ -38,11 +38,16 @@ import { registerCsv } from '../csv';
 import { useInspectionStates } from '@client/lib/inspectionStates';
 import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
 import type { InspectionState } from '@shared/schemas/inspections';
+import { deviceTimeZone, formatSiteTime } from '@shared/time/shifts';
 
 /** A register row with its inspection state this shift (open excavations only). */
 type ExcavationWithInspection = Excavation & { inspection?: InspectionState };
 
-const columns: ColumnDef<Excavation>[] = [
+/** A figure the excavation may not have (no width for a pit, no groundwater found) reads as a dash. */
+const orDash = (v: number | null | undefined, show: (v: number) => string) => (v === null || v === undefined ? '—' : show(v));
+
+/** The register's columns, figures in the person's units and times on the site's clock. */
+const registerColumns = (figures: Figures, timeZone: string): ColumnDef<ExcavationWithInspection>[] => [
   { accessorKey: 'reference', header: 'Reference' },
   { accessorKey: 'name', header: 'Name' },
   { accessorKey: 'kind', header: 'Kind', cell: (c) => kindLabels[c.row.original.kind] },
@@ -50,20 +55,41 @@ const columns: ColumnDef<Excavation>[] = [
   {
     id: 'inspection',
     header: 'Inspection this shift',
-    accessorFn: (e) => (e as ExcavationWithInspection).inspection ?? '',
+    accessorFn: (e) => e.inspection ?? '',
     cell: (c) => {
-      const state = (c.row.original as ExcavationWithInspection).inspection;
+      const state = c.row.original.inspection;
       return state ? <InspectionStateBadge state={state} /> : '—';
     },
   },
-  { accessorKey: 'depth', header: 'Depth', cell: (c) => fmt.m(c.row.original.depth), meta: { numeric: true } },
-  { accessorKey: 'width', header: 'Width', cell: (c) => fmt.m(c.row.original.width), meta: { numeric: true }, sortUndefined: 'last' },
+  { accessorKey: 'depth', header: 'Depth', cell: (c) => figures.length(c.row.original.depth), meta: { numeric: true } },
+  {
+    accessorKey: 'width',
+    header: 'Width',
+    cell: (c) => orDash(c.row.original.width, figures.length),
+    meta: { numeric: true },
+    sortUndefined: 'last',
+  },
   { accessorKey: 'supportType', header: 'Support', cell: (c) => supportLabels[c.row.original.supportType], filterFn: 'equalsString' },
-  { accessorKey: 'designSurcharge', header: 'Allowance', cell: (c) => fmt.kPa(c.row.original.designSurcharge), meta: { numeric: true } },
-  { accessorKey: 'ratedPressure', header: 'Rated pressure', cell: (c) => fmt.kPa(c.row.original.ratedPressure), meta: { numeric: true } },
-  { accessorKey: 'groundwaterDepth', header: 'Groundwater', cell: (c) => fmt.m(c.row.original.groundwaterDepth), meta: { numeric: true } },
+  {
+    accessorKey: 'designSurcharge',
+    header: 'Allowance',
+    cell: (c) => figures.pressure(c.row.original.designSurcharge),
+    meta: { numeric: true },
+  },
+  {
+    accessorKey: 'ratedPressure',
+    header: 'Rated pressure',
+    cell: (c) => orDash(c.row.original.ratedPressure, figures.pressure),
+    meta: { numeric: true },
+  },
+  {
+    accessorKey: 'groundwaterDepth',
+    header: 'Groundwater',
+    cell: (c) => orDash(c.row.original.groundwaterDepth, figures.length),
+    meta: { numeric: true },
+  },
   { accessorKey: 'designReference', header: 'Design reference' },
-  { accessorKey: 'updatedAt', header: 'Last changed', cell: (c) => formatDateTime(c.row.original.updatedAt) },
+  { accessorKey: 'updatedAt', header: 'Last changed', cell: (c) => formatSiteTime(c.row.original.updatedAt, timeZone) },
 ];
 
 function download(name: string, text: string, type: string) {
@@ -109,6 +135,9 @@ export function RegisterPage() {
     () => [...(state ? [{ id: 'state', value: state }] : []), ...(support ? [{ id: 'supportType', value: support }] : [])],
     [state, support],
   );
+  const figures = useFigures();
+  const timeZone = site?.timezone ?? deviceTimeZone();
+  const columns = useMemo(() => registerColumns(figures, timeZone), [figures, timeZone]);
   const table = useReactTable({
     data: withInspection,
     columns,
