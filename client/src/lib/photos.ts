@@ -1,3 +1,5 @@
+import { CONCERN_PHOTO_BYTES_MAX } from '@shared/schemas/concern';
+
 /**
  * The one photo shrinker of the phone and the browser (concerns, inspections). A camera photo is
  * redrawn as a JPEG whose longest side is at most PHOTO_LONG_SIDE: enough to see a crack, small enough
@@ -6,6 +8,13 @@
  * the browser cannot decode, comes back as it is; the server judges type and size again.
  */
 export const PHOTO_LONG_SIDE = 1600;
+
+/**
+ * What the server takes as a photo (inspections and concerns alike): PNG or JPEG, at most 10 MB
+ * (server/src/services/uploads.ts, `limits.image`). The browser checks a shrunk photo against it.
+ */
+export const PHOTO_TYPES: readonly string[] = ['image/png', 'image/jpeg'];
+export const PHOTO_BYTES_MAX = CONCERN_PHOTO_BYTES_MAX;
 
 export async function shrinkPhoto(file: File): Promise<File> {
   if (typeof createImageBitmap !== 'function' || typeof document === 'undefined') return file;

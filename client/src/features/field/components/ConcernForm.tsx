@@ -1,5 +1,6 @@
 import { useEffect, useId, useRef, useState } from 'react';
-import { CONCERN_NOTE_MAX, CONCERN_PHOTO_BYTES_MAX, CONCERN_PHOTOS_MAX, concernNoteReason } from '@shared/schemas/concern';
+import { CONCERN_NOTE_MAX, CONCERN_PHOTOS_MAX, concernNoteReason } from '@shared/schemas/concern';
+import { PHOTO_BYTES_MAX, PHOTO_TYPES } from '@client/lib/photos';
 import { Button } from '@client/components/Button';
 import { FormSummary } from '@client/components/Fields';
 import { fieldsSummary } from '@client/lib/fieldLabels';
@@ -108,11 +109,11 @@ export function ConcernForm({ permit, correcting, onCorrect }: CorrectingProps) 
         return;
       }
       const p = await preparePhoto(f);
-      if (!['image/jpeg', 'image/png'].includes(p.type)) {
+      if (!PHOTO_TYPES.includes(p.type)) {
         photoProblem('must be a PNG or JPEG photo');
         return;
       }
-      if (p.data.byteLength > CONCERN_PHOTO_BYTES_MAX) {
+      if (p.data.byteLength > PHOTO_BYTES_MAX) {
         photoProblem('is larger than 10 MB even after shrinking');
         return;
       }

@@ -1,8 +1,7 @@
 import { newUuid } from '@client/lib/random';
 import { useEffect, useId, useMemo, useRef } from 'react';
 import type { DraftPhoto } from '../api/draft';
-import { shrinkPhoto } from '@client/lib/photos';
-import { PHOTO_TYPES, photoProblem } from './photos';
+import { PHOTO_BYTES_MAX, PHOTO_TYPES, shrinkPhoto } from '@client/lib/photos';
 
 /** Photos taken with the phone's camera or picked from its gallery, kept with the draft. */
 export function PhotoPicker({
@@ -33,8 +32,8 @@ export function PhotoPicker({
         continue;
       }
       const blob = await shrinkPhoto(f); // a large photo may come back small enough
-      const after = photoProblem({ type: blob.type || f.type, size: blob.size, name: f.name });
-      if (after) problems.push(after);
+      if (!PHOTO_TYPES.includes(blob.type || f.type)) problems.push(`${f.name} is not a PNG or JPEG photo.`);
+      else if (blob.size > PHOTO_BYTES_MAX) problems.push(`${f.name} is larger than 10 MB.`);
       else added.push({ id: newUuid(), name: f.name, blob });
     }
     const room = max - photos.length;
