@@ -1,17 +1,11 @@
 import { randomUUID } from 'node:crypto';
-import { expect, test, type APIRequest, type APIRequestContext } from '@playwright/test';
+import { expect, test } from '@playwright/test';
 import { checklist } from '../shared/schemas/inspections';
-import { demoPassword, ok, signIn, trenchWithLivePermit } from './helpers';
+import { apiAs, ok, signIn, trenchWithLivePermit } from './helpers';
 
 // What people look for on a desktop: a concern's photo on the permit page, the timeline in plain
 // words, a safe inspection that leaves suspended permits to the coordinator, what needs a supervisor
 // first, the search of the permits list, and the site map that fits a 1440 px window.
-
-async function apiAs(requests: APIRequest, baseURL: string, email: string): Promise<APIRequestContext> {
-  const ctx = await requests.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL).origin } }); // the API takes changes only from Brink's origin
-  await ok(await ctx.post('/api/auth/sign-in', { data: { email, password: demoPassword } }), `sign-in as ${email}`);
-  return ctx;
-}
 
 /** A 1 × 1 PNG: a real picture the browser draws. */
 const PNG = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mP8z8BQDwAEhQGAhKmMIQAAAABJRU5ErkJggg==', 'base64');
@@ -179,8 +173,7 @@ test('on a phone the permits list folds its filters behind one button that count
 
 test('the site map, its zoom controls and the soil-layer table fit a 1440 px window', async ({ page }) => {
   await page.setViewportSize({ width: 1440, height: 900 });
-  await signIn(page, 'coordinator@demo.brink.test');
-  const siteId = page.url().match(/\/sites\/(\d+)/)![1];
+  const siteId = await signIn(page, 'coordinator@demo.brink.test');
   await page.goto(`/sites/${siteId}/map`);
   await page.getByRole('button', { name: /^TR-01 / }).click();
   const soil = page.getByRole('group', { name: 'Soil layers' });

@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { demoPassword, ok, signIn, trenchWithLivePermit } from './helpers';
+import { apiAs, signIn, trenchWithLivePermit } from './helpers';
 
 // On a phone: the supervisor records a failed shift-start inspection of a trench, and the live
 // permit beside it shows Suspended. The trench and its live permit are made for this test through
@@ -10,19 +10,10 @@ test('the supervisor records a failed inspection on a phone and the permit on th
   playwright,
   baseURL,
 }) => {
-  await signIn(page, 'supervisor@demo.brink.test');
-  const siteId = Number(page.url().match(/\/sites\/(\d+)/)![1]);
-  const coordinator = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL!).origin } }); // the API takes changes only from Brink's origin
-  await ok(
-    await coordinator.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }),
-    'coordinator sign-in',
-  );
+  const siteId = await signIn(page, 'supervisor@demo.brink.test');
+  const coordinator = await apiAs(playwright.request, baseURL!, 'coordinator@demo.brink.test');
   // The supervisor's session from the page, saying Brink's origin as the page itself would.
-  const supervisor = await playwright.request.newContext({
-    baseURL,
-    extraHTTPHeaders: { Origin: new URL(baseURL!).origin },
-    storageState: await page.context().storageState(),
-  });
+  const supervisor = await apiAs(playwright.request, baseURL!, null, await page.context().storageState());
   const { reference, permit } = await trenchWithLivePermit(supervisor, coordinator, siteId);
   await coordinator.dispose();
   await supervisor.dispose();

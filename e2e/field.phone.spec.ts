@@ -1,11 +1,12 @@
 import { randomUUID } from 'node:crypto';
 import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type APIRequest, type APIRequestContext, type BrowserContext, type Page, type Route } from '@playwright/test';
+import { expect, test, type APIRequestContext, type BrowserContext, type Page, type Route } from '@playwright/test';
 import { DEMO_PASSWORD } from '../shared/demo';
 import { createDb, createPool, type Db } from '@db/database';
 import { localProjection, prepareExcavation, signedDistanceToZoneAt, type LocalProjection } from '@shared/geometry';
 import type { FieldPermit } from '@shared/schemas/field';
 import type { Polygon } from 'geojson';
+import { apiAs } from './helpers';
 import { shapeColumns, shapesOf } from '../shared/geometry/shapes';
 
 /**
@@ -26,13 +27,6 @@ let db: Db;
 let permit: { id: number; number: string };
 let proj: LocalProjection;
 let field: FieldPermit;
-
-async function apiAs(requests: APIRequest, baseURL: string, email: string): Promise<APIRequestContext> {
-  const ctx = await requests.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL).origin } }); // the API takes changes only from Brink's origin
-  const r = await ctx.post('/api/auth/sign-in', { data: { email, password } });
-  expect(r.status(), `sign-in as ${email}`).toBe(200);
-  return ctx;
-}
 
 let made: { siteId: number; pitId: number; operatorId: number };
 

@@ -1,5 +1,5 @@
 import { expect, test, type BrowserContext, type Page, type Worker } from '@playwright/test';
-import { demoPassword, ok, signIn, trenchWithLivePermit } from './helpers';
+import { apiAs, ok, signIn, trenchWithLivePermit } from './helpers';
 
 // On a phone: the operator turns on "Notifications on this phone". The browser's push service is
 // the local fake one (PUSH_FAKE_SERVICE_URL, started by docker-less-scripts/test.sh): the page's own
@@ -69,8 +69,7 @@ test('the operator is told on the phone when a permit that names them is suspend
   expect(fakeUrl, 'PUSH_FAKE_SERVICE_URL (set by docker-less-scripts/test.sh)').toBeTruthy();
   const origin = new URL(baseURL!).origin;
   await context.grantPermissions(['notifications'], { origin });
-  await signIn(page, 'operator@demo.brink.test');
-  const siteId = Number(page.url().match(/\/sites\/(\d+)/)![1]);
+  const siteId = await signIn(page, 'operator@demo.brink.test');
   const me = await ok<{ user: { id: number } }>(await page.request.get('/api/auth/me'), 'me');
 
   // The device's subscription at the fake push service, made with Brink's public key; the page's
@@ -91,20 +90,10 @@ test('the operator is told on the phone when a permit that names them is suspend
   await expect(page.getByText(/^On: this phone is told when a permit that names you/)).toBeVisible();
 
   // A permit naming the operator goes live (briefed) and is then suspended by the coordinator.
-  const api = (storage?: Awaited<ReturnType<typeof context.storageState>>) =>
-    playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: origin }, storageState: storage });
-  const coordinator = await api();
-  await ok(
-    await coordinator.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }),
-    'coordinator sign-in',
-  );
-  const supervisor = await api();
-  await ok(
-    await supervisor.post('/api/auth/sign-in', { data: { email: 'supervisor@demo.brink.test', password: demoPassword } }),
-    'supervisor sign-in',
-  );
+  const coordinator = await apiAs(playwright.request, baseURL!, 'coordinator@demo.brink.test');
+  const supervisor = await apiAs(playwright.request, baseURL!, 'supervisor@demo.brink.test');
   const { permit } = await trenchWithLivePermit(supervisor, coordinator, siteId, [me.user.id], 90);
-  const operator = await api(await context.storageState());
+  const operator = await apiAs(playwright.request, baseURL!, null, await context.storageState());
   const briefed = await ok<{ briefing: { status: string } }>(await operator.post(`/api/permits/${permit.id}/briefing`), 'briefing');
   expect(briefed.briefing.status).toBe('live');
   const detail = await ok<{ permit: { version: number } }>(await coordinator.get(`/api/permits/${permit.id}`), 'permit');

@@ -1,17 +1,33 @@
 import { randomUUID } from 'node:crypto';
-import { expect, type APIRequestContext, type Page } from '@playwright/test';
+import { expect, type APIRequest, type APIRequestContext, type Page } from '@playwright/test';
 import { DEMO_PASSWORD } from '../shared/demo';
 
 /** Every demo person's password (README). */
 export const demoPassword = DEMO_PASSWORD;
 
-/** Signs in through the page and waits for the site dashboard. */
-export async function signIn(page: Page, email: string) {
+/** Signs in through the page, waits for the site dashboard and answers its site's id. */
+export async function signIn(page: Page, email: string): Promise<number> {
   await page.goto('/sign-in');
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password', { exact: true }).fill(demoPassword);
   await page.getByRole('button', { name: 'Sign in', exact: true }).click();
   await expect(page).toHaveURL(/\/sites\/\d+/);
+  return Number(/\/sites\/(\d+)/.exec(page.url())![1]);
+}
+
+/**
+ * An API client signed in as a demo person, saying Brink's origin (the API takes changes only from
+ * it). With `storageState` (a page's session) it acts as that page's person instead of signing in.
+ */
+export async function apiAs(
+  requests: APIRequest,
+  baseURL: string,
+  email: string | null,
+  storageState?: Awaited<ReturnType<APIRequestContext['storageState']>>,
+): Promise<APIRequestContext> {
+  const ctx = await requests.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL).origin }, storageState });
+  if (email) await ok(await ctx.post('/api/auth/sign-in', { data: { email, password: demoPassword } }), `sign-in as ${email}`);
+  return ctx;
 }
 
 export async function ok<T>(res: Awaited<ReturnType<APIRequestContext['get']>>, what: string): Promise<T> {

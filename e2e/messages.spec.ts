@@ -1,5 +1,5 @@
 import { expect, test } from '@playwright/test';
-import { demoPassword, ok, offset, signIn } from './helpers';
+import { apiAs, ok, offset, signIn } from './helpers';
 
 // Every refusal a person meets names the field as the form labels it, says what to do, appears
 // once next to the field, and the summary above the form takes the focus. Each case below was
@@ -8,8 +8,7 @@ import { demoPassword, ok, offset, signIn } from './helpers';
 // 'mode "replace"').
 
 test('a refused request: each reason once, by its label, next to its field', async ({ page }) => {
-  await signIn(page, 'supervisor@demo.brink.test');
-  const siteId = page.url().match(/\/sites\/(\d+)/)![1];
+  const siteId = await signIn(page, 'supervisor@demo.brink.test');
   await page.goto(`/sites/${siteId}/permits/new`);
   await page.getByLabel('What the work is').fill('Spoil heap beside the rising main trench');
   await page.getByLabel(/^TR-01 /).check();
@@ -43,11 +42,7 @@ test('a refused request: each reason once, by its label, next to its field', asy
 
 test('a wrong password under a decision is said once, in words', async ({ page, playwright, baseURL }) => {
   // A request sent for review through the API, beside a trench of the test's own.
-  const supervisor = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL!).origin } });
-  await ok(
-    await supervisor.post('/api/auth/sign-in', { data: { email: 'supervisor@demo.brink.test', password: demoPassword } }),
-    'supervisor sign-in',
-  );
+  const supervisor = await apiAs(playwright.request, baseURL!, 'supervisor@demo.brink.test');
   const { sites } = await ok<{ sites: { id: number }[] }>(await supervisor.get('/api/sites'), 'sites');
   const siteId = sites[0].id;
   const { site } = await ok<{ site: { latitude: number; longitude: number } }>(await supervisor.get(`/api/sites/${siteId}`), 'site');
@@ -98,8 +93,7 @@ test('a wrong password under a decision is said once, in words', async ({ page, 
 });
 
 test('the import report names fields and choices by their labels, not codes', async ({ page }) => {
-  await signIn(page, 'coordinator@demo.brink.test');
-  const siteId = page.url().match(/\/sites\/(\d+)/)![1];
+  const siteId = await signIn(page, 'coordinator@demo.brink.test');
   await page.goto(`/sites/${siteId}/register`);
   const { site } = (await (await page.request.get(`/api/sites/${siteId}`)).json()) as { site: { latitude: number; longitude: number } };
   const trench = (reference: string, supportType: string) => ({

@@ -4,8 +4,7 @@ import { signIn } from './helpers';
 // The live check refuses figures the shared schemas refuse (docs/calculation.md, "Refusals"): a
 // stockpile of unit weight −19 or with no height shows "Cannot check …" in grey, never a verdict or NaN.
 test('the live check says "Cannot check" for a stockpile of negative unit weight or no height', async ({ page }) => {
-  await signIn(page, 'supervisor@demo.brink.test');
-  const siteId = page.url().match(/\/sites\/(\d+)/)![1];
+  const siteId = await signIn(page, 'supervisor@demo.brink.test');
   await page.goto(`/sites/${siteId}/permits/new`);
   await page.getByLabel('What the work is').fill('Spoil heap beside the rising main trench');
   await page.getByLabel(/^TR-01 /).check();

@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
-import { expect, test, type APIRequestContext, type Locator, type Page } from '@playwright/test';
-import { demoPassword, ok, offset, signIn } from './helpers';
+import { expect, test, type APIRequest, type Locator, type Page } from '@playwright/test';
+import { apiAs, demoPassword, ok, offset, signIn } from './helpers';
 
 // A supervisor from the dashboard to a submitted load permit in six moves or fewer, and a
 // coordinator from the dashboard to a decision in four or fewer, nothing typed twice. Every click,
@@ -58,12 +58,8 @@ async function centreY(l: Locator): Promise<number> {
  * An open trench of the test's own, 30 m long east-west, at a place of its own far from the demo
  * excavations (a fresh place each run, so trenches left by earlier runs stand elsewhere).
  */
-async function ownTrench(playwright: { request: { newContext: (o: object) => Promise<APIRequestContext> } }, baseURL: string) {
-  const api = await playwright.request.newContext({ baseURL, extraHTTPHeaders: { Origin: new URL(baseURL).origin } });
-  await ok(
-    await api.post('/api/auth/sign-in', { data: { email: 'coordinator@demo.brink.test', password: demoPassword } }),
-    'coordinator sign-in',
-  );
+async function ownTrench(playwright: { request: APIRequest }, baseURL: string) {
+  const api = await apiAs(playwright.request, baseURL, 'coordinator@demo.brink.test');
   const { sites } = await ok<{ sites: { id: number }[] }>(await api.get('/api/sites'), 'sites');
   const siteId = sites[0].id;
   const { site } = await ok<{ site: { latitude: number; longitude: number } }>(await api.get(`/api/sites/${siteId}`), 'site');

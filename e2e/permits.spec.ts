@@ -23,8 +23,7 @@ async function permitLinkFromMail(request: APIRequestContext, to: string, subjec
 
 test('a load permit from placing to approval and the printed permit', async ({ page, browser, request }) => {
   // The supervisor asks for a permit beside the demo pipe trench TR-01.
-  await signIn(page, 'supervisor@demo.brink.test');
-  const siteId = page.url().match(/\/sites\/(\d+)/)![1];
+  const siteId = await signIn(page, 'supervisor@demo.brink.test');
   await page.goto(`/sites/${siteId}/permits/new`);
   await page.getByLabel('What the work is').fill('Excavator 21 t loading out beside the rising main trench');
   await page.getByLabel(/^TR-01 /).check();

@@ -4,8 +4,7 @@ import { signIn } from './helpers';
 // A supervisor who works in US customary units places a machine and reads its standoff in feet; the
 // same check read in metric agrees (1 ft = 0.3048 m exactly, NIST SP 811), the feet rounded up.
 test('a US user places a load and reads the standoff in feet', async ({ page }) => {
-  await signIn(page, 'supervisor@demo.brink.test');
-  const siteId = page.url().match(/\/sites\/(\d+)/)![1];
+  const siteId = await signIn(page, 'supervisor@demo.brink.test');
   const myUnits = async (label: string) => {
     await page.getByRole('button', { name: /Signed in as/ }).click();
     // The person's menu (the narrow-screen copy of it is hidden).
