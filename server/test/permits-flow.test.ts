@@ -5,6 +5,8 @@ import { inspectionActor } from '../src/services/permits/actors';
 import { transition } from '../src/services/permits/machine';
 import { permitPdf } from '../src/services/permits/pdf';
 import { localProjection } from '@shared/geometry';
+import { exclusionReason } from '@shared/permits/exclusion';
+import type { ExclusionBasis } from '@shared/schemas/field';
 import type { PlacedLoad } from '@shared/schemas/permits';
 import { demo, DEMO_PASSWORD, startTestApp, waitForMail, type TestApp } from './helpers';
 import {
@@ -325,6 +327,26 @@ describe('the printed permit', () => {
     expect(text).toContain('the minimum equivalent fluid pressure governs');
     expect(text).toContain('moving it farther away is not always safer');
     expect(text).toMatch(/Hoarding footing fails at [^;]*1\.23 m from the edge \(passing in between\); its standoff is 1\.24 m/);
+  });
+
+  it('draws and states each excavation’s exclusion zone by the figure the phone and the permit page show (approved as placed)', async () => {
+    const p = await createPermit(w, { loads: [excavatorAt(w, 1.5)] });
+    await submitAndApprove(w, p.id); // no standoff set: approved as placed
+    const phone = await w.agents.supervisor.get(`/api/field/permits/${p.id}`);
+    expect(phone.status).toBe(200);
+    const onPhone = phone.body.permit.excavations.find((x: { id: number }) => x.id === w.trenchId) as {
+      standoff: number;
+      standoffBasis: string;
+    };
+    expect(onPhone.standoff).toBeGreaterThan(0);
+    const text = await pdfText((await permitPdf(t.deps, p.id, { compress: false })).buffer);
+    const figure = `${onPhone.standoff.toFixed(2)} m`;
+    expect(text).toContain('Loads as placed on the plan (no standoff set).');
+    // The one sentence of shared/permits/exclusion.ts, as the permit page writes it.
+    expect(text.replace(/\s+/g, ' ')).toContain(
+      `Keep every part of the load at least ${figure} from the edge of ${w.trenchRef}. Why ${figure}: ${exclusionReason(onPhone.standoffBasis as ExclusionBasis)}.`,
+    );
+    expect(text.replace(/\s+/g, ' ')).toContain(`Red band: exclusion zone, from the edge: ${w.trenchRef} ${figure}.`);
   });
 
   it('reads the same uncompressed', async () => {

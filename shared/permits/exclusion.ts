@@ -48,3 +48,11 @@ export function exclusionReason(basis: ExclusionBasis): string {
       return 'this is the site’s least clearance from any edge, larger than the standoff';
   }
 }
+
+/**
+ * The exclusion distance of one excavation as a sentence, the same on the permit page and the printed
+ * permit (the phone says the first half in large type): `distance` already written in the reader's unit.
+ */
+export function exclusionSentence(reference: string, distance: string, basis: ExclusionBasis): string {
+  return `Keep every part of the load at least ${distance} from the edge of ${reference}. Why ${distance}: ${exclusionReason(basis)}.`;
+}

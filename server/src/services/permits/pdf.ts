@@ -2,6 +2,7 @@ import PDFDocument from 'pdfkit';
 import QRCode from 'qrcode';
 import { exclusionZone, localProjection, prepareExcavation, type XY } from '@shared/geometry';
 import { footprintsOf } from '@shared/permits/check';
+import { exclusionDistance, exclusionSentence } from '@shared/permits/exclusion';
 import { niceStep, planScale, POINTS_PER_METRE_OF_PAPER, scaleBarLength, ticks } from '@shared/permits/drawing';
 import {
   serviceCheckKeys,
@@ -66,13 +67,18 @@ export async function permitPdf(
   if (!permit) throw notFound('That permit');
   const site = await deps.db
     .selectFrom('sites')
-    .select(['name', 'latitude', 'longitude', 'timezone'])
+    .select(['name', 'latitude', 'longitude', 'timezone', 'minimum_clearance'])
     .where('id', '=', permit.siteId)
     .executeTakeFirstOrThrow();
   const rev = permit.current;
   // Times on the site's clock; the window names the zone once.
   const when = (s: string | null) => (s ? formatSiteTime(s, site.timezone) : '-');
   const excavations = await excavationsFor(deps.db, permit.siteId, rev.excavationIds);
+  // Each excavation's exclusion distance by the one rule the permit page and the phone use.
+  const exclusions = excavations.flatMap((e) => {
+    const x = exclusionDistance(rev, e.id, site.minimum_clearance, e.excavation.depth);
+    return x ? [{ excavation: e, ...x }] : [];
+  });
   const plant = await plantFor(deps.db, rev.loads, editableStatuses.includes(permit.status) ? null : rev.plantSnapshot);
   const qrUrl = `${deps.config.publicUrl}/field/permits/${permit.id}`;
   const qr = await QRCode.toBuffer(qrUrl, { type: 'png', margin: 1, width: 240, errorCorrectionLevel: 'M' });
@@ -157,6 +163,11 @@ export async function permitPdf(
             ? 'none: no offset within 3H lets the support carry the loads'
             : m2(d.computedStandoff),
       );
+      if (exclusions.length) {
+        doc.font('Helvetica-Bold').text(t('On the ground (the operator’s phone shows the same)'));
+        doc.font('Helvetica');
+        for (const x of exclusions) doc.text(t(exclusionSentence(x.excavation.reference, m2(x.distance), x.basis)), { indent: 10 });
+      }
       if (d.conditions.length) {
         doc.font('Helvetica-Bold').text('Conditions');
         doc.font('Helvetica');
@@ -170,7 +181,7 @@ export async function permitPdf(
 
   // Plan
   heading(doc, 'Plan to scale');
-  drawPlan(doc, permit, site, excavations, plant, d?.standoff ?? rev.check?.computedStandoff ?? null);
+  drawPlan(doc, permit, site, excavations, plant, new Map(exclusions.map((x) => [x.excavation.id, x.distance])));
 
   // Check per excavation
   const check = rev.check;
@@ -425,13 +436,14 @@ function drawPlan(
   site: { latitude: number; longitude: number },
   excavations: CheckExcavation[],
   plant: Awaited<ReturnType<typeof plantFor>>,
-  standoff: number | null,
+  /** Each excavation's exclusion distance (m), by id; none before approval. */
+  exclusions: ReadonlyMap<number, number>,
 ): void {
   const proj = localProjection([site.longitude, site.latitude]);
   const rings = excavations.flatMap((e) => {
     try {
       const prepared = prepareExcavation(e.shape, proj);
-      return [{ ref: e.reference, ring: prepared.ring, prepared }];
+      return [{ ref: e.reference, ring: prepared.ring, prepared, standoff: exclusions.get(e.id) ?? 0 }];
     } catch {
       return [];
     }
@@ -443,14 +455,13 @@ function drawPlan(
       return [];
     }
   });
-  const zones: XY[][][] =
-    standoff && standoff > 0
-      ? rings.flatMap((r) => {
-          const z = exclusionZone(r.prepared, standoff, proj);
-          const polys = z.type === 'Polygon' ? [z.coordinates] : z.coordinates;
-          return polys.map((poly) => poly.map((ring) => ring.map((c) => proj.toLocal(c))));
-        })
-      : [];
+  const zones: XY[][][] = rings.flatMap((r) => {
+    if (!(r.standoff > 0)) return [];
+    const z = exclusionZone(r.prepared, r.standoff, proj);
+    const polys = z.type === 'Polygon' ? [z.coordinates] : z.coordinates;
+    return polys.map((poly) => poly.map((ring) => ring.map((c) => proj.toLocal(c))));
+  });
+  const zoneWords = rings.filter((r) => r.standoff > 0).map((r) => `${r.ref} ${m2(r.standoff)}`);
   const pts: XY[] = [...rings.flatMap((r) => r.ring), ...feet.flatMap((f) => f.local), ...zones.flat(2)];
   const boxW = doc.page.width - 2 * MARGIN;
   const boxH = 260;
@@ -539,7 +550,7 @@ function drawPlan(
   doc.font('Helvetica').fontSize(8).fillColor(MUTED);
   doc.text(
     t(
-      `Grey: excavation. Blue: loads (tracks, pads, drawn loads). Red band: exclusion zone${standoff ? `, ${m2(standoff)} from the edge` : ''}.`,
+      `Grey: excavation. Blue: loads (tracks, pads, drawn loads). Red band: exclusion zone${zoneWords.length ? `, from the edge: ${zoneWords.join(', ')}` : ''}.`,
     ),
     MARGIN,
     top + boxH + 4,

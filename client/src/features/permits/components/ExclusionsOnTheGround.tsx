@@ -1,4 +1,4 @@
-import { exclusionDistance, exclusionReason } from '@shared/permits/exclusion';
+import { exclusionDistance, exclusionSentence } from '@shared/permits/exclusion';
 
 interface NamedExcavation {
   id: number;
@@ -32,10 +32,7 @@ export function ExclusionsOnTheGround({
       <p className="font-semibold">On the ground (the operator’s phone shows the same):</p>
       <ul className="list-disc pl-6">
         {rows.map(({ x, exclusion }) => (
-          <li key={x.id}>
-            Keep every part of the load at least {exclusion.distance.toFixed(2)} m from the edge of {x.reference}. Why{' '}
-            {exclusion.distance.toFixed(2)} m: {exclusionReason(exclusion.basis)}.
-          </li>
+          <li key={x.id}>{exclusionSentence(x.reference, `${exclusion.distance.toFixed(2)} m`, exclusion.basis)}</li>
         ))}
       </ul>
     </div>
