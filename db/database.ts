@@ -3,14 +3,22 @@ import pg from 'pg';
 // The names of roles, statuses and states are declared once, in shared/ (types only: db/ loads none
 // of our code at run time). server/test/db-checks.test.ts compares the CHECK lists with them.
 import type { SiteRole } from '../shared/schemas/common';
-import type { ExcavationKind, ExcavationState as SharedExcavationState } from '../shared/schemas/excavations';
-import type { InspectionReason, Outcome } from '../shared/schemas/inspections';
+import type {
+  ExcavationKind,
+  ExcavationState as SharedExcavationState,
+  StoredGeometry,
+  StoredPolygon,
+  StoredSoil,
+  StoredZone,
+} from '../shared/schemas/excavations';
+import type { Checklist, Consequences, InspectionReason, Outcome } from '../shared/schemas/inspections';
 import type {
   AttachmentKind,
   DigDetails,
   ExcavationSnapshot,
   PermitCheck,
   PermitDecision,
+  PermitEventDetail,
   PermitKind,
   PermitStatus,
   PlacedLoad,
@@ -147,7 +155,7 @@ export interface ExcavationsTable {
   name: string;
   kind: ExcavationKind;
   /** GeoJSON geometry in WGS84: a LineString (trench centre line) or a Polygon (pit outline). */
-  geometry: Json<GeoJSONGeometry>;
+  geometry: StoredJson<StoredGeometry>;
   /** Trench width in metres (null for a pit). */
   width: number | null;
   depth: number;
@@ -160,7 +168,7 @@ export interface ExcavationsTable {
   pressure_state: Generated<'active' | 'at-rest'>;
   wall_friction: Generated<number>;
   /** Soil layers, as in the calculation request (`soil`). */
-  soil: Json<unknown[]>;
+  soil: StoredJson<StoredSoil>;
   groundwater_depth: number | null;
   design_reference: Generated<string>;
   drawing_upload_id: number | null;
@@ -170,8 +178,8 @@ export interface ExcavationsTable {
    * drawn when the row is written (shared/geometry/shapes.ts), never on read; null when
    * no outline forms. Whoever writes geometry, width or depth writes these too.
    */
-  outline: ColumnType<unknown, string | null | undefined, string | null>;
-  influence_zone: ColumnType<unknown, string | null | undefined, string | null>;
+  outline: ColumnType<Stored<StoredPolygon> | null, string | null | undefined, string | null>;
+  influence_zone: ColumnType<Stored<StoredZone> | null, string | null | undefined, string | null>;
   version: Generated<number>;
   created_by: number | null;
   created_at: CreatedAt;
@@ -226,7 +234,7 @@ export interface InspectionsTable {
   reason: InspectionReason;
   reason_detail: Generated<string>;
   /** { [checklist key]: { answer: 'pass' | 'fail' | 'na', note } } — see shared/schemas/inspections.ts. */
-  checklist: Json<Record<string, { answer: 'pass' | 'fail' | 'na'; note: string }>>;
+  checklist: StoredJson<Checklist>;
   outcome: Outcome;
   remarks: Generated<string>;
   client_ref: string | null;
@@ -235,7 +243,7 @@ export interface InspectionsTable {
 /** What a not-safe inspection set in motion (server/src/services/inspections.ts `Consequences`). */
 export interface InspectionConsequencesTable {
   inspection_id: number;
-  consequences: Json<unknown>;
+  consequences: StoredJson<Consequences>;
   updated_at: Generated<Date>;
 }
 
@@ -255,11 +263,6 @@ export interface InspectionRemindersTable {
   shift_start: Timestamp;
   sent_at: Timestamp;
   excavation_ids: Json<number[]>;
-}
-
-export interface GeoJSONGeometry {
-  type: string;
-  coordinates: unknown;
 }
 
 export type PermitStatusValue = PermitStatus;
@@ -330,7 +333,7 @@ export interface PermitEventsTable {
   from_status: string | null;
   to_status: string | null;
   comment: Generated<string>;
-  detail: ColumnType<unknown, string | undefined, never>;
+  detail: ColumnType<Stored<PermitEventDetail>, string | undefined, never>;
 }
 
 export interface PermitAttachmentsTable {

@@ -228,6 +228,54 @@ export const calcRequestSchema = z
     });
   });
 
+/**
+ * The engine's request as a stored check keeps it (`request` of each excavation in
+ * permit_revisions.check_result), and a stored soil list (excavations.soil): the shape only. The
+ * rules above held when it was written; a read checks that the fields are there with their types.
+ */
+export const storedSoilLayerSchema = z.object({
+  top: z.number(),
+  unitWeight: z.number(),
+  saturatedUnitWeight: z.number().optional(),
+  frictionAngle: z.number().optional(),
+  cohesion: z.number().optional(),
+  undrainedShearStrength: z.number().optional(),
+});
+const ranLoad = { id: z.string(), offset: z.number() };
+export const ranRequestSchema = z.object({
+  excavation: z.object({
+    depth: z.number(),
+    groundwaterDepth: z.number().nullable(),
+    designSurcharge: z.number(),
+    ratedPressure: z.number().nullable(),
+    pressureState: z.enum(['active', 'at-rest']),
+    wallFriction: z.number(),
+    restraint: z.enum(['unyielding', 'yielding']),
+  }),
+  soil: z.array(storedSoilLayerSchema),
+  method: z.enum(['dispersion-45', 'elastic']),
+  minimumClearance: z.number(),
+  step: z.number(),
+  loads: z.array(
+    z.discriminatedUnion('kind', [
+      z.object({ id: z.string(), kind: z.literal('blanket'), pressure: z.number() }),
+      z.object({ ...ranLoad, kind: z.literal('strip'), pressure: z.number(), width: z.number() }),
+      z.object({ ...ranLoad, kind: z.literal('line'), force: z.number() }),
+      z.object({ ...ranLoad, kind: z.literal('area'), pressure: z.number(), width: z.number(), length: z.number() }),
+      z.object({
+        ...ranLoad,
+        kind: z.literal('point'),
+        force: z.number(),
+        padWidth: z.number().optional(),
+        padLength: z.number().optional(),
+      }),
+    ]),
+  ),
+});
+// A stored request is exactly what the engine takes.
+const _ranAssignable: (r: z.output<typeof ranRequestSchema>) => CheckRequest = (r) => r;
+void _ranAssignable;
+
 export type CalcRequestInput = z.input<typeof calcRequestSchema>;
 export type CalcRequest = z.output<typeof calcRequestSchema>;
 // The validated request is exactly what the engine takes.

@@ -11,10 +11,11 @@ import { excavationStates } from './common';
 import { lineString, polygon } from '@turf/helpers';
 import { kinks } from '@turf/kinks';
 import type { LineString, Polygon } from 'geojson';
-import { calcRequestSchema, excavationSchema as calcExcavationSchema, soilLayerSchema } from './calc';
+import { calcRequestSchema, excavationSchema as calcExcavationSchema, soilLayerSchema, storedSoilLayerSchema } from './calc';
 import type { Excavation as CalcExcavation, SoilLayer } from '../engineering/types';
 import { SITE_TOLERANCE, simplifyLine, simplifyRing } from '../geometry/simplify';
 import { oneOf } from './messages';
+import { readStored, readStoredOrNull, type Stored } from './stored';
 
 export const excavationKinds = ['trench', 'pit'] as const;
 export type ExcavationKind = (typeof excavationKinds)[number];
@@ -240,10 +241,29 @@ export const lineAnswer = z.object({ type: z.literal('LineString'), coordinates:
 export const polygonAnswer = z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(position)) });
 export const multiPolygonAnswer = z.object({ type: z.literal('MultiPolygon'), coordinates: z.array(z.array(z.array(position))) });
 
+export const geometryAnswer = z.discriminatedUnion('type', [lineAnswer, polygonAnswer]);
+export type StoredGeometry = z.output<typeof geometryAnswer>;
+export type StoredPolygon = z.output<typeof polygonAnswer>;
+export const zoneAnswer = z.discriminatedUnion('type', [polygonAnswer, multiPolygonAnswer]);
+export type StoredZone = z.output<typeof zoneAnswer>;
+export type StoredSoil = z.output<typeof storedSoilLayerSchema>[];
+
+// The excavation's jsonb columns as stored (db/database.ts), parsed when read: a drifted row throws
+// StoredShapeError naming the column and the field.
+/** excavations.geometry: the centre line or outline as drawn. */
+export const storedGeometry = (json: Stored<StoredGeometry>): StoredGeometry => readStored('excavation geometry', geometryAnswer, json);
+/** excavations.soil: the soil layers. */
+export const storedSoil = (json: Stored<StoredSoil>): StoredSoil => readStored('soil layer list', z.array(storedSoilLayerSchema), json);
+/** excavations.outline (null when no outline forms). */
+export const storedOutline = (json: Stored<StoredPolygon> | null): StoredPolygon | null =>
+  readStoredOrNull('excavation outline', polygonAnswer, json);
+/** excavations.influence_zone (null when no outline forms). */
+export const storedZone = (json: Stored<StoredZone> | null): StoredZone | null => readStoredOrNull('influence zone', zoneAnswer, json);
+
 /** An excavation as the API returns it. */
 export const excavationAnswer = z.object({
   ...excavationFields,
-  geometry: z.discriminatedUnion('type', [lineAnswer, polygonAnswer]),
+  geometry: geometryAnswer,
   id: z.number().int(),
   siteId: z.number().int(),
   version: z.number().int(),
@@ -252,7 +272,7 @@ export const excavationAnswer = z.object({
   /** The ground outline: the trench centre line widened by half its width each side, or the pit polygon. */
   outline: polygonAnswer.nullable(),
   /** The influence zone: the ground within the depth H of the outline (docs/calculation.md, "Load spread at 45°" and "Standoff"). */
-  influenceZone: z.discriminatedUnion('type', [polygonAnswer, multiPolygonAnswer]).nullable(),
+  influenceZone: zoneAnswer.nullable(),
   createdAt: z.iso.datetime(),
   updatedAt: z.iso.datetime(),
 });

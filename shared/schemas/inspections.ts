@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { isoWeekPattern } from '../time/shifts';
 import { excavationStates } from './common';
+import { readStored, readStoredOrNull, type Stored } from './stored';
 
 /**
  * Excavation inspections: the checklist, the form's schema (shared by the phone form and the API),
@@ -94,6 +95,8 @@ export const checklistSchema = z.object(
   { error: 'is required' },
 );
 
+export type Checklist = z.output<typeof checklistSchema>;
+
 /** At most this many photos with one inspection (PNG or JPEG, 10 MB each). */
 export const MAX_PHOTOS = 8;
 
@@ -164,6 +167,11 @@ export const consequencesAnswer = z.object({
   stillSuspended: z.array(z.object({ id: z.number().int(), reference: z.string() })).optional(),
 });
 export type Consequences = z.output<typeof consequencesAnswer>;
+/** inspections.checklist as stored (the form's answers, as checked when recorded). */
+export const storedChecklist = (json: Stored<Checklist>): Checklist => readStored('inspection checklist', checklistSchema, json);
+/** inspection_consequences.consequences as stored (null: a safe inspection, none recorded). */
+export const storedConsequences = (json: Stored<Consequences> | null): Consequences | null =>
+  readStoredOrNull('inspection consequences', consequencesAnswer, json);
 export const recordedInspectionAnswer = z.object({ inspection: inspectionAnswer, consequences: consequencesAnswer.nullable() });
 
 /**

@@ -10,7 +10,7 @@ import type { SiteRole } from './common';
 import { surchargeMethods } from './sites';
 import { plantElementSchema } from './plant';
 import { readStored, readStoredOrNull, type Stored } from './stored';
-import { loadKinds } from './calc';
+import { loadKinds, ranRequestSchema } from './calc';
 
 // ---------------------------------------------------------------------------------------------
 // Statuses and actions
@@ -484,6 +484,24 @@ export type PermitDecision = z.output<typeof permitDecisionSchema>;
 export const permitOperatorAnswer = z.object({ id: int, name: z.string(), email: z.string(), briefedAt: isoTime.nullable() });
 export type PermitOperator = z.output<typeof permitOperatorAnswer>;
 
+/**
+ * What an event of the timeline keeps beside its action (permit_events.detail): fields that depend on
+ * the action; those a screen reads are typed here (the decision signed, what started a live window,
+ * the inspection that suspended it, a concern's excavation and photos, a re-check's verdict).
+ */
+export const permitEventDetailSchema = z.looseObject({
+  decision: permitDecisionSchema.optional(),
+  startedBy: z.string().optional(),
+  inspection: z.looseObject({ id: int, excavationReference: z.string() }).optional(),
+  excavationReference: z.string().optional(),
+  photoIds: z.array(int).optional(),
+  passes: z.boolean().optional(),
+});
+export type PermitEventDetail = z.output<typeof permitEventDetailSchema>;
+/** An event's detail as stored ({} when none was kept). */
+export const storedEventDetail = (json: Stored<PermitEventDetail>): PermitEventDetail =>
+  readStored('permit event detail', permitEventDetailSchema, json);
+
 export const permitEventAnswer = z.object({
   id: int,
   revision: int,
@@ -493,7 +511,7 @@ export const permitEventAnswer = z.object({
   fromStatus: z.enum(permitStatuses).nullable(),
   toStatus: z.enum(permitStatuses).nullable(),
   comment: z.string(),
-  detail: z.record(z.string(), z.unknown()),
+  detail: permitEventDetailSchema,
 });
 export type PermitEvent = z.output<typeof permitEventAnswer>;
 
@@ -613,7 +631,7 @@ export const excavationCheckSchema = z.object({
   name: z.string(),
   depth: z.number(),
   /** The engine's request (shared/engineering), as run. */
-  request: z.unknown(),
+  request: ranRequestSchema,
   /** The engine's result; without its pressure profile in the answer to POST /api/permits/:id/check (`withoutProfiles`). */
   result: checkResultSchema,
   loads: z.array(checkedLoadSchema),

@@ -18,6 +18,10 @@ import {
   type ImportReport,
   MAX_IMPORT_POINTS,
   pointCount,
+  storedGeometry,
+  storedOutline,
+  storedSoil,
+  storedZone,
 } from '@shared/schemas/excavations';
 import { GeometryError, SITE_TOLERANCE, type LocalProjection } from '@shared/geometry';
 import { outlineOf, shapeColumns, type SiteOrigin } from '@shared/geometry/shapes';
@@ -91,7 +95,7 @@ export function rowValues(r: Row): ExcavationValues {
     reference: r.reference,
     name: r.name,
     kind: r.kind,
-    geometry: r.geometry as ExcavationValues['geometry'],
+    geometry: storedGeometry(r.geometry),
     width: r.width,
     depth: r.depth,
     state: r.state,
@@ -101,7 +105,7 @@ export function rowValues(r: Row): ExcavationValues {
     restraint: r.restraint,
     pressureState: r.pressure_state,
     wallFriction: r.wall_friction,
-    soil: r.soil as ExcavationValues['soil'],
+    soil: storedSoil(r.soil),
     groundwaterDepth: r.groundwater_depth,
     designReference: r.design_reference,
     notes: r.notes,
@@ -135,8 +139,8 @@ function excavationOut(r: Row, drawing: Excavation['drawing']): Excavation {
   const values = rowValues(r);
   // Drawn when written (never here); null when no outline forms.
   const shapes = {
-    outline: (r.outline ?? null) as Excavation['outline'],
-    influenceZone: (r.influence_zone ?? null) as Excavation['influenceZone'],
+    outline: storedOutline(r.outline),
+    influenceZone: storedZone(r.influence_zone),
   };
   return {
     id: r.id,

@@ -10,6 +10,8 @@ import {
   type InspectionStatesAnswer,
   type Outcome,
   type Consequences,
+  storedChecklist,
+  storedConsequences,
 } from '@shared/schemas/inspections';
 import { DEFAULT_SHIFTS, currentShift, formatSiteTime, type ShiftDef, type ShiftSpan } from '@shared/time/shifts';
 import { notice } from '../mail/mailer';
@@ -224,7 +226,11 @@ export async function recordInspection(
       if (seen.excavation_id !== args.excavationId)
         throw badRequest('That form was already sent for another excavation.', { clientRef: 'belongs to another excavation' });
       const inspection = (await loadInspections(db, { ids: [seen.id] }))[0];
-      return { inspection, created: false, consequences: await withStillSuspended(db, inspection, await storedConsequences(db, seen.id)) };
+      return {
+        inspection,
+        created: false,
+        consequences: await withStillSuspended(db, inspection, await recordedConsequences(db, seen.id)),
+      };
     }
   }
   const exc = await loadExcavation(db, args.excavationId);
@@ -259,7 +265,7 @@ export async function recordInspection(
     const twin = data.clientRef
       ? await trx.selectFrom('inspections').select('id').where('client_ref', '=', data.clientRef).executeTakeFirst()
       : undefined;
-    if (twin) return { id: twin.id, created: false, consequences: await storedConsequences(trx, twin.id) };
+    if (twin) return { id: twin.id, created: false, consequences: await recordedConsequences(trx, twin.id) };
     const row = await trx
       .insertInto('inspections')
       .values({
@@ -328,14 +334,14 @@ function permitsOnExcavation(db: Db, exc: { id: number; site_id: number }, statu
 }
 
 /** The consequences an inspection caused, as recorded beside it (none for a safe one). */
-async function storedConsequences(db: Db, inspectionId: number): Promise<Consequences> {
+async function recordedConsequences(db: Db, inspectionId: number): Promise<Consequences> {
   const row = await db
     .selectFrom('inspections as i')
     .leftJoin('inspection_consequences as c', 'c.inspection_id', 'i.id')
     .select(['c.consequences', 'i.outcome'])
     .where('i.id', '=', inspectionId)
     .executeTakeFirstOrThrow();
-  return (row.consequences as Consequences | null) ?? { suspended: [], notSuspended: [], notified: [] };
+  return storedConsequences(row.consequences) ?? { suspended: [], notSuspended: [], notified: [] };
 }
 
 /** The checklist items answered "fail", with their labels and notes, in checklist order. */
@@ -382,7 +388,7 @@ export async function loadInspections(
     shift: { name: r.shift_name, start: new Date(r.shift_start).toISOString() },
     reason: r.reason,
     reasonDetail: r.reason_detail,
-    checklist: r.checklist as Inspection['checklist'],
+    checklist: storedChecklist(r.checklist),
     outcome: r.outcome,
     remarks: r.remarks,
     photos: photos.filter((p) => p.inspection_id === r.id).map((p) => ({ id: p.id, url: `/api/uploads/${p.id}`, name: p.original_name })),
@@ -445,7 +451,7 @@ export async function applyConsequences(deps: Deps, inspection: Inspection): Pro
     }
     out.notified = await mailFailedInspection(inTrx, exc, inspection, out);
     // Kept with the inspection, added to what an earlier pass (the reconciliation) recorded.
-    const before = await storedConsequences(trx, inspection.id);
+    const before = await recordedConsequences(trx, inspection.id);
     const all: Consequences = {
       suspended: [...before.suspended, ...out.suspended],
       notSuspended: out.notSuspended,
@@ -506,7 +512,7 @@ export async function reconcileUnsafe(deps: Deps, opts: { siteIds?: number[] } =
       // One pass at a time per inspection, whichever server runs it.
       await trx.selectFrom('inspections').select('id').where('id', '=', row.id).forUpdate().execute();
       const inspection = (await loadInspections(trx, { ids: [row.id] }))[0];
-      const before = (await storedConsequences(trx, row.id)).suspended.length;
+      const before = (await recordedConsequences(trx, row.id)).suspended.length;
       const all = await applyConsequences({ ...deps, db: trx }, inspection);
       return { ...all, suspended: all.suspended.slice(before) };
     });

@@ -2,7 +2,6 @@ import { sql } from 'kysely';
 import { jsonArrayFrom, jsonObjectFrom } from 'kysely/helpers/postgres';
 import type { Db } from '@db/database';
 import type { Stored } from '@shared/schemas/stored';
-import type { Polygon } from 'geojson';
 import { runCheck } from '@shared/engineering';
 import {
   CheckInputError,
@@ -27,7 +26,7 @@ import {
   storedLoads,
   storedPlantSnapshot,
 } from '@shared/schemas/permits';
-import { checkInputFields, type Excavation as RegisterExcavation } from '@shared/schemas/excavations';
+import { checkInputFields, storedGeometry, storedOutline, storedSoil } from '@shared/schemas/excavations';
 import { badRequest, HttpError, notFound } from '../../http';
 import { loadExcavations } from '../excavations';
 import { withCurrentRevision } from './read';
@@ -233,10 +232,10 @@ function checkExcavationRowOf(r: CheckExcavationRow): CheckExcavation & { state:
       reference: r.reference,
       name: r.name,
       kind: r.kind,
-      geometry: r.geometry as RegisterExcavation['geometry'],
+      geometry: storedGeometry(r.geometry),
       width: r.width,
-      soil: r.soil as RegisterExcavation['soil'],
-      outline: (r.outline ?? null) as Polygon | null,
+      soil: storedSoil(r.soil),
+      outline: storedOutline(r.outline),
       depth: r.depth,
       groundwaterDepth: r.groundwater_depth,
       designSurcharge: r.design_surcharge,

@@ -13,6 +13,7 @@ import {
   storedCheck,
   storedLoads,
   storedDig,
+  storedDecision,
   type PlacedLoad,
   type DigDetails,
 } from '@shared/schemas/permits';
@@ -269,7 +270,7 @@ export async function transition(
           .select((eb) => eb.fn.max('briefed_at').as('at'))
           .where('revision_id', '=', rev.id)
           .executeTakeFirst();
-        const approvedAt = (rev.decision as PermitDecision | null)?.at;
+        const approvedAt = storedDecision(rev.decision)?.at;
         const times = {
           window: windowStart.getTime(),
           approval: approvedAt ? Date.parse(approvedAt) : 0,

@@ -189,7 +189,7 @@ export async function permitPdf(
     doc.addPage();
     heading(doc, `Check beside ${ex.reference} ${ex.name}`);
     sheet(doc, ex, when);
-    drawPressureDiagram(doc, ex.result.profile as ProfilePoint[], ex.depth);
+    drawPressureDiagram(doc, ex.result.profile ?? [], ex.depth);
   }
   if (!check) {
     doc.moveDown();
@@ -267,7 +267,7 @@ function field(doc: PDFKit.PDFDocument, label: string, value: string): void {
 /** The calculation sheet's figures for one excavation. */
 function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | null) => string): void {
   const r = ex.result;
-  const req = ex.request as { excavation: Record<string, unknown>; soil: Record<string, unknown>[]; minimumClearance: number };
+  const req = ex.request;
   const e = req.excavation;
   field(doc, 'Method', r.method === 'elastic' ? 'Elastic (Boussinesq-based, NAVFAC DM-7.02)' : '45 degree load spread');
   field(

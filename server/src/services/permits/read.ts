@@ -17,6 +17,7 @@ import {
   storedDecision,
   storedPlantSnapshot,
   storedExcavationSnapshot,
+  storedEventDetail,
 } from '@shared/schemas/permits';
 import { CAUTION } from '@shared/caution';
 import { DECISIONS, isAuthorOf } from './actors';
@@ -192,7 +193,7 @@ export async function loadEvents(db: Db, permitId: number): Promise<PermitEvent[
     fromStatus: e.from_status as PermitStatus | null,
     toStatus: e.to_status as PermitStatus | null,
     comment: e.comment,
-    detail: (e.detail ?? {}) as Record<string, unknown>,
+    detail: storedEventDetail(e.detail),
   }));
 }
 

@@ -38,7 +38,21 @@ describe('timeline lines in plain words', () => {
 
   it('gives an approval its standoff to 0.01 m, or says it was approved as placed', () => {
     const approve = (standoff: number | null) =>
-      event({ action: 'approve', actor: { id: 3, name: 'Colm Ridley' }, detail: { decision: { standoff } } });
+      event({
+        action: 'approve',
+        actor: { id: 3, name: 'Colm Ridley' },
+        detail: {
+          decision: {
+            action: 'approve',
+            by: { id: 3, name: 'Colm Ridley' },
+            at: winter,
+            reason: '',
+            standoff,
+            conditions: [],
+            signature: 'Colm Ridley',
+          },
+        },
+      });
     expect(timelineLine(approve(1.5), zone)).toBe('Colm Ridley approved it with a standoff of 1.50 m');
     expect(timelineLine(approve(null), zone)).toBe('Colm Ridley approved it as placed on the plan');
   });
