@@ -10,6 +10,8 @@ import type {
   StoredPolygon,
   StoredSoil,
   StoredZone,
+  SupportType,
+  AuditDetail,
 } from '../shared/schemas/excavations';
 import type { Checklist, Consequences, InspectionReason, Outcome } from '../shared/schemas/inspections';
 import type {
@@ -25,7 +27,7 @@ import type {
   PlantSnapshot,
 } from '../shared/schemas/permits';
 import type { Stored } from '../shared/schemas/stored';
-import type { PlantElementKind } from '../shared/schemas/plant';
+import type { PlantCategory, PlantElement } from '../shared/schemas/plant';
 import type { SurchargeMethod } from '../shared/schemas/sites';
 import type { UnitSystem } from '../shared/units';
 
@@ -104,7 +106,8 @@ export interface AuditLogTable {
   entity: string;
   entity_id: string | null;
   action: string;
-  detail: ColumnType<unknown, string | undefined, never>;
+  /** Free fields by entity and action; the excavation history reads `changes` (`storedAuditDetail`). */
+  detail: ColumnType<Stored<AuditDetail>, string | undefined, never>;
 }
 
 export interface CaughtMailTable {
@@ -160,8 +163,7 @@ export interface ExcavationsTable {
   width: number | null;
   depth: number;
   state: Generated<ExcavationState>;
-  /** 'trench-box' | 'hydraulic-frames' | 'sheet-piles' | 'timbering' | 'battered' | 'unsupported' */
-  support_type: string;
+  support_type: SupportType;
   design_surcharge: Generated<number>;
   rated_pressure: number | null;
   restraint: Generated<'unyielding' | 'yielding'>;
@@ -186,26 +188,13 @@ export interface ExcavationsTable {
   updated_at: CreatedAt;
 }
 
-export interface PlantElement {
-  name: string;
-  kind: PlantElementKind;
-  /** Centre of the rectangle relative to the machine's origin, metres; x forward, y to the left. */
-  x: number;
-  y: number;
-  /** Extent along x and along y, metres. */
-  length: number;
-  width: number;
-  /** Share of the machine's weight carried by this element (all shares add to 1). */
-  share: number;
-}
-
 export interface PlantItemsTable {
   id: Generated<number>;
   name: string;
-  category: string;
+  category: PlantCategory;
   /** Operating mass in tonnes. */
   operating_mass: number;
-  elements: Json<PlantElement[]>;
+  elements: StoredJson<PlantElement[]>;
   design_factor: Generated<number>;
   notes: Generated<string>;
   version: Generated<number>;
@@ -330,8 +319,8 @@ export interface PermitEventsTable {
   actor_id: number | null;
   actor_name: string;
   action: string;
-  from_status: string | null;
-  to_status: string | null;
+  from_status: PermitStatus | null;
+  to_status: PermitStatus | null;
   comment: Generated<string>;
   detail: ColumnType<Stored<PermitEventDetail>, string | undefined, never>;
 }

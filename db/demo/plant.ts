@@ -1,4 +1,5 @@
-import type { Db, PlantElement } from '../database';
+import type { Db } from '../database';
+import type { PlantCategory, PlantElement } from '../../shared/schemas/plant';
 import type { DemoContext } from './people';
 
 /**
@@ -9,7 +10,7 @@ import type { DemoContext } from './people';
  */
 interface DemoPlant {
   name: string;
-  category: string;
+  category: PlantCategory;
   mass: number;
   elements: PlantElement[];
   designFactor?: number;

@@ -4,7 +4,13 @@ import bcrypt from 'bcryptjs';
 import { area, booleanPointInPolygon, point } from '@turf/turf';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { localProjection } from '@shared/geometry';
-import { calcExcavationOf, excavationInputSchema, type Excavation, type ExcavationInput } from '@shared/schemas/excavations';
+import {
+  calcExcavationOf,
+  excavationInputSchema,
+  storedAuditDetail,
+  type Excavation,
+  type ExcavationInput,
+} from '@shared/schemas/excavations';
 import { calcRequestSchema } from '@shared/schemas/calc';
 import { demo, DEMO_PASSWORD, demoSiteId, signedIn, startTestApp, unique, type TestApp } from './helpers';
 
@@ -328,7 +334,7 @@ describe('excavation register: changes', () => {
       .execute();
     expect(log.map((l) => l.action)).toEqual(['created', 'depth-or-support-changed']);
     expect(log[1].actor_id).toBe(coordinatorId);
-    expect((log[1].detail as { changes: unknown }).changes).toEqual({
+    expect(storedAuditDetail(log[1].detail).changes).toEqual({
       depth: { from: 2.4, to: 3.1 },
       supportType: { from: 'hydraulic-frames', to: 'trench-box' },
     });

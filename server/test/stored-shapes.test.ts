@@ -1,8 +1,17 @@
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { sql } from 'kysely';
 import { StoredShapeError, type Stored } from '@shared/schemas/stored';
-import { storedGeometry, storedOutline, storedSoil, storedZone, type StoredGeometry, type StoredSoil } from '@shared/schemas/excavations';
+import {
+  storedAuditDetail,
+  storedGeometry,
+  storedOutline,
+  storedSoil,
+  storedZone,
+  type StoredGeometry,
+  type StoredSoil,
+} from '@shared/schemas/excavations';
 import { storedChecklist, storedConsequences, type Checklist, type Consequences } from '@shared/schemas/inspections';
+import { storedElements, type PlantElement } from '@shared/schemas/plant';
 import { storedCheck, storedEventDetail, type PermitCheck, type PermitEventDetail } from '@shared/schemas/permits';
 import { startTestApp, type TestApp } from './helpers';
 import { loadRevision } from '../src/services/permits/read';
@@ -69,13 +78,13 @@ it('refuses a drifted stored decision, naming the field', async () => {
   });
 });
 
-it('reads every stored excavation, inspection, consequence and permit event', async () => {
+it('reads every stored excavation, inspection, consequence, machine, excavation audit entry and permit event', async () => {
   const db = t.deps.db;
   const excavations = await db.selectFrom('excavations').select(['geometry', 'soil', 'outline', 'influence_zone']).execute();
   expect(excavations.length).toBeGreaterThan(0);
   for (const r of excavations) {
     expect(storedGeometry(r.geometry).type).toMatch(/^(LineString|Polygon)$/);
-    expect(storedSoil(r.soil).length).toBeGreaterThan(0);
+    expect(() => storedSoil(r.soil)).not.toThrow();
     expect(() => [storedOutline(r.outline), storedZone(r.influence_zone)]).not.toThrow();
   }
   const inspections = await db.selectFrom('inspections').select('checklist').execute();
@@ -83,6 +92,11 @@ it('reads every stored excavation, inspection, consequence and permit event', as
   for (const r of inspections) expect(Object.keys(storedChecklist(r.checklist))).toContain('support');
   const consequences = await db.selectFrom('inspection_consequences').select('consequences').execute();
   for (const r of consequences) expect(storedConsequences(r.consequences)).toHaveProperty('suspended');
+  const machines = await db.selectFrom('plant_items').select('elements').execute();
+  expect(machines.length).toBeGreaterThan(0);
+  for (const r of machines) expect(storedElements(r.elements).length).toBeGreaterThan(0);
+  const audits = await db.selectFrom('audit_log').select('detail').where('entity', '=', 'excavation').execute();
+  for (const r of audits) expect(typeof storedAuditDetail(r.detail)).toBe('object');
   const events = await db.selectFrom('permit_events').select('detail').execute();
   expect(events.length).toBeGreaterThan(0);
   for (const r of events) expect(typeof storedEventDetail(r.detail)).toBe('object');
@@ -90,7 +104,7 @@ it('reads every stored excavation, inspection, consequence and permit event', as
 
 // The drifted values below are made by SQL from stored rows (or written out) without changing a row:
 // other test files read the same shared database at the same time.
-it('refuses a drifted soil layer, geometry, checklist, consequence, event detail and check request, naming the field', async () => {
+it('refuses a drifted soil layer, geometry, machine element, checklist, consequence, event detail and check request, naming the field', async () => {
   const db = t.deps.db;
   const { soil, geometry } = await db
     .selectFrom('excavations')
@@ -102,6 +116,12 @@ it('refuses a drifted soil layer, geometry, checklist, consequence, event detail
     .executeTakeFirstOrThrow();
   expect(() => storedSoil(soil)).toThrow(/stored soil layer list does not have the shape Brink reads: 0\.unitWeight /);
   expect(() => storedGeometry(geometry)).toThrow(/stored excavation geometry does not have the shape Brink reads: type /);
+  const { elements } = await db
+    .selectFrom('plant_items')
+    .select(sql<Stored<PlantElement[]>>`jsonb_set(elements, '{0,share}', 'null')`.as('elements'))
+    .limit(1)
+    .executeTakeFirstOrThrow();
+  expect(() => storedElements(elements)).toThrow(/stored list of plant elements does not have the shape Brink reads: 0\.share /);
 
   const { checklist } = await db
     .selectFrom('inspections')

@@ -331,13 +331,22 @@ export const recheckOutcomeAnswer = z.object({
 export type RecheckOutcome = z.output<typeof recheckOutcomeAnswer>;
 export const changedExcavationAnswer = z.object({ excavation: excavationAnswer, rechecked: z.array(recheckOutcomeAnswer) });
 
+const changesSchema = z.record(z.string(), z.object({ from: z.unknown(), to: z.unknown() }));
+/**
+ * What an audit entry keeps beside its action (audit_log.detail): free fields by entity and action;
+ * an excavation's change keeps `changes` (field → from, to), which its history reads.
+ */
+export const auditDetailSchema = z.looseObject({ changes: changesSchema.optional() });
+export type AuditDetail = z.output<typeof auditDetailSchema>;
+export const storedAuditDetail = (json: Stored<AuditDetail>): AuditDetail => readStored('audit entry detail', auditDetailSchema, json);
+
 /** One change in an excavation's history: who, when, what (field → from, to). */
 export const historyEntryAnswer = z.object({
   id: z.number().int(),
   at: z.iso.datetime(),
   by: z.string(),
   action: z.string(),
-  changes: z.record(z.string(), z.object({ from: z.unknown(), to: z.unknown() })).nullable(),
+  changes: changesSchema.nullable(),
 });
 export type HistoryEntry = z.output<typeof historyEntryAnswer>;
 export const historyAnswer = z.object({ entries: z.array(historyEntryAnswer) });

@@ -7,6 +7,7 @@
  */
 import { z } from 'zod';
 import { oneOf } from './messages';
+import { readStored, type Stored } from './stored';
 
 /** Standard gravity (m/s²): tonnes × G = kN. */
 export const G = 9.81;
@@ -46,6 +47,9 @@ export const plantElementSchema = z.object({
   share: finite('a fraction of the weight').gt(0, 'must be greater than 0').max(1, 'must be at most 1'),
 });
 export type PlantElement = z.infer<typeof plantElementSchema>;
+/** A machine's elements as stored (plant_items.elements). */
+export const storedElements = (json: Stored<PlantElement[]>): PlantElement[] =>
+  readStored('list of plant elements', z.array(plantElementSchema), json);
 
 const plantFields = {
   name: z.string().trim().min(1, 'is required').max(120, 'must be at most 120 characters'),

@@ -5,6 +5,7 @@ import {
   plantItemSchema,
   plantItemUpdateSchema,
   plantLibraryAnswer,
+  storedElements,
   type PlantItem,
   type PlantItemValues,
 } from '@shared/schemas/plant';
@@ -21,9 +22,9 @@ export function plantOut(r: PlantRow): PlantItem {
   return {
     id: r.id,
     name: r.name,
-    category: r.category as PlantItem['category'],
+    category: r.category,
     operatingMass: r.operating_mass,
-    elements: r.elements,
+    elements: storedElements(r.elements),
     designFactor: r.design_factor,
     notes: r.notes,
     version: r.version,
@@ -161,7 +162,12 @@ export function registerPlantRoutes(api: Api): void {
             entityId: r.id,
             action: 'updated',
             detail: {
-              before: { name: old.name, operatingMass: old.operating_mass, elements: old.elements, designFactor: old.design_factor },
+              before: {
+                name: old.name,
+                operatingMass: old.operating_mass,
+                elements: storedElements(old.elements),
+                designFactor: old.design_factor,
+              },
               after: { name: body.name, operatingMass: body.operatingMass, elements: body.elements, designFactor: body.designFactor },
             },
           });

@@ -3,7 +3,7 @@
  * in one transaction with its audit entry; a change to the check inputs re-checks the permits that
  * stand on the excavation in the same transaction (services/permits/recheck.ts).
  */
-import { canonical, excavationInputSchema, IMPORT_MODE_LABEL, importModeLabels } from '@shared/schemas/excavations';
+import { canonical, excavationInputSchema, IMPORT_MODE_LABEL, importModeLabels, storedAuditDetail } from '@shared/schemas/excavations';
 import type { ExcavationUpdate, ExcavationValues, ImportMode, ImportReport } from '@shared/schemas/excavations';
 import type { Db } from '@db/database';
 import type { Deps } from '../deps';
@@ -195,7 +195,7 @@ export async function excavationHistory(db: Db, siteId: number, id: number) {
     at: new Date(r.at).toISOString(),
     by: r.by ?? 'unknown',
     action: r.action,
-    changes: (r.detail as { changes?: Record<string, { from: unknown; to: unknown }> }).changes ?? null,
+    changes: storedAuditDetail(r.detail).changes ?? null,
   }));
 }
 

@@ -99,7 +99,7 @@ export function rowValues(r: Row): ExcavationValues {
     width: r.width,
     depth: r.depth,
     state: r.state,
-    supportType: r.support_type as ExcavationValues['supportType'],
+    supportType: r.support_type,
     designSurcharge: r.design_surcharge,
     ratedPressure: r.rated_pressure,
     restraint: r.restraint,

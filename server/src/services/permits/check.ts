@@ -26,6 +26,7 @@ import {
   storedLoads,
   storedPlantSnapshot,
 } from '@shared/schemas/permits';
+import { storedElements, type PlantElement } from '@shared/schemas/plant';
 import { checkInputFields, storedGeometry, storedOutline, storedSoil } from '@shared/schemas/excavations';
 import { badRequest, HttpError, notFound } from '../../http';
 import { loadExcavations } from '../excavations';
@@ -67,10 +68,16 @@ export const plantOf = (rows: Parameters<typeof addPlant>[1]) => addPlant(new Ma
 
 function addPlant(
   into: Map<number, PlantForCheck>,
-  rows: { id: number; name: string; operating_mass: number; design_factor: number; elements: PlantForCheck['elements'] }[],
+  rows: { id: number; name: string; operating_mass: number; design_factor: number; elements: Stored<PlantElement[]> }[],
 ): Map<number, PlantForCheck> {
   for (const r of rows)
-    into.set(r.id, { id: r.id, name: r.name, operatingMass: r.operating_mass, designFactor: r.design_factor, elements: r.elements });
+    into.set(r.id, {
+      id: r.id,
+      name: r.name,
+      operatingMass: r.operating_mass,
+      designFactor: r.design_factor,
+      elements: storedElements(r.elements),
+    });
   return into;
 }
 
@@ -102,7 +109,7 @@ export async function takePlantSnapshot(db: Db, loads: PlacedLoad[], now: Date):
       name: r.name,
       operatingMass: r.operating_mass,
       designFactor: r.design_factor,
-      elements: r.elements,
+      elements: storedElements(r.elements),
       version: r.version,
       updatedAt: new Date(r.updated_at).toISOString(),
     })),

@@ -136,12 +136,12 @@ export async function transition(
   const now = deps.now();
 
   return inTransaction(deps.db, async (trx) => {
-    const p = (await trx
+    const p: PermitRow | undefined = await trx
       .selectFrom('permits')
       .select(['id', 'site_id', 'number', 'status', 'version', 'revision', 'requested_by'])
       .where('id', '=', permitId)
       .forUpdate()
-      .executeTakeFirst()) as PermitRow | undefined;
+      .executeTakeFirst();
     if (!p) throw notFound('That permit');
 
     await assertMayAct(trx, p, action, actor);

@@ -9,7 +9,6 @@ import {
   type PermitEvent,
   type PermitListQuery,
   type PermitRevision,
-  type PermitStatus,
   type PermitSummary,
   storedCheck,
   storedLoads,
@@ -190,8 +189,8 @@ export async function loadEvents(db: Db, permitId: number): Promise<PermitEvent[
     at: iso(e.at),
     actor: { id: e.actor_id, name: e.actor_name },
     action: e.action,
-    fromStatus: e.from_status as PermitStatus | null,
-    toStatus: e.to_status as PermitStatus | null,
+    fromStatus: e.from_status,
+    toStatus: e.to_status,
     comment: e.comment,
     detail: storedEventDetail(e.detail),
   }));
