@@ -14,6 +14,7 @@ import bcrypt from 'bcryptjs';
 import { sql } from 'kysely';
 import type { LineString, Polygon } from 'geojson';
 import type { Db } from '@db/database';
+import type { SupportType } from '@shared/schemas/excavations';
 import { DEMO_PASSWORD } from '@db/demo/people';
 import { seedPlant } from '@db/demo/plant';
 import { projectionOf, shapeColumns, shapesOf } from '@shared/geometry/shapes';
@@ -69,7 +70,7 @@ interface ExcavationTemplate {
   line: XY[];
   width: number | null;
   depth: number;
-  support_type: string;
+  support_type: SupportType;
   rated_pressure: number | null;
   restraint: 'unyielding' | 'yielding';
   soil: object[];
