@@ -54,10 +54,11 @@ import {
 } from '../schemas/permits';
 
 /** The plan shape of a register excavation: a trench's centre line with its width, or a pit's outline. */
-export function excavationShapeOf(e: Pick<RegisterExcavation, 'kind' | 'width'> & { geometry: unknown }): ExcavationShape {
-  return e.kind === 'trench'
-    ? { kind: 'trench', centreLine: e.geometry as LineString, width: e.width ?? 0 }
-    : { kind: 'pit', outline: e.geometry as Polygon };
+export function excavationShapeOf(e: Pick<RegisterExcavation, 'kind' | 'width'> & { geometry: LineString | Polygon }): ExcavationShape {
+  const g = e.geometry;
+  if (e.kind === 'trench' && g.type === 'LineString') return { kind: 'trench', centreLine: g, width: e.width ?? 0 };
+  if (e.kind === 'pit' && g.type === 'Polygon') return { kind: 'pit', outline: g };
+  throw new Error(`A ${e.kind} drawn as a ${g.type}: a trench is a centre line (LineString), a pit an outline (Polygon)`);
 }
 
 /** An excavation of the register as the check needs it: its plan shape and its engine inputs. */

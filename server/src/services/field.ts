@@ -14,7 +14,7 @@ import {
 } from '@shared/geometry';
 import { excavationShapeOf, footprintsOf } from '@shared/permits/check';
 import { exclusionDistance } from '@shared/permits/exclusion';
-import { supportLabels } from '@shared/schemas/excavations';
+import { storedGeometry, storedOutline, storedZone, supportLabels } from '@shared/schemas/excavations';
 import type { FieldExcavation, FieldFootprint, FieldPermit } from '@shared/schemas/field';
 import {
   editableStatuses,
@@ -139,10 +139,10 @@ function fieldPermitOf(row: FieldRow, viewerId: number): FieldPermit {
   const prepared: PreparedOutline[] = [];
   const excavations: FieldExcavation[] = row.excavations.flatMap((r) => {
     // The register's outline and influence zone, as the site map draws them (stored when written).
-    const outline = r.outline as Polygon | null;
-    const influence = r.influence_zone as FieldExcavation['influenceZone'] | null;
+    const outline = storedOutline(r.outline);
+    const influence = storedZone(r.influence_zone);
     if (!outline || !influence) return [];
-    const shape = excavationShapeOf(r);
+    const shape = excavationShapeOf({ ...r, geometry: storedGeometry(r.geometry) });
     const ring = prepareExcavation(shape, proj);
     prepared.push(ring);
     const exclusion = exclusionDistance(rev, r.id, row.minimum_clearance, r.depth);
@@ -154,7 +154,7 @@ function fieldPermitOf(row: FieldRow, viewerId: number): FieldPermit {
         kind: r.kind,
         state: r.state,
         depth: r.depth,
-        supportLabel: supportLabels[r.support_type as keyof typeof supportLabels],
+        supportLabel: supportLabels[r.support_type],
         shape,
         outline,
         influenceZone: influence,
