@@ -72,6 +72,13 @@ describe('factors (NIST SP 811, 2008, Appendix B.8)', () => {
     expect(toSI('unitWeight', 1, 'pcf')).toBeCloseTo(0.15708746, 8);
   });
 
+  it('masses: the avoirdupois pound and the short ton are exact', () => {
+    // NIST SP 811 B.8: pound (avoirdupois) = 0.453 592 37 kg (exact); ton, short (2000 lb) = 907.184 74 kg (exact).
+    expect(toSI('mass', 1, 'lb')).toBe(0.00045359237);
+    expect(toSI('mass', 1, 'short ton')).toBeCloseTo(0.90718474, 12);
+    expect(toSI('mass', 1000, 'kg')).toBe(1);
+  });
+
   it('moments per run of support', () => {
     // NIST SP 811 B.8: pound-force foot (lbf·ft) = 1.355 818 E+00 N·m; per foot of wall, ÷ 0.3048 m.
     expectPublished(toSI('moment', 1, 'lbf·ft/ft') * 1000, 1.355818 / 0.3048, 6);
@@ -131,6 +138,12 @@ describe('formatting', () => {
     expect(formatQuantity('force', 50, 'us')).toBe('11.24 kip'); // 50 / 4.448222 = 11.241
     expect(formatQuantity('lineForce', 20, 'us')).toBe('1,370 lbf/ft'); // 20 / 0.01459390 = 1370.4
     expect(formatQuantity('lineForce', 20, 'us', { bare: true })).toBe('1,370');
+    // 21 t / 0.00045359237 t/lb = 46,297 lb, shown to the nearest 100 lb.
+    expect(formatQuantity('mass', 21, 'us')).toBe('46,300 lb');
+    expect(formatQuantity('mass', 21, 'metric')).toBe('21.0 t');
+    expect(parsed('46,300 lb', 'mass')).toBeCloseTo(21.0013, 4);
+    expect(parsed('23 tons', 'mass')).toBeCloseTo(20.865, 3); // 23 × 0.90718474 t
+    expect(parsed('21', 'mass', 'metric')).toBe(21);
     expect(unitLabel('pressure', 'us')).toBe('psf');
     expect(unitLabel('length', 'metric')).toBe('m');
   });
@@ -215,5 +228,8 @@ describe('sentences written in SI, read in US units', () => {
     );
     expect(localizeWords('φ′ 30°, 3 m deep', 'metric')).toBe('φ′ 30°, 3 m deep');
     expect(localizeWords('a 2 mm gap in 3 months', 'us')).toBe('a 2 mm gap in 3 months');
+    // 1000 t ÷ 0.00045359237 t/lb = 2,204,622.6 lb (NIST SP 811 B.8: pound (avoirdupois)).
+    expect(localizeWords('must be at most 1000 t', 'us')).toBe('must be at most 2,204,623 lb');
+    expect(localizeWords('a 5 t limit, not a tonne of text at 3 tph', 'us')).toBe('a 11,023 lb limit, not a tonne of text at 3 tph');
   });
 });

@@ -25,6 +25,8 @@ export const INCH = 0.0254;
 export const POUND_FORCE = 0.45359237 * 9.80665;
 /** 1 kip = 1000 lbf, in newtons (NIST SP 811, B.8: kip). */
 export const KIP = 1000 * POUND_FORCE;
+/** 1 lb (avoirdupois pound, a mass) in tonnes, exact (NIST SP 811, B.8: pound (avoirdupois)). */
+export const POUND_MASS_T = 0.45359237e-3;
 
 /**
  * SI value of one of each unit, in Brink's SI units for the quantity (m, kPa, kN, kN/m, kN/m³, kN·m/m).
@@ -42,6 +44,8 @@ const SI_PER = {
   unitWeight: { 'kN/m³': 1, pcf: POUND_FORCE / FOOT ** 3 / 1000 },
   /** Moment per run of support: kN·m/m; lbf·ft/ft (= lbf). */
   moment: { 'kN·m/m': 1, 'lbf·ft/ft': POUND_FORCE / 1000, 'kip·ft/ft': KIP / 1000 },
+  /** A machine's operating mass, in tonnes; the short ton is 2000 lb (NIST SP 811, B.8: ton, short). */
+  mass: { t: 1, kg: 0.001, lb: POUND_MASS_T, 'short ton': 2000 * POUND_MASS_T },
 } as const;
 
 export type Quantity = keyof typeof SI_PER;
@@ -66,6 +70,7 @@ const DISPLAY: Record<UnitSystem, { [Q in Quantity]: { unit: UnitOf<Q>; step: nu
     lineForce: { unit: 'kN/m', step: 0.1 },
     unitWeight: { unit: 'kN/m³', step: 0.1 },
     moment: { unit: 'kN·m/m', step: 0.1 },
+    mass: { unit: 't', step: 0.1 },
   },
   us: {
     length: { unit: 'ft', step: 0.1 },
@@ -74,6 +79,7 @@ const DISPLAY: Record<UnitSystem, { [Q in Quantity]: { unit: UnitOf<Q>; step: nu
     lineForce: { unit: 'lbf/ft', step: 1 },
     unitWeight: { unit: 'pcf', step: 1 },
     moment: { unit: 'lbf·ft/ft', step: 1 },
+    mass: { unit: 'lb', step: 100 },
   },
 };
 
@@ -207,6 +213,7 @@ const SPELLINGS: { [Q in Quantity]: Record<string, UnitOf<Q>> } = {
     'lbf/ft³': 'pcf',
   },
   moment: { 'kn·m/m': 'kN·m/m', 'knm/m': 'kN·m/m', 'lbf·ft/ft': 'lbf·ft/ft', 'kip·ft/ft': 'kip·ft/ft' },
+  mass: { t: 't', tonne: 't', tonnes: 't', kg: 'kg', lb: 'lb', lbs: 'lb', ton: 'short ton', tons: 'short ton' },
 };
 
 const EXAMPLES: Record<Quantity, string> = {
@@ -216,6 +223,7 @@ const EXAMPLES: Record<Quantity, string> = {
   lineForce: '30 kN/m, 2 kip/ft or 500 lbf/ft',
   unitWeight: '19 kN/m³ or 120 pcf',
   moment: '15 kN·m/m or 3000 lbf·ft/ft',
+  mass: '21 t, 46,300 lb or 23 tons',
 };
 
 export type Parsed = { ok: true; value: number } | { ok: false; reason: string };
@@ -286,7 +294,7 @@ export function localizeWords(text: string, system: UnitSystem): string {
   if (system === 'metric') return text;
   const fig = (v: number, places: number) => v.toLocaleString('en-US', { maximumFractionDigits: places, minimumFractionDigits: places });
   return text.replace(
-    /(-?\d{1,3}(?:,\d{3})+(?:\.\d+)?|-?\d+(?:\.\d+)?) ?(kPa\/m|kPa|kN\/m³|kN\/m|kN|m)(?![\w²³/·])/g,
+    /(-?\d{1,3}(?:,\d{3})+(?:\.\d+)?|-?\d+(?:\.\d+)?) ?(kPa\/m|kPa|kN\/m³|kN\/m|kN|m|t)(?![\w²³/·])/g,
     (_, num: string, unit: string) => {
       const v = Number(num.replace(/,/g, ''));
       switch (unit) {
@@ -300,6 +308,8 @@ export function localizeWords(text: string, system: UnitSystem): string {
           return `${fig(roundTo(inSystem('force', v, 'us'), 0.01), 2)} kip`;
         case 'kN/m':
           return `${fig(roundTo(inSystem('lineForce', v, 'us'), 1), 0)} lbf/ft`;
+        case 't':
+          return `${fig(roundTo(inSystem('mass', v, 'us'), 1), 0)} lb`;
         default:
           return `${fig(roundTo(inSystem('unitWeight', v, 'us'), 1), 0)} pcf`;
       }

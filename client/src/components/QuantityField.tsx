@@ -2,7 +2,7 @@ import type { Control, FieldPath, FieldValues } from 'react-hook-form';
 import type { ReactNode } from 'react';
 import type { Quantity } from '@shared/units';
 import { localizeWords } from '@shared/units';
-import { quantityInputProps, useQuantityInput, useQuantityText } from '@client/lib/units';
+import { quantityInputProps, useQuantityInput, useQuantityText } from '@client/lib/quantityInput';
 import { TextField } from './Fields';
 
 interface QuantityFieldProps<T extends FieldValues, Out extends FieldValues> {
@@ -54,4 +54,27 @@ export function QuantityBox({ label, quantity, value, onChange, error, hint }: Q
       onChange={box.onChange}
     />
   );
+}
+
+interface QuantityCellProps<T extends FieldValues, Out extends FieldValues> {
+  control: Control<T, unknown, Out>;
+  name: FieldPath<T>;
+  quantity: Quantity;
+  /** The cell's accessible name, given the person's unit ("Layer 1 top (ft)"). */
+  label: (unit: string) => string;
+  className: string;
+  disabled?: boolean;
+}
+
+/** A table cell's box for a figure in the person's units (the form keeps SI); its refusal is listed under the table. */
+export function QuantityCell<T extends FieldValues, Out extends FieldValues>({
+  control,
+  name,
+  quantity,
+  label,
+  className,
+  disabled,
+}: QuantityCellProps<T, Out>) {
+  const { unit, error, input } = useQuantityInput(control, name, quantity);
+  return <input aria-label={label(unit)} aria-invalid={error ? true : undefined} className={className} disabled={disabled} {...input} />;
 }

@@ -1,5 +1,6 @@
 import { useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
+import { QuantityField } from '@client/components/QuantityField';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { siteSchema, surchargeMethodLabels, surchargeMethods, type Site, type SiteInput } from '@shared/schemas/sites';
 import { unitSystemLabels, unitSystems } from '@shared/units';
@@ -40,7 +41,7 @@ interface SiteFormProps {
 export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
   const zones = useMemo(timeZones, []);
   const [summary, setSummary] = useState<string | null>(null);
-  const { register, handleSubmit, setError, setValue, getValues, watch, formState } = useForm({
+  const { register, control, handleSubmit, setError, setValue, getValues, watch, formState } = useForm({
     resolver: zodResolver(siteSchema),
     defaultValues: site
       ? {
@@ -122,16 +123,12 @@ export function SiteForm({ site, onSave, saveLabel }: SiteFormProps) {
             <option key={z} value={z} />
           ))}
         </datalist>
-        <TextField
-          label="Minimum edge clearance (m)"
-          type="number"
-          step="0.05"
-          min={0}
-          max={10}
-          inputMode="decimal"
+        <QuantityField
+          control={control}
+          name="minimumClearance"
+          quantity="length"
+          label="Minimum edge clearance"
           hint="No load closer than this to any excavation edge, whatever the check says."
-          error={errors.minimumClearance?.message}
-          {...register('minimumClearance', number)}
         />
         <SelectField
           label="Default surcharge method"

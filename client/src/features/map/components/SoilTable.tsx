@@ -3,7 +3,8 @@ import { Button } from '@client/components/Button';
 import { ListErrors, listErrorMessages, RemoveRowButton } from '@client/components/ListErrors';
 import type { ExcavationValues } from '@shared/schemas/excavations';
 import type { Quantity } from '@shared/units';
-import { useFigures, useQuantityInput } from '@client/lib/units';
+import { QuantityCell } from '@client/components/QuantityField';
+import { useFigures } from '@client/lib/units';
 import { emptyRow, numberOrNull, type ExcavationFormValues, type SoilRow } from './excavationFormValues';
 
 interface SoilTableProps {
@@ -90,15 +91,19 @@ export function SoilTable({ control, register, watch, errors, readOnly }: SoilTa
                     const invalid = Boolean((errors.soil?.[i] as Record<string, unknown> | undefined)?.[c.key]);
                     const name = `soil.${i}.${c.key}` as const;
                     return c.quantity ? (
-                      <QuantityCell
-                        key={c.key}
-                        control={control}
-                        name={name}
-                        quantity={c.quantity}
-                        row={i}
-                        column={c}
-                        disabled={readOnly}
-                      />
+                      <label key={c.key} className="flex min-w-0 flex-col gap-0.5">
+                        <span aria-hidden="true">
+                          {c.label} <span className="text-ink-soft">({figures.unit(c.quantity)})</span>
+                        </span>
+                        <QuantityCell
+                          control={control}
+                          name={name}
+                          quantity={c.quantity}
+                          label={(unit) => `Layer ${i + 1} ${longNames[c.key]} (${unit})`}
+                          className={cell}
+                          disabled={readOnly}
+                        />
+                      </label>
                     ) : (
                       <label key={c.key} className="flex min-w-0 flex-col gap-0.5">
                         <span aria-hidden="true">
@@ -131,33 +136,5 @@ export function SoilTable({ control, register, watch, errors, readOnly }: SoilTa
         </div>
       ) : null}
     </fieldset>
-  );
-}
-
-interface QuantityCellProps {
-  control: SoilTableProps['control'];
-  name: `soil.${number}.${Column['key']}`;
-  quantity: Quantity;
-  row: number;
-  column: Column;
-  disabled: boolean;
-}
-
-/** One figure of a layer in the person's units (the form keeps SI); its refusal is listed under the table. */
-function QuantityCell({ control, name, quantity, row, column, disabled }: QuantityCellProps) {
-  const { unit, error, input } = useQuantityInput(control, name, quantity);
-  return (
-    <label className="flex min-w-0 flex-col gap-0.5">
-      <span aria-hidden="true">
-        {column.label} <span className="text-ink-soft">({unit})</span>
-      </span>
-      <input
-        aria-label={`Layer ${row + 1} ${longNames[column.key]} (${unit})`}
-        aria-invalid={error ? true : undefined}
-        className={cell}
-        disabled={disabled}
-        {...input}
-      />
-    </label>
   );
 }

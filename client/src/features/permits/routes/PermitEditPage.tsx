@@ -46,7 +46,8 @@ import { CheckSheets } from '../components/CheckSheet';
 import { PlacementMap } from '../components/PlacementMap';
 import { centreOf, moveLoad, rectangle, segment } from '../components/placement';
 import { fromLocalInput, toLocalInput } from '../components/time';
-import { readQuantity, useFigures, useUnits } from '@client/lib/units';
+import { useFigures, useUnits } from '@client/lib/units';
+import { readQuantity } from '@client/lib/quantityInput';
 import { QuantityBox } from '@client/components/QuantityField';
 import { inSystem, unitLabel } from '@shared/units';
 

@@ -14,19 +14,21 @@ import {
 import { Button } from '@client/components/Button';
 import { FormSummary, SelectField, TextField } from '@client/components/Fields';
 import { ListErrors, listErrorMessages, RemoveRowButton } from '@client/components/ListErrors';
+import { QuantityCell, QuantityField } from '@client/components/QuantityField';
 import { applyServerErrors, maxLengths } from '@client/lib/forms';
+import { useFigures } from '@client/lib/units';
 
 const max = maxLengths(plantItemSchema.shape);
 const elementMax = maxLengths(plantElementSchema.shape);
 import { Footprint } from './Footprint';
 
 const num = { setValueAs: (v: unknown) => (v === '' || v === null || v === undefined ? undefined : Number(v)) } as const;
-const elementColumns = [
-  ['x', 'x (m)'],
-  ['y', 'y (m)'],
-  ['length', 'Length along x (m)'],
-  ['width', 'Width along y (m)'],
-  ['share', 'Share of weight'],
+/** The figures of a bearing element: four lengths in the person's units, then a share (no unit). */
+const elementLengths = [
+  ['x', 'x'],
+  ['y', 'y'],
+  ['length', 'Length along x'],
+  ['width', 'Width along y'],
 ] as const;
 const cell = 'w-24 rounded border border-rule-strong bg-sheet px-2 py-1.5 text-right aria-[invalid=true]:border-error-text';
 
@@ -45,6 +47,7 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
     defaultValues: initial,
   });
   const { fields, append, remove } = useFieldArray({ control, name: 'elements' });
+  const figures = useFigures();
   const { errors } = formState;
   const elements = watch('elements') ?? [];
   const drawable = elements.filter(
@@ -57,7 +60,7 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
     fields.length,
     'Bearing elements',
     (i, k) => `Element ${i + 1} ${k}`,
-  );
+  ).map(figures.words);
 
   const submit = handleSubmit(
     async (values) => {
@@ -82,14 +85,12 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
           error={errors.category?.message}
           {...register('category')}
         />
-        <TextField
-          label="Operating mass (t)"
-          type="number"
-          step="any"
-          inputMode="decimal"
+        <QuantityField
+          control={control}
+          name="operatingMass"
+          quantity="mass"
+          label="Operating mass"
           hint="As it stands beside the excavation: laden, with its attachment"
-          error={errors.operatingMass?.message}
-          {...register('operatingMass', num)}
         />
         <TextField
           label="Design factor"
@@ -122,11 +123,14 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
                 <th scope="col" className="px-1 text-left">
                   Kind
                 </th>
-                {elementColumns.map(([, label]) => (
+                {elementLengths.map(([, label]) => (
                   <th key={label} scope="col" className="px-1 text-right">
-                    {label}
+                    {label} ({figures.unit('length')})
                   </th>
                 ))}
+                <th scope="col" className="px-1 text-right">
+                  Share of weight
+                </th>
                 <th scope="col">
                   <span className="sr-only">Remove</span>
                 </th>
@@ -157,19 +161,28 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
                       ))}
                     </select>
                   </td>
-                  {elementColumns.map(([key, label]) => (
+                  {elementLengths.map(([key, label]) => (
                     <td key={key} className="px-1 py-1">
-                      <input
-                        type="number"
-                        step="any"
-                        inputMode="decimal"
-                        aria-label={`Element ${i + 1} ${label}`}
-                        aria-invalid={Boolean(errors.elements?.[i]?.[key]) || undefined}
+                      <QuantityCell
+                        control={control}
+                        name={`elements.${i}.${key}`}
+                        quantity="length"
+                        label={(unit) => `Element ${i + 1} ${label} (${unit})`}
                         className={cell}
-                        {...register(`elements.${i}.${key}`, num)}
                       />
                     </td>
                   ))}
+                  <td className="px-1 py-1">
+                    <input
+                      type="number"
+                      step="any"
+                      inputMode="decimal"
+                      aria-label={`Element ${i + 1} Share of weight`}
+                      aria-invalid={Boolean(errors.elements?.[i]?.share) || undefined}
+                      className={cell}
+                      {...register(`elements.${i}.share`, num)}
+                    />
+                  </td>
                   <td className="px-1">
                     {fields.length > 1 ? <RemoveRowButton label={`Remove element ${i + 1}`} onClick={() => remove(i)} /> : null}
                   </td>

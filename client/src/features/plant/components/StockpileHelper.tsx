@@ -1,18 +1,22 @@
 import { useState } from 'react';
 import { stockpileMaterials, stockpilePressure } from '@shared/schemas/plant';
-import { SelectField, TextField } from '@client/components/Fields';
+import { SelectField } from '@client/components/Fields';
+import { QuantityBox } from '@client/components/QuantityField';
+import { useFigures } from '@client/lib/units';
 
 /**
  * A stockpile presses on the ground with its unit weight times its height. The typical unit weights
  * offered are starting points; the material's own figure prevails.
  */
 export function StockpileHelper() {
+  const figures = useFigures();
   const [material, setMaterial] = useState<string>(stockpileMaterials[1].name);
-  const [unitWeight, setUnitWeight] = useState<string>(String(stockpileMaterials[1].unitWeight));
-  const [height, setHeight] = useState('1.5');
-  const g = Number(unitWeight);
-  const h = Number(height);
-  const valid = unitWeight !== '' && height !== '' && Number.isFinite(g) && Number.isFinite(h) && g > 0 && g <= 30 && h > 0 && h <= 20;
+  const [unitWeight, setUnitWeight] = useState<number | null>(stockpileMaterials[1].unitWeight);
+  const [height, setHeight] = useState<number | null>(1.5);
+  const g = unitWeight ?? Number.NaN;
+  const h = height ?? Number.NaN;
+  const goodWeight = g > 0 && g <= 30;
+  const goodHeight = h > 0 && h <= 20;
   return (
     <section className="flex flex-col gap-3 rounded-lg border border-rule bg-sheet p-5" aria-labelledby="stockpile-h">
       <h2 id="stockpile-h" className="text-xl font-bold">
@@ -26,43 +30,36 @@ export function StockpileHelper() {
         <SelectField
           label="Material"
           options={[
-            ...stockpileMaterials.map((m) => ({ value: m.name, label: `${m.name} (about ${m.unitWeight} kN/m³)` })),
+            ...stockpileMaterials.map((m) => ({ value: m.name, label: `${m.name} (about ${figures.unitWeight(m.unitWeight)})` })),
             { value: 'other', label: 'Other (type the unit weight)' },
           ]}
           value={material}
           onChange={(e) => {
             setMaterial(e.target.value);
             const m = stockpileMaterials.find((x) => x.name === e.target.value);
-            if (m) setUnitWeight(String(m.unitWeight));
+            if (m) setUnitWeight(m.unitWeight);
           }}
         />
-        <TextField
-          label="Unit weight γ (kN/m³)"
-          type="number"
-          step="0.5"
-          min={1}
-          max={30}
-          inputMode="decimal"
+        <QuantityBox
+          label="Unit weight γ"
+          quantity="unitWeight"
           value={unitWeight}
-          onChange={(e) => setUnitWeight(e.target.value)}
-          error={unitWeight !== '' && !(g > 0 && g <= 30) ? 'must be more than 0 and at most 30 kN/m³' : undefined}
+          onChange={setUnitWeight}
+          error={unitWeight !== null && !goodWeight ? 'must be more than 0 and at most 30 kN/m³' : undefined}
         />
-        <TextField
-          label="Height (m)"
-          type="number"
-          step="0.1"
-          min={0}
-          max={20}
-          inputMode="decimal"
+        <QuantityBox
+          label="Height"
+          quantity="length"
           value={height}
-          onChange={(e) => setHeight(e.target.value)}
-          error={height !== '' && !(h > 0 && h <= 20) ? 'must be more than 0 and at most 20 m' : undefined}
+          onChange={setHeight}
+          error={height !== null && !goodHeight ? 'must be more than 0 and at most 20 m' : undefined}
         />
       </div>
       <p className="text-lg" role="status" aria-live="polite">
-        {valid ? (
+        {goodWeight && goodHeight ? (
           <>
-            Pressure on the ground: <strong>{stockpilePressure(g, h).toFixed(1)} kPa</strong> ({g} kN/m³ × {h} m)
+            Pressure on the ground: <strong>{figures.pressure(stockpilePressure(g, h))}</strong> ({figures.unitWeight(g)} ×{' '}
+            {figures.length(h)})
           </>
         ) : (
           'Give a unit weight and a height.'
