@@ -3,7 +3,7 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { fakeApi, renderAt } from '@client/test/render';
+import { fakePersonIn, renderAt } from '@client/test/render';
 import { QuantityField } from './QuantityField';
 import '@client/lib/forms';
 
@@ -30,16 +30,9 @@ function Form({ onSave, initial }: { onSave: (v: z.output<typeof schema>) => voi
   );
 }
 
-function signedInAs(units: 'us' | 'metric') {
-  fakeApi({
-    'GET /api/auth/me': { status: 200, body: { user: { id: 1, email: 'a@b.test', name: 'A', isAdmin: false, units, memberships: [] } } },
-    'GET /api/sites': { status: 200, body: { sites: [] } },
-  });
-}
-
 describe('a figure typed in the person’s units and kept in SI', () => {
   it('shows a US person feet and psf, reads feet and inches, and saves metres and kPa', async () => {
-    signedInAs('us');
+    fakePersonIn('us');
     const onSave = vi.fn();
     renderAt(<Form onSave={onSave} initial={{ depth: 1.524, surcharge: 10 }} />);
     // 1.524 m = 5 ft exactly; 10 kPa = 208.85 psf.
@@ -57,7 +50,7 @@ describe('a figure typed in the person’s units and kept in SI', () => {
   });
 
   it('refuses what it cannot read, naming the field and giving an example, and keeps the text', async () => {
-    signedInAs('us');
+    fakePersonIn('us');
     const onSave = vi.fn();
     renderAt(<Form onSave={onSave} initial={{ depth: null, surcharge: null }} />);
     const depth = await screen.findByLabelText('Depth H (ft)');
@@ -69,7 +62,7 @@ describe('a figure typed in the person’s units and kept in SI', () => {
   });
 
   it('restates a limit written in SI in the person’s units (30 m = 98.43 ft)', async () => {
-    signedInAs('us');
+    fakePersonIn('us');
     renderAt(<Form onSave={vi.fn()} initial={{ depth: null, surcharge: null }} />);
     const depth = await screen.findByLabelText('Depth H (ft)');
     fireEvent.change(depth, { target: { value: '100' } });
@@ -81,7 +74,7 @@ describe('a figure typed in the person’s units and kept in SI', () => {
   });
 
   it('reads a metric person in metres, with centimetres accepted', async () => {
-    signedInAs('metric');
+    fakePersonIn('metric');
     const onSave = vi.fn();
     renderAt(<Form onSave={onSave} initial={{ depth: 2, surcharge: null }} />);
     const depth = await screen.findByLabelText('Depth H (m)');

@@ -37,6 +37,14 @@ export function fakeApi(answers: Record<string, FakeAnswer | (() => FakeAnswer)>
 }
 
 /** Renders one element at a path inside the app's query client and a memory router. */
+/** A signed-in person with no sites who reads figures in `units` (the rest of the API answers 404). */
+export function fakePersonIn(units: 'us' | 'metric') {
+  return fakeApi({
+    'GET /api/auth/me': { status: 200, body: { user: { id: 1, email: 'a@b.test', name: 'A', isAdmin: false, units, memberships: [] } } },
+    'GET /api/sites': { status: 200, body: { sites: [] } },
+  });
+}
+
 export function renderAt(element: ReactElement, path = '/') {
   const router = createMemoryRouter([{ path: '*', element }], { initialEntries: [path] });
   return render(

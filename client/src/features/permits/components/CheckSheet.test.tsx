@@ -2,7 +2,7 @@ import { screen, within } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { localProjection } from '@shared/geometry';
 import { cumulativeCheck } from '@shared/permits/check';
-import { fakeApi, renderAt } from '@client/test/render';
+import { fakePersonIn, renderAt } from '@client/test/render';
 import { CheckSheets } from './CheckSheet';
 
 // A pit 5 m square and 3 m deep in sand with c′ 5 kPa, and a 15.2 kN/m line load 1 m from its north
@@ -74,13 +74,7 @@ describe('the calculation sheet', () => {
   });
 
   it('reads in feet and pounds for a person who chose US customary units, the standoff rounded up (NIST SP 811: 1 ft = 0.3048 m)', async () => {
-    fakeApi({
-      'GET /api/auth/me': {
-        status: 200,
-        body: { user: { id: 1, email: 'a@b.test', name: 'A', isAdmin: false, units: 'us', memberships: [] } },
-      },
-      'GET /api/sites': { status: 200, body: { sites: [] } },
-    });
+    fakePersonIn('us');
     const view = within(renderAt(<CheckSheets check={check()} />).container);
     // 1.24 m = 4.068 ft, shown 4.1 ft (rounded up); the OSHA rule in the caution.
     await view.findByText(/OSHA 29 CFR 1926 Subpart P/);

@@ -1,6 +1,6 @@
 import { cleanup, fireEvent, screen, waitFor } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { fakeApi, renderAt } from '@client/test/render';
+import { fakePersonIn, renderAt } from '@client/test/render';
 import { PlantForm } from './PlantForm';
 
 // An invented 21 t tracked machine on two tracks 4.2 m long, 0.6 m wide, 2.4 m apart.
@@ -18,13 +18,7 @@ const initial = {
 
 describe('a machine of the library, for a person in US customary units', () => {
   it('reads and takes its mass in pounds and its tracks in feet, and keeps tonnes and metres (NIST SP 811 B.8: 1 lb = 0.45359237 kg, 1 ft = 0.3048 m)', async () => {
-    fakeApi({
-      'GET /api/auth/me': {
-        status: 200,
-        body: { user: { id: 1, email: 'a@b.test', name: 'A', isAdmin: false, units: 'us', memberships: [] } },
-      },
-      'GET /api/sites': { status: 200, body: { sites: [] } },
-    });
+    fakePersonIn('us');
     const onSave = vi.fn(async () => undefined);
     renderAt(<PlantForm initial={initial} saveLabel="Save machine" onSave={onSave} onCancel={() => undefined} />);
     const mass = (await screen.findByLabelText('Operating mass (lb)')) as HTMLInputElement;
@@ -41,13 +35,7 @@ describe('a machine of the library, for a person in US customary units', () => {
   });
 
   it('says a limit in pounds, by the field’s label', async () => {
-    fakeApi({
-      'GET /api/auth/me': {
-        status: 200,
-        body: { user: { id: 1, email: 'a@b.test', name: 'A', isAdmin: false, units: 'us', memberships: [] } },
-      },
-      'GET /api/sites': { status: 200, body: { sites: [] } },
-    });
+    fakePersonIn('us');
     const onSave = vi.fn(async () => undefined);
     renderAt(<PlantForm initial={initial} saveLabel="Save machine" onSave={onSave} onCancel={() => undefined} />);
     fireEvent.change(await screen.findByLabelText('Operating mass (lb)'), { target: { value: '3,000,000' } });
