@@ -2,7 +2,8 @@ import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type request from 'supertest';
 import { DEMO_PASSWORD, signedIn, startTestApp, unique, type TestApp } from './helpers';
-import { act, makeWorld, permitBody, version, type PermitWorld } from './permits-fixtures';
+import { runPermitSchedule } from '../src/jobs/permits';
+import { act, hoursFrom, makeWorld, permitBody, version, type PermitWorld } from './permits-fixtures';
 import { startFakePushService } from '../src/push/fake-service';
 
 /**
@@ -152,6 +153,34 @@ describe('notifications of a permit', () => {
       .execute();
     expect(outcomes.map((o) => o.outcome)).toEqual(['sent', 'sent', 'gone']);
     expect(await received(d.clientHash)).toHaveLength(2);
+  });
+
+  it('tells the named operator when their live permit lapses at the end of its window', async () => {
+    const d = await device();
+    expect((await people.operator.agent.post('/api/push/subscription').send({ endpoint: d.endpoint, keys: d.keys })).status).toBe(201);
+    const base = new Date('2031-04-07T07:00:00Z');
+    t.clock.now = base;
+    try {
+      const body = permitBody(w, { operatorIds: [people.operator.id], windowStart: hoursFrom(base, -1), windowEnd: hoursFrom(base, 2) });
+      const created = await people.supervisor.agent.post('/api/permits').send(body);
+      expect(created.status).toBe(201);
+      const id = created.body.permit.id as number;
+      const number = created.body.permit.number as string;
+      expect((await act(people.supervisor.agent, id, { action: 'submit', version: await version(w, id) })).status).toBe(200);
+      expect(
+        (await act(w.agents.coordinator, id, { action: 'approve', version: await version(w, id), password: DEMO_PASSWORD })).status,
+      ).toBe(200);
+      expect((await people.operator.agent.post(`/api/permits/${id}/briefing`)).body.briefing.status).toBe('live');
+      t.clock.now = new Date(base.getTime() + 2 * 3600_000 + 60_000);
+      expect((await runPermitSchedule(t.deps, { permitIds: [id] })).lapsed).toContain(id);
+      await expect
+        .poll(async () => (await received(d.clientHash)).filter((m) => m.path === `/field/permits/${id}`).map((m) => m.title), {
+          timeout: 20_000,
+        })
+        .toEqual([`Permit ${number} is live`, `Permit ${number} has lapsed`]);
+    } finally {
+      t.clock.now = null;
+    }
   });
 
   it('tells the supervisor who asked for the permit of a concern, opening the permit page', async () => {
