@@ -45,6 +45,8 @@ import { StatusLabel } from '../components/StatusLabel';
 import { when } from '../components/time';
 import { timelineLine } from '../components/timeline';
 import { useFigures } from '@client/lib/units';
+import { QuantityBox } from '@client/components/QuantityField';
+import { fromSystem, inSystem, roundTo } from '@shared/units';
 
 const decisionMax = maxLengths(transitionSchema.shape);
 const commentMax = maxLengths(commentSchema.shape);
@@ -314,7 +316,10 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
   const computed = permit.current.check?.computedStandoff ?? null;
   const [reason, setReason] = useState('');
   const [withStandoff, setWithStandoff] = useState(action === 'approve' && computed !== null && computed > 0);
-  const [standoff, setStandoff] = useState(computed !== null ? String(Math.ceil(computed * 10) / 10) : '');
+  // Offered: the computed standoff rounded up to 0.1 of the person's unit (0.1 m or 0.1 ft), never less.
+  const [standoff, setStandoff] = useState<number | null>(() =>
+    computed !== null ? fromSystem('length', roundTo(inSystem('length', computed, figures.system), 0.1, 'up'), figures.system) : null,
+  );
   const [ticked, setTicked] = useState<string[]>([]);
   const [extra, setExtra] = useState('');
   const [password, setPassword] = useState('');
@@ -336,7 +341,7 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
         version: permit.version,
         ...(reason.trim() ? { reason: reason.trim() } : {}),
         ...(rule.signed ? { password } : {}),
-        ...(action === 'approve' ? { conditions, ...(withStandoff && standoff !== '' ? { standoff: Number(standoff) } : {}) } : {}),
+        ...(action === 'approve' ? { conditions, ...(withStandoff && standoff !== null ? { standoff } : {}) } : {}),
       });
       onDone(doneMessages[action] ?? `${rule.label}: done.`);
     } catch (e) {
@@ -366,13 +371,11 @@ function TransitionForm({ permit, action, onDone }: { permit: PermitDetail; acti
           </p>
           <CheckboxField label="Approve with a standoff" checked={withStandoff} onChange={(e) => setWithStandoff(e.target.checked)} />
           {withStandoff ? (
-            <TextField
-              label="Standoff from the excavation edge (m)"
-              type="number"
-              step="0.01"
-              min="0"
+            <QuantityBox
+              label="Standoff from the excavation edge"
+              quantity="length"
               value={standoff}
-              onChange={(e) => setStandoff(e.target.value)}
+              onChange={setStandoff}
               error={f.standoff}
               hint="At least the computed standoff, or give a reason below."
             />
