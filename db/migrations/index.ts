@@ -10,6 +10,7 @@ import * as m0009 from './0009_revision_snapshots';
 import * as m0010 from './0010_push';
 import * as m0011 from './0011_attempt_counts';
 import * as m0012 from './0012_units';
+import * as m0013 from './0013_list_indexes';
 
 /**
  * Every migration, in order. Listed here (not read from the folder) so that the same code runs
@@ -27,4 +28,5 @@ export const migrations: Record<string, Migration> = {
   '0010_push': m0010,
   '0011_attempt_counts': m0011,
   '0012_units': m0012,
+  '0013_list_indexes': m0013,
 };

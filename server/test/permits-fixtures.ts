@@ -61,7 +61,7 @@ export async function trenchBeside(w: PermitWorld, north: number): Promise<{ id:
   return addTrench(w.t, w.siteId, w.origin, [w.trenchCentre[0], w.trenchCentre[1] + north]);
 }
 
-async function addTrench(
+export async function addTrench(
   t: TestApp,
   siteId: number,
   origin: [number, number],

@@ -277,7 +277,13 @@ export const excavationAnswer = z.object({
   updatedAt: z.iso.datetime(),
 });
 export type Excavation = z.output<typeof excavationAnswer>;
-export const excavationsAnswer = z.object({ excavations: z.array(excavationAnswer) });
+/** GET /api/sites/:siteId/excavations: one page, ordered by reference, and the cursor of the next (null on the last). */
+export const excavationsAnswer = z.object({ excavations: z.array(excavationAnswer), next: z.string().nullable() });
+export const excavationListQuerySchema = z.object({
+  limit: z.coerce.number().int().min(1).max(1000).default(500),
+  /** The `next` of the page before. */
+  cursor: z.string().max(300, 'must be at most 300 characters').optional(),
+});
 export const oneExcavationAnswer = z.object({ excavation: excavationAnswer });
 
 /** Fields a site plan image is pinned by: its south-west and north-east corners, and how opaque it is drawn. */

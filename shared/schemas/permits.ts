@@ -425,6 +425,8 @@ export const permitListQuerySchema = z.object({
   sort: z.enum(permitSorts).default('updated'),
   order: z.enum(['asc', 'desc']).default('desc'),
   limit: z.coerce.number().int().min(1).max(500).default(200),
+  /** Where the page starts: the `next` of the page before (opaque; keeps the sort and filters of the first page's query). */
+  cursor: z.string().max(300, 'must be at most 300 characters').optional(),
 });
 export type PermitListQuery = z.infer<typeof permitListQuerySchema>;
 
@@ -697,6 +699,12 @@ export type CheckStandoffs = z.output<typeof checkStandoffsSchema>;
 export const storedCheckStandoffs = (json: Stored<CheckStandoffs> | null): CheckStandoffs | null =>
   readStoredOrNull('permit check', checkStandoffsSchema, json);
 
+/** The verdict of a stored check alone (what a list shows), read without the rest of it. */
+export const checkVerdictSchema = permitCheckSchema.pick({ utilisation: true, passes: true });
+export type CheckVerdict = z.output<typeof checkVerdictSchema>;
+export const storedCheckVerdict = (json: Stored<CheckVerdict> | null): CheckVerdict | null =>
+  readStoredOrNull('permit check', checkVerdictSchema, json);
+
 /** A revision's placed loads as stored (permit_revisions.loads). */
 export const storedLoads = (json: Stored<PlacedLoad[]>): PlacedLoad[] =>
   readStored('list of placed loads', z.array(placedLoadSchema), json);
@@ -748,8 +756,8 @@ export const permitDetailAnswer = permitSummaryAnswer.extend({
 });
 export type PermitDetail = z.output<typeof permitDetailAnswer>;
 
-/** GET /api/permits */
-export const permitsAnswer = z.object({ permits: z.array(permitSummaryAnswer) });
+/** GET /api/permits: one page, and the cursor of the next (null on the last page). */
+export const permitsAnswer = z.object({ permits: z.array(permitSummaryAnswer), next: z.string().nullable() });
 /** One permit as it now is: GET /api/permits/:id and every change (create, PATCH, transitions). */
 export const onePermitAnswer = z.object({ permit: permitDetailAnswer });
 /** GET /api/permits/:id/revisions/:revision */

@@ -16,9 +16,21 @@ export const excavationKeys = {
 export function useExcavations(siteId: number) {
   return useQuery({
     queryKey: excavationKeys.site(siteId),
-    queryFn: ({ signal }) =>
-      api.get<z.output<typeof excavationsAnswer>>(`/api/sites/${siteId}/excavations`, signal).then((r) => r.excavations),
+    queryFn: ({ signal }) => allExcavations(siteId, signal),
   });
+}
+
+/** Every excavation of a site: the map draws them all, so the pages are followed to the last. */
+async function allExcavations(siteId: number, signal: AbortSignal) {
+  const out: z.output<typeof excavationsAnswer>['excavations'] = [];
+  let cursor: string | null = null;
+  do {
+    const qs: string = cursor ? `?cursor=${encodeURIComponent(cursor)}` : '';
+    const page: z.output<typeof excavationsAnswer> = await api.get(`/api/sites/${siteId}/excavations${qs}`, signal);
+    out.push(...page.excavations);
+    cursor = page.next;
+  } while (cursor);
+  return out;
 }
 
 /** The site plan image pinned to the map, or null. */

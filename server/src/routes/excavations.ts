@@ -4,6 +4,7 @@ import { idSchema } from '@shared/schemas/common';
 import { oneOf } from '@shared/schemas/messages';
 import {
   changedExcavationAnswer,
+  excavationListQuerySchema,
   excavationsAnswer,
   historyAnswer,
   importAnswer,
@@ -25,7 +26,7 @@ import {
   siteOrigin,
   updateExcavation,
 } from '../services/excavation-changes';
-import { loadExcavations, toFeatureCollection } from '../services/excavations';
+import { loadExcavationPage, loadExcavations, toFeatureCollection } from '../services/excavations';
 import { filesOf, limits, MB, receiveFiles, storeUpload } from '../services/uploads';
 
 /** Every member of the site reads the register (and administrators). */
@@ -95,14 +96,15 @@ export function registerExcavationRoutes(api: Api): void {
       method: 'get',
       path: '/api/sites/:siteId/excavations',
       response: excavationsAnswer,
-      summary: "The site's excavations with their supports, soil, outline and influence zone",
+      summary: "The site's excavations with their supports, soil, outline and influence zone, by reference, a page at a time (`next`)",
       tag: 'Excavations',
       access: siteReaders,
       params: siteParams,
+      query: excavationListQuerySchema,
     },
-    async ({ params }) => {
+    async ({ params, query }) => {
       await siteOrigin(db, params.siteId);
-      return { excavations: await loadExcavations(db, params.siteId) };
+      return loadExcavationPage(db, params.siteId, query);
     },
   );
 

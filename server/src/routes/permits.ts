@@ -181,7 +181,7 @@ export function registerPermitRoutes(api: Api): void {
       method: 'get',
       path: '/api/permits',
       summary:
-        'Permits I may see: awaiting my review, my requests, live now, or all, filtered by site, status, kind, excavation and window, sorted',
+        'Permits I may see: awaiting my review, my requests, live now, or all, filtered by site, status, kind, excavation, window and text, sorted, a page at a time (`next` is the cursor of the next page)',
       tag: 'Permits',
       access: { kind: 'signedIn' },
       query: permitListQuerySchema,
@@ -197,7 +197,7 @@ export function registerPermitRoutes(api: Api): void {
           .executeTakeFirst();
         if (!m) throw forbidden('You are not a member of this site.');
       }
-      return { permits: await listPermits(db, user, query) };
+      return listPermits(db, user, query);
     },
   );
 

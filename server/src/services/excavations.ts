@@ -28,6 +28,7 @@ import { outlineOf, shapeColumns, type SiteOrigin } from '@shared/geometry/shape
 import { GeometryTimeout, type GeometryPool } from './geometry/pool';
 import type { Db, ExcavationsTable } from '@db/database';
 import { badRequest, zodFields } from '../http';
+import { decodeCursor, pageOf } from './cursor';
 
 type Row = Selectable<ExcavationsTable>;
 export { projectionOf, type SiteOrigin } from '@shared/geometry/shapes';
@@ -154,6 +155,17 @@ function excavationOut(r: Row, drawing: Excavation['drawing']): Excavation {
   };
 }
 
+/** A site's excavations with their drawing's name and size, by reference. */
+function siteExcavations(db: Db, siteId: number) {
+  return db
+    .selectFrom('excavations')
+    .leftJoin('uploads', 'uploads.id', 'excavations.drawing_upload_id')
+    .selectAll('excavations')
+    .select(['uploads.original_name as drawing_name', 'uploads.size as drawing_size'])
+    .where('excavations.site_id', '=', siteId)
+    .orderBy('excavations.reference');
+}
+
 /**
  * The excavations of a site (all, or those with the given ids), ordered by reference, each with the
  * support and soil fields named as in the calculation request, its ground outline and influence
@@ -161,20 +173,28 @@ function excavationOut(r: Row, drawing: Excavation['drawing']): Excavation {
  */
 export async function loadExcavations(db: Db, siteId: number, ids?: number[]): Promise<Excavation[]> {
   if (ids && ids.length === 0) return [];
-  let q = db
-    .selectFrom('excavations')
-    .leftJoin('uploads', 'uploads.id', 'excavations.drawing_upload_id')
-    .selectAll('excavations')
-    .select(['uploads.original_name as drawing_name', 'uploads.size as drawing_size'])
-    .where('excavations.site_id', '=', siteId)
-    .orderBy('excavations.reference');
+  let q = siteExcavations(db, siteId);
   if (ids) q = q.where('excavations.id', 'in', ids);
-  return (await q.execute()).map((r) =>
-    excavationOut(
-      r,
-      r.drawing_upload_id ? { id: r.drawing_upload_id, name: r.drawing_name ?? 'drawing.pdf', size: r.drawing_size ?? 0 } : null,
-    ),
+  return (await q.execute()).map(rowOut);
+}
+
+function rowOut(r: Row & { drawing_name: string | null; drawing_size: number | null }): Excavation {
+  return excavationOut(
+    r,
+    r.drawing_upload_id ? { id: r.drawing_upload_id, name: r.drawing_name ?? 'drawing.pdf', size: r.drawing_size ?? 0 } : null,
   );
+}
+
+/** A page of a site's excavations by reference (the map and the register follow `next`). */
+export async function loadExcavationPage(
+  db: Db,
+  siteId: number,
+  q: { limit: number; cursor?: string },
+): Promise<{ excavations: Excavation[]; next: string | null }> {
+  let query = siteExcavations(db, siteId);
+  if (q.cursor) query = query.where('excavations.reference', '>', decodeCursor(q.cursor)[0]);
+  const { page, next } = pageOf(await query.limit(q.limit + 1).execute(), q.limit, (r) => r.reference);
+  return { excavations: page.map(rowOut), next };
 }
 
 /** Properties written for each excavation in a GeoJSON export (and read back on import). */

@@ -11,6 +11,8 @@ import {
   type PermitRevision,
   type PermitSummary,
   storedCheck,
+  storedCheckVerdict,
+  type CheckVerdict,
   storedLoads,
   storedDig,
   storedDecision,
@@ -19,6 +21,8 @@ import {
   storedEventDetail,
 } from '@shared/schemas/permits';
 import { CAUTION } from '@shared/caution';
+import type { Stored } from '@shared/schemas/stored';
+import { decodeCursor, pageOf } from '../cursor';
 import { DECISIONS, isAuthorOf } from './actors';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
@@ -53,13 +57,15 @@ function summaryQuery(db: Db) {
       'r.window_start',
       'r.window_end',
       'r.excavation_ids',
-      'r.check_result',
+      // The list shows the verdict only: two fields, not the whole check (kilobytes a permit).
+      sql<Stored<CheckVerdict> | null>`case when r.check_result is not null
+        then jsonb_build_object('utilisation', r.check_result->'utilisation', 'passes', r.check_result->'passes') end`.as('verdict'),
     ]);
 }
 type SummaryRow = Awaited<ReturnType<ReturnType<typeof summaryQuery>['executeTakeFirstOrThrow']>>;
 
 function summaryOut(r: SummaryRow): PermitSummary {
-  const check = storedCheck(r.check_result);
+  const check = storedCheckVerdict(r.verdict);
   return {
     id: r.id,
     siteId: r.site_id,
@@ -88,12 +94,13 @@ async function visibleSites(db: Db, user: { id: number; isAdmin: boolean }): Pro
   return rows.map((r) => r.site_id);
 }
 
+/** Each sort's column and its SQL type (a cursor carries the column's value as text, cast back exactly). */
 const sortColumns = {
-  number: 'p.seq',
-  windowStart: 'r.window_start',
-  windowEnd: 'r.window_end',
-  status: 'p.status',
-  updated: 'p.updated_at',
+  number: ['p.seq', 'integer'],
+  windowStart: ['r.window_start', 'timestamptz'],
+  windowEnd: ['r.window_end', 'timestamptz'],
+  status: ['p.status', 'text'],
+  updated: ['p.updated_at', 'timestamptz'],
 } as const;
 
 /**
@@ -101,9 +108,13 @@ const sortColumns = {
  * `mine` = requested by them, `live` = live now; plus site, status, kind, excavation, a window
  * that overlaps from..to, and a text search (`q`, case-insensitive, % and _ taken literally).
  */
-export async function listPermits(db: Db, user: { id: number; isAdmin: boolean }, q: PermitListQuery): Promise<PermitSummary[]> {
+export async function listPermits(
+  db: Db,
+  user: { id: number; isAdmin: boolean },
+  q: PermitListQuery,
+): Promise<{ permits: PermitSummary[]; next: string | null }> {
   const sites = await visibleSites(db, user);
-  if (sites !== 'all' && sites.length === 0) return [];
+  if (sites !== 'all' && sites.length === 0) return { permits: [], next: null };
   let query = summaryQuery(db);
   if (sites !== 'all') query = query.where('p.site_id', 'in', sites);
   if (q.siteId) query = query.where('p.site_id', '=', q.siteId);
@@ -128,17 +139,46 @@ export async function listPermits(db: Db, user: { id: number; isAdmin: boolean }
   if (q.excavationId) query = query.where(sql<boolean>`${q.excavationId}::int = any(r.excavation_ids)`);
   if (q.q) {
     const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    // The permits whose current revision matches, found through the trigram indexes (migration
+    // 0013) branch by branch. A load's label is looked for in the labels' JSON text first (indexed),
+    // then exactly; words with a quote, backslash or control character (escaped in that text) skip the first step.
+    const onSite = (column: string) => (q.siteId ? sql`and ${sql.ref(column)} = ${q.siteId}` : sql``);
+    const escapedInJson = [...q.q].some((c) => c === '"' || c === '\\' || c.charCodeAt(0) < 0x20);
+    const labelsText = escapedInJson ? sql`true` : sql`jsonb_path_query_array(x.loads, '$[*].label')::text ilike ${like}`;
     query = query.where(
-      sql<boolean>`(p.number ilike ${like} or r.description ilike ${like}
-        or exists (select 1 from excavations e where e.id = any(r.excavation_ids) and (e.reference ilike ${like} or e.name ilike ${like}))
-        or exists (select 1 from jsonb_array_elements(r.loads) l left join plant_items m on m.id = (l->>'plantItemId')::int
-                   where l->>'label' ilike ${like} or m.name ilike ${like}))`,
+      'p.id',
+      'in',
+      sql<number>`(
+        select c.id from permits c where c.number ilike ${like} ${onSite('c.site_id')}
+        union
+        select x.permit_id from permit_revisions x join permits c on c.id = x.permit_id and c.revision = x.revision ${onSite('c.site_id')}
+        where x.description ilike ${like}
+           or x.excavation_ids && array(select e.id from excavations e where (e.reference ilike ${like} or e.name ilike ${like}) ${onSite('e.site_id')})
+           or (${labelsText} and exists (select 1 from jsonb_array_elements(x.loads) l where l->>'label' ilike ${like}))
+        union
+        select x.permit_id from plant_items m
+        join permit_revisions x on x.loads @> jsonb_build_array(jsonb_build_object('plantItemId', m.id))
+        join permits c on c.id = x.permit_id and c.revision = x.revision ${onSite('c.site_id')}
+        where m.name ilike ${like})`,
     );
   }
   if (q.from) query = query.where('r.window_end', '>', new Date(q.from));
   if (q.to) query = query.where('r.window_start', '<', new Date(q.to));
-  const rows = await query.orderBy(sortColumns[q.sort], q.order).orderBy('p.id', q.order).limit(q.limit).execute();
-  return rows.map(summaryOut);
+  // Keyset pages: ordered by the sort column then the id, each page after the last row of the one before.
+  const [column, type] = sortColumns[q.sort];
+  if (q.cursor) {
+    const [value, id] = decodeCursor(q.cursor);
+    const after = sql<boolean>`(${sql.ref(column)}, p.id) ${sql.raw(q.order === 'asc' ? '>' : '<')} (cast(${value} as ${sql.raw(type)}), ${id})`;
+    query = query.where(after);
+  }
+  const rows = await query
+    .select(sql<string>`${sql.ref(column)}::text`.as('sort_key'))
+    .orderBy(column, q.order)
+    .orderBy('p.id', q.order)
+    .limit(q.limit + 1)
+    .execute();
+  const { page, next } = pageOf(rows, q.limit, (r) => r.sort_key);
+  return { permits: page.map(summaryOut), next };
 }
 
 export async function loadSummary(db: Db, id: number): Promise<PermitSummary | null> {

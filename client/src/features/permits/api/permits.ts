@@ -1,4 +1,4 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type {
   AttachmentAdded,
@@ -30,11 +30,27 @@ export const permitKeys = {
 
 type PermitAnswer = z.output<typeof onePermitAnswer>;
 
+function permitPage(query: Record<string, string>, cursor: string | null, signal: AbortSignal) {
+  const qs = new URLSearchParams(Object.entries({ ...query, cursor: cursor ?? '' }).filter(([, v]) => v !== '')).toString();
+  return api.get<z.output<typeof permitsAnswer>>(`/api/permits?${qs}`, signal);
+}
+
+/** The first page of a permit list (the dashboards' short lists). */
 export function usePermitList(query: Record<string, string>) {
-  const qs = new URLSearchParams(Object.entries(query).filter(([, v]) => v !== '')).toString();
   return useQuery({
     queryKey: permitKeys.list(query),
-    queryFn: ({ signal }) => api.get<z.output<typeof permitsAnswer>>(`/api/permits?${qs}`, signal).then((r) => r.permits),
+    queryFn: ({ signal }) => permitPage(query, null, signal).then((r) => r.permits),
+  });
+}
+
+/** A permit list a page at a time, following the server's `next` cursor (`fetchNextPage`). */
+export function usePermitPages(query: Record<string, string>) {
+  return useInfiniteQuery({
+    queryKey: [...permitKeys.list(query), 'pages'],
+    queryFn: ({ pageParam, signal }) => permitPage(query, pageParam, signal),
+    initialPageParam: null as string | null,
+    getNextPageParam: (last) => last.next,
+    select: (data) => data.pages.flatMap((p) => p.permits),
   });
 }
 

@@ -15,7 +15,7 @@ import { SelectField, TextField } from '@client/components/Fields';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
 import { parseId, roleOnSite, useMe } from '@client/lib/session';
-import { useExcavations, usePermitList, useSite } from '../api/permits';
+import { useExcavations, usePermitPages, useSite } from '../api/permits';
 import { StatusLabel } from '../components/StatusLabel';
 import { VerdictBadge } from '../components/Verdict';
 import { fromLocalInput, when } from '../components/time';
@@ -71,7 +71,7 @@ export function PermitListPage() {
   const filtersId = useId();
   const activeFilters = [status, excavationId, from, to].filter(Boolean).length;
   const excavations = useExcavations(siteId);
-  const list = usePermitList({
+  const list = usePermitPages({
     siteId: String(siteId),
     view,
     q,
@@ -209,6 +209,17 @@ export function PermitListPage() {
               ))}
             </tbody>
           </table>
+          {list.hasNextPage ? (
+            <Button
+              variant="secondary"
+              className="mt-3"
+              onClick={() => list.fetchNextPage()}
+              busy={list.isFetchingNextPage}
+              busyText="Loading more permits…"
+            >
+              Show more permits
+            </Button>
+          ) : null}
         </div>
       )}
     </Page>
