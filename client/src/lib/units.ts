@@ -4,15 +4,7 @@ import type { z } from 'zod';
 import type { signedInAnswer } from '@shared/schemas/auth';
 import type { oneSiteAnswer, Site } from '@shared/schemas/sites';
 import { cautionFor } from '@shared/caution';
-import {
-  formatQuantity,
-  inputText,
-  localizeWords,
-  unitLabel,
-  type FormatOptions,
-  type Quantity,
-  type UnitSystem,
-} from '@shared/units';
+import { formatQuantity, inputText, localizeWords, unitLabel, type FormatOptions, type Quantity, type UnitSystem } from '@shared/units';
 import { api } from './api';
 import { useCurrentSite } from './currentSite';
 import { sessionKeys, useMe } from './session';
