@@ -16,6 +16,7 @@ import type { Excavation as CalcExcavation, SoilLayer } from '../engineering/typ
 import { SITE_TOLERANCE, simplifyLine, simplifyRing } from '../geometry/simplify';
 import { oneOf } from './messages';
 import { readStored, readStoredOrNull, type Stored } from './stored';
+import { latitudeSchema, lineStringOf, longitudeSchema, polygonOf, positionSchema } from './geojson';
 
 export const excavationKinds = ['trench', 'pit'] as const;
 export type ExcavationKind = (typeof excavationKinds)[number];
@@ -44,44 +45,14 @@ export const SITE_RADIUS = 5000;
 export const DEFAULT_DESIGN_SURCHARGE = 10;
 
 const listOf = (what: string) => `must be ${what}`;
-const coordinate = (lo: number, hi: number, what: string) =>
-  z
-    .number({ error: `must be a number (${what})` })
-    .min(lo, `must be a ${what} between ${lo} and ${hi}`)
-    .max(hi, `must be a ${what} between ${lo} and ${hi}`);
 
-/** A GeoJSON position [longitude, latitude] (an altitude, if given, is dropped). */
-export const positionSchema = z
-  .array(z.number({ error: 'must be a number' }), { error: listOf('a position [longitude, latitude]') })
-  .min(2, listOf('a position [longitude, latitude]'))
-  .max(3, listOf('a position [longitude, latitude]'))
-  .pipe(z.tuple([coordinate(-180, 180, 'longitude'), coordinate(-90, 90, 'latitude')]).rest(z.number()))
-  .transform((p): [number, number] => [p[0], p[1]]);
-
-export const lineStringSchema = z.object({
-  type: z.literal('LineString'),
-  coordinates: z
-    .array(positionSchema, { error: listOf('a list of positions') })
-    .min(2, 'a trench centre line needs at least two points')
-    .max(500, 'must have at most 500 points'),
-});
-
-const samePosition = (a: number[], b: number[]) => a[0] === b[0] && a[1] === b[1];
-
-export const polygonSchema = z.object({
-  type: z.literal('Polygon'),
-  coordinates: z
-    .array(
-      z
-        .array(positionSchema, { error: listOf('a ring of positions') })
-        .min(4, 'a pit outline needs at least three corners and the first repeated at the end')
-        .max(500, 'must have at most 500 points')
-        .refine((ring) => samePosition(ring[0], ring[ring.length - 1]), 'must end where it starts (a closed ring)'),
-      { error: listOf('a list of rings') },
-    )
-    .min(1, 'must have an outline ring')
-    .max(1, 'a pit outline must be one ring without holes'),
-});
+export { positionSchema };
+export const lineStringSchema = lineStringOf(positionSchema, 'a trench centre line needs at least two points');
+export const polygonSchema = polygonOf(
+  positionSchema,
+  'a pit outline needs at least three corners and the first repeated at the end',
+  'a pit outline must be one ring without holes',
+);
 
 /**
  * Vertex limits (issue 12: bound the work one request can cause). A trench centre line or pit outline
@@ -289,10 +260,10 @@ export const oneExcavationAnswer = z.object({ excavation: excavationAnswer });
 /** Fields a site plan image is pinned by: its south-west and north-east corners, and how opaque it is drawn. */
 export const planBoundsSchema = z
   .object({
-    south: coordinate(-90, 90, 'latitude'),
-    west: coordinate(-180, 180, 'longitude'),
-    north: coordinate(-90, 90, 'latitude'),
-    east: coordinate(-180, 180, 'longitude'),
+    south: latitudeSchema,
+    west: longitudeSchema,
+    north: latitudeSchema,
+    east: longitudeSchema,
   })
   .superRefine((b, ctx) => {
     if (b.north <= b.south) ctx.addIssue({ code: 'custom', path: ['north'], message: 'must be north of the south edge' });

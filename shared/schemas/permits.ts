@@ -10,6 +10,7 @@ import type { SiteRole } from './common';
 import { surchargeMethods } from './sites';
 import { plantElementSchema } from './plant';
 import { readStored, readStoredOrNull, type Stored } from './stored';
+import { lineStringOf, lngLatSchema, polygonOf } from './geojson';
 import { loadKinds, ranRequestSchema } from './calc';
 
 // ---------------------------------------------------------------------------------------------
@@ -152,27 +153,17 @@ export const commonConditions = [
 // ---------------------------------------------------------------------------------------------
 // Geometry and placed loads
 
-const lng = z.number().min(-180, 'must be a longitude (-180 to 180)').max(180, 'must be a longitude (-180 to 180)');
-const lat = z.number().min(-85, 'must be a latitude (-85 to 85)').max(85, 'must be a latitude (-85 to 85)');
-export const lngLatSchema = z.tuple([lng, lat]);
+export { lngLatSchema };
 export type LngLat = z.infer<typeof lngLatSchema>;
 
-export const polygonSchema = z.object({
-  type: z.literal('Polygon'),
-  coordinates: z
-    .array(z.array(lngLatSchema).min(4, 'a ring needs at least 4 positions (closed)'))
-    .length(1, 'must be one outer ring without holes')
-    .refine((rings) => {
-      const r = rings[0];
-      return r[0][0] === r[r.length - 1][0] && r[0][1] === r[r.length - 1][1];
-    }, 'the ring must end where it starts'),
-});
+export const polygonSchema = polygonOf(
+  lngLatSchema,
+  'an outline needs at least three corners and the first repeated at the end',
+  'must be one outer ring without holes',
+);
 export type PolygonGeometry = z.infer<typeof polygonSchema>;
 
-export const lineStringSchema = z.object({
-  type: z.literal('LineString'),
-  coordinates: z.array(lngLatSchema).min(2, 'a line needs at least 2 positions'),
-});
+export const lineStringSchema = lineStringOf(lngLatSchema, 'a line needs at least two points');
 export type LineGeometry = z.infer<typeof lineStringSchema>;
 
 const loadId = z.string().trim().min(1, 'is required').max(40, 'must be at most 40 characters');
