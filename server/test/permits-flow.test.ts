@@ -349,6 +349,20 @@ describe('the printed permit', () => {
     expect(text.replace(/\s+/g, ' ')).toContain(`Red band: exclusion zone, from the edge: ${w.trenchRef} ${figure}.`);
   });
 
+  it('says the window on the site’s clock in the e-mail and on the printed permit, not in UTC (London keeps summer time in July: UTC+1)', async () => {
+    // 05:30 to 14:15 UTC on 1 July 2031 is 06:30 to 15:15 on the demo site's clock (Europe/London, BST).
+    const p = await createPermit(w, { windowStart: '2031-07-01T05:30:00.000Z', windowEnd: '2031-07-01T14:15:00.000Z' });
+    const sub = await act(w.agents.supervisor, p.id, { action: 'submit', version: p.version });
+    expect(sub.status).toBe(200);
+    const mail = await waitForMail(t.deps, demo.coordinator, new RegExp(`Permit ${p.number} .* awaits your review`));
+    expect(mail.text).toContain('Window: Tue, 1 Jul 2031, 06:30 to Tue, 1 Jul 2031, 15:15 (Europe/London).');
+    expect(mail.text).not.toContain('05:30');
+    const r = await w.agents.supervisor.get(`/api/permits/${p.id}/pdf`).buffer(true).parse(binary);
+    const text = await pdfText(r.body as Buffer);
+    expect(text).toContain('Tue, 1 Jul 2031, 06:30 to Tue, 1 Jul 2031, 15:15 (Europe/London time)');
+    expect(text).not.toContain('05:30');
+  });
+
   it('reads the same uncompressed', async () => {
     const p = await createPermit(w);
     const { buffer, number } = await permitPdf(t.deps, p.id, { compress: false });
