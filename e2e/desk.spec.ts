@@ -199,3 +199,63 @@ test('the site map, its zoom controls and the soil-layer table fit a 1440 px win
     expect(box.bottom, sel).toBeLessThanOrEqual(900);
   }
 });
+
+test('a decided permit’s plan is read-only, a permit that is not there offers a way back, and only an administrator finds the caught mail', async ({
+  page,
+  playwright,
+  baseURL,
+}) => {
+  const supervisor = await apiAs(playwright.request, baseURL!, 'supervisor@demo.brink.test');
+  const coordinator = await apiAs(playwright.request, baseURL!, 'coordinator@demo.brink.test');
+  const { user: me } = await ok<{ user: { memberships: { siteId: number }[] } }>(await supervisor.get('/api/auth/me'), 'me');
+  const { permit } = await trenchWithLivePermit(supervisor, coordinator, me.memberships[0].siteId, [], 170);
+
+  await signIn(page, 'supervisor@demo.brink.test');
+  // The person menu of someone who is not an administrator has no caught mail.
+  await page.getByRole('button', { name: /Signed in as/ }).click();
+  await expect(page.getByRole('button', { name: 'Sign out' }).filter({ visible: true })).toBeVisible();
+  await expect(page.getByRole('link', { name: 'Caught mail' })).toHaveCount(0);
+  await page.keyboard.press('Escape');
+
+  // A live permit's plan shows where the loads stand, with nothing to drag.
+  await page.goto(`/permits/${permit.id}`);
+  await expect(page.getByRole('heading', { name: new RegExp(permit.number) }).first()).toBeVisible();
+  const legend = page.getByText('Loads are coloured by the verdict');
+  await expect(legend).toBeVisible();
+  await expect(legend).not.toContainText('Drag');
+  await expect(page.locator('.leaflet-marker-icon[title^="Move"], .leaflet-marker-icon[title^="Turn"]')).toHaveCount(0);
+
+  // A permit that is not there (or not the person's) says so and offers a way back.
+  await page.goto('/permits/987654321');
+  await expect(page.getByRole('heading', { name: 'Permit not found' })).toBeVisible();
+  await page.getByRole('link', { name: 'Go to your dashboard' }).click();
+  await expect(page).toHaveURL(/\/sites\/\d+$/);
+
+  // An administrator, while the local mail catcher is on, reaches the caught mail from the person menu.
+  await page.context().clearCookies();
+  await signIn(page, 'admin@demo.brink.test');
+  await page.getByRole('button', { name: /Signed in as/ }).click();
+  await page.getByRole('link', { name: 'Caught mail' }).filter({ visible: true }).click();
+  await expect(page).toHaveURL(/\/admin\/mail$/);
+});
+
+test('the placing map asks to zoom in when a machine is only a few pixels wide, and stops asking once it is not', async ({ page }) => {
+  const siteId = await signIn(page, 'supervisor@demo.brink.test');
+  await page.goto(`/sites/${siteId}/permits/new`);
+  await page.getByLabel('What the work is').fill('Excavator 21 t loading out beside the rising main trench');
+  await page.getByLabel(/^TR-01 /).check();
+  await page.getByLabel('Add a machine from the plant library').selectOption({ label: 'Excavator 21 t (21 t)' });
+  await expect(page.getByText(/Excavator 21 t is placed .* from the edge of TR-01/)).toBeVisible();
+  const hint = page.getByTestId('zoom-hint');
+  const map = page.locator('.leaflet-container').first();
+  // Zoom out until the machine is a few pixels wide (each press waits for the state, not for a time).
+  await expect(async () => {
+    await map.getByRole('button', { name: 'Zoom out' }).click();
+    await expect(hint).toBeVisible({ timeout: 1500 });
+  }).toPass({ timeout: 30_000 });
+  await expect(hint).toContainText(/Excavator 21 t is only \d+ pixels wide at this zoom: zoom in/);
+  await expect(async () => {
+    await map.getByRole('button', { name: 'Zoom in' }).click();
+    await expect(hint).toBeHidden({ timeout: 1500 });
+  }).toPass({ timeout: 30_000 });
+});
