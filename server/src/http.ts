@@ -44,10 +44,18 @@ export const notFound = (what = 'That') => new HttpError(404, 'not_found', `${wh
 export const forbidden = (message = 'Your role does not allow this.') => new HttpError(403, 'forbidden', message);
 export const conflict = (message: string) => new HttpError(409, 'conflict', message);
 export const badRequest = (message: string, fields?: Record<string, string>) => new HttpError(400, 'invalid', message, fields);
-/** 400 naming each field (field → reason) when there is any; nothing when `fields` is empty. */
-export function refuseFields(fields: Record<string, string>): void {
-  const list = Object.entries(fields);
-  if (list.length) throw badRequest(`Please correct the request: ${list.map(([k, v]) => `${k} ${v}`).join('; ')}`, fields);
+/**
+ * 400 naming each field (field → reason) when there is any; nothing when `fields` is empty.
+ * `where` names what was sent ("request", "query", "path").
+ */
+export function refuseFields(fields: Record<string, string>, where = 'request'): void {
+  if (Object.keys(fields).length) throw refusal(fields, where);
+}
+
+/** The 400 that names each field and its reason, in one sentence and by field. */
+function refusal(fields: Record<string, string>, where: string): HttpError {
+  const list = Object.entries(fields).map(([k, v]) => `${k} ${v}`);
+  return badRequest(`Please correct the ${where}: ${list.join('; ')}`, fields);
 }
 
 /** Turns zod issues into a field → reason map, paths written as `a.b[0].c`. */
@@ -97,32 +105,12 @@ export function badText(value: unknown): Record<string, string> {
 }
 
 function refuseBadText(value: unknown, where: string): void {
-  const fields = badText(value);
-  if (Object.keys(fields).length) {
-    throw new HttpError(
-      400,
-      'invalid',
-      `Please correct the ${where}: ${Object.entries(fields)
-        .map(([k, v]) => `${k} ${v}`)
-        .join('; ')}`,
-      fields,
-    );
-  }
+  refuseFields(badText(value), where);
 }
 
 export function parseOr400<T>(schema: ZodType<T>, value: unknown, where: string): T {
   const r = schema.safeParse(value);
-  if (!r.success) {
-    const fields = zodFields(r.error);
-    throw new HttpError(
-      400,
-      'invalid',
-      `Please correct the ${where}: ${Object.entries(fields)
-        .map(([k, v]) => `${k} ${v}`)
-        .join('; ')}`,
-      fields,
-    );
-  }
+  if (!r.success) throw refusal(zodFields(r.error), where);
   return r.data;
 }
 

@@ -14,6 +14,9 @@ import { freePort } from '../src/services/ports';
 import { readdirSync } from 'node:fs';
 import { ListObjectsV2Command } from '@aws-sdk/client-s3';
 import { DiskStore, type FileStore } from '../src/files/store';
+import { sql } from 'kysely';
+import { createDb, createPool, type Db } from '@db/database';
+import { migrateToLatest } from '@db/migrate';
 
 export { DEMO_PASSWORD, freePort };
 
@@ -138,4 +141,27 @@ export async function filesIn(store: FileStore): Promise<number> {
 /** Settings for a test app with an upload folder and an S3 bucket of its own (whichever STORAGE names). */
 export function ownFileStore(): Record<string, string> {
   return { UPLOAD_DIR: mkdtempSync(join(tmpdir(), 'brink-uploads-')), S3_BUCKET: `brink-test-${randomUUID().slice(0, 12)}` };
+}
+
+/**
+ * A database of the test file's own on the test cluster, migrated (for tests that seed or start
+ * servers of their own); `drop()` closes it and removes it.
+ */
+export async function ownDatabase(prefix: string): Promise<{ url: string; db: Db; drop: () => Promise<void> }> {
+  const name = `${prefix}_${randomUUID().slice(0, 8)}`;
+  const admin = createDb(createPool(process.env.DATABASE_URL!, 1));
+  await sql.raw(`create database "${name}"`).execute(admin);
+  const url = new URL(process.env.DATABASE_URL!);
+  url.pathname = `/${name}`;
+  const db = createDb(createPool(url.toString(), 2));
+  await migrateToLatest(db);
+  return {
+    url: url.toString(),
+    db,
+    drop: async () => {
+      await db.destroy();
+      await sql.raw(`drop database if exists "${name}" with (force)`).execute(admin);
+      await admin.destroy();
+    },
+  };
 }

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'kysely';
-import { createDb, createPool, type Db } from '@db/database';
-import { migrateToLatest } from '@db/migrate';
+import type { Db } from '@db/database';
+import { ownDatabase } from './helpers';
 import { permitStatuses, transitionRules, type PermitAction } from '@shared/schemas/permits';
 import { seedLarge, type LargeSeedReport } from '../src/cli/largeSeed';
 import { loadDetail } from '../src/services/permits/read';
@@ -15,9 +15,8 @@ import { inspectionStates } from '../src/services/inspections';
 // every timeline ends where its permit stands by steps the status machine allows, and a copied check
 // is what the server's check finds for that permit.
 
-const dbName = `brink_large_seed_${process.pid}`;
-const admin = createDb(createPool(process.env.DATABASE_URL!, 1));
 let db: Db;
+let drop: () => Promise<void>;
 let report: LargeSeedReport;
 // Noon on the site's clock (London, winter or summer), so that today's day shift (07:00) has begun
 // whatever the hour the test runs.
@@ -25,18 +24,12 @@ const now = new Date(`${new Date().toISOString().slice(0, 10)}T11:00:00Z`);
 const size = { sites: 2, excavationsPerSite: 20, permitsPerSite: 100, inspectionsPerSite: 40 };
 
 beforeAll(async () => {
-  await sql.raw(`create database "${dbName}"`).execute(admin);
-  const url = new URL(process.env.DATABASE_URL!);
-  url.pathname = `/${dbName}`;
-  db = createDb(createPool(url.toString(), 2));
-  await migrateToLatest(db);
+  ({ db, drop } = await ownDatabase('brink_large_seed'));
   report = await seedLarge(db, size, now);
 }, 120_000);
 
 afterAll(async () => {
-  await db?.destroy();
-  await sql.raw(`drop database if exists "${dbName}" with (force)`).execute(admin);
-  await admin.destroy();
+  await drop?.();
 });
 
 describe('the large seed, made small', () => {

@@ -2,14 +2,11 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { sql } from 'kysely';
-import { createDb, createPool, type Db } from '@db/database';
-import { migrateToLatest } from '@db/migrate';
+import type { Db } from '@db/database';
 import { seedDemoIfEmpty } from '@db/demo';
 import { FAKE_S3_KEY, startFakeS3 } from '../src/files/fake-s3';
-import { demo, DEMO_PASSWORD, freePort } from './helpers';
+import { demo, DEMO_PASSWORD, freePort, ownDatabase } from './helpers';
 
 // Issue 16 §2: two Brink server processes on one database and one object store, as behind a load
 // balancer (the same PUBLIC_URL and SESSION_SECRET), requests alternating between them. A database of
@@ -20,8 +17,7 @@ const PNG = Buffer.from(
   'hex',
 );
 const work = mkdtempSync(join(tmpdir(), 'brink-two-'));
-const dbName = `brink_two_${randomUUID().slice(0, 8)}`;
-const admin = createDb(createPool(process.env.DATABASE_URL!, 1));
+let drop: () => Promise<void>;
 let db: Db;
 let fake: Awaited<ReturnType<typeof startFakeS3>>;
 const servers: { url: string; child: ChildProcess; log: string[] }[] = [];
@@ -74,16 +70,13 @@ async function startServer(url: string): Promise<void> {
 }
 
 beforeAll(async () => {
-  await sql.raw(`create database "${dbName}"`).execute(admin);
-  const url = new URL(process.env.DATABASE_URL!);
-  url.pathname = `/${dbName}`;
-  db = createDb(createPool(url.toString(), 2));
-  await migrateToLatest(db);
+  let url: string;
+  ({ url, db, drop } = await ownDatabase('brink_two'));
   await seedDemoIfEmpty(db);
   fake = await startFakeS3(join(work, 's3'));
   // One after the other: the first makes pg-boss's schema and the bucket.
-  await startServer(url.toString());
-  await startServer(url.toString());
+  await startServer(url);
+  await startServer(url);
 }, 240_000);
 
 afterAll(async () => {
@@ -97,9 +90,7 @@ afterAll(async () => {
         }),
     ),
   );
-  await db?.destroy();
-  await sql.raw(`drop database if exists "${dbName}" with (force)`).execute(admin);
-  await admin.destroy();
+  await drop?.();
   await fake?.close();
   rmSync(work, { recursive: true, force: true });
 }, 60_000);

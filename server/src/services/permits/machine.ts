@@ -25,7 +25,7 @@ import { checkStoredRevision } from './check';
 import { unsafeExcavations } from '../unsafe-excavations';
 import { notifyTransition } from './notify';
 import { pushTransition } from './push';
-import { withCurrentRevision } from './read';
+import { currentRevisionRow, withCurrentRevision } from './read';
 import { inTransaction } from '../tx';
 
 export interface TransitionOptions {
@@ -161,12 +161,7 @@ export async function transition(
       });
     }
 
-    const rev = await trx
-      .selectFrom('permit_revisions')
-      .selectAll()
-      .where('permit_id', '=', p.id)
-      .where('revision', '=', p.revision)
-      .executeTakeFirstOrThrow();
+    const rev = await currentRevisionRow(trx, p);
     const windowStart = new Date(rev.window_start);
     const windowEnd = new Date(rev.window_end);
     const detail: Record<string, unknown> = { ...opts.cause };

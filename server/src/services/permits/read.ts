@@ -186,6 +186,16 @@ export async function loadSummary(db: Db, id: number): Promise<PermitSummary | n
   return r ? summaryOut(r) : null;
 }
 
+/** The stored row of a permit's current revision (inside the caller's transaction). */
+export function currentRevisionRow(db: Db, p: { id: number; revision: number }) {
+  return db
+    .selectFrom('permit_revisions')
+    .selectAll()
+    .where('permit_id', '=', p.id)
+    .where('revision', '=', p.revision)
+    .executeTakeFirstOrThrow();
+}
+
 /** One revision of a permit with its operators, as the API shows it. */
 export async function loadRevision(db: Db, permitId: number, revision: number): Promise<PermitRevision | null> {
   const r = await db

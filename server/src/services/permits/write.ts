@@ -14,6 +14,7 @@ import { badRequest, conflict, notFound, refuseFields } from '../../http';
 import { audit } from '../audit';
 import { checkStoredRevision } from './check';
 import { StaleError } from './machine';
+import { currentRevisionRow } from './read';
 
 /**
  * Checks that what a request names belongs to its site: excavations of the site (not backfilled),
@@ -181,12 +182,7 @@ export async function updatePermit(deps: Deps, user: { id: number; name: string 
       throw conflict(`Permit ${p.number} is ${statusLabels[p.status]}: its content is frozen. Make a new revision to change it.`);
     }
     await assertReferences(trx, p.site_id, body);
-    const rev = await trx
-      .selectFrom('permit_revisions')
-      .selectAll()
-      .where('permit_id', '=', p.id)
-      .where('revision', '=', p.revision)
-      .executeTakeFirstOrThrow();
+    const rev = await currentRevisionRow(trx, p);
     const start = body.windowStart ? new Date(body.windowStart) : new Date(rev.window_start);
     const end = body.windowEnd ? new Date(body.windowEnd) : new Date(rev.window_end);
     if (end <= start) throw badRequest('The window must end after it starts.', { windowEnd: 'must be after the start of the window' });

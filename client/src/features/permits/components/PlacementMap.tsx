@@ -81,6 +81,24 @@ export function PlacementMap({
   onDragging,
 }: PlacementMapProps) {
   const [zoom, setZoom] = useState<number | null>(null);
+  /** A handle's drag: the editor keeps the loads for Undo, follows each move, and hears when it is let go. */
+  const handleDrag = (to: (local: XY) => void): L.LeafletEventHandlerFnMap => {
+    const at = (ev: L.LeafletEvent) => {
+      const ll = (ev.target as L.Marker).getLatLng();
+      to(proj.toLocal([ll.lng, ll.lat]));
+    };
+    return {
+      dragstart: () => {
+        onMoveStart?.();
+        onDragging?.(true);
+      },
+      drag: at,
+      dragend: (ev) => {
+        at(ev);
+        onDragging?.(false);
+      },
+    };
+  };
   const figures = useFigures();
   const prepared = useMemo(
     () =>
@@ -224,21 +242,7 @@ export function PlacementMap({
                   draggable
                   title={`Move ${name}`}
                   icon={moveIcon}
-                  eventHandlers={{
-                    dragstart: () => {
-                      onMoveStart?.();
-                      onDragging?.(true);
-                    },
-                    drag: (ev) => {
-                      const ll = (ev.target as L.Marker).getLatLng();
-                      onMove?.(load.id, proj.toLocal([ll.lng, ll.lat]));
-                    },
-                    dragend: (ev) => {
-                      const ll = (ev.target as L.Marker).getLatLng();
-                      onMove?.(load.id, proj.toLocal([ll.lng, ll.lat]));
-                      onDragging?.(false);
-                    },
-                  }}
+                  eventHandlers={handleDrag((to) => onMove?.(load.id, to))}
                 />
               ) : null}
               {editable && load.kind === 'plant'
@@ -250,21 +254,7 @@ export function PlacementMap({
                         draggable
                         title={`Turn ${name}`}
                         icon={turnIcon}
-                        eventHandlers={{
-                          dragstart: () => {
-                            onMoveStart?.();
-                            onDragging?.(true);
-                          },
-                          drag: (ev) => {
-                            const ll = (ev.target as L.Marker).getLatLng();
-                            onRotate?.(load.id, bearingOf(c, proj.toLocal([ll.lng, ll.lat])));
-                          },
-                          dragend: (ev) => {
-                            const ll = (ev.target as L.Marker).getLatLng();
-                            onRotate?.(load.id, bearingOf(c, proj.toLocal([ll.lng, ll.lat])));
-                            onDragging?.(false);
-                          },
-                        }}
+                        eventHandlers={handleDrag((to) => onRotate?.(load.id, bearingOf(c, to)))}
                       />
                     );
                   })()
