@@ -6,7 +6,7 @@
  * the load average; asserts nothing.
  */
 import { loadavg } from 'node:os';
-import { largeAdminEmail, largeEmail } from './largeSeed';
+import { largeAdminEmail, largeEmail } from './largeDataset';
 import { ORIGIN_HEADER, signIn, startBrink } from './benchApi';
 
 const USERS = 10;

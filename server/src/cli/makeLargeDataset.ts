@@ -6,7 +6,7 @@
  */
 import { createDb, createPool } from '@db/database';
 import { migrateToLatest } from '@db/migrate';
-import { fullSize, seedLarge } from './largeSeed';
+import { fullSize, seedLarge } from './largeDataset';
 
 const url = process.env.DATABASE_URL;
 if (!url) {

@@ -3,7 +3,7 @@ import { sql } from 'kysely';
 import type { Db } from '@db/database';
 import { ownDatabase } from './helpers';
 import { permitStatuses, transitionRules, type PermitAction } from '@shared/schemas/permits';
-import { seedLarge, type LargeSeedReport } from '../src/cli/largeSeed';
+import { seedLarge, type LargeSeedReport } from '../src/cli/largeDataset';
 import { loadDetail } from '../src/services/permits/read';
 import { checkOfStored } from '../src/services/permits/check';
 import { loadExcavations } from '../src/services/excavations';
