@@ -1,5 +1,5 @@
 import { randomUUID } from 'node:crypto';
-import { expect, test } from '@playwright/test';
+import { expect, test, type APIRequest } from '@playwright/test';
 import { checklist } from '../shared/schemas/inspections';
 import { apiAs, ok, signIn, trenchWithLivePermit } from './helpers';
 
@@ -10,16 +10,21 @@ import { apiAs, ok, signIn, trenchWithLivePermit } from './helpers';
 /** A 1 × 1 PNG: a real picture the browser draws. */
 const PNG = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mP8z8BQDwAEhQGAhKmMIQAAAABJRU5ErkJggg==', 'base64');
 
+/** The demo supervisor and coordinator as API clients, the supervisor's name and site, and a live permit on a new trench. */
+async function livePermitOnNewTrench(playwright: { request: APIRequest }, baseURL: string, north: number) {
+  const supervisor = await apiAs(playwright.request, baseURL, 'supervisor@demo.brink.test');
+  const coordinator = await apiAs(playwright.request, baseURL, 'coordinator@demo.brink.test');
+  const { user: me } = await ok<{ user: { name: string; memberships: { siteId: number }[] } }>(await supervisor.get('/api/auth/me'), 'me');
+  const siteId = me.memberships[0].siteId;
+  return { supervisor, coordinator, me, siteId, ...(await trenchWithLivePermit(supervisor, coordinator, siteId, [], north)) };
+}
+
 test('the coordinator sees a concern’s photo full size, the timeline in words, and a safe inspection leaves the permit suspended for them', async ({
   page,
   playwright,
   baseURL,
 }) => {
-  const supervisor = await apiAs(playwright.request, baseURL!, 'supervisor@demo.brink.test');
-  const coordinator = await apiAs(playwright.request, baseURL!, 'coordinator@demo.brink.test');
-  const { user: me } = await ok<{ user: { name: string; memberships: { siteId: number }[] } }>(await supervisor.get('/api/auth/me'), 'me');
-  const siteId = me.memberships[0].siteId;
-  const { reference, excavationId, permit } = await trenchWithLivePermit(supervisor, coordinator, siteId, [], 130);
+  const { supervisor, coordinator, me, siteId, reference, excavationId, permit } = await livePermitOnNewTrench(playwright, baseURL!, 130);
 
   // A concern with a photo, as the phone sends it.
   const note = `Crack along the north edge ${randomUUID().slice(0, 6)}`;
@@ -205,10 +210,7 @@ test('a decided permit’s plan is read-only, a permit that is not there offers 
   playwright,
   baseURL,
 }) => {
-  const supervisor = await apiAs(playwright.request, baseURL!, 'supervisor@demo.brink.test');
-  const coordinator = await apiAs(playwright.request, baseURL!, 'coordinator@demo.brink.test');
-  const { user: me } = await ok<{ user: { memberships: { siteId: number }[] } }>(await supervisor.get('/api/auth/me'), 'me');
-  const { permit } = await trenchWithLivePermit(supervisor, coordinator, me.memberships[0].siteId, [], 170);
+  const { permit } = await livePermitOnNewTrench(playwright, baseURL!, 170);
 
   await signIn(page, 'supervisor@demo.brink.test');
   // The person menu of someone who is not an administrator has no caught mail.
