@@ -120,8 +120,8 @@ start_fake_s3() {
   wait_for_local_service "$FAKE_S3_PID" "$2" "the fake S3 store" 'fetch(process.argv[1]).then(()=>process.exit(0),()=>process.exit(1))' "$S3_ENDPOINT"
 }
 
-# init_cluster DIR: a new cluster owned by the user who will run it, with a random password for
-# the `brink` role, kept in DIR/../pg-password (readable only by us).
+# init_cluster DIR PWFILE: a new cluster owned by the user who will run it, with a random password for
+# the `brink` role, kept in PWFILE (readable only by us; made when missing).
 init_cluster() {
   local dir="$1" pwfile="$2"
   mkdir -p "$dir"
