@@ -8,7 +8,7 @@ export const CAUTION =
   'Local regulations and licensed practice prevail.';
 
 /** The caution for work under OSHA (US customary units): the same words, with the federal rule for excavations. */
-export const US_CAUTION = `${CAUTION} In the United States, OSHA 29 CFR 1926 Subpart P (Excavations) applies.`;
+const US_CAUTION = `${CAUTION} In the United States, OSHA 29 CFR 1926 Subpart P (Excavations) applies.`;
 
 /** The caution for a person's or site's units (`metric` | `us`). */
 export function cautionFor(units: string | null | undefined): string {

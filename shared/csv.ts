@@ -4,7 +4,7 @@
  * -, @, tab or CR) is prefixed with an apostrophe; numbers are written as they are; null and
  * undefined are empty.
  */
-export function csvCell(v: unknown): string {
+function csvCell(v: unknown): string {
   if (v === null || v === undefined) return '';
   if (typeof v === 'number') return String(v);
   const s = String(v);

@@ -26,7 +26,7 @@ export const POUND_FORCE = 0.45359237 * 9.80665;
 /** 1 kip = 1000 lbf, in newtons (NIST SP 811, B.8: kip). */
 export const KIP = 1000 * POUND_FORCE;
 /** 1 lb (avoirdupois pound, a mass) in tonnes, exact (NIST SP 811, B.8: pound (avoirdupois)). */
-export const POUND_MASS_T = 0.45359237e-3;
+const POUND_MASS_T = 0.45359237e-3;
 
 /**
  * SI value of one of each unit, in Brink's SI units for the quantity (m, kPa, kN, kN/m, kN/m³, kN·m/m).
@@ -49,7 +49,7 @@ const SI_PER = {
 } as const;
 
 export type Quantity = keyof typeof SI_PER;
-export type UnitOf<Q extends Quantity> = keyof (typeof SI_PER)[Q] & string;
+type UnitOf<Q extends Quantity> = keyof (typeof SI_PER)[Q] & string;
 
 /** The SI value of `value` given in `unit`. */
 export function toSI<Q extends Quantity>(quantity: Q, value: number, unit: UnitOf<Q>): number {
@@ -226,7 +226,7 @@ const EXAMPLES: Record<Quantity, string> = {
   mass: '21 t, 46,300 lb or 23 tons',
 };
 
-export type Parsed = { ok: true; value: number } | { ok: false; reason: string };
+type Parsed = { ok: true; value: number } | { ok: false; reason: string };
 
 const TERM = new RegExp(
   String.raw`^([+-]?(?:\d{1,3}(?:,\d{3})+(?:\.\d+)?|\d+(?:\.\d+)?|\.\d+))\s*` +

@@ -75,7 +75,7 @@ export function soilAndWater(model: SoilModel, z: number, layer: number): number
 }
 
 /** Largest total pressure at the extra samples and at every effect's jumps (the grid is done by the caller). */
-export function maxTotalOffGrid(ctx: CheckContext, effects: readonly SurchargeEffect[]): number {
+function maxTotalOffGrid(ctx: CheckContext, effects: readonly SurchargeEffect[]): number {
   const model = ctx.model;
   // Sample depths (with the layer on each side at a layer top), kept sorted by depth for `accumulate`.
   const zs: number[] = [];
@@ -135,7 +135,7 @@ export function utilisationOf(ctx: CheckContext, Fs: number, Ms: number, maxTota
   return { utilisation, governing, passes: utilisation <= 1 + PASS_TOLERANCE };
 }
 
-export interface RawProfile {
+interface RawProfile {
   z: number[];
   soil: Float64Array;
   water: Float64Array;

@@ -91,21 +91,6 @@ function navfacCoefficients(form: NavfacForm, m: number): [c: number, a: number]
   return m <= 0.4 ? [form.near, 0.16] : [form.far * m * m, m * m];
 }
 
-function navfacPressure(form: NavfacForm, F: number, offset: number, H: number, z: number, r: number): number {
-  const [c, a] = navfacCoefficients(form, offset / H);
-  const n = z / H;
-  const den = a + n * n;
-  return (r / 2) * (F / H ** form.h) * ((c * n ** form.k) / den ** form.j);
-}
-
-export function navfacLinePressure(Q: number, offset: number, H: number, z: number, r: number): number {
-  return navfacPressure(LINE_FORM, Q, offset, H, z, r);
-}
-
-export function navfacPointPressure(P: number, offset: number, H: number, z: number, r: number): number {
-  return navfacPressure(POINT_FORM, P, offset, H, z, r);
-}
-
 /** Effect with force (r/2)·F·c·∫f dn / H^(h−1) and moment (r/2)·F·c·∫f·(1 − n) dn · H^(2−h). */
 class NavfacEffect implements SurchargeEffect {
   readonly force: number;

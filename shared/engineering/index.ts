@@ -11,23 +11,8 @@ import { NO_STANDOFF_MESSAGE, standoffSolver, type StandoffAnswer } from './stan
 import type { CheckRequest, CheckResult, LoadResult, OffsetBand, PlacedLoad, ProfilePoint } from './types';
 
 export * from './types';
-export { rankineKa, coulombKa, coulombHorizontalK, jakyK0, drainedK } from './coefficients';
-export { buildSoilModel, type SoilModel } from './soil';
-export { prepareCheck, profileDepths, PASS_TOLERANCE, type CheckContext } from './check';
-export { loadEffect, placedEffect, blanketEffect } from './loads';
-export type { SurchargeEffect } from './surcharge';
-export {
-  standoffSolver,
-  searchOffsets,
-  loadBreakpoints,
-  loadWidth,
-  NO_STANDOFF_MESSAGE,
-  BREAK_EPSILON,
-  type StandoffSolver,
-  type StandoffAnswer,
-  type GroupMember,
-} from './standoff';
-export { elasticStripPressure, navfacLinePressure, navfacPointPressure } from './elastic';
+export { prepareCheck } from './check';
+export { standoffSolver, loadBreakpoints, BREAK_EPSILON, type StandoffAnswer } from './standoff';
 
 import { CAUTION } from '../caution';
 export { CAUTION };
@@ -47,7 +32,7 @@ export function attentionWarnings(warnings: readonly string[]): string[] {
 }
 
 /** An offset in words: "1.23 m", "just under 1.50 m" beside a break point, or "1.234 m". */
-export function offsetWords(x: number): string {
+function offsetWords(x: number): string {
   const cm = Math.round(x * 100) / 100;
   if (Math.abs(x - cm) < 1e-9) return `${cm.toFixed(2)} m`;
   if (Math.abs(x - cm) < 1e-5) return `just ${x < cm ? 'under' : 'over'} ${cm.toFixed(2)} m`;
@@ -74,7 +59,7 @@ export function notMonotonicWarning(name: string, answer: Pick<StandoffAnswer, '
   );
 }
 
-export interface RunOptions {
+interface RunOptions {
   /** Solve each load's standoff (default true). */
   standoffs?: boolean;
 }

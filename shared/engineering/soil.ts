@@ -25,7 +25,7 @@ import type { Excavation, SoilLayer } from './types';
 
 export const GAMMA_WATER = 9.81;
 /** Minimum equivalent fluid pressure for cohesive soils, kPa per metre depth (CIRIA C760, BS 8002; from memory). */
-export const MIN_EQUIVALENT_FLUID = 5;
+const MIN_EQUIVALENT_FLUID = 5;
 
 export interface PreparedLayer {
   top: number;
@@ -70,14 +70,14 @@ export function layerIndexAt(model: SoilModel, z: number, fromAbove = false): nu
   return i;
 }
 
-export function sigmaV(model: SoilModel, layer: number, z: number): number {
+function sigmaV(model: SoilModel, layer: number, z: number): number {
   const L = model.layers[layer];
   const above = Math.max(0, Math.min(z, model.zw) - L.top);
   const below = Math.max(0, z - Math.max(L.top, model.zw));
   return L.sigmaTop + L.gamma * above + L.gammaSat * below;
 }
 
-export function porePressure(model: SoilModel, z: number): number {
+function porePressure(model: SoilModel, z: number): number {
   return z > model.zw ? GAMMA_WATER * (z - model.zw) : 0;
 }
 

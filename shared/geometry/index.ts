@@ -18,22 +18,12 @@ export {
   type FootprintShape,
   type PreparedOutline,
 } from './outline';
-export { placeFootprint, placePad, type Placement } from './placement';
-export { influenceZone, exclusionZone, zonePolygon, stepsFor, ARC_STEPS } from './zones';
-export {
-  boundsGap,
-  boundsOf,
-  distanceToRing,
-  signedDistanceToRing,
-  signedDistanceToZone,
-  signedArea,
-  pointInRing,
-  type Ring,
-  type Bounds,
-} from './planar';
+export { placeFootprint, placePad } from './placement';
+export { influenceZone, exclusionZone } from './zones';
+export { boundsGap, boundsOf, signedDistanceToZone, signedArea } from './planar';
 
 /** Pad side of a point load when none is given (m), as in the engine. */
-export const DEFAULT_PAD_SIDE = 0.3;
+const DEFAULT_PAD_SIDE = 0.3;
 
 /** Offset, width and length of a load footprint (GeoJSON) beside a prepared excavation. Throws GeometryError on overlap. */
 export function measureLoad(excavation: PreparedOutline, footprint: FootprintShape, proj: LocalProjection): Placement {
@@ -77,4 +67,4 @@ const keptOutlines = new Map<string, PreparedOutline>();
 export function signedDistanceToZoneAt(excavation: PreparedOutline, position: LonLat, distance: number, proj: LocalProjection): number {
   return signedDistanceToZone(excavation, proj.toLocal(position), distance);
 }
-export { SITE_TOLERANCE, simplifyLine, simplifyRing } from './simplify';
+export { SITE_TOLERANCE } from './simplify';

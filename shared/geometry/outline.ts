@@ -23,7 +23,7 @@ export interface PreparedOutline {
 }
 
 /** Steepest bend of a trench centre line that is mitred (degrees of turn). */
-export const MAX_TRENCH_TURN = 135;
+const MAX_TRENCH_TURN = 135;
 
 function checkSimple(ring: Ring, what: string): void {
   if (ring.length < 3 || Math.abs(signedArea(ring)) < 1e-6)

@@ -26,7 +26,7 @@ export interface SiteOrigin {
 
 export const projectionOf = (site: SiteOrigin): LocalProjection => localProjection([site.longitude, site.latitude]);
 
-export function shapeOf(v: Pick<ShapeInput, 'kind' | 'geometry' | 'width'>): ExcavationShape {
+function shapeOf(v: Pick<ShapeInput, 'kind' | 'geometry' | 'width'>): ExcavationShape {
   return v.kind === 'trench' && v.geometry.type === 'LineString'
     ? { kind: 'trench', centreLine: v.geometry, width: v.width ?? 0 }
     : { kind: 'pit', outline: v.geometry as Polygon };

@@ -41,7 +41,7 @@ function isConvex(ring: Ring): boolean {
  * drawn with chords that touch the circle at their middles (vertices at r / cos(δ/2)), so the
  * polygon contains the true buffer and exceeds it by at most r·(1/cos(δ/2) − 1).
  */
-export function convexBuffer(ring: Ring, r: number, steps = ARC_STEPS): Ring {
+function convexBuffer(ring: Ring, r: number, steps = ARC_STEPS): Ring {
   const n = ring.length;
   const out: Ring = [];
   const normal = (i: number): number => {
@@ -114,6 +114,3 @@ export function influenceZone(excavation: PreparedOutline, depth: number, proj: 
 export function exclusionZone(excavation: PreparedOutline, standoff: number, proj: LocalProjection, tolerance = 0): Polygon | MultiPolygon {
   return zonePolygon(excavation, standoff, proj, tolerance);
 }
-
-// Measuring against a zone needs no drawing library: it lives in planar.ts, so the phone's bundle leaves turf out.
-export { signedDistanceToZone } from './planar';

@@ -143,7 +143,7 @@ export interface CheckEngine {
 }
 
 /** One bearing footprint of a placed load: a plant element, or the drawn shape of an ad hoc load. */
-export interface Footprint {
+interface Footprint {
   loadId: string;
   label: string;
   element: string;
@@ -155,7 +155,7 @@ export interface Footprint {
 }
 
 /** A load that cannot be checked where it is: it touches or overlaps an excavation. */
-export interface Refusal {
+interface Refusal {
   loadId: string;
   index: number;
   excavationId: number;
@@ -294,7 +294,7 @@ function pathOffset(outline: PreparedOutline, path: XY[]): number {
 }
 
 /** The engine load of a footprint beside an excavation. */
-export function engineLoad(f: Footprint, outline: PreparedOutline, id: string): Exclude<Load, { kind: 'blanket' }> {
+function engineLoad(f: Footprint, outline: PreparedOutline, id: string): Exclude<Load, { kind: 'blanket' }> {
   const round = (x: number) => Math.round(x * 1000) / 1000;
   if (f.kind === 'line') return { id, kind: 'line', force: f.intensity, offset: round(pathOffset(outline, f.local)) };
   const placed = placeFootprint(outline, prepareRing(f.local, 'load footprint').ring);

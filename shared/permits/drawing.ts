@@ -23,7 +23,7 @@ export function ticks(min: number, max: number, count = 5): number[] {
 }
 
 /** Printed plan scales, 1:n. */
-export const PLAN_SCALES = [50, 100, 200, 250, 500, 1000, 1250, 2000, 2500, 5000] as const;
+const PLAN_SCALES = [50, 100, 200, 250, 500, 1000, 1250, 2000, 2500, 5000] as const;
 export const POINTS_PER_METRE_OF_PAPER = 72 / 0.0254;
 
 /** The largest printed scale (smallest n) at which `widthM` × `heightM` metres fit in a box of points. */

@@ -1,7 +1,7 @@
 import type { ExclusionBasis } from '../schemas/field';
 import type { ExcavationCheck, PermitCheck, PermitDecision } from '../schemas/permits';
 
-export interface Exclusion {
+interface Exclusion {
   /** Distance (m) of the exclusion zone's boundary from the excavation's edge. */
   distance: number;
   basis: ExclusionBasis;

@@ -46,7 +46,7 @@ export function describeExcavationChange(reference: string, before: CheckInputs,
   return `${reference} ${parts.length ? listed(parts) : 'changed'}`;
 }
 
-export interface RecheckJudgement {
+interface RecheckJudgement {
   /** It now fails (and did not, or fails by more), its loads cannot be checked, or it needs more standoff than was approved. */
   worse: boolean;
   /** The new figures, e.g. "utilisation 1.31; computed standoff 2.40 m, approved 1.02 m". */

@@ -6,7 +6,6 @@ export const signInSchema = z.object({
   email: emailSchema,
   password: z.string().min(1, 'is required').max(200),
 });
-export type SignIn = z.infer<typeof signInSchema>;
 
 export const forgotPasswordSchema = z.object({ email: emailSchema });
 
@@ -35,8 +34,7 @@ export const acceptInvitationSchema = z.object({
   password: passwordSchema,
 });
 
-export const membershipAnswer = z.object({ siteId: z.number().int(), siteName: z.string(), role: siteRoleSchema, canInspect: z.boolean() });
-export type Membership = z.infer<typeof membershipAnswer>;
+const membershipAnswer = z.object({ siteId: z.number().int(), siteName: z.string(), role: siteRoleSchema, canInspect: z.boolean() });
 
 export const meAnswer = z.object({
   id: z.number().int(),

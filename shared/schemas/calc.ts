@@ -34,7 +34,7 @@ const objectError = (what: string) => ({
 });
 
 /** Physical bounds beyond which a figure is refused as nonsense (docs/calculation.md, "Refusals"). */
-export const BOUNDS = {
+const BOUNDS = {
   /** Any pressure or strength (kPa). */
   pressure: 10_000,
   /** Any force: a line load (kN/m) or a point load (kN). */
@@ -62,8 +62,8 @@ function choice<const T extends readonly [string, ...string[]]>(values: T) {
 }
 
 /** Excavation depths above this are outside what the product checks (m). */
-export const MAX_DEPTH = 50;
-export const STEP_RANGE = [0.005, 0.5] as const;
+const MAX_DEPTH = 50;
+const STEP_RANGE = [0.005, 0.5] as const;
 const FRICTION_MESSAGE = 'must be greater than 0° and at most 60°';
 
 export const excavationSchema = z.strictObject(
@@ -130,7 +130,7 @@ const offset = atLeastZero('m');
 
 export const loadKinds = ['blanket', 'strip', 'line', 'area', 'point'] as const;
 
-export const loadSchema = z.discriminatedUnion(
+const loadSchema = z.discriminatedUnion(
   'kind',
   [
     z.strictObject({ id, kind: z.literal('blanket'), pressure: positive('kPa') }),
@@ -276,7 +276,6 @@ export const ranRequestSchema = z.object({
 const _ranAssignable: (r: z.output<typeof ranRequestSchema>) => CheckRequest = (r) => r;
 void _ranAssignable;
 
-export type CalcRequestInput = z.input<typeof calcRequestSchema>;
 export type CalcRequest = z.output<typeof calcRequestSchema>;
 // The validated request is exactly what the engine takes.
 const _assignable: (r: CalcRequest) => CheckRequest = (r) => r;
@@ -290,7 +289,7 @@ export function formatPath(path: readonly PropertyKey[]): string {
 }
 
 /** One line per wrong field: `path: why`. `prefix` goes before each path (e.g. `[2]` for a list's third request). */
-export function formatIssues(error: z.ZodError, prefix = ''): string[] {
+function formatIssues(error: z.ZodError, prefix = ''): string[] {
   const lines: string[] = [];
   for (const issue of error.issues) {
     const at = (extra: PropertyKey[] = []) => {
@@ -306,7 +305,7 @@ export function formatIssues(error: z.ZodError, prefix = ''): string[] {
   return lines;
 }
 
-export type ParseResult = { ok: true; value: CalcRequest } | { ok: false; errors: string[] };
+type ParseResult = { ok: true; value: CalcRequest } | { ok: false; errors: string[] };
 
 export function parseCalcRequest(input: unknown, prefix = ''): ParseResult {
   const r = calcRequestSchema.safeParse(input);

@@ -11,7 +11,7 @@ import type { CheckResult, OffsetBand } from '../engineering/types';
 import { FOOT, fromSystem, inSystem, localizeWords, roundTo, unitSystems, type Quantity, type UnitSystem } from '../units';
 
 /** OSHA's 2 ft (29 CFR 1926.651(j)(2)) in metres: the default minimum clearance in US units. */
-export const OSHA_CLEARANCE = 2 * FOOT;
+const OSHA_CLEARANCE = 2 * FOOT;
 /** The default minimum clearance of each system (m). */
 export const DEFAULT_CLEARANCE: Record<UnitSystem, number> = { metric: 0.6, us: OSHA_CLEARANCE };
 /** The default profile step of a US request: 0.2 ft (0.061 m), near the metric 0.05 m. */
@@ -53,7 +53,7 @@ function convertFields(o: unknown, fields: Record<string, Quantity>): unknown {
   return out;
 }
 
-export type UnitsChoice = { ok: true; units: UnitSystem; request: unknown } | { ok: false; error: string };
+type UnitsChoice = { ok: true; units: UnitSystem; request: unknown } | { ok: false; error: string };
 
 /**
  * Takes `units` off a request (`metric` when absent) and, for `us`, converts its figures to SI and fills

@@ -38,7 +38,7 @@ export const supportLabels: Record<SupportType, string> = {
 };
 
 /** Trench widths the register accepts (m). */
-export const TRENCH_WIDTH = { min: 0.3, max: 10 } as const;
+const TRENCH_WIDTH = { min: 0.3, max: 10 } as const;
 /** Every point of an excavation lies within this distance of the site origin (m). */
 export const SITE_RADIUS = 5000;
 /** Default design surcharge allowance (kPa): the customary general site allowance. */
@@ -46,7 +46,6 @@ export const DEFAULT_DESIGN_SURCHARGE = 10;
 
 const listOf = (what: string) => `must be ${what}`;
 
-export { positionSchema };
 export const lineStringSchema = lineStringOf(positionSchema, 'a trench centre line needs at least two points');
 export const polygonSchema = polygonOf(
   positionSchema,
@@ -74,7 +73,7 @@ export const pointCount = (g: LineString | Polygon): number =>
  * the line or ring crosses or touches itself; checked after the limit so that its quadratic work
  * is bounded).
  */
-export const geometrySchema = z
+const geometrySchema = z
   .discriminatedUnion('type', [lineStringSchema, polygonSchema], {
     error: (iss) =>
       typeof iss.input === 'object' && iss.input !== null && 'type' in iss.input
@@ -384,7 +383,7 @@ export const designFields = [
   'restraint',
   'designReference',
 ] as const satisfies readonly (keyof ExcavationValues)[];
-export type DesignField = (typeof designFields)[number];
+type DesignField = (typeof designFields)[number];
 
 /** The design fields present (not undefined) in a request body or import feature's properties. */
 export function designFieldsIn(body: unknown): DesignField[] {

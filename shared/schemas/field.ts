@@ -16,7 +16,7 @@ export const idempotencyKeySchema = z
   .trim()
   .regex(/^[A-Za-z0-9_-]{16,100}$/, 'must be 16 to 100 letters, digits, - or _');
 
-export { CONCERN_NOTE_MAX, CONCERN_PHOTOS_MAX, CONCERN_PHOTO_BYTES_MAX } from './concern';
+export { CONCERN_PHOTOS_MAX } from './concern';
 
 /** The text fields of a concern (multipart form fields, so numbers arrive as text). */
 export const concernFormSchema = z.object({
@@ -51,7 +51,6 @@ export type Concern = z.output<typeof concernAnswer>;
 
 /** POST /api/permits/:id/concerns: the concern (the first one when the key was already used); `id` on a new one. */
 export const concernReportedAnswer = z.object({ concern: concernAnswer, replayed: z.boolean(), id: int.optional() });
-export type ConcernReported = z.output<typeof concernReportedAnswer>;
 
 const zone = z.discriminatedUnion('type', [polygonAnswer, multiPolygonAnswer]);
 
@@ -94,8 +93,7 @@ export type FieldExcavation = z.output<typeof fieldExcavationAnswer>;
 export const fieldFootprintAnswer = z.object({ label: z.string(), geometry: z.discriminatedUnion('type', [polygonAnswer, lineAnswer]) });
 export type FieldFootprint = z.output<typeof fieldFootprintAnswer>;
 
-export const fieldOperatorAnswer = z.object({ id: int, name: z.string(), briefedAt: isoTime.nullable() });
-export type FieldOperator = z.output<typeof fieldOperatorAnswer>;
+const fieldOperatorAnswer = z.object({ id: int, name: z.string(), briefedAt: isoTime.nullable() });
 
 const latLng = z.object({ latitude: z.number(), longitude: z.number() });
 

@@ -9,14 +9,14 @@
  */
 import { z } from 'zod';
 
-export const MAX_LATITUDE = 85;
+const MAX_LATITUDE = 85;
 /** The most positions one line or ring may hold as sent (before simplifying to the site tolerance). */
-export const MAX_RAW_POINTS = 500;
+const MAX_RAW_POINTS = 500;
 
 const listOf = (what: string) => `must be ${what}`;
 
 /** A figure between `lo` and `hi`, named (`must be a latitude between -85 and 85`). */
-export const coordinate = (lo: number, hi: number, what: string) =>
+const coordinate = (lo: number, hi: number, what: string) =>
   z
     .number({ error: `must be a number (${what})` })
     .min(lo, `must be a ${what} between ${lo} and ${hi}`)

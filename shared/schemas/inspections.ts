@@ -22,7 +22,7 @@ export const reasonLabels: Record<InspectionReason, string> = {
 };
 
 export const checkAnswers = ['pass', 'fail', 'na'] as const;
-export type CheckAnswer = (typeof checkAnswers)[number];
+type CheckAnswer = (typeof checkAnswers)[number];
 export const answerLabels: Record<CheckAnswer, string> = { pass: 'Pass', fail: 'Fail', na: 'Not applicable' };
 
 export const outcomes = ['safe', 'not-safe'] as const;
@@ -75,7 +75,7 @@ export const checklist = [
       'Where fumes or lack of oxygen may gather (deep pits, near sewers, fuel or exhausts): the air has been tested and is fit to enter.',
   },
 ] as const;
-export type ChecklistKey = (typeof checklist)[number]['key'];
+type ChecklistKey = (typeof checklist)[number]['key'];
 
 const noteSchema = z.string().trim().max(1000, 'must be at most 1000 characters').default('');
 
@@ -88,7 +88,6 @@ export const checkSchema = z
     if (v.answer === 'fail' && !v.note)
       ctx.addIssue({ code: 'custom', path: ['note'], message: 'is required for a fail: say what is wrong' });
   });
-export type CheckInput = z.input<typeof checkSchema>;
 
 export const checklistSchema = z.object(
   Object.fromEntries(checklist.map((c) => [c.key, checkSchema])) as Record<ChecklistKey, typeof checkSchema>,
@@ -135,8 +134,7 @@ export const inspectionInputSchema = z
 export type InspectionInput = z.input<typeof inspectionInputSchema>;
 export type InspectionData = z.output<typeof inspectionInputSchema>;
 
-export const inspectionPhotoAnswer = z.object({ id: z.number().int(), url: z.string(), name: z.string() });
-export type InspectionPhoto = z.output<typeof inspectionPhotoAnswer>;
+const inspectionPhotoAnswer = z.object({ id: z.number().int(), url: z.string(), name: z.string() });
 
 export const inspectionAnswer = z.object({
   id: z.number().int(),
@@ -203,8 +201,7 @@ export const excavationInspectionStateAnswer = z.object({
 });
 export type ExcavationInspectionState = z.output<typeof excavationInspectionStateAnswer>;
 
-export const shiftNowAnswer = z.object({ name: z.string(), start: z.iso.datetime(), end: z.iso.datetime(), overdueFrom: z.iso.datetime() });
-export type ShiftNow = z.output<typeof shiftNowAnswer>;
+const shiftNowAnswer = z.object({ name: z.string(), start: z.iso.datetime(), end: z.iso.datetime(), overdueFrom: z.iso.datetime() });
 
 export const inspectionStatesAnswer = z.object({ shift: shiftNowAnswer, excavations: z.array(excavationInspectionStateAnswer) });
 export type InspectionStatesAnswer = z.output<typeof inspectionStatesAnswer>;

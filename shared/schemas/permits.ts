@@ -72,7 +72,7 @@ export type PermitAction = (typeof permitActions)[number];
 /** Who acts: a role on the permit's site, or Brink itself (the schedule, a failed inspection). */
 export type ActorRole = SiteRole | 'system';
 
-export interface TransitionRule {
+interface TransitionRule {
   from: readonly PermitStatus[];
   to: PermitStatus;
   by: readonly ActorRole[];
@@ -129,7 +129,7 @@ export function allowedActions(status: PermitStatus, role: ActorRole | null): Pe
 // Verdict colours (ISO 3864: red prohibition/danger, yellow warning, green safe condition)
 
 /** Above this utilisation a passing check is shown as close to the limit (yellow). */
-export const CLOSE_TO_LIMIT = 0.85;
+const CLOSE_TO_LIMIT = 0.85;
 export type Verdict = 'fails' | 'close' | 'passes';
 export const verdictRule =
   'Red: the support is overloaded (utilisation above 1.00) or has no allowance. Yellow: it passes but the utilisation is above 0.85. Green: utilisation 0.85 or less.';
@@ -161,10 +161,8 @@ export const polygonSchema = polygonOf(
   'an outline needs at least three corners and the first repeated at the end',
   'must be one outer ring without holes',
 );
-export type PolygonGeometry = z.infer<typeof polygonSchema>;
 
 export const lineStringSchema = lineStringOf(lngLatSchema, 'a line needs at least two points');
-export type LineGeometry = z.infer<typeof lineStringSchema>;
 
 const loadId = z.string().trim().min(1, 'is required').max(40, 'must be at most 40 characters');
 const label = z.string().trim().max(80, 'must be at most 80 characters').default('');
@@ -202,7 +200,7 @@ export type PlacedLoad = z.infer<typeof placedLoadSchema>;
 export type PlacedLoadKind = PlacedLoad['kind'];
 
 /** A load's kind in words, for a load with no label. */
-export const loadKindWords: Record<PlacedLoadKind, string> = {
+const loadKindWords: Record<PlacedLoadKind, string> = {
   plant: 'Machine',
   stockpile: 'Stockpile',
   area: 'Area load',
@@ -227,14 +225,14 @@ export const placedLoadLabels: Record<PlacedLoadKind, string> = {
 // Dig permits: buried-services checks
 
 export const serviceCheckKeys = ['drawings', 'locatorScan', 'trialHoles'] as const;
-export type ServiceCheckKey = (typeof serviceCheckKeys)[number];
+type ServiceCheckKey = (typeof serviceCheckKeys)[number];
 export const serviceCheckLabels: Record<ServiceCheckKey, string> = {
   drawings: 'Record drawings of buried services consulted',
   locatorScan: 'Cable-locator scan of the dig area done',
   trialHoles: 'Trial holes dug by hand near the services found',
 };
 
-export const serviceCheckSchema = z
+const serviceCheckSchema = z
   .object({
     /** `not-needed` is accepted for trial holes only (no services found near the dig), with a note. */
     state: z.enum(['pending', 'done', 'not-needed']).default('pending'),
@@ -249,7 +247,6 @@ export const serviceCheckSchema = z
     }
     if (c.state === 'not-needed' && !c.notes) ctx.addIssue({ code: 'custom', path: ['notes'], message: 'say why it is not needed' });
   });
-export type ServiceCheck = z.infer<typeof serviceCheckSchema>;
 
 export const digDetailsSchema = z
   .object({
@@ -474,8 +471,7 @@ export const permitDecisionSchema = z.object({
 });
 export type PermitDecision = z.output<typeof permitDecisionSchema>;
 
-export const permitOperatorAnswer = z.object({ id: int, name: z.string(), email: z.string(), briefedAt: isoTime.nullable() });
-export type PermitOperator = z.output<typeof permitOperatorAnswer>;
+const permitOperatorAnswer = z.object({ id: int, name: z.string(), email: z.string(), briefedAt: isoTime.nullable() });
 
 /**
  * What an event of the timeline keeps beside its action (permit_events.detail): fields that depend on
@@ -522,7 +518,7 @@ export const permitAttachmentAnswer = z.object({
 export type PermitAttachment = z.output<typeof permitAttachmentAnswer>;
 
 /** A machine of the plant library as a revision's check used it (element loads and footprints). */
-export const snapshotMachineSchema = z.object({
+const snapshotMachineSchema = z.object({
   id: int,
   name: z.string(),
   operatingMass: z.number(),
@@ -532,7 +528,6 @@ export const snapshotMachineSchema = z.object({
   version: int,
   updatedAt: isoTime,
 });
-export type SnapshotMachine = z.output<typeof snapshotMachineSchema>;
 
 /**
  * The machines a revision's loads name, frozen when it was sent for review: from then on its check
@@ -555,7 +550,7 @@ export type ExcavationSnapshot = z.output<typeof excavationSnapshotSchema>;
 const offsetBandSchema = z.object({ from: z.number(), to: z.number() });
 
 /** The engine's result (shared/engineering, CheckResult: shared/permits/check.ts stores it as this type); the pressure profile is left out of the check route's answer. */
-export const checkResultSchema = z.object({
+const checkResultSchema = z.object({
   method: z.enum(surchargeMethods),
   coefficients: z.array(z.object({ top: z.number(), K: z.number() })),
   profile: z
@@ -584,7 +579,6 @@ export const checkResultSchema = z.object({
   warnings: z.array(z.string()),
   caution: z.string().default(''),
 });
-export type CheckedResult = z.output<typeof checkResultSchema>;
 
 export const checkedLoadSchema = z.object({
   /** The id the engine saw (`<permit number>/<load id>/<element>`). */
@@ -763,7 +757,6 @@ export const siteOperatorsAnswer = z.object({
   lastUsed: z.array(int),
 });
 export type SiteOperators = z.output<typeof siteOperatorsAnswer>;
-export type SiteOperator = SiteOperators['operators'][number];
 
 /** POST /api/permits/:id/briefing: when the operator confirmed it (the first confirmation stays), and the permit's status. */
 export const briefingAnswer = z.object({ briefing: z.object({ briefedAt: isoTime, status: z.enum(permitStatuses) }) });

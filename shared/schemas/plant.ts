@@ -33,7 +33,7 @@ export const plantCategoryLabels: Record<PlantCategory, string> = {
 };
 
 /** How far the shares of all elements may add up away from 1. */
-export const SHARE_TOLERANCE = 0.005;
+const SHARE_TOLERANCE = 0.005;
 
 const finite = (what: string) => z.number({ error: (iss) => (iss.input === undefined ? 'is required' : `must be a number (${what})`) });
 

@@ -8,7 +8,6 @@ export const pushSubscriptionSchema = z.object({
     auth: z.string().trim().min(1, 'is required').max(100, 'must be at most 100 characters'),
   }),
 });
-export type PushSubscriptionBody = z.infer<typeof pushSubscriptionSchema>;
 
 export const pushEndpointQuerySchema = z.object({ endpoint: pushSubscriptionSchema.shape.endpoint });
 
@@ -19,11 +18,3 @@ export type PushKeyAnswer = z.infer<typeof pushKeyAnswer>;
 /** GET and POST /api/push/subscription: is this device told, for the person signed in? */
 export const pushStatusAnswer = z.object({ subscribed: z.boolean() });
 export type PushStatusAnswer = z.infer<typeof pushStatusAnswer>;
-
-/** What the service worker receives in a push (server/src/push/pusher.ts PushMessage). */
-export interface PushPayload {
-  title: string;
-  body: string;
-  path: string;
-  tag: string;
-}

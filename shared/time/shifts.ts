@@ -27,7 +27,7 @@ export interface ShiftSpan {
 /** One day shift at 07:00: what a site works until someone sets its shifts. */
 export const DEFAULT_SHIFTS: readonly ShiftDef[] = [{ name: 'Day shift', start: '07:00' }];
 
-export interface WallClock {
+interface WallClock {
   year: number;
   month: number;
   day: number;
@@ -91,7 +91,7 @@ export function zonedInstant(year: number, month: number, day: number, hour: num
 }
 
 /** "HH:MM" → minutes after midnight; throws on anything else. */
-export function parseTimeOfDay(s: string): number {
+function parseTimeOfDay(s: string): number {
   const m = /^([01]\d|2[0-3]):([0-5]\d)$/.exec(s);
   if (!m) throw new Error(`not a time of day: ${s}`);
   return Number(m[1]) * 60 + Number(m[2]);
@@ -104,7 +104,7 @@ function addDays(y: number, m: number, d: number, days: number): { year: number;
 }
 
 const pad = (n: number, w = 2) => String(n).padStart(w, '0');
-export const isoDate = (y: number, m: number, d: number) => `${pad(y, 4)}-${pad(m)}-${pad(d)}`;
+const isoDate = (y: number, m: number, d: number) => `${pad(y, 4)}-${pad(m)}-${pad(d)}`;
 
 function sorted(shifts: readonly ShiftDef[]): ShiftDef[] {
   const list = shifts.length ? [...shifts] : [...DEFAULT_SHIFTS];
