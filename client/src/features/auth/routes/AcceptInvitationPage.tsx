@@ -4,17 +4,17 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useNavigate, useSearchParams } from 'react-router-dom';
 import { acceptInvitationSchema } from '@shared/schemas/auth';
 import { roleLabels } from '@shared/schemas/common';
-import { Button, ButtonLink } from '@client/components/Button';
-import { FormSummary, TextField } from '@client/components/Fields';
+import { ButtonLink } from '@client/components/Button';
+import { TextField } from '@client/components/Fields';
 import { LoadError, Loading } from '@client/components/Status';
 import { isApiError } from '@client/lib/api';
-import { applyServerErrors, maxLengths } from '@client/lib/forms';
+import { maxLengths } from '@client/lib/forms';
 import { useAcceptInvitation, useInvitation, type InvitationSummary } from '../api/auth';
 import { AuthCard } from '../components/AuthCard';
-
-const max = maxLengths(acceptInvitationSchema.shape);
+import { AuthForm, NewPasswordFields, useAuthSubmit } from '../components/AuthForm';
 import { withPasswordConfirmation } from '../components/confirmPassword';
 
+const max = maxLengths(acceptInvitationSchema.shape);
 const schema = withPasswordConfirmation(acceptInvitationSchema);
 
 function InvitationNotValid() {
@@ -47,25 +47,26 @@ export function AcceptInvitationPage() {
 function AcceptForm({ token, invitation }: { token: string; invitation: InvitationSummary }) {
   const navigate = useNavigate();
   const accept = useAcceptInvitation();
-  const [summary, setSummary] = useState<string | null>(null);
   const [invalid, setInvalid] = useState(false);
-  const { register, handleSubmit, setError, formState } = useForm({
+  const form = useForm({
     resolver: zodResolver(schema),
     defaultValues: { token, name: invitation.name, password: '', confirm: '' },
   });
-
-  if (invalid) return <InvitationNotValid />;
-
-  const onSubmit = handleSubmit(async ({ name, password }) => {
-    setSummary(null);
-    try {
+  const submit = useAuthSubmit(
+    form,
+    ['name', 'password'],
+    async ({ name, password }) => {
       await accept.mutateAsync({ token, name, password });
       void navigate('/', { replace: true });
-    } catch (error) {
-      if (isApiError(error, 404) || isApiError(error, 410) || (isApiError(error) && error.code === 'invalid_token')) setInvalid(true);
-      else setSummary(applyServerErrors(error, setError, ['name', 'password']));
-    }
-  });
+    },
+    (error) => {
+      const dead = isApiError(error, 404) || isApiError(error, 410) || (isApiError(error) && error.code === 'invalid_token');
+      if (dead) setInvalid(true);
+      return dead;
+    },
+  );
+
+  if (invalid) return <InvitationNotValid />;
 
   return (
     <AuthCard
@@ -78,34 +79,22 @@ function AcceptForm({ token, invitation }: { token: string; invitation: Invitati
         </p>
       }
     >
-      <form onSubmit={onSubmit} noValidate className="flex flex-col gap-5">
-        <FormSummary message={summary} />
+      <AuthForm {...submit} action="Set password and sign in" busyText="Setting up…">
         <TextField
           label="Your name"
           autoComplete="name"
           maxLength={max.name}
-          error={formState.errors.name?.message}
-          {...register('name')}
+          error={form.formState.errors.name?.message}
+          {...form.register('name')}
         />
-        <TextField
+        <NewPasswordFields
           label="Password"
-          type="password"
-          autoComplete="new-password"
           hint="At least 10 characters."
-          error={formState.errors.password?.message}
-          {...register('password')}
+          password={form.register('password')}
+          confirm={form.register('confirm')}
+          errors={form.formState.errors}
         />
-        <TextField
-          label="Password again"
-          type="password"
-          autoComplete="new-password"
-          error={formState.errors.confirm?.message}
-          {...register('confirm')}
-        />
-        <Button type="submit" busy={formState.isSubmitting} busyText="Setting up…">
-          Set password and sign in
-        </Button>
-      </form>
+      </AuthForm>
     </AuthCard>
   );
 }

@@ -3,12 +3,11 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useSearchParams } from 'react-router-dom';
 import { resetPasswordSchema } from '@shared/schemas/auth';
-import { Button, ButtonLink } from '@client/components/Button';
-import { FormSummary, TextField } from '@client/components/Fields';
+import { ButtonLink } from '@client/components/Button';
 import { isApiError } from '@client/lib/api';
-import { applyServerErrors } from '@client/lib/forms';
 import { useResetPassword } from '../api/auth';
 import { AuthCard, BackToSignIn } from '../components/AuthCard';
+import { AuthForm, NewPasswordFields, useAuthSubmit } from '../components/AuthForm';
 import { withPasswordConfirmation } from '../components/confirmPassword';
 
 const schema = withPasswordConfirmation(resetPasswordSchema);
@@ -28,12 +27,21 @@ export function ResetPasswordPage() {
   const [params] = useSearchParams();
   const token = params.get('token') ?? '';
   const reset = useResetPassword();
-  const [summary, setSummary] = useState<string | null>(null);
   const [invalid, setInvalid] = useState(false);
-  const { register, handleSubmit, setError, formState } = useForm({
+  const form = useForm({
     resolver: zodResolver(schema),
     defaultValues: { token, password: '', confirm: '' },
   });
+  const submit = useAuthSubmit(
+    form,
+    ['password'],
+    ({ password }) => reset.mutateAsync({ token, password }),
+    (error) => {
+      const dead = isApiError(error) && (error.code === 'invalid_token' || 'token' in error.fields);
+      if (dead) setInvalid(true);
+      return dead;
+    },
+  );
 
   if (reset.isSuccess) {
     return (
@@ -47,38 +55,16 @@ export function ResetPasswordPage() {
   }
   if (token.length < 20 || invalid) return <LinkNotValid />;
 
-  const onSubmit = handleSubmit(async ({ password }) => {
-    setSummary(null);
-    try {
-      await reset.mutateAsync({ token, password });
-    } catch (error) {
-      if (isApiError(error) && (error.code === 'invalid_token' || 'token' in error.fields)) setInvalid(true);
-      else setSummary(applyServerErrors(error, setError, ['password']));
-    }
-  });
-
   return (
     <AuthCard title="Choose a new password" intro="At least 10 characters. A few unrelated words make a strong one.">
-      <form onSubmit={onSubmit} noValidate className="flex flex-col gap-5">
-        <FormSummary message={summary} />
-        <TextField
+      <AuthForm {...submit} action="Save the new password" busyText="Saving…">
+        <NewPasswordFields
           label="New password"
-          type="password"
-          autoComplete="new-password"
-          error={formState.errors.password?.message}
-          {...register('password')}
+          password={form.register('password')}
+          confirm={form.register('confirm')}
+          errors={form.formState.errors}
         />
-        <TextField
-          label="New password again"
-          type="password"
-          autoComplete="new-password"
-          error={formState.errors.confirm?.message}
-          {...register('confirm')}
-        />
-        <Button type="submit" busy={formState.isSubmitting} busyText="Saving…">
-          Save the new password
-        </Button>
-      </form>
+      </AuthForm>
       <BackToSignIn />
     </AuthCard>
   );
