@@ -35,11 +35,11 @@ import type { UnitSystem } from '../shared/units';
  * The typed shape of Brink's PostgreSQL database. Each migration in db/migrations adds tables here.
  * Timestamps are `timestamptz`; ids are identity integers.
  */
-export type Timestamp = ColumnType<Date, Date | string, Date | string>;
+type Timestamp = ColumnType<Date, Date | string, Date | string>;
 /** A timestamp the database fills in (defaults to now()). */
 export type CreatedAt = ColumnType<Date, Date | string | undefined, Date | string>;
 
-export interface UsersTable {
+interface UsersTable {
   id: Generated<number>;
   email: string;
   name: string;
@@ -51,7 +51,7 @@ export interface UsersTable {
   units: UnitSystem | null;
 }
 
-export interface SitesTable {
+interface SitesTable {
   id: Generated<number>;
   name: string;
   latitude: number;
@@ -68,14 +68,14 @@ export interface SitesTable {
   plan_opacity: Generated<number>;
 }
 
-export interface SiteMembersTable {
+interface SiteMembersTable {
   site_id: number;
   user_id: number;
   role: SiteRole;
   can_inspect: Generated<boolean>;
 }
 
-export interface InvitationsTable {
+interface InvitationsTable {
   id: Generated<number>;
   email: string;
   name: string;
@@ -89,7 +89,7 @@ export interface InvitationsTable {
   created_at: CreatedAt;
 }
 
-export interface PasswordResetsTable {
+interface PasswordResetsTable {
   id: Generated<number>;
   user_id: number;
   token_hash: string;
@@ -98,7 +98,7 @@ export interface PasswordResetsTable {
   created_at: CreatedAt;
 }
 
-export interface AuditLogTable {
+interface AuditLogTable {
   id: Generated<number>;
   at: CreatedAt;
   actor_id: number | null;
@@ -110,7 +110,7 @@ export interface AuditLogTable {
   detail: ColumnType<Stored<AuditDetail>, string | undefined, never>;
 }
 
-export interface CaughtMailTable {
+interface CaughtMailTable {
   id: Generated<number>;
   received_at: CreatedAt;
   mail_from: string;
@@ -120,21 +120,21 @@ export interface CaughtMailTable {
   html: string | null;
 }
 
-export interface SessionTable {
+interface SessionTable {
   sid: string;
   sess: unknown;
   expire: Timestamp;
 }
 
 /** A jsonb column: objects go in as JSON text (Kysely passes strings through) and come out parsed. */
-export type Json<T> = ColumnType<T, string, string>;
+type Json<T> = ColumnType<T, string, string>;
 /**
  * A jsonb column whose rows may be older than the code: it comes out as `Stored<T>`, which is read
  * only through its shared schema (`readStored`, shared/schemas/stored.ts), so a drifted shape fails loudly.
  */
 export type StoredJson<T> = ColumnType<Stored<T>, string, string>;
 
-export interface UploadsTable {
+interface UploadsTable {
   id: Generated<number>;
   site_id: number | null;
   /** What the file is for: 'drawing', 'site-plan', 'photo', 'attachment', … */
@@ -202,7 +202,7 @@ export interface PlantItemsTable {
   updated_at: CreatedAt;
 }
 
-export interface SiteShiftsTable {
+interface SiteShiftsTable {
   id: Generated<number>;
   site_id: number;
   name: string;
@@ -210,7 +210,7 @@ export interface SiteShiftsTable {
   start_time: string;
 }
 
-export interface InspectionsTable {
+interface InspectionsTable {
   id: Generated<number>;
   excavation_id: number;
   site_id: number;
@@ -230,34 +230,34 @@ export interface InspectionsTable {
 }
 
 /** What a not-safe inspection set in motion (server/src/services/inspections.ts `Consequences`). */
-export interface InspectionConsequencesTable {
+interface InspectionConsequencesTable {
   inspection_id: number;
   consequences: StoredJson<Consequences>;
   updated_at: Generated<Date>;
 }
 
-export interface InspectionPhotosTable {
+interface InspectionPhotosTable {
   inspection_id: number;
   upload_id: number;
   position: number;
 }
 
-export interface InspectionSuspensionsTable {
+interface InspectionSuspensionsTable {
   inspection_id: number;
   permit_id: number;
 }
 
-export interface InspectionRemindersTable {
+interface InspectionRemindersTable {
   site_id: number;
   shift_start: Timestamp;
   sent_at: Timestamp;
   excavation_ids: Json<number[]>;
 }
 
-export type PermitStatusValue = PermitStatus;
+type PermitStatusValue = PermitStatus;
 
 /** A permit: its number, kind and where it stands. Its content lives in `permit_revisions`. */
-export interface PermitsTable {
+interface PermitsTable {
   id: Generated<number>;
   site_id: number;
   /** Running number on the site; `number` is its printed form (e.g. P-0007). */
@@ -277,7 +277,7 @@ export interface PermitsTable {
 }
 
 /** One revision of a permit's content; from Approved on a change makes a new one. */
-export interface PermitRevisionsTable {
+interface PermitRevisionsTable {
   id: Generated<number>;
   permit_id: number;
   revision: number;
@@ -304,14 +304,14 @@ export interface PermitRevisionsTable {
   updated_at: CreatedAt;
 }
 
-export interface PermitOperatorsTable {
+interface PermitOperatorsTable {
   revision_id: number;
   user_id: number;
   briefed_at: Timestamp | null;
 }
 
 /** The permit's timeline: append-only. `actor_id` null for the schedule or an inspection. */
-export interface PermitEventsTable {
+interface PermitEventsTable {
   id: Generated<number>;
   permit_id: number;
   revision: number;
@@ -325,7 +325,7 @@ export interface PermitEventsTable {
   detail: ColumnType<Stored<PermitEventDetail>, string | undefined, never>;
 }
 
-export interface PermitAttachmentsTable {
+interface PermitAttachmentsTable {
   id: Generated<number>;
   permit_id: number;
   revision: number;
@@ -336,7 +336,7 @@ export interface PermitAttachmentsTable {
 }
 
 /** A concern reported from the field view (photo, note, excavation); shown on the permit's timeline. */
-export interface ConcernsTable {
+interface ConcernsTable {
   id: Generated<number>;
   site_id: number;
   permit_id: number;
@@ -352,14 +352,14 @@ export interface ConcernsTable {
 }
 
 /** E-mail the SMTP server accepted, by the message's idempotency key (db/migrations/0008_outbox.ts). */
-export interface MailDeliveriesTable {
+interface MailDeliveriesTable {
   key: string;
   delivered_at: Generated<Date>;
   recipients: string;
   subject: string;
 }
 
-export interface PushSubscriptionsTable {
+interface PushSubscriptionsTable {
   id: Generated<number>;
   user_id: number;
   endpoint: string;
@@ -368,7 +368,7 @@ export interface PushSubscriptionsTable {
   created_at: Generated<Date>;
 }
 
-export interface PushDeliveriesTable {
+interface PushDeliveriesTable {
   key: string;
   delivered_at: Generated<Date>;
   subscription_id: number;
@@ -407,7 +407,7 @@ export interface Database {
 }
 
 /** Attempt limits shared by every server (server/src/services/throttle.ts). */
-export interface AttemptCountsTable {
+interface AttemptCountsTable {
   scope: string;
   key: string;
   count: number;
@@ -438,7 +438,7 @@ let connectionLosses = 0;
 export const connectionLossCount = () => connectionLosses;
 
 /** Logs the 'error' events of a pool and of every client it hands out, instead of crashing on them. */
-export function handlePoolErrors(pool: pg.Pool, name: string): void {
+function handlePoolErrors(pool: pg.Pool, name: string): void {
   let lastLogged = 0;
   const log = (err: Error) => {
     connectionLosses++;

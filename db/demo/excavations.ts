@@ -20,7 +20,7 @@ export function lonLat(origin: { latitude: number; longitude: number }, east: nu
 
 const madeGround = { top: 0, unitWeight: 18, saturatedUnitWeight: 19, frictionAngle: 27, cohesion: 0 };
 
-export const demoExcavations = [
+const demoExcavations = [
   {
     reference: 'TR-01',
     name: 'Rising main trench, pump house to inlet chamber',

@@ -36,7 +36,7 @@ function axle(label: string, x: number, track: number, contactLength: number, co
 const TRACK_NOTE =
   'Equal shares on both tracks: the machine standing level with the arm tucked in. Digging or lifting over one track loads it far more; raise its share or the design factor for that case.';
 
-export const demoPlant: DemoPlant[] = [
+const demoPlant: DemoPlant[] = [
   { name: 'Mini excavator 1.5 t', category: 'excavator', mass: 1.5, elements: tracks(1.25, 0.23, 0.77), notes: TRACK_NOTE },
   { name: 'Midi excavator 5 t', category: 'excavator', mass: 5, elements: tracks(2.0, 0.4, 1.56), notes: TRACK_NOTE },
   { name: 'Excavator 8 t', category: 'excavator', mass: 8, elements: tracks(2.25, 0.45, 1.85), notes: TRACK_NOTE },
