@@ -30,9 +30,9 @@ const clientDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..
 
 /** Builds the Express app (API and the built client) without listening: tests drive it directly. */
 /** A session ends this long after its last use. */
-export const SESSION_MAX_AGE_MS = 12 * 3600_000;
+const SESSION_MAX_AGE_MS = 12 * 3600_000;
 /** A session's expiry moves on at most this often (one write a minute, not one a request). */
-export const SESSION_TOUCH_MS = 60_000;
+const SESSION_TOUCH_MS = 60_000;
 
 export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boolean } = {}): Express {
   const { config } = deps;

@@ -11,7 +11,7 @@ const signedIn = 'src/app/Layout.tsx';
 const site = 'src/app/SiteScope.tsx';
 const auth = 'src/app/Layout.tsx'; // PublicLayout lives beside the signed-in frame
 
-export interface ClientPage {
+interface ClientPage {
   page: string;
   modules: string[];
   /** Modules the page loads by itself once it has shown: counted in its bytes, not named in the page shell. */
@@ -108,7 +108,7 @@ export const PAGES: ClientPage[] = [
   { page: '/admin/mail', modules: [signedIn, 'src/features/admin/routes/MailPage.tsx'], address: /^\/admin\/mail\/?$/ },
 ];
 
-export interface ManifestChunk {
+interface ManifestChunk {
   file: string;
   isEntry?: boolean;
   isDynamicEntry?: boolean;
@@ -116,7 +116,7 @@ export interface ManifestChunk {
   dynamicImports?: string[];
   css?: string[];
 }
-export type Manifest = Record<string, ManifestChunk>;
+type Manifest = Record<string, ManifestChunk>;
 
 export function readManifest(dist: string): Manifest {
   return JSON.parse(readFileSync(join(dist, '.vite', 'manifest.json'), 'utf8')) as Manifest;

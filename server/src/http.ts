@@ -146,18 +146,18 @@ export type Access =
 export type SiteAccess = Extract<Access, { kind: 'site' }>;
 
 /** The site a route was authorised on, with the person's role there (null for administrators without one). */
-export interface SiteGrant {
+interface SiteGrant {
   id: number;
   role: SiteRole | null;
   canInspect: boolean;
 }
 
 /** Who the handler sees: on public routes whoever is signed in, if anyone; behind any other rule, always someone. */
-export type UserOf<A extends Access> = A extends { kind: 'public' } ? SessionUser | null : SessionUser;
+type UserOf<A extends Access> = A extends { kind: 'public' } ? SessionUser | null : SessionUser;
 /** The site grant: present exactly on `site` routes. */
-export type SiteOf<A extends Access> = A extends { kind: 'site' } ? SiteGrant : null;
+type SiteOf<A extends Access> = A extends { kind: 'site' } ? SiteGrant : null;
 
-export interface RouteContext<B, Q, P, A extends Access = Access> {
+interface RouteContext<B, Q, P, A extends Access = Access> {
   req: Request;
   res: Response;
   body: B;
@@ -215,7 +215,7 @@ type Out<S> = S extends ZodType ? z.output<S> : undefined;
  * it answers through `res` itself, which the test-mode check still sees). Dates may stand where the
  * wire has ISO strings: `res.json` writes them so.
  */
-export type Answer<R> = [R] extends [never] ? unknown : R extends ZodType ? Dated<z.input<R>> | void : unknown;
+type Answer<R> = [R] extends [never] ? unknown : R extends ZodType ? Dated<z.input<R>> | void : unknown;
 type Dated<T> = T extends string
   ? string extends T
     ? T | Date
@@ -233,7 +233,7 @@ export type RouteDoc = Omit<RouteSpec<ZodType, ZodType, ZodType>, 'beforeBody' |
  * A site found through the row a path names (`siteOfRow`): the guard reads that row's site with the
  * person and their membership in one query, instead of one query each.
  */
-export interface SiteOfRow {
+interface SiteOfRow {
   table: 'permits' | 'excavations' | 'uploads';
   id: number;
 }

@@ -17,7 +17,7 @@ import { entryModules, moduleFiles, PAGES, readManifest } from './clientPages';
  * chose mine: client/src/lib/units.ts), which it would otherwise ask only once who I am has come
  * back: one more round trip after the page has shown.
  */
-export function firstReads(address: string): string[] {
+function firstReads(address: string): string[] {
   const reads = ['/api/auth/me'];
   if (/^\/field\/?$/.test(address)) reads.push('/api/field/permits', '/api/sites');
   const permit = /^\/field\/permits\/(\d+)\/?$/.exec(address);

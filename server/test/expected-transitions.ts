@@ -26,7 +26,7 @@ const allowedText = `
   withdraw   approved   withdrawn    supervisor
 `;
 
-export interface ExpectedTransition {
+interface ExpectedTransition {
   action: string;
   from: string;
   to: string;

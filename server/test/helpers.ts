@@ -26,7 +26,6 @@ export const demo = {
   supervisor: 'supervisor@demo.brink.test',
   operator: 'operator@demo.brink.test',
 } as const;
-export type DemoRole = keyof typeof demo;
 
 /** The test app's own origin (its PUBLIC_URL): supertest requests say they come from it (setup-origin.ts). */
 export const TEST_ORIGIN = 'http://brink.test';

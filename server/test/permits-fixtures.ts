@@ -30,9 +30,9 @@ export interface PermitWorld {
   coordinator2Email: string;
 }
 
-export const TRENCH = { width: 1.0, depth: 2.4, length: 30 };
+const TRENCH = { width: 1.0, depth: 2.4, length: 30 };
 /** The 21 t excavator of the demo library: tracks 3.35 m × 0.6 m at 2.2 m centres. */
-export const EXCAVATOR = { name: 'Excavator 21 t', gauge: 2.2, shoe: 0.6 };
+const EXCAVATOR = { name: 'Excavator 21 t', gauge: 2.2, shoe: 0.6 };
 
 /** A fresh test trench on the demo site for the world (so earlier permits on the old one are not counted). */
 export async function newTrench(w: PermitWorld): Promise<void> {

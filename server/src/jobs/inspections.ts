@@ -6,9 +6,9 @@ import { inspectionStates, needingInspection, reconcileUnsafe, siteLeads, type R
 import { scheduledQueue } from './queues';
 
 /** How often the schedule looks for overdue inspections (pg-boss cron, minutes resolution). */
-export const OVERDUE_CRON = '*/2 * * * *';
+const OVERDUE_CRON = '*/2 * * * *';
 
-export interface OverdueRun {
+interface OverdueRun {
   siteId: number;
   shiftStart: string;
   excavations: string[];
@@ -102,7 +102,7 @@ export async function startInspectionJobs(deps: Deps, prefix = 'brink'): Promise
 }
 
 /** How often the reconciliation of not-safe excavations runs (pg-boss cron, minutes resolution). */
-export const RECONCILE_CRON = '* * * * *';
+const RECONCILE_CRON = '* * * * *';
 
 /** One reconciliation pass, its findings logged. */
 export async function runReconciliation(deps: Deps, opts: { siteIds?: number[] } = {}): Promise<Reconciled[]> {

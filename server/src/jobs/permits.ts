@@ -3,7 +3,6 @@ import { runPermitSchedule } from '../services/permits/schedule';
 import { scheduledQueue } from './queues';
 
 export { runPermitSchedule } from '../services/permits/schedule';
-export { advancePermit } from '../services/permits/machine';
 
 /**
  * Starts the permit schedule on pg-boss: every minute, approved permits whose window has opened

@@ -7,7 +7,7 @@ import type { Config } from '../config';
 import { queueConnection } from '../services/tx';
 import { drainingWorker, scheduledQueue } from '../jobs/queues';
 
-export interface Message {
+interface Message {
   to: string | string[];
   subject: string;
   text: string;
@@ -139,12 +139,12 @@ function deliveryRow(m: QueuedMessage) {
 }
 
 /** The Message-ID header of a queued message: its idempotency key. */
-export function messageIdOf(key: string): string {
+function messageIdOf(key: string): string {
   return `<${key}@brink.mail>`;
 }
 
 /** Escapes text for the HTML part of a message. */
-export function escapeHtml(s: string): string {
+function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 }
 

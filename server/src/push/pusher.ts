@@ -8,7 +8,7 @@ import { drainingWorker, scheduledQueue } from '../jobs/queues';
 import type { VapidKeys } from './keys';
 
 /** What a notification says, and the page of Brink it opens (a path, e.g. /field/permits/12). */
-export interface PushMessage {
+interface PushMessage {
   title: string;
   body: string;
   path: string;
@@ -23,7 +23,7 @@ interface PushJob {
 }
 
 /** Retries as the mail queue does (1 s, doubling), fewer: a notification a day late helps nobody. */
-export const PUSH_QUEUE_OPTIONS = { retryLimit: 12, retryDelay: 1, retryBackoff: true, expireInSeconds: 30 } as const;
+const PUSH_QUEUE_OPTIONS = { retryLimit: 12, retryDelay: 1, retryBackoff: true, expireInSeconds: 30 } as const;
 
 /**
  * The push services real browsers subscribe at (their endpoints' hosts). A subscription naming any

@@ -19,7 +19,7 @@ import { hashToken, newToken, RESET_HOURS } from '../services/tokens';
 import { notice } from '../mail/mailer';
 import { ThrottleStore } from '../services/throttle';
 
-export const BCRYPT_COST = 12;
+const BCRYPT_COST = 12;
 // Compared against when the address is unknown, so both answers take as long.
 const DUMMY_HASH = bcrypt.hashSync('not-a-real-password', BCRYPT_COST);
 
@@ -32,7 +32,7 @@ declare module 'express-session' {
 }
 
 /** Starts a fresh session for the person (a new id, so a planted session id is worthless). */
-export async function signInSession(req: Request, userId: number): Promise<void> {
+async function signInSession(req: Request, userId: number): Promise<void> {
   await new Promise<void>((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
   req.session.userId = userId;
   req.session.touchedAt = Date.now();

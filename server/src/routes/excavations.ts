@@ -35,7 +35,7 @@ export const siteReaders = { kind: 'site', roles: 'any', admin: true, siteId: si
 export const siteWriters = { kind: 'site', roles: ['supervisor', 'coordinator'], admin: true, siteId: siteFromParam } satisfies SiteAccess;
 
 /** GeoJSON import files are read whole into memory: 10 MB is thousands of excavations. */
-export const IMPORT_LIMIT = 10 * MB;
+const IMPORT_LIMIT = 10 * MB;
 
 const siteParams = z.object({ siteId: idSchema });
 const oneParams = z.object({ siteId: idSchema, id: idSchema });

@@ -18,7 +18,7 @@ import { isUniqueViolation, isForeignKeyViolation } from '../services/pg-errors'
 
 type PlantRow = Selectable<PlantItemsTable>;
 
-export function plantOut(r: PlantRow): PlantItem {
+function plantOut(r: PlantRow): PlantItem {
   return {
     id: r.id,
     name: r.name,
@@ -33,7 +33,7 @@ export function plantOut(r: PlantRow): PlantItem {
 }
 
 /** The plant library, lightest first within each category. */
-export async function loadPlant(db: Db, ids?: number[]): Promise<PlantItem[]> {
+async function loadPlant(db: Db, ids?: number[]): Promise<PlantItem[]> {
   let q = db.selectFrom('plant_items').selectAll().orderBy('category').orderBy('operating_mass').orderBy('name');
   if (ids) {
     if (ids.length === 0) return [];

@@ -19,7 +19,7 @@ type SiteRow = {
   created_at: Date;
 };
 
-export function siteOut(r: SiteRow): Site {
+function siteOut(r: SiteRow): Site {
   return {
     id: r.id,
     name: r.name,
@@ -33,7 +33,7 @@ export function siteOut(r: SiteRow): Site {
   };
 }
 
-export async function getSite(db: Db, id: number): Promise<Site | null> {
+async function getSite(db: Db, id: number): Promise<Site | null> {
   const r = await db.selectFrom('sites').selectAll().where('id', '=', id).executeTakeFirst();
   return r ? siteOut(r) : null;
 }

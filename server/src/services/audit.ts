@@ -1,6 +1,6 @@
 import type { Db } from '@db/database';
 
-export interface AuditEntry {
+interface AuditEntry {
   actorId: number | null;
   siteId?: number | null;
   entity: string;

@@ -33,11 +33,6 @@ export function concernQuery(db: Db) {
     ]);
 }
 
-export async function concernsOf(db: Db, permitId: number): Promise<Concern[]> {
-  const rows = await concernQuery(db).where('c.permit_id', '=', permitId).orderBy('c.id').execute();
-  return rows.map(concernOut);
-}
-
 type ConcernRow = {
   id: number;
   permit_id: number;
@@ -67,7 +62,7 @@ export function concernOut(r: ConcernRow): Concern {
 }
 
 /** The coordinators' and supervisors' addresses on a site (active people), but not the reporter's. */
-export async function concernRecipients(db: Db, siteId: number, exceptUserId: number): Promise<string[]> {
+async function concernRecipients(db: Db, siteId: number, exceptUserId: number): Promise<string[]> {
   const rows = await db
     .selectFrom('site_members as m')
     .innerJoin('users as u', 'u.id', 'm.user_id')
@@ -82,7 +77,7 @@ export async function concernRecipients(db: Db, siteId: number, exceptUserId: nu
 }
 
 /** Is the excavation one of those the permit's current revision names? */
-export async function permitNamesExcavation(db: Db, permitId: number, excavationId: number): Promise<{ reference: string } | null> {
+async function permitNamesExcavation(db: Db, permitId: number, excavationId: number): Promise<{ reference: string } | null> {
   const row = await withCurrentRevision(db)
     .innerJoin('excavations as e', 'e.site_id', 'p.site_id')
     .select('e.reference')
@@ -96,7 +91,7 @@ export async function permitNamesExcavation(db: Db, permitId: number, excavation
 /** A send repeated with a key already taken: answered with the first one's concern. */
 class Replay extends Error {}
 
-export interface ConcernReport {
+interface ConcernReport {
   permitId: number;
   siteId: number;
   by: { id: number; name: string };

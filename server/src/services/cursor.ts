@@ -5,7 +5,7 @@ import { badRequest } from '../http';
  * which carries the last row's sort key (as PostgreSQL prints it, so a timestamp keeps its
  * microseconds) and id. Opaque to clients: base64url of a JSON array.
  */
-export function encodeCursor(key: string, id: number): string {
+function encodeCursor(key: string, id: number): string {
   return Buffer.from(JSON.stringify([key, id])).toString('base64url');
 }
 

@@ -200,7 +200,7 @@ export async function excavationHistory(db: Db, siteId: number, id: number) {
 }
 
 /** An import: what was made and changed, or (nothing imported) every refused feature and how many the file held. */
-export type ImportOutcome = { ok: true; report: ImportReport } | { ok: false; report: ImportReport; total: number };
+type ImportOutcome = { ok: true; report: ImportReport } | { ok: false; report: ImportReport; total: number };
 
 /**
  * Imports a GeoJSON FeatureCollection: `add` refuses a reference already on the site, `replace`

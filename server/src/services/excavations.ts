@@ -31,7 +31,7 @@ import { badRequest, zodFields } from '../http';
 import { decodeCursor, pageOf } from './cursor';
 
 type Row = Selectable<ExcavationsTable>;
-export { projectionOf, type SiteOrigin } from '@shared/geometry/shapes';
+export { projectionOf } from '@shared/geometry/shapes';
 
 /**
  * Problems that need the site: a point farther than SITE_RADIUS from the origin, or a geometry that
@@ -227,7 +227,7 @@ function fileProblem(doc: unknown): string | null {
   return null;
 }
 
-export interface ImportPlan {
+interface ImportPlan {
   /** Set when the file as a whole is unusable (not JSON, not a FeatureCollection). */
   fileError: string | null;
   features: { index: number; values: ExcavationValues }[];

@@ -34,9 +34,9 @@ import { withCurrentRevision } from './permits/read';
 const iso = (d: Date | string) => new Date(d).toISOString();
 
 /** Permits an operator works under (the briefing is due from Approved on). */
-export const fieldStatuses: readonly PermitStatus[] = ['approved', 'live', 'suspended'];
+const fieldStatuses: readonly PermitStatus[] = ['approved', 'live', 'suspended'];
 /** Closed permits stay in the operator's list this long after their window, so they see that work has stopped. */
-export const CLOSED_SHOWN_FOR_MS = 12 * 3600_000;
+const CLOSED_SHOWN_FOR_MS = 12 * 3600_000;
 
 /**
  * Everything the phone shows of permits, in one statement (one round trip, however many permits):

@@ -31,7 +31,7 @@ import { inTransaction, withSavepoint } from './tx';
 /* ---------------------------------------------------------------- shifts */
 
 /** The site's shifts in start order (one day shift at 07:00 when none are set). */
-export async function siteShifts(db: Db, siteId: number): Promise<ShiftDef[]> {
+async function siteShifts(db: Db, siteId: number): Promise<ShiftDef[]> {
   const rows = await db
     .selectFrom('site_shifts')
     .select(['name', 'start_time'])
@@ -87,7 +87,7 @@ export async function siteClock(db: Db, siteId: number, now: Date): Promise<Site
  * `ok` with a safe inspection since the shift started, else `due` inside the grace time and
  * `overdue` after it.
  */
-export function decideState(f: {
+function decideState(f: {
   latestOutcome: Outcome | null;
   lastSafeAt: Date | null;
   shiftStart: Date;
@@ -183,7 +183,7 @@ export function needingInspection(list: ExcavationInspectionState[]): Excavation
 
 /* ---------------------------------------------------------------- records */
 
-export interface ExcavationRow {
+interface ExcavationRow {
   id: number;
   site_id: number;
   reference: string;
@@ -202,7 +202,7 @@ export async function loadExcavation(db: Db, id: number): Promise<ExcavationRow>
 }
 
 /** How far back an inspection may be dated when it is recorded late. */
-export const BACKDATE_HOURS = 12;
+const BACKDATE_HOURS = 12;
 
 /**
  * Checks and stores an inspection with its photos and returns it, with its consequences
@@ -422,8 +422,6 @@ export async function siteLeads(db: Db, siteId: number): Promise<{ email: string
 
 /* ---------------------------------------------------------------- consequences */
 
-export type { Consequences };
-
 /**
  * What follows a recorded inspection. "Not safe": every live permit on the excavation is suspended
  * through the permits' own transition (same e-mails as a coordinator's suspension, the inspection
@@ -432,7 +430,7 @@ export type { Consequences };
  * (the one that stores the inspection), each suspension in a savepoint: a permit that could not be
  * suspended is listed in `notSuspended` (and in the e-mail) so that people act by hand.
  */
-export async function applyConsequences(deps: Deps, inspection: Inspection): Promise<Consequences> {
+async function applyConsequences(deps: Deps, inspection: Inspection): Promise<Consequences> {
   if (inspection.outcome !== 'not-safe') return { suspended: [], notSuspended: [], notified: [] };
   return inTransaction(deps.db, async (trx) => {
     const inTrx = { ...deps, db: trx };

@@ -90,7 +90,7 @@ export function filesOf(req: { files?: unknown }, field: string): Express.Multer
   return files?.[field] ?? [];
 }
 
-export interface StoredUpload {
+interface StoredUpload {
   id: number;
   mime: string;
   size: number;

@@ -92,7 +92,7 @@ export function machinesOf(snapshot: PlantSnapshot): Map<number, PlantForCheck> 
 }
 
 /** The library's machines that the loads name, as they are now: frozen on a revision sent for review. */
-export async function takePlantSnapshot(db: Db, loads: PlacedLoad[], now: Date): Promise<PlantSnapshot> {
+async function takePlantSnapshot(db: Db, loads: PlacedLoad[], now: Date): Promise<PlantSnapshot> {
   const ids = plantIdsOf(loads);
   const rows = ids.length
     ? await db
@@ -133,23 +133,6 @@ async function excavationSnapshotOf(db: Db, siteId: number, check: PermitCheck, 
       ...Object.fromEntries(checkInputFields.map((k) => [k, e[k]])),
     })),
   };
-}
-
-/**
- * Other permits of the site that may stand beside the same excavations at the same time: approved,
- * live or suspended, naming one of the excavations, with a window that overlaps. Their current
- * revision's loads.
- */
-export async function overlappingPermits(
-  db: Db,
-  siteId: number,
-  exceptPermitId: number | null,
-  excavationIds: number[],
-  window: { start: Date; end: Date },
-  opts: { withOpen?: boolean } = {},
-): Promise<(OtherPermit & { plantSnapshot: PlantSnapshot | null })[]> {
-  if (!excavationIds.length && !opts.withOpen) return [];
-  return (await overlappingQuery(db, siteId, exceptPermitId, excavationIds, window, opts).execute()).map(otherPermitOf);
 }
 
 function overlappingQuery(
@@ -282,7 +265,7 @@ function memoised<A extends unknown[], R>(fn: (...args: A) => R): (...args: A) =
   };
 }
 
-export interface CheckSubject {
+interface CheckSubject {
   siteId: number;
   permitId: number | null;
   number: string;

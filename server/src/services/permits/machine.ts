@@ -28,7 +28,7 @@ import { pushTransition } from './push';
 import { currentRevisionRow, withCurrentRevision } from './read';
 import { inTransaction } from '../tx';
 
-export interface TransitionOptions {
+interface TransitionOptions {
   /** The version the actor was looking at; required for people, optional for Brink itself. */
   version?: number;
   reason?: string;
@@ -39,7 +39,7 @@ export interface TransitionOptions {
   cause?: Record<string, unknown>;
 }
 
-export interface TransitionOutcome {
+interface TransitionOutcome {
   permitId: number;
   from: PermitStatus;
   to: PermitStatus;
@@ -430,7 +430,7 @@ function decisionOf(
 }
 
 /** The part of a check the timeline keeps with a transition. */
-export function summaryOf(c: PermitCheck) {
+function summaryOf(c: PermitCheck) {
   return {
     utilisation: c.utilisation,
     passes: c.passes,

@@ -6,13 +6,13 @@ import { formatSiteTime } from '@shared/time/shifts';
 import { withCurrentRevision } from './read';
 
 /** Who must hear of a change: the person who asked for the permit, the site's coordinators, the operators it names. */
-export type Audience = 'requester' | 'coordinators' | 'operators';
+type Audience = 'requester' | 'coordinators' | 'operators';
 
 /** Who is told of each transition: the people who must act next, or stop. */
 /** A notice that is not a transition: the window-closing reminder, a re-check that changes no status. */
 export type NoticeKind = PermitAction | 'reminder' | 'recheck';
 
-export const audiences: Record<NoticeKind, Audience[]> = {
+const audiences: Record<NoticeKind, Audience[]> = {
   submit: ['coordinators'],
   approve: ['requester', 'operators'],
   return: ['requester'],
@@ -79,7 +79,7 @@ export const asks: Partial<Record<NoticeKind, Partial<Record<Audience, string>>>
 };
 
 /** E-mail addresses of each audience for a permit (inactive people left out, the actor left out). */
-export async function recipients(db: Db, permitId: number, audience: Audience, exceptUserId: number | null): Promise<string[]> {
+async function recipients(db: Db, permitId: number, audience: Audience, exceptUserId: number | null): Promise<string[]> {
   const rows = await audienceMembers(db, permitId, audience);
   return [...new Set(rows.filter((r) => r.id !== exceptUserId).map((r) => r.email))];
 }
@@ -114,7 +114,7 @@ export async function audienceMembers(db: Db, permitId: number, audience: Audien
   return q.execute();
 }
 
-export interface NoticeFacts {
+interface NoticeFacts {
   permitId: number;
   number: string;
   siteName: string;

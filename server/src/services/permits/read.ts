@@ -181,7 +181,7 @@ export async function listPermits(
   return { permits: page.map(summaryOut), next };
 }
 
-export async function loadSummary(db: Db, id: number): Promise<PermitSummary | null> {
+async function loadSummary(db: Db, id: number): Promise<PermitSummary | null> {
   const r = await summaryQuery(db).where('p.id', '=', id).executeTakeFirst();
   return r ? summaryOut(r) : null;
 }
@@ -231,7 +231,7 @@ export async function loadRevision(db: Db, permitId: number, revision: number): 
   };
 }
 
-export async function loadEvents(db: Db, permitId: number): Promise<PermitEvent[]> {
+async function loadEvents(db: Db, permitId: number): Promise<PermitEvent[]> {
   const rows = await db.selectFrom('permit_events').selectAll().where('permit_id', '=', permitId).orderBy('id').execute();
   return rows.map((e) => ({
     id: e.id,
@@ -246,7 +246,7 @@ export async function loadEvents(db: Db, permitId: number): Promise<PermitEvent[
   }));
 }
 
-export async function loadAttachments(db: Db, permitId: number): Promise<PermitAttachment[]> {
+async function loadAttachments(db: Db, permitId: number): Promise<PermitAttachment[]> {
   const rows = await db
     .selectFrom('permit_attachments as a')
     .innerJoin('uploads as f', 'f.id', 'a.upload_id')

@@ -17,7 +17,7 @@ const RECHECKED: PermitStatus[] = ['submitted', 'approved', 'live', 'suspended']
 export type { RecheckOutcome };
 
 /** Whether a change touches what the check of a load beside the excavation reads. */
-export function checkInputsChanged(before: ExcavationValues, after: ExcavationValues): boolean {
+function checkInputsChanged(before: ExcavationValues, after: ExcavationValues): boolean {
   return checkInputFields.some((k) => canonical(before[k]) !== canonical(after[k]));
 }
 

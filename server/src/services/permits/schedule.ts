@@ -5,9 +5,9 @@ import { advancePermit } from './machine';
 import { notifyTransition } from './notify';
 
 /** Before the window closes, by this much, the requester and operators are reminded (ms). */
-export const REMINDER_BEFORE_MS = 3600_000;
+const REMINDER_BEFORE_MS = 3600_000;
 
-export interface ScheduleOutcome {
+interface ScheduleOutcome {
   started: number[];
   lapsed: number[];
   reminded: number[];
