@@ -136,4 +136,11 @@ describe('site-time formatting (screens, e-mails, the printed permit)', () => {
     expect(formatSiteTime('2026-03-30T23:00:00Z', 'Europe/London')).toBe('Tue, 31 Mar 2026, 00:00');
     expect(formatSiteTime('not a time', 'Europe/London')).toBe('not a time');
   });
+
+  it('gives the clock alone for a time on a day already named', () => {
+    // The same instants as above: UK summer time UTC+1; Sydney daylight time UTC+11 in January.
+    expect(formatSiteTime('2026-06-16T06:10:00Z', 'Europe/London', { clock: true })).toBe('07:10');
+    expect(formatSiteTime('2026-03-30T23:00:00Z', 'Europe/London', { clock: true })).toBe('00:00');
+    expect(formatSiteTime('2026-01-16T06:10:05Z', 'Australia/Sydney', { clock: true, seconds: true })).toBe('17:10:05');
+  });
 });

@@ -201,21 +201,23 @@ const siteFormatters = new Map<string, Intl.DateTimeFormat>();
 /**
  * The one way Brink shows a time to people: "Mon, 30 Mar 2026, 07:00" on the site's clock (24 h), on
  * screens, in e-mails, CSV and the PDFs. `zone: true` adds the zone's name, for text read away from
- * the site (e-mails, the printed permit): "Mon, 30 Mar 2026, 07:00 (Europe/London)". A value that is
- * not a time comes back as it is.
+ * the site (e-mails, the printed permit): "Mon, 30 Mar 2026, 07:00 (Europe/London)". `clock: true`
+ * gives the clock alone, for a time on a day already named: "07:00". A value that is not a time comes
+ * back as it is.
  */
-export function formatSiteTime(at: Date | string, timeZone: string, opts: { seconds?: boolean; zone?: boolean } = {}): string {
+export function formatSiteTime(
+  at: Date | string,
+  timeZone: string,
+  opts: { seconds?: boolean; zone?: boolean; clock?: boolean } = {},
+): string {
   const date = typeof at === 'string' ? new Date(at) : at;
   if (Number.isNaN(date.getTime())) return String(at);
-  const key = `${timeZone}|${opts.seconds ? 's' : ''}`;
+  const key = `${timeZone}|${opts.seconds ? 's' : ''}|${opts.clock ? 'c' : ''}`;
   let f = siteFormatters.get(key);
   if (!f) {
     f = new Intl.DateTimeFormat('en-GB', {
       timeZone,
-      weekday: 'short',
-      day: 'numeric',
-      month: 'short',
-      year: 'numeric',
+      ...(opts.clock ? {} : { weekday: 'short', day: 'numeric', month: 'short', year: 'numeric' }),
       hour: '2-digit',
       minute: '2-digit',
       ...(opts.seconds ? { second: '2-digit' } : {}),

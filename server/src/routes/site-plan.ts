@@ -44,6 +44,29 @@ async function checkNearSite(db: Db, siteId: number, b: PlanBounds): Promise<voi
   }
 }
 
+/** What a change to the site's plan sets (what is left out stays as it is; null takes it off). */
+interface PlanChange {
+  uploadId?: number | null;
+  bounds?: PlanBounds | null;
+  opacity?: number;
+}
+
+/** Changes the site's plan and writes the audit line for it, both or neither. */
+async function changePlan(db: Db, siteId: number, actorId: number, change: PlanChange, action: string, detail: Record<string, unknown>) {
+  await db.transaction().execute(async (trx) => {
+    await trx
+      .updateTable('sites')
+      .set({
+        ...(change.uploadId !== undefined ? { plan_upload_id: change.uploadId } : {}),
+        ...(change.bounds !== undefined ? { plan_bounds: change.bounds && JSON.stringify(change.bounds) } : {}),
+        ...(change.opacity !== undefined ? { plan_opacity: change.opacity } : {}),
+      })
+      .where('id', '=', siteId)
+      .execute();
+    await audit(trx, { actorId, siteId, entity: 'site', entityId: siteId, action, detail });
+  });
+}
+
 /** The site plan image pinned to the map by its south-west and north-east corners. */
 export function registerSitePlanRoutes(api: Api): void {
   const { db } = api.deps;
@@ -96,20 +119,11 @@ export function registerSitePlanRoutes(api: Api): void {
         siteId: params.siteId,
         userId: user.id,
       });
-      await db.transaction().execute(async (trx) => {
-        await trx
-          .updateTable('sites')
-          .set({ plan_upload_id: stored.id, plan_bounds: JSON.stringify(bounds), plan_opacity: opacity })
-          .where('id', '=', params.siteId)
-          .execute();
-        await audit(trx, {
-          actorId: user.id,
-          siteId: params.siteId,
-          entity: 'site',
-          entityId: params.siteId,
-          action: 'plan-uploaded',
-          detail: { name: stored.originalName, size: stored.size, bounds, opacity },
-        });
+      await changePlan(db, params.siteId, user.id, { uploadId: stored.id, bounds, opacity }, 'plan-uploaded', {
+        name: stored.originalName,
+        size: stored.size,
+        bounds,
+        opacity,
       });
       return { plan: await planOf(db, params.siteId) };
     },
@@ -131,23 +145,9 @@ export function registerSitePlanRoutes(api: Api): void {
       if (!plan) throw notFound('The site plan');
       if (!body.bounds && body.opacity === undefined) return { plan };
       if (body.bounds) await checkNearSite(db, params.siteId, body.bounds);
-      await db.transaction().execute(async (trx) => {
-        await trx
-          .updateTable('sites')
-          .set({
-            ...(body.bounds ? { plan_bounds: JSON.stringify(body.bounds) } : {}),
-            ...(body.opacity !== undefined ? { plan_opacity: body.opacity } : {}),
-          })
-          .where('id', '=', params.siteId)
-          .execute();
-        await audit(trx, {
-          actorId: user.id,
-          siteId: params.siteId,
-          entity: 'site',
-          entityId: params.siteId,
-          action: 'plan-changed',
-          detail: { before: { bounds: plan.bounds, opacity: plan.opacity }, after: body },
-        });
+      await changePlan(db, params.siteId, user.id, { bounds: body.bounds, opacity: body.opacity }, 'plan-changed', {
+        before: { bounds: plan.bounds, opacity: plan.opacity },
+        after: body,
       });
       return { plan: await planOf(db, params.siteId) };
     },
@@ -166,17 +166,7 @@ export function registerSitePlanRoutes(api: Api): void {
     async ({ params, user }) => {
       const plan = await planOf(db, params.siteId);
       if (!plan) return;
-      await db.transaction().execute(async (trx) => {
-        await trx.updateTable('sites').set({ plan_upload_id: null, plan_bounds: null }).where('id', '=', params.siteId).execute();
-        await audit(trx, {
-          actorId: user.id,
-          siteId: params.siteId,
-          entity: 'site',
-          entityId: params.siteId,
-          action: 'plan-removed',
-          detail: { name: plan.name },
-        });
-      });
+      await changePlan(db, params.siteId, user.id, { uploadId: null, bounds: null }, 'plan-removed', { name: plan.name });
     },
   );
 }

@@ -23,7 +23,7 @@ export function DuePanel({ siteId, timeZone, canInspect }: { siteId: number; tim
         <>
           <p className="text-ink-soft">
             {states.data.shift.name} from {formatSiteTime(new Date(states.data.shift.start), timeZone)}; overdue from{' '}
-            {formatSiteTime(new Date(states.data.shift.overdueFrom), timeZone).slice(-5)}.
+            {formatSiteTime(new Date(states.data.shift.overdueFrom), timeZone, { clock: true })}.
           </p>
           {states.data.excavations.length === 0 ? (
             <p>No excavation is open.</p>

@@ -27,7 +27,7 @@ export function InspectionsPage() {
       <Panel title="This shift">
         <p>
           {shift.name} started {formatSiteTime(new Date(shift.start), tz)}; excavations without a safe inspection are overdue from{' '}
-          {formatSiteTime(new Date(shift.overdueFrom), tz).slice(-5)}.
+          {formatSiteTime(new Date(shift.overdueFrom), tz, { clock: true })}.
         </p>
         {excavations.length === 0 ? (
           <p>No excavation is open on this site.</p>
