@@ -13,9 +13,7 @@ const navLinkClass = ({ isActive }: { isActive: boolean }) =>
     isActive ? 'bg-accent-wash text-accent-strong underline underline-offset-4' : 'text-ink hover:bg-accent-wash'
   }`;
 
-export { SkipLink } from '@client/components/SkipLink';
-
-export function Brand() {
+function Brand() {
   return (
     <Link to="/" className="flex min-h-11 items-center text-2xl font-bold tracking-tight text-ink no-underline">
       Brink
@@ -23,7 +21,7 @@ export function Brand() {
   );
 }
 
-export function Footer() {
+function Footer() {
   return (
     <footer className="mt-12 border-t border-rule">
       <div className="mx-auto max-w-6xl px-4 py-6">

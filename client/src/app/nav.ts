@@ -27,7 +27,7 @@ export const navItems: NavItem[] = [
   { label: 'Sites', to: '/admin/sites', who: 'admin' },
 ];
 
-export interface NavLinkTarget {
+interface NavLinkTarget {
   label: string;
   to: string;
   end: boolean;

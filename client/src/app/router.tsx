@@ -21,7 +21,7 @@ const siteRoutes: RouteObject[] = [...dashboardRoutes, ...mapRoutes, ...register
 /** Other signed-in pages, e.g. `{ path: 'permits/:permitId', Component: PermitPage },`. */
 const signedInRoutes: RouteObject[] = [...plantRoutes, ...permitRoutes];
 
-export const routes: RouteObject[] = [
+const routes: RouteObject[] = [
   {
     errorElement: <ErrorPage />,
     // Shown while the first page's code arrives (each page loads when first opened).

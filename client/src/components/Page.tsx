@@ -8,7 +8,7 @@ interface PageHeadingProps {
   actions?: ReactNode;
 }
 
-export function PageHeading({ title, intro, actions }: PageHeadingProps) {
+function PageHeading({ title, intro, actions }: PageHeadingProps) {
   return (
     <header className="mb-6 flex flex-wrap items-end justify-between gap-4">
       <div className="min-w-0">

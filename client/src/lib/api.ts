@@ -42,7 +42,7 @@ function isErrorBody(value: unknown): value is ApiErrorBody {
 }
 
 /** Builds the ApiError for a failed response, whatever its body holds. */
-export async function errorFromResponse(res: Response): Promise<ApiError> {
+async function errorFromResponse(res: Response): Promise<ApiError> {
   let body: unknown = null;
   try {
     body = await res.json();
@@ -62,7 +62,7 @@ export async function errorFromResponse(res: Response): Promise<ApiError> {
   return new ApiError(res.status, `http_${res.status}`, fallbackMessage(res.status), {}, body);
 }
 
-export interface RequestOptions {
+interface RequestOptions {
   method?: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
   /** Sent as JSON, or as it is when a FormData (multipart: the browser writes its boundary). */
   body?: unknown;

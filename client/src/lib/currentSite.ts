@@ -3,7 +3,7 @@ import type { Site } from '@shared/schemas/sites';
 import { parseId, rememberedSiteId, useMe, useMySites } from './session';
 
 /** The site of a /sites/:siteId/… address, or null elsewhere. */
-export function siteIdFromPath(pathname: string): number | null {
+function siteIdFromPath(pathname: string): number | null {
   const match = matchPath({ path: '/sites/:siteId', end: false }, pathname);
   return match ? parseId(match.params.siteId) : null;
 }

@@ -7,7 +7,7 @@ import { CONCERN_PHOTO_BYTES_MAX } from '@shared/schemas/concern';
  * browser can decode become JPEG too. A photo that is already small and a JPEG or PNG, or anything
  * the browser cannot decode, comes back as it is; the server judges type and size again.
  */
-export const PHOTO_LONG_SIDE = 1600;
+const PHOTO_LONG_SIDE = 1600;
 
 /**
  * What the server takes as a photo (inspections and concerns alike): PNG or JPEG, at most 10 MB

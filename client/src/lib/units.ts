@@ -39,7 +39,7 @@ export interface Figures {
 }
 
 /** Figures in a given system: the one formatter every screen uses at its edge. */
-export function figuresIn(system: UnitSystem): Figures {
+function figuresIn(system: UnitSystem): Figures {
   const f = (q: Quantity) => (si: number, options?: FormatOptions) => formatQuantity(q, si, system, options);
   return {
     system,

@@ -8,7 +8,7 @@ import { configureFormMessages } from '@client/lib/forms';
 
 configureFormMessages();
 
-export interface FakeAnswer {
+interface FakeAnswer {
   status: number;
   body?: unknown;
 }

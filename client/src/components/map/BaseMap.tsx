@@ -9,13 +9,13 @@ import { api } from '@client/lib/api';
 import { MetricGridLayer, metresPerPixel } from './metricGrid';
 
 /** Zoom range: about 1:200 (zoom 21 at 52° N) out to about 1:20 000. */
-export const MIN_ZOOM = 14;
-export const MAX_ZOOM = 22;
+const MIN_ZOOM = 14;
+const MAX_ZOOM = 22;
 /** Tile servers rarely go past 19; Leaflet enlarges their last level beyond it. */
 const MAX_NATIVE_TILE_ZOOM = 19;
 
 /** Settings the browser needs: a map tile address when the site has internet. */
-export function useAppConfig() {
+function useAppConfig() {
   return useQuery({
     queryKey: ['config'],
     queryFn: ({ signal }) => api.get<ConfigAnswer>('/api/config', signal),
@@ -23,7 +23,7 @@ export function useAppConfig() {
   });
 }
 
-export type PinnedPlan = Pick<SitePlan, 'uploadId' | 'bounds'>;
+type PinnedPlan = Pick<SitePlan, 'uploadId' | 'bounds'>;
 
 interface BaseMapProps {
   /** The site origin: the metric grid counts metres from here. */

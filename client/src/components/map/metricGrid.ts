@@ -2,7 +2,7 @@ import L from 'leaflet';
 import { localProjection, type LocalProjection } from '@shared/geometry';
 
 /** Grid spacings (m) the offline base chooses from: the smallest whose lines stand at least MIN_GAP px apart. */
-export const GRID_STEPS = [0.5, 1, 2, 5, 10, 20, 50, 100, 200, 500, 1000, 2000] as const;
+const GRID_STEPS = [0.5, 1, 2, 5, 10, 20, 50, 100, 200, 500, 1000, 2000] as const;
 const MIN_GAP = 36;
 
 /** The grid step (m) for a scale of `pxPerMetre`, and how often lines are labelled (every `labelEvery`-th). */

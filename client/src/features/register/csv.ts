@@ -15,7 +15,7 @@ export function soilSummary(soil: Excavation['soil']): string {
     .join('; ');
 }
 
-export const registerCsvHeader = [
+const registerCsvHeader = [
   'Reference',
   'Name',
   'Kind',

@@ -33,11 +33,11 @@ export function noAnswer(error: unknown): boolean {
 }
 
 /** The newer of two answers by the server's time on them. */
-export function newer<T extends { asOf: string }>(a: T, b: T | null): T {
+function newer<T extends { asOf: string }>(a: T, b: T | null): T {
   return b && Date.parse(b.asOf) > Date.parse(a.asOf) ? b : a;
 }
 
-export interface ReadKeptOptions<T> {
+interface ReadKeptOptions<T> {
   /** Asks the server (through the service worker when there is one). */
   get: (signal: AbortSignal) => Promise<{ body: T; headers: Headers }>;
   /** Keeps a server answer on the phone. */

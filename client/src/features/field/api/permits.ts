@@ -7,8 +7,6 @@ import { reportTry } from '../hooks/useSignal';
 import type { LastTry } from '../lib/copy';
 import { noAnswer, readKept, type Kept } from './kept';
 
-export type { Source } from './kept';
-
 /** Query keys of the field view; everything under ['field'] is refreshed when the outbox has sent. */
 export const fieldKeys = {
   all: ['field'] as const,

@@ -32,7 +32,7 @@ function Problem({ id, field, errors }: { id: string; field: ConcernField; error
 }
 
 /** A concern the server refused, as the form shows it: each reason next to its field, and the summary. */
-export function refusedConcernErrors(item: Pick<ConcernItem, 'fields'>): Errors {
+function refusedConcernErrors(item: Pick<ConcernItem, 'fields'>): Errors {
   const errors: Errors = {};
   for (const [path, reason] of Object.entries(item.fields ?? {})) {
     const field = concernField(path);

@@ -15,7 +15,7 @@ const why: Partial<Record<PushState, string>> = {
  * Why turning notifications on or off failed, and what to do: Brink's refusal in the words of the
  * one label mapping (`serverSummary`), or the browser's push service not answering.
  */
-export function pushProblem(err: unknown, on: boolean): string {
+function pushProblem(err: unknown, on: boolean): string {
   const lead = `Notifications were not turned ${on ? 'on' : 'off'}.`;
   if (err instanceof ApiError && err.status !== 0) {
     const what = err.fields.endpoint

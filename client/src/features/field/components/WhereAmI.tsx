@@ -22,7 +22,7 @@ function remember(on: boolean): void {
 }
 
 /** The phone's position while the operator has asked for it; started again on the next visit when allowed. */
-export function usePositionOnRequest() {
+function usePositionOnRequest() {
   const [active, setActive] = useState(false);
   useEffect(() => {
     if (!remembered() || !navigator.permissions?.query) return;

@@ -20,7 +20,7 @@ function subscribe(listener: () => void) {
   return () => listeners.delete(listener);
 }
 
-export function useLastFieldTry(): LastTry | null {
+function useLastFieldTry(): LastTry | null {
   return useSyncExternalStore(
     subscribe,
     () => last,

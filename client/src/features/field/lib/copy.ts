@@ -9,7 +9,7 @@ import type { Kept } from '../api/kept';
 export const STALE_AFTER_MS = 5 * 60_000;
 
 /** States in which work may go on under a permit, or has just been stopped: a stale copy of these can mislead. */
-export const inForceStatuses: readonly FieldPermit['status'][] = ['approved', 'live', 'suspended'];
+const inForceStatuses: readonly FieldPermit['status'][] = ['approved', 'live', 'suspended'];
 
 /**
  * How old the shown answer is (ms). A server answer counts from when it arrived, on the phone's own
@@ -27,7 +27,7 @@ export function possiblyOutOfDate(shown: Kept<{ asOf: string }>, statuses: reado
 }
 
 /** What the page says about where the shown answer came from. */
-export type Provenance = 'server' | 'asking' | 'no-signal';
+type Provenance = 'server' | 'asking' | 'no-signal';
 
 export function provenance(shown: Kept<unknown>): Provenance {
   if (shown.source === 'server') return 'server';

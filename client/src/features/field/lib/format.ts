@@ -6,7 +6,7 @@ export function clock(iso: string | Date): string {
   return time.format(new Date(iso));
 }
 
-export function sameDay(a: Date, b: Date): boolean {
+function sameDay(a: Date, b: Date): boolean {
   return a.getFullYear() === b.getFullYear() && a.getMonth() === b.getMonth() && a.getDate() === b.getDate();
 }
 

@@ -2,7 +2,7 @@ import { localProjection, prepareExcavation, signedDistanceToZoneAt, type LocalP
 import type { FieldExcavation, FieldPermit } from '@shared/schemas/field';
 
 /** The exclusion zones of a permit, prepared once in the site's local projection for many readings. */
-export interface PreparedZones {
+interface PreparedZones {
   proj: LocalProjection;
   zones: { excavation: FieldExcavation; outline: PreparedOutline; standoff: number }[];
 }

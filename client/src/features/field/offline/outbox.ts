@@ -55,7 +55,7 @@ export interface ConcernItem extends ItemBase {
 }
 
 export type OutboxItem = BriefingItem | ConcernItem;
-export type NewOutboxItem = Omit<BriefingItem, keyof ItemBase> | Omit<ConcernItem, keyof ItemBase>;
+type NewOutboxItem = Omit<BriefingItem, keyof ItemBase> | Omit<ConcernItem, keyof ItemBase>;
 
 let box: UseStore | null = null;
 function store(): UseStore {
@@ -164,7 +164,7 @@ async function attempt(item: OutboxItem): Promise<Outcome> {
 let running: Promise<OutboxSummary> | null = null;
 let queued: Promise<OutboxSummary> | null = null;
 
-export interface OutboxSummary {
+interface OutboxSummary {
   sent: number;
   waiting: number;
   refused: number;

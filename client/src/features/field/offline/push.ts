@@ -2,7 +2,7 @@ import { api } from '@client/lib/api';
 import type { PushKeyAnswer, PushStatusAnswer } from '@shared/schemas/push';
 
 /** Can this browser, here, be told of permits (service worker, Push API, notifications)? */
-export function pushSupported(): boolean {
+function pushSupported(): boolean {
   return typeof window !== 'undefined' && 'serviceWorker' in navigator && 'PushManager' in window && 'Notification' in window;
 }
 

@@ -18,7 +18,7 @@ function store(): UseStore {
 export type SavedPerson = Pick<Me, 'id' | 'name' | 'email'>;
 
 /** A permit as kept on the phone: the server's answer, with the time it gave it out. */
-export type SavedPermit = FieldPermitAnswer;
+type SavedPermit = FieldPermitAnswer;
 
 const meKey = 'me';
 const listKey = (userId: number) => `permits:${userId}`;

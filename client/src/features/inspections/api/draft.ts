@@ -5,7 +5,7 @@ import type { InspectionInput } from '@shared/schemas/inspections';
  * The form as typed so far, kept on the phone (IndexedDB) with its photos, so that nothing is lost
  * to a closed tab, a dead battery, a lost signal or a refused send. Cleared once the server has it.
  */
-export interface InspectionDraft {
+interface InspectionDraft {
   values: FormValues;
   photos: DraftPhoto[];
   /** Made when the form first opens; the server records a form with the same ref only once. */

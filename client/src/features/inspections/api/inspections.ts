@@ -10,10 +10,10 @@ import type {
 import { api, ApiError, isApiError, sendForm } from '@client/lib/api';
 import { inspectionStatesKey } from '@client/lib/inspectionStates';
 
-export type { ExcavationInspections, ShiftsAnswer };
+export type { ShiftsAnswer };
 export type RecordedInspection = z.output<typeof recordedInspectionAnswer>;
 
-export const inspectionKeys = {
+const inspectionKeys = {
   excavation: (id: number) => ['inspections', 'excavation', id] as const,
   shifts: (siteId: number) => ['inspections', 'shifts', siteId] as const,
 };
@@ -30,7 +30,7 @@ export function useExcavationInspections(excavationId: number | null) {
  * Sends the form and its photos as multipart/form-data (the JSON in `inspection`, files in
  * `photos`). Throws ApiError: status 0 when there is no connection (the draft stays on the phone).
  */
-export async function sendInspection(excavationId: number, data: InspectionData, photos: Blob[]): Promise<RecordedInspection> {
+async function sendInspection(excavationId: number, data: InspectionData, photos: Blob[]): Promise<RecordedInspection> {
   const body = new FormData();
   body.append('inspection', JSON.stringify(data));
   photos.forEach((p, i) => body.append('photos', p, p instanceof File ? p.name : `photo-${i + 1}.jpg`));

@@ -2,7 +2,7 @@ import { useId, type ReactNode } from 'react';
 import type { UseFormRegisterReturn } from 'react-hook-form';
 import { namedSentence } from './named';
 
-export interface Choice {
+interface Choice {
   value: string;
   label: string;
   /** Classes for the chosen state (safety colours for verdicts only). */

@@ -77,7 +77,7 @@ const fieldLabels: Record<string, string> = {
 const shownFields = Object.keys(fieldLabels).filter((k) => !/^checklist\.[a-z]+$/.test(k)) as Path<FormValues>[];
 
 /** The form's values as the API takes them; empty choices are left out so the schema names them. */
-export function toInput(values: FormValues, clientRef: string): unknown {
+function toInput(values: FormValues, clientRef: string): unknown {
   return {
     clientRef,
     reason: values.reason || undefined,

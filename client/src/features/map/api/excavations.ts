@@ -4,7 +4,6 @@ import type {
   changedExcavationAnswer,
   Excavation,
   ExcavationInput,
-  HistoryEntry,
   oneExcavationAnswer,
   PlanBounds,
   planAnswer,
@@ -61,8 +60,6 @@ export function useDrawing(siteId: number) {
     onSuccess: (e) => settle(e),
   });
 }
-
-export type { HistoryEntry };
 
 export function historyPath(siteId: number, id: number) {
   return `/api/sites/${siteId}/excavations/${id}/history`;

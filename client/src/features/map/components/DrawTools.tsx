@@ -26,7 +26,7 @@ function latLngsOf(g: ExcavationGeometry): L.LatLngExpression[] {
 }
 
 /** GeoJSON of a drawn or edited layer, positions rounded to 1e-7° (about 1 cm). */
-export function geometryOfLayer(layer: { toGeoJSON(): unknown }): ExcavationGeometry {
+function geometryOfLayer(layer: { toGeoJSON(): unknown }): ExcavationGeometry {
   const g = (layer.toGeoJSON() as GeoJSON.Feature<LineString | Polygon>).geometry;
   const round = (p: number[]): [number, number] => [Math.round(p[0] * 1e7) / 1e7, Math.round(p[1] * 1e7) / 1e7];
   return g.type === 'LineString'

@@ -48,7 +48,7 @@ const labels: Partial<Record<Path<ExcavationFormValues>, string>> = {
 };
 const shown = Object.keys(labels) as Path<ExcavationFormValues>[];
 
-export interface ExcavationFormProps {
+interface ExcavationFormProps {
   /** The saved excavation, or null for a new one. */
   excavation: Excavation | null;
   initial: ExcavationFormValues;

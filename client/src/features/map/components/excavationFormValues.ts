@@ -78,7 +78,7 @@ export function toInput(v: ExcavationFormValues): Record<string, unknown> {
 /** The shared schema, read from the form's shape: its field paths (soil[0].top) match the form's names (soil.0.top). */
 export const excavationFormSchema = z.preprocess((v: ExcavationFormValues) => toInput(v), excavationInputSchema);
 
-export function rowOf(l: Excavation['soil'][number]): SoilRow {
+function rowOf(l: Excavation['soil'][number]): SoilRow {
   return {
     top: l.top,
     unitWeight: l.unitWeight,

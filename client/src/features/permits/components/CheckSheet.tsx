@@ -12,7 +12,7 @@ const standoffText = (f: Figures, x: number | null) => (x === null ? 'none withi
 const PENDING = 'worked out when you let go';
 
 /** The calculation sheet of one excavation: inputs, method, diagram, forces, utilisation, standoffs, other permits, warnings. */
-export function ExcavationSheet({
+function ExcavationSheet({
   ex,
   full = true,
   standoffsPending = false,

@@ -291,10 +291,10 @@ function ZoomWatch({ onZoom }: { onZoom: (zoom: number) => void }) {
 }
 
 /** Below this many screen pixels across, a machine cannot be placed by eye to a few centimetres. */
-export const SMALL_ON_SCREEN_PX = 16;
+const SMALL_ON_SCREEN_PX = 16;
 
 /** Web Mercator metres per CSS pixel at a latitude and zoom (256-pixel tiles). */
-export function metresPerPixel(latitude: number, zoom: number): number {
+function metresPerPixel(latitude: number, zoom: number): number {
   return (40075016.686 * Math.cos((latitude * Math.PI) / 180)) / 2 ** (zoom + 8);
 }
 

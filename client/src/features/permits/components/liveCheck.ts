@@ -26,7 +26,7 @@ export function liveOutcome(run: () => PermitCheck): LiveOutcome {
 }
 
 /** `loads[0].height` → "Load 1: Height (m)"; an excavation's figure "TR-01 soil[0].cohesion" → "TR-01 Layer 1 cohesion (kPa)". */
-export function checkFieldWords(field: string): string {
+function checkFieldWords(field: string): string {
   const own = field.match(/^(\S+) (.+)$/);
   return own && !own[1].startsWith('loads[') ? `${own[1]} ${fieldLabel(own[2])}` : fieldLabel(field);
 }

@@ -2,8 +2,8 @@ import type { PermitStatus, PermitSummary } from '@shared/schemas/permits';
 import { wallClock } from '@shared/time/shifts';
 
 /** Why a supervisor's own permit comes first on the dashboard, most pressing first. */
-export const needs = ['returned', 'draft', 'today'] as const;
-export type Need = (typeof needs)[number];
+const needs = ['returned', 'draft', 'today'] as const;
+type Need = (typeof needs)[number];
 
 export const needTitles: Record<Need, string> = {
   returned: 'Returned for changes',

@@ -50,7 +50,7 @@ export function bearingOf(a: XY, b: XY): number {
 }
 
 /** The rotation handle stands this far ahead of a machine's origin (m). */
-export const HANDLE_DISTANCE = 8;
+const HANDLE_DISTANCE = 8;
 
 export function handleAt(centre: XY, bearing: number): XY {
   const th = (bearing * Math.PI) / 180;

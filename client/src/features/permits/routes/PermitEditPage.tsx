@@ -118,7 +118,7 @@ export function PermitEditPage() {
 }
 
 /** What the editor works on: a saved draft or returned permit, or a request not yet saved (the page that asks for a permit). */
-export type EditorSubject = { permit: PermitDetail } | { permit: null; siteId: number; excavationId: number | null };
+type EditorSubject = { permit: PermitDetail } | { permit: null; siteId: number; excavationId: number | null };
 
 /** How many moves "Undo" can take back. */
 const UNDO_DEPTH = 20;
