@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type request from 'supertest';
 import { DEMO_PASSWORD, signedIn, startTestApp, unique, type TestApp } from './helpers';
 import { runPermitSchedule } from '../src/jobs/permits';
+import type { PermitCreateInput } from '@shared/schemas/permits';
 import { act, hoursFrom, makeWorld, permitBody, version, type PermitWorld } from './permits-fixtures';
 import { startFakePushService } from '../src/push/fake-service';
 
@@ -38,6 +39,30 @@ async function device(): Promise<{ endpoint: string; keys: { p256dh: string; aut
   });
   expect(r.status).toBe(200);
   return ((await r.json()) as { data: { endpoint: string; keys: { p256dh: string; auth: string }; clientHash: string } }).data;
+}
+
+/** A new device, turned on for `who`. */
+async function subscribedDevice(who: 'operator' | 'supervisor') {
+  const d = await device();
+  expect((await people[who].agent.post('/api/push/subscription').send({ endpoint: d.endpoint, keys: d.keys })).status).toBe(201);
+  return d;
+}
+
+/** A permit asked for by the supervisor, naming the operator, submitted and approved (not yet briefed). */
+async function approvedPermit(over: Partial<PermitCreateInput> = {}): Promise<{ id: number; number: string }> {
+  const created = await people.supervisor.agent.post('/api/permits').send(permitBody(w, { operatorIds: [people.operator.id], ...over }));
+  expect(created.status).toBe(201);
+  const { id, number } = created.body.permit as { id: number; number: string };
+  expect((await act(people.supervisor.agent, id, { action: 'submit', version: await version(w, id) })).status).toBe(200);
+  expect((await act(w.agents.coordinator, id, { action: 'approve', version: await version(w, id), password: DEMO_PASSWORD })).status).toBe(
+    200,
+  );
+  return { id, number };
+}
+
+/** The operator's briefing makes an approved permit live. */
+async function brief(id: number) {
+  expect((await people.operator.agent.post(`/api/permits/${id}/briefing`)).body.briefing.status).toBe('live');
 }
 
 /** The notifications the fake service decrypted for a device (payloads parsed). */
@@ -95,18 +120,10 @@ describe('push subscriptions', () => {
 
 describe('notifications of a permit', () => {
   it('tells the named operator once per change (live, suspended, resumed) and removes a gone subscription', async () => {
-    const d = await device();
-    expect((await people.operator.agent.post('/api/push/subscription').send({ endpoint: d.endpoint, keys: d.keys })).status).toBe(201);
-    const created = await people.supervisor.agent.post('/api/permits').send(permitBody(w, { operatorIds: [people.operator.id] }));
-    expect(created.status).toBe(201);
-    const id = created.body.permit.id as number;
-    const number = created.body.permit.number as string;
-    expect((await act(people.supervisor.agent, id, { action: 'submit', version: await version(w, id) })).status).toBe(200);
-    expect(
-      (await act(w.agents.coordinator, id, { action: 'approve', version: await version(w, id), password: DEMO_PASSWORD })).status,
-    ).toBe(200);
+    const d = await subscribedDevice('operator');
+    const { id, number } = await approvedPermit();
     // Approved but not yet briefed: nothing pushed. The briefing makes it live.
-    expect((await people.operator.agent.post(`/api/permits/${id}/briefing`)).body.briefing.status).toBe('live');
+    await brief(id);
     await expect.poll(() => received(d.clientHash), { timeout: 20_000 }).toHaveLength(1);
     const [live] = await received(d.clientHash);
     expect(live).toEqual({
@@ -125,12 +142,14 @@ describe('notifications of a permit', () => {
 
     // Exactly once: the job of the first notification delivered again (a crash, a retry) sends nothing.
     const sub = await t.deps.db.selectFrom('push_subscriptions').select('id').where('endpoint', '=', d.endpoint).executeTakeFirstOrThrow();
-    const first = await t.deps.db
-      .selectFrom('push_deliveries')
-      .select('key')
-      .where('subscription_id', '=', sub.id)
-      .orderBy('delivered_at')
-      .executeTakeFirstOrThrow();
+    const deliveries = () =>
+      t.deps.db
+        .selectFrom('push_deliveries')
+        .select(['key', 'outcome'])
+        .where('subscription_id', '=', sub.id)
+        .orderBy('delivered_at')
+        .execute();
+    const [first] = await deliveries();
     await t.deps.boss.send(t.deps.pusher.queue, { key: first.key, subscriptionId: sub.id, message: live });
     await queueDrained();
     expect(await received(d.clientHash)).toHaveLength(2);
@@ -145,32 +164,17 @@ describe('notifications of a permit', () => {
         timeout: 20_000,
       })
       .toBeUndefined();
-    const outcomes = await t.deps.db
-      .selectFrom('push_deliveries')
-      .select('outcome')
-      .where('subscription_id', '=', sub.id)
-      .orderBy('delivered_at')
-      .execute();
-    expect(outcomes.map((o) => o.outcome)).toEqual(['sent', 'sent', 'gone']);
+    expect((await deliveries()).map((o) => o.outcome)).toEqual(['sent', 'sent', 'gone']);
     expect(await received(d.clientHash)).toHaveLength(2);
   });
 
   it('tells the named operator when their live permit lapses at the end of its window', async () => {
-    const d = await device();
-    expect((await people.operator.agent.post('/api/push/subscription').send({ endpoint: d.endpoint, keys: d.keys })).status).toBe(201);
+    const d = await subscribedDevice('operator');
     const base = new Date('2031-04-07T07:00:00Z');
     t.clock.now = base;
     try {
-      const body = permitBody(w, { operatorIds: [people.operator.id], windowStart: hoursFrom(base, -1), windowEnd: hoursFrom(base, 2) });
-      const created = await people.supervisor.agent.post('/api/permits').send(body);
-      expect(created.status).toBe(201);
-      const id = created.body.permit.id as number;
-      const number = created.body.permit.number as string;
-      expect((await act(people.supervisor.agent, id, { action: 'submit', version: await version(w, id) })).status).toBe(200);
-      expect(
-        (await act(w.agents.coordinator, id, { action: 'approve', version: await version(w, id), password: DEMO_PASSWORD })).status,
-      ).toBe(200);
-      expect((await people.operator.agent.post(`/api/permits/${id}/briefing`)).body.briefing.status).toBe('live');
+      const { id, number } = await approvedPermit({ windowStart: hoursFrom(base, -1), windowEnd: hoursFrom(base, 2) });
+      await brief(id);
       t.clock.now = new Date(base.getTime() + 2 * 3600_000 + 60_000);
       expect((await runPermitSchedule(t.deps, { permitIds: [id] })).lapsed).toContain(id);
       await expect
@@ -184,14 +188,8 @@ describe('notifications of a permit', () => {
   });
 
   it('tells the supervisor who asked for the permit of a concern, opening the permit page', async () => {
-    const d = await device();
-    expect((await people.supervisor.agent.post('/api/push/subscription').send({ endpoint: d.endpoint, keys: d.keys })).status).toBe(201);
-    const created = await people.supervisor.agent.post('/api/permits').send(permitBody(w, { operatorIds: [people.operator.id] }));
-    const id = created.body.permit.id as number;
-    expect((await act(people.supervisor.agent, id, { action: 'submit', version: await version(w, id) })).status).toBe(200);
-    expect(
-      (await act(w.agents.coordinator, id, { action: 'approve', version: await version(w, id), password: DEMO_PASSWORD })).status,
-    ).toBe(200);
+    const d = await subscribedDevice('supervisor');
+    const { id, number } = await approvedPermit();
     const concern = await people.operator.agent
       .post(`/api/permits/${id}/concerns`)
       .field('excavationId', String(w.trenchId))
@@ -199,13 +197,12 @@ describe('notifications of a permit', () => {
     expect(concern.status).toBe(201);
     await expect.poll(() => received(d.clientHash), { timeout: 20_000 }).toHaveLength(1);
     const [m] = await received(d.clientHash);
-    expect(m).toMatchObject({ title: `Concern on permit ${created.body.permit.number}`, path: `/permits/${id}` });
+    expect(m).toMatchObject({ title: `Concern on permit ${number}`, path: `/permits/${id}` });
     expect(m.body).toContain(w.trenchRef);
   });
 
   it('queues nothing when the transition rolls back', async () => {
-    const d = await device();
-    expect((await people.operator.agent.post('/api/push/subscription').send({ endpoint: d.endpoint, keys: d.keys })).status).toBe(201);
+    const d = await subscribedDevice('operator');
     const sub = await t.deps.db.selectFrom('push_subscriptions').select('id').where('endpoint', '=', d.endpoint).executeTakeFirstOrThrow();
     await expect(
       t.deps.db.transaction().execute(async (trx) => {
