@@ -226,45 +226,22 @@ const statusBySlot: Record<'open' | 'backfilled' | 'planned', string[][]> = {
   planned: [['withdrawn'], ['declined'], ['submitted'], ['draft', 'submitted'], ['approved', 'draft']],
 };
 
-/** Each status's timeline after "create": action, from, to, who (role), hours after the window start. */
-const paths: Record<string, [string, string, string, string, number][]> = {
+/** One step of a timeline: action, from, to, who (role), hours after the window start. */
+type Step = [string, string, string, string, number];
+const submit: Step = ['submit', 'draft', 'submitted', 'supervisor', -30];
+const approve: Step = ['approve', 'submitted', 'approved', 'coordinator', -26];
+const start: Step = ['start', 'approved', 'live', 'system', 0];
+/** Each status's timeline after "create". */
+const paths: Record<string, Step[]> = {
   draft: [],
-  submitted: [['submit', 'draft', 'submitted', 'supervisor', -30]],
-  returned: [
-    ['submit', 'draft', 'submitted', 'supervisor', -30],
-    ['return', 'submitted', 'returned', 'coordinator', -26],
-  ],
-  declined: [
-    ['submit', 'draft', 'submitted', 'supervisor', -30],
-    ['decline', 'submitted', 'declined', 'coordinator', -26],
-  ],
-  approved: [
-    ['submit', 'draft', 'submitted', 'supervisor', -30],
-    ['approve', 'submitted', 'approved', 'coordinator', -26],
-  ],
-  live: [
-    ['submit', 'draft', 'submitted', 'supervisor', -30],
-    ['approve', 'submitted', 'approved', 'coordinator', -26],
-    ['start', 'approved', 'live', 'system', 0],
-  ],
-  suspended: [
-    ['submit', 'draft', 'submitted', 'supervisor', -30],
-    ['approve', 'submitted', 'approved', 'coordinator', -26],
-    ['start', 'approved', 'live', 'system', 0],
-    ['suspend', 'live', 'suspended', 'coordinator', 1],
-  ],
-  handed_back: [
-    ['submit', 'draft', 'submitted', 'supervisor', -30],
-    ['approve', 'submitted', 'approved', 'coordinator', -26],
-    ['start', 'approved', 'live', 'system', 0],
-    ['hand_back', 'live', 'handed_back', 'supervisor', 6],
-  ],
-  lapsed: [
-    ['submit', 'draft', 'submitted', 'supervisor', -30],
-    ['approve', 'submitted', 'approved', 'coordinator', -26],
-    ['start', 'approved', 'live', 'system', 0],
-    ['lapse', 'live', 'lapsed', 'system', 8],
-  ],
+  submitted: [submit],
+  returned: [submit, ['return', 'submitted', 'returned', 'coordinator', -26]],
+  declined: [submit, ['decline', 'submitted', 'declined', 'coordinator', -26]],
+  approved: [submit, approve],
+  live: [submit, approve, start],
+  suspended: [submit, approve, start, ['suspend', 'live', 'suspended', 'coordinator', 1]],
+  handed_back: [submit, approve, start, ['hand_back', 'live', 'handed_back', 'supervisor', 6]],
+  lapsed: [submit, approve, start, ['lapse', 'live', 'lapsed', 'system', 8]],
   withdrawn: [['withdraw', 'draft', 'withdrawn', 'supervisor', -40]],
 };
 const comments: Record<string, string> = {
