@@ -116,6 +116,8 @@ describe('formatting', () => {
     expect(formatLength(2.5, 'metric')).toBe('2.50 m');
     expect(formatLength(2.5, 'us')).toBe('8.2 ft'); // 2.5 / 0.3048 = 8.2021 ft (NIST SP 811 foot)
     expect(formatLength(2.5, 'us', { rounding: 'up' })).toBe('8.3 ft');
+    expect(formatLength(2.55, 'us')).toBe('8.4 ft'); // 2.55 / 0.3048 = 8.3661 ft (NIST SP 811 foot)
+    expect(formatLength(2.55, 'us', { rounding: 'down' })).toBe('8.3 ft'); // a standoff that falls short never reads as more
     expect(formatLength(2.5, 'us', { feetInches: true })).toBe('8 ft 2 in'); // 98.43 in
     expect(formatLength(2.5, 'us', { feetInches: true, rounding: 'up' })).toBe('8 ft 3 in');
     expect(formatLength(0.3, 'us', { feetInches: true })).toBe('1 ft'); // 11.81 in → 12 in = 1 ft

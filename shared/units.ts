@@ -10,6 +10,8 @@
  * every factor below is derived from these three exactly, never rounded from a table.
  */
 
+import { cautionFor } from './caution';
+
 export const unitSystems = ['metric', 'us'] as const;
 export type UnitSystem = (typeof unitSystems)[number];
 export const unitSystemLabels: Record<UnitSystem, string> = {
@@ -98,7 +100,7 @@ export function fromSystem(quantity: Quantity, value: number, system: UnitSystem
   return toSI(quantity, value, DISPLAY[system][quantity].unit as never);
 }
 
-export type Rounding = 'nearest' | 'up';
+export type Rounding = 'nearest' | 'up' | 'down';
 
 function decimals(step: number): number {
   return step >= 1 ? 0 : Math.round(-Math.log10(step));
@@ -106,17 +108,18 @@ function decimals(step: number): number {
 
 /**
  * `value` rounded to a multiple of `step`. `up` rounds away from the hazard: a standoff or a clearance
- * shown in feet must never read less than the distance the check asks for (8.2021 ft → 8.3 ft).
+ * shown in feet must never read less than the distance the check asks for (8.2021 ft → 8.3 ft); `down`
+ * states a figure that falls short of one rounded up (a refused standoff) without reaching it.
  * A tiny tolerance keeps exact conversions (2 ft = 0.6096 m) from creeping up a step.
  */
 export function roundTo(value: number, step: number, rounding: Rounding = 'nearest'): number {
   const n = value / step;
-  const k = rounding === 'up' ? Math.ceil(n - 1e-9) : Math.round(n);
+  const k = rounding === 'up' ? Math.ceil(n - 1e-9) : rounding === 'down' ? Math.floor(n + 1e-9) : Math.round(n);
   return Number((k * step).toFixed(decimals(step)));
 }
 
 export interface FormatOptions {
-  /** `up` for figures that keep people back (standoffs, clearances, zones). */
+  /** `up` for figures that keep people back (standoffs, clearances, zones); `down` for one that falls short of them. */
   rounding?: Rounding;
   /** US lengths as feet and whole inches (`8 ft 3 in`) instead of decimal feet. */
   feetInches?: boolean;
@@ -151,6 +154,42 @@ export function formatQuantity(quantity: Quantity, si: number, system: UnitSyste
 /** Lengths, the commonest case: `formatLength(2.5, 'us', { rounding: 'up' })` → `8.3 ft`. */
 export function formatLength(metres: number, system: UnitSystem, options: FormatOptions = {}): string {
   return formatQuantity('length', metres, system, options);
+}
+
+export interface Figures {
+  system: UnitSystem;
+  /** A length in metres as the person reads it; `up` for standoffs, clearances and zones. */
+  length: (m: number, options?: FormatOptions) => string;
+  pressure: (kPa: number, options?: FormatOptions) => string;
+  /** A point load (kN). */
+  force: (kN: number, options?: FormatOptions) => string;
+  /** A line load or a force per run of support (kN/m). */
+  lineForce: (kNm: number, options?: FormatOptions) => string;
+  unitWeight: (kNm3: number, options?: FormatOptions) => string;
+  moment: (kNmm: number, options?: FormatOptions) => string;
+  /** The unit shown for a quantity (`ft`, `psf`), for labels and table heads. */
+  unit: (q: Quantity) => string;
+  /** A sentence written in SI (a warning, a refusal) restated in the person's units. */
+  words: (text: string) => string;
+  /** The caution in the person's units (US: names OSHA 29 CFR 1926 Subpart P). */
+  caution: string;
+}
+
+/** Figures in a given system: the one formatter every screen, e-mail, CSV file and printed page uses at its edge. */
+export function figuresIn(system: UnitSystem): Figures {
+  const f = (q: Quantity) => (si: number, options?: FormatOptions) => formatQuantity(q, si, system, options);
+  return {
+    system,
+    length: f('length'),
+    pressure: f('pressure'),
+    force: f('force'),
+    lineForce: f('lineForce'),
+    unitWeight: f('unitWeight'),
+    moment: f('moment'),
+    unit: (q) => unitLabel(q, system),
+    words: (text) => localizeWords(text, system),
+    caution: cautionFor(system),
+  };
 }
 
 // ---------------------------------------------------------------------------------------------

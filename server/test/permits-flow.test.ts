@@ -1,5 +1,8 @@
+import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CAUTION } from '@shared/engineering';
+import { cautionFor } from '@shared/caution';
+import { unitsOf } from '../src/services/units';
 import { runPermitSchedule } from '../src/jobs/permits';
 import { inspectionActor } from '../src/services/permits/actors';
 import { transition } from '../src/services/permits/machine';
@@ -8,7 +11,7 @@ import { localProjection } from '@shared/geometry';
 import { exclusionReason } from '@shared/permits/exclusion';
 import type { ExclusionBasis } from '@shared/schemas/field';
 import type { PlacedLoad } from '@shared/schemas/permits';
-import { demo, DEMO_PASSWORD, startTestApp, waitForMail, type TestApp } from './helpers';
+import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
 import {
   act,
   createPermit,
@@ -387,5 +390,109 @@ describe('what permits name stays', () => {
     // A trench no permit names goes.
     await newTrench(w);
     expect((await w.agents.coordinator.delete(`/api/sites/${w.siteId}/excavations/${w.trenchId}`)).status).toBe(204);
+  });
+});
+
+// What the server writes follows the reader's units (docs/calculation.md, "Units"): the e-mails of a
+// permit (each recipient's own), the printed permit (whoever downloads it) and the approval refusal
+// (whoever acts). Check values are converted by hand with the exact NIST SP 811 (2008, Appendix B.8)
+// factors: 1 ft = 0.3048 m; 1 psf = 0.047880259 kPa; 1 pcf = 0.15708746 kN/m³.
+
+/** A person of the world's (metric) site who chose US customary units. */
+async function usMember(role: 'operator' | 'coordinator', name: string): Promise<{ id: number; email: string }> {
+  const email = unique(`us-${role}`);
+  const u = await t.deps.db
+    .insertInto('users')
+    .values({ email, name, password_hash: await bcrypt.hash(DEMO_PASSWORD, 10), units: 'us' })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  await t.deps.db.insertInto('site_members').values({ site_id: w.siteId, user_id: u.id, role }).execute();
+  return { id: u.id, email };
+}
+
+describe('figures the server writes, in the reader’s units', () => {
+  it('e-mails, the approval refusal and the printed permit: feet and psf for a US person, metres and kPa for a metric one', async () => {
+    const usOperator = await usMember('operator', 'Ulla Feet (test operator)');
+    const usCoordinator = await usMember('coordinator', 'Cy Feet (test coordinator)');
+    await newTrench(w); // the test before removes the world's trench
+    const p = await createPermit(w, { loads: [excavatorAt(w, 1.5)], operatorIds: [w.operatorId, usOperator.id] });
+    const sent = await act(w.agents.supervisor, p.id, { action: 'submit', version: p.version });
+    expect(sent.status).toBe(200);
+
+    // The refusal of a standoff short of the computed one, to a metric and to a US coordinator.
+    const metricNo = await act(w.agents.coordinator, p.id, {
+      action: 'approve',
+      version: await version(w, p.id),
+      password: DEMO_PASSWORD,
+      standoff: 0.5,
+    });
+    expect(metricNo.status).toBe(400);
+    const least = /must be at least (\d+\.\d\d) m, or give a reason/.exec(metricNo.body.error.fields.standoff);
+    expect(least).not.toBeNull();
+    const computed = Number(least![1]);
+    expect(metricNo.body.error.message).toContain(`the standoff 0.50 m is less than the computed ${least![1]} m`);
+    const usAgent = await signedIn(t.app, usCoordinator.email);
+    const usNo = await act(usAgent, p.id, { action: 'approve', version: await version(w, p.id), password: DEMO_PASSWORD, standoff: 0.5 });
+    expect(usNo.status).toBe(400);
+    // The computed standoff in feet, rounded up to 0.1 ft (never on the unsafe side); 1 ft = 0.3048 m.
+    const leastFt = (Math.ceil((computed / 0.3048) * 10 - 1e-9) / 10).toFixed(1);
+    expect(usNo.body.error.fields.standoff).toBe(`must be at least ${leastFt} ft, or give a reason`);
+    // 0.5 m = 1.6404 ft, shown rounded down as it falls short: 1.6 ft (NIST SP 811: 1 ft = 0.3048 m).
+    expect(usNo.body.error.message).toContain(`the standoff 1.6 ft is less than the computed ${leastFt} ft`);
+
+    // Approved at 3 m by the US coordinator: each operator's e-mail in their own units.
+    const ok = await act(usAgent, p.id, { action: 'approve', version: await version(w, p.id), password: DEMO_PASSWORD, standoff: 3 });
+    expect(ok.status).toBe(200);
+    const toUs = await waitForMail(t.deps, usOperator.email, new RegExp(`Permit ${p.number} .* is approved`));
+    // 3 m = 9.8425 ft (1 ft = 0.3048 m, NIST SP 811), rounded up: 9.9 ft.
+    expect(toUs.text).toContain('Standoff: keep every load at least 9.9 ft from the excavation edge.');
+    expect(toUs.text).toContain(cautionFor('us'));
+    expect(toUs.html).toContain('OSHA 29 CFR 1926 Subpart P');
+    const toMetric = await waitForMail(t.deps, demo.operator, new RegExp(`Permit ${p.number} .* is approved`));
+    expect(toMetric.text).toContain('Standoff: keep every load at least 3.00 m from the excavation edge.');
+    expect(toMetric.text).toContain(CAUTION);
+    expect(toMetric.text).not.toContain('OSHA');
+
+    // The printed permit, downloaded by each operator.
+    const usPdf = await pdfText(
+      (await (await signedIn(t.app, usOperator.email)).get(`/api/permits/${p.id}/pdf`).buffer(true).parse(binary)).body,
+    );
+    expect(usPdf).toContain('Keep every load at least 9.9 ft from the excavation edge.');
+    expect(usPdf).toContain(`Computed standoff: ${leastFt} ft`);
+    // The trench is 2.4 m deep = 7.874 ft; its design surcharge 10 kPa = 208.85 psf (1 psf = 0.047880259 kPa);
+    // its soil 19 kN/m³ = 120.95 pcf (1 pcf = 0.15708746 kN/m³): all NIST SP 811, B.8.
+    expect(usPdf).toContain(`${w.trenchRef} Test pipe trench (7.9 ft deep)`);
+    expect(usPdf).toContain('depth 7.9 ft; design surcharge 209 psf;');
+    expect(usPdf).toContain('from 0.0 ft: 121 pcf');
+    expect(usPdf).toContain('pressure (psf)');
+    expect(usPdf).toContain('depth (ft)');
+    expect(usPdf).toContain('formation 7.9 ft');
+    expect(usPdf).toMatch(/0 \d+ ft Scale 1:\d+/);
+    expect(usPdf).toContain(cautionFor('us'));
+    expect(usPdf).not.toMatch(/\d (m|kPa|kN\/m)\b/);
+    const metricPdf = await pdfText((await w.agents.operator.get(`/api/permits/${p.id}/pdf`).buffer(true).parse(binary)).body);
+    expect(metricPdf).toContain('Keep every load at least 3.00 m from the excavation edge.');
+    expect(metricPdf).toContain(`Computed standoff: ${least![1]} m`);
+    expect(metricPdf).toContain(`${w.trenchRef} Test pipe trench (2.40 m deep)`);
+    expect(metricPdf).toContain('depth 2.40 m; design surcharge 10.0 kPa;');
+    expect(metricPdf).toContain('pressure (kPa)');
+    expect(metricPdf).not.toContain('OSHA');
+    expect(metricPdf).not.toMatch(/\d (ft|psf)\b/);
+  });
+
+  it('a person who chose nothing reads in the site’s units', async () => {
+    const site = await t.deps.db
+      .insertInto('sites')
+      .values({ name: `Ohio test yard ${Date.now()}`, latitude: 40, longitude: -83, units: 'us' })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    const person = await t.deps.db
+      .insertInto('users')
+      .values({ email: unique('follows-site'), name: 'Sid Site', password_hash: 'x' })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    expect(await unitsOf(t.deps.db, person.id, site.id)).toBe('us');
+    expect(await unitsOf(t.deps.db, person.id, w.siteId)).toBe('metric');
+    expect(await unitsOf(t.deps.db, null, site.id)).toBe('us');
   });
 });

@@ -3,8 +3,7 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type { signedInAnswer } from '@shared/schemas/auth';
 import type { oneSiteAnswer, Site } from '@shared/schemas/sites';
-import { cautionFor } from '@shared/caution';
-import { formatQuantity, inputText, localizeWords, unitLabel, type FormatOptions, type Quantity, type UnitSystem } from '@shared/units';
+import { figuresIn, inputText, type Figures, type Quantity, type UnitSystem } from '@shared/units';
 import { api } from './api';
 import { useCurrentSite } from './currentSite';
 import { sessionKeys, useMe } from './session';
@@ -17,42 +16,6 @@ export function useUnits(): UnitSystem {
   const me = useMe().data;
   const { site } = useCurrentSite();
   return me?.units ?? site?.units ?? 'metric';
-}
-
-export interface Figures {
-  system: UnitSystem;
-  /** A length in metres as the person reads it; `up` for standoffs, clearances and zones. */
-  length: (m: number, options?: FormatOptions) => string;
-  pressure: (kPa: number, options?: FormatOptions) => string;
-  /** A point load (kN). */
-  force: (kN: number, options?: FormatOptions) => string;
-  /** A line load or a force per run of support (kN/m). */
-  lineForce: (kNm: number, options?: FormatOptions) => string;
-  unitWeight: (kNm3: number, options?: FormatOptions) => string;
-  moment: (kNmm: number, options?: FormatOptions) => string;
-  /** The unit shown for a quantity (`ft`, `psf`), for labels and table heads. */
-  unit: (q: Quantity) => string;
-  /** A sentence written in SI (a warning, a refusal) restated in the person's units. */
-  words: (text: string) => string;
-  /** The caution in the person's units (US: names OSHA 29 CFR 1926 Subpart P). */
-  caution: string;
-}
-
-/** Figures in a given system: the one formatter every screen uses at its edge. */
-function figuresIn(system: UnitSystem): Figures {
-  const f = (q: Quantity) => (si: number, options?: FormatOptions) => formatQuantity(q, si, system, options);
-  return {
-    system,
-    length: f('length'),
-    pressure: f('pressure'),
-    force: f('force'),
-    lineForce: f('lineForce'),
-    unitWeight: f('unitWeight'),
-    moment: f('moment'),
-    unit: (q) => unitLabel(q, system),
-    words: (text) => localizeWords(text, system),
-    caution: cautionFor(system),
-  };
 }
 
 /** The person's figures (see `useUnits`). */

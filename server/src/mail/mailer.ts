@@ -2,7 +2,8 @@ import { randomUUID } from 'node:crypto';
 import nodemailer, { type Transporter } from 'nodemailer';
 import type PgBoss from 'pg-boss';
 import type { Db } from '@db/database';
-import { CAUTION } from '@shared/caution';
+import { cautionFor } from '@shared/caution';
+import type { UnitSystem } from '@shared/units';
 import type { Config } from '../config';
 import { queueConnection } from '../services/tx';
 import { drainingWorker, scheduledQueue } from '../jobs/queues';
@@ -149,11 +150,16 @@ function escapeHtml(s: string): string {
 }
 
 /**
- * A plain notice: a greeting, paragraphs, one link to act on, and Brink's footer. Text and HTML
- * parts carry the same words.
+ * A plain notice: a greeting, paragraphs, one link to act on, and Brink's footer (the caution, naming
+ * OSHA's rule for a reader in US units). Text and HTML parts carry the same words.
  */
-export function notice(opts: { subject: string; lines: string[]; link?: { label: string; url: string } }): Omit<Message, 'to'> {
-  const footer = CAUTION;
+export function notice(opts: {
+  subject: string;
+  lines: string[];
+  link?: { label: string; url: string };
+  units?: UnitSystem;
+}): Omit<Message, 'to'> {
+  const footer = cautionFor(opts.units);
   const text = [...opts.lines, ...(opts.link ? [`${opts.link.label}: ${opts.link.url}`] : []), '', '-- ', footer].join('\n\n');
   const html = `<div style="font-family:sans-serif;color:#1e293b;max-width:36rem">${opts.lines
     .map((l) => `<p>${escapeHtml(l)}</p>`)

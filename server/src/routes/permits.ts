@@ -356,14 +356,15 @@ export function registerPermitRoutes(api: Api): void {
     {
       method: 'get',
       path: '/api/permits/:id/pdf',
-      summary: 'The printable permit (PDF): decision, conditions, standoff, plan to scale, pressure diagram, signatures, QR code, caution',
+      summary:
+        'The printable permit (PDF) in the reader\u2019s units: decision, conditions, standoff, plan to scale, pressure diagram, signatures, QR code, caution',
       tag: 'Permits',
       access: members,
       params: idParams,
       produces: 'application/pdf',
     },
-    async ({ params, deps, res }) => {
-      const { buffer, number } = await permitPdf(deps, params.id);
+    async ({ params, deps, res, user }) => {
+      const { buffer, number } = await permitPdf(deps, params.id, { readerId: user.id });
       res.setHeader('Content-Type', 'application/pdf');
       res.setHeader('Content-Disposition', `attachment; filename="permit-${number}.pdf"`);
       res.setHeader('Cache-Control', 'private, no-store');

@@ -27,6 +27,8 @@ import { notifyTransition } from './notify';
 import { pushTransition } from './push';
 import { currentRevisionRow, withCurrentRevision } from './read';
 import { inTransaction } from '../tx';
+import { unitsOf } from '../units';
+import { formatLength } from '@shared/units';
 
 interface TransitionOptions {
   /** The version the actor was looking at; required for people, optional for Brink itself. */
@@ -196,11 +198,13 @@ export async function transition(
         // counted) must also pass as the loads are placed. Either falling short needs a recorded reason.
         const fields: Record<string, string> = {};
         if (!check.passes && !reason) fields.reason = 'is required to approve loads that fail the cumulative check';
+        // Figures in the acting person's units: the computed standoff rounded up, theirs down, so a
+        // shortfall never reads as none.
+        const units = await unitsOf(trx, actor.kind === 'user' ? actor.id : null, p.site_id);
+        const least = computed === null ? '' : formatLength(computed, units, { rounding: 'up' });
         if (opts.standoff !== undefined && (computed === null || opts.standoff < computed) && !reason) {
           fields.standoff =
-            computed === null
-              ? 'no computed standoff exists: give a reason'
-              : `must be at least ${computed.toFixed(2)} m, or give a reason`;
+            computed === null ? 'no computed standoff exists: give a reason' : `must be at least ${least}, or give a reason`;
         }
         if (Object.keys(fields).length) {
           const why = [
@@ -209,7 +213,7 @@ export async function transition(
               ? [
                   computed === null
                     ? 'no standoff lets the support carry these loads'
-                    : `the standoff ${opts.standoff!.toFixed(2)} m is less than the computed ${computed.toFixed(2)} m`,
+                    : `the standoff ${formatLength(opts.standoff!, units, { rounding: 'down' })} is less than the computed ${least}`,
                 ]
               : []),
           ];

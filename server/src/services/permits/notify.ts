@@ -3,6 +3,7 @@ import { statusLabels, type PermitAction, type PermitStatus } from '@shared/sche
 import type { Deps } from '../../deps';
 import { notice } from '../../mail/mailer';
 import { formatSiteTime } from '@shared/time/shifts';
+import { formatLength, localizeWords, type UnitSystem } from '@shared/units';
 import { withCurrentRevision } from './read';
 
 /** Who must hear of a change: the person who asked for the permit, the site's coordinators, the operators it names. */
@@ -78,20 +79,29 @@ export const asks: Partial<Record<NoticeKind, Partial<Record<Audience, string>>>
   },
 };
 
-/** E-mail addresses of each audience for a permit (inactive people left out, the actor left out). */
-async function recipients(db: Db, permitId: number, audience: Audience, exceptUserId: number | null): Promise<string[]> {
+/** The people of each audience for a permit who get its e-mail (inactive people left out, the actor left out), with their own units or null. */
+async function recipients(
+  db: Db,
+  permitId: number,
+  audience: Audience,
+  exceptUserId: number | null,
+): Promise<{ email: string; units: UnitSystem | null }[]> {
   const rows = await audienceMembers(db, permitId, audience);
-  return [...new Set(rows.filter((r) => r.id !== exceptUserId).map((r) => r.email))];
+  return rows.filter((r) => r.id !== exceptUserId);
 }
 
 /** The active people of one audience of a permit. */
-export async function audienceMembers(db: Db, permitId: number, audience: Audience): Promise<{ id: number; email: string }[]> {
+export async function audienceMembers(
+  db: Db,
+  permitId: number,
+  audience: Audience,
+): Promise<{ id: number; email: string; units: UnitSystem | null }[]> {
   let q;
   if (audience === 'requester') {
     q = db
       .selectFrom('permits as p')
       .innerJoin('users as u', 'u.id', 'p.requested_by')
-      .select(['u.email', 'u.id'])
+      .select(['u.email', 'u.id', 'u.units'])
       .where('p.id', '=', permitId)
       .where('u.active', '=', true);
   } else if (audience === 'coordinators') {
@@ -99,7 +109,7 @@ export async function audienceMembers(db: Db, permitId: number, audience: Audien
       .selectFrom('permits as p')
       .innerJoin('site_members as m', 'm.site_id', 'p.site_id')
       .innerJoin('users as u', 'u.id', 'm.user_id')
-      .select(['u.email', 'u.id'])
+      .select(['u.email', 'u.id', 'u.units'])
       .where('p.id', '=', permitId)
       .where('m.role', '=', 'coordinator')
       .where('u.active', '=', true);
@@ -107,7 +117,7 @@ export async function audienceMembers(db: Db, permitId: number, audience: Audien
     q = withCurrentRevision(db)
       .innerJoin('permit_operators as o', 'o.revision_id', 'r.id')
       .innerJoin('users as u', 'u.id', 'o.user_id')
-      .select(['u.email', 'u.id'])
+      .select(['u.email', 'u.id', 'u.units'])
       .where('p.id', '=', permitId)
       .where('u.active', '=', true);
   }
@@ -159,34 +169,46 @@ export async function notifyTransition(
   const sent: string[] = [];
   const base = deps.config.publicUrl;
   const already = new Set<string>();
-  const { timezone } = await deps.db
+  const { timezone, units: siteUnits } = await deps.db
     .selectFrom('permits as p')
     .innerJoin('sites as s', 's.id', 'p.site_id')
-    .select('s.timezone')
+    .select(['s.timezone', 's.units'])
     .where('p.id', '=', f.permitId)
     .executeTakeFirstOrThrow();
+  // A reason Brink wrote (a re-check, a failed inspection) is in SI: each reader gets it in their units.
+  // A person's own words are theirs, and stay as typed.
+  const reasonIn = (units: UnitSystem) => (f.reason && f.actorId === null ? localizeWords(f.reason, units) : f.reason);
   for (const audience of audiences[action]) {
-    const to = (await recipients(deps.db, f.permitId, audience, action === 'reminder' ? null : f.actorId)).filter((e) => !already.has(e));
-    if (to.length === 0) continue;
-    to.forEach((e) => already.add(e));
-    const lines = [
-      `Permit ${f.number} on ${f.siteName} ${headline[action]}${action === 'reminder' ? '' : ` (${f.actorName})`}.`,
-      ...(f.description ? [`Work: ${f.description}`] : []),
-      `Window: ${formatSiteTime(f.windowStart, timezone)} to ${formatSiteTime(f.windowEnd, timezone, { zone: true })}. Status now: ${statusLabels[f.status]}.`,
-      ...(f.reason ? [`${action === 'return' ? 'Comments' : 'Reason'}: ${f.reason}`] : []),
-      ...(f.standoff != null ? [`Standoff: keep every load at least ${f.standoff.toFixed(2)} m from the excavation edge.`] : []),
-      ...(f.conditions?.length ? [`Conditions: ${f.conditions.map((c, i) => `(${i + 1}) ${c}`).join(' ')}`] : []),
-      ...(asks[action]?.[audience] ? [asks[action]![audience]!] : []),
-    ];
+    const people: { email: string; units: UnitSystem | null }[] = [];
+    for (const p of await recipients(deps.db, f.permitId, audience, action === 'reminder' ? null : f.actorId)) {
+      if (already.has(p.email)) continue;
+      already.add(p.email);
+      people.push(p);
+    }
     const url = audience === 'operators' ? `${base}/field/permits/${f.permitId}` : `${base}/permits/${f.permitId}`;
-    const message = notice({
-      subject: `Permit ${f.number} at ${f.siteName} ${headline[action]}`,
-      lines,
-      link: { label: `Open permit ${f.number}`, url },
-    });
-    // One message each: people do not see each other's addresses.
-    for (const address of to) await deps.mailer.send(deps.db, { to: address, ...message });
-    sent.push(...to);
+    const messageIn = (units: UnitSystem) => {
+      const reason = reasonIn(units);
+      const lines = [
+        `Permit ${f.number} on ${f.siteName} ${headline[action]}${action === 'reminder' ? '' : ` (${f.actorName})`}.`,
+        ...(f.description ? [`Work: ${f.description}`] : []),
+        `Window: ${formatSiteTime(f.windowStart, timezone)} to ${formatSiteTime(f.windowEnd, timezone, { zone: true })}. Status now: ${statusLabels[f.status]}.`,
+        ...(reason ? [`${action === 'return' ? 'Comments' : 'Reason'}: ${reason}`] : []),
+        ...(f.standoff != null
+          ? [`Standoff: keep every load at least ${formatLength(f.standoff, units, { rounding: 'up' })} from the excavation edge.`]
+          : []),
+        ...(f.conditions?.length ? [`Conditions: ${f.conditions.map((c, i) => `(${i + 1}) ${c}`).join(' ')}`] : []),
+        ...(asks[action]?.[audience] ? [asks[action]![audience]!] : []),
+      ];
+      return notice({
+        subject: `Permit ${f.number} at ${f.siteName} ${headline[action]}`,
+        lines,
+        link: { label: `Open permit ${f.number}`, url },
+        units,
+      });
+    };
+    // One message each, in the reader's units: people do not see each other's addresses.
+    for (const p of people) await deps.mailer.send(deps.db, { to: p.email, ...messageIn(p.units ?? siteUnits) });
+    sent.push(...people.map((p) => p.email));
   }
   return sent;
 }

@@ -16,11 +16,12 @@ import {
 import { attentionWarnings, bandsWords, failsBeyondPassing, type ProfilePoint } from '@shared/engineering';
 import type { Deps } from '../../deps';
 import { notFound } from '../../http';
-import { CAUTION } from '@shared/caution';
+import { figuresIn, FOOT, inSystem, type Figures } from '@shared/units';
 import { formatSiteTime } from '@shared/time/shifts';
 import type { CheckExcavation } from '@shared/permits/check';
 import { excavationsFor, plantFor } from './check';
 import { loadDetail } from './read';
+import { unitsOf } from '../units';
 
 // The printed permit. pdfkit's built-in Helvetica (WinAnsi): text is written through `t()`, which
 // spells out the few characters that font lacks.
@@ -54,17 +55,23 @@ export function t(s: string): string {
   return out.replace(/[^\x20-\x7e\u00a0-\u00ff\u2013\u2014\u2022\u2026]/g, '?');
 }
 
-const m2 = (x: number | null | undefined) => (x == null ? 'none' : `${x.toFixed(2)} m`);
-const kpa = (x: number) => `${x.toFixed(1)} kPa`;
+/** A length, or `none`; `up` for standoffs and zones (never on the unsafe side). */
+const lengthOr = (F: Figures, x: number | null | undefined, up = false) => (x == null ? 'none' : F.length(x, up ? { rounding: 'up' } : {}));
 
-/** The permit as a PDF (Buffer), with its number for the file name. `compress: false` keeps the text readable (tests). */
+/**
+ * The permit as a PDF (Buffer), with its number for the file name, in the units of `readerId` (their
+ * own, else the site's). `compress: false` keeps the text readable (tests).
+ */
 export async function permitPdf(
   deps: Pick<Deps, 'db' | 'config'>,
   permitId: number,
-  opts: { compress?: boolean } = {},
+  opts: { compress?: boolean; readerId?: number } = {},
 ): Promise<{ buffer: Buffer; number: string }> {
   const permit = await loadDetail(deps.db, permitId, { id: 0, role: null });
   if (!permit) throw notFound('That permit');
+  const F = figuresIn(await unitsOf(deps.db, opts.readerId ?? null, permit.siteId));
+  const m2 = (x: number | null | undefined) => lengthOr(F, x);
+  const up = (x: number | null | undefined) => lengthOr(F, x, true);
   const site = await deps.db
     .selectFrom('sites')
     .select(['name', 'latitude', 'longitude', 'timezone', 'minimum_clearance'])
@@ -124,11 +131,7 @@ export async function permitPdf(
   doc.fillColor(INK).fontSize(10);
   field(doc, 'Window', `${when(rev.windowStart)} to ${when(rev.windowEnd)} (${site.timezone} time)`);
   field(doc, 'Requested by', permit.requestedBy.name);
-  field(
-    doc,
-    'Excavations',
-    excavations.map((e) => `${e.reference} ${e.name} (${e.excavation.depth.toFixed(2)} m deep)`).join('; ') || 'none named',
-  );
+  field(doc, 'Excavations', excavations.map((e) => `${e.reference} ${e.name} (${m2(e.excavation.depth)} deep)`).join('; ') || 'none named');
   if (rev.description) field(doc, 'Work', rev.description);
   doc.y = Math.max(doc.y, MARGIN + 100);
   doc.moveDown(0.5);
@@ -151,7 +154,7 @@ export async function permitPdf(
         doc,
         'Standoff',
         d.standoff != null
-          ? `Keep every load at least ${m2(d.standoff)} from the excavation edge.`
+          ? `Keep every load at least ${up(d.standoff)} from the excavation edge.`
           : 'Loads as placed on the plan (no standoff set).',
       );
       field(
@@ -161,12 +164,12 @@ export async function permitPdf(
           ? 'not recorded with this decision'
           : d.computedStandoff === null
             ? 'none: no offset within 3H lets the support carry the loads'
-            : m2(d.computedStandoff),
+            : up(d.computedStandoff),
       );
       if (exclusions.length) {
         doc.font('Helvetica-Bold').text(t('On the ground (the operator’s phone shows the same)'));
         doc.font('Helvetica');
-        for (const x of exclusions) doc.text(t(exclusionSentence(x.excavation.reference, m2(x.distance), x.basis)), { indent: 10 });
+        for (const x of exclusions) doc.text(t(exclusionSentence(x.excavation.reference, up(x.distance), x.basis)), { indent: 10 });
       }
       if (d.conditions.length) {
         doc.font('Helvetica-Bold').text('Conditions');
@@ -181,15 +184,15 @@ export async function permitPdf(
 
   // Plan
   heading(doc, 'Plan to scale');
-  drawPlan(doc, permit, site, excavations, plant, new Map(exclusions.map((x) => [x.excavation.id, x.distance])));
+  drawPlan(doc, F, permit, site, excavations, plant, new Map(exclusions.map((x) => [x.excavation.id, x.distance])));
 
   // Check per excavation
   const check = rev.check;
   for (const ex of check?.excavations ?? []) {
     doc.addPage();
     heading(doc, `Check beside ${ex.reference} ${ex.name}`);
-    sheet(doc, ex, when);
-    drawPressureDiagram(doc, ex.result.profile ?? [], ex.depth);
+    sheet(doc, F, ex, when);
+    drawPressureDiagram(doc, F, ex.result.profile ?? [], ex.depth);
   }
   if (!check) {
     doc.moveDown();
@@ -243,7 +246,7 @@ export async function permitPdf(
       .font('Helvetica')
       .fontSize(8)
       .fillColor(MUTED)
-      .text(t(`Caution: ${CAUTION}`), MARGIN, y, { width: width - 60, lineBreak: true, height: 30 });
+      .text(t(`Caution: ${F.caution}`), MARGIN, y, { width: width - 60, lineBreak: true, height: 30 });
     doc.text(`Page ${i - range.start + 1} of ${range.count}`, MARGIN + width - 55, y, { width: 55, align: 'right', lineBreak: false });
   }
   doc.end();
@@ -265,7 +268,8 @@ function field(doc: PDFKit.PDFDocument, label: string, value: string): void {
 }
 
 /** The calculation sheet's figures for one excavation. */
-function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | null) => string): void {
+function sheet(doc: PDFKit.PDFDocument, F: Figures, ex: ExcavationCheck, when: (s: string | null) => string): void {
+  const m2 = (x: number | null | undefined) => lengthOr(F, x);
   const r = ex.result;
   const req = ex.request;
   const e = req.excavation;
@@ -273,7 +277,7 @@ function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | 
   field(
     doc,
     'Excavation',
-    `depth ${m2(ex.depth)}; design surcharge ${kpa(Number(e.designSurcharge))}; rated pressure ${e.ratedPressure == null ? 'none' : kpa(Number(e.ratedPressure))}; ${e.pressureState}, wall friction ${e.wallFriction} deg, ${e.restraint}; groundwater ${e.groundwaterDepth == null ? 'none' : m2(Number(e.groundwaterDepth))}`,
+    `depth ${m2(ex.depth)}; design surcharge ${F.pressure(Number(e.designSurcharge))}; rated pressure ${e.ratedPressure == null ? 'none' : F.pressure(Number(e.ratedPressure))}; ${e.pressureState}, wall friction ${e.wallFriction} deg, ${e.restraint}; groundwater ${e.groundwaterDepth == null ? 'none' : m2(Number(e.groundwaterDepth))}`,
   );
   field(
     doc,
@@ -281,21 +285,17 @@ function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | 
     req.soil
       .map(
         (l) =>
-          `from ${Number(l.top).toFixed(2)} m: ${l.unitWeight} kN/m3${l.frictionAngle !== undefined ? `, phi' ${l.frictionAngle} deg, c' ${l.cohesion ?? 0} kPa` : `, cu ${l.undrainedShearStrength} kPa`}`,
+          `from ${m2(Number(l.top))}: ${F.unitWeight(Number(l.unitWeight))}${l.frictionAngle !== undefined ? `, phi' ${l.frictionAngle} deg, c' ${F.pressure(Number(l.cohesion ?? 0))}` : `, cu ${F.pressure(Number(l.undrainedShearStrength))}`}`,
       )
       .join('; '),
   );
-  field(doc, 'Coefficients', r.coefficients.map((c) => `K = ${c.K.toFixed(3)} from ${c.top.toFixed(2)} m`).join('; '));
+  field(doc, 'Coefficients', r.coefficients.map((c) => `K = ${c.K.toFixed(3)} from ${m2(c.top)}`).join('; '));
   field(
     doc,
     'Forces',
-    `soil ${r.forces.soil.toFixed(1)} kN/m, water ${r.forces.water.toFixed(1)} kN/m, surcharge ${r.forces.surcharge.toFixed(1)} kN/m, allowance ${r.forces.allowance.toFixed(1)} kN/m`,
+    `soil ${F.lineForce(r.forces.soil)}, water ${F.lineForce(r.forces.water)}, surcharge ${F.lineForce(r.forces.surcharge)}, allowance ${F.lineForce(r.forces.allowance)}`,
   );
-  field(
-    doc,
-    'Moments about formation',
-    `surcharge ${r.moments.surcharge.toFixed(1)} kN.m/m, allowance ${r.moments.allowance.toFixed(1)} kN.m/m`,
-  );
+  field(doc, 'Moments about formation', `surcharge ${F.moment(r.moments.surcharge)}, allowance ${F.moment(r.moments.allowance)}`);
   field(
     doc,
     'Utilisation',
@@ -305,13 +305,18 @@ function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | 
   if (attention.length) {
     doc.moveDown(0.2).font('Helvetica-Bold').fontSize(10).fillColor(ZONE).text('Read before signing');
     doc.font('Helvetica').fontSize(9).fillColor(INK);
-    for (const w of attention) doc.text(t(`- ${w}`), { indent: 10 });
+    for (const w of attention) doc.text(t(`- ${F.words(w)}`), { indent: 10 });
     for (const l of ex.loadStandoffs) {
       const bands = l.failingBands ?? [];
       if (failsBeyondPassing(bands, req.minimumClearance)) {
-        doc.text(t(`- ${l.label} fails at ${bandsWords(bands)} from the edge (passing in between); its standoff is ${m2(l.standoff)}.`), {
-          indent: 10,
-        });
+        doc.text(
+          t(
+            `- ${l.label} fails at ${F.words(bandsWords(bands))} from the edge (passing in between); its standoff is ${lengthOr(F, l.standoff, true)}.`,
+          ),
+          {
+            indent: 10,
+          },
+        );
       }
     }
     doc.fontSize(10).moveDown(0.2);
@@ -323,7 +328,7 @@ function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | 
   for (const l of ex.loads) {
     doc.text(
       t(
-        `${l.own ? '' : `[permit ${l.permitNumber}] `}${l.label}${l.element ? ` - ${l.element}` : ''}: ${l.kind}, offset ${m2(l.offset)}, force ${l.force.toFixed(1)} kN/m, standoff ${l.standoff == null ? 'none within 3H' : m2(l.standoff)}`,
+        `${l.own ? '' : `[permit ${l.permitNumber}] `}${l.label}${l.element ? ` - ${l.element}` : ''}: ${l.kind}, offset ${m2(l.offset)}, force ${F.lineForce(l.force)}, standoff ${l.standoff == null ? 'none within 3H' : lengthOr(F, l.standoff, true)}`,
       ),
       { indent: 10 },
     );
@@ -337,13 +342,23 @@ function sheet(doc: PDFKit.PDFDocument, ex: ExcavationCheck, when: (s: string | 
       : 'none',
   );
   const others = r.warnings.filter((w) => !attention.includes(w));
-  if (others.length) field(doc, 'Warnings', others.join('; '));
+  if (others.length) field(doc, 'Warnings', others.map(F.words).join('; '));
   doc.moveDown(0.5);
 }
 
 /** The pressure diagram to scale: depth downward, soil, water, surcharge and allowance, units on both axes. */
-function drawPressureDiagram(doc: PDFKit.PDFDocument, profile: ProfilePoint[], H: number): void {
-  if (profile.length < 2) return;
+function drawPressureDiagram(doc: PDFKit.PDFDocument, F: Figures, siProfile: ProfilePoint[], siH: number): void {
+  if (siProfile.length < 2) return;
+  // Drawn in the reader's units: the axes' ticks are round numbers of psf and ft, or kPa and m.
+  const p = (kPa: number) => inSystem('pressure', kPa, F.system);
+  const profile = siProfile.map((q) => ({
+    z: inSystem('length', q.z, F.system),
+    soil: p(q.soil),
+    water: p(q.water),
+    surcharge: p(q.surcharge),
+    allowance: p(q.allowance),
+  }));
+  const H = inSystem('length', siH, F.system);
   const boxW = 300;
   const boxH = 220;
   if (doc.y + boxH + 76 > doc.page.height - MARGIN - 40) doc.addPage();
@@ -384,13 +399,13 @@ function drawPressureDiagram(doc: PDFKit.PDFDocument, profile: ProfilePoint[], H
       .restore();
     doc.text(v.toFixed(1), x0 - 34, Y(v) - 4, { width: 30, align: 'right', lineBreak: false });
   }
-  doc.text('pressure (kPa)', x0 + boxW / 2 - 30, Y(0) - 20, { lineBreak: false });
+  doc.text(`pressure (${F.unit('pressure')})`, x0 + boxW / 2 - 30, Y(0) - 20, { lineBreak: false });
   doc
     .save()
     .rotate(-90, { origin: [x0 - 42, y0 + boxH / 2] })
-    .text('depth (m)', x0 - 62, y0 + boxH / 2 - 4, { lineBreak: false })
+    .text(`depth (${F.unit('length')})`, x0 - 62, y0 + boxH / 2 - 4, { lineBreak: false })
     .restore();
-  const series: { key: keyof ProfilePoint; colour: string; dash?: number; label: string }[] = [
+  const series: { key: 'soil' | 'water' | 'surcharge' | 'allowance'; colour: string; dash?: number; label: string }[] = [
     { key: 'soil', colour: '#64748b', label: 'soil' },
     { key: 'water', colour: WATER, label: 'water' },
     { key: 'surcharge', colour: ACCENT, label: 'surcharge (loads)' },
@@ -412,7 +427,7 @@ function drawPressureDiagram(doc: PDFKit.PDFDocument, profile: ProfilePoint[], H
     .strokeColor(INK)
     .stroke()
     .restore();
-  doc.fillColor(INK).text(`formation ${H.toFixed(2)} m`, X(px[px.length - 1]) + 4, Y(H) - 4, { lineBreak: false });
+  doc.fillColor(INK).text(`formation ${F.length(siH)}`, X(px[px.length - 1]) + 4, Y(H) - 4, { lineBreak: false });
   let ly = y0;
   for (const s of series) {
     doc.save().lineWidth(1.4).strokeColor(s.colour);
@@ -432,6 +447,7 @@ function drawPressureDiagram(doc: PDFKit.PDFDocument, profile: ProfilePoint[], H
 /** The plan to scale: excavations, the exclusion zone, the loads, a scale bar and a north arrow. */
 function drawPlan(
   doc: PDFKit.PDFDocument,
+  F: Figures,
   permit: PermitDetail,
   site: { latitude: number; longitude: number },
   excavations: CheckExcavation[],
@@ -461,7 +477,7 @@ function drawPlan(
     const polys = z.type === 'Polygon' ? [z.coordinates] : z.coordinates;
     return polys.map((poly) => poly.map((ring) => ring.map((c) => proj.toLocal(c))));
   });
-  const zoneWords = rings.filter((r) => r.standoff > 0).map((r) => `${r.ref} ${m2(r.standoff)}`);
+  const zoneWords = rings.filter((r) => r.standoff > 0).map((r) => `${r.ref} ${lengthOr(F, r.standoff, true)}`);
   const pts: XY[] = [...rings.flatMap((r) => r.ring), ...feet.flatMap((f) => f.local), ...zones.flat(2)];
   const boxW = doc.page.width - 2 * MARGIN;
   const boxH = 260;
@@ -521,20 +537,21 @@ function drawPlan(
     doc.restore();
   }
   doc.restore();
-  // scale bar and north arrow
-  const span = (boxW - 20) / k;
+  // scale bar (a round number of metres, or of feet) and north arrow
+  const perUnit = F.system === 'us' ? k * FOOT : k; // points of paper per metre, or per foot
+  const span = (boxW - 20) / perUnit;
   const bar = scaleBarLength(span / 2);
   const bx = MARGIN + 12;
   const by = top + boxH - 16;
   const half = niceStep(bar, 2);
   doc.save().lineWidth(0.8).strokeColor(INK);
-  doc.rect(bx, by - 3, bar * k, 4).stroke();
-  doc.rect(bx, by - 3, half * k, 4).fill(INK);
+  doc.rect(bx, by - 3, bar * perUnit, 4).stroke();
+  doc.rect(bx, by - 3, half * perUnit, 4).fill(INK);
   doc.restore();
   doc.font('Helvetica').fontSize(8).fillColor(INK);
   doc.text('0', bx - 3, by + 3, { lineBreak: false });
-  doc.text(`${bar} m`, bx + bar * k - 8, by + 3, { lineBreak: false });
-  doc.text(`Scale 1:${n} on A4`, bx + bar * k + 24, by - 2, { lineBreak: false });
+  doc.text(`${bar} ${F.unit('length')}`, bx + bar * perUnit - 8, by + 3, { lineBreak: false });
+  doc.text(`Scale 1:${n} on A4`, bx + bar * perUnit + 24, by - 2, { lineBreak: false });
   const nx = MARGIN + boxW - 24;
   const ny = top + 14;
   doc

@@ -2,7 +2,8 @@ import { Link } from 'react-router-dom';
 import { attentionWarnings, bandsWords, failsBeyondPassing, type CheckRequest } from '@shared/engineering';
 import { statusLabels, type ExcavationCheck, type PermitCheck } from '@shared/schemas/permits';
 import { Caution } from '@client/components/Caution';
-import { useFigures, type Figures } from '@client/lib/units';
+import { useFigures } from '@client/lib/units';
+import type { Figures } from '@shared/units';
 import { PressureDiagram } from './PressureDiagram';
 import { VerdictBadge, VerdictRule } from './Verdict';
 
