@@ -4,17 +4,22 @@
  */
 import type { CheckRequest, Load, SoilLayer } from './types';
 
+/** Worked example 1's excavation: 3 m deep, dry, a 10 kPa allowance, active pressure on an unyielding support. */
+export function sixExcavation(): CheckRequest['excavation'] {
+  return {
+    depth: 3,
+    groundwaterDepth: null,
+    designSurcharge: 10,
+    ratedPressure: null,
+    pressureState: 'active',
+    wallFriction: 0,
+    restraint: 'unyielding',
+  };
+}
+
 export function sixRequest(overrides: Partial<CheckRequest> = {}): CheckRequest {
   return {
-    excavation: {
-      depth: 3,
-      groundwaterDepth: null,
-      designSurcharge: 10,
-      ratedPressure: null,
-      pressureState: 'active',
-      wallFriction: 0,
-      restraint: 'unyielding',
-    },
+    excavation: sixExcavation(),
     soil: [{ top: 0, unitWeight: 19, saturatedUnitWeight: 20, frictionAngle: 30, cohesion: 0 }],
     method: 'dispersion-45',
     minimumClearance: 0.6,

@@ -1,20 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { runCheck, type CheckRequest } from '../engineering';
 import { localProjection } from '../geometry';
+import { sixExcavation } from '../engineering/test-fixtures';
 import { CheckInputError, cumulativeCheck, elementCorners, groupStandoff, windowsOverlap } from './check';
 import type { PermitCheck } from '../schemas/permits';
 import type { Stored } from '../schemas/stored';
 
 const base: Omit<CheckRequest, 'loads'> = {
-  excavation: {
-    depth: 3,
-    groundwaterDepth: null,
-    designSurcharge: 10,
-    ratedPressure: null,
-    pressureState: 'active',
-    wallFriction: 0,
-    restraint: 'unyielding',
-  },
+  excavation: sixExcavation(),
   soil: [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 0 }],
   method: 'dispersion-45',
   minimumClearance: 0.6,

@@ -2,6 +2,7 @@ import { screen, within } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { localProjection } from '@shared/geometry';
 import { cumulativeCheck } from '@shared/permits/check';
+import { sixExcavation } from '@shared/engineering/test-fixtures';
 import { fakePersonIn, renderAt } from '@client/test/render';
 import { CheckSheets } from './CheckSheet';
 
@@ -38,15 +39,7 @@ function check() {
         reference: 'PIT-A',
         name: 'Pit A',
         shape: { kind: 'pit', outline: { type: 'Polygon', coordinates: [[ll(0, 0), ll(5, 0), ll(5, 5), ll(0, 5), ll(0, 0)]] } },
-        excavation: {
-          depth: 3,
-          groundwaterDepth: null,
-          designSurcharge: 10,
-          ratedPressure: null,
-          pressureState: 'active',
-          wallFriction: 0,
-          restraint: 'unyielding',
-        },
+        excavation: sixExcavation(),
         soil: [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 5 }],
       },
     ],

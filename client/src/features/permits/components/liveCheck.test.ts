@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { localProjection } from '@shared/geometry';
 import { cumulativeCheck, type CheckInput } from '@shared/permits/check';
+import { sixExcavation } from '@shared/engineering/test-fixtures';
 import '@client/lib/forms'; // the plain zod reasons every form page sets
 import { liveOutcome } from './liveCheck';
 
@@ -21,15 +22,7 @@ const pit = {
   reference: 'PIT-A',
   name: 'Pit',
   shape: { kind: 'pit' as const, outline: { type: 'Polygon' as const, coordinates: [square(0, 0, 5)] } },
-  excavation: {
-    depth: 3,
-    groundwaterDepth: null,
-    designSurcharge: 10,
-    ratedPressure: null,
-    pressureState: 'active' as const,
-    wallFriction: 0,
-    restraint: 'unyielding' as const,
-  },
+  excavation: sixExcavation(),
   soil: [{ top: 0, unitWeight: 19, frictionAngle: 30, cohesion: 0 }],
 };
 const withHeap = (heap: { unitWeight: number; height: number }): CheckInput => ({
