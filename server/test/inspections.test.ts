@@ -747,6 +747,16 @@ describe('records', () => {
       expect(text).toContain(words);
     }
     expect(pdf.toString('latin1')).toMatch(/\/Subtype\s*\/Image/);
+    expect(text).toContain('open, 2.40 m deep, support: hydraulic frames');
+    expect(text).not.toContain('OSHA 29 CFR 1926 Subpart P');
+
+    // Read by the same person in US customary units: 2.4 m = 7.874 ft (NIST SP 811, B.8: 1 ft = 0.3048 m).
+    await t.deps.db.updateTable('users').set({ units: 'us' }).where('email', '=', sup).execute();
+    const inFeet = await pdfText((await agent.get(`/api/sites/${s}/inspections/report.pdf?week=2026-W25`).buffer(true).parse(binary)).body);
+    expect(inFeet).toContain('open, 7.9 ft deep, support: hydraulic frames');
+    expect(inFeet).not.toMatch(/\d m deep/);
+    expect(inFeet).toContain('OSHA 29 CFR 1926 Subpart P (Excavations) applies');
+    await t.deps.db.updateTable('users').set({ units: null }).where('email', '=', sup).execute();
 
     // A longer report runs over several pages, each with its footer, and no page of footer alone.
     for (let i = 0; i < 14; i++) await excavation(s, 'open', '2026-06-01T00:00:00Z');

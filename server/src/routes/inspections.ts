@@ -197,18 +197,18 @@ export function registerInspectionRoutes(api: Api): void {
       method: 'get',
       path: '/api/sites/:siteId/inspections/report.pdf',
       summary:
-        'The weekly inspection report of a site as a PDF (week: ISO week such as 2026-W14; default this week on the site\u2019s clock)',
+        'The weekly inspection report of a site as a PDF in the reader\u2019s units (week: ISO week such as 2026-W14; default this week on the site\u2019s clock)',
       tag: 'Inspections',
       access: readSite,
       params: siteParams,
       query: weekQuerySchema,
       produces: 'application/pdf',
     },
-    async ({ params, query, res, deps }) => {
+    async ({ params, query, res, deps, user }) => {
       const clock = await siteClock(db, params.siteId, deps.now());
       const week = query.week ?? isoWeekAt(deps.now(), clock.timeZone);
       if (!isoWeekRange(week, clock.timeZone)) throw badRequest(`There is no week ${week}.`, { week: 'is not a week of that year' });
-      const pdf = await weeklyReportPdf(deps, params.siteId, week);
+      const pdf = await weeklyReportPdf(deps, params.siteId, week, user.id);
       res.setHeader('Content-Type', 'application/pdf');
       res.setHeader('Content-Disposition', `inline; filename="inspections-${week}.pdf"`);
       res.send(pdf);

@@ -1,11 +1,12 @@
 import PDFDocument from 'pdfkit';
 import { checklist, outcomeLabels, reasonLabels, type Inspection } from '@shared/schemas/inspections';
 import { formatSiteTime, isoWeekRange, shiftsBetween } from '@shared/time/shifts';
-import { CAUTION } from '@shared/caution';
+import { figuresIn } from '@shared/units';
 import type { Deps } from '../deps';
 import { badRequest } from '../http';
 import { failedItems, loadInspections, siteClock } from './inspections';
 import { t } from './permits/pdf';
+import { unitsOf } from './units';
 
 /** Printed on every page of the report. */
 const DUTY =
@@ -33,10 +34,16 @@ interface ShiftGroup {
  * The weekly inspection report of a site (ISO week on the site's calendar): for each excavation
  * that is open or was inspected that week, each shift with who inspected, when, why, the outcome,
  * failed checks and the photos as thumbnails; shifts of an open excavation with no inspection say
- * so. Returns the PDF bytes.
+ * so. Figures in the units of `readerId` (their own, else the site's). Returns the PDF bytes.
  */
-export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'files' | 'now'>, siteId: number, week: string): Promise<Buffer> {
+export async function weeklyReportPdf(
+  deps: Pick<Deps, 'db' | 'config' | 'files' | 'now'>,
+  siteId: number,
+  week: string,
+  readerId: number | null = null,
+): Promise<Buffer> {
   const now = deps.now();
+  const F = figuresIn(await unitsOf(deps.db, readerId, siteId));
   const clock = await siteClock(deps.db, siteId, now);
   const tz = clock.timeZone;
   const range = isoWeekRange(week, tz);
@@ -84,7 +91,7 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'files'
       ),
     );
   doc.moveDown(0.4).text(DUTY);
-  doc.moveDown(0.4).fillColor(YELLOW_INK).text(CAUTION);
+  doc.moveDown(0.4).fillColor(YELLOW_INK).text(F.caution);
   doc.moveDown(0.8);
 
   if (!excavations.length) doc.fillColor(INK).fontSize(11).text('No excavation was open or inspected this week.');
@@ -108,7 +115,7 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'files'
       .font('Helvetica')
       .fontSize(9)
       .fillColor(MUTED)
-      .text(`${e.state}, ${e.depth.toFixed(2)} m deep, support: ${e.support_type.replace(/-/g, ' ')}`);
+      .text(`${e.state}, ${F.length(e.depth)} deep, support: ${e.support_type.replace(/-/g, ' ')}`);
     doc.moveDown(0.3);
 
     for (const g of groupByShift(
@@ -201,7 +208,7 @@ export async function weeklyReportPdf(deps: Pick<Deps, 'db' | 'config' | 'files'
     const y = doc.page.height - doc.page.margins.bottom + 16;
     doc.page.margins.bottom = 0; // writing in the bottom margin must not start a new page
     doc.font('Helvetica').fontSize(7).fillColor(MUTED);
-    doc.text(`${CAUTION}  Page ${p + 1} of ${pages.count}.`, left, y, { width, lineBreak: true, height: 30 });
+    doc.text(`${F.caution}  Page ${p + 1} of ${pages.count}.`, left, y, { width, lineBreak: true, height: 30 });
   }
   doc.end();
   return done;
