@@ -28,7 +28,7 @@ export interface CheckContext {
 }
 
 /** Depths 0, step, 2·step, … (rounded to 1e-9 m so they print as exact multiples) and H. */
-export function profileDepths(H: number, step: number): number[] {
+function profileDepths(H: number, step: number): number[] {
   const n = Math.ceil(H / step - 1e-9);
   const out: number[] = [];
   for (let k = 0; k < n; k++) out.push(Math.round(k * step * 1e9) / 1e9);
@@ -102,7 +102,7 @@ function maxTotalOffGrid(ctx: CheckContext, effects: readonly SurchargeEffect[])
   return best;
 }
 
-export interface Utilisation {
+interface Utilisation {
   utilisation: number | null;
   governing: 'force' | 'moment' | 'rated-pressure' | 'no-allowance' | null;
   passes: boolean;

@@ -41,13 +41,13 @@ export interface StandoffAnswer {
 }
 
 /** One element of a load moved as a whole: a load and its offset beyond the group's nearest element (m). */
-export interface GroupMember {
+interface GroupMember {
   load: PlacedLoad;
   /** Offset of this element minus that of the group's nearest element (m, ≥ 0). */
   relative: number;
 }
 
-export interface StandoffSolver {
+interface StandoffSolver {
   /** Does the check of this load alone (with the blankets) pass at offset d (m)? */
   passesAt(load: PlacedLoad, offset: number): boolean;
   /** The standoff (m, rounded up to 0.01 m) or null. */
@@ -59,7 +59,7 @@ export interface StandoffSolver {
 }
 
 /** The width B of a load as the method sees it (m): where its far edge sits beyond its near edge. */
-export function loadWidth(load: PlacedLoad, method: Method): number {
+function loadWidth(load: PlacedLoad, method: Method): number {
   switch (load.kind) {
     case 'strip':
     case 'area':
@@ -161,7 +161,7 @@ const exact = (x: number) => Math.round(x * 1e7) / 1e7;
  * between centimetres, e.g. 2 ft = 0.6096 m) and d ± 1e-6 m at every break point in that range. The standoff is the centimetre just beyond the farthest
  * failing offset (the minimum clearance when none fails), or null when 3H itself fails.
  */
-export function searchOffsets(
+function searchOffsets(
   passes: (d: number) => boolean,
   H: number,
   minimumClearance: number,

@@ -73,7 +73,7 @@ export function distanceToRing(p: XY, ring: Ring): number {
 }
 
 /** Signed distance to a polygon: positive outside, negative inside. */
-export function signedDistanceToRing(p: XY, ring: Ring): number {
+function signedDistanceToRing(p: XY, ring: Ring): number {
   const d = distanceToRing(p, ring);
   return pointInRing(p, ring) ? -d : d;
 }

@@ -23,7 +23,7 @@ import type { LocalProjection } from './projection';
 const TURF_EARTH_RADIUS = 6371008.8;
 
 /** Chords per quarter circle of a zone's rounded corners. */
-export const ARC_STEPS = 64;
+const ARC_STEPS = 64;
 
 function isConvex(ring: Ring): boolean {
   const n = ring.length;
@@ -86,7 +86,7 @@ export function stepsFor(distance: number, tolerance: number): number {
  * The zone within `distance` (m) of the excavation outline, as GeoJSON in WGS84; with `tolerance`,
  * drawn with fewer chords that still never fall inside the zone (see stepsFor).
  */
-export function zonePolygon(excavation: PreparedOutline, distance: number, proj: LocalProjection, tolerance = 0): Polygon | MultiPolygon {
+function zonePolygon(excavation: PreparedOutline, distance: number, proj: LocalProjection, tolerance = 0): Polygon | MultiPolygon {
   const steps = stepsFor(distance, tolerance);
   const toGeo = (r: Ring) => {
     const ll = r.map((p) => proj.toWgs84(p));

@@ -317,14 +317,13 @@ export type AuditDetail = z.output<typeof auditDetailSchema>;
 export const storedAuditDetail = (json: Stored<AuditDetail>): AuditDetail => readStored('audit entry detail', auditDetailSchema, json);
 
 /** One change in an excavation's history: who, when, what (field → from, to). */
-export const historyEntryAnswer = z.object({
+const historyEntryAnswer = z.object({
   id: z.number().int(),
   at: z.iso.datetime(),
   by: z.string(),
   action: z.string(),
   changes: changesSchema.nullable(),
 });
-export type HistoryEntry = z.output<typeof historyEntryAnswer>;
 export const historyAnswer = z.object({ entries: z.array(historyEntryAnswer) });
 
 export const importModes = ['add', 'replace'] as const;

@@ -30,7 +30,6 @@ export const concernFormSchema = z.object({
     }),
   idempotencyKey: idempotencyKeySchema.optional(),
 });
-export type ConcernForm = z.infer<typeof concernFormSchema>;
 
 const int = z.number().int();
 const isoTime = z.iso.datetime();
