@@ -100,7 +100,7 @@ export function fromSystem(quantity: Quantity, value: number, system: UnitSystem
   return toSI(quantity, value, DISPLAY[system][quantity].unit as never);
 }
 
-export type Rounding = 'nearest' | 'up' | 'down';
+type Rounding = 'nearest' | 'up' | 'down';
 
 function decimals(step: number): number {
   return step >= 1 ? 0 : Math.round(-Math.log10(step));
