@@ -39,11 +39,20 @@ type Timestamp = ColumnType<Date, Date | string, Date | string>;
 /** A timestamp the database fills in (defaults to now()). */
 export type CreatedAt = ColumnType<Date, Date | string | undefined, Date | string>;
 
+/** An organisation owns its people, sites, invitations and plant library (docs/security.md, "Organisations"). */
+interface OrganisationsTable {
+  id: Generated<number>;
+  name: string;
+  created_at: CreatedAt;
+}
+
 interface UsersTable {
   id: Generated<number>;
+  organisation_id: number;
   email: string;
   name: string;
   password_hash: string | null;
+  /** Administrator of the person's own organisation (nothing of another organisation). */
   is_admin: Generated<boolean>;
   active: Generated<boolean>;
   created_at: CreatedAt;
@@ -53,6 +62,7 @@ interface UsersTable {
 
 interface SitesTable {
   id: Generated<number>;
+  organisation_id: number;
   name: string;
   latitude: number;
   longitude: number;
@@ -77,6 +87,8 @@ interface SiteMembersTable {
 
 interface InvitationsTable {
   id: Generated<number>;
+  /** The organisation the person joins (the inviting administrator's). */
+  organisation_id: number;
   email: string;
   name: string;
   is_admin: Generated<boolean>;
@@ -190,6 +202,8 @@ export interface ExcavationsTable {
 
 export interface PlantItemsTable {
   id: Generated<number>;
+  /** Each organisation keeps its own library; a permit uses only its site's organisation's machines. */
+  organisation_id: number;
   name: string;
   category: PlantCategory;
   /** Operating mass in tonnes. */
@@ -377,6 +391,7 @@ interface PushDeliveriesTable {
 }
 
 export interface Database {
+  organisations: OrganisationsTable;
   users: UsersTable;
   sites: SitesTable;
   site_members: SiteMembersTable;

@@ -13,16 +13,22 @@ export const demoPeople = [
   { email: 'operator@demo.brink.test', name: 'Owen Petts (demo operator)', isAdmin: false, role: 'operator' },
 ] as const;
 
+/** The invented organisation that owns the demo site, its people and its plant library. */
+export const DEMO_ORGANISATION = 'Marsh & Ridley Civils (demo)';
+
 export interface DemoContext {
+  organisationId: number;
   siteId: number;
   people: Record<'admin' | 'coordinator' | 'supervisor' | 'operator', number>;
 }
 
-/** The invented demo site and its people, one for each role. */
+/** The invented demo organisation, its site and its people, one for each role. */
 export async function seedSiteAndPeople(db: Db): Promise<DemoContext> {
+  const org = await db.insertInto('organisations').values({ name: DEMO_ORGANISATION }).returning('id').executeTakeFirstOrThrow();
   const site = await db
     .insertInto('sites')
     .values({
+      organisation_id: org.id,
       name: 'Alder Marsh pumping station',
       latitude: 52.37124,
       longitude: -1.04833,
@@ -37,7 +43,7 @@ export async function seedSiteAndPeople(db: Db): Promise<DemoContext> {
   for (const p of demoPeople) {
     const u = await db
       .insertInto('users')
-      .values({ email: p.email, name: p.name, password_hash: hash, is_admin: p.isAdmin })
+      .values({ organisation_id: org.id, email: p.email, name: p.name, password_hash: hash, is_admin: p.isAdmin })
       .returning('id')
       .executeTakeFirstOrThrow();
     people[p.email.split('@')[0] as keyof DemoContext['people']] = u.id;
@@ -48,5 +54,5 @@ export async function seedSiteAndPeople(db: Db): Promise<DemoContext> {
         .execute();
     }
   }
-  return { siteId: site.id, people };
+  return { organisationId: org.id, siteId: site.id, people };
 }

@@ -239,7 +239,7 @@ export async function seedPermits(db: Db, ctx: DemoContext): Promise<void> {
     .select(['latitude', 'longitude', 'default_method'])
     .where('id', '=', ctx.siteId)
     .executeTakeFirstOrThrow();
-  const plantRows = await db.selectFrom('plant_items').select(['id', 'name']).execute();
+  const plantRows = await db.selectFrom('plant_items').select(['id', 'name']).where('organisation_id', '=', ctx.organisationId).execute();
   const plant = Object.fromEntries(plantRows.map((p) => [p.name, p.id]));
   const excavations = await db.selectFrom('excavations').select(['id', 'reference']).where('site_id', '=', ctx.siteId).execute();
   const now = Date.now();

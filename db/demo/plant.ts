@@ -104,11 +104,13 @@ const demoPlant: DemoPlant[] = [
   },
 ];
 
-export async function seedPlant(db: Db, _ctx: DemoContext): Promise<void> {
+/** The demo machines, in the library of the organisation `ctx` names. */
+export async function seedPlant(db: Db, ctx: Pick<DemoContext, 'organisationId'>): Promise<void> {
   for (const p of demoPlant) {
     await db
       .insertInto('plant_items')
       .values({
+        organisation_id: ctx.organisationId,
         name: p.name,
         category: p.category,
         operating_mass: p.mass,

@@ -118,16 +118,21 @@ export interface SessionUser {
   id: number;
   email: string;
   name: string;
+  /** Administrator of their own organisation (never of another). */
   isAdmin: boolean;
+  /** The organisation the person belongs to: everything they read or change is of it (services/organisation.ts). */
+  organisationId: number;
 }
 
 /**
  * Who may call a route; decided before the body is read, so a forbidden call answers 403 whatever
  * it carries.
- * - `public`: anyone. `signedIn`: any active person. `admin`: administrators.
+ * - `public`: anyone. `signedIn`: any active person. `admin`: administrators (of their own
+ *   organisation: what such a route reads or changes is scoped with services/organisation.ts).
  * - `site`: members of the site that `siteId` names (from the path, or from the resource the path
  *   names; `null` there means the resource does not exist → 404) whose role is in `roles`;
- *   administrators too when `admin` is true.
+ *   administrators of the site's organisation too when `admin` is true. A site of another
+ *   organisation is not found (404).
  */
 export type Access =
   | { kind: 'public' }
@@ -362,8 +367,12 @@ declare module 'express-serve-static-core' {
 
 /** The person a session names, when the account exists and is active. */
 async function readUser(deps: Deps, id: number): Promise<SessionUser | null> {
-  const u = await deps.db.selectFrom('users').select(['id', 'email', 'name', 'is_admin', 'active']).where('id', '=', id).executeTakeFirst();
-  return u && u.active ? { id: u.id, email: u.email, name: u.name, isAdmin: u.is_admin } : null;
+  const u = await deps.db
+    .selectFrom('users')
+    .select(['id', 'email', 'name', 'is_admin', 'active', 'organisation_id'])
+    .where('id', '=', id)
+    .executeTakeFirst();
+  return u && u.active ? { id: u.id, email: u.email, name: u.name, isAdmin: u.is_admin, organisationId: u.organisation_id } : null;
 }
 
 /**
@@ -410,32 +419,31 @@ async function authorise(access: Access, req: Request, deps: Deps): Promise<Site
     name: string;
     is_admin: boolean;
     active: boolean;
+    organisation_id: number;
     site_id: number | null;
     role: SiteRole | null;
     can_inspect: boolean | null;
   }>`
-    select u.id, u.email, u.name, u.is_admin, u.active, s.id as site_id, m.role, m.can_inspect
+    select u.id, u.email, u.name, u.is_admin, u.active, u.organisation_id, s.id as site_id, m.role, m.can_inspect
     from users u
-    left join sites s on s.id = ${siteExpr}
+    left join sites s on s.id = ${siteExpr} and s.organisation_id = u.organisation_id
     left join site_members m on m.site_id = s.id and m.user_id = u.id
     where u.id = ${userId}`.execute(deps.db);
   const r = rows[0];
   if (!r || !r.active) throw new HttpError(401, 'signed_out', 'Please sign in.');
-  const user: SessionUser = { id: r.id, email: r.email, name: r.name, isAdmin: r.is_admin };
+  const user: SessionUser = { id: r.id, email: r.email, name: r.name, isAdmin: r.is_admin, organisationId: r.organisation_id };
   req.user = user;
-  // The row the path names does not exist (its site always does: a foreign key).
-  if (typeof found !== 'number' && r.site_id === null) throw notFound();
+  // The row the path names does not exist, or its site is of another organisation: to this person
+  // both are absent (404), so an id of another organisation tells nothing (services/organisation.ts).
+  if (r.site_id === null) throw notFound(typeof found === 'number' ? 'That site' : undefined);
   if (r.role === null) {
-    if (access.admin && user.isAdmin) {
-      if (r.site_id === null) throw notFound('That site');
-      return { id: r.site_id, role: null, canInspect: false };
-    }
+    if (access.admin && user.isAdmin) return { id: r.site_id, role: null, canInspect: false };
     throw forbidden('You are not a member of this site.');
   }
   const membership = { role: r.role, canInspect: Boolean(r.can_inspect) };
   const roleOk = access.roles === 'any' || access.roles.includes(r.role) || (access.admin && user.isAdmin);
   if (!roleOk || (access.allow && !access.allow(membership))) throw forbidden();
-  return { id: r.site_id!, role: r.role, canInspect: membership.canInspect };
+  return { id: r.site_id, role: r.role, canInspect: membership.canInspect };
 }
 
 /** What every API call answers (503) while PostgreSQL cannot be reached. */

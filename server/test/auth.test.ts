@@ -2,7 +2,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import bcrypt from 'bcryptjs';
 import { sql } from 'kysely';
-import { demo, DEMO_PASSWORD, linkToken, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
+import { demo, DEMO_PASSWORD, linkToken, signedIn, startTestApp, unique, waitForMail, type TestApp, demoOrganisationId } from './helpers';
 
 let t: TestApp;
 beforeAll(async () => {
@@ -70,7 +70,12 @@ describe('sign-in', () => {
     const email = unique('limited');
     await t.deps.db
       .insertInto('users')
-      .values({ email, name: 'Limited', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+      .values({
+        organisation_id: await demoOrganisationId(t.deps),
+        email,
+        name: 'Limited',
+        password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+      })
       .execute();
     for (let i = 0; i < 5; i++) {
       const r = await request(t.app).post('/api/auth/sign-in').send({ email, password: 'wrong-password' });
@@ -146,7 +151,12 @@ describe('password reset', () => {
     const email = unique('forgetful');
     await t.deps.db
       .insertInto('users')
-      .values({ email, name: 'Forgetful Fay', password_hash: await bcrypt.hash('old-password-1', 10) })
+      .values({
+        organisation_id: await demoOrganisationId(t.deps),
+        email,
+        name: 'Forgetful Fay',
+        password_hash: await bcrypt.hash('old-password-1', 10),
+      })
       .execute();
     const r = await request(t.app).post('/api/auth/forgot-password').send({ email });
     expect(r.status).toBe(202);
@@ -169,7 +179,12 @@ describe('password reset', () => {
     const email = unique('slow');
     await t.deps.db
       .insertInto('users')
-      .values({ email, name: 'Slow Sam', password_hash: await bcrypt.hash('old-password-1', 10) })
+      .values({
+        organisation_id: await demoOrganisationId(t.deps),
+        email,
+        name: 'Slow Sam',
+        password_hash: await bcrypt.hash('old-password-1', 10),
+      })
       .execute();
     await request(t.app).post('/api/auth/forgot-password').send({ email }).expect(202);
     const token = linkToken((await waitForMail(t.deps, email, /reset/i)).text, '/reset-password');

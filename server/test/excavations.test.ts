@@ -12,7 +12,7 @@ import {
   type ExcavationInput,
 } from '@shared/schemas/excavations';
 import { calcRequestSchema } from '@shared/schemas/calc';
-import { demo, DEMO_PASSWORD, demoSiteId, signedIn, startTestApp, unique, type TestApp } from './helpers';
+import { demo, DEMO_PASSWORD, demoSiteId, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
 
 let t: TestApp;
 let siteId: number;
@@ -109,13 +109,23 @@ describe('excavation register: roles', () => {
   it('keeps each site to its own people: another site is 403, another site’s excavation is 404', async () => {
     const other = await t.deps.db
       .insertInto('sites')
-      .values({ name: `Other ${randomUUID().slice(0, 6)}`, latitude: origin.latitude, longitude: origin.longitude })
+      .values({
+        organisation_id: await demoOrganisationId(t.deps),
+        name: `Other ${randomUUID().slice(0, 6)}`,
+        latitude: origin.latitude,
+        longitude: origin.longitude,
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     const email = unique('othercoord');
     const u = await t.deps.db
       .insertInto('users')
-      .values({ email, name: 'Other coordinator', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+      .values({
+        organisation_id: await demoOrganisationId(t.deps),
+        email,
+        name: 'Other coordinator',
+        password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role: 'coordinator' }).execute();

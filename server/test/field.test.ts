@@ -7,7 +7,7 @@ import { localProjection, prepareExcavation, signedDistanceToZoneAt, SITE_TOLERA
 import { exclusionDistance } from '@shared/permits/exclusion';
 import type { FieldPermit } from '@shared/schemas/field';
 import type { PermitDetail } from '@shared/schemas/permits';
-import { DEMO_PASSWORD, demo, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
+import { DEMO_PASSWORD, demo, signedIn, startTestApp, unique, waitForMail, type TestApp, demoOrganisationId } from './helpers';
 import { createPermit, makeWorld, submitAndApprove, type PermitWorld } from './permits-fixtures';
 
 /**
@@ -31,7 +31,12 @@ async function operator(label: string) {
   const email = unique(`field-${label}`);
   const u = await t.deps.db
     .insertInto('users')
-    .values({ email, name: `Field operator ${label.toUpperCase()} (test)`, password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+    .values({
+      organisation_id: await demoOrganisationId(t.deps),
+      email,
+      name: `Field operator ${label.toUpperCase()} (test)`,
+      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   await t.deps.db.insertInto('site_members').values({ site_id: w.siteId, user_id: u.id, role: 'operator' }).execute();

@@ -9,6 +9,7 @@ import { createApp } from '../src/app';
 import { startRuntime, type Runtime } from '../src/runtime';
 import { MailCatcher } from '../src/mail/catcher';
 import { DEMO_PASSWORD } from '@db/demo/people';
+import bcrypt from 'bcryptjs';
 import type { Deps } from '../src/deps';
 import { freePort } from '../src/services/ports';
 import { readdirSync } from 'node:fs';
@@ -113,6 +114,61 @@ export function linkToken(text: string, path: string): string {
   const m = text.match(new RegExp(`${path.replace(/[/?]/g, (c) => `\\${c}`)}\\?token=([A-Za-z0-9_-]+)`));
   if (!m) throw new Error(`no ${path} link in: ${text}`);
   return m[1];
+}
+
+/** The demo organisation (the demo administrator's): the demo site, its people and plant library belong to it. */
+export async function demoOrganisationId(deps: Deps): Promise<number> {
+  const o = await deps.db.selectFrom('users').select('organisation_id').where('email', '=', demo.admin).executeTakeFirstOrThrow();
+  return o.organisation_id;
+}
+
+/** A second, invented organisation: its own site, administrator, coordinator (of that site) and one machine. */
+export interface OtherOrganisation {
+  id: number;
+  siteId: number;
+  adminEmail: string;
+  coordinatorEmail: string;
+  coordinatorId: number;
+  plantItemId: number;
+}
+
+export async function makeOrganisation(deps: Deps, label = 'Other'): Promise<OtherOrganisation> {
+  const db = deps.db;
+  const org = await db
+    .insertInto('organisations')
+    .values({ name: `${label} Earthworks ${randomUUID().slice(0, 8)} (test)` })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  const site = await db
+    .insertInto('sites')
+    .values({ organisation_id: org.id, name: `${label} quarry road (test)`, latitude: 53.2, longitude: -2.1 })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  const hash = await bcrypt.hash(DEMO_PASSWORD, 4);
+  const adminEmail = unique(`${label.toLowerCase()}-org-admin`);
+  const coordinatorEmail = unique(`${label.toLowerCase()}-org-coordinator`);
+  await db
+    .insertInto('users')
+    .values({ organisation_id: org.id, email: adminEmail, name: `${label} Admin`, password_hash: hash, is_admin: true })
+    .execute();
+  const c = await db
+    .insertInto('users')
+    .values({ organisation_id: org.id, email: coordinatorEmail, name: `${label} Coordinator`, password_hash: hash })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  await db.insertInto('site_members').values({ site_id: site.id, user_id: c.id, role: 'coordinator', can_inspect: true }).execute();
+  const machine = await db
+    .insertInto('plant_items')
+    .values({
+      organisation_id: org.id,
+      name: `${label} dumper 3 t`,
+      category: 'dumper',
+      operating_mass: 3,
+      elements: JSON.stringify([{ name: 'Body', kind: 'pad', x: 0, y: 0, length: 2.5, width: 1.5, share: 1 }]),
+    })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  return { id: org.id, siteId: site.id, adminEmail, coordinatorEmail, coordinatorId: c.id, plantItemId: machine.id };
 }
 
 export async function demoSiteId(deps: Deps): Promise<number> {

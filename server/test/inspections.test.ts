@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { checklist, type InspectionInput } from '@shared/schemas/inspections';
 import { checkOverdueInspections, runReconciliation } from '../src/jobs/inspections';
 import { MB } from '../src/services/uploads';
-import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
+import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp, demoOrganisationId } from './helpers';
 import { act, createPermit, excavatorAt, makeWorld, newTrench, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
 import { binary, pdfPages, pdfText } from './pdf';
 
@@ -34,14 +34,18 @@ const JPEG = Buffer.concat([
 ]);
 
 async function person(email: string, name: string): Promise<number> {
-  const u = await t.deps.db.insertInto('users').values({ email, name, password_hash: hash }).returning('id').executeTakeFirstOrThrow();
+  const u = await t.deps.db
+    .insertInto('users')
+    .values({ organisation_id: await demoOrganisationId(t.deps), email, name, password_hash: hash })
+    .returning('id')
+    .executeTakeFirstOrThrow();
   return u.id;
 }
 
 async function newSite(name: string, timezone = 'Europe/London'): Promise<number> {
   const s = await t.deps.db
     .insertInto('sites')
-    .values({ name, latitude: 52.1, longitude: -1.1, timezone })
+    .values({ organisation_id: await demoOrganisationId(t.deps), name, latitude: 52.1, longitude: -1.1, timezone })
     .returning('id')
     .executeTakeFirstOrThrow();
   return s.id;

@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type request from 'supertest';
-import { startTestApp, type TestApp } from './helpers';
+import { startTestApp, type TestApp, demoOrganisationId } from './helpers';
 import { addTrench, createPermit, excavatorAt, hoursFrom, makeWorld, newTrench, type PermitWorld } from './permits-fixtures';
 
 // Issue 16 §1: long lists come a page at a time (keyset: ordered by the sort, then the id), each
@@ -74,7 +74,12 @@ describe('excavation pages', () => {
     // A site of its own: other files add excavations to the demo site meanwhile.
     const site = await t.deps.db
       .insertInto('sites')
-      .values({ name: 'Pages test site (invented)', latitude: w.origin[1], longitude: w.origin[0] })
+      .values({
+        organisation_id: await demoOrganisationId(t.deps),
+        name: 'Pages test site (invented)',
+        latitude: w.origin[1],
+        longitude: w.origin[0],
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     for (let i = 0; i < 3; i++) await addTrench(t, site.id, w.origin);

@@ -6,7 +6,7 @@ import type { LineString } from 'geojson';
 import { localProjection } from '@shared/geometry';
 import { shapeColumns, shapesOf } from '@shared/geometry/shapes';
 import type { PermitCreateInput, PermitStatus, PlacedLoad } from '@shared/schemas/permits';
-import { demo, DEMO_PASSWORD, demoSiteId, signedIn, unique, type TestApp } from './helpers';
+import { demo, DEMO_PASSWORD, demoSiteId, signedIn, unique, type TestApp, demoOrganisationId } from './helpers';
 
 /**
  * Fixtures of the permit tests: the demo site and people, a test trench of its own on the demo site
@@ -114,19 +114,34 @@ export async function makeWorld(t: TestApp): Promise<PermitWorld> {
   const coordinator2Email = unique('coordinator2');
   const c2 = await t.deps.db
     .insertInto('users')
-    .values({ email: coordinator2Email, name: 'Cora Second (test coordinator)', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+    .values({
+      organisation_id: await demoOrganisationId(t.deps),
+      email: coordinator2Email,
+      name: 'Cora Second (test coordinator)',
+      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   await t.deps.db.insertInto('site_members').values({ site_id: siteId, user_id: c2.id, role: 'coordinator' }).execute();
   const outsiderEmail = unique('outsider');
   const other = await t.deps.db
     .insertInto('sites')
-    .values({ name: `Other site ${randomUUID().slice(0, 4)}`, latitude: 51, longitude: 0 })
+    .values({
+      organisation_id: await demoOrganisationId(t.deps),
+      name: `Other site ${randomUUID().slice(0, 4)}`,
+      latitude: 51,
+      longitude: 0,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   const o = await t.deps.db
     .insertInto('users')
-    .values({ email: outsiderEmail, name: 'Otto Outsider', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+    .values({
+      organisation_id: await demoOrganisationId(t.deps),
+      email: outsiderEmail,
+      name: 'Otto Outsider',
+      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: o.id, role: 'coordinator' }).execute();

@@ -2,7 +2,7 @@ import request from 'supertest';
 import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { plantItemSchema, type PlantItemInput } from '@shared/schemas/plant';
-import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, type TestApp } from './helpers';
+import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
 
 let t: TestApp;
 beforeAll(async () => {
@@ -83,14 +83,19 @@ describe('plant library', () => {
   it('lets a coordinator of another site edit the (shared) library, but not a supervisor of one', async () => {
     const other = await t.deps.db
       .insertInto('sites')
-      .values({ name: 'Plant test other site', latitude: 51.2, longitude: -0.5 })
+      .values({ organisation_id: await demoOrganisationId(t.deps), name: 'Plant test other site', latitude: 51.2, longitude: -0.5 })
       .returning('id')
       .executeTakeFirstOrThrow();
     const emails = { coordinator: unique('co'), supervisor: unique('su') } as const;
     for (const [role, email] of Object.entries(emails) as ['coordinator' | 'supervisor', string][]) {
       const u = await t.deps.db
         .insertInto('users')
-        .values({ email, name: `Plant ${role}`, password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+        .values({
+          organisation_id: await demoOrganisationId(t.deps),
+          email,
+          name: `Plant ${role}`,
+          password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+        })
         .returning('id')
         .executeTakeFirstOrThrow();
       await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role }).execute();

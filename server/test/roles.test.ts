@@ -1,7 +1,18 @@
 import request from 'supertest';
 import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demo, DEMO_PASSWORD, demoSiteId, signedIn, startTestApp, unique, type TestApp } from './helpers';
+import {
+  demo,
+  DEMO_PASSWORD,
+  demoSiteId,
+  signedIn,
+  startTestApp,
+  unique,
+  type TestApp,
+  demoOrganisationId,
+  makeOrganisation,
+  type OtherOrganisation,
+} from './helpers';
 import { createPermit, makeWorld } from './permits-fixtures';
 import { storeUpload } from '../src/services/uploads';
 
@@ -10,8 +21,18 @@ import { storeUpload } from '../src/services/uploads';
  * ("outsider") and signed out ("anon"). `allow` lists who gets past the guard; everyone else must
  * be refused (401 signed out, 403 or 404 otherwise). A route added without a row here fails the
  * test at the bottom.
+ *
+ * The cross-organisation column: the administrator and a coordinator of a second, invented
+ * organisation ("B admin", "B coordinator") call every route with real ids of the demo
+ * organisation's records (its site, permit, excavation, photo, a person and a machine). Each such
+ * call answers 404, as for a record that does not exist; a route that names no record of the demo
+ * organisation lets them through as their role allows (what they then see is their own:
+ * server/test/organisations.test.ts).
  */
 type Who = 'admin' | 'coordinator' | 'supervisor' | 'operator' | 'outsider' | 'anon';
+type OtherWho = 'B admin' | 'B coordinator';
+/** What each caller of organisation B would be in the demo organisation's matrix. */
+const asIfAt: Record<OtherWho, Who> = { 'B admin': 'admin', 'B coordinator': 'outsider' };
 const everyone: Who[] = ['admin', 'coordinator', 'supervisor', 'operator', 'outsider', 'anon'];
 const signedInPeople: Who[] = ['admin', 'coordinator', 'supervisor', 'operator', 'outsider'];
 const siteMembers: Who[] = ['coordinator', 'supervisor', 'operator'];
@@ -76,8 +97,8 @@ export const matrix: Record<string, Row> = {
   'POST /api/push/subscription': { allow: signedInPeople, body: {} },
   'DELETE /api/push/subscription': { allow: signedInPeople, query: { endpoint: 'https://fcm.googleapis.com/fcm/send/roles-test' } },
   'POST /api/permits/:id/concerns': { allow: siteMembers },
-  // The plant library is shared by all sites: everyone signed in reads it; administrators and
-  // coordinators (of any site, so the outsider too) keep it.
+  // An organisation's plant library is shared by its sites: everyone signed in reads their own;
+  // its administrators and coordinators (of any of its sites, so the outsider too) keep it.
   'GET /api/plant': { allow: signedInPeople },
   'POST /api/plant': { allow: ['admin', 'coordinator', 'outsider'], body: {} },
   'PATCH /api/plant/:id': { allow: ['admin', 'coordinator', 'outsider'], body: {} },
@@ -108,26 +129,58 @@ export const matrix: Record<string, Row> = {
 
 let t: TestApp;
 let siteId: number;
-const agents = new Map<Who, request.Agent | request.SuperTest<request.Test>>();
+const agents = new Map<Who | OtherWho, request.Agent | request.SuperTest<request.Test>>();
 const outsiderEmail = unique('outsider');
+let orgB: OtherOrganisation;
 
 beforeAll(async () => {
   t = await startTestApp({ SIGNIN_LIMIT_PER_IP: '1000' });
   siteId = await demoSiteId(t.deps);
   const other = await t.deps.db
     .insertInto('sites')
-    .values({ name: 'Matrix other site', latitude: 51, longitude: 0 })
+    .values({ organisation_id: await demoOrganisationId(t.deps), name: 'Matrix other site', latitude: 51, longitude: 0 })
     .returning('id')
     .executeTakeFirstOrThrow();
   const u = await t.deps.db
     .insertInto('users')
-    .values({ email: outsiderEmail, name: 'Olive Outsider', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+    .values({
+      organisation_id: await demoOrganisationId(t.deps),
+      email: outsiderEmail,
+      name: 'Olive Outsider',
+      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role: 'coordinator' }).execute();
   for (const who of ['admin', 'coordinator', 'supervisor', 'operator'] as const) agents.set(who, await signedIn(t.app, demo[who]));
   agents.set('outsider', await signedIn(t.app, outsiderEmail));
   agents.set('anon', request(t.app) as unknown as request.Agent);
+  orgB = await makeOrganisation(t.deps, 'Matrix');
+  agents.set('B admin', await signedIn(t.app, orgB.adminEmail));
+  agents.set('B coordinator', await signedIn(t.app, orgB.coordinatorEmail));
+  // A person and a machine of the demo organisation of this file's own, for the calls of organisation B.
+  const org = await demoOrganisationId(t.deps);
+  real.person = (
+    await t.deps.db
+      .insertInto('users')
+      .values({ organisation_id: org, email: unique('matrix-person'), name: 'Mina Matrix', password_hash: null })
+      .returning('id')
+      .executeTakeFirstOrThrow()
+  ).id;
+  await t.deps.db.insertInto('site_members').values({ site_id: siteId, user_id: real.person, role: 'operator' }).execute();
+  real.plant = (
+    await t.deps.db
+      .insertInto('plant_items')
+      .values({
+        organisation_id: org,
+        name: `Matrix roller ${unique('m')}`,
+        category: 'roller',
+        operating_mass: 2,
+        elements: JSON.stringify([{ name: 'Drum', kind: 'wheel', x: 0, y: 0, length: 0.2, width: 1, share: 1 }]),
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow()
+  ).id;
   // Real records of the demo site for the routes that find their site through a record: a draft
   // permit on a test trench of its own, and a stored photo.
   const w = await makeWorld(t);
@@ -148,7 +201,7 @@ beforeAll(async () => {
   ).id;
 });
 
-const real = { permit: 0, excavation: 0, upload: 0 };
+const real = { permit: 0, excavation: 0, upload: 0, person: 0, plant: 0 };
 afterAll(async () => t.stop());
 
 /** The path with real ids where a route finds its site through a record, 999999 elsewhere. */
@@ -159,6 +212,66 @@ function concrete(path: string): string {
   if (p.startsWith('/api/uploads/:id')) p = p.replace(':id', String(real.upload));
   return p.replace(/:[A-Za-z]+/g, '999999');
 }
+
+/** Whether a route names a record (in its path, or a site in its body). */
+const namesRecord = (path: string, row: Row) => /:(?!token)[A-Za-z]+/.test(path) || typeof row.body === 'function';
+
+/**
+ * The path with real ids of the demo organisation's records: its site, permit, excavation, photo, a
+ * person and a machine. An id under one of them (a revision, an attachment) is never looked up.
+ */
+function ofDemoOrganisation(path: string): string {
+  const p = concrete(
+    path.replace(/^\/api\/users\/:id/, `/api/users/${real.person}`).replace(/^\/api\/plant\/:id/, `/api/plant/${real.plant}`),
+  );
+  return p.replace(/^(\/api\/(\w+)\/)999999/, (_, head: string) => {
+    throw new Error(`no real record of the demo organisation for ${head}`);
+  });
+}
+
+describe('role matrix: a second organisation', () => {
+  for (const [route, row] of Object.entries(matrix)) {
+    const [method, path] = route.split(' ');
+    for (const who of ['B admin', 'B coordinator'] as const) {
+      const names = namesRecord(path, row);
+      const allowed = row.allow.includes(asIfAt[who]);
+      // An administrator's route refuses anyone else by role (403) before any record is looked up.
+      const byRole = names && !allowed && row.allow.length === 1 && row.allow[0] === 'admin';
+      const expected = byRole ? 'refused' : names ? '404' : allowed ? 'allowed' : 'refused';
+      it(`${route} as ${who} → ${expected}`, async () => {
+        const agent =
+          path === '/api/auth/sign-out'
+            ? await signedIn(t.app, who === 'B admin' ? orgB.adminEmail : orgB.coordinatorEmail)
+            : agents.get(who)!;
+        const m = method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete';
+        const url = names ? ofDemoOrganisation(path) : concrete(path);
+        let req = agent[m](url);
+        if (row.query) req = req.query(row.query);
+        if (row.body !== undefined) req = req.send((typeof row.body === 'function' ? row.body(siteId) : row.body) as object);
+        const r = await req;
+        if (expected === '404') {
+          // Not 403: an id of another organisation tells nothing, not even that it exists.
+          expect(r.status).toBe(404);
+          expect(r.body.error.code).toBe('not_found');
+        } else if (expected === 'allowed') {
+          expect([401, 403]).not.toContain(r.status);
+          expect(r.status).toBeLessThan(500);
+        } else {
+          expect(r.status).toBe(403);
+        }
+      });
+    }
+  }
+
+  it("left the demo organisation's person, membership and machine as they were", async () => {
+    const person = await t.deps.db.selectFrom('users').select(['name', 'active']).where('id', '=', real.person).executeTakeFirstOrThrow();
+    expect(person).toEqual({ name: 'Mina Matrix', active: true });
+    const member = await t.deps.db.selectFrom('site_members').select('role').where('user_id', '=', real.person).execute();
+    expect(member).toEqual([{ role: 'operator' }]);
+    const machine = await t.deps.db.selectFrom('plant_items').select(['version']).where('id', '=', real.plant).executeTakeFirstOrThrow();
+    expect(machine.version).toBe(1);
+  });
+});
 
 describe('role matrix', () => {
   for (const [route, row] of Object.entries(matrix)) {
@@ -259,7 +372,12 @@ describe('administration of people', () => {
     const email = unique('leaver');
     const u = await t.deps.db
       .insertInto('users')
-      .values({ email, name: 'Lee Leaver', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+      .values({
+        organisation_id: await demoOrganisationId(t.deps),
+        email,
+        name: 'Lee Leaver',
+        password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     const leaver = await signedIn(t.app, email);
@@ -272,7 +390,12 @@ describe('administration of people', () => {
     const email = unique('roled');
     const u = await t.deps.db
       .insertInto('users')
-      .values({ email, name: 'Rae Roled', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+      .values({
+        organisation_id: await demoOrganisationId(t.deps),
+        email,
+        name: 'Rae Roled',
+        password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     const admin = agents.get('admin')!;

@@ -13,6 +13,7 @@ import {
   TEST_ORIGIN,
   unique,
   type TestApp,
+  demoOrganisationId,
 } from './helpers';
 import { newToken } from '../src/services/tokens';
 import { Api, conflict, errorHandler } from '../src/http';
@@ -146,7 +147,13 @@ async function person(active = true): Promise<{ id: number; email: string }> {
   const email = unique('sec');
   const u = await t.deps.db
     .insertInto('users')
-    .values({ email, name: 'Sam Second', password_hash: await bcrypt.hash(DEMO_PASSWORD, 4), active })
+    .values({
+      organisation_id: await demoOrganisationId(t.deps),
+      email,
+      name: 'Sam Second',
+      password_hash: await bcrypt.hash(DEMO_PASSWORD, 4),
+      active,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   return { id: u.id, email };
@@ -156,6 +163,7 @@ async function invitation(email: string): Promise<string> {
   await t.deps.db
     .insertInto('invitations')
     .values({
+      organisation_id: await demoOrganisationId(t.deps),
       email,
       name: 'Sam Second',
       site_id: siteId,
@@ -557,7 +565,7 @@ describe('odd input: text, multipart, files left behind, what a refusal names', 
     // A coordinator of a second site, and the world's trench on the demo site named on a permit.
     const other = await t.deps.db
       .insertInto('sites')
-      .values({ name: `Second site ${unique('s')}`, latitude: 51.2, longitude: 0.1 })
+      .values({ organisation_id: await demoOrganisationId(t.deps), name: `Second site ${unique('s')}`, latitude: 51.2, longitude: 0.1 })
       .returning('id')
       .executeTakeFirstOrThrow();
     const p = await person();

@@ -4,7 +4,7 @@
  */
 import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, type TestApp } from './helpers';
+import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
 
 let t: TestApp;
 beforeAll(async () => {
@@ -17,7 +17,12 @@ describe('units', () => {
     const email = unique('feet');
     await t.deps.db
       .insertInto('users')
-      .values({ email, name: 'Fern Feet', password_hash: await bcrypt.hash(DEMO_PASSWORD, 10) })
+      .values({
+        organisation_id: await demoOrganisationId(t.deps),
+        email,
+        name: 'Fern Feet',
+        password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+      })
       .execute();
     const agent = await signedIn(t.app, email);
     expect((await agent.get('/api/auth/me').expect(200)).body.user.units).toBeNull();

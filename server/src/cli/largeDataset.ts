@@ -268,15 +268,28 @@ export async function seedLarge(db: Db, size: LargeSeedSize, now: Date, log: (li
   const t0 = Date.now();
   const step = (what: string) => log(`${what} (${((Date.now() - t0) / 1000).toFixed(1)} s)`);
   const hash = await bcrypt.hash(DEMO_PASSWORD, 10);
-  await seedPlant(db, { siteId: 0, people: { admin: 0, coordinator: 0, supervisor: 0, operator: 0 } });
-  const plant = Object.fromEntries((await db.selectFrom('plant_items').select(['id', 'name']).execute()).map((p) => [p.name, p.id]));
+  // One invented organisation owns the whole data set, with the demo machines as its library.
+  const org = await db
+    .insertInto('organisations')
+    .values({ name: 'Kestle Groundworks (large data set)' })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  const organisation_id = org.id;
+  await seedPlant(db, { organisationId: organisation_id });
+  const plant = Object.fromEntries(
+    (await db.selectFrom('plant_items').select(['id', 'name']).where('organisation_id', '=', organisation_id).execute()).map((p) => [
+      p.name,
+      p.id,
+    ]),
+  );
   await db
     .insertInto('users')
-    .values({ email: largeAdminEmail, name: 'Rhea Kestle (administrator)', password_hash: hash, is_admin: true })
+    .values({ organisation_id, email: largeAdminEmail, name: 'Rhea Kestle (administrator)', password_hash: hash, is_admin: true })
     .execute();
 
   // Sites and their people: one coordinator, two supervisors, two operators each.
   const siteRows = Array.from({ length: size.sites }, (_, i) => ({
+    organisation_id,
     name: `${placeWords[i % 10]} ${workWords[Math.floor(i / 10) % 10]}${i >= 100 ? ` ${Math.floor(i / 100) + 1}` : ''}`,
     latitude: Number((51.2 + (i % 10) * 0.15).toFixed(5)),
     longitude: Number((-2.8 + (Math.floor(i / 10) % 10) * 0.2).toFixed(5)),
@@ -295,6 +308,7 @@ export async function seedLarge(db: Db, size: LargeSeedSize, now: Date, log: (li
     .values(
       sites.flatMap((_, s) =>
         roles.map(([role, n], k) => ({
+          organisation_id,
           email: largeEmail(role, s + 1, n),
           name: personName(s * roles.length + k),
           password_hash: hash,

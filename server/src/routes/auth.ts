@@ -297,7 +297,19 @@ export function registerAuthRoutes(api: Api): void {
             'This invitation has expired or was already used. Ask an administrator for a new one.',
             { token: 'has expired or was already used' },
           );
-        const existing = await trx.selectFrom('users').select(['id', 'active']).where('email', '=', inv.email).executeTakeFirst();
+        const existing = await trx
+          .selectFrom('users')
+          .select(['id', 'active', 'organisation_id'])
+          .where('email', '=', inv.email)
+          .executeTakeFirst();
+        // A person belongs to one organisation; an invitation from another cannot move them.
+        if (existing && existing.organisation_id !== inv.organisation_id) {
+          throw new HttpError(
+            409,
+            'conflict',
+            'This address already has an account with another organisation on this Brink; an invitation cannot move it. Ask the administrator who invited you.',
+          );
+        }
         if (existing && !existing.active) {
           throw new HttpError(
             403,
@@ -317,7 +329,13 @@ export function registerAuthRoutes(api: Api): void {
           id = (
             await trx
               .insertInto('users')
-              .values({ email: inv.email, name: body.name, password_hash: hash, is_admin: inv.is_admin })
+              .values({
+                organisation_id: inv.organisation_id,
+                email: inv.email,
+                name: body.name,
+                password_hash: hash,
+                is_admin: inv.is_admin,
+              })
               .returning('id')
               .executeTakeFirstOrThrow()
           ).id;

@@ -5,6 +5,7 @@ import { createdAnswer, membershipSchema, onePersonAnswer, peopleAnswer, userUpd
 import { Api, HttpError, notFound } from '../http';
 import { audit } from '../services/audit';
 import { loadPeople, revokeAccess } from '../services/people';
+import { ownedPath } from '../services/organisation';
 import { INVITATION_HOURS, newToken } from '../services/tokens';
 import { notice } from '../mail/mailer';
 
@@ -28,7 +29,12 @@ export function registerPeopleRoutes(api: Api): void {
     async ({ body, user, res, deps }) => {
       let siteName: string | null = null;
       if (body.siteId) {
-        const site = await db.selectFrom('sites').select('name').where('id', '=', body.siteId).executeTakeFirst();
+        const site = await db
+          .selectFrom('sites')
+          .select('name')
+          .where('id', '=', body.siteId)
+          .where('organisation_id', '=', user.organisationId)
+          .executeTakeFirst();
         if (!site) throw new HttpError(400, 'invalid', 'That site does not exist.', { siteId: 'is not a site' });
         siteName = site.name;
       }
@@ -37,6 +43,7 @@ export function registerPeopleRoutes(api: Api): void {
         const inv = await trx
           .insertInto('invitations')
           .values({
+            organisation_id: user.organisationId,
             email: body.email,
             name: body.name,
             is_admin: body.isAdmin,
@@ -86,7 +93,7 @@ export function registerPeopleRoutes(api: Api): void {
       tag: 'People',
       access: { kind: 'admin' },
     },
-    async () => ({ users: await loadPeople(db) }),
+    async ({ user }) => ({ users: await loadPeople(db, { organisationId: user.organisationId }) }),
   );
 
   api.route(
@@ -98,6 +105,7 @@ export function registerPeopleRoutes(api: Api): void {
       tag: 'People',
       access: { kind: 'admin' },
       params: userParams,
+      beforeBody: ownedPath(['id', 'users', 'That person']),
       body: userUpdateSchema,
     },
     async ({ params, body, user }) => {
@@ -136,13 +144,12 @@ export function registerPeopleRoutes(api: Api): void {
       tag: 'People',
       access: { kind: 'admin' },
       params: memberParams,
+      // A site member is a person of the site's organisation: both must be the administrator's.
+      beforeBody: ownedPath(['siteId', 'sites', 'That site'], ['id', 'users', 'That person']),
       body: membershipSchema,
     },
     async ({ params, body, user }) => {
       await db.transaction().execute(async (trx) => {
-        const site = await trx.selectFrom('sites').select('id').where('id', '=', params.siteId).executeTakeFirst();
-        const person = await trx.selectFrom('users').select('id').where('id', '=', params.id).executeTakeFirst();
-        if (!site || !person) throw notFound(site ? 'That person' : 'That site');
         await trx
           .insertInto('site_members')
           .values({ site_id: params.siteId, user_id: params.id, role: body.role, can_inspect: body.canInspect })
@@ -171,6 +178,7 @@ export function registerPeopleRoutes(api: Api): void {
       tag: 'People',
       access: { kind: 'admin' },
       params: memberParams,
+      beforeBody: ownedPath(['siteId', 'sites', 'That role']),
     },
     async ({ params, user }) => {
       await db.transaction().execute(async (trx) => {

@@ -20,6 +20,7 @@ import {
   siteOperatorsAnswer,
 } from '@shared/schemas/permits';
 import { Api, badRequest, forbidden, HttpError, notFound, siteFromParam, siteOfRow } from '../http';
+import { ownOnly } from '../services/organisation';
 import { filesOf, limits, receiveFiles, sendUpload } from '../services/uploads';
 import { userActor } from '../services/permits/actors';
 import { addAttachment, attachmentUploadId, removeAttachment } from '../services/permits/attachments';
@@ -188,6 +189,7 @@ export function registerPermitRoutes(api: Api): void {
       response: permitsAnswer,
     },
     async ({ query, user }) => {
+      if (query.siteId) await ownOnly(db, user, 'sites', query.siteId, 'That site');
       if (query.siteId && !user.isAdmin) {
         const m = await db
           .selectFrom('site_members')

@@ -13,6 +13,7 @@ import type { Db, PlantItemsTable } from '@db/database';
 import type { Selectable } from 'kysely';
 import { Api, conflict, forbidden, HttpError, notFound, type SessionUser } from '../http';
 import { audit } from '../services/audit';
+import { ownedPath, type Scope } from '../services/organisation';
 import { listNumbers, permitsReferring } from '../services/permit-references';
 import { isUniqueViolation, isForeignKeyViolation } from '../services/pg-errors';
 
@@ -32,9 +33,15 @@ function plantOut(r: PlantRow): PlantItem {
   };
 }
 
-/** The plant library, lightest first within each category. */
-async function loadPlant(db: Db, ids?: number[]): Promise<PlantItem[]> {
-  let q = db.selectFrom('plant_items').selectAll().orderBy('category').orderBy('operating_mass').orderBy('name');
+/** An organisation's plant library (or the machines `ids` names of it), lightest first within each category. */
+async function loadPlant(db: Db, scope: Scope, ids?: number[]): Promise<PlantItem[]> {
+  let q = db
+    .selectFrom('plant_items')
+    .selectAll()
+    .where('organisation_id', '=', scope.organisationId)
+    .orderBy('category')
+    .orderBy('operating_mass')
+    .orderBy('name');
   if (ids) {
     if (ids.length === 0) return [];
     q = q.where('id', 'in', ids);
@@ -43,7 +50,8 @@ async function loadPlant(db: Db, ids?: number[]): Promise<PlantItem[]> {
 }
 
 /**
- * The plant library is kept by administrators and temporary works coordinators (of any site).
+ * An organisation's plant library is kept by its administrators and temporary works coordinators
+ * (of any of its sites: a member is always of the site's organisation).
  * Runs before the body is read, so a refused call answers 403 whatever it carries.
  */
 function plantEditorsOnly(db: Db) {
@@ -78,17 +86,23 @@ const params = z.object({ id: idSchema });
 export function registerPlantRoutes(api: Api): void {
   const { db } = api.deps;
   const editors = plantEditorsOnly(db);
+  const ownMachine = ownedPath(['id', 'plant_items', 'That machine']);
+  /** An editor, then a machine of their organisation's library (404 otherwise), before the body is read. */
+  const editorOfOwn = async (ctx: Parameters<typeof ownMachine>[0] & { user: SessionUser }) => {
+    await editors(ctx);
+    await ownMachine(ctx);
+  };
 
   api.route(
     {
       method: 'get',
       path: '/api/plant',
       response: plantLibraryAnswer,
-      summary: 'The plant library (every signed-in person reads it)',
+      summary: "My organisation's plant library (every signed-in person reads it)",
       tag: 'Plant',
       access: { kind: 'signedIn' },
     },
-    async () => ({ plant: await loadPlant(db) }),
+    async ({ user }) => ({ plant: await loadPlant(db, user) }),
   );
 
   api.route(
@@ -107,7 +121,11 @@ export function registerPlantRoutes(api: Api): void {
       const row = await db
         .transaction()
         .execute(async (trx) => {
-          const r = await trx.insertInto('plant_items').values(plantColumns(body)).returningAll().executeTakeFirstOrThrow();
+          const r = await trx
+            .insertInto('plant_items')
+            .values({ ...plantColumns(body), organisation_id: user.organisationId })
+            .returningAll()
+            .executeTakeFirstOrThrow();
           await audit(trx, {
             actorId: user.id,
             entity: 'plant',
@@ -132,7 +150,7 @@ export function registerPlantRoutes(api: Api): void {
       summary: 'Change a machine (the whole item with the version it was read at; 409 when stale)',
       tag: 'Plant',
       access: { kind: 'signedIn' },
-      beforeBody: editors,
+      beforeBody: editorOfOwn,
       params,
       body: plantItemUpdateSchema,
     },
@@ -140,7 +158,13 @@ export function registerPlantRoutes(api: Api): void {
       const row = await db
         .transaction()
         .execute(async (trx) => {
-          const old = await trx.selectFrom('plant_items').selectAll().where('id', '=', params.id).forUpdate().executeTakeFirst();
+          const old = await trx
+            .selectFrom('plant_items')
+            .selectAll()
+            .where('id', '=', params.id)
+            .where('organisation_id', '=', user.organisationId)
+            .forUpdate()
+            .executeTakeFirst();
           if (!old) throw notFound('That machine');
           if (old.version !== body.version)
             throw conflict(
@@ -188,7 +212,7 @@ export function registerPlantRoutes(api: Api): void {
       summary: 'Remove a machine from the plant library',
       tag: 'Plant',
       access: { kind: 'signedIn' },
-      beforeBody: editors,
+      beforeBody: editorOfOwn,
       params,
     },
     async ({ params, user }) => {

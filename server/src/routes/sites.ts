@@ -6,6 +6,7 @@ import type { UnitSystem } from '@shared/units';
 import type { Db } from '@db/database';
 import { Api, notFound, siteFromParam } from '../http';
 import { audit } from '../services/audit';
+import { ownedPath } from '../services/organisation';
 
 type SiteRow = {
   id: number;
@@ -57,12 +58,12 @@ export function registerSiteRoutes(api: Api): void {
       method: 'get',
       path: '/api/sites',
       response: sitesAnswer,
-      summary: 'The sites I am a member of (all sites for an administrator)',
+      summary: "The sites I am a member of (all my organisation's sites for an administrator)",
       tag: 'Sites',
       access: { kind: 'signedIn' },
     },
     async ({ user }) => {
-      let q = db.selectFrom('sites').selectAll('sites').orderBy('sites.name');
+      let q = db.selectFrom('sites').selectAll('sites').where('sites.organisation_id', '=', user.organisationId).orderBy('sites.name');
       if (!user.isAdmin) q = q.innerJoin('site_members', 'site_members.site_id', 'sites.id').where('site_members.user_id', '=', user.id);
       return { sites: (await q.execute()).map(siteOut) };
     },
@@ -101,6 +102,7 @@ export function registerSiteRoutes(api: Api): void {
         const r = await trx
           .insertInto('sites')
           .values({
+            organisation_id: user.organisationId,
             name: body.name,
             latitude: body.latitude,
             longitude: body.longitude,
@@ -127,6 +129,7 @@ export function registerSiteRoutes(api: Api): void {
       tag: 'Sites',
       access: { kind: 'admin' },
       params: siteParams,
+      beforeBody: ownedPath(['siteId', 'sites', 'That site']),
       body: siteUpdateSchema,
     },
     async ({ params, body, user }) => {

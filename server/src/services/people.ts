@@ -3,14 +3,15 @@ import type { Db } from '@db/database';
 import { HttpError } from '../http';
 import type { Me } from '@shared/schemas/auth';
 import type { Person } from '@shared/schemas/sites';
+import type { Scope } from './organisation';
 
-/** One person with their site roles, as the API shows them. */
-export async function loadPeople(db: Db, ids?: number[]): Promise<Person[]> {
+/** People with their site roles, as the API shows them: those `ids` names, or everyone of an organisation. */
+export async function loadPeople(db: Db, which: number[] | Scope): Promise<Person[]> {
   let q = db.selectFrom('users').select(['id', 'email', 'name', 'is_admin', 'active']).orderBy('name');
-  if (ids) {
-    if (ids.length === 0) return [];
-    q = q.where('id', 'in', ids);
-  }
+  if (Array.isArray(which)) {
+    if (which.length === 0) return [];
+    q = q.where('id', 'in', which);
+  } else q = q.where('organisation_id', '=', which.organisationId);
   const users = await q.execute();
   if (users.length === 0) return [];
   const members = await db

@@ -302,11 +302,13 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
     .selectNoFrom(() => [
       jsonArrayFrom(checkExcavationQuery(db, s.siteId, s.excavationIds)).as('excavations'),
       jsonArrayFrom(othersQuery).as('others'),
-      // The library's machines that this permit's loads and the other permits' loads name.
+      // The library's machines that this permit's loads and the other permits' loads name, of the
+      // site's organisation only (a machine of another organisation is as if absent).
       jsonArrayFrom(
         db
           .selectFrom('plant_items')
           .select(['id', 'name', 'operating_mass', 'design_factor', 'elements'])
+          .where('organisation_id', '=', (eb) => eb.selectFrom('sites').select('organisation_id').where('id', '=', s.siteId))
           .where((eb) =>
             eb.or([
               eb('id', 'in', ownIds.length ? ownIds : [0]),

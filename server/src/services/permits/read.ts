@@ -87,12 +87,16 @@ function summaryOut(r: SummaryRow): PermitSummary {
   };
 }
 
-/** The sites where a person is a member (all sites for an administrator). */
-async function visibleSites(db: Db, user: { id: number; isAdmin: boolean }): Promise<number[] | 'all'> {
-  if (user.isAdmin) return 'all';
-  const rows = await db.selectFrom('site_members').select('site_id').where('user_id', '=', user.id).execute();
+/** The sites where a person is a member (all their organisation's sites for an administrator). */
+async function visibleSites(db: Db, user: PermitReader): Promise<number[]> {
+  const rows = user.isAdmin
+    ? await db.selectFrom('sites').select('id as site_id').where('organisation_id', '=', user.organisationId).execute()
+    : await db.selectFrom('site_members').select('site_id').where('user_id', '=', user.id).execute();
   return rows.map((r) => r.site_id);
 }
+
+/** Who reads the permit lists. */
+type PermitReader = { id: number; isAdmin: boolean; organisationId: number };
 
 /** Each sort's column and its SQL type (a cursor carries the column's value as text, cast back exactly). */
 const sortColumns = {
@@ -110,13 +114,12 @@ const sortColumns = {
  */
 export async function listPermits(
   db: Db,
-  user: { id: number; isAdmin: boolean },
+  user: PermitReader,
   q: PermitListQuery,
 ): Promise<{ permits: PermitSummary[]; next: string | null }> {
   const sites = await visibleSites(db, user);
-  if (sites !== 'all' && sites.length === 0) return { permits: [], next: null };
-  let query = summaryQuery(db);
-  if (sites !== 'all') query = query.where('p.site_id', 'in', sites);
+  if (sites.length === 0) return { permits: [], next: null };
+  let query = summaryQuery(db).where('p.site_id', 'in', sites);
   if (q.siteId) query = query.where('p.site_id', '=', q.siteId);
   if (q.view === 'review') {
     query = query

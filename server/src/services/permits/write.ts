@@ -1,3 +1,4 @@
+import { organisationOfSite, ownIds } from '../organisation';
 import { sql } from 'kysely';
 import type { Db } from '@db/database';
 import {
@@ -56,10 +57,11 @@ async function assertReferences(
   }
   const plantIds = (c.loads ?? []).flatMap((l) => (l.kind === 'plant' ? [l.plantItemId] : []));
   if (plantIds.length) {
-    const rows = await db.selectFrom('plant_items').select('id').where('id', 'in', plantIds).execute();
+    // Only the site's organisation's library: a machine of another organisation is as if absent.
+    const scope = await organisationOfSite(db, siteId);
+    const own = scope ? await ownIds(db, scope, 'plant_items', plantIds) : new Set<number>();
     (c.loads ?? []).forEach((l, i) => {
-      if (l.kind === 'plant' && !rows.some((r) => r.id === l.plantItemId))
-        fields[`loads[${i}].plantItemId`] = 'is not in the plant library';
+      if (l.kind === 'plant' && !own.has(l.plantItemId)) fields[`loads[${i}].plantItemId`] = 'is not in the plant library';
     });
   }
   refuseFields(fields);
