@@ -1,0 +1,129 @@
+import bcrypt from 'bcryptjs';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DEMO_PASSWORD, makeOrganisation, signedIn, startTestApp, unique, type OtherOrganisation, type TestApp } from './helpers';
+import { addTrench, createPermit, makeWorld, permitBody, submitAndApprove, type PermitWorld } from './permits-fixtures';
+
+/**
+ * Organisations (issue 16 §1): nothing of one organisation is visible to another. The demo
+ * organisation ("A") and a second, invented one ("B", made here): every list shows each its own;
+ * an id of the other answers as one that does not exist; a machine of A's library can be neither
+ * changed by B nor placed on B's permits, and A's approved permit keeps its check.
+ * (server/test/roles.test.ts calls every route as B's administrator and coordinator.)
+ */
+let t: TestApp;
+let w: PermitWorld;
+let b: OtherOrganisation;
+let bAdmin: Awaited<ReturnType<typeof signedIn>>;
+let bCoordinator: Awaited<ReturnType<typeof signedIn>>;
+
+beforeAll(async () => {
+  t = await startTestApp({ SIGNIN_LIMIT_PER_IP: '1000' });
+  w = await makeWorld(t);
+  b = await makeOrganisation(t.deps, 'Orgtest');
+  bAdmin = await signedIn(t.app, b.adminEmail);
+  bCoordinator = await signedIn(t.app, b.coordinatorEmail);
+});
+afterAll(async () => t.stop());
+
+const ids = (list: { id: number }[]) => list.map((x) => x.id);
+
+describe('organisations', () => {
+  it("shows each administrator only their own organisation's people, sites, machines and permits", async () => {
+    const [people, sites, plant, permits] = await Promise.all(
+      ['/api/users', '/api/sites', '/api/plant', '/api/permits'].map((p) => bAdmin.get(p).expect(200)),
+    );
+    expect(people.body.users.map((u: { email: string }) => u.email).sort()).toEqual([b.adminEmail, b.coordinatorEmail].sort());
+    expect(ids(sites.body.sites)).toEqual([b.siteId]);
+    expect(ids(plant.body.plant)).toEqual([b.plantItemId]);
+    expect(permits.body.permits).toEqual([]);
+
+    const [aPeople, aSites, aPlant] = await Promise.all(
+      ['/api/users', '/api/sites', '/api/plant'].map((p) => w.agents.admin.get(p).expect(200)),
+    );
+    expect(ids(aPeople.body.users)).not.toContain(b.coordinatorId);
+    expect(ids(aPeople.body.users)).toContain(w.coordinatorId);
+    expect(ids(aSites.body.sites)).not.toContain(b.siteId);
+    expect(ids(aSites.body.sites)).toContain(w.siteId);
+    expect(ids(aPlant.body.plant)).not.toContain(b.plantItemId);
+    expect(ids(aPlant.body.plant)).toContain(w.excavatorId);
+    // A filter naming the other organisation's site is not found, as one that does not exist.
+    expect((await bAdmin.get('/api/permits').query({ siteId: String(w.siteId) })).status).toBe(404);
+    expect((await w.agents.admin.get('/api/permits').query({ siteId: String(b.siteId) })).status).toBe(404);
+  });
+
+  it("refuses an invitation to the other organisation's site exactly as one to a site that does not exist", async () => {
+    const send = (siteId: number) =>
+      bAdmin.post('/api/invitations').send({ email: unique('orgtest-invitee'), name: 'Ivo Invitee', siteId, role: 'operator' });
+    const theirs = await send(w.siteId);
+    const none = await send(2_000_000_000);
+    expect(theirs.status).toBe(400);
+    expect(theirs.body).toEqual(none.body);
+    expect(theirs.body.error.fields).toEqual({ siteId: 'is not a site' });
+  });
+
+  it("makes a site member only of a person of the site's organisation", async () => {
+    const put = (agent: typeof bAdmin, userId: number, siteId: number) =>
+      agent.put(`/api/users/${userId}/memberships/${siteId}`).send({ role: 'supervisor', canInspect: false });
+    expect((await put(w.agents.admin, b.coordinatorId, w.siteId)).status).toBe(404);
+    expect((await put(bAdmin, w.coordinatorId, b.siteId)).status).toBe(404);
+    expect((await put(bAdmin, b.coordinatorId, w.siteId)).status).toBe(404);
+    const memberships = await t.deps.db.selectFrom('site_members').select('site_id').where('user_id', '=', b.coordinatorId).execute();
+    expect(memberships).toEqual([{ site_id: b.siteId }]);
+  });
+
+  it("keeps the other organisation's machine out of reach, and A's approved permit keeps its check", async () => {
+    const permit = await createPermit(w);
+    const approved = await submitAndApprove(w, permit.id);
+    expect(approved.status).toBe('approved');
+    const before = (await w.agents.coordinator.get(`/api/permits/${permit.id}`).expect(200)).body;
+    const machine = await t.deps.db.selectFrom('plant_items').selectAll().where('id', '=', w.excavatorId).executeTakeFirstOrThrow();
+
+    // B's coordinator can neither change nor remove A's excavator: it is not found.
+    const edit = await bCoordinator.patch(`/api/plant/${w.excavatorId}`).send({
+      name: machine.name,
+      category: machine.category,
+      operatingMass: machine.operating_mass * 3,
+      elements: machine.elements,
+      designFactor: 1,
+      notes: '',
+      version: machine.version,
+    });
+    expect(edit.status).toBe(404);
+    expect((await bCoordinator.delete(`/api/plant/${w.excavatorId}`)).status).toBe(404);
+    const after = await t.deps.db.selectFrom('plant_items').selectAll().where('id', '=', w.excavatorId).executeTakeFirstOrThrow();
+    expect(after).toEqual(machine);
+    const now = (await w.agents.coordinator.get(`/api/permits/${permit.id}`).expect(200)).body;
+    expect(now.permit.status).toBe('approved');
+    expect(now.permit.check).toEqual(before.permit.check);
+
+    // The same name may stand in both libraries: each organisation keeps its own.
+    const same = await bCoordinator.post('/api/plant').send({
+      name: machine.name,
+      category: machine.category,
+      operatingMass: machine.operating_mass,
+      elements: machine.elements,
+    });
+    expect(same.status).toBe(201);
+  });
+
+  it("refuses a permit on B's site that places A's machine, naming the load", async () => {
+    const email = unique('orgtest-supervisor');
+    const s = await t.deps.db
+      .insertInto('users')
+      .values({ organisation_id: b.id, email, name: 'Suki Second (test)', password_hash: await bcrypt.hash(DEMO_PASSWORD, 4) })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await t.deps.db.insertInto('site_members').values({ site_id: b.siteId, user_id: s.id, role: 'supervisor' }).execute();
+    const supervisor = await signedIn(t.app, email);
+    const site = await t.deps.db.selectFrom('sites').select(['latitude', 'longitude']).where('id', '=', b.siteId).executeTakeFirstOrThrow();
+    const origin: [number, number] = [site.longitude, site.latitude];
+    const trench = await addTrench(t, b.siteId, origin, [0, 0]);
+    const world = { ...w, siteId: b.siteId, origin, trenchId: trench.id, trenchCentre: trench.centre };
+    const body = (plantItemId: number) => permitBody({ ...world, excavatorId: plantItemId }, { operatorIds: [] });
+    const theirs = await supervisor.post('/api/permits').send(body(w.excavatorId));
+    expect(theirs.status).toBe(400);
+    expect(theirs.body.error.fields).toEqual({ 'loads[0].plantItemId': 'is not in the plant library' });
+    const own = await supervisor.post('/api/permits').send(body(b.plantItemId));
+    expect(own.status).toBe(201);
+  });
+});
