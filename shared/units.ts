@@ -146,9 +146,15 @@ export function formatQuantity(quantity: Quantity, si: number, system: UnitSyste
     return inch === 0 ? `${sign}${ft} ft` : `${sign}${ft} ft ${inch} in`;
   }
   const { unit, step } = DISPLAY[system][quantity];
-  const value = roundTo(fromSI(quantity, si, unit as never), step, rounding);
+  const value = displayValue(quantity, si, system, rounding);
   const text = grouped(value === 0 ? 0 : value, decimals(step));
   return bare ? text : `${text} ${unit}`;
+}
+
+/** The figure `formatQuantity` shows, as a number (a CSV cell, whose column head names the unit): 2.5 m → 8.2 in US units. */
+export function displayValue(quantity: Quantity, si: number, system: UnitSystem, rounding: Rounding = 'nearest'): number {
+  const { unit, step } = DISPLAY[system][quantity];
+  return roundTo(fromSI(quantity, si, unit as never), step, rounding);
 }
 
 /** Lengths, the commonest case: `formatLength(2.5, 'us', { rounding: 'up' })` → `8.3 ft`. */
@@ -169,6 +175,8 @@ export interface Figures {
   moment: (kNmm: number, options?: FormatOptions) => string;
   /** The unit shown for a quantity (`ft`, `psf`), for labels and table heads. */
   unit: (q: Quantity) => string;
+  /** The figure shown, as a number in that unit (a CSV cell). */
+  value: (q: Quantity, si: number, rounding?: Rounding) => number;
   /** A sentence written in SI (a warning, a refusal) restated in the person's units. */
   words: (text: string) => string;
   /** The caution in the person's units (US: names OSHA 29 CFR 1926 Subpart P). */
@@ -187,6 +195,7 @@ export function figuresIn(system: UnitSystem): Figures {
     unitWeight: f('unitWeight'),
     moment: f('moment'),
     unit: (q) => unitLabel(q, system),
+    value: (q, si, rounding) => displayValue(q, si, system, rounding),
     words: (text) => localizeWords(text, system),
     caution: cautionFor(system),
   };

@@ -165,7 +165,14 @@ export function RegisterPage() {
           <Button
             variant="secondary"
             onClick={() =>
-              download(`${slug(site.name)}-excavation-register.csv`, registerCsv(rows.map((r) => r.original)), 'text/csv;charset=utf-8')
+              download(
+                `${slug(site.name)}-excavation-register.csv`,
+                registerCsv(
+                  rows.map((r) => r.original),
+                  figures,
+                ),
+                'text/csv;charset=utf-8',
+              )
             }
           >
             Download CSV ({rows.length})
