@@ -11,7 +11,7 @@ import { localProjection } from '@shared/geometry';
 import { exclusionReason } from '@shared/permits/exclusion';
 import type { ExclusionBasis } from '@shared/schemas/field';
 import type { PlacedLoad } from '@shared/schemas/permits';
-import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
+import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp, demoOrganisationId } from './helpers';
 import {
   act,
   createPermit,
@@ -403,7 +403,13 @@ async function usMember(role: 'operator' | 'coordinator', name: string): Promise
   const email = unique(`us-${role}`);
   const u = await t.deps.db
     .insertInto('users')
-    .values({ email, name, password_hash: await bcrypt.hash(DEMO_PASSWORD, 10), units: 'us' })
+    .values({
+      organisation_id: await demoOrganisationId(t.deps),
+      email,
+      name,
+      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
+      units: 'us',
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
   await t.deps.db.insertInto('site_members').values({ site_id: w.siteId, user_id: u.id, role }).execute();
@@ -483,12 +489,18 @@ describe('figures the server writes, in the reader’s units', () => {
   it('a person who chose nothing reads in the site’s units', async () => {
     const site = await t.deps.db
       .insertInto('sites')
-      .values({ name: `Ohio test yard ${Date.now()}`, latitude: 40, longitude: -83, units: 'us' })
+      .values({
+        organisation_id: await demoOrganisationId(t.deps),
+        name: `Ohio test yard ${Date.now()}`,
+        latitude: 40,
+        longitude: -83,
+        units: 'us',
+      })
       .returning('id')
       .executeTakeFirstOrThrow();
     const person = await t.deps.db
       .insertInto('users')
-      .values({ email: unique('follows-site'), name: 'Sid Site', password_hash: 'x' })
+      .values({ organisation_id: await demoOrganisationId(t.deps), email: unique('follows-site'), name: 'Sid Site', password_hash: 'x' })
       .returning('id')
       .executeTakeFirstOrThrow();
     expect(await unitsOf(t.deps.db, person.id, site.id)).toBe('us');
