@@ -10,7 +10,8 @@
  */
 import { buildSoilModel, layerIndexAt, soilPressure, waterPressure, type SoilModel } from './soil';
 import type { SurchargeEffect } from './surcharge';
-import type { CheckRequest } from './types';
+import type { CheckRequest, Excavation, SoilLayer } from './types';
+import { contentKey, frozen, Kept } from '../kept';
 
 /** Relative round-off allowed on U ≤ 1: a utilisation of exactly 1 passes despite floating-point noise. */
 export const PASS_TOLERANCE = 1e-9;
@@ -47,14 +48,24 @@ function bothSides(model: SoilModel, z: number, into: { z: number; layer: number
   for (const layer of sidesOf(model, z)) into.push({ z, layer });
 }
 
+/**
+ * The check's context. What comes from the excavation, its soil and the step alone (the soil model,
+ * the profile grid, the allowance) is kept by their content (frozen, 200 at most), so checking the
+ * same excavation again with loads elsewhere (each frame of a drag on the placing map) builds none of it again.
+ */
 export function prepareCheck(request: CheckRequest): CheckContext {
-  const model = buildSoilModel(request.excavation, request.soil);
-  const grid = profileDepths(model.H, request.step);
+  const { excavation, soil, step } = request;
+  return { request, ...keptSoil.keep(contentKey([excavation, soil, step]), () => frozen(soilContext(excavation, soil, step))) };
+}
+const keptSoil = new Kept<Omit<CheckContext, 'request'>>(200);
+
+function soilContext(excavation: Excavation, soil: readonly SoilLayer[], step: number): Omit<CheckContext, 'request'> {
+  const model = buildSoilModel(excavation, soil);
+  const grid = profileDepths(model.H, step);
   const extraSamples: { z: number; layer: number }[] = [];
   for (const z of model.breakpoints) bothSides(model, z, extraSamples);
-  const qd = request.excavation.designSurcharge;
+  const qd = excavation.designSurcharge;
   return {
-    request,
     model,
     grid,
     gridLayers: grid.map((z) => layerIndexAt(model, z)),

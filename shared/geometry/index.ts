@@ -7,6 +7,7 @@ import { excavationOutline, GeometryError, prepareRing, type ExcavationShape, ty
 import { openRing, signedDistanceToZone } from './planar';
 import { placeFootprint, placePad, type Placement } from './placement';
 import type { LocalProjection, LonLat } from './projection';
+import { contentKey, Kept } from '../kept';
 
 export { localProjection, type LocalProjection, type LonLat, type XY } from './projection';
 export {
@@ -45,23 +46,13 @@ export function measureLoad(excavation: PreparedOutline, footprint: FootprintSha
  * between calls by the shape's content and the projection's origin (the same excavation is measured
  * for every load, every frame of a drag on the placing map and every check request), so a shape is
  * prepared once while it stays the same; keyed by content, never by object, so a shape changed in
- * place is prepared again. A kept outline is frozen; at most KEPT_OUTLINES are kept (least recently
- * used goes first). A shape that cannot be prepared throws GeometryError each time.
+ * place is prepared again. A kept outline is frozen; at most 500 are kept (least recently used goes
+ * first). A shape that cannot be prepared throws GeometryError each time.
  */
 export function prepareExcavation(shape: ExcavationShape, proj: LocalProjection): PreparedOutline {
-  const key = `${proj.origin[0]},${proj.origin[1]}|${JSON.stringify(shape)}`;
-  let outline = keptOutlines.get(key);
-  if (outline) {
-    keptOutlines.delete(key);
-  } else {
-    outline = Object.freeze(excavationOutline(shape, proj));
-    if (keptOutlines.size >= KEPT_OUTLINES) keptOutlines.delete(keptOutlines.keys().next().value!);
-  }
-  keptOutlines.set(key, outline);
-  return outline;
+  return keptOutlines.keep(contentKey([proj.origin, shape]), () => Object.freeze(excavationOutline(shape, proj)));
 }
-const KEPT_OUTLINES = 500;
-const keptOutlines = new Map<string, PreparedOutline>();
+const keptOutlines = new Kept<PreparedOutline>(500);
 
 /** Signed distance (m) from a WGS84 position to the zone within `distance` of the outline: + outside, − inside. */
 export function signedDistanceToZoneAt(excavation: PreparedOutline, position: LonLat, distance: number, proj: LocalProjection): number {

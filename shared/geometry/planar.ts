@@ -26,16 +26,27 @@ export function anticlockwise(ring: Ring): Ring {
   return signedArea(ring) < 0 ? [...ring].reverse() : ring;
 }
 
-/** Closest point of segment ab to p: [distance, x, y]. */
-export function pointSegment(p: XY, a: XY, b: XY): [number, number, number] {
+/** Where along segment ab (0 at a, 1 at b) its point closest to p is. */
+function closestAlong(p: XY, a: XY, b: XY): number {
   const dx = b[0] - a[0];
   const dy = b[1] - a[1];
   const len2 = dx * dx + dy * dy;
-  let t = len2 === 0 ? 0 : ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / len2;
-  t = t < 0 ? 0 : t > 1 ? 1 : t;
-  const x = a[0] + t * dx;
-  const y = a[1] + t * dy;
+  const t = len2 === 0 ? 0 : ((p[0] - a[0]) * dx + (p[1] - a[1]) * dy) / len2;
+  return t < 0 ? 0 : t > 1 ? 1 : t;
+}
+
+/** Closest point of segment ab to p: [distance, x, y]. */
+export function pointSegment(p: XY, a: XY, b: XY): [number, number, number] {
+  const t = closestAlong(p, a, b);
+  const x = a[0] + t * (b[0] - a[0]);
+  const y = a[1] + t * (b[1] - a[1]);
   return [Math.hypot(p[0] - x, p[1] - y), x, y];
+}
+
+/** pointSegment(p, a, b)[0] === 0, without building its answer (a hypotenuse is 0 exactly when both sides are). */
+function onSegment(p: XY, a: XY, b: XY): boolean {
+  const t = closestAlong(p, a, b);
+  return p[0] - (a[0] + t * (b[0] - a[0])) === 0 && p[1] - (a[1] + t * (b[1] - a[1])) === 0;
 }
 
 function orient(a: XY, b: XY, c: XY): number {
@@ -49,9 +60,7 @@ export function segmentsMeet(a: XY, b: XY, c: XY, d: XY): boolean {
   const o3 = orient(c, d, a);
   const o4 = orient(c, d, b);
   if (((o1 > 0 && o2 < 0) || (o1 < 0 && o2 > 0)) && ((o3 > 0 && o4 < 0) || (o3 < 0 && o4 > 0))) return true;
-  return (
-    pointSegment(c, a, b)[0] === 0 || pointSegment(d, a, b)[0] === 0 || pointSegment(a, c, d)[0] === 0 || pointSegment(b, c, d)[0] === 0
-  );
+  return onSegment(c, a, b) || onSegment(d, a, b) || onSegment(a, c, d) || onSegment(b, c, d);
 }
 
 /** Even-odd point in ring (points on the boundary may go either way; callers test distance first). */

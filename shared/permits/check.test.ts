@@ -1,4 +1,4 @@
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import { runCheck, type CheckRequest } from '../engineering';
 import { localProjection } from '../geometry';
 import { sixExcavation } from '../engineering/test-fixtures';
@@ -174,6 +174,138 @@ describe('an open excavation the permit does not name', () => {
     const check = cumulativeCheck(input(12));
     expect(check.excavations.map((e) => e.reference)).toEqual(['PIT-A']);
     expect(check.warnings.some((w) => w.includes('not named'))).toBe(false);
+  });
+});
+
+describe('a machine dragged on the placing map (a check each frame)', () => {
+  // A 20 t excavator on two tracks walked towards a 3 m pit, frame by frame, with another permit's
+  // stockpile counted beside the same pit and a second pit 20 m east, in site-local metres (the
+  // geometry is plane geometry, the figures the engine's; common practice, no published source).
+  const origin: [number, number] = [-1.04833, 52.37124];
+  const proj = localProjection(origin);
+  const square = (x0: number, y0: number, w: number) => ({
+    type: 'Polygon' as const,
+    coordinates: [
+      [
+        [x0, y0],
+        [x0 + w, y0],
+        [x0 + w, y0 + w],
+        [x0, y0 + w],
+        [x0, y0],
+      ].map((p) => proj.toWgs84(p as [number, number]) as [number, number]),
+    ],
+  });
+  const pit = (id: number, reference: string, x0: number) => ({
+    id,
+    reference,
+    name: reference,
+    shape: { kind: 'pit' as const, outline: square(x0, 0, 5) },
+    excavation: base.excavation,
+    soil: base.soil,
+  });
+  const excavator = {
+    id: 7,
+    name: 'Excavator 20 t',
+    operatingMass: 20,
+    designFactor: 1.2,
+    elements: [
+      { name: 'Left track', kind: 'track' as const, x: 0, y: 1.1, length: 3.6, width: 0.6, share: 0.5 },
+      { name: 'Right track', kind: 'track' as const, x: 0, y: -1.1, length: 3.6, width: 0.6, share: 0.5 },
+    ],
+  };
+  const heap = { id: 'heap', kind: 'stockpile' as const, label: 'Spoil', outline: square(-4, 1, 2), unitWeight: 18, height: 1.5 };
+  const other = {
+    id: 2,
+    number: 'P-0002',
+    status: 'live' as const,
+    windowStart: '2030-01-01T06:00:00Z',
+    windowEnd: '2030-01-01T18:00:00Z',
+    excavationIds: [1],
+    loads: [heap],
+  };
+  /** The machine with its centre at (x, 2.5), facing north; the frames walk it from beside PIT-B onto PIT-A's edge. */
+  const at = (x: number) => ({
+    origin,
+    method: 'dispersion-45' as const,
+    minimumClearance: 0.6,
+    permit: {
+      id: 1,
+      number: 'P-0001',
+      windowStart: '2030-01-01T08:00:00Z',
+      windowEnd: '2030-01-01T12:00:00Z',
+      loads: [
+        { id: 'exc', kind: 'plant' as const, label: '', plantItemId: 7, position: proj.toWgs84([x, 2.5]) as [number, number], rotation: 0 },
+        { id: 'mat', kind: 'area' as const, label: 'Mats', outline: square(9, 7, 1), pressure: 12 },
+      ],
+    },
+    excavations: [pit(1, 'PIT-A', 0)],
+    nearby: [pit(2, 'PIT-B', 20)],
+    plant: new Map([[7, excavator]]),
+    others: [other],
+    now: new Date('2030-01-01T07:00:00Z'),
+  });
+  const frames = Array.from({ length: 24 }, (_, i) => 17.5 - i * 0.6);
+  type Check = typeof cumulativeCheck;
+  /** What a check shows, less the standoffs (a frame leaves the search out), or the words of its refusal. */
+  const shown = (check: Check, input: Parameters<Check>[0]) => {
+    try {
+      const c = check(input);
+      return {
+        verdict: c.verdict,
+        utilisation: c.utilisation,
+        passes: c.passes,
+        outside: c.outsideInfluence,
+        others: c.otherPermits.map((o) => o.number),
+        excavations: c.excavations.map((e) => ({
+          reference: e.reference,
+          named: e.named,
+          request: e.request,
+          utilisation: e.result.utilisation,
+          passes: e.result.passes,
+          maxTotalPressure: e.result.maxTotalPressure,
+          profile: e.result.profile,
+          loads: e.loads.map((l) => [l.engineId, l.offset, l.force]),
+          counted: e.counted.map((o) => o.number),
+        })),
+        warnings: c.warnings.filter((w) => !/standoff|3H/i.test(w)),
+      };
+    } catch (e) {
+      return { refused: (e as Error).message };
+    }
+  };
+
+  it('shows each frame the figures of a full check of that placement worked out afresh', async () => {
+    // Each frame reuses what the frames before it worked out (outlines, the other permit's loads,
+    // the excavation's valid figures and soil model); the full check it is compared with runs in a
+    // fresh copy of the module, which has kept nothing.
+    const seen = new Set<string>();
+    for (const x of frames) {
+      const live = shown(cumulativeCheck, { ...at(x), standoffs: false });
+      vi.resetModules();
+      const fresh = await import('./check');
+      const full = shown(fresh.cumulativeCheck, at(x));
+      expect(live, `machine centred ${x} m east of the pit's west face`).toEqual(full);
+      seen.add('refused' in live ? 'refused' : live.excavations.length === 2 ? 'both pits' : String(live.verdict));
+    }
+    // The walk passes through every case: clear of both pits, within PIT-B's influence zone, on the edge of PIT-A.
+    expect([...seen].sort()).toEqual(expect.arrayContaining(['both pits', 'refused']));
+    expect(seen.size).toBeGreaterThanOrEqual(3);
+  }, 60_000);
+
+  it('refuses a figure after the same load was checked with a sound one (nothing valid is kept for it)', () => {
+    const sound = at(12);
+    expect(() => cumulativeCheck({ ...sound, standoffs: false })).not.toThrow();
+    const mats = (pressure: number) => ({
+      ...sound,
+      permit: { ...sound.permit, loads: [sound.permit.loads[0], { ...sound.permit.loads[1], pressure }] },
+    });
+    for (const pressure of [NaN, Infinity, -0, 0]) {
+      expect(() => cumulativeCheck({ ...mats(pressure), standoffs: false }), `pressure ${pressure}`).toThrow(CheckInputError);
+    }
+    const wet = { ...base.excavation, groundwaterDepth: NaN };
+    expect(() => cumulativeCheck({ ...sound, excavations: [{ ...pit(1, 'PIT-A', 0), excavation: wet }], standoffs: false })).toThrow(
+      /PIT-A excavation\.groundwaterDepth/,
+    );
   });
 });
 

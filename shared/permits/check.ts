@@ -11,7 +11,8 @@
  * Units: m, kN, kPa, kN/m; positions WGS84 [longitude, latitude]; rotations degrees clockwise from north.
  */
 import { z } from 'zod';
-import { calcRequestSchema, formatPath } from '../schemas/calc';
+import { calcRequestSchema, formatPath, requestLoadsSchema } from '../schemas/calc';
+import { contentKey, frozen, Kept } from '../kept';
 import {
   CAUTION,
   notMonotonicWarning,
@@ -178,17 +179,55 @@ export class CheckInputError extends Error {
   }
 }
 
+const placedLoadsSchema = z.array(placedLoadSchema);
+/**
+ * Loads found valid, by content: a frame of a drag moves one load, so only that one is read again.
+ * Validity alone is kept (the check reads the loads as given), and a list is valid exactly when each
+ * of its loads is.
+ */
+const validLoads = new Kept<true>(500);
+
 /** Throws CheckInputError for the first wrong field of the permit's loads (placedLoadSchema, as the API). */
 function validateLoads(loads: unknown[]): void {
-  const r = z.array(placedLoadSchema).safeParse(loads);
+  const keys = loads.map(contentKey);
+  if (keys.every((key, i) => validLoads.get(key) ?? placedLoadSchema.safeParse(loads[i]).success)) {
+    for (const key of keys) validLoads.set(key, true);
+    return;
+  }
+  const r = placedLoadsSchema.safeParse(loads);
   if (!r.success) {
     const issue = r.error.issues[0];
     throw new CheckInputError(formatPath(['loads', ...issue.path]), issue.message);
   }
 }
 
+/**
+ * The fixed part of engine requests found valid (the excavation, its soil, the method, the clearance,
+ * the step), read by calcRequestSchema with no loads and kept by content, frozen: a frame of a drag
+ * changes only the loads. calcRequestSchema's rules on that part do not read the loads, nor the loads'
+ * rules that part, so a request is valid exactly when its fixed part and its loads are.
+ */
+const validFixed = new Kept<Omit<CheckRequest, 'loads'>>(200);
+
 /** The engine request checked with the calculation's own schema (calc.ts), defaults filled in. */
 function validRequest(request: CheckRequest, reference: string): CheckRequest {
+  const { loads, ...fixed } = request;
+  const key = contentKey(fixed);
+  let valid = validFixed.get(key);
+  if (!valid) {
+    const r = calcRequestSchema.safeParse({ ...fixed, loads: [] });
+    if (r.success) {
+      const { loads: _none, ...rest } = r.data;
+      void _none;
+      valid = frozen(rest);
+      validFixed.set(key, valid);
+    }
+  }
+  if (valid) {
+    const r = requestLoadsSchema.safeParse(loads);
+    if (r.success) return { ...valid, loads: r.data };
+  }
+  // Something is wrong: the whole request read at once names its first wrong field, as `npm run calc` does.
   const r = calcRequestSchema.safeParse(request);
   if (r.success) return r.data;
   const issue = r.error.issues[0];
@@ -334,10 +373,35 @@ function maxOrNull(xs: (number | null)[]): number | null {
   return xs.length ? Math.max(...(xs as number[])) : 0;
 }
 
+/**
+ * Footprints measured against an outline, by the prepared outline (kept by prepareExcavation) and the
+ * footprint's content, frozen: a frame of a drag moves one load, so this permit's other loads and
+ * every other permit's are not measured again. A footprint that touches keeps its GeometryError.
+ */
+const measured = new WeakMap<PreparedOutline, Kept<Omit<Exclude<Load, { kind: 'blanket' }>, 'id'> | GeometryError>>();
+
+/** engineLoad, measured once while the outline and the footprint stay the same. */
+function measuredLoad(f: Footprint, outline: PreparedOutline, id: string): Exclude<Load, { kind: 'blanket' }> {
+  let kept = measured.get(outline);
+  if (!kept) measured.set(outline, (kept = new Kept(500)));
+  const m = kept.keep(contentKey([f.kind, f.local, f.intensity]), () => {
+    try {
+      const { id: _id, ...load } = engineLoad(f, outline, '');
+      void _id;
+      return frozen(load);
+    } catch (err) {
+      if (err instanceof GeometryError) return err;
+      throw err;
+    }
+  });
+  if (m instanceof GeometryError) throw m;
+  return { id, ...m } as Exclude<Load, { kind: 'blanket' }>;
+}
+
 /** Whether a footprint touches the excavation or stands closer to it than its depth. */
-function footprintReaches(f: Footprint, ex: CheckExcavation, proj: LocalProjection): boolean {
+function footprintReaches(f: Footprint, ex: CheckExcavation, outlineOf: (ex: CheckExcavation) => PreparedOutline): boolean {
   try {
-    return engineLoad(f, prepareExcavation(ex.shape, proj), 'probe').offset < ex.excavation.depth;
+    return measuredLoad(f, outlineOf(ex), 'probe').offset < ex.excavation.depth;
   } catch (err) {
     if (err instanceof GeometryError) return true;
     throw err;
@@ -374,10 +438,6 @@ function mayReach(boxes: Box[], ex: CheckExcavation, proj: LocalProjection): boo
   return boxes.some((f) => boxesMeet(f, zone));
 }
 
-function reachesInfluenceZone(own: { feet: Footprint[] }[], ex: CheckExcavation, proj: LocalProjection): boolean {
-  return own.some(({ feet }) => feet.some((f) => footprintReaches(f, ex, proj)));
-}
-
 /** Runs the cumulative check. Throws PlacementError naming every load that touches an excavation. */
 export function cumulativeCheck(input: CheckInput): PermitCheck {
   validateLoads(input.permit.loads);
@@ -388,32 +448,37 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
   const outside = new Set(input.permit.loads.map((l) => l.id));
   const warnings: string[] = [];
 
+  // Each excavation's outline, prepared (or found kept) once a check.
+  const outlines = new Map<CheckExcavation, PreparedOutline>();
+  const outlineOf = (ex: CheckExcavation) => {
+    let outline = outlines.get(ex);
+    if (!outline) outlines.set(ex, (outline = prepareExcavation(ex.shape, proj)));
+    return outline;
+  };
   const named = new Set(input.excavations.map((e) => e.id));
   const boxes = own.flatMap(({ feet }) => feet.map((f) => boxOf(f.local)));
-  const reached = (input.nearby ?? []).filter(
-    (ex) => !named.has(ex.id) && mayReach(boxes, ex, proj) && reachesInfluenceZone(own, ex, proj),
-  );
-  const engine = input.engine ?? { runCheck, groupStandoff };
-  for (const ex of reached) {
-    const labels = [
-      ...new Set(
-        own.filter(({ feet }) => feet.some((f) => footprintReaches(f, ex, proj))).map(({ feet, load }) => feet[0]?.label ?? loadName(load)),
-      ),
-    ];
+  const reached: CheckExcavation[] = [];
+  for (const ex of input.nearby ?? []) {
+    if (named.has(ex.id) || !mayReach(boxes, ex, proj)) continue;
+    const reaching = own.filter(({ feet }) => feet.some((f) => footprintReaches(f, ex, outlineOf)));
+    if (reaching.length === 0) continue;
+    reached.push(ex);
+    const labels = [...new Set(reaching.map(({ feet, load }) => feet[0]?.label ?? loadName(load)))];
     warnings.push(
       `${ex.reference} is not named on this permit, but ${labels.join(', ')} ${labels.length === 1 ? 'stands' : 'stand'} within its influence zone: it is checked too. Name it on the permit.`,
     );
   }
 
+  const engine = input.engine ?? { runCheck, groupStandoff };
   for (const ex of [...input.excavations, ...reached]) {
-    const outline = prepareExcavation(ex.shape, proj);
+    const outline = outlineOf(ex);
     const loads: Load[] = [];
     const meta: Omit<CheckedLoad, 'force' | 'standoff'>[] = [];
     for (const { load, index, feet } of own) {
       for (const f of feet) {
         const id = [input.permit.number, load.id, f.element].filter(Boolean).join('/');
         try {
-          const el = engineLoad(f, outline, id);
+          const el = measuredLoad(f, outline, id);
           loads.push(el);
           meta.push({
             engineId: id,
@@ -456,7 +521,7 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
         for (const f of feet) {
           const id = [o.number, load.id, f.element].filter(Boolean).join('/');
           try {
-            const el = engineLoad(f, outline, id);
+            const el = measuredLoad(f, outline, id);
             loads.push(el);
             meta.push({
               engineId: id,

@@ -163,6 +163,15 @@ const loadSchema = z.discriminatedUnion(
   },
 );
 
+/** A request's loads, each id once (the rest of the request does not bear on them). */
+export const requestLoadsSchema = z.array(loadSchema, objectError('a list of loads')).superRefine((loads, ctx) => {
+  const ids = loads.map((l) => l.id);
+  ids.forEach((v, i) => {
+    const first = ids.indexOf(v);
+    if (first !== i) ctx.addIssue({ code: 'custom', path: [i, 'id'], message: `repeats the id of loads[${first}] (${JSON.stringify(v)})` });
+  });
+});
+
 export const calcRequestSchema = z
   .strictObject(
     {
@@ -174,7 +183,7 @@ export const calcRequestSchema = z
         .min(STEP_RANGE[0], `must be at least ${STEP_RANGE[0]} m`)
         .max(STEP_RANGE[1], `must be at most ${STEP_RANGE[1]} m`)
         .default(0.05),
-      loads: z.array(loadSchema, objectError('a list of loads')),
+      loads: requestLoadsSchema,
     },
     objectError('a request object'),
   )
@@ -219,12 +228,6 @@ export const calcRequestSchema = z
           message: `must not exceed the friction angle of any drained layer (${delta}° > soil[${i}].frictionAngle ${l.frictionAngle}°)`,
         });
       }
-    });
-    const ids = req.loads.map((l) => l.id);
-    ids.forEach((v, i) => {
-      const first = ids.indexOf(v);
-      if (first !== i)
-        ctx.addIssue({ code: 'custom', path: ['loads', i, 'id'], message: `repeats the id of loads[${first}] (${JSON.stringify(v)})` });
     });
   });
 

@@ -192,6 +192,8 @@ export function Editor(subject: EditorSubject) {
     () => (excavations.data ?? []).filter((e) => e.state === 'open' && !draft.excavationIds.includes(e.id)),
     [excavations.data, draft.excavationIds],
   );
+  const namedForCheck = useMemo(() => named.map(checkExcavationOf), [named]);
+  const nearbyForCheck = useMemo(() => nearby.map(checkExcavationOf), [nearby]);
   const method = draft.method ?? site.data?.defaultMethod ?? 'dispersion-45';
 
   // A new request names the operators of the supervisor's last request on the site, ticked.
@@ -243,8 +245,8 @@ export function Editor(subject: EditorSubject) {
       method,
       minimumClearance: site.data!.minimumClearance,
       permit: { ...permitRef, windowStart: draft.windowStart, windowEnd: draft.windowEnd, loads },
-      excavations: named.map(checkExcavationOf),
-      nearby: nearby.map(checkExcavationOf),
+      excavations: namedForCheck,
+      nearby: nearbyForCheck,
       plant,
       others: server?.otherPermits ?? [],
       now: new Date(),
