@@ -261,29 +261,24 @@ describe('approving with a standoff', () => {
     expect(s.status).toBe(200);
     return { id: p.id, version: s.body.permit.version as number, computed: s.body.permit.current.check.computedStandoff as number };
   }
+  /** The coordinator approves `p`, signing with their password, with the rest of `body` (standoff, reason, conditions). */
+  const approve = (p: { id: number; version: number }, body: Record<string, unknown> = {}) =>
+    act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD, ...body });
+  /** A refused approval changed nothing: the permit still waits for review. */
+  const stillSubmitted = async (p: { id: number }) =>
+    expect((await w.agents.coordinator.get(`/api/permits/${p.id}`)).body.permit.status).toBe('submitted');
 
   it('refuses a standoff below the computed one without a reason (400 naming the standoff)', async () => {
     const p = await submittedNearTheEdge();
-    const r = await act(w.agents.coordinator, p.id, {
-      action: 'approve',
-      version: p.version,
-      password: DEMO_PASSWORD,
-      standoff: p.computed - 0.5,
-    });
+    const r = await approve(p, { standoff: p.computed - 0.5 });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.standoff).toMatch(/must be at least/);
-    expect((await w.agents.coordinator.get(`/api/permits/${p.id}`)).body.permit.status).toBe('submitted');
+    await stillSubmitted(p);
   });
 
   it('accepts a standoff below the computed one with a recorded reason', async () => {
     const p = await submittedNearTheEdge();
-    const r = await act(w.agents.coordinator, p.id, {
-      action: 'approve',
-      version: p.version,
-      password: DEMO_PASSWORD,
-      standoff: p.computed - 0.5,
-      reason: 'Designer confirmed the frames take it (calc ref TW-12)',
-    });
+    const r = await approve(p, { standoff: p.computed - 0.5, reason: 'Designer confirmed the frames take it (calc ref TW-12)' });
     expect(r.status).toBe(200);
     expect(r.body.permit.current.decision).toMatchObject({
       standoff: p.computed - 0.5,
@@ -293,23 +288,15 @@ describe('approving with a standoff', () => {
 
   it('refuses a standoff at least the computed one without a reason while the loads as placed fail the cumulative check', async () => {
     const p = await submittedNearTheEdge();
-    const r = await act(w.agents.coordinator, p.id, {
-      action: 'approve',
-      version: p.version,
-      password: DEMO_PASSWORD,
-      standoff: Math.ceil(p.computed) + 1,
-    });
+    const r = await approve(p, { standoff: Math.ceil(p.computed) + 1 });
     expect(r.status).toBe(400);
     expect(Object.keys(r.body.error.fields)).toEqual(['reason']);
-    expect((await w.agents.coordinator.get(`/api/permits/${p.id}`)).body.permit.status).toBe('submitted');
+    await stillSubmitted(p);
   });
 
   it('accepts a standoff at least the computed one, with conditions and a reason, and records the signature', async () => {
     const p = await submittedNearTheEdge();
-    const r = await act(w.agents.coordinator, p.id, {
-      action: 'approve',
-      version: p.version,
-      password: DEMO_PASSWORD,
+    const r = await approve(p, {
       standoff: Math.ceil(p.computed) + 1,
       conditions: ['No tracking inside the zone'],
       reason: 'Approved for the standoff: the machine works from there',
@@ -328,15 +315,10 @@ describe('approving with a standoff', () => {
 
   it('refuses a plain approval of a failing check without a reason, and a wrong password', async () => {
     const p = await submittedNearTheEdge();
-    const plain = await act(w.agents.coordinator, p.id, { action: 'approve', version: p.version, password: DEMO_PASSWORD });
+    const plain = await approve(p);
     expect(plain.status).toBe(400);
     expect(plain.body.error.fields.reason).toBeDefined();
-    const wrong = await act(w.agents.coordinator, p.id, {
-      action: 'approve',
-      version: p.version,
-      password: 'not-my-password',
-      standoff: 10,
-    });
+    const wrong = await approve(p, { password: 'not-my-password', standoff: 10 });
     expect(wrong.status).toBe(400);
     expect(wrong.body.error.fields.password).toBe('is not the one you sign in with: type it again');
     const none = await act(w.agents.coordinator, p.id, { action: 'decline', version: p.version, reason: 'x' });

@@ -35,6 +35,20 @@ const rect = (x0: number, y0: number, x1: number, y1: number): XY[] => [
 ];
 const pit = rect(0, 0, 10, 6);
 
+/** A pit 10 m × 10 m with a 6 m × 6 m corner left out: an L, concave at (4, 4). */
+const lShapedPit = () =>
+  prepareRing(
+    [
+      [0, 0],
+      [10, 0],
+      [10, 4],
+      [4, 4],
+      [4, 10],
+      [0, 10],
+    ],
+    'pit',
+  );
+
 describe('local projection (WGS84 radii of curvature; any geodesy text)', () => {
   it('round-trips and agrees with turf’s great-circle distance to 0.3 % over 200 m', () => {
     const p: XY = [120, -160];
@@ -188,34 +202,14 @@ describe('zones (docs/calculation.md, "Standoff")', () => {
     expect(at([-2.999, 3])).toBe(true);
     expect(at(diag(2.999))).toBe(true);
     expect(at([5, 9.05])).toBe(false);
-    const L = prepareRing(
-      [
-        [0, 0],
-        [10, 0],
-        [10, 4],
-        [4, 4],
-        [4, 10],
-        [0, 10],
-      ],
-      'pit',
-    );
+    const L = lShapedPit();
     const concave = influenceZone(L, 2, eq);
     expect(booleanPointInPolygon(turfPoint(eq.toWgs84([2, 11.999])), concave)).toBe(true);
     expect(booleanPointInPolygon(turfPoint(eq.toWgs84([2, 12.05])), concave)).toBe(false);
   });
 
   it('an L-shaped pit gets one zone that fills its inner corner', () => {
-    const L = prepareRing(
-      [
-        [0, 0],
-        [10, 0],
-        [10, 4],
-        [4, 4],
-        [4, 10],
-        [0, 10],
-      ],
-      'pit',
-    );
+    const L = lShapedPit();
     const zone = influenceZone(L, 2, proj);
     expect(zone.type).toBe('Polygon');
     expect(inside(zone, [7, 7])).toBe(false); // 3 m from both inner edges
