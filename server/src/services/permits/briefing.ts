@@ -29,12 +29,15 @@ export async function confirmBriefing(
       `Permit ${row.number} has changed since that briefing (now revision ${row.revision}): read it again and confirm the new briefing.`,
     );
   }
-  const mine = await deps.db
-    .selectFrom('permit_operators')
-    .select('briefed_at')
-    .where('revision_id', '=', row.revision_id)
-    .where('user_id', '=', user.id)
-    .executeTakeFirst();
+  /** The operator's line on the current revision (none: not named on it). */
+  const myLine = () =>
+    deps.db
+      .selectFrom('permit_operators')
+      .select('briefed_at')
+      .where('revision_id', '=', row.revision_id)
+      .where('user_id', '=', user.id)
+      .executeTakeFirst();
+  const mine = await myLine();
   if (!mine) throw forbidden(`You are not named as an operator on permit ${row.number}.`);
   if (mine.briefed_at) return { briefedAt: new Date(mine.briefed_at).toISOString(), status: row.status };
   if (!['approved', 'live', 'suspended'].includes(row.status))
@@ -78,11 +81,7 @@ export async function confirmBriefing(
     await advancePermit({ ...deps, db: trx }, row.id);
   });
   const after = await deps.db.selectFrom('permits').select('status').where('id', '=', row.id).executeTakeFirstOrThrow();
-  const b = await deps.db
-    .selectFrom('permit_operators')
-    .select('briefed_at')
-    .where('revision_id', '=', row.revision_id)
-    .where('user_id', '=', user.id)
-    .executeTakeFirstOrThrow();
-  return { briefedAt: new Date(b.briefed_at!).toISOString(), status: after.status };
+  const briefedAt = (await myLine())?.briefed_at;
+  if (!briefedAt) throw new Error(`the briefing of permit ${row.number} was not recorded`);
+  return { briefedAt: new Date(briefedAt).toISOString(), status: after.status };
 }
