@@ -28,7 +28,7 @@ export UPLOAD_DIR="$WORK/uploads"; mkdir -p "$UPLOAD_DIR"
 # test below (API tests, chaos, end-to-end).
 start_fake_s3 "$WORK/s3" "$WORK/fake-s3.log"
 
-say "lint and typecheck (npm run lint: eslint, tsc)"
+say "lint and typecheck (npm run lint: prettier, eslint, knip, tsc)"
 npm run --silent lint
 
 say "dependency check (offline, package-lock.json)"
