@@ -14,7 +14,7 @@ export const demoPeople = [
 ] as const;
 
 /** The invented organisation that owns the demo site, its people and its plant library. */
-export const DEMO_ORGANISATION = 'Marsh & Ridley Civils (demo)';
+const DEMO_ORGANISATION = 'Marsh & Ridley Civils (demo)';
 
 export interface DemoContext {
   organisationId: number;
