@@ -152,7 +152,7 @@ export function formatQuantity(quantity: Quantity, si: number, system: UnitSyste
 }
 
 /** The figure `formatQuantity` shows, as a number (a CSV cell, whose column head names the unit): 2.5 m → 8.2 in US units. */
-export function displayValue(quantity: Quantity, si: number, system: UnitSystem, rounding: Rounding = 'nearest'): number {
+function displayValue(quantity: Quantity, si: number, system: UnitSystem, rounding: Rounding = 'nearest'): number {
   const { unit, step } = DISPLAY[system][quantity];
   return roundTo(fromSI(quantity, si, unit as never), step, rounding);
 }
