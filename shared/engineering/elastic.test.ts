@@ -18,6 +18,15 @@ function jarquio(q: number, d: number, B: number, H: number): number {
   return (q / 90) * H * (Math.atan((d + B) / H) * DEG - Math.atan(d / H) * DEG);
 }
 
+/** The closed-form force and moment equal a fine integral of the pressure over the depth H (moment about the base). */
+function expectIntegralOf(e: { force: number; moment: number }, pressure: (z: number) => number, H: number) {
+  expect(e.force).toBeCloseTo(simpson(pressure, 0, H), 8);
+  expect(e.moment).toBeCloseTo(
+    simpson((z) => pressure(z) * (H - z), 0, H),
+    8,
+  );
+}
+
 describe('elastic strip (Poulos & Davis 1974; NAVFAC DM-7.02)', () => {
   it('pointwise formula agrees with the angle form of the published formula', () => {
     for (const [q, d, B, z] of [
@@ -111,14 +120,7 @@ describe('NAVFAC line load (Terzaghi 1954, as given in NAVFAC DM-7.02)', () => {
       [2, 3],
     ]) {
       const e = navfacLine(10, d, H, 2);
-      expect(e.force).toBeCloseTo(
-        simpson((z) => navfacLineByFormula(10, d, H, z), 0, H),
-        8,
-      );
-      expect(e.moment).toBeCloseTo(
-        simpson((z) => navfacLineByFormula(10, d, H, z) * (H - z), 0, H),
-        8,
-      );
+      expectIntegralOf(e, (z) => navfacLineByFormula(10, d, H, z), H);
       expect(e.pressureAt(1.1, 0)).toBeCloseTo(navfacLineByFormula(10, d, H, 1.1), 12);
       expect(navfacLine(10, d, H, 1).force).toBeCloseTo(e.force / 2, 12);
     }
@@ -144,14 +146,7 @@ describe('NAVFAC point load (after Gerber 1929 and Spangler 1938, as given in NA
       [5, 2],
     ]) {
       const e = navfacPoint(100, d, H, 2);
-      expect(e.force).toBeCloseTo(
-        simpson((z) => navfacPointByFormula(100, d, H, z), 0, H),
-        8,
-      );
-      expect(e.moment).toBeCloseTo(
-        simpson((z) => navfacPointByFormula(100, d, H, z) * (H - z), 0, H),
-        8,
-      );
+      expectIntegralOf(e, (z) => navfacPointByFormula(100, d, H, z), H);
       expect(e.pressureAt(0.9, 0)).toBeCloseTo(navfacPointByFormula(100, d, H, 0.9), 12);
     }
   });
