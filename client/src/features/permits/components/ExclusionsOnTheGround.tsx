@@ -1,4 +1,5 @@
 import { exclusionDistance, exclusionSentence } from '@shared/permits/exclusion';
+import { useFigures } from '@client/lib/units';
 
 interface NamedExcavation {
   id: number;
@@ -9,7 +10,8 @@ interface NamedExcavation {
 /**
  * The exclusion distance of each named excavation as the operator's phone shows it, with why it is
  * that figure: the one computation (shared/permits/exclusion.ts) serves both, so an approval "as
- * placed" shows on the desktop the same figure the phone draws, never a different one.
+ * placed" shows on the desktop the same figure the phone draws, never a different one (in the
+ * reader's units, rounded up like the phone's).
  */
 export function ExclusionsOnTheGround({
   rev,
@@ -21,6 +23,7 @@ export function ExclusionsOnTheGround({
   excavations: readonly NamedExcavation[];
   minimumClearance: number;
 }) {
+  const figures = useFigures();
   const rows = rev.excavationIds.flatMap((id) => {
     const x = excavations.find((e) => e.id === id);
     const exclusion = x ? exclusionDistance(rev, id, minimumClearance, x.depth) : null;
@@ -32,7 +35,7 @@ export function ExclusionsOnTheGround({
       <p className="font-semibold">On the ground (the operator’s phone shows the same):</p>
       <ul className="list-disc pl-6">
         {rows.map(({ x, exclusion }) => (
-          <li key={x.id}>{exclusionSentence(x.reference, `${exclusion.distance.toFixed(2)} m`, exclusion.basis)}</li>
+          <li key={x.id}>{exclusionSentence(x.reference, figures.length(exclusion.distance, { rounding: 'up' }), exclusion.basis)}</li>
         ))}
       </ul>
     </div>
