@@ -1,7 +1,7 @@
 import path from 'node:path';
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import express, { type Express } from 'express';
+import express, { type Express, type RequestHandler } from 'express';
 import session from 'express-session';
 import connectPgSimple from 'connect-pg-simple';
 import helmet from 'helmet';
@@ -69,10 +69,13 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   );
 
   // gzip for whatever a browser accepts it for (the scripts, styles and page; JSON answers over 1 KB).
-  app.use(compression());
+  // The health check's answer is under 1 KB and never gzipped, so it skips the wrapping too.
+  app.use(exceptHealth(compression()));
 
+  // One line a call; not the health check, which a balancer or monitor asks every few seconds.
   if (opts.log ?? config.env !== 'test') {
     app.use((req, res, next) => {
+      if (req.path === HEALTH) return next();
       const t0 = process.hrtime.bigint();
       res.on('finish', () => {
         if (!req.originalUrl.startsWith('/api')) return;
@@ -150,6 +153,13 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   }
   app.use(errorHandler);
   return app;
+}
+
+/** The health check's address (routes/system.ts). */
+const HEALTH = '/api/health';
+/** A middleware that the health check passes by. */
+function exceptHealth(handler: RequestHandler): RequestHandler {
+  return (req, res, next) => (req.path === HEALTH ? next() : handler(req, res, next));
 }
 
 function noCacheForShell(res: express.Response, file: string): void {
