@@ -1,6 +1,8 @@
 import bcrypt from 'bcryptjs';
+import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD, makeOrganisation, signedIn, startTestApp, unique, type OtherOrganisation, type TestApp } from './helpers';
+import { createOrganisation } from '../src/services/organisation';
 import { addTrench, createPermit, makeWorld, permitBody, submitAndApprove, type PermitWorld } from './permits-fixtures';
 
 /**
@@ -125,5 +127,48 @@ describe('organisations', () => {
     expect(theirs.body.error.fields).toEqual({ 'loads[0].plantItemId': 'is not in the plant library' });
     const own = await supervisor.post('/api/permits').send(body(b.plantItemId));
     expect(own.status).toBe(201);
+  });
+
+  it("makes an organisation for the installation's operator, whose invited administrator starts with nothing of another's", async () => {
+    const name = `Quillon Drainage ${unique('q')} (test)`;
+    const adminEmail = unique('quillon-admin');
+    const made = await createOrganisation(t.deps.db, {
+      name,
+      adminEmail,
+      adminName: 'Quin Quillon',
+      publicUrl: 'http://brink.test',
+      now: new Date(),
+    });
+    await expect(
+      createOrganisation(t.deps.db, {
+        name,
+        adminEmail: unique('again'),
+        adminName: 'Again',
+        publicUrl: 'http://brink.test',
+        now: new Date(),
+      }),
+    ).rejects.toThrow(`An organisation called "${name}" already exists.`);
+    await expect(
+      createOrganisation(t.deps.db, {
+        name: `${name} 2`,
+        adminEmail: b.adminEmail,
+        adminName: 'B',
+        publicUrl: 'http://brink.test',
+        now: new Date(),
+      }),
+    ).rejects.toThrow('already has an account');
+    const token = new URL(made.link).searchParams.get('token');
+    const agent = request.agent(t.app);
+    const accepted = await agent.post('/api/invitations/accept').send({ token, name: 'Quin Quillon', password: 'a-long-password-1' });
+    expect(accepted.status).toBe(200);
+    expect(accepted.body.user).toMatchObject({ email: adminEmail, isAdmin: true, memberships: [] });
+    expect((await agent.get('/api/sites').expect(200)).body.sites).toEqual([]);
+    expect((await agent.get('/api/plant').expect(200)).body.plant).toEqual([]);
+    expect((await agent.get('/api/users').expect(200)).body.users.map((u: { email: string }) => u.email)).toEqual([adminEmail]);
+    const site = await agent.post('/api/sites').send({ name: 'Quillon outfall (test)', latitude: 54.1, longitude: -1.6 });
+    expect(site.status).toBe(201);
+    const row = await t.deps.db.selectFrom('sites').select('organisation_id').where('id', '=', site.body.site.id).executeTakeFirstOrThrow();
+    expect(row.organisation_id).toBe(made.organisationId);
+    expect((await agent.get(`/api/sites/${w.siteId}`)).status).toBe(404);
   });
 });

@@ -2,6 +2,7 @@ import { sql } from 'kysely';
 import type { Db } from '@db/database';
 import { notFound } from '../http';
 import type { Deps } from '../deps';
+import { INVITATION_HOURS, newToken } from './tokens';
 
 /**
  * Organisations (issue 16 §1): an installation holds many; each owns its people, sites, invitations
@@ -51,3 +52,35 @@ export const ownedPath =
   async ({ params, user, deps }: { params: Record<string, number>; user: Scope; deps: Deps }): Promise<void> => {
     for (const [param, table, what] of checks) await ownOnly(deps.db, user, table, params[param], what);
   };
+
+/**
+ * A new organisation and the invitation of its first administrator (the installation operator's
+ * command, server/src/cli/organisation.ts). Refuses a name already taken and an address that
+ * already has an account. Returns the invitation's link, which works once, for INVITATION_HOURS.
+ */
+export async function createOrganisation(
+  db: Db,
+  o: { name: string; adminEmail: string; adminName: string; publicUrl: string; now: Date },
+): Promise<{ organisationId: number; link: string }> {
+  const { token, hash } = newToken();
+  return db.transaction().execute(async (trx) => {
+    const taken = await trx.selectFrom('organisations').select('id').where('name', '=', o.name).executeTakeFirst();
+    if (taken) throw new Error(`An organisation called "${o.name}" already exists.`);
+    const person = await trx.selectFrom('users').select('id').where('email', '=', o.adminEmail).executeTakeFirst();
+    if (person) throw new Error(`${o.adminEmail} already has an account; a person belongs to one organisation.`);
+    const org = await trx.insertInto('organisations').values({ name: o.name }).returning('id').executeTakeFirstOrThrow();
+    await trx
+      .insertInto('invitations')
+      .values({
+        organisation_id: org.id,
+        email: o.adminEmail,
+        name: o.adminName,
+        is_admin: true,
+        token_hash: hash,
+        invited_by: null,
+        expires_at: new Date(o.now.getTime() + INVITATION_HOURS * 3600_000),
+      })
+      .execute();
+    return { organisationId: org.id, link: `${o.publicUrl}/invitations/accept?token=${token}` };
+  });
+}
