@@ -47,9 +47,13 @@ export function fakePersonIn(units: 'us' | 'metric') {
 
 export function renderAt(element: ReactElement, path = '/') {
   const router = createMemoryRouter([{ path: '*', element }], { initialEntries: [path] });
-  return render(
-    <QueryClientProvider client={createQueryClient()}>
-      <RouterProvider router={router} />
-    </QueryClientProvider>,
-  );
+  const queryClient = createQueryClient();
+  return {
+    queryClient,
+    ...render(
+      <QueryClientProvider client={queryClient}>
+        <RouterProvider router={router} />
+      </QueryClientProvider>,
+    ),
+  };
 }

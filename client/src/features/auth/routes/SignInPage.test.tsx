@@ -1,5 +1,5 @@
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { cleanup, fireEvent, screen } from '@testing-library/react';
+import { cleanup, fireEvent, screen, waitFor } from '@testing-library/react';
 import { fakeApi, renderAt } from '@client/test/render';
 import { SignInPage } from './SignInPage';
 
@@ -39,9 +39,10 @@ describe('SignInPage', () => {
 
   it('shows no demo list on a real server', async () => {
     fakeApi({ 'GET /api/health': { status: 200, body: { ok: true, demo: false } } });
-    renderAt(<SignInPage />, '/sign-in');
+    const { queryClient } = renderAt(<SignInPage />, '/sign-in');
     await screen.findByRole('button', { name: 'Sign in' });
-    await new Promise((r) => setTimeout(r, 20));
+    // The page has its answer (demo: false) once the health query succeeded; then nothing more comes.
+    await waitFor(() => expect(queryClient.getQueryState(['health'])?.status).toBe('success'));
     expect(screen.queryByRole('heading', { name: 'Demo sign-ins' })).toBeNull();
   });
 });
