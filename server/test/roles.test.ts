@@ -436,6 +436,23 @@ describe('API habits', () => {
     expect(admin.status).toBe(200);
   });
 
+  it("shows an administrator from elsewhere only mail to their own organisation's people", async () => {
+    // A message to a demo person (organisation A), caught as the catcher would keep it.
+    const toA = demo.supervisor;
+    await t.deps.db
+      .insertInto('caught_mail')
+      .values({ mail_from: 'brink@test', mail_to: toA, subject: 'Reset your password (matrix)', text: 'a link', html: null })
+      .execute();
+    const read = async (who: 'admin' | 'B admin') =>
+      (
+        (await agents.get(who)!.get('/api/dev/mail?limit=500').set('X-Forwarded-For', '203.0.113.9').expect(200)).body as {
+          messages: { to: string }[];
+        }
+      ).messages.map((m) => m.to.toLowerCase());
+    expect(await read('admin')).toContain(toA.toLowerCase());
+    expect(await read('B admin')).not.toContain(toA.toLowerCase());
+  });
+
   it('sends a content security policy that allows only its own origin', async () => {
     const r = await request(t.app).get('/api/health');
     const csp = String(r.headers['content-security-policy']);

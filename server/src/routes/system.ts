@@ -53,9 +53,32 @@ export function registerSystemRoutes(api: Api): void {
     },
     async ({ query, req, user }) => {
       if (!config.mailCatcher.enabled) throw new HttpError(404, 'not_found', 'The local mail catcher is off.');
-      // Caught mail holds sign-in links: only administrators, or programs on this machine (tests).
-      if (!user?.isAdmin && !fromThisMachine(req)) throw forbidden('Only an administrator may read caught mail.');
+      // Caught mail holds sign-in links: programs on this machine (the installation's operator, tests)
+      // read it all; from elsewhere only an administrator, and only mail to their organisation's people
+      // and invitations.
+      const local = fromThisMachine(req);
+      if (!local && !user?.isAdmin) throw forbidden('Only an administrator may read caught mail.');
       let q = db.selectFrom('caught_mail').selectAll().orderBy('id', 'desc').limit(query.limit);
+      if (!local && user) {
+        const org = user.organisationId;
+        const to = sql<string>`'%' || lower(email) || '%'`;
+        q = q.where(({ or, exists, selectFrom }) =>
+          or([
+            exists(
+              selectFrom('users')
+                .select('id')
+                .where('organisation_id', '=', org)
+                .where(sql<string>`lower(caught_mail.mail_to)`, 'like', to),
+            ),
+            exists(
+              selectFrom('invitations')
+                .select('id')
+                .where('organisation_id', '=', org)
+                .where(sql<string>`lower(caught_mail.mail_to)`, 'like', to),
+            ),
+          ]),
+        );
+      }
       if (query.to) q = q.where('mail_to', 'ilike', `%${query.to.replace(/[%_\\]/g, (c) => `\\${c}`)}%`);
       const rows = await q.execute();
       return {
