@@ -1,8 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import bcrypt from 'bcryptjs';
 import { sql } from 'kysely';
-import { demo, DEMO_PASSWORD, linkToken, signedIn, startTestApp, unique, waitForMail, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, demo, DEMO_PASSWORD, linkToken, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
 
 let t: TestApp;
 beforeAll(async () => {
@@ -68,15 +67,7 @@ describe('sign-in', () => {
 
   it('rate-limits repeated failures on one account (429), and the right password does not get through then', async () => {
     const email = unique('limited');
-    await t.deps.db
-      .insertInto('users')
-      .values({
-        organisation_id: await demoOrganisationId(t.deps),
-        email,
-        name: 'Limited',
-        password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-      })
-      .execute();
+    await addPerson(t.deps, { email, name: 'Limited' });
     for (let i = 0; i < 5; i++) {
       const r = await request(t.app).post('/api/auth/sign-in').send({ email, password: 'wrong-password' });
       expect(r.status).toBe(401);
@@ -149,15 +140,7 @@ describe('invitations', () => {
 describe('password reset', () => {
   it('e-mails a link that sets a new password once; the old password stops working', async () => {
     const email = unique('forgetful');
-    await t.deps.db
-      .insertInto('users')
-      .values({
-        organisation_id: await demoOrganisationId(t.deps),
-        email,
-        name: 'Forgetful Fay',
-        password_hash: await bcrypt.hash('old-password-1', 10),
-      })
-      .execute();
+    await addPerson(t.deps, { email, name: 'Forgetful Fay', password: 'old-password-1' });
     const r = await request(t.app).post('/api/auth/forgot-password').send({ email });
     expect(r.status).toBe(202);
     const unknown = await request(t.app)
@@ -177,15 +160,7 @@ describe('password reset', () => {
 
   it('refuses a reset link after its hour', async () => {
     const email = unique('slow');
-    await t.deps.db
-      .insertInto('users')
-      .values({
-        organisation_id: await demoOrganisationId(t.deps),
-        email,
-        name: 'Slow Sam',
-        password_hash: await bcrypt.hash('old-password-1', 10),
-      })
-      .execute();
+    await addPerson(t.deps, { email, name: 'Slow Sam', password: 'old-password-1' });
     await request(t.app).post('/api/auth/forgot-password').send({ email }).expect(202);
     const token = linkToken((await waitForMail(t.deps, email, /reset/i)).text, '/reset-password');
     t.clock.now = new Date(Date.now() + 3600_000 + 60_000);

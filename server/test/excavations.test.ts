@@ -1,6 +1,5 @@
 import { randomUUID } from 'node:crypto';
 import request from 'supertest';
-import bcrypt from 'bcryptjs';
 import { area, booleanPointInPolygon, point } from '@turf/turf';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { localProjection } from '@shared/geometry';
@@ -12,7 +11,7 @@ import {
   type ExcavationInput,
 } from '@shared/schemas/excavations';
 import { calcRequestSchema } from '@shared/schemas/calc';
-import { demo, DEMO_PASSWORD, demoSiteId, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, demo, demoSiteId, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
 
 let t: TestApp;
 let siteId: number;
@@ -118,17 +117,7 @@ describe('excavation register: roles', () => {
       .returning('id')
       .executeTakeFirstOrThrow();
     const email = unique('othercoord');
-    const u = await t.deps.db
-      .insertInto('users')
-      .values({
-        organisation_id: await demoOrganisationId(t.deps),
-        email,
-        name: 'Other coordinator',
-        password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-      })
-      .returning('id')
-      .executeTakeFirstOrThrow();
-    await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role: 'coordinator' }).execute();
+    await addPerson(t.deps, { email, name: 'Other coordinator', member: { siteId: other.id, role: 'coordinator' } });
     const outsider = await signedIn(t.app, email);
 
     const mine = (await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(trench())).body.excavation as Excavation;

@@ -1,5 +1,4 @@
 import { randomUUID } from 'node:crypto';
-import bcrypt from 'bcryptjs';
 import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Polygon } from 'geojson';
@@ -7,7 +6,7 @@ import { localProjection, prepareExcavation, signedDistanceToZoneAt, SITE_TOLERA
 import { exclusionDistance } from '@shared/permits/exclusion';
 import type { FieldPermit } from '@shared/schemas/field';
 import type { PermitDetail } from '@shared/schemas/permits';
-import { DEMO_PASSWORD, demo, signedIn, startTestApp, unique, waitForMail, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, demo, signedIn, startTestApp, unique, waitForMail, type TestApp } from './helpers';
 import { createPermit, makeWorld, submitAndApprove, type PermitWorld } from './permits-fixtures';
 
 /**
@@ -29,17 +28,11 @@ let pair: { id: number; number: string }; // names A and C
 
 async function operator(label: string) {
   const email = unique(`field-${label}`);
-  const u = await t.deps.db
-    .insertInto('users')
-    .values({
-      organisation_id: await demoOrganisationId(t.deps),
-      email,
-      name: `Field operator ${label.toUpperCase()} (test)`,
-      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  await t.deps.db.insertInto('site_members').values({ site_id: w.siteId, user_id: u.id, role: 'operator' }).execute();
+  const u = await addPerson(t.deps, {
+    email,
+    name: `Field operator ${label.toUpperCase()} (test)`,
+    member: { siteId: w.siteId, role: 'operator' },
+  });
   return { id: u.id, email, agent: await signedIn(t.app, email) };
 }
 

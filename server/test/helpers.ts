@@ -16,6 +16,8 @@ import { readdirSync } from 'node:fs';
 import { ListObjectsV2Command } from '@aws-sdk/client-s3';
 import { DiskStore, type FileStore } from '../src/files/store';
 import { sql } from 'kysely';
+import type { SiteRole } from '@shared/schemas/common';
+import type { UnitSystem } from '@shared/units';
 import { createDb, createPool, type Db } from '@db/database';
 import { migrateToLatest } from '@db/migrate';
 
@@ -122,6 +124,52 @@ export async function demoOrganisationId(deps: Deps): Promise<number> {
   return o.organisation_id;
 }
 
+/**
+ * A person for a test: of the demo organisation unless `organisationId` is given, signing in with
+ * `password` (the demo password unless given; null: no password), and a member of `member.siteId`
+ * in `member.role` when asked. Returns their id and e-mail.
+ */
+export async function addPerson(
+  deps: Deps,
+  p: {
+    name: string;
+    email: string;
+    password?: string | null;
+    organisationId?: number;
+    isAdmin?: boolean;
+    active?: boolean;
+    units?: UnitSystem;
+    member?: { siteId: number; role: SiteRole; canInspect?: boolean };
+  },
+): Promise<{ id: number; email: string }> {
+  const password = p.password === undefined ? DEMO_PASSWORD : p.password;
+  const { id } = await deps.db
+    .insertInto('users')
+    .values({
+      organisation_id: p.organisationId ?? (await demoOrganisationId(deps)),
+      email: p.email,
+      name: p.name,
+      password_hash: password === null ? null : await bcrypt.hash(password, 4),
+      is_admin: p.isAdmin ?? false,
+      active: p.active ?? true,
+      units: p.units ?? null,
+    })
+    .returning('id')
+    .executeTakeFirstOrThrow();
+  if (p.member) {
+    await deps.db
+      .insertInto('site_members')
+      .values({
+        site_id: p.member.siteId,
+        user_id: id,
+        role: p.member.role,
+        ...(p.member.canInspect === undefined ? {} : { can_inspect: p.member.canInspect }),
+      })
+      .execute();
+  }
+  return { id, email: p.email };
+}
+
 /** A second, invented organisation: its own site, administrator, coordinator (of that site) and one machine. */
 export interface OtherOrganisation {
   id: number;
@@ -144,19 +192,15 @@ export async function makeOrganisation(deps: Deps, label = 'Other'): Promise<Oth
     .values({ organisation_id: org.id, name: `${label} quarry road (test)`, latitude: 53.2, longitude: -2.1 })
     .returning('id')
     .executeTakeFirstOrThrow();
-  const hash = await bcrypt.hash(DEMO_PASSWORD, 4);
   const adminEmail = unique(`${label.toLowerCase()}-org-admin`);
   const coordinatorEmail = unique(`${label.toLowerCase()}-org-coordinator`);
-  await db
-    .insertInto('users')
-    .values({ organisation_id: org.id, email: adminEmail, name: `${label} Admin`, password_hash: hash, is_admin: true })
-    .execute();
-  const c = await db
-    .insertInto('users')
-    .values({ organisation_id: org.id, email: coordinatorEmail, name: `${label} Coordinator`, password_hash: hash })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  await db.insertInto('site_members').values({ site_id: site.id, user_id: c.id, role: 'coordinator', can_inspect: true }).execute();
+  await addPerson(deps, { organisationId: org.id, email: adminEmail, name: `${label} Admin`, isAdmin: true });
+  const c = await addPerson(deps, {
+    organisationId: org.id,
+    email: coordinatorEmail,
+    name: `${label} Coordinator`,
+    member: { siteId: site.id, role: 'coordinator', canInspect: true },
+  });
   const machine = await db
     .insertInto('plant_items')
     .values({

@@ -1,11 +1,10 @@
 import { randomUUID } from 'node:crypto';
-import bcrypt from 'bcryptjs';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { checklist, type InspectionInput } from '@shared/schemas/inspections';
 import { checkOverdueInspections, runReconciliation } from '../src/jobs/inspections';
 import { MB } from '../src/services/uploads';
-import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, demo, signedIn, startTestApp, unique, waitForMail, type TestApp, demoOrganisationId } from './helpers';
 import { act, createPermit, excavatorAt, makeWorld, newTrench, submitAndApprove, version, type PermitWorld } from './permits-fixtures';
 import { binary, pdfPages, pdfText } from './pdf';
 
@@ -13,7 +12,6 @@ import { binary, pdfPages, pdfText } from './pdf';
 // clock (an injected clock, never waiting), the overdue e-mail, CSV and the weekly PDF.
 
 let t: TestApp;
-let hash: string;
 const people = {
   supervisor: unique('insp-supervisor'),
   coordinator: unique('insp-coordinator'),
@@ -34,12 +32,7 @@ const JPEG = Buffer.concat([
 ]);
 
 async function person(email: string, name: string): Promise<number> {
-  const u = await t.deps.db
-    .insertInto('users')
-    .values({ organisation_id: await demoOrganisationId(t.deps), email, name, password_hash: hash })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  return u.id;
+  return (await addPerson(t.deps, { email, name })).id;
 }
 
 async function newSite(name: string, timezone = 'Europe/London'): Promise<number> {
@@ -109,7 +102,6 @@ const at = (iso: string) => {
 
 beforeAll(async () => {
   t = await startTestApp();
-  hash = await bcrypt.hash(DEMO_PASSWORD, 10);
   siteId = await newSite('Inspection test site');
   otherSiteId = await newSite('Inspection other site');
   const ids = {

@@ -1,7 +1,6 @@
-import bcrypt from 'bcryptjs';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_PASSWORD, makeOrganisation, signedIn, startTestApp, unique, type OtherOrganisation, type TestApp } from './helpers';
+import { addPerson, makeOrganisation, signedIn, startTestApp, unique, type OtherOrganisation, type TestApp } from './helpers';
 import { createOrganisation } from '../src/services/organisation';
 import { addTrench, createPermit, makeWorld, permitBody, submitAndApprove, type PermitWorld } from './permits-fixtures';
 
@@ -110,12 +109,7 @@ describe('organisations', () => {
 
   it("refuses a permit on B's site that places A's machine, naming the load", async () => {
     const email = unique('orgtest-supervisor');
-    const s = await t.deps.db
-      .insertInto('users')
-      .values({ organisation_id: b.id, email, name: 'Suki Second (test)', password_hash: await bcrypt.hash(DEMO_PASSWORD, 4) })
-      .returning('id')
-      .executeTakeFirstOrThrow();
-    await t.deps.db.insertInto('site_members').values({ site_id: b.siteId, user_id: s.id, role: 'supervisor' }).execute();
+    await addPerson(t.deps, { organisationId: b.id, email, name: 'Suki Second (test)', member: { siteId: b.siteId, role: 'supervisor' } });
     const supervisor = await signedIn(t.app, email);
     const site = await t.deps.db.selectFrom('sites').select(['latitude', 'longitude']).where('id', '=', b.siteId).executeTakeFirstOrThrow();
     const origin: [number, number] = [site.longitude, site.latitude];

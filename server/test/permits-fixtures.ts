@@ -1,12 +1,11 @@
 import { randomUUID } from 'node:crypto';
 import { sql } from 'kysely';
-import bcrypt from 'bcryptjs';
 import request from 'supertest';
 import type { LineString } from 'geojson';
 import { localProjection } from '@shared/geometry';
 import { shapeColumns, shapesOf } from '@shared/geometry/shapes';
 import type { PermitCreateInput, PermitStatus, PlacedLoad } from '@shared/schemas/permits';
-import { demo, DEMO_PASSWORD, demoSiteId, signedIn, unique, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, demo, DEMO_PASSWORD, demoSiteId, signedIn, unique, type TestApp, demoOrganisationId } from './helpers';
 
 /**
  * Fixtures of the permit tests: the demo site and people, a test trench of its own on the demo site
@@ -112,17 +111,7 @@ export async function makeWorld(t: TestApp): Promise<PermitWorld> {
   const idOf = (e: string) => ids.find((u) => u.email === e)!.id;
 
   const coordinator2Email = unique('coordinator2');
-  const c2 = await t.deps.db
-    .insertInto('users')
-    .values({
-      organisation_id: await demoOrganisationId(t.deps),
-      email: coordinator2Email,
-      name: 'Cora Second (test coordinator)',
-      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  await t.deps.db.insertInto('site_members').values({ site_id: siteId, user_id: c2.id, role: 'coordinator' }).execute();
+  await addPerson(t.deps, { email: coordinator2Email, name: 'Cora Second (test coordinator)', member: { siteId, role: 'coordinator' } });
   const outsiderEmail = unique('outsider');
   const other = await t.deps.db
     .insertInto('sites')
@@ -134,17 +123,7 @@ export async function makeWorld(t: TestApp): Promise<PermitWorld> {
     })
     .returning('id')
     .executeTakeFirstOrThrow();
-  const o = await t.deps.db
-    .insertInto('users')
-    .values({
-      organisation_id: await demoOrganisationId(t.deps),
-      email: outsiderEmail,
-      name: 'Otto Outsider',
-      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: o.id, role: 'coordinator' }).execute();
+  await addPerson(t.deps, { email: outsiderEmail, name: 'Otto Outsider', member: { siteId: other.id, role: 'coordinator' } });
 
   const agents = {
     admin: await signedIn(t.app, demo.admin),

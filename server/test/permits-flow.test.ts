@@ -1,4 +1,3 @@
-import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CAUTION } from '@shared/engineering';
 import { cautionFor } from '@shared/caution';
@@ -11,7 +10,7 @@ import { localProjection } from '@shared/geometry';
 import { exclusionReason } from '@shared/permits/exclusion';
 import type { ExclusionBasis } from '@shared/schemas/field';
 import type { PlacedLoad } from '@shared/schemas/permits';
-import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, demo, DEMO_PASSWORD, signedIn, startTestApp, unique, waitForMail, type TestApp, demoOrganisationId } from './helpers';
 import {
   act,
   createPermit,
@@ -401,19 +400,7 @@ describe('what permits name stays', () => {
 /** A person of the world's (metric) site who chose US customary units. */
 async function usMember(role: 'operator' | 'coordinator', name: string): Promise<{ id: number; email: string }> {
   const email = unique(`us-${role}`);
-  const u = await t.deps.db
-    .insertInto('users')
-    .values({
-      organisation_id: await demoOrganisationId(t.deps),
-      email,
-      name,
-      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-      units: 'us',
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  await t.deps.db.insertInto('site_members').values({ site_id: w.siteId, user_id: u.id, role }).execute();
-  return { id: u.id, email };
+  return addPerson(t.deps, { email, name, units: 'us', member: { siteId: w.siteId, role } });
 }
 
 describe('figures the server writes, in the reader’s units', () => {
@@ -498,11 +485,7 @@ describe('figures the server writes, in the reader’s units', () => {
       })
       .returning('id')
       .executeTakeFirstOrThrow();
-    const person = await t.deps.db
-      .insertInto('users')
-      .values({ organisation_id: await demoOrganisationId(t.deps), email: unique('follows-site'), name: 'Sid Site', password_hash: 'x' })
-      .returning('id')
-      .executeTakeFirstOrThrow();
+    const person = await addPerson(t.deps, { email: unique('follows-site'), name: 'Sid Site', password: null });
     expect(await unitsOf(t.deps.db, person.id, site.id)).toBe('us');
     expect(await unitsOf(t.deps.db, person.id, w.siteId)).toBe('metric');
     expect(await unitsOf(t.deps.db, null, site.id)).toBe('us');

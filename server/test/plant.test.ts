@@ -1,8 +1,7 @@
 import request from 'supertest';
-import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { plantItemSchema, type PlantItemInput } from '@shared/schemas/plant';
-import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, demo, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
 
 let t: TestApp;
 beforeAll(async () => {
@@ -88,17 +87,7 @@ describe('plant library', () => {
       .executeTakeFirstOrThrow();
     const emails = { coordinator: unique('co'), supervisor: unique('su') } as const;
     for (const [role, email] of Object.entries(emails) as ['coordinator' | 'supervisor', string][]) {
-      const u = await t.deps.db
-        .insertInto('users')
-        .values({
-          organisation_id: await demoOrganisationId(t.deps),
-          email,
-          name: `Plant ${role}`,
-          password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-        })
-        .returning('id')
-        .executeTakeFirstOrThrow();
-      await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role }).execute();
+      await addPerson(t.deps, { email, name: `Plant ${role}`, member: { siteId: other.id, role } });
     }
     expect((await (await signedIn(t.app, emails.coordinator)).post('/api/plant').send(machine(uniqueName('Far')))).status).toBe(201);
     expect((await (await signedIn(t.app, emails.supervisor)).post('/api/plant').send(machine(uniqueName('Far')))).status).toBe(403);

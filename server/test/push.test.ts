@@ -1,7 +1,6 @@
-import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type request from 'supertest';
-import { DEMO_PASSWORD, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, DEMO_PASSWORD, signedIn, startTestApp, unique, type TestApp } from './helpers';
 import { runPermitSchedule } from '../src/jobs/permits';
 import type { PermitCreateInput } from '@shared/schemas/permits';
 import { act, hoursFrom, makeWorld, permitBody, version, type PermitWorld } from './permits-fixtures';
@@ -20,17 +19,7 @@ const people: Record<'operator' | 'supervisor', { id: number; agent: request.Age
 
 async function person(role: 'operator' | 'supervisor') {
   const email = unique(`push-${role}`);
-  const u = await t.deps.db
-    .insertInto('users')
-    .values({
-      organisation_id: await demoOrganisationId(t.deps),
-      email,
-      name: `Pat Push (${role})`,
-      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  await t.deps.db.insertInto('site_members').values({ site_id: w.siteId, user_id: u.id, role }).execute();
+  const u = await addPerson(t.deps, { email, name: `Pat Push (${role})`, member: { siteId: w.siteId, role } });
   return { id: u.id, agent: await signedIn(t.app, email) };
 }
 

@@ -1,7 +1,7 @@
 import request from 'supertest';
-import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
+  addPerson,
   demo,
   DEMO_PASSWORD,
   demoSiteId,
@@ -141,17 +141,7 @@ beforeAll(async () => {
     .values({ organisation_id: await demoOrganisationId(t.deps), name: 'Matrix other site', latitude: 51, longitude: 0 })
     .returning('id')
     .executeTakeFirstOrThrow();
-  const u = await t.deps.db
-    .insertInto('users')
-    .values({
-      organisation_id: await demoOrganisationId(t.deps),
-      email: outsiderEmail,
-      name: 'Olive Outsider',
-      password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  await t.deps.db.insertInto('site_members').values({ site_id: other.id, user_id: u.id, role: 'coordinator' }).execute();
+  await addPerson(t.deps, { email: outsiderEmail, name: 'Olive Outsider', member: { siteId: other.id, role: 'coordinator' } });
   for (const who of ['admin', 'coordinator', 'supervisor', 'operator'] as const) agents.set(who, await signedIn(t.app, demo[who]));
   agents.set('outsider', await signedIn(t.app, outsiderEmail));
   agents.set('anon', request(t.app) as unknown as request.Agent);
@@ -159,20 +149,14 @@ beforeAll(async () => {
   agents.set('B admin', await signedIn(t.app, orgB.adminEmail));
   agents.set('B coordinator', await signedIn(t.app, orgB.coordinatorEmail));
   // A person and a machine of the demo organisation of this file's own, for the calls of organisation B.
-  const org = await demoOrganisationId(t.deps);
   real.person = (
-    await t.deps.db
-      .insertInto('users')
-      .values({ organisation_id: org, email: unique('matrix-person'), name: 'Mina Matrix', password_hash: null })
-      .returning('id')
-      .executeTakeFirstOrThrow()
+    await addPerson(t.deps, { email: unique('matrix-person'), name: 'Mina Matrix', password: null, member: { siteId, role: 'operator' } })
   ).id;
-  await t.deps.db.insertInto('site_members').values({ site_id: siteId, user_id: real.person, role: 'operator' }).execute();
   real.plant = (
     await t.deps.db
       .insertInto('plant_items')
       .values({
-        organisation_id: org,
+        organisation_id: await demoOrganisationId(t.deps),
         name: `Matrix roller ${unique('m')}`,
         category: 'roller',
         operating_mass: 2,
@@ -370,16 +354,7 @@ describe('role matrix: design data of an excavation', () => {
 describe('administration of people', () => {
   it('deactivating a person ends their sessions at once', async () => {
     const email = unique('leaver');
-    const u = await t.deps.db
-      .insertInto('users')
-      .values({
-        organisation_id: await demoOrganisationId(t.deps),
-        email,
-        name: 'Lee Leaver',
-        password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-      })
-      .returning('id')
-      .executeTakeFirstOrThrow();
+    const u = await addPerson(t.deps, { email, name: 'Lee Leaver' });
     const leaver = await signedIn(t.app, email);
     await agents.get('admin')!.patch(`/api/users/${u.id}`).send({ active: false }).expect(200);
     expect((await leaver.get('/api/auth/me')).status).toBe(401);
@@ -388,16 +363,7 @@ describe('administration of people', () => {
 
   it('sets and removes a role on a site', async () => {
     const email = unique('roled');
-    const u = await t.deps.db
-      .insertInto('users')
-      .values({
-        organisation_id: await demoOrganisationId(t.deps),
-        email,
-        name: 'Rae Roled',
-        password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-      })
-      .returning('id')
-      .executeTakeFirstOrThrow();
+    const u = await addPerson(t.deps, { email, name: 'Rae Roled' });
     const admin = agents.get('admin')!;
     const put = await admin.put(`/api/users/${u.id}/memberships/${siteId}`).send({ role: 'supervisor', canInspect: true });
     expect(put.status).toBe(200);

@@ -3,6 +3,7 @@ import request from 'supertest';
 import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
+  addPerson,
   demo,
   DEMO_PASSWORD,
   demoSiteId,
@@ -145,18 +146,7 @@ describe('cross-site requests: every state-changing route', () => {
 
 async function person(active = true): Promise<{ id: number; email: string }> {
   const email = unique('sec');
-  const u = await t.deps.db
-    .insertInto('users')
-    .values({
-      organisation_id: await demoOrganisationId(t.deps),
-      email,
-      name: 'Sam Second',
-      password_hash: await bcrypt.hash(DEMO_PASSWORD, 4),
-      active,
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  return { id: u.id, email };
+  return addPerson(t.deps, { email, name: 'Sam Second', active });
 }
 async function invitation(email: string): Promise<string> {
   const { token, hash } = newToken();

@@ -2,9 +2,8 @@
  * Units (docs/calculation.md, "Units"): a person chooses metric or US customary, a site sets the
  * default, and a US site starts with OSHA's 2 ft minimum clearance. The API's figures stay in SI.
  */
-import bcrypt from 'bcryptjs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demo, DEMO_PASSWORD, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, demo, signedIn, startTestApp, unique, type TestApp } from './helpers';
 
 let t: TestApp;
 beforeAll(async () => {
@@ -15,15 +14,7 @@ afterAll(async () => t.stop());
 describe('units', () => {
   it('a person chooses US customary, then follows the site again; anything else is refused by name', async () => {
     const email = unique('feet');
-    await t.deps.db
-      .insertInto('users')
-      .values({
-        organisation_id: await demoOrganisationId(t.deps),
-        email,
-        name: 'Fern Feet',
-        password_hash: await bcrypt.hash(DEMO_PASSWORD, 10),
-      })
-      .execute();
+    await addPerson(t.deps, { email, name: 'Fern Feet' });
     const agent = await signedIn(t.app, email);
     expect((await agent.get('/api/auth/me').expect(200)).body.user.units).toBeNull();
     expect((await agent.patch('/api/auth/me').send({ units: 'us' }).expect(200)).body.user.units).toBe('us');
