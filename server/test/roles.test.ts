@@ -415,8 +415,15 @@ describe('API habits', () => {
           messages: { to: string }[];
         }
       ).messages.map((m) => m.to.toLowerCase());
+    // An address that merely contains one of B's people's addresses is not theirs.
+    const lookalike = `x${orgB.coordinatorEmail}`;
+    await t.deps.db
+      .insertInto('caught_mail')
+      .values({ mail_from: 'brink@test', mail_to: lookalike, subject: 'Lookalike (matrix)', text: 'a link', html: null })
+      .execute();
     expect(await read('admin')).toContain(toA.toLowerCase());
     expect(await read('B admin')).not.toContain(toA.toLowerCase());
+    expect(await read('B admin')).not.toContain(lookalike.toLowerCase());
   });
 
   it('sends a content security policy that allows only its own origin', async () => {

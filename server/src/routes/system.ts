@@ -61,21 +61,12 @@ export function registerSystemRoutes(api: Api): void {
       let q = db.selectFrom('caught_mail').selectAll().orderBy('id', 'desc').limit(query.limit);
       if (!local && user) {
         const org = user.organisationId;
-        const to = sql<string>`'%' || lower(email) || '%'`;
+        // mail_to lists the envelope's addresses ("a@x, b@y"): an address must be one of them, not a part of one.
+        const isRecipient = sql<boolean>`lower(email) = any(string_to_array(replace(lower(caught_mail.mail_to), ' ', ''), ','))`;
         q = q.where(({ or, exists, selectFrom }) =>
           or([
-            exists(
-              selectFrom('users')
-                .select('id')
-                .where('organisation_id', '=', org)
-                .where(sql<string>`lower(caught_mail.mail_to)`, 'like', to),
-            ),
-            exists(
-              selectFrom('invitations')
-                .select('id')
-                .where('organisation_id', '=', org)
-                .where(sql<string>`lower(caught_mail.mail_to)`, 'like', to),
-            ),
+            exists(selectFrom('users').select('id').where('organisation_id', '=', org).where(isRecipient)),
+            exists(selectFrom('invitations').select('id').where('organisation_id', '=', org).where(isRecipient)),
           ]),
         );
       }
