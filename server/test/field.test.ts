@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import type request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, onTestFinished } from 'vitest';
+import { cautionFor } from '@shared/caution';
 import type { Polygon } from 'geojson';
 import { localProjection, prepareExcavation, signedDistanceToZoneAt, SITE_TOLERANCE } from '@shared/geometry';
 import { exclusionDistance } from '@shared/permits/exclusion';
@@ -173,7 +174,12 @@ describe('concerns', () => {
         .executeTakeFirstOrThrow()
     ).n;
 
-  it('makes one concern per idempotency key, on the timeline, and e-mails the coordinators and supervisors', async () => {
+  it('makes one concern per idempotency key, on the timeline, and e-mails the coordinators and supervisors, each in their units', async () => {
+    // The second coordinator works in US customary units: their message names OSHA's rule.
+    await t.deps.db.updateTable('users').set({ units: 'us' }).where('email', '=', w.coordinator2Email).execute();
+    onTestFinished(async () => {
+      await t.deps.db.updateTable('users').set({ units: null }).where('email', '=', w.coordinator2Email).execute();
+    });
     const key = randomUUID();
     const note = `Crack opening along the north edge ${key.slice(0, 6)}`;
     const first = await send(people.a.agent, named.id, { excavationId: String(w.trenchId), note }, [PNG], key);
@@ -203,6 +209,10 @@ describe('concerns', () => {
     for (const to of [demo.coordinator, demo.supervisor, w.coordinator2Email]) {
       const mail = await waitForMail(t.deps, to, new RegExp(`Concern on permit ${named.number}`));
       expect(mail.text).toContain(note);
+      // One message each (nobody sees the others' addresses), with the caution in the reader's units.
+      expect(mail.mail_to).toBe(to);
+      if (to === w.coordinator2Email) expect(mail.text).toContain(cautionFor('us'));
+      else expect(mail.text).not.toContain('OSHA');
     }
     // The photo is served to members of the site only.
     const photoId = first.body.concern.photoIds[0];

@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { CAUTION, cautionFor } from '@shared/caution';
 import { checklist, type InspectionInput } from '@shared/schemas/inspections';
 import { checkOverdueInspections, runReconciliation } from '../src/jobs/inspections';
 import { MB } from '../src/services/uploads';
@@ -354,6 +355,33 @@ describe('a failed inspection', () => {
   });
 });
 
+describe('a failed inspection, e-mailed in each lead’s units', () => {
+  it('one message to each supervisor and coordinator: OSHA named for a US reader, not for a metric one', async () => {
+    at('2026-06-12T06:15:00Z');
+    // A US site: its supervisor chose nothing and reads in the site's units; its coordinator chose metric.
+    const s = await newSite('US units site', 'America/Chicago');
+    await t.deps.db.updateTable('sites').set({ units: 'us' }).where('id', '=', s).execute();
+    const sup = unique('us-supervisor');
+    const coord = unique('metric-coordinator');
+    await addPerson(t.deps, { email: sup, name: 'Sue Feet', member: { siteId: s, role: 'supervisor' } });
+    await addPerson(t.deps, { email: coord, name: 'Mo Metre', units: 'metric', member: { siteId: s, role: 'coordinator' } });
+    const e = await excavation(s);
+    const r = await (await signedIn(t.app, sup)).post(`/api/excavations/${e.id}/inspections`).send(notSafe());
+    expect(r.status).toBe(201);
+    expect(r.body.consequences.notified.sort()).toEqual([coord, sup].sort());
+    const toUs = await waitForMail(t.deps, sup, new RegExp(`Not safe: ${e.reference}`));
+    expect(toUs.mail_to).toBe(sup);
+    expect(toUs.text).toContain(cautionFor('us'));
+    expect(toUs.html).toContain('OSHA 29 CFR 1926 Subpart P');
+    const toMetric = await waitForMail(t.deps, coord, new RegExp(`Not safe: ${e.reference}`));
+    expect(toMetric.mail_to).toBe(coord);
+    expect(toMetric.text).toContain(CAUTION);
+    expect(toMetric.text).not.toContain('OSHA');
+    // The inspector's own words stay as typed (150 mm) in both.
+    for (const m of [toUs, toMetric]) expect(m.text).toContain('North waling dropped 150 mm');
+  });
+});
+
 describe('a failed inspection stops the work beside it', () => {
   let w: PermitWorld;
   beforeAll(async () => {
@@ -620,7 +648,7 @@ describe('the overdue e-mail (scheduled job, run here with an injected clock)', 
       .insertInto('site_members')
       .values([
         { site_id: s, user_id: await person(sup, 'Rita Shore'), role: 'supervisor' },
-        { site_id: s, user_id: await person(coord, 'Cole Brace'), role: 'coordinator' },
+        { site_id: s, user_id: (await addPerson(t.deps, { email: coord, name: 'Cole Brace', units: 'us' })).id, role: 'coordinator' },
         { site_id: s, user_id: await person(op, 'Opal Track'), role: 'operator', can_inspect: true },
       ])
       .execute();
@@ -638,7 +666,13 @@ describe('the overdue e-mail (scheduled job, run here with an injected clock)', 
     const mail = await waitForMail(t.deps, coord, /Inspections overdue at Reminder site/);
     expect(mail.text).toContain(`${a.reference} Test trench`);
     expect(mail.text).not.toContain(`${b.reference} Test trench`);
-    expect(mail.mail_to).not.toContain(op);
+    // One message each, in the reader's units: the coordinator works in US units and reads OSHA's rule.
+    expect(mail.mail_to).toBe(coord);
+    expect(mail.text).toContain(cautionFor('us'));
+    const toSup = await waitForMail(t.deps, sup, /Inspections overdue at Reminder site/);
+    expect(toSup.mail_to).toBe(sup);
+    expect(toSup.text).toContain(CAUTION);
+    expect(toSup.text).not.toContain('OSHA');
     at('2026-07-01T11:45:00Z');
     expect((await run()).sentTo).toEqual([]); // once per shift
     at('2026-07-02T11:10:00Z'); // next day, inside the grace time

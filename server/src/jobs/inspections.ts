@@ -57,11 +57,9 @@ export async function checkOverdueInspections(deps: Deps, opts: { siteIds?: numb
         .returning('site_id')
         .executeTakeFirst();
       if (!claimed) return;
-      const to = (await siteLeads(trx, siteId)).map((p) => p.email);
       const tz = clock.timeZone;
-      await deps.mailer.send(trx, {
-        to,
-        ...notice({
+      run.sentTo = await deps.mailer.sendEach(trx, await siteLeads(trx, siteId), (units) =>
+        notice({
           subject: `Inspections overdue at ${clock.siteName}: ${late.map((e) => e.reference).join(', ')}`,
           lines: [
             `The ${clock.shift.name.toLowerCase()} at ${clock.siteName} started at ${formatSiteTime(clock.shift.start, tz)} (${tz}). ` +
@@ -76,9 +74,9 @@ export async function checkOverdueInspections(deps: Deps, opts: { siteIds?: numb
             'Nobody works in or beside them until a competent person has inspected them and found them safe.',
           ],
           link: { label: 'Open the inspection list', url: `${deps.config.publicUrl}/sites/${siteId}/inspections` },
+          units,
         }),
-      });
-      run.sentTo = to;
+      );
     });
   }
   return runs;

@@ -15,6 +15,12 @@ interface Message {
   html?: string;
 }
 
+/** Someone a message goes to, and the units they read it in (their own choice, else their site's). */
+export interface Reader {
+  email: string;
+  units: UnitSystem;
+}
+
 /** A message on the queue: its idempotency key travels with it. */
 export interface QueuedMessage extends Message {
   key: string;
@@ -66,6 +72,20 @@ export class Mailer {
     const data: QueuedMessage = { ...message, to, key };
     await this.boss.send(this.queue, data, { db: queueConnection(db) });
     return key;
+  }
+
+  /**
+   * Queues one message per reader through `db`, each composed in the reader's units (figures and the
+   * caution; OSHA named for a reader in US units); people do not see each other's addresses.
+   * Returns the addresses.
+   */
+  async sendEach(db: Db, readers: Reader[], compose: (units: UnitSystem) => Omit<Message, 'to'>): Promise<string[]> {
+    const composed = new Map<UnitSystem, Omit<Message, 'to'>>();
+    for (const r of readers) {
+      if (!composed.has(r.units)) composed.set(r.units, compose(r.units));
+      await this.send(db, { to: r.email, ...composed.get(r.units)! });
+    }
+    return readers.map((r) => r.email);
   }
 
   /**

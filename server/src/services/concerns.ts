@@ -10,6 +10,7 @@ import type { Deps } from '../deps';
 import { badRequest, conflict } from '../http';
 import { notice } from '../mail/mailer';
 import { audit } from './audit';
+import { siteLeads } from './inspections';
 import { pushConcern } from './permits/push';
 import { withCurrentRevision } from './permits/read';
 import { storeUpload } from './uploads';
@@ -59,21 +60,6 @@ export function concernOut(r: ConcernRow): Concern {
     createdAt: new Date(r.created_at).toISOString(),
     idempotencyKey: r.idempotency_key,
   };
-}
-
-/** The coordinators' and supervisors' addresses on a site (active people), but not the reporter's. */
-async function concernRecipients(db: Db, siteId: number, exceptUserId: number): Promise<string[]> {
-  const rows = await db
-    .selectFrom('site_members as m')
-    .innerJoin('users as u', 'u.id', 'm.user_id')
-    .select('u.email')
-    .where('m.site_id', '=', siteId)
-    .where('m.role', 'in', ['coordinator', 'supervisor'])
-    .where('u.active', '=', true)
-    .where('u.id', '<>', exceptUserId)
-    .orderBy('u.email')
-    .execute();
-  return rows.map((r) => r.email);
 }
 
 /** Is the excavation one of those the permit's current revision names? */
@@ -193,17 +179,20 @@ async function recordConcern(deps: Deps, c: ConcernReport, excavationReference: 
   });
   // The notices are queued in the same transaction as the concern.
   const n = c.photos.length;
-  const message = notice({
-    subject: `Concern on permit ${permit.number}: excavation ${excavationReference}`,
-    lines: [
-      `${c.by.name} reported a concern on permit ${permit.number} at ${permit.site_name}, about excavation ${excavationReference}.`,
-      `"${c.note}"`,
-      n ? `${n === 1 ? 'One photo is' : `${n} photos are`} on the permit's timeline.` : 'No photo was sent.',
-      'Please look at it and decide whether work under the permit must stop.',
-    ],
-    link: { label: `Open permit ${permit.number}`, url: `${deps.config.publicUrl}/permits/${c.permitId}` },
-  });
-  for (const to of await concernRecipients(trx, c.siteId, c.by.id)) await deps.mailer.send(trx, { to, ...message });
+  const readers = (await siteLeads(trx, c.siteId)).filter((p) => p.id !== c.by.id);
+  await deps.mailer.sendEach(trx, readers, (units) =>
+    notice({
+      subject: `Concern on permit ${permit.number}: excavation ${excavationReference}`,
+      lines: [
+        `${c.by.name} reported a concern on permit ${permit.number} at ${permit.site_name}, about excavation ${excavationReference}.`,
+        `"${c.note}"`,
+        n ? `${n === 1 ? 'One photo is' : `${n} photos are`} on the permit's timeline.` : 'No photo was sent.',
+        'Please look at it and decide whether work under the permit must stop.',
+      ],
+      link: { label: `Open permit ${permit.number}`, url: `${deps.config.publicUrl}/permits/${c.permitId}` },
+      units,
+    }),
+  );
   await pushConcern(deps, {
     permitId: c.permitId,
     number: permit.number,

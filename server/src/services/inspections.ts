@@ -13,6 +13,7 @@ import {
   storedChecklist,
   storedConsequences,
 } from '@shared/schemas/inspections';
+import type { UnitSystem } from '@shared/units';
 import { DEFAULT_SHIFTS, currentShift, formatSiteTime, type ShiftDef, type ShiftSpan } from '@shared/time/shifts';
 import { notice } from '../mail/mailer';
 import type { Deps } from '../deps';
@@ -408,16 +409,21 @@ async function suspensionsOf(db: Db, inspectionIds: number[]): Promise<{ inspect
 }
 
 /** The site's supervisors and coordinators (active), who hear of failed and overdue inspections. */
-export async function siteLeads(db: Db, siteId: number): Promise<{ email: string; name: string }[]> {
-  return db
-    .selectFrom('site_members')
-    .innerJoin('users', 'users.id', 'site_members.user_id')
-    .select(['users.email', 'users.name'])
-    .where('site_members.site_id', '=', siteId)
-    .where('site_members.role', 'in', ['supervisor', 'coordinator'])
-    .where('users.active', '=', true)
-    .orderBy('users.email')
-    .execute();
+export async function siteLeads(db: Db, siteId: number): Promise<{ id: number; email: string; name: string; units: UnitSystem }[]> {
+  return (
+    db
+      .selectFrom('site_members')
+      .innerJoin('users', 'users.id', 'site_members.user_id')
+      .innerJoin('sites', 'sites.id', 'site_members.site_id')
+      .select(['users.id', 'users.email', 'users.name'])
+      // The units each reads in: their own, else the site's (as unitsOf).
+      .select((eb) => eb.fn.coalesce('users.units', 'sites.units').as('units'))
+      .where('site_members.site_id', '=', siteId)
+      .where('site_members.role', 'in', ['supervisor', 'coordinator'])
+      .where('users.active', '=', true)
+      .orderBy('users.email')
+      .execute()
+  );
 }
 
 /* ---------------------------------------------------------------- consequences */
@@ -526,11 +532,9 @@ export async function reconcileUnsafe(deps: Deps, opts: { siteIds?: number[] } =
 
 async function mailFailedInspection(deps: Deps, exc: ExcavationRow, inspection: Inspection, c: Consequences): Promise<string[]> {
   const clock = await siteClock(deps.db, exc.site_id, new Date(inspection.inspectedAt));
-  const to = (await siteLeads(deps.db, exc.site_id)).map((p) => p.email);
   const failed = failedItems(inspection.checklist);
-  await deps.mailer.send(deps.db, {
-    to,
-    ...notice({
+  return deps.mailer.sendEach(deps.db, await siteLeads(deps.db, exc.site_id), (units) =>
+    notice({
       subject: `Not safe: ${exc.reference} ${exc.name} failed its inspection`,
       lines: [
         `${inspection.inspector.name} inspected ${exc.reference} ${exc.name} at ${formatSiteTimeIn(clock, inspection.inspectedAt)} and found it NOT SAFE. Work in and beside it must stop.`,
@@ -545,9 +549,9 @@ async function mailFailedInspection(deps: Deps, exc: ExcavationRow, inspection: 
         'It shows red on the map until a later inspection finds it safe.',
       ],
       link: { label: 'See the inspection', url: `${deps.config.publicUrl}/sites/${exc.site_id}/excavations/${exc.id}/inspections` },
+      units,
     }),
-  });
-  return to;
+  );
 }
 
 function formatSiteTimeIn(clock: SiteClock, iso: string): string {

@@ -206,9 +206,8 @@ export async function notifyTransition(
         units,
       });
     };
-    // One message each, in the reader's units: people do not see each other's addresses.
-    for (const p of people) await deps.mailer.send(deps.db, { to: p.email, ...messageIn(p.units ?? siteUnits) });
-    sent.push(...people.map((p) => p.email));
+    const readers = people.map((p) => ({ email: p.email, units: p.units ?? siteUnits }));
+    sent.push(...(await deps.mailer.sendEach(deps.db, readers, messageIn)));
   }
   return sent;
 }
