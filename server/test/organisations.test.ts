@@ -1,6 +1,17 @@
 import request from 'supertest';
+import { sql } from 'kysely';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { addPerson, makeOrganisation, signedIn, startTestApp, unique, type OtherOrganisation, type TestApp } from './helpers';
+import {
+  addPerson,
+  demo,
+  demoOrganisationId,
+  makeOrganisation,
+  signedIn,
+  startTestApp,
+  unique,
+  type OtherOrganisation,
+  type TestApp,
+} from './helpers';
 import { createOrganisation } from '../src/services/organisation';
 import { addTrench, createPermit, makeWorld, permitBody, submitAndApprove, type PermitWorld } from './permits-fixtures';
 
@@ -62,6 +73,44 @@ describe('organisations', () => {
     expect(theirs.body.error.fields).toEqual({ siteId: 'is not a site' });
   });
 
+  it("refuses, when sent, an invitation to the address of another organisation's person, naming no organisation", async () => {
+    const send = (agent: typeof bAdmin, email: string) => agent.post('/api/invitations').send({ email, name: 'Ivo Invitee' });
+    const theirs = await send(bAdmin, demo.operator);
+    expect(theirs.status).toBe(409);
+    expect(theirs.body.error.fields).toEqual({ email: 'cannot be invited here' });
+    // Nothing of the other organisation in the answer: neither its name nor the person's.
+    const aOrg = await t.deps.db
+      .selectFrom('organisations')
+      .select('name')
+      .where('id', '=', await demoOrganisationId(t.deps))
+      .executeTakeFirstOrThrow();
+    const person = await t.deps.db.selectFrom('users').select('name').where('email', '=', demo.operator).executeTakeFirstOrThrow();
+    for (const word of [aOrg.name, person.name]) expect(JSON.stringify(theirs.body)).not.toContain(word);
+    // A deactivated person of A is refused in the same words (the answer tells no more about them).
+    const gone = unique('orgtest-gone');
+    await addPerson(t.deps, { email: gone, name: 'Gwen Gone', active: false });
+    expect((await send(bAdmin, gone)).body).toEqual(theirs.body);
+    expect(
+      await t.deps.db
+        .selectFrom('invitations')
+        .select('id')
+        .where('email', 'in', [demo.operator, gone])
+        .where('organisation_id', '=', b.id)
+        .execute(),
+    ).toEqual([]);
+    const refusals = await t.deps.db
+      .selectFrom('audit_log')
+      .select('detail')
+      .where('entity', '=', 'invitation')
+      .where('action', '=', 'refused')
+      .where(sql<boolean>`detail @> ${JSON.stringify({ email: gone })}::jsonb`)
+      .execute();
+    expect(refusals).toHaveLength(1);
+    // An address of one's own organisation, and a new one, are still invited.
+    expect((await send(bAdmin, b.coordinatorEmail)).status).toBe(201);
+    expect((await send(bAdmin, unique('orgtest-new'))).status).toBe(201);
+  });
+
   it("makes a site member only of a person of the site's organisation", async () => {
     const put = (agent: typeof bAdmin, userId: number, siteId: number) =>
       agent.put(`/api/users/${userId}/memberships/${siteId}`).send({ role: 'supervisor', canInspect: false });
@@ -121,6 +170,38 @@ describe('organisations', () => {
     expect(theirs.body.error.fields).toEqual({ 'loads[0].plantItemId': 'is not in the plant library' });
     const own = await supervisor.post('/api/permits').send(body(b.plantItemId));
     expect(own.status).toBe(201);
+  });
+
+  it('tells each person which organisation they are in, and lets its administrator rename it', async () => {
+    const me = (await bCoordinator.get('/api/auth/me').expect(200)).body.user;
+    const row = await t.deps.db.selectFrom('organisations').select(['id', 'name']).where('id', '=', b.id).executeTakeFirstOrThrow();
+    expect(me.organisation).toEqual({ id: b.id, name: row.name });
+    const aMe = (await w.agents.coordinator.get('/api/auth/me').expect(200)).body.user;
+    expect(aMe.organisation.id).not.toBe(b.id);
+
+    // Only an administrator renames, and only their own organisation (the path names none).
+    const byCoordinator = await bCoordinator.patch('/api/organisation').send({ name: 'Coup Earthworks (test)' });
+    expect(byCoordinator.status).toBe(403);
+    const blank = await bAdmin.patch('/api/organisation').send({ name: '   ' });
+    expect(blank.status).toBe(400);
+    expect(blank.body.error.fields).toEqual({ name: 'is required' });
+    const taken = await bAdmin.patch('/api/organisation').send({ name: aMe.organisation.name });
+    expect(taken.status).toBe(409);
+    expect(taken.body.error.fields).toEqual({ name: 'is already taken on this Brink' });
+
+    const newName = `Renamed Earthworks ${unique('r')} (test)`;
+    const renamed = await bAdmin.patch('/api/organisation').send({ name: `  ${newName} ` });
+    expect(renamed.status).toBe(200);
+    expect(renamed.body.organisation).toEqual({ id: b.id, name: newName });
+    expect((await bCoordinator.get('/api/auth/me').expect(200)).body.user.organisation.name).toBe(newName);
+    expect((await w.agents.coordinator.get('/api/auth/me').expect(200)).body.user.organisation).toEqual(aMe.organisation);
+    const logged = await t.deps.db
+      .selectFrom('audit_log')
+      .select(['action', 'detail'])
+      .where('entity', '=', 'organisation')
+      .where('entity_id', '=', String(b.id))
+      .execute();
+    expect(logged).toEqual([{ action: 'renamed', detail: { from: row.name, to: newName } }]);
   });
 
   it("makes an organisation for the installation's operator, whose invited administrator starts with nothing of another's", async () => {

@@ -60,6 +60,7 @@ export const matrix: Record<string, Row> = {
   'POST /api/invitations/accept': { allow: everyone, body: {} },
   'POST /api/invitations': { allow: ['admin'], body: {} },
   'GET /api/users': { allow: ['admin'] },
+  'PATCH /api/organisation': { allow: ['admin'], body: {} },
   'PATCH /api/users/:id': { allow: ['admin'], body: { name: 1 } },
   'PUT /api/users/:id/memberships/:siteId': { allow: ['admin'], body: {} },
   'DELETE /api/users/:id/memberships/:siteId': { allow: ['admin'] },

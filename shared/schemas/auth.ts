@@ -36,11 +36,21 @@ export const acceptInvitationSchema = z.object({
 
 const membershipAnswer = z.object({ siteId: z.number().int(), siteName: z.string(), role: siteRoleSchema, canInspect: z.boolean() });
 
+/** An organisation as its people see it: the one they belong to. */
+export const organisationAnswer = z.object({ id: z.number().int(), name: z.string() });
+export type Organisation = z.infer<typeof organisationAnswer>;
+
+/** PATCH /api/organisation: an administrator renames their own organisation. */
+export const organisationUpdateSchema = z.object({ name: nameSchema });
+export const oneOrganisationAnswer = z.object({ organisation: organisationAnswer });
+
 export const meAnswer = z.object({
   id: z.number().int(),
   email: z.string(),
   name: z.string(),
   isAdmin: z.boolean(),
+  /** The organisation the person belongs to (an administrator manages that one only). */
+  organisation: organisationAnswer,
   /** The person's own units; null follows each site's (docs/calculation.md, "Units"). */
   units: unitSystemSchema.nullable(),
   memberships: z.array(membershipAnswer),

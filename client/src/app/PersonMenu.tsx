@@ -19,6 +19,10 @@ export function PersonLinks({ onDone }: { onDone?: () => void }) {
       <div>
         <p className="font-semibold">{me.name}</p>
         <p className="break-all text-sm text-ink-soft">{me.email}</p>
+        <p className="text-sm">
+          <span className="text-ink-soft">Organisation: </span>
+          {me.organisation.name}
+        </p>
       </div>
       <ul className="flex flex-col gap-1 text-sm">
         {me.isAdmin ? <li>Administrator</li> : null}
@@ -71,9 +75,15 @@ export function PersonMenu() {
   return (
     <div ref={root} className="relative">
       <Button variant="quiet" aria-expanded={open} aria-controls={panelId} onClick={() => setOpen((o) => !o)} className="max-w-56">
-        <span className="truncate">
-          <span className="sr-only">Signed in as </span>
-          {me.name}
+        <span className="flex min-w-0 flex-col items-start leading-tight">
+          <span className="max-w-full truncate">
+            <span className="sr-only">Signed in as </span>
+            {me.name}
+          </span>
+          <span className="max-w-full truncate text-xs font-normal text-ink-soft">
+            <span className="sr-only">, of </span>
+            {me.organisation.name}
+          </span>
         </span>
         <span aria-hidden="true">▾</span>
       </Button>

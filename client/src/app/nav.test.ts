@@ -13,6 +13,7 @@ const operator: Me = {
   email: 'op@example.test',
   name: 'Op',
   isAdmin: false,
+  organisation: { id: 1, name: 'Invented Groundworks' },
   units: null,
   memberships: [
     { siteId: 1, siteName: 'One', role: 'operator', canInspect: false },

@@ -40,7 +40,20 @@ export function fakeApi(answers: Record<string, FakeAnswer | (() => FakeAnswer)>
 /** A signed-in person with no sites who reads figures in `units` (the rest of the API answers 404). */
 export function fakePersonIn(units: 'us' | 'metric') {
   return fakeApi({
-    'GET /api/auth/me': { status: 200, body: { user: { id: 1, email: 'a@b.test', name: 'A', isAdmin: false, units, memberships: [] } } },
+    'GET /api/auth/me': {
+      status: 200,
+      body: {
+        user: {
+          id: 1,
+          email: 'a@b.test',
+          name: 'A',
+          isAdmin: false,
+          organisation: { id: 1, name: 'Invented Groundworks' },
+          units,
+          memberships: [],
+        },
+      },
+    },
     'GET /api/sites': { status: 200, body: { sites: [] } },
   });
 }

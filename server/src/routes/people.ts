@@ -1,10 +1,11 @@
 import { z } from 'zod';
-import { invitationSchema } from '@shared/schemas/auth';
+import { invitationSchema, oneOrganisationAnswer, organisationUpdateSchema } from '@shared/schemas/auth';
 import { idSchema, roleLabels } from '@shared/schemas/common';
 import { createdAnswer, membershipSchema, onePersonAnswer, peopleAnswer, userUpdateSchema } from '@shared/schemas/sites';
 import { Api, HttpError, notFound } from '../http';
 import { audit } from '../services/audit';
 import { loadPeople, revokeAccess } from '../services/people';
+import { isUniqueViolation } from '../services/pg-errors';
 import { ownedPath } from '../services/organisation';
 import { INVITATION_HOURS, newToken } from '../services/tokens';
 import { notice } from '../mail/mailer';
@@ -24,7 +25,7 @@ export function registerPeopleRoutes(api: Api): void {
       tag: 'People',
       access: { kind: 'admin' },
       body: invitationSchema,
-      responses: { 201: 'Invitation queued for e-mail' },
+      responses: { 201: 'Invitation queued for e-mail', 409: 'The address belongs to a person of another organisation' },
     },
     async ({ body, user, res, deps }) => {
       let siteName: string | null = null;
@@ -37,6 +38,21 @@ export function registerPeopleRoutes(api: Api): void {
           .executeTakeFirst();
         if (!site) throw new HttpError(400, 'invalid', 'That site does not exist.', { siteId: 'is not a site' });
         siteName = site.name;
+      }
+      // A person belongs to one organisation: an address that is already someone's elsewhere is
+      // refused now, not when its owner follows the link. The answer names no organisation and is
+      // the same for any such address; each refusal is audited (docs/security.md, "Organisations").
+      const elsewhere = await db
+        .selectFrom('users')
+        .select('id')
+        .where('email', '=', body.email)
+        .where('organisation_id', '<>', user.organisationId)
+        .executeTakeFirst();
+      if (elsewhere) {
+        await audit(db, { actorId: user.id, entity: 'invitation', action: 'refused', detail: { email: body.email } });
+        throw new HttpError(409, 'conflict', 'This address cannot be invited here. Ask the person for another address.', {
+          email: 'cannot be invited here',
+        });
       }
       const { token, hash } = newToken();
       const id = await db.transaction().execute(async (trx) => {
@@ -81,6 +97,52 @@ export function registerPeopleRoutes(api: Api): void {
         return inv.id;
       });
       res.status(201).json({ id });
+    },
+  );
+
+  api.route(
+    {
+      method: 'patch',
+      path: '/api/organisation',
+      response: oneOrganisationAnswer,
+      summary: 'Rename my organisation (its administrators only)',
+      tag: 'People',
+      access: { kind: 'admin' },
+      body: organisationUpdateSchema,
+      responses: { 409: 'Another organisation on this Brink has that name' },
+    },
+    async ({ body, user }) => {
+      try {
+        return await db.transaction().execute(async (trx) => {
+          const before = await trx
+            .selectFrom('organisations')
+            .select('name')
+            .where('id', '=', user.organisationId)
+            .forUpdate()
+            .executeTakeFirstOrThrow();
+          const r = await trx
+            .updateTable('organisations')
+            .set({ name: body.name })
+            .where('id', '=', user.organisationId)
+            .returning(['id', 'name'])
+            .executeTakeFirstOrThrow();
+          await audit(trx, {
+            actorId: user.id,
+            entity: 'organisation',
+            entityId: r.id,
+            action: 'renamed',
+            detail: { from: before.name, to: r.name },
+          });
+          return { organisation: r };
+        });
+      } catch (e) {
+        // Names are unique on the installation (the operator tells organisations apart by them).
+        if (isUniqueViolation(e))
+          throw new HttpError(409, 'conflict', 'Another organisation on this Brink already has that name. Choose another.', {
+            name: 'is already taken on this Brink',
+          });
+        throw e;
+      }
     },
   );
 

@@ -41,10 +41,23 @@ export async function loadPeople(db: Db, which: number[] | Scope): Promise<Perso
 export async function loadMe(db: Db, id: number): Promise<Me> {
   const [[p], own] = await Promise.all([
     loadPeople(db, [id]),
-    db.selectFrom('users').select('units').where('id', '=', id).executeTakeFirst(),
+    db
+      .selectFrom('users')
+      .innerJoin('organisations', 'organisations.id', 'users.organisation_id')
+      .select(['users.units', 'organisations.id as organisationId', 'organisations.name as organisationName'])
+      .where('users.id', '=', id)
+      .executeTakeFirst(),
   ]);
-  if (!p || !p.active) throw new HttpError(401, 'signed_out', 'Please sign in.');
-  return { id: p.id, email: p.email, name: p.name, isAdmin: p.isAdmin, units: own?.units ?? null, memberships: p.memberships };
+  if (!p || !p.active || !own) throw new HttpError(401, 'signed_out', 'Please sign in.');
+  return {
+    id: p.id,
+    email: p.email,
+    name: p.name,
+    isAdmin: p.isAdmin,
+    organisation: { id: own.organisationId, name: own.organisationName },
+    units: own.units,
+    memberships: p.memberships,
+  };
 }
 
 /** Ends every session of a person (after a password reset or deactivation). */

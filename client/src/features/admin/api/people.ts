@@ -1,5 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { InvitationInput } from '@shared/schemas/auth';
+import type { InvitationInput, oneOrganisationAnswer } from '@shared/schemas/auth';
 import type { SiteRole } from '@shared/schemas/common';
 import type { z } from 'zod';
 import type { createdAnswer, onePersonAnswer, peopleAnswer, Person } from '@shared/schemas/sites';
@@ -58,5 +58,15 @@ export function useRemoveMembership(id: number) {
   return useMutation({
     mutationFn: (siteId: number) => api.delete(`/api/users/${id}/memberships/${siteId}`),
     onSuccess: () => saved(),
+  });
+}
+
+/** An administrator renames their own organisation; who-am-I carries its name, so it is asked again. */
+export function useRenameOrganisation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: { name: string }) =>
+      api.patch<z.output<typeof oneOrganisationAnswer>>('/api/organisation', body).then((r) => r.organisation),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: sessionKeys.me }),
   });
 }

@@ -4,6 +4,7 @@ import { useMe } from '@client/lib/session';
 import { usePeople } from '../api/people';
 import { useSites } from '../api/sites';
 import { InviteForm } from '../components/InviteForm';
+import { OrganisationForm } from '../components/OrganisationForm';
 import { PersonCard } from '../components/PersonCard';
 
 export function PeoplePage() {
@@ -15,12 +16,17 @@ export function PeoplePage() {
 
   return (
     <Page title="People" intro="Invite people, give them a role on each site, and deactivate those who leave.">
+      {me.data ? (
+        <Panel title="Your organisation">
+          <OrganisationForm organisation={me.data.organisation} />
+        </Panel>
+      ) : null}
       <Panel title="Invite a person">
         {sites.isError ? <LoadError error={sites.error} retry={() => sites.refetch()} /> : <InviteForm sites={siteList} />}
       </Panel>
       <section aria-labelledby="people-list" className="flex flex-col gap-4">
         <h2 id="people-list" className="text-xl font-bold">
-          Everyone in Brink
+          Everyone in {me.data?.organisation.name ?? 'your organisation'}
         </h2>
         {people.isPending ? <Loading what="Loading people" /> : null}
         {people.isError ? <LoadError error={people.error} retry={() => people.refetch()} /> : null}

@@ -59,7 +59,9 @@ export function FieldGate({ children, fallback }: { children: ReactNode; fallbac
 
   if (me.data)
     return (
-      <PersonContext.Provider value={{ id: me.data.id, name: me.data.name, email: me.data.email, fromPhone: false }}>
+      <PersonContext.Provider
+        value={{ id: me.data.id, name: me.data.name, email: me.data.email, organisationName: me.data.organisation.name, fromPhone: false }}
+      >
         {children}
       </PersonContext.Provider>
     );

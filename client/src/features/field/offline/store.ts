@@ -15,7 +15,8 @@ function store(): UseStore {
 }
 
 /** Who last signed in on this phone (from the sign-in answer). */
-export type SavedPerson = Pick<Me, 'id' | 'name' | 'email'>;
+/** Who uses the phone, as kept on it (a copy kept before organisations has no organisation's name). */
+export type SavedPerson = Pick<Me, 'id' | 'name' | 'email'> & { organisationName?: string };
 
 /** A permit as kept on the phone: the server's answer, with the time it gave it out. */
 type SavedPermit = FieldPermitAnswer;
@@ -24,8 +25,9 @@ const meKey = 'me';
 const listKey = (userId: number) => `permits:${userId}`;
 const permitKey = (userId: number, permitId: number) => `permit:${userId}:${permitId}`;
 
-export async function savePerson(person: SavedPerson): Promise<void> {
-  await set(meKey, { id: person.id, name: person.name, email: person.email }, store());
+export async function savePerson(person: Pick<Me, 'id' | 'name' | 'email' | 'organisation'>): Promise<void> {
+  const saved: SavedPerson = { id: person.id, name: person.name, email: person.email, organisationName: person.organisation.name };
+  await set(meKey, saved, store());
 }
 
 export async function savedPerson(): Promise<SavedPerson | null> {

@@ -35,6 +35,7 @@ export function MyPermitsPage() {
     <div className="flex flex-col gap-5">
       <h1 className="text-3xl font-bold">My permits</h1>
       <p>The permits that name you, {person.name}. Open one to see its zone, where you stand, and to confirm the briefing.</p>
+      {person.organisationName ? <p className="text-ink-soft">Signed in for {person.organisationName}.</p> : null}
       {shown ? (
         <>
           {possiblyOutOfDate(
