@@ -378,6 +378,27 @@ describe('text search of the list', () => {
     expect(long.status).toBe(400);
     expect(long.body.error.fields.q).toMatch(/at most 100 characters/);
   });
+
+  it("searches a permit's current revision only: words of an earlier revision no longer find it, on one site or all", async () => {
+    const tag = randomUUID().slice(0, 8);
+    const p = await createPermit(w, { description: `Old words ${tag}` });
+    const approved = await submitAndApprove(w, p.id);
+    const revised = await act(w.agents.supervisor, p.id, { action: 'revise', version: approved.version, reason: 'New work' });
+    expect(revised.status).toBe(200);
+    const found = async (q: string, site: boolean) => {
+      const r = await w.agents.supervisor.get(`/api/permits?${site ? `siteId=${w.siteId}&` : ''}q=${encodeURIComponent(q)}`).expect(200);
+      return r.body.permits.map((x: { id: number }) => x.id) as number[];
+    };
+    expect(await found(`Old words ${tag}`, true)).toEqual([p.id]); // revision 2 copies the words
+    await w.agents.supervisor
+      .patch(`/api/permits/${p.id}`)
+      .send({ version: revised.body.permit.version, description: `New words ${tag}` })
+      .expect(200);
+    for (const site of [true, false]) {
+      expect(await found(`Old words ${tag}`, site)).toEqual([]);
+      expect(await found(`New words ${tag}`, site)).toEqual([p.id]);
+    }
+  });
 });
 
 describe('dig permits', () => {

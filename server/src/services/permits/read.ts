@@ -142,27 +142,30 @@ export async function listPermits(
   if (q.excavationId) query = query.where(sql<boolean>`${q.excavationId}::int = any(r.excavation_ids)`);
   if (q.q) {
     const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    // The permits whose current revision matches, found through the trigram indexes (migration
-    // 0013) branch by branch. A load's label is looked for in the labels' JSON text first (indexed),
-    // then exactly; words with a quote, backslash or control character (escaped in that text) skip the first step.
+    // The current revisions that match, found through the trigram indexes (migration 0013) branch by
+    // branch as a list of revision ids first, then read by their keys (`= any(array(…))`): joining
+    // each branch to the permits' current revision instead read all 100,000 permits (hash joins),
+    // 70 → 18 ms for "TR-019" over all sites. A load's label is looked for in the labels' JSON text
+    // first (indexed), then exactly; words with a quote, backslash or control character (escaped in
+    // that text) skip the first step.
     const onSite = (column: string) => (q.siteId ? sql`and ${sql.ref(column)} = ${q.siteId}` : sql``);
+    const ofSite = (revision: string) =>
+      q.siteId ? sql`join permits c on c.id = ${sql.ref(`${revision}.permit_id`)} and c.site_id = ${q.siteId}` : sql``;
     const escapedInJson = [...q.q].some((c) => c === '"' || c === '\\' || c.charCodeAt(0) < 0x20);
     const labelsText = escapedInJson ? sql`true` : sql`jsonb_path_query_array(x.loads, '$[*].label')::text ilike ${like}`;
     query = query.where(
-      'p.id',
-      'in',
-      sql<number>`(
-        select c.id from permits c where c.number ilike ${like} ${onSite('c.site_id')}
+      sql<boolean>`r.id = any(array(
+        select y.id from permits c join permit_revisions y on y.permit_id = c.id and y.revision = c.revision
+        where c.number ilike ${like} ${onSite('c.site_id')}
         union
-        select x.permit_id from permit_revisions x join permits c on c.id = x.permit_id and c.revision = x.revision ${onSite('c.site_id')}
+        select x.id from permit_revisions x ${ofSite('x')}
         where x.description ilike ${like}
            or x.excavation_ids && array(select e.id from excavations e where (e.reference ilike ${like} or e.name ilike ${like}) ${onSite('e.site_id')})
            or (${labelsText} and exists (select 1 from jsonb_array_elements(x.loads) l where l->>'label' ilike ${like}))
         union
-        select x.permit_id from plant_items m
-        join permit_revisions x on x.loads @> jsonb_build_array(jsonb_build_object('plantItemId', m.id))
-        join permits c on c.id = x.permit_id and c.revision = x.revision ${onSite('c.site_id')}
-        where m.name ilike ${like})`,
+        select x.id from plant_items m
+        join permit_revisions x on x.loads @> jsonb_build_array(jsonb_build_object('plantItemId', m.id)) ${ofSite('x')}
+        where m.name ilike ${like}))`,
     );
   }
   if (q.from) query = query.where('r.window_end', '>', new Date(q.from));
