@@ -194,6 +194,12 @@ export interface ExcavationsTable {
    */
   outline: ColumnType<Stored<StoredPolygon> | null, string | null | undefined, string | null>;
   influence_zone: ColumnType<Stored<StoredZone> | null, string | null | undefined, string | null>;
+  /**
+   * The row's answer in the excavation list (JSON text) and its key (the answer's format and the
+   * version it was written at): server/src/services/excavations.ts, storeAnswers; null until written.
+   */
+  answer: string | null;
+  answer_key: string | null;
   version: Generated<number>;
   created_by: number | null;
   created_at: CreatedAt;

@@ -12,6 +12,7 @@ import * as m0011 from './0011_attempt_counts';
 import * as m0012 from './0012_units';
 import * as m0013 from './0013_list_indexes';
 import * as m0014 from './0014_organisations';
+import * as m0015 from './0015_excavation_answers';
 
 /**
  * Every migration, in order. Listed here (not read from the folder) so that the same code runs
@@ -31,4 +32,5 @@ export const migrations: Record<string, Migration> = {
   '0012_units': m0012,
   '0013_list_indexes': m0013,
   '0014_organisations': m0014,
+  '0015_excavation_answers': m0015,
 };

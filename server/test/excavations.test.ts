@@ -11,6 +11,7 @@ import {
   type ExcavationInput,
 } from '@shared/schemas/excavations';
 import { calcRequestSchema } from '@shared/schemas/calc';
+import { loadExcavations } from '../src/services/excavations';
 import { addPerson, demo, demoSiteId, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
 
 let t: TestApp;
@@ -562,5 +563,59 @@ describe('uploads: design drawings and the site plan', () => {
     expect((await as.admin.get(`/api/uploads/${ok.body.plan.uploadId}`)).headers['content-type']).toBe('image/png');
     expect((await as.admin.delete(path)).status).toBe(204);
     expect((await as.admin.get(path)).body.plan).toBeNull();
+  });
+});
+
+describe("the list's stored answers (excavations.answer, migration 0015)", () => {
+  const listed = async (id: number) =>
+    ((await as.operator.get(`/api/sites/${siteId}/excavations`)).body.excavations as Excavation[]).find((x) => x.id === id);
+  // The excavation read from its columns, as every other answer reads it.
+  const one = async (id: number) => JSON.parse(JSON.stringify((await loadExcavations(t.deps.db, siteId, [id]))[0])) as Excavation;
+  const stored = (id: number) =>
+    t.deps.db.selectFrom('excavations').select(['answer', 'answer_key', 'version']).where('id', '=', id).executeTakeFirstOrThrow();
+
+  it('are written with every change, so the list says what the excavation itself says', async () => {
+    const e = (await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(pit())).body.excavation as Excavation;
+    const check = async (version: number) => {
+      const row = await stored(e.id);
+      expect(row.version).toBe(version);
+      expect(row.answer_key).toMatch(new RegExp(`:${version}$`));
+      expect(JSON.parse(row.answer!)).toEqual(await one(e.id));
+      expect(await listed(e.id)).toEqual(await one(e.id));
+    };
+    await check(1);
+    await as.coordinator
+      .patch(`/api/sites/${siteId}/excavations/${e.id}`)
+      .send({ depth: 5.5, name: 'Deeper chamber', version: 1 })
+      .expect(200);
+    await check(2);
+    expect(await listed(e.id)).toMatchObject({ depth: 5.5, name: 'Deeper chamber' });
+    const pdf = Buffer.from('%PDF-1.4\n1 0 obj << /Type /Catalog >> endobj\ntrailer << /Root 1 0 R >>\n%%EOF\n');
+    expect((await upload(as.coordinator, `/api/sites/${siteId}/excavations/${e.id}/drawing`, pdf, 'TW-9 rev A.pdf')).status).toBe(200);
+    await check(3);
+    expect((await listed(e.id))?.drawing).toMatchObject({ name: 'TW-9 rev A.pdf', size: pdf.length });
+    const { geometry, ...properties } = pit({ reference: e.reference, depth: 6 });
+    const file = { type: 'FeatureCollection', features: [{ type: 'Feature', geometry, properties }] };
+    const imported = await upload(as.coordinator, `/api/sites/${siteId}/excavations/import`, JSON.stringify(file), 'pits.geojson', {
+      mode: 'replace',
+    });
+    expect(imported.status).toBe(200);
+    await check(4);
+    expect(await listed(e.id)).toMatchObject({ depth: 6 });
+  });
+
+  it('are not used once stale (another format, an older version): the row is answered from its columns and its answer written again', async () => {
+    const e = (await as.coordinator.post(`/api/sites/${siteId}/excavations`).send(trench())).body.excavation as Excavation;
+    const truth = await one(e.id);
+    const before = await stored(e.id);
+    for (const key of [`0.older-format:${before.version}`, `${before.answer_key!.split(':')[0]}:${before.version - 1}`, null]) {
+      await t.deps.db
+        .updateTable('excavations')
+        .set({ answer: JSON.stringify({ ...truth, depth: 99 }), answer_key: key })
+        .where('id', '=', e.id)
+        .execute();
+      expect(await listed(e.id)).toEqual(truth);
+      expect(await stored(e.id)).toEqual(before);
+    }
   });
 });

@@ -9,7 +9,16 @@ import type { Db } from '@db/database';
 import type { Deps } from '../deps';
 import { badRequest, conflict, HttpError, notFound, parseOr400, refuseFields } from '../http';
 import { audit } from './audit';
-import { columnsOf, loadExcavations, placementProblems, projectionOf, readImport, rowValues, storedShapes } from './excavations';
+import {
+  columnsOf,
+  loadExcavations,
+  placementProblems,
+  projectionOf,
+  readImport,
+  rowValues,
+  storeAnswers,
+  storedShapes,
+} from './excavations';
 import { listNumbers, permitsReferring } from './permit-references';
 import { isForeignKeyViolation, isUniqueViolation } from './pg-errors';
 import { recheckAfterExcavationChange, type RecheckOutcome } from './permits/recheck';
@@ -62,6 +71,7 @@ export async function createExcavation(deps: Deps, siteId: number, values: Excav
         .values({ ...columnsOf(values), ...shapes, site_id: site.id, created_by: by.id })
         .returning('id')
         .executeTakeFirstOrThrow();
+      await storeAnswers(trx, [r.id]);
       await audit(trx, { actorId: by.id, siteId: site.id, entity: 'excavation', entityId: r.id, action: 'created', detail: { values } });
       return r.id;
     })
@@ -115,6 +125,7 @@ export async function updateExcavation(
         .set({ ...columnsOf(after), ...shapes, version: old.version + 1, updated_at: deps.now() })
         .where('id', '=', old.id)
         .execute();
+      await storeAnswers(trx, [old.id]);
       // The change and its consequences (suspensions, reviews, notices) commit together.
       const outcomes = await recheckAfterExcavationChange(
         { ...deps, db: trx },
@@ -293,6 +304,10 @@ export async function importExcavations(deps: Deps, siteId: number, text: string
           imported.push({ index, reference: values.reference, id: oldId, action: 'updated' });
         }
       }
+      await storeAnswers(
+        trx,
+        imported.map((i) => i.id),
+      );
       return { imported, refused: [] };
     })
     .catch((e) => {
@@ -317,6 +332,7 @@ export async function setDrawing(
       .returning('reference')
       .executeTakeFirst();
     if (!r) throw notFound('That excavation');
+    await storeAnswers(trx, [o.id]);
     await audit(trx, {
       actorId: o.actorId,
       siteId: o.siteId,

@@ -3,10 +3,13 @@
  * influence zone from the shared plan geometry), the checks that need the site (every point within
  * SITE_RADIUS of the origin, an outline the geometry can form), and GeoJSON out and in.
  */
-import type { Selectable } from 'kysely';
+import { createHash } from 'node:crypto';
+import { sql, type Selectable } from 'kysely';
+import { z } from 'zod';
 import type { Feature, FeatureCollection } from 'geojson';
 import {
   codeOfLabel,
+  excavationAnswer,
   excavationInputSchema,
   kindLabels,
   SITE_RADIUS,
@@ -27,7 +30,7 @@ import { GeometryError, SITE_TOLERANCE, type LocalProjection } from '@shared/geo
 import { outlineOf, shapeColumns, type SiteOrigin } from '@shared/geometry/shapes';
 import { GeometryTimeout, type GeometryPool } from './geometry/pool';
 import type { Db, ExcavationsTable } from '@db/database';
-import { badRequest, zodFields } from '../http';
+import { badRequest, JsonText, zodFields } from '../http';
 import { decodeCursor, pageOf } from './cursor';
 
 type Row = Selectable<ExcavationsTable>;
@@ -155,15 +158,19 @@ function excavationOut(r: Row, drawing: Excavation['drawing']): Excavation {
   };
 }
 
-/** A site's excavations with their drawing's name and size, by reference. */
-function siteExcavations(db: Db, siteId: number) {
+/** Excavations with their drawing's name and size. */
+function withDrawing(db: Db) {
   return db
     .selectFrom('excavations')
     .leftJoin('uploads', 'uploads.id', 'excavations.drawing_upload_id')
     .selectAll('excavations')
-    .select(['uploads.original_name as drawing_name', 'uploads.size as drawing_size'])
-    .where('excavations.site_id', '=', siteId)
-    .orderBy('excavations.reference');
+    .select(['uploads.original_name as drawing_name', 'uploads.size as drawing_size']);
+}
+type DrawingRow = Row & { drawing_name: string | null; drawing_size: number | null };
+
+/** A site's excavations with their drawing's name and size, by reference. */
+function siteExcavations(db: Db, siteId: number) {
+  return withDrawing(db).where('excavations.site_id', '=', siteId).orderBy('excavations.reference');
 }
 
 /**
@@ -178,23 +185,77 @@ export async function loadExcavations(db: Db, siteId: number, ids?: number[]): P
   return (await q.execute()).map(rowOut);
 }
 
-function rowOut(r: Row & { drawing_name: string | null; drawing_size: number | null }): Excavation {
+function rowOut(r: DrawingRow): Excavation {
   return excavationOut(
     r,
     r.drawing_upload_id ? { id: r.drawing_upload_id, name: r.drawing_name ?? 'drawing.pdf', size: r.drawing_size ?? 0 } : null,
   );
 }
 
-/** A page of a site's excavations by reference (the map and the register follow `next`). */
-export async function loadExcavationPage(
-  db: Db,
-  siteId: number,
-  q: { limit: number; cursor?: string },
-): Promise<{ excavations: Excavation[]; next: string | null }> {
-  let query = siteExcavations(db, siteId);
-  if (q.cursor) query = query.where('excavations.reference', '>', decodeCursor(q.cursor)[0]);
+/**
+ * The format of the stored answers (excavations.answer, migration 0015): a digest of the answer's
+ * schema, so that a Brink whose answer has other fields or types does not use answers an older one
+ * stored. A change of what a field holds with the same schema (units, rounding) must change
+ * ANSWER_EDITION.
+ */
+const ANSWER_EDITION = 1;
+const ANSWER_FORMAT = `${ANSWER_EDITION}.${createHash('sha256')
+  .update(JSON.stringify(z.toJSONSchema(excavationAnswer, { unrepresentable: 'any' })))
+  .digest('hex')
+  .slice(0, 16)}`;
+
+/** Writes the answers of these rows (read in the same transaction as their change), each at its version. */
+async function storeAnswersOf(db: Db, rows: { row: DrawingRow; answer: string }[]): Promise<void> {
+  if (rows.length === 0) return;
+  const values = rows.map(
+    ({ row, answer }) => sql`(${row.id}::int, ${row.version}::int, ${answer}::text, ${`${ANSWER_FORMAT}:${row.version}`}::text)`,
+  );
+  await sql`update excavations e set answer = v.answer, answer_key = v.key
+    from (values ${sql.join(values)}) as v(id, version, answer, key)
+    where e.id = v.id and e.version = v.version`.execute(db);
+}
+
+/**
+ * Stores the list answer of these excavations as they now are: every write of an excavation calls
+ * it in its transaction, after the row is written. (A row without a current answer is still
+ * answered right, from its columns, and its answer written then: loadExcavationPage.)
+ */
+export async function storeAnswers(db: Db, ids: number[]): Promise<void> {
+  if (ids.length === 0) return;
+  const rows = await withDrawing(db).where('excavations.id', 'in', ids).execute();
+  await storeAnswersOf(
+    db,
+    rows.map((row) => ({ row, answer: JSON.stringify(rowOut(row)) })),
+  );
+}
+
+/**
+ * A page of a site's excavations by reference (the map and the register follow `next`), as JSON
+ * text: the stored answers of the rows, joined. A row whose answer is missing or stale (its key is
+ * not this format at its version) is read from its columns and checked as any read is (rowOut),
+ * and its answer is stored for the next read.
+ */
+export async function loadExcavationPage(db: Db, siteId: number, q: { limit: number; cursor?: string }): Promise<JsonText> {
+  let query = db
+    .selectFrom('excavations')
+    .select(['id', 'reference', sql<string | null>`case when answer_key = ${ANSWER_FORMAT} || ':' || version then answer end`.as('answer')])
+    .where('site_id', '=', siteId)
+    .orderBy('reference');
+  if (q.cursor) query = query.where('reference', '>', decodeCursor(q.cursor)[0]);
   const { page, next } = pageOf(await query.limit(q.limit + 1).execute(), q.limit, (r) => r.reference);
-  return { excavations: page.map(rowOut), next };
+  const stale = page.filter((r) => r.answer === null).map((r) => r.id);
+  const fresh = new Map<number, string>();
+  if (stale.length) {
+    const rows = (await withDrawing(db).where('excavations.id', 'in', stale).execute()).map((row) => ({
+      row,
+      answer: JSON.stringify(rowOut(row)),
+    }));
+    for (const { row, answer } of rows) fresh.set(row.id, answer);
+    await storeAnswersOf(db, rows);
+  }
+  // A stale row removed between the two reads is left out.
+  const answers = page.map((r) => r.answer ?? fresh.get(r.id)).filter((a): a is string => a !== undefined);
+  return new JsonText(`{"excavations":[${answers.join(',')}],"next":${JSON.stringify(next)}}`);
 }
 
 /** Properties written for each excavation in a GeoJSON export (and read back on import). */
