@@ -50,7 +50,7 @@ describe('organisations', () => {
     expect(permits.body.permits).toEqual([]);
 
     const [aPeople, aSites, aPlant] = await Promise.all(
-      ['/api/users', '/api/sites', '/api/plant'].map((p) => w.agents.admin.get(p).expect(200)),
+      ['/api/users?limit=500', '/api/sites', '/api/plant'].map((p) => w.agents.admin.get(p).expect(200)),
     );
     expect(ids(aPeople.body.users)).not.toContain(b.coordinatorId);
     expect(ids(aPeople.body.users)).toContain(w.coordinatorId);

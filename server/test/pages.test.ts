@@ -1,7 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type request from 'supertest';
-import { startTestApp, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, makeOrganisation, signedIn, startTestApp, type TestApp, demoOrganisationId } from './helpers';
+import { checklist } from '@shared/schemas/inspections';
 import { addTrench, createPermit, excavatorAt, hoursFrom, makeWorld, newTrench, type PermitWorld } from './permits-fixtures';
 
 // Issue 16 §1: long lists come a page at a time (keyset: ordered by the sort, then the id), each
@@ -29,7 +30,7 @@ async function follow(agent: request.Agent, path: string): Promise<{ ids: number
   let cursor: string | null = null;
   do {
     const r: request.Response = await agent.get(`${path}${cursor ? `&cursor=${encodeURIComponent(cursor)}` : ''}`).expect(200);
-    const list = (r.body.permits ?? r.body.excavations) as { id: number }[];
+    const list = (r.body.permits ?? r.body.excavations ?? r.body.users ?? r.body.inspections) as { id: number }[];
     ids.push(...list.map((x) => x.id));
     cursor = r.body.next;
     pages += 1;
@@ -63,6 +64,21 @@ describe('permit list pages', () => {
     expect(r.body.error.fields.cursor).toMatch(/not a cursor/);
   });
 
+  it("refuses a cursor of another sort, and one whose key is not the sort's (not a database error)", async () => {
+    const q = `/api/permits?siteId=${w.siteId}&excavationId=${w.trenchId}&limit=1`;
+    const byStatus = (await w.agents.supervisor.get(`${q}&sort=status`).expect(200)).body.next as string;
+    expect(byStatus).toBeTruthy();
+    const other = await w.agents.supervisor.get(`${q}&sort=number&cursor=${encodeURIComponent(byStatus)}`);
+    expect(other.status).toBe(400);
+    expect(other.body.error.fields).toEqual({ cursor: 'is not a cursor this list gave' });
+    // The right list's scope with a key that is not a number, made by hand.
+    const [scope] = JSON.parse(Buffer.from(byStatus, 'base64url').toString()) as [string];
+    const forged = Buffer.from(JSON.stringify([scope.replace(':status:', ':number:'), 'x); drop', 1])).toString('base64url');
+    const r = await w.agents.supervisor.get(`${q}&sort=number&cursor=${forged}`);
+    expect(r.status).toBe(400);
+    expect(r.body.error.fields).toEqual({ cursor: 'is not a cursor this list gave' });
+  });
+
   it('finds a load by a label with quotes in it (the search then skips the indexed first step)', async () => {
     const r = await w.agents.supervisor.get(`/api/permits?siteId=${w.siteId}&q=${encodeURIComponent(`"${tag}" loader`)}`).expect(200);
     expect(r.body.permits.map((p: { id: number }) => p.id)).toEqual([quoted.id]);
@@ -90,5 +106,80 @@ describe('excavation pages', () => {
     const paged = await follow(w.agents.admin, `/api/sites/${site.id}/excavations?limit=1`);
     expect(paged.ids).toEqual(all);
     expect(paged.pages).toBe(3);
+  });
+});
+
+describe('people pages', () => {
+  it("follows next through an organisation's people by name, and refuses another organisation's cursor", async () => {
+    const o = await makeOrganisation(t.deps, 'Pages');
+    for (const name of ['Ada Pages', 'Ben Pages', 'Ben Pages', 'Cy Pages']) {
+      await addPerson(t.deps, {
+        organisationId: o.id,
+        email: `${randomUUID().slice(0, 8)}-pages@example.test`,
+        name,
+        active: name !== 'Cy Pages',
+      });
+    }
+    const admin = await signedIn(t.app, o.adminEmail);
+    const whole = await admin.get('/api/users?limit=500').expect(200);
+    expect(whole.body.next).toBeNull();
+    const all = whole.body.users.map((u: { id: number }) => u.id);
+    expect(whole.body.users.map((u: { name: string }) => u.name)).toEqual([
+      'Ada Pages',
+      'Ben Pages',
+      'Ben Pages',
+      'Cy Pages',
+      'Pages Admin',
+      'Pages Coordinator',
+    ]);
+    // Every page counts the whole organisation.
+    expect(whole.body.counts).toEqual({ active: 5, total: 6 });
+    // Two of the same name: the id breaks the tie at the page boundary.
+    const paged = await follow(admin, '/api/users?limit=2');
+    expect(paged.ids).toEqual(all);
+    expect(paged.pages).toBe(3);
+    const first = await admin.get('/api/users?limit=2').expect(200);
+    expect(first.body.counts).toEqual({ active: 5, total: 6 });
+
+    // The demo organisation's administrator cannot follow it: another organisation's list.
+    const theirs = await w.agents.admin.get(`/api/users?limit=2&cursor=${encodeURIComponent(first.body.next)}`);
+    expect(theirs.status).toBe(400);
+    expect(theirs.body.error.fields).toEqual({ cursor: 'is not a cursor this list gave' });
+    const forged = await admin.get('/api/users?cursor=bm90IGEgY3Vyc29y');
+    expect(forged.status).toBe(400);
+    expect(forged.body.error.fields).toEqual({ cursor: 'is not a cursor this list gave' });
+  });
+});
+
+describe('inspection pages', () => {
+  it("follows next through an excavation's inspections, newest first, and refuses another's cursor", async () => {
+    const trench = await addTrench(t, w.siteId, w.origin);
+    const other = await addTrench(t, w.siteId, w.origin);
+    const form = {
+      reason: 'shift-start',
+      checklist: Object.fromEntries(checklist.map((c) => [c.key, { answer: c.key === 'atmosphere' ? 'na' : 'pass', note: '' }])),
+      outcome: 'safe',
+    };
+    for (let i = 0; i < 5; i++) await w.agents.supervisor.post(`/api/excavations/${trench.id}/inspections`).send(form).expect(201);
+    await w.agents.supervisor.post(`/api/excavations/${other.id}/inspections`).send(form).expect(201);
+    const whole = await w.agents.supervisor.get(`/api/excavations/${trench.id}/inspections?limit=500`).expect(200);
+    expect(whole.body.next).toBeNull();
+    const all = whole.body.inspections.map((i: { id: number }) => i.id);
+    expect(all).toHaveLength(5);
+    const times = whole.body.inspections.map((i: { inspectedAt: string }) => i.inspectedAt);
+    expect([...times].sort().reverse()).toEqual(times);
+    const paged = await follow(w.agents.supervisor, `/api/excavations/${trench.id}/inspections?limit=2`);
+    expect(paged.ids).toEqual(all);
+    expect(paged.pages).toBe(3);
+
+    const next = (await w.agents.supervisor.get(`/api/excavations/${trench.id}/inspections?limit=2`).expect(200)).body.next as string;
+    const elsewhere = await w.agents.supervisor.get(`/api/excavations/${other.id}/inspections?cursor=${encodeURIComponent(next)}`);
+    expect(elsewhere.status).toBe(400);
+    expect(elsewhere.body.error.fields).toEqual({ cursor: 'is not a cursor this list gave' });
+    const [scope, , id] = JSON.parse(Buffer.from(next, 'base64url').toString()) as [string, string, number];
+    const forged = Buffer.from(JSON.stringify([scope, 'yesterday', id])).toString('base64url');
+    const bad = await w.agents.supervisor.get(`/api/excavations/${trench.id}/inspections?cursor=${forged}`);
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields).toEqual({ cursor: 'is not a cursor this list gave' });
   });
 });

@@ -219,6 +219,13 @@ export const excavationInspectionsAnswer = z.object({
   timeZone: z.string(),
   inspectionState: z.enum(inspectionStates).nullable(),
   inspections: z.array(inspectionAnswer),
+  /** The cursor of the next page of older inspections (null on the last). */
+  next: z.string().nullable(),
+});
+export const inspectionListQuerySchema = z.object({
+  limit: z.coerce.number().int().min(1).max(500).default(50),
+  /** The `next` of the page before. */
+  cursor: z.string().max(300, 'must be at most 300 characters').optional(),
 });
 export type ExcavationInspections = z.output<typeof excavationInspectionsAnswer>;
 

@@ -74,6 +74,17 @@ export const personAnswer = z.object({
   memberships: z.array(z.object({ siteId: z.number().int(), siteName: z.string(), role: siteRoleSchema, canInspect: z.boolean() })),
 });
 export type Person = z.infer<typeof personAnswer>;
-export const peopleAnswer = z.object({ users: z.array(personAnswer) });
+/** GET /api/users: one page of an organisation's people, by name, and the cursor of the next (null on the last). */
+export const peopleAnswer = z.object({
+  users: z.array(personAnswer),
+  next: z.string().nullable(),
+  /** How many people the organisation has, active and in all (every page says the same). */
+  counts: z.object({ active: z.number().int(), total: z.number().int() }),
+});
+export const peopleListQuerySchema = z.object({
+  limit: z.coerce.number().int().min(1).max(500).default(100),
+  /** The `next` of the page before. */
+  cursor: z.string().max(1000, 'must be at most 1000 characters').optional(),
+});
 export const onePersonAnswer = z.object({ user: personAnswer });
 export const createdAnswer = z.object({ id: z.number().int() });

@@ -51,3 +51,25 @@ interface ButtonLinkProps extends LinkProps {
 export function ButtonLink({ variant = 'secondary', className = '', ...rest }: ButtonLinkProps) {
   return <Link className={buttonClass(variant, className)} {...rest} />;
 }
+
+/** "Show more" under a list that comes a page at a time (a TanStack infinite query); nothing on the last page. */
+export function ShowMore({
+  pages,
+  label,
+  busyText,
+  className,
+}: {
+  pages: { hasNextPage: boolean; isFetchingNextPage: boolean; fetchNextPage: () => Promise<unknown> };
+  label: string;
+  busyText: string;
+  className?: string;
+}) {
+  if (!pages.hasNextPage) return null;
+  return (
+    <div className={className}>
+      <Button variant="secondary" busy={pages.isFetchingNextPage} busyText={busyText} onClick={() => void pages.fetchNextPage()}>
+        {label}
+      </Button>
+    </div>
+  );
+}

@@ -6,6 +6,7 @@ import {
   checklist,
   excavationInspectionsAnswer,
   inspectionInputSchema,
+  inspectionListQuerySchema,
   inspectionStatesAnswer,
   outcomeLabels,
   reasonLabels,
@@ -21,6 +22,7 @@ import { filesOf, limits, receiveFiles } from '../services/uploads';
 import {
   inspectionStates,
   loadExcavation,
+  loadInspectionPage,
   loadInspections,
   needingInspection,
   recordInspection,
@@ -88,11 +90,12 @@ export function registerInspectionRoutes(api: Api): void {
       method: 'get',
       path: '/api/excavations/:id/inspections',
       response: excavationInspectionsAnswer,
-      summary: 'An excavation\u2019s inspections, newest first, with where it stands this shift',
+      summary:
+        'An excavation\u2019s inspections, newest first, a page at a time (`next` is the cursor of the next page), with where it stands this shift',
       tag: 'Inspections',
       access: readExcavation,
       params: excavationParams,
-      query: z.object({ limit: z.coerce.number().int().min(1).max(1000).default(200) }),
+      query: inspectionListQuerySchema,
     },
     async ({ params, query, deps }) => {
       const exc = await loadExcavation(db, params.id);
@@ -102,7 +105,7 @@ export function registerInspectionRoutes(api: Api): void {
         shift: states.shift,
         timeZone: states.clock.timeZone,
         inspectionState: states.excavations[0]?.state ?? null,
-        inspections: await loadInspections(db, { excavationId: exc.id, limit: query.limit }),
+        ...(await loadInspectionPage(db, exc.id, query)),
       };
     },
   );

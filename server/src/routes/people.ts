@@ -1,10 +1,17 @@
 import { z } from 'zod';
 import { invitationSchema, oneOrganisationAnswer, organisationUpdateSchema } from '@shared/schemas/auth';
 import { idSchema, roleLabels } from '@shared/schemas/common';
-import { createdAnswer, membershipSchema, onePersonAnswer, peopleAnswer, userUpdateSchema } from '@shared/schemas/sites';
+import {
+  createdAnswer,
+  membershipSchema,
+  onePersonAnswer,
+  peopleAnswer,
+  peopleListQuerySchema,
+  userUpdateSchema,
+} from '@shared/schemas/sites';
 import { Api, HttpError, notFound } from '../http';
 import { audit } from '../services/audit';
-import { loadPeople, revokeAccess } from '../services/people';
+import { loadPeople, loadPeoplePage, revokeAccess } from '../services/people';
 import { isUniqueViolation } from '../services/pg-errors';
 import { ownedPath } from '../services/organisation';
 import { INVITATION_HOURS, newToken } from '../services/tokens';
@@ -151,11 +158,12 @@ export function registerPeopleRoutes(api: Api): void {
       method: 'get',
       path: '/api/users',
       response: peopleAnswer,
-      summary: 'Everyone, with their site roles',
+      summary: "My organisation's people with their site roles, by name, a page at a time (`next` is the cursor of the next page)",
       tag: 'People',
       access: { kind: 'admin' },
+      query: peopleListQuerySchema,
     },
-    async ({ user }) => ({ users: await loadPeople(db, { organisationId: user.organisationId }) }),
+    async ({ user, query }) => loadPeoplePage(db, user, query),
   );
 
   api.route(

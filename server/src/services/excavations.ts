@@ -241,8 +241,9 @@ export async function loadExcavationPage(db: Db, siteId: number, q: { limit: num
     .select(['id', 'reference', sql<string | null>`case when answer_key = ${ANSWER_FORMAT} || ':' || version then answer end`.as('answer')])
     .where('site_id', '=', siteId)
     .orderBy('reference');
-  if (q.cursor) query = query.where('reference', '>', decodeCursor(q.cursor)[0]);
-  const { page, next } = pageOf(await query.limit(q.limit + 1).execute(), q.limit, (r) => r.reference);
+  const scope = `excavations:${siteId}`;
+  if (q.cursor) query = query.where('reference', '>', decodeCursor(q.cursor, scope, 'text')[0]);
+  const { page, next } = pageOf(await query.limit(q.limit + 1).execute(), q.limit, (r) => r.reference, scope);
   const stale = page.filter((r) => r.answer === null).map((r) => r.id);
   const fresh = new Map<number, string>();
   if (stale.length) {

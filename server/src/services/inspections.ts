@@ -24,6 +24,7 @@ import { inspectionActor } from './permits/actors';
 import { transition } from './permits/machine';
 import { withCurrentRevision } from './permits/read';
 import { inTransaction, withSavepoint } from './tx';
+import { decodeCursor, pageOf } from './cursor';
 
 // Shifts, inspection records, and where each open excavation stands this shift. The route module
 // (routes/inspections.ts) is thin; the scheduled e-mail is in jobs/inspections.ts and the weekly PDF
@@ -395,6 +396,33 @@ export async function loadInspections(
     photos: photos.filter((p) => p.inspection_id === r.id).map((p) => ({ id: p.id, url: `/api/uploads/${p.id}`, name: p.original_name })),
     suspendedPermits: suspended.filter((s) => s.inspectionId === r.id).map(({ id, reference }) => ({ id, reference })),
   }));
+}
+
+/**
+ * A page of an excavation's inspections, newest first (then by id), and the cursor of the next
+ * page (index inspections_excavation_time_id, migration 0016).
+ */
+export async function loadInspectionPage(
+  db: Db,
+  excavationId: number,
+  q: { limit: number; cursor?: string },
+): Promise<{ inspections: Inspection[]; next: string | null }> {
+  const scope = `inspections:${excavationId}`;
+  let query = db
+    .selectFrom('inspections')
+    .select(['id', sql<string>`inspected_at::text`.as('sort_key')])
+    .where('excavation_id', '=', excavationId);
+  if (q.cursor) {
+    const [at, id] = decodeCursor(q.cursor, scope, 'timestamptz');
+    query = query.where(sql<boolean>`(inspected_at, id) < (cast(${at} as timestamptz), ${id})`);
+  }
+  const rows = await query
+    .orderBy('inspected_at', 'desc')
+    .orderBy('id', 'desc')
+    .limit(q.limit + 1)
+    .execute();
+  const { page, next } = pageOf(rows, q.limit, (r) => r.sort_key, scope);
+  return { inspections: await loadInspections(db, { ids: page.map((r) => r.id) }), next };
 }
 
 async function suspensionsOf(db: Db, inspectionIds: number[]): Promise<{ inspectionId: number; id: number; reference: string }[]> {

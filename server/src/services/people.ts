@@ -4,15 +4,48 @@ import { HttpError } from '../http';
 import type { Me } from '@shared/schemas/auth';
 import type { Person } from '@shared/schemas/sites';
 import type { Scope } from './organisation';
+import { decodeCursor, pageOf } from './cursor';
 
-/** People with their site roles, as the API shows them: those `ids` names, or everyone of an organisation. */
-export async function loadPeople(db: Db, which: number[] | Scope): Promise<Person[]> {
-  let q = db.selectFrom('users').select(['id', 'email', 'name', 'is_admin', 'active']).orderBy('name');
-  if (Array.isArray(which)) {
-    if (which.length === 0) return [];
-    q = q.where('id', 'in', which);
-  } else q = q.where('organisation_id', '=', which.organisationId);
-  const users = await q.execute();
+type PersonRow = { id: number; email: string; name: string; is_admin: boolean; active: boolean };
+
+const peopleQuery = (db: Db) => db.selectFrom('users').select(['id', 'email', 'name', 'is_admin', 'active']);
+
+/** People with their site roles, as the API shows them: those `ids` names. */
+export async function loadPeople(db: Db, ids: number[]): Promise<Person[]> {
+  if (ids.length === 0) return [];
+  return withMemberships(db, await peopleQuery(db).where('id', 'in', ids).orderBy('name').execute());
+}
+
+/**
+ * A page of an organisation's people by name (then id), with their site roles, and the cursor of
+ * the next page (index users_organisation_name, migration 0016).
+ */
+export async function loadPeoplePage(
+  db: Db,
+  scope: Scope,
+  q: { limit: number; cursor?: string },
+): Promise<{ users: Person[]; next: string | null; counts: { active: number; total: number } }> {
+  const listScope = `users:${scope.organisationId}`;
+  let query = peopleQuery(db).where('organisation_id', '=', scope.organisationId);
+  if (q.cursor) {
+    const [name, id] = decodeCursor(q.cursor, listScope, 'text');
+    query = query.where(sql<boolean>`(name, id) > (${name}, ${id})`);
+  }
+  const rows = await query
+    .orderBy('name')
+    .orderBy('id')
+    .limit(q.limit + 1)
+    .execute();
+  const { page, next } = pageOf(rows, q.limit, (r) => r.name, listScope);
+  const counts = await db
+    .selectFrom('users')
+    .select([sql<number>`count(*) filter (where active)::int`.as('active'), sql<number>`count(*)::int`.as('total')])
+    .where('organisation_id', '=', scope.organisationId)
+    .executeTakeFirstOrThrow();
+  return { users: await withMemberships(db, page), next, counts };
+}
+
+async function withMemberships(db: Db, users: PersonRow[]): Promise<Person[]> {
   if (users.length === 0) return [];
   const members = await db
     .selectFrom('site_members')

@@ -172,8 +172,10 @@ export async function listPermits(
   if (q.to) query = query.where('r.window_start', '<', new Date(q.to));
   // Keyset pages: ordered by the sort column then the id, each page after the last row of the one before.
   const [column, type] = sortColumns[q.sort];
+  // A cursor keeps to the organisation and the sort that gave it.
+  const scope = `permits:${user.organisationId}:${q.sort}:${q.order}`;
   if (q.cursor) {
-    const [value, id] = decodeCursor(q.cursor);
+    const [value, id] = decodeCursor(q.cursor, scope, type);
     const after = sql<boolean>`(${sql.ref(column)}, p.id) ${sql.raw(q.order === 'asc' ? '>' : '<')} (cast(${value} as ${sql.raw(type)}), ${id})`;
     query = query.where(after);
   }
@@ -183,7 +185,7 @@ export async function listPermits(
     .orderBy('p.id', q.order)
     .limit(q.limit + 1)
     .execute();
-  const { page, next } = pageOf(rows, q.limit, (r) => r.sort_key);
+  const { page, next } = pageOf(rows, q.limit, (r) => r.sort_key, scope);
   return { permits: page.map(summaryOut), next };
 }
 

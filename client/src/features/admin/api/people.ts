@@ -1,4 +1,4 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useInfiniteQuery, useMutation, useQueryClient, type InfiniteData } from '@tanstack/react-query';
 import type { InvitationInput, oneOrganisationAnswer } from '@shared/schemas/auth';
 import type { SiteRole } from '@shared/schemas/common';
 import type { z } from 'zod';
@@ -7,11 +7,18 @@ import { api } from '@client/lib/api';
 import { sessionKeys } from '@client/lib/session';
 
 const peopleKey = ['users'] as const;
+const peoplePagesKey = [...peopleKey, 'pages'] as const;
+type PeoplePage = z.output<typeof peopleAnswer>;
 
+/** The organisation's people, by name, a page at a time, following the server's `next` cursor (`fetchNextPage`). */
 export function usePeople() {
-  return useQuery({
-    queryKey: peopleKey,
-    queryFn: ({ signal }) => api.get<z.output<typeof peopleAnswer>>('/api/users', signal).then((r) => r.users),
+  return useInfiniteQuery({
+    queryKey: peoplePagesKey,
+    queryFn: ({ pageParam, signal }) =>
+      api.get<PeoplePage>(`/api/users${pageParam ? `?cursor=${encodeURIComponent(pageParam)}` : ''}`, signal),
+    initialPageParam: null as string | null,
+    getNextPageParam: (last) => last.next,
+    select: (data) => data.pages.flatMap((p) => p.users),
   });
 }
 
@@ -20,7 +27,11 @@ function usePersonSaved() {
   const queryClient = useQueryClient();
   return (person?: Person) => {
     if (person) {
-      queryClient.setQueryData<Person[]>(peopleKey, (list) => list?.map((p) => (p.id === person.id ? person : p)));
+      queryClient.setQueryData<InfiniteData<PeoplePage>>(peoplePagesKey, (data) =>
+        data
+          ? { ...data, pages: data.pages.map((page) => ({ ...page, users: page.users.map((p) => (p.id === person.id ? person : p)) })) }
+          : data,
+      );
     }
     void queryClient.invalidateQueries({ queryKey: peopleKey });
     void queryClient.invalidateQueries({ queryKey: sessionKeys.me });

@@ -1,3 +1,4 @@
+import { ShowMore } from '@client/components/Button';
 import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
 import { useMe } from '@client/lib/session';
@@ -12,7 +13,6 @@ export function PeoplePage() {
   const people = usePeople();
   const sites = useSites();
   const siteList = sites.data ?? [];
-  const sorted = [...(people.data ?? [])].sort((a, b) => Number(b.active) - Number(a.active) || a.name.localeCompare(b.name));
 
   return (
     <Page title="People" intro="Invite people, give them a role on each site, and deactivate those who leave.">
@@ -30,9 +30,10 @@ export function PeoplePage() {
         </h2>
         {people.isPending ? <Loading what="Loading people" /> : null}
         {people.isError ? <LoadError error={people.error} retry={() => people.refetch()} /> : null}
-        {sorted.map((person) => (
+        {people.data?.map((person) => (
           <PersonCard key={person.id} person={person} sites={siteList} isMe={person.id === me.data?.id} />
         ))}
+        <ShowMore pages={people} label="Show more people" busyText="Loading more people…" />
       </section>
     </Page>
   );

@@ -6,9 +6,8 @@ import { api } from '@client/lib/api';
 /** Counts for the administrator's panels. */
 export function usePeopleCount(enabled: boolean) {
   return useQuery({
-    queryKey: ['users'],
-    queryFn: ({ signal }) => api.get<z.output<typeof peopleAnswer>>('/api/users', signal).then((r) => r.users),
-    select: (users) => ({ active: users.filter((u) => u.active).length, total: users.length }),
+    queryKey: ['users', 'counts'],
+    queryFn: ({ signal }) => api.get<z.output<typeof peopleAnswer>>('/api/users?limit=1', signal).then((r) => r.counts),
     enabled,
   });
 }

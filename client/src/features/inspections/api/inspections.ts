@@ -1,4 +1,4 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type {
   ExcavationInspections,
@@ -18,10 +18,29 @@ const inspectionKeys = {
   shifts: (siteId: number) => ['inspections', 'shifts', siteId] as const,
 };
 
+const inspectionPage = (excavationId: number | null, cursor: string | null, signal: AbortSignal) =>
+  api.get<ExcavationInspections>(
+    `/api/excavations/${excavationId}/inspections${cursor ? `?cursor=${encodeURIComponent(cursor)}` : ''}`,
+    signal,
+  );
+
+/** The excavation, where it stands this shift, and its newest inspections (the first page). */
 export function useExcavationInspections(excavationId: number | null) {
   return useQuery({
     queryKey: inspectionKeys.excavation(excavationId ?? 0),
-    queryFn: ({ signal }) => api.get<ExcavationInspections>(`/api/excavations/${excavationId}/inspections`, signal),
+    queryFn: ({ signal }) => inspectionPage(excavationId, null, signal),
+    enabled: excavationId !== null,
+  });
+}
+
+/** The same, with older inspections a page at a time, following the server's `next` cursor (`fetchNextPage`). */
+export function useInspectionHistory(excavationId: number | null) {
+  return useInfiniteQuery({
+    queryKey: [...inspectionKeys.excavation(excavationId ?? 0), 'pages'],
+    queryFn: ({ pageParam, signal }) => inspectionPage(excavationId, pageParam, signal),
+    initialPageParam: null as string | null,
+    getNextPageParam: (last) => last.next,
+    select: (data) => ({ ...data.pages[0], inspections: data.pages.flatMap((p) => p.inspections) }),
     enabled: excavationId !== null,
   });
 }

@@ -1,9 +1,9 @@
 import { useLocation } from 'react-router-dom';
-import { ButtonLink, buttonClass } from '@client/components/Button';
+import { ButtonLink, ShowMore, buttonClass } from '@client/components/Button';
 import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
 import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
-import { useExcavationInspections, type RecordedInspection } from '../api/inspections';
+import { useInspectionHistory, type RecordedInspection } from '../api/inspections';
 import { InspectionCard, PermitLinks } from '../components/InspectionCard';
 import { usePageSite } from './site';
 
@@ -11,7 +11,7 @@ import { usePageSite } from './site';
 export function HistoryPage() {
   const { site, excavationId, mayInspect } = usePageSite();
   const recorded = (useLocation().state as { recorded?: RecordedInspection } | null)?.recorded;
-  const data = useExcavationInspections(excavationId);
+  const data = useInspectionHistory(excavationId);
   if (data.isPending || !site) return <Loading what="Loading the inspections" />;
   if (data.isError) return <LoadError error={data.error} retry={() => data.refetch()} />;
   const { excavation, inspections, inspectionState, timeZone } = data.data;
@@ -36,12 +36,17 @@ export function HistoryPage() {
       <Notice>{recorded ? <RecordedNotice recorded={recorded} /> : null}</Notice>
       <Panel
         title={
-          inspections.length ? `${inspections.length} inspection${inspections.length === 1 ? '' : 's'}, newest first` : 'No inspections yet'
+          inspections.length
+            ? data.hasNextPage
+              ? `The newest ${inspections.length} inspections`
+              : `${inspections.length} inspection${inspections.length === 1 ? '' : 's'}, newest first`
+            : 'No inspections yet'
         }
       >
         {inspections.map((i) => (
           <InspectionCard key={i.id} inspection={i} timeZone={timeZone} />
         ))}
+        <ShowMore pages={data} label="Show older inspections" busyText="Loading older inspections…" />
       </Panel>
     </Page>
   );

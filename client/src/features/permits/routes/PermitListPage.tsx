@@ -10,7 +10,7 @@ import {
   verdictOf,
   type PermitView,
 } from '@shared/schemas/permits';
-import { Button, ButtonLink } from '@client/components/Button';
+import { Button, ButtonLink, ShowMore } from '@client/components/Button';
 import { SelectField, TextField } from '@client/components/Fields';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
@@ -209,17 +209,7 @@ export function PermitListPage() {
               ))}
             </tbody>
           </table>
-          {list.hasNextPage ? (
-            <Button
-              variant="secondary"
-              className="mt-3"
-              onClick={() => list.fetchNextPage()}
-              busy={list.isFetchingNextPage}
-              busyText="Loading more permits…"
-            >
-              Show more permits
-            </Button>
-          ) : null}
+          <ShowMore pages={list} className="mt-3" label="Show more permits" busyText="Loading more permits…" />
         </div>
       )}
     </Page>
