@@ -16,7 +16,7 @@ interface Message {
 }
 
 /** Someone a message goes to, and the units they read it in (their own choice, else their site's). */
-export interface Reader {
+interface Reader {
   email: string;
   units: UnitSystem;
 }
