@@ -98,6 +98,40 @@ const pwa = VitePWA({
   devOptions: { enabled: false },
 });
 
+const REACT = /node_modules[\\/](react|react-dom|scheduler|react-router|react-router-dom|@tanstack[\\/](query-core|react-query))[\\/]/;
+
+/**
+ * The phone view's first open fetches its lazy pages (client/src/features/field/pages.ts) and the
+ * modules of ours they import from elsewhere (lib/, components/, shared/). Left to itself the
+ * bundler gives each of those shared modules its own 1-3 KB file, a dozen requests queued on
+ * HTTP/1.1's six connections at 150 ms a round trip on a poor line; here they are one chunk,
+ * 'phone-shared': every module of ours that pages.ts imports statically, directly or through others,
+ * outside the phone view's own folder, except what the entry and the signed-in frame already load
+ * and anything that needs a library besides React's (turf, zod: those stay where they were). Other
+ * pages that use one of them load the whole chunk (a few KB more for them; bundle.test holds the
+ * budgets).
+ */
+const phoneShared = new WeakMap<object, Set<string>>();
+type Graph = { getModuleInfo(id: string): { importedIds: readonly string[] } | null };
+function phoneChunk(id: string, ctx: Graph): string | null {
+  let modules = phoneShared.get(ctx);
+  if (!modules) {
+    const imports = (m: string) => ctx.getModuleInfo(m)?.importedIds ?? [];
+    const ownLibraries = (m: string) => imports(m).some((i) => i.includes('node_modules') && !REACT.test(i));
+    const reach = (from: string, into = new Set<string>()) => {
+      if (into.has(from) || from.includes('node_modules') || ownLibraries(from)) return into;
+      into.add(from);
+      for (const next of imports(from)) reach(next, into);
+      return into;
+    };
+    const loaded = reach(here('./client/src/app/Layout.tsx'), reach(here('./client/src/main.tsx')));
+    const field = here('./client/src/features/field/');
+    modules = new Set([...reach(here('./client/src/features/field/pages.ts'))].filter((m) => !m.startsWith(field) && !loaded.has(m)));
+    phoneShared.set(ctx, modules);
+  }
+  return modules.has(id) ? 'phone-shared' : null;
+}
+
 // Client build (root: client/). In development `npm run dev` proxies /api to the Express server.
 export default defineConfig({
   root: here('./client'),
@@ -116,10 +150,11 @@ export default defineConfig({
           groups: [
             {
               name: 'react',
-              test: /node_modules[\\/](react|react-dom|scheduler|react-router|react-router-dom|@tanstack[\\/](query-core|react-query))[\\/]/,
+              test: REACT,
             },
             { name: 'zod', test: /node_modules[\\/]zod[\\/]/ },
             { name: 'leaflet', test: /node_modules[\\/](leaflet|react-leaflet|@react-leaflet[\\/]core)[\\/]/ },
+            { name: phoneChunk, test: /[\\/](client[\\/]src|shared)[\\/]/, includeDependenciesRecursively: false },
           ],
         },
       },
