@@ -112,57 +112,59 @@ export async function inspectionStates(
   opts: { excavationIds?: number[] } = {},
 ): Promise<InspectionStatesAnswer & { clock: SiteClock }> {
   const clock = await siteClock(db, siteId, now);
+  if (opts.excavationIds?.length === 0) return { clock, shift: shiftOut(clock), excavations: [] };
+  // One query: each open excavation with its latest inspection (and who made it) and its latest safe
+  // one, each found by the (excavation, time) index, newest first.
   let q = db
-    .selectFrom('excavations')
-    .select(['id', 'reference', 'name'])
-    .where('site_id', '=', siteId)
-    .where('state', '=', 'open')
-    .orderBy('reference');
-  if (opts.excavationIds) {
-    if (opts.excavationIds.length === 0) return { clock, shift: shiftOut(clock), excavations: [] };
-    q = q.where('id', 'in', opts.excavationIds);
-  }
-  const open = await q.execute();
-  const ids = open.map((e) => e.id);
-  const latest = ids.length
-    ? await db
-        .selectFrom('inspections')
-        .innerJoin('users', 'users.id', 'inspections.inspector_id')
-        .distinctOn('inspections.excavation_id')
-        .select(['inspections.excavation_id', 'inspections.id', 'inspections.inspected_at', 'inspections.outcome', 'users.name'])
-        .where('inspections.excavation_id', 'in', ids)
-        .where('inspections.inspected_at', '<=', now)
-        .orderBy('inspections.excavation_id')
-        .orderBy('inspections.inspected_at', 'desc')
-        .orderBy('inspections.id', 'desc')
-        .execute()
-    : [];
-  const lastSafe = ids.length
-    ? await db
-        .selectFrom('inspections')
-        .select(['excavation_id', sql<Date>`max(inspected_at)`.as('at')])
-        .where('excavation_id', 'in', ids)
-        .where('outcome', '=', 'safe')
-        .where('inspected_at', '<=', now)
-        .groupBy('excavation_id')
-        .execute()
-    : [];
-  const excavations: ExcavationInspectionState[] = open.map((e) => {
-    const l = latest.find((r) => r.excavation_id === e.id);
-    const s = lastSafe.find((r) => r.excavation_id === e.id);
-    const lastSafeAt = s ? new Date(s.at) : null;
+    .selectFrom('excavations as e')
+    .leftJoinLateral(
+      (eb) =>
+        eb
+          .selectFrom('inspections as i')
+          .innerJoin('users as u', 'u.id', 'i.inspector_id')
+          .select(['i.id', 'i.inspected_at', 'i.outcome', 'u.name as inspector'])
+          .whereRef('i.excavation_id', '=', 'e.id')
+          .where('i.inspected_at', '<=', now)
+          .orderBy('i.inspected_at', 'desc')
+          .orderBy('i.id', 'desc')
+          .limit(1)
+          .as('l'),
+      (j) => j.onTrue(),
+    )
+    .leftJoinLateral(
+      (eb) =>
+        eb
+          .selectFrom('inspections as s')
+          .select(sql<Date | null>`max(s.inspected_at)`.as('at'))
+          .whereRef('s.excavation_id', '=', 'e.id')
+          .where('s.outcome', '=', 'safe')
+          .where('s.inspected_at', '<=', now)
+          .as('s'),
+      (j) => j.onTrue(),
+    )
+    .select(['e.id', 'e.reference', 'e.name', 'l.id as last_id', 'l.inspected_at', 'l.outcome', 'l.inspector', 's.at as last_safe_at'])
+    .where('e.site_id', '=', siteId)
+    .where('e.state', '=', 'open')
+    .orderBy('e.reference');
+  if (opts.excavationIds) q = q.where('e.id', 'in', opts.excavationIds);
+  const excavations: ExcavationInspectionState[] = (await q.execute()).map((e) => {
+    const lastSafeAt = e.last_safe_at ? new Date(e.last_safe_at) : null;
+    const last =
+      e.last_id !== null && e.inspected_at !== null && e.outcome !== null && e.inspector !== null
+        ? { id: e.last_id, at: new Date(e.inspected_at).toISOString(), outcome: e.outcome, inspector: e.inspector }
+        : null;
     return {
       excavationId: e.id,
       reference: e.reference,
       name: e.name,
       state: decideState({
-        latestOutcome: l?.outcome ?? null,
+        latestOutcome: last?.outcome ?? null,
         lastSafeAt,
         shiftStart: clock.shift.start,
         overdueFrom: clock.overdueFrom,
         now,
       }),
-      lastInspection: l ? { id: l.id, at: new Date(l.inspected_at).toISOString(), outcome: l.outcome, inspector: l.name } : null,
+      lastInspection: last,
       lastSafeAt: lastSafeAt?.toISOString() ?? null,
     };
   });
