@@ -20,7 +20,6 @@ import {
   siteOperatorsAnswer,
 } from '@shared/schemas/permits';
 import { Api, badRequest, forbidden, HttpError, notFound, siteFromParam, siteOfRow } from '../http';
-import { ownOnly } from '../services/organisation';
 import { filesOf, limits, receiveFiles, sendUpload } from '../services/uploads';
 import { userActor } from '../services/permits/actors';
 import { addAttachment, attachmentUploadId, removeAttachment } from '../services/permits/attachments';
@@ -189,17 +188,19 @@ export function registerPermitRoutes(api: Api): void {
       response: permitsAnswer,
     },
     async ({ query, user }) => {
-      if (query.siteId) await ownOnly(db, user, 'sites', query.siteId, 'That site');
-      if (query.siteId && !user.isAdmin) {
-        const m = await db
-          .selectFrom('site_members')
-          .select('role')
-          .where('site_id', '=', query.siteId)
-          .where('user_id', '=', user.id)
+      // The site named, in one query: of the person's organisation (else 404) and theirs (else 403).
+      if (query.siteId) {
+        const site = await db
+          .selectFrom('sites as s')
+          .leftJoin('site_members as m', (j) => j.onRef('m.site_id', '=', 's.id').on('m.user_id', '=', user.id))
+          .select('m.role')
+          .where('s.id', '=', query.siteId)
+          .where('s.organisation_id', '=', user.organisationId)
           .executeTakeFirst();
-        if (!m) throw forbidden('You are not a member of this site.');
+        if (!site) throw notFound('That site');
+        if (!user.isAdmin && !site.role) throw forbidden('You are not a member of this site.');
       }
-      return listPermits(db, user, query);
+      return listPermits(db, user, query, query.siteId ? [query.siteId] : undefined);
     },
   );
 

@@ -116,8 +116,10 @@ export async function listPermits(
   db: Db,
   user: PermitReader,
   q: PermitListQuery,
+  /** The sites the caller has already found the person may see (the site filtered on); else all they may see. */
+  checked?: number[],
 ): Promise<{ permits: PermitSummary[]; next: string | null }> {
-  const sites = await visibleSites(db, user);
+  const sites = checked ?? (await visibleSites(db, user));
   if (sites.length === 0) return { permits: [], next: null };
   let query = summaryQuery(db).where('p.site_id', 'in', sites);
   if (q.siteId) query = query.where('p.site_id', '=', q.siteId);
