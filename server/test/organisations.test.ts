@@ -204,6 +204,49 @@ describe('organisations', () => {
     expect(logged).toEqual([{ action: 'renamed', detail: { from: row.name, to: newName } }]);
   });
 
+  it('is kept apart by the database itself: a membership or a load across organisations is refused', async () => {
+    const refused = (rule: string) => expect.objectContaining({ code: '23514', constraint: rule });
+    // A person of B made a member of A's site, directly in the database.
+    await expect(
+      t.deps.db.insertInto('site_members').values({ site_id: w.siteId, user_id: b.coordinatorId, role: 'operator' }).execute(),
+    ).rejects.toEqual(refused('site_member_same_organisation'));
+    // B's coordinator's own membership moved onto A's site.
+    await expect(
+      t.deps.db.updateTable('site_members').set({ site_id: w.siteId }).where('user_id', '=', b.coordinatorId).execute(),
+    ).rejects.toEqual(refused('site_member_same_organisation'));
+    // A's permit made to place B's machine.
+    const permit = await createPermit(w);
+    const revision = await t.deps.db
+      .selectFrom('permit_revisions')
+      .select(['id', 'loads'])
+      .where('permit_id', '=', permit.id)
+      .executeTakeFirstOrThrow();
+    const loads = JSON.parse(JSON.stringify(revision.loads)) as { plantItemId: number | null }[];
+    expect(loads[0].plantItemId).toBe(w.excavatorId);
+    const theirs = JSON.stringify([{ ...loads[0], plantItemId: b.plantItemId }]);
+    await expect(t.deps.db.updateTable('permit_revisions').set({ loads: theirs }).where('id', '=', revision.id).execute()).rejects.toEqual(
+      refused('permit_loads_own_machines'),
+    );
+    // A person, a site or a machine moved to another organisation under such rows.
+    await expect(t.deps.db.updateTable('users').set({ organisation_id: b.id }).where('id', '=', w.coordinatorId).execute()).rejects.toEqual(
+      refused('organisation_kept'),
+    );
+    await expect(
+      t.deps.db.updateTable('plant_items').set({ organisation_id: b.id }).where('id', '=', w.excavatorId).execute(),
+    ).rejects.toEqual(refused('organisation_kept'));
+    // Its own machine, and a load that names none, are accepted.
+    await t.deps.db
+      .updateTable('permit_revisions')
+      .set({ loads: JSON.stringify(loads) })
+      .where('id', '=', revision.id)
+      .execute();
+    await t.deps.db
+      .updateTable('permit_revisions')
+      .set({ loads: JSON.stringify([{ ...loads[0], plantItemId: null }]) })
+      .where('id', '=', revision.id)
+      .execute();
+  });
+
   it("makes an organisation for the installation's operator, whose invited administrator starts with nothing of another's", async () => {
     const name = `Quillon Drainage ${unique('q')} (test)`;
     const adminEmail = unique('quillon-admin');
