@@ -145,6 +145,10 @@ describe('formatting', () => {
     expect(formatQuantity('mass', 21, 'metric')).toBe('21.0 t');
     expect(parsed('46,300 lb', 'mass')).toBeCloseTo(21.0013, 4);
     expect(parsed('23 tons', 'mass')).toBeCloseTo(20.865, 3); // 23 × 0.90718474 t
+    // A weight in kip or lbf is the mass it weighs under standard gravity: 1 lbf is the weight of 1 lb
+    // (NIST SP 811 B.8: pound-force = 0.45359237 kg × 9.80665 m/s², exact), so 46.3 kip = 46,300 lb.
+    expect(parsed('46.3 kip', 'mass')).toBeCloseTo(21.0013, 4);
+    expect(parsed('46,300 lbf', 'mass')).toBeCloseTo(parsed('46,300 lb', 'mass'), 12);
     expect(parsed('21', 'mass', 'metric')).toBe(21);
     expect(unitLabel('pressure', 'us')).toBe('psf');
     expect(unitLabel('length', 'metric')).toBe('m');
@@ -218,6 +222,20 @@ describe('parsing what people type, in either system', () => {
 });
 
 describe('sentences written in SI, read in US units', () => {
+  it('states a limit on its safe side: least values up, greatest values down, so the figure shown is accepted when typed back', () => {
+    // 0.3 m = 0.98425 ft and 6 m = 19.685 ft (NIST SP 811 B.8: 1 ft = 0.3048 m exactly).
+    expect(localizeWords('must be between 0.3 and 6 m', 'us')).toBe('must be between 0.99 ft and 19.68 ft');
+    expect(localizeWords('must be at least 0.3 m', 'us')).toBe('must be at least 0.99 ft');
+    expect(localizeWords('must be at most 6 m', 'us')).toBe('must be at most 19.68 ft');
+    expect(localizeWords('must be more than 0 and at most 20 m', 'us')).toBe('must be more than 0 and at most 65.61 ft'); // 65.617
+    // 30 kN/m³ ÷ 0.1570875 kN/m³ per pcf = 190.98 pcf, at most 190 pcf.
+    expect(localizeWords('must be at most 30 kN/m³', 'us')).toBe('must be at most 190 pcf');
+    // A figure that is neither stays to the nearest: 2.5 m = 8.2021 ft.
+    expect(localizeWords('the trench is 2.5 m deep', 'us')).toBe('the trench is 8.20 ft deep');
+    expect(0.99 * 0.3048).toBeGreaterThanOrEqual(0.3);
+    expect(19.68 * 0.3048).toBeLessThanOrEqual(6);
+  });
+
   it('restates each figure with its unit (NIST SP 811 factors above)', () => {
     expect(localizeWords('load a: 0.5 m from the face is closer than the minimum clearance of 0.6096 m', 'us')).toBe(
       'load a: 1.64 ft from the face is closer than the minimum clearance of 2.00 ft',
@@ -225,13 +243,19 @@ describe('sentences written in SI, read in US units', () => {
     expect(localizeWords('soil + water ≥ 5 kPa/m × depth', 'us')).toBe('soil + water ≥ 32 psf/ft × depth'); // 5 ÷ 0.04788026 × 0.3048 = 31.8
     expect(localizeWords('must be at most 10,000 kPa', 'us')).toBe('must be at most 208,854 psf');
     expect(localizeWords('water, 9.81 kN/m³', 'us')).toBe('water, 62 pcf'); // 9.81 ÷ 0.1570875 = 62.45
+    // Greatest values round down: 100,000 kN/m ÷ 0.01459390 kN/m per lbf/ft = 6,852,176.6 → 6,852,176
+    // (6,852,177 lbf/ft would be just over the limit); 100,000 kN ÷ 4.448222 kN/kip = 22,480.894.
     expect(localizeWords('at most 100,000 kN/m; a point at most 100,000 kN', 'us')).toBe(
-      'at most 6,852,177 lbf/ft; a point at most 22,480.89 kip',
+      'at most 6,852,176 lbf/ft; a point at most 22,480.89 kip',
     );
     expect(localizeWords('φ′ 30°, 3 m deep', 'metric')).toBe('φ′ 30°, 3 m deep');
+    // Already in US units: unchanged.
+    expect(localizeWords('must be at least 9.9 ft, or give a reason (500 psf, 121 pcf)', 'us')).toBe(
+      'must be at least 9.9 ft, or give a reason (500 psf, 121 pcf)',
+    );
     expect(localizeWords('a 2 mm gap in 3 months', 'us')).toBe('a 2 mm gap in 3 months');
     // 1000 t ÷ 0.00045359237 t/lb = 2,204,622.6 lb (NIST SP 811 B.8: pound (avoirdupois)).
-    expect(localizeWords('must be at most 1000 t', 'us')).toBe('must be at most 2,204,623 lb');
+    expect(localizeWords('must be at most 1000 t', 'us')).toBe('must be at most 2,204,622 lb');
     expect(localizeWords('a 5 t limit, not a tonne of text at 3 tph', 'us')).toBe('a 11,023 lb limit, not a tonne of text at 3 tph');
   });
 });

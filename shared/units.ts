@@ -46,8 +46,12 @@ const SI_PER = {
   unitWeight: { 'kN/m³': 1, pcf: POUND_FORCE / FOOT ** 3 / 1000 },
   /** Moment per run of support: kN·m/m; lbf·ft/ft (= lbf). */
   moment: { 'kN·m/m': 1, 'lbf·ft/ft': POUND_FORCE / 1000, 'kip·ft/ft': KIP / 1000 },
-  /** A machine's operating mass, in tonnes; the short ton is 2000 lb (NIST SP 811, B.8: ton, short). */
-  mass: { t: 1, kg: 0.001, lb: POUND_MASS_T, 'short ton': 2000 * POUND_MASS_T },
+  /**
+   * A machine's operating mass, in tonnes; the short ton is 2000 lb (NIST SP 811, B.8: ton, short).
+   * A weight typed in lbf or kip is the mass it weighs under standard gravity: 1 lbf ↔ 1 lb exactly
+   * (the pound-force is defined so), 1 kip ↔ 1000 lb.
+   */
+  mass: { t: 1, kg: 0.001, lb: POUND_MASS_T, 'short ton': 2000 * POUND_MASS_T, kip: 1000 * POUND_MASS_T },
 } as const;
 
 export type Quantity = keyof typeof SI_PER;
@@ -173,6 +177,8 @@ export interface Figures {
   lineForce: (kNm: number, options?: FormatOptions) => string;
   unitWeight: (kNm3: number, options?: FormatOptions) => string;
   moment: (kNmm: number, options?: FormatOptions) => string;
+  /** A machine's operating mass (t): `21.0 t`, `46,300 lb`. */
+  mass: (t: number, options?: FormatOptions) => string;
   /** The unit shown for a quantity (`ft`, `psf`), for labels and table heads. */
   unit: (q: Quantity) => string;
   /** The figure shown, as a number in that unit (a CSV cell). */
@@ -194,6 +200,7 @@ export function figuresIn(system: UnitSystem): Figures {
     lineForce: f('lineForce'),
     unitWeight: f('unitWeight'),
     moment: f('moment'),
+    mass: f('mass'),
     unit: (q) => unitLabel(q, system),
     value: (q, si, rounding) => displayValue(q, si, system, rounding),
     words: (text) => localizeWords(text, system),
@@ -261,7 +268,19 @@ const SPELLINGS: { [Q in Quantity]: Record<string, UnitOf<Q>> } = {
     'lbf/ft³': 'pcf',
   },
   moment: { 'kn·m/m': 'kN·m/m', 'knm/m': 'kN·m/m', 'lbf·ft/ft': 'lbf·ft/ft', 'kip·ft/ft': 'kip·ft/ft' },
-  mass: { t: 't', tonne: 't', tonnes: 't', kg: 'kg', lb: 'lb', lbs: 'lb', ton: 'short ton', tons: 'short ton' },
+  mass: {
+    t: 't',
+    tonne: 't',
+    tonnes: 't',
+    kg: 'kg',
+    lb: 'lb',
+    lbs: 'lb',
+    lbf: 'lb',
+    kip: 'kip',
+    kips: 'kip',
+    ton: 'short ton',
+    tons: 'short ton',
+  },
 };
 
 const EXAMPLES: Record<Quantity, string> = {
@@ -271,7 +290,7 @@ const EXAMPLES: Record<Quantity, string> = {
   lineForce: '30 kN/m, 2 kip/ft or 500 lbf/ft',
   unitWeight: '19 kN/m³ or 120 pcf',
   moment: '15 kN·m/m or 3000 lbf·ft/ft',
-  mass: '21 t, 46,300 lb or 23 tons',
+  mass: '21 t, 46,300 lb, 46.3 kip or 23 tons',
 };
 
 type Parsed = { ok: true; value: number } | { ok: false; reason: string };
@@ -334,32 +353,58 @@ export function inputText(quantity: Quantity, si: number | null | undefined, sys
 }
 
 /**
+ * Which way a figure in a sentence is rounded, from the words before it, so that a limit restated in
+ * other units is never on the wrong side of itself: a least value (`at least`, `more than`,
+ * `minimum clearance of`, the first of `between … and …`) rounds up, a greatest (`at most`, `less than`,
+ * `up to`, the second of `between … and …`) rounds down; typing back the figure shown is then accepted,
+ * and a clearance never reads less than it is. Anything else rounds to the nearest.
+ */
+function limitRounding(before: string): Rounding {
+  const b = before.slice(-60).toLowerCase();
+  if (/between\s+\S+(?:\s+\S+)?\s+and\s*$/.test(b)) return 'down';
+  if (/(?:at least|more than|no less than|minimum(?: clearance)? of|between|≥)\s*$/.test(b)) return 'up';
+  if (/(?:at most|less than|no more than|up to|≤)\s*$/.test(b)) return 'down';
+  return 'nearest';
+}
+
+/**
  * A sentence Brink wrote in SI (a warning, a refusal) as a person in `system` reads it: each figure
- * followed by m, kPa, kPa/m, kN, kN/m or kN/m³ is restated in US units (`1.20 m` → `3.9 ft`,
- * `5 kPa/m` → `32 psf/ft`). Metric sentences come back unchanged.
+ * followed by m, kPa, kPa/m, kN, kN/m or kN/m³ is restated in US units (`1.20 m` → `3.94 ft`,
+ * `5 kPa/m` → `32 psf/ft`), limits rounded on their safe side (`limitRounding`). Metric sentences come
+ * back unchanged, and so does a sentence already in US units.
  */
 export function localizeWords(text: string, system: UnitSystem): string {
   if (system === 'metric') return text;
   const fig = (v: number, places: number) => v.toLocaleString('en-US', { maximumFractionDigits: places, minimumFractionDigits: places });
-  return text.replace(
-    /(-?\d{1,3}(?:,\d{3})+(?:\.\d+)?|-?\d+(?:\.\d+)?) ?(kPa\/m|kPa|kN\/m³|kN\/m|kN|m|t)(?![\w²³/·])/g,
-    (_, num: string, unit: string) => {
+  const NUM = String.raw`-?\d{1,3}(?:,\d{3})+(?:\.\d+)?|-?\d+(?:\.\d+)?`;
+  const UNIT = String.raw`kPa\/m|kPa|kN\/m³|kN\/m|kN|m|t`;
+  // `between 0.3 and 6 m`: the unit of the second figure is the first's too.
+  const ranged = text.replace(
+    new RegExp(String.raw`between (${NUM}) and (${NUM}) ?(${UNIT})(?![\w²³/·])`, 'g'),
+    (_, a: string, b: string, unit: string) => `between ${a} ${unit} and ${b} ${unit}`,
+  );
+  return ranged.replace(
+    new RegExp(String.raw`(${NUM}) ?(${UNIT})(?![\w²³/·])`, 'g'),
+    (_, num: string, unit: string, at: number, whole: string) => {
       const v = Number(num.replace(/,/g, ''));
+      const side = limitRounding(whole.slice(0, at));
+      const us = (q: Quantity, step: number, places: number, label: string, scale = 1) =>
+        `${fig(roundTo(inSystem(q, v, 'us') * scale, step, side), places)} ${label}`;
       switch (unit) {
         case 'm':
-          return `${fig(roundTo(inSystem('length', v, 'us'), 0.01), 2)} ft`;
+          return us('length', 0.01, 2, 'ft');
         case 'kPa':
-          return `${fig(roundTo(inSystem('pressure', v, 'us'), 1), 0)} psf`;
+          return us('pressure', 1, 0, 'psf');
         case 'kPa/m':
-          return `${fig(roundTo(inSystem('pressure', v, 'us') * FOOT, 1), 0)} psf/ft`;
+          return us('pressure', 1, 0, 'psf/ft', FOOT);
         case 'kN':
-          return `${fig(roundTo(inSystem('force', v, 'us'), 0.01), 2)} kip`;
+          return us('force', 0.01, 2, 'kip');
         case 'kN/m':
-          return `${fig(roundTo(inSystem('lineForce', v, 'us'), 1), 0)} lbf/ft`;
+          return us('lineForce', 1, 0, 'lbf/ft');
         case 't':
-          return `${fig(roundTo(inSystem('mass', v, 'us'), 1), 0)} lb`;
+          return us('mass', 1, 0, 'lb');
         default:
-          return `${fig(roundTo(inSystem('unitWeight', v, 'us'), 1), 0)} pcf`;
+          return us('unitWeight', 1, 0, 'pcf');
       }
     },
   );

@@ -5,6 +5,7 @@ import type { Deps } from './deps';
 import { bodyTypeProblem, crossSite } from './csrf';
 import { Throttle } from './services/throttle';
 import { discardUnkept } from './services/uploads';
+import { refusalInReaderUnits } from './services/units';
 import { sql } from 'kysely';
 import { isDatabaseUnavailable } from '@db/database';
 
@@ -301,6 +302,14 @@ export class Api {
       next();
     };
     const main = async (req: Request, res: Response) => {
+      try {
+        await answer(req, res);
+      } catch (err) {
+        if (!(err instanceof HttpError)) throw err;
+        throw await refusalInReaderUnits(deps.db, err, req.user?.id ?? null, (req as AuthedRequest).siteAccess?.id ?? null);
+      }
+    };
+    const answer = async (req: Request, res: Response) => {
       const params = (spec.params ? parseOr400(spec.params, req.params, 'path') : undefined) as Out<P>;
       if (checkAnswers) answerChecked(res, spec);
       // authorise() has refused every call these types do not allow (no one signed in behind a

@@ -3,7 +3,8 @@
  * default, and a US site starts with OSHA's 2 ft minimum clearance. The API's figures stay in SI.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { addPerson, demo, signedIn, startTestApp, unique, type TestApp } from './helpers';
+import { localProjection } from '@shared/geometry';
+import { addPerson, demo, demoSiteId, signedIn, startTestApp, unique, type TestApp } from './helpers';
 
 let t: TestApp;
 beforeAll(async () => {
@@ -47,5 +48,50 @@ describe('units', () => {
         .expect(201)
     ).body.site;
     expect(plain).toMatchObject({ units: 'metric', minimumClearance: 0.6 });
+  });
+
+  it('refusals follow the reader’s units, limits on their safe side: an excavation’s width, depth and an import report', async () => {
+    const siteId = await demoSiteId(t.deps);
+    const origin = await t.deps.db.selectFrom('sites').select(['latitude', 'longitude']).where('id', '=', siteId).executeTakeFirstOrThrow();
+    const at = (east: number, north: number) => localProjection([origin.longitude, origin.latitude]).toWgs84([east, north]);
+    const email = unique('us-coordinator');
+    await addPerson(t.deps, { email, name: 'Cass Feet', units: 'us', member: { siteId, role: 'coordinator' } });
+    const us = await signedIn(t.app, email);
+    const metric = await signedIn(t.app, demo.coordinator);
+    const tooWide = {
+      reference: unique('W').slice(0, 20),
+      name: 'Too wide and too deep',
+      kind: 'trench',
+      geometry: { type: 'LineString', coordinates: [at(-100, 70), at(-60, 70)] },
+      width: 12,
+      depth: 60,
+      state: 'open',
+      supportType: 'hydraulic-frames',
+      soil: [{ top: 0, unitWeight: 18, frictionAngle: 28 }],
+    };
+    const inMetres = await metric.post(`/api/sites/${siteId}/excavations`).send(tooWide).expect(400);
+    expect(inMetres.body.error.fields.width).toBe('must be between 0.3 and 10 m');
+    expect(inMetres.body.error.fields.depth).toBe('must be at most 50 m');
+    const inFeet = await us.post(`/api/sites/${siteId}/excavations`).send(tooWide).expect(400);
+    // 0.3 m = 0.98425 ft, rounded up; 10 m = 32.8084 ft and 50 m = 164.042 ft, rounded down
+    // (NIST SP 811 B.8: 1 ft = 0.3048 m exactly): the figures shown, typed back, are accepted.
+    expect(inFeet.body.error.fields.width).toBe('must be between 0.99 ft and 32.80 ft');
+    expect(inFeet.body.error.fields.depth).toBe('must be at most 164.04 ft');
+    expect(JSON.stringify(inFeet.body)).not.toMatch(/\d m\b/);
+
+    // An import report: each refused feature's reasons, and the answer's fields, in feet.
+    const { geometry, ...properties } = tooWide;
+    const doc = JSON.stringify({ type: 'FeatureCollection', features: [{ type: 'Feature', geometry, properties }] });
+    const report = await us
+      .post(`/api/sites/${siteId}/excavations/import`)
+      .attach('file', Buffer.from(doc), 'register.geojson')
+      .expect(400);
+    expect(report.body.report.refused[0].reasons.width).toBe('must be between 0.99 ft and 32.80 ft');
+    expect(report.body.error.fields['features[0].width']).toBe('must be between 0.99 ft and 32.80 ft');
+    const metricReport = await metric
+      .post(`/api/sites/${siteId}/excavations/import`)
+      .attach('file', Buffer.from(doc), 'register.geojson')
+      .expect(400);
+    expect(metricReport.body.report.refused[0].reasons.width).toBe('must be between 0.3 and 10 m');
   });
 });

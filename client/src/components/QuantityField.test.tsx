@@ -61,7 +61,7 @@ describe('a figure typed in the person’s units and kept in SI', () => {
     expect(onSave).not.toHaveBeenCalled();
   });
 
-  it('restates a limit written in SI in the person’s units (30 m = 98.43 ft)', async () => {
+  it('restates a limit written in SI in the person’s units, a greatest value rounded down (30 m = 98.425 ft, NIST SP 811: at most 98.42 ft)', async () => {
     fakePersonIn('us');
     renderAt(<Form onSave={vi.fn()} initial={{ depth: null, surcharge: null }} />);
     const depth = await screen.findByLabelText('Depth H (ft)');
@@ -69,7 +69,7 @@ describe('a figure typed in the person’s units and kept in SI', () => {
     fireEvent.click(screen.getByRole('button', { name: 'Save' }));
     const message = await screen.findByText(/must be at most/);
     expect(message.textContent).toMatch(/^Depth H \(ft\) /);
-    expect(message.textContent).toContain('98.43 ft');
+    expect(message.textContent).toContain('at most 98.42 ft');
     expect(message.textContent).not.toMatch(/\bm\b/);
   });
 

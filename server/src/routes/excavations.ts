@@ -28,6 +28,7 @@ import {
 } from '../services/excavation-changes';
 import { loadExcavationPage, loadExcavations, toFeatureCollection } from '../services/excavations';
 import { filesOf, limits, MB, receiveFiles, storeUpload } from '../services/uploads';
+import { reasonsIn, unitsOf } from '../services/units';
 
 /** Every member of the site reads the register (and administrators). */
 export const siteReaders = { kind: 'site', roles: 'any', admin: true, siteId: siteFromParam } satisfies SiteAccess;
@@ -223,7 +224,10 @@ export function registerExcavationRoutes(api: Api): void {
       }
       const outcome = await importExcavations(deps, site.id, text, mode, user);
       if (!outcome.ok) {
-        const { report, total } = outcome;
+        const { total } = outcome;
+        // The reasons in the reader's units (a width limit in feet for a US reader).
+        const units = await unitsOf(deps.db, user.id, site.id);
+        const report = { ...outcome.report, refused: outcome.report.refused.map((r) => ({ ...r, reasons: reasonsIn(r.reasons, units) })) };
         const n = report.refused.length;
         res.status(400).json({
           error: {
