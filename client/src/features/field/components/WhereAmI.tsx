@@ -1,6 +1,7 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
 import type { FieldPermit } from '@shared/schemas/field';
 import { Button } from '@client/components/Button';
+import { useUnits } from '@client/lib/units';
 import { useGeolocation, type LocationState } from '../hooks/useGeolocation';
 import { metres, prepareZones, readFix, sideText, type Fix, type Reading } from '../lib/reading';
 import { clock } from '../lib/format';
@@ -54,6 +55,7 @@ const frame = {
 
 function ReadingPanel({ reading, at }: { reading: Exclude<Reading, { kind: 'none' }>; at: Date }) {
   const ref = reading.excavation.reference;
+  const units = useUnits();
   const headline =
     reading.kind === 'outside'
       ? 'Outside the exclusion zone'
@@ -64,18 +66,18 @@ function ReadingPanel({ reading, at }: { reading: Exclude<Reading, { kind: 'none
     <div className={`rounded-md border-l-[12px] border-2 bg-sheet p-4 ${frame[reading.kind]}`}>
       <p className="text-xl font-bold">{headline}</p>
       <p className="text-4xl font-bold leading-tight" data-testid="reading-figure">
-        {sideText(reading.distance)}
+        {sideText(reading.distance, units)}
       </p>
       <p>
-        Nearest boundary: the exclusion zone of {ref} ({metres(reading.excavation.standoff ?? 0)} from its edge).
+        Nearest boundary: the exclusion zone of {ref} ({metres(reading.excavation.standoff ?? 0, units, 'up')} from its edge).
       </p>
       {reading.kind === 'undecided' ? (
         <p className="mt-2 font-semibold">
-          The phone’s position is only good to ±{metres(reading.accuracy)}, more than the {metres(reading.distance)} between you and the
-          line, so this reading cannot decide whether you are inside. Go by the marks on the ground and the banksman.
+          The phone’s position is only good to ±{metres(reading.accuracy, units)}, more than the {metres(reading.distance, units)} between
+          you and the line, so this reading cannot decide whether you are inside. Go by the marks on the ground and the banksman.
         </p>
       ) : (
-        <p className="mt-2">Phone accuracy ±{metres(reading.accuracy)}.</p>
+        <p className="mt-2">Phone accuracy ±{metres(reading.accuracy, units)}.</p>
       )}
       <p className="text-lg text-ink-soft">Position at {clock(at)}; it follows you while this page is open.</p>
     </div>
@@ -89,6 +91,7 @@ function ReadingPanel({ reading, at }: { reading: Exclude<Reading, { kind: 'none
  */
 function InsideAlarm({ reading }: { reading: Exclude<Reading, { kind: 'none' }> }) {
   const [folded, setFolded] = useState(false);
+  const units = useUnits();
   return (
     <div
       role="alert"
@@ -99,7 +102,7 @@ function InsideAlarm({ reading }: { reading: Exclude<Reading, { kind: 'none' }> 
         You are inside the exclusion zone
       </p>
       <p className={`${folded ? 'text-xl' : 'text-4xl'} font-bold`}>
-        {sideText(reading.distance)} · {reading.excavation.reference}
+        {sideText(reading.distance, units)} · {reading.excavation.reference}
       </p>
       {folded ? null : <p className="text-2xl">Stop. Move the load back out past the line before going on.</p>}
       <button

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { localProjection } from '@shared/geometry';
 import type { FieldExcavation } from '@shared/schemas/field';
-import { prepareZones, readFix, sideText, type Reading } from './reading';
+import { metres, prepareZones, readFix, sideText, type Reading } from './reading';
 
 // A 10 m × 4 m pit with its south-west corner at the site origin, and a 3 m standoff.
 const origin = { latitude: 52.2, longitude: 0.12 };
@@ -46,6 +46,11 @@ describe('reading of where I stand (plane geometry by hand, common practice, no 
     expect(r.kind).toBe('outside');
     expect(distanceOf(r)).toBeCloseTo(2, 6);
     expect(sideText(distanceOf(r))).toBe('2.0 m outside');
+    // In US units: 2 m = 6.5617 ft (NIST SP 811 B.8: 1 ft = 0.3048 m), to 0.1 ft.
+    expect(sideText(distanceOf(r), 'us')).toBe('6.6 ft outside');
+    // A standoff never reads less than it is: 3 m = 9.8425 ft, rounded up.
+    expect(metres(3, 'us', 'up')).toBe('9.9 ft');
+    expect(metres(3, 'metric', 'up')).toBe('3.0 m');
   });
 
   it('is 0.8 m inside standing 2.2 m south of the south face', () => {

@@ -1,5 +1,6 @@
 import { localProjection, prepareExcavation, signedDistanceToZoneAt, type LocalProjection, type PreparedOutline } from '@shared/geometry';
 import type { FieldExcavation, FieldPermit } from '@shared/schemas/field';
+import { formatLength, roundTo, type UnitSystem } from '@shared/units';
 
 /** The exclusion zones of a permit, prepared once in the site's local projection for many readings. */
 interface PreparedZones {
@@ -44,13 +45,18 @@ export function readFix(prepared: PreparedZones, fix: Fix): Reading {
   return { kind, distance: best.distance, accuracy, excavation: best.excavation };
 }
 
-/** Metres to 0.1 for a live position: "2.3 m". Finer would claim more than a phone can know. */
-export function metres(value: number): string {
-  return `${(Math.round(Math.abs(value) * 10) / 10).toFixed(1)} m`;
+/**
+ * A live distance to 0.1 m or 0.1 ft in the reader's units: "2.3 m", "7.5 ft". Finer would claim more
+ * than a phone can know. A standoff (`up`) never reads less than it is.
+ */
+export function metres(value: number, system: UnitSystem = 'metric', rounding: 'nearest' | 'up' = 'nearest'): string {
+  if (system === 'us') return formatLength(Math.abs(value), 'us', { rounding });
+  return `${roundTo(Math.abs(value), 0.1, rounding).toFixed(1)} m`;
 }
 
-/** "2.3 m outside", "0.8 m inside", "on the line". */
-export function sideText(distance: number): string {
-  if (Math.round(Math.abs(distance) * 10) === 0) return 'on the line';
-  return `${metres(distance)} ${distance < 0 ? 'inside' : 'outside'}`;
+/** "2.3 m outside", "0.8 m inside" (or in feet), "on the line". */
+export function sideText(distance: number, system: UnitSystem = 'metric'): string {
+  const shown = metres(distance, system);
+  if (/^0\.0 /.test(shown)) return 'on the line';
+  return `${shown} ${distance < 0 ? 'inside' : 'outside'}`;
 }

@@ -1,3 +1,4 @@
+import { figuresIn } from '@shared/units';
 import { describe, expect, it } from 'vitest';
 import type { PermitEvent } from '@shared/schemas/permits';
 import { clockTime, timelineLine } from './timeline';
@@ -54,6 +55,8 @@ describe('timeline lines in plain words', () => {
         },
       });
     expect(timelineLine(approve(1.5), zone)).toBe('Colm Ridley approved it with a standoff of 1.50 m');
+    // 1.5 m = 4.9213 ft (NIST SP 811 B.8: 1 ft = 0.3048 m), a standoff rounded up.
+    expect(timelineLine(approve(1.5), zone, figuresIn('us'))).toBe('Colm Ridley approved it with a standoff of 5.0 ft');
     expect(timelineLine(approve(null), zone)).toBe('Colm Ridley approved it as placed on the plan');
   });
 

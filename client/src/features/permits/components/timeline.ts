@@ -1,13 +1,12 @@
 import type { PermitDecision, PermitEvent } from '@shared/schemas/permits';
 import { wallClock } from '@shared/time/shifts';
+import { figuresIn, type Figures } from '@shared/units';
 
 /** "07:00": the time of day on the site's clock. */
 export function clockTime(iso: string, timeZone: string): string {
   const w = wallClock(new Date(iso), timeZone);
   return `${String(w.hour).padStart(2, '0')}:${String(w.minute).padStart(2, '0')}`;
 }
-
-const m = (x: number) => `${x.toFixed(2)} m`;
 
 function record(v: unknown): Record<string, unknown> | null {
   return v !== null && typeof v === 'object' ? (v as Record<string, unknown>) : null;
@@ -43,7 +42,7 @@ const startedBy: Record<string, string> = {
  * review", "Went live at 07:00 (window opened)", "Suspended: inspection 7 of TR-UX1 found it not safe".
  * Changes Brink made by itself (no person) say what happened, not who.
  */
-export function timelineLine(e: PermitEvent, timeZone: string): string {
+export function timelineLine(e: PermitEvent, timeZone: string, figures: Figures = figuresIn('metric')): string {
   const who = e.actor.name;
   const byBrink = e.actor.id === null;
   const d = e.detail;
@@ -51,7 +50,10 @@ export function timelineLine(e: PermitEvent, timeZone: string): string {
   switch (e.action) {
     case 'approve': {
       const decision = record(d.decision) as Partial<PermitDecision> | null;
-      const standoff = typeof decision?.standoff === 'number' ? ` with a standoff of ${m(decision.standoff)}` : ' as placed on the plan';
+      const standoff =
+        typeof decision?.standoff === 'number'
+          ? ` with a standoff of ${figures.length(decision.standoff, { rounding: 'up' })}`
+          : ' as placed on the plan';
       return `${who} approved it${standoff}`;
     }
     case 'start':

@@ -492,7 +492,7 @@ export function Editor(subject: EditorSubject) {
             .map((e) => (
               <CheckboxField
                 key={e.id}
-                label={`${e.reference} ${e.name} (${e.depth.toFixed(2)} m deep)`}
+                label={`${e.reference} ${e.name} (${figures.length(e.depth)} deep)`}
                 checked={draft.excavationIds.includes(e.id)}
                 onChange={(ev) =>
                   set('excavationIds', ev.target.checked ? [...draft.excavationIds, e.id] : draft.excavationIds.filter((x) => x !== e.id))
@@ -512,7 +512,7 @@ export function Editor(subject: EditorSubject) {
               value=""
               onChange={(e) => addPlant(e.target.value)}
               emptyLabel="Choose a machine"
-              options={(plantQ.data ?? []).map((p) => ({ value: p.id, label: `${p.name} (${p.operatingMass} t)` }))}
+              options={(plantQ.data ?? []).map((p) => ({ value: p.id, label: `${p.name} (${figures.mass(p.operatingMass)})` }))}
               hint={
                 named.length
                   ? `It is placed at its standoff from ${named[0].reference}.`

@@ -513,6 +513,7 @@ function concernPhotoIds(e: PermitEvent): number[] {
 function Timeline({ permit, at, timeZone }: { permit: PermitDetail; at: (iso: string | null) => string; timeZone: string }) {
   const comment = useComment(permit.id);
   const [text, setText] = useState('');
+  const figures = useFigures();
   return (
     <Panel title="Timeline">
       <ol className="flex flex-col gap-2">
@@ -521,12 +522,12 @@ function Timeline({ permit, at, timeZone }: { permit: PermitDetail; at: (iso: st
           return (
             <li key={e.id} className="border-l-4 border-rule pl-3" data-testid="timeline-line">
               <p>
-                <span className="font-semibold">{timelineLine(e, timeZone)}</span>{' '}
+                <span className="font-semibold">{timelineLine(e, timeZone, figures)}</span>{' '}
                 <span className="text-sm text-ink-soft">
                   {at(e.at)} (revision {e.revision})
                 </span>
               </p>
-              {e.comment ? <p className="whitespace-pre-wrap">“{e.comment}”</p> : null}
+              {e.comment ? <p className="whitespace-pre-wrap">“{e.actor.id === null ? figures.words(e.comment) : e.comment}”</p> : null}
               {photos.length ? (
                 <ul className="mt-1 flex flex-wrap gap-3" aria-label={`Photos of the concern by ${e.actor.name}`}>
                   {photos.map((id, i) => (

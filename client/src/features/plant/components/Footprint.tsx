@@ -1,22 +1,26 @@
 import { scaleBarLength } from '@shared/permits/drawing';
+import { figuresIn, FOOT, type Figures } from '@shared/units';
 import { footprintBounds, plantElementKindLabels, type PlantElement, type PlantElementKind } from '@shared/schemas/plant';
 
 const fills: Record<PlantElementKind, string> = { track: '#4c5a64', pad: '#8a7350', wheel: '#1e2a33' };
 
 /**
  * The machine's bearing elements seen from above, to scale: x (forward) to the right, y (left) up,
- * the origin marked, with a scale bar in metres and the front marked with an arrow.
+ * the origin marked, with a scale bar in metres or feet and the front marked with an arrow.
  */
 export function Footprint({
   elements,
   name,
   width = 360,
   height = 260,
+  figures = figuresIn('metric'),
 }: {
   elements: PlantElement[];
   name: string;
   width?: number;
   height?: number;
+  /** The reader's figures (the sizes and the scale bar in metres or feet). */
+  figures?: Figures;
 }) {
   if (elements.length === 0) return null;
   const b = footprintBounds(elements);
@@ -33,7 +37,10 @@ export function Footprint({
   const oy = margin + (height - margin - bottom - spanY * k) / 2 + maxY * k;
   const sx = (x: number) => ox + x * k;
   const sy = (y: number) => oy - y * k;
-  const bar = scaleBarLength(spanX);
+  // A round number of metres, or of feet, in the reader's units.
+  const perUnit = figures.system === 'us' ? FOOT : 1;
+  const barUnits = scaleBarLength(spanX / perUnit);
+  const bar = barUnits * perUnit;
   const kinds = [...new Set(elements.map((e) => e.kind))];
 
   return (
@@ -60,7 +67,7 @@ export function Footprint({
               stroke="#1e2a33"
               strokeWidth={0.75}
             >
-              <title>{`${e.name}: ${e.length} m × ${e.width} m, ${(e.share * 100).toFixed(1)} % of the weight`}</title>
+              <title>{`${e.name}: ${figures.length(e.length)} × ${figures.length(e.width)}, ${(e.share * 100).toFixed(1)} % of the weight`}</title>
             </rect>
             <text x={sx(e.x)} y={sy(e.y) - Math.max((e.width * k) / 2, 1) - 3} textAnchor="middle" fontSize={11} fill="#1e2a33">
               {i + 1}
@@ -83,7 +90,7 @@ export function Footprint({
             0
           </text>
           <text x={bar * k} y={18} fontSize={11} fill="#1e2a33" textAnchor="middle">
-            {bar} m
+            {barUnits} {figures.unit('length')}
           </text>
         </g>
         <text x={width - margin} y={height - 8} fontSize={11} fill="#4c5a64" textAnchor="end">

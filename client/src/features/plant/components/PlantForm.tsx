@@ -201,7 +201,9 @@ export function PlantForm({ initial, saveLabel, onSave, onCancel }: PlantFormPro
           </Button>
         </div>
       </fieldset>
-      {drawable.length ? <Footprint elements={drawable as PlantItemValues['elements']} name={watch('name') || 'this machine'} /> : null}
+      {drawable.length ? (
+        <Footprint elements={drawable as PlantItemValues['elements']} name={watch('name') || 'this machine'} figures={figures} />
+      ) : null}
       <div className="flex flex-col gap-1">
         <label htmlFor="plant-notes" className="font-semibold">
           Notes

@@ -16,6 +16,7 @@ import { Page, Panel } from '@client/components/Page';
 import { LoadError, Loading, Notice } from '@client/components/Status';
 import { errorMessage } from '@client/lib/api';
 import { useMe } from '@client/lib/session';
+import { useFigures } from '@client/lib/units';
 import { useDeletePlant, usePlant, useSavePlant } from '../api/plant';
 import { Footprint } from '../components/Footprint';
 import { PlantForm } from '../components/PlantForm';
@@ -128,13 +129,14 @@ export function PlantPage() {
 }
 
 function PlantSummary({ item }: { item: PlantItem }) {
+  const figures = useFigures();
   return (
     <>
       <p>
-        {plantCategoryLabels[item.category]} · operating mass <strong>{item.operatingMass.toFixed(1)} t</strong> (
-        {(item.operatingMass * G).toFixed(1)} kN) · design factor {item.designFactor.toFixed(2)}
+        {plantCategoryLabels[item.category]} · operating mass <strong>{figures.mass(item.operatingMass)}</strong> (
+        {figures.force(item.operatingMass * G)}) · design factor {item.designFactor.toFixed(2)}
       </p>
-      <Footprint elements={item.elements} name={item.name} />
+      <Footprint elements={item.elements} name={item.name} figures={figures} />
       <div className="overflow-x-auto">
         <table className="text-sm">
           <thead>
@@ -146,16 +148,16 @@ function PlantSummary({ item }: { item: PlantItem }) {
                 Element
               </th>
               <th scope="col" className="pr-3 text-right">
-                Size (m)
+                Size ({figures.unit('length')})
               </th>
               <th scope="col" className="pr-3 text-right">
                 Share
               </th>
               <th scope="col" className="pr-3 text-right">
-                Load (kN)
+                Load ({figures.unit('force')})
               </th>
               <th scope="col" className="text-right">
-                Pressure (kPa)
+                Pressure ({figures.unit('pressure')})
               </th>
             </tr>
           </thead>
@@ -169,11 +171,11 @@ function PlantSummary({ item }: { item: PlantItem }) {
                     {e.name} <span className="text-ink-soft">({plantElementKindLabels[e.kind].toLowerCase()})</span>
                   </td>
                   <td className="pr-3 text-right tabular-nums">
-                    {e.length.toFixed(2)} × {e.width.toFixed(2)}
+                    {figures.length(e.length, { bare: true })} × {figures.length(e.width, { bare: true })}
                   </td>
                   <td className="pr-3 text-right tabular-nums">{(e.share * 100).toFixed(1)} %</td>
-                  <td className="pr-3 text-right tabular-nums">{force.toFixed(1)}</td>
-                  <td className="text-right tabular-nums">{pressure.toFixed(1)}</td>
+                  <td className="pr-3 text-right tabular-nums">{figures.force(force, { bare: true })}</td>
+                  <td className="text-right tabular-nums">{figures.pressure(pressure, { bare: true })}</td>
                 </tr>
               );
             })}
