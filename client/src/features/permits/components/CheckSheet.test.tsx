@@ -75,6 +75,10 @@ describe('the calculation sheet', () => {
     const row = within(view.getByRole('table', { name: 'Each load' })).getByRole('row', { name: /Hoarding footing/ });
     expect(row.textContent).toContain('4.1 ft');
     expect(row.textContent).not.toMatch(/\d m\b/);
+    // The pressure diagram's axes in psf and ft; the pit is 3 m = 9.8425 ft deep (NIST SP 811 B.8).
+    expect(view.getByRole('img', { name: /lateral pressure \(psf\) against depth \(ft\)/ })).toBeTruthy();
+    expect(view.getByText('Dashed black: formation level, 9.8 ft')).toBeTruthy();
+    expect(view.queryByText(/pressure \(kPa\)|depth \(m\)/)).toBeNull();
   });
 });
 

@@ -123,7 +123,9 @@ function ExcavationSheet({
               : '45° load spread: each load presses on the support in the band of depths its spread reaches.'}{' '}
             Minimum clearance {f.length(req.minimumClearance, { rounding: 'up' })}.
           </p>
-          {r.profile ? <PressureDiagram profile={r.profile} depth={ex.depth} title={`Pressure beside ${ex.reference}`} /> : null}
+          {r.profile ? (
+            <PressureDiagram profile={r.profile} depth={ex.depth} title={`Pressure beside ${ex.reference}`} figures={f} />
+          ) : null}
           <h4 className="font-semibold">Forces and moments (per {f.system === 'us' ? 'foot' : 'metre'} run of support)</h4>
           <ul className="text-sm">
             <li>

@@ -1,5 +1,6 @@
 import type { ProfilePoint } from '@shared/engineering';
 import { ticks } from '@shared/permits/drawing';
+import { figuresIn, inSystem, type Figures } from '@shared/units';
 
 const series = [
   { key: 'soil', label: 'Soil', colour: '#64748b', dash: '' },
@@ -9,10 +10,32 @@ const series = [
 ] as const;
 
 /**
- * Lateral pressure against depth, to scale on both axes: depth downward from ground level (m),
- * pressure across (kPa), with the soil, water, surcharge and the allowance.
+ * Lateral pressure against depth, to scale on both axes: depth downward from ground level (m or ft),
+ * pressure across (kPa or psf), with the soil, water, surcharge and the allowance.
  */
-export function PressureDiagram({ profile, depth, title }: { profile: ProfilePoint[]; depth: number; title: string }) {
+export function PressureDiagram({
+  profile: si,
+  depth: depthSI,
+  title,
+  figures = figuresIn('metric'),
+}: {
+  profile: ProfilePoint[];
+  depth: number;
+  title: string;
+  /** The reader's figures: the axes in their units. */
+  figures?: Figures;
+}) {
+  const p = (kPa: number) => inSystem('pressure', kPa, figures.system);
+  const profile = si.map((x) => ({
+    z: inSystem('length', x.z, figures.system),
+    soil: p(x.soil),
+    water: p(x.water),
+    surcharge: p(x.surcharge),
+    total: p(x.total),
+    allowance: p(x.allowance),
+  }));
+  const depth = inSystem('length', depthSI, figures.system);
+  const [pUnit, zUnit] = [figures.unit('pressure'), figures.unit('length')];
   const W = 360;
   const H = 260;
   const pad = { l: 52, t: 34, r: 12, b: 12 };
@@ -31,7 +54,7 @@ export function PressureDiagram({ profile, depth, title }: { profile: ProfilePoi
         viewBox={`0 0 ${W} ${H}`}
         className="w-full max-w-md"
         role="img"
-        aria-label={`${title}: lateral pressure (kPa) against depth (m), depth downward`}
+        aria-label={`${title}: lateral pressure (${pUnit}) against depth (${zUnit}), depth downward`}
       >
         {px.map((v) => (
           <g key={`x${v}`}>
@@ -50,10 +73,10 @@ export function PressureDiagram({ profile, depth, title }: { profile: ProfilePoi
           </g>
         ))}
         <text x={(pad.l + W - pad.r) / 2} y={10} fontSize="11" textAnchor="middle" fill="#1e2a33">
-          pressure (kPa)
+          pressure ({pUnit})
         </text>
         <text x={12} y={(pad.t + H) / 2} fontSize="11" textAnchor="middle" fill="#1e2a33" transform={`rotate(-90 12 ${(pad.t + H) / 2})`}>
-          depth (m)
+          depth ({zUnit})
         </text>
         <line x1={X(0)} x2={X(0)} y1={Y(0)} y2={Y(depth)} stroke="#1e2a33" strokeWidth="1.5" />
         <line x1={X(0)} x2={X(px[px.length - 1])} y1={Y(depth)} y2={Y(depth)} stroke="#1e2a33" strokeDasharray="3 3" />
@@ -71,7 +94,7 @@ export function PressureDiagram({ profile, depth, title }: { profile: ProfilePoi
               {s.label}
             </li>
           ))}
-          <li>Dashed black: formation level, {depth.toFixed(2)} m</li>
+          <li>Dashed black: formation level, {figures.length(depthSI)}</li>
         </ul>
       </figcaption>
     </figure>

@@ -512,7 +512,10 @@ export function Editor(subject: EditorSubject) {
               value=""
               onChange={(e) => addPlant(e.target.value)}
               emptyLabel="Choose a machine"
-              options={(plantQ.data ?? []).map((p) => ({ value: p.id, label: `${p.name} (${figures.mass(p.operatingMass)})` }))}
+              options={(plantQ.data ?? []).map((p) => ({
+                value: p.id,
+                label: `${p.name} (${figures.system === 'us' ? figures.mass(p.operatingMass) : `${p.operatingMass} t`})`,
+              }))}
               hint={
                 named.length
                   ? `It is placed at its standoff from ${named[0].reference}.`
