@@ -1,5 +1,14 @@
-import { expect, test } from '@playwright/test';
-import { signIn } from './helpers';
+import { devices, expect, test, type Page } from '@playwright/test';
+import { demoPassword, signIn } from './helpers';
+
+/** Sets the signed-in person's units through the API (null: follow the site again). */
+async function setMyUnits(page: Page, units: 'us' | 'metric' | null) {
+  const r = await page.request.patch('/api/auth/me', { data: { units }, headers: { Origin: new URL(page.url()).origin } });
+  expect(r.ok()).toBe(true);
+}
+
+/** A figure followed by a metric unit of length, pressure, force or unit weight on the page. */
+const METRIC = /\d(\.\d+)? ?(m|kPa|kN|kN\/m|kN\/m³)(?![\w²³/·])/;
 
 // A supervisor who works in US customary units places a machine and reads its standoff in feet; the
 // same check read in metric agrees (1 ft = 0.3048 m exactly, NIST SP 811), the feet rounded up.
@@ -18,7 +27,7 @@ test('a US user places a load and reads the standoff in feet', async ({ page }) 
     await page.goto(`/sites/${siteId}/permits/new`);
     await page.getByLabel('What the work is').fill('Excavator 21 t loading out beside the rising main trench');
     await page.getByLabel(/^TR-01 /).check();
-    await page.getByLabel('Add a machine from the plant library').selectOption({ label: 'Excavator 21 t (21 t)' });
+    await page.getByLabel('Add a machine from the plant library').selectOption({ label: 'Excavator 21 t (46,300 lb)' });
     await expect(
       page.getByText(/Excavator 21 t is placed \d+\.\d ft from the edge of TR-01, just beyond its computed standoff of \d+\.\d ft/),
     ).toBeVisible();
@@ -50,5 +59,201 @@ test('a US user places a load and reads the standoff in feet', async ({ page }) 
     // The demo supervisor follows the site again, as the other specs expect.
     const reset = await page.request.patch('/api/auth/me', { data: { units: null }, headers: { Origin: new URL(page.url()).origin } });
     expect(reset.ok()).toBe(true);
+  }
+});
+
+// The whole job in feet and pounds: a coordinator draws a trench (depth in feet and inches, surcharge
+// in psf, soil in pcf), a supervisor asks for a permit with the 21 t excavator (its mass in lb) and a
+// stockpile typed in pcf, a coordinator approves with a standoff in feet, the operator reads the
+// exclusion zone in feet on the phone and confirms the briefing, the supervisor records the shift's
+// inspection and hands the area back. Conversions: NIST SP 811 (2008) B.8, 1 ft = 0.3048 m,
+// 1 in = 0.0254 m, 1 psf = 0.04788026 kPa, 1 pcf = 0.1570875 kN/m³, 1 lb = 0.45359237 kg (all exact or
+// derived exactly from the foot and the pound).
+test('a US team does the whole job in feet and pounds', async ({ page, browser }) => {
+  test.setTimeout(180_000);
+  const coordinatorContext = await browser.newContext();
+  const coordinator = await coordinatorContext.newPage();
+  const phoneContext = await browser.newContext({ ...devices['Pixel 7'] });
+  const phone = await phoneContext.newPage();
+  const people: Page[] = [];
+  let drawn: { siteId: number; id: number } | null = null;
+  try {
+    // The coordinator, in US units, draws a trench on the site map.
+    const siteId = await signIn(coordinator, 'coordinator@demo.brink.test');
+    people.push(coordinator);
+    await setMyUnits(coordinator, 'us');
+    await coordinator.goto(`/sites/${siteId}/map`);
+    await expect(coordinator.getByRole('heading', { name: 'Site map' })).toBeVisible();
+    const map = coordinator.getByTestId('site-map');
+    await expect(map.locator('path.brink-excavation').filter({ visible: true }).first()).toBeVisible();
+    await coordinator.getByRole('button', { name: 'Draw a trench' }).click();
+    await expect(coordinator.getByText('Click the map at each point of the trench’s centre line')).toBeVisible();
+    const box = (await map.boundingBox())!;
+    await coordinator.mouse.click(box.x + box.width * 0.2, box.y + box.height * 0.3);
+    await coordinator.mouse.click(box.x + box.width * 0.35, box.y + box.height * 0.3);
+    await coordinator.getByRole('button', { name: 'Finish' }).click();
+    const form = coordinator.getByRole('form', { name: 'New excavation' });
+    await expect(form).toBeVisible();
+    const reference = `US-${Date.now().toString(36).toUpperCase()}`;
+    await form.getByLabel('Reference', { exact: true }).fill(reference);
+    await form.getByLabel('Name', { exact: true }).fill('Storm sewer trench, feet and pounds');
+    // 7 ft 4 in = 2.2352 m; 3 ft = 0.9144 m; 250 psf = 11.970 kPa; 120 pcf = 18.850 kN/m³.
+    await form.getByLabel('Width (ft)').fill('3 ft');
+    await form.getByLabel('Depth H (ft)').fill('7 ft 4 in');
+    await form.getByLabel('Support', { exact: true }).selectOption({ label: 'Trench box' });
+    await form.getByLabel('Design surcharge allowance (psf)').fill('250');
+    await form.getByLabel('Layer 1 unit weight γ (pcf)').fill('120 pcf');
+    await form.getByRole('button', { name: 'Save excavation' }).click();
+    await expect(coordinator.getByText(`${reference} saved.`)).toBeVisible();
+    const list = (await (await coordinator.request.get(`/api/sites/${siteId}/excavations`)).json()).excavations as {
+      id: number;
+      reference: string;
+      depth: number;
+      width: number;
+      designSurcharge: number;
+      soil: { unitWeight: number }[];
+    }[];
+    const trench = list.find((e) => e.reference === reference)!;
+    drawn = { siteId, id: trench.id };
+    expect(trench.depth).toBeCloseTo((7 + 4 / 12) * 0.3048, 6);
+    expect(trench.width).toBeCloseTo(3 * 0.3048, 6);
+    expect(trench.designSurcharge).toBeCloseTo(250 * 0.04788026, 4);
+    expect(trench.soil[0].unitWeight).toBeCloseTo(120 * 0.1570875, 4);
+    // The register reads it back in feet: 7.333 ft to 0.1 ft.
+    await coordinator.goto(`/sites/${siteId}/register`);
+    const row = coordinator.getByRole('row').filter({ hasText: reference });
+    await expect(row).toContainText('7.3 ft');
+    await expect(row).not.toContainText(METRIC);
+
+    // The supervisor, in US units, asks for a permit beside it.
+    await signIn(page, 'supervisor@demo.brink.test');
+    people.push(page);
+    await setMyUnits(page, 'us');
+    await page.goto(`/sites/${siteId}/permits/new`);
+    await page.getByLabel('What the work is').fill('Excavator 21 t loading out beside the storm sewer trench');
+    // The window opens now (the browser's local time, as the box reads it), so the permit goes live once briefed.
+    const opens = await page.evaluate(() => {
+      const d = new Date(Date.now() - 60_000);
+      const pad = (n: number) => String(n).padStart(2, '0');
+      return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}T${pad(d.getHours())}:${pad(d.getMinutes())}`;
+    });
+    await page.getByLabel('Window opens').fill(opens);
+    await page.getByLabel(`${reference} Storm sewer trench, feet and pounds (7.3 ft deep)`).check();
+    // 21 t = 46,297 lb, shown to 100 lb.
+    await page.getByLabel('Add a machine from the plant library').selectOption({ label: 'Excavator 21 t (46,300 lb)' });
+    await expect(page.getByText(new RegExp(`Excavator 21 t is placed \\d+\\.\\d ft from the edge of ${reference}`))).toBeVisible();
+    await page.getByLabel('Owen Petts (demo operator)').check();
+    // A stockpile of spoil typed in pcf and feet: 120 pcf × 4 ft = 480 psf.
+    await page.getByLabel('Ad hoc load').selectOption('stockpile');
+    await page.getByRole('button', { name: 'Add load' }).click();
+    const pile = page.getByRole('group', { name: 'Load Stockpile' });
+    await pile.getByLabel('Unit weight (pcf)').fill('120 pcf');
+    await pile.getByLabel('Unit weight (pcf)').press('Tab');
+    await pile.getByLabel('Height (ft)').fill('4 ft');
+    await pile.getByLabel('Height (ft)').press('Tab');
+    await expect(pile.getByText('Presses 480 psf')).toBeVisible();
+    const live = page.locator('section', { has: page.getByRole('heading', { name: 'Live check' }) });
+    await expect(live.getByTestId('computed-standoff')).toHaveText(/^\d+\.\d ft$/);
+    await expect(live.getByText('worked out when you let go')).toHaveCount(0);
+    await expect(live).not.toContainText(METRIC);
+    await page.getByRole('button', { name: 'Send for review' }).click();
+    await expect(page).toHaveURL(/\/permits\/\d+$/);
+    const permitId = Number(page.url().match(/\/permits\/(\d+)$/)![1]);
+    await expect(page.locator('[data-status="submitted"]')).toBeVisible();
+    const number = (await page.getByRole('heading', { level: 1 }).textContent())!.replace('Permit ', '').trim();
+
+    // The coordinator approves with a standoff typed in feet, a foot beyond the computed one.
+    await coordinator.goto(`/permits/${permitId}`);
+    await expect(coordinator.getByRole('heading', { name: 'Calculation sheet' })).toBeVisible();
+    await expect(coordinator.getByRole('img', { name: /lateral pressure \(psf\) against depth \(ft\)/ }).first()).toBeVisible();
+    const computed = coordinator.getByTestId('computed-standoff').first();
+    await expect(computed).toHaveText(/^\d+\.\d ft$/);
+    const computedFt = Math.max(
+      ...(await coordinator.getByTestId('computed-standoff').allTextContents()).map((t) => Number(t.replace(' ft', ''))),
+    );
+    await coordinator.getByRole('button', { name: 'Approve', exact: true }).click();
+    const approve = coordinator.getByRole('form', { name: 'Approve' });
+    await approve.getByLabel('Approve with a standoff').check();
+    const standoffFt = Math.ceil(computedFt) + 1;
+    await approve.getByLabel('Standoff from the excavation edge (ft)').fill(`${standoffFt} ft`);
+    await approve.getByLabel('Password', { exact: true }).fill(demoPassword);
+    await approve.getByRole('button', { name: 'Approve' }).click();
+    await expect(coordinator.getByRole('heading', { name: 'Decision: Approved' })).toBeVisible();
+    await expect(coordinator.getByTestId('decision-standoff')).toHaveText(
+      `Standoff: keep every load at least ${standoffFt.toFixed(1)} ft from the excavation edge.`,
+    );
+    await expect(coordinator.getByText(/OSHA 29 CFR 1926 Subpart P/).first()).toBeVisible();
+
+    // The operator, in US units, reads the exclusion zone in feet on the phone and confirms the briefing.
+    const r = await phone.request.post('/api/auth/sign-in', {
+      data: { email: 'operator@demo.brink.test', password: demoPassword },
+      headers: { Origin: new URL(page.url()).origin },
+    });
+    expect(r.status()).toBe(200);
+    await phone.goto('/field');
+    people.push(phone);
+    await setMyUnits(phone, 'us');
+    await phone.goto(`/field/permits/${permitId}`);
+    await expect(phone.getByRole('heading', { name: `Permit ${number}` })).toBeVisible();
+    await expect(phone.getByText(`Keep every part of the load at least ${standoffFt.toFixed(1)} ft from`).first()).toBeVisible();
+    await expect(phone.getByText(/OSHA 29 CFR 1926 Subpart P/).first()).toBeVisible();
+    await expect(phone.locator('main')).not.toContainText(METRIC);
+    await phone.getByRole('button', { name: `I have been briefed on ${number}` }).click();
+    // The phone sends the briefing from its outbox: the permit goes live when it arrives.
+    await expect
+      .poll(
+        async () => ((await (await page.request.get(`/api/permits/${permitId}`)).json()) as { permit: { status: string } }).permit.status,
+      )
+      .toBe('live');
+
+    // The shift's inspection of the trench, by the supervisor: safe to work.
+    await page.goto(`/sites/${siteId}`);
+    const due = page.locator('section', { has: page.getByRole('heading', { name: 'Excavations due for inspection' }) });
+    await due.getByRole('link', { name: `Inspect ${reference}` }).click();
+    const answer = async (group: string, choice: string) =>
+      page.getByRole('group', { name: group, exact: true }).getByText(choice, { exact: true }).click();
+    await answer('Why', 'Start of shift');
+    for (const item of [
+      'Sides and faces',
+      'Edges and stored material',
+      'Access and egress',
+      'Barriers and covers',
+      'Loads nearby',
+      'Support members',
+      'Water',
+    ])
+      await answer(item, 'Pass');
+    await answer('Atmosphere', 'Not applicable');
+    await answer('Outcome', 'Safe to work');
+    await page.getByRole('button', { name: 'Record the inspection' }).click();
+    await expect(page.getByText(/Inspection recorded: safe/)).toBeVisible();
+    await expect(page.locator('main')).not.toContainText(METRIC);
+
+    // The hand-back, and the permit page still in feet.
+    await page.goto(`/permits/${permitId}`);
+    await page.getByRole('button', { name: 'Hand back', exact: true }).click();
+    await page.getByRole('form', { name: 'Hand back' }).getByRole('button', { name: 'Hand back' }).click();
+    await expect(page.getByText('Handed back: the permit is closed.')).toBeVisible();
+    await expect(page.locator('[data-status="handed_back"]').first()).toBeVisible();
+    await expect(page.getByText(`approved it with a standoff of ${standoffFt.toFixed(1)} ft`)).toBeVisible();
+    await expect(page.locator('main')).not.toContainText(METRIC);
+  } finally {
+    // The demo people follow the site again, as the other specs expect; the trench is backfilled so
+    // that no later run's loads reach it.
+    for (const p of people) await setMyUnits(p, null);
+    if (drawn) {
+      const url = `/api/sites/${drawn.siteId}/excavations/${drawn.id}`;
+      const all = (await (await coordinator.request.get(`/api/sites/${drawn.siteId}/excavations`)).json()) as {
+        excavations: { id: number; version: number }[];
+      };
+      const excavation = all.excavations.find((e) => e.id === drawn!.id)!;
+      const done = await coordinator.request.patch(url, {
+        data: { state: 'backfilled', version: excavation.version },
+        headers: { Origin: new URL(coordinator.url()).origin },
+      });
+      expect(done.ok()).toBe(true);
+    }
+    await coordinatorContext.close();
+    await phoneContext.close();
   }
 });

@@ -218,7 +218,7 @@ export const placedLoadLabels: Record<PlacedLoadKind, string> = {
   stockpile: 'Stockpile (unit weight × height)',
   area: 'Area load (pressure over a drawn area)',
   strip: 'Strip load (runs along the face)',
-  line: 'Line load (force per metre)',
+  line: 'Line load (force per unit of length)',
 };
 
 // ---------------------------------------------------------------------------------------------

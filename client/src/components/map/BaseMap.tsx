@@ -7,6 +7,7 @@ import type { ConfigAnswer } from '@shared/schemas/system';
 import type { SitePlan } from '@shared/schemas/excavations';
 import { api } from '@client/lib/api';
 import { MetricGridLayer, metresPerPixel } from './metricGrid';
+import { useUnits } from '@client/lib/units';
 
 /** Zoom range: about 1:200 (zoom 21 at 52° N) out to about 1:20 000. */
 const MIN_ZOOM = 14;
@@ -42,14 +43,14 @@ interface BaseMapProps {
   children?: ReactNode;
 }
 
-function OfflineGrid({ origin }: { origin: BaseMapProps['origin'] }) {
+function OfflineGrid({ origin, feet }: { origin: BaseMapProps['origin']; feet: boolean }) {
   const map = useMap();
   useEffect(() => {
-    const layer = new MetricGridLayer(origin).addTo(map);
+    const layer = new MetricGridLayer(origin, feet ? 'ft' : 'm').addTo(map);
     return () => {
       layer.remove();
     };
-  }, [map, origin.latitude, origin.longitude]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [map, origin.latitude, origin.longitude, feet]); // eslint-disable-line react-hooks/exhaustive-deps
   return null;
 }
 
@@ -106,6 +107,7 @@ export function BaseMap({
 }: BaseMapProps) {
   const [ratio, setRatio] = useState<number | null>(null);
   const config = useAppConfig();
+  const units = useUnits();
   const tileUrl = config.data?.mapTileUrl ?? null;
   return (
     <div className={`relative ${className}`}>
@@ -130,7 +132,7 @@ export function BaseMap({
             maxZoom={MAX_ZOOM}
           />
         ) : (
-          <OfflineGrid origin={origin} />
+          <OfflineGrid origin={origin} feet={units === 'us'} />
         )}
         {plan ? (
           <ImageOverlay
@@ -142,7 +144,8 @@ export function BaseMap({
             opacity={planOpacity}
           />
         ) : null}
-        <ScaleControl position="bottomleft" imperial={false} maxWidth={160} />
+        {/* Keyed by the units: Leaflet's control does not change its options once on the map. */}
+        <ScaleControl key={units} position="bottomleft" metric={units !== 'us'} imperial={units === 'us'} maxWidth={160} />
         <ZoomControl position="bottomright" zoomInTitle="Zoom in" zoomOutTitle="Zoom out" />
         <ScaleRatio onChange={setRatio} />
         {children}

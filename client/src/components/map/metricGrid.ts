@@ -1,5 +1,6 @@
 import L from 'leaflet';
 import { localProjection, type LocalProjection } from '@shared/geometry';
+import { FOOT } from '@shared/units';
 
 /** Grid spacings (m) the offline base chooses from: the smallest whose lines stand at least MIN_GAP px apart. */
 const GRID_STEPS = [0.5, 1, 2, 5, 10, 20, 50, 100, 200, 500, 1000, 2000] as const;
@@ -11,12 +12,16 @@ export function gridStep(pxPerMetre: number): { step: number; labelEvery: number
   return { step, labelEvery: step * pxPerMetre >= 90 ? 1 : step * pxPerMetre >= 45 ? 2 : 5 };
 }
 
-/** "120 m", "1.5 km", "0.5 m": a grid coordinate in words with its unit. */
-export function gridLabel(metres: number): string {
-  const a = Math.abs(metres);
+/** "120 m", "1.5 km", "0.5 m" (or "200 ft"): a grid coordinate in words with its unit. */
+export function gridLabel(value: number, unit: GridUnit = 'm'): string {
+  const a = Math.abs(value);
+  if (unit === 'ft') return `${a.toLocaleString('en-US', { maximumFractionDigits: 1 })} ft`;
   const text = a >= 1000 ? `${+(a / 1000).toFixed(2)} km` : `${+a.toFixed(1)} m`;
   return text;
 }
+
+/** The grid's unit: metres, or feet for a person in US units (1 ft = 0.3048 m). */
+type GridUnit = 'm' | 'ft';
 
 /** Ground distance (m) that one screen pixel covers at the map's centre. */
 export function metresPerPixel(map: L.Map): number {
@@ -37,7 +42,10 @@ export class MetricGridLayer extends L.Layer {
   private readonly proj: LocalProjection;
   private frame = 0;
 
-  constructor(origin: { latitude: number; longitude: number }) {
+  constructor(
+    origin: { latitude: number; longitude: number },
+    private readonly unit: GridUnit = 'm',
+  ) {
     super();
     this.proj = localProjection([origin.longitude, origin.latitude]);
   }
@@ -91,7 +99,10 @@ export class MetricGridLayer extends L.Layer {
     };
     const [x0, y1] = toLocal(0, 0);
     const [x1, y0] = toLocal(size.x, size.y);
-    const { step, labelEvery } = gridStep(1 / metresPerPixel(map));
+    // Steps of a round number of metres, or of feet (the lines stand at k·step units of `unitM` metres).
+    const unitM = this.unit === 'ft' ? FOOT : 1;
+    const { step: stepUnits, labelEvery } = gridStep(unitM / metresPerPixel(map));
+    const step = stepUnits * unitM;
     const yMid = (y0 + y1) / 2;
     const xMid = (x0 + x1) / 2;
 
@@ -132,7 +143,7 @@ export class MetricGridLayer extends L.Layer {
         if (k % labelEvery === 0 && !(k === 0 && n === 1)) {
           const [lx, ly] = axis.label(p);
           ctx.fillStyle = 'rgba(30,42,51,0.8)';
-          ctx.fillText(k === 0 ? '0' : `${gridLabel(v)} ${v > 0 ? axis.dirs[0] : axis.dirs[1]}`, lx, ly);
+          ctx.fillText(k === 0 ? '0' : `${gridLabel(k * stepUnits, this.unit)} ${v > 0 ? axis.dirs[0] : axis.dirs[1]}`, lx, ly);
         }
       }
     }

@@ -20,6 +20,11 @@ describe('offline grid', () => {
     expect(gridLabel(0.5)).toBe('0.5 m');
     expect(gridLabel(1500)).toBe('1.5 km');
   });
+
+  it('labels a grid in feet for a person in US units, with thousands grouped, never in miles', () => {
+    expect(gridLabel(-50, 'ft')).toBe('50 ft');
+    expect(gridLabel(5000, 'ft')).toBe('5,000 ft');
+  });
 });
 
 describe('excavation form values', () => {
