@@ -5,6 +5,8 @@ import {
   addPerson,
   demo,
   demoOrganisationId,
+  linkToken,
+  waitForMail,
   makeOrganisation,
   signedIn,
   startTestApp,
@@ -109,6 +111,21 @@ describe('organisations', () => {
     // An address of one's own organisation, and a new one, are still invited.
     expect((await send(bAdmin, b.coordinatorEmail)).status).toBe(201);
     expect((await send(bAdmin, unique('orgtest-new'))).status).toBe(201);
+  });
+
+  it('refuses, when accepted, an invitation whose address became a person of another organisation meanwhile', async () => {
+    const email = unique('orgtest-race');
+    expect((await bAdmin.post('/api/invitations').send({ email, name: 'Rae Race' })).status).toBe(201);
+    const token = linkToken((await waitForMail(t.deps, email, /invited/)).text, '/invitations/accept');
+    await addPerson(t.deps, { email, name: 'Rae Race (of A)' });
+    const accepted = await request(t.app).post('/api/invitations/accept').send({ token, name: 'Rae Race', password: 'a-long-password-1' });
+    expect(accepted.status).toBe(409);
+    const person = await t.deps.db
+      .selectFrom('users')
+      .select(['organisation_id', 'name'])
+      .where('email', '=', email)
+      .executeTakeFirstOrThrow();
+    expect(person).toEqual({ organisation_id: await demoOrganisationId(t.deps), name: 'Rae Race (of A)' });
   });
 
   it("makes a site member only of a person of the site's organisation", async () => {
