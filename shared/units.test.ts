@@ -232,6 +232,10 @@ describe('sentences written in SI, read in US units', () => {
     expect(localizeWords('must be at most 30 kN/m³', 'us')).toBe('must be at most 190 pcf');
     // A figure that is neither stays to the nearest: 2.5 m = 8.2021 ft.
     expect(localizeWords('the trench is 2.5 m deep', 'us')).toBe('the trench is 8.20 ft deep');
+    // Kilometres in miles (NIST SP 811 B.8: mile = 1.609344 E+03 m, exact): a limit "within" rounds down.
+    expect(localizeWords('must lie within 5 km of the site origin (a point is 6.2 km from it)', 'us')).toBe(
+      'must lie within 3.10 mi of the site origin (a point is 3.85 mi from it)',
+    ); // 5 / 1.609344 = 3.1069; 6.2 / 1.609344 = 3.8525
     expect(0.99 * 0.3048).toBeGreaterThanOrEqual(0.3);
     expect(19.68 * 0.3048).toBeLessThanOrEqual(6);
   });

@@ -23,6 +23,8 @@ export const unitSystemLabels: Record<UnitSystem, string> = {
 export const FOOT = 0.3048;
 /** 1 in in metres, exact (NIST SP 811, B.8: inch). */
 export const INCH = 0.0254;
+/** 1 mi (statute mile, 5280 ft) in feet, for distances across a site's surroundings. */
+const MILE = 5280;
 /** 1 lbf in newtons, exact: 0.45359237 kg × 9.80665 m/s² (NIST SP 811, B.8: pound-force). */
 export const POUND_FORCE = 0.45359237 * 9.80665;
 /** 1 kip = 1000 lbf, in newtons (NIST SP 811, B.8: kip). */
@@ -363,7 +365,7 @@ function limitRounding(before: string): Rounding {
   const b = before.slice(-60).toLowerCase();
   if (/between\s+\S+(?:\s+\S+)?\s+and\s*$/.test(b)) return 'down';
   if (/(?:at least|more than|no less than|minimum(?: clearance)? of|between|≥)\s*$/.test(b)) return 'up';
-  if (/(?:at most|less than|no more than|up to|≤)\s*$/.test(b)) return 'down';
+  if (/(?:at most|less than|no more than|up to|within|≤)\s*$/.test(b)) return 'down';
   return 'nearest';
 }
 
@@ -377,7 +379,7 @@ export function localizeWords(text: string, system: UnitSystem): string {
   if (system === 'metric') return text;
   const fig = (v: number, places: number) => v.toLocaleString('en-US', { maximumFractionDigits: places, minimumFractionDigits: places });
   const NUM = String.raw`-?\d{1,3}(?:,\d{3})+(?:\.\d+)?|-?\d+(?:\.\d+)?`;
-  const UNIT = String.raw`kPa\/m|kPa|kN\/m³|kN\/m|kN|m|t`;
+  const UNIT = String.raw`kPa\/m|kPa|kN\/m³|kN\/m|kN|km|m|t`;
   // `between 0.3 and 6 m`: the unit of the second figure is the first's too.
   const ranged = text.replace(
     new RegExp(String.raw`between (${NUM}) and (${NUM}) ?(${UNIT})(?![\w²³/·])`, 'g'),
@@ -403,6 +405,9 @@ export function localizeWords(text: string, system: UnitSystem): string {
           return us('lineForce', 1, 0, 'lbf/ft');
         case 't':
           return us('mass', 1, 0, 'lb');
+        case 'km':
+          // The statute mile, 5280 ft = 1609.344 m exactly (NIST SP 811, B.8: mile).
+          return us('length', 0.01, 2, 'mi', 1000 / MILE);
         default:
           return us('unitWeight', 1, 0, 'pcf');
       }
