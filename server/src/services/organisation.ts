@@ -19,7 +19,7 @@ type OwnedTable = 'users' | 'sites' | 'invitations' | 'plant_items';
 export type Scope = { organisationId: number };
 
 /** 404 naming `what` unless every id is a row of `table` in the scope's organisation. */
-export async function ownOnly(db: Db, scope: Scope, table: OwnedTable, ids: number | readonly number[], what: string): Promise<void> {
+async function ownOnly(db: Db, scope: Scope, table: OwnedTable, ids: number | readonly number[], what: string): Promise<void> {
   const wanted = [...new Set(typeof ids === 'number' ? [ids] : ids)];
   if (wanted.length === 0) return;
   const { rows } = await sql<{ n: number }>`
