@@ -251,15 +251,16 @@ describe('organisations', () => {
     await expect(
       t.deps.db.updateTable('plant_items').set({ organisation_id: b.id }).where('id', '=', w.excavatorId).execute(),
     ).rejects.toEqual(refused('organisation_kept'));
-    // Its own machine, and a load that names none, are accepted.
+    // A load that names no machine, and its own machine, are accepted (its own last: the revision is
+    // left as Brink wrote it, for the tests that read every stored revision, stored-shapes.test).
     await t.deps.db
       .updateTable('permit_revisions')
-      .set({ loads: JSON.stringify(loads) })
+      .set({ loads: JSON.stringify([{ ...loads[0], plantItemId: null }]) })
       .where('id', '=', revision.id)
       .execute();
     await t.deps.db
       .updateTable('permit_revisions')
-      .set({ loads: JSON.stringify([{ ...loads[0], plantItemId: null }]) })
+      .set({ loads: JSON.stringify(loads) })
       .where('id', '=', revision.id)
       .execute();
   });
