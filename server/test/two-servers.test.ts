@@ -1,5 +1,4 @@
 import { spawn, type ChildProcess } from 'node:child_process';
-import { request } from 'node:http';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -185,31 +184,4 @@ describe('two servers, one database, one object store', () => {
     const said = servers.flatMap((s) => s.log.join('').match(new RegExp(`lapsed [0-9,]*\\b${live.id}\\b`, 'g')) ?? []);
     expect(said).toHaveLength(1);
   }, 200_000);
-
-  // Last in the file: it stops the second server.
-  it('a request being answered when its server is told to stop gets its answer before the server goes', async () => {
-    const s = servers[1];
-    const body = JSON.stringify({ email: demo.operator, password: DEMO_PASSWORD });
-    const req = request(`${s.url}/api/auth/sign-in`, {
-      method: 'POST',
-      headers: { Origin: ORIGIN, 'Content-Type': 'application/json', 'Content-Length': Buffer.byteLength(body), Connection: 'close' },
-    });
-    const answered = new Promise<number>((resolve, reject) => {
-      req.on('response', (res) => {
-        res.resume();
-        res.on('end', () => resolve(res.statusCode!));
-      });
-      req.on('error', reject);
-    });
-    req.write(body.slice(0, 10));
-    await new Promise<void>((resolve) => req.once('socket', (socket) => socket.once('connect', resolve)));
-    // A request made after that connection and answered means the server has taken the connection.
-    expect((await fetch(`${s.url}/api/health`)).ok).toBe(true);
-    s.child.kill('SIGTERM');
-    await until('the server to say it is stopping', async () => s.log.join('').includes('SIGTERM: stopping Brink'));
-    req.end(body.slice(10));
-    expect(await answered).toBe(200);
-    await until('the server to exit', async () => s.child.exitCode !== null || undefined);
-    expect(s.child.exitCode).toBe(0);
-  });
 });
