@@ -1,3 +1,4 @@
+import type { Server } from 'node:http';
 import { loadConfig } from './config';
 import { createApp } from './app';
 import { startRuntime } from './runtime';
@@ -75,10 +76,25 @@ async function stop(signal: string) {
   if (stopping) return;
   stopping = true;
   console.log(`\n${signal}: stopping Brink`);
-  server.close();
+  await closeServer(server, 10_000);
   await catcher.stop();
   await runtime.stop();
   process.exit(0);
+}
+/**
+ * Stops taking connections and waits for the requests being answered to finish, so that none loses
+ * the database under it ("driver has already been destroyed") and a change mid-answer commits or not
+ * as a whole; idle keep-alive connections close at once, and any still busy after `ms` are cut.
+ */
+function closeServer(s: Server, ms: number): Promise<void> {
+  return new Promise((resolve) => {
+    const cut = setTimeout(() => s.closeAllConnections(), ms);
+    s.close(() => {
+      clearTimeout(cut);
+      resolve();
+    });
+    s.closeIdleConnections();
+  });
 }
 process.on('SIGINT', () => void stop('SIGINT'));
 process.on('SIGTERM', () => void stop('SIGTERM'));

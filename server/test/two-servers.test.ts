@@ -1,5 +1,6 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
+import { connect } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -184,4 +185,33 @@ describe('two servers, one database, one object store', () => {
     const said = servers.flatMap((s) => s.log.join('').match(new RegExp(`lapsed [0-9,]*\\b${live.id}\\b`, 'g')) ?? []);
     expect(said).toHaveLength(1);
   }, 200_000);
+
+  // Last in the file: it stops the second server.
+  it('a request being answered when its server is told to stop gets its answer before the server goes', async () => {
+    const s = servers[1];
+    const socket = connect(Number(new URL(s.url).port), '127.0.0.1');
+    let text = '';
+    socket.on('data', (d: Buffer) => (text += d.toString()));
+    const closed = new Promise<void>((resolve) => socket.on('close', () => resolve()));
+    const answers = () => text.match(/HTTP\/1\.1 \d{3}/g) ?? [];
+    // A first request on the connection: the server has taken it and reads from it.
+    socket.write('GET /api/health HTTP/1.1\r\nHost: 127.0.0.1\r\n\r\n');
+    await until('the first answer', async () => answers().length === 1);
+    // Then a sign-in's head and the start of its body.
+    const body = JSON.stringify({ email: demo.operator, password: DEMO_PASSWORD });
+    socket.write(
+      `POST /api/auth/sign-in HTTP/1.1\r\nHost: 127.0.0.1\r\nOrigin: ${ORIGIN}\r\nContent-Type: application/json\r\n` +
+        `Content-Length: ${Buffer.byteLength(body)}\r\nConnection: close\r\n\r\n${body.slice(0, 10)}`,
+    );
+    // An answer to bytes that reached the server after those: the server has read them too.
+    expect((await fetch(`${s.url}/api/health`)).ok).toBe(true);
+    s.child.kill('SIGTERM');
+    await until('the server to say it is stopping', async () => s.log.join('').includes('SIGTERM: stopping Brink'));
+    // The rest of the body (the connection stays open: an HTTP server drops a request whose client half-closes).
+    socket.write(body.slice(10));
+    await closed; // Connection: close, once the sign-in is answered
+    expect(answers()).toEqual(['HTTP/1.1 200', 'HTTP/1.1 200']);
+    await until('the server to exit', async () => s.child.exitCode !== null);
+    expect(s.child.exitCode).toBe(0);
+  });
 });
