@@ -11,6 +11,7 @@
  */
 
 import { cautionFor } from './caution';
+import type { ProfilePoint } from './engineering/types';
 
 export const unitSystems = ['metric', 'us'] as const;
 export type UnitSystem = (typeof unitSystems)[number];
@@ -99,6 +100,19 @@ export function unitLabel(quantity: Quantity, system: UnitSystem): string {
 /** The value in the system's display unit, unrounded (for inputs and the command line). */
 export function inSystem(quantity: Quantity, si: number, system: UnitSystem): number {
   return fromSI(quantity, si, DISPLAY[system][quantity].unit as never);
+}
+
+/** A pressure profile as a diagram in `system` draws it: depths in m or ft, pressures in kPa or psf. */
+export function profileIn(profile: readonly ProfilePoint[], system: UnitSystem): ProfilePoint[] {
+  const p = (kPa: number) => inSystem('pressure', kPa, system);
+  return profile.map((x) => ({
+    z: inSystem('length', x.z, system),
+    soil: p(x.soil),
+    water: p(x.water),
+    surcharge: p(x.surcharge),
+    total: p(x.total),
+    allowance: p(x.allowance),
+  }));
 }
 
 /** The SI value of a number given in the system's display unit. */

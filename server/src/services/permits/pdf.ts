@@ -16,7 +16,7 @@ import {
 import { attentionWarnings, bandsWords, failsBeyondPassing, type ProfilePoint } from '@shared/engineering';
 import type { Deps } from '../../deps';
 import { notFound } from '../../http';
-import { figuresIn, FOOT, inSystem, type Figures } from '@shared/units';
+import { figuresIn, FOOT, inSystem, profileIn, type Figures } from '@shared/units';
 import { formatSiteTime } from '@shared/time/shifts';
 import type { CheckExcavation } from '@shared/permits/check';
 import { excavationsFor, plantFor } from './check';
@@ -350,14 +350,7 @@ function sheet(doc: PDFKit.PDFDocument, F: Figures, ex: ExcavationCheck, when: (
 function drawPressureDiagram(doc: PDFKit.PDFDocument, F: Figures, siProfile: ProfilePoint[], siH: number): void {
   if (siProfile.length < 2) return;
   // Drawn in the reader's units: the axes' ticks are round numbers of psf and ft, or kPa and m.
-  const p = (kPa: number) => inSystem('pressure', kPa, F.system);
-  const profile = siProfile.map((q) => ({
-    z: inSystem('length', q.z, F.system),
-    soil: p(q.soil),
-    water: p(q.water),
-    surcharge: p(q.surcharge),
-    allowance: p(q.allowance),
-  }));
+  const profile = profileIn(siProfile, F.system);
   const H = inSystem('length', siH, F.system);
   const boxW = 300;
   const boxH = 220;

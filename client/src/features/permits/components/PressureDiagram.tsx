@@ -1,6 +1,6 @@
 import type { ProfilePoint } from '@shared/engineering';
 import { ticks } from '@shared/permits/drawing';
-import { figuresIn, inSystem, type Figures } from '@shared/units';
+import { figuresIn, inSystem, profileIn, type Figures } from '@shared/units';
 
 const series = [
   { key: 'soil', label: 'Soil', colour: '#64748b', dash: '' },
@@ -25,15 +25,7 @@ export function PressureDiagram({
   /** The reader's figures: the axes in their units. */
   figures?: Figures;
 }) {
-  const p = (kPa: number) => inSystem('pressure', kPa, figures.system);
-  const profile = si.map((x) => ({
-    z: inSystem('length', x.z, figures.system),
-    soil: p(x.soil),
-    water: p(x.water),
-    surcharge: p(x.surcharge),
-    total: p(x.total),
-    allowance: p(x.allowance),
-  }));
+  const profile = profileIn(si, figures.system);
   const depth = inSystem('length', depthSI, figures.system);
   const [pUnit, zUnit] = [figures.unit('pressure'), figures.unit('length')];
   const W = 360;
