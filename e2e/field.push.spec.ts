@@ -14,7 +14,6 @@ type EventClass = new (type: string, init: object) => Event;
 interface WorkerScope {
   registration: { getNotifications(): Promise<{ title: string; body: string; data: unknown }[]> };
   dispatchEvent(e: Event): boolean;
-  PushEvent: EventClass;
   NotificationEvent: EventClass;
 }
 
@@ -51,13 +50,31 @@ async function subscribeAt(page: Page, sub: { endpoint: string; keys: { p256dh: 
   }, sub);
 }
 
-/** Opens /field and reloads once its service worker runs (the switch needs it); answers the worker. */
-async function openPhoneView(page: Page, context: BrowserContext): Promise<Worker> {
+/** Opens /field and reloads once its service worker runs (the switch needs it). */
+async function openPhoneView(page: Page, context: BrowserContext): Promise<void> {
   await page.goto('/field');
-  const worker: Worker = context.serviceWorkers()[0] ?? (await context.waitForEvent('serviceworker'));
+  if (context.serviceWorkers().length === 0) await context.waitForEvent('serviceworker');
   await page.evaluate(() => navigator.serviceWorker.ready.then(() => true));
   await page.reload();
-  return worker;
+}
+
+/** Delivers `data` as a push message to the origin's service worker, as the browser does for one from its push service. */
+async function deliverPush(page: Page, origin: string, data: string): Promise<void> {
+  const cdp = await page.context().newCDPSession(page);
+  const registrationId = new Promise<string>((resolve) =>
+    cdp.on('ServiceWorker.workerRegistrationUpdated', ({ registrations }) => {
+      const ours = registrations.find((r) => r.scopeURL.startsWith(origin) && !r.isDeleted);
+      if (ours) resolve(ours.registrationId);
+    }),
+  );
+  await cdp.send('ServiceWorker.enable');
+  await cdp.send('ServiceWorker.deliverPushMessage', { origin, registrationId: await registrationId, data });
+  await cdp.detach();
+}
+
+/** The service worker running now (Chromium stops an idle one; a push starts it again as a new worker). */
+async function runningWorker(context: BrowserContext): Promise<Worker> {
+  return context.serviceWorkers().at(-1) ?? (await context.waitForEvent('serviceworker'));
 }
 
 test('the operator is told on the phone when a permit that names them is suspended, and the notification opens it', async ({
@@ -82,7 +99,7 @@ test('the operator is told on the phone when a permit that names them is suspend
   await subscribeAt(page, { endpoint: device.endpoint, keys: device.keys });
 
   // The service worker is installed once the phone view has loaded; the switch is usable then.
-  const worker = await openPhoneView(page, context);
+  await openPhoneView(page, context);
   const toggle = page.getByRole('checkbox', { name: 'Notifications on this phone' });
   await expect(toggle).toBeEnabled();
   await toggle.click();
@@ -123,14 +140,13 @@ test('the operator is told on the phone when a permit that names them is suspend
     body: 'Stop work under this permit now and move clear of the excavation.',
   });
 
-  // Handed to the phone's service worker as the push it is: shown as a notification…
-  await worker.evaluate((data) => {
-    const scope = self as unknown as WorkerScope;
-    scope.dispatchEvent(new scope.PushEvent('push', { data }));
-  }, payload);
+  // Handed to the phone's service worker as the push it is, through the browser's own push path
+  // (DevTools' deliverPushMessage: a trusted push event, which starts the worker again should the
+  // browser have stopped it while idle): shown as a notification…
+  await deliverPush(page, origin, payload);
   const shown = () =>
-    worker.evaluate(async (t) => {
-      const list = await (self as unknown as WorkerScope).registration.getNotifications();
+    page.evaluate(async (t) => {
+      const list = await (await navigator.serviceWorker.ready).getNotifications();
       return list.filter((n) => n.title === t).map((n) => ({ body: n.body, data: n.data as { path: string } }));
     }, title);
   await expect
@@ -139,8 +155,10 @@ test('the operator is told on the phone when a permit that names them is suspend
       { body: 'Stop work under this permit now and move clear of the excavation.', data: { path: `/field/permits/${permit.id}` } },
     ]);
 
-  // …and tapping it opens the permit on the phone.
-  await worker.evaluate(async (t) => {
+  // …and tapping it opens the permit on the phone (the click is handed to the worker running now).
+  await (
+    await runningWorker(context)
+  ).evaluate(async (t) => {
     const scope = self as unknown as WorkerScope;
     const [n] = (await scope.registration.getNotifications()).filter((x) => x.title === t);
     scope.dispatchEvent(new scope.NotificationEvent('notificationclick', { notification: n }));
