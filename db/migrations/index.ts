@@ -15,6 +15,7 @@ import * as m0014 from './0014_organisations';
 import * as m0015 from './0015_excavation_answers';
 import * as m0016 from './0016_page_indexes';
 import * as m0017 from './0017_organisation_bounds';
+import * as m0018 from './0018_people_search';
 
 /**
  * Every migration, in order. Listed here (not read from the folder) so that the same code runs
@@ -37,4 +38,5 @@ export const migrations: Record<string, Migration> = {
   '0015_excavation_answers': m0015,
   '0016_page_indexes': m0016,
   '0017_organisation_bounds': m0017,
+  '0018_people_search': m0018,
 };

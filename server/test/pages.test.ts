@@ -183,3 +183,86 @@ describe('inspection pages', () => {
     expect(bad.body.error.fields).toEqual({ cursor: 'is not a cursor this list gave' });
   });
 });
+
+describe('people search', () => {
+  // Issue 16 §1: the people list searched by name or e-mail address in SQL, paged like the rest.
+  let o: Awaited<ReturnType<typeof makeOrganisation>>;
+  let admin: request.Agent;
+  const word = `quell${tag}`;
+  const add = (organisationId: number, name: string, local = randomUUID().slice(0, 8)) =>
+    addPerson(t.deps, { organisationId, email: `${local}-search@example.test`, name });
+  beforeAll(async () => {
+    o = await makeOrganisation(t.deps, 'Search');
+    for (const name of [
+      `Marta ${word}`,
+      `Ann ${word.toUpperCase()}-Smith`,
+      `Bo ${word}`,
+      'Quentin Abbot',
+      'Ray 100% Sure',
+      'Ray 1000 Sure',
+    ])
+      await add(o.id, name);
+    // Found by the address alone.
+    await add(o.id, 'Zed Other', `zed.${word}`);
+    const other = await makeOrganisation(t.deps, 'Elsewhere');
+    await add(other.id, `Elsewhere ${word}`);
+    admin = await signedIn(t.app, o.adminEmail);
+  });
+
+  const names = (r: request.Response) => (r.body.users as { name: string }[]).map((u) => u.name);
+
+  it('finds people by a part of the name or address, in any case, by name; the counts stay the whole organisation', async () => {
+    const r = await admin.get(`/api/users?q=${encodeURIComponent(`  ${word.toUpperCase()} `)}`).expect(200);
+    expect(names(r)).toEqual([`Ann ${word.toUpperCase()}-Smith`, `Bo ${word}`, `Marta ${word}`, 'Zed Other']);
+    expect(r.body.next).toBeNull();
+    expect(r.body.counts).toEqual({ active: 9, total: 9 });
+    // % and _ are taken literally.
+    expect(names(await admin.get(`/api/users?q=${encodeURIComponent('100%')}`).expect(200))).toEqual(['Ray 100% Sure']);
+    expect(names(await admin.get(`/api/users?q=_`).expect(200))).toEqual([]);
+    // An empty search is no search.
+    expect(names(await admin.get('/api/users?q=%20').expect(200))).toHaveLength(9);
+  });
+
+  it('pages through the matches only, every one once', async () => {
+    const whole = await admin.get(`/api/users?q=${word}&limit=500`).expect(200);
+    const paged = await follow(admin, `/api/users?q=${word}&limit=1`);
+    expect(paged.ids).toEqual(whole.body.users.map((u: { id: number }) => u.id));
+    expect(paged.ids).toHaveLength(4);
+    expect(paged.pages).toBe(4);
+  });
+
+  it("shows nobody of another organisation, and another organisation's cursor is refused", async () => {
+    const ours = await admin.get(`/api/users?q=${word}&limit=500`).expect(200);
+    expect(names(ours)).not.toContain(`Elsewhere ${word}`);
+    const demo = await w.agents.admin.get(`/api/users?q=${word}`).expect(200);
+    expect(names(demo)).toEqual([]);
+    const next = (await admin.get(`/api/users?q=${word}&limit=1`).expect(200)).body.next as string;
+    const theirs = await w.agents.admin.get(`/api/users?q=${word}&limit=1&cursor=${encodeURIComponent(next)}`);
+    expect(theirs.status).toBe(400);
+    expect(theirs.body.error.fields).toEqual({ cursor: 'is not a cursor this list gave' });
+  });
+
+  it('refuses a cursor of another search, or of no search, naming `cursor`', async () => {
+    const searched = (await admin.get(`/api/users?q=${word}&limit=1`).expect(200)).body.next as string;
+    const plain = (await admin.get('/api/users?limit=1').expect(200)).body.next as string;
+    for (const [q, cursor] of [
+      ['Marta', searched],
+      ['', searched],
+      [word, plain],
+    ]) {
+      const r = await admin.get(`/api/users?q=${q}&limit=1&cursor=${encodeURIComponent(cursor)}`);
+      expect(r.status, `q=${q}`).toBe(400);
+      expect(r.body.error.fields).toEqual({ cursor: 'is not a cursor this list gave' });
+    }
+  });
+
+  it('refuses a search too long, or with a NUL, naming `q`', async () => {
+    const long = await admin.get(`/api/users?q=${'a'.repeat(101)}`);
+    expect(long.status).toBe(400);
+    expect(long.body.error.fields).toEqual({ q: 'must be at most 100 characters' });
+    expect((await admin.get(`/api/users?q=${'a'.repeat(100)}`).expect(200)).body.users).toEqual([]);
+    const nul = await admin.get('/api/users?q=a%00b');
+    expect(nul.status).toBe(400);
+    expect(Object.keys(nul.body.error.fields)).toEqual(['q']);
+  });
+});

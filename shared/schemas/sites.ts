@@ -81,7 +81,12 @@ export const peopleAnswer = z.object({
   /** How many people the organisation has, active and in all (every page says the same). */
   counts: z.object({ active: z.number().int(), total: z.number().int() }),
 });
+/** The longest text search of the people list (characters). */
+export const peopleSearchMax = 100;
+
 export const peopleListQuerySchema = z.object({
+  /** Words to find in a person's name or e-mail address (case-insensitive). */
+  q: z.string().trim().max(peopleSearchMax, `must be at most ${peopleSearchMax} characters`).optional(),
   limit: z.coerce.number().int().min(1).max(500).default(100),
   /** The `next` of the page before. */
   cursor: z.string().max(1000, 'must be at most 1000 characters').optional(),

@@ -158,7 +158,8 @@ export function registerPeopleRoutes(api: Api): void {
       method: 'get',
       path: '/api/users',
       response: peopleAnswer,
-      summary: "My organisation's people with their site roles, by name, a page at a time (`next` is the cursor of the next page)",
+      summary:
+        "My organisation's people with their site roles, by name, a page at a time (`next` is the cursor of the next page); `q` finds a name or e-mail address",
       tag: 'People',
       access: { kind: 'admin' },
       query: peopleListQuerySchema,

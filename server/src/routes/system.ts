@@ -3,6 +3,7 @@ import { z } from 'zod';
 import type { Request } from 'express';
 import { connectionLossCount } from '@db/database';
 import { Api, forbidden, HttpError } from '../http';
+import { containsPattern } from '../services/search';
 import { openApiDocument } from '../openapi';
 import { caughtMailAnswer, configAnswer, healthAnswer, openApiAnswer } from '@shared/schemas/system';
 
@@ -70,7 +71,7 @@ export function registerSystemRoutes(api: Api): void {
           ]),
         );
       }
-      if (query.to) q = q.where('mail_to', 'ilike', `%${query.to.replace(/[%_\\]/g, (c) => `\\${c}`)}%`);
+      if (query.to) q = q.where('mail_to', 'ilike', containsPattern(query.to));
       const rows = await q.execute();
       return {
         messages: rows.map((r) => ({

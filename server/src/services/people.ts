@@ -5,6 +5,7 @@ import type { Me } from '@shared/schemas/auth';
 import type { Person } from '@shared/schemas/sites';
 import type { Scope } from './organisation';
 import { decodeCursor, pageOf } from './cursor';
+import { containsPattern } from './search';
 
 type PersonRow = { id: number; email: string; name: string; is_admin: boolean; active: boolean };
 
@@ -18,15 +19,21 @@ export async function loadPeople(db: Db, ids: number[]): Promise<Person[]> {
 
 /**
  * A page of an organisation's people by name (then id), with their site roles, and the cursor of
- * the next page (index users_organisation_name, migration 0016).
+ * the next page (index users_organisation_name, migration 0016); with `q`, only those whose name or
+ * e-mail address holds it. The cursor carries the search, so it cannot be followed under another.
  */
 export async function loadPeoplePage(
   db: Db,
   scope: Scope,
-  q: { limit: number; cursor?: string },
+  q: { limit: number; cursor?: string; q?: string },
 ): Promise<{ users: Person[]; next: string | null; counts: { active: number; total: number } }> {
-  const listScope = `users:${scope.organisationId}`;
+  const search = q.q ?? '';
+  const listScope = `users:${scope.organisationId}:${search}`;
   let query = peopleQuery(db).where('organisation_id', '=', scope.organisationId);
+  if (search) {
+    const like = containsPattern(search);
+    query = query.where((eb) => eb.or([eb('name', 'ilike', like), eb('email', 'ilike', like)]));
+  }
   if (q.cursor) {
     const [name, id] = decodeCursor(q.cursor, listScope, 'text');
     query = query.where(sql<boolean>`(name, id) > (${name}, ${id})`);

@@ -23,6 +23,7 @@ import {
 import { CAUTION } from '@shared/caution';
 import type { Stored } from '@shared/schemas/stored';
 import { decodeCursor, pageOf } from '../cursor';
+import { containsPattern } from '../search';
 import { DECISIONS, isAuthorOf } from './actors';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
@@ -143,7 +144,7 @@ export async function listPermits(
   if (q.kind) query = query.where('p.kind', '=', q.kind);
   if (q.excavationId) query = query.where(sql<boolean>`${q.excavationId}::int = any(r.excavation_ids)`);
   if (q.q) {
-    const like = `%${q.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    const like = containsPattern(q.q);
     // The current revisions that match, found through the trigram indexes (migration 0013) branch by
     // branch as a list of revision ids first, then read by their keys (`= any(array(…))`): joining
     // each branch to the permits' current revision instead read all 100,000 permits (hash joins),

@@ -10,12 +10,20 @@ const peopleKey = ['users'] as const;
 const peoplePagesKey = [...peopleKey, 'pages'] as const;
 type PeoplePage = z.output<typeof peopleAnswer>;
 
-/** The organisation's people, by name, a page at a time, following the server's `next` cursor (`fetchNextPage`). */
-export function usePeople() {
+/**
+ * The organisation's people, by name, a page at a time, following the server's `next` cursor
+ * (`fetchNextPage`); with `q`, those whose name or e-mail address holds it.
+ */
+export function usePeople(q = '') {
   return useInfiniteQuery({
-    queryKey: peoplePagesKey,
-    queryFn: ({ pageParam, signal }) =>
-      api.get<PeoplePage>(`/api/users${pageParam ? `?cursor=${encodeURIComponent(pageParam)}` : ''}`, signal),
+    queryKey: [...peoplePagesKey, q],
+    queryFn: ({ pageParam, signal }) => {
+      const params = new URLSearchParams();
+      if (q) params.set('q', q);
+      if (pageParam) params.set('cursor', pageParam);
+      const query = params.toString();
+      return api.get<PeoplePage>(`/api/users${query ? `?${query}` : ''}`, signal);
+    },
     initialPageParam: null as string | null,
     getNextPageParam: (last) => last.next,
     select: (data) => data.pages.flatMap((p) => p.users),
@@ -27,7 +35,7 @@ function usePersonSaved() {
   const queryClient = useQueryClient();
   return (person?: Person) => {
     if (person) {
-      queryClient.setQueryData<InfiniteData<PeoplePage>>(peoplePagesKey, (data) =>
+      queryClient.setQueriesData<InfiniteData<PeoplePage>>({ queryKey: peoplePagesKey }, (data) =>
         data
           ? { ...data, pages: data.pages.map((page) => ({ ...page, users: page.users.map((p) => (p.id === person.id ? person : p)) })) }
           : data,

@@ -1,4 +1,4 @@
-import { useEffect, useId, useState } from 'react';
+import { useId, useState } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import {
   permitSearchMax,
@@ -15,6 +15,7 @@ import { SelectField, TextField } from '@client/components/Fields';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
 import { parseId, roleOnSite, useMe } from '@client/lib/session';
+import { useUrlSearch } from '@client/lib/urlSearch';
 import { useExcavations, usePermitPages, useSite } from '../api/permits';
 import { StatusLabel } from '../components/StatusLabel';
 import { VerdictBadge } from '../components/Verdict';
@@ -28,38 +29,15 @@ const sortLabels: Record<(typeof permitSorts)[number], string> = {
   status: 'Status',
 };
 
-/** How long typing must pause before the search is sent (ms). */
-const SEARCH_PAUSE_MS = 300;
-
 /** The site's permits: awaiting my review, my requests, live now, all; searched, filtered and sorted. */
 export function PermitListPage() {
   const siteId = parseId(useParams().siteId) ?? 0;
   const me = useMe();
   const timeZone = useSite(siteId).data?.timezone;
   const role = me.data ? roleOnSite(me.data, siteId) : null;
-  const [params, setParams] = useSearchParams();
+  const [params] = useSearchParams();
   const view = (params.get('view') as PermitView) ?? (role === 'coordinator' ? 'review' : role === 'supervisor' ? 'mine' : 'all');
-  // The search lives in the URL (?q=), so a reload or a shared link keeps it; typing is sent once it pauses.
-  const q = params.get('q') ?? '';
-  const [search, setSearch] = useState(q);
-  useEffect(() => {
-    const wanted = search.trim();
-    if (wanted === q) return;
-    const timer = setTimeout(
-      () =>
-        setParams(
-          (prev) => {
-            const next = new URLSearchParams(prev);
-            if (wanted) next.set('q', wanted);
-            else next.delete('q');
-            return next;
-          },
-          { replace: true },
-        ),
-      SEARCH_PAUSE_MS,
-    );
-    return () => clearTimeout(timer);
-  }, [search, q, setParams]);
+  const { q, search, setSearch } = useUrlSearch();
   const [status, setStatus] = useState('');
   const [excavationId, setExcavationId] = useState('');
   const [from, setFrom] = useState('');
