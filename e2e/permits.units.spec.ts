@@ -1,4 +1,6 @@
 import { devices, expect, test, type Page } from '@playwright/test';
+import { localProjection, prepareExcavation, signedDistanceToZoneAt } from '@shared/geometry';
+import type { FieldPermit } from '@shared/schemas/field';
 import { demoPassword, signIn } from './helpers';
 
 /** Sets the signed-in person's units through the API (null: follow the site again). */
@@ -6,6 +8,10 @@ async function setMyUnits(page: Page, units: 'us' | 'metric' | null) {
   const r = await page.request.patch('/api/auth/me', { data: { units }, headers: { Origin: new URL(page.url()).origin } });
   expect(r.ok()).toBe(true);
 }
+
+/** NIST SP 811 (2008) B.8: 1 ft = 0.3048 m exactly; 1 psf = 0.04788026 kPa (from the foot and the pound-force). */
+const M_PER_FT = 0.3048;
+const KPA_PER_PSF = 0.04788026;
 
 /** A figure followed by a metric unit of length, pressure, force or unit weight on the page. */
 const METRIC = /\d(\.\d+)? ?(m|kPa|kN|kN\/m|kN\/m³)(?![\w²³/·])/;
@@ -73,7 +79,12 @@ test('a US team does the whole job in feet and pounds', async ({ page, browser }
   test.setTimeout(180_000);
   const coordinatorContext = await browser.newContext();
   const coordinator = await coordinatorContext.newPage();
-  const phoneContext = await browser.newContext({ ...devices['Pixel 7'] });
+  // The phone may read its position (set below, where the operator stands).
+  const phoneContext = await browser.newContext({
+    ...devices['Pixel 7'],
+    permissions: ['geolocation'],
+    geolocation: { latitude: 0, longitude: 0, accuracy: 1 },
+  });
   const phone = await phoneContext.newPage();
   const people: Page[] = [];
   let drawn: { siteId: number; id: number } | null = null;
@@ -119,6 +130,18 @@ test('a US team does the whole job in feet and pounds', async ({ page, browser }
     expect(trench.width).toBeCloseTo(3 * 0.3048, 6);
     expect(trench.designSurcharge).toBeCloseTo(250 * 0.04788026, 4);
     expect(trench.soil[0].unitWeight).toBeCloseTo(120 * 0.1570875, 4);
+    // The site map's tooltip, from the stored SI figures: depth 2.2352 m / 0.3048 = 7.333 ft, shown
+    // to 0.1 ft; surcharge 11.970 kPa / 0.04788026 = 250 psf, shown to 1 psf (NIST SP 811 B.8).
+    // (Its form closed: while it is open the trench is drawn as the shape being changed.)
+    await coordinator.getByRole('complementary', { name: 'Excavation details' }).getByRole('button', { name: 'Close' }).click();
+    const outline = map.locator(`path.brink-excavation-${trench.id}`);
+    await expect(outline).toBeVisible();
+    await outline.dispatchEvent('mouseover', undefined, { timeout: 10_000 });
+    const tip = coordinator.locator('.leaflet-tooltip').filter({ hasText: reference });
+    await expect(tip).toContainText(`Depth ${(trench.depth / M_PER_FT).toFixed(1)} ft`);
+    await expect(tip).toContainText(`Surcharge allowance ${Math.round(trench.designSurcharge / KPA_PER_PSF)} psf`);
+    await expect(tip).toContainText('Depth 7.3 ft');
+    await expect(tip).not.toContainText(METRIC);
     // The register reads it back in feet: 7.333 ft to 0.1 ft.
     await coordinator.goto(`/sites/${siteId}/register`);
     const row = coordinator.getByRole('row').filter({ hasText: reference });
@@ -166,6 +189,18 @@ test('a US team does the whole job in feet and pounds', async ({ page, browser }
     await coordinator.goto(`/permits/${permitId}`);
     await expect(coordinator.getByRole('heading', { name: 'Calculation sheet' })).toBeVisible();
     await expect(coordinator.getByRole('img', { name: /lateral pressure \(psf\) against depth \(ft\)/ }).first()).toBeVisible();
+    // The plan's tooltip on the stockpile, from the stored SI load: unit weight × height in kPa, read
+    // in psf (1 psf = 0.04788026 kPa, NIST SP 811 B.8): 18.850 kN/m³ × 1.2192 m = 22.98 kPa = 480 psf.
+    const stored = (await (await coordinator.request.get(`/api/permits/${permitId}`)).json()) as {
+      permit: { current: { loads: { kind: string; unitWeight?: number; height?: number }[] } };
+    };
+    const spoil = stored.permit.current.loads.find((l) => l.kind === 'stockpile')!;
+    const pilePsf = Math.round((spoil.unitWeight! * spoil.height!) / KPA_PER_PSF);
+    expect(pilePsf).toBe(480);
+    await coordinator.locator('path.brink-load-stockpile').first().dispatchEvent('mouseover', undefined, { timeout: 10_000 });
+    const pileTip = coordinator.locator('.leaflet-tooltip').filter({ hasText: 'Stockpile' });
+    await expect(pileTip).toContainText(`${pilePsf} psf`);
+    await expect(pileTip).not.toContainText(METRIC);
     const computed = coordinator.getByTestId('computed-standoff').first();
     await expect(computed).toHaveText(/^\d+\.\d ft$/);
     const computedFt = Math.max(
@@ -205,6 +240,48 @@ test('a US team does the whole job in feet and pounds', async ({ page, browser }
         async () => ((await (await page.request.get(`/api/permits/${permitId}`)).json()) as { permit: { status: string } }).permit.status,
       )
       .toBe('live');
+
+    // Where the operator stands, read in feet on the phone: a point north of the trench's middle,
+    // outside and then inside the exclusion zone. The expected distance is the shared geometry's, in
+    // metres from the stored trench and standoff, divided by 0.3048 m per ft (NIST SP 811 B.8); the
+    // screen shows 0.1 ft, so it may differ by half of that, plus the position's own rounding.
+    const onPhone = ((await (await phone.request.get(`/api/field/permits/${permitId}`)).json()) as { permit: FieldPermit }).permit;
+    const zone = onPhone.excavations.find((x) => x.reference === reference)!;
+    expect(zone.shape.kind).toBe('trench');
+    const proj = localProjection([onPhone.origin.longitude, onPhone.origin.latitude]);
+    const prepared = prepareExcavation(zone.shape, proj);
+    const [a, b] = (zone.shape as { centreLine: { coordinates: number[][] } }).centreLine.coordinates.map((c) => proj.toLocal(c));
+    const edge = trench.width / 2 + zone.standoff!;
+    const standNorthOfMiddle = async (north: number) => {
+      const at = proj.toWgs84([(a[0] + b[0]) / 2, (a[1] + b[1]) / 2 + north]);
+      await phoneContext.setGeolocation({ longitude: at[0], latitude: at[1], accuracy: 0.2 });
+      return signedDistanceToZoneAt(prepared, at, zone.standoff!, proj) / M_PER_FT;
+    };
+    const shownFeet = async () => {
+      const text = (await phone.getByTestId('reading-figure').textContent()) ?? '';
+      const m = text.match(/^(\d+\.\d) ft (inside|outside)$/);
+      expect(m, `reading "${text}"`).not.toBeNull();
+      return Number(m![1]) * (m![2] === 'inside' ? -1 : 1);
+    };
+    const outsideFt = await standNorthOfMiddle(edge + 2.4);
+    expect(outsideFt).toBeGreaterThan(7);
+    await phone.getByRole('button', { name: 'Show where I am' }).click();
+    await expect(phone.getByTestId('reading-figure')).toHaveText(/^\d+\.\d ft outside$/);
+    await expect.poll(async () => Math.abs((await shownFeet()) - outsideFt)).toBeLessThanOrEqual(0.06);
+    const panel = phone.locator('section', { has: phone.getByRole('heading', { name: 'Where you stand' }) });
+    // The standoff the approval set (stored in metres) read back rounded up; the accuracy 0.2 m = 0.66 ft.
+    const standoffUp = Math.ceil((zone.standoff! / M_PER_FT) * 10 - 1e-6) / 10;
+    expect(standoffUp).toBe(standoffFt);
+    await expect(panel).toContainText(`(${standoffUp.toFixed(1)} ft from its edge)`);
+    await expect(panel).toContainText('Phone accuracy ±0.7 ft.');
+    await expect(panel).not.toContainText(METRIC);
+    const insideFt = await standNorthOfMiddle(edge - 0.9);
+    expect(insideFt).toBeLessThan(-2);
+    const inside = phone.getByRole('alert').filter({ hasText: 'You are inside the exclusion zone' });
+    await expect(inside).toBeVisible();
+    await expect.poll(async () => Math.abs((await shownFeet()) - insideFt)).toBeLessThanOrEqual(0.06);
+    await expect(inside).toContainText(new RegExp(`\\d+\\.\\d ft inside · ${reference}`));
+    await expect(inside).not.toContainText(METRIC);
 
     // The shift's inspection of the trench, by the supervisor: safe to work.
     await page.goto(`/sites/${siteId}`);

@@ -217,6 +217,7 @@ export function PlacementMap({
                       const q = proj.toWgs84(p);
                       return [q[1], q[0]] as [number, number];
                     })}
+                    className={`brink-load brink-load-${load.kind}`}
                     pathOptions={{ color: colour, weight: 5 }}
                   />
                 ) : (
@@ -226,6 +227,7 @@ export function PlacementMap({
                       const q = proj.toWgs84(p);
                       return [q[1], q[0]] as [number, number];
                     })}
+                    className={`brink-load brink-load-${load.kind}`}
                     pathOptions={{ color: '#1e2a33', weight: 1, fillColor: colour, fillOpacity: 0.8 }}
                   >
                     <Tooltip>
