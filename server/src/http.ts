@@ -8,6 +8,8 @@ import { discardUnkept } from './services/uploads';
 import { refusalInReaderUnits } from './services/units';
 import { sql } from 'kysely';
 import { isDatabaseUnavailable } from '@db/database';
+import { promisify } from 'node:util';
+import { brotliCompress, constants as zlibConstants, gzip as gzipCallback } from 'node:zlib';
 
 const QUARTER_HOUR = 15 * 60_000;
 /** The attempt limits (issue 12). Sign-in: SIGNIN_LIMIT_PER_ACCOUNT failures per account and address, five times that per account. */
@@ -228,7 +230,39 @@ type Answer<R> = [R] extends [never] ? unknown : R extends ZodType ? Dated<z.inp
  * under NODE_ENV=test it is parsed and checked against the route's schema like any other answer.
  */
 export class JsonText {
+  private readonly encoded = new Map<'br' | 'gzip', Promise<Buffer>>();
   constructor(readonly text: string) {}
+  /**
+   * The text compressed as the compression middleware would (brotli quality 4, gzip level 6), made
+   * once per answer off the request thread: an answer kept and sent again (a whole site's
+   * excavations) is compressed once.
+   */
+  compressed(encoding: 'br' | 'gzip'): Promise<Buffer> {
+    let out = this.encoded.get(encoding);
+    if (!out) {
+      out =
+        encoding === 'br'
+          ? brotli(this.text, { params: { [zlibConstants.BROTLI_PARAM_QUALITY]: 4 } })
+          : gzip(this.text, { level: zlibConstants.Z_DEFAULT_COMPRESSION });
+      this.encoded.set(encoding, out);
+    }
+    return out;
+  }
+}
+const brotli = promisify(brotliCompress);
+const gzip = promisify(gzipCallback);
+
+/** Sends JSON text compressed in the encoding the compression middleware would choose (it leaves an encoded answer alone). */
+async function sendJsonText(req: Request, res: Response, out: JsonText): Promise<void> {
+  const encoding = out.text.length < 1024 ? null : req.acceptsEncodings('br') ? 'br' : req.acceptsEncodings('gzip') ? 'gzip' : null;
+  res.type('json');
+  if (!encoding) {
+    res.send(out.text);
+    return;
+  }
+  const body = await out.compressed(encoding);
+  res.setHeader('Content-Encoding', encoding);
+  res.send(body);
 }
 type Dated<T> = T extends string
   ? string extends T
@@ -340,8 +374,9 @@ export class Api {
       if (res.headersSent) return;
       if (out === undefined) res.status(204).end();
       else if (out instanceof JsonText) {
-        if (checkAnswers) res.json(JSON.parse(out.text));
-        else res.type('json').send(out.text);
+        const mismatch = checkAnswers && res.statusCode < 300 ? answerMismatch(spec, JSON.parse(out.text)) : null;
+        if (mismatch) res.status(500).json(mismatch);
+        else await sendJsonText(req, res, out);
       } else res.json(out);
     };
     this.router[spec.method](spec.path.replace(/^\/api/, ''), guard, ...(spec.before ?? []), main);
@@ -353,20 +388,26 @@ export class Api {
  * an API test that reads it fails loudly. (server/test/responses.test.ts holds every route to a schema.)
  */
 function answerChecked(res: Response, spec: RouteDoc): void {
-  const schema = spec.response;
-  if (!schema) return;
+  if (!spec.response) return;
   const send = res.json.bind(res);
   res.json = (body: unknown) => {
     if (res.statusCode >= 300) return send(body);
-    const where = `${spec.method.toUpperCase()} ${spec.path}`;
-    const r = schema.safeParse(JSON.parse(JSON.stringify(body)));
-    if (r.success) return send(body);
-    const fields = zodFields(r.error);
-    console.error(`[answer] ${where} does not match its response schema`, fields);
+    const mismatch = answerMismatch(spec, JSON.parse(JSON.stringify(body)));
+    if (!mismatch) return send(body);
     res.status(500);
-    return send({
-      error: { code: 'answer_mismatch', message: `${where} answered outside its response schema: ${JSON.stringify(fields)}`, fields },
-    });
+    return send(mismatch);
+  };
+}
+
+/** Test mode: the 500's body when the answer (as the wire has it) is outside its route's schema; null when it fits. */
+function answerMismatch(spec: RouteDoc, wire: unknown) {
+  const r = spec.response?.safeParse(wire);
+  if (!r || r.success) return null;
+  const where = `${spec.method.toUpperCase()} ${spec.path}`;
+  const fields = zodFields(r.error);
+  console.error(`[answer] ${where} does not match its response schema`, fields);
+  return {
+    error: { code: 'answer_mismatch', message: `${where} answered outside its response schema: ${JSON.stringify(fields)}`, fields },
   };
 }
 

@@ -11,8 +11,8 @@ import {
   type ExcavationInput,
 } from '@shared/schemas/excavations';
 import { calcRequestSchema } from '@shared/schemas/calc';
-import { loadExcavations } from '../src/services/excavations';
-import { addPerson, demo, demoSiteId, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
+import { loadExcavations, siteAnswerReuse } from '../src/services/excavations';
+import { addPerson, demo, demoSiteId, makeOrganisation, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
 
 let t: TestApp;
 let siteId: number;
@@ -617,5 +617,109 @@ describe("the list's stored answers (excavations.answer, migration 0015)", () =>
       expect(await listed(e.id)).toEqual(truth);
       expect(await stored(e.id)).toEqual(before);
     }
+  });
+});
+
+describe("a whole site's list answer, kept and sent again while the site's excavations are unchanged", () => {
+  // Sites of this file alone (the demo site is written by other files at the same time), each with its own coordinator.
+  const sites: Record<'own' | 'beside', { id: number; agent: Agent }> = {} as never;
+  let other: Agent;
+  beforeAll(async () => {
+    const organisation_id = await demoOrganisationId(t.deps);
+    for (const which of ['own', 'beside'] as const) {
+      const { id } = await t.deps.db
+        .insertInto('sites')
+        .values({ organisation_id, name: `Kept answers ${which} (test)`, latitude: origin.latitude, longitude: origin.longitude })
+        .returning('id')
+        .executeTakeFirstOrThrow();
+      const email = unique(`kept-${which}`);
+      await addPerson(t.deps, { email, name: `Kept ${which}`, member: { siteId: id, role: 'coordinator' } });
+      sites[which] = { id, agent: await signedIn(t.app, email) };
+    }
+    const o = await makeOrganisation(t.deps, 'Kept');
+    other = await signedIn(t.app, o.coordinatorEmail);
+  });
+
+  /** The site's excavations read from their columns now, as the wire has them. */
+  const truth = async (site: number) => JSON.parse(JSON.stringify(await loadExcavations(t.deps.db, site))) as Excavation[];
+  /** Lists the site; returns whether the kept answer was sent, after checking that the list is the truth. */
+  const listed = async (which: 'own' | 'beside' = 'own') => {
+    const before = siteAnswerReuse.count;
+    const r = await sites[which].agent.get(`/api/sites/${sites[which].id}/excavations`).expect(200);
+    const reused = siteAnswerReuse.count - before;
+    expect(r.body).toEqual({ excavations: await truth(sites[which].id), next: null });
+    return reused;
+  };
+  /** After a write: the first list is read afresh and right, the next is the kept one and still right. */
+  const afterWrite = async (which: 'own' | 'beside' = 'own') => {
+    expect(await listed(which)).toBe(0);
+    expect(await listed(which)).toBe(1);
+  };
+
+  it('is sent again (compressed) only while nothing changed, after every kind of write', async () => {
+    const own = sites.own;
+    const path = `/api/sites/${own.id}/excavations`;
+    const first = (await own.agent.post(path).send(trench())).body.excavation as Excavation;
+    await afterWrite();
+    // Sent as gzip to a client that takes it, as plain JSON to one that does not: the same answer.
+    const gz = await own.agent.get(path).set('accept-encoding', 'gzip').expect(200);
+    expect(gz.headers['content-encoding']).toBe('gzip');
+    const plain = await own.agent.get(path).set('accept-encoding', 'identity').expect(200);
+    expect(plain.headers['content-encoding']).toBeUndefined();
+    expect(plain.body).toEqual(gz.body);
+
+    const second = (await own.agent.post(path).send(pit())).body.excavation as Excavation;
+    await afterWrite();
+    await own.agent.patch(`${path}/${first.id}`).send({ depth: 3.1, name: 'Kept trench', version: first.version }).expect(200);
+    await afterWrite();
+    const pdf = Buffer.from('%PDF-1.4\n1 0 obj << /Type /Catalog >> endobj\ntrailer << /Root 1 0 R >>\n%%EOF\n');
+    expect((await upload(own.agent, `${path}/${second.id}/drawing`, pdf, 'Kept pit.pdf')).status).toBe(200);
+    await afterWrite();
+    const { geometry, ...properties } = pit({ reference: second.reference, depth: 6.5 });
+    const file = { type: 'FeatureCollection', features: [{ type: 'Feature', geometry, properties }] };
+    expect((await upload(own.agent, `${path}/import`, JSON.stringify(file), 'kept.geojson', { mode: 'replace' })).status).toBe(200);
+    await afterWrite();
+    // A write by anything else (a tool), even one that leaves the row's version and so its stored
+    // answer's key as they were (the row's own answer is then that tool's to store): not the kept one.
+    await t.deps.db.updateTable('excavations').set({ notes: 'Seen outside' }).where('id', '=', first.id).execute();
+    const before = siteAnswerReuse.count;
+    await own.agent.get(path).expect(200);
+    expect(siteAnswerReuse.count).toBe(before);
+    await t.deps.db
+      .updateTable('excavations')
+      .set((eb) => ({ depth: 3.3, version: eb('version', '+', 1) }))
+      .where('id', '=', first.id)
+      .execute();
+    // That row's answer is written again by the first read (not kept: the write changes the site), then kept.
+    expect(await listed()).toBe(0);
+    await afterWrite();
+    expect((await own.agent.delete(`${path}/${second.id}`)).status).toBe(204);
+    await afterWrite();
+    // A page smaller than the site is never the kept whole.
+    const page = await own.agent.get(`${path}?limit=1`).expect(200);
+    expect(page.body.excavations).toHaveLength(1);
+    expect(await listed()).toBe(1);
+    const all = await own.agent.get(`${path}?limit=2`).expect(200);
+    expect(all.body.excavations.map((e: Excavation) => e.id)).toEqual([first.id]);
+  });
+
+  it('never crosses sites or organisations, and access is checked before it is sent', async () => {
+    const { own, beside } = sites;
+    await own.agent.post(`/api/sites/${own.id}/excavations`).send(pit()).expect(201);
+    await beside.agent.post(`/api/sites/${beside.id}/excavations`).send(trench()).expect(201);
+    for (const which of ['own', 'beside'] as const) await listed(which);
+    expect(await listed('own')).toBe(1);
+    expect(await listed('beside')).toBe(1);
+    // The kept answers are there, and still each reader hears only what they may see.
+    expect((await own.agent.get(`/api/sites/${beside.id}/excavations`)).status).toBe(403);
+    expect((await beside.agent.get(`/api/sites/${own.id}/excavations`)).status).toBe(403);
+    expect((await other.get(`/api/sites/${own.id}/excavations`)).status).toBe(404);
+    const ownIds = (await truth(own.id)).map((e) => e.id);
+    const besideIds = (await truth(beside.id)).map((e) => e.id);
+    expect(ownIds.some((id) => besideIds.includes(id))).toBe(false);
+    // A change on one site leaves the other's kept answer in use.
+    await beside.agent.post(`/api/sites/${beside.id}/excavations`).send(pit()).expect(201);
+    expect(await listed('own')).toBe(1);
+    await afterWrite('beside');
   });
 });

@@ -61,7 +61,12 @@ export async function startBrink(
     SESSION_SECRET: process.env.SESSION_SECRET ?? `bench-${process.pid}-${Date.now()}`,
     UPLOAD_DIR: process.env.UPLOAD_DIR ?? mkdtempSync(join(tmpdir(), 'brink-bench-uploads-')),
   };
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/src/index.ts'], { env, stdio: ['ignore', 'ignore', 'inherit'] });
+  // BRINK_BENCH_SERVER_ARGS: node options for the server alone (e.g. `--cpu-prof --cpu-prof-dir=/tmp/p`, which NODE_OPTIONS refuses).
+  const nodeArgs = (process.env.BRINK_BENCH_SERVER_ARGS ?? '').split(' ').filter(Boolean);
+  const child = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', 'server/src/index.ts'], {
+    env,
+    stdio: ['ignore', 'ignore', 'inherit'],
+  });
   const stop = () =>
     new Promise<void>((resolve) => {
       if (child.exitCode !== null) return resolve();

@@ -103,10 +103,8 @@ export function registerExcavationRoutes(api: Api): void {
       params: siteParams,
       query: excavationListQuerySchema,
     },
-    async ({ params, query }) => {
-      await siteOrigin(db, params.siteId);
-      return loadExcavationPage(db, params.siteId, query);
-    },
+    // The guard has found the site, of the reader's organisation, and their access to it.
+    async ({ params, query }) => loadExcavationPage(db, params.siteId, query),
   );
 
   api.route(

@@ -230,12 +230,62 @@ export async function storeAnswers(db: Db, ids: number[]): Promise<void> {
 }
 
 /**
+ * What a site's excavations are now, in one short value: a digest of each row's id, row version
+ * (`xmin`, new with every write of the row, whatever wrote it) and stored answer's key, in reference
+ * order. Any insert, change, move or removal of an excavation of the site changes it. With the count,
+ * so that a page of `limit` rows is known to hold them all.
+ */
+const siteStateOf = (siteId: number) => sql<string>`(select count(*) || ':' || encode(sha256(convert_to(coalesce(string_agg(
+    id || ':' || xmin || ':' || coalesce(answer_key, '-'), ',' order by reference), ''), 'UTF8')), 'hex')
+  from excavations where site_id = ${siteId})`;
+
+/** A whole site's list answer as it was sent, with the state it was read at (`siteStateOf`) and its gzip once asked for. */
+interface SiteAnswer {
+  state: string;
+  rows: number;
+  answer: JsonText;
+}
+/** The whole-site answers of one database's sites, most recently used last; bounded by their bytes. */
+const siteAnswers = new WeakMap<Db, Map<number, SiteAnswer>>();
+const SITE_ANSWERS_BYTES = 48 * 1024 * 1024;
+/** How often a whole-site answer was reused (tests show that the reuse happens, and that it is never stale). */
+export const siteAnswerReuse = { count: 0 };
+
+function keepSiteAnswer(db: Db, siteId: number, entry: SiteAnswer): void {
+  let kept = siteAnswers.get(db);
+  if (!kept) siteAnswers.set(db, (kept = new Map()));
+  kept.delete(siteId);
+  kept.set(siteId, entry);
+  // Text counted at two bytes a character; its gzip or brotli, once made, is a fraction of that.
+  let bytes = 0;
+  for (const e of kept.values()) bytes += e.answer.text.length * 2;
+  for (const [id, e] of kept) {
+    if (bytes <= SITE_ANSWERS_BYTES || e === entry) break;
+    kept.delete(id);
+    bytes -= e.answer.text.length * 2;
+  }
+}
+
+/**
  * A page of a site's excavations by reference (the map and the register follow `next`), as JSON
  * text: the stored answers of the rows, joined. A row whose answer is missing or stale (its key is
  * not this format at its version) is read from its columns and checked as any read is (rowOut),
  * and its answer is stored for the next read.
+ *
+ * A first page that holds the whole site is kept (per database, in this process) with the site's
+ * state read in the same statement (`siteStateOf`), and sent again, with its gzip, while a fresh
+ * read of that state (one short query) finds it unchanged; the caller has checked access first.
  */
 export async function loadExcavationPage(db: Db, siteId: number, q: { limit: number; cursor?: string }): Promise<JsonText> {
+  const kept = q.cursor ? undefined : siteAnswers.get(db)?.get(siteId);
+  if (kept && kept.rows <= q.limit) {
+    const { rows } = await sql<{ state: string }>`select ${siteStateOf(siteId)} as state`.execute(db);
+    if (rows[0]?.state === kept.state) {
+      siteAnswerReuse.count += 1;
+      keepSiteAnswer(db, siteId, kept);
+      return kept.answer;
+    }
+  }
   let query = db
     .selectFrom('excavations')
     .select(['id', 'reference', sql<string | null>`case when answer_key = ${ANSWER_FORMAT} || ':' || version then answer end`.as('answer')])
@@ -243,7 +293,12 @@ export async function loadExcavationPage(db: Db, siteId: number, q: { limit: num
     .orderBy('reference');
   const scope = `excavations:${siteId}`;
   if (q.cursor) query = query.where('reference', '>', decodeCursor(q.cursor, scope, 'text')[0]);
-  const { page, next } = pageOf(await query.limit(q.limit + 1).execute(), q.limit, (r) => r.reference, scope);
+  // The site's state in the same statement (one snapshot) as the answers it describes.
+  const read = await query
+    .select(siteStateOf(siteId).as('site_state'))
+    .limit(q.limit + 1)
+    .execute();
+  const { page, next } = pageOf(read, q.limit, (r) => r.reference, scope);
   const stale = page.filter((r) => r.answer === null).map((r) => r.id);
   const fresh = new Map<number, string>();
   if (stale.length) {
@@ -256,7 +311,13 @@ export async function loadExcavationPage(db: Db, siteId: number, q: { limit: num
   }
   // A stale row removed between the two reads is left out.
   const answers = page.map((r) => r.answer ?? fresh.get(r.id)).filter((a): a is string => a !== undefined);
-  return new JsonText(`{"excavations":[${answers.join(',')}],"next":${JSON.stringify(next)}}`);
+  const answer = new JsonText(`{"excavations":[${answers.join(',')}],"next":${JSON.stringify(next)}}`);
+  // Kept only when it is the whole site, read from stored answers alone (writing answers changes the
+  // state); not for a site without excavations, whose empty read carried no state.
+  if (!q.cursor && next === null && stale.length === 0 && page.length > 0) {
+    keepSiteAnswer(db, siteId, { state: page[0].site_state, rows: page.length, answer });
+  }
+  return answer;
 }
 
 /** Properties written for each excavation in a GeoJSON export (and read back on import). */
