@@ -40,8 +40,11 @@ async function siteShifts(db: Db, siteId: number): Promise<ShiftDef[]> {
     .where('site_id', '=', siteId)
     .orderBy('start_time')
     .execute();
-  return rows.length ? rows.map((r) => ({ name: r.name, start: r.start_time })) : [...DEFAULT_SHIFTS];
+  return shiftsOf(rows);
 }
+
+const shiftsOf = (rows: { name: string; start_time: string }[] | null): ShiftDef[] =>
+  rows?.length ? rows.map((r) => ({ name: r.name, start: r.start_time })) : [...DEFAULT_SHIFTS];
 
 /** Replaces the site's shifts (one transaction, audited). */
 export async function setSiteShifts(db: Db, siteId: number, shifts: ShiftDef[], actorId: number): Promise<ShiftDef[]> {
@@ -68,9 +71,20 @@ export interface SiteClock {
 
 /** The site's time zone, shifts and current shift at `now`. */
 export async function siteClock(db: Db, siteId: number, now: Date): Promise<SiteClock> {
-  const site = await db.selectFrom('sites').select(['id', 'name', 'timezone']).where('id', '=', siteId).executeTakeFirst();
+  // The site with its shifts, in one query (as siteShifts reads them).
+  const site = await db
+    .selectFrom('sites')
+    .select([
+      'id',
+      'name',
+      'timezone',
+      sql<{ name: string; start_time: string }[] | null>`(select json_agg(json_build_object('name', h.name, 'start_time', h.start_time)
+        order by h.start_time) from site_shifts h where h.site_id = sites.id)`.as('shifts'),
+    ])
+    .where('id', '=', siteId)
+    .executeTakeFirst();
   if (!site) throw notFound('That site');
-  const shifts = await siteShifts(db, siteId);
+  const shifts = shiftsOf(site.shifts);
   const shift = currentShift(shifts, site.timezone, now);
   return {
     siteId,
