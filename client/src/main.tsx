@@ -4,8 +4,9 @@ import './styles.css';
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { App } from './app/App';
-import { registerServiceWorker } from './features/field';
+import { registerServiceWorker, startPhoneDownloads } from './features/field';
 
+startPhoneDownloads();
 registerServiceWorker();
 
 createRoot(document.getElementById('root')!).render(

@@ -30,7 +30,7 @@ export const PAGES: ClientPage[] = [
   {
     page: '/field and /field/permits/:id (phone view)',
     modules: ['src/features/field/pages.ts'],
-    // The map's code loads once the page has shown (LazyZoneMap.tsx): counted, not named in the shell.
+    // The map's code: counted; the shell names it in <meta name=brink-later> (fetched after the first scripts).
     later: ['src/features/field/components/ZoneMap.tsx'],
     address: /^\/field(\/permits\/\d+)?\/?$/,
     phone: true,

@@ -11,6 +11,8 @@ const manifest = {
   '_react.js': { file: 'assets/react-1.js' },
   '_leaflet.js': { file: 'assets/leaflet-1.js', css: ['assets/leaflet-1.css'] },
   'src/features/field/pages.ts': { file: 'assets/pages-1.js', isDynamicEntry: true, imports: ['_react.js', '_leaflet.js'] },
+  'src/features/field/components/ZoneMap.tsx': { file: 'assets/ZoneMap-1.js', isDynamicEntry: true, imports: ['_react.js', '_map.js'] },
+  '_map.js': { file: 'assets/map-1.js', css: ['assets/map-1.css'] },
 };
 const dir = mkdtempSync(join(tmpdir(), 'brink-shell-'));
 writeFileSync(join(dir, 'index.html'), html);
@@ -32,6 +34,16 @@ describe('the page shell', () => {
     expect(head).toContain('<link rel="preload" as="fetch" crossorigin="anonymous" href="/api/sites">');
     // The entry's own imports are already named by index.html.
     expect(head).not.toContain('react-1.js');
+  });
+
+  it("lists the phone view's map files for the page to fetch later, apart from the scripts it fetches at once", () => {
+    const page = shell('/field');
+    const head = page.slice(0, page.indexOf('</head>'));
+    expect(head).toContain('<meta name="brink-later" content="/assets/ZoneMap-1.js /assets/map-1.js /assets/map-1.css">');
+    expect(head).not.toContain('href="/assets/ZoneMap-1.js"');
+    expect(head).not.toContain('href="/assets/map-1.js"');
+    expect(shell('/field/permits/42')).toContain('<meta name="brink-later"');
+    expect(shell('/no/such/page')).not.toContain('brink-later');
   });
 
   it('reads the permit a /field/permits/:id address names', () => {

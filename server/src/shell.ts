@@ -5,7 +5,9 @@
  * (`address` in clientPages.ts) it adds `<link rel=modulepreload>` for the page's scripts and
  * `<link rel=stylesheet>` for its styles; for every page a `<link rel=preload as=fetch>` for
  * who is signed in, and on the phone view the page's data. The browser's own fetches of the same
- * addresses then take the preloaded answers. Without a build manifest the file is sent as it is.
+ * addresses then take the preloaded answers. A page's `later` code (the phone view's map) is listed
+ * in `<meta name="brink-later">` for the page to fetch when its first scripts have come, not with
+ * them. Without a build manifest the file is sent as it is.
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -40,7 +42,11 @@ export function pageShell(clientDir: string): (address: string) => string {
     let out = made.get(key);
     if (out === undefined) {
       const files = page && manifest ? moduleFiles(manifest, page.modules) : { scripts: [], styles: [] };
+      // Fetched by the page itself once its first scripts have come (startPhoneDownloads in client/src/features/field).
+      const later = page?.later && manifest ? moduleFiles(manifest, page.later) : { scripts: [], styles: [] };
+      const laterFiles = [...later.scripts, ...later.styles].filter((f) => !already.has(f) && !files.scripts.includes(f));
       const links = [
+        ...(laterFiles.length ? [`<meta name="brink-later" content="${laterFiles.map((f) => `/${f}`).join(' ')}">`] : []),
         ...reads.map((r) => `<link rel="preload" as="fetch" crossorigin="anonymous" href="${r}">`),
         ...files.styles.filter((f) => !already.has(f)).map((f) => `<link rel="stylesheet" crossorigin href="/${f}">`),
         ...files.scripts.filter((f) => !already.has(f)).map((f) => `<link rel="modulepreload" crossorigin href="/${f}">`),

@@ -65,7 +65,7 @@ function Connection({ waiting, refused }: { waiting: number; refused: number }) 
   );
 }
 
-/** Once the page has shown and the phone has a quiet moment, the map's code (see LazyZoneMap.tsx). */
+/** Once the page has shown and the phone has a quiet moment, the map's code, unless already fetched (see LazyZoneMap.tsx). */
 function usePreloadedMap() {
   useEffect(() => {
     const start = () => void preloadZoneMap().catch(() => undefined);

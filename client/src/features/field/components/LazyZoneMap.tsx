@@ -4,9 +4,10 @@ import type { Fix } from '../lib/reading';
 
 /**
  * The map's code (Leaflet, about 47 KB gzip) loads after the phone view's first paint: the list of
- * permits needs none of it. `preloadZoneMap` starts it when the phone view first has a quiet moment
- * (FieldLayout), so that once /field has opened a permit's map opens with no signal even without a
- * service worker, as before.
+ * permits needs none of it. A first open of /field fetches its files, without running them, once
+ * the first scripts have come (`startPhoneDownloads`, features/field/index.ts); `preloadZoneMap`
+ * imports it when the phone view first has a quiet moment (FieldLayout), so that once /field has
+ * opened a permit's map opens with no signal even without a service worker, as before.
  */
 const loadZoneMap = () => import('./ZoneMap');
 let loading: ReturnType<typeof loadZoneMap> | null = null;
