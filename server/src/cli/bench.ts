@@ -283,6 +283,7 @@ function calcBench(): void {
  * them: `npm run bench -- api web`. The api and web parts need the throw-away database and the
  * build that docker-less-scripts/bench.sh makes (`npm run bench` runs it). `large` (benchLarge.ts,
  * only when named) reads the seed:large data set that bench.sh makes (or LARGE_DATABASE_URL names).
+ * `drag` (only when named): the web part's drag measurement alone, BRINK_BENCH_DRAGS drags (default 5).
  */
 async function main(): Promise<void> {
   const asked = process.argv.slice(2).filter((a) => !a.startsWith('-'));
@@ -290,6 +291,7 @@ async function main(): Promise<void> {
   if (parts.includes('calc')) calcBench();
   if (parts.includes('api')) await (await import('./benchApi')).runApiBench();
   if (parts.includes('web')) await (await import('./benchWeb')).runWebBench();
+  if (parts.includes('drag')) await (await import('./benchWeb')).runDragBench();
   if (parts.includes('large')) await (await import('./benchLarge')).runLargeBench();
   console.log(
     `\nload average at the end: ${loadavg()
