@@ -2,7 +2,7 @@ import { describe, expect, it, vi } from 'vitest';
 import { runCheck, type CheckRequest } from '../engineering';
 import { localProjection } from '../geometry';
 import { sixExcavation } from '../engineering/test-fixtures';
-import { CheckInputError, cumulativeCheck, elementCorners, groupStandoff, windowsOverlap } from './check';
+import { CheckInputError, cumulativeCheck, elementCorners, groupStandoff, planCheck, windowsOverlap } from './check';
 import type { PermitCheck } from '../schemas/permits';
 import type { Stored } from '../schemas/stored';
 
@@ -290,6 +290,59 @@ describe('a machine dragged on the placing map (a check each frame)', () => {
     // The walk passes through every case: clear of both pits, within PIT-B's influence zone, on the edge of PIT-A.
     expect([...seen].sort()).toEqual(expect.arrayContaining(['both pits', 'refused']));
     expect(seen.size).toBeGreaterThanOrEqual(3);
+  }, 60_000);
+
+  it('gives from one plan, frame after frame, the verdict and figures of a full check worked out afresh, on every boundary', async () => {
+    // The placing map makes one plan (everything but the loads) and runs it each frame. The machine's
+    // west track edge stands x − 6.4 m from PIT-A's east face (tracks 1.1 m either side of its centre,
+    // 0.6 m wide) and its east track edge 18.6 − x m from PIT-B's west face: plane geometry. Positions
+    // on each boundary and a millimetre either side: touching PIT-A (offset 0), PIT-B's influence zone
+    // (offset = its depth, 3 m: docs/calculation.md, "Load spread at 45°"; common practice, no published
+    // source) and the machine's computed standoff from PIT-A (the full check's own figure).
+    const { permit: planPermit, now: _now, ...basis } = at(12);
+    void _now;
+    const { loads: _loads, ...permitBasis } = planPermit;
+    void _loads;
+    const frame = planCheck({ ...basis, permit: permitBasis, standoffs: false });
+    const standoff = cumulativeCheck(at(12)).excavations[0].loadStandoffs.find((l) => l.loadId === 'exc')!.standoff!;
+    expect(standoff).toBeGreaterThan(0.6);
+    const xs = [
+      6.4,
+      6.4 + 1e-6,
+      6.401,
+      6.4 + standoff - 0.001,
+      6.4 + standoff,
+      6.4 + standoff + 0.001,
+      15.599,
+      15.6,
+      15.601,
+      12,
+      6.4 + standoff,
+    ];
+    const turned = (x: number, rotation: number) => {
+      const input = at(x);
+      return { ...input, permit: { ...input.permit, loads: [{ ...input.permit.loads[0], rotation }, input.permit.loads[1]] } };
+    };
+    const inputs = [...xs.map((x) => at(x)), turned(12, 90), turned(8, 45), turned(8, 45)];
+    const seen = new Set<string>();
+    for (const input of inputs) {
+      const live = shown((i) => frame(i.permit.loads, i.now), input);
+      vi.resetModules();
+      const fresh = await import('./check');
+      const full = shown(fresh.cumulativeCheck, input);
+      expect(live, JSON.stringify(input.permit.loads[0])).toEqual(full);
+      seen.add('refused' in live ? 'refused' : `${live.excavations.length} ${String(live.verdict)}`);
+    }
+    // The walk meets a refusal, both pits, and on either side of the standoff a verdict that differs.
+    expect(seen.has('refused')).toBe(true);
+    expect([...seen].some((v) => v.startsWith('2 '))).toBe(true);
+    expect(new Set([...seen].filter((v) => v.startsWith('1 '))).size).toBeGreaterThanOrEqual(2);
+    // A load changed between frames (the mats' pressure) is read again, not taken from the plan.
+    const sound = at(12);
+    const heavier = { ...sound, permit: { ...sound.permit, loads: [sound.permit.loads[0], { ...sound.permit.loads[1], pressure: 40 }] } };
+    vi.resetModules();
+    const fresh = await import('./check');
+    expect(shown((i) => frame(i.permit.loads, i.now), heavier)).toEqual(shown(fresh.cumulativeCheck, heavier));
   }, 60_000);
 
   it('refuses a figure after the same load was checked with a sound one (nothing valid is kept for it)', () => {

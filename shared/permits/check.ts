@@ -187,13 +187,18 @@ const placedLoadsSchema = z.array(placedLoadSchema);
  */
 const validLoads = new Kept<true>(500);
 
-/** Throws CheckInputError for the first wrong field of the permit's loads (placedLoadSchema, as the API). */
-function validateLoads(loads: unknown[]): void {
-  const keys = loads.map(contentKey);
-  if (keys.every((key, i) => validLoads.get(key) ?? placedLoadSchema.safeParse(loads[i]).success)) {
-    for (const key of keys) validLoads.set(key, true);
-    return;
+/**
+ * Throws CheckInputError for the first wrong field of the permit's loads (placedLoadSchema, as the API).
+ * `known` holds the content keys of loads already found valid (the plan's loads of the last run).
+ */
+function validateLoads(loads: unknown[], keys: string[], known: Map<string, unknown>): void {
+  let valid = true;
+  for (let i = 0; i < loads.length && valid; i++) {
+    if (known.has(keys[i]) || validLoads.get(keys[i])) continue;
+    valid = placedLoadSchema.safeParse(loads[i]).success;
+    if (valid) validLoads.set(keys[i], true);
   }
+  if (valid) return;
   const r = placedLoadsSchema.safeParse(loads);
   if (!r.success) {
     const issue = r.error.issues[0];
@@ -209,9 +214,8 @@ function validateLoads(loads: unknown[]): void {
  */
 const validFixed = new Kept<Omit<CheckRequest, 'loads'>>(200);
 
-/** The engine request checked with the calculation's own schema (calc.ts), defaults filled in. */
-function validRequest(request: CheckRequest, reference: string): CheckRequest {
-  const { loads, ...fixed } = request;
+/** The fixed part read by calcRequestSchema (defaults filled in), or undefined when it is wrong. */
+function validFixedPart(fixed: Omit<CheckRequest, 'loads'>): Omit<CheckRequest, 'loads'> | undefined {
   const key = contentKey(fixed);
   let valid = validFixed.get(key);
   if (!valid) {
@@ -223,12 +227,50 @@ function validRequest(request: CheckRequest, reference: string): CheckRequest {
       validFixed.set(key, valid);
     }
   }
-  if (valid) {
-    const r = requestLoadsSchema.safeParse(loads);
-    if (r.success) return { ...valid, loads: r.data };
+  return valid;
+}
+
+/**
+ * Engine loads found valid by requestLoadsSchema, each alone: frozen objects (a plan's measured
+ * loads), so what was found valid cannot change. A list of them is valid when its ids differ.
+ */
+const checkedLoads = new WeakSet<Load>();
+
+/** The engine loads read by requestLoadsSchema, or null when they are wrong. */
+function validEngineLoads(loads: Load[]): Load[] | null {
+  // Each load found valid alone (a frame of a drag brings only the moved load's), and no id twice.
+  const ids = new Set<string>();
+  let known = true;
+  for (const l of loads) {
+    if (!checkedLoads.has(l)) {
+      if (!Object.isFrozen(l) || !requestLoadsSchema.safeParse([l]).success) {
+        known = false;
+        break;
+      }
+      checkedLoads.add(l);
+    }
+    if (ids.has(l.id)) {
+      known = false;
+      break;
+    }
+    ids.add(l.id);
   }
+  if (known) return loads;
+  const r = requestLoadsSchema.safeParse(loads);
+  return r.success ? r.data : null;
+}
+
+/** The engine request checked with the calculation's own schema (calc.ts), defaults filled in. */
+function validRequest(
+  fixed: Omit<CheckRequest, 'loads'>,
+  valid: Omit<CheckRequest, 'loads'> | undefined,
+  loads: Load[],
+  reference: string,
+): CheckRequest {
+  const checked = valid && validEngineLoads(loads);
+  if (valid && checked) return { ...valid, loads: checked };
   // Something is wrong: the whole request read at once names its first wrong field, as `npm run calc` does.
-  const r = calcRequestSchema.safeParse(request);
+  const r = calcRequestSchema.safeParse({ ...fixed, loads });
   if (r.success) return r.data;
   const issue = r.error.issues[0];
   throw new CheckInputError(`${reference} ${formatPath(issue.path)}`.trim(), issue.message);
@@ -373,39 +415,33 @@ function maxOrNull(xs: (number | null)[]): number | null {
   return xs.length ? Math.max(...(xs as number[])) : 0;
 }
 
+/** An engine load beside an excavation without its id (the id names the permit and the load). */
+type Measured = Omit<Exclude<Load, { kind: 'blanket' }>, 'id'>;
+
 /**
  * Footprints measured against an outline, by the prepared outline (kept by prepareExcavation) and the
- * footprint's content, frozen: a frame of a drag moves one load, so this permit's other loads and
- * every other permit's are not measured again. A footprint that touches keeps its GeometryError.
+ * footprint's content, frozen: every other permit's loads are measured once while they and the outline
+ * stay the same, whichever check asks. A footprint that touches keeps its GeometryError.
  */
-const measured = new WeakMap<PreparedOutline, Kept<Omit<Exclude<Load, { kind: 'blanket' }>, 'id'> | GeometryError>>();
+const measured = new WeakMap<PreparedOutline, Kept<Measured | GeometryError>>();
 
-/** engineLoad, measured once while the outline and the footprint stay the same. */
-function measuredLoad(f: Footprint, outline: PreparedOutline, id: string): Exclude<Load, { kind: 'blanket' }> {
-  let kept = measured.get(outline);
-  if (!kept) measured.set(outline, (kept = new Kept(500)));
-  const m = kept.keep(contentKey([f.kind, f.local, f.intensity]), () => {
-    try {
-      const { id: _id, ...load } = engineLoad(f, outline, '');
-      void _id;
-      return frozen(load);
-    } catch (err) {
-      if (err instanceof GeometryError) return err;
-      throw err;
-    }
-  });
-  if (m instanceof GeometryError) throw m;
-  return { id, ...m } as Exclude<Load, { kind: 'blanket' }>;
-}
-
-/** Whether a footprint touches the excavation or stands closer to it than its depth. */
-function footprintReaches(f: Footprint, ex: CheckExcavation, outlineOf: (ex: CheckExcavation) => PreparedOutline): boolean {
+/** engineLoad without the id, or the GeometryError of a footprint that touches or crosses the outline. */
+function measure(f: Footprint, outline: PreparedOutline): Measured | GeometryError {
   try {
-    return measuredLoad(f, outlineOf(ex), 'probe').offset < ex.excavation.depth;
+    const { id: _id, ...load } = engineLoad(f, outline, '');
+    void _id;
+    return frozen(load);
   } catch (err) {
-    if (err instanceof GeometryError) return true;
+    if (err instanceof GeometryError) return err;
     throw err;
   }
+}
+
+/** measure, once while the outline and the footprint stay the same. */
+function measuredLoad(f: Footprint, outline: PreparedOutline): Measured | GeometryError {
+  let kept = measured.get(outline);
+  if (!kept) measured.set(outline, (kept = new Kept(500)));
+  return kept.keep(contentKey([f.kind, f.local, f.intensity]), () => measure(f, outline));
 }
 
 /** A box in site-local metres. */
@@ -425,65 +461,200 @@ const boxesMeet = (a: Box, b: Box) => a[0] <= b[2] && b[0] <= a[2] && a[1] <= b[
 const STORED_OUTLINE_MARGIN = 0.5;
 
 /**
- * Whether some footprint may stand within the excavation's depth of its stored ground outline: false
- * only when every footprint's box lies farther than depth + margin from the outline's box, so such a
- * footprint cannot touch it nor stand closer than its depth. True (measure it) without a stored outline.
+ * The box around an excavation's stored ground outline grown by its depth and a margin: a footprint
+ * whose box lies outside it can neither touch the excavation nor stand closer than its depth. Null
+ * without a stored outline (every footprint is measured).
  */
-function mayReach(boxes: Box[], ex: CheckExcavation, proj: LocalProjection): boolean {
+function reachOf(ex: CheckExcavation, proj: LocalProjection): Box | null {
   const ring = ex.groundOutline?.coordinates[0];
-  if (!ring?.length) return true;
+  if (!ring?.length) return null;
   const b = boxOf(ring.map((p) => proj.toLocal(p as LngLat)));
   const r = ex.excavation.depth + STORED_OUTLINE_MARGIN;
-  const zone: Box = [b[0] - r, b[1] - r, b[2] + r, b[3] + r];
-  return boxes.some((f) => boxesMeet(f, zone));
+  return [b[0] - r, b[1] - r, b[2] + r, b[3] + r];
 }
 
-/** Runs the cumulative check. Throws PlacementError naming every load that touches an excavation. */
-export function cumulativeCheck(input: CheckInput): PermitCheck {
-  validateLoads(input.permit.loads);
+/** Everything of a check but the permit's loads and the time. */
+export type CheckPlanInput = Omit<CheckInput, 'permit' | 'now'> & { permit: Omit<CheckInput['permit'], 'loads'> };
+
+/** A placed load of the permit as a plan works it out: its footprints, and each measured against an excavation. */
+interface OwnLoad {
+  feet: Footprint[];
+  boxes: Box[];
+  /** Per excavation, per footprint: the engine load with its id (frozen), or why it cannot stand there. */
+  at: Map<CheckExcavation, (Exclude<Load, { kind: 'blanket' }> | GeometryError)[]>;
+}
+
+/** What the other permits put beside one excavation. */
+interface OthersPart {
+  counted: CountedPermit[];
+  loads: Load[];
+  meta: Omit<CheckedLoad, 'force' | 'standoff'>[];
+  warnings: string[];
+}
+
+/** What a plan works out once for an excavation. */
+interface ExcavationPart {
+  outline: PreparedOutline;
+  reach?: Box | null;
+  others?: OthersPart;
+  fixed?: { raw: Omit<CheckRequest, 'loads'>; valid: Omit<CheckRequest, 'loads'> | undefined };
+}
+
+/**
+ * The cumulative check made ready for checks that differ only in the permit's loads and the time:
+ * the frames of a drag on the placing map. Everything but the loads is read once, when first needed,
+ * and kept for the plan's life: each excavation's outline, the other permits' loads beside it and the
+ * fixed part of its engine request, found valid. Each placed load is worked out once while its content
+ * stays the same (the loads of the last run are kept, by content): a frame moves one load, so only that
+ * one is validated, measured and checked against the nearby excavations again. A run gives exactly
+ * what `cumulativeCheck` gives for the same input (shared/permits/check.test.ts); the input must not be
+ * changed in place after the plan is made (make a new plan when anything but the loads changes).
+ */
+export function planCheck(input: CheckPlanInput): (loads: PlacedLoad[], now: Date) => PermitCheck {
   const proj = localProjection(input.origin);
-  const own = input.permit.loads.map((l, index) => ({ load: l, index, feet: footprintsOf(l, input.plant, proj) }));
-  const refusals: Refusal[] = [];
-  const excavations: ExcavationCheck[] = [];
-  const outside = new Set(input.permit.loads.map((l) => l.id));
-  const warnings: string[] = [];
-
-  // Each excavation's outline, prepared (or found kept) once a check.
-  const outlines = new Map<CheckExcavation, PreparedOutline>();
-  const outlineOf = (ex: CheckExcavation) => {
-    let outline = outlines.get(ex);
-    if (!outline) outlines.set(ex, (outline = prepareExcavation(ex.shape, proj)));
-    return outline;
-  };
-  const named = new Set(input.excavations.map((e) => e.id));
-  const boxes = own.flatMap(({ feet }) => feet.map((f) => boxOf(f.local)));
-  const reached: CheckExcavation[] = [];
-  for (const ex of input.nearby ?? []) {
-    if (named.has(ex.id) || !mayReach(boxes, ex, proj)) continue;
-    const reaching = own.filter(({ feet }) => feet.some((f) => footprintReaches(f, ex, outlineOf)));
-    if (reaching.length === 0) continue;
-    reached.push(ex);
-    const labels = [...new Set(reaching.map(({ feet, load }) => feet[0]?.label ?? loadName(load)))];
-    warnings.push(
-      `${ex.reference} is not named on this permit, but ${labels.join(', ')} ${labels.length === 1 ? 'stands' : 'stand'} within its influence zone: it is checked too. Name it on the permit.`,
-    );
-  }
-
   const engine = input.engine ?? { runCheck, groupStandoff };
-  for (const ex of [...input.excavations, ...reached]) {
-    const outline = outlineOf(ex);
-    const loads: Load[] = [];
-    const meta: Omit<CheckedLoad, 'force' | 'standoff'>[] = [];
-    for (const { load, index, feet } of own) {
-      for (const f of feet) {
-        const id = [input.permit.number, load.id, f.element].filter(Boolean).join('/');
+  const permit = input.permit;
+  const named = new Set(input.excavations.map((e) => e.id));
+  const parts = new Map<CheckExcavation, ExcavationPart>();
+  const partOf = (ex: CheckExcavation): ExcavationPart => {
+    let part = parts.get(ex);
+    if (!part) parts.set(ex, (part = { outline: prepareExcavation(ex.shape, proj) }));
+    return part;
+  };
+  let own = new Map<string, OwnLoad>();
+
+  /** A load's footprints measured against an excavation, once a plan. */
+  const measuredOwn = (load: PlacedLoad, o: OwnLoad, ex: CheckExcavation) => {
+    let at = o.at.get(ex);
+    if (!at) {
+      const outline = partOf(ex).outline;
+      at = o.feet.map((f) => {
+        const m = measure(f, outline);
+        if (m instanceof GeometryError) return m;
+        return frozen({ id: [permit.number, load.id, f.element].filter(Boolean).join('/'), ...m } as Exclude<Load, { kind: 'blanket' }>);
+      });
+      o.at.set(ex, at);
+    }
+    return at;
+  };
+
+  /** The other permits' loads beside an excavation, counted when on the same excavation with an overlapping window. */
+  const othersOf = (ex: CheckExcavation): OthersPart => {
+    const part = partOf(ex);
+    if (part.others) return part.others;
+    const others: OthersPart = { counted: [], loads: [], meta: [], warnings: [] };
+    for (const o of input.others) {
+      if (o.id === permit.id || !o.excavationIds.includes(ex.id) || !windowsOverlap(o, permit)) continue;
+      others.counted.push({ id: o.id, number: o.number, status: o.status, windowStart: o.windowStart, windowEnd: o.windowEnd });
+      for (const load of o.loads) {
+        let feet: Footprint[];
         try {
-          const el = measuredLoad(f, outline, id);
-          loads.push(el);
-          meta.push({
+          feet = footprintsOf(load, input.otherPlant?.get(o.id) ?? input.plant, proj);
+        } catch {
+          others.warnings.push(`permit ${o.number}: ${loadName(load)} could not be placed and is not counted`);
+          continue;
+        }
+        for (const f of feet) {
+          const id = [o.number, load.id, f.element].filter(Boolean).join('/');
+          const m = measuredLoad(f, part.outline);
+          if (m instanceof GeometryError) {
+            others.warnings.push(`permit ${o.number}: ${f.label} ${TOUCHES(ex.reference)}`);
+            continue;
+          }
+          const el = frozen({ id, ...m } as Exclude<Load, { kind: 'blanket' }>);
+          others.loads.push(el);
+          others.meta.push({
             engineId: id,
-            permitId: input.permit.id,
-            permitNumber: input.permit.number,
+            permitId: o.id,
+            permitNumber: o.number,
+            loadId: load.id,
+            label: f.label,
+            element: f.element,
+            kind: el.kind,
+            offset: el.offset,
+            own: false,
+          });
+        }
+      }
+    }
+    return (part.others = others);
+  };
+
+  const fixedOf = (ex: CheckExcavation) => {
+    const part = partOf(ex);
+    if (!part.fixed) {
+      const raw = { excavation: ex.excavation, soil: ex.soil, method: input.method, minimumClearance: input.minimumClearance, step: 0.05 };
+      part.fixed = { raw, valid: validFixedPart(raw) };
+    }
+    return part.fixed;
+  };
+
+  const reachOfNearby = (ex: CheckExcavation) => {
+    const part = partOf(ex);
+    if (part.reach === undefined) part.reach = reachOf(ex, proj);
+    return part.reach;
+  };
+
+  return (loads, now) => {
+    const keys = loads.map(contentKey);
+    validateLoads(loads, keys, own);
+    const kept = own;
+    own = new Map();
+    const mine = loads.map((load, index) => {
+      let o = kept.get(keys[index]) ?? own.get(keys[index]);
+      if (!o) {
+        const feet = footprintsOf(load, input.plant, proj);
+        o = { feet, boxes: feet.map((f) => boxOf(f.local)), at: new Map() };
+      }
+      own.set(keys[index], o);
+      return { load, index, o };
+    });
+    const refusals: Refusal[] = [];
+    const excavations: ExcavationCheck[] = [];
+    const outside = new Set(loads.map((l) => l.id));
+    const warnings: string[] = [];
+
+    // A nearby excavation is checked too when a footprint touches it or stands closer than its depth.
+    const reached: CheckExcavation[] = [];
+    for (const ex of input.nearby ?? []) {
+      if (named.has(ex.id)) continue;
+      const reach = reachOfNearby(ex);
+      if (reach && !mine.some(({ o }) => o.boxes.some((b) => boxesMeet(b, reach)))) continue;
+      const reaching = mine.filter(({ load, o }) =>
+        measuredOwn(load, o, ex).some((m) => m instanceof GeometryError || m.offset < ex.excavation.depth),
+      );
+      if (reaching.length === 0) continue;
+      reached.push(ex);
+      const labels = [...new Set(reaching.map(({ o, load }) => o.feet[0]?.label ?? loadName(load)))];
+      warnings.push(
+        `${ex.reference} is not named on this permit, but ${labels.join(', ')} ${labels.length === 1 ? 'stands' : 'stand'} within its influence zone: it is checked too. Name it on the permit.`,
+      );
+    }
+
+    for (const ex of [...input.excavations, ...reached]) {
+      const engineLoads: Load[] = [];
+      const meta: Omit<CheckedLoad, 'force' | 'standoff'>[] = [];
+      for (const { load, index, o } of mine) {
+        const at = measuredOwn(load, o, ex);
+        o.feet.forEach((f, i) => {
+          const el = at[i];
+          if (el instanceof GeometryError) {
+            if (!refusals.some((r) => r.loadId === load.id && r.excavationId === ex.id)) {
+              refusals.push({
+                loadId: load.id,
+                index,
+                excavationId: ex.id,
+                reference: ex.reference,
+                message: `${f.label}${f.element ? ` (${f.element})` : ''} ${TOUCHES(ex.reference)}`,
+              });
+            }
+            return;
+          }
+          engineLoads.push(el);
+          meta.push({
+            engineId: el.id,
+            permitId: permit.id,
+            permitNumber: permit.number,
             loadId: load.id,
             label: f.label,
             element: f.element,
@@ -492,124 +663,91 @@ export function cumulativeCheck(input: CheckInput): PermitCheck {
             own: true,
           });
           if (el.offset < ex.excavation.depth) outside.delete(load.id);
-        } catch (err) {
-          if (!(err instanceof GeometryError)) throw err;
-          if (!refusals.some((r) => r.loadId === load.id && r.excavationId === ex.id)) {
-            refusals.push({
-              loadId: load.id,
-              index,
-              excavationId: ex.id,
-              reference: ex.reference,
-              message: `${f.label}${f.element ? ` (${f.element})` : ''} ${TOUCHES(ex.reference)}`,
-            });
-          }
-        }
+        });
       }
+      const others = othersOf(ex);
+      const counted = others.counted.map((c) => ({ ...c }));
+      engineLoads.push(...others.loads);
+      meta.push(...others.meta);
+      warnings.push(...others.warnings);
+      if (refusals.length) continue;
+      const fixed = fixedOf(ex);
+      const request = validRequest(fixed.raw, fixed.valid, engineLoads, ex.reference);
+      const result = input.standoffs === false ? engine.runCheck(request, { standoffs: false }) : engine.runCheck(request);
+      const checked: CheckedLoad[] = meta.map((m, i) => ({ ...m, force: result.loads[i].force, standoff: result.loads[i].standoff }));
+      // A load of one footprint has the engine's standoff; a machine's elements move together.
+      const { loads: _all, ...base } = request;
+      void _all;
+      const loadStandoffs = mine.flatMap(({ load }) => {
+        const parts = checked.flatMap((c, i) => (c.own && c.loadId === load.id ? [i] : []));
+        if (parts.length === 0) return [];
+        const label = checked[parts[0]].label;
+        let answer: Pick<StandoffAnswer, 'standoff' | 'failingBands'>;
+        if (parts.length === 1) {
+          answer = result.loads[parts[0]];
+        } else if (input.standoffs === false) {
+          answer = { standoff: null, failingBands: [] };
+        } else {
+          const group = engine.groupStandoff(
+            base,
+            parts.map((i) => engineLoads[i] as Exclude<Load, { kind: 'blanket' }>),
+          );
+          if (!group.monotonic) result.warnings.push(notMonotonicWarning(label, group));
+          answer = group;
+        }
+        return [
+          {
+            loadId: load.id,
+            label,
+            standoff: answer.standoff,
+            failingBands: answer.failingBands,
+            offset: Math.min(...parts.map((i) => checked[i].offset)),
+          },
+        ];
+      });
+      const standoff = maxOrNull(loadStandoffs.map((l) => l.standoff));
+      excavations.push({
+        excavationId: ex.id,
+        named: named.has(ex.id),
+        reference: ex.reference,
+        name: ex.name,
+        depth: ex.excavation.depth,
+        request,
+        result,
+        loads: checked,
+        loadStandoffs,
+        counted,
+        standoff,
+        verdict: verdictOf(result.utilisation, result.passes),
+      });
     }
-    const counted: CountedPermit[] = [];
-    for (const o of input.others) {
-      if (o.id === input.permit.id || !o.excavationIds.includes(ex.id) || !windowsOverlap(o, input.permit)) continue;
-      counted.push({ id: o.id, number: o.number, status: o.status, windowStart: o.windowStart, windowEnd: o.windowEnd });
-      for (const load of o.loads) {
-        let feet: Footprint[];
-        try {
-          feet = footprintsOf(load, input.otherPlant?.get(o.id) ?? input.plant, proj);
-        } catch {
-          warnings.push(`permit ${o.number}: ${loadName(load)} could not be placed and is not counted`);
-          continue;
-        }
-        for (const f of feet) {
-          const id = [o.number, load.id, f.element].filter(Boolean).join('/');
-          try {
-            const el = measuredLoad(f, outline, id);
-            loads.push(el);
-            meta.push({
-              engineId: id,
-              permitId: o.id,
-              permitNumber: o.number,
-              loadId: load.id,
-              label: f.label,
-              element: f.element,
-              kind: el.kind,
-              offset: el.offset,
-              own: false,
-            });
-          } catch (err) {
-            if (!(err instanceof GeometryError)) throw err;
-            warnings.push(`permit ${o.number}: ${f.label} ${TOUCHES(ex.reference)}`);
-          }
-        }
-      }
-    }
-    if (refusals.length) continue;
-    const request = validRequest(
-      { excavation: ex.excavation, soil: ex.soil, method: input.method, minimumClearance: input.minimumClearance, step: 0.05, loads },
-      ex.reference,
-    );
-    const result = input.standoffs === false ? engine.runCheck(request, { standoffs: false }) : engine.runCheck(request);
-    const checked: CheckedLoad[] = meta.map((m, i) => ({ ...m, force: result.loads[i].force, standoff: result.loads[i].standoff }));
-    // A load of one footprint has the engine's standoff; a machine's elements move together.
-    const { loads: _all, ...base } = request;
-    void _all;
-    const loadStandoffs = own.flatMap(({ load }) => {
-      const parts = checked.flatMap((c, i) => (c.own && c.loadId === load.id ? [i] : []));
-      if (parts.length === 0) return [];
-      const label = checked[parts[0]].label;
-      let answer: Pick<StandoffAnswer, 'standoff' | 'failingBands'>;
-      if (parts.length === 1) {
-        answer = result.loads[parts[0]];
-      } else if (input.standoffs === false) {
-        answer = { standoff: null, failingBands: [] };
-      } else {
-        const group = engine.groupStandoff(
-          base,
-          parts.map((i) => loads[i] as Exclude<Load, { kind: 'blanket' }>),
-        );
-        if (!group.monotonic) result.warnings.push(notMonotonicWarning(label, group));
-        answer = group;
-      }
-      return [
-        {
-          loadId: load.id,
-          label,
-          standoff: answer.standoff,
-          failingBands: answer.failingBands,
-          offset: Math.min(...parts.map((i) => checked[i].offset)),
-        },
-      ];
-    });
-    const standoff = maxOrNull(loadStandoffs.map((l) => l.standoff));
-    excavations.push({
-      excavationId: ex.id,
-      named: named.has(ex.id),
-      reference: ex.reference,
-      name: ex.name,
-      depth: ex.excavation.depth,
-      request,
-      result,
-      loads: checked,
-      loadStandoffs,
-      counted,
-      standoff,
-      verdict: verdictOf(result.utilisation, result.passes),
-    });
-  }
-  if (refusals.length) throw new PlacementError(refusals);
+    if (refusals.length) throw new PlacementError(refusals);
 
-  const utils = excavations.map((e) => e.result.utilisation);
-  const utilisation = utils.some((u) => u === null) ? null : utils.length ? Math.max(...(utils as number[])) : 0;
-  const passes = excavations.every((e) => e.result.passes);
-  return {
-    checkedAt: input.now.toISOString(),
-    method: input.method,
-    excavations,
-    utilisation,
-    passes,
-    verdict: verdictOf(utilisation, passes),
-    computedStandoff: maxOrNull(excavations.map((e) => e.standoff)),
-    outsideInfluence: own.filter((o) => outside.has(o.load.id)).map((o) => o.feet[0]?.label ?? o.load.id),
-    otherPermits: input.others.filter((o) => excavations.some((e) => e.counted.some((c) => c.id === o.id))),
-    warnings: [...warnings, ...excavations.flatMap((e) => e.result.warnings.map((w) => `${e.reference}: ${w}`))],
-    caution: CAUTION,
+    const utils = excavations.map((e) => e.result.utilisation);
+    const utilisation = utils.some((u) => u === null) ? null : utils.length ? Math.max(...(utils as number[])) : 0;
+    const passes = excavations.every((e) => e.result.passes);
+    return {
+      checkedAt: now.toISOString(),
+      method: input.method,
+      excavations,
+      utilisation,
+      passes,
+      verdict: verdictOf(utilisation, passes),
+      computedStandoff: maxOrNull(excavations.map((e) => e.standoff)),
+      outsideInfluence: mine.filter(({ load }) => outside.has(load.id)).map(({ o, load }) => o.feet[0]?.label ?? load.id),
+      otherPermits: input.others.filter((o) => excavations.some((e) => e.counted.some((c) => c.id === o.id))),
+      warnings: [...warnings, ...excavations.flatMap((e) => e.result.warnings.map((w) => `${e.reference}: ${w}`))],
+      caution: CAUTION,
+    };
   };
+}
+
+/** Runs the cumulative check. Throws PlacementError naming every load that touches an excavation. */
+export function cumulativeCheck(input: CheckInput): PermitCheck {
+  const {
+    permit: { loads, ...permit },
+    now,
+    ...rest
+  } = input;
+  return planCheck({ ...rest, permit })(loads, now);
 }

@@ -4,7 +4,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useQueryClient } from '@tanstack/react-query';
 import { localProjection, type XY } from '@shared/geometry';
-import { checkExcavationOf, cumulativeCheck, type PlantForCheck } from '@shared/permits/check';
+import { checkExcavationOf, cumulativeCheck, planCheck, type CheckPlanInput, type PlantForCheck } from '@shared/permits/check';
 import {
   permitCreateSchema,
   placedLoadLabels,
@@ -237,21 +237,75 @@ export function Editor(subject: EditorSubject) {
     [],
   );
 
-  const permitRef = { id: permit?.id ?? null, number: permit?.number ?? 'new' };
+  /** Everything the check reads but the loads (new when any of it changes; nothing in it is changed in place). */
+  const checkBasis = useMemo(
+    (): CheckPlanInput | null =>
+      site.data
+        ? {
+            origin: [site.data.longitude, site.data.latitude],
+            method,
+            minimumClearance: site.data.minimumClearance,
+            permit: { id: permit?.id ?? null, number: permit?.number ?? 'new', windowStart: draft.windowStart, windowEnd: draft.windowEnd },
+            excavations: namedForCheck,
+            nearby: nearbyForCheck,
+            plant,
+            others: server?.otherPermits ?? [],
+          }
+        : null,
+    [site.data, method, permit?.id, permit?.number, draft.windowStart, draft.windowEnd, namedForCheck, nearbyForCheck, plant, server],
+  );
+  /**
+   * The check of a drag's frames (the verdict only): everything but the loads read once, and each
+   * load worked out again only when it changes (planCheck), so a frame measures the moved load alone.
+   */
+  const framePlan = useMemo(() => (checkBasis ? planCheck({ ...checkBasis, standoffs: false }) : null), [checkBasis]);
+  // Before the first drag, when the browser is idle: a few frames' checks of the first load moved,
+  // their results dropped, so that a drag's first frames run code the browser has
+  // already compiled (they took 5-14 ms at 4× slowdown, the later ones 2-3 ms; docs/performance.md).
+  // Stops when a drag starts; once a page.
+  const warmed = useRef(false);
+  useEffect(() => {
+    if (warmed.current || dragging || !framePlan || !proj || draft.loads.length === 0) return;
+    const loads = draft.loads;
+    const [cx, cy] = centreOf(loads[0], proj);
+    let done = 0;
+    const idle = typeof requestIdleCallback === 'function';
+    let handle = 0;
+    const warm = (deadline?: IdleDeadline) => {
+      do {
+        done++;
+        // Around where it stands, up to 3 m away, as a drag takes it: nearer and farther than an
+        // excavation's influence zone, so each path of the frame's check runs.
+        const r = WARM_UP_REACH[done % WARM_UP_REACH.length];
+        const angle = (done * 2 * Math.PI) / 7;
+        const moved = moveLoad(loads[0], [cx + r * Math.cos(angle), cy + r * Math.sin(angle)], proj);
+        try {
+          framePlan([moved, ...loads.slice(1)], new Date());
+        } catch {
+          // A warm-up's result, or its refusal, is dropped.
+        }
+      } while (done < WARM_UP_FRAMES && deadline && deadline.timeRemaining() > 4);
+      if (done < WARM_UP_FRAMES) {
+        handle = idle ? requestIdleCallback(warm) : window.setTimeout(warm, 20);
+        return;
+      }
+      warmed.current = true;
+      try {
+        framePlan(loads, new Date()); // the plan keeps the loads as they stand, for the first frame
+      } catch {
+        // Shown by the full check already.
+      }
+      performance.mark?.(DRAG_READY_MARK);
+    };
+    handle = idle ? requestIdleCallback(warm) : window.setTimeout(warm, 20);
+    return () => (idle ? cancelIdleCallback(handle) : clearTimeout(handle));
+  }, [framePlan, proj, draft.loads, dragging]);
+
   /** The live check of these loads; `verdictOnly` (a drag frame) skips the standoff search. */
   function runLive(loads: PlacedLoad[], verdictOnly = false): PermitCheck {
-    return cumulativeCheck({
-      origin: [site.data!.longitude, site.data!.latitude],
-      method,
-      minimumClearance: site.data!.minimumClearance,
-      permit: { ...permitRef, windowStart: draft.windowStart, windowEnd: draft.windowEnd, loads },
-      excavations: namedForCheck,
-      nearby: nearbyForCheck,
-      plant,
-      others: server?.otherPermits ?? [],
-      now: new Date(),
-      ...(verdictOnly ? { standoffs: false as const } : {}),
-    });
+    if (verdictOnly && framePlan) return framePlan(loads, new Date());
+    const { permit: basisPermit, ...basis } = checkBasis!;
+    return cumulativeCheck({ ...basis, permit: { ...basisPermit, loads }, now: new Date() });
   }
 
   // The live check, in the browser with the shared engine and the shared schemas, on every move.
@@ -279,6 +333,8 @@ export function Editor(subject: EditorSubject) {
     server,
     method,
     dragging,
+    checkBasis,
+    framePlan,
   ]);
 
   function liveCheck(verdictOnly: boolean): LiveOutcome {
@@ -838,6 +894,11 @@ function OffsetField({ label, value, onCommit }: { label: string; value: number;
  * (the verdict only), and the full check (with standoffs) after a load is let go or changed.
  */
 const LIVE_CHECK_MEASURE = 'brink:live-check';
+/** Marked once the page has run a drag frame's check WARM_UP_FRAMES times at idle (read by the bench). */
+const DRAG_READY_MARK = 'brink:drag-ready';
+const WARM_UP_FRAMES = 30;
+/** How far (m) each warm-up frame moves the load, in turn. */
+const WARM_UP_REACH = [0.05, 0.5, 1, 2, 3];
 const FULL_CHECK_MEASURE = 'brink:full-check';
 let liveMeasures = 0;
 /** Records one live check's time as a performance measure; the oldest go after 500, so dragging all day keeps nothing growing. */
