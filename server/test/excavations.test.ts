@@ -11,7 +11,7 @@ import {
   type ExcavationInput,
 } from '@shared/schemas/excavations';
 import { calcRequestSchema } from '@shared/schemas/calc';
-import { loadExcavations, siteAnswerReuse } from '../src/services/excavations';
+import { loadExcavationPage, loadExcavations, siteAnswerReuse } from '../src/services/excavations';
 import { addPerson, demo, demoSiteId, makeOrganisation, signedIn, startTestApp, unique, type TestApp, demoOrganisationId } from './helpers';
 
 let t: TestApp;
@@ -721,5 +721,29 @@ describe("a whole site's list answer, kept and sent again while the site's excav
     await beside.agent.post(`/api/sites/${beside.id}/excavations`).send(pit()).expect(201);
     expect(await listed('own')).toBe(1);
     await afterWrite('beside');
+  });
+  it('is read once for readers who come together, each of whom gets the site as it is', async () => {
+    const { id, agent } = sites.beside;
+    // A write (the answer kept for the site no longer fits it), then ten readers at once.
+    await agent
+      .post(`/api/sites/${id}/excavations`)
+      .send(pit({ reference: 'KEPT-TOGETHER' }))
+      .expect(201);
+    const before = siteAnswerReuse.count;
+    const answers = await Promise.all(Array.from({ length: 10 }, () => loadExcavationPage(t.deps.db, id, { limit: 500 })));
+    // One of the ten read the database; the nine others waited for it and took its answer.
+    expect(siteAnswerReuse.count - before).toBe(9);
+    const wire = { excavations: await truth(id), next: null };
+    expect(wire.excavations.map((e) => e.reference)).toContain('KEPT-TOGETHER');
+    for (const a of answers) expect(JSON.parse(a.text)).toEqual(wire);
+    // A reader after a change does not take the answer of a read under way before it.
+    const under = loadExcavationPage(t.deps.db, id, { limit: 500 });
+    await agent
+      .post(`/api/sites/${id}/excavations`)
+      .send(pit({ reference: 'KEPT-AFTER' }))
+      .expect(201);
+    const after = await loadExcavationPage(t.deps.db, id, { limit: 500 });
+    await under;
+    expect(JSON.parse(after.text)).toEqual({ excavations: await truth(id), next: null });
   });
 });

@@ -275,17 +275,56 @@ function keepSiteAnswer(db: Db, siteId: number, entry: SiteAnswer): void {
  * A first page that holds the whole site is kept (per database, in this process) with the site's
  * state read in the same statement (`siteStateOf`), and sent again, with its gzip, while a fresh
  * read of that state (one short query) finds it unchanged; the caller has checked access first.
+ * Readers who come while such a read is under way wait for it and take its answer when they found
+ * the site in the state it read (many people opening one site at a shift's start: one read).
  */
 export async function loadExcavationPage(db: Db, siteId: number, q: { limit: number; cursor?: string }): Promise<JsonText> {
-  const kept = q.cursor ? undefined : siteAnswers.get(db)?.get(siteId);
-  if (kept && kept.rows <= q.limit) {
-    const { rows } = await sql<{ state: string }>`select ${siteStateOf(siteId)} as state`.execute(db);
-    if (rows[0]?.state === kept.state) {
+  if (q.cursor) return (await readExcavationPage(db, siteId, q)).answer;
+  let reads = siteReads.get(db);
+  if (!reads) siteReads.set(db, (reads = new Map()));
+  const under = reads.get(siteId);
+  if (under) {
+    // The site as it is now, and the answer of the read under way: that answer is this read's when
+    // it is of this same state.
+    const [state, whole] = await Promise.all([siteStateNow(db, siteId), under.catch(() => null)]);
+    if (whole && whole.state === state && whole.rows <= q.limit) {
       siteAnswerReuse.count += 1;
-      keepSiteAnswer(db, siteId, kept);
-      return kept.answer;
+      return whole.answer;
     }
   }
+  const read = (async () => {
+    const kept = siteAnswers.get(db)?.get(siteId);
+    if (kept && kept.rows <= q.limit && kept.state === (await siteStateNow(db, siteId))) {
+      siteAnswerReuse.count += 1;
+      keepSiteAnswer(db, siteId, kept);
+      return { answer: kept.answer, whole: kept };
+    }
+    return readExcavationPage(db, siteId, q);
+  })();
+  const whole = read.then((r) => r.whole);
+  reads.set(siteId, whole);
+  try {
+    return (await read).answer;
+  } finally {
+    if (reads.get(siteId) === whole) reads.delete(siteId);
+  }
+}
+
+/** siteStateOf, read now. */
+async function siteStateNow(db: Db, siteId: number): Promise<string | undefined> {
+  const { rows } = await sql<{ state: string }>`select ${siteStateOf(siteId)} as state`.execute(db);
+  return rows[0]?.state;
+}
+
+/** Whole-site reads under way, per database and site (loadExcavationPage). */
+const siteReads = new WeakMap<Db, Map<number, Promise<SiteAnswer | null>>>();
+
+/** One read of a page from the database; `whole` is the answer kept when the page holds the whole site. */
+async function readExcavationPage(
+  db: Db,
+  siteId: number,
+  q: { limit: number; cursor?: string },
+): Promise<{ answer: JsonText; whole: SiteAnswer | null }> {
   let query = db
     .selectFrom('excavations')
     .select(['id', 'reference', sql<string | null>`case when answer_key = ${ANSWER_FORMAT} || ':' || version then answer end`.as('answer')])
@@ -314,10 +353,10 @@ export async function loadExcavationPage(db: Db, siteId: number, q: { limit: num
   const answer = new JsonText(`{"excavations":[${answers.join(',')}],"next":${JSON.stringify(next)}}`);
   // Kept only when it is the whole site, read from stored answers alone (writing answers changes the
   // state); not for a site without excavations, whose empty read carried no state.
-  if (!q.cursor && next === null && stale.length === 0 && page.length > 0) {
-    keepSiteAnswer(db, siteId, { state: page[0].site_state, rows: page.length, answer });
-  }
-  return answer;
+  if (q.cursor || next !== null || stale.length > 0 || page.length === 0) return { answer, whole: null };
+  const whole = { state: page[0].site_state, rows: page.length, answer };
+  keepSiteAnswer(db, siteId, whole);
+  return { answer, whole };
 }
 
 /** Properties written for each excavation in a GeoJSON export (and read back on import). */
