@@ -58,6 +58,23 @@ describe('permit list pages', () => {
     });
   }
 
+  it('counts every page of the list when asked (total), whatever page is read, and only when asked', async () => {
+    const q = `/api/permits?siteId=${w.siteId}&excavationId=${w.trenchId}`;
+    const all = (await w.agents.supervisor.get(`${q}&limit=500`).expect(200)).body.permits as unknown[];
+    expect(all.length).toBeGreaterThanOrEqual(6);
+    const first = await w.agents.supervisor.get(`${q}&limit=2&total=true`).expect(200);
+    expect(first.body.permits).toHaveLength(2);
+    expect(first.body.total).toBe(all.length);
+    const second = await w.agents.supervisor.get(`${q}&limit=2&total=true&cursor=${encodeURIComponent(first.body.next)}`).expect(200);
+    expect(second.body.total).toBe(all.length);
+    const live = await w.agents.supervisor.get(`${q}&status=live&total=true`).expect(200);
+    expect(live.body.total).toBe(live.body.permits.length);
+    expect((await w.agents.supervisor.get(`${q}&limit=2`).expect(200)).body).not.toHaveProperty('total');
+    const bad = await w.agents.supervisor.get(`${q}&total=maybe`);
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fields.total).toMatch(/true or false/);
+  });
+
   it('refuses a cursor it did not give, naming the field', async () => {
     const r = await w.agents.supervisor.get(`/api/permits?siteId=${w.siteId}&cursor=not-a-cursor`);
     expect(r.status).toBe(400);

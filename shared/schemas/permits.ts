@@ -415,6 +415,8 @@ export const permitListQuerySchema = z.object({
   limit: z.coerce.number().int().min(1).max(500).default(200),
   /** Where the page starts: the `next` of the page before (opaque; keeps the sort and filters of the first page's query). */
   cursor: z.string().max(300, 'must be at most 300 characters').optional(),
+  /** true: the answer also counts every permit the filters match (`total`, all pages), e.g. for "All 34". */
+  total: z.stringbool({ error: 'must be true or false' }).optional(),
 });
 export type PermitListQuery = z.infer<typeof permitListQuerySchema>;
 
@@ -742,7 +744,12 @@ export const permitDetailAnswer = permitSummaryAnswer.extend({
 export type PermitDetail = z.output<typeof permitDetailAnswer>;
 
 /** GET /api/permits: one page, and the cursor of the next (null on the last page). */
-export const permitsAnswer = z.object({ permits: z.array(permitSummaryAnswer), next: z.string().nullable() });
+export const permitsAnswer = z.object({
+  permits: z.array(permitSummaryAnswer),
+  next: z.string().nullable(),
+  /** How many permits the filters match over all pages: only when the query asked (`total=true`). */
+  total: int.optional(),
+});
 /** One permit as it now is: GET /api/permits/:id and every change (create, PATCH, transitions). */
 export const onePermitAnswer = z.object({ permit: permitDetailAnswer });
 /** GET /api/permits/:id/revisions/:revision */

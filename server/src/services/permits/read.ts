@@ -119,9 +119,9 @@ export async function listPermits(
   q: PermitListQuery,
   /** The sites the caller has already found the person may see (the site filtered on); else all they may see. */
   checked?: number[],
-): Promise<{ permits: PermitSummary[]; next: string | null }> {
+): Promise<{ permits: PermitSummary[]; next: string | null; total?: number }> {
   const sites = checked ?? (await visibleSites(db, user));
-  if (sites.length === 0) return { permits: [], next: null };
+  if (sites.length === 0) return { permits: [], next: null, ...(q.total ? { total: 0 } : {}) };
   let query = summaryQuery(db).where('p.site_id', 'in', sites);
   if (q.siteId) query = query.where('p.site_id', '=', q.siteId);
   if (q.view === 'review') {
@@ -173,6 +173,8 @@ export async function listPermits(
   }
   if (q.from) query = query.where('r.window_end', '>', new Date(q.from));
   if (q.to) query = query.where('r.window_start', '<', new Date(q.to));
+  // The count of every page (asked by the dashboard's "All 34"): the filters without the cursor.
+  const filtered = query;
   // Keyset pages: ordered by the sort column then the id, each page after the last row of the one before.
   const [column, type] = sortColumns[q.sort];
   // A cursor keeps to the organisation and the sort that gave it.
@@ -182,14 +184,24 @@ export async function listPermits(
     const after = sql<boolean>`(${sql.ref(column)}, p.id) ${sql.raw(q.order === 'asc' ? '>' : '<')} (cast(${value} as ${sql.raw(type)}), ${id})`;
     query = query.where(after);
   }
-  const rows = await query
-    .select(sql<string>`${sql.ref(column)}::text`.as('sort_key'))
-    .orderBy(column, q.order)
-    .orderBy('p.id', q.order)
-    .limit(q.limit + 1)
-    .execute();
+  const [rows, total] = await Promise.all([
+    query
+      .select(sql<string>`${sql.ref(column)}::text`.as('sort_key'))
+      .orderBy(column, q.order)
+      .orderBy('p.id', q.order)
+      .limit(q.limit + 1)
+      .execute(),
+    // In parallel with the page, and started only once the cursor was found good.
+    q.total
+      ? filtered
+          .clearSelect()
+          .select(sql<number>`count(*)::int`.as('n'))
+          .executeTakeFirstOrThrow()
+          .then((r) => r.n)
+      : undefined,
+  ]);
   const { page, next } = pageOf(rows, q.limit, (r) => r.sort_key, scope);
-  return { permits: page.map(summaryOut), next };
+  return { permits: page.map(summaryOut), next, ...(total === undefined ? {} : { total }) };
 }
 
 async function loadSummary(db: Db, id: number): Promise<PermitSummary | null> {

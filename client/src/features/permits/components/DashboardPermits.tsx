@@ -41,10 +41,19 @@ function PermitPanel({
   intro: string;
   timeZone: string;
 }) {
-  // Awaiting review: oldest first; live now by when their window opens.
-  const list = usePermitList({ siteId: String(siteId), view, sort: view === 'review' ? 'updated' : 'windowStart', order: 'asc' });
-  const title = permitViewLabels[view];
+  // Awaiting review: oldest first; live now by when their window opens. Only the permits shown are
+  // asked for, with the count of all of them (a big site has hundreds live).
   const shown = view === 'review' ? SHOWN_FOR_REVIEW : SHOWN;
+  const list = usePermitList({
+    siteId: String(siteId),
+    view,
+    sort: view === 'review' ? 'updated' : 'windowStart',
+    order: 'asc',
+    limit: String(shown),
+    total: 'true',
+  });
+  const title = permitViewLabels[view];
+  const total = list.data?.total ?? list.data?.permits.length ?? 0;
   return (
     <Panel title={title} level={3}>
       <p className="text-ink-soft">{intro}</p>
@@ -52,19 +61,17 @@ function PermitPanel({
         <Loading what={`Loading ${title.toLowerCase()}`} />
       ) : list.isError ? (
         <LoadError error={list.error} />
-      ) : list.data.length === 0 ? (
+      ) : list.data.permits.length === 0 ? (
         <p>None at the moment.</p>
       ) : (
         <ul className="flex flex-col gap-2">
-          {list.data.slice(0, shown).map((p) => (
+          {list.data.permits.map((p) => (
             <PermitItem key={p.id} permit={p} timeZone={timeZone} />
           ))}
         </ul>
       )}
       <p>
-        <Link to={`/sites/${siteId}/permits?view=${view}`}>
-          {list.data && list.data.length > shown ? `All ${list.data.length}` : 'Open the list'}
-        </Link>
+        <Link to={`/sites/${siteId}/permits?view=${view}`}>{total > shown ? `All ${total}` : 'Open the list'}</Link>
       </p>
     </Panel>
   );
@@ -76,7 +83,7 @@ function PermitPanel({
  */
 function NeedsFirst({ siteId, timeZone }: { siteId: number; timeZone: string }) {
   const list = usePermitList({ siteId: String(siteId), view: 'mine', status: needStatuses.join(','), sort: 'updated', order: 'desc' });
-  const groups = list.data ? needsFirst(list.data, new Date(), timeZone) : [];
+  const groups = list.data ? needsFirst(list.data.permits, new Date(), timeZone) : [];
   return (
     <Panel title="What needs you first" level={3}>
       {list.isPending ? (
