@@ -21,7 +21,12 @@ export default tseslint.config(
     languageOptions: {
       parserOptions: {
         projectService: {
-          allowDefaultProject: ['eslint.config.js', 'server/src/services/geometry/worker.mjs', 'client/public/push-sw.js'],
+          allowDefaultProject: [
+            'eslint.config.js',
+            'server/src/services/geometry/worker.mjs',
+            'client/public/push-sw.js',
+            'client/public/locale-data.js',
+          ],
         },
         tsconfigRootDir: import.meta.dirname,
       },

@@ -115,6 +115,7 @@ interface ManifestChunk {
   imports?: string[];
   dynamicImports?: string[];
   css?: string[];
+  assets?: string[];
 }
 type Manifest = Record<string, ManifestChunk>;
 
@@ -143,4 +144,37 @@ export function entryModules(manifest: Manifest): string[] {
   return Object.entries(manifest)
     .filter(([, c]) => c.isEntry && c.file.endsWith('.js'))
     .map(([k]) => k);
+}
+
+/**
+ * Every file the phone view needs to open with no signal, from the build's manifest: the entry's
+ * scripts, styles and fonts, and the phone view's modules (PAGES: its pages and its map) with all
+ * they import, statically or lazily, and their styles. The Latin Extended subsets of the fonts are
+ * left out (fetched the first time a name with accents shows). What the service worker precaches
+ * (vite.config.ts); desk-only pages are not in it.
+ */
+export function phoneFiles(manifest: Manifest): string[] {
+  const entry = entryModules(manifest);
+  const files = new Set<string>();
+  const add = (c: ManifestChunk) => [c.file, ...(c.css ?? []), ...(c.assets ?? [])].forEach((f) => files.add(f));
+  const shell = new Set<string>();
+  const statically = (key: string) => {
+    if (shell.has(key)) return;
+    shell.add(key);
+    add(manifest[key]);
+    for (const i of manifest[key].imports ?? []) statically(i);
+  };
+  entry.forEach(statically);
+  // From the phone view's own modules, lazy imports too (the map); never the entry's (every page).
+  const seen = new Set<string>();
+  const reach = (key: string) => {
+    const c = manifest[key];
+    if (!c) throw new Error(`${key} is not in the build's manifest (renamed or no longer lazy?)`);
+    if (seen.has(key) || shell.has(key)) return;
+    seen.add(key);
+    add(c);
+    for (const i of [...(c.imports ?? []), ...(c.dynamicImports ?? [])]) reach(i);
+  };
+  for (const p of PAGES.filter((page) => page.phone)) [...p.modules, ...(p.later ?? [])].forEach(reach);
+  return [...files].filter((f) => !/-latin-ext-/.test(f)).sort();
 }

@@ -4,7 +4,7 @@
  * asserted here (times are printed by `npm run bench`, never asserted). Builds the client into a
  * temporary folder (about 15 s of processor time).
  */
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -12,6 +12,8 @@ import { build } from 'vite';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 // eslint-disable-next-line import-x/no-restricted-paths -- the bundle budget is the build tool's (npm run bench), checked here on a real build
 import { BUDGET, budgetOf, bundleReport, type BundleReport } from '@server/cli/bundleSize';
+// eslint-disable-next-line import-x/no-restricted-paths -- the pages' modules in the build's manifest, as the page shell reads them
+import { entryModules, moduleFiles, PAGES, readManifest } from '@server/clientPages';
 
 const root = fileURLToPath(new URL('../../..', import.meta.url));
 const out = mkdtempSync(join(tmpdir(), 'brink-bundle-'));
@@ -57,5 +59,38 @@ describe('JavaScript per page (gzip)', () => {
     const big = report.pages.find((p) => p.afterUse)!.files.filter((f) => !phone.files.includes(f));
     expect(big.length).toBeGreaterThan(0);
     expect(phone.files.filter((f) => /\/(DrawTools|zones|zod)-/.test(f))).toEqual([]);
+  });
+});
+
+describe('the service worker precaches the phone view and not the desk pages', () => {
+  // The worker's precache list as the built sw.js holds it.
+  const precached = () => new Set([...readFileSync(join(out, 'sw.js'), 'utf8').matchAll(/\burl:"([^"]+)"/g)].map((m) => m[1]));
+  const filesOf = (modules: string[]) => {
+    const manifest = readManifest(out);
+    const f = moduleFiles(manifest, [...entryModules(manifest), ...modules]);
+    return [...f.scripts, ...f.styles];
+  };
+  const phone = PAGES.find((p) => p.phone)!;
+  const phoneFiles = () => filesOf([...phone.modules, ...(phone.later ?? [])]);
+
+  it('holds every script and style the phone view loads (its pages and its map), index.html and the Latin fonts', () => {
+    const fonts = readdirSync(join(out, 'assets'))
+      .filter((f) => /^source-sans-3-latin-\d+-normal-.*\.woff2$/.test(f))
+      .map((f) => `assets/${f}`);
+    expect(fonts.length).toBe(3);
+    // The scripts index.html names outside the build's modules (public/locale-data.js).
+    const named = [...readFileSync(join(out, 'index.html'), 'utf8').matchAll(/<script[^>]* src="\/([^"]+)"/g)].map((m) => m[1]);
+    expect(named).toContain('locale-data.js');
+    const wanted = [...phoneFiles(), ...fonts, ...named, 'index.html', 'manifest.webmanifest'];
+    const list = precached();
+    expect(wanted.filter((f) => !list.has(f))).toEqual([]);
+  });
+
+  it('holds none of the files only the desk pages load, nor the Latin Extended fonts', () => {
+    const phoneSet = new Set(phoneFiles());
+    const deskOnly = [...new Set(PAGES.filter((p) => !p.phone).flatMap((p) => filesOf(p.modules)))].filter((f) => !phoneSet.has(f));
+    expect(deskOnly.length).toBeGreaterThan(10);
+    const list = precached();
+    expect([...deskOnly, ...[...list].filter((f) => f.includes('-latin-ext-'))].filter((f) => list.has(f))).toEqual([]);
   });
 });
