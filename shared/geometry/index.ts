@@ -19,7 +19,7 @@ export {
   type FootprintShape,
   type PreparedOutline,
 } from './outline';
-export { placeFootprint, placePad } from './placement';
+export { footprintPlacement, placeFootprint, placePad } from './placement';
 export { influenceZone, exclusionZone } from './zones';
 export { boundsGap, boundsOf, signedDistanceToZone, signedArea } from './planar';
 

@@ -75,12 +75,23 @@ function nearestEdge(ring: Ring, foot: Ring): { edge: number; distance: number }
   return { edge: best, distance: least };
 }
 
-/** Offset, width and length of a polygon footprint (site-local ring). */
+/** Offset, width and length of a polygon footprint (site-local ring); throws GeometryError when it touches or overlaps. */
 export function placeFootprint(excavation: PreparedOutline, foot: Ring): Placement {
+  const placed = footprintPlacement(excavation, foot);
+  if (!placed) throw new GeometryError(OVERLAP_MESSAGE);
+  return placed;
+}
+
+/**
+ * placeFootprint, with null for a footprint that touches or overlaps the excavation: no Error is made
+ * (a drag frame over an excavation would make one each frame, and the first one's stack costs the
+ * browser a re-parse of every function on it).
+ */
+export function footprintPlacement(excavation: PreparedOutline, foot: Ring): Placement | null {
   const ring = excavation.ring;
-  if (ringsMeet(ring, foot)) throw new GeometryError(OVERLAP_MESSAGE);
+  if (ringsMeet(ring, foot)) return null;
   const { edge, distance } = nearestEdge(ring, foot);
-  if (distance <= TOUCH) throw new GeometryError(OVERLAP_MESSAGE);
+  if (distance <= TOUCH) return null;
   const { t, n } = edgeFrame(ring, edge);
   let minT = Infinity;
   let maxT = -Infinity;

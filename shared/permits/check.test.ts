@@ -2,7 +2,7 @@ import { describe, expect, it, vi } from 'vitest';
 import { runCheck, type CheckRequest } from '../engineering';
 import { localProjection } from '../geometry';
 import { sixExcavation } from '../engineering/test-fixtures';
-import { CheckInputError, cumulativeCheck, elementCorners, groupStandoff, planCheck, windowsOverlap } from './check';
+import { CheckInputError, cumulativeCheck, elementCorners, groupStandoff, planCheck, planOutcome, windowsOverlap } from './check';
 import type { PermitCheck } from '../schemas/permits';
 import type { Stored } from '../schemas/stored';
 
@@ -304,6 +304,8 @@ describe('a machine dragged on the placing map (a check each frame)', () => {
     const { loads: _loads, ...permitBasis } = planPermit;
     void _loads;
     const frame = planCheck({ ...basis, permit: permitBasis, standoffs: false });
+    // The placing map's form of the plan: a refusal given back as Refused, not thrown.
+    const quiet = planOutcome({ ...basis, permit: permitBasis, standoffs: false });
     const standoff = cumulativeCheck(at(12)).excavations[0].loadStandoffs.find((l) => l.loadId === 'exc')!.standoff!;
     expect(standoff).toBeGreaterThan(0.6);
     const xs = [
@@ -331,6 +333,11 @@ describe('a machine dragged on the placing map (a check each frame)', () => {
       const fresh = await import('./check');
       const full = shown(fresh.cumulativeCheck, input);
       expect(live, JSON.stringify(input.permit.loads[0])).toEqual(full);
+      const outcome = quiet(input.permit.loads, input.now);
+      expect(
+        'refusals' in outcome ? { refused: outcome.message } : shown(() => outcome, input),
+        JSON.stringify(input.permit.loads[0]),
+      ).toEqual(full);
       seen.add('refused' in live ? 'refused' : `${live.excavations.length} ${String(live.verdict)}`);
     }
     // The walk meets a refusal, both pits, and on either side of the standoff a verdict that differs.

@@ -27,9 +27,9 @@ import {
   type StandoffAnswer,
 } from '../engineering';
 import {
+  footprintPlacement,
   GeometryError,
   localProjection,
-  placeFootprint,
   prepareExcavation,
   prepareRing,
   type ExcavationShape,
@@ -278,9 +278,18 @@ function validRequest(
 
 export class PlacementError extends Error {
   constructor(readonly refusals: Refusal[]) {
-    super(refusals.map((r) => r.message).join('; '));
+    super(refusedMessage(refusals));
   }
 }
+
+/** Loads a plan's run refuses where they stand: what PlacementError carries, without making an Error. */
+export interface Refused {
+  refusals: Refusal[];
+  /** PlacementError's message. */
+  message: string;
+}
+
+const refusedMessage = (refusals: Refusal[]) => refusals.map((r) => r.message).join('; ');
 
 /** The corners of a plant element in site-local metres, the machine at `at` turned to bearing `rotation`. */
 export function elementCorners(e: Pick<PlantElement, 'x' | 'y' | 'length' | 'width'>, at: XY, rotation: number): XY[] {
@@ -356,29 +365,35 @@ function ring(coords: LngLat[], proj: LocalProjection): XY[] {
 const TOUCHES = (ref: string) =>
   `touches or overlaps excavation ${ref}: move it clear of the edge (loads are only checked clear of the edge)`;
 
-/** Least distance (m) from a path to the outline; throws GeometryError when it meets or enters it. */
-function pathOffset(outline: PreparedOutline, path: XY[]): number {
+/** Least distance (m) from a path to the outline; null when it meets, enters or touches it. */
+function pathOffset(outline: PreparedOutline, path: XY[]): number | null {
   const r = outline.ring;
   let d = Infinity;
   for (let i = 0; i < path.length; i++) {
-    if (pointInRing(path[i], r)) throw new GeometryError('inside');
+    if (pointInRing(path[i], r)) return null;
     d = Math.min(d, distanceToRing(path[i], r));
     if (i > 0) {
       for (let k = 0; k < r.length; k++) {
-        if (segmentsMeet(path[i - 1], path[i], r[k], r[(k + 1) % r.length])) throw new GeometryError('crosses');
+        if (segmentsMeet(path[i - 1], path[i], r[k], r[(k + 1) % r.length])) return null;
         d = Math.min(d, pointSegment(r[k], path[i - 1], path[i])[0]);
       }
     }
   }
-  if (d <= 1e-6) throw new GeometryError('touches');
-  return d;
+  return d <= 1e-6 ? null : d;
 }
 
-/** The engine load of a footprint beside an excavation. */
-function engineLoad(f: Footprint, outline: PreparedOutline, id: string): Exclude<Load, { kind: 'blanket' }> {
+/**
+ * The engine load of a footprint beside an excavation; null when it touches or overlaps it (no Error
+ * made: see footprintPlacement). Throws GeometryError for a footprint that is not a valid outline.
+ */
+function engineLoad(f: Footprint, outline: PreparedOutline, id: string): Exclude<Load, { kind: 'blanket' }> | null {
   const round = (x: number) => Math.round(x * 1000) / 1000;
-  if (f.kind === 'line') return { id, kind: 'line', force: f.intensity, offset: round(pathOffset(outline, f.local)) };
-  const placed = placeFootprint(outline, prepareRing(f.local, 'load footprint').ring);
+  if (f.kind === 'line') {
+    const offset = pathOffset(outline, f.local);
+    return offset === null ? null : { id, kind: 'line', force: f.intensity, offset: round(offset) };
+  }
+  const placed = footprintPlacement(outline, prepareRing(f.local, 'load footprint').ring);
+  if (!placed) return null;
   if (f.kind === 'strip') return { id, kind: 'strip', pressure: f.intensity, width: round(placed.width), offset: round(placed.offset) };
   return {
     id,
@@ -417,28 +432,34 @@ function maxOrNull(xs: (number | null)[]): number | null {
 
 /** An engine load beside an excavation without its id (the id names the permit and the load). */
 type Measured = Omit<Exclude<Load, { kind: 'blanket' }>, 'id'>;
+/** What measuring gives for a footprint that touches or crosses the outline (or is no valid outline). */
+const TOUCHING = Object.freeze({ touching: true as const });
+type Touching = typeof TOUCHING;
+const touches = <T extends object>(m: T | Touching): m is Touching => m === TOUCHING;
 
 /**
  * Footprints measured against an outline, by the prepared outline (kept by prepareExcavation) and the
  * footprint's content, frozen: every other permit's loads are measured once while they and the outline
- * stay the same, whichever check asks. A footprint that touches keeps its GeometryError.
+ * stay the same, whichever check asks. A footprint that touches is kept as TOUCHING.
  */
-const measured = new WeakMap<PreparedOutline, Kept<Measured | GeometryError>>();
+const measured = new WeakMap<PreparedOutline, Kept<Measured | Touching>>();
 
-/** engineLoad without the id, or the GeometryError of a footprint that touches or crosses the outline. */
-function measure(f: Footprint, outline: PreparedOutline): Measured | GeometryError {
+/** engineLoad without the id, or TOUCHING for a footprint that touches or crosses the outline. */
+function measure(f: Footprint, outline: PreparedOutline): Measured | Touching {
   try {
-    const { id: _id, ...load } = engineLoad(f, outline, '');
+    const placed = engineLoad(f, outline, '');
+    if (!placed) return TOUCHING;
+    const { id: _id, ...load } = placed;
     void _id;
     return frozen(load);
   } catch (err) {
-    if (err instanceof GeometryError) return err;
+    if (err instanceof GeometryError) return TOUCHING;
     throw err;
   }
 }
 
 /** measure, once while the outline and the footprint stay the same. */
-function measuredLoad(f: Footprint, outline: PreparedOutline): Measured | GeometryError {
+function measuredLoad(f: Footprint, outline: PreparedOutline): Measured | Touching {
   let kept = measured.get(outline);
   if (!kept) measured.set(outline, (kept = new Kept(500)));
   return kept.keep(contentKey([f.kind, f.local, f.intensity]), () => measure(f, outline));
@@ -481,7 +502,7 @@ interface OwnLoad {
   feet: Footprint[];
   boxes: Box[];
   /** Per excavation, per footprint: the engine load with its id (frozen), or why it cannot stand there. */
-  at: Map<CheckExcavation, (Exclude<Load, { kind: 'blanket' }> | GeometryError)[]>;
+  at: Map<CheckExcavation, (Exclude<Load, { kind: 'blanket' }> | Touching)[]>;
 }
 
 /** What the other permits put beside one excavation. */
@@ -511,6 +532,20 @@ interface ExcavationPart {
  * changed in place after the plan is made (make a new plan when anything but the loads changes).
  */
 export function planCheck(input: CheckPlanInput): (loads: PlacedLoad[], now: Date) => PermitCheck {
+  const run = planOutcome(input);
+  return (loads, now) => {
+    const outcome = run(loads, now);
+    if ('refusals' in outcome) throw new PlacementError(outcome.refusals);
+    return outcome;
+  };
+}
+
+/**
+ * planCheck, giving loads that touch an excavation as Refused instead of throwing PlacementError: a
+ * drag across an excavation is refused frame after frame, and the browser captures each Error's stack
+ * (for the first, it parses again every function on that stack to find their source positions).
+ */
+export function planOutcome(input: CheckPlanInput): (loads: PlacedLoad[], now: Date) => PermitCheck | Refused {
   const proj = localProjection(input.origin);
   const engine = input.engine ?? { runCheck, groupStandoff };
   const permit = input.permit;
@@ -530,7 +565,7 @@ export function planCheck(input: CheckPlanInput): (loads: PlacedLoad[], now: Dat
       const outline = partOf(ex).outline;
       at = o.feet.map((f) => {
         const m = measure(f, outline);
-        if (m instanceof GeometryError) return m;
+        if (touches(m)) return m;
         return frozen({ id: [permit.number, load.id, f.element].filter(Boolean).join('/'), ...m } as Exclude<Load, { kind: 'blanket' }>);
       });
       o.at.set(ex, at);
@@ -557,7 +592,7 @@ export function planCheck(input: CheckPlanInput): (loads: PlacedLoad[], now: Dat
         for (const f of feet) {
           const id = [o.number, load.id, f.element].filter(Boolean).join('/');
           const m = measuredLoad(f, part.outline);
-          if (m instanceof GeometryError) {
+          if (touches(m)) {
             others.warnings.push(`permit ${o.number}: ${f.label} ${TOUCHES(ex.reference)}`);
             continue;
           }
@@ -620,9 +655,7 @@ export function planCheck(input: CheckPlanInput): (loads: PlacedLoad[], now: Dat
       if (named.has(ex.id)) continue;
       const reach = reachOfNearby(ex);
       if (reach && !mine.some(({ o }) => o.boxes.some((b) => boxesMeet(b, reach)))) continue;
-      const reaching = mine.filter(({ load, o }) =>
-        measuredOwn(load, o, ex).some((m) => m instanceof GeometryError || m.offset < ex.excavation.depth),
-      );
+      const reaching = mine.filter(({ load, o }) => measuredOwn(load, o, ex).some((m) => touches(m) || m.offset < ex.excavation.depth));
       if (reaching.length === 0) continue;
       reached.push(ex);
       const labels = [...new Set(reaching.map(({ o, load }) => o.feet[0]?.label ?? loadName(load)))];
@@ -638,7 +671,7 @@ export function planCheck(input: CheckPlanInput): (loads: PlacedLoad[], now: Dat
         const at = measuredOwn(load, o, ex);
         o.feet.forEach((f, i) => {
           const el = at[i];
-          if (el instanceof GeometryError) {
+          if (touches(el)) {
             if (!refusals.some((r) => r.loadId === load.id && r.excavationId === ex.id)) {
               refusals.push({
                 loadId: load.id,
@@ -721,7 +754,7 @@ export function planCheck(input: CheckPlanInput): (loads: PlacedLoad[], now: Dat
         verdict: verdictOf(result.utilisation, result.passes),
       });
     }
-    if (refusals.length) throw new PlacementError(refusals);
+    if (refusals.length) return { refusals, message: refusedMessage(refusals) };
 
     const utils = excavations.map((e) => e.result.utilisation);
     const utilisation = utils.some((u) => u === null) ? null : utils.length ? Math.max(...(utils as number[])) : 0;

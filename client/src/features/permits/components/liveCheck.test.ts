@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { localProjection } from '@shared/geometry';
-import { cumulativeCheck, type CheckInput } from '@shared/permits/check';
+import { cumulativeCheck, planOutcome, type CheckInput } from '@shared/permits/check';
 import { sixExcavation } from '@shared/engineering/test-fixtures';
 import '@client/lib/forms'; // the plain zod reasons every form page sets
 import { liveOutcome } from './liveCheck';
@@ -71,5 +71,26 @@ describe('the live check beside the placing map', () => {
     };
     const out = liveOutcome(() => cumulativeCheck({ ...withHeap({ unitWeight: 19, height: 1.5 }), excavations: [atRest] }));
     expect(out.invalid).toMatch(/^Cannot check: PIT-A Layer 1 /);
+  });
+
+  it('words a drag frame whose load overlaps the pit as the full check does (the plan gives the refusal back, not thrown)', () => {
+    const sound = withHeap({ unitWeight: 19, height: 1.5 });
+    const heap = sound.permit.loads[0] as Extract<CheckInput['permit']['loads'][number], { kind: 'stockpile' }>;
+    // 4-6 m east overlaps the pit's 0-5 m: plane geometry.
+    const over = {
+      ...sound,
+      permit: { ...sound.permit, loads: [{ ...heap, outline: { type: 'Polygon' as const, coordinates: [square(4, 1, 2)] } }] },
+    };
+    const {
+      permit: { loads, ...permit },
+      now,
+      ...rest
+    } = over;
+    const frame = planOutcome({ ...rest, permit, standoffs: false });
+    const full = liveOutcome(() => cumulativeCheck(over));
+    expect(full.refused).toMatch(/touches or overlaps excavation PIT-A/);
+    expect(liveOutcome(() => frame(loads, now))).toEqual(full);
+    // The same plan, the heap moved clear again: a verdict.
+    expect(liveOutcome(() => frame(sound.permit.loads, now)).check?.verdict).toMatch(/^(passes|close|fails)$/);
   });
 });

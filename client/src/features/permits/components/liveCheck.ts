@@ -1,4 +1,4 @@
-import { CheckInputError, PlacementError } from '@shared/permits/check';
+import { CheckInputError, PlacementError, type Refused } from '@shared/permits/check';
 import type { PermitCheck } from '@shared/schemas/permits';
 import { fieldLabel } from '@client/lib/fieldLabels';
 
@@ -14,9 +14,11 @@ export interface LiveOutcome {
  * refuses) give "Cannot check: <field as the form labels it> <reason>.", so a stockpile of unit
  * weight −19 or with no height never shows "Passes" or NaN.
  */
-export function liveOutcome(run: () => PermitCheck): LiveOutcome {
+export function liveOutcome(run: () => PermitCheck | Refused): LiveOutcome {
   try {
-    return { check: run(), refused: null, invalid: null };
+    const outcome = run();
+    if ('refusals' in outcome) return { check: null, refused: outcome.message, invalid: null };
+    return { check: outcome, refused: null, invalid: null };
   } catch (e) {
     if (e instanceof CheckInputError)
       return { check: null, refused: null, invalid: `Cannot check: ${checkFieldWords(e.field)} ${e.reason}.` };

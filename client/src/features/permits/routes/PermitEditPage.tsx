@@ -4,7 +4,14 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useQueryClient } from '@tanstack/react-query';
 import { localProjection, type XY } from '@shared/geometry';
-import { checkExcavationOf, cumulativeCheck, planCheck, type CheckPlanInput, type PlantForCheck } from '@shared/permits/check';
+import {
+  checkExcavationOf,
+  cumulativeCheck,
+  planOutcome,
+  type CheckPlanInput,
+  type PlantForCheck,
+  type Refused,
+} from '@shared/permits/check';
 import {
   permitCreateSchema,
   placedLoadLabels,
@@ -256,9 +263,9 @@ export function Editor(subject: EditorSubject) {
   );
   /**
    * The check of a drag's frames (the verdict only): everything but the loads read once, and each
-   * load worked out again only when it changes (planCheck), so a frame measures the moved load alone.
+   * load worked out again only when it changes (planOutcome), so a frame measures the moved load alone.
    */
-  const framePlan = useMemo(() => (checkBasis ? planCheck({ ...checkBasis, standoffs: false }) : null), [checkBasis]);
+  const framePlan = useMemo(() => (checkBasis ? planOutcome({ ...checkBasis, standoffs: false }) : null), [checkBasis]);
   // Before the first drag, when the browser is idle: a few frames' checks of the first load moved,
   // their results dropped, so that a drag's first frames run code the browser has
   // already compiled (they took 5-14 ms at 4× slowdown, the later ones 2-3 ms; docs/performance.md).
@@ -301,9 +308,8 @@ export function Editor(subject: EditorSubject) {
     return () => (idle ? cancelIdleCallback(handle) : clearTimeout(handle));
   }, [framePlan, proj, draft.loads, dragging]);
 
-  /** The live check of these loads; `verdictOnly` (a drag frame) skips the standoff search. */
-  function runLive(loads: PlacedLoad[], verdictOnly = false): PermitCheck {
-    if (verdictOnly && framePlan) return framePlan(loads, new Date());
+  /** The full live check of these loads (with the standoff search). */
+  function runLive(loads: PlacedLoad[]): PermitCheck {
     const { permit: basisPermit, ...basis } = checkBasis!;
     return cumulativeCheck({ ...basis, permit: { ...basisPermit, loads }, now: new Date() });
   }
@@ -340,7 +346,8 @@ export function Editor(subject: EditorSubject) {
   function liveCheck(verdictOnly: boolean): LiveOutcome {
     if (!site.data || !proj || draft.loads.length === 0 || named.length === 0 || !plantQ.data)
       return { check: null, refused: null, invalid: null };
-    return liveOutcome(() => runLive(draft.loads, verdictOnly));
+    // A drag frame (`verdictOnly`) runs the plan: the verdict only, no standoff search.
+    return liveOutcome((): PermitCheck | Refused => (verdictOnly && framePlan ? framePlan(draft.loads, new Date()) : runLive(draft.loads)));
   }
 
   if (site.isPending || excavations.isPending || plantQ.isPending) return <Loading what="Loading the site" />;
