@@ -2,7 +2,16 @@ import { describe, expect, it, vi } from 'vitest';
 import { runCheck, type CheckRequest } from '../engineering';
 import { localProjection } from '../geometry';
 import { sixExcavation } from '../engineering/test-fixtures';
-import { CheckInputError, cumulativeCheck, elementCorners, groupStandoff, planCheck, planOutcome, windowsOverlap } from './check';
+import {
+  CheckInputError,
+  cumulativeCheck,
+  elementCorners,
+  groupStandoff,
+  isRefused,
+  planCheck,
+  planOutcome,
+  windowsOverlap,
+} from './check';
 import type { PermitCheck } from '../schemas/permits';
 import type { Stored } from '../schemas/stored';
 
@@ -335,7 +344,7 @@ describe('a machine dragged on the placing map (a check each frame)', () => {
       expect(live, JSON.stringify(input.permit.loads[0])).toEqual(full);
       const outcome = quiet(input.permit.loads, input.now);
       expect(
-        'refusals' in outcome ? { refused: outcome.message } : shown(() => outcome, input),
+        isRefused(outcome) ? { refused: outcome.message } : shown(() => outcome, input),
         JSON.stringify(input.permit.loads[0]),
       ).toEqual(full);
       seen.add('refused' in live ? 'refused' : `${live.excavations.length} ${String(live.verdict)}`);

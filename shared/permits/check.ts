@@ -291,6 +291,9 @@ export interface Refused {
 
 const refusedMessage = (refusals: Refusal[]) => refusals.map((r) => r.message).join('; ');
 
+/** Whether a plan's run refused the loads (Refused) rather than checking them: the one test of the two. */
+export const isRefused = (outcome: PermitCheck | Refused): outcome is Refused => 'refusals' in outcome;
+
 /** The corners of a plant element in site-local metres, the machine at `at` turned to bearing `rotation`. */
 export function elementCorners(e: Pick<PlantElement, 'x' | 'y' | 'length' | 'width'>, at: XY, rotation: number): XY[] {
   const th = (rotation * Math.PI) / 180;
@@ -535,7 +538,7 @@ export function planCheck(input: CheckPlanInput): (loads: PlacedLoad[], now: Dat
   const run = planOutcome(input);
   return (loads, now) => {
     const outcome = run(loads, now);
-    if ('refusals' in outcome) throw new PlacementError(outcome.refusals);
+    if (isRefused(outcome)) throw new PlacementError(outcome.refusals);
     return outcome;
   };
 }

@@ -1,4 +1,4 @@
-import { CheckInputError, PlacementError, type Refused } from '@shared/permits/check';
+import { CheckInputError, isRefused, PlacementError, type Refused } from '@shared/permits/check';
 import type { PermitCheck } from '@shared/schemas/permits';
 import { fieldLabel } from '@client/lib/fieldLabels';
 
@@ -17,7 +17,7 @@ export interface LiveOutcome {
 export function liveOutcome(run: () => PermitCheck | Refused): LiveOutcome {
   try {
     const outcome = run();
-    if ('refusals' in outcome) return { check: null, refused: outcome.message, invalid: null };
+    if (isRefused(outcome)) return { check: null, refused: outcome.message, invalid: null };
     return { check: outcome, refused: null, invalid: null };
   } catch (e) {
     if (e instanceof CheckInputError)

@@ -268,7 +268,7 @@ export function Editor(subject: EditorSubject) {
   const framePlan = useMemo(() => (checkBasis ? planOutcome({ ...checkBasis, standoffs: false }) : null), [checkBasis]);
   // Before the first drag, when the browser is idle: a few frames' checks of the first load moved,
   // their results dropped, so that a drag's first frames run code the browser has
-  // already compiled (they took 5-14 ms at 4× slowdown, the later ones 2-3 ms; docs/performance.md).
+  // already compiled (measured against no warm-up in docs/performance.md).
   // Stops when a drag starts; once a page.
   const warmed = useRef(false);
   useEffect(() => {
