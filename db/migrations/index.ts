@@ -16,6 +16,7 @@ import * as m0015 from './0015_excavation_answers';
 import * as m0016 from './0016_page_indexes';
 import * as m0017 from './0017_organisation_bounds';
 import * as m0018 from './0018_people_search';
+import * as m0019 from './0019_review_index';
 
 /**
  * Every migration, in order. Listed here (not read from the folder) so that the same code runs
@@ -39,4 +40,5 @@ export const migrations: Record<string, Migration> = {
   '0016_page_indexes': m0016,
   '0017_organisation_bounds': m0017,
   '0018_people_search': m0018,
+  '0019_review_index': m0019,
 };

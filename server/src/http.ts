@@ -145,7 +145,13 @@ export type Access =
       kind: 'site';
       roles: readonly SiteRole[] | 'any';
       admin?: boolean;
-      siteId: (req: Request, deps: Deps) => number | null | SiteOfRow | Promise<number | null>;
+      siteId: (req: Request, deps: Deps) => number | null | undefined | SiteOfRow | Promise<number | null>;
+      /**
+       * The site is a filter the caller may leave out (`siteId` answers undefined): then any
+       * signed-in person passes, with no grant, and the handler scopes what it reads itself.
+       * Without `optional`, undefined is no such site (404).
+       */
+      optional?: boolean;
       /** Optional extra rule on the membership, e.g. the inspection duty. */
       allow?: (m: { role: SiteRole; canInspect: boolean }) => boolean;
     };
@@ -163,7 +169,11 @@ interface SiteGrant {
 /** Who the handler sees: on public routes whoever is signed in, if anyone; behind any other rule, always someone. */
 type UserOf<A extends Access> = A extends { kind: 'public' } ? SessionUser | null : SessionUser;
 /** The site grant: present exactly on `site` routes. */
-type SiteOf<A extends Access> = A extends { kind: 'site' } ? SiteGrant : null;
+type SiteOf<A extends Access> = A extends { kind: 'site'; optional: true }
+  ? SiteGrant | null
+  : A extends { kind: 'site' }
+    ? SiteGrant
+    : null;
 
 interface RouteContext<B, Q, P, A extends Access = Access> {
   req: Request;
@@ -298,6 +308,15 @@ export const siteOfRow =
 export const siteFromParam = (req: Request) => {
   const n = Number(req.params.siteId);
   return Number.isInteger(n) && n > 0 ? n : null;
+};
+
+/**
+ * Site ids from the query parameter `siteId`; undefined when it is absent or not an id (the query's
+ * schema then names it), for a site that is a filter (`optional`).
+ */
+export const siteFromQuery = (req: Request) => {
+  const n = Number(req.query.siteId);
+  return req.query.siteId !== undefined && Number.isInteger(n) && n > 0 ? n : undefined;
 };
 
 /**
@@ -466,7 +485,11 @@ async function authorise(access: Access, req: Request, deps: Deps): Promise<Site
     await signedIn();
     throw err;
   }
-  if (found === null) {
+  if (found === undefined && access.optional) {
+    await signedIn();
+    return null;
+  }
+  if (found === null || found === undefined) {
     await signedIn();
     throw notFound();
   }

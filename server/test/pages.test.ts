@@ -72,6 +72,17 @@ describe('permit list pages', () => {
     const filtered = await w.agents.supervisor.get(`${q}&status=${status}&limit=1&total=true`).expect(200);
     expect(filtered.body.total).toBe((all as { status: string }[]).filter((p) => p.status === status).length);
     expect((await w.agents.supervisor.get(`${q}&limit=2`).expect(200)).body).not.toHaveProperty('total');
+    // A page after a cursor that holds no permit still counts the others: the cursor of every permit
+    // but the last (by number: the one in today's window), under a window filter that leaves it out.
+    const byNumber = (await w.agents.supervisor.get(`${q}&sort=number&order=asc&limit=${all.length - 1}`).expect(200)).body;
+    const from = new Date(Date.now() + 24 * 3600_000).toISOString();
+    const later = (all as { windowEnd: string }[]).filter((p) => new Date(p.windowEnd) > new Date(from));
+    expect(later.length).toBeGreaterThan(0);
+    const empty = await w.agents.supervisor
+      .get(`${q}&sort=number&order=asc&from=${encodeURIComponent(from)}&total=true&cursor=${encodeURIComponent(byNumber.next)}`)
+      .expect(200);
+    expect(empty.body.permits).toEqual([]);
+    expect(empty.body.total).toBe(later.length);
     const bad = await w.agents.supervisor.get(`${q}&total=maybe`);
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields.total).toMatch(/true or false/);

@@ -19,7 +19,7 @@ import {
   permitsAnswer,
   siteOperatorsAnswer,
 } from '@shared/schemas/permits';
-import { Api, badRequest, forbidden, HttpError, notFound, siteFromParam, siteOfRow } from '../http';
+import { Api, badRequest, HttpError, notFound, siteFromParam, siteFromQuery, siteOfRow } from '../http';
 import { filesOf, limits, receiveFiles, sendUpload } from '../services/uploads';
 import { userActor } from '../services/permits/actors';
 import { addAttachment, attachmentUploadId, removeAttachment } from '../services/permits/attachments';
@@ -183,24 +183,14 @@ export function registerPermitRoutes(api: Api): void {
       summary:
         'Permits I may see: awaiting my review, my requests, live now, or all, filtered by site, status, kind, excavation, window and text, sorted, a page at a time (`next` is the cursor of the next page)',
       tag: 'Permits',
-      access: { kind: 'signedIn' },
+      // The site named, if any, checked by the guard in the one query that reads the person: of
+      // their organisation (else 404) and theirs (else 403; administrators of it pass).
+      access: { kind: 'site', roles: 'any', admin: true, optional: true, siteId: siteFromQuery },
       query: permitListQuerySchema,
       response: permitsAnswer,
     },
-    async ({ query, user }) => {
-      // The site named, in one query: of the person's organisation (else 404) and theirs (else 403).
-      if (query.siteId) {
-        const site = await db
-          .selectFrom('sites as s')
-          .leftJoin('site_members as m', (j) => j.onRef('m.site_id', '=', 's.id').on('m.user_id', '=', user.id))
-          .select('m.role')
-          .where('s.id', '=', query.siteId)
-          .where('s.organisation_id', '=', user.organisationId)
-          .executeTakeFirst();
-        if (!site) throw notFound('That site');
-        if (!user.isAdmin && !site.role) throw forbidden('You are not a member of this site.');
-      }
-      return listPermits(db, user, query, query.siteId ? [query.siteId] : undefined);
+    async ({ query, user, site }) => {
+      return listPermits(db, user, query, site ? [site.id] : undefined);
     },
   );
 

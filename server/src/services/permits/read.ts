@@ -184,22 +184,23 @@ export async function listPermits(
     const after = sql<boolean>`(${sql.ref(column)}, p.id) ${sql.raw(q.order === 'asc' ? '>' : '<')} (cast(${value} as ${sql.raw(type)}), ${id})`;
     query = query.where(after);
   }
-  const [rows, total] = await Promise.all([
-    query
-      .select(sql<string>`${sql.ref(column)}::text`.as('sort_key'))
-      .orderBy(column, q.order)
-      .orderBy('p.id', q.order)
-      .limit(q.limit + 1)
-      .execute(),
-    // In parallel with the page, and started only once the cursor was found good.
-    q.total
-      ? filtered
-          .clearSelect()
-          .select(sql<number>`count(*)::int`.as('n'))
-          .executeTakeFirstOrThrow()
-          .then((r) => r.n)
-      : undefined,
-  ]);
+  // The count rides in the page's own query (one round trip, not two): an uncorrelated subquery,
+  // counted once. Only an empty page after a cursor carries no row to hold it, and counts on its own.
+  const count = filtered.clearSelect().select(sql<number>`count(*)::int`.as('n'));
+  const rows = await query
+    .select(sql<string>`${sql.ref(column)}::text`.as('sort_key'))
+    .$if(Boolean(q.total), (qb) => qb.select(count.as('total')))
+    .orderBy(column, q.order)
+    .orderBy('p.id', q.order)
+    .limit(q.limit + 1)
+    .execute();
+  const total = !q.total
+    ? undefined
+    : rows.length
+      ? Number((rows[0] as { total?: number }).total)
+      : q.cursor
+        ? (await count.executeTakeFirstOrThrow()).n
+        : 0;
   const { page, next } = pageOf(rows, q.limit, (r) => r.sort_key, scope);
   return { permits: page.map(summaryOut), next, ...(total === undefined ? {} : { total }) };
 }
