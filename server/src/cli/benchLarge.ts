@@ -11,6 +11,8 @@ import { ORIGIN_HEADER, signIn, startBrink } from './benchApi';
 
 const USERS = 10;
 const TARGET_P95 = 200;
+/** Views of each read sent before any is measured (see runLargeBench). */
+const WARM_UP = 20;
 
 interface Read {
   label: string;
@@ -46,7 +48,14 @@ async function measure(base: string, port: number, r: Read, requests: number, se
   };
   await Promise.all(Array.from({ length: USERS }, worker));
   times.sort((a, b) => a - b);
-  return { n: times.length, p50: percentile(times, 50), p95: percentile(times, 95), failures, bytes: bytes / Math.max(1, times.length) };
+  return {
+    n: times.length,
+    p50: percentile(times, 50),
+    p95: percentile(times, 95),
+    max: times.at(-1) ?? 0,
+    failures,
+    bytes: bytes / Math.max(1, times.length),
+  };
 }
 
 export async function runLargeBench(opts: { requests?: number; seconds?: number } = {}): Promise<void> {
@@ -104,6 +113,14 @@ export async function runLargeBench(opts: { requests?: number; seconds?: number 
       { label: 'a permit (live, with its check and timeline)', paths: [`/api/permits/${permitId}`], cookie: coordinator },
       { label: 'overdue inspections (one site)', paths: [`/api/sites/${siteId}/inspections/overdue`], cookie: coordinator },
     ];
+    // A server just started opens its PostgreSQL connections (each new backend also fills its
+    // catalogue caches) and compiles its code on its first views: measured on 3 December, the
+    // dashboard's first 200 views after a start had p95 355 ms and the next 200 244 ms (load 3.5).
+    // A running installation is past that, so each read is measured after WARM_UP views of every
+    // read, not counted; their slowest is printed.
+    let slowest = 0;
+    for (const r of reads) slowest = Math.max(slowest, (await measure(base, brink.port, r, WARM_UP, seconds)).max);
+    console.log(`warm-up: ${WARM_UP} views of each read first, not counted; the slowest took ${slowest.toFixed(0)} ms`);
     console.log(
       `${'read'.padEnd(78)} ${'views'.padStart(5)} ${'p50'.padStart(8)} ${'p95'.padStart(8)}  target p95     ${'KB'.padStart(6)}`,
     );
