@@ -125,8 +125,10 @@ export async function inspectionStates(
   now: Date,
   opts: { excavationIds?: number[] } = {},
 ): Promise<InspectionStatesAnswer & { clock: SiteClock }> {
-  const clock = await siteClock(db, siteId, now);
-  if (opts.excavationIds?.length === 0) return { clock, shift: shiftOut(clock), excavations: [] };
+  if (opts.excavationIds?.length === 0) {
+    const clock = await siteClock(db, siteId, now);
+    return { clock, shift: shiftOut(clock), excavations: [] };
+  }
   // One query: each open excavation with its latest inspection (and who made it) and its latest safe
   // one, each found by the (excavation, time) index, newest first.
   let q = db
@@ -161,7 +163,9 @@ export async function inspectionStates(
     .where('e.state', '=', 'open')
     .orderBy('e.reference');
   if (opts.excavationIds) q = q.where('e.id', 'in', opts.excavationIds);
-  const excavations: ExcavationInspectionState[] = (await q.execute()).map((e) => {
+  // The site's clock is read beside the excavations, not before them: neither needs the other.
+  const [clock, rows] = await Promise.all([siteClock(db, siteId, now), q.execute()]);
+  const excavations: ExcavationInspectionState[] = rows.map((e) => {
     const lastSafeAt = e.last_safe_at ? new Date(e.last_safe_at) : null;
     const last =
       e.last_id !== null && e.inspected_at !== null && e.outcome !== null && e.inspector !== null
