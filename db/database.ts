@@ -16,6 +16,7 @@ import type {
 import type { Checklist, Consequences, InspectionReason, Outcome } from '../shared/schemas/inspections';
 import type {
   AttachmentKind,
+  CheckVerdict,
   DigDetails,
   ExcavationSnapshot,
   PermitCheck,
@@ -312,6 +313,8 @@ interface PermitRevisionsTable {
   dig: StoredJson<DigDetails> | null;
   /** The last authoritative cumulative check (`PermitCheck`). */
   check_result: StoredJson<PermitCheck> | null;
+  /** The check's verdict (utilisation and passes) alone, kept by PostgreSQL from check_result (migration 0020): what lists show. */
+  verdict: ColumnType<Stored<CheckVerdict> | null, never, never>;
   checked_at: Timestamp | null;
   /** The coordinator's decision on this revision (`PermitDecision`). */
   decision: StoredJson<PermitDecision> | null;

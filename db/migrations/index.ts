@@ -17,6 +17,7 @@ import * as m0016 from './0016_page_indexes';
 import * as m0017 from './0017_organisation_bounds';
 import * as m0018 from './0018_people_search';
 import * as m0019 from './0019_review_index';
+import * as m0020 from './0020_list_verdict';
 
 /**
  * Every migration, in order. Listed here (not read from the folder) so that the same code runs
@@ -41,4 +42,5 @@ export const migrations: Record<string, Migration> = {
   '0017_organisation_bounds': m0017,
   '0018_people_search': m0018,
   '0019_review_index': m0019,
+  '0020_list_verdict': m0020,
 };

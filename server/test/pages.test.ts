@@ -88,6 +88,26 @@ describe('permit list pages', () => {
     expect(bad.body.error.fields.total).toMatch(/true or false/);
   });
 
+  it("shows each permit's verdict as its stored check has it (the column PostgreSQL keeps from the check)", async () => {
+    const q = `/api/permits?siteId=${w.siteId}&excavationId=${w.trenchId}&limit=500`;
+    const listed = (await w.agents.supervisor.get(q).expect(200)).body.permits as {
+      id: number;
+      utilisation: number | null;
+      passes: boolean | null;
+    }[];
+    let checked = 0;
+    for (const p of listed) {
+      const { check } = (await w.agents.supervisor.get(`/api/permits/${p.id}`).expect(200)).body.permit.current as {
+        check: { utilisation: number; passes: boolean } | null;
+      };
+      expect({ utilisation: p.utilisation, passes: p.passes }).toEqual(
+        check ? { utilisation: check.utilisation, passes: check.passes } : { utilisation: null, passes: null },
+      );
+      if (check) checked += 1;
+    }
+    expect(checked).toBeGreaterThan(0);
+  });
+
   it('refuses a cursor it did not give, naming the field', async () => {
     const r = await w.agents.supervisor.get(`/api/permits?siteId=${w.siteId}&cursor=not-a-cursor`);
     expect(r.status).toBe(400);
