@@ -4,6 +4,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useQueryClient } from '@tanstack/react-query';
 import { localProjection, type LocalProjection, type XY } from '@shared/geometry';
+import { pointSegment } from '@shared/geometry/planar';
 import {
   checkExcavationOf,
   cumulativeCheck,
@@ -277,7 +278,7 @@ export function Editor(subject: EditorSubject) {
     if (warmed.current || dragging || !framePlan || !proj || draft.loads.length === 0) return;
     const loads = draft.loads;
     const from = centreOf(loads[0], proj);
-    const corner = nearestCorner(from, namedForCheck, proj);
+    const across = nearestPoint(from, namedForCheck, proj);
     let done = 0;
     let stopped = false;
     const idle = typeof requestIdleCallback === 'function';
@@ -287,7 +288,7 @@ export function Editor(subject: EditorSubject) {
     };
     const frame = () => {
       done++;
-      const moved = moveLoad(loads[0], warmUpPosition(done, from, corner), proj);
+      const moved = moveLoad(loads[0], warmUpPosition(done, from, across), proj);
       try {
         framePlan([moved, ...loads.slice(1)], new Date());
       } catch {
@@ -921,18 +922,20 @@ const WARM_UP_SETTLE_MS = 100;
 const WARM_UP_SETTLE_FRAMES = 6;
 /** How far (m) the warm-up's frames around the load move it, in turn. */
 const WARM_UP_REACH = [0.05, 0.5, 1, 2, 3];
-/** Frames of the warm-up's walk from the load across an excavation's corner and back. */
+/** Frames of the warm-up's walk from the load across an excavation and back, each way. */
 const WARM_UP_WALK = 20;
 
-/** The corner (or centre-line point) of the excavations nearest `from`, site-local metres; null without one. */
-function nearestCorner(from: XY, excavations: CheckExcavation[], proj: LocalProjection): XY | null {
+/** The point of the excavations' drawn lines (a trench's centre line, a pit's outline) nearest `from`, site-local metres; null without one. */
+function nearestPoint(from: XY, excavations: CheckExcavation[], proj: LocalProjection): XY | null {
   let best: XY | null = null;
   let bestD = Infinity;
   for (const { shape } of excavations) {
-    for (const p of shape.kind === 'trench' ? shape.centreLine.coordinates : shape.outline.coordinates[0]) {
-      const q = proj.toLocal(p as LngLat);
-      const d = Math.hypot(q[0] - from[0], q[1] - from[1]);
-      if (d < bestD) [best, bestD] = [q, d];
+    const line = (shape.kind === 'trench' ? shape.centreLine.coordinates : shape.outline.coordinates[0]).map((p) =>
+      proj.toLocal(p as LngLat),
+    );
+    for (let i = 0; i < line.length; i++) {
+      const [d, x, y] = pointSegment(from, line[i], line[Math.min(i + 1, line.length - 1)]);
+      if (d < bestD) [best, bestD] = [[x, y], d];
     }
   }
   return best;
@@ -941,15 +944,15 @@ function nearestCorner(from: XY, excavations: CheckExcavation[], proj: LocalProj
 /**
  * Where the warm-up's frame `i` puts the load that stands at `from`: every other frame around
  * where it stands, 5 cm to 3 m away (nearer and farther than an excavation's influence zone), and
- * the others on a walk from where it stands across `corner` to as far beyond and back, so that the
- * frames of a drag across an excavation (passing, failing, touching it: refused) have all run once
- * the drag starts.
+ * the others on a walk from where it stands across the nearest point of an excavation's line
+ * (`across`) to as far beyond and back, so that the frames of a drag across an excavation
+ * (passing, failing, touching it: refused) have all run once the drag starts.
  */
-function warmUpPosition(i: number, from: XY, corner: XY | null): XY {
-  if (corner && i % 2 === 1) {
+function warmUpPosition(i: number, from: XY, across: XY | null): XY {
+  if (across && i % 2 === 1) {
     const step = ((i - 1) / 2) % (2 * WARM_UP_WALK);
     const t = step <= WARM_UP_WALK ? (2 * step) / WARM_UP_WALK : (2 * (2 * WARM_UP_WALK - step)) / WARM_UP_WALK;
-    return [from[0] + t * (corner[0] - from[0]), from[1] + t * (corner[1] - from[1])];
+    return [from[0] + t * (across[0] - from[0]), from[1] + t * (across[1] - from[1])];
   }
   const r = WARM_UP_REACH[i % WARM_UP_REACH.length];
   const angle = (i * 2 * Math.PI) / 7;
