@@ -5,7 +5,7 @@
  * overlapping the excavation is rejected, never measured.
  */
 import { GeometryError, type PreparedOutline } from './outline';
-import { distanceToRing, pointInRing, pointSegment, ringsMeet, type Ring } from './planar';
+import { boundsOf, distanceToRing, pointInRing, pointSegment, ringsMeet, type Ring } from './planar';
 import type { XY } from './projection';
 
 export interface Placement {
@@ -39,7 +39,25 @@ function nearestEdge(ring: Ring, foot: Ring): { edge: number; distance: number }
   const m = foot.length;
   const dist = new Array<number>(n).fill(Infinity);
   const toward: XY[] = new Array(n);
+  // Each edge is measured alone, so they may be taken nearest box first: an edge whose box lies
+  // farther from the footprint's box than an edge already measured (by more than the tie below)
+  // can be neither the nearest nor tied with it, and is left at Infinity unmeasured (the answer is
+  // the same; a trench's far leg is not measured against a machine beside its near one).
+  const box = boundsOf(foot);
+  const gaps = new Array<number>(n);
+  let first = 0;
   for (let i = 0; i < n; i++) {
+    const a = ring[i];
+    const b = ring[(i + 1) % n];
+    const dx = Math.max(0, Math.min(a[0], b[0]) - box.maxX, box.minX - Math.max(a[0], b[0]));
+    const dy = Math.max(0, Math.min(a[1], b[1]) - box.maxY, box.minY - Math.max(a[1], b[1]));
+    gaps[i] = Math.hypot(dx, dy);
+    if (gaps[i] < gaps[first]) first = i;
+  }
+  let nearest = Infinity;
+  for (let j = 0; j < n; j++) {
+    const i = (first + j) % n;
+    if (gaps[i] > nearest + 2 * TOUCH) continue;
     const a = ring[i];
     const b = ring[(i + 1) % n];
     for (let k = 0; k < m; k++) {
@@ -58,6 +76,7 @@ function nearestEdge(ring: Ring, foot: Ring): { edge: number; distance: number }
         }
       }
     }
+    nearest = Math.min(nearest, dist[i]);
   }
   const least = Math.min(...dist);
   let best = -1;

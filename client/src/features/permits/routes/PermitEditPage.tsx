@@ -3,11 +3,13 @@ import { useForm, type FieldErrors, type Path, type PathValue, type Resolver } f
 import { zodResolver } from '@hookform/resolvers/zod';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { useQueryClient } from '@tanstack/react-query';
-import { localProjection, type XY } from '@shared/geometry';
+import { localProjection, type LocalProjection, type XY } from '@shared/geometry';
+import { pointSegment } from '@shared/geometry/planar';
 import {
   checkExcavationOf,
   cumulativeCheck,
   planOutcome,
+  type CheckExcavation,
   type CheckPlanInput,
   type PlantForCheck,
   type Refused,
@@ -18,6 +20,7 @@ import {
   serviceCheckKeys,
   serviceCheckLabels,
   type DigDetails,
+  type LngLat,
   type PermitCheck,
   type PermitCreate,
   type PermitDetail,
@@ -274,28 +277,34 @@ export function Editor(subject: EditorSubject) {
   useEffect(() => {
     if (warmed.current || dragging || !framePlan || !proj || draft.loads.length === 0) return;
     const loads = draft.loads;
-    const [cx, cy] = centreOf(loads[0], proj);
+    const from = centreOf(loads[0], proj);
+    const across = nearestPoint(from, namedForCheck, proj);
     let done = 0;
+    let stopped = false;
     const idle = typeof requestIdleCallback === 'function';
     let handle = 0;
-    const warm = (deadline?: IdleDeadline) => {
-      do {
-        done++;
-        // Around where it stands, up to 3 m away, as a drag takes it: nearer and farther than an
-        // excavation's influence zone, so each path of the frame's check runs.
-        const r = WARM_UP_REACH[done % WARM_UP_REACH.length];
-        const angle = (done * 2 * Math.PI) / 7;
-        const moved = moveLoad(loads[0], [cx + r * Math.cos(angle), cy + r * Math.sin(angle)], proj);
-        try {
-          framePlan([moved, ...loads.slice(1)], new Date());
-        } catch {
-          // A warm-up's result, or its refusal, is dropped.
-        }
-      } while (done < WARM_UP_FRAMES && deadline && deadline.timeRemaining() > 4);
-      if (done < WARM_UP_FRAMES) {
-        handle = idle ? requestIdleCallback(warm) : window.setTimeout(warm, 20);
-        return;
+    const next = (run: (deadline?: IdleDeadline) => void) => {
+      handle = idle ? requestIdleCallback(run) : window.setTimeout(run, 20);
+    };
+    const frame = () => {
+      done++;
+      const moved = moveLoad(loads[0], warmUpPosition(done, from, across), proj);
+      try {
+        framePlan([moved, ...loads.slice(1)], new Date());
+      } catch {
+        // A warm-up's result, or its refusal, is dropped.
       }
+    };
+    const warm = (deadline?: IdleDeadline) => {
+      do frame();
+      while (done < WARM_UP_FRAMES && deadline && deadline.timeRemaining() > 4);
+      if (done < WARM_UP_FRAMES) return next(warm);
+      // The code the browser compiled meanwhile (on other threads) is put in place when the check
+      // next runs: a few more frames a moment later, so that it is not the drag's first frame.
+      window.setTimeout(() => stopped || next(settle), WARM_UP_SETTLE_MS);
+    };
+    const settle = () => {
+      for (let i = 0; i < WARM_UP_SETTLE_FRAMES; i++) frame();
       warmed.current = true;
       try {
         framePlan(loads, new Date()); // the plan keeps the loads as they stand, for the first frame
@@ -304,9 +313,13 @@ export function Editor(subject: EditorSubject) {
       }
       performance.mark?.(DRAG_READY_MARK);
     };
-    handle = idle ? requestIdleCallback(warm) : window.setTimeout(warm, 20);
-    return () => (idle ? cancelIdleCallback(handle) : clearTimeout(handle));
-  }, [framePlan, proj, draft.loads, dragging]);
+    next(warm);
+    return () => {
+      stopped = true;
+      if (idle) cancelIdleCallback(handle);
+      else clearTimeout(handle);
+    };
+  }, [framePlan, namedForCheck, proj, draft.loads, dragging]);
 
   /** The full live check of these loads (with the standoff search). */
   function runLive(loads: PlacedLoad[]): PermitCheck {
@@ -903,9 +916,48 @@ function OffsetField({ label, value, onCommit }: { label: string; value: number;
 const LIVE_CHECK_MEASURE = 'brink:live-check';
 /** Marked once the page has run a drag frame's check WARM_UP_FRAMES times at idle (read by the bench). */
 const DRAG_READY_MARK = 'brink:drag-ready';
-const WARM_UP_FRAMES = 30;
-/** How far (m) each warm-up frame moves the load, in turn. */
+const WARM_UP_FRAMES = 120;
+/** The warm-up's last frames, run this long (ms) after the others. */
+const WARM_UP_SETTLE_MS = 100;
+const WARM_UP_SETTLE_FRAMES = 6;
+/** How far (m) the warm-up's frames around the load move it, in turn. */
 const WARM_UP_REACH = [0.05, 0.5, 1, 2, 3];
+/** Frames of the warm-up's walk from the load across an excavation and back, each way. */
+const WARM_UP_WALK = 20;
+
+/** The point of the excavations' drawn lines (a trench's centre line, a pit's outline) nearest `from`, site-local metres; null without one. */
+function nearestPoint(from: XY, excavations: CheckExcavation[], proj: LocalProjection): XY | null {
+  let best: XY | null = null;
+  let bestD = Infinity;
+  for (const { shape } of excavations) {
+    const line = (shape.kind === 'trench' ? shape.centreLine.coordinates : shape.outline.coordinates[0]).map((p) =>
+      proj.toLocal(p as LngLat),
+    );
+    for (let i = 0; i < line.length; i++) {
+      const [d, x, y] = pointSegment(from, line[i], line[Math.min(i + 1, line.length - 1)]);
+      if (d < bestD) [best, bestD] = [[x, y], d];
+    }
+  }
+  return best;
+}
+
+/**
+ * Where the warm-up's frame `i` puts the load that stands at `from`: every other frame around
+ * where it stands, 5 cm to 3 m away (nearer and farther than an excavation's influence zone), and
+ * the others on a walk from where it stands across the nearest point of an excavation's line
+ * (`across`) to as far beyond and back, so that the frames of a drag across an excavation
+ * (passing, failing, touching it: refused) have all run once the drag starts.
+ */
+function warmUpPosition(i: number, from: XY, across: XY | null): XY {
+  if (across && i % 2 === 1) {
+    const step = ((i - 1) / 2) % (2 * WARM_UP_WALK);
+    const t = step <= WARM_UP_WALK ? (2 * step) / WARM_UP_WALK : (2 * (2 * WARM_UP_WALK - step)) / WARM_UP_WALK;
+    return [from[0] + t * (across[0] - from[0]), from[1] + t * (across[1] - from[1])];
+  }
+  const r = WARM_UP_REACH[i % WARM_UP_REACH.length];
+  const angle = (i * 2 * Math.PI) / 7;
+  return [from[0] + r * Math.cos(angle), from[1] + r * Math.sin(angle)];
+}
 const FULL_CHECK_MEASURE = 'brink:full-check';
 let liveMeasures = 0;
 /** Records one live check's time as a performance measure; the oldest go after 500, so dragging all day keeps nothing growing. */
