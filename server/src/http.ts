@@ -311,12 +311,12 @@ export const siteFromParam = (req: Request) => {
 };
 
 /**
- * Site ids from the query parameter `siteId`; undefined when it is absent or not an id (the query's
- * schema then names it), for a site that is a filter (`optional`).
+ * Site ids from the query parameter `siteId`; undefined when it is absent or not an id (a whole
+ * number from 1 to 2³¹ − 1: the query's schema then names it), for a site that is a filter (`optional`).
  */
 export const siteFromQuery = (req: Request) => {
   const n = Number(req.query.siteId);
-  return req.query.siteId !== undefined && Number.isInteger(n) && n > 0 ? n : undefined;
+  return req.query.siteId !== undefined && Number.isInteger(n) && n > 0 && n <= 2147483647 ? n : undefined;
 };
 
 /**

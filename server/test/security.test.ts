@@ -281,6 +281,14 @@ describe('odd input', () => {
     }
     expect(wrong).toEqual([]);
   });
+
+  it('answers 400 naming the filter for ids of 2³¹ and above in the permit list, never 500', async () => {
+    for (const field of ['siteId', 'excavationId']) {
+      const r = await admin.get(`/api/permits?${field}=2147483648`);
+      expect(r.status).toBe(400);
+      expect(r.body.error.fields[field]).toMatch(/below 2³¹/);
+    }
+  });
 });
 
 describe('permit decisions: the role first, never one\u2019s own permit, a limit on the signing password', () => {

@@ -6,7 +6,7 @@
  * clockwise from north; lengths in m; pressures in kPa; line loads in kN/m; unit weights in kN/m³.
  */
 import { z } from 'zod';
-import type { SiteRole } from './common';
+import { idSchema, type SiteRole } from './common';
 import { surchargeMethods } from './sites';
 import { plantElementSchema } from './plant';
 import { readStored, readStoredOrNull, type Stored } from './stored';
@@ -384,7 +384,7 @@ export const permitSorts = ['number', 'windowStart', 'windowEnd', 'status', 'upd
 export const permitSearchMax = 100;
 
 export const permitListQuerySchema = z.object({
-  siteId: z.coerce.number().int().positive().optional(),
+  siteId: idSchema.optional(),
   view: z.enum(permitViews).default('all'),
   /** One status or several, comma-separated. */
   status: z
@@ -404,7 +404,7 @@ export const permitListQuerySchema = z.object({
       return list as PermitStatus[];
     }),
   kind: z.enum(permitKinds).optional(),
-  excavationId: z.coerce.number().int().positive().optional(),
+  excavationId: idSchema.optional(),
   /** Words to find in the reference, the work, a named excavation's reference or name, or a load's machine or label. */
   q: z.string().trim().max(permitSearchMax, `must be at most ${permitSearchMax} characters`).optional(),
   /** Permits whose window overlaps from..to. */
