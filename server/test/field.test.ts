@@ -257,6 +257,10 @@ describe('concerns', () => {
     const wrongExcavation = await send(people.a.agent, named.id, { excavationId: '999999', note: 'Crack' }, [], key);
     expect(wrongExcavation.status).toBe(400);
     expect(wrongExcavation.body.error.fields).toHaveProperty('excavationId');
+    // An id past PostgreSQL's integer is the same refusal, not a 500.
+    const outOfRange = await send(people.a.agent, named.id, { excavationId: '2147483648', note: 'Crack' }, [], key);
+    expect(outOfRange.status).toBe(400);
+    expect(outOfRange.body.error.fields.excavationId).toMatch(/one of the permit/);
     expect(await count(key)).toBe(0);
   });
 

@@ -20,7 +20,11 @@ export { CONCERN_PHOTOS_MAX } from './concern';
 
 /** The text fields of a concern (multipart form fields, so numbers arrive as text). */
 export const concernFormSchema = z.object({
-  excavationId: z.coerce.number({ message: 'is required' }).int('must be one of the permit’s excavations').positive('is required'),
+  excavationId: z.coerce
+    .number({ message: 'is required' })
+    .int('must be one of the permit’s excavations')
+    .positive('is required')
+    .max(2147483647, 'must be one of the permit’s excavations'),
   note: z
     .string({ message: 'is required' })
     .trim()
