@@ -9,6 +9,7 @@ import { buildProfile, prepareCheck, utilisationOf, type CheckContext } from './
 import { blanketEffect, isBlanket, loadEffect, loadWarnings } from './loads';
 import { NO_STANDOFF_MESSAGE, standoffSolver, type StandoffAnswer } from './standoff';
 import type { CheckRequest, CheckResult, LoadResult, OffsetBand, PlacedLoad, ProfilePoint } from './types';
+import type { SurchargeEffect } from './surcharge';
 
 export * from './types';
 export { prepareCheck } from './check';
@@ -85,11 +86,21 @@ export function solveStandoff(request: CheckRequest, load: PlacedLoad, ctx: Chec
   return standoffSolver(ctx, blankets).solve(load);
 }
 
+const compareIds = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
+
 export function runCheck(request: CheckRequest, options: RunOptions = {}): CheckResult {
   const ctx = prepareCheck(request);
   const { model } = ctx;
   const opts = { method: request.method, restraint: request.excavation.restraint };
-  const effects = request.loads.map((l) => loadEffect(model, opts, l));
+  // The effects are summed (forces, moments, the profile, the standoff search's blankets) in one
+  // order whatever order the loads came in: by id (each id once, requestLoadsSchema), then place.
+  // Floating-point sums in another order can differ in the last bit, and a rounded figure with them.
+  const order = request.loads.map((_, i) => i).sort((a, b) => compareIds(request.loads[a].id, request.loads[b].id) || a - b);
+  const canonical = order.map((i) => request.loads[i]);
+  const effects = canonical.map((l) => loadEffect(model, opts, l));
+  /** Each load's effect by its place in the request. */
+  const effectOf: SurchargeEffect[] = [];
+  order.forEach((i, k) => (effectOf[i] = effects[k]));
   let Fs = 0;
   let Ms = 0;
   for (const e of effects) {
@@ -127,10 +138,10 @@ export function runCheck(request: CheckRequest, options: RunOptions = {}): Check
       ? null
       : standoffSolver(
           ctx,
-          effects.filter((_, i) => isBlanket(request.loads[i])),
+          effects.filter((_, k) => isBlanket(canonical[k])),
         );
   const loads: LoadResult[] = request.loads.map((l, i) => {
-    const e = effects[i];
+    const e = effectOf[i];
     let standoff: number | null = null;
     let failingBands: LoadResult['failingBands'] = [];
     if (solver && !isBlanket(l)) {
