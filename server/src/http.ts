@@ -8,6 +8,7 @@ import { discardUnkept } from './services/uploads';
 import { refusalInReaderUnits } from './services/units';
 import { sql } from 'kysely';
 import { isDatabaseUnavailable } from '@db/database';
+import { isOutOfRange } from './services/pg-errors';
 import { promisify } from 'node:util';
 import { brotliCompress, constants as zlibConstants, gzip as gzipCallback } from 'node:zlib';
 
@@ -545,6 +546,12 @@ export function errorHandler(err: unknown, req: Request, res: Response, next: Ne
   }
   if (err instanceof HttpError) {
     res.status(err.status).json({ error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } });
+    return;
+  }
+  if (isOutOfRange(err)) {
+    // The schemas refuse ids of 2³¹ and more naming the field; this is the net under one they miss.
+    console.error(`[error] ${req.method} ${req.originalUrl} sent a number out of range`, (err as Error).message);
+    res.status(400).json({ error: { code: 'invalid', message: 'A number in the request is too large (record ids are below 2³¹).' } });
     return;
   }
   const e = err as { status?: number; type?: string; code?: string; field?: string; message?: string };

@@ -327,6 +327,37 @@ describe('approving with a standoff', () => {
   });
 });
 
+describe('ids of 2³¹ and above in a body', () => {
+  it('refuses each with 400 naming the field, never 500, and keeps nothing', async () => {
+    const big = 2147483648;
+    const cases: [string, Record<string, unknown>][] = [
+      ['siteId', { siteId: big }],
+      ['excavationIds[0]', { excavationIds: [big] }],
+      ['loads[0].plantItemId', { loads: [{ ...excavatorAt(w, 4), plantItemId: big }] }],
+      ['operatorIds[0]', { operatorIds: [big] }],
+    ];
+    const before = await t.deps.db
+      .selectFrom('permits')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .executeTakeFirstOrThrow();
+    for (const [field, over] of cases) {
+      const r = await w.agents.supervisor.post('/api/permits').send({ ...permitBody(w), ...over });
+      expect([field, r.status]).toEqual([field, 400]);
+      expect(r.body.error.fields[field]).toMatch(/below 2³¹/);
+    }
+    const after = await t.deps.db
+      .selectFrom('permits')
+      .select((eb) => eb.fn.countAll<number>().as('n'))
+      .executeTakeFirstOrThrow();
+    expect(Number(after.n)).toBe(Number(before.n));
+    const invitation = await w.agents.admin
+      .post('/api/invitations')
+      .send({ email: `${randomUUID()}@example.test`, name: 'Big', siteId: big, role: 'operator' });
+    expect(invitation.status).toBe(400);
+    expect(invitation.body.error.fields.siteId).toMatch(/below 2³¹/);
+  });
+});
+
 describe('lists', () => {
   it('shows awaiting my review, my requests, live now and all with filters and sorting', async () => {
     const a = await createPermit(w, { description: 'List test A' });

@@ -282,6 +282,17 @@ describe('odd input', () => {
     expect(wrong).toEqual([]);
   });
 
+  it('answers 400, not 500, when PostgreSQL finds a number out of range that no schema stopped', async () => {
+    const app = express();
+    app.get('/probe', () => {
+      throw Object.assign(new Error('value "2147483648" is out of range for type integer'), { code: '22003' });
+    });
+    app.use(errorHandler);
+    const r = await request(app).get('/probe');
+    expect(r.status).toBe(400);
+    expect(r.body.error.message).toMatch(/too large/);
+  });
+
   it('answers 400 naming the filter for ids of 2³¹ and above in the permit list, never 500', async () => {
     for (const field of ['siteId', 'excavationId']) {
       const r = await admin.get(`/api/permits?${field}=2147483648`);

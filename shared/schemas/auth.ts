@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { emailSchema, nameSchema, passwordSchema, siteRoleSchema } from './common';
+import { bodyIdSchema, emailSchema, nameSchema, passwordSchema, siteRoleSchema } from './common';
 import { unitSystemSchema } from './sites';
 
 export const signInSchema = z.object({
@@ -19,7 +19,7 @@ export const invitationSchema = z
     email: emailSchema,
     name: nameSchema,
     isAdmin: z.boolean().default(false),
-    siteId: z.number().int().positive().nullable().default(null),
+    siteId: bodyIdSchema.nullable().default(null),
     role: siteRoleSchema.nullable().default(null),
   })
   .refine((v) => (v.siteId === null) === (v.role === null), {

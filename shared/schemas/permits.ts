@@ -6,7 +6,7 @@
  * clockwise from north; lengths in m; pressures in kPa; line loads in kN/m; unit weights in kN/m³.
  */
 import { z } from 'zod';
-import { idSchema, type SiteRole } from './common';
+import { bodyIdSchema, idSchema, type SiteRole } from './common';
 import { surchargeMethods } from './sites';
 import { plantElementSchema } from './plant';
 import { readStored, readStoredOrNull, type Stored } from './stored';
@@ -173,7 +173,7 @@ export const placedLoadSchema = z.discriminatedUnion('kind', [
     id: loadId,
     kind: z.literal('plant'),
     label,
-    plantItemId: z.number().int().positive(),
+    plantItemId: bodyIdSchema,
     position: lngLatSchema,
     /** Bearing of the machine's forward axis, degrees clockwise from north. */
     rotation: z.number().min(0, 'must be 0° to 360°').max(360, 'must be 0° to 360°').default(0),
@@ -271,7 +271,7 @@ export type DigDetails = z.infer<typeof digDetailsSchema>;
 // Requests
 
 const when = z.iso.datetime({ offset: true, message: 'must be a date and time (ISO 8601)' });
-const ids = (most: number) => z.array(z.number().int().positive()).max(most, `must list at most ${most}`);
+const ids = (most: number) => z.array(bodyIdSchema).max(most, `must list at most ${most}`);
 
 /** What a request says; the create, update and check-proposal schemas are all drawn from it. */
 const content = z.object({
@@ -306,7 +306,7 @@ function uniqueLoadIds(v: { loads?: { id: string }[] }, ctx: z.RefinementCtx): v
 
 export const permitCreateSchema = content
   .extend({
-    siteId: z.number().int().positive(),
+    siteId: bodyIdSchema,
     kind: z.enum(permitKinds),
     excavationIds: content.shape.excavationIds.min(1, 'must name at least one excavation: choose the excavation the work is beside'),
     loads: content.shape.loads.default([]),
@@ -321,7 +321,7 @@ export type PermitCreateInput = z.input<typeof permitCreateSchema>;
 /** A change to a draft: any of the request's fields, with the version the person was looking at. */
 export const permitUpdateSchema = content
   .partial()
-  .extend({ version: z.number().int().positive() })
+  .extend({ version: z.number().int().positive().max(2147483647) })
   .superRefine(windowOrder)
   .superRefine(uniqueLoadIds);
 export type PermitUpdate = z.infer<typeof permitUpdateSchema>;
@@ -337,7 +337,7 @@ export type CheckProposal = z.infer<typeof checkProposalSchema>;
 export const transitionSchema = z
   .object({
     action: z.enum(permitActions, { message: `must be one of ${permitActions.join(', ')}` }),
-    version: z.number({ message: 'is required: the version of the permit you are looking at' }).int().positive(),
+    version: z.number({ message: 'is required: the version of the permit you are looking at' }).int().positive().max(2147483647),
     reason: z.string().trim().max(4000, 'must be at most 4000 characters').optional(),
     /** Approve with a standoff (m) from the excavation edge for every load of the permit. */
     standoff: z.number().min(0, 'must be at least 0 m').max(100, 'must be at most 100 m').optional(),

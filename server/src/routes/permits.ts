@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import type { Response } from 'express';
-import { idSchema, type SiteRole } from '@shared/schemas/common';
+import { bodyIdSchema, idSchema, type SiteRole } from '@shared/schemas/common';
 import {
   attachmentFormSchema,
   checkProposalSchema,
@@ -161,9 +161,13 @@ export function registerPermitRoutes(api: Api): void {
         kind: 'site',
         roles: ['supervisor'],
         siteId: (req) => {
-          const n = Number((req.body as { siteId?: unknown } | undefined)?.siteId);
-          if (!Number.isInteger(n) || n <= 0) throw badRequest('Please name the site.', { siteId: 'is required' });
-          return n;
+          const sent = (req.body as { siteId?: unknown } | undefined)?.siteId;
+          const id = bodyIdSchema.safeParse(sent);
+          if (!id.success) {
+            const why = sent === undefined || sent === null ? 'is required' : id.error.issues[0].message;
+            throw badRequest('Please name the site.', { siteId: why });
+          }
+          return id.data;
         },
       },
       body: permitCreateSchema,
