@@ -1,6 +1,6 @@
 import express, { type NextFunction, type Request, type RequestHandler, type Response, type Router } from 'express';
 import { z, type ZodType } from 'zod';
-import type { SiteRole } from '@shared/schemas/common';
+import { idSchema, type SiteRole } from '@shared/schemas/common';
 import type { Deps } from './deps';
 import { bodyTypeProblem, crossSite } from './csrf';
 import { Throttle } from './services/throttle';
@@ -305,20 +305,14 @@ export const siteOfRow =
     return Number.isInteger(n) && n > 0 ? { table, id: n } : null;
   };
 
-/** Site ids from the path parameter `siteId`. */
-export const siteFromParam = (req: Request) => {
-  const n = Number(req.params.siteId);
-  return Number.isInteger(n) && n > 0 ? n : null;
-};
+/** Site ids from the path parameter `siteId` (null: not an id). */
+export const siteFromParam = (req: Request) => idSchema.safeParse(req.params.siteId).data ?? null;
 
 /**
- * Site ids from the query parameter `siteId`; undefined when it is absent or not an id (a whole
- * number from 1 to 2³¹ − 1: the query's schema then names it), for a site that is a filter (`optional`).
+ * Site ids from the query parameter `siteId`; undefined when it is absent or not an id (the query's
+ * schema then names it), for a site that is a filter (`optional`).
  */
-export const siteFromQuery = (req: Request) => {
-  const n = Number(req.query.siteId);
-  return req.query.siteId !== undefined && Number.isInteger(n) && n > 0 && n <= 2147483647 ? n : undefined;
-};
+export const siteFromQuery = (req: Request) => (req.query.siteId === undefined ? undefined : idSchema.safeParse(req.query.siteId).data);
 
 /**
  * One place where every API route is declared: authorisation, validation and the OpenAPI document

@@ -14,18 +14,14 @@ export const roleLabels: Record<SiteRole, string> = {
   operator: 'Plant operator',
 };
 
-/** A record id: a positive whole number that fits PostgreSQL's integer (ids of 2³¹ and above are refused with 400, not 500). */
-export const idSchema = z.coerce
-  .number({ error: 'must be a record id (a whole number)' })
-  .int('must be a record id (a whole number)')
-  .positive('must be a record id (a whole number)')
-  .max(2147483647, 'must be a record id (a whole number below 2³¹)');
+/** The largest record id: PostgreSQL's integer (an id of 2³¹ or more is refused with 400, not 500). */
+export const RECORD_ID_MAX = 2147483647;
+const notAnId = 'must be a record id (a whole number)';
+const tooLarge = 'must be a record id (a whole number below 2³¹)';
+/** A record id in a path or a query (text): a positive whole number that fits PostgreSQL's integer. */
+export const idSchema = z.coerce.number({ error: notAnId }).int(notAnId).positive(notAnId).max(RECORD_ID_MAX, tooLarge);
 /** A record id in a JSON body: as idSchema, but a number, not text. */
-export const bodyIdSchema = z
-  .number({ error: 'must be a record id (a whole number)' })
-  .int('must be a record id (a whole number)')
-  .positive('must be a record id (a whole number)')
-  .max(2147483647, 'must be a record id (a whole number below 2³¹)');
+export const bodyIdSchema = z.number({ error: notAnId }).int(notAnId).positive(notAnId).max(RECORD_ID_MAX, tooLarge);
 export const emailSchema = z
   .email('must be an e-mail address')
   .max(254)

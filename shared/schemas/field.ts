@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { permitSummaryAnswer } from './permits';
-import { excavationStates } from './common';
+import { excavationStates, RECORD_ID_MAX } from './common';
 import { excavationKinds, lineAnswer, multiPolygonAnswer, polygonAnswer } from './excavations';
 import { concernNoteReason } from './concern';
 
@@ -24,7 +24,7 @@ export const concernFormSchema = z.object({
     .number({ message: 'is required' })
     .int('must be one of the permit’s excavations')
     .positive('is required')
-    .max(2147483647, 'must be one of the permit’s excavations'),
+    .max(RECORD_ID_MAX, 'must be one of the permit’s excavations'),
   note: z
     .string({ message: 'is required' })
     .trim()

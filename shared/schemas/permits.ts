@@ -6,7 +6,7 @@
  * clockwise from north; lengths in m; pressures in kPa; line loads in kN/m; unit weights in kN/m³.
  */
 import { z } from 'zod';
-import { bodyIdSchema, idSchema, type SiteRole } from './common';
+import { bodyIdSchema, idSchema, RECORD_ID_MAX, type SiteRole } from './common';
 import { surchargeMethods } from './sites';
 import { plantElementSchema } from './plant';
 import { readStored, readStoredOrNull, type Stored } from './stored';
@@ -321,7 +321,7 @@ export type PermitCreateInput = z.input<typeof permitCreateSchema>;
 /** A change to a draft: any of the request's fields, with the version the person was looking at. */
 export const permitUpdateSchema = content
   .partial()
-  .extend({ version: z.number().int().positive().max(2147483647) })
+  .extend({ version: z.number().int().positive().max(RECORD_ID_MAX) })
   .superRefine(windowOrder)
   .superRefine(uniqueLoadIds);
 export type PermitUpdate = z.infer<typeof permitUpdateSchema>;
@@ -337,7 +337,7 @@ export type CheckProposal = z.infer<typeof checkProposalSchema>;
 export const transitionSchema = z
   .object({
     action: z.enum(permitActions, { message: `must be one of ${permitActions.join(', ')}` }),
-    version: z.number({ message: 'is required: the version of the permit you are looking at' }).int().positive().max(2147483647),
+    version: z.number({ message: 'is required: the version of the permit you are looking at' }).int().positive().max(RECORD_ID_MAX),
     reason: z.string().trim().max(4000, 'must be at most 4000 characters').optional(),
     /** Approve with a standoff (m) from the excavation edge for every load of the permit. */
     standoff: z.number().min(0, 'must be at least 0 m').max(100, 'must be at most 100 m').optional(),

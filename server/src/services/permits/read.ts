@@ -189,13 +189,7 @@ export async function listPermits(
     .orderBy('p.id', q.order)
     .limit(q.limit + 1)
     .execute();
-  const total = !q.total
-    ? undefined
-    : rows.length
-      ? Number((rows[0] as { total?: number }).total)
-      : q.cursor
-        ? (await count.executeTakeFirstOrThrow()).n
-        : 0;
+  const total = !q.total ? undefined : rows.length ? Number(rows[0].total) : q.cursor ? (await count.executeTakeFirstOrThrow()).n : 0;
   const { page, next } = pageOf(rows, q.limit, (r) => r.sort_key, scope);
   return { permits: page.map(summaryOut), next, ...(total === undefined ? {} : { total }) };
 }
