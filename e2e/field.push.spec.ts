@@ -58,8 +58,19 @@ async function openPhoneView(page: Page, context: BrowserContext): Promise<void>
   await page.reload();
 }
 
-/** Delivers `data` as a push message to the origin's service worker, as the browser does for one from its push service. */
-async function deliverPush(page: Page, origin: string, data: string): Promise<void> {
+/**
+ * Delivers `data` as a push message to the origin's service worker, as the browser does for one from its
+ * push service, and waits until the worker has handled it: the browser's own record of the push
+ * (DevTools' background-service log) says it completed. Answers that record, each line an event.
+ *
+ * Why wait: reading the notifications while the worker is still showing one can lose it. Chromium's
+ * getNotifications() deletes the stored notifications it does not find on display at that moment
+ * (PlatformNotificationContextImpl, "remove notifications that are not actually on display anymore"),
+ * and one written between those two reads is such a notification. Polling at once failed so now and then
+ * on a busy machine (once in CI; once in 48 phone tests here, under load), the push itself "completed:
+ * Success" and no notification left to find.
+ */
+async function deliverPush(page: Page, origin: string, data: string): Promise<string[]> {
   const cdp = await page.context().newCDPSession(page);
   const registrationId = new Promise<string>((resolve) =>
     cdp.on('ServiceWorker.workerRegistrationUpdated', ({ registrations }) => {
@@ -67,9 +78,20 @@ async function deliverPush(page: Page, origin: string, data: string): Promise<vo
       if (ours) resolve(ours.registrationId);
     }),
   );
+  const record: string[] = [];
+  const completed = new Promise<void>((resolve) =>
+    cdp.on('BackgroundService.backgroundServiceEventReceived', ({ backgroundServiceEvent: e }) => {
+      record.push(`${e.eventName}: ${e.eventMetadata.map((m) => `${m.key}=${m.value}`).join(', ')}`);
+      if (e.eventName === 'Push event completed') resolve();
+    }),
+  );
+  await cdp.send('BackgroundService.setRecording', { shouldRecord: true, service: 'pushMessaging' });
+  await cdp.send('BackgroundService.startObserving', { service: 'pushMessaging' });
   await cdp.send('ServiceWorker.enable');
   await cdp.send('ServiceWorker.deliverPushMessage', { origin, registrationId: await registrationId, data });
+  await completed;
   await cdp.detach();
+  return record;
 }
 
 /** The service worker running now (Chromium stops an idle one; a push starts it again as a new worker). */
@@ -143,17 +165,16 @@ test('the operator is told on the phone when a permit that names them is suspend
   // Handed to the phone's service worker as the push it is, through the browser's own push path
   // (DevTools' deliverPushMessage: a trusted push event, which starts the worker again should the
   // browser have stopped it while idle): shown as a notification…
-  await deliverPush(page, origin, payload);
+  const handled = await deliverPush(page, origin, payload);
+  expect(handled.at(-1), handled.join('\n')).toBe('Push event completed: Status=Success');
   const shown = () =>
     page.evaluate(async (t) => {
       const list = await (await navigator.serviceWorker.ready).getNotifications();
       return list.filter((n) => n.title === t).map((n) => ({ body: n.body, data: n.data as { path: string } }));
     }, title);
-  await expect
-    .poll(shown)
-    .toEqual([
-      { body: 'Stop work under this permit now and move clear of the excavation.', data: { path: `/field/permits/${permit.id}` } },
-    ]);
+  expect(await shown()).toEqual([
+    { body: 'Stop work under this permit now and move clear of the excavation.', data: { path: `/field/permits/${permit.id}` } },
+  ]);
 
   // …and tapping it opens the permit on the phone (the click is handed to the worker running now).
   await (
