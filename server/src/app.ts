@@ -22,6 +22,7 @@ import { registerSiteRoutes } from './routes/sites';
 import { registerSystemRoutes } from './routes/system';
 import { registerUploadRoutes } from './routes/uploads';
 import { registerPermitRoutes } from './routes/permits';
+import { registerDashboardRoutes } from './routes/dashboard';
 import { registerInspectionRoutes } from './routes/inspections';
 import { registerPushRoutes } from './routes/push';
 import { pageShell } from './shell';
@@ -139,6 +140,7 @@ export function createApp(deps: Deps, opts: { sessionPool?: pg.Pool; log?: boole
   registerExcavationRoutes(api);
   registerSitePlanRoutes(api);
   registerInspectionRoutes(api);
+  registerDashboardRoutes(api);
   registerPushRoutes(api);
   app.use('/api', api.router);
   app.use('/api', (_req, _res, next) => next(new HttpError(404, 'not_found', 'No such API route.')));

@@ -1,9 +1,9 @@
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type request from 'supertest';
-import { addPerson, makeOrganisation, signedIn, startTestApp, type TestApp, demoOrganisationId } from './helpers';
+import { addPerson, makeOrganisation, signedIn, startTestApp, type TestApp, demoOrganisationId, unique } from './helpers';
 import { checklist } from '@shared/schemas/inspections';
-import { addTrench, createPermit, excavatorAt, hoursFrom, makeWorld, newTrench, type PermitWorld } from './permits-fixtures';
+import { act, addTrench, createPermit, excavatorAt, hoursFrom, makeWorld, newTrench, type PermitWorld } from './permits-fixtures';
 
 // Issue 16 §1: long lists come a page at a time (keyset: ordered by the sort, then the id), each
 // answer naming the cursor of the next page; following the cursors gives every row once, in the
@@ -132,6 +132,72 @@ describe('permit list pages', () => {
   it('finds a load by a label with quotes in it (the search then skips the indexed first step)', async () => {
     const r = await w.agents.supervisor.get(`/api/permits?siteId=${w.siteId}&q=${encodeURIComponent(`"${tag}" loader`)}`).expect(200);
     expect(r.body.permits.map((p: { id: number }) => p.id)).toEqual([quoted.id]);
+  });
+});
+
+// Issue 16 §3: a dashboard view asks once (GET /api/sites/:siteId/dashboard) for what its panels
+// show; each part is what the permit list and the inspection states answer when asked alone.
+describe('the dashboard in one request', () => {
+  const lists = {
+    review: 'view=review&sort=updated&order=asc&limit=20&total=true',
+    live: 'view=live&sort=windowStart&order=asc&limit=5&total=true',
+    mine: 'view=mine&status=returned,draft,live,suspended,approved&sort=updated&order=desc',
+  };
+  /** The dashboard and the reads it stands for, until they agree (other files add permits to the same site meanwhile). */
+  async function compare(agent: request.Agent, parts: (keyof typeof lists)[]) {
+    let dashboard: Record<string, unknown> = {};
+    let alone: Record<string, unknown> = {};
+    for (let attempt = 0; attempt < 5; attempt++) {
+      const [d, states, ...pages] = await Promise.all([
+        agent.get(`/api/sites/${w.siteId}/dashboard`).expect(200),
+        agent.get(`/api/sites/${w.siteId}/inspections/states`).expect(200),
+        ...parts.map((p) => agent.get(`/api/permits?siteId=${w.siteId}&${lists[p]}`).expect(200)),
+      ]);
+      dashboard = d.body;
+      alone = Object.fromEntries([...parts.map((p, i) => [p, pages[i].body]), ['inspections', states.body]]);
+      if (JSON.stringify(dashboard) === JSON.stringify(alone)) break;
+    }
+    expect(Object.keys(dashboard).sort()).toEqual([...parts, 'inspections'].sort());
+    expect(dashboard).toEqual(alone);
+  }
+
+  it("gives a coordinator the permits awaiting their review, live now, and this shift's inspections", async () => {
+    const sent = await createPermit(w);
+    expect((await act(w.agents.supervisor, sent.id, { action: 'submit', version: sent.version })).status).toBe(200);
+    await compare(w.agents.coordinator, ['review', 'live']);
+    const d = await w.agents.coordinator.get(`/api/sites/${w.siteId}/dashboard`).expect(200);
+    expect(d.body.review.total).toBeGreaterThanOrEqual(1);
+    expect(d.body.review.permits.every((p: { status: string }) => p.status === 'submitted')).toBe(true);
+  });
+
+  it('gives a supervisor their own permits by what needs them, live now, and the inspections', async () => {
+    await compare(w.agents.supervisor, ['mine', 'live']);
+  });
+
+  it('gives an operator the inspections only where the site gives them the duty, and an administrator of no role nothing', async () => {
+    const inspector = unique('dash-op-inspects');
+    const plain = unique('dash-op');
+    const admin = unique('dash-admin');
+    await addPerson(t.deps, {
+      email: inspector,
+      name: 'Ines Inspecting (test operator)',
+      member: { siteId: w.siteId, role: 'operator', canInspect: true },
+    });
+    await addPerson(t.deps, { email: plain, name: 'Olu Plain (test operator)', member: { siteId: w.siteId, role: 'operator' } });
+    await addPerson(t.deps, { email: admin, name: 'Ada Roleless (test administrator)', isAdmin: true });
+    const withDuty = await (await signedIn(t.app, inspector)).get(`/api/sites/${w.siteId}/dashboard`).expect(200);
+    expect(Object.keys(withDuty.body)).toEqual(['inspections']);
+    expect(withDuty.body.inspections.excavations.length).toBeGreaterThan(0);
+    const without = await (await signedIn(t.app, plain)).get(`/api/sites/${w.siteId}/dashboard`).expect(200);
+    expect(without.body).toEqual({});
+    const roleless = await (await signedIn(t.app, admin)).get(`/api/sites/${w.siteId}/dashboard`).expect(200);
+    expect(roleless.body).toEqual({});
+  });
+
+  it("refuses another site's member (403) and a site id out of range, naming it (400)", async () => {
+    await w.agents.outsider.get(`/api/sites/${w.siteId}/dashboard`).expect(403);
+    const r = await w.agents.coordinator.get('/api/sites/2147483648/dashboard').expect(400);
+    expect(JSON.stringify(r.body)).toContain('siteId');
   });
 });
 

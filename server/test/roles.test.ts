@@ -122,6 +122,7 @@ export const matrix: Record<string, Row> = {
   'GET /api/excavations/:id/inspections': { allow: ['admin', ...siteMembers] },
   'GET /api/excavations/:id/inspections.csv': { allow: ['admin', ...siteMembers] },
   'GET /api/sites/:siteId/inspections/states': { allow: ['admin', ...siteMembers] },
+  'GET /api/sites/:siteId/dashboard': { allow: ['admin', ...siteMembers] },
   'GET /api/sites/:siteId/inspections/overdue': { allow: ['admin', ...siteMembers] },
   'GET /api/sites/:siteId/inspections/report.pdf': { allow: ['admin', ...siteMembers] },
   'GET /api/sites/:siteId/shifts': { allow: ['admin', ...siteMembers] },

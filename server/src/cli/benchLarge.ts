@@ -83,12 +83,8 @@ export async function runLargeBench(opts: { requests?: number; seconds?: number 
     const reads: Read[] = [
       {
         label: "dashboard (coordinator: awaiting review, live now, this shift's inspections)",
-        // As the page asks (DashboardPermits.tsx): the permits each panel shows, with the count of all.
-        paths: [
-          `/api/permits?siteId=${siteId}&view=review&sort=updated&order=asc&limit=20&total=true`,
-          `/api/permits?siteId=${siteId}&view=live&sort=windowStart&order=asc&limit=5&total=true`,
-          `/api/sites/${siteId}/inspections/states`,
-        ],
+        // As the page asks (DashboardPage.tsx): every panel's part in one request.
+        paths: [`/api/sites/${siteId}/dashboard`],
         cookie: coordinator,
       },
       { label: "site map (the site's 200 excavations)", paths: [`/api/sites/${siteId}/excavations`], cookie: coordinator },

@@ -1,28 +1,45 @@
 import { Link } from 'react-router-dom';
 import { roleLabels } from '@shared/schemas/common';
+import type { DashboardAnswer, DashboardList } from '@shared/schemas/dashboard';
 import { Panel } from '@client/components/Page';
 import { Loading } from '@client/components/Status';
 import { usePeopleCount } from '../api/dashboard';
 import { ComingPanel, RoleSection } from './RoleSection';
+import type { DashboardPart } from '@client/lib/dashboard';
 import { useDashboardSlots } from '../slots';
+
+/** The dashboard's one answer as the page has it: there, still coming, or failed. */
+type DashboardState = DashboardPart<DashboardAnswer>;
 
 interface SiteOfPanel {
   siteId: number;
   timeZone: string;
   canInspect: boolean;
+  dashboard: DashboardState;
+}
+
+/** One part of the answer for its panel: an answer without that part (it should not happen) is an error, not a wait. */
+function partOf<K extends keyof DashboardAnswer>(d: DashboardState, key: K): DashboardPart<NonNullable<DashboardAnswer[K]>> {
+  const data = d.data?.[key] ?? undefined;
+  const missing = d.data && !data ? new Error('This panel was not in the dashboard’s answer. Reload the page.') : null;
+  return { data: data as NonNullable<DashboardAnswer[K]> | undefined, error: d.error ?? missing, retry: d.retry };
 }
 
 /** The inspection panel from its feature, or the "not yet connected" panel when the app gave none. */
 function InspectionsDue({ site, fallback }: { site: SiteOfPanel; fallback: string }) {
   const { inspectionsDue: Due } = useDashboardSlots();
-  return Due ? <Due {...site} /> : <ComingPanel title="Excavations due for inspection" lists={fallback} />;
+  return Due ? (
+    <Due siteId={site.siteId} timeZone={site.timeZone} canInspect={site.canInspect} states={partOf(site.dashboard, 'inspections')} />
+  ) : (
+    <ComingPanel title="Excavations due for inspection" lists={fallback} />
+  );
 }
 
 /** A permit list from the permits feature, or the "not yet connected" panel when the app gave none. */
-function Permits({ site, view, title, intro }: { site: SiteOfPanel; view: 'review' | 'mine' | 'live'; title: string; intro: string }) {
+function Permits({ site, view, title, intro }: { site: SiteOfPanel; view: DashboardList; title: string; intro: string }) {
   const { permits: List } = useDashboardSlots();
   return List ? (
-    <List siteId={site.siteId} view={view} intro={intro} timeZone={site.timeZone} />
+    <List siteId={site.siteId} view={view} intro={intro} timeZone={site.timeZone} list={partOf(site.dashboard, view)} />
   ) : (
     <ComingPanel title={title} lists={intro} />
   );

@@ -3,6 +3,7 @@ import { ButtonLink } from '@client/components/Button';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
 import { canInspectOnSite, parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
+import { useSiteDashboard } from '../api/dashboard';
 import { AdministratorPanels, CoordinatorPanels, OperatorPanels, SupervisorPanels } from '../components/RolePanels';
 
 /** The current site's dashboard: one section for my role there, and one more if I am an administrator. */
@@ -10,17 +11,21 @@ export function DashboardPage() {
   const siteId = parseId(useParams().siteId);
   const me = useMe();
   const sites = useMySites();
+  const site = sites.data?.find((s) => s.id === siteId);
+  const role = me.data && site ? roleOnSite(me.data, site.id) : null;
+  // Supervisors and coordinators may always inspect; operators where the site gives them the duty.
+  const canInspect = role === 'supervisor' || role === 'coordinator' || (!!me.data && !!site && canInspectOnSite(me.data, site.id));
+  // What every panel shows, in one request; asked for only where my role there has a panel that needs it.
+  const dashboard = useSiteDashboard(site && (role === 'supervisor' || role === 'coordinator' || canInspect) ? site.id : null);
   if (me.isPending || sites.isPending) return <Loading what="Loading the dashboard" />;
   if (sites.isError) return <LoadError error={sites.error} retry={() => sites.refetch()} />;
-  const site = sites.data.find((s) => s.id === siteId);
   if (!me.data || !site) return null; // the site scope above has already answered this case
 
-  const role = roleOnSite(me.data, site.id);
-  // Supervisors and coordinators may always inspect; operators where the site gives them the duty.
   const panelSite = {
     siteId: site.id,
     timeZone: site.timezone,
-    canInspect: role === 'supervisor' || role === 'coordinator' || canInspectOnSite(me.data, site.id),
+    canInspect,
+    dashboard: { data: dashboard.data, error: dashboard.error, retry: () => void dashboard.refetch() },
   };
   return (
     <Page

@@ -3,22 +3,33 @@ import { formatSiteTime } from '@shared/time/shifts';
 import { Panel } from '@client/components/Page';
 import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
 import { LoadError, Loading } from '@client/components/Status';
-import { useInspectionStates } from '@client/lib/inspectionStates';
 import { ButtonLink } from '@client/components/Button';
+import type { DashboardPart } from '@client/lib/dashboard';
+import type { InspectionStatesAnswer } from '@shared/schemas/inspections';
 
 /**
  * "Excavations due for inspection" on the dashboards: the open excavations without a safe
  * inspection this shift, each with its state and, for those who may inspect, a button to do it.
  */
-export function DuePanel({ siteId, timeZone, canInspect }: { siteId: number; timeZone: string; canInspect: boolean }) {
-  const states = useInspectionStates(siteId);
+export function DuePanel({
+  siteId,
+  timeZone,
+  canInspect,
+  states,
+}: {
+  siteId: number;
+  timeZone: string;
+  canInspect: boolean;
+  /** The site's inspection states as the dashboard's one request answered them. */
+  states: DashboardPart<InspectionStatesAnswer>;
+}) {
   const waiting = states.data?.excavations.filter((e) => e.state !== 'ok') ?? [];
   return (
     <Panel title="Excavations due for inspection" level={3}>
-      {states.isPending ? (
+      {states.error ? (
+        <LoadError error={states.error} retry={states.retry} />
+      ) : !states.data ? (
         <Loading what="Checking the inspections" />
-      ) : states.isError ? (
-        <LoadError error={states.error} retry={() => states.refetch()} />
       ) : (
         <>
           <p className="text-ink-soft">

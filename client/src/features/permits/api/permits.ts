@@ -35,14 +35,6 @@ function permitPage(query: Record<string, string>, cursor: string | null, signal
   return api.get<z.output<typeof permitsAnswer>>(`/api/permits?${qs}`, signal);
 }
 
-/** The first page of a permit list (the dashboards' short lists), with `total` when the query asks `total: 'true'`. */
-export function usePermitList(query: Record<string, string>) {
-  return useQuery({
-    queryKey: permitKeys.list(query),
-    queryFn: ({ signal }) => permitPage(query, null, signal),
-  });
-}
-
 /** A permit list a page at a time, following the server's `next` cursor (`fetchNextPage`). */
 export function usePermitPages(query: Record<string, string>) {
   return useInfiniteQuery({

@@ -1,6 +1,7 @@
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { cleanup, screen } from '@testing-library/react';
-import { fakeApi, renderAt } from '@client/test/render';
+import type { PermitSummary } from '@shared/schemas/permits';
+import { renderAt } from '@client/test/render';
 import { DashboardPermits } from './DashboardPermits';
 
 afterEach(() => {
@@ -8,7 +9,7 @@ afterEach(() => {
   vi.unstubAllGlobals();
 });
 
-const permit = (id: number) => ({
+const permit = (id: number): PermitSummary => ({
   id,
   siteId: 3,
   siteName: 'Invented Wharf',
@@ -29,30 +30,45 @@ const permit = (id: number) => ({
 });
 const wait = { timeout: 5000 };
 
+type PermitPage = { permits: PermitSummary[]; next: string | null; total?: number };
+const part = <T,>(data: T | undefined, error: Error | null = null) => ({ data, error, retry: vi.fn() });
+
 describe('DashboardPermits', () => {
-  it('asks only for the permits it shows, with the count of all, and links to all of them', async () => {
-    const calls = fakeApi({
-      'GET /api/permits?siteId=3&view=live&sort=windowStart&order=asc&limit=5&total=true': {
-        status: 200,
-        body: { permits: [1, 2, 3, 4, 5].map(permit), next: 'more', total: 312 },
-      },
-    });
-    renderAt(<DashboardPermits siteId={3} view="live" intro="Every live permit on this site." timeZone="Europe/London" />);
+  it('shows the permits the dashboard was given, with a link to all of them when there are more', async () => {
+    renderAt(
+      <DashboardPermits
+        siteId={3}
+        view="live"
+        intro="Every live permit on this site."
+        timeZone="Europe/London"
+        list={part({ permits: [1, 2, 3, 4, 5].map(permit), next: 'more', total: 312 })}
+      />,
+    );
     expect(await screen.findByRole('link', { name: 'All 312' }, wait)).toBeTruthy();
     expect(screen.getAllByRole('listitem')).toHaveLength(5);
-    expect(calls.map((c) => c.key)).toEqual(['GET /api/permits?siteId=3&view=live&sort=windowStart&order=asc&limit=5&total=true']);
   });
 
   it('says "Open the list" when every permit is shown', async () => {
-    fakeApi({
-      'GET /api/permits?siteId=3&view=review&sort=updated&order=asc&limit=20&total=true': {
-        status: 200,
-        body: { permits: [permit(7)], next: null, total: 1 },
-      },
-    });
-    renderAt(<DashboardPermits siteId={3} view="review" intro="Requests sent to you." timeZone="Europe/London" />);
+    renderAt(
+      <DashboardPermits
+        siteId={3}
+        view="review"
+        intro="Requests sent to you."
+        timeZone="Europe/London"
+        list={part({ permits: [permit(7)], next: null, total: 1 })}
+      />,
+    );
     expect(await screen.findByRole('link', { name: /TR-007/ }, wait)).toBeTruthy();
     expect(screen.getByRole('link', { name: 'Open the list' })).toBeTruthy();
     expect(screen.queryByRole('link', { name: /^All/ })).toBeNull();
+  });
+
+  it('says the list could not be loaded, and asks again when told to', async () => {
+    const list = part<PermitPage>(undefined, new Error('The connection was lost.'));
+    renderAt(<DashboardPermits siteId={3} view="live" intro="Every live permit on this site." timeZone="Europe/London" list={list} />);
+    expect(await screen.findByRole('alert', undefined, wait)).toBeTruthy();
+    expect(screen.queryByRole('listitem')).toBeNull();
+    screen.getByRole('button', { name: 'Try again' }).click();
+    expect(list.retry).toHaveBeenCalledOnce();
   });
 });

@@ -1,66 +1,47 @@
 import { Link } from 'react-router-dom';
-import { permitViewLabels, type PermitSummary, type PermitView } from '@shared/schemas/permits';
+import { permitViewLabels, type PermitSummary } from '@shared/schemas/permits';
+import { dashboardLists, type DashboardAnswer, type DashboardList } from '@shared/schemas/dashboard';
+import type { DashboardPart } from '@client/lib/dashboard';
 import { Panel } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
 import { formatSiteTime } from '@shared/time/shifts';
-import { usePermitList } from '../api/permits';
-import { needHints, needStatuses, needTitles, needsFirst } from './needsFirst';
+import { needHints, needTitles, needsFirst } from './needsFirst';
 import { StatusLabel } from './StatusLabel';
 
+/** How many of a supervisor's own permits each group shows before its link to all of them. */
 const SHOWN = 5;
-/** Requests awaiting a decision are a coordinator's queue: each one is shown (up to this many), so none is a page away. */
-const SHOWN_FOR_REVIEW = 20;
+
+type PermitPage = NonNullable<DashboardAnswer['live']>;
+interface PanelProps {
+  siteId: number;
+  intro: string;
+  timeZone: string;
+  /** The list as the dashboard's one request answered it (dashboardLists in shared/schemas/dashboard.ts says what was asked). */
+  list: DashboardPart<PermitPage>;
+}
 
 /**
  * A dashboard panel of one permit list of the site (awaiting my review, my requests, live now),
  * the first few with their status and window, and a link to the whole list.
  */
-export function DashboardPermits({
-  siteId,
-  view,
-  intro,
-  timeZone,
-}: {
-  siteId: number;
-  view: Exclude<PermitView, 'all'>;
-  intro: string;
-  timeZone: string;
-}) {
-  if (view === 'mine') return <NeedsFirst siteId={siteId} timeZone={timeZone} />;
-  return <PermitPanel siteId={siteId} view={view} intro={intro} timeZone={timeZone} />;
+export function DashboardPermits({ view, ...props }: PanelProps & { view: DashboardList }) {
+  if (view === 'mine') return <NeedsFirst {...props} />;
+  return <PermitPanel view={view} {...props} />;
 }
 
-function PermitPanel({
-  siteId,
-  view,
-  intro,
-  timeZone,
-}: {
-  siteId: number;
-  view: Exclude<PermitView, 'all' | 'mine'>;
-  intro: string;
-  timeZone: string;
-}) {
+function PermitPanel({ siteId, view, intro, timeZone, list }: PanelProps & { view: Exclude<DashboardList, 'mine'> }) {
   // Awaiting review: oldest first; live now by when their window opens. Only the permits shown are
   // asked for, with the count of all of them (a big site has hundreds live).
-  const shown = view === 'review' ? SHOWN_FOR_REVIEW : SHOWN;
-  const list = usePermitList({
-    siteId: String(siteId),
-    view,
-    sort: view === 'review' ? 'updated' : 'windowStart',
-    order: 'asc',
-    limit: String(shown),
-    total: 'true',
-  });
+  const shown = dashboardLists[view].limit;
   const title = permitViewLabels[view];
   const total = list.data?.total ?? list.data?.permits.length ?? 0;
   return (
     <Panel title={title} level={3}>
       <p className="text-ink-soft">{intro}</p>
-      {list.isPending ? (
+      {list.error ? (
+        <LoadError error={list.error} retry={list.retry} />
+      ) : !list.data ? (
         <Loading what={`Loading ${title.toLowerCase()}`} />
-      ) : list.isError ? (
-        <LoadError error={list.error} />
       ) : list.data.permits.length === 0 ? (
         <p>None at the moment.</p>
       ) : (
@@ -81,15 +62,14 @@ function PermitPanel({
  * A supervisor's own permits by what needs them first: returned for changes, drafts, then those
  * working today (needsFirst); what needs nothing from them stays in the full list.
  */
-function NeedsFirst({ siteId, timeZone }: { siteId: number; timeZone: string }) {
-  const list = usePermitList({ siteId: String(siteId), view: 'mine', status: needStatuses.join(','), sort: 'updated', order: 'desc' });
+function NeedsFirst({ siteId, timeZone, list }: PanelProps) {
   const groups = list.data ? needsFirst(list.data.permits, new Date(), timeZone) : [];
   return (
     <Panel title="What needs you first" level={3}>
-      {list.isPending ? (
+      {list.error ? (
+        <LoadError error={list.error} retry={list.retry} />
+      ) : !list.data ? (
         <Loading what="Loading your permits" />
-      ) : list.isError ? (
-        <LoadError error={list.error} />
       ) : groups.length === 0 ? (
         <p>Nothing needs you now: no request returned, no draft, nothing working today.</p>
       ) : (

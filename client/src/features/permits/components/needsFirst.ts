@@ -1,4 +1,4 @@
-import type { PermitStatus, PermitSummary } from '@shared/schemas/permits';
+import type { PermitSummary } from '@shared/schemas/permits';
 import { wallClock } from '@shared/time/shifts';
 
 /** Why a supervisor's own permit comes first on the dashboard, most pressing first. */
@@ -16,9 +16,6 @@ export const needHints: Record<Need, string> = {
   draft: 'Finish them and send them for review.',
   today: 'Live, suspended or approved with a window open today: brief the operators, hand back when done.',
 };
-
-/** The statuses the supervisor's panel asks the server for (the others need nothing from them). */
-export const needStatuses: PermitStatus[] = ['returned', 'draft', 'live', 'suspended', 'approved'];
 
 function siteDate(at: Date, timeZone: string): string {
   const w = wallClock(at, timeZone);

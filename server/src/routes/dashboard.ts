@@ -1,0 +1,44 @@
+import { z } from 'zod';
+import { idSchema } from '@shared/schemas/common';
+import { dashboardAnswer, dashboardLists, type DashboardAnswer } from '@shared/schemas/dashboard';
+import { Api, siteFromParam } from '../http';
+import { inspectionStates } from '../services/inspections';
+import { listPermits } from '../services/permits/read';
+
+const siteParams = z.object({ siteId: idSchema });
+
+/**
+ * A site's dashboard in one request: the panels a view shows were three requests, each paying for
+ * a session read and a guard of its own. The guard here reads the person and their role once; the
+ * lists and the inspection states are then read side by side.
+ */
+export function registerDashboardRoutes(api: Api): void {
+  const { db } = api.deps;
+  api.route(
+    {
+      method: 'get',
+      path: '/api/sites/:siteId/dashboard',
+      summary:
+        "What my dashboard of the site shows, as my role there has it: permits awaiting my review, my own permits, live now (first few, with the count of all) and the open excavations' inspection states this shift",
+      tag: 'Sites',
+      access: { kind: 'site', roles: 'any', admin: true, siteId: siteFromParam },
+      params: siteParams,
+      response: dashboardAnswer,
+    },
+    async ({ user, site, deps }) => {
+      const sites = [site.id];
+      const list = (which: keyof typeof dashboardLists) => listPermits(db, user, { ...dashboardLists[which], siteId: site.id }, sites);
+      const role = site.role;
+      // Supervisors and coordinators may always inspect; operators where the site gives them the duty.
+      const inspects = role === 'supervisor' || role === 'coordinator' || (role === 'operator' && site.canInspect);
+      const [review, mine, live, inspections] = await Promise.all([
+        role === 'coordinator' ? list('review') : undefined,
+        role === 'supervisor' ? list('mine') : undefined,
+        role === 'coordinator' || role === 'supervisor' ? list('live') : undefined,
+        inspects ? inspectionStates(db, site.id, deps.now()).then(({ clock: _c, ...states }) => states) : undefined,
+      ]);
+      const answer: DashboardAnswer = { review, mine, live, inspections };
+      return answer;
+    },
+  );
+}
