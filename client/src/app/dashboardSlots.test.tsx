@@ -4,6 +4,7 @@ import { cleanup, render, screen } from '@testing-library/react';
 import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { createQueryClient } from '@client/lib/queryClient';
 import { fakeApi } from '@client/test/render';
+import { permitSummary } from '@client/test/permits';
 import { DashboardSlotsContext } from '@client/features/dashboard/slots';
 import { DashboardPage } from '@client/features/dashboard/routes/DashboardPage';
 import { dashboardSlots } from './dashboardSlots';
@@ -36,25 +37,6 @@ const me = (role: 'coordinator' | 'operator', canInspect = false) => ({
     memberships: [{ siteId: 3, siteName: site.name, role, canInspect }],
   },
 });
-const permit = (id: number, status: 'submitted' | 'live') => ({
-  id,
-  siteId: 3,
-  siteName: site.name,
-  number: `TR-${String(id).padStart(3, '0')}`,
-  kind: 'load',
-  status,
-  statusLabel: status,
-  version: 1,
-  revision: 1,
-  description: `Crane pad ${id}`,
-  windowStart: '2026-12-03T07:00:00.000Z',
-  windowEnd: '2026-12-03T17:00:00.000Z',
-  excavationIds: [1],
-  requestedBy: { id: 2, name: 'Sam Supervisor' },
-  utilisation: 0.5,
-  passes: true,
-  updatedAt: '2026-12-03T06:00:00.000Z',
-});
 const shift = {
   name: 'Day shift',
   start: '2026-12-03T07:00:00.000Z',
@@ -85,8 +67,8 @@ describe('the site dashboard', () => {
       'GET /api/sites/3/dashboard': {
         status: 200,
         body: {
-          review: { permits: [permit(7, 'submitted')], next: null, total: 1 },
-          live: { permits: [1, 2, 3, 4, 5].map((id) => permit(id, 'live')), next: 'more', total: 41 },
+          review: { permits: [permitSummary(7, 'submitted')], next: null, total: 1 },
+          live: { permits: [1, 2, 3, 4, 5].map((id) => permitSummary(id, 'live')), next: 'more', total: 41 },
           inspections: {
             shift,
             excavations: [{ excavationId: 12, reference: 'TR-12', name: 'Outfall trench', state: 'overdue', lastInspection: null }],

@@ -2,6 +2,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import { cleanup, screen } from '@testing-library/react';
 import type { PermitSummary } from '@shared/schemas/permits';
 import { renderAt } from '@client/test/render';
+import { permitSummary } from '@client/test/permits';
 import { DashboardPermits } from './DashboardPermits';
 
 afterEach(() => {
@@ -9,55 +10,23 @@ afterEach(() => {
   vi.unstubAllGlobals();
 });
 
-const permit = (id: number): PermitSummary => ({
-  id,
-  siteId: 3,
-  siteName: 'Invented Wharf',
-  number: `TR-${String(id).padStart(3, '0')}`,
-  kind: 'load',
-  status: 'live',
-  statusLabel: 'Live',
-  version: 1,
-  revision: 1,
-  description: `Crane pad ${id}`,
-  windowStart: '2026-12-03T07:00:00.000Z',
-  windowEnd: '2026-12-03T17:00:00.000Z',
-  excavationIds: [1],
-  requestedBy: { id: 2, name: 'Sam Supervisor' },
-  utilisation: 0.5,
-  passes: true,
-  updatedAt: '2026-12-03T06:00:00.000Z',
-});
+const permit = (id: number) => permitSummary(id);
 const wait = { timeout: 5000 };
 
 type PermitPage = { permits: PermitSummary[]; next: string | null; total?: number };
 const part = <T,>(data: T | undefined, error: Error | null = null) => ({ data, error, retry: vi.fn() });
+const renderPanel = (view: 'live' | 'review', list: ReturnType<typeof part<PermitPage>>) =>
+  renderAt(<DashboardPermits siteId={3} view={view} intro="Permits of the site." timeZone="Europe/London" list={list} />);
 
 describe('DashboardPermits', () => {
   it('shows the permits the dashboard was given, with a link to all of them when there are more', async () => {
-    renderAt(
-      <DashboardPermits
-        siteId={3}
-        view="live"
-        intro="Every live permit on this site."
-        timeZone="Europe/London"
-        list={part({ permits: [1, 2, 3, 4, 5].map(permit), next: 'more', total: 312 })}
-      />,
-    );
+    renderPanel('live', part({ permits: [1, 2, 3, 4, 5].map(permit), next: 'more', total: 312 }));
     expect(await screen.findByRole('link', { name: 'All 312' }, wait)).toBeTruthy();
     expect(screen.getAllByRole('listitem')).toHaveLength(5);
   });
 
   it('says "Open the list" when every permit is shown', async () => {
-    renderAt(
-      <DashboardPermits
-        siteId={3}
-        view="review"
-        intro="Requests sent to you."
-        timeZone="Europe/London"
-        list={part({ permits: [permit(7)], next: null, total: 1 })}
-      />,
-    );
+    renderPanel('review', part({ permits: [permit(7)], next: null, total: 1 }));
     expect(await screen.findByRole('link', { name: /TR-007/ }, wait)).toBeTruthy();
     expect(screen.getByRole('link', { name: 'Open the list' })).toBeTruthy();
     expect(screen.queryByRole('link', { name: /^All/ })).toBeNull();
@@ -65,7 +34,7 @@ describe('DashboardPermits', () => {
 
   it('says the list could not be loaded, and asks again when told to', async () => {
     const list = part<PermitPage>(undefined, new Error('The connection was lost.'));
-    renderAt(<DashboardPermits siteId={3} view="live" intro="Every live permit on this site." timeZone="Europe/London" list={list} />);
+    renderPanel('live', list);
     expect(await screen.findByRole('alert', undefined, wait)).toBeTruthy();
     expect(screen.queryByRole('listitem')).toBeNull();
     screen.getByRole('button', { name: 'Try again' }).click();
