@@ -148,13 +148,16 @@ describe('the dashboard in one request', () => {
     let dashboard: Record<string, unknown> = {};
     let alone: Record<string, unknown> = {};
     for (let attempt = 0; attempt < 5; attempt++) {
-      const [d, states, ...pages] = await Promise.all([
+      const [d, states, waiting, ...pages] = await Promise.all([
         agent.get(`/api/sites/${w.siteId}/dashboard`).expect(200),
         agent.get(`/api/sites/${w.siteId}/inspections/states`).expect(200),
+        agent.get(`/api/sites/${w.siteId}/inspections/overdue`).expect(200),
         ...parts.map((p) => agent.get(`/api/permits?siteId=${w.siteId}&${lists[p]}`).expect(200)),
       ]);
       dashboard = d.body;
-      alone = Object.fromEntries([...parts.map((p, i) => [p, pages[i].body]), ['inspections', states.body]]);
+      // The inspections: the open excavations still waiting (as the overdue list has them) and how many are open.
+      const inspections = { ...waiting.body, open: states.body.excavations.length };
+      alone = Object.fromEntries([...parts.map((p, i) => [p, pages[i].body]), ['inspections', inspections]]);
       if (JSON.stringify(dashboard) === JSON.stringify(alone)) break;
     }
     expect(Object.keys(dashboard).sort()).toEqual([...parts, 'inspections'].sort());
@@ -187,7 +190,8 @@ describe('the dashboard in one request', () => {
     await addPerson(t.deps, { email: admin, name: 'Ada Roleless (test administrator)', isAdmin: true });
     const withDuty = await (await signedIn(t.app, inspector)).get(`/api/sites/${w.siteId}/dashboard`).expect(200);
     expect(Object.keys(withDuty.body)).toEqual(['inspections']);
-    expect(withDuty.body.inspections.excavations.length).toBeGreaterThan(0);
+    expect(withDuty.body.inspections.open).toBeGreaterThan(0);
+    expect(withDuty.body.inspections.excavations.every((e: { state: string }) => e.state !== 'ok')).toBe(true);
     const without = await (await signedIn(t.app, plain)).get(`/api/sites/${w.siteId}/dashboard`).expect(200);
     expect(without.body).toEqual({});
     const roleless = await (await signedIn(t.app, admin)).get(`/api/sites/${w.siteId}/dashboard`).expect(200);

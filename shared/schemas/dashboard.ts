@@ -28,6 +28,7 @@ export const dashboardAnswer = z.object({
   review: permitsAnswer.optional(),
   live: permitsAnswer.optional(),
   mine: permitsAnswer.optional(),
-  inspections: inspectionStatesAnswer.optional(),
+  /** This shift, the open excavations still waiting for a safe inspection (due, overdue or found not safe), and how many are open. */
+  inspections: inspectionStatesAnswer.extend({ open: z.number().int() }).optional(),
 });
 export type DashboardAnswer = z.output<typeof dashboardAnswer>;

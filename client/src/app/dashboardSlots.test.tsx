@@ -72,6 +72,7 @@ describe('the site dashboard', () => {
           inspections: {
             shift,
             excavations: [{ excavationId: 12, reference: 'TR-12', name: 'Outfall trench', state: 'overdue', lastInspection: null }],
+            open: 3,
           },
         },
       },
@@ -83,6 +84,17 @@ describe('the site dashboard', () => {
     expect(calls.map((c) => c.key).filter((k) => !['GET /api/auth/me', 'GET /api/sites'].includes(k))).toEqual([
       'GET /api/sites/3/dashboard',
     ]);
+  });
+
+  it('says every open excavation is safe when none is waiting, and names none', async () => {
+    fakeApi({
+      'GET /api/auth/me': { status: 200, body: me('operator', true) },
+      'GET /api/sites': { status: 200, body: { sites: [site] } },
+      'GET /api/sites/3/dashboard': { status: 200, body: { inspections: { shift, excavations: [], open: 4 } } },
+    });
+    renderDashboard();
+    expect(await screen.findByText('Every open excavation has a safe inspection this shift.', undefined, wait)).toBeTruthy();
+    expect(screen.queryByRole('link', { name: /^Inspect/ })).toBeNull();
   });
 
   it('an operator without the inspection duty has no panel that needs it, and it is not asked for', async () => {
@@ -104,7 +116,7 @@ describe('the site dashboard', () => {
       'GET /api/sites/3/dashboard': () =>
         ++answers === 1
           ? { status: 503, body: { error: { code: 'database_unavailable', message: 'Brink cannot reach its database just now.' } } }
-          : { status: 200, body: { inspections: { shift, excavations: [] } } },
+          : { status: 200, body: { inspections: { shift, excavations: [], open: 0 } } },
     });
     renderDashboard({ retry: false });
     (await screen.findByRole('button', { name: 'Try again' }, wait)).click();

@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
 import { dashboardAnswer, dashboardLists, type DashboardAnswer } from '@shared/schemas/dashboard';
 import { Api, siteFromParam } from '../http';
-import { inspectionStates } from '../services/inspections';
+import { inspectionStates, needingInspection } from '../services/inspections';
 import { listPermits } from '../services/permits/read';
 
 const siteParams = z.object({ siteId: idSchema });
@@ -35,7 +35,14 @@ export function registerDashboardRoutes(api: Api): void {
         role === 'coordinator' ? list('review') : undefined,
         role === 'supervisor' ? list('mine') : undefined,
         role === 'coordinator' || role === 'supervisor' ? list('live') : undefined,
-        inspects ? inspectionStates(db, site.id, deps.now()).then(({ clock: _c, ...states }) => states) : undefined,
+        // The panel lists only the excavations still waiting (a big site has hundreds open), and says how many are open.
+        inspects
+          ? inspectionStates(db, site.id, deps.now()).then(({ shift, excavations }) => ({
+              shift,
+              excavations: needingInspection(excavations),
+              open: excavations.length,
+            }))
+          : undefined,
       ]);
       const answer: DashboardAnswer = { review, mine, live, inspections };
       return answer;

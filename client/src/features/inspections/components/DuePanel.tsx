@@ -5,7 +5,7 @@ import { InspectionStateBadge } from '@client/components/InspectionStateBadge';
 import { LoadError, Loading } from '@client/components/Status';
 import { ButtonLink } from '@client/components/Button';
 import type { DashboardPart } from '@client/lib/dashboard';
-import type { InspectionStatesAnswer } from '@shared/schemas/inspections';
+import type { DashboardAnswer } from '@shared/schemas/dashboard';
 
 /**
  * "Excavations due for inspection" on the dashboards: the open excavations without a safe
@@ -20,10 +20,9 @@ export function DuePanel({
   siteId: number;
   timeZone: string;
   canInspect: boolean;
-  /** The site's inspection states as the dashboard's one request answered them. */
-  states: DashboardPart<InspectionStatesAnswer>;
+  /** The open excavations still waiting, and how many are open, as the dashboard's one request answered them. */
+  states: DashboardPart<NonNullable<DashboardAnswer['inspections']>>;
 }) {
-  const waiting = states.data?.excavations.filter((e) => e.state !== 'ok') ?? [];
   return (
     <Panel title="Excavations due for inspection" level={3}>
       {states.error ? (
@@ -36,13 +35,13 @@ export function DuePanel({
             {states.data.shift.name} from {formatSiteTime(new Date(states.data.shift.start), timeZone)}; overdue from{' '}
             {formatSiteTime(new Date(states.data.shift.overdueFrom), timeZone, { clock: true })}.
           </p>
-          {states.data.excavations.length === 0 ? (
+          {states.data.open === 0 ? (
             <p>No excavation is open.</p>
-          ) : waiting.length === 0 ? (
+          ) : states.data.excavations.length === 0 ? (
             <p>Every open excavation has a safe inspection this shift.</p>
           ) : (
             <ul className="flex flex-col gap-3">
-              {waiting.map((e) => (
+              {states.data.excavations.map((e) => (
                 <li key={e.excavationId} className="flex flex-wrap items-center justify-between gap-2">
                   <span className="flex flex-wrap items-center gap-2">
                     <strong>{e.reference}</strong> {e.name} <InspectionStateBadge state={e.state} />
