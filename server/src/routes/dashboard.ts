@@ -19,7 +19,7 @@ export function registerDashboardRoutes(api: Api): void {
       method: 'get',
       path: '/api/sites/:siteId/dashboard',
       summary:
-        "What my dashboard of the site shows, as my role there has it: permits awaiting my review, my own permits, live now (first few, with the count of all) and the open excavations' inspection states this shift",
+        'What my dashboard of the site shows, as my role there has it: permits awaiting my review, my own permits, live now (first few, with the count of all) and the open excavations still waiting for a safe inspection this shift, with how many are open',
       tag: 'Sites',
       access: { kind: 'site', roles: 'any', admin: true, siteId: siteFromParam },
       params: siteParams,
