@@ -244,6 +244,9 @@ export function PlacementMap({
                   draggable
                   title={`Move ${name}`}
                   icon={moveIcon}
+                  // Above its Turn handle: zoomed out, the two overlap (8 m apart), and the load can still be
+                  // moved; the hint below the map says to zoom in to place it precisely.
+                  zIndexOffset={1000}
                   eventHandlers={handleDrag((to) => onMove?.(load.id, to))}
                 />
               ) : null}
