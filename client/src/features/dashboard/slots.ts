@@ -3,7 +3,7 @@ import type { DashboardAnswer, DashboardList } from '@shared/schemas/dashboard';
 import type { DashboardPart } from '@client/lib/dashboard';
 
 /**
- * Panels that other features give the dashboard. The app fills them in (app/App.tsx), so the
+ * Panels that other features give the dashboard. The app fills them in (app/dashboardSlots.tsx), so the
  * dashboard does not import other features; a slot left empty shows its "not yet connected" panel.
  * The dashboard asks for what every panel shows in one request (GET /api/sites/:siteId/dashboard)
  * and hands each panel its part.
