@@ -1,4 +1,5 @@
-import { Kysely, PostgresDialect, type ColumnType, type Generated } from 'kysely';
+import { createHash } from 'node:crypto';
+import { Kysely, PostgresDialect, sql, type ColumnType, type Generated } from 'kysely';
 import pg from 'pg';
 // The names of roles, statuses and states are declared once, in shared/ (types only: db/ loads none
 // of our code at run time). server/test/db-checks.test.ts compares the CHECK lists with them.
@@ -454,7 +455,41 @@ pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number(v));
 export function createPool(connectionString: string, max = 10, opts: { name?: string; connectTimeoutMs?: number } = {}): pg.Pool {
   const pool = new pg.Pool({ connectionString, max, connectionTimeoutMillis: opts.connectTimeoutMs ?? 5000 });
   handlePoolErrors(pool, opts.name ?? 'db');
+  pool.on('connect', runMarkedPrepared);
   return pool;
+}
+
+/**
+ * The mark of a statement that runs prepared: `select /* prepared *\/ …`, from `.modifyFront(PREPARED)`
+ * on a Kysely select or written so in `sql`. PostgreSQL then parses and plans it once per connection
+ * (after five runs it keeps one generic plan when that is no worse) instead of on every call: the
+ * check's one read took 1.7 ms a call planned afresh and 0.5 ms prepared (demo site, one connection,
+ * 300 calls). Mark only a statement whose text does not vary with its values (a list as
+ * `= any($n)`, never `in (…)`): each connection keeps every text it has prepared.
+ */
+export const PREPARED = sql.raw('/* prepared */');
+const PREPARED_TEXT = 'select /* prepared */ ';
+/** The texts this process has named; past the bound a marked statement runs unnamed, as any other. */
+const preparedNames = new Map<string, string>();
+const PREPARED_TEXTS_MAX = 64;
+export const preparedTextCount = () => preparedNames.size;
+
+function preparedName(text: string): string | undefined {
+  let name = preparedNames.get(text);
+  if (name === undefined && preparedNames.size < PREPARED_TEXTS_MAX) {
+    name = `brink_${createHash('sha1').update(text).digest('hex').slice(0, 20)}`;
+    preparedNames.set(text, name);
+  }
+  return name;
+}
+
+/** Runs a client's marked statements as named (prepared) ones; every other call is left as it was. */
+function runMarkedPrepared(client: pg.PoolClient): void {
+  const query = client.query.bind(client) as (...args: unknown[]) => unknown;
+  client.query = ((text: unknown, values?: unknown, ...rest: unknown[]) => {
+    const name = typeof text === 'string' && text.startsWith(PREPARED_TEXT) ? preparedName(text) : undefined;
+    return name ? query({ name, text, values }, ...rest) : query(text, values, ...rest);
+  }) as typeof client.query;
 }
 
 let connectionLosses = 0;

@@ -7,7 +7,7 @@ import { Throttle } from './services/throttle';
 import { discardUnkept } from './services/uploads';
 import { refusalInReaderUnits } from './services/units';
 import { sql } from 'kysely';
-import { isDatabaseUnavailable } from '@db/database';
+import { isDatabaseUnavailable, PREPARED } from '@db/database';
 import { isOutOfRange } from './services/pg-errors';
 import { promisify } from 'node:util';
 import { brotliCompress, constants as zlibConstants, gzip as gzipCallback } from 'node:zlib';
@@ -502,8 +502,7 @@ async function authorise(access: Access, req: Request, deps: Deps): Promise<Site
     site_id: number | null;
     role: SiteRole | null;
     can_inspect: boolean | null;
-  }>`
-    select u.id, u.email, u.name, u.is_admin, u.active, u.organisation_id, s.id as site_id, m.role, m.can_inspect
+  }>`select ${PREPARED} u.id, u.email, u.name, u.is_admin, u.active, u.organisation_id, s.id as site_id, m.role, m.can_inspect
     from users u
     left join sites s on s.id = ${siteExpr} and s.organisation_id = u.organisation_id
     left join site_members m on m.site_id = s.id and m.user_id = u.id

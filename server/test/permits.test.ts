@@ -4,6 +4,7 @@ import { permitActions, permitStatuses } from '@shared/schemas/permits';
 import { allowedTransitions, needsReason, roleFor, signedActions } from './expected-transitions';
 import { DEMO_PASSWORD, demo, demoSiteId, startTestApp, type TestApp } from './helpers';
 import { transition } from '../src/services/permits/machine';
+import { preparedTextCount } from '@db/database';
 import { checkUnchecked } from '../src/services/permits/check';
 import { withCurrentRevision } from '../src/services/permits/read';
 import {
@@ -234,6 +235,30 @@ describe('the cumulative check', () => {
     expect(aloneEx.counted).toEqual([]);
     expect(ex.result.utilisation).toBeGreaterThan(aloneEx.result.utilisation);
     expect(ex.result.forces.surcharge).toBeGreaterThan(aloneEx.result.forces.surcharge);
+  });
+
+  it('reads what it checks with statements whose text does not change with the permit (each prepared once per connection)', async () => {
+    await newTrench(w);
+    const beside = await trenchBeside(w, 6);
+    const p = await createPermit(w, { loads: [excavatorAt(w, 0.5)] });
+    const first = await w.agents.supervisor.post(`/api/permits/${p.id}/check`).send({});
+    expect(first.status).toBe(200);
+    const texts = preparedTextCount();
+    expect(texts).toBeGreaterThan(0);
+    // Two excavations named, two loads, another window: the same statements, so nothing more to prepare.
+    const now = t.deps.now();
+    const second = excavatorAt(w, 0.5, 'exc-2'); // moved about 7 m east of the first, below
+    if (second.kind !== 'plant') throw new Error('the excavator is a machine');
+    const more = await w.agents.supervisor.post(`/api/permits/${p.id}/check`).send({
+      excavationIds: [w.trenchId, beside.id],
+      loads: [excavatorAt(w, 0.5), { ...second, position: [second.position[0] + 0.0001, second.position[1]] }],
+      windowStart: new Date(now.getTime() + 48 * 3600_000).toISOString(),
+      windowEnd: new Date(now.getTime() + 50 * 3600_000).toISOString(),
+    });
+    expect(more.status).toBe(200);
+    expect(more.body.check.excavations).toHaveLength(2);
+    expect(preparedTextCount()).toBe(texts);
+    await newTrench(w);
   });
 
   it('gives red close to the trench with a standoff, and a pass at the standoff', async () => {

@@ -1,6 +1,6 @@
 import { sql } from 'kysely';
 import { jsonArrayFrom, jsonObjectFrom } from 'kysely/helpers/postgres';
-import type { Db } from '@db/database';
+import { PREPARED, type Db } from '@db/database';
 import type { Stored } from '@shared/schemas/stored';
 import { runCheck } from '@shared/engineering';
 import {
@@ -187,6 +187,7 @@ function otherPermitOf(r: {
  * stored ground outlines: only the columns the check reads, in one query.
  */
 function checkExcavationQuery(db: Db, siteId: number, named: number[]) {
+  // `= any` rather than `in (…)`: one text whatever the count, so the check's read stays prepared (PREPARED).
   return db
     .selectFrom('excavations')
     .select([
@@ -208,7 +209,7 @@ function checkExcavationQuery(db: Db, siteId: number, named: number[]) {
       'restraint',
     ])
     .where('site_id', '=', siteId)
-    .where((eb) => (named.length ? eb.or([eb('state', '=', 'open'), eb('id', 'in', named)]) : eb('state', '=', 'open')))
+    .where((eb) => eb.or([eb('state', '=', 'open'), sql<boolean>`id = any(${sql.val(named)}::int[])`]))
     .orderBy('reference');
 }
 
@@ -311,13 +312,14 @@ export async function runPermitCheck(db: Db, s: CheckSubject, now: Date): Promis
           .where('organisation_id', '=', (eb) => eb.selectFrom('sites').select('organisation_id').where('id', '=', s.siteId))
           .where((eb) =>
             eb.or([
-              eb('id', 'in', ownIds.length ? ownIds : [0]),
+              sql<boolean>`id = any(${sql.val(ownIds)}::int[])`,
               sql<boolean>`id in (select (l->>'plantItemId')::int from (${othersQuery}) o, jsonb_array_elements(o.loads) l where l->>'kind' = 'plant')`,
             ]),
           ),
       ).as('plant'),
       jsonObjectFrom(db.selectFrom('sites').select(['latitude', 'longitude', 'minimum_clearance']).where('id', '=', s.siteId)).as('site'),
     ])
+    .modifyFront(PREPARED)
     .executeTakeFirstOrThrow();
   const site = read.site;
   if (!site) throw notFound('That site');
@@ -392,6 +394,7 @@ async function subjectOf(db: Db, permitId: number): Promise<{ subject: CheckSubj
       'r.method',
       'r.plant_snapshot',
     ])
+    .modifyFront(PREPARED)
     .where('p.id', '=', permitId)
     .executeTakeFirst();
   if (!r) throw notFound('That permit');
