@@ -147,8 +147,13 @@ export interface FormatOptions {
   bare?: boolean;
 }
 
-const grouped = (value: number, places: number) =>
-  value.toLocaleString('en-US', { minimumFractionDigits: places, maximumFractionDigits: places });
+/** One formatter per number of places, made once: `toLocaleString` with options builds a new one on every call. */
+const formatters = new Map<number, Intl.NumberFormat>();
+const grouped = (value: number, places: number) => {
+  let f = formatters.get(places);
+  if (!f) formatters.set(places, (f = new Intl.NumberFormat('en-US', { minimumFractionDigits: places, maximumFractionDigits: places })));
+  return f.format(value);
+};
 
 /**
  * A figure as the person reads it: `2.50 m`, `8.3 ft`, `8 ft 3 in`, `20.0 kPa`, `418 psf`,
@@ -391,7 +396,6 @@ function limitRounding(before: string): Rounding {
  */
 export function localizeWords(text: string, system: UnitSystem): string {
   if (system === 'metric') return text;
-  const fig = (v: number, places: number) => v.toLocaleString('en-US', { maximumFractionDigits: places, minimumFractionDigits: places });
   const NUM = String.raw`-?\d{1,3}(?:,\d{3})+(?:\.\d+)?|-?\d+(?:\.\d+)?`;
   const UNIT = String.raw`kPa\/m|kPa|kN\/m³|kN\/m|kN|km|m|t`;
   // `between 0.3 and 6 m`: the unit of the second figure is the first's too.
@@ -405,7 +409,7 @@ export function localizeWords(text: string, system: UnitSystem): string {
       const v = Number(num.replace(/,/g, ''));
       const side = limitRounding(whole.slice(0, at));
       const us = (q: Quantity, step: number, places: number, label: string, scale = 1) =>
-        `${fig(roundTo(inSystem(q, v, 'us') * scale, step, side), places)} ${label}`;
+        `${grouped(roundTo(inSystem(q, v, 'us') * scale, step, side), places)} ${label}`;
       switch (unit) {
         case 'm':
           return us('length', 0.01, 2, 'ft');
