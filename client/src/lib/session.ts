@@ -2,6 +2,7 @@ import { useQuery, type QueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type { Me, signedInAnswer } from '@shared/schemas/auth';
 import type { SiteRole } from '@shared/schemas/common';
+import { mayInspect } from '@shared/inspectionDuty';
 import type { sitesAnswer } from '@shared/schemas/sites';
 import { api, isApiError } from './api';
 
@@ -69,8 +70,9 @@ export function roleOnSite(me: Me, siteId: number): SiteRole | null {
   return me.memberships.find((m) => m.siteId === siteId)?.role ?? null;
 }
 
-export function canInspectOnSite(me: Me, siteId: number): boolean {
-  return me.memberships.some((m) => m.siteId === siteId && m.canInspect);
+/** Whether I may record an inspection on the site (`mayInspect`, shared/schemas/common.ts). */
+export function mayInspectOn(me: Me | null | undefined, siteId: number): boolean {
+  return mayInspect(me?.memberships.find((m) => m.siteId === siteId));
 }
 
 const storageKey = (userId: number) => `brink.currentSite.${userId}`;

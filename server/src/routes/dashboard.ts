@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
+import { mayInspect } from '@shared/inspectionDuty';
 import { dashboardAnswer, dashboardLists, type DashboardAnswer } from '@shared/schemas/dashboard';
 import { Api, siteFromParam } from '../http';
 import { inspectionStates, needingInspection } from '../services/inspections';
@@ -29,8 +30,7 @@ export function registerDashboardRoutes(api: Api): void {
       const sites = [site.id];
       const list = (which: keyof typeof dashboardLists) => listPermits(db, user, { ...dashboardLists[which], siteId: site.id }, sites);
       const role = site.role;
-      // Supervisors and coordinators may always inspect; operators where the site gives them the duty.
-      const inspects = role === 'supervisor' || role === 'coordinator' || (role === 'operator' && site.canInspect);
+      const inspects = mayInspect(site);
       const [review, mine, live, inspections] = await Promise.all([
         role === 'coordinator' ? list('review') : undefined,
         role === 'supervisor' ? list('mine') : undefined,

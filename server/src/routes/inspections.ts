@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { idSchema } from '@shared/schemas/common';
+import { mayInspect } from '@shared/inspectionDuty';
 import {
   MAX_PHOTOS,
   answerLabels,
@@ -60,7 +61,7 @@ export function registerInspectionRoutes(api: Api): void {
         kind: 'site',
         roles: ['supervisor', 'coordinator', 'operator'],
         siteId: excavationSite,
-        allow: (m) => m.role !== 'operator' || m.canInspect,
+        allow: mayInspect,
       },
       params: excavationParams,
       before: [receiveFiles(['photos'], limits.image, MAX_PHOTOS)],

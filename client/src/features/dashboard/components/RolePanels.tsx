@@ -20,7 +20,7 @@ interface SiteOfPanel {
 
 /** One part of the answer for its panel: an answer without that part (it should not happen) is an error, not a wait. */
 function partOf<K extends keyof DashboardAnswer>(d: DashboardState, key: K): DashboardPart<NonNullable<DashboardAnswer[K]>> {
-  const data = d.data?.[key] ?? undefined;
+  const data = d.data?.[key];
   const missing = d.data && !data ? new Error('This panel was not in the dashboard’s answer. Reload the page.') : null;
   return { data: data as NonNullable<DashboardAnswer[K]> | undefined, error: d.error ?? missing, retry: d.retry };
 }

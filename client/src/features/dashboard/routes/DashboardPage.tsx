@@ -2,7 +2,7 @@ import { useParams } from 'react-router-dom';
 import { ButtonLink } from '@client/components/Button';
 import { Page } from '@client/components/Page';
 import { LoadError, Loading } from '@client/components/Status';
-import { canInspectOnSite, parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
+import { mayInspectOn, parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
 import { useSiteDashboard } from '../api/dashboard';
 import { AdministratorPanels, CoordinatorPanels, OperatorPanels, SupervisorPanels } from '../components/RolePanels';
 
@@ -13,8 +13,7 @@ export function DashboardPage() {
   const sites = useMySites();
   const site = sites.data?.find((s) => s.id === siteId);
   const role = me.data && site ? roleOnSite(me.data, site.id) : null;
-  // Supervisors and coordinators may always inspect; operators where the site gives them the duty.
-  const canInspect = role === 'supervisor' || role === 'coordinator' || (!!me.data && !!site && canInspectOnSite(me.data, site.id));
+  const canInspect = !!site && mayInspectOn(me.data, site.id);
   // What every panel shows, in one request; asked for only where my role there has a panel that needs it.
   const dashboard = useSiteDashboard(site && (role === 'supervisor' || role === 'coordinator' || canInspect) ? site.id : null);
   if (me.isPending || sites.isPending) return <Loading what="Loading the dashboard" />;

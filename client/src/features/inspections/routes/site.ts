@@ -1,5 +1,5 @@
 import { useParams } from 'react-router-dom';
-import { canInspectOnSite, parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
+import { mayInspectOn, parseId, roleOnSite, useMe, useMySites } from '@client/lib/session';
 
 /** The site of the page, the person, and what they may do there. */
 export function usePageSite() {
@@ -9,9 +9,7 @@ export function usePageSite() {
   const me = useMe().data ?? null;
   const site = useMySites().data?.find((s) => s.id === siteId) ?? null;
   const role = me && site ? roleOnSite(me, site.id) : null;
-  const mayInspect = Boolean(
-    me && site && (role === 'supervisor' || role === 'coordinator' || (role === 'operator' && canInspectOnSite(me, site.id))),
-  );
+  const mayInspect = Boolean(site && mayInspectOn(me, site.id));
   const maySetShifts = Boolean(me && (me.isAdmin || role === 'coordinator'));
   return { siteId, excavationId, me, site, role, mayInspect, maySetShifts };
 }
