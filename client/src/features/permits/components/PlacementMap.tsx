@@ -1,4 +1,4 @@
-import { Fragment, useEffect, useMemo, useState } from 'react';
+import { memo, useEffect, useMemo, useRef, useState } from 'react';
 import L from 'leaflet';
 import { Marker, Polygon, Polyline, Tooltip, useMap } from 'react-leaflet';
 import { BaseMap } from '@client/components/map/BaseMap';
@@ -65,6 +65,12 @@ function FitOnce({ bounds }: { bounds: L.LatLngBounds | null }) {
  */
 /** Orange: where a load fails beyond an offset where it passes (not red, which is the exclusion zone). */
 const BAND_COLOUR = '#b45309';
+// Styles made once: react-leaflet restyles a layer (and the browser repaints it) whenever its
+// pathOptions object is a new one, which on a drag would be every frame.
+const INFLUENCE_STYLE: L.PathOptions = { color: '#4c5a64', weight: 1, dashArray: '4 4', fill: false };
+const ZONE_STYLE: L.PathOptions = { color: verdictColours.fails, weight: 2, fillColor: verdictColours.fails, fillOpacity: 0.12 };
+const BAND_STYLE: L.PathOptions = { color: BAND_COLOUR, weight: 1, dashArray: '2 3', fillColor: BAND_COLOUR, fillOpacity: 0.35 };
+const OUTLINE_STYLE: L.PathOptions = { color: '#1e2a33', weight: 2, fillColor: '#a8a29e', fillOpacity: 0.7 };
 
 export function PlacementMap({
   proj,
@@ -81,24 +87,10 @@ export function PlacementMap({
   onDragging,
 }: PlacementMapProps) {
   const [zoom, setZoom] = useState<number | null>(null);
-  /** A handle's drag: the editor keeps the loads for Undo, follows each move, and hears when it is let go. */
-  const handleDrag = (to: (local: XY) => void): L.LeafletEventHandlerFnMap => {
-    const at = (ev: L.LeafletEvent) => {
-      const ll = (ev.target as L.Marker).getLatLng();
-      to(proj.toLocal([ll.lng, ll.lat]));
-    };
-    return {
-      dragstart: () => {
-        onMoveStart?.();
-        onDragging?.(true);
-      },
-      drag: at,
-      dragend: (ev) => {
-        at(ev);
-        onDragging?.(false);
-      },
-    };
-  };
+  // The editor's callbacks as they are now, read when a handle moves: a load's layers are drawn again
+  // only when that load (or the verdict) changes, not each time the editor renders.
+  const callbacks = useRef<Callbacks>({});
+  callbacks.current = { onMoveStart, onMove, onRotate, onDragging };
   const figures = useFigures();
   const prepared = useMemo(
     () =>
@@ -140,11 +132,28 @@ export function PlacementMap({
     }
     return out;
   }, [check, prepared, proj]);
+  /** Each excavation's outline and influence zone as Leaflet takes them, made once per set of excavations. */
+  const shapes = useMemo(
+    () =>
+      excavations.map((e) => ({
+        e,
+        outline: e.outline ? toLeaflet(e.outline) : null,
+        influence: e.influenceZone ? toLeaflet(e.influenceZone) : null,
+      })),
+    [excavations],
+  );
   const bounds = useMemo(() => {
     const pts = excavations.flatMap((e) => (e.outline ? e.outline.coordinates[0].map(([lng, lat]) => [lat, lng] as [number, number]) : []));
     return pts.length ? L.latLngBounds(pts) : null;
   }, [excavations]);
   const colour = verdict ? verdictColours[verdict] : '#4c5a64';
+  const loadStyles = useMemo(
+    (): LoadStyles => ({
+      line: { color: colour, weight: 5 },
+      area: { color: '#1e2a33', weight: 1, fillColor: colour, fillOpacity: 0.8 },
+    }),
+    [colour],
+  );
   const origin: [number, number] = [proj.origin[1], proj.origin[0]];
 
   return (
@@ -157,116 +166,29 @@ export function PlacementMap({
       >
         <FitOnce bounds={bounds} />
         <ZoomWatch onZoom={setZoom} />
-        {excavations.map((e) =>
-          e.influenceZone ? (
-            <Polygon
-              key={`iz${e.id}`}
-              positions={toLeaflet(e.influenceZone)}
-              pathOptions={{ color: '#4c5a64', weight: 1, dashArray: '4 4', fill: false }}
-              interactive={false}
-            />
-          ) : null,
+        {shapes.map(({ e, influence }) =>
+          influence ? <Polygon key={`iz${e.id}`} positions={influence} pathOptions={INFLUENCE_STYLE} interactive={false} /> : null,
         )}
         {zones.map((z, i) => (
-          <Polygon
-            key={`ez${i}`}
-            positions={z}
-            pathOptions={{ color: verdictColours.fails, weight: 2, fillColor: verdictColours.fails, fillOpacity: 0.12 }}
-            interactive={false}
-          />
+          <Polygon key={`ez${i}`} positions={z} pathOptions={ZONE_STYLE} interactive={false} />
         ))}
         {bands.map((b) => (
-          <Polygon
-            key={`fb${b.key}`}
-            positions={b.positions}
-            pathOptions={{ color: BAND_COLOUR, weight: 1, dashArray: '2 3', fillColor: BAND_COLOUR, fillOpacity: 0.35 }}
-          >
+          <Polygon key={`fb${b.key}`} positions={b.positions} pathOptions={BAND_STYLE}>
             <Tooltip>{b.label}</Tooltip>
           </Polygon>
         ))}
-        {excavations.map((e) =>
-          e.outline ? (
-            <Polygon
-              key={`ex${e.id}`}
-              positions={toLeaflet(e.outline)}
-              pathOptions={{ color: '#1e2a33', weight: 2, fillColor: '#a8a29e', fillOpacity: 0.7 }}
-            >
+        {shapes.map(({ e, outline }) =>
+          outline ? (
+            <Polygon key={`ex${e.id}`} positions={outline} pathOptions={OUTLINE_STYLE}>
               <Tooltip permanent direction="center">
                 {e.reference}
               </Tooltip>
             </Polygon>
           ) : null,
         )}
-        {loads.map((load) => {
-          let feet: ReturnType<typeof footprintsOf>;
-          try {
-            feet = footprintsOf(load, plant, proj);
-          } catch {
-            feet = [];
-          }
-          const c = centreOf(load, proj);
-          const cLL = proj.toWgs84(c);
-          const name = loadName(load, (id) => plant.get(id)?.name);
-          return (
-            <Fragment key={load.id}>
-              {feet.map((f, i) =>
-                f.kind === 'line' ? (
-                  <Polyline
-                    key={i}
-                    positions={f.local.map((p) => {
-                      const q = proj.toWgs84(p);
-                      return [q[1], q[0]] as [number, number];
-                    })}
-                    className={`brink-load brink-load-${load.kind}`}
-                    pathOptions={{ color: colour, weight: 5 }}
-                  />
-                ) : (
-                  <Polygon
-                    key={i}
-                    positions={f.local.map((p) => {
-                      const q = proj.toWgs84(p);
-                      return [q[1], q[0]] as [number, number];
-                    })}
-                    className={`brink-load brink-load-${load.kind}`}
-                    pathOptions={{ color: '#1e2a33', weight: 1, fillColor: colour, fillOpacity: 0.8 }}
-                  >
-                    <Tooltip>
-                      {f.label}
-                      {f.element ? ` – ${f.element}` : ''}:{' '}
-                      {f.kind === 'area' || f.kind === 'strip' ? figures.pressure(f.intensity) : figures.lineForce(f.intensity)}
-                    </Tooltip>
-                  </Polygon>
-                ),
-              )}
-              {editable ? (
-                <Marker
-                  position={[cLL[1], cLL[0]]}
-                  draggable
-                  title={`Move ${name}`}
-                  icon={moveIcon}
-                  // Above its Turn handle: zoomed out, the two overlap (8 m apart), and the load can still be
-                  // moved; the hint below the map says to zoom in to place it precisely.
-                  zIndexOffset={1000}
-                  eventHandlers={handleDrag((to) => onMove?.(load.id, to))}
-                />
-              ) : null}
-              {editable && load.kind === 'plant'
-                ? (() => {
-                    const h = proj.toWgs84(handleAt(c, load.rotation));
-                    return (
-                      <Marker
-                        position={[h[1], h[0]]}
-                        draggable
-                        title={`Turn ${name}`}
-                        icon={turnIcon}
-                        eventHandlers={handleDrag((to) => onRotate?.(load.id, bearingOf(c, to)))}
-                      />
-                    );
-                  })()
-                : null}
-            </Fragment>
-          );
-        })}
+        {loads.map((load) => (
+          <LoadOnMap key={load.id} load={load} plant={plant} proj={proj} styles={loadStyles} editable={editable} callbacks={callbacks} />
+        ))}
       </BaseMap>
       {editable && zoom !== null ? <ZoomHint loads={loads} plant={plant} proj={proj} zoom={zoom} /> : null}
       <p className="px-3 py-2 text-sm text-ink-soft">
@@ -280,6 +202,110 @@ export function PlacementMap({
     </div>
   );
 }
+
+type Callbacks = Pick<PlacementMapProps, 'onMoveStart' | 'onMove' | 'onRotate' | 'onDragging'>;
+interface LoadStyles {
+  line: L.PathOptions;
+  area: L.PathOptions;
+}
+
+/**
+ * One load on the map: its bearing footprints in the verdict colour, its Move handle and, for a
+ * machine, its Turn handle. Drawn again only when its own props change: while one load is dragged,
+ * the others (and the excavations) are left as they are, so the browser repaints only what moved.
+ */
+const LoadOnMap = memo(function LoadOnMap({
+  load,
+  plant,
+  proj,
+  styles,
+  editable,
+  callbacks,
+}: {
+  load: PlacedLoad;
+  plant: Map<number, PlantForCheck>;
+  proj: LocalProjection;
+  styles: LoadStyles;
+  editable: boolean;
+  callbacks: { current: Callbacks };
+}) {
+  const figures = useFigures();
+  /** A handle's drag: the editor keeps the loads for Undo, follows each move, and hears when it is let go. */
+  const handleDrag = (to: (local: XY) => void): L.LeafletEventHandlerFnMap => {
+    const at = (ev: L.LeafletEvent) => {
+      const ll = (ev.target as L.Marker).getLatLng();
+      to(proj.toLocal([ll.lng, ll.lat]));
+    };
+    return {
+      dragstart: () => {
+        callbacks.current.onMoveStart?.();
+        callbacks.current.onDragging?.(true);
+      },
+      drag: at,
+      dragend: (ev) => {
+        at(ev);
+        callbacks.current.onDragging?.(false);
+      },
+    };
+  };
+  let feet: ReturnType<typeof footprintsOf>;
+  try {
+    feet = footprintsOf(load, plant, proj);
+  } catch {
+    feet = [];
+  }
+  const c = centreOf(load, proj);
+  const cLL = proj.toWgs84(c);
+  const name = loadName(load, (id) => plant.get(id)?.name);
+  const latLngs = (points: XY[]) =>
+    points.map((p) => {
+      const q = proj.toWgs84(p);
+      return [q[1], q[0]] as [number, number];
+    });
+  return (
+    <>
+      {feet.map((f, i) =>
+        f.kind === 'line' ? (
+          <Polyline key={i} positions={latLngs(f.local)} className={`brink-load brink-load-${load.kind}`} pathOptions={styles.line} />
+        ) : (
+          <Polygon key={i} positions={latLngs(f.local)} className={`brink-load brink-load-${load.kind}`} pathOptions={styles.area}>
+            <Tooltip>
+              {f.label}
+              {f.element ? ` – ${f.element}` : ''}:{' '}
+              {f.kind === 'area' || f.kind === 'strip' ? figures.pressure(f.intensity) : figures.lineForce(f.intensity)}
+            </Tooltip>
+          </Polygon>
+        ),
+      )}
+      {editable ? (
+        <Marker
+          position={[cLL[1], cLL[0]]}
+          draggable
+          title={`Move ${name}`}
+          icon={moveIcon}
+          // Above its Turn handle: zoomed out, the two overlap (8 m apart), and the load can still be
+          // moved; the hint below the map says to zoom in to place it precisely.
+          zIndexOffset={1000}
+          eventHandlers={handleDrag((to) => callbacks.current.onMove?.(load.id, to))}
+        />
+      ) : null}
+      {editable && load.kind === 'plant'
+        ? (() => {
+            const h = proj.toWgs84(handleAt(c, load.rotation));
+            return (
+              <Marker
+                position={[h[1], h[0]]}
+                draggable
+                title={`Turn ${name}`}
+                icon={turnIcon}
+                eventHandlers={handleDrag((to) => callbacks.current.onRotate?.(load.id, bearingOf(c, to)))}
+              />
+            );
+          })()
+        : null}
+    </>
+  );
+});
 
 /** Reports the map's zoom level now and after each zoom. */
 function ZoomWatch({ onZoom }: { onZoom: (zoom: number) => void }) {
