@@ -70,7 +70,7 @@ export function roleOnSite(me: Me, siteId: number): SiteRole | null {
   return me.memberships.find((m) => m.siteId === siteId)?.role ?? null;
 }
 
-/** Whether I may record an inspection on the site (`mayInspect`, shared/schemas/common.ts). */
+/** Whether I may record an inspection on the site (`mayInspect`, shared/inspectionDuty.ts). */
 export function mayInspectOn(me: Me | null | undefined, siteId: number): boolean {
   return mayInspect(me?.memberships.find((m) => m.siteId === siteId));
 }
