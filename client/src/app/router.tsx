@@ -9,6 +9,7 @@ import { mapRoutes } from '@client/features/map';
 import { plantRoutes } from '@client/features/plant';
 import { registerRoutes } from '@client/features/register';
 import { Loading } from '@client/components/Status';
+import { UnitsScope } from '@client/lib/unitsScope';
 import { ErrorPage, NotFound } from './ErrorPage';
 import { RequireAdmin, RequireAuth } from './RequireAuth';
 
@@ -23,6 +24,8 @@ const signedInRoutes: RouteObject[] = [...plantRoutes, ...permitRoutes];
 
 const routes: RouteObject[] = [
   {
+    // The person's units, worked out once for every page (useUnits, useFigures).
+    Component: UnitsScope,
     errorElement: <ErrorPage />,
     // Shown while the first page's code arrives (each page loads when first opened).
     HydrateFallback: () => <Loading what="Opening Brink" />,

@@ -7,6 +7,7 @@ import { exclusionDistance } from '@shared/permits/exclusion';
 import type { FieldPermit } from '@shared/schemas/field';
 import { Conditions } from '@client/features/field/components/Conditions';
 import { ExclusionsOnTheGround } from '@client/features/permits/components/ExclusionsOnTheGround';
+import { UnitsScope } from '@client/lib/unitsScope';
 
 // The operator's phone and the permit page on the desktop show one standoff for a permit approved
 // "as placed" (no standoff set): the check's 1.48 m for TR-9, with the same reason, never "at
@@ -24,7 +25,9 @@ function withQueries({ children }: { children: ReactNode }) {
   const client = new QueryClient({ defaultOptions: { queries: { retry: false, enabled: false } } });
   return (
     <QueryClientProvider client={client}>
-      <MemoryRouter>{children}</MemoryRouter>
+      <MemoryRouter>
+        <UnitsScope>{children}</UnitsScope>
+      </MemoryRouter>
     </QueryClientProvider>
   );
 }

@@ -1,27 +1,27 @@
-import { useMemo } from 'react';
+import { useContext } from 'react';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { z } from 'zod';
 import type { signedInAnswer } from '@shared/schemas/auth';
 import type { oneSiteAnswer, Site } from '@shared/schemas/sites';
-import { figuresIn, inputText, type Figures, type Quantity, type UnitSystem } from '@shared/units';
+import { inputText, type Figures, type Quantity, type UnitSystem } from '@shared/units';
 import { api } from './api';
-import { useCurrentSite } from './currentSite';
-import { sessionKeys, useMe } from './session';
+import { sessionKeys } from './session';
+import { UnitsContext } from './unitsScope';
 
-/**
- * The units the signed-in person reads and types: their own choice, else the current site's default,
- * else metric (docs/calculation.md, "Units"). The API's figures are always SI; convert only here.
- */
+/** The units the signed-in person reads and types (worked out by UnitsScope, which must be above). */
 export function useUnits(): UnitSystem {
-  const me = useMe().data;
-  const { site } = useCurrentSite();
-  return me?.units ?? site?.units ?? 'metric';
+  return useUnitsScope().system;
 }
 
 /** The person's figures (see `useUnits`). */
 export function useFigures(): Figures {
-  const system = useUnits();
-  return useMemo(() => figuresIn(system), [system]);
+  return useUnitsScope().figures;
+}
+
+function useUnitsScope() {
+  const scope = useContext(UnitsContext);
+  if (!scope) throw new Error('useUnits and useFigures need a UnitsScope above them (the root route has one)');
+  return scope;
 }
 
 /** The text a box starts with for a saved SI figure (plain digits in the person's unit). */

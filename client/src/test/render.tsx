@@ -5,6 +5,7 @@ import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { vi } from 'vitest';
 import { createQueryClient } from '@client/lib/queryClient';
 import { configureFormMessages } from '@client/lib/forms';
+import { UnitsScope } from '@client/lib/unitsScope';
 
 configureFormMessages();
 
@@ -59,7 +60,7 @@ export function fakePersonIn(units: 'us' | 'metric') {
 }
 
 export function renderAt(element: ReactElement, path = '/') {
-  const router = createMemoryRouter([{ path: '*', element }], { initialEntries: [path] });
+  const router = createMemoryRouter([{ path: '*', element: <UnitsScope>{element}</UnitsScope> }], { initialEntries: [path] });
   const queryClient = createQueryClient();
   return {
     queryClient,
