@@ -18,5 +18,8 @@ export function UnitsScope({ children }: { children?: ReactNode }) {
   const { site } = useCurrentSite();
   const system: UnitSystem = me?.units ?? site?.units ?? 'metric';
   const value = useMemo(() => ({ system, figures: figuresIn(system) }), [system]);
-  return <UnitsContext.Provider value={value}>{children ?? <Outlet />}</UnitsContext.Provider>;
+  // The same element each time, so that the session, the site list or the address changing here
+  // redraws only what reads the units (when they change), not every page below.
+  const content = useMemo(() => children ?? <Outlet />, [children]);
+  return <UnitsContext.Provider value={value}>{content}</UnitsContext.Provider>;
 }
