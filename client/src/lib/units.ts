@@ -8,7 +8,10 @@ import { api } from './api';
 import { sessionKeys } from './session';
 import { UnitsContext } from './unitsScope';
 
-/** The units the signed-in person reads and types (worked out by UnitsScope, which must be above). */
+/**
+ * The units the signed-in person reads and types (worked out by UnitsScope, which must be above).
+ * The API's figures are always SI; convert only here.
+ */
 export function useUnits(): UnitSystem {
   return useUnitsScope().system;
 }
