@@ -1,6 +1,6 @@
 import { cleanup, render, screen } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { fakeApi, renderAt } from '@client/test/render';
+import { fakePersonIn, renderAt } from '@client/test/render';
 import { useCurrentSite } from './currentSite';
 import { useFigures, useUnits } from './units';
 
@@ -18,17 +18,6 @@ function Shows() {
   );
 }
 
-const person = (units: 'us' | 'metric' | null) => ({
-  user: {
-    id: 1,
-    email: 'a@b.test',
-    name: 'A',
-    isAdmin: false,
-    organisation: { id: 1, name: 'Invented Groundworks' },
-    units,
-    memberships: [],
-  },
-});
 const usSite = { id: 4, name: 'Invented Yard', latitude: 52, longitude: -1, timezone: 'America/Chicago', units: 'us' };
 
 afterEach(() => {
@@ -39,7 +28,7 @@ afterEach(() => {
 
 describe('UnitsScope', () => {
   it("gives the open site's default when the person chose none", async () => {
-    fakeApi({ 'GET /api/auth/me': { status: 200, body: person(null) }, 'GET /api/sites': { status: 200, body: { sites: [usSite] } } });
+    fakePersonIn(null, [usSite]);
     renderAt(<Shows />, '/sites/4/map');
     expect(await screen.findByText('open: Invented Yard')).toBeTruthy();
     // 2 m is 6.56 ft (the international foot, 0.3048 m exactly).
@@ -47,7 +36,7 @@ describe('UnitsScope', () => {
   });
 
   it("gives the person's own choice over the site's default", async () => {
-    fakeApi({ 'GET /api/auth/me': { status: 200, body: person('metric') }, 'GET /api/sites': { status: 200, body: { sites: [usSite] } } });
+    fakePersonIn('metric', [usSite]);
     renderAt(<Shows />, '/sites/4/map');
     // The site (a US one) is open before the figure is read.
     expect(await screen.findByText('open: Invented Yard')).toBeTruthy();

@@ -37,9 +37,11 @@ export function fakeApi(answers: Record<string, FakeAnswer | (() => FakeAnswer)>
   return calls;
 }
 
-/** Renders one element at a path inside the app's query client and a memory router. */
-/** A signed-in person with no sites who reads figures in `units` (the rest of the API answers 404). */
-export function fakePersonIn(units: 'us' | 'metric') {
+/**
+ * A signed-in person who reads figures in `units` (null: their sites' defaults) and is a member of
+ * `sites` (none unless given); the rest of the API answers 404.
+ */
+export function fakePersonIn(units: 'us' | 'metric' | null, sites: unknown[] = []) {
   return fakeApi({
     'GET /api/auth/me': {
       status: 200,
@@ -55,10 +57,11 @@ export function fakePersonIn(units: 'us' | 'metric') {
         },
       },
     },
-    'GET /api/sites': { status: 200, body: { sites: [] } },
+    'GET /api/sites': { status: 200, body: { sites } },
   });
 }
 
+/** Renders one element at a path inside the app's query client, a memory router and a UnitsScope. */
 export function renderAt(element: ReactElement, path = '/') {
   const router = createMemoryRouter([{ path: '*', element: <UnitsScope>{element}</UnitsScope> }], { initialEntries: [path] });
   const queryClient = createQueryClient();
