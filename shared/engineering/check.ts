@@ -55,9 +55,17 @@ function bothSides(model: SoilModel, z: number, into: { z: number; layer: number
  */
 export function prepareCheck(request: CheckRequest): CheckContext {
   const { excavation, soil, step } = request;
-  return { request, ...keptSoil.keep(contentKey([excavation, soil, step]), () => frozen(soilContext(excavation, soil, step))) };
+  // Frozen inputs (a plan's valid fixed part, the same objects every frame) cannot have changed: the
+  // context last made from the same objects is found without writing out their content again.
+  const fixed = Object.isFrozen(excavation) && Object.isFrozen(soil);
+  const last = fixed ? lastSoil.get(excavation) : undefined;
+  if (last && last.soil === soil && last.step === step) return { request, ...last.context };
+  const context = keptSoil.keep(contentKey([excavation, soil, step]), () => frozen(soilContext(excavation, soil, step)));
+  if (fixed) lastSoil.set(excavation, { soil, step, context });
+  return { request, ...context };
 }
 const keptSoil = new Kept<Omit<CheckContext, 'request'>>(200);
+const lastSoil = new WeakMap<Excavation, { soil: readonly SoilLayer[]; step: number; context: Omit<CheckContext, 'request'> }>();
 
 function soilContext(excavation: Excavation, soil: readonly SoilLayer[], step: number): Omit<CheckContext, 'request'> {
   const model = buildSoilModel(excavation, soil);

@@ -89,6 +89,27 @@ export function solveStandoff(request: CheckRequest, load: PlacedLoad, ctx: Chec
 const compareIds = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
 
 export function runCheck(request: CheckRequest, options: RunOptions = {}): CheckResult {
+  return evaluate(request, options.standoffs !== false, true) as CheckResult;
+}
+
+/**
+ * runCheck without the standoff search and without the rounded pressure profile: the verdict where
+ * the loads stand, every other figure as runCheck gives it with `standoffs: false`. For the frames
+ * of a drag on the placing map, which show the verdict and draw no profile.
+ */
+export function runVerdict(request: CheckRequest): VerdictResult {
+  return evaluate(request, false, false) as VerdictResult;
+}
+
+/** A result of runVerdict: a CheckResult without its profile, and without standoffs. */
+export type VerdictResult = Omit<CheckResult, 'profile'> & { profile?: undefined };
+
+/** runCheck's work: `standoffs` runs the standoff search, `withProfile` rounds the profile into the result. */
+function evaluate(
+  request: CheckRequest,
+  standoffs: boolean,
+  withProfile: boolean,
+): Omit<CheckResult, 'profile'> & { profile?: ProfilePoint[] } {
   const ctx = prepareCheck(request);
   const { model } = ctx;
   const opts = { method: request.method, restraint: request.excavation.restraint };
@@ -133,13 +154,12 @@ export function runCheck(request: CheckRequest, options: RunOptions = {}): Check
     }
   }
 
-  const solver =
-    options.standoffs === false
-      ? null
-      : standoffSolver(
-          ctx,
-          effects.filter((_, k) => isBlanket(canonical[k])),
-        );
+  const solver = standoffs
+    ? standoffSolver(
+        ctx,
+        effects.filter((_, k) => isBlanket(canonical[k])),
+      )
+    : null;
   const loads: LoadResult[] = request.loads.map((l, i) => {
     const e = effectOf[i];
     let standoff: number | null = null;
@@ -167,16 +187,18 @@ export function runCheck(request: CheckRequest, options: RunOptions = {}): Check
   return {
     method: request.method,
     coefficients: model.layers.map((l) => ({ top: l.top, K: round(l.K, 4) })),
-    profile: raw.z.map((z, k): ProfilePoint => {
-      const total = raw.soil[k] + raw.water[k] + raw.surcharge[k];
-      return {
-        z,
-        soil: round(raw.soil[k], 3),
-        water: round(raw.water[k], 3),
-        surcharge: round(raw.surcharge[k], 3),
-        total: round(total, 3),
-        allowance: round(raw.allowance[k], 3),
-      };
+    ...(withProfile && {
+      profile: raw.z.map((z, k): ProfilePoint => {
+        const total = raw.soil[k] + raw.water[k] + raw.surcharge[k];
+        return {
+          z,
+          soil: round(raw.soil[k], 3),
+          water: round(raw.water[k], 3),
+          surcharge: round(raw.surcharge[k], 3),
+          total: round(total, 3),
+          allowance: round(raw.allowance[k], 3),
+        };
+      }),
     }),
     forces: {
       soil: round(model.soilForce, 3),

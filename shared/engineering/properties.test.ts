@@ -5,7 +5,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { prepareCheck } from './check';
-import { BREAK_EPSILON, loadBreakpoints, NOT_MONOTONIC_WARNING, runCheck } from './index';
+import { BREAK_EPSILON, loadBreakpoints, NOT_MONOTONIC_WARNING, runCheck, runVerdict } from './index';
 import { loadEffect } from './loads';
 import { layerIndexAt } from './soil';
 import { midpoint } from './test-fixtures';
@@ -241,6 +241,17 @@ describe('properties of the check', () => {
         expect(byId(b)).toEqual(byId(a));
       }),
       { numRuns: 60 },
+    );
+  });
+
+  it("runVerdict gives runCheck's answer without the standoff search, less the profile and nothing else", () => {
+    fc.assert(
+      fc.property(requestArb({ rated: true }), (req) => {
+        const { profile, ...rest } = runCheck(req, { standoffs: false });
+        expect(profile.length).toBeGreaterThan(1);
+        expect(runVerdict(req)).toStrictEqual(rest);
+      }),
+      { numRuns: 100 },
     );
   });
 });

@@ -12,7 +12,7 @@ import {
   planOutcome,
   windowsOverlap,
 } from './check';
-import type { PermitCheck } from '../schemas/permits';
+import type { PermitCheck, PlacedLoad } from '../schemas/permits';
 import type { Stored } from '../schemas/stored';
 
 const base: Omit<CheckRequest, 'loads'> = {
@@ -255,7 +255,7 @@ describe('a machine dragged on the placing map (a check each frame)', () => {
   });
   const frames = Array.from({ length: 24 }, (_, i) => 17.5 - i * 0.6);
   type Check = typeof cumulativeCheck;
-  /** What a check shows, less the standoffs (a frame leaves the search out), or the words of its refusal. */
+  /** What a check shows, less the standoffs and the pressure profile (a frame leaves both out), or the words of its refusal. */
   const shown = (check: Check, input: Parameters<Check>[0]) => {
     try {
       const c = check(input);
@@ -272,7 +272,6 @@ describe('a machine dragged on the placing map (a check each frame)', () => {
           utilisation: e.result.utilisation,
           passes: e.result.passes,
           maxTotalPressure: e.result.maxTotalPressure,
-          profile: e.result.profile,
           loads: e.loads.map((l) => [l.engineId, l.offset, l.force]),
           counted: e.counted.map((o) => o.number),
         })),
@@ -298,6 +297,9 @@ describe('a machine dragged on the placing map (a check each frame)', () => {
     }
     // The walk passes through every case: clear of both pits, within PIT-B's influence zone, on the edge of PIT-A.
     expect([...seen].sort()).toEqual(expect.arrayContaining(['both pits', 'refused']));
+    // A frame draws no profile, so it works none out; the full check keeps it.
+    expect(cumulativeCheck({ ...at(frames[0]), standoffs: false }).excavations[0].result.profile).toBeUndefined();
+    expect(cumulativeCheck(at(frames[0])).excavations[0].result.profile?.length).toBeGreaterThan(0);
     expect(seen.size).toBeGreaterThanOrEqual(3);
   }, 60_000);
 
@@ -374,6 +376,40 @@ describe('a machine dragged on the placing map (a check each frame)', () => {
     const wet = { ...base.excavation, groundwaterDepth: NaN };
     expect(() => cumulativeCheck({ ...sound, excavations: [{ ...pit(1, 'PIT-A', 0), excavation: wet }], standoffs: false })).toThrow(
       /PIT-A excavation\.groundwaterDepth/,
+    );
+  });
+  it('refuses a changed field of a load the same plan found sound a frame before, and checks the sound load again after', () => {
+    // A drag's frames read only the fields that changed since the last frame (shared/schemas/fieldwise.ts).
+    const { permit: planPermit, now, ...basis } = at(12);
+    const { loads, ...permitBasis } = planPermit;
+    const frame = planCheck({ ...basis, permit: permitBasis, standoffs: false });
+    const sound = frame(loads, now).verdict;
+    const [machine, mats] = loads as [Extract<PlacedLoad, { kind: 'plant' }>, Extract<PlacedLoad, { kind: 'area' }>];
+    const wrong: [string, Record<string, unknown>][] = [
+      ['loads[0].rotation', { ...machine, rotation: 400 }],
+      ['loads[0].rotation', { ...machine, rotation: NaN }],
+      ['loads[0].position', { ...machine, position: [machine.position[0], 95] }],
+      ['loads[0].position', { ...machine, position: [NaN, machine.position[1]] }],
+      ['loads[0].plantItemId', { ...machine, plantItemId: -7 }],
+      ['loads[0].label', { ...machine, label: 'x'.repeat(81) }],
+      ['loads[1].pressure', { ...mats, pressure: 0 }],
+      ['loads[1].outline', { ...mats, outline: { type: 'Polygon', coordinates: [mats.outline.coordinates[0].slice(0, 2)] } }],
+    ];
+    for (const [field, load] of wrong) {
+      const changed = field.startsWith('loads[0]') ? [load, mats] : [machine, load];
+      expect(() => frame(changed as PlacedLoad[], now), field).toThrow(CheckInputError);
+      expect(() => frame(changed as PlacedLoad[], now), field).toThrow(new RegExp(`^${field.replace(/[[\].]/g, '\\$&')}[ [.]`));
+      // A sound move of the same load after it is checked as before.
+      expect(frame(loads, now).verdict).toBe(sound);
+      const moved = { ...machine, position: proj.toWgs84([12.5, 2.5]) as [number, number] };
+      expect(() => frame([moved, mats], now)).not.toThrow();
+    }
+    // A load found sound and then changed in place is read whole again, not against what it was.
+    const turned = { ...machine };
+    expect(frame([turned, mats], now).verdict).toBe(sound);
+    turned.rotation = 400;
+    expect(() => frame([{ ...turned, position: proj.toWgs84([12.4, 2.5]) as [number, number] }, mats], now)).toThrow(
+      /^loads\[0\]\.rotation /,
     );
   });
 });

@@ -11,13 +11,15 @@
  * Units: m, kN, kPa, kN/m; positions WGS84 [longitude, latitude]; rotations degrees clockwise from north.
  */
 import { z } from 'zod';
-import { calcRequestSchema, formatPath, requestLoadsSchema } from '../schemas/calc';
+import { calcRequestSchema, engineLoadSchema, formatPath, requestLoadsSchema } from '../schemas/calc';
+import { passesLike } from '../schemas/fieldwise';
 import { contentKey, frozen, Kept } from '../kept';
 import {
   CAUTION,
   notMonotonicWarning,
   prepareCheck,
   runCheck,
+  runVerdict,
   standoffSolver,
   type CheckRequest,
   type Excavation,
@@ -131,8 +133,9 @@ export interface CheckInput {
   engine?: CheckEngine;
   /**
    * false: the verdict at the loads' positions only, without the standoff search (every standoff
-   * null, no failing bands). The placing map uses it for each frame of a drag and runs the full
-   * check when the load is let go; a stored or shown-as-final check never uses it.
+   * null, no failing bands) and without the pressure profiles (the engine's runVerdict; `engine` is
+   * not called). The placing map uses it for each frame of a drag and runs the full check when the
+   * load is let go; a stored or shown-as-final check never uses it.
    */
   standoffs?: false;
 }
@@ -187,15 +190,23 @@ const placedLoadsSchema = z.array(placedLoadSchema);
  */
 const validLoads = new Kept<true>(500);
 
+/** A load found valid, by its id, with its content key then: what the next run's load of that id is read against. */
+type LikeLoads = Map<string, { key: string; load: PlacedLoad }>;
+
 /**
  * Throws CheckInputError for the first wrong field of the permit's loads (placedLoadSchema, as the API).
- * `known` holds the content keys of loads already found valid (the plan's loads of the last run).
+ * `known` holds the content keys of loads already found valid (the plan's loads of the last run); a
+ * load changed since is read field by field (passesLike) against the last one of its id found valid,
+ * when that one still has the content it was found valid with (nothing changed it in place); else whole.
  */
-function validateLoads(loads: unknown[], keys: string[], known: Map<string, unknown>): void {
+function validateLoads(loads: unknown[], keys: string[], known: Map<string, unknown>, like: LikeLoads): void {
   let valid = true;
   for (let i = 0; i < loads.length && valid; i++) {
     if (known.has(keys[i]) || validLoads.get(keys[i])) continue;
-    valid = placedLoadSchema.safeParse(loads[i]).success;
+    const id = (loads[i] as { id?: unknown } | null)?.id;
+    const before = typeof id === 'string' ? like.get(id) : undefined;
+    const sound = before && contentKey(before.load) === before.key ? before.load : undefined;
+    valid = (sound && passesLike(placedLoadSchema, loads[i], sound)) ?? placedLoadSchema.safeParse(loads[i]).success;
     if (valid) validLoads.set(keys[i], true);
   }
   if (valid) return;
@@ -204,6 +215,11 @@ function validateLoads(loads: unknown[], keys: string[], known: Map<string, unkn
     const issue = r.error.issues[0];
     throw new CheckInputError(formatPath(['loads', ...issue.path]), issue.message);
   }
+}
+
+/** What `validateLoads` reads the next run's loads against: these loads, all found valid, with their content keys. */
+function likeLoads(loads: PlacedLoad[], keys: string[]): LikeLoads {
+  return new Map(loads.map((load, i) => [load.id, { key: keys[i], load }]));
 }
 
 /**
@@ -235,6 +251,8 @@ function validFixedPart(fixed: Omit<CheckRequest, 'loads'>): Omit<CheckRequest, 
  * loads), so what was found valid cannot change. A list of them is valid when its ids differ.
  */
 const checkedLoads = new WeakSet<Load>();
+/** The last engine load found valid of each kind (frozen). */
+const likeEngineLoad = new Map<Load['kind'], Load>();
 
 /** The engine loads read by requestLoadsSchema, or null when they are wrong. */
 function validEngineLoads(loads: Load[]): Load[] | null {
@@ -243,11 +261,14 @@ function validEngineLoads(loads: Load[]): Load[] | null {
   let known = true;
   for (const l of loads) {
     if (!checkedLoads.has(l)) {
-      if (!Object.isFrozen(l) || !requestLoadsSchema.safeParse([l]).success) {
+      // A new load is read field by field against the last valid one of its kind (passesLike), else whole.
+      const like = likeEngineLoad.get(l.kind);
+      if (!Object.isFrozen(l) || !((like && passesLike(engineLoadSchema, l, like)) ?? requestLoadsSchema.safeParse([l]).success)) {
         known = false;
         break;
       }
       checkedLoads.add(l);
+      likeEngineLoad.set(l.kind, l);
     }
     if (ids.has(l.id)) {
       known = false;
@@ -560,6 +581,7 @@ export function planOutcome(input: CheckPlanInput): (loads: PlacedLoad[], now: D
     return part;
   };
   let own = new Map<string, OwnLoad>();
+  let like: LikeLoads = new Map();
 
   /** A load's footprints measured against an excavation, once a plan. */
   const measuredOwn = (load: PlacedLoad, o: OwnLoad, ex: CheckExcavation) => {
@@ -635,7 +657,8 @@ export function planOutcome(input: CheckPlanInput): (loads: PlacedLoad[], now: D
 
   return (loads, now) => {
     const keys = loads.map(contentKey);
-    validateLoads(loads, keys, own);
+    validateLoads(loads, keys, own, like);
+    like = likeLoads(loads, keys);
     const kept = own;
     own = new Map();
     const mine = loads.map((load, index) => {
@@ -709,7 +732,7 @@ export function planOutcome(input: CheckPlanInput): (loads: PlacedLoad[], now: D
       if (refusals.length) continue;
       const fixed = fixedOf(ex);
       const request = validRequest(fixed.raw, fixed.valid, engineLoads, ex.reference);
-      const result = input.standoffs === false ? engine.runCheck(request, { standoffs: false }) : engine.runCheck(request);
+      const result = input.standoffs === false ? runVerdict(request) : engine.runCheck(request);
       const checked: CheckedLoad[] = meta.map((m, i) => ({ ...m, force: result.loads[i].force, standoff: result.loads[i].standoff }));
       // A load of one footprint has the engine's standoff; a machine's elements move together.
       const { loads: _all, ...base } = request;

@@ -130,7 +130,8 @@ const offset = atLeastZero('m');
 
 export const loadKinds = ['blanket', 'strip', 'line', 'area', 'point'] as const;
 
-const loadSchema = z.discriminatedUnion(
+/** One load of a request (its id unique in the request: requestLoadsSchema). */
+export const engineLoadSchema = z.discriminatedUnion(
   'kind',
   [
     z.strictObject({ id, kind: z.literal('blanket'), pressure: positive('kPa') }),
@@ -164,7 +165,7 @@ const loadSchema = z.discriminatedUnion(
 );
 
 /** A request's loads, each id once (the rest of the request does not bear on them). */
-export const requestLoadsSchema = z.array(loadSchema, objectError('a list of loads')).superRefine((loads, ctx) => {
+export const requestLoadsSchema = z.array(engineLoadSchema, objectError('a list of loads')).superRefine((loads, ctx) => {
   const ids = loads.map((l) => l.id);
   ids.forEach((v, i) => {
     const first = ids.indexOf(v);
