@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { runCheck } from './index';
-import { SIX_PROFILE_TOP, SIX_RESULT, sixRequest, withExcavation, withLoads } from './test-fixtures';
+import { SIX_PROFILE_TOP, SIX_RESULT, sixExcavation, sixRequest, withExcavation, withLoads } from './test-fixtures';
+import type { SoilLayer } from './types';
 
 describe('the check (docs/calculation.md, "The check")', () => {
   it('worked example 1 gives its result (docs/calculation.md; a hand check, common practice, no published source)', () => {
@@ -8,6 +9,16 @@ describe('the check (docs/calculation.md, "The check")', () => {
     expect(r).toMatchObject(SIX_RESULT);
     expect(r.profile[0]).toEqual(SIX_PROFILE_TOP);
     expect(r.caution).toMatch(/competent temporary works/);
+  });
+
+  it('works the soil out again when a layer of a list frozen only on the outside changes in place (Rankine: ½·Ka·γ·H², Ka = 1/3 for φ′ = 30°)', () => {
+    // A frozen excavation and soil list are taken as unchanged when seen again (prepareCheck), but only
+    // when every layer is frozen too. Dry sand, H = 3 m: ½ × 1/3 × 19 × 9 = 28.5 kN/m, then γ = 21: 31.5.
+    const layer: SoilLayer = { top: 0, unitWeight: 19, saturatedUnitWeight: 20, frictionAngle: 30, cohesion: 0 };
+    const req = sixRequest({ excavation: Object.freeze(sixExcavation()), soil: Object.freeze([layer]) as SoilLayer[] });
+    expect(runCheck(req, { standoffs: false }).forces.soil).toBeCloseTo(28.5, 3);
+    layer.unitWeight = 21;
+    expect(runCheck(req, { standoffs: false }).forces.soil).toBeCloseTo(31.5, 3);
   });
 
   it('profile depths are exact multiples of the step, ending at H (docs/calculation.md, "The check")', () => {

@@ -56,8 +56,9 @@ function bothSides(model: SoilModel, z: number, into: { z: number; layer: number
 export function prepareCheck(request: CheckRequest): CheckContext {
   const { excavation, soil, step } = request;
   // Frozen inputs (a plan's valid fixed part, the same objects every frame) cannot have changed: the
-  // context last made from the same objects is found without writing out their content again.
-  const fixed = Object.isFrozen(excavation) && Object.isFrozen(soil);
+  // context last made from the same objects is found without writing out their content again. The
+  // excavation and the layers hold numbers and words only, so frozen objects are frozen throughout.
+  const fixed = Object.isFrozen(excavation) && Object.isFrozen(soil) && soil.every((l) => Object.isFrozen(l));
   const last = fixed ? lastSoil.get(excavation) : undefined;
   if (last && last.soil === soil && last.step === step) return { request, ...last.context };
   const context = keptSoil.keep(contentKey([excavation, soil, step]), () => frozen(soilContext(excavation, soil, step)));
