@@ -102,7 +102,7 @@ export function runVerdict(request: CheckRequest): VerdictResult {
 }
 
 /** A result of runVerdict: a CheckResult without its profile, and without standoffs. */
-export type VerdictResult = Omit<CheckResult, 'profile'> & { profile?: undefined };
+type VerdictResult = Omit<CheckResult, 'profile'> & { profile?: undefined };
 
 /** runCheck's work: `standoffs` runs the standoff search, `withProfile` rounds the profile into the result. */
 function evaluate(
