@@ -24,6 +24,10 @@ export interface CheckContext {
   gridLayers: number[];
   /** Layer tops and water table with the layer on each side: where the largest total may sit off the grid. */
   extraSamples: { z: number; layer: number }[];
+  /** At each profile depth: the soil's pressure, the water's and the design surcharge's (none depends on the loads). */
+  gridSoil: number[];
+  gridWater: number[];
+  gridAllowance: number[];
   allowanceForce: number;
   allowanceMoment: number;
 }
@@ -74,11 +78,15 @@ function soilContext(excavation: Excavation, soil: readonly SoilLayer[], step: n
   const extraSamples: { z: number; layer: number }[] = [];
   for (const z of model.breakpoints) bothSides(model, z, extraSamples);
   const qd = excavation.designSurcharge;
+  const gridLayers = grid.map((z) => layerIndexAt(model, z));
   return {
     model,
     grid,
-    gridLayers: grid.map((z) => layerIndexAt(model, z)),
+    gridLayers,
     extraSamples,
+    gridSoil: grid.map((z, k) => soilPressure(model, gridLayers[k], z)),
+    gridWater: grid.map((z, k) => waterPressure(model, gridLayers[k], z)),
+    gridAllowance: gridLayers.map((li) => model.layers[li].K * qd),
     allowanceForce: qd * model.kForce,
     allowanceMoment: qd * model.kMoment,
   };
@@ -156,35 +164,17 @@ export function utilisationOf(ctx: CheckContext, Fs: number, Ms: number, maxTota
 }
 
 interface RawProfile {
-  z: number[];
-  soil: Float64Array;
-  water: Float64Array;
+  /** The loads' added pressure at each profile depth (the soil's, the water's and the allowance are the context's). */
   surcharge: Float64Array;
-  allowance: Float64Array;
+  /** The largest total pressure, on the grid and off it. */
   maxTotal: number;
 }
 
 export function buildProfile(ctx: CheckContext, effects: readonly SurchargeEffect[]): RawProfile {
-  const { model, grid, gridLayers } = ctx;
-  const qd = ctx.request.excavation.designSurcharge;
-  const n = grid.length;
-  const out: RawProfile = {
-    z: grid,
-    soil: new Float64Array(n),
-    water: new Float64Array(n),
-    surcharge: new Float64Array(n),
-    allowance: new Float64Array(n),
-    maxTotal: -Infinity,
-  };
-  for (const e of effects) e.accumulate(grid, gridLayers, out.surcharge);
-  for (let k = 0; k < n; k++) {
-    const z = grid[k];
-    const li = gridLayers[k];
-    out.soil[k] = soilPressure(model, li, z);
-    out.water[k] = waterPressure(model, li, z);
-    out.allowance[k] = model.layers[li].K * qd;
-    out.maxTotal = Math.max(out.maxTotal, out.soil[k] + out.water[k] + out.surcharge[k]);
-  }
-  out.maxTotal = Math.max(out.maxTotal, maxTotalOffGrid(ctx, effects));
-  return out;
+  const { grid, gridLayers, gridSoil, gridWater } = ctx;
+  const surcharge = new Float64Array(grid.length);
+  for (const e of effects) e.accumulate(grid, gridLayers, surcharge);
+  let maxTotal = -Infinity;
+  for (let k = 0; k < grid.length; k++) maxTotal = Math.max(maxTotal, gridSoil[k] + gridWater[k] + surcharge[k]);
+  return { surcharge, maxTotal: Math.max(maxTotal, maxTotalOffGrid(ctx, effects)) };
 }

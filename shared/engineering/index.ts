@@ -188,15 +188,15 @@ function evaluate(
     method: request.method,
     coefficients: model.layers.map((l) => ({ top: l.top, K: round(l.K, 4) })),
     ...(withProfile && {
-      profile: raw.z.map((z, k): ProfilePoint => {
-        const total = raw.soil[k] + raw.water[k] + raw.surcharge[k];
+      profile: ctx.grid.map((z, k): ProfilePoint => {
+        const total = ctx.gridSoil[k] + ctx.gridWater[k] + raw.surcharge[k];
         return {
           z,
-          soil: round(raw.soil[k], 3),
-          water: round(raw.water[k], 3),
+          soil: round(ctx.gridSoil[k], 3),
+          water: round(ctx.gridWater[k], 3),
           surcharge: round(raw.surcharge[k], 3),
           total: round(total, 3),
-          allowance: round(raw.allowance[k], 3),
+          allowance: round(ctx.gridAllowance[k], 3),
         };
       }),
     }),
