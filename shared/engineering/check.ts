@@ -54,8 +54,9 @@ function bothSides(model: SoilModel, z: number, into: { z: number; layer: number
 
 /**
  * The check's context. What comes from the excavation, its soil and the step alone (the soil model,
- * the profile grid, the allowance) is kept by their content (frozen, 200 at most), so checking the
- * same excavation again with loads elsewhere (each frame of a drag on the placing map) builds none of it again.
+ * the profile grid, the soil's and the water's pressure on it, the allowance) is kept by their
+ * content (frozen, 200 at most), so checking the same excavation again with loads elsewhere (each
+ * frame of a drag on the placing map) builds none of it again.
  */
 export function prepareCheck(request: CheckRequest): CheckContext {
   const { excavation, soil, step } = request;
