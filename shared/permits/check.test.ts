@@ -378,6 +378,7 @@ describe('a machine dragged on the placing map (a check each frame)', () => {
       /PIT-A excavation\.groundwaterDepth/,
     );
   });
+
   it('refuses a changed field of a load the same plan found sound a frame before, and checks the sound load again after', () => {
     // A drag's frames read only the fields that changed since the last frame (shared/schemas/fieldwise.ts).
     const { permit: planPermit, now, ...basis } = at(12);
