@@ -6,6 +6,7 @@
  */
 import type { Polygon } from 'geojson';
 import { cpus, loadavg } from 'node:os';
+import { median } from './stats';
 import { runCheck, solveStandoff, type CheckRequest, type Load, type Method, type PlacedLoad } from '@shared/engineering';
 import {
   boundsGap,
@@ -20,12 +21,6 @@ import {
   type LonLat,
   type XY,
 } from '@shared/geometry';
-
-function median(xs: number[]): number {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-}
 
 interface Timing {
   /** Median wall-clock seconds per call. */

@@ -8,6 +8,7 @@
 import { loadavg } from 'node:os';
 import { largeAdminEmail, largeEmail } from './largeDataset';
 import { ORIGIN_HEADER, signIn, startBrink } from './benchApi';
+import { percentile } from './stats';
 
 const USERS = 10;
 const TARGET_P95 = 200;
@@ -17,10 +18,6 @@ interface Read {
   /** The requests of one view, sent together as the page does; the view's time is the slowest's. */
   paths: string[];
   cookie: string;
-}
-
-function percentile(sorted: number[], p: number): number {
-  return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)];
 }
 
 /** `USERS` workers asking for the view in turn until `requests` views are answered or `seconds` pass. */
@@ -45,7 +42,6 @@ async function measure(base: string, port: number, r: Read, requests: number, se
     }
   };
   await Promise.all(Array.from({ length: USERS }, worker));
-  times.sort((a, b) => a - b);
   return {
     n: times.length,
     p50: percentile(times, 50),
