@@ -1,5 +1,5 @@
 import { describe, expect, it, vi } from 'vitest';
-import { runCheck, type CheckRequest } from '../engineering';
+import { NOT_MONOTONIC_WARNING, runCheck, type CheckRequest } from '../engineering';
 import { localProjection } from '../geometry';
 import { sixExcavation } from '../engineering/test-fixtures';
 import {
@@ -14,6 +14,7 @@ import {
 } from './check';
 import type { PermitCheck, PlacedLoad } from '../schemas/permits';
 import type { Stored } from '../schemas/stored';
+import { frozen } from '../kept';
 
 const base: Omit<CheckRequest, 'loads'> = {
   excavation: sixExcavation(),
@@ -362,6 +363,23 @@ describe('a machine dragged on the placing map (a check each frame)', () => {
     const fresh = await import('./check');
     expect(shown((i) => frame(i.permit.loads, i.now), heavier)).toEqual(shown(fresh.cumulativeCheck, heavier));
   }, 60_000);
+
+  it('leaves frozen engine answers as they are (the server keeps and shares them) and gives the same check', () => {
+    // The server memoises the engine's calls and hands the same frozen answer to every check
+    // (server/src/services/permits/check.ts). A group answer that is not monotonic adds a warning:
+    // it goes on the check's copy, never on the shared answer (a change would throw here).
+    const engine = {
+      runCheck: (...a: Parameters<typeof runCheck>) => frozen(runCheck(...a)),
+      groupStandoff: (...a: Parameters<typeof groupStandoff>) => frozen({ ...groupStandoff(...a), monotonic: false }),
+    };
+    const first = cumulativeCheck({ ...at(9), engine });
+    const again = cumulativeCheck({ ...at(9), engine });
+    const flagged = (c: PermitCheck) => c.warnings.filter((w) => w.includes(NOT_MONOTONIC_WARNING));
+    expect(flagged(first)).toHaveLength(1);
+    // Checked again from the same kept answers: one warning still, not one more a check.
+    expect(again).toEqual(first);
+    expect(flagged(again)).toHaveLength(1);
+  });
 
   it('refuses a figure after the same load was checked with a sound one (nothing valid is kept for it)', () => {
     const sound = at(12);

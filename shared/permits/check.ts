@@ -140,7 +140,7 @@ export interface CheckInput {
   standoffs?: false;
 }
 
-/** The two engine calls the check makes; both pure, so a caller may memoise them. */
+/** The two engine calls the check makes; both pure, so a caller may memoise them, and their answers may be frozen and shared: never changed in place. */
 export interface CheckEngine {
   runCheck: typeof runCheck;
   groupStandoff: typeof groupStandoff;
@@ -732,7 +732,9 @@ export function planOutcome(input: CheckPlanInput): (loads: PlacedLoad[], now: D
       if (refusals.length) continue;
       const fixed = fixedOf(ex);
       const request = validRequest(fixed.raw, fixed.valid, engineLoads, ex.reference);
-      const result = input.standoffs === false ? runVerdict(request) : engine.runCheck(request);
+      const ran = input.standoffs === false ? runVerdict(request) : engine.runCheck(request);
+      // The engine's answer may be kept and shared (frozen): the warnings added below go on a copy.
+      const result = { ...ran, warnings: [...ran.warnings] };
       const checked: CheckedLoad[] = meta.map((m, i) => ({ ...m, force: result.loads[i].force, standoff: result.loads[i].standoff }));
       // A load of one footprint has the engine's standoff; a machine's elements move together.
       const { loads: _all, ...base } = request;

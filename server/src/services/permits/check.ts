@@ -2,6 +2,7 @@ import { sql } from 'kysely';
 import { jsonArrayFrom, jsonObjectFrom } from 'kysely/helpers/postgres';
 import { PREPARED, type Db } from '@db/database';
 import type { Stored } from '@shared/schemas/stored';
+import { contentKey, frozen, Kept } from '@shared/kept';
 import { runCheck } from '@shared/engineering';
 import {
   CheckInputError,
@@ -241,29 +242,20 @@ function checkExcavationRowOf(r: CheckExcavationRow): CheckExcavation & { state:
 /**
  * The engine's two calls, memoised by their whole argument (both are pure functions of it): a
  * permit checked again with nothing changed (the permit page, a re-check of every permit of an
- * excavation) costs a lookup instead of the standoff search. Bounded; answers are copied out, so a
- * caller may change what it gets.
+ * excavation) costs a lookup instead of the standoff search. Keyed by content (shared/kept.ts, which
+ * tells NaN, ±Infinity, −0 and an absent field apart where JSON would not) and bounded. Answers are
+ * frozen and handed out as they are: a caller copies what it changes (a copy of the whole answer
+ * cost more than the rest of the route's own work).
  */
+const MEMO_ENTRIES = 500;
 const memoEngine: CheckEngine = {
   runCheck: memoised((request, options) => runCheck(request, options)),
   groupStandoff: memoised((base, group) => groupStandoff(base, group)),
 };
-const MEMO_ENTRIES = 500;
 
 function memoised<A extends unknown[], R>(fn: (...args: A) => R): (...args: A) => R {
-  const memo = new Map<string, R>();
-  return (...args: A) => {
-    const key = JSON.stringify(args);
-    let value = memo.get(key);
-    if (value === undefined) {
-      value = fn(...args);
-      if (memo.size >= MEMO_ENTRIES) memo.delete(memo.keys().next().value!);
-    } else {
-      memo.delete(key); // least recently used goes first
-    }
-    memo.set(key, value);
-    return structuredClone(value);
-  };
+  const memo = new Kept<R>(MEMO_ENTRIES);
+  return (...args: A) => memo.keep(contentKey(args), () => frozen(fn(...args)));
 }
 
 interface CheckSubject {
