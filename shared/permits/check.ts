@@ -732,9 +732,8 @@ export function planOutcome(input: CheckPlanInput): (loads: PlacedLoad[], now: D
       if (refusals.length) continue;
       const fixed = fixedOf(ex);
       const request = validRequest(fixed.raw, fixed.valid, engineLoads, ex.reference);
-      const ran = input.standoffs === false ? runVerdict(request) : engine.runCheck(request);
-      // The engine's answer may be kept and shared (frozen): the warnings added below go on a copy.
-      const result = { ...ran, warnings: [...ran.warnings] };
+      // The engine's answer may be kept and shared (frozen): a warning added below goes on a copy.
+      let result = input.standoffs === false ? runVerdict(request) : engine.runCheck(request);
       const checked: CheckedLoad[] = meta.map((m, i) => ({ ...m, force: result.loads[i].force, standoff: result.loads[i].standoff }));
       // A load of one footprint has the engine's standoff; a machine's elements move together.
       const { loads: _all, ...base } = request;
@@ -753,7 +752,7 @@ export function planOutcome(input: CheckPlanInput): (loads: PlacedLoad[], now: D
             base,
             parts.map((i) => engineLoads[i] as Exclude<Load, { kind: 'blanket' }>),
           );
-          if (!group.monotonic) result.warnings.push(notMonotonicWarning(label, group));
+          if (!group.monotonic) result = { ...result, warnings: [...result.warnings, notMonotonicWarning(label, group)] };
           answer = group;
         }
         return [
