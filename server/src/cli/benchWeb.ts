@@ -10,7 +10,7 @@
  * page, no drag), `--rounds=N` opens each page N times instead of 3, `--waterfall` prints every
  * request of each /field open (seconds from the navigation: start, end, bytes, address).
  */
-import { chromium, devices, type Browser, type Locator, type Page, type Request } from '@playwright/test';
+import { chromium, devices, type Browser, type CDPSession, type Locator, type Page, type Request } from '@playwright/test';
 import { budgetOf, bundleReport, kb } from './bundleSize';
 import { ORIGIN_HEADER, signIn, startBrink } from './benchApi';
 import { median, percentile } from './stats';
@@ -106,10 +106,12 @@ const DRAG_FRAMES = 30;
 /** The reference task's cost with the processor at full speed (ms): a quarter of a drag frame's check at 1× (about 0.4 ms, docs/performance.md). */
 const REFERENCE_MS = 0.1;
 
-/** What one drag measured: each frame's live check (ms) and, at 4×, the reference task's frames. */
+/** What one drag measured: each frame's live check (ms), at 4× the reference task's frames, and the main thread's time a frame (ms). */
 interface Drag {
   live: number[];
   reference: number[];
+  /** The page's main thread a drag frame, less the same moves without a drag (the bench's own moves and frame waits). */
+  frame: number;
 }
 
 /**
@@ -157,9 +159,13 @@ export async function dragFrames(browser: Browser, base: string, cookie: string,
       performance.clearMeasures('brink:live-check');
       performance.clearMeasures('brink:full-check');
     });
-    await dragHandle(page, box, -3);
+    await cdp.send('Performance.enable');
+    const dragged = await mainThreadMs(cdp, () => dragHandle(page, box, -3));
     // Let go: the full check (with the standoff search) runs once on the final position.
     await page.waitForFunction(() => performance.getEntriesByName('brink:full-check').length > 0, undefined, { timeout: 60_000 });
+    // The same moves from where the handle was let go, the button up: what the bench's own moves
+    // and frame waits cost the page, without a drag.
+    const moved = await mainThreadMs(cdp, () => dragHandle(page, box, -3, false));
     const full = await page.evaluate(() => performance.getEntriesByName('brink:full-check').map((e) => e.duration));
     const times = await page.evaluate(() => performance.getEntriesByName('brink:live-check').map((e) => e.duration));
     const reference = control ? await referenceBesideDrag(page, handle, rounds) : [];
@@ -170,6 +176,10 @@ export async function dragFrames(browser: Browser, base: string, cookie: string,
       `${`live re-check per drag frame, placing map, ${rate}× slowdown`.padEnd(56)} p50 ${median(times).toFixed(2)} ms, p95 ${p95.toFixed(2)} ms, max ${Math.max(...times).toFixed(2)} ms (${times.length} checks over ${DRAG_FRAMES} frames, ${when === 'at once' ? 'dragged at once' : 'dragged'}${ready})  ${target}`,
     );
     console.log(`${'  each frame in order (ms)'.padEnd(56)} ${times.map((t) => t.toFixed(2)).join(' ')}`);
+    const frame = (dragged - moved) / DRAG_FRAMES;
+    console.log(
+      `${'  the main thread a drag frame, all of it'.padEnd(56)} ${frame.toFixed(1)} ms  (${(dragged / DRAG_FRAMES).toFixed(1)} ms a frame dragging, less ${(moved / DRAG_FRAMES).toFixed(1)} ms moving the mouse alone; 60 frames a second leave 16.7 ms)`,
+    );
     if (reference.length) {
       const r95 = percentile(reference, 95);
       console.log(
@@ -180,21 +190,37 @@ export async function dragFrames(browser: Browser, base: string, cookie: string,
     console.log(
       `${'full check with standoffs once the load is let go'.padEnd(56)} ${full.map((t) => `${t.toFixed(2)} ms`).join(', ')}  (no target: once per drag, not per frame)`,
     );
-    return { live: times, reference };
+    return { live: times, reference, frame };
   } finally {
     await context.close();
   }
 }
 
-/** Drags from the middle of `box` over DRAG_FRAMES mouse moves of `step` px down (up when negative), one an animation frame. */
-async function dragHandle(page: Page, box: { x: number; y: number; width: number; height: number }, step: number): Promise<void> {
+/**
+ * Drags from the middle of `box` over DRAG_FRAMES mouse moves of `step` px down (up when negative),
+ * one an animation frame; with `press` false, the same moves with the button up.
+ */
+async function dragHandle(
+  page: Page,
+  box: { x: number; y: number; width: number; height: number },
+  step: number,
+  press = true,
+): Promise<void> {
   await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
-  await page.mouse.down();
+  if (press) await page.mouse.down();
   for (let i = 1; i <= DRAG_FRAMES; i++) {
     await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2 + i * step);
     await page.evaluate(() => new Promise((r) => requestAnimationFrame(r)));
   }
-  await page.mouse.up();
+  if (press) await page.mouse.up();
+}
+
+/** The page's main-thread time (ms) while `run` runs: the sum of its tasks (Chrome's `TaskDuration`; Performance.enable first). */
+async function mainThreadMs(cdp: CDPSession, run: () => Promise<void>): Promise<number> {
+  const taskSeconds = async () => (await cdp.send('Performance.getMetrics')).metrics.find((m) => m.name === 'TaskDuration')?.value ?? NaN;
+  const before = await taskSeconds();
+  await run();
+  return ((await taskSeconds()) - before) * 1000;
 }
 
 /**
@@ -260,7 +286,7 @@ export async function runDragBench(): Promise<void> {
       whenReady.push(await dragFrames(browser, brink.url, supervisor, 'when ready'));
     }
     const full = await dragFrames(browser, brink.url, supervisor, 'at once', 1);
-    const p95s = (ds: Drag[], k: keyof Drag) => ds.map((d) => percentile(d[k], 95));
+    const p95s = (ds: Drag[], k: 'live' | 'reference') => ds.map((d) => percentile(d[k], 95));
     const line = (label: string, xs: number[]) =>
       console.log(
         `${label.padEnd(56)} median ${median(xs).toFixed(2)} ms; ${xs.filter((x) => x <= 4).length} of ${xs.length} ≤ 4 ms  (${xs.map((x) => x.toFixed(1)).join(' ')})`,
@@ -269,6 +295,10 @@ export async function runDragBench(): Promise<void> {
     line('  live re-check, dragged at once', p95s(atOnce, 'live'));
     line('  live re-check, dragged when ready', p95s(whenReady, 'live'));
     line(`  control: a ${REFERENCE_MS} ms task each frame, dragged back`, p95s(atOnce, 'reference'));
+    const frames = [...atOnce, ...whenReady].map((d) => d.frame);
+    console.log(
+      `${'the main thread a drag frame, all of it, 4× slowdown'.padEnd(56)} median ${median(frames).toFixed(1)} ms of ${frames.length} drags; at full speed ${full.frame.toFixed(1)} ms  (no target; 60 frames a second leave 16.7 ms)`,
+    );
     console.log(
       `${'  the same drag at full speed, p95 × 4'.padEnd(56)} ${(4 * percentile(full.live, 95)).toFixed(2)} ms  (the page's own work at a true quarter of the speed)`,
     );
