@@ -160,12 +160,12 @@ export async function dragFrames(browser: Browser, base: string, cookie: string,
       performance.clearMeasures('brink:full-check');
     });
     await cdp.send('Performance.enable');
-    const dragged = await mainThreadMs(cdp, () => dragHandle(page, box, -3));
+    const dragged = await dragHandle(page, box, -3, { timed: cdp });
     // Let go: the full check (with the standoff search) runs once on the final position.
     await page.waitForFunction(() => performance.getEntriesByName('brink:full-check').length > 0, undefined, { timeout: 60_000 });
     // The same moves from where the handle was let go, the button up: what the bench's own moves
     // and frame waits cost the page, without a drag.
-    const moved = await mainThreadMs(cdp, () => dragHandle(page, box, -3, false));
+    const moved = await dragHandle(page, box, -3, { timed: cdp, press: false });
     const full = await page.evaluate(() => performance.getEntriesByName('brink:full-check').map((e) => e.duration));
     const times = await page.evaluate(() => performance.getEntriesByName('brink:live-check').map((e) => e.duration));
     const reference = control ? await referenceBesideDrag(page, handle, rounds) : [];
@@ -198,29 +198,28 @@ export async function dragFrames(browser: Browser, base: string, cookie: string,
 
 /**
  * Drags from the middle of `box` over DRAG_FRAMES mouse moves of `step` px down (up when negative),
- * one an animation frame; with `press` false, the same moves with the button up.
+ * one an animation frame; with `press` false, the same moves with the button up. With `timed` (its
+ * Performance domain enabled), answers the page's main-thread time (ms) over the moves alone, not
+ * the press or the let-go: the sum of its tasks (Chrome's `TaskDuration`).
  */
 async function dragHandle(
   page: Page,
   box: { x: number; y: number; width: number; height: number },
   step: number,
-  press = true,
-): Promise<void> {
+  { press = true, timed }: { press?: boolean; timed?: CDPSession } = {},
+): Promise<number> {
+  const taskSeconds = async () =>
+    timed ? ((await timed.send('Performance.getMetrics')).metrics.find((m) => m.name === 'TaskDuration')?.value ?? NaN) : NaN;
   await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
   if (press) await page.mouse.down();
+  const before = await taskSeconds();
   for (let i = 1; i <= DRAG_FRAMES; i++) {
     await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2 + i * step);
     await page.evaluate(() => new Promise((r) => requestAnimationFrame(r)));
   }
+  const after = await taskSeconds();
   if (press) await page.mouse.up();
-}
-
-/** The page's main-thread time (ms) while `run` runs: the sum of its tasks (Chrome's `TaskDuration`; Performance.enable first). */
-async function mainThreadMs(cdp: CDPSession, run: () => Promise<void>): Promise<number> {
-  const taskSeconds = async () => (await cdp.send('Performance.getMetrics')).metrics.find((m) => m.name === 'TaskDuration')?.value ?? NaN;
-  const before = await taskSeconds();
-  await run();
-  return ((await taskSeconds()) - before) * 1000;
+  return (after - before) * 1000;
 }
 
 /**
